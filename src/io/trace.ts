@@ -1,0 +1,52 @@
+/**
+ * A measured trace as the rest of the workbench sees it: an ascending wavenumber axis (cm^-1)
+ * and absorbance (−log10 T, dimensionless), stored as columns.
+ */
+export interface Trace {
+  /** Ascending, strictly increasing wavenumbers, cm^-1 (vacuum). */
+  wavenumberCm1: Float64Array;
+  /** Absorbance, −log10(T), same length as wavenumberCm1. */
+  absorbance: Float64Array;
+}
+
+/** Detected or user-chosen layout of a trace file. */
+export type TraceFormat = 'delimited' | 'jcamp-dx';
+/** Abscissa unit as found in the file. */
+export type TraceXUnit = 'cm-1' | 'um' | 'nm';
+/** Ordinate quantity as found in the file (stored internally always as absorbance). */
+export type TraceOrdinate = 'absorbance' | 'transmittance' | 'percent-transmittance';
+
+/** What the importer found and did, for display and for the CLI. */
+export interface TraceImportReport {
+  fileName: string;
+  format: TraceFormat;
+  xUnit: TraceXUnit;
+  ordinate: TraceOrdinate;
+  /** Number of points kept. */
+  points: number;
+  /** Smallest and largest kept wavenumber, cm^-1. */
+  rangeCm1: [number, number];
+  /** Rows or values skipped, by 1-based line number of the file. */
+  skipped: { count: number; lines: number[] };
+  /** True when the file's axis ran from high to low (it is stored ascending). */
+  wasDescending: boolean;
+  /** Title from the file (JCAMP ##TITLE or similar), untrusted text. */
+  title?: string;
+  /** Plain-language notes, e.g. "3 rows skipped: lines 5, 9, 12". */
+  messages: string[];
+}
+
+/** A refusal with the place at fault. */
+export interface TraceImportError {
+  /** One-line message naming what is wrong and where. */
+  message: string;
+  /** 1-based line number at fault, when there is one. */
+  line?: number;
+  /** Header field or column at fault, when there is one. */
+  field?: string;
+}
+
+/** Outcome of an import: data and report, or a clear error. Never throws for bad content. */
+export type TraceImportOutcome =
+  | { ok: true; trace: Trace; report: TraceImportReport }
+  | { ok: false; error: TraceImportError };
