@@ -3,24 +3,24 @@
  * Output on stdout, one-line errors on stderr with a non-zero exit, never a stack trace.
  */
 import { readFileSync } from 'node:fs';
-import { CliError, type CliCommand, type CliIo } from './cliIo.ts';
+import { CliError, type CliCommand, type CliIo } from './cliIo';
 
 /** Commands by name; each module is loaded only when used, so start-up stays fast. */
 const COMMANDS: Record<string, { summary: string; load: () => Promise<CliCommand> }> = {
-  simulate: { summary: 'simulate --model M.json', load: async () => (await import('./simulateCommand.ts')).simulateCommand },
+  simulate: { summary: 'simulate --model M.json', load: async () => (await import('./simulateCommand')).simulateCommand },
   spectrum: {
     summary: 'spectrum --model M.json --from X1 --to X2 --step DX [--mass AMU] [--lorentz HWHM]',
-    load: async () => (await import('./spectrumCommand.ts')).spectrumCommand,
+    load: async () => (await import('./spectrumCommand')).spectrumCommand,
   },
-  peaks: { summary: 'peaks --trace FILE [--min-snr S]', load: async () => (await import('./peaksCommand.ts')).peaksCommand },
-  fit: { summary: 'fit --model M.json --lines L.csv', load: async () => (await import('./fitCommand.ts')).fitCommand },
+  peaks: { summary: 'peaks --trace FILE [--min-snr S]', load: async () => (await import('./peaksCommand')).peaksCommand },
+  fit: { summary: 'fit --model M.json --lines L.csv', load: async () => (await import('./fitCommand')).fitCommand },
   combdiff: {
     summary: 'combdiff --lines L.csv --state lower|upper [--shape prolate|oblate]',
-    load: async () => (await import('./combdiffCommand.ts')).combdiffCommand,
+    load: async () => (await import('./combdiffCommand')).combdiffCommand,
   },
   assign: {
     summary: 'assign --model M.json --trace FILE [--lines SEED.csv] [--tolerance K]',
-    load: async () => (await import('./assignCommand.ts')).assignCommand,
+    load: async () => (await import('./assignCommand')).assignCommand,
   },
 };
 
