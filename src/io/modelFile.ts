@@ -1,0 +1,206 @@
+import { z } from 'zod';
+import {
+  PARAMETER_NAMES,
+  stateConstantsZero,
+  type BandModel,
+  type ParameterName,
+  type StateConstants,
+  type TopShape,
+} from '../physics/model';
+
+/** A model file's parameter: a number (floated in a fit) or {value, fixed}. */
+const parameterSchema = z.union([
+  z.number().refine(Number.isFinite, 'must be a finite number'),
+  z.strictObject({
+    value: z.number().refine(Number.isFinite, 'must be a finite number'),
+    fixed: z.boolean().optional(),
+    // Optional display unit for lower-state constants; the value is converted to cm^-1.
+    unit: z.enum(['cm-1', 'MHz']).optional(),
+  }),
+]);
+
+const stateSchema = z.record(z.string(), z.unknown());
+
+const fileSchema = z.looseObject({
+  shape: z.enum(['prolate', 'oblate', 'linear']),
+  band: z.enum(['parallel', 'perpendicular']),
+  lower: stateSchema,
+  upper: stateSchema,
+  temperature: z.number().refine((t) => Number.isFinite(t) && t > 0, 'must be a temperature in K, > 0'),
+  jMax: z.number().int().min(0).max(2000),
+  kMax: z.number().int().min(0).max(2000).optional(),
+  spinWeights: z.array(z.number().refine((w) => Number.isFinite(w) && w >= 0, 'must be a finite weight >= 0')).min(1).optional(),
+});
+
+/** Keys a model file may carry at top level besides the required ones (others give a warning). */
+const KNOWN_TOP = new Set(['shape', 'band', 'lower', 'upper', 'temperature', 'jMax', 'kMax', 'spinWeights', 'name', 'notes', 'mass', 'version']);
+
+/** A model file read into the physics model plus the fit's floated/fixed flags. */
+export interface ModelFile {
+  model: BandModel;
+  /** Keys such as "upper.origin" of parameters given as plain numbers or with fixed: false. */
+  floated: string[];
+  /** Non-fatal remarks (unknown top-level keys), for stderr or the page. */
+  warnings: string[];
+  /** Optional molecule mass from the file, amu. */
+  massAmu?: number;
+  /** Optional name from the file (untrusted text). */
+  name?: string;
+}
+
+/** Raised for a model file that cannot be used; the message names the field path. */
+export class ModelFileError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'ModelFileError';
+  }
+}
+
+/** Which constants a state of a given shape may carry. */
+export function modelAllowedParameters(shape: TopShape, side: 'lower' | 'upper'): ParameterName[] {
+  const common: ParameterName[] =
+    shape === 'linear' ? ['B', 'DJ', 'HJ'] : ['B', shape === 'prolate' ? 'A' : 'C', 'DJ', 'DJK', 'DK', 'HJ', 'HJK', 'HKJ', 'HK'];
+  if (side === 'lower') return common;
+  return ['origin', ...common, ...(shape === 'linear' ? (['q'] as ParameterName[]) : (['zeta'] as ParameterName[]))];
+}
+
+function describe(v: unknown): string {
+  if (v === null) return 'null';
+  if (Array.isArray(v)) return 'an array';
+  if (typeof v === 'string') return `the string ${JSON.stringify(v.length > 30 ? v.slice(0, 30) + '…' : v)}`;
+  return typeof v === 'object' ? 'an object' : `${typeof v} ${String(v)}`;
+}
+
+function pathOf(path: PropertyKey[]): string {
+  return path.map((p) => (typeof p === 'number' ? `[${p}]` : String(p))).join('.').replace(/\.\[/g, '[') || '(top level)';
+}
+
+/**
+ * Read a model file (JSON text) into a BandModel, with fit flags.
+ * All constants in cm^-1 (a lower-state constant may be given as {"value": x, "unit": "MHz"}),
+ * temperature in K. An oblate top uses "C" in place of "A"; absent parameters are 0 and fixed.
+ * @throws ModelFileError naming the field's path and what was expected
+ */
+export function modelFileParse(text: string): ModelFile {
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch (err) {
+    throw new ModelFileError(`model file is not valid JSON: ${(err as Error).message}`);
+  }
+  return modelFileFromJson(raw);
+}
+
+/** As modelFileParse, from an already parsed JSON value. */
+export function modelFileFromJson(raw: unknown): ModelFile {
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) {
+    throw new ModelFileError(`model file: expected a JSON object at top level, got ${describe(raw)}`);
+  }
+  const parsed = fileSchema.safeParse(raw);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    const path = pathOf(issue.path);
+    let got: unknown = raw;
+    for (const p of issue.path) got = (got as Record<PropertyKey, unknown> | undefined)?.[p as string];
+    const expected =
+      issue.code === 'invalid_value' && 'values' in issue
+        ? `one of ${(issue.values as unknown[]).map((v) => JSON.stringify(v)).join(', ')}`
+        : issue.message;
+    throw new ModelFileError(
+      `model file: field '${path}' ${got === undefined ? 'is missing' : `is ${describe(got)}`}; expected ${expected}`,
+    );
+  }
+  const f = parsed.data;
+  const shape = f.shape as TopShape;
+  if (shape !== 'linear' && f.kMax === undefined) {
+    throw new ModelFileError(`model file: field 'kMax' is missing; expected a whole number >= 0 for a ${shape} top`);
+  }
+  const floated: string[] = [];
+  const states = { lower: stateConstantsZero(), upper: stateConstantsZero() } as Record<'lower' | 'upper', StateConstants>;
+  for (const side of ['lower', 'upper'] as const) {
+    const allowed = modelAllowedParameters(shape, side);
+    for (const [name, value] of Object.entries(f[side])) {
+      const path = `${side}.${name}`;
+      if (!(PARAMETER_NAMES as readonly string[]).includes(name) || !allowed.includes(name as ParameterName)) {
+        const hint =
+          name === 'A' && shape === 'oblate'
+            ? ' (an oblate top gives "C" in place of "A")'
+            : name === 'C' && shape === 'prolate'
+              ? ' (a prolate top gives "A" in place of "C")'
+              : '';
+        throw new ModelFileError(`model file: field '${path}' is not a ${side}-state constant of ${shape === "oblate" ? "an" : "a"} ${shape} model${hint}; expected one of ${allowed.join(', ')}`);
+      }
+      const p = parameterSchema.safeParse(value);
+      if (!p.success) {
+        throw new ModelFileError(`model file: field '${path}' is ${describe(value)}; expected a finite number or {"value": number, "fixed": true|false}`);
+      }
+      let v: number;
+      let fixed: boolean;
+      if (typeof p.data === 'number') {
+        v = p.data;
+        fixed = false;
+      } else {
+        v = p.data.value;
+        fixed = p.data.fixed ?? false;
+        if (p.data.unit === 'MHz') v /= 29_979.2458;
+      }
+      states[side][name as ParameterName] = v;
+      if (!fixed) floated.push(path);
+    }
+  }
+  const warnings: string[] = [];
+  for (const key of Object.keys(raw)) {
+    if (!KNOWN_TOP.has(key)) warnings.push(`model file: unknown top-level field '${key}' ignored`);
+  }
+  const extra = raw as Record<string, unknown>;
+  const massAmu = typeof extra.mass === 'number' && extra.mass > 0 ? extra.mass : undefined;
+  const name = typeof extra.name === 'string' ? extra.name : undefined;
+  return {
+    model: {
+      shape,
+      band: f.band,
+      lower: states.lower,
+      upper: states.upper,
+      temperatureK: f.temperature,
+      jMax: f.jMax,
+      kMax: shape === 'linear' ? 0 : (f.kMax ?? 0),
+      spinWeights: f.spinWeights ?? [1],
+    },
+    floated,
+    warnings,
+    massAmu,
+    name,
+  };
+}
+
+/**
+ * Write a model back to model-file JSON (inverse of modelFileParse): non-zero or floated
+ * constants are written; floated ones as plain numbers, fixed ones as {"value", "fixed": true}.
+ */
+export function modelFileSerialize(file: Pick<ModelFile, 'model' | 'floated' | 'massAmu' | 'name'>): string {
+  const { model } = file;
+  const floated = new Set(file.floated);
+  const side = (which: 'lower' | 'upper') => {
+    const out: Record<string, number | { value: number; fixed: true }> = {};
+    for (const name of modelAllowedParameters(model.shape, which)) {
+      const v = model[which][name];
+      const key = `${which}.${name}`;
+      if (floated.has(key)) out[name] = v;
+      else if (v !== 0) out[name] = { value: v, fixed: true };
+    }
+    return out;
+  };
+  const json: Record<string, unknown> = {
+    ...(file.name ? { name: file.name } : {}),
+    shape: model.shape,
+    band: model.band,
+    lower: side('lower'),
+    upper: side('upper'),
+    temperature: model.temperatureK,
+    jMax: model.jMax,
+    kMax: model.kMax,
+    spinWeights: model.spinWeights,
+    ...(file.massAmu ? { mass: file.massAmu } : {}),
+  };
+  return JSON.stringify(json, null, 2) + '\n';
+}
