@@ -29,7 +29,8 @@ export const BAND_LINES_MAX = 5_000_000;
  * Source: Herzberg II (1945) ch. IV for the selection rules and intensity expression; the Boltzmann
  * factor with c2 = hc/k (CODATA 2018).
  * @param model band model (cm^-1, K)
- * @returns columnar line list
+ * @returns columnar line list. WARNING: the columns are views on larger buffers (no copy is made);
+ *   slice them before transferring the buffers to a worker if memory matters.
  */
 export function bandLines(model: BandModel, options: BandLinesOptions = {}): LineList {
   checkModel(model);
@@ -54,31 +55,53 @@ export function bandLines(model: BandModel, options: BandLinesOptions = {}): Lin
   const c2OverT = SECOND_RADIATION_CM_K / model.temperatureK;
   const nWeights = spinWeights.length;
   const deltaKs = band === 'parallel' ? [0] : [1, -1];
+  // Per (ΔK, K'') block: lower energies and Boltzmann weights per J'', upper energies per J' (for
+  // the P/R and Q parities separately, which differ only for a linear Π state's l-doubling).
   const lowerE = new Float64Array(jMax + 1);
+  const lowerPop = new Float64Array(jMax + 1);
+  const upperEPR = new Float64Array(jMax + 2);
+  const upperEQ = new Float64Array(jMax + 2);
+  const upperPopPR = new Float64Array(jMax + 2);
+  const upperPopQ = new Float64Array(jMax + 2);
+  const isLinearPerp = shape === 'linear' && band === 'perpendicular';
   let n = 0;
   let maxI = 0;
   for (const deltaK of deltaKs) {
     for (let K = 0; K <= kMax; K++) {
       if (deltaK === -1 && K === 0) continue;
       const kUpper = shape === 'linear' ? (band === 'perpendicular' ? 1 : 0) : K + deltaK;
+      const signK = shape === 'linear' ? kUpper : deltaK;
       const weight = spinWeights[K % nWeights];
       if (weight === 0) continue;
-      const degeneracy = lineDegeneracy(band, K);
-      for (let J = K; J <= jMax; J++) lowerE[J] = levelEnergy(lower, shape, J, K);
+      const prefactor = weight * lineDegeneracy(band, K);
+      for (let J = K; J <= jMax; J++) {
+        const e = levelEnergy(lower, shape, J, K);
+        lowerE[J] = e;
+        lowerPop[J] = Math.exp(-c2OverT * e);
+      }
+      for (let J = kUpper; J <= jMax + 1; J++) {
+        upperEPR[J] = upperLevelEnergy(model, J, kUpper, signK, 1);
+        upperEQ[J] = isLinearPerp ? upperLevelEnergy(model, J, kUpper, signK, 0) : upperEPR[J];
+        upperPopPR[J] = Math.exp(-c2OverT * upperEPR[J]);
+        upperPopQ[J] = isLinearPerp ? Math.exp(-c2OverT * upperEQ[J]) : upperPopPR[J];
+      }
+      const hlK = isLinearPerp ? 0 : K;
+      const hlDeltaK = isLinearPerp ? 1 : deltaK;
       for (let deltaJ = -1; deltaJ <= 1; deltaJ++) {
-        for (let J = K; J <= jMax; J++) {
-          const jUpper = J + deltaJ;
-          if (jUpper < kUpper) continue;
-          const factor =
-            shape === 'linear' && band === 'perpendicular'
-              ? honlLondonFactor(J, 0, deltaJ, 1)
-              : honlLondonFactor(J, K, deltaJ, deltaK);
+        const upperE = deltaJ === 0 ? upperEQ : upperEPR;
+        const upperPop = deltaJ === 0 ? upperPopQ : upperPopPR;
+        for (let J = Math.max(K, kUpper - deltaJ); J <= jMax; J++) {
+          const factor = honlLondonFactor(J, hlK, deltaJ, hlDeltaK);
           if (factor <= 0) continue;
+          const jUpper = J + deltaJ;
           const eLower = lowerE[J];
-          const wavenumber = upperLevelEnergy(model, jUpper, kUpper, shape === 'linear' ? kUpper : deltaK, deltaJ) - eLower;
+          const wavenumber = upperE[jUpper] - eLower;
           if (!(wavenumber > 0)) continue;
-          const intensity =
-            wavenumber * degeneracy * weight * factor * Math.exp(-c2OverT * eLower) * -Math.expm1(-c2OverT * wavenumber);
+          // exp(−c2E''/T)(1 − exp(−c2ν/T)) = exp(−c2E''/T) − exp(−c2E'/T): two exponentials per level
+          // instead of one per line; below x = c2ν/T = 0.01 the difference cancels, so use expm1.
+          const x = c2OverT * wavenumber;
+          const boltzmann = x < 1e-2 ? lowerPop[J] * -Math.expm1(-x) : lowerPop[J] - upperPop[jUpper];
+          const intensity = prefactor * wavenumber * factor * boltzmann;
           jUp[n] = jUpper;
           kUp[n] = kUpper;
           jLo[n] = J;
@@ -115,16 +138,16 @@ export function bandLines(model: BandModel, options: BandLinesOptions = {}): Lin
   }
   return {
     count: m,
-    jUpper: jUp.slice(0, m),
-    kUpper: kUp.slice(0, m),
-    jLower: jLo.slice(0, m),
-    kLower: kLo.slice(0, m),
-    deltaK: dK.slice(0, m),
-    deltaJ: dJ.slice(0, m),
-    wavenumberCm1: nu.slice(0, m),
-    intensity: inten.slice(0, m),
-    eLowerCm1: eLo.slice(0, m),
-    honlLondon: hl.slice(0, m),
+    jUpper: jUp.subarray(0, m),
+    kUpper: kUp.subarray(0, m),
+    jLower: jLo.subarray(0, m),
+    kLower: kLo.subarray(0, m),
+    deltaK: dK.subarray(0, m),
+    deltaJ: dJ.subarray(0, m),
+    wavenumberCm1: nu.subarray(0, m),
+    intensity: inten.subarray(0, m),
+    eLowerCm1: eLo.subarray(0, m),
+    honlLondon: hl.subarray(0, m),
   };
 }
 
