@@ -1,0 +1,154 @@
+/**
+ * Add one line's Voigt profile onto a uniform grid over an index range — the inner loop shared by
+ * spectrumSynthesize and spectrumSynthesizeWindowed.
+ */
+import {
+  VOIGT_TABLE_COARSE_INTERVALS,
+  VOIGT_TABLE_COARSE_STEP,
+  VOIGT_TABLE_END,
+  VOIGT_TABLE_FINE_END,
+  VOIGT_TABLE_FINE_INTERVALS,
+  VOIGT_TABLE_FINE_STEP,
+  lineShapeVoigtTableRow,
+  lineShapeVoigtTableScale,
+  type LineShapeVoigtTable,
+} from './lineShapeVoigtTable';
+
+const SQRT_LN2 = Math.sqrt(Math.LN2);
+const INV_SQRT_PI = 1 / Math.sqrt(Math.PI);
+const FINE_NODES = VOIGT_TABLE_FINE_INTERVALS + 1;
+const COARSE_NODES = VOIGT_TABLE_COARSE_INTERVALS + 1;
+const INV_FINE_STEP = 1 / VOIGT_TABLE_FINE_STEP;
+const INV_COARSE_STEP = 1 / VOIGT_TABLE_COARSE_STEP;
+
+/**
+ * Add amplitude · V(x_k − ν) to out[k] for k = kLo … kHi, where x_k = fromCm1 + k·stepCm1 and V is
+ * the area-normalised Voigt profile (Doppler HWHM α, Lorentz HWHM γ). Uses the bilinear table for
+ * |Δν| ≤ 16 Voigt HWHMs and the two-term asymptotic series beyond (error ≤ 1e-6 of the peak, see
+ * lineShapeVoigtTable.ts); α = 0 gives the exact Lorentzian.
+ * WARNING: no validation — callers check the range lies inside out and that the table covers y.
+ * Source: see lineShapeVoigtTable.ts (Weideman 1994; Olivero & Longbothum 1977; A&S 7.1.23).
+ * @param out spectrum being accumulated (profile units cm × amplitude)
+ * @param fromCm1 grid origin x_0, cm^-1
+ * @param stepCm1 grid step, cm^-1
+ * @param kLo first index (inclusive)
+ * @param kHi last index (inclusive)
+ * @param nuCm1 line centre, cm^-1
+ * @param amplitude line intensity (integrated area), any unit
+ * @param dopplerHwhmCm1 α, cm^-1 (≥ 0)
+ * @param lorentzHwhmCm1 γ, cm^-1 (≥ 0, not both 0)
+ * @param table Voigt table covering y = √ln2 γ/α (unused when α = 0)
+ */
+export function spectrumAddVoigt(
+  out: Float64Array,
+  fromCm1: number,
+  stepCm1: number,
+  kLo: number,
+  kHi: number,
+  nuCm1: number,
+  amplitude: number,
+  dopplerHwhmCm1: number,
+  lorentzHwhmCm1: number,
+  table: LineShapeVoigtTable | null,
+): void {
+  if (kHi < kLo || amplitude === 0) return;
+  if (dopplerHwhmCm1 === 0) {
+    const g = lorentzHwhmCm1;
+    const g2 = g * g;
+    const a = (amplitude * g) / Math.PI;
+    for (let k = kLo; k <= kHi; k++) {
+      const d = fromCm1 + k * stepCm1 - nuCm1;
+      out[k] += a / (d * d + g2);
+    }
+    return;
+  }
+  const y = (SQRT_LN2 * lorentzHwhmCm1) / dopplerHwhmCm1;
+  const s = lineShapeVoigtTableScale(y);
+  const hwhm = (s * dopplerHwhmCm1) / SQRT_LN2;
+  // V = √ln2/(α√π) · F(u, y)/s with u the offset in Voigt HWHMs.
+  const ampF = (amplitude * SQRT_LN2 * INV_SQRT_PI) / (dopplerHwhmCm1 * s);
+  const du = stepCm1 / hwhm;
+  const uA = (fromCm1 - nuCm1) / hwhm;
+  const [j, t] = lineShapeVoigtTableRow(table as LineShapeVoigtTable, y);
+
+  // Segment boundaries: first k with u ≥ threshold, computed with the same expression the loops use.
+  const firstAtLeast = (thr: number): number => {
+    let k = Math.ceil((thr - uA) / du);
+    if (uA + k * du < thr) k++;
+    else if (uA + (k - 1) * du >= thr) k--;
+    return k;
+  };
+  // u < −16 | −16 ≤ u < −8 | −8 ≤ u < 0 | 0 ≤ u ≤ 8 | 8 < u ≤ 16 | u > 16 ; "≤" on the right is
+  // obtained from "first k with u > thr" = firstAtLeast of the next representable number.
+  const kM16 = clamp(firstAtLeast(-VOIGT_TABLE_END), kLo, kHi + 1);
+  const kM8 = clamp(firstAtLeast(-VOIGT_TABLE_FINE_END), kLo, kHi + 1);
+  const k0 = clamp(firstAtLeast(0), kLo, kHi + 1);
+  const kP8 = clamp(firstAtLeast(nextUp(VOIGT_TABLE_FINE_END)), kLo, kHi + 1);
+  const kP16 = clamp(firstAtLeast(nextUp(VOIGT_TABLE_END)), kLo, kHi + 1);
+
+  if (lorentzHwhmCm1 > 0) {
+    addAsymptotic(out, kLo, kM16, uA, du, s, y, ampF * s);
+    addAsymptotic(out, kP16, kHi + 1, uA, du, s, y, ampF * s);
+  }
+  const fine = (table as LineShapeVoigtTable).fine;
+  const coarse = (table as LineShapeVoigtTable).coarse;
+  const fineBase = j * FINE_NODES * 4;
+  const coarseBase = j * COARSE_NODES * 4;
+  // Mirror halves: F is even in u, so u < 0 reads the table at −u.
+  addTable(out, kM16, kM8, -uA, -du, -VOIGT_TABLE_FINE_END, INV_COARSE_STEP, coarse, coarseBase, t, ampF);
+  addTable(out, kM8, k0, -uA, -du, 0, INV_FINE_STEP, fine, fineBase, t, ampF);
+  addTable(out, k0, kP8, uA, du, 0, INV_FINE_STEP, fine, fineBase, t, ampF);
+  addTable(out, kP8, kP16, uA, du, -VOIGT_TABLE_FINE_END, INV_COARSE_STEP, coarse, coarseBase, t, ampF);
+}
+
+function clamp(k: number, lo: number, hi: number): number {
+  return k < lo ? lo : k > hi ? hi : k;
+}
+
+function nextUp(x: number): number {
+  return x + x * Number.EPSILON;
+}
+
+/** out[k] += amp · bilinear(table) at p = (u0 + k·du + shift)·invStep, k ∈ [ka, kb). */
+function addTable(
+  out: Float64Array,
+  ka: number,
+  kb: number,
+  u0: number,
+  du: number,
+  shift: number,
+  invStep: number,
+  arr: Float64Array,
+  base: number,
+  t: number,
+  amp: number,
+): void {
+  for (let k = ka; k < kb; k++) {
+    const p = (u0 + k * du + shift) * invStep;
+    const i = p | 0;
+    const f = p - i;
+    const o = base + 4 * i;
+    out[k] += amp * (arr[o] + t * arr[o + 2] + f * (arr[o + 1] + t * arr[o + 3]));
+  }
+}
+
+/** out[k] += ampK · K_asym(u s, y) for k ∈ [ka, kb), two-term asymptotic series (A&S 7.1.23). */
+function addAsymptotic(
+  out: Float64Array,
+  ka: number,
+  kb: number,
+  uA: number,
+  du: number,
+  s: number,
+  y: number,
+  ampK: number,
+): void {
+  const y2 = y * y;
+  const c1 = ampK * y * INV_SQRT_PI;
+  for (let k = ka; k < kb; k++) {
+    const x = (uA + k * du) * s;
+    const x2 = x * x;
+    const inv = 1 / (x2 + y2);
+    out[k] += c1 * inv * (1 + 0.5 * (3 * x2 - y2) * inv * inv);
+  }
+}
