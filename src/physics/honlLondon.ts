@@ -14,11 +14,13 @@
  * @param kLower K'' (unsigned)
  * @param deltaJ J' − J''
  * @param deltaK K' − K''
- * @returns the factor; 0 for a forbidden combination
+ * @returns the factor; 0 for a forbidden combination (including K'' > J'')
  */
 export function honlLondonFactor(jLower: number, kLower: number, deltaJ: number, deltaK: number): number {
   const J = jLower;
   const K = kLower;
+  // K'' > J'' is no level at all; without this guard the P factor of a parallel band goes negative.
+  if (K > J || K < 0) return 0;
   if (deltaK === 0) {
     if (deltaJ === 1) return ((J + 1) * (J + 1) - K * K) / (J + 1);
     if (deltaJ === 0) return J === 0 ? 0 : ((2 * J + 1) * K * K) / (J * (J + 1));
