@@ -118,11 +118,12 @@ export function bandLines(model: BandModel, options: BandLinesOptions = {}): Lin
       }
     }
   }
-  const scale = maxI > 0 ? 1 / maxI : 0;
+  // Divide rather than multiply by 1/maxI so the strongest line comes out exactly 1.
+  const scale = maxI > 0 ? maxI : Infinity;
   const cut = options.minIntensity ?? 0;
   let m = 0;
   for (let i = 0; i < n; i++) {
-    const rel = inten[i] * scale;
+    const rel = inten[i] / scale;
     if (rel < cut) continue;
     jUp[m] = jUp[i];
     kUp[m] = kUp[i];
