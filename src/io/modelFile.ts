@@ -7,12 +7,13 @@ import {
   type StateConstants,
   type TopShape,
 } from '../physics/model';
+import { MHZ_PER_CM1 } from '../physics/constants';
 
 /** A model file's parameter: a number (floated in a fit) or {value, fixed}. */
 const parameterSchema = z.union([
-  z.number().refine(Number.isFinite, 'must be a finite number'),
+  z.number().refine(Number.isFinite, 'a finite number'),
   z.strictObject({
-    value: z.number().refine(Number.isFinite, 'must be a finite number'),
+    value: z.number().refine(Number.isFinite, 'a finite number'),
     fixed: z.boolean().optional(),
     // Optional display unit for lower-state constants; the value is converted to cm^-1.
     unit: z.enum(['cm-1', 'MHz']).optional(),
@@ -26,11 +27,36 @@ const fileSchema = z.looseObject({
   band: z.enum(['parallel', 'perpendicular']),
   lower: stateSchema,
   upper: stateSchema,
-  temperature: z.number().refine((t) => Number.isFinite(t) && t > 0, 'must be a temperature in K, > 0'),
+  temperature: z.number().refine((t) => Number.isFinite(t) && t > 0, 'a temperature in K, > 0'),
   jMax: z.number().int().min(0).max(2000),
   kMax: z.number().int().min(0).max(2000).optional(),
-  spinWeights: z.array(z.number().refine((w) => Number.isFinite(w) && w >= 0, 'must be a finite weight >= 0')).min(1).optional(),
+  spinWeights: z.array(z.number().refine((w) => Number.isFinite(w) && w >= 0, 'a finite weight >= 0')).min(1).optional(),
+  // Checked here (not silently dropped) because the spectrum command takes the Doppler width from it.
+  mass: z.number().refine((m) => Number.isFinite(m) && m > 0, 'a molecular mass in amu, > 0').optional(),
+  name: z.string().max(200).optional(),
 });
+
+/** Plain-language "expected …" for a zod issue (zod's own wording reads oddly after a field path). */
+function expectedText(issue: z.core.$ZodIssue): string {
+  if (issue.code === 'invalid_value') return `one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}`;
+  if (issue.code === 'invalid_type') {
+    const names: Record<string, string> = {
+      number: 'a number',
+      int: 'a whole number',
+      record: 'an object of constants, e.g. {"B": 0.3}',
+      array: 'a list',
+      string: 'a string',
+      object: 'an object',
+    };
+    return names[issue.expected] ?? `a value of type ${issue.expected}`;
+  }
+  if (issue.code === 'too_small' || issue.code === 'too_big') {
+    const op = issue.code === 'too_small' ? (issue.inclusive === false ? '>' : '>=') : issue.inclusive === false ? '<' : '<=';
+    if (issue.origin === 'array') return `a list with ${op} ${String(issue.code === 'too_small' ? issue.minimum : issue.maximum)} entries`;
+    return `a number ${op} ${String(issue.code === 'too_small' ? issue.minimum : issue.maximum)}`;
+  }
+  return issue.message;
+}
 
 /** Keys a model file may carry at top level besides the required ones (others give a warning). */
 const KNOWN_TOP = new Set(['shape', 'band', 'lower', 'upper', 'temperature', 'jMax', 'kMax', 'spinWeights', 'name', 'notes', 'mass', 'version']);
@@ -102,10 +128,7 @@ export function modelFileFromJson(raw: unknown): ModelFile {
     const path = pathOf(issue.path);
     let got: unknown = raw;
     for (const p of issue.path) got = (got as Record<PropertyKey, unknown> | undefined)?.[p as string];
-    const expected =
-      issue.code === 'invalid_value' && 'values' in issue
-        ? `one of ${(issue.values as unknown[]).map((v) => JSON.stringify(v)).join(', ')}`
-        : issue.message;
+    const expected = expectedText(issue);
     throw new ModelFileError(
       `model file: field '${path}' ${got === undefined ? 'is missing' : `is ${describe(got)}`}; expected ${expected}`,
     );
@@ -142,7 +165,11 @@ export function modelFileFromJson(raw: unknown): ModelFile {
       } else {
         v = p.data.value;
         fixed = p.data.fixed ?? false;
-        if (p.data.unit === 'MHz') v /= 29_979.2458;
+        if (p.data.unit === 'MHz') {
+          // ζ is dimensionless: a unit on it is a mistake, not something to convert.
+          if (name === 'zeta') throw new ModelFileError(`model file: field '${path}' is dimensionless and takes no unit; got unit "MHz"`);
+          v /= MHZ_PER_CM1;
+        }
       }
       states[side][name as ParameterName] = v;
       if (!fixed) floated.push(path);
@@ -152,9 +179,8 @@ export function modelFileFromJson(raw: unknown): ModelFile {
   for (const key of Object.keys(raw)) {
     if (!KNOWN_TOP.has(key)) warnings.push(`model file: unknown top-level field '${key}' ignored`);
   }
-  const extra = raw as Record<string, unknown>;
-  const massAmu = typeof extra.mass === 'number' && extra.mass > 0 ? extra.mass : undefined;
-  const name = typeof extra.name === 'string' ? extra.name : undefined;
+  const massAmu = f.mass;
+  const name = f.name;
   return {
     model: {
       shape,
