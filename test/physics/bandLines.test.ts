@@ -115,7 +115,7 @@ describe('bandLines: selection rules', () => {
     ['linear Σ–Σ', model({ shape: 'linear', band: 'parallel', lower: { B: 0.39 }, upper: { origin: 2349, B: 0.387 }, jMax: 40 })],
     ['linear Π–Σ', model({ shape: 'linear', lower: { B: 0.39 }, upper: { origin: 667, B: 0.39, q: 4e-4 }, jMax: 40 })],
     ['spin weights [1, 0, 0]', { ...PERP, spinWeights: [1, 0, 0] }],
-  ] as const) {
+  ] as [string, BandModel][]) {
     it(`gives exactly the lines the selection rules allow (${name})`, () => {
       // Ref: Herzberg II (1945) ch. IV (symmetric-top selection rules), as stated in the headless contract.
       const want = allowedByRules(m);

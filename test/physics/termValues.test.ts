@@ -112,7 +112,9 @@ describe('levelEnergy', () => {
   });
 });
 
-function model(partial: Partial<BandModel> & { upper: Partial<StateConstants>; lower: Partial<StateConstants> }): BandModel {
+function model(
+  partial: Partial<Omit<BandModel, 'lower' | 'upper'>> & { upper: Partial<StateConstants>; lower: Partial<StateConstants> },
+): BandModel {
   return {
     shape: partial.shape ?? 'prolate',
     band: partial.band ?? 'perpendicular',
