@@ -34,7 +34,22 @@ export interface TraceImportReport {
   title?: string;
   /** Plain-language notes, e.g. "3 rows skipped: lines 5, 9, 12". */
   messages: string[];
+  /** Column names from the header line of a delimited file, untrusted text. */
+  columnNames?: string[];
+  /** 0-based column read as the ordinate (delimited files). */
+  yColumn?: number;
+  /** Field delimiter found or chosen (delimited files). */
+  delimiter?: TraceDelimiter;
+  /** Decimal separator found or chosen (delimited files). */
+  decimal?: TraceDecimal;
+  /** True when the plain-numeric scanner read the data (papaparse was not needed). */
+  usedFastPath?: boolean;
 }
+
+/** Field delimiter of a delimited trace file; 'whitespace' means runs of spaces and/or tabs. */
+export type TraceDelimiter = ',' | '\t' | ';' | 'whitespace';
+/** Decimal separator of a delimited trace file. */
+export type TraceDecimal = '.' | ',';
 
 /** A refusal with the place at fault. */
 export interface TraceImportError {

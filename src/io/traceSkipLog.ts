@@ -1,0 +1,64 @@
+/**
+ * Book-keeping of rows or points left out during a trace import, by 1-based line number and reason,
+ * and the plain-language summary shown to the user.
+ */
+
+/** Why a row or point was left out. */
+export type TraceSkipReason =
+  | 'non-numeric'
+  | 'missing column'
+  | 'NaN/Infinity'
+  | "invalid value '?'"
+  | 'duplicate x'
+  | 'non-positive wavelength';
+
+/** Most line numbers kept in a report; the count stays exact beyond it. */
+export const TRACE_SKIP_LINES_KEPT = 100_000;
+
+/** Rows or points skipped, with their line numbers (kept up to `TRACE_SKIP_LINES_KEPT`). */
+export class TraceSkipLog {
+  count = 0;
+  readonly lines: number[] = [];
+  readonly byReason = new Map<TraceSkipReason, number>();
+
+  /** Record one skipped row/point found at 1-based `line`. */
+  add(line: number, reason: TraceSkipReason): void {
+    this.count++;
+    if (this.lines.length < TRACE_SKIP_LINES_KEPT) this.lines.push(line);
+    this.byReason.set(reason, (this.byReason.get(reason) ?? 0) + 1);
+  }
+
+  /** Line numbers ascending, without repeats (several JCAMP points can share a line). */
+  sortedLines(): number[] {
+    const s = Float64Array.from(this.lines).sort();
+    const out: number[] = [];
+    for (let i = 0; i < s.length; i++) if (i === 0 || s[i] !== s[i - 1]) out.push(s[i]);
+    return out;
+  }
+}
+
+/**
+ * "line 5" / "lines 5, 9, 12" / "lines 1, 2, ..., 10 and 7 more", for messages.
+ * @param lines ascending 1-based line numbers
+ * @param total number of lines the list stands for (may exceed lines.length when the list was capped)
+ * @param cap most numbers written out
+ */
+export function traceLineList(lines: readonly number[], total = lines.length, cap = 10): string {
+  if (total === 1 && lines.length === 1) return `line ${lines[0]}`;
+  const shown = lines.slice(0, cap).join(', ');
+  const more = total - Math.min(cap, lines.length);
+  return `lines ${shown}${more > 0 ? ` and ${more} more` : ''}`;
+}
+
+/**
+ * Summary message, e.g. "3 rows skipped: lines 5, 9, 12 (non-numeric: 2, NaN/Infinity: 1)".
+ * @param noun 'row' for delimited text, 'point' for JCAMP-DX tables (several points per line)
+ * @returns undefined when nothing was skipped
+ */
+export function traceSkipMessage(log: TraceSkipLog, noun: 'row' | 'point'): string | undefined {
+  if (log.count === 0) return undefined;
+  const lines = log.sortedLines();
+  const reasons = [...log.byReason.entries()].map(([r, n]) => (log.byReason.size > 1 ? `${r}: ${n}` : r));
+  const lineTotal = log.lines.length === log.count ? lines.length : lines.length + (log.count - log.lines.length);
+  return `${log.count} ${noun}${log.count === 1 ? '' : 's'} skipped: ${traceLineList(lines, lineTotal)} (${reasons.join(', ')})`;
+}
