@@ -45,3 +45,11 @@ console.log(
   `peaksFindSimple n=${n}: ${count} peaks, median ${times[2].toFixed(2)} ms (runs ${times.map((v) => v.toFixed(1)).join(', ')})`,
 );
 console.log(`noiseSigmaEstimate: ${est.toExponential(4)} vs true ${sigma.toExponential(4)} (${tNoise.toFixed(1)} ms)`);
+
+// For comparison, the careful peaksFind on the same trace (single run; it is not benchmarked).
+{
+  const { peaksFind } = await import('../../src/analysis/peaksFind');
+  const t0 = performance.now();
+  const list = peaksFind({ wavenumberCm1: x, absorbance: y });
+  console.log(`peaksFind (estimated σ, minSnr 5): ${list.count} peaks in ${(performance.now() - t0).toFixed(0)} ms`);
+}
