@@ -51,13 +51,15 @@ export function gaussianFit(
   let iterations = 0;
   const jtj = new Float64Array(9);
   const jtr = new Float64Array(3);
-  for (; iterations < 50; iterations++) {
+  const damped = new Float64Array(9);
+  const inverse = new Float64Array(9);
+  const step = new Float64Array(3);
+  for (; iterations < 40; iterations++) {
     gaussianNormalEquations(x, d, i0, i1, amp, mu, s, jtj, jtr);
     let improved = false;
     // Raise the damping until a step lowers χ² (at most a few tries per iteration).
     for (let tries = 0; tries < 12; tries++) {
-      const step = solve3Damped(jtj, jtr, damping);
-      if (!step) {
+      if (!solve3Damped(jtj, jtr, damping, damped, inverse, step)) {
         damping *= 10;
         continue;
       }
@@ -70,11 +72,10 @@ export function gaussianFit(
       }
       const c2 = gaussianChi2(x, d, i0, i1, a2, m2, s2);
       if (c2 <= chi2) {
+        // Steps below 1e-9 of the width are far inside any centre σ a noisy trace allows.
         const small =
-          Math.abs(step[0]) <= 1e-10 * Math.abs(a2) &&
-          Math.abs(step[1]) <= 1e-10 * s2 &&
-          Math.abs(step[2]) <= 1e-10 * s2;
-        const flat = chi2 - c2 <= 1e-14 * chi2;
+          Math.abs(step[0]) <= 1e-9 * Math.abs(a2) && Math.abs(step[1]) <= 1e-9 * s2 && Math.abs(step[2]) <= 1e-9 * s2;
+        const flat = chi2 - c2 <= 1e-12 * chi2;
         amp = a2;
         mu = m2;
         s = s2;
@@ -94,7 +95,7 @@ export function gaussianFit(
     if (isConverged) break;
   }
   gaussianNormalEquations(x, d, i0, i1, amp, mu, s, jtj, jtr);
-  const cov = invert3(jtj);
+  const cov = invert3(jtj, inverse) ? inverse : null;
   const v = noiseSigma * noiseSigma;
   const sd = (k: number) => (cov && noiseSigma > 0 && cov[k] >= 0 ? Math.sqrt(v * cov[k]) : NaN);
   return {
@@ -157,39 +158,49 @@ function gaussianNormalEquations(
   jtj[7] = jtj[5];
 }
 
-/** Solve (JᵀJ + damping·diag(JᵀJ)) δ = Jᵀr; null if singular. */
-function solve3Damped(jtj: Float64Array, jtr: Float64Array, damping: number): number[] | null {
-  const a = Float64Array.from(jtj);
+/** Solve (JᵀJ + damping·diag(JᵀJ)) δ = Jᵀr into `step` (scratch a, inv); false if singular. */
+function solve3Damped(
+  jtj: Float64Array,
+  jtr: Float64Array,
+  damping: number,
+  a: Float64Array,
+  inv: Float64Array,
+  step: Float64Array,
+): boolean {
+  a.set(jtj);
   a[0] *= 1 + damping;
   a[4] *= 1 + damping;
   a[8] *= 1 + damping;
-  const inv = invert3(a);
-  if (!inv) return null;
-  return [
-    inv[0] * jtr[0] + inv[1] * jtr[1] + inv[2] * jtr[2],
-    inv[3] * jtr[0] + inv[4] * jtr[1] + inv[5] * jtr[2],
-    inv[6] * jtr[0] + inv[7] * jtr[1] + inv[8] * jtr[2],
-  ];
+  if (!invert3(a, inv)) return false;
+  step[0] = inv[0] * jtr[0] + inv[1] * jtr[1] + inv[2] * jtr[2];
+  step[1] = inv[3] * jtr[0] + inv[4] * jtr[1] + inv[5] * jtr[2];
+  step[2] = inv[6] * jtr[0] + inv[7] * jtr[1] + inv[8] * jtr[2];
+  return true;
 }
 
-/** Inverse of a 3×3 matrix (row-major) by cofactors; null when singular to working precision. */
-function invert3(m: ArrayLike<number>): Float64Array | null {
+/** Inverse of a 3×3 matrix (row-major) by cofactors into `out`; false when singular to working precision. */
+function invert3(m: Float64Array, out: Float64Array): boolean {
   const c00 = m[4] * m[8] - m[5] * m[7];
   const c01 = m[5] * m[6] - m[3] * m[8];
   const c02 = m[3] * m[7] - m[4] * m[6];
   const det = m[0] * c00 + m[1] * c01 + m[2] * c02;
   const scale = Math.abs(m[0] * m[4] * m[8]) + Math.abs(m[1] * m[5] * m[6]) + Math.abs(m[2] * m[3] * m[7]);
-  if (!(Math.abs(det) > 1e-14 * scale) || !Number.isFinite(det)) return null;
+  if (!(Math.abs(det) > 1e-14 * scale) || !Number.isFinite(det)) return false;
   const r = 1 / det;
-  return Float64Array.of(
-    c00 * r,
-    (m[2] * m[7] - m[1] * m[8]) * r,
-    (m[1] * m[5] - m[2] * m[4]) * r,
-    c01 * r,
-    (m[0] * m[8] - m[2] * m[6]) * r,
-    (m[2] * m[3] - m[0] * m[5]) * r,
-    c02 * r,
-    (m[1] * m[6] - m[0] * m[7]) * r,
-    (m[0] * m[4] - m[1] * m[3]) * r,
-  );
+  const o1 = (m[2] * m[7] - m[1] * m[8]) * r;
+  const o2 = (m[1] * m[5] - m[2] * m[4]) * r;
+  const o4 = (m[0] * m[8] - m[2] * m[6]) * r;
+  const o5 = (m[2] * m[3] - m[0] * m[5]) * r;
+  const o7 = (m[1] * m[6] - m[0] * m[7]) * r;
+  const o8 = (m[0] * m[4] - m[1] * m[3]) * r;
+  out[0] = c00 * r;
+  out[1] = o1;
+  out[2] = o2;
+  out[3] = c01 * r;
+  out[4] = o4;
+  out[5] = o5;
+  out[6] = c02 * r;
+  out[7] = o7;
+  out[8] = o8;
+  return true;
 }
