@@ -61,25 +61,25 @@ function prominenceLeftPass(y: ArrayLike<number>, work: ProminenceWork): number 
   let top = -1;
   let m = 0;
   let low = n > 0 ? y[0] : 0;
-  let prev = low;
+  // rising: y[i] > y[i−1], carried over from the previous comparison (one compare per sample).
+  let rising = n > 1 && y[1] > y[0];
   for (let i = 1; i < n - 1; i++) {
     const v = y[i];
     const after = y[i + 1];
-    if (v < low) low = v;
-    if (!(v > prev) || v < after) {
-      prev = v;
-      continue;
-    }
+    low = Math.min(low, v);
+    const wasRising = rising;
+    rising = after > v;
+    if (!wasRising || rising) continue;
     let peak = i;
     if (v === after) {
       let j = i + 1;
       while (j < n - 1 && y[j + 1] === v) j++;
       i = j;
-      prev = v;
-      if (j >= n - 1 || y[j + 1] > v) continue;
+      if (j >= n - 1) continue;
+      rising = y[j + 1] > v;
+      if (rising) continue;
       peak = (peak + j) >> 1;
     }
-    prev = v;
     valley[m] = low;
     index[m] = peak;
     let lowest = low;
