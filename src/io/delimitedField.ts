@@ -78,3 +78,14 @@ export function delimitedIsCommentAt(text: string, pos: number): boolean {
   if (c === 35 || c === 37 || c === 59 || c === 33) return true; // # % ; !
   return c === 47 && text.charCodeAt(pos + 1) === 47; // //
 }
+
+/**
+ * Line end used by a text: '\r\n', '\n', or '\r' alone (old Mac files), judged from the first line end.
+ * @param text file text
+ */
+export function delimitedNewline(text: string): '\n' | '\r\n' | '\r' {
+  const lf = text.indexOf('\n');
+  if (lf > 0 && text.charCodeAt(lf - 1) === 13) return '\r\n';
+  if (lf < 0 && text.indexOf('\r') >= 0) return '\r';
+  return '\n';
+}

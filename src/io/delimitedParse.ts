@@ -14,6 +14,7 @@ import {
   delimitedFieldKind,
   delimitedFieldValue,
   delimitedIsCommentAt,
+  delimitedNewline,
 } from './delimitedField';
 import { delimitedSniff, delimitedSplitLine } from './delimitedSniff';
 
@@ -123,8 +124,7 @@ export function delimitedParse(
   };
 
   // Line ends: LF, CRLF, or lone CR (old Mac files).
-  const lf = text.indexOf('\n');
-  const newline = lf > 0 && text.charCodeAt(lf - 1) === 13 ? '\r\n' : lf < 0 && text.indexOf('\r') >= 0 ? '\r' : '\n';
+  const newline = delimitedNewline(text);
   const nlChar = newline === '\r' ? '\r' : '\n';
   const progressStep = Math.max(1, Math.floor(text.length / 50));
   let nextProgress = progressStep;

@@ -3,7 +3,13 @@
  */
 import Papa from 'papaparse';
 import type { TraceDelimiter } from './trace';
-import { DelimitedFieldKind, delimitedFieldClean, delimitedFieldKind, delimitedIsCommentAt } from './delimitedField';
+import {
+  DelimitedFieldKind,
+  delimitedFieldClean,
+  delimitedFieldKind,
+  delimitedIsCommentAt,
+  delimitedNewline,
+} from './delimitedField';
 
 /** Delimiter chosen by `delimitedSniff` and what the sample looked like. */
 export interface DelimitedSniffResult {
@@ -50,9 +56,10 @@ export function delimitedSniff(
   isDecimalComma = false,
 ): DelimitedSniffResult | null {
   const sample: string[] = [];
+  const nl = delimitedNewline(text) === '\r' ? '\r' : '\n';
   let pos = start;
   for (let scanned = 0; pos < text.length && scanned < MAX_SCAN_LINES && sample.length < MAX_SAMPLE; scanned++) {
-    let eol = text.indexOf('\n', pos);
+    let eol = text.indexOf(nl, pos);
     if (eol < 0) eol = text.length;
     if (!delimitedIsCommentAt(text, pos)) {
       const line = text.slice(pos, eol).replace(/\r$/, '');

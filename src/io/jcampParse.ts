@@ -92,12 +92,16 @@ export function jcampParse(text: string, options: JcampParseOptions): Outcome {
   const progressStep = Math.max(1, Math.floor(lines.length / 50));
   let nextProgress = progressStep;
 
+  const tick = (lineIndex: number) => {
+    if (onProgress && lineIndex >= nextProgress) {
+      onProgress(lineIndex / lines.length);
+      nextProgress = lineIndex + progressStep;
+    }
+  };
+
   let li = 0;
   scan: while (li < lines.length) {
-    if (onProgress && li >= nextProgress) {
-      onProgress(li / lines.length);
-      nextProgress = li + progressStep;
-    }
+    tick(li);
     const lineNo = li + 1;
     const t = stripComment(lines[li]).trim().replace(/^\uFEFF/, '');
     li++;
@@ -120,7 +124,7 @@ export function jcampParse(text: string, options: JcampParseOptions): Outcome {
     switch (key) {
       case 'TITLE':
         if (result) {
-          messages.push(`the file holds further blocks after the data (line ${lineNo}); only the first spectrum was read`);
+          messages.push(`the file holds further blocks (line ${lineNo}); only the first spectrum was read`);
           break scan;
         }
         labels = new Map();
@@ -159,9 +163,9 @@ export function jcampParse(text: string, options: JcampParseOptions): Outcome {
         const form = value.toUpperCase().replace(/\s/g, '').split(',')[0];
         const decoded =
           form === '(X++(Y..Y))'
-            ? decodeXpp(lines, li, lineNo, labels, maxPoints)
+            ? decodeXpp(lines, li, lineNo, labels, maxPoints, tick)
             : form === '(XY..XY)'
-              ? decodeXy(lines, li, lineNo, labels, maxPoints)
+              ? decodeXy(lines, li, lineNo, labels, maxPoints, tick)
               : undefined;
         if (!decoded)
           return fail(
@@ -195,6 +199,12 @@ export function jcampParse(text: string, options: JcampParseOptions): Outcome {
       return fail(`line ${peakTableLine}: the file holds only a peak table, no continuous trace`, peakTableLine, 'PEAKTABLE');
     return fail('no ##XYDATA or ##XYPOINTS data table found', undefined, 'XYDATA');
   }
+  if (sawEnd)
+    for (let k = li; k < lines.length; k++)
+      if (/^\s*##\s*TITLE\s*=/i.test(lines[k])) {
+        messages.push(`the file holds further blocks (line ${k + 1}); only the first spectrum was read`);
+        break;
+      }
   if (!sawEnd) messages.push(`no ##END= label after the data (file ends at line ${lines.length}); the file may be truncated`);
   if (!result.version) messages.push('no ##JCAMP-DX= version label');
   return { ok: true, columns: result };
@@ -259,6 +269,7 @@ function decodeXpp(
   tableLine: number,
   labels: Map<string, JcampLabel>,
   maxPoints: number,
+  tick: (lineIndex: number) => void,
 ): Decoded {
   const hr = tableHeader(labels, maxPoints);
   if (!hr.ok) return hr;
@@ -286,6 +297,7 @@ function decodeXpp(
   let lastDataLine = 0;
   let j = start;
   for (; j < lines.length; j++) {
+    tick(j);
     const raw = stripComment(lines[j]);
     const t = raw.trim();
     if (t.startsWith('##')) break;
@@ -394,6 +406,7 @@ function decodeXy(
   tableLine: number,
   labels: Map<string, JcampLabel>,
   maxPoints: number,
+  tick: (lineIndex: number) => void,
 ): Decoded {
   const hr = tableHeader(labels, maxPoints);
   if (!hr.ok) return hr;
@@ -406,6 +419,7 @@ function decodeXy(
   let lastDataLine = 0;
   let j = start;
   for (; j < lines.length; j++) {
+    tick(j);
     const t = stripComment(lines[j]).trim();
     if (t.startsWith('##')) break;
     if (t === '') continue;

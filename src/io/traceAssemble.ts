@@ -126,7 +126,7 @@ export function traceAssemble(
         if (clampedLines.length < 100_000) clampedLines.push(lineAt(i));
         t = floorT;
       }
-      a = -Math.log10(t);
+      a = 0 - Math.log10(t); // +0 (not −0) for T = 1
     } else a = y[i];
     if (m > 0 && v === nu[m - 1]) {
       const j = keptIndex[m - 1];
@@ -152,8 +152,8 @@ export function traceAssemble(
   if (clamped > 0) {
     clampedLines.sort((p, q) => p - q);
     messages.push(
-      `${clamped} point${clamped === 1 ? '' : 's'} with transmittance ≤ 0 clamped to T = ${floorT.toPrecision(3)} ` +
-        `(A = ${(-Math.log10(floorT)).toPrecision(3)}): ${traceLineList(clampedLines, clamped)}`,
+      `${clamped} point${clamped === 1 ? '' : 's'} with transmittance ≤ 0 clamped to T = ${Number(floorT.toPrecision(3))} ` +
+        `(A = ${Number((0 - Math.log10(floorT)).toPrecision(3))}): ${traceLineList(clampedLines, clamped)}`,
     );
   }
   const trace: Trace = {

@@ -104,7 +104,7 @@ function importTraceChecked(
     }
   };
   report(0);
-  const parseProgress = (f: number) => report(0.9 * f);
+  const parseProgress = (f: number) => report(0.95 * f);
 
   const isJcamp = options.format === 'jcamp-dx' || (options.format === 'auto' && jcampDetect(text));
   let raw: RawTrace;
@@ -130,7 +130,7 @@ function importTraceChecked(
     if ('error' in r) return refuse(r.error.message, r.error.line, r.error.field);
     raw = r;
   }
-  report(0.9);
+  report(0.95);
 
   // Abscissa unit.
   const xr = resolveXUnit(raw, options);
@@ -151,6 +151,7 @@ function importTraceChecked(
     const skipNote = traceSkipMessage(raw.skipped, raw.noun);
     return refuse(assembled.message + (skipNote ? ` (${skipNote})` : ''), assembled.line);
   }
+  report(0.99);
   const { trace, wasDescending } = assembled.value;
   const messages = [...raw.messages, ...xr.messages, ...or.messages, ...assembled.value.messages];
   if (wasDescending) messages.push('the axis ran from high to low in the file; it is stored ascending');

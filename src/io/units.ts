@@ -31,7 +31,7 @@ export function unitsNmToCm1(lambdaNm: number): number {
  * Source: Beer–Lambert decadic absorbance, IUPAC Gold Book "absorbance".
  */
 export function unitsTransmittanceToAbsorbance(transmittance: number): number {
-  return -Math.log10(transmittance);
+  return 0 - Math.log10(transmittance); // 0 − x, not −x: T = 1 gives +0, not −0
 }
 
 /**
@@ -41,7 +41,7 @@ export function unitsTransmittanceToAbsorbance(transmittance: number): number {
  * Source: IUPAC Gold Book "absorbance"; %T = 100 T.
  */
 export function unitsPercentTransmittanceToAbsorbance(percentT: number): number {
-  return -Math.log10(percentT / 100);
+  return 0 - Math.log10(percentT / 100);
 }
 
 /**
