@@ -165,8 +165,16 @@ function peaksAtSigma(
   minSnr: number,
   minProminenceOption: number | undefined,
 ): FoundPeak[] {
-  const minProminence = minProminenceOption ?? minSnr * sigma;
   const n = x.length;
+  // With σ = 0 (noiseless, synthetic data) round-off wiggles must not count: a floor of 1e-12 of the
+  // data range, far above double round-off (1e-16) and far below any real line.
+  let yMin = Infinity;
+  let yMax = -Infinity;
+  for (let i = 0; i < n; i++) {
+    yMin = Math.min(yMin, y[i]);
+    yMax = Math.max(yMax, y[i]);
+  }
+  const minProminence = Math.max(minProminenceOption ?? minSnr * sigma, n > 0 ? 1e-12 * (yMax - yMin) : 0);
 
   const maxima = peakProminence(y);
   const cand: number[] = [];

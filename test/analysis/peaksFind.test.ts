@@ -129,6 +129,18 @@ describe('peaksFind: hand-checkable lines', () => {
     expect(r.isBlend[0]).toBe(0);
   });
 
+  it('ignores round-off wiggles on noiseless data (σ = 0)', () => {
+    // A single noiseless Gaussian plus a ripple of 1e-15 (round-off size) on a flat background:
+    // one peak, the ripple's many maxima are below the 1e-12-of-range floor.
+    const x = axisUniform(1000, 1001, 1001);
+    const y = syntheticAbsorbance(x, [{ centreCm1: 1000.5, heightAbs: 1, fwhmCm1: 0.02, shape: 'gaussian' }], 0, 0);
+    for (let i = 0; i < y.length; i++) y[i] += 1e-15 * (i % 2);
+    const r = peaksFind(trace(x, y), { noiseSigma: 0 });
+    expect(r.count).toBe(1);
+    expect(r.snr[0]).toBe(Infinity);
+    expect(r.centreSigmaCm1[0]).toBe(0);
+  });
+
   it('uses a known noise σ instead of the estimate and scales SNR with it', () => {
     const x = axisUniform(1000, 1002, 2001);
     const y = syntheticAbsorbance(x, [{ centreCm1: 1001, heightAbs: 0.1, fwhmCm1: 0.02, shape: 'gaussian' }], 1e-3, 5);
