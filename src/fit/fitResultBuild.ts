@@ -1,0 +1,217 @@
+import { lineLabelAscii } from '../physics/lineLabel';
+import type { BandModel } from '../physics/model';
+import { transitionWavenumber } from '../physics/termValues';
+import { fitKeyParse, fitParameterKeys } from './bandDesign';
+import type { FitConvergence, FitInput, FitLineResult, FitOptions, FitParameterResult, FitResult } from './fitTypes';
+import { lineariseCovariance, type Linearisation } from './leastSquaresLinearise';
+
+const CONVERGENCE_WORDS: Record<FitConvergence, string> = {
+  'chi2-change': 'converged: the last step changed χ² by less than the tolerance',
+  'step-size': 'converged: the last step moved every constant by a negligible fraction of its uncertainty',
+  'no-further-decrease': 'converged: χ² cannot be lowered further (the minimum is reached to round-off)',
+  'max-iterations': 'stopped at the iteration limit before meeting the convergence tests',
+  'nothing-floated': 'nothing floated: positions calculated from the given constants',
+};
+
+/** σ_w outside [1/SIGMA_W_WARN, SIGMA_W_WARN] earns a warning (common practice). */
+const SIGMA_W_WARN = 3;
+/** Condition numbers above this earn a "nearly undetermined" warning. */
+const CONDITION_WARN = 1e8;
+/** |correlation| above this earns a warning. */
+const CORRELATION_WARN = 0.9999;
+
+/**
+ * Assemble the FitResult of a finished fit: fitted model, standard errors, covariance and
+ * correlation, per-line obs − calc, outliers and plain-language warnings.
+ *
+ * Statistics: χ² = Σ ((o − c)/σ_i)²; σ_w = sqrt(χ²/(N − P)); covariance C = (JᵀWJ)⁻¹ σ_w²;
+ * σ_p = sqrt(C_pp); correlation ρ_ab = C_ab / (σ_a σ_b); rms = sqrt(mean (o − c)²) (cm^-1,
+ * unweighted). With N = P no σ is given (sigma null). An outlier has |o − c| > outlierSigma·σ_i.
+ * Source: Bevington & Robinson, Data Reduction and Error Analysis, 3rd ed. (2003), ch. 7–8
+ * (covariance as the inverse curvature matrix, scaled by the reduced χ²).
+ * @param input the fit input (start model, floated keys, all lines)
+ * @param used indices of the lines in the fit
+ * @param values fitted values of the floated keys
+ * @param lin linearisation at the solution (null when nothing was floated)
+ */
+export function fitResultBuild(
+  input: FitInput,
+  used: number[],
+  values: Float64Array,
+  lin: Linearisation | null,
+  iterations: number,
+  convergence: FitConvergence,
+  options: Required<FitOptions>,
+): FitResult {
+  const { floated, lines } = input;
+  const model: BandModel = { ...input.model, lower: { ...input.model.lower }, upper: { ...input.model.upper } };
+  floated.forEach((key, j) => {
+    const k = fitKeyParse(key)!;
+    model[k.side][k.name] = values[j];
+  });
+  const nLines = used.length;
+  const nParameters = floated.length;
+  const dof = nLines - nParameters;
+  const isExactlyDetermined = dof === 0 && nParameters > 0;
+
+  const usedSet = new Uint8Array(lines.length);
+  for (const i of used) usedSet[i] = 1;
+  let chi2 = 0;
+  let sumSq = 0;
+  const lineResults: FitLineResult[] = lines.map((line, i) => {
+    const calc = transitionWavenumber(model, line.jUpper, line.kUpper, line.jLower, line.kLower);
+    const obsMinusCalc = line.observedCm1 - calc;
+    const normalisedResidual = obsMinusCalc / line.uncertaintyCm1;
+    const inFit = usedSet[i] === 1;
+    if (inFit) {
+      chi2 += normalisedResidual * normalisedResidual;
+      sumSq += obsMinusCalc * obsMinusCalc;
+    }
+    return {
+      jUpper: line.jUpper,
+      kUpper: line.kUpper,
+      jLower: line.jLower,
+      kLower: line.kLower,
+      obs: line.observedCm1,
+      calc,
+      obsMinusCalc,
+      sigma: line.uncertaintyCm1,
+      normalisedResidual,
+      isOutlier: inFit && !isExactlyDetermined && Math.abs(normalisedResidual) > options.outlierSigma,
+      isExcluded: !inFit,
+    };
+  });
+  const rmsCm1 = Math.sqrt(sumSq / nLines);
+  const sigmaW = dof > 0 ? Math.sqrt(chi2 / dof) : nParameters === 0 ? Math.sqrt(chi2 / nLines) : null;
+
+  let covariance: number[][] = [];
+  let correlation: number[][] = [];
+  const sigmas = new Float64Array(nParameters);
+  if (lin && !isExactlyDetermined && sigmaW !== null) {
+    const unit = lineariseCovariance(lin);
+    const s2 = sigmaW * sigmaW;
+    for (let a = 0; a < nParameters; a++) sigmas[a] = Math.sqrt(unit[a * nParameters + a] * s2);
+    covariance = Array.from({ length: nParameters }, (_, a) =>
+      Array.from({ length: nParameters }, (_, b) => unit[a * nParameters + b] * s2),
+    );
+    correlation = Array.from({ length: nParameters }, (_, a) =>
+      Array.from({ length: nParameters }, (_, b) =>
+        a === b ? 1 : unit[a * nParameters + b] / Math.sqrt(unit[a * nParameters + a] * unit[b * nParameters + b]),
+      ),
+    );
+  }
+
+  const floatIndex = new Map(floated.map((k, j) => [k, j]));
+  const parameters: Record<string, FitParameterResult> = {};
+  for (const key of fitParameterKeys(model.shape)) {
+    const k = fitKeyParse(key)!;
+    const j = floatIndex.get(key);
+    parameters[key] =
+      j === undefined
+        ? { value: model[k.side][k.name], sigma: 0, fixed: true }
+        : { value: values[j], sigma: isExactlyDetermined ? null : sigmas[j], fixed: false };
+  }
+
+  const outliers: number[] = [];
+  lineResults.forEach((l, i) => l.isOutlier && outliers.push(i));
+  const warnings = fitWarnings({
+    model,
+    floated,
+    lineResults,
+    outliers,
+    lin,
+    correlation,
+    sigmaW,
+    isExactlyDetermined,
+    convergence,
+    iterations,
+    nLines,
+    options,
+  });
+  return {
+    parameters,
+    floated: [...floated],
+    covariance,
+    correlation,
+    nLines,
+    nParameters,
+    chi2,
+    rmsCm1,
+    sigmaW,
+    isExactlyDetermined,
+    lines: lineResults,
+    outliers,
+    iterations,
+    convergence,
+    convergenceMessage: CONVERGENCE_WORDS[convergence],
+    conditionNumber: lin ? lin.conditionNumber : 1,
+    model,
+    warnings,
+  };
+}
+
+interface WarningContext {
+  model: BandModel;
+  floated: readonly string[];
+  lineResults: FitLineResult[];
+  outliers: number[];
+  lin: Linearisation | null;
+  correlation: number[][];
+  sigmaW: number | null;
+  isExactlyDetermined: boolean;
+  convergence: FitConvergence;
+  iterations: number;
+  nLines: number;
+  options: Required<FitOptions>;
+}
+
+function fitWarnings(c: WarningContext): string[] {
+  const w: string[] = [];
+  if (c.convergence === 'max-iterations') {
+    w.push(`The fit stopped after ${c.iterations} iterations without converging; the constants may not be final.`);
+  }
+  if (c.isExactlyDetermined) {
+    w.push(
+      `Exactly determined: ${c.nLines} lines for ${c.floated.length} floated constants, so the constants reproduce the lines exactly and no uncertainties can be given. Assign more lines to obtain them.`,
+    );
+  } else if (c.sigmaW !== null && c.floated.length > 0) {
+    const s = c.sigmaW.toPrecision(3);
+    if (c.sigmaW > SIGMA_W_WARN) {
+      w.push(
+        `σ_w = ${s}: the lines scatter about ${s} times more than their stated uncertainties. Check for misassignments (see the outliers), constants missing from the model, or uncertainties set too small.`,
+      );
+    } else if (c.sigmaW < 1 / SIGMA_W_WARN) {
+      w.push(`σ_w = ${s}: the residuals are much smaller than the stated uncertainties; the uncertainties may be set too large.`);
+    }
+  }
+  if (c.outliers.length > 0) {
+    const labels = c.outliers
+      .slice(0, 10)
+      .map((i) => {
+        const l = c.lineResults[i];
+        return `${lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, c.model.shape)} (${l.normalisedResidual.toFixed(1)}σ)`;
+      })
+      .join(', ');
+    w.push(
+      `${c.outliers.length} line${c.outliers.length === 1 ? '' : 's'} deviate${c.outliers.length === 1 ? 's' : ''} from the fit by more than ${c.options.outlierSigma} times ${c.outliers.length === 1 ? 'its' : 'their'} uncertainty: ${labels}${c.outliers.length > 10 ? ', …' : ''}. Possible misassignments or blends.`,
+    );
+  }
+  if (c.lin && c.lin.conditionNumber > CONDITION_WARN && Number.isFinite(c.lin.conditionNumber)) {
+    const n = c.lin.nParameters;
+    const j = n - 1;
+    let max = 0;
+    for (let i = 0; i < n; i++) max = Math.max(max, Math.abs(c.lin.svd.v[j * n + i]));
+    const keys = c.floated.filter((_, i) => Math.abs(c.lin!.svd.v[j * n + i]) >= 0.2 * max);
+    w.push(
+      `Nearly undetermined (condition number ${c.lin.conditionNumber.toExponential(1)}): the data barely separate ${keys.join(', ')}; their uncertainties are large and fixing one of them may be wiser.`,
+    );
+  }
+  const pairs: string[] = [];
+  for (let a = 0; a < c.correlation.length; a++) {
+    for (let b = a + 1; b < c.correlation.length; b++) {
+      if (Math.abs(c.correlation[a][b]) > CORRELATION_WARN) pairs.push(`${c.floated[a]}/${c.floated[b]} (${c.correlation[a][b].toFixed(5)})`);
+    }
+  }
+  if (pairs.length) w.push(`Very strongly correlated constants: ${pairs.slice(0, 6).join(', ')}${pairs.length > 6 ? ', …' : ''}.`);
+  return w;
+}
