@@ -124,8 +124,9 @@ export function delimitedParse(
   };
 
   // Line ends: LF, CRLF, or lone CR (old Mac files).
-  const newline = delimitedNewline(text);
-  const nlChar = newline === '\r' ? '\r' : '\n';
+  // Rows are split at LF (or at CR for CR-only files); a CR left before the LF is trimmed with the field,
+  // so files mixing CRLF and LF line ends read correctly.
+  const nlChar = delimitedNewline(text) === '\r' ? '\r' : '\n';
   const progressStep = Math.max(1, Math.floor(text.length / 50));
   let nextProgress = progressStep;
 
@@ -135,9 +136,7 @@ export function delimitedParse(
     for (let line = 1; pos <= text.length; line++) {
       let eol = text.indexOf(nlChar, pos);
       if (eol < 0) eol = text.length;
-      let end = eol;
-      if (newline === '\r\n' && end > pos && text.charCodeAt(end - 1) === 13) end--;
-      if (!onRow(delimitedSplitLine(text.slice(pos, end), 'whitespace'), pos, line)) break;
+      if (!onRow(delimitedSplitLine(text.slice(pos, eol), 'whitespace'), pos, line)) break;
       pos = eol + 1;
       if (onProgress && pos >= nextProgress) {
         onProgress(Math.min(1, pos / text.length));
@@ -149,7 +148,7 @@ export function delimitedParse(
     let line = 1;
     Papa.parse<string[]>(text, {
       delimiter,
-      newline: newline as '\n',
+      newline: nlChar,
       header: false,
       skipEmptyLines: false,
       step: (results, parser) => {

@@ -36,6 +36,8 @@ export const TRACE_MIN_TRANSMITTANCE = 1e-6;
 
 /**
  * Build the stored trace from raw columns.
+ * WARNING: when nothing needs changing (ascending cm^-1 absorbance, all points usable) the returned
+ * trace reuses the input arrays; callers pass arrays they own.
  * Duplicate abscissae keep the point that comes first in the file.
  * T ≤ 0 is clamped to min(1e-6, smallest positive T in the file) so clamped points never absorb less
  * than a measured one.
@@ -59,6 +61,7 @@ export function traceAssemble(
   let nValid = 0;
   let up = 0;
   let down = 0;
+  let equal = 0;
   let firstReversal = -1;
   let prev = NaN;
   let minPositiveT = Infinity;
@@ -81,7 +84,7 @@ export function traceAssemble(
     } else if (xi < prev) {
       down++;
       if (up > 0 && firstReversal < 0) firstReversal = i;
-    }
+    } else if (xi === prev) equal++;
     prev = xi;
     if (isTrans) {
       const t = yi * tScale;
@@ -91,6 +94,10 @@ export function traceAssemble(
 
   const messages: string[] = [];
   const fileDescending = down > 0 && up === 0;
+  if (nValid === n && n >= 2 && down === 0 && equal === 0 && !isWavelength && !isTrans) {
+    // Common case (ascending cm^-1 absorbance, nothing to drop): the parser's fresh arrays are the trace.
+    return { ok: true, value: { trace: { wavenumberCm1: x, absorbance: y }, wasDescending: false, messages } };
+  }
   // Visit points in ascending wavenumber: wavelengths reverse the order.
   let order: Uint32Array;
   if (up > 0 && down > 0) {
@@ -106,6 +113,7 @@ export function traceAssemble(
     const reverse = fileDescending !== isWavelength;
     for (let i = 0, k = 0; i < n; i++) if (valid[i]) order[reverse ? nValid - 1 - k++ : k++] = i;
   }
+  // (The index array costs 4 bytes a point; only the monotone-but-not-trivial cases pay for it.)
 
   // Pass 2: convert, drop duplicates (keeping the earliest line), convert the ordinate.
   const floorT = Math.min(TRACE_MIN_TRANSMITTANCE, minPositiveT);

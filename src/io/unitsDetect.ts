@@ -92,16 +92,22 @@ export function unitsValueStats(values: Float64Array): UnitsValueStats {
 
 const fmt = (v: number) => Number(v.toPrecision(4)).toString();
 
+/** Fewest values for which the ordinate is guessed from the shape of the data. */
+export const UNITS_GUESS_MIN_VALUES = 5;
+
 /**
  * Guess whether ordinate values are transmittance, percent transmittance or absorbance.
  * Rule (common practice, stated as a heuristic): transmittance spectra sit near their maximum with bands
  * dipping down, so the median is high and closer to the maximum than to the minimum; T fits in
  * [−0.05, 1.05] with median ≥ 0.5, %T fits in [−5, 110] with median ≥ 10; anything else is absorbance.
+ * Fewer than `UNITS_GUESS_MIN_VALUES` values say too little about a shape: they are taken as absorbance.
  * @param stats statistics from `unitsValueStats`
  */
 export function unitsOrdinateFromValues(stats: UnitsValueStats): UnitsOrdinateGuess {
   const { min, max, median } = stats;
   const range = `values in [${fmt(min)}, ${fmt(max)}], median ${fmt(median)}`;
+  if (stats.count < UNITS_GUESS_MIN_VALUES)
+    return { ordinate: 'absorbance', reason: `only ${stats.count} values, too few to judge` };
   const dipsDown = median - min >= max - median;
   if (min >= -0.05 && max <= 1.05 && median >= 0.5 && dipsDown)
     return { ordinate: 'transmittance', reason: range };

@@ -84,6 +84,10 @@ describe('delimitedParse layouts', () => {
     expect(Array.from(parse('h1;h2\r\n1;2\r\nx;y\r\n3;4\r\n').lines)).toEqual([2, 4]);
     expect(Array.from(parse('h1;h2\r1;2\rx;y\r3;4\r').lines)).toEqual([2, 4]);
   });
+  it('reads a file that mixes CRLF and LF line ends', () => {
+    const c = parse('h1;h2\r\n1;2\n3;4\r\n5;6\n');
+    expect([Array.from(c.x), Array.from(c.y), Array.from(c.lines)]).toEqual([[1, 3, 5], [2, 4, 6], [2, 3, 4]]);
+  });
   it('counts lines correctly when a quoted field spans two lines', () => {
     const c = parse('"a\nb",y\n1,2\n3,4\n');
     expect(Array.from(c.lines)).toEqual([3, 4]);

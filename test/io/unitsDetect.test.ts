@@ -63,6 +63,10 @@ describe('unitsOrdinateFromValues', () => {
   it('takes a high baseline with rising bands (all within [0, 1]) as absorbance, not transmittance', () => {
     expect(unitsOrdinateFromValues(unitsValueStats(band(0.6, 0.4))).ordinate).toBe('absorbance');
   });
+  it('takes fewer than five values as absorbance whatever they look like', () => {
+    expect(unitsOrdinateFromValues(unitsValueStats(Float64Array.from([0.98, 0.5, 0.97, 0.99]))).ordinate).toBe('absorbance');
+    expect(unitsOrdinateFromValues(unitsValueStats(Float64Array.from([0.98, 0.5, 0.97, 0.99, 0.96]))).ordinate).toBe('transmittance');
+  });
   it('ignores NaN and Infinity in the statistics', () => {
     const s = unitsValueStats(Float64Array.from([0.5, NaN, Infinity, 0.9, -Infinity, 0.7]));
     expect([s.min, s.max, s.count]).toEqual([0.5, 0.9, 3]);
