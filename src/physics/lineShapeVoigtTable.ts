@@ -101,6 +101,15 @@ function buildRows(etaFrom: number, nRows: number, uFrom: number, uStep: number,
   const rows = new Float64Array(nRows * nodes);
   for (let j = 0; j < nRows; j++) {
     const eta = etaFrom + j * VOIGT_TABLE_ETA_STEP;
+    if (eta >= 1 - 1e-12) {
+      // Row at η = 1 (y = ∞): the Lorentz limit F = c/(√π (c²u² + 1)), c = lim s/y = 0.5346 + √0.2166.
+      const c = 0.5346 + Math.sqrt(0.2166);
+      for (let i = 0; i < nodes; i++) {
+        const u = uFrom + i * uStep;
+        rows[j * nodes + i] = c / Math.sqrt(Math.PI) / (c * c * u * u + 1);
+      }
+      continue;
+    }
     const y = eta / (1 - eta);
     const s = lineShapeVoigtTableScale(y);
     for (let i = 0; i < nodes; i++) rows[j * nodes + i] = s * faddeevaRe((uFrom + i * uStep) * s, y);
