@@ -1,0 +1,262 @@
+/**
+ * Line tables: the assigned-line CSV read by the fit and written back with calc and obs − calc.
+ *
+ * Read: header required; columns found by name (any order, case-insensitive):
+ * J_up, K_up, J_lo, K_lo, wavenumber (cm^-1) required; uncertainty (cm^-1, default 0.001),
+ * blended, excluded, flags, note, id, peak_id optional; other columns are kept as text.
+ * Lines starting with '#' and blank lines are skipped.
+ */
+import Papa from 'papaparse';
+import { ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1, type Assignment } from '../fit/assignment';
+import { lineLabelAscii } from '../physics/lineLabel';
+import type { TopShape } from '../physics/model';
+
+/** A parsed line table. */
+export interface LineTable {
+  /** One per data row, in file order. */
+  assignments: Assignment[];
+  /** 1-based line number in the file where each row starts (parallel to assignments). */
+  lineNumbers: number[];
+  /** Header names of the columns not interpreted (in file order). */
+  extraColumns: string[];
+  /** Their cells, one record per row (keys = extraColumns). */
+  extras: Record<string, string>[];
+  /** Non-fatal remarks. */
+  warnings: string[];
+}
+
+/** Options of lineTableParse. */
+export interface LineTableParseOptions {
+  /** Named at the start of every error message. @default none */
+  fileName?: string;
+  /** Uncertainty of rows without one, cm^-1. @default 0.001 */
+  defaultUncertaintyCm1?: number;
+}
+
+/** A line table that cannot be read; the message names the file, line and field. */
+export class LineTableError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'LineTableError';
+  }
+}
+
+const REQUIRED = ['J_up', 'K_up', 'J_lo', 'K_lo', 'wavenumber'] as const;
+const OPTIONAL = ['uncertainty', 'blended', 'excluded', 'flags', 'note', 'id', 'peak_id'] as const;
+type Known = (typeof REQUIRED)[number] | (typeof OPTIONAL)[number];
+
+const TRUE_WORDS = new Set(['1', 'true', 'yes', 'y', 'x']);
+const FALSE_WORDS = new Set(['', '0', 'false', 'no', 'n']);
+
+function quoteCell(v: string): string {
+  return `'${v.length > 40 ? v.slice(0, 40) + '…' : v}'`;
+}
+
+/**
+ * Parse an assigned-line CSV into Assignments.
+ * @param text CSV text (UTF-8 string; CRLF or LF)
+ * @returns assignments (wavenumber and uncertainty in cm^-1) with their file line numbers
+ * @throws LineTableError such as "L.csv: line 7: J_up 'x' is not a whole number"
+ */
+export function lineTableParse(text: string, options: LineTableParseOptions = {}): LineTable {
+  const prefix = options.fileName ? `${options.fileName}: ` : '';
+  const defaultSigma = options.defaultUncertaintyCm1 ?? ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1;
+  const fail = (line: number, msg: string): never => {
+    throw new LineTableError(`${prefix}line ${line}: ${msg}`);
+  };
+  const normalised = text.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n');
+
+  // Collect rows with the line each starts on (quoted fields may span lines).
+  const rows: { cells: string[]; line: number }[] = [];
+  let counted = 0;
+  let lineAtCounted = 1;
+  let rowStart = 0;
+  const lineOf = (pos: number): number => {
+    for (let i = counted; i < pos; i++) if (normalised.charCodeAt(i) === 10) lineAtCounted++;
+    counted = Math.max(counted, pos);
+    return lineAtCounted;
+  };
+  let parseError: { line: number; message: string } | null = null;
+  Papa.parse<string[]>(normalised, {
+    delimiter: ',',
+    newline: '\n',
+    skipEmptyLines: false,
+    step: (result, parser) => {
+      const line = lineOf(rowStart);
+      rowStart = result.meta.cursor;
+      if (result.errors.length > 0 && !parseError) {
+        parseError = { line, message: result.errors[0].message };
+        parser.abort();
+        return;
+      }
+      const cells = result.data;
+      if (cells.length === 1 && cells[0].trim() === '') return;
+      if (cells[0].trimStart().startsWith('#')) return;
+      rows.push({ cells, line });
+    },
+  });
+  if (parseError) fail((parseError as { line: number }).line, `malformed CSV: ${(parseError as { message: string }).message}`);
+  if (rows.length === 0) throw new LineTableError(`${prefix}no header line found; expected a header naming ${REQUIRED.join(', ')}`);
+
+  const header = rows[0];
+  const column: Partial<Record<Known, number>> = {};
+  const extraColumns: string[] = [];
+  const extraIndex: number[] = [];
+  const seen = new Map<string, number>();
+  header.cells.forEach((raw, idx) => {
+    const name = raw.trim();
+    const lower = name.toLowerCase();
+    if (seen.has(lower)) fail(header.line, `column '${name}' appears twice in the header`);
+    seen.set(lower, idx);
+    const known = [...REQUIRED, ...OPTIONAL].find((k) => k.toLowerCase() === lower);
+    if (known) column[known] = idx;
+    else {
+      extraColumns.push(name);
+      extraIndex.push(idx);
+    }
+  });
+  const missing = REQUIRED.filter((k) => column[k] === undefined);
+  if (missing.length) {
+    fail(
+      header.line,
+      `header lacks column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} (found: ${header.cells.map((c) => c.trim()).join(', ')}); expected J_up,K_up,J_lo,K_lo,wavenumber[,uncertainty]`,
+    );
+  }
+
+  const assignments: Assignment[] = [];
+  const lineNumbers: number[] = [];
+  const extras: Record<string, string>[] = [];
+  const warnings: string[] = [];
+  const ids = new Set<string>();
+  const width = header.cells.length;
+  for (const row of rows.slice(1)) {
+    const { cells, line } = row;
+    if (cells.length > width) fail(line, `${cells.length} fields, but the header names only ${width} columns`);
+    const cell = (k: Known): string | undefined => {
+      const idx = column[k];
+      return idx === undefined ? undefined : (cells[idx] ?? '').trim();
+    };
+    const whole = (k: 'J_up' | 'K_up' | 'J_lo' | 'K_lo'): number => {
+      const v = cell(k)!;
+      if (v === '') fail(line, `${k} is empty`);
+      const n = Number(v);
+      if (!Number.isInteger(n)) fail(line, `${k} ${quoteCell(v)} is not a whole number`);
+      if (n < 0) fail(line, `${k} ${quoteCell(v)} must be >= 0`);
+      return n;
+    };
+    const jUpper = whole('J_up');
+    const kUpper = whole('K_up');
+    const jLower = whole('J_lo');
+    const kLower = whole('K_lo');
+    const wn = cell('wavenumber')!;
+    const observedCm1 = Number(wn);
+    if (wn === '' || !Number.isFinite(observedCm1)) fail(line, `wavenumber ${quoteCell(wn)} is not a number (cm^-1)`);
+    const un = cell('uncertainty') ?? '';
+    let uncertaintyCm1 = defaultSigma;
+    if (un !== '') {
+      uncertaintyCm1 = Number(un);
+      if (!Number.isFinite(uncertaintyCm1) || uncertaintyCm1 <= 0) fail(line, `uncertainty ${quoteCell(un)} must be a number > 0 (cm^-1)`);
+    }
+    const flagWords = (cell('flags') ?? '').toLowerCase().split(/[\s;|]+/).filter(Boolean);
+    const flag = (k: 'blended' | 'excluded'): boolean => {
+      const v = cell(k);
+      if (v === undefined) return flagWords.includes(k);
+      const lower = v.toLowerCase();
+      if (TRUE_WORDS.has(lower)) return true;
+      if (FALSE_WORDS.has(lower)) return false;
+      return fail(line, `${k} ${quoteCell(v)} must be true/false, yes/no or 1/0`);
+    };
+    const isBlended = flag('blended');
+    const isExcluded = flag('excluded');
+    const idCell = cell('id') ?? '';
+    let id = idCell !== '' ? idCell : `line${line}`;
+    if (ids.has(id)) {
+      warnings.push(`${prefix}line ${line}: id '${id}' repeats an earlier row; renamed '${id}#${line}'`);
+      id = `${id}#${line}`;
+    }
+    ids.add(id);
+    const assignment: Assignment = {
+      id,
+      jUpper,
+      kUpper,
+      jLower,
+      kLower,
+      observedCm1,
+      uncertaintyCm1,
+      isBlended,
+      isExcluded,
+      note: cells[column.note ?? -1] ?? '',
+    };
+    const peak = cell('peak_id') ?? '';
+    if (peak !== '') assignment.peakId = peak;
+    assignments.push(assignment);
+    lineNumbers.push(line);
+    const extra: Record<string, string> = {};
+    extraColumns.forEach((name, k) => (extra[name] = cells[extraIndex[k]] ?? ''));
+    extras.push(extra);
+  }
+  return { assignments, lineNumbers, extraColumns, extras, warnings };
+}
+
+/** Options of lineTableSerialize. */
+export interface LineTableSerializeOptions {
+  /** Rotor shape (for the labels). */
+  shape: TopShape;
+  /** Calculated positions, cm^-1, parallel to the assignments (blank cells when absent). */
+  calcCm1?: ArrayLike<number>;
+  /** Outlier flags from a fit, parallel to the assignments. */
+  isOutlier?: ArrayLike<boolean>;
+}
+
+/** Shortest text that reads back as the same double (String drops the sign of −0). */
+function numberText(v: number): string {
+  return Object.is(v, -0) ? '-0' : String(v);
+}
+
+/** Column order of a written line table. */
+export const LINE_TABLE_COLUMNS = [
+  'J_up',
+  'K_up',
+  'J_lo',
+  'K_lo',
+  'wavenumber',
+  'uncertainty',
+  'label',
+  'calc',
+  'obs_minus_calc',
+  'flags',
+  'note',
+  'id',
+  'peak_id',
+] as const;
+
+/**
+ * Write assignments as an assigned-line CSV (columns LINE_TABLE_COLUMNS; numbers in full
+ * double precision, so lineTableParse reads back the same assignments exactly).
+ * label is ^ΔK ΔJ_K''(J'') in ASCII; flags holds "blended", "excluded", "outlier" separated by ';'.
+ * @param assignments rows to write (wavenumber, uncertainty in cm^-1)
+ * @returns CSV text with a header line, LF line ends, trailing newline
+ */
+export function lineTableSerialize(assignments: readonly Assignment[], options: LineTableSerializeOptions): string {
+  const data = assignments.map((a, i) => {
+    const calc = options.calcCm1?.[i];
+    const hasCalc = calc !== undefined && Number.isFinite(calc);
+    const flags = [a.isBlended && 'blended', a.isExcluded && 'excluded', options.isOutlier?.[i] && 'outlier'].filter(Boolean).join(';');
+    return [
+      String(a.jUpper),
+      String(a.kUpper),
+      String(a.jLower),
+      String(a.kLower),
+      numberText(a.observedCm1),
+      numberText(a.uncertaintyCm1),
+      lineLabelAscii(a.kUpper - a.kLower, a.jUpper - a.jLower, a.kLower, a.jLower, options.shape),
+      hasCalc ? numberText(calc) : '',
+      hasCalc ? numberText(a.observedCm1 - calc) : '',
+      flags,
+      a.note,
+      a.id,
+      a.peakId ?? '',
+    ];
+  });
+  return Papa.unparse({ fields: [...LINE_TABLE_COLUMNS], data }, { newline: '\n', quotes: false }) + '\n';
+}

@@ -1,0 +1,33 @@
+/**
+ * Worker entry: unpack a fit request, run fitBand, post progress and the outcome back.
+ * No logic of its own; fitBand is the same function vitest and the CLI call directly.
+ */
+import { fitBand } from '../fit/fitBand';
+import type { SolverRequest, SolverResponse } from './protocol';
+
+/** Handle one request, posting every response through `post` (exported for plumbing tests). */
+export function solverHandle(request: SolverRequest, post: (message: SolverResponse) => void): void {
+  if (request?.type !== 'fit') {
+    post({ type: 'error', id: request?.id ?? -1, message: `solver.worker: unknown request type '${String(request?.type)}'` });
+    return;
+  }
+  const { id, input } = request;
+  try {
+    const output = fitBand(input, { onProgress: (iteration, chi2) => post({ type: 'progress', id, iteration, chi2 }) });
+    post({ type: 'result', id, output });
+  } catch (err) {
+    post({ type: 'error', id, message: err instanceof Error ? err.message : String(err) });
+  }
+}
+
+// Only bind when actually running as a worker (importing this file elsewhere has no effect).
+const scope = globalThis as unknown as {
+  postMessage?: (m: SolverResponse) => void;
+  addEventListener?: (t: 'message', f: (e: { data: SolverRequest }) => void) => void;
+  document?: unknown;
+  WorkerGlobalScope?: unknown;
+};
+if (typeof scope.WorkerGlobalScope !== 'undefined' && scope.addEventListener && scope.postMessage) {
+  const post = scope.postMessage.bind(globalThis);
+  scope.addEventListener('message', (e) => solverHandle(e.data, post));
+}
