@@ -1,0 +1,455 @@
+/**
+ * The workbench's project file: the whole session (model, trace, assignments, last fit, view) as
+ * versioned JSON. Format name "ladder-bench-project"; this module writes version 2 and reads 1 and 2
+ * (older versions are migrated step by step; newer ones are refused with advice). Missing sections
+ * are reported and left to the caller's defaults; unknown fields are reported and ignored.
+ *
+ * Traces are stored exactly: each column as the base64 of its little-endian IEEE-754 doubles, so
+ * a round trip reproduces every bit. Non-finite numbers elsewhere (a condition number of ∞) are
+ * written as {"$nonFinite": "Infinity" | "-Infinity" | "NaN"} since JSON has no literal for them.
+ *
+ * Version history:
+ * - 1: { format, version: 1, model: <model-file object>, trace: {wavenumberCm1: number[], absorbance: number[]} | null,
+ *        assignments: [{J_up, K_up, J_lo, K_lo, obs, sigma, blended?, excluded?, note?, id?}], view?: {xRange?} }
+ * - 2: { format, version: 2, savedAt, appVersion, session: ProjectSession } (this file's types)
+ */
+import { z } from 'zod';
+import type { Assignment } from '../fit/assignment';
+import type { FitOutcome } from '../fit/fitTypes';
+import { PARAMETER_NAMES, stateConstantsFrom, type BandModel } from '../physics/model';
+import { modelFileFromJson } from './modelFile';
+import type { Trace, TraceImportReport } from './trace';
+
+/** Format name written into every project file. */
+export const PROJECT_FORMAT = 'ladder-bench-project';
+/** Version this module writes. */
+export const PROJECT_VERSION = 2;
+
+/** The view part of a session (how things were shown). */
+export interface ProjectView {
+  xRange: [number, number] | null;
+  ordinate: 'absorbance' | 'transmittance';
+  hiddenRows: string[];
+  showSimulated: boolean;
+  showObsMinusSim: boolean;
+  showPeaks: boolean;
+  theme: 'light' | 'dark';
+  tab: string;
+  loomisSeriesKey: string | null;
+  loomisHalfWidthCm1: number;
+  combinationState: 'lower' | 'upper';
+  tableQuery: Record<string, unknown>;
+}
+
+/** The last fit as kept in a session. */
+export interface ProjectFit {
+  outcome: FitOutcome | null;
+  lineIds: string[];
+  finishedAt: string | null;
+  modelBeforeAccept: BandModel | null;
+  isAccepted: boolean;
+}
+
+/** A whole session. Every field but `model` may be absent in a file read (see messages). */
+export interface ProjectSession {
+  model: BandModel;
+  floated: string[];
+  modelName: string;
+  /** amu */
+  massAmu: number;
+  /** cm^-1 */
+  lorentzHwhmCm1: number;
+  minIntensity: number;
+  symmetry: { pointGroup: string; species: string } | null;
+  trace: Trace | null;
+  traceReport: TraceImportReport | null;
+  traceSource: string;
+  importOverrides: Record<string, unknown>;
+  peakMinSnr: number;
+  peakBaseline: boolean;
+  assignments: Assignment[];
+  nextAssignmentNumber: number;
+  /** cm^-1 */
+  farToleranceCm1: number;
+  fit: ProjectFit;
+  view: ProjectView;
+}
+
+/** Result of reading a project file. */
+export type ProjectFileOutcome =
+  | { ok: true; session: Partial<ProjectSession> & { model: BandModel }; messages: string[]; version: number }
+  | { ok: false; message: string };
+
+// ---------------------------------------------------------------- base64 of doubles
+
+const B64 = 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/';
+const B64_INDEX = new Int16Array(128).fill(-1);
+for (let i = 0; i < 64; i++) B64_INDEX[B64.charCodeAt(i)] = i;
+
+/**
+ * Encode doubles as base64 of their little-endian bytes (exact).
+ * Source: RFC 4648 §4 (base64 alphabet and padding).
+ */
+export function float64ToBase64(values: Float64Array): string {
+  const bytes = new Uint8Array(values.length * 8);
+  const view = new DataView(bytes.buffer);
+  for (let i = 0; i < values.length; i++) view.setFloat64(i * 8, values[i], true);
+  const parts: string[] = [];
+  let chunk = '';
+  for (let i = 0; i < bytes.length; i += 3) {
+    const b0 = bytes[i];
+    const b1 = i + 1 < bytes.length ? bytes[i + 1] : 0;
+    const b2 = i + 2 < bytes.length ? bytes[i + 2] : 0;
+    chunk += B64[b0 >> 2] + B64[((b0 & 3) << 4) | (b1 >> 4)];
+    chunk += i + 1 < bytes.length ? B64[((b1 & 15) << 2) | (b2 >> 6)] : '=';
+    chunk += i + 2 < bytes.length ? B64[b2 & 63] : '=';
+    if (chunk.length >= 65536) {
+      parts.push(chunk);
+      chunk = '';
+    }
+  }
+  parts.push(chunk);
+  return parts.join('');
+}
+
+/**
+ * Decode float64ToBase64's output.
+ * @throws naming the field when the text is not base64 of a whole number of doubles
+ */
+export function base64ToFloat64(text: string, field: string): Float64Array {
+  const clean = text.replace(/\s+/g, '');
+  if (clean.length % 4 !== 0) throw new Error(`${field}: base64 length ${clean.length} is not a multiple of 4`);
+  const pad = clean.endsWith('==') ? 2 : clean.endsWith('=') ? 1 : 0;
+  const nBytes = (clean.length / 4) * 3 - pad;
+  if (nBytes % 8 !== 0) throw new Error(`${field}: ${nBytes} bytes is not a whole number of 8-byte doubles`);
+  const bytes = new Uint8Array(nBytes);
+  let o = 0;
+  for (let i = 0; i < clean.length; i += 4) {
+    const c = [0, 1, 2, 3].map((k) => {
+      const ch = clean.charCodeAt(i + k);
+      if (clean[i + k] === '=' && i + 4 === clean.length) return 0;
+      const v = ch < 128 ? B64_INDEX[ch] : -1;
+      if (v < 0) throw new Error(`${field}: character ${JSON.stringify(clean[i + k])} at ${i + k} is not base64`);
+      return v;
+    });
+    const n = (c[0] << 18) | (c[1] << 12) | (c[2] << 6) | c[3];
+    if (o < nBytes) bytes[o++] = (n >> 16) & 255;
+    if (o < nBytes) bytes[o++] = (n >> 8) & 255;
+    if (o < nBytes) bytes[o++] = n & 255;
+  }
+  const view = new DataView(bytes.buffer);
+  const out = new Float64Array(nBytes / 8);
+  for (let i = 0; i < out.length; i++) out[i] = view.getFloat64(i * 8, true);
+  return out;
+}
+
+// ---------------------------------------------------------------- JSON with non-finite numbers
+
+function replacer(_key: string, value: unknown): unknown {
+  if (typeof value === 'number' && !Number.isFinite(value)) return { $nonFinite: String(value) };
+  return value;
+}
+
+function reviver(_key: string, value: unknown): unknown {
+  if (value && typeof value === 'object' && !Array.isArray(value)) {
+    const keys = Object.keys(value);
+    const v = (value as { $nonFinite?: unknown }).$nonFinite;
+    if (keys.length === 1 && (v === 'Infinity' || v === '-Infinity' || v === 'NaN')) return Number(v);
+  }
+  return value;
+}
+
+// ---------------------------------------------------------------- schemas
+
+const finite = z.number().refine(Number.isFinite, 'a finite number');
+const stateSchema = z.record(z.string(), finite).superRefine((rec, ctx) => {
+  for (const k of Object.keys(rec)) {
+    if (!(PARAMETER_NAMES as readonly string[]).includes(k)) ctx.addIssue({ code: 'custom', message: `unknown constant '${k}'`, path: [k] });
+  }
+});
+const modelSchema = z.object({
+  shape: z.enum(['prolate', 'oblate', 'linear']),
+  band: z.enum(['parallel', 'perpendicular']),
+  lower: stateSchema,
+  upper: stateSchema,
+  temperatureK: z.number().refine((t) => Number.isFinite(t) && t > 0, 'a temperature > 0 K'),
+  jMax: z.number().int().min(0).max(2000),
+  kMax: z.number().int().min(0).max(2000),
+  spinWeights: z.array(z.number().min(0)).min(1),
+});
+const assignmentSchema = z.object({
+  id: z.string().min(1),
+  jUpper: z.number().int().min(0),
+  kUpper: z.number().int().min(0),
+  jLower: z.number().int().min(0),
+  kLower: z.number().int().min(0),
+  observedCm1: finite,
+  uncertaintyCm1: z.number().refine((v) => Number.isFinite(v) && v > 0, 'a number > 0'),
+  isBlended: z.boolean(),
+  isExcluded: z.boolean(),
+  note: z.string(),
+  peakId: z.string().optional(),
+});
+const encodedTraceSchema = z.object({
+  encoding: z.literal('float64-le-base64'),
+  points: z.number().int().min(0),
+  wavenumberCm1: z.string(),
+  absorbance: z.string(),
+});
+const reportSchema = z.looseObject({
+  fileName: z.string(),
+  format: z.enum(['delimited', 'jcamp-dx']),
+  xUnit: z.enum(['cm-1', 'um', 'nm']),
+  ordinate: z.enum(['absorbance', 'transmittance', 'percent-transmittance']),
+  points: z.number(),
+  rangeCm1: z.tuple([z.number(), z.number()]),
+  skipped: z.object({ count: z.number(), lines: z.array(z.number()) }),
+  wasDescending: z.boolean(),
+  messages: z.array(z.string()),
+});
+const viewSchema = z.object({
+  xRange: z.tuple([finite, finite]).nullable(),
+  ordinate: z.enum(['absorbance', 'transmittance']),
+  hiddenRows: z.array(z.string()),
+  showSimulated: z.boolean(),
+  showObsMinusSim: z.boolean(),
+  showPeaks: z.boolean(),
+  theme: z.enum(['light', 'dark']),
+  tab: z.string(),
+  loomisSeriesKey: z.string().nullable(),
+  loomisHalfWidthCm1: z.number().positive(),
+  combinationState: z.enum(['lower', 'upper']),
+  tableQuery: z.record(z.string(), z.unknown()),
+});
+const fitSchema = z.object({
+  // The fit outcome is produced by our own solver; only its outline is checked here.
+  outcome: z.union([z.object({ ok: z.literal(true), result: z.looseObject({ parameters: z.record(z.string(), z.unknown()), lines: z.array(z.unknown()) }) }), z.object({ ok: z.literal(false), error: z.looseObject({ kind: z.string(), message: z.string() }) }), z.null()]),
+  lineIds: z.array(z.string()),
+  finishedAt: z.string().nullable(),
+  modelBeforeAccept: modelSchema.nullable(),
+  isAccepted: z.boolean(),
+});
+
+/** Each optional field: its schema. */
+const FIELD_SCHEMAS = {
+  floated: z.array(z.string().regex(/^(lower|upper)\.[A-Za-z]+$/, 'a key such as "upper.B"')),
+  modelName: z.string().max(500),
+  massAmu: z.number().refine((m) => Number.isFinite(m) && m > 0, 'a mass > 0 amu'),
+  lorentzHwhmCm1: z.number().refine((m) => Number.isFinite(m) && m >= 0, 'a width >= 0 cm^-1'),
+  minIntensity: z.number().min(0).max(1),
+  symmetry: z.object({ pointGroup: z.string(), species: z.string() }).nullable(),
+  trace: encodedTraceSchema.nullable(),
+  traceReport: reportSchema.nullable(),
+  traceSource: z.string(),
+  importOverrides: z.record(z.string(), z.unknown()),
+  peakMinSnr: z.number().min(0),
+  peakBaseline: z.boolean(),
+  assignments: z.array(assignmentSchema),
+  nextAssignmentNumber: z.number().int().min(1),
+  farToleranceCm1: z.number().positive(),
+  fit: fitSchema,
+  view: viewSchema,
+} as const;
+
+type FieldName = keyof typeof FIELD_SCHEMAS;
+
+function issueText(issue: z.core.$ZodIssue): string {
+  const path = issue.path.map((p) => (typeof p === 'number' ? `[${p}]` : `.${String(p)}`)).join('');
+  return `${path ? path + ': ' : ''}${issue.message}`;
+}
+
+// ---------------------------------------------------------------- write
+
+/** Details written into the header. */
+export interface ProjectFileHeader {
+  /** App version (package.json). */
+  appVersion: string;
+  /** ISO 8601 time of saving. */
+  savedAt: string;
+}
+
+/**
+ * Write a session as project-file JSON (version 2).
+ * @param session the whole session
+ * @param header app version and time of saving
+ */
+export function projectFileSerialize(session: ProjectSession, header: ProjectFileHeader): string {
+  const { trace, model, ...rest } = session;
+  const encoded = trace
+    ? {
+        encoding: 'float64-le-base64',
+        points: trace.wavenumberCm1.length,
+        wavenumberCm1: float64ToBase64(trace.wavenumberCm1),
+        absorbance: float64ToBase64(trace.absorbance),
+      }
+    : null;
+  const doc = {
+    format: PROJECT_FORMAT,
+    version: PROJECT_VERSION,
+    savedAt: header.savedAt,
+    appVersion: header.appVersion,
+    session: { model, ...rest, trace: encoded },
+  };
+  return JSON.stringify(doc, replacer);
+}
+
+// ---------------------------------------------------------------- read
+
+function describeValue(v: unknown): string {
+  if (v === null) return 'null';
+  if (Array.isArray(v)) return 'a list';
+  if (typeof v === 'string') return `the text ${JSON.stringify(v.length > 30 ? v.slice(0, 30) + '…' : v)}`;
+  return typeof v === 'object' ? 'an object' : `${typeof v} ${String(v)}`;
+}
+
+/** Migrate a version-1 document to the version-2 session layout. */
+function migrateV1(doc: Record<string, unknown>, messages: string[]): Record<string, unknown> {
+  const session: Record<string, unknown> = {};
+  const mf = modelFileFromJson(doc.model);
+  session.model = mf.model;
+  session.floated = mf.floated;
+  if (mf.name !== undefined) session.modelName = mf.name;
+  if (mf.massAmu !== undefined) session.massAmu = mf.massAmu;
+  const t = doc.trace as { wavenumberCm1?: unknown; absorbance?: unknown } | null | undefined;
+  if (t && Array.isArray(t.wavenumberCm1) && Array.isArray(t.absorbance)) {
+    session.trace = {
+      encoding: 'float64-le-base64',
+      points: t.wavenumberCm1.length,
+      wavenumberCm1: float64ToBase64(Float64Array.from(t.wavenumberCm1 as number[])),
+      absorbance: float64ToBase64(Float64Array.from(t.absorbance as number[])),
+    };
+  } else if (t === null) session.trace = null;
+  if (Array.isArray(doc.assignments)) {
+    session.assignments = (doc.assignments as Record<string, unknown>[]).map((a, i) => ({
+      id: typeof a.id === 'string' && a.id ? a.id : `a${i + 1}`,
+      jUpper: a.J_up,
+      kUpper: a.K_up,
+      jLower: a.J_lo,
+      kLower: a.K_lo,
+      observedCm1: a.obs,
+      uncertaintyCm1: a.sigma ?? 0.001,
+      isBlended: a.blended === true,
+      isExcluded: a.excluded === true,
+      note: typeof a.note === 'string' ? a.note : '',
+    }));
+    session.nextAssignmentNumber = (doc.assignments as unknown[]).length + 1;
+  }
+  const v = doc.view as { xRange?: unknown } | undefined;
+  if (v && Array.isArray(v.xRange)) messages.push('version 1 kept only the zoom range of the view; other view settings take their defaults');
+  messages.push('migrated from project version 1 (model-file constants, plain-number trace) to version 2');
+  return session;
+}
+
+/**
+ * Read a project file.
+ * @param text JSON text
+ * @returns the session (model always; other fields when present and valid) with plain-language
+ *   messages for migrated, missing, invalid or unknown fields; or a refusal saying why
+ */
+export function projectFileParse(text: string): ProjectFileOutcome {
+  let doc: unknown;
+  try {
+    doc = JSON.parse(text, reviver);
+  } catch (err) {
+    return { ok: false, message: `project file is not valid JSON: ${(err as Error).message}` };
+  }
+  if (!doc || typeof doc !== 'object' || Array.isArray(doc)) return { ok: false, message: `project file: expected a JSON object, got ${describeValue(doc)}` };
+  const d = doc as Record<string, unknown>;
+  if (d.format !== PROJECT_FORMAT) {
+    return {
+      ok: false,
+      message: `project file: field 'format' is ${d.format === undefined ? 'missing' : describeValue(d.format)}; expected "${PROJECT_FORMAT}" (is this a model file or a line table? Those are opened the same way and recognised by their content)`,
+    };
+  }
+  const version = d.version;
+  if (typeof version !== 'number' || !Number.isInteger(version) || version < 1) {
+    return { ok: false, message: `project file: field 'version' is ${version === undefined ? 'missing' : describeValue(version)}; expected a whole number >= 1` };
+  }
+  if (version > PROJECT_VERSION) {
+    return {
+      ok: false,
+      message: `project file: version ${version} was written by a newer Ladder Bench${typeof d.appVersion === 'string' ? ` (${d.appVersion})` : ''}; this one reads versions up to ${PROJECT_VERSION}. Open it with the newer version, or export the model file and line table from there and open those here.`,
+    };
+  }
+  const messages: string[] = [];
+  let raw: Record<string, unknown>;
+  if (version === 1) {
+    try {
+      raw = migrateV1(d, messages);
+    } catch (err) {
+      return { ok: false, message: `project file (version 1): ${(err as Error).message}` };
+    }
+  } else {
+    if (!d.session || typeof d.session !== 'object' || Array.isArray(d.session)) {
+      return { ok: false, message: `project file: field 'session' is ${d.session === undefined ? 'missing' : describeValue(d.session)}; expected an object` };
+    }
+    raw = d.session as Record<string, unknown>;
+    for (const k of Object.keys(d)) if (!['format', 'version', 'savedAt', 'appVersion', 'session'].includes(k)) messages.push(`unknown top-level field '${k}' ignored`);
+  }
+  const m = modelSchema.safeParse(raw.model);
+  if (!m.success) {
+    return { ok: false, message: `project file: field 'session.model' ${raw.model === undefined ? 'is missing' : `is not a band model (${issueText(m.error.issues[0])})`}` };
+  }
+  const model: BandModel = {
+    ...m.data,
+    lower: stateConstantsFrom(m.data.lower),
+    upper: stateConstantsFrom(m.data.upper),
+  };
+  const session: Partial<ProjectSession> & { model: BandModel } = { model };
+  for (const key of Object.keys(raw)) {
+    if (key !== 'model' && !(key in FIELD_SCHEMAS)) messages.push(`unknown field 'session.${key}' ignored`);
+  }
+  for (const name of Object.keys(FIELD_SCHEMAS) as FieldName[]) {
+    if (!(name in raw)) {
+      if (version === PROJECT_VERSION) messages.push(`field 'session.${name}' is missing; the default is used`);
+      continue;
+    }
+    const r = FIELD_SCHEMAS[name].safeParse(raw[name]);
+    if (!r.success) {
+      messages.push(`field 'session.${name}' is invalid (${issueText(r.error.issues[0])}); the default is used`);
+      continue;
+    }
+    if (name === 'trace') {
+      const t = r.data as z.infer<typeof encodedTraceSchema> | null;
+      if (t === null) session.trace = null;
+      else {
+        try {
+          const x = base64ToFloat64(t.wavenumberCm1, 'session.trace.wavenumberCm1');
+          const y = base64ToFloat64(t.absorbance, 'session.trace.absorbance');
+          if (x.length !== t.points || y.length !== t.points) throw new Error(`session.trace: expected ${t.points} points, found ${x.length} and ${y.length}`);
+          for (let i = 1; i < x.length; i++) {
+            if (!(x[i] > x[i - 1])) throw new Error(`session.trace: wavenumbers must increase; point ${i} (${x[i]}) follows ${x[i - 1]}`);
+          }
+          session.trace = { wavenumberCm1: x, absorbance: y };
+        } catch (err) {
+          messages.push(`${(err as Error).message}; the trace was not loaded`);
+        }
+      }
+      continue;
+    }
+    if (name === 'fit') {
+      const f = r.data as z.infer<typeof fitSchema>;
+      session.fit = {
+        ...f,
+        outcome: f.outcome as FitOutcome | null,
+        modelBeforeAccept: f.modelBeforeAccept
+          ? { ...f.modelBeforeAccept, lower: stateConstantsFrom(f.modelBeforeAccept.lower), upper: stateConstantsFrom(f.modelBeforeAccept.upper) }
+          : null,
+      };
+      continue;
+    }
+    (session as Record<string, unknown>)[name] = r.data;
+  }
+  if (session.assignments) {
+    const seen = new Set<string>();
+    for (const a of session.assignments) {
+      if (seen.has(a.id)) {
+        messages.push(`assignment id '${a.id}' appears more than once; the assignments were not loaded`);
+        delete session.assignments;
+        break;
+      }
+      seen.add(a.id);
+    }
+  }
+  return { ok: true, session, messages, version };
+}

@@ -1,0 +1,227 @@
+/**
+ * Loading data: the demo at start-up, a dropped or chosen file (trace, model, line table or
+ * project, told apart by content), and re-importing the trace with edited import choices. A failed
+ * import changes nothing and says why in the message area.
+ */
+import type { Assignment } from '../fit/assignment';
+import { lineTableParse } from '../io/lineTable';
+import { modelFileParse } from '../io/modelFile';
+import type { Trace, TraceImportOutcome, TraceImportReport } from '../io/trace';
+import type { TraceImportOptions } from '../io/traceImportOptions';
+import { parseTraceInWorker } from '../workers/parseClient';
+import { assignmentsMarkBlends } from './assignLogic';
+import { benchUpdate, messagePost } from './actionsCore';
+import { modelLoadText, modelReplace } from './actionsModel';
+import { projectImportText } from './actionsProject';
+import { demoFallbackTrace } from './demoFallback';
+import { benchStore } from './store';
+import type { TraceSource } from './spectrumSlice';
+
+/** The file the current trace came from (kept for re-import with other choices; not persisted). */
+let lastSource: { file: File | Blob | string; fileName: string } | null = null;
+let importAbort: AbortController | null = null;
+
+/** The trace parser (the worker in the page; tests may swap in importTrace). */
+export type TraceParser = (
+  file: File | Blob | string,
+  fileName: string,
+  options: Partial<TraceImportOptions>,
+  onProgress: (fraction: number) => void,
+  signal: AbortSignal,
+) => Promise<TraceImportOutcome>;
+
+let parser: TraceParser = parseTraceInWorker;
+
+/** Replace the trace parser (tests). */
+export function importSetParser(p: TraceParser): void {
+  parser = p;
+}
+
+/** Put a trace in place (not undoable: the trace is not part of history). */
+export function traceReplace(trace: Trace, report: TraceImportReport | null, source: TraceSource, overrides: Partial<TraceImportOptions> = {}): void {
+  benchUpdate(
+    'load trace',
+    () => ({ trace, traceReport: report, traceSource: source, importOverrides: overrides, xRange: null, candidateTarget: null, traceImport: null }),
+    { history: false },
+  );
+}
+
+/** One-line description of an import report for the message area. */
+export function importReportSummary(r: TraceImportReport): string {
+  const ord = { absorbance: 'absorbance', transmittance: 'transmittance', 'percent-transmittance': 'transmittance in %' }[r.ordinate];
+  const skipped = r.skipped.count ? `, ${r.skipped.count} row${r.skipped.count === 1 ? '' : 's'} skipped` : '';
+  return `Loaded ${r.fileName}: ${r.format === 'jcamp-dx' ? 'JCAMP-DX' : 'delimited text'}, ${r.points.toLocaleString('en')} points, ${r.rangeCm1[0].toFixed(2)}–${r.rangeCm1[1].toFixed(2)} cm⁻¹, ${ord}${skipped}.`;
+}
+
+/**
+ * Read a trace file in the worker and, if it reads, make it the current trace.
+ * @param file the file (or its text)
+ * @param fileName shown in messages (untrusted text)
+ * @param overrides import choices (format, units, ordinate, column …)
+ * @param source where it came from
+ * @returns true when the trace was replaced
+ */
+export async function traceImport(
+  file: File | Blob | string,
+  fileName: string,
+  overrides: Partial<TraceImportOptions> = {},
+  source: TraceSource = 'file',
+): Promise<boolean> {
+  importAbort?.abort();
+  const ctrl = new AbortController();
+  importAbort = ctrl;
+  benchUpdate('import start', () => ({ traceImport: { fileName, fraction: 0 } }), { history: false });
+  let outcome: TraceImportOutcome;
+  try {
+    outcome = await parser(
+      file,
+      fileName,
+      overrides,
+      (fraction) => {
+        if (importAbort === ctrl) benchStore.setState({ traceImport: { fileName, fraction } });
+      },
+      ctrl.signal,
+    );
+  } catch (err) {
+    if (importAbort !== ctrl) return false;
+    importAbort = null;
+    benchUpdate('import failed', () => ({ traceImport: null }), { history: false });
+    if ((err as Error).name !== 'AbortError') messagePost('error', `Could not read ${fileName}: ${(err as Error).message}. The current trace and assignments are unchanged.`);
+    return false;
+  }
+  if (importAbort !== ctrl) return false;
+  importAbort = null;
+  if (!outcome.ok) {
+    benchUpdate('import failed', () => ({ traceImport: null }), { history: false });
+    const where = outcome.error.line !== undefined ? ` (line ${outcome.error.line})` : '';
+    messagePost('error', `Could not read ${fileName}${where}: ${outcome.error.message} The current trace and assignments are unchanged.`);
+    return false;
+  }
+  lastSource = { file, fileName };
+  traceReplace(outcome.trace, outcome.report, source, overrides);
+  messagePost('info', importReportSummary(outcome.report));
+  for (const m of outcome.report.messages) messagePost('info', `${fileName}: ${m}`);
+  return true;
+}
+
+/** Cancel a running trace import (the current trace stays). */
+export function traceImportCancel(): void {
+  if (!importAbort) return;
+  importAbort.abort();
+  importAbort = null;
+  benchUpdate('import cancelled', () => ({ traceImport: null }), { history: false });
+  messagePost('info', 'Import cancelled; the current trace is unchanged.');
+}
+
+/** Read the current trace's file again with changed import choices. */
+export async function traceReimport(overrides: Partial<TraceImportOptions>): Promise<boolean> {
+  if (!lastSource) {
+    messagePost('warning', 'The original file is no longer available (it is not kept across reloads); choose it again to re-import with other settings.');
+    return false;
+  }
+  return traceImport(lastSource.file, lastSource.fileName, overrides, benchStore.getState().traceSource === 'demo' ? 'demo' : 'file');
+}
+
+/** What kind of file a text is, judged by its content (extension as a tie-breaker). */
+export type DroppedKind = 'project' | 'model' | 'line-table' | 'trace';
+
+/**
+ * Tell a project file, model file, line table and trace apart.
+ * @param head the first few kB of the file
+ * @param fileName for the extension
+ */
+export function droppedKind(head: string, fileName: string): DroppedKind {
+  const t = head.replace(/^\uFEFF/, '').trimStart();
+  if (t.startsWith('{')) return /"format"\s*:\s*"ladder-bench-project"/.test(t) ? 'project' : 'model';
+  const firstLine = t.split(/\r?\n/, 1)[0] ?? '';
+  if (/(^|[,;\t ])J_up([,;\t ]|$)/.test(firstLine)) return 'line-table';
+  if (/\.json$/i.test(fileName)) return 'model';
+  return 'trace';
+}
+
+/**
+ * Open a file chosen or dropped by the user: project, model, line table or trace.
+ * @returns true when something was loaded
+ */
+export async function fileOpen(file: File): Promise<boolean> {
+  const head = await file.slice(0, 4096).text();
+  const kind = droppedKind(head, file.name);
+  if (kind === 'trace') return traceImport(file, file.name);
+  const text = await file.text();
+  if (kind === 'project') return projectImportText(text, file.name);
+  if (kind === 'model') return modelLoadText(text, file.name);
+  return lineTableLoadText(text, file.name);
+}
+
+/**
+ * Read a line table (CSV with J_up, K_up, J_lo, K_lo, wavenumber …) and add its rows to the
+ * assignments (one undo step); rows with the same quanta replace the existing ones.
+ */
+export function lineTableLoadText(text: string, fileName: string): boolean {
+  let rows: Assignment[];
+  try {
+    rows = lineTableParse(text, { fileName }).assignments;
+  } catch (err) {
+    messagePost('error', `Could not read the line table: ${(err as Error).message}. The assignments are unchanged.`);
+    return false;
+  }
+  const s = benchStore.getState();
+  let n = s.nextAssignmentNumber;
+  benchUpdate(
+    `load line table ${fileName}`,
+    (st) => {
+      const key = (a: Assignment) => `${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`;
+      const incoming = new Map(rows.map((r) => [key(r), r]));
+      const kept = st.assignments.filter((a) => !incoming.has(key(a)));
+      const ids = new Set(kept.map((a) => a.id));
+      const added = rows.map((r) => (ids.has(r.id) || !r.id ? { ...r, id: `a${n++}` } : r));
+      return { assignments: assignmentsMarkBlends([...kept, ...added]), nextAssignmentNumber: n };
+    },
+    { history: true },
+  );
+  messagePost('info', `Read ${rows.length} assigned lines from ${fileName}.`);
+  return true;
+}
+
+/**
+ * Load the demo: the model and trace from /demo/ (fetched from our own server), or, when they are
+ * not there, the built-in model with a trace simulated in memory.
+ */
+export async function demoLoad(): Promise<void> {
+  const base = import.meta.env?.BASE_URL ?? '/';
+  let modelText: string | null = null;
+  try {
+    const r = await fetch(`${base}demo/model.json`);
+    if (r.ok) modelText = await r.text();
+  } catch {
+    modelText = null;
+  }
+  if (modelText) {
+    try {
+      const f = modelFileParse(modelText);
+      modelReplace({ ...f, name: f.name ?? 'demo model' }, 'load demo model');
+    } catch (err) {
+      messagePost('warning', `The demo model could not be read (${(err as Error).message}); using the built-in one.`);
+    }
+  }
+  let traceLoaded = false;
+  try {
+    const r = await fetch(`${base}demo/trace.csv`);
+    if (r.ok) {
+      const blob = await r.blob();
+      traceLoaded = await traceImport(blob, 'demo/trace.csv', {}, 'demo');
+    }
+  } catch {
+    traceLoaded = false;
+  }
+  if (!traceLoaded) {
+    const s = benchStore.getState();
+    traceReplace(demoFallbackTrace(s.model, s.massAmu), null, 'simulated-demo');
+    messagePost('info', 'The demo trace file was not found; showing a spectrum simulated from the model instead.');
+  }
+  // The demo has many K″ rows: start with the lower ones visible (all can be shown in the ladder list).
+  const kMax = benchStore.getState().model.kMax;
+  const hidden: string[] = [];
+  for (let k = 9; k <= kMax; k++) hidden.push(`r:${k}`, `p:${k}`, `q:${k}`);
+  benchUpdate('ladder rows', () => ({ hiddenRows: hidden }), { history: false });
+}

@@ -1,0 +1,189 @@
+/**
+ * Model edits (all enter undo history; typing in one field is one step).
+ */
+import { modelAllowedParameters, modelFileParse, type ModelFile } from '../io/modelFile';
+import { bandTypeFromSymmetry } from '../physics/bandSymmetry';
+import { wavenumberToMhz } from '../physics/constants';
+import type { BandModel, BandType, ParameterName, TopShape } from '../physics/model';
+import { benchUpdate, messagePost } from './actionsCore';
+import type { ModelSymmetry } from './modelSlice';
+
+/** Which state a constant belongs to. */
+export type ModelSide = 'lower' | 'upper';
+
+/**
+ * Set one constant.
+ * @param value cm^-1 (ζ dimensionless); must be finite
+ * @returns an error sentence, or null when applied
+ */
+export function modelSetConstant(side: ModelSide, name: ParameterName, value: number): string | null {
+  if (!Number.isFinite(value)) return `${side}.${name} must be a finite number, got ${value}`;
+  benchUpdate(
+    `edit ${side}.${name}`,
+    (s) => ({ model: { ...s.model, [side]: { ...s.model[side], [name]: value } }, isFitAccepted: false }),
+    { history: true, coalesce: true },
+  );
+  return null;
+}
+
+/**
+ * Set a lower-state constant given in MHz.
+ * @param valueMhz MHz
+ */
+export function modelSetConstantMhz(name: ParameterName, valueMhz: number): string | null {
+  return modelSetConstant('lower', name, valueMhz / wavenumberToMhz(1));
+}
+
+/** Float or fix a constant in the fit. */
+export function modelSetFloated(key: string, isFloated: boolean): void {
+  benchUpdate(
+    isFloated ? `float ${key}` : `fix ${key}`,
+    (s) => {
+      const has = s.floated.includes(key);
+      if (has === isFloated) return {};
+      return { floated: isFloated ? [...s.floated, key] : s.floated.filter((k) => k !== key) };
+    },
+    { history: true },
+  );
+}
+
+/** Float exactly these keys (e.g. the suggestion of an under-determined fit applied). */
+export function modelSetFloatedKeys(keys: readonly string[], label: string): void {
+  benchUpdate(label, () => ({ floated: [...keys] }), { history: true });
+}
+
+/** Floated keys that remain meaningful for a shape (drops A for oblate, C for prolate …). */
+export function floatedForShape(floated: readonly string[], shape: TopShape): string[] {
+  return floated.filter((k) => {
+    const [side, name] = k.split('.') as [ModelSide, ParameterName];
+    return modelAllowedParameters(shape, side).includes(name);
+  });
+}
+
+/** Change the rotor shape (kMax becomes 0 for a linear molecule). */
+export function modelSetShape(shape: TopShape): void {
+  benchUpdate(
+    `shape ${shape}`,
+    (s) => ({
+      model: { ...s.model, shape, kMax: shape === 'linear' ? 0 : Math.max(s.model.kMax, 1) },
+      floated: floatedForShape(s.floated, shape),
+    }),
+    { history: true },
+  );
+}
+
+/** Change the band type directly (clears a symmetry derivation). */
+export function modelSetBand(band: BandType): void {
+  benchUpdate(`band ${band}`, (s) => ({ model: { ...s.model, band }, symmetry: null }), { history: true });
+}
+
+/**
+ * Derive the band type from point group and vibrational species.
+ * @returns the physics module's reason (shown beside the choice), or an error sentence
+ */
+export function modelSetSymmetry(symmetry: ModelSymmetry): { ok: boolean; text: string } {
+  let r;
+  try {
+    r = bandTypeFromSymmetry(symmetry.pointGroup, symmetry.species);
+  } catch (err) {
+    return { ok: false, text: (err as Error).message };
+  }
+  if (r.activity === 'inactive') {
+    benchUpdate(`symmetry ${symmetry.pointGroup} ${symmetry.species}`, () => ({ symmetry }), { history: true });
+    return { ok: false, text: r.reason };
+  }
+  const band = r.activity;
+  benchUpdate(`symmetry ${symmetry.pointGroup} ${symmetry.species}`, (s) => ({ model: { ...s.model, band }, symmetry }), { history: true });
+  return { ok: true, text: r.reason };
+}
+
+/** Numeric model settings outside the two states. */
+export type ModelScalarField = 'temperatureK' | 'jMax' | 'kMax';
+
+/**
+ * Set the temperature (K, > 0) or a J''/K'' limit (whole number 0…400).
+ * @returns an error sentence, or null when applied
+ */
+export function modelSetScalar(field: ModelScalarField, value: number): string | null {
+  if (field === 'temperatureK') {
+    if (!(value > 0 && Number.isFinite(value))) return `temperature must be a number > 0 K, got ${value}`;
+  } else if (!Number.isInteger(value) || value < 0 || value > 400) {
+    return `${field === 'jMax' ? 'J″ max' : 'K″ max'} must be a whole number from 0 to 400, got ${value}`;
+  }
+  benchUpdate(`edit ${field}`, (s) => ({ model: { ...s.model, [field]: value } }), { history: true, coalesce: true });
+  return null;
+}
+
+/**
+ * Set nuclear-spin weights g(K'' mod n).
+ * @param text comma- or space-separated weights, e.g. "2, 1, 1"
+ * @returns an error sentence, or null when applied
+ */
+export function modelSetSpinWeights(text: string): string | null {
+  const parts = text.split(/[\s,;]+/).filter((p) => p !== '');
+  const weights = parts.map(Number);
+  if (weights.length === 0 || weights.some((w) => !(w >= 0) || !Number.isFinite(w))) {
+    return `spin weights must be a list of numbers >= 0 such as "2, 1, 1", got "${text}"`;
+  }
+  if (weights.every((w) => w === 0)) return 'spin weights: at least one weight must be > 0';
+  benchUpdate('edit spin weights', (s) => ({ model: { ...s.model, spinWeights: weights } }), { history: true, coalesce: true });
+  return null;
+}
+
+/**
+ * Set simulation settings (not part of undo: they change no line position).
+ * @returns an error sentence, or null
+ */
+export function modelSetSimulation(field: 'massAmu' | 'lorentzHwhmCm1', value: number): string | null {
+  if (field === 'massAmu' && !(value > 0 && Number.isFinite(value))) return `mass must be a number > 0 amu, got ${value}`;
+  if (field === 'lorentzHwhmCm1' && !(value >= 0 && Number.isFinite(value))) return `Lorentz HWHM must be a number >= 0 cm⁻¹, got ${value}`;
+  benchUpdate(`edit ${field}`, () => ({ [field]: value }), { history: false });
+  return null;
+}
+
+/** Hide lines weaker than this fraction of the strongest (0 … 0.5). */
+export function modelSetMinIntensity(value: number): string | null {
+  if (!(value >= 0 && value <= 0.5)) return `intensity cut must be between 0 and 0.5, got ${value}`;
+  benchUpdate('edit intensity cut', () => ({ minIntensity: value }), { history: true, coalesce: true });
+  return null;
+}
+
+/** Replace the whole model (e.g. from a model file); one undo step. */
+export function modelReplace(file: Pick<ModelFile, 'model' | 'floated' | 'name' | 'massAmu'>, label: string): void {
+  benchUpdate(
+    label,
+    (s) => ({
+      model: file.model,
+      floated: file.floated,
+      modelName: file.name ?? s.modelName,
+      massAmu: file.massAmu ?? s.massAmu,
+      symmetry: null,
+      isFitAccepted: false,
+      modelBeforeAccept: null,
+    }),
+    { history: true },
+  );
+}
+
+/**
+ * Read a model file (JSON) chosen by the user and make it the current model.
+ * @returns true when loaded; on failure a message is posted and nothing changes
+ */
+export function modelLoadText(text: string, fileName: string): boolean {
+  let file: ModelFile;
+  try {
+    file = modelFileParse(text);
+  } catch (err) {
+    messagePost('error', `Could not read the model file ${fileName}: ${(err as Error).message}. The current model is unchanged.`);
+    return false;
+  }
+  modelReplace({ ...file, name: file.name ?? fileName }, `load model ${fileName}`);
+  for (const w of file.warnings) messagePost('warning', `${fileName}: ${w}`);
+  messagePost('info', `Model loaded from ${fileName}.`);
+  return true;
+}
+
+/** The allowed constants of a side for the current shape (for the panel rows). */
+export function modelParameterNames(model: BandModel, side: ModelSide): ParameterName[] {
+  return modelAllowedParameters(model.shape, side);
+}

@@ -1,0 +1,142 @@
+/**
+ * Pure helpers behind the assignment actions: add, update, remove assignments and judge how far
+ * an observation sits from its prediction. Lists are immutable (every change returns a new array).
+ */
+import { ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1, type Assignment } from '../fit/assignment';
+import type { TransitionQuanta } from '../physics/model';
+import { quantaKey } from './candidateRank';
+
+/** What a new assignment needs. */
+export interface AssignmentDraft extends TransitionQuanta {
+  observedCm1: number;
+  /** Peak identifier (several assignments sharing one peak form a blend). */
+  peakId?: string;
+  /** 1σ of the position, cm^-1. @default ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1 */
+  uncertaintyCm1?: number;
+}
+
+/** Identifier of a peak at a position: its centre to 1e-5 cm^-1. */
+export function peakIdAt(positionCm1: number): string {
+  return `pk${positionCm1.toFixed(5)}`;
+}
+
+/**
+ * Add an assignment. Quanta already in the list are re-assigned (their position and peak replaced,
+ * keeping id, σ and note) rather than duplicated. A peak that then carries two or more transitions
+ * has all of them flagged as blended.
+ * @param list current assignments
+ * @param draft quanta, observed position (cm^-1), peak
+ * @param id identifier for a new entry
+ * @returns the new list and the id of the added or updated entry
+ */
+export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDraft, id: string): { list: Assignment[]; id: string } {
+  if (!Number.isFinite(draft.observedCm1)) throw new Error(`assignmentsAdd: observedCm1 must be finite, got ${draft.observedCm1}`);
+  const key = quantaKey(draft);
+  const existing = list.find((a) => quantaKey(a) === key);
+  let out: Assignment[];
+  let resultId: string;
+  if (existing) {
+    resultId = existing.id;
+    out = list.map((a) =>
+      a === existing ? { ...a, observedCm1: draft.observedCm1, peakId: draft.peakId, isBlended: false, uncertaintyCm1: draft.uncertaintyCm1 ?? a.uncertaintyCm1 } : a,
+    );
+  } else {
+    resultId = id;
+    out = [
+      ...list,
+      {
+        id,
+        jUpper: draft.jUpper,
+        kUpper: draft.kUpper,
+        jLower: draft.jLower,
+        kLower: draft.kLower,
+        observedCm1: draft.observedCm1,
+        uncertaintyCm1: draft.uncertaintyCm1 ?? ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1,
+        isBlended: false,
+        isExcluded: false,
+        note: '',
+        ...(draft.peakId !== undefined ? { peakId: draft.peakId } : {}),
+      },
+    ];
+  }
+  return { list: assignmentsMarkBlends(out, existing?.peakId), id: resultId };
+}
+
+/**
+ * Flag as blended every assignment whose peak carries more than one transition; an entry left
+ * alone on `releasedPeakId` (the peak an entry just moved away from) is un-flagged.
+ */
+export function assignmentsMarkBlends(list: Assignment[], releasedPeakId?: string): Assignment[] {
+  const count = new Map<string, number>();
+  for (const a of list) if (a.peakId !== undefined) count.set(a.peakId, (count.get(a.peakId) ?? 0) + 1);
+  return list.map((a) => {
+    if (a.peakId === undefined) return a;
+    const n = count.get(a.peakId) ?? 0;
+    if (n > 1 && !a.isBlended) return { ...a, isBlended: true };
+    if (n === 1 && a.peakId === releasedPeakId && a.isBlended) return { ...a, isBlended: false };
+    return a;
+  });
+}
+
+/** Editable fields of an assignment. */
+export type AssignmentPatch = Partial<Pick<Assignment, 'uncertaintyCm1' | 'isExcluded' | 'isBlended' | 'note' | 'observedCm1'>>;
+
+/**
+ * Change fields of one assignment.
+ * @throws naming the field when the uncertainty is not > 0 or the position not finite
+ */
+export function assignmentsUpdate(list: readonly Assignment[], id: string, patch: AssignmentPatch): Assignment[] {
+  if (patch.uncertaintyCm1 !== undefined && !(patch.uncertaintyCm1 > 0 && Number.isFinite(patch.uncertaintyCm1))) {
+    throw new Error(`uncertainty must be a number > 0 cm⁻¹, got ${patch.uncertaintyCm1}`);
+  }
+  if (patch.observedCm1 !== undefined && !Number.isFinite(patch.observedCm1)) {
+    throw new Error(`observed position must be a finite number, got ${patch.observedCm1}`);
+  }
+  if (!list.some((a) => a.id === id)) throw new Error(`no assignment with id ${id}`);
+  return list.map((a) => (a.id === id ? { ...a, ...patch } : a));
+}
+
+/** Remove assignments by id (blend flags of the peaks they leave are recomputed). */
+export function assignmentsRemove(list: readonly Assignment[], ids: readonly string[]): Assignment[] {
+  const drop = new Set(ids);
+  const released = list.filter((a) => drop.has(a.id)).map((a) => a.peakId);
+  let out = list.filter((a) => !drop.has(a.id));
+  for (const p of released) if (p !== undefined) out = assignmentsMarkBlends(out, p);
+  return out;
+}
+
+/** How far an observation is from its prediction. */
+export interface AssignmentDeviation {
+  /** obs − calc, cm^-1. */
+  omcCm1: number;
+  /** |obs − calc| / √(σ_obs² + σ_pred²), null without a fit. */
+  omcSigma: number | null;
+  /** Beyond 3σ (with a fit) or beyond the tolerance (without one). */
+  isFar: boolean;
+}
+
+/**
+ * Judge an assignment against its prediction: with a fit (σ_pred known), far means
+ * |o − c| > 3√(σ_obs² + σ_pred²); without one, far means |o − c| > toleranceCm1.
+ * Source: common practice (3σ rejection, e.g. Bevington & Robinson 2003, sec. 6.4, from memory).
+ * @param observedCm1 observed, cm^-1
+ * @param calcCm1 predicted, cm^-1
+ * @param sigmaObsCm1 observation 1σ, cm^-1
+ * @param sigmaPredCm1 prediction 1σ from the fit, cm^-1, or null without a fit
+ * @param toleranceCm1 fallback tolerance, cm^-1
+ */
+export function assignmentDeviation(
+  observedCm1: number,
+  calcCm1: number,
+  sigmaObsCm1: number,
+  sigmaPredCm1: number | null,
+  toleranceCm1: number,
+): AssignmentDeviation {
+  const omcCm1 = observedCm1 - calcCm1;
+  if (sigmaPredCm1 !== null && Number.isFinite(sigmaPredCm1)) {
+    const s = Math.hypot(sigmaObsCm1, sigmaPredCm1);
+    const omcSigma = s > 0 ? Math.abs(omcCm1) / s : Infinity;
+    return { omcCm1, omcSigma, isFar: omcSigma > 3 };
+  }
+  return { omcCm1, omcSigma: null, isFar: Math.abs(omcCm1) > toleranceCm1 };
+}

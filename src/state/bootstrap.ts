@@ -1,0 +1,26 @@
+/**
+ * Start-up: restore the autosaved session when there is one, else load the demo; then autosave.
+ */
+import { messagePost } from './actionsCore';
+import { demoLoad } from './actionsImport';
+import { persistRestore, persistStart } from './persist';
+import { benchStore } from './store';
+
+/** Bring the page to life (called once from main.tsx). */
+export async function bootstrap(): Promise<void> {
+  let restored = false;
+  try {
+    restored = await persistRestore();
+  } catch (err) {
+    messagePost('warning', `The autosaved session could not be read (${(err as Error).message}).`);
+  }
+  if (restored) {
+    const s = benchStore.getState();
+    messagePost('info', `Restored your last session (${s.assignments.length} assignments). Changes are saved automatically in this browser.`);
+  } else {
+    await demoLoad();
+    // The demo is the starting point, not something to undo back out of.
+    benchStore.setState({ past: [], future: [] });
+  }
+  persistStart();
+}

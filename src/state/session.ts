@@ -1,0 +1,116 @@
+/**
+ * Mapping between the store and a ProjectSession (the project file's and the autosave's content).
+ */
+import type { ProjectSession } from '../io/projectFile';
+import type { TraceImportOptions } from '../io/traceImportOptions';
+import { assignmentsSliceInitial } from './assignmentsSlice';
+import { fitSliceInitial } from './fitSlice';
+import { modelSliceInitial } from './modelSlice';
+import { spectrumSliceInitial, type TraceSource } from './spectrumSlice';
+import type { BenchState } from './store';
+import { viewSliceInitial, type BenchTab, type TableQuery } from './viewSlice';
+
+/** Everything worth saving from the store. */
+export function sessionOf(s: BenchState): ProjectSession {
+  return {
+    model: s.model,
+    floated: s.floated,
+    modelName: s.modelName,
+    massAmu: s.massAmu,
+    lorentzHwhmCm1: s.lorentzHwhmCm1,
+    minIntensity: s.minIntensity,
+    symmetry: s.symmetry,
+    trace: s.trace,
+    traceReport: s.traceReport,
+    traceSource: s.traceSource,
+    importOverrides: s.importOverrides as Record<string, unknown>,
+    peakMinSnr: s.peakMinSnr,
+    peakBaseline: s.peakBaseline,
+    assignments: s.assignments,
+    nextAssignmentNumber: s.nextAssignmentNumber,
+    farToleranceCm1: s.farToleranceCm1,
+    fit: {
+      outcome: s.fitOutcome,
+      lineIds: s.fitLineIds,
+      finishedAt: s.fitFinishedAt,
+      modelBeforeAccept: s.modelBeforeAccept,
+      isAccepted: s.isFitAccepted,
+    },
+    view: {
+      xRange: s.xRange,
+      ordinate: s.ordinate,
+      hiddenRows: s.hiddenRows,
+      showSimulated: s.showSimulated,
+      showObsMinusSim: s.showObsMinusSim,
+      showPeaks: s.showPeaks,
+      theme: s.theme,
+      tab: s.tab,
+      loomisSeriesKey: s.loomisSeriesKey,
+      loomisHalfWidthCm1: s.loomisHalfWidthCm1,
+      combinationState: s.combinationState,
+      tableQuery: s.tableQuery as unknown as Record<string, unknown>,
+    },
+  };
+}
+
+const TABS: BenchTab[] = ['assignments', 'solve', 'combination', 'loomis', 'export', 'import'];
+
+/**
+ * Store fields for a (possibly partial) session; absent fields take their initial values.
+ * Undo history, messages and running jobs are not part of a session and are reset.
+ */
+export function stateFromSession(p: Partial<ProjectSession> & { model: ProjectSession['model'] }): Partial<BenchState> {
+  const m = modelSliceInitial();
+  const sp = spectrumSliceInitial();
+  const a = assignmentsSliceInitial();
+  const f = fitSliceInitial();
+  const v = viewSliceInitial();
+  const pv: Partial<ProjectSession['view']> = p.view ?? {};
+  const nextNumber = Math.max(
+    p.nextAssignmentNumber ?? 1,
+    1 + Math.max(0, ...(p.assignments ?? []).map((x) => Number(/^a(\d+)$/.exec(x.id)?.[1] ?? 0))),
+  );
+  return {
+    model: p.model,
+    floated: p.floated ?? m.floated,
+    modelName: p.modelName ?? m.modelName,
+    massAmu: p.massAmu ?? m.massAmu,
+    lorentzHwhmCm1: p.lorentzHwhmCm1 ?? m.lorentzHwhmCm1,
+    minIntensity: p.minIntensity ?? m.minIntensity,
+    symmetry: p.symmetry ?? null,
+    trace: p.trace ?? null,
+    traceReport: p.traceReport ?? null,
+    traceSource: (p.traceSource as TraceSource | undefined) ?? (p.trace ? 'project' : 'none'),
+    importOverrides: (p.importOverrides as Partial<TraceImportOptions> | undefined) ?? sp.importOverrides,
+    peakMinSnr: p.peakMinSnr ?? sp.peakMinSnr,
+    peakBaseline: p.peakBaseline ?? sp.peakBaseline,
+    traceImport: null,
+    assignments: p.assignments ?? [],
+    nextAssignmentNumber: nextNumber,
+    farToleranceCm1: p.farToleranceCm1 ?? a.farToleranceCm1,
+    selectedAssignmentId: null,
+    cursor: null,
+    candidateTarget: null,
+    isFitRunning: false,
+    fitProgress: null,
+    fitOutcome: p.fit?.outcome ?? f.fitOutcome,
+    fitLineIds: p.fit?.lineIds ?? f.fitLineIds,
+    fitFinishedAt: p.fit?.finishedAt ?? f.fitFinishedAt,
+    modelBeforeAccept: p.fit?.modelBeforeAccept ?? null,
+    isFitAccepted: p.fit?.isAccepted ?? false,
+    xRange: pv.xRange ?? null,
+    ordinate: pv.ordinate ?? v.ordinate,
+    hiddenRows: pv.hiddenRows ?? v.hiddenRows,
+    showSimulated: pv.showSimulated ?? v.showSimulated,
+    showObsMinusSim: pv.showObsMinusSim ?? v.showObsMinusSim,
+    showPeaks: pv.showPeaks ?? v.showPeaks,
+    theme: pv.theme ?? v.theme,
+    tab: TABS.includes(pv.tab as BenchTab) ? (pv.tab as BenchTab) : v.tab,
+    loomisSeriesKey: pv.loomisSeriesKey ?? null,
+    loomisHalfWidthCm1: pv.loomisHalfWidthCm1 ?? v.loomisHalfWidthCm1,
+    combinationState: pv.combinationState ?? v.combinationState,
+    tableQuery: { ...v.tableQuery, ...(pv.tableQuery as Partial<TableQuery> | undefined) },
+    past: [],
+    future: [],
+  };
+}

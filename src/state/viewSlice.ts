@@ -1,0 +1,77 @@
+import type { StateCreator } from 'zustand';
+import type { BenchState } from './store';
+
+/** A message shown in the page's message area. */
+export interface BenchMessage {
+  id: number;
+  level: 'info' | 'warning' | 'error';
+  /** Plain text (may quote file text; always rendered as a text node). */
+  text: string;
+}
+
+/** Which tab of the lower panel is shown. */
+export type BenchTab = 'assignments' | 'solve' | 'combination' | 'loomis' | 'export' | 'import';
+
+/** Sort and filter of the assignments table. */
+export interface TableQuery {
+  sortKey: 'label' | 'jLower' | 'kLower' | 'obs' | 'calc' | 'omc' | 'absOmc';
+  sortDescending: boolean;
+  /** '' for all, else 'P' | 'Q' | 'R'. */
+  branch: '' | 'P' | 'Q' | 'R';
+  /** K'' to show, null for all. */
+  kLower: number | null;
+  /** J'' range; null ends are open. */
+  jMin: number | null;
+  jMax: number | null;
+  /** Show only rows with |obs − calc| at least this, cm^-1 (0 for all). */
+  minAbsOmcCm1: number;
+}
+
+/** Everything about how things are shown (never part of undo). */
+export interface ViewSlice {
+  /** Visible wavenumber range, cm^-1; null = whole trace. */
+  xRange: [number, number] | null;
+  /** Trace drawn as absorbance or transmittance. */
+  ordinate: 'absorbance' | 'transmittance';
+  /** Row keys ("r:3") of hidden ladder rows. */
+  hiddenRows: string[];
+  showSimulated: boolean;
+  showObsMinusSim: boolean;
+  showPeaks: boolean;
+  theme: 'light' | 'dark';
+  isHelpOpen: boolean;
+  tab: BenchTab;
+  /** Ladder key of the Loomis–Wood series, e.g. "r:2:R". */
+  loomisSeriesKey: string | null;
+  /** Half width of each Loomis–Wood strip, cm^-1. */
+  loomisHalfWidthCm1: number;
+  /** State whose combination differences are shown. */
+  combinationState: 'lower' | 'upper';
+  tableQuery: TableQuery;
+  messages: BenchMessage[];
+  nextMessageId: number;
+}
+
+/** Initial view state. */
+export function viewSliceInitial(): ViewSlice {
+  return {
+    xRange: null,
+    ordinate: 'transmittance',
+    hiddenRows: [],
+    showSimulated: false,
+    showObsMinusSim: false,
+    showPeaks: true,
+    theme: 'light',
+    isHelpOpen: false,
+    tab: 'assignments',
+    loomisSeriesKey: null,
+    loomisHalfWidthCm1: 0.6,
+    combinationState: 'lower',
+    tableQuery: { sortKey: 'label', sortDescending: false, branch: '', kLower: null, jMin: null, jMax: null, minAbsOmcCm1: 0 },
+    messages: [],
+    nextMessageId: 1,
+  };
+}
+
+/** Slice creator (state only). */
+export const createViewSlice: StateCreator<BenchState, [], [], ViewSlice> = () => viewSliceInitial();

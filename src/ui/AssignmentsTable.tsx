@@ -1,0 +1,217 @@
+/** The assignments table: virtualised rows, sort and filter, inline edits; a row click zooms the plot to the line. */
+import { useVirtualizer } from '@tanstack/react-virtual';
+import { useMemo, useRef, useState } from 'react';
+import type { TransitionQuanta } from '../physics/model';
+import { assignmentDelete, assignmentEdit, assignmentSelect } from '../state/actionsAssign';
+import { benchUpdate } from '../state/actionsCore';
+import { viewSetTableQuery } from '../state/actionsView';
+import { selectAssignmentRows, type AssignmentRow } from '../state/selectors';
+import { useBench } from '../state/store';
+import { tableRowsQuery } from '../state/tableQuery';
+import type { TableQuery } from '../state/viewSlice';
+import { LineLabel } from './LineLabel';
+import { NumberField } from './NumberField';
+
+const ROW_HEIGHT = 30;
+
+const COLUMNS: { key: TableQuery['sortKey'] | null; label: string; className?: string }[] = [
+  { key: 'label', label: 'Line' },
+  { key: 'jLower', label: 'J′ K′ ← J″ K″' },
+  { key: 'obs', label: 'obs / cm⁻¹', className: 'num' },
+  { key: 'calc', label: 'calc / cm⁻¹', className: 'num' },
+  { key: 'omc', label: 'o − c / cm⁻¹', className: 'num' },
+  { key: null, label: 'σ / cm⁻¹' },
+  { key: null, label: 'Excl.' },
+  { key: null, label: 'Blend' },
+  { key: null, label: 'Note' },
+  { key: null, label: '' },
+];
+
+function quanta(r: AssignmentRow): TransitionQuanta {
+  return { jUpper: r.a.jUpper, kUpper: r.a.kUpper, jLower: r.a.jLower, kLower: r.a.kLower };
+}
+
+function NoteField({ id, note }: { id: string; note: string }) {
+  const [draft, setDraft] = useState(note);
+  const [isFocused, setFocused] = useState(false);
+  return (
+    <input
+      type="text"
+      className="note"
+      aria-label={`Note for ${id}`}
+      value={isFocused ? draft : note}
+      maxLength={500}
+      onFocus={() => (setDraft(note), setFocused(true))}
+      onChange={(e) => {
+        setDraft(e.target.value);
+        assignmentEdit(id, { note: e.target.value });
+      }}
+      onBlur={() => setFocused(false)}
+      onClick={(e) => e.stopPropagation()}
+    />
+  );
+}
+
+function Row({ r, isSelected, shape, top }: { r: AssignmentRow; isSelected: boolean; shape: 'prolate' | 'oblate' | 'linear'; top: number }) {
+  const a = r.a;
+  const flags = [r.isFar && 'far from prediction', r.isOutlier && 'fit outlier'].filter(Boolean).join(', ');
+  return (
+    <div
+      role="row"
+      aria-selected={isSelected}
+      className={`trow ${isSelected ? 'selected' : ''} ${r.isFar || r.isOutlier ? 'flagged' : ''} ${a.isExcluded ? 'excluded' : ''}`}
+      style={{ transform: `translateY(${top}px)`, height: ROW_HEIGHT }}
+      onClick={() => assignmentSelect(a.id)}
+      data-testid="assignment-row"
+    >
+      <span role="cell" className="c-label">
+        <LineLabel q={quanta(r)} shape={shape} />
+        {flags && (
+          <span className="flag" title={flags} aria-label={flags}>
+            ⚑
+          </span>
+        )}
+      </span>
+      <span role="cell" className="c-q">
+        {a.jUpper} {a.kUpper} ← {a.jLower} {a.kLower}
+      </span>
+      <span role="cell" className="num">
+        {a.observedCm1.toFixed(5)}
+      </span>
+      <span role="cell" className="num">
+        {r.calcCm1.toFixed(5)}
+      </span>
+      <span role="cell" className={`num ${r.isFar ? 'bad' : ''}`} title={r.omcSigma !== null ? `${r.omcSigma.toFixed(1)} σ` : undefined}>
+        {r.omcCm1.toFixed(5)}
+      </span>
+      <span role="cell" onClick={(e) => e.stopPropagation()}>
+        <NumberField label={`Uncertainty of ${a.id} in cm⁻¹`} isLabelHidden className="narrow" value={a.uncertaintyCm1} onCommit={(v) => assignmentEdit(a.id, { uncertaintyCm1: v })} />
+      </span>
+      <span role="cell" onClick={(e) => e.stopPropagation()}>
+        <input type="checkbox" aria-label={`Exclude ${a.id} from the fit`} checked={a.isExcluded} onChange={(e) => assignmentEdit(a.id, { isExcluded: e.target.checked })} />
+      </span>
+      <span role="cell" onClick={(e) => e.stopPropagation()}>
+        <input type="checkbox" aria-label={`${a.id} is a blend`} checked={a.isBlended} onChange={(e) => assignmentEdit(a.id, { isBlended: e.target.checked })} />
+      </span>
+      <span role="cell">
+        <NoteField id={a.id} note={a.note} />
+      </span>
+      <span role="cell">
+        <button
+          type="button"
+          className="icon"
+          aria-label={`Delete assignment ${a.id}`}
+          onClick={(e) => {
+            e.stopPropagation();
+            assignmentDelete([a.id]);
+          }}
+        >
+          ✕
+        </button>
+      </span>
+    </div>
+  );
+}
+
+function Filters() {
+  const q = useBench((s) => s.tableQuery);
+  const tolerance = useBench((s) => s.farToleranceCm1);
+  const optNum = (v: string) => (v.trim() === '' ? null : Number(v));
+  return (
+    <div className="table-filters" role="group" aria-label="Filter the assignments">
+      <label>
+        Branch
+        <select value={q.branch} onChange={(e) => viewSetTableQuery({ branch: e.target.value as TableQuery['branch'] })}>
+          <option value="">all</option>
+          <option value="P">P</option>
+          <option value="Q">Q</option>
+          <option value="R">R</option>
+        </select>
+      </label>
+      <label>
+        K″
+        <input type="number" min={0} className="tiny" value={q.kLower ?? ''} onChange={(e) => viewSetTableQuery({ kLower: optNum(e.target.value) })} />
+      </label>
+      <label>
+        J″ from
+        <input type="number" min={0} className="tiny" value={q.jMin ?? ''} onChange={(e) => viewSetTableQuery({ jMin: optNum(e.target.value) })} />
+      </label>
+      <label>
+        to
+        <input type="number" min={0} className="tiny" value={q.jMax ?? ''} onChange={(e) => viewSetTableQuery({ jMax: optNum(e.target.value) })} />
+      </label>
+      <label>
+        |o − c| ≥
+        <input
+          type="number"
+          min={0}
+          step={0.001}
+          className="small-num"
+          value={q.minAbsOmcCm1 || ''}
+          onChange={(e) => viewSetTableQuery({ minAbsOmcCm1: Math.max(0, Number(e.target.value) || 0) })}
+        />
+        cm⁻¹
+      </label>
+      <NumberField
+        label="Flag beyond (no fit) / cm⁻¹"
+        className="narrow"
+        value={tolerance}
+        onCommit={(v) => {
+          if (!(v > 0)) return 'tolerance must be > 0 cm⁻¹';
+          benchUpdate('tolerance', () => ({ farToleranceCm1: v }), { history: false });
+          return null;
+        }}
+      />
+    </div>
+  );
+}
+
+export function AssignmentsTable() {
+  const rows = useBench(selectAssignmentRows);
+  const q = useBench((s) => s.tableQuery);
+  const selectedId = useBench((s) => s.selectedAssignmentId);
+  const shape = useBench((s) => s.model.shape);
+  const shown = useMemo(() => tableRowsQuery(rows, q), [rows, q]);
+  const scrollRef = useRef<HTMLDivElement>(null);
+  const virtualizer = useVirtualizer({ count: shown.length, getScrollElement: () => scrollRef.current, estimateSize: () => ROW_HEIGHT, overscan: 12 });
+  const nFar = rows.filter((r) => r.isFar).length;
+
+  return (
+    <div className="assignments">
+      <div className="table-top">
+        <span className="count" data-testid="assignment-count">
+          {rows.length} assigned{shown.length !== rows.length ? `, ${shown.length} shown` : ''}
+          {nFar > 0 && <span className="bad"> · {nFar} far from prediction</span>}
+        </span>
+        <Filters />
+      </div>
+      <div className="vtable" role="table" aria-label="Assigned lines" aria-rowcount={shown.length + 1}>
+        <div role="row" className="thead">
+          {COLUMNS.map((c, i) => (
+            <span role="columnheader" key={i} className={c.className} aria-sort={c.key && q.sortKey === c.key ? (q.sortDescending ? 'descending' : 'ascending') : undefined}>
+              {c.key ? (
+                <button type="button" className="sort" onClick={() => viewSetTableQuery({ sortKey: c.key!, sortDescending: q.sortKey === c.key ? !q.sortDescending : false })}>
+                  {c.label}
+                  {q.sortKey === c.key ? (q.sortDescending ? ' ▼' : ' ▲') : ''}
+                </button>
+              ) : (
+                c.label
+              )}
+            </span>
+          ))}
+        </div>
+        <div ref={scrollRef} className="tbody" role="rowgroup">
+          {shown.length === 0 ? (
+            <p className="empty muted">{rows.length === 0 ? 'No lines assigned yet: click a peak in the plot to see candidates, or click a rung and then a peak.' : 'No row matches the filter.'}</p>
+          ) : (
+            <div style={{ height: virtualizer.getTotalSize(), position: 'relative' }}>
+              {virtualizer.getVirtualItems().map((v) => (
+                <Row key={shown[v.index].a.id} r={shown[v.index]} isSelected={shown[v.index].a.id === selectedId} shape={shape} top={v.start} />
+              ))}
+            </div>
+          )}
+        </div>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,121 @@
+/** Downloads: assigned line table, fit report, simulated lines and spectrum, model file, whole project. */
+import { lineTableSerialize } from '../io/lineTable';
+import { simulatedLinesCsv, spectrumCsv } from '../io/exportCsv';
+import { fitReportMarkdown } from '../io/fitReport';
+import { modelFileSerialize } from '../io/modelFile';
+import { messagePost } from '../state/actionsCore';
+import { projectExportText } from '../state/actionsProject';
+import { selectAssignmentRows, selectBand, selectFitResult, selectSimulated } from '../state/selectors';
+import { benchStore, useBench } from '../state/store';
+import { APP_VERSION } from './appVersion';
+import { downloadText, fileStem } from './download';
+
+function stem(): string {
+  return fileStem(benchStore.getState().modelName);
+}
+
+function guard(what: string, f: () => void): void {
+  try {
+    f();
+  } catch (err) {
+    messagePost('error', `Could not export the ${what}: ${(err as Error).message}`);
+  }
+}
+
+export function exportLineTable(): void {
+  guard('line table', () => {
+    const s = benchStore.getState();
+    const rows = selectAssignmentRows(s);
+    const text = lineTableSerialize(s.assignments, { shape: s.model.shape, calcCm1: rows.map((r) => r.calcCm1), isOutlier: rows.map((r) => r.isOutlier) });
+    downloadText(`${stem()}-assignments.csv`, text, 'text/csv');
+  });
+}
+
+export function exportFitReport(): void {
+  guard('fit report', () => {
+    const s = benchStore.getState();
+    const result = selectFitResult(s);
+    if (!result) {
+      messagePost('info', 'Run a fit first; the report describes its result.');
+      return;
+    }
+    const text = fitReportMarkdown(result, s.model.shape, { modelName: s.modelName, appVersion: APP_VERSION, dateIso: new Date().toISOString(), fitFinishedAt: s.fitFinishedAt });
+    downloadText(`${stem()}-fit-report.md`, text, 'text/markdown');
+  });
+}
+
+export function exportSimulatedLines(): void {
+  guard('simulated line list', () => {
+    const s = benchStore.getState();
+    downloadText(`${stem()}-lines.csv`, simulatedLinesCsv(selectBand(s).lines, s.model.shape), 'text/csv');
+  });
+}
+
+export function exportSimulatedSpectrum(): void {
+  guard('simulated spectrum', () => {
+    const { sim, error } = selectSimulated(benchStore.getState());
+    if (!sim) throw new Error(error ?? 'the model gives no lines');
+    downloadText(`${stem()}-spectrum.csv`, spectrumCsv(sim.xCm1, { absorbance_sim: sim.absorbance }), 'text/csv');
+  });
+}
+
+export function exportModel(): void {
+  guard('model file', () => {
+    const s = benchStore.getState();
+    downloadText(`${stem()}-model.json`, modelFileSerialize({ model: s.model, floated: s.floated, name: s.modelName, massAmu: s.massAmu }), 'application/json');
+  });
+}
+
+export function exportProject(): void {
+  guard('project', () => {
+    downloadText(`${stem()}.ladderbench.json`, projectExportText(APP_VERSION), 'application/json');
+  });
+}
+
+export function ExportPanel() {
+  const nAssigned = useBench((s) => s.assignments.length);
+  const hasFit = useBench((s) => selectFitResult(s) !== null);
+  const nLines = useBench((s) => selectBand(s).lines.count);
+  return (
+    <div className="export">
+      <ul className="export-list">
+        <li>
+          <button type="button" onClick={exportLineTable} disabled={nAssigned === 0} data-testid="export-lines">
+            Assigned line table (CSV)
+          </button>
+          <span className="muted">Quantum numbers, label, obs, calc, obs − calc, σ, flags, notes; {nAssigned} rows. Opens again here.</span>
+        </li>
+        <li>
+          <button type="button" onClick={exportFitReport} disabled={!hasFit} data-testid="export-report">
+            Fit report (Markdown)
+          </button>
+          <span className="muted">Every constant ± σ, σ_w, N, correlation matrix, residuals, date and app version.</span>
+        </li>
+        <li>
+          <button type="button" onClick={exportSimulatedLines} disabled={nLines === 0} data-testid="export-sim-lines">
+            Simulated line list (CSV)
+          </button>
+          <span className="muted">{nLines.toLocaleString('en')} predicted lines from the current model.</span>
+        </li>
+        <li>
+          <button type="button" onClick={exportSimulatedSpectrum} disabled={nLines === 0} data-testid="export-sim-spectrum">
+            Simulated spectrum (CSV)
+          </button>
+          <span className="muted">Absorbance on a uniform grid, scaled to the trace.</span>
+        </li>
+        <li>
+          <button type="button" onClick={exportModel} data-testid="export-model">
+            Model file (JSON)
+          </button>
+          <span className="muted">The current constants with their float/fix flags.</span>
+        </li>
+        <li>
+          <button type="button" onClick={exportProject} data-testid="export-project">
+            Whole session (project JSON)
+          </button>
+          <span className="muted">Trace, model, assignments, last fit and view; open it here to continue exactly where you left off.</span>
+        </li>
+      </ul>
+    </div>
+  );
+}

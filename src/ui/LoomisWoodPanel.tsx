@@ -1,0 +1,80 @@
+/** Loomis–Wood diagram of one series: strips of the trace around each predicted rung, stacked by J″; click to assign. */
+import { useMemo } from 'react';
+import type { PlotMouseEvent } from 'plotly.js';
+import { assignNearPosition } from '../state/actionsAssign';
+import { viewSetLoomis } from '../state/actionsView';
+import { selectAssignmentRows, selectBand } from '../state/selectors';
+import { benchStore, useBench } from '../state/store';
+import { loomisWoodGrid } from './plot/loomisWood';
+import { loomisFigure } from './plot/solveTraces';
+import { NumberField } from './NumberField';
+import { PlotlyChart } from './PlotlyChart';
+
+const BINS = 240;
+
+export function LoomisWoodPanel() {
+  const band = useBench(selectBand);
+  const trace = useBench((s) => s.trace);
+  const seriesKey = useBench((s) => s.loomisSeriesKey);
+  const halfWidth = useBench((s) => s.loomisHalfWidthCm1);
+  const rows = useBench(selectAssignmentRows);
+  const cursor = useBench((s) => s.cursor);
+  const isDark = useBench((s) => s.theme === 'dark');
+  const cursorKey = cursor ? `${'pqr'[cursor.kUpper - cursor.kLower + 1]}:${cursor.kLower}:${'PQR'[cursor.jUpper - cursor.jLower + 1]}` : null;
+  const key = seriesKey && band.ladderByKey.has(seriesKey) ? seriesKey : (cursorKey ?? band.ladders[0]?.key ?? null);
+  const ladder = key ? band.ladderByKey.get(key) : undefined;
+
+  const fig = useMemo(() => {
+    if (!ladder || !trace) return null;
+    const centres = Array.from(ladder.lineIndex, (i) => ({ jLower: band.lines.jLower[i], centreCm1: band.lines.wavenumberCm1[i] }));
+    const grid = loomisWoodGrid(trace, centres, halfWidth, BINS);
+    const marks = { offsetCm1: [] as number[], jLower: [] as number[], text: [] as string[] };
+    for (const r of rows) {
+      const li = band.indexOf.get(`${r.a.jUpper},${r.a.kUpper},${r.a.jLower},${r.a.kLower}`);
+      if (li === undefined || !ladder.lineIndex.includes(li)) continue;
+      marks.offsetCm1.push(r.a.observedCm1 - band.lines.wavenumberCm1[li]);
+      marks.jLower.push(r.a.jLower);
+      marks.text.push(`${r.labelHtml}<br>obs − calc ${r.omcCm1.toExponential(2)} cm⁻¹`);
+    }
+    return loomisFigure(grid, marks, isDark);
+  }, [ladder, trace, halfWidth, rows, band, isDark]);
+
+  const onClick = (e: PlotMouseEvent) => {
+    const p = e.points?.[0];
+    if (!p || !ladder) return;
+    const j = Number(p.y);
+    const offset = Number(p.x);
+    const s = benchStore.getState();
+    const b = selectBand(s);
+    const li = Array.from(ladder.lineIndex).find((i) => b.lines.jLower[i] === j);
+    if (li === undefined) return;
+    const q = { jUpper: b.lines.jUpper[li], kUpper: b.lines.kUpper[li], jLower: j, kLower: b.lines.kLower[li] };
+    assignNearPosition(q, b.lines.wavenumberCm1[li] + offset, Math.max((2 * halfWidth) / BINS * 4, 0.005));
+  };
+
+  return (
+    <div className="loomis">
+      <div className="panel-row">
+        <label>
+          Series
+          <select value={key ?? ''} onChange={(e) => viewSetLoomis({ seriesKey: e.target.value })} data-testid="loomis-series">
+            {band.ladders.map((l) => (
+              <option key={l.key} value={l.key}>
+                {l.label} ({l.lineIndex.length} lines)
+              </option>
+            ))}
+          </select>
+        </label>
+        <NumberField label="Half width / cm⁻¹" className="narrow" value={halfWidth} onCommit={(v) => (v > 0 && v <= 50 ? (viewSetLoomis({ halfWidthCm1: v }), null) : 'half width must be between 0 and 50 cm⁻¹')} />
+        <span className="muted small">A correct series lines up on the dotted centre line. Click a line in a strip to assign that strip's J″ to the peak there.</span>
+      </div>
+      {!trace ? (
+        <p className="muted">Load a trace to see the Loomis–Wood diagram.</p>
+      ) : fig ? (
+        <PlotlyChart data={fig.data} layout={fig.layout} onClick={onClick} label={`Loomis–Wood diagram of series ${ladder?.label ?? ''}`} className="loomis-plot" testId="loomis-plot" />
+      ) : (
+        <p className="muted">No series in the model.</p>
+      )}
+    </div>
+  );
+}

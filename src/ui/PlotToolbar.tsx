@@ -1,0 +1,112 @@
+/** Controls above the plot: ordinate, overlays, peak threshold, zoom out, ladder rows. */
+import { useMemo, useState } from 'react';
+import { benchUpdate } from '../state/actionsCore';
+import { viewSet, viewSetHiddenRows, viewSetOrdinate, viewSetRowHidden, viewSetXRange } from '../state/actionsView';
+import type { Ladder } from '../physics/bandLadders';
+import { selectPeaks } from '../state/selectors';
+import { useBench } from '../state/store';
+import { ladderRowsBuild } from './plot/ladderGeometry';
+import { ladderColour } from './plot/plotColours';
+import { NumberField } from './NumberField';
+
+export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
+  const ordinate = useBench((s) => s.ordinate);
+  const showSimulated = useBench((s) => s.showSimulated);
+  const showObsMinusSim = useBench((s) => s.showObsMinusSim);
+  const showPeaks = useBench((s) => s.showPeaks);
+  const peakMinSnr = useBench((s) => s.peakMinSnr);
+  const peakBaseline = useBench((s) => s.peakBaseline);
+  const peakCount = useBench((s) => selectPeaks(s).peaks?.count ?? 0);
+  const peakError = useBench((s) => selectPeaks(s).error);
+  const hasTrace = useBench((s) => s.trace !== null);
+  const hiddenRows = useBench((s) => s.hiddenRows);
+  const shape = useBench((s) => s.model.shape);
+  const isDark = useBench((s) => s.theme === 'dark');
+  const [isRowsOpen, setRowsOpen] = useState(false);
+  const allRows = useMemo(() => ladderRowsBuild(ladders, shape), [ladders, shape]);
+  const hidden = new Set(hiddenRows);
+  const rowKeys = allRows.map((r) => r.key);
+  const keysUpTo = (k: number) => rowKeys.filter((key) => Number(key.split(':')[1]) > k);
+
+  return (
+    <div className="plot-toolbar" role="toolbar" aria-label="Plot settings">
+      <fieldset className="segmented">
+        <legend className="visually-hidden">Ordinate</legend>
+        <label>
+          <input type="radio" name="ordinate" checked={ordinate === 'transmittance'} onChange={() => viewSetOrdinate('transmittance')} />
+          Transmittance
+        </label>
+        <label>
+          <input type="radio" name="ordinate" checked={ordinate === 'absorbance'} onChange={() => viewSetOrdinate('absorbance')} />
+          Absorbance
+        </label>
+      </fieldset>
+      <label className="check">
+        <input type="checkbox" checked={showPeaks} onChange={(e) => viewSet('showPeaks', e.target.checked)} /> Peaks ({peakCount.toLocaleString('en')})
+      </label>
+      <NumberField
+        label="min SNR"
+        className="narrow"
+        value={peakMinSnr}
+        onCommit={(v) => {
+          if (!(v >= 1 && v <= 1000)) return 'SNR threshold must be between 1 and 1000';
+          benchUpdate('peak threshold', () => ({ peakMinSnr: v }), { history: false });
+          return null;
+        }}
+      />
+      <label className="check" title="Subtract a smooth baseline before finding peaks">
+        <input type="checkbox" checked={peakBaseline} onChange={(e) => benchUpdate('peak baseline', () => ({ peakBaseline: e.target.checked }), { history: false })} /> Baseline
+      </label>
+      <label className="check">
+        <input type="checkbox" checked={showSimulated} onChange={(e) => viewSet('showSimulated', e.target.checked)} data-testid="toggle-sim" /> Simulated
+      </label>
+      <label className="check">
+        <input type="checkbox" checked={showObsMinusSim} disabled={!hasTrace} onChange={(e) => viewSet('showObsMinusSim', e.target.checked)} /> obs − sim
+      </label>
+      <button type="button" onClick={() => viewSetXRange(null)} title="Show the whole trace (double-click the plot does the same)">
+        Zoom out
+      </button>
+      <div className="rows-menu">
+        <button type="button" aria-expanded={isRowsOpen} aria-controls="ladder-rows" onClick={() => setRowsOpen(!isRowsOpen)}>
+          Ladders ({allRows.length - allRows.filter((r) => hidden.has(r.key)).length}/{allRows.length}) ▾
+        </button>
+        {isRowsOpen && (
+          <div id="ladder-rows" className="rows-popover" role="group" aria-label="Ladder rows shown">
+            <div className="rows-quick">
+              <button type="button" onClick={() => viewSetHiddenRows([])}>
+                All
+              </button>
+              <button type="button" onClick={() => viewSetHiddenRows(rowKeys)}>
+                None
+              </button>
+              <button type="button" onClick={() => viewSetHiddenRows(keysUpTo(4))}>
+                K″ ≤ 4
+              </button>
+              <button type="button" onClick={() => viewSetHiddenRows(keysUpTo(8))}>
+                K″ ≤ 8
+              </button>
+              <button type="button" onClick={() => setRowsOpen(false)} aria-label="Close ladder list">
+                ✕
+              </button>
+            </div>
+            <div className="rows-list">
+              {allRows.map((r) => (
+                <label key={r.key} className="check row-check">
+                  <input type="checkbox" checked={!hidden.has(r.key)} onChange={(e) => viewSetRowHidden(r.key, !e.target.checked)} />
+                  <span className="swatch" style={{ background: ladderColour(r.deltaK, r.kLower, isDark) }} aria-hidden="true" />
+                  {r.name}
+                  <span className="muted">{r.ladders.map((l) => l.label).join(' ')}</span>
+                </label>
+              ))}
+            </div>
+          </div>
+        )}
+      </div>
+      {peakError && (
+        <span className="inline-error" role="status">
+          Peak finding failed: {peakError}
+        </span>
+      )}
+    </div>
+  );
+}

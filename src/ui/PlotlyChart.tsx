@@ -1,0 +1,108 @@
+/**
+ * A plotly chart: hands data and layout to Plotly.react, forwards click/relayout/hover events,
+ * resizes with its box. No decisions of its own.
+ */
+import type { Config, Data, Layout, PlotMouseEvent, PlotRelayoutEvent } from 'plotly.js';
+import { useEffect, useRef, useState } from 'react';
+import { plotlyLoad } from './plotlyLoader';
+
+type PlotDiv = HTMLDivElement & {
+  on?: (event: string, handler: (e: unknown) => void) => void;
+  removeAllListeners?: (event: string) => void;
+};
+
+export interface PlotlyChartProps {
+  data: Data[];
+  layout: Partial<Layout>;
+  config?: Partial<Config>;
+  onClick?: (event: PlotMouseEvent) => void;
+  onRelayout?: (event: PlotRelayoutEvent) => void;
+  /** Called with the chart's width and height in px after each resize. */
+  onSize?: (widthPx: number, heightPx: number) => void;
+  className?: string;
+  /** Accessible name of the chart. */
+  label: string;
+  /** data-testid for browser tests. */
+  testId?: string;
+}
+
+const BASE_CONFIG: Partial<Config> = {
+  displaylogo: false,
+  responsive: false,
+  scrollZoom: true,
+  modeBarButtonsToRemove: ['select2d', 'lasso2d', 'toImage'],
+  doubleClick: 'reset',
+};
+
+export function PlotlyChart(props: PlotlyChartProps) {
+  const ref = useRef<PlotDiv>(null);
+  const handlers = useRef(props);
+  handlers.current = props;
+  const [isReady, setReady] = useState(false);
+  const [loadError, setLoadError] = useState<string | null>(null);
+
+  useEffect(() => {
+    let cancelled = false;
+    plotlyLoad().then(
+      () => !cancelled && setReady(true),
+      (err: Error) => !cancelled && setLoadError(err.message),
+    );
+    return () => {
+      cancelled = true;
+    };
+  }, []);
+
+  useEffect(() => {
+    if (!isReady || !ref.current) return;
+    const el = ref.current;
+    let cancelled = false;
+    void plotlyLoad().then(async (Plotly) => {
+      if (cancelled) return;
+      await Plotly.react(el, props.data, { autosize: true, ...props.layout }, { ...BASE_CONFIG, ...props.config });
+      if (el.on && !el.dataset.bound) {
+        el.dataset.bound = '1';
+        el.on('plotly_click', (e) => handlers.current.onClick?.(e as PlotMouseEvent));
+        el.on('plotly_relayout', (e) => handlers.current.onRelayout?.(e as PlotRelayoutEvent));
+      }
+    });
+    return () => {
+      cancelled = true;
+    };
+  }, [isReady, props.data, props.layout, props.config]);
+
+  useEffect(() => {
+    const el = ref.current;
+    if (!el || typeof ResizeObserver === 'undefined') return;
+    let frame = 0;
+    const ro = new ResizeObserver(() => {
+      cancelAnimationFrame(frame);
+      frame = requestAnimationFrame(() => {
+        handlers.current.onSize?.(el.clientWidth, el.clientHeight);
+        void plotlyLoad().then((Plotly) => {
+          if (el.isConnected && (el as unknown as { _fullLayout?: unknown })._fullLayout) void Plotly.Plots.resize(el);
+        });
+      });
+    });
+    ro.observe(el);
+    handlers.current.onSize?.(el.clientWidth, el.clientHeight);
+    return () => {
+      cancelAnimationFrame(frame);
+      ro.disconnect();
+    };
+  }, []);
+
+  useEffect(() => {
+    const el = ref.current;
+    return () => {
+      if (el) void plotlyLoad().then((Plotly) => Plotly.purge(el));
+    };
+  }, []);
+
+  return (
+    <div className={`plot-box ${props.className ?? ''}`} role="figure" aria-label={props.label}>
+      {!isReady && !loadError && <div className="plot-loading">Loading plot…</div>}
+      {loadError && <div className="plot-loading error">The plotting library could not be loaded: {loadError}</div>}
+      <div ref={ref} className="plot-surface" data-testid={props.testId} />
+    </div>
+  );
+}

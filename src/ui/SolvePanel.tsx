@@ -1,0 +1,188 @@
+/** Solve panel: floated constants, fit in the worker, values ± σ, correlation heatmap, residuals, warnings, accept/keep. */
+import { useMemo } from 'react';
+import type { FitResult } from '../fit/fitTypes';
+import { formatValueSigma } from '../io/fitReport';
+import { assignmentSelect } from '../state/actionsAssign';
+import { fitAccept, fitApplySuggestion, fitCancel, fitRevert, fitStart } from '../state/actionsFit';
+import { modelParameterNames, modelSetFloated } from '../state/actionsModel';
+import { selectFitResult } from '../state/selectors';
+import { benchStore, useBench } from '../state/store';
+import { correlationFigure, residualFigure } from './plot/solveTraces';
+import { PlotlyChart } from './PlotlyChart';
+import { LineLabel } from './LineLabel';
+
+function FloatChooser() {
+  const model = useBench((s) => s.model);
+  const floated = useBench((s) => s.floated);
+  return (
+    <fieldset className="float-chooser">
+      <legend>Floated constants</legend>
+      {(['upper', 'lower'] as const).map((side) => (
+        <div key={side} className="float-side">
+          <span className="muted">{side === 'upper' ? 'Upper ′' : 'Lower ″'}</span>
+          {modelParameterNames(model, side).map((name) => {
+            const key = `${side}.${name}`;
+            return (
+              <label key={key} className="check">
+                <input type="checkbox" checked={floated.includes(key)} onChange={(e) => modelSetFloated(key, e.target.checked)} />
+                {name}
+              </label>
+            );
+          })}
+        </div>
+      ))}
+    </fieldset>
+  );
+}
+
+function ResultTable({ result }: { result: FitResult }) {
+  const model = useBench((s) => s.model);
+  const rows = Object.entries(result.parameters).filter(([, p]) => !p.fixed || p.value !== 0);
+  return (
+    <table className="fit-table" data-testid="fit-constants">
+      <caption className="visually-hidden">Fitted constants</caption>
+      <thead>
+        <tr>
+          <th scope="col">Constant</th>
+          <th scope="col">Value(σ)</th>
+          <th scope="col">σ</th>
+          <th scope="col">Current model</th>
+        </tr>
+      </thead>
+      <tbody>
+        {rows.map(([key, p]) => {
+          const [side, name] = key.split('.') as ['lower' | 'upper', string];
+          const current = (model[side] as Record<string, number>)[name];
+          return (
+            <tr key={key} className={p.fixed ? 'fixed' : ''}>
+              <th scope="row">{key}</th>
+              <td className="num">{p.fixed ? `${p.value} (fixed)` : formatValueSigma(p.value, p.sigma)}</td>
+              <td className="num">{p.fixed ? '' : p.sigma === null ? 'n/a' : p.sigma.toPrecision(2)}</td>
+              <td className={`num ${current !== p.value ? 'muted' : ''}`}>{String(current)}</td>
+            </tr>
+          );
+        })}
+      </tbody>
+    </table>
+  );
+}
+
+export function SolvePanel() {
+  const isRunning = useBench((s) => s.isFitRunning);
+  const progress = useBench((s) => s.fitProgress);
+  const outcome = useBench((s) => s.fitOutcome);
+  const result = useBench(selectFitResult);
+  const lineIds = useBench((s) => s.fitLineIds);
+  const shape = useBench((s) => s.model.shape);
+  const isDark = useBench((s) => s.theme === 'dark');
+  const nAssigned = useBench((s) => s.assignments.length);
+  const canRevert = useBench((s) => s.modelBeforeAccept !== null);
+  const isAccepted = useBench((s) => s.isFitAccepted);
+  const finishedAt = useBench((s) => s.fitFinishedAt);
+  const residual = useMemo(() => (result ? residualFigure(result, lineIds, shape, isDark) : null), [result, lineIds, shape, isDark]);
+  const corr = useMemo(() => (result && result.correlation.length > 0 ? correlationFigure(result, isDark) : null), [result, isDark]);
+
+  return (
+    <div className="solve">
+      <div className="solve-controls">
+        <FloatChooser />
+        <div className="solve-run">
+          <button type="button" className="primary" onClick={() => void fitStart()} disabled={nAssigned === 0} data-testid="fit-run">
+            {isRunning ? 'Fit again' : 'Fit'} <kbd>F</kbd>
+          </button>
+          {isRunning && (
+            <>
+              <button type="button" onClick={fitCancel}>
+                Cancel
+              </button>
+              <span role="status" className="muted">
+                Fitting… {progress ? `iteration ${progress.iteration}, χ² ${progress.chi2.toPrecision(4)}` : 'starting'}
+              </span>
+            </>
+          )}
+          {result && (
+            <>
+              <button type="button" onClick={fitAccept} disabled={isAccepted} data-testid="fit-accept">
+                Accept fitted constants
+              </button>
+              <button type="button" onClick={fitRevert} disabled={!canRevert}>
+                Keep previous constants
+              </button>
+            </>
+          )}
+        </div>
+      </div>
+      {!outcome && !isRunning && <p className="muted">Assign at least as many lines as floated constants, then press Fit. The fit runs in the background; the page stays usable.</p>}
+      {outcome && !outcome.ok && (
+        <div className="refusal" role="alert" data-testid="fit-refusal">
+          <p>
+            <strong>The fit was refused.</strong> {outcome.error.message}
+          </p>
+          {outcome.error.suggestion && <p>Suggestion: {outcome.error.suggestion}</p>}
+          {outcome.error.fixSuggested.length > 0 && (
+            <button type="button" onClick={fitApplySuggestion}>
+              Fix {outcome.error.fixSuggested.join(', ')} and fit again
+            </button>
+          )}
+        </div>
+      )}
+      {result && (
+        <div className="fit-result">
+          <div className="fit-summary" data-testid="fit-summary">
+            <span>
+              N = <b>{result.nLines}</b>
+            </span>
+            <span>
+              P = <b>{result.nParameters}</b>
+            </span>
+            <span>
+              σ<sub>w</sub> = <b>{result.sigmaW === null ? 'n/a' : result.sigmaW.toPrecision(3)}</b>
+            </span>
+            <span>
+              rms = <b>{result.rmsCm1.toExponential(2)}</b> cm⁻¹
+            </span>
+            <span className="muted">
+              {result.iterations} iterations; {result.convergenceMessage}
+              {finishedAt ? ` (${new Date(finishedAt).toLocaleTimeString()})` : ''}
+            </span>
+          </div>
+          {(result.warnings.length > 0 || result.outliers.length > 0) && (
+            <ul className="warnings">
+              {result.warnings.map((w, i) => (
+                <li key={i}>{w}</li>
+              ))}
+              {result.outliers.map((i) => {
+                const l = result.lines[i];
+                return (
+                  <li key={`o${i}`}>
+                    Outlier <LineLabel q={l} shape={shape} />: obs − calc = {l.obsMinusCalc.toExponential(2)} cm⁻¹ ({l.normalisedResidual.toFixed(1)} σ){' '}
+                    <button type="button" className="link" onClick={() => assignmentSelect(lineIds[i])}>
+                      show
+                    </button>
+                  </li>
+                );
+              })}
+            </ul>
+          )}
+          <div className="fit-grid">
+            <ResultTable result={result} />
+            {corr && <PlotlyChart data={corr.data} layout={corr.layout} label="Correlation matrix of the floated constants" className="corr-plot" testId="corr-plot" />}
+          </div>
+          {residual && (
+            <PlotlyChart
+              data={residual.data}
+              layout={residual.layout}
+              label="Residuals obs − calc against J″, coloured by K″; click a point to select its line"
+              className="residual-plot"
+              testId="residual-plot"
+              onClick={(e) => {
+                const id = e.points?.[0]?.customdata as unknown as string | undefined;
+                if (id && benchStore.getState().assignments.some((a) => a.id === id)) assignmentSelect(id);
+              }}
+            />
+          )}
+        </div>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,232 @@
+/**
+ * Figures of the solve panels: residuals obs − calc vs J'' coloured by K'', the correlation
+ * matrix heatmap, the combination-difference diagnostic Δ2F/(J+½) vs (J+½)², and the Loomis–Wood
+ * heatmap. Pure: results in, {data, layout} out.
+ */
+import type { Data, Layout } from 'plotly.js';
+import type { CombDiffResult } from '../../fit/combinationDifferences';
+import type { FitResult } from '../../fit/fitTypes';
+import { lineLabelHtml } from '../../physics/lineLabel';
+import type { TopShape } from '../../physics/model';
+import type { LoomisGrid } from './loomisWood';
+import { kColour, plotTheme } from './plotColours';
+
+function baseLayout(isDark: boolean): Partial<Layout> {
+  const t = plotTheme(isDark);
+  return {
+    paper_bgcolor: t.paper,
+    plot_bgcolor: t.plot,
+    font: { color: t.text, size: 11, family: 'system-ui, sans-serif' },
+    margin: { l: 70, r: 14, t: 8, b: 44 },
+    hovermode: 'closest',
+    showlegend: true,
+    legend: { orientation: 'v', font: { size: 10 } },
+  };
+}
+
+function axis(isDark: boolean, title: string): Partial<Layout['xaxis']> {
+  const t = plotTheme(isDark);
+  return { title: { text: title }, color: t.text, gridcolor: t.grid, zerolinecolor: t.grid, linecolor: t.grid };
+}
+
+/**
+ * Residual plot: obs − calc (cm^-1) against J'', one trace per K'' (colour by K''), excluded lines
+ * as open markers, outliers as crosses. customdata carries the assignment id for clicks.
+ * @param result the fit
+ * @param lineIds assignment id of each result line (same order)
+ * @param shape rotor shape (labels)
+ */
+export function residualFigure(result: FitResult, lineIds: readonly string[], shape: TopShape, isDark: boolean): { data: Data[]; layout: Partial<Layout> } {
+  const byK = new Map<number, number[]>();
+  result.lines.forEach((l, i) => {
+    const list = byK.get(l.kLower) ?? [];
+    list.push(i);
+    byK.set(l.kLower, list);
+  });
+  const data: Data[] = [];
+  for (const k of [...byK.keys()].sort((a, b) => a - b)) {
+    const idx = byK.get(k)!;
+    data.push({
+      type: 'scatter',
+      mode: 'markers',
+      name: shape === 'linear' ? 'lines' : `K″=${k}`,
+      x: idx.map((i) => result.lines[i].jLower),
+      y: idx.map((i) => result.lines[i].obsMinusCalc),
+      customdata: idx.map((i) => lineIds[i]),
+      hovertext: idx.map((i) => {
+        const l = result.lines[i];
+        return `${lineLabelHtml(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape)}<br>obs − calc ${l.obsMinusCalc.toExponential(2)} cm⁻¹<br>${l.normalisedResidual.toFixed(2)} σ${l.isExcluded ? '<br>excluded' : ''}${l.isOutlier ? '<br>outlier' : ''}`;
+      }),
+      hovertemplate: '%{hovertext}<extra></extra>',
+      marker: {
+        color: kColour(k, isDark),
+        size: 7,
+        symbol: idx.map((i) => (result.lines[i].isOutlier ? 'x' : result.lines[i].isExcluded ? 'circle-open' : 'circle')),
+      },
+    } as Data);
+  }
+  return {
+    data,
+    layout: { ...baseLayout(isDark), xaxis: axis(isDark, 'J″'), yaxis: { ...axis(isDark, 'obs − calc / cm⁻¹'), exponentformat: 'e' } },
+  };
+}
+
+/** Diverging colour scale for correlations −1 … +1 (blue – neutral – red). */
+const CORRELATION_SCALE: [number, string][] = [
+  [0, '#2a5fa8'],
+  [0.25, '#7ea6d9'],
+  [0.5, '#f2f2f2'],
+  [0.75, '#e08a7a'],
+  [1, '#b3261e'],
+];
+
+/**
+ * Correlation matrix heatmap of the floated constants (zmin −1, zmax +1), values printed in cells.
+ * @param result the fit
+ */
+export function correlationFigure(result: FitResult, isDark: boolean): { data: Data[]; layout: Partial<Layout> } {
+  const keys = result.floated;
+  const n = keys.length;
+  const z = result.correlation.map((row) => [...row]);
+  const text = z.map((row) => row.map((v) => v.toFixed(2)));
+  return {
+    data: [
+      {
+        type: 'heatmap',
+        x: keys,
+        y: keys,
+        z,
+        zmin: -1,
+        zmax: 1,
+        colorscale: CORRELATION_SCALE,
+        text: text as unknown as string[],
+        texttemplate: n <= 12 ? '%{text}' : '',
+        hovertemplate: '%{y} / %{x}: %{z:.4f}<extra></extra>',
+        colorbar: { thickness: 10, len: 0.9 },
+      } as Data,
+    ],
+    layout: {
+      ...baseLayout(isDark),
+      showlegend: false,
+      margin: { l: 90, r: 10, t: 8, b: 80 },
+      xaxis: { ...axis(isDark, ''), tickangle: -40, automargin: true },
+      yaxis: { ...axis(isDark, ''), autorange: 'reversed', automargin: true },
+    },
+  };
+}
+
+/**
+ * Combination-difference diagnostic: Δ2F/(J+½) (cm^-1) vs (J+½)², one trace per K with its
+ * fitted line 4B − 8DJ((J+½)²+¾) − 4DJK K²; suspect pairs as crosses.
+ * Source: Herzberg I (1950) ch. III (the line's intercept is ≈ 4B, its slope −8DJ).
+ * @param result the analysis
+ */
+export function combinationFigure(result: CombDiffResult, isDark: boolean): { data: Data[]; layout: Partial<Layout> } {
+  const byK = new Map<number, number[]>();
+  result.pairs.forEach((p, i) => {
+    const list = byK.get(p.k) ?? [];
+    list.push(i);
+    byK.set(p.k, list);
+  });
+  const data: Data[] = [];
+  const suspect = new Set(result.suspects);
+  const B = result.B.value;
+  const DJ = result.DJ.value;
+  const DJK = result.DJK.value;
+  for (const k of [...byK.keys()].sort((a, b) => a - b)) {
+    const idx = byK.get(k)!;
+    const colour = kColour(k, isDark);
+    data.push({
+      type: 'scatter',
+      mode: 'markers',
+      name: `K=${k}`,
+      legendgroup: `k${k}`,
+      x: idx.map((i) => result.pairs[i].x),
+      y: idx.map((i) => result.pairs[i].y),
+      error_y: { type: 'data', array: idx.map((i) => result.pairs[i].sigmaY), visible: true, color: colour, thickness: 1, width: 2 },
+      hovertext: idx.map((i) => {
+        const p = result.pairs[i];
+        return `J=${p.j}, K=${p.k}<br>Δ₂F ${p.differenceCm1.toFixed(5)} cm⁻¹<br>${p.normalisedResidual.toFixed(2)} σ${p.isSuspect ? '<br>suspect pair' : ''}`;
+      }),
+      hovertemplate: '%{hovertext}<extra></extra>',
+      marker: { color: colour, size: 7, symbol: idx.map((i) => (suspect.has(i) ? 'x' : 'circle')) },
+    } as Data);
+    const xs = idx.map((i) => result.pairs[i].x);
+    const x0 = Math.min(...xs);
+    const x1 = Math.max(...xs);
+    const line = (x: number) => 4 * B - 8 * DJ * (x + 0.75) - 4 * DJK * k * k;
+    data.push({
+      type: 'scatter',
+      mode: 'lines',
+      name: `fit K=${k}`,
+      legendgroup: `k${k}`,
+      showlegend: false,
+      x: [x0, x1],
+      y: [line(x0), line(x1)],
+      line: { color: colour, width: 1, dash: 'dot' },
+      hoverinfo: 'skip',
+    } as Data);
+  }
+  return {
+    data,
+    layout: { ...baseLayout(isDark), xaxis: axis(isDark, '(J + ½)²'), yaxis: axis(isDark, 'Δ₂F / (J + ½) / cm⁻¹') },
+  };
+}
+
+/** Markers of assigned lines in the Loomis–Wood diagram: offset obs − predicted vs J''. */
+export interface LoomisMarks {
+  offsetCm1: number[];
+  jLower: number[];
+  text: string[];
+}
+
+/**
+ * Loomis–Wood heatmap: strips (rows, J'') of absorbance around each predicted rung; assigned lines
+ * as markers at their offset; a dotted line at offset 0.
+ * @param grid from loomisWoodGrid
+ * @param marks assigned lines of the series
+ */
+export function loomisFigure(grid: LoomisGrid, marks: LoomisMarks, isDark: boolean): { data: Data[]; layout: Partial<Layout> } {
+  const t = plotTheme(isDark);
+  return {
+    data: [
+      {
+        type: 'heatmap',
+        x: grid.offsetCm1,
+        y: grid.jLower,
+        z: grid.z,
+        colorscale: isDark
+          ? [
+              [0, '#10141a'],
+              [1, '#f4f7fb'],
+            ]
+          : [
+              [0, '#ffffff'],
+              [1, '#11161d'],
+            ],
+        colorbar: { thickness: 10, title: { text: 'A' } },
+        customdata: grid.z.map((row, r) => row.map(() => grid.centreCm1[r])) as unknown as number[][],
+        hovertemplate: 'J″=%{y}, offset %{x:.4f} cm⁻¹<br>absorbance %{z:.3f}<extra></extra>',
+        meta: { kind: 'loomis' },
+      } as Data,
+      {
+        type: 'scatter',
+        mode: 'markers',
+        name: 'assigned',
+        x: marks.offsetCm1,
+        y: marks.jLower,
+        hovertext: marks.text,
+        hovertemplate: '%{hovertext}<extra></extra>',
+        marker: { color: t.assigned, size: 9, symbol: 'circle-open', line: { width: 2, color: t.assigned } },
+        meta: { kind: 'loomis-marks' },
+      } as Data,
+    ],
+    layout: {
+      ...baseLayout(isDark),
+      showlegend: false,
+      xaxis: axis(isDark, 'offset from prediction / cm⁻¹'),
+      yaxis: { ...axis(isDark, 'J″'), dtick: 5 },
+      shapes: [{ type: 'line', xref: 'x', yref: 'paper', x0: 0, x1: 0, y0: 0, y1: 1, line: { color: t.cursor, width: 1, dash: 'dot' } }],
+    },
+  };
+}
