@@ -92,66 +92,40 @@ function linearDerivative(model: Pick<BandModel, 'shape' | 'band'>, key: FitKey,
   return key.side === 'upper' ? d : -d;
 }
 
-/** Per-line powers x^a and (K²)^b of both states (a, b = 0..3), as columns. */
-interface PowerColumns {
-  upperX: Float64Array[];
-  upperK2: Float64Array[];
-  lowerX: Float64Array[];
-  lowerK2: Float64Array[];
-  coriolis: Float64Array;
-  lDoubling: Float64Array;
+/**
+ * The derivative columns of a set of keys as a flat list of terms, so that one pass over the
+ * lines fills every column (no per-line calls or allocations). Term t adds
+ * coef[t] · x^xPow · (K²)^kPow of state isUpper[t] (or ∂ν/∂q when isLDoubling[t]) into column[t].
+ */
+interface TermPlan {
+  count: number;
+  column: Int32Array;
+  coef: Float64Array;
+  isUpper: Uint8Array;
+  xPow: Uint8Array;
+  kPow: Uint8Array;
+  isLDoubling: Uint8Array;
 }
 
-function powerColumns(model: Pick<BandModel, 'shape' | 'band'>, quanta: readonly TransitionQuanta[]): PowerColumns {
-  const n = quanta.length;
-  const make = () => [new Float64Array(n).fill(1), new Float64Array(n), new Float64Array(n), new Float64Array(n)];
-  const upperX = make();
-  const upperK2 = make();
-  const lowerX = make();
-  const lowerK2 = make();
-  const coriolis = new Float64Array(n);
-  const lDoubling = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const q = quanta[i];
-    const xu = q.jUpper * (q.jUpper + 1);
-    const ku = q.kUpper * q.kUpper;
-    const xl = q.jLower * (q.jLower + 1);
-    const kl = q.kLower * q.kLower;
-    upperX[1][i] = xu;
-    upperX[2][i] = xu * xu;
-    upperX[3][i] = xu * xu * xu;
-    upperK2[1][i] = ku;
-    upperK2[2][i] = ku * ku;
-    upperK2[3][i] = ku * ku * ku;
-    lowerX[1][i] = xl;
-    lowerX[2][i] = xl * xl;
-    lowerX[3][i] = xl * xl * xl;
-    lowerK2[1][i] = kl;
-    lowerK2[2][i] = kl * kl;
-    lowerK2[3][i] = kl * kl * kl;
-    coriolis[i] = coriolisFactor(model, q);
-    lDoubling[i] = lDoublingDerivative(model, q);
+function termPlan(entries: { key: FitKey; factor: number; column: number }[]): TermPlan {
+  const rows: [number, number, number, number, number, number][] = [];
+  for (const { key, factor, column } of entries) {
+    const upper = key.side === 'upper';
+    if (upper && key.name === 'q') {
+      rows.push([column, factor, 1, 0, 0, 1]);
+      continue;
+    }
+    for (const [c, a, b] of TERM_MONOMIALS[key.name] ?? []) rows.push([column, (upper ? 1 : -1) * c * factor, upper ? 1 : 0, a, b, 0]);
   }
-  return { upperX, upperK2, lowerX, lowerK2, coriolis, lDoubling };
-}
-
-/** out[offset + i] += factor · G_key,i for every line (one pass per monomial, no per-line calls). */
-function addLinearColumn(pc: PowerColumns, key: FitKey, factor: number, out: Float64Array, offset: number): void {
-  const n = pc.coriolis.length;
-  if (key.side === 'upper' && key.name === 'q') {
-    for (let i = 0; i < n; i++) out[offset + i] += factor * pc.lDoubling[i];
-    return;
-  }
-  const terms = TERM_MONOMIALS[key.name];
-  if (!terms) return;
-  const upper = key.side === 'upper';
-  const sign = upper ? factor : -factor;
-  for (const [c, a, b] of terms) {
-    const xs = (upper ? pc.upperX : pc.lowerX)[a];
-    const ks = (upper ? pc.upperK2 : pc.lowerK2)[b];
-    const f = sign * c;
-    for (let i = 0; i < n; i++) out[offset + i] += f * xs[i] * ks[i];
-  }
+  return {
+    count: rows.length,
+    column: Int32Array.from(rows, (r) => r[0]),
+    coef: Float64Array.from(rows, (r) => r[1]),
+    isUpper: Uint8Array.from(rows, (r) => r[2]),
+    xPow: Uint8Array.from(rows, (r) => r[3]),
+    kPow: Uint8Array.from(rows, (r) => r[4]),
+    isLDoubling: Uint8Array.from(rows, (r) => r[5]),
+  };
 }
 
 function parseKeys(keys: readonly string[]): FitKey[] {
@@ -190,6 +164,84 @@ export function bandLineGradient(
     out[j] = d;
   }
   return out;
+}
+
+/** Quantum numbers of many lines as columns (one pass of property reads, then typed arrays only). */
+interface QuantaColumns {
+  jUpper: Int32Array;
+  kUpper: Int32Array;
+  jLower: Int32Array;
+  kLower: Int32Array;
+}
+
+function quantaColumns(quanta: readonly TransitionQuanta[]): QuantaColumns {
+  const n = quanta.length;
+  const c = { jUpper: new Int32Array(n), kUpper: new Int32Array(n), jLower: new Int32Array(n), kLower: new Int32Array(n) };
+  for (let i = 0; i < n; i++) {
+    const q = quanta[i];
+    c.jUpper[i] = q.jUpper;
+    c.kUpper[i] = q.kUpper;
+    c.jLower[i] = q.jLower;
+    c.kLower[i] = q.kLower;
+  }
+  return c;
+}
+
+/**
+ * Fill the weighted design [basis columns | t] (column-major, n rows) in one pass over the lines.
+ * Kept small and free of objects so V8 optimises it early (it is the per-line hot loop).
+ */
+function designFill(
+  q: QuantaColumns,
+  lines: { observedCm1: Float64Array; uncertaintyCm1: Float64Array },
+  plan: TermPlan,
+  a: Float64Array,
+  o: { tColumn: number; coriolisBasis: number; hasCoriolis: boolean; isLDoublingBand: boolean; fixedBilinear: number },
+): void {
+  const n = q.jUpper.length;
+  const width = o.tColumn + 1;
+  const { column, coef, isUpper, xPow, kPow, isLDoubling, count } = plan;
+  const powers = new Float64Array(16); // [upper x^0..3, upper K²^0..3, lower x^0..3, lower K²^0..3]
+  const { tColumn, coriolisBasis, hasCoriolis, isLDoublingBand, fixedBilinear } = o;
+  for (let i = 0; i < n; i++) {
+    const ju = q.jUpper[i];
+    const kuq = q.kUpper[i];
+    const jl = q.jLower[i];
+    const klq = q.kLower[i];
+    const xu = ju * (ju + 1);
+    const ku = kuq * kuq;
+    const xl = jl * (jl + 1);
+    const kl = klq * klq;
+    powers[0] = 1;
+    powers[1] = xu;
+    powers[2] = xu * xu;
+    powers[3] = xu * xu * xu;
+    powers[4] = 1;
+    powers[5] = ku;
+    powers[6] = ku * ku;
+    powers[7] = ku * ku * ku;
+    powers[8] = 1;
+    powers[9] = xl;
+    powers[10] = xl * xl;
+    powers[11] = xl * xl * xl;
+    powers[12] = 1;
+    powers[13] = kl;
+    powers[14] = kl * kl;
+    powers[15] = kl * kl * kl;
+    // ∂ν/∂q (linear Π–Σ: ±J'(J'+1)/2) and h (−2K' for ΔK = +1, +2K' for ΔK = −1), as in
+    // lDoublingDerivative and coriolisFactor.
+    const lDoubling = isLDoublingBand ? (ju === jl ? -0.5 : 0.5) * xu : 0;
+    const coriolis = hasCoriolis ? (kuq - klq > 0 ? -2 : 2) * kuq : 0;
+    a[tColumn * n + i] = lines.observedCm1[i] - fixedBilinear * coriolis;
+    for (let t = 0; t < count; t++) {
+      const off = isUpper[t] === 1 ? 0 : 8;
+      const v = isLDoubling[t] === 1 ? lDoubling : powers[off + xPow[t]] * powers[off + 4 + kPow[t]];
+      a[column[t] * n + i] += coef[t] * v;
+    }
+    if (coriolisBasis >= 0) a[coriolisBasis * n + i] = coriolis;
+    const w = 1 / lines.uncertaintyCm1[i];
+    for (let b = 0; b < width; b++) a[b * n + i] *= w;
+  }
 }
 
 /** Line data of a band fit problem (only the lines that enter the fit). */
@@ -254,32 +306,34 @@ export function bandProblem(
   const uniqueFixed = stateUniqueConstant(model.upper, model.shape);
   const zetaFixed = model.upper.zeta;
 
-  const pc = powerColumns(model, lines.quanta);
+  const isPerpendicular = model.band === 'perpendicular';
+  const isLinear = model.shape === 'linear';
   let hasCoriolis = false;
-  for (let i = 0; i < n; i++) if (pc.coriolis[i] !== 0) hasCoriolis = true;
+  if (isPerpendicular && !isLinear) for (let i = 0; i < n && !hasCoriolis; i++) hasCoriolis = lines.quanta[i].kUpper !== 0;
   const useCoriolisColumn = hasCoriolis && (uniqueIndex >= 0 || zetaIndex >= 0);
 
-  // Basis columns: one per floated constant except ζ (whose G is 0), then h if needed.
+  // Basis columns: one per floated constant except ζ (whose G is 0), then h if needed, then t.
   const basisOfParam = new Int32Array(nP).fill(-1);
   let nBasis = 0;
   for (let j = 0; j < nP; j++) if (j !== zetaIndex) basisOfParam[j] = nBasis++;
   const coriolisBasis = useCoriolisColumn ? nBasis++ : -1;
   const width = nBasis + 1;
-  const a = new Float64Array(n * width);
-  for (let j = 0; j < nP; j++) if (basisOfParam[j] >= 0) addLinearColumn(pc, fKeys[j], 1, a, basisOfParam[j] * n);
-  const fixedPart = new Float64Array(n);
-  for (const key of fixedKeys) {
-    const value = model[key.side][key.name];
-    if (value !== 0) addLinearColumn(pc, key, value, fixedPart, 0);
-  }
+  const tColumn = nBasis;
+  // The fixed constants' terms go into the t column with the opposite sign (t = obs − fixed part).
+  const plan = termPlan([
+    ...fKeys.flatMap((key, j) => (basisOfParam[j] >= 0 ? [{ key, factor: 1, column: basisOfParam[j] }] : [])),
+    ...fixedKeys.filter((k) => model[k.side][k.name] !== 0).map((key) => ({ key, factor: -model[key.side][key.name], column: tColumn })),
+  ]);
   const fixedBilinear = useCoriolisColumn ? 0 : uniqueFixed * zetaFixed;
-  const tOffset = nBasis * n;
-  for (let i = 0; i < n; i++) {
-    const w = 1 / lines.uncertaintyCm1[i];
-    for (let b = 0; b < nBasis; b++) a[b * n + i] *= w;
-    if (coriolisBasis >= 0) a[coriolisBasis * n + i] = pc.coriolis[i] * w;
-    a[tOffset + i] = (lines.observedCm1[i] - fixedPart[i] - fixedBilinear * pc.coriolis[i]) * w;
-  }
+  const a = new Float64Array(n * width);
+  designFill(quantaColumns(lines.quanta), lines, plan, a, {
+    tColumn,
+    coriolisBasis,
+    hasCoriolis,
+    isLDoublingBand: isPerpendicular && isLinear,
+    fixedBilinear,
+  });
+  const tOffset = tColumn * n;
   const start = Float64Array.from(fKeys, (k) => model[k.side][k.name]);
 
   const isCompressed = (options.isCompressed ?? true) && n > width;
