@@ -193,7 +193,7 @@ export function lineShapeVoigtTableValue(table: LineShapeVoigtTable, u: number, 
  * Source: Abramowitz & Stegun (1964) eq. 7.1.23 (asymptotic expansion of erfc).
  * @param x reduced offset (dimensionless)
  * @param y reduced Lorentz width (dimensionless, ≥ 0)
- * @returns K(x, y) for large |z|; relative error ~ (3/4)/|z|⁴
+ * @returns K(x, y) for large |z|; relative error ~ (15/4)/x⁴ (first neglected term, y ≪ |x|)
  */
 export function lineShapeVoigtAsymptoticK(x: number, y: number): number {
   const r2 = x * x + y * y;

@@ -24,8 +24,10 @@ const INV_COARSE_STEP = 1 / VOIGT_TABLE_COARSE_STEP;
 /**
  * Add amplitude · V(x_k − ν) to out[k] for k = kLo … kHi, where x_k = fromCm1 + k·stepCm1 and V is
  * the area-normalised Voigt profile (Doppler HWHM α, Lorentz HWHM γ). Uses the bilinear table for
- * |Δν| ≤ 16 Voigt HWHMs and the two-term asymptotic series beyond (error ≤ 1e-6 of the peak, see
- * lineShapeVoigtTable.ts); α = 0 gives the exact Lorentzian.
+ * |Δν| ≤ 16 Voigt HWHMs and the two-term asymptotic series beyond (optionally only its leading,
+ * Lorentzian term beyond 64 HWHMs). Error ≤ 1e-6 of the peak and ≤ 1.1e-5 of the local value in
+ * the wings (lineShapeVoigtTable.ts; the one-term option adds < 3e-8 of the peak); α = 0 gives
+ * the exact Lorentzian.
  * WARNING: no validation — callers check the range lies inside out and that the table covers y.
  * Source: see lineShapeVoigtTable.ts (Weideman 1994; Olivero & Longbothum 1977; A&S 7.1.23).
  * @param out spectrum being accumulated (profile units cm × amplitude)
@@ -38,6 +40,8 @@ const INV_COARSE_STEP = 1 / VOIGT_TABLE_COARSE_STEP;
  * @param dopplerHwhmCm1 α, cm^-1 (≥ 0)
  * @param lorentzHwhmCm1 γ, cm^-1 (≥ 0, not both 0)
  * @param table Voigt table covering y = √ln2 γ/α (unused when α = 0)
+ * @param farOneTerm keep only the leading term beyond 64 HWHMs: error < 3e-8 of the peak but up to
+ *   5e-4 of the local wing value, so only for sums judged relative to the peak (windowed synthesis)
  */
 export function spectrumAddVoigt(
   out: Float64Array,
@@ -50,6 +54,7 @@ export function spectrumAddVoigt(
   dopplerHwhmCm1: number,
   lorentzHwhmCm1: number,
   table: LineShapeVoigtTable | null,
+  farOneTerm: boolean,
 ): void {
   if (kHi < kLo || amplitude === 0) return;
   if (dopplerHwhmCm1 === 0) {
@@ -82,8 +87,14 @@ export function spectrumAddVoigt(
   const kP16 = firstAtLeast(VOIGT_TABLE_END_UP, uA, du, kLo, kEnd);
 
   if (lorentzHwhmCm1 > 0) {
-    addAsymptotic(out, kLo, kM16, uA, du, s, y, ampF * s);
-    addAsymptotic(out, kP16, kEnd, uA, du, s, y, ampF * s);
+    // Beyond 64 HWHMs the second asymptotic term changes K by < 3e-8 of the peak (measured over
+    // all y), so the cheaper one-term (Lorentzian) form may be used there.
+    const kM64 = farOneTerm ? firstAtLeast(-FAR_ONE_TERM, uA, du, kLo, kM16) : kLo;
+    const kP64 = farOneTerm ? firstAtLeast(FAR_ONE_TERM_UP, uA, du, kP16, kEnd) : kEnd;
+    addLorentzTail(out, kLo, kM64, uA, du, s, y, ampF * s);
+    addAsymptotic(out, kM64, kM16, uA, du, s, y, ampF * s);
+    addAsymptotic(out, kP16, kP64, uA, du, s, y, ampF * s);
+    addLorentzTail(out, kP64, kEnd, uA, du, s, y, ampF * s);
   }
   const fineBase = j * FINE_NODES * 4;
   const coarseBase = j * COARSE_NODES * 4;
@@ -95,6 +106,9 @@ export function spectrumAddVoigt(
 }
 
 const VOIGT_TABLE_FINE_END_UP = VOIGT_TABLE_FINE_END * (1 + Number.EPSILON);
+/** Voigt HWHMs beyond which only the leading asymptotic term is kept. */
+const FAR_ONE_TERM = 64;
+const FAR_ONE_TERM_UP = FAR_ONE_TERM * (1 + Number.EPSILON);
 const VOIGT_TABLE_END_UP = VOIGT_TABLE_END * (1 + Number.EPSILON);
 
 /** First k in [lo, hi] with uA + k·du ≥ thr (hi if none), using the same expression as the loops' start. */
@@ -151,6 +165,27 @@ function addAsymptotic(
     const x2 = x * x;
     const inv = 1 / (x2 + y2);
     out[k] += c1 * inv * (1 + 0.5 * (3 * x2 - y2) * inv * inv);
+    x += dx;
+  }
+}
+
+/** out[k] += ampK · y/(√π (x² + y²)) for k ∈ [ka, kb): leading asymptotic term (A&S 7.1.23). */
+function addLorentzTail(
+  out: Float64Array,
+  ka: number,
+  kb: number,
+  uA: number,
+  du: number,
+  s: number,
+  y: number,
+  ampK: number,
+): void {
+  const y2 = y * y;
+  const c1 = ampK * y * INV_SQRT_PI;
+  let x = (uA + ka * du) * s;
+  const dx = du * s;
+  for (let k = ka; k < kb; k++) {
+    out[k] += c1 / (x * x + y2);
     x += dx;
   }
 }

@@ -228,6 +228,30 @@ describe('spectrumSynthesize', () => {
     }
   });
 
+  it('stays relative to what the grid sees: Doppler lines centred a few widths off the grid', () => {
+    // Only the far-down flank of each line is on the grid, so max y ≪ the line peaks; the check is
+    // still 1e-4 of max y.
+    const a = lineShapeDopplerHwhm(1300, 296, 50);
+    for (const [gamma, offsetHwhm] of [
+      [1e-6, 3],
+      [1e-6, 6],
+      [2e-5, 12],
+      [1e-3, 20],
+    ]) {
+      const hw = lineShapeVoigtFwhm(2 * gamma, 2 * a) / 2;
+      const lines = {
+        count: 2,
+        wavenumberCm1: Float64Array.from([1300 - offsetHwhm * hw, 1300.5 + offsetHwhm * hw]),
+        intensity: Float64Array.from([1, 0.7]),
+      };
+      const grid = { fromCm1: 1300, stepCm1: 1e-4, npoints: 5001 };
+      const opts = { temperatureK: 296, massAmu: 50, lorentzHwhmCm1: gamma };
+      const y = spectrumSynthesize(lines, grid, opts);
+      const ref = bruteForce(lines, grid, opts);
+      expect(maxDiff(y, ref)).toBeLessThan(1e-4 * maxAbs(ref));
+    }
+  });
+
   it('handles pure Lorentz, pure Gauss, a coarse grid and a small grid', () => {
     const cases: [SpectrumSynthesizeOptions, SpectrumGrid][] = [
       [{ temperatureK: 0, massAmu: 50, lorentzHwhmCm1: 0.003 }, { fromCm1: 1300, stepCm1: 5e-4, npoints: 4000 }],
