@@ -31,12 +31,31 @@ export function householderQr(a: Float64Array, m: number, n: number, rDiagonal: 
     const b = 1 / (norm * (norm + Math.abs(x0)));
     beta[k] = b;
     rDiagonal[k] = alpha;
-    for (let j = k + 1; j < n; j++) {
+    // Two columns per pass: the reflector column is read once for both (memory-bound loop).
+    let j = k + 1;
+    for (; j + 1 < n; j += 2) {
+      const c1 = j * m;
+      const c2 = c1 + m;
+      let s1 = 0;
+      let s2 = 0;
+      for (let i = k; i < m; i++) {
+        const v = a[ck + i];
+        s1 += v * a[c1 + i];
+        s2 += v * a[c2 + i];
+      }
+      s1 *= b;
+      s2 *= b;
+      for (let i = k; i < m; i++) {
+        const v = a[ck + i];
+        a[c1 + i] -= s1 * v;
+        a[c2 + i] -= s2 * v;
+      }
+    }
+    if (j < n) {
       const cj = j * m;
       let s = 0;
       for (let i = k; i < m; i++) s += a[ck + i] * a[cj + i];
       s *= b;
-      if (s === 0) continue;
       for (let i = k; i < m; i++) a[cj + i] -= s * a[ck + i];
     }
   }
