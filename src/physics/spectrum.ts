@@ -185,7 +185,7 @@ function windowRange(from: number, step: number, npoints: number, nu: number, ha
  *
  * Method: V from a bilinear table of the Voigt shape in reduced units (built once per call for the
  * lines' range of y = √ln2 γ/α) within 16 Voigt HWHMs of each centre, the two-term asymptotic
- * series of w(z) to 64 HWHMs and its Lorentzian leading term beyond. Measured error ≤ 1e-6 of each
+ * series of w(z) to 32 HWHMs and its Lorentzian leading term beyond. Measured error ≤ 1.5e-6 of each
  * line's peak height (lineShapeVoigtTable.ts). Cost O(lines × window points), no per-point
  * allocation: 16,000 lines onto 1e6 points at ±50 FWHM take ≈ 80–110 ms on the 2-core dev machine.
  * Source: Olivero & Longbothum, JQSRT 17, 233 (1977); Weideman, SIAM J. Numer. Anal. 31, 1497 (1994).

@@ -25,8 +25,8 @@ const INV_COARSE_STEP = 1 / VOIGT_TABLE_COARSE_STEP;
  * Add amplitude · V(x_k − ν) to out[k] for k = kLo … kHi, where x_k = fromCm1 + k·stepCm1 and V is
  * the area-normalised Voigt profile (Doppler HWHM α, Lorentz HWHM γ). Uses the bilinear table for
  * |Δν| ≤ 16 Voigt HWHMs and the two-term asymptotic series beyond (optionally only its leading,
- * Lorentzian term beyond 64 HWHMs). Error ≤ 1e-6 of the peak and ≤ 1.1e-5 of the local value in
- * the wings (lineShapeVoigtTable.ts; the one-term option adds < 3e-8 of the peak); α = 0 gives
+ * Lorentzian term beyond 32 HWHMs). Error ≤ 1e-6 of the peak and ≤ 1.1e-5 of the local value in
+ * the wings (lineShapeVoigtTable.ts; the one-term option adds < 5e-7 of the peak); α = 0 gives
  * the exact Lorentzian.
  * WARNING: no validation — callers check the range lies inside out and that the table covers y.
  * Source: see lineShapeVoigtTable.ts (Weideman 1994; Olivero & Longbothum 1977; A&S 7.1.23).
@@ -40,8 +40,8 @@ const INV_COARSE_STEP = 1 / VOIGT_TABLE_COARSE_STEP;
  * @param dopplerHwhmCm1 α, cm^-1 (≥ 0)
  * @param lorentzHwhmCm1 γ, cm^-1 (≥ 0, not both 0)
  * @param table Voigt table covering y = √ln2 γ/α (unused when α = 0)
- * @param farOneTerm keep only the leading term beyond 64 HWHMs: error < 3e-8 of the peak but up to
- *   5e-4 of the local wing value, so only for sums judged relative to the peak (windowed synthesis)
+ * @param farOneTerm keep only the leading term beyond 32 HWHMs: error < 5e-7 of the peak but up to
+ *   2e-3 of the local wing value, so only for sums judged relative to the peak (windowed synthesis)
  */
 export function spectrumAddVoigt(
   out: Float64Array,
@@ -87,14 +87,14 @@ export function spectrumAddVoigt(
   const kP16 = firstAtLeast(VOIGT_TABLE_END_UP, uA, du, kLo, kEnd);
 
   if (lorentzHwhmCm1 > 0) {
-    // Beyond 64 HWHMs the second asymptotic term changes K by < 3e-8 of the peak (measured over
+    // Beyond 32 HWHMs the second asymptotic term changes K by < 5e-7 of the peak (measured 4.2e-7 over
     // all y), so the cheaper one-term (Lorentzian) form may be used there.
-    const kM64 = farOneTerm ? firstAtLeast(-FAR_ONE_TERM, uA, du, kLo, kM16) : kLo;
-    const kP64 = farOneTerm ? firstAtLeast(FAR_ONE_TERM_UP, uA, du, kP16, kEnd) : kEnd;
-    addLorentzTail(out, kLo, kM64, uA, du, s, y, ampF * s);
-    addAsymptotic(out, kM64, kM16, uA, du, s, y, ampF * s);
-    addAsymptotic(out, kP16, kP64, uA, du, s, y, ampF * s);
-    addLorentzTail(out, kP64, kEnd, uA, du, s, y, ampF * s);
+    const kMFar = farOneTerm ? firstAtLeast(-FAR_ONE_TERM, uA, du, kLo, kM16) : kLo;
+    const kPFar = farOneTerm ? firstAtLeast(FAR_ONE_TERM_UP, uA, du, kP16, kEnd) : kEnd;
+    addLorentzTail(out, kLo, kMFar, uA, du, s, y, ampF * s);
+    addAsymptotic(out, kMFar, kM16, uA, du, s, y, ampF * s);
+    addAsymptotic(out, kP16, kPFar, uA, du, s, y, ampF * s);
+    addLorentzTail(out, kPFar, kEnd, uA, du, s, y, ampF * s);
   }
   const fineBase = j * FINE_NODES * 4;
   const coarseBase = j * COARSE_NODES * 4;
@@ -107,7 +107,7 @@ export function spectrumAddVoigt(
 
 const VOIGT_TABLE_FINE_END_UP = VOIGT_TABLE_FINE_END * (1 + Number.EPSILON);
 /** Voigt HWHMs beyond which only the leading asymptotic term is kept. */
-const FAR_ONE_TERM = 64;
+const FAR_ONE_TERM = 32;
 const FAR_ONE_TERM_UP = FAR_ONE_TERM * (1 + Number.EPSILON);
 const VOIGT_TABLE_END_UP = VOIGT_TABLE_END * (1 + Number.EPSILON);
 

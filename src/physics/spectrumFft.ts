@@ -112,7 +112,7 @@ export function spectrumFftComplex(data: Float64Array, inverse = false, twiddles
 /**
  * In-place FFT of a real sequence of power-of-two length N ≥ 2, result in the packed layout
  * (module comment), via one complex FFT of length N/2.
- * Source: Press et al., Numerical Recipes 3rd ed. (2007) §12.3.2, eqs. (12.3.6)–(12.3.8).
+ * Source: Press et al., Numerical Recipes 3rd ed. (2007) §12.3.2 (section and equation numbers from memory).
  * @param x real input of length N, overwritten with the packed half spectrum
  * @param twiddles optional table from spectrumFftTwiddles(N)
  */

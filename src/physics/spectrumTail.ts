@@ -117,7 +117,7 @@ const CHEBYSHEV_NODES = 64;
  * is ~1e-14 of the far-line sum (M ≈ 12× the sum at the nearer end of the grid).
  * Source: L. N. Trefethen, Approximation Theory and Approximation Practice (SIAM 2013), Thm 8.2
  * (from memory); coefficients and Clenshaw sum as in Press et al., Numerical Recipes 3rd ed.
- * (2007) §5.8, eqs. (5.8.7)–(5.8.11).
+ * (2007) §5.8 (section from memory).
  * @param out spectrum to add to
  * @param fromCm1 grid origin, cm^-1
  * @param stepCm1 grid step, cm^-1
