@@ -97,6 +97,7 @@ export interface CombDiffError {
   lineIndex?: number;
 }
 
+/** Result of combinationDifferences: constants or a refusal (never an exception for bad data). */
 export type CombDiffOutcome = { ok: true; result: CombDiffResult } | { ok: false; error: CombDiffError };
 
 /** Options of combinationDifferences. */

@@ -142,8 +142,9 @@ export function leastSquaresSolve(
         nu = 2;
         break;
       }
-      // A rise of χ² smaller than its round-off means we already sit at the minimum.
-      if (lambda === 0 && Number.isFinite(chi2Trial) && chi2Trial - chi2 <= 1e-12 * chi2) {
+      // A rise of χ² at round-off level while the linear model also expects (almost) no gain
+      // means we already sit at the minimum.
+      if (lambda === 0 && Number.isFinite(chi2Trial) && chi2Trial - chi2 <= 1e-12 * chi2 && predicted <= 1e-8 * chi2) {
         options.onIteration?.(iteration, chi2);
         return done('no-further-decrease', iteration, lin);
       }

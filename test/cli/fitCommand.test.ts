@@ -74,6 +74,19 @@ describe('fit command (in process)', () => {
     expect(json.sigmaW).toBeLessThan(1.2);
   });
 
+  it('fits the HCl fundamental as a linear Σ–Σ band from rough start values', async () => {
+    // Check values B0 = 10.440, B1 = 10.133 cm^-1 for H35Cl (Huber & Herzberg 1979, from memory);
+    // tolerance 3 reported σ. Lines from test/fixtures/lines/hcl-fundamental (from memory, σ = 0.05).
+    const dir = 'test/fixtures/lines/hcl-fundamental';
+    const r = await run(['--model', `${dir}/model.json`, '--lines', `${dir}/lines.csv`]);
+    expect(r.code).toBe(0);
+    const json = JSON.parse(r.stdout);
+    expect(json.nLines).toBe(19);
+    expect(Object.keys(json.parameters).sort()).toEqual(['lower.B', 'lower.DJ', 'lower.HJ', 'upper.B', 'upper.DJ', 'upper.HJ', 'upper.origin', 'upper.q']);
+    expect(Math.abs(json.parameters['lower.B'].value - 10.44) / json.parameters['lower.B'].sigma).toBeLessThan(3);
+    expect(Math.abs(json.parameters['upper.B'].value - 10.133) / json.parameters['upper.B'].sigma).toBeLessThan(3);
+  });
+
   it('refuses an under-determined model with exit 1 and names the constants on stderr', async () => {
     const r = await run(['--model', `${FIX}/model-underdetermined.json`, '--lines', `${FIX}/lines.csv`]);
     expect(r.code).toBe(1);
