@@ -7,7 +7,8 @@
  * with L = 2^(−1/4) √N and coefficients a_n taken from a discrete Fourier transform of
  * f(t) = exp(−t²)(L² + t²) sampled at t_k = L tan(θ_k/2), θ_k = kπ/M, M = 2N.
  * Source: J. A. C. Weideman, "Computation of the complex error function", SIAM J. Numer. Anal. 31,
- * 1497–1518 (1994), eqs. (38)–(39) and the choice L = 2^(−1/4) N^(1/2) of section 4.
+ * 1497–1518 (1994), eqs. (38)–(39) and the choice L = 2^(−1/4) N^(1/2) of section 4 (equation and
+ * section numbers from memory; the algorithm itself is checked against independent series in the tests).
  *
  * N = 32 here. Measured against mpmath 1.3.0 (exp(−z²)·erfc(−iz) at 30 digits) on 640 points
  * x ∈ ±{0 … 1000}, y ∈ {0, 1e-10 … 1000} plus 2000 random points in |x| ≤ 12, y ≤ 6, the largest

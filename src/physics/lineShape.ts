@@ -53,7 +53,7 @@ export function lineShapeLorentzian(dxCm1: number, hwhmCm1: number): number {
  * Area-normalised Voigt profile, the convolution of a Gaussian (HWHM α) and a Lorentzian (HWHM γ):
  * V(Δν) = √(ln2/π)/α · K(x, y), x = √ln2 Δν/α, y = √ln2 γ/α, K = Re w (Faddeeva function).
  * Falls back to the exact Lorentzian when α = 0 and to the exact Gaussian when γ = 0.
- * Source: B. H. Armstrong, J. Quant. Spectrosc. Radiat. Transfer 7, 61 (1967), eqs. (1)–(4);
+ * Source: B. H. Armstrong, J. Quant. Spectrosc. Radiat. Transfer 7, 61 (1967), eqs. (1)–(4) (numbers from memory);
  * w(z) by Weideman (1994), see faddeeva.ts.
  * @param dxCm1 offset from the line centre, cm^-1
  * @param gaussHwhmCm1 Gaussian (Doppler) HWHM α, cm^-1 (≥ 0)

@@ -100,7 +100,9 @@ function checkInputs(fn: string, lines: SpectrumLines, grid: SpectrumGrid, opts:
   if (!Number.isFinite(opts.temperatureK) || opts.temperatureK < 0) {
     throw new RangeError(`${fn}: opts.temperatureK must be finite and >= 0, got ${opts.temperatureK}`);
   }
-  if (!(opts.massAmu > 0)) throw new RangeError(`${fn}: opts.massAmu must be > 0 (Infinity allowed), got ${opts.massAmu}`);
+  if (!(opts.massAmu > 0)) {
+    throw new RangeError(`${fn}: opts.massAmu must be > 0 (Infinity allowed), got ${opts.massAmu}`);
+  }
   if (!Number.isFinite(opts.lorentzHwhmCm1) || opts.lorentzHwhmCm1 < 0) {
     throw new RangeError(`${fn}: opts.lorentzHwhmCm1 must be finite and >= 0, got ${opts.lorentzHwhmCm1}`);
   }
@@ -282,7 +284,8 @@ const FULL_MIN_CUT_STEPS = 32;
  * The far-wing errors are relative to the tail sum, itself ≤ y for intensities ≥ 0, so they add
  * ≤ (1e-5 + 2.4e-6 + 3e-6) max y. The near part adds ≤ 1e-5 of the largest value each line shows
  * on the grid (table where the grid samples the line within 10× of its peak, direct Weideman
- * series otherwise; see addNear), i.e. ≤ 1e-5 max y per line overlapping a point. Pure Gauss (γ = 0) needs no tails; pure Lorentz (T = 0 or m = ∞) has σ = 0 (exact tail).
+ * series otherwise; see addNear), i.e. ≤ 1e-5 max y per line overlapping a point.
+ * Pure Gauss (γ = 0) needs no tails; pure Lorentz (T = 0 or m = ∞) has σ = 0 (exact tail).
  * Cost O(lines × (2·cut) + P log P + n·64 if far lines exist).
  * Source: asymptotic series A&S (1964) eq. 7.1.23; Weideman (1994) for w(z); Cooley & Tukey (1965).
  * @param lines line centres (cm^-1) and intensities

@@ -26,7 +26,7 @@ export function spectrumTailKernel(dCm1: number, gammaCm1: number, sigma2Cm2: nu
 /**
  * Cubic Lagrange weights for spreading a unit stick at fractional position f ∈ [0, 1) between
  * nodes 0 and 1 onto nodes −1, 0, 1, 2 (they reproduce cubics exactly).
- * Source: Abramowitz & Stegun (1964) eq. 25.2.13 (four-point Lagrange interpolation).
+ * Source: Abramowitz & Stegun (1964) eq. 25.2.13 (four-point Lagrange interpolation; number from memory).
  * @param f fractional position
  * @param w output, length ≥ 4: weights of nodes −1, 0, 1, 2
  */

@@ -96,7 +96,9 @@ describe('lineShapeVoigt', () => {
         const hi = 14 * a;
         const cuts = [lo, Math.min(0, dx), Math.max(0, dx), hi].filter((c) => c >= lo && c <= hi).sort((p, q) => p - q);
         let v = 0;
-        for (let i = 0; i + 1 < cuts.length; i++) if (cuts[i + 1] > cuts[i]) v += integrate(f, cuts[i], cuts[i + 1], 1e-10 * peak);
+        for (let i = 0; i + 1 < cuts.length; i++) {
+          if (cuts[i + 1] > cuts[i]) v += integrate(f, cuts[i], cuts[i + 1], 1e-10 * peak);
+        }
         expect(Math.abs(lineShapeVoigt(dx, a, g) - v)).toBeLessThan(1e-7 * peak);
       }
     }

@@ -26,7 +26,7 @@ describe('spectrumTailKernel', () => {
 describe('spectrumTailStickWeights', () => {
   it('sum to 1 and reproduce cubic moments', () => {
     // Ref: four-point Lagrange interpolation is exact for polynomials of degree ≤ 3
-    // (A&S 1964 eq. 25.2.13): Σ w_j (j − f)^p = 0 for p = 1, 2, 3. tol 1e-15.
+    // (A&S 1964 eq. 25.2.13, from memory): Σ w_j (j − f)^p = 0 for p = 1, 2, 3. tol 1e-15.
     const w = new Float64Array(4);
     for (const f of [0, 0.1, 0.5, 0.77, 0.999]) {
       spectrumTailStickWeights(f, w);
