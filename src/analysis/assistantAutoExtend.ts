@@ -1,0 +1,367 @@
+import { assignmentCheck } from '../fit/assignment';
+import type { FitError, FitResult } from '../fit/fitTypes';
+import { lineLabelAscii } from '../physics/lineLabel';
+import type { BandModel } from '../physics/model';
+import { transitionWavenumber } from '../physics/termValues';
+import { assistantMatch } from './assistantMatch';
+import { assistantMisassignments, assistantRobustScale } from './assistantMisassignment';
+import { assistantOptionsResolve } from './assistantOptions';
+import {
+  assistantPeakContext,
+  assistantPeaksCheck,
+  assistantPeaksRepairWarning,
+  assistantPeaksUsable,
+  assistantPeakUncertainty,
+  type AssistantPeakContext,
+} from './assistantPeakContext';
+import { assistantCatalogue, assistantQuantaKey, type AssistantCatalogue } from './assistantPredict';
+import { assistantRefit } from './assistantRefit';
+import { assistantFitLines } from './assistantReview';
+import type { AssistantAmbiguity, AssistantIteration, AssistantLine, AssistantOptions, AssistantOptionsResolved, AssistantRunResult } from './assistantTypes';
+import type { PeakList } from './peaksFind';
+
+/** Inputs of assistantAutoExtend. */
+export interface AssistantRunInput {
+  /** Start model; constants the fit does not float stay at these values (cm^-1, K). */
+  model: BandModel;
+  /** Keys ("upper.B", …) the fits may float, e.g. ModelFile.floated. */
+  floatable: readonly string[];
+  /** Peaks of the trace (peaksFind), ascending wavenumber. */
+  peaks: PeakList;
+  /** The current set: seeds, accepted and earlier proposals, rejected lines. */
+  lines: readonly AssistantLine[];
+  options?: AssistantOptions;
+  /** Prefix of the ids of new lines (a number is appended; existing ids are never reused). @default 'auto' */
+  idPrefix?: string;
+}
+
+/**
+ * Index of a sub-band along the band: ΔK·K'' for a perpendicular band of a symmetric top
+ * (… pK2 = −2, pK1 = −1, rK0 = 0, rK1 = 1 …, neighbours differ by 1), K'' for a parallel band,
+ * 0 for a linear molecule.
+ */
+export function assistantSubBandIndex(model: Pick<BandModel, 'shape' | 'band'>, deltaK: number, kLower: number): number {
+  if (model.shape === 'linear') return 0;
+  return model.band === 'perpendicular' ? deltaK * kLower : kLower;
+}
+
+/** J'' span of the assigned lines per sub-band. */
+type Reach = Map<number, { jMin: number; jMax: number; count: number }>;
+
+function reachOf(model: BandModel, lines: readonly AssistantLine[]): Reach {
+  const reach: Reach = new Map();
+  for (const l of lines) {
+    if (l.status === 'rejected') continue;
+    const m = assistantSubBandIndex(model, l.kUpper - l.kLower, l.kLower);
+    const r = reach.get(m);
+    if (!r) reach.set(m, { jMin: l.jLower, jMax: l.jLower, count: 1 });
+    else {
+      r.jMin = Math.min(r.jMin, l.jLower);
+      r.jMax = Math.max(r.jMax, l.jLower);
+      r.count++;
+    }
+  }
+  return reach;
+}
+
+/**
+ * Whether a rung is within reach: within reachJStep of the J'' range of its sub-band, or, for a
+ * sub-band with no line yet, at J'' ≤ K'' + 2·reachJStep next to a sub-band with ≥ 3 lines.
+ */
+function isReached(model: BandModel, reach: Reach, deltaK: number, kLower: number, jLower: number, step: number): boolean {
+  const m = assistantSubBandIndex(model, deltaK, kLower);
+  const r = reach.get(m);
+  if (r) return jLower >= r.jMin - step && jLower <= r.jMax + step;
+  const next = [reach.get(m - 1), reach.get(m + 1)].some((n) => n !== undefined && n.count >= 3);
+  return next && jLower <= kLower + 2 * step;
+}
+
+/**
+ * Peak height per unit relative intensity (absorbance): the median of height/intensity over the
+ * assigned lines on single (not blended) peaks; NaN with fewer than 3.
+ */
+function heightScaleOf(lines: readonly AssistantLine[], cat: AssistantCatalogue, peaks: PeakList, context: AssistantPeakContext): number {
+  const ratios: number[] = [];
+  for (const l of lines) {
+    if (l.status === 'rejected' || l.isExcluded || l.isBlended || l.peakIndex === null) continue;
+    if (context.isPossibleBlend[l.peakIndex]) continue;
+    const i = cat.indexOf.get(assistantQuantaKey(l));
+    if (i === undefined || !(cat.lines.intensity[i] > 0)) continue;
+    ratios.push(peaks.height[l.peakIndex] / cat.lines.intensity[i]);
+  }
+  if (ratios.length < 3) return NaN;
+  ratios.sort((a, b) => a - b);
+  const m = ratios.length >> 1;
+  return ratios.length % 2 ? ratios[m] : 0.5 * (ratios[m - 1] + ratios[m]);
+}
+
+function checkLines(model: BandModel, lines: readonly AssistantLine[]): void {
+  const ids = new Set<string>();
+  lines.forEach((l, i) => {
+    const where = `assistantAutoExtend: lines[${i}] (id '${l?.id}')`;
+    if (!l || typeof l !== 'object') throw new Error(`${where}: must be an assistant line object`);
+    const why = assignmentCheck(l, model);
+    if (why) throw new Error(`${where}: ${why}`);
+    if (!Number.isFinite(l.observedCm1)) throw new Error(`${where}: observedCm1 must be a finite wavenumber in cm^-1, got ${l.observedCm1}`);
+    if (!(l.uncertaintyCm1 > 0) || !Number.isFinite(l.uncertaintyCm1)) {
+      throw new Error(`${where}: uncertaintyCm1 must be a finite number > 0 (cm^-1), got ${l.uncertaintyCm1}`);
+    }
+    if (ids.has(l.id)) throw new Error(`${where}: id '${l.id}' is used twice`);
+    ids.add(l.id);
+  });
+}
+
+/**
+ * The bootstrap loop, headless and transparent: fit the current lines, predict every rung with
+ * its σ, propose the rungs that match exactly one peak one-to-one, refit, widen, repeat until
+ * nothing new matches.
+ *
+ * Each iteration:
+ * 1. Fit the seeds, accepted and proposed lines with the constants they can determine
+ *    (assistantRefit: origin and B first, more as the set grows; rank-deficient sets never throw).
+ *    A proposal (or model-only seed) that is then more than excludeSigma × the robust σ_w off is
+ *    excluded from the fit (kept, with the reason) and the fit repeated.
+ * 2. Predict every line of the band (assistantCatalogue); the matching σ combines the prediction σ
+ *    (Student-widened), the fit's residual scatter and a width floor, so early tolerances are wide
+ *    and narrow as the fit improves.
+ * 3. Offer the unassigned rungs within reach (a step s beyond the assigned J'' of their sub-band,
+ *    or J'' ≤ K'' + 2s in a sub-band next to one with ≥ 3 lines; s = reachJStep while lines come
+ *    in, doubled after an iteration that adds nothing, so a run of ambiguous rungs is jumped,
+ *    until it spans the band) whose predicted SNR is
+ *    at least minPredictedSnr; match them (assistantMatch: one peak for the rung, one rung for the
+ *    peak, intensity plausible). Possible blends are weighted down (assistantPeakUncertainty).
+ * Every added line has status 'proposed', its reason and distance; ambiguities are listed, never
+ * chosen. Lines given by the user (source 'user') are never changed. The result's undo record
+ * restores the set as it was (assistantUndo). Finally the misassignment hunt runs on the whole set.
+ * Source: the assign–fit–predict loop of rovibrational analysis (common practice; e.g. Papoušek &
+ * Aliev, Molecular Vibrational-Rotational Spectra (1982), ch. on assignment, from memory).
+ * @returns the new set, what was added, ambiguities, suspects, the final fit and the undo record
+ * @throws Error for an invalid peak list, option, or line (naming it)
+ */
+export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResult {
+  const usable = assistantPeaksUsable(input.peaks);
+  const peaks = usable.peaks;
+  const bad = assistantPeaksCheck('assistantAutoExtend', peaks);
+  if (bad) throw new Error(bad);
+  const { model } = input;
+  const options = assistantOptionsResolve(model, input.options);
+  checkLines(model, input.lines);
+  const context = assistantPeakContext(peaks, options.widthNeighbours, options.blendWidthRatio);
+  const previousLines = input.lines.map((l) => ({ ...l }));
+  const lines: AssistantLine[] = input.lines.map((l) => ({ ...l }));
+  const usedIds = new Set(lines.map((l) => l.id));
+  const prefix = input.idPrefix ?? 'auto';
+  let counter = 0;
+  const newId = (): string => {
+    let id: string;
+    do id = `${prefix}${++counter}`;
+    while (usedIds.has(id));
+    usedIds.add(id);
+    return id;
+  };
+  const addedIds: string[] = [];
+  const iterations: AssistantIteration[] = [];
+  const warnings: string[] = assistantPeaksRepairWarning(peaks, usable.repaired);
+  // Held in one object because the refit closure updates it (TypeScript does not track closure writes).
+  const state: { fit: FitResult | null; fitError: FitError | null; floated: string[]; fitNotes: string[] } = {
+    fit: null,
+    fitError: null,
+    floated: [],
+    fitNotes: [],
+  };
+  let ambiguous: AssistantAmbiguity[] = [];
+  let heightScale = NaN;
+  if (lines.filter((l) => l.status !== 'rejected').length === 0) {
+    warnings.push('There are no lines to start from: give seed lines (or pick them with assistantSeedFromModel).');
+  }
+
+  const refit = (): void => {
+    const out = assistantRefit(model, input.floatable, assistantFitLines(lines), state.fit);
+    state.fitNotes = out.notes;
+    state.floated = out.floated;
+    if (out.fit) {
+      state.fit = out.fit;
+      state.fitError = null;
+    } else {
+      state.fitError = out.error;
+    }
+  };
+
+  let lastAdded = 0;
+  let isFinished = false;
+  // Reach step in J'': reachJStep while lines come in; doubled when an iteration adds nothing (to
+  // jump a run of ambiguous rungs), until it spans the whole band.
+  let step = options.reachJStep;
+  for (let iteration = 1; iteration <= options.maxIterations; iteration++) {
+    refit();
+    const nExcluded = excludeOutliers(lines, state.fit, options, iteration);
+    if (nExcluded > 0) refit();
+    const current = state.fit;
+    const minIntensity = Number.isFinite(heightScale) && peaks.noiseSigma > 0 ? Math.min(1e-3, Math.max(1e-7, (0.5 * peaks.noiseSigma) / heightScale)) : 1e-4;
+    const cat = assistantCatalogue({
+      model: current ? current.model : model,
+      fit: current,
+      peaks,
+      context,
+      minIntensity,
+      widthFloorFraction: options.widthFloorFraction,
+      fallbackSigmaCm1: options.fallbackSigmaCm1,
+    });
+    heightScale = heightScaleOf(lines, cat, peaks, context);
+
+    const live = lines.filter((l) => l.status !== 'rejected');
+    const reach = reachOf(model, live);
+    const isRungAssigned = new Uint8Array(cat.lines.count);
+    for (const l of live) {
+      const i = cat.indexOf.get(assistantQuantaKey(l));
+      if (i !== undefined) isRungAssigned[i] = 1;
+    }
+    const peakOwner: string[] = new Array(peaks.count).fill('');
+    for (const l of live) if (l.peakIndex !== null && l.peakIndex < peaks.count) peakOwner[l.peakIndex] = labelOf(l, model);
+    const forbidden = new Set<string>();
+    for (const l of lines) if (l.status === 'rejected' && l.peakIndex !== null) forbidden.add(`${assistantQuantaKey(l)}@${l.peakIndex}`);
+
+    const minHeight = peaks.noiseSigma > 0 ? options.minPredictedSnr * peaks.noiseSigma : 0.5 * minOf(peaks.height, peaks.count);
+    const candidates: number[] = [];
+    const tolerances: number[] = [];
+    for (let i = 0; i < cat.lines.count; i++) {
+      if (isRungAssigned[i]) continue;
+      if (!isReached(model, reach, cat.lines.deltaK[i], cat.lines.kLower[i], cat.lines.jLower[i], step)) continue;
+      const strongEnough = Number.isFinite(heightScale) ? heightScale * cat.lines.intensity[i] >= minHeight : cat.lines.intensity[i] >= 0.02;
+      if (!strongEnough) continue;
+      candidates.push(i);
+      tolerances.push(cat.toleranceSigmaCm1[i]);
+    }
+    const matched = assistantMatch({
+      cat,
+      peaks,
+      context,
+      shape: model.shape,
+      candidates,
+      isRungAssigned,
+      peakOwner,
+      forbidden,
+      heightScale,
+      options,
+    });
+    ambiguous = matched.ambiguous;
+    for (const m of matched.matches) {
+      const p = m.peak;
+      const i = m.rung;
+      const line: AssistantLine = {
+        id: newId(),
+        jUpper: cat.lines.jUpper[i],
+        kUpper: cat.lines.kUpper[i],
+        jLower: cat.lines.jLower[i],
+        kLower: cat.lines.kLower[i],
+        observedCm1: peaks.wavenumberCm1[p],
+        uncertaintyCm1: assistantPeakUncertainty(
+          peaks,
+          context,
+          p,
+          options.positionFloorFraction,
+          options.blendUncertaintyFraction,
+          m.hasPartnerWithin,
+          m.overlapShiftCm1,
+        ),
+        isBlended: m.isBlend,
+        isExcluded: false,
+        note: '',
+        status: 'proposed',
+        source: 'auto-extend',
+        peakIndex: p,
+        predictedCm1: cat.predictedCm1[i],
+        matchSigmaCm1: m.sigmaCm1,
+        distanceSigma: m.distanceSigma,
+        reason: `iteration ${iteration}: ${m.reason}`,
+        iteration,
+      };
+      line.note = line.reason;
+      lines.push(line);
+      addedIds.push(line.id);
+    }
+    lastAdded = matched.matches.length;
+    iterations.push({
+      iteration,
+      nLinesInFit: current ? current.nLines : 0,
+      floated: [...state.floated],
+      rmsCm1: current ? current.rmsCm1 : NaN,
+      medianToleranceCm1: median(tolerances),
+      reachJStep: step,
+      nProposed: matched.matches.length,
+      nExcluded,
+    });
+    if (matched.matches.length > 0) step = options.reachJStep;
+    else if (step <= model.jMax) step *= 2;
+    else {
+      isFinished = true;
+      break;
+    }
+  }
+  if (!isFinished) {
+    if (lastAdded > 0) {
+      refit();
+      if (excludeOutliers(lines, state.fit, options, iterations.length) > 0) refit();
+    }
+    warnings.push(`Stopped after maxIterations = ${options.maxIterations} with lines still being added; run again to continue.`);
+  }
+  const hunt = assistantMisassignments({ model, floatable: input.floatable, lines, peaks, context, options: input.options });
+  const { fit, fitError, floated, fitNotes } = state;
+  if (fitError && !fit) warnings.push(`No fit could be made: ${fitError.message}`);
+  return {
+    lines,
+    addedIds,
+    ambiguous,
+    suspects: hunt.suspects,
+    fit,
+    fitError,
+    floated,
+    fitNotes,
+    iterations,
+    undo: { previousLines, addedIds: [...addedIds] },
+    warnings,
+  };
+}
+
+/**
+ * Exclude from the fit the machine-made lines (proposals and model-only seeds, never the user's)
+ * more than excludeSigma × the robust σ_w from the fit; they stay in the set with the reason.
+ * @returns how many were excluded
+ */
+function excludeOutliers(lines: AssistantLine[], fit: FitResult | null, options: AssistantOptionsResolved, iteration: number): number {
+  if (!fit || fit.nLines < 10 || fit.isExactlyDetermined) return 0;
+  const scale = assistantRobustScale(fit.lines.filter((l) => !l.isExcluded).map((l) => l.normalisedResidual));
+  let n = 0;
+  for (const l of lines) {
+    if (l.isExcluded || l.status === 'rejected' || l.status === 'accepted' || l.source === 'user') continue;
+    const r = (l.observedCm1 - calcOf(fit, l)) / l.uncertaintyCm1;
+    if (Math.abs(r) > options.excludeSigma * scale) {
+      l.isExcluded = true;
+      l.reason += `; excluded in iteration ${iteration}: obs − calc is ${(r / scale).toFixed(1)}σ (blend, perturbation or misassignment?)`;
+      l.note = l.reason;
+      n++;
+    }
+  }
+  return n;
+}
+
+function calcOf(fit: FitResult, l: AssistantLine): number {
+  return transitionWavenumber(fit.model, l.jUpper, l.kUpper, l.jLower, l.kLower);
+}
+
+function labelOf(l: AssistantLine, model: BandModel): string {
+  return lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, model.shape);
+}
+
+function median(values: number[]): number {
+  if (values.length === 0) return NaN;
+  const a = [...values].sort((x, y) => x - y);
+  const m = a.length >> 1;
+  return a.length % 2 ? a[m] : 0.5 * (a[m - 1] + a[m]);
+}
+
+function minOf(a: Float64Array, n: number): number {
+  let m = Infinity;
+  for (let i = 0; i < n; i++) if (a[i] < m) m = a[i];
+  return Number.isFinite(m) ? m : 0;
+}

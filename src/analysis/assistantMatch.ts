@@ -1,0 +1,196 @@
+import type { TopShape } from '../physics/model';
+import { assistantPeaksInRange, type AssistantPeakContext } from './assistantPeakContext';
+import { assistantOverlapShift, assistantPairSigma, assistantRungOf, type AssistantCatalogue } from './assistantPredict';
+import type { AssistantAmbiguity, AssistantCandidatePeak, AssistantOptionsResolved } from './assistantTypes';
+import type { PeakList } from './peaksFind';
+
+/** A neighbour pulling a line's maximum by more than this fraction of the FWHM makes it a possible blend. */
+const OVERLAP_BLEND_FRACTION = 0.05;
+
+/** One rung matched to one peak without ambiguity. */
+export interface AssistantMatch {
+  /** Catalogue index of the rung. */
+  rung: number;
+  /** Peak index. */
+  peak: number;
+  /** |peak − predicted| / σ of the pair. */
+  distanceSigma: number;
+  /** σ of the pair, cm^-1. */
+  sigmaCm1: number;
+  /** The peak may hold another line (wide, flagged, or a weaker rung within tolerance). */
+  isBlend: boolean;
+  /** A weaker rung lies within tolerance of the peak (the position gets the full blend uncertainty). */
+  hasPartnerWithin: boolean;
+  /** Expected pull of the maximum by neighbouring predicted lines, cm^-1 (assistantOverlapShift). */
+  overlapShiftCm1: number;
+  /** Plain words. */
+  reason: string;
+}
+
+/** Inputs of assistantMatch. */
+export interface AssistantMatchInput {
+  cat: AssistantCatalogue;
+  peaks: PeakList;
+  context: AssistantPeakContext;
+  shape: TopShape;
+  /** Catalogue indices of the rungs to try. */
+  candidates: ArrayLike<number>;
+  /** 1 for catalogue rungs already assigned (they explain their own peak and compete for no other). */
+  isRungAssigned: Uint8Array;
+  /** Label of the line on each peak, or '' for a free peak. */
+  peakOwner: string[];
+  /** "rungKey@peakIndex" pairs the user rejected. */
+  forbidden: ReadonlySet<string>;
+  /** Peak height per unit relative intensity (absorbance); NaN when not yet known. */
+  heightScale: number;
+  options: AssistantOptionsResolved;
+}
+
+/**
+ * Match rungs to peaks where there is exactly one way: the rung has exactly one peak within
+ * k·σ (σ of the pair: the rung's tolerance σ ⊕ the peak's centre σ), that peak is free, its
+ * height agrees with the rung's predicted intensity within a factor intensityRatioMax (once the
+ * scale is known), and no other unassigned rung at least 1/dominanceRatio as strong lies within
+ * k·σ of the peak. Everything else that comes close is listed as an ambiguity with all its
+ * candidates and never chosen. Weaker rungs within tolerance (≥ blendPartnerFraction of the
+ * candidate) and wide or flagged peaks mark the match as a possible blend.
+ * Source: the one-to-one rule is common practice of assignment by prediction; the intensity
+ * dominance factor is a rule of thumb (a line a quarter as strong cannot make the peak).
+ * @returns the matches (at most one per rung and per peak) and the ambiguities
+ */
+export function assistantMatch(input: AssistantMatchInput): { matches: AssistantMatch[]; ambiguous: AssistantAmbiguity[] } {
+  const { cat, peaks, context, options, shape } = input;
+  const k = options.toleranceSigma;
+  const n = cat.lines.count;
+  let maxCentreSigma = 0;
+  for (let p = 0; p < peaks.count; p++) maxCentreSigma = Math.max(maxCentreSigma, peaks.centreSigmaCm1[p]);
+  let maxTol = 0;
+  for (let i = 0; i < n; i++) maxTol = Math.max(maxTol, cat.toleranceSigmaCm1[i]);
+  const sortedPred = Float64Array.from(cat.order, (i) => cat.predictedCm1[i]);
+
+  const rungKey = (i: number) => `${cat.lines.jUpper[i]},${cat.lines.kUpper[i]},${cat.lines.jLower[i]},${cat.lines.kLower[i]}`;
+  const pairPasses = (i: number, p: number): AssistantCandidatePeak | null => {
+    const sigma = assistantPairSigma(cat.toleranceSigmaCm1[i], peaks.centreSigmaCm1[p]);
+    const d = Math.abs(peaks.wavenumberCm1[p] - cat.predictedCm1[i]);
+    return d <= k * sigma ? { peakIndex: p, wavenumberCm1: peaks.wavenumberCm1[p], distanceSigma: d / sigma, sigmaCm1: sigma } : null;
+  };
+  /** Unassigned rungs j ≠ i whose pair with peak p passes. */
+  const rungsAtPeak = (p: number, except: number): number[] => {
+    const x = peaks.wavenumberCm1[p];
+    const half = k * Math.hypot(maxTol, peaks.centreSigmaCm1[p]);
+    let lo = 0;
+    let hi = sortedPred.length;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (sortedPred[mid] < x - half) lo = mid + 1;
+      else hi = mid;
+    }
+    const out: number[] = [];
+    for (let s = lo; s < sortedPred.length && sortedPred[s] <= x + half; s++) {
+      const j = cat.order[s];
+      if (j === except || input.isRungAssigned[j]) continue;
+      if (pairPasses(j, p)) out.push(j);
+    }
+    return out;
+  };
+
+  const matches: AssistantMatch[] = [];
+  const ambiguous: AssistantAmbiguity[] = [];
+  const severalRungsAt = new Map<number, AssistantAmbiguity>();
+  for (let c = 0; c < input.candidates.length; c++) {
+    const i = input.candidates[c];
+    const half = k * Math.hypot(cat.toleranceSigmaCm1[i], maxCentreSigma);
+    const [first, last] = assistantPeaksInRange(peaks, cat.predictedCm1[i] - half, cat.predictedCm1[i] + half);
+    const found: AssistantCandidatePeak[] = [];
+    const key = rungKey(i);
+    for (let p = first; p <= last; p++) {
+      if (input.forbidden.has(`${key}@${p}`)) continue;
+      const hit = pairPasses(i, p);
+      if (hit) found.push(hit);
+    }
+    if (found.length === 0) continue;
+    const rung = assistantRungOf(cat, i, shape);
+    if (found.length > 1) {
+      found.sort((a, b) => a.distanceSigma - b.distanceSigma);
+      ambiguous.push({
+        kind: 'several-peaks',
+        rungs: [rung],
+        peaks: found,
+        reason: `${rung.label}: ${found.length} peaks lie within ${k}σ of the prediction ${rung.predictedCm1.toFixed(4)} cm^-1 (${found.map((f) => `${f.wavenumberCm1.toFixed(4)} at ${f.distanceSigma.toFixed(1)}σ`).join(', ')})`,
+      });
+      continue;
+    }
+    const hit = found[0];
+    const p = hit.peakIndex;
+    if (input.peakOwner[p] !== '') {
+      ambiguous.push({
+        kind: 'peak-taken',
+        rungs: [rung],
+        peaks: found,
+        reason: `${rung.label}: the only peak within ${k}σ (${hit.wavenumberCm1.toFixed(4)} cm^-1) already carries ${input.peakOwner[p]} (possible blend)`,
+      });
+      continue;
+    }
+    const intensity = cat.lines.intensity[i];
+    if (Number.isFinite(input.heightScale) && input.heightScale > 0) {
+      const ratio = peaks.height[p] / (input.heightScale * intensity);
+      if (!(ratio <= options.intensityRatioMax && ratio >= 1 / options.intensityRatioMax)) {
+        ambiguous.push({
+          kind: 'intensity-mismatch',
+          rungs: [rung],
+          peaks: found,
+          reason: `${rung.label}: the only peak within ${k}σ (${hit.wavenumberCm1.toFixed(4)} cm^-1) is ${ratio.toPrecision(2)}× the predicted height (allowed 1/${options.intensityRatioMax}…${options.intensityRatioMax})`,
+        });
+        continue;
+      }
+    }
+    const others = rungsAtPeak(p, i);
+    const competitors = others.filter((j) => cat.lines.intensity[j] * options.dominanceRatio >= intensity);
+    if (competitors.length > 0) {
+      let entry = severalRungsAt.get(p);
+      if (!entry) {
+        entry = { kind: 'several-rungs', rungs: [], peaks: [hit], reason: '' };
+        severalRungsAt.set(p, entry);
+        ambiguous.push(entry);
+      }
+      for (const j of [i, ...competitors]) {
+        if (!entry.rungs.some((r) => r.label === assistantRungOf(cat, j, shape).label)) entry.rungs.push(assistantRungOf(cat, j, shape));
+      }
+      entry.reason = `peak ${hit.wavenumberCm1.toFixed(4)} cm^-1: ${entry.rungs.length} comparably strong rungs predicted within ${k}σ (${entry.rungs.map((r) => `${r.label} at ${r.predictedCm1.toFixed(4)}`).join(', ')})`;
+      continue;
+    }
+    const partners = others.filter((j) => cat.lines.intensity[j] >= options.blendPartnerFraction * intensity);
+    const why: string[] = [];
+    if (context.isPossibleBlend[p]) why.push(context.blendReason[p]);
+    if (partners.length) {
+      why.push(
+        `possible blend with weaker ${partners.map((j) => `${assistantRungOf(cat, j, shape).label} (${(cat.lines.intensity[j] / intensity).toFixed(2)}×)`).join(', ')}`,
+      );
+    }
+    const width = context.localFwhmCm1[p];
+    const overlap = assistantOverlapShift(cat, i, width);
+    if (Math.abs(overlap.shiftCm1) > OVERLAP_BLEND_FRACTION * width && overlap.neighbour >= 0) {
+      why.push(
+        `on the wing of ${assistantRungOf(cat, overlap.neighbour, shape).label} (expected pull ${overlap.shiftCm1 >= 0 ? '+' : ''}${overlap.shiftCm1.toPrecision(2)} cm^-1)`,
+      );
+    }
+    matches.push({
+      rung: i,
+      peak: p,
+      distanceSigma: hit.distanceSigma,
+      sigmaCm1: hit.sigmaCm1,
+      isBlend: why.length > 0,
+      hasPartnerWithin: partners.length > 0,
+      overlapShiftCm1: overlap.shiftCm1,
+      reason:
+        `${rung.label}: only peak within ${k}σ of ${rung.predictedCm1.toFixed(4)} ± ${hit.sigmaCm1.toPrecision(2)} cm^-1 ` +
+        `(${hit.distanceSigma.toFixed(2)}σ) and the only rung for that peak` +
+        (why.length ? `; ${why.join('; ')}: weighted down` : ''),
+    });
+  }
+  // Guard: one peak never goes to two rungs in one pass (cannot happen with the symmetric test
+  // above, but a wrong catalogue must not create a silent double assignment).
+  const byPeak = new Map<number, number>();
+  for (const m of matches) byPeak.set(m.peak, (byPeak.get(m.peak) ?? 0) + 1);
+  return { matches: matches.filter((m) => byPeak.get(m.peak) === 1), ambiguous };
+}

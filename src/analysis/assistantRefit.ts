@@ -1,0 +1,133 @@
+import { fitKeyParse } from '../fit/bandDesign';
+import { fitBand } from '../fit/fitBand';
+import type { FitError, FitLineInput, FitResult } from '../fit/fitTypes';
+import { shapeUniqueName, type BandModel, type ParameterName } from '../physics/model';
+
+/** Outcome of assistantRefit: a fit (or why none), the constants floated and why others were held. */
+export interface AssistantRefitOutcome {
+  fit: FitResult | null;
+  error: FitError | null;
+  /** Constants floated in the fit that succeeded (or in the last attempt). */
+  floated: string[];
+  /** Plain words: constants held at their model values and why. */
+  notes: string[];
+}
+
+/** What the fitted lines span (decides which constants they can determine). */
+interface LineSpan {
+  n: number;
+  distinctK: number;
+  jMax: number;
+  hasQ: boolean;
+  hasPR: boolean;
+}
+
+function lineSpan(lines: readonly FitLineInput[]): LineSpan {
+  const ks = new Set<number>();
+  let n = 0;
+  let jMax = 0;
+  let hasQ = false;
+  let hasPR = false;
+  for (const l of lines) {
+    if (l.isExcluded) continue;
+    n++;
+    ks.add(l.kLower);
+    jMax = Math.max(jMax, l.jLower);
+    if (l.jUpper === l.jLower) hasQ = true;
+    else hasPR = true;
+  }
+  return { n, distinctK: ks.size, jMax, hasQ, hasPR };
+}
+
+/**
+ * Stages of floating, earliest first: each stage's constants and when the lines can carry them.
+ * Thresholds are common practice for a bootstrap (the centrifugal terms only once the lines
+ * reach J'' ~ 10 and several K); the rank test of the fit then removes what is still undetermined.
+ */
+function stagedKeys(model: BandModel, span: LineSpan): string[][] {
+  const both = (name: ParameterName) => [`upper.${name}`, `lower.${name}`];
+  const unique = shapeUniqueName(model.shape);
+  const stages: string[][] = [['upper.origin']];
+  if (span.n >= 3) stages.push(both('B'));
+  if (unique && span.distinctK >= 2) stages.push([...both(unique), 'upper.zeta']);
+  if (model.shape === 'linear' && model.band === 'perpendicular' && span.hasQ && span.hasPR && span.n >= 4) stages.push(['upper.q']);
+  if (span.n >= 12 && span.jMax >= 10) stages.push(both('DJ'));
+  if (unique && span.n >= 20 && span.distinctK >= 3 && span.jMax >= 10) stages.push(both('DJK'));
+  if (unique && span.n >= 25 && span.distinctK >= 4) stages.push(both('DK'));
+  if (span.n >= 60 && span.jMax >= 25) stages.push(both('HJ'));
+  if (unique && span.n >= 80 && span.distinctK >= 4 && span.jMax >= 20) stages.push([...both('HJK'), ...both('HKJ')]);
+  if (unique && span.n >= 100 && span.distinctK >= 6) stages.push(both('HK'));
+  return stages;
+}
+
+/**
+ * Fit the band to the current lines, floating only what they can determine.
+ *
+ * Staging: origin first, then B′ and B″ (≥ 3 lines), the unique-axis constants and ζ (≥ 2 K''),
+ * DJ (≥ 12 lines reaching J'' ≥ 10), DJK, DK, then H terms as the set grows; only keys in
+ * `floatable` are ever floated, at most N − 2 of them (the rest wait). A refusal of the fit
+ * for an under-determined set (rank diagnosis of fitBand) fixes the constants it suggests, or the
+ * latest-staged one involved, and tries again; too few lines drops the latest-staged key. Never
+ * throws for an under-determined set; a set no constant can be fitted to gives fit null and the error.
+ * Source: weighted least squares and rank diagnosis of fit/fitBand.ts; staging is common practice
+ * of bootstrapping a band analysis (low-order constants first).
+ * @param model start model; constants not floated stay at these values (cm^-1)
+ * @param floatable keys ("upper.B", …) the user allows to float
+ * @param lines lines of the fit (cm^-1)
+ * @param previous optional earlier fit: its values start the floated constants (faster, same answer)
+ */
+export function assistantRefit(
+  model: BandModel,
+  floatable: readonly string[],
+  lines: readonly FitLineInput[],
+  previous?: FitResult | null,
+): AssistantRefitOutcome {
+  const allowed = new Set(floatable);
+  const span = lineSpan(lines);
+  const notes: string[] = [];
+  const staged = stagedKeys(model, span).map((keys) => keys.filter((k) => allowed.has(k)));
+  let floated = staged.flat();
+  const cap = span.n >= 3 ? span.n - 2 : span.n;
+  if (floated.length > cap) {
+    notes.push(`${floated.length - cap} constant(s) wait for more lines (${floated.slice(cap).join(', ')}): ${span.n} lines keep at most ${cap} floated`);
+    floated = floated.slice(0, cap);
+  }
+  const waiting = floatable.filter((k) => !floated.includes(k) && !staged.flat().includes(k));
+  if (waiting.length) notes.push(`not yet floated (the lines do not reach far enough in J or K): ${waiting.join(', ')}`);
+
+  const start = (keys: string[]): BandModel => {
+    const m: BandModel = { ...model, lower: { ...model.lower }, upper: { ...model.upper } };
+    if (previous) {
+      for (const key of keys) {
+        if (!previous.floated.includes(key)) continue;
+        const k = fitKeyParse(key)!;
+        m[k.side][k.name] = previous.model[k.side][k.name];
+      }
+    }
+    return m;
+  };
+  const rankOf = (key: string) => staged.findIndex((s) => s.includes(key));
+  let lastError: FitError | null = null;
+  for (let attempt = 0; attempt < 20; attempt++) {
+    const outcome = fitBand({ model: start(floated), floated, lines });
+    if (outcome.ok) return { fit: outcome.result, error: null, floated, notes };
+    const e = outcome.error;
+    lastError = e;
+    if (e.kind === 'underdetermined' || e.kind === 'unused-parameter') {
+      let drop = e.fixSuggested.filter((k) => floated.includes(k));
+      if (drop.length === 0) {
+        const involved = e.parameters.filter((k) => floated.includes(k));
+        if (involved.length === 0) break;
+        drop = [involved.reduce((a, b) => (rankOf(b) > rankOf(a) ? b : a))];
+      }
+      notes.push(`${drop.join(', ')} held at the model value${drop.length > 1 ? 's' : ''}: ${e.message}`);
+      floated = floated.filter((k) => !drop.includes(k));
+    } else if (e.kind === 'too-few-lines' && floated.length > 0) {
+      notes.push(`${floated[floated.length - 1]} held at the model value: ${e.message}`);
+      floated = floated.slice(0, -1);
+    } else {
+      break;
+    }
+  }
+  return { fit: null, error: lastError, floated, notes };
+}

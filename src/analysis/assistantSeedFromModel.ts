@@ -1,0 +1,427 @@
+import { bandLines } from '../physics/bandLines';
+import { lineLabelAscii } from '../physics/lineLabel';
+import type { BandModel } from '../physics/model';
+import { transitionWavenumber } from '../physics/termValues';
+import { assistantPeakContext, assistantPeaksCheck, assistantPeaksInRange, assistantPeaksUsable, assistantPeakUncertainty } from './assistantPeakContext';
+import { assistantOptionsResolve } from './assistantOptions';
+import type { AssistantLine, AssistantOptions } from './assistantTypes';
+import type { PeakList } from './peaksFind';
+
+/** Options of assistantSeedFromModel; ASSISTANT_SEED_DEFAULTS holds the defaults. */
+export interface AssistantSeedOptions {
+  /** The band origin is searched within ± this of the model's, cm^-1. @default 1 */
+  originWindowCm1?: number;
+  /**
+   * B′ + B″ is searched within ± this fraction of B″ each, B′ − B″ within ± twice it (so each
+   * B may be off by about this fraction independently). @default 0.015
+   */
+  bScaleWindow?: number;
+  /** Strongest predicted lines used in the search. @default 80 */
+  searchLines?: number;
+  /** Most seeds to pick. @default 12 */
+  count?: number;
+  /** Most seeds per series (ΔK, K'', ΔJ). @default 2 */
+  perSeries?: number;
+  /**
+   * Half width of the window in which a seed must have exactly one peak, as a multiple of the
+   * median FWHM. @default 3
+   */
+  windowFwhm?: number;
+  /** Other predicted lines at least this fraction of the seed's intensity must not lie in its window. @default 0.1 */
+  isolationFraction?: number;
+  /** Prefix of the seed ids. @default 'seed' */
+  idPrefix?: string;
+  /** Passed on to the uncertainty model of the seeds (positionFloorFraction, blend options). */
+  assistant?: AssistantOptions;
+}
+
+/** Only lines with K'' and J'' up to these enter the search and become seeds (K-terms and centrifugal errors of a first guess grow with K and J). */
+const SEARCH_MAX_K = 2;
+const SEARCH_MAX_J = 25;
+/** The coarse search uses lines up to this J'' (smaller B derivatives, fewer grid steps). */
+const COARSE_MAX_J = 12;
+/** The coarse search uses at most this many lines. */
+const COARSE_LINES = 40;
+/** Most grid steps on each side for each B direction. */
+const SEARCH_MAX_STEPS = 250;
+/** Each sub-band's own shift is searched within ± this, cm^-1. */
+const SUB_BAND_WINDOW_CM1 = 0.5;
+
+function signed(v: number): string {
+  return `${v >= 0 ? '+' : ''}${v.toPrecision(3)}`;
+}
+
+/** Defaults of AssistantSeedOptions. */
+export const ASSISTANT_SEED_DEFAULTS: Required<Omit<AssistantSeedOptions, 'assistant'>> = {
+  originWindowCm1: 1,
+  bScaleWindow: 0.015,
+  searchLines: 80,
+  count: 12,
+  perSeries: 2,
+  windowFwhm: 3,
+  isolationFraction: 0.1,
+  idPrefix: 'seed',
+};
+
+/** Outcome of assistantSeedFromModel. */
+export interface AssistantSeedResult {
+  /** The seeds (status 'seed', source 'auto-seed'), strongest first. */
+  lines: AssistantLine[];
+  /** The model with the best origin shift and B scale applied (start values for the loop). */
+  model: BandModel;
+  /** Origin shift found, cm^-1. */
+  originShiftCm1: number;
+  /** Change of B′ found (applied when upper.B may float), cm^-1. */
+  upperBShiftCm1: number;
+  /** Change of B″ found, cm^-1. */
+  lowerBShiftCm1: number;
+  /** Search lines with a peak within the matching width at the best shift / of those used. */
+  matchedFraction: number;
+  /** The same fraction at a typical (median) grid point: what chance coincidences give. */
+  chanceFraction: number;
+  warnings: string[];
+}
+
+function checkSeedOptions(o: Required<Omit<AssistantSeedOptions, 'assistant'>>): void {
+  const positive: (keyof typeof o)[] = ['originWindowCm1', 'windowFwhm'];
+  for (const k of positive) {
+    const v = o[k] as number;
+    if (!(v > 0) || !Number.isFinite(v)) throw new Error(`assistantSeedFromModel: ${k} must be a finite number > 0, got ${v}`);
+  }
+  if (!(o.bScaleWindow >= 0 && o.bScaleWindow < 0.5)) throw new Error(`assistantSeedFromModel: bScaleWindow must be in [0, 0.5), got ${o.bScaleWindow}`);
+  for (const k of ['searchLines', 'count', 'perSeries'] as const) {
+    if (!Number.isInteger(o[k]) || o[k] < 1) throw new Error(`assistantSeedFromModel: ${k} must be a whole number >= 1, got ${o[k]}`);
+  }
+  if (!(o.isolationFraction >= 0 && o.isolationFraction <= 1)) {
+    throw new Error(`assistantSeedFromModel: isolationFraction must be in [0, 1], got ${o.isolationFraction}`);
+  }
+}
+
+/**
+ * Pick seed assignments from the model alone, for a start without hand-made lines.
+ *
+ * 1. Shift search: the strongest predicted lines with K'' ≤ 2 and J'' ≤ 25 (searchLines) are moved
+ *    together by an origin shift δ, a change s of both B′ and B″ and a change d of B′ − B″:
+ *    ν_i + δ + s ∂ν_i/∂s + d ∂ν_i/∂d with ∂ν/∂s = F′_B − F″_B, ∂ν/∂d = (F′_B + F″_B)/2,
+ *    F_B = J(J+1) − K². On a grid of s and d (steps that move the farthest line by the matching
+ *    width τ = median peak FWHM) the δ that puts the most lines within τ/2 of a peak is found by a
+ *    histogram in steps of τ (each line counted once per bin); the best (δ, s, d) wins, the
+ *    smallest change among equals.
+ * 2. Seeds: with δ, s, d applied, the strongest predicted lines (K'' ≤ 2, J'' ≤ 25), at most perSeries per series,
+ *    whose window ±windowFwhm × median FWHM holds exactly one peak and no other
+ *    predicted line of ≥ isolationFraction of their intensity; that peak is the seed's position.
+ * The seeds are marked source 'auto-seed' (the loop may exclude one the fit rejects). If the best
+ * shift matches hardly more lines than chance does, a warning says the seeds are unreliable.
+ * Limits: the constants other than origin and B (A, C, ζ, D) must already be close (their errors
+ * grow with K and J, hence the low-K, low-J search); δ is applied only if upper.origin may float,
+ * s and d only to the B's that may.
+ * Source: cross-correlation of a predicted stick spectrum with the observed peaks, common practice
+ * for a first assignment (e.g. the "shift and compare" start of Loomis–Wood analyses).
+ * @param model first-guess model (cm^-1)
+ * @param peaks peak list of the trace (cm^-1)
+ * @param floatable keys the fit may float (see Limits)
+ * @returns seeds, the shifted model and the search figures
+ */
+export function assistantSeedFromModel(
+  model: BandModel,
+  peaksInput: PeakList,
+  floatable: readonly string[],
+  options: AssistantSeedOptions = {},
+): AssistantSeedResult {
+  const peaks = assistantPeaksUsable(peaksInput).peaks;
+  const bad = assistantPeaksCheck('assistantSeedFromModel', peaks);
+  if (bad) throw new Error(bad);
+  const o = { ...ASSISTANT_SEED_DEFAULTS, ...Object.fromEntries(Object.entries(options).filter(([, v]) => v !== undefined)) } as Required<
+    Omit<AssistantSeedOptions, 'assistant'>
+  >;
+  checkSeedOptions(o);
+  const assistant = assistantOptionsResolve(model, options.assistant);
+  const context = assistantPeakContext(peaks, assistant.widthNeighbours, assistant.blendWidthRatio);
+  const warnings: string[] = [];
+  const empty = (why: string): AssistantSeedResult => ({
+    lines: [],
+    model,
+    originShiftCm1: 0,
+    upperBShiftCm1: 0,
+    lowerBShiftCm1: 0,
+    matchedFraction: 0,
+    chanceFraction: 0,
+    warnings: [...warnings, why],
+  });
+  if (peaks.count === 0) return empty('There are no peaks to seed from.');
+  const lines = bandLines(model, { minIntensity: 1e-3 });
+  if (lines.count === 0) return empty('The model predicts no lines.');
+  const tau = context.medianFwhmCm1;
+
+  // 1. Shift search on the strongest sub-band (all branches: where its Q lines pile up is a strong
+  //    check against a shift by one rung). Parallel and linear bands: all lines with K'' ≤ 2,
+  //    whose sub-bands nearly coincide.
+  const isPerpendicularTop = model.band === 'perpendicular' && model.shape !== 'linear';
+  const subKey = (i: number) => (isPerpendicularTop ? `${lines.deltaK[i]}:${lines.kLower[i]}` : 'all');
+  const subBands = new Map<string, number[]>();
+  for (let i = 0; i < lines.count; i++) {
+    if (lines.kLower[i] > SEARCH_MAX_K || lines.jLower[i] > SEARCH_MAX_J) continue;
+    const key = subKey(i);
+    if (!subBands.has(key)) subBands.set(key, []);
+    subBands.get(key)!.push(i);
+  }
+  const total = (idx: number[]) => idx.reduce((sum, i) => sum + lines.intensity[i], 0);
+  const ranked = [...subBands.entries()].sort((x, y) => total(y[1]) - total(x[1]));
+  if (ranked.length === 0) return empty('The model predicts no lines at low J and K to seed from.');
+  const strongestOf = (idx: number[], jMax: number) =>
+    idx.filter((i) => lines.jLower[i] <= jMax).sort((x, y) => lines.intensity[y] - lines.intensity[x]).slice(0, o.searchLines);
+  const termB = (j: number, k: number) => j * (j + 1) - k * k;
+  const dSumOf = (i: number) => termB(lines.jUpper[i], lines.kUpper[i]) - termB(lines.jLower[i], lines.kLower[i]);
+  const dDiffOf = (i: number) => 0.5 * (termB(lines.jUpper[i], lines.kUpper[i]) + termB(lines.jLower[i], lines.kLower[i]));
+  const bRef = Math.abs(model.lower.B) > 0 ? Math.abs(model.lower.B) : Math.abs(model.upper.B);
+  const [mainKey, mainLines] = ranked[0];
+  // Coarse: low-J lines over the whole window; fine: all search lines near the coarse optimum.
+  const coarse = shiftSearch(peaks, tau, strongestOf(mainLines, COARSE_MAX_J).slice(0, COARSE_LINES), lines.wavenumberCm1, dSumOf, dDiffOf, {
+    deltaCentre: 0,
+    deltaWindow: o.originWindowCm1,
+    sumCentre: 0,
+    sumWindow: o.bScaleWindow * bRef,
+    diffCentre: 0,
+    diffWindow: 2 * o.bScaleWindow * bRef,
+  });
+  const fine = shiftSearch(peaks, tau, strongestOf(mainLines, SEARCH_MAX_J), lines.wavenumberCm1, dSumOf, dDiffOf, {
+    deltaCentre: coarse.delta,
+    deltaWindow: 3 * tau,
+    sumCentre: coarse.sum,
+    sumWindow: 2 * coarse.sumStep,
+    diffCentre: coarse.diff,
+    diffWindow: 2 * coarse.diffStep,
+  });
+  const best = fine.count >= coarse.count ? fine : coarse;
+  const matchedFraction = best.count / best.n;
+  const chance = best.chance;
+  const shiftText = `origin ${best.delta >= 0 ? '+' : ''}${best.delta.toFixed(4)} cm^-1, B′ ${signed(best.sum + best.diff / 2)}, B″ ${signed(best.sum - best.diff / 2)} cm^-1`;
+  if (matchedFraction < 2 * chance + 0.1) {
+    warnings.push(
+      `The best shift (${shiftText}) puts ${(100 * matchedFraction).toFixed(0)} % of the strongest lines of sub-band ${mainKey} on a peak, chance alone ${(100 * chance).toFixed(0)} %: the model may be too far off to seed from it; give seed lines.`,
+    );
+  }
+
+  // Apply what may float.
+  const floats = new Set(floatable);
+  const corrected: BandModel = { ...model, lower: { ...model.lower }, upper: { ...model.upper } };
+  if (floats.has('upper.origin')) corrected.upper.origin += best.delta;
+  if (floats.has('upper.B')) corrected.upper.B += best.sum + best.diff / 2;
+  if (floats.has('lower.B')) corrected.lower.B += best.sum - best.diff / 2;
+
+  // Every sub-band gets its own origin shift on top (first-guess errors of A, C and ζ move the
+  // sub-bands against each other); one that matches no better than chance gives no seeds.
+  const predicted = bandLines(corrected, { minIntensity: 1e-3 });
+  const subShift = new Map<string, number>();
+  const bySub = new Map<string, number[]>();
+  const predictedKey = (i: number) => (isPerpendicularTop ? `${predicted.deltaK[i]}:${predicted.kLower[i]}` : 'all');
+  for (let i = 0; i < predicted.count; i++) {
+    if (predicted.kLower[i] > SEARCH_MAX_K || predicted.jLower[i] > SEARCH_MAX_J) continue;
+    const key = predictedKey(i);
+    if (!bySub.has(key)) bySub.set(key, []);
+    bySub.get(key)!.push(i);
+  }
+  for (const [key, idx] of bySub) {
+    const use = idx.sort((x, y) => predicted.intensity[y] - predicted.intensity[x]).slice(0, o.searchLines);
+    const r = shiftSearch(peaks, tau, use, predicted.wavenumberCm1, () => 0, () => 0, {
+      deltaCentre: 0,
+      deltaWindow: key === mainKey ? 3 * tau : SUB_BAND_WINDOW_CM1,
+      sumCentre: 0,
+      sumWindow: 0,
+      diffCentre: 0,
+      diffWindow: 0,
+    });
+    if (r.n >= 3 && r.count / r.n >= 2 * r.chance + 0.1) subShift.set(key, r.delta);
+  }
+
+  // 2. Seeds: strongest isolated lines with exactly one peak in their window.
+  const order = Int32Array.from({ length: predicted.count }, (_, i) => i).sort((a, b) => predicted.wavenumberCm1[a] - predicted.wavenumberCm1[b]);
+  const sortedNu = Float64Array.from(order, (i) => predicted.wavenumberCm1[i]);
+  const half = o.windowFwhm * tau;
+  const byIntensity = Int32Array.from({ length: predicted.count }, (_, i) => i)
+    .filter((i) => subShift.has(predictedKey(i)) && predicted.kLower[i] <= SEARCH_MAX_K && predicted.jLower[i] <= SEARCH_MAX_J)
+    .sort((a, b) => predicted.intensity[b] - predicted.intensity[a]);
+  const perSeries = new Map<string, number>();
+  const usedPeaks = new Set<number>();
+  const seeds: AssistantLine[] = [];
+  for (const i of byIntensity) {
+    if (seeds.length >= o.count) break;
+    const series = `${predicted.deltaK[i]}:${predicted.kLower[i]}:${predicted.deltaJ[i]}`;
+    if ((perSeries.get(series) ?? 0) >= o.perSeries) continue;
+    const subDelta = subShift.get(predictedKey(i))!;
+    const x = predicted.wavenumberCm1[i] + subDelta;
+    const [first, last] = assistantPeaksInRange(peaks, x - half, x + half);
+    if (last !== first) continue;
+    if (usedPeaks.has(first)) continue;
+    if (!isIsolated(predicted, order, sortedNu, i, half + Math.abs(subDelta), o.isolationFraction)) continue;
+    const p = first;
+    usedPeaks.add(p);
+    perSeries.set(series, (perSeries.get(series) ?? 0) + 1);
+    const label = lineLabelAscii(predicted.deltaK[i], predicted.deltaJ[i], predicted.kLower[i], predicted.jLower[i], model.shape);
+    const reason = `model-only seed: the only peak within ±${half.toPrecision(2)} cm^-1 of ${label} predicted at ${x.toFixed(4)} cm^-1 (after the shift ${shiftText} and ${subDelta >= 0 ? '+' : ''}${subDelta.toFixed(4)} cm^-1 for its sub-band), no comparable line predicted nearby`;
+    seeds.push({
+      id: `${o.idPrefix}${seeds.length + 1}`,
+      jUpper: predicted.jUpper[i],
+      kUpper: predicted.kUpper[i],
+      jLower: predicted.jLower[i],
+      kLower: predicted.kLower[i],
+      observedCm1: peaks.wavenumberCm1[p],
+      uncertaintyCm1: assistantPeakUncertainty(peaks, context, p, assistant.positionFloorFraction, assistant.blendUncertaintyFraction),
+      isBlended: context.isPossibleBlend[p] === 1,
+      isExcluded: false,
+      note: reason,
+      status: 'seed',
+      source: 'auto-seed',
+      peakIndex: p,
+      predictedCm1: x,
+      matchSigmaCm1: half / 3,
+      distanceSigma: Math.abs(peaks.wavenumberCm1[p] - x) / (half / 3),
+      reason,
+      iteration: 0,
+    });
+  }
+  if (seeds.length < 3) warnings.push(`Only ${seeds.length} line(s) of the model have exactly one peak in their window; the loop may not get far.`);
+  return {
+    lines: seeds,
+    model: corrected,
+    originShiftCm1: best.delta,
+    upperBShiftCm1: corrected.upper.B - model.upper.B,
+    lowerBShiftCm1: corrected.lower.B - model.lower.B,
+    matchedFraction,
+    chanceFraction: chance,
+    warnings,
+  };
+}
+
+/** No other predicted line of ≥ fraction × line i's intensity within ±half of it. */
+function isIsolated(
+  lines: ReturnType<typeof bandLines>,
+  order: Int32Array,
+  sortedNu: Float64Array,
+  i: number,
+  half: number,
+  fraction: number,
+): boolean {
+  const x = lines.wavenumberCm1[i];
+  let lo = 0;
+  let hi = sortedNu.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (sortedNu[mid] < x - half) lo = mid + 1;
+    else hi = mid;
+  }
+  for (let s = lo; s < sortedNu.length && sortedNu[s] <= x + half; s++) {
+    const j = order[s];
+    if (j !== i && lines.intensity[j] >= fraction * lines.intensity[i]) return false;
+  }
+  return true;
+}
+
+/** Windows of shiftSearch: centre and half width of δ, s and d, cm^-1. */
+interface ShiftWindows {
+  deltaCentre: number;
+  deltaWindow: number;
+  sumCentre: number;
+  sumWindow: number;
+  diffCentre: number;
+  diffWindow: number;
+}
+
+/** Best shift found by shiftSearch. */
+interface ShiftBest {
+  delta: number;
+  sum: number;
+  diff: number;
+  /** Lines with a peak within τ/2 at the best shift. */
+  count: number;
+  /** Lines used. */
+  n: number;
+  /** Median fraction over the grid (chance coincidences). */
+  chance: number;
+  sumStep: number;
+  diffStep: number;
+}
+
+/**
+ * Grid search of (δ, s, d) maximising the number of lines i with a peak within τ/2 of
+ * ν_i + δ + s·dSum(i) + d·dDiff(i); δ by a histogram in steps of τ, s and d in steps that move the
+ * farthest line by τ (at most SEARCH_MAX_STEPS per side). Ties go to the smallest change.
+ */
+function shiftSearch(
+  peaks: PeakList,
+  tau: number,
+  idx: number[],
+  position: Float64Array,
+  dSum: (i: number) => number,
+  dDiff: (i: number) => number,
+  w: ShiftWindows,
+): ShiftBest {
+  const n = idx.length;
+  const nu = Float64Array.from(idx, (i) => position[i]);
+  const ds = Float64Array.from(idx, dSum);
+  const dd = Float64Array.from(idx, dDiff);
+  const steps = (d: Float64Array, window: number): { count: number; step: number } => {
+    let max = 0;
+    for (const v of d) max = Math.max(max, Math.abs(v));
+    if (!(max > 0) || !(window > 0)) return { count: 0, step: 0 };
+    const count = Math.min(SEARCH_MAX_STEPS, Math.ceil((window * max) / tau));
+    return { count, step: window / count };
+  };
+  const sg = steps(ds, w.sumWindow);
+  const dg = steps(dd, w.diffWindow);
+  const nDelta = Math.max(1, Math.ceil(w.deltaWindow / tau));
+  const bins = 2 * nDelta + 1;
+  const score = new Int32Array(bins);
+  const stamp = new Int32Array(bins);
+  // How often each score occurs over the grid (for the median: the chance level).
+  const histogram = new Float64Array(n + 1);
+  let best: ShiftBest = { delta: w.deltaCentre, sum: w.sumCentre, diff: w.diffCentre, count: -1, n, chance: 0, sumStep: sg.step, diffStep: dg.step };
+  let bestCost = Infinity;
+  for (let a = -sg.count; a <= sg.count; a++) {
+    const sum = w.sumCentre + a * sg.step;
+    for (let c = -dg.count; c <= dg.count; c++) {
+      const diff = w.diffCentre + c * dg.step;
+      score.fill(0);
+      stamp.fill(-1);
+      for (let k = 0; k < n; k++) {
+        const x = nu[k] + sum * ds[k] + diff * dd[k] + w.deltaCentre;
+        const [first, last] = assistantPeaksInRange(peaks, x - nDelta * tau - tau, x + nDelta * tau + tau);
+        for (let p = first; p <= last; p++) {
+          const shift = peaks.wavenumberCm1[p] - x;
+          // Bins whose centre (b − nDelta)·τ lies within τ/2 of the shift (one or two bins).
+          const lo = Math.max(0, Math.ceil((shift - 0.5 * tau) / tau + nDelta));
+          const hi = Math.min(bins - 1, Math.floor((shift + 0.5 * tau) / tau + nDelta));
+          for (let b = lo; b <= hi; b++) {
+            if (stamp[b] === k) continue;
+            stamp[b] = k;
+            score[b]++;
+          }
+        }
+      }
+      for (let b = 0; b < bins; b++) {
+        histogram[score[b]]++;
+        if (score[b] < best.count) continue;
+        const deltaRel = (b - nDelta) * tau;
+        const cost = Math.abs(deltaRel) / Math.max(w.deltaWindow, tau) + (sg.count ? Math.abs(a) / sg.count : 0) + (dg.count ? Math.abs(c) / dg.count : 0);
+        if (score[b] > best.count || cost < bestCost) {
+          best = { ...best, delta: w.deltaCentre + deltaRel, sum, diff, count: score[b] };
+          bestCost = cost;
+        }
+      }
+    }
+  }
+  let cells = 0;
+  for (const h of histogram) cells += h;
+  let seen = 0;
+  let median = 0;
+  for (let v = 0; v <= n; v++) {
+    seen += histogram[v];
+    if (seen >= cells / 2) {
+      median = v;
+      break;
+    }
+  }
+  best.chance = n > 0 ? median / n : 0;
+  if (best.count < 0) best.count = 0;
+  return best;
+}
