@@ -27,13 +27,25 @@ export interface Assignment extends TransitionQuanta {
 export const ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1 = 0.001;
 
 /**
+ * Largest J (and so K) an assignment may carry: the largest jMax a model file accepts, so every
+ * assigned line can also be simulated. A J of 1e12 is a typo, not a level (J(J+1)·B would be ~1e23 cm^-1).
+ * io/inputLimits re-exports it as INPUT_LIMITS.maxQuantumJ.
+ */
+export const ASSIGNMENT_MAX_J = 2000;
+
+/**
  * Why quantum numbers cannot be assigned in this band, or null when they can.
- * Refuses non-integers, negative J, K > J, |ΔJ| > 1, a ΔK the band type forbids and the
- * missing Q/K = 0 lines (delegates to physics/transitionCheck).
+ * Refuses non-integers, negative J, J above ASSIGNMENT_MAX_J, K > J, |ΔJ| > 1, a ΔK the band type
+ * forbids and the missing Q/K = 0 lines (delegates to physics/transitionCheck for all but the J limit).
  * @param q quantum numbers J', K', J'', K''
  * @param model band type and rotor shape
  * @returns a sentence naming the offending value, or null
  */
 export function assignmentCheck(q: TransitionQuanta, model: Pick<BandModel, 'band' | 'shape'>): string | null {
-  return transitionCheck(q, model.band, model.shape);
+  const why = transitionCheck(q, model.band, model.shape);
+  if (why) return why;
+  // transitionCheck has passed, so K <= J: checking J bounds K too.
+  if (q.jUpper > ASSIGNMENT_MAX_J) return `J_up=${q.jUpper} is above the largest J handled (${ASSIGNMENT_MAX_J})`;
+  if (q.jLower > ASSIGNMENT_MAX_J) return `J_lo=${q.jLower} is above the largest J handled (${ASSIGNMENT_MAX_J})`;
+  return null;
 }

@@ -22,6 +22,12 @@ export interface DelimitedParseNumericOptions {
    * @default 'auto'
    */
   delimiter: ',' | 'whitespace' | 'auto';
+  /**
+   * Most rows read; on the next row the scan stops and returns `isOverLimit: true` (so a huge file
+   * ends in a refusal instead of filling memory).
+   * @default Infinity
+   */
+  maxRows: number;
   /** Called with the fraction (0..1) of the text scanned, about every 2 %. */
   onProgress?: (fraction: number) => void;
 }
@@ -36,6 +42,8 @@ export interface DelimitedNumericColumns {
   columns: number;
   /** Delimiter the rows used. */
   delimiter: ',' | 'whitespace';
+  /** True when the text holds more than `maxRows` rows; x and y are then empty. */
+  isOverLimit?: boolean;
 }
 
 // Powers of ten that are exact in binary64 (10^22 is the largest); a constant lookup table.
@@ -72,6 +80,7 @@ export function delimitedParseNumeric(
   const start = options?.start ?? 0;
   const yColumn = options?.yColumn ?? 1;
   const onProgress = options?.onProgress;
+  const maxRows = options?.maxRows ?? Infinity;
   const n = text.length;
   if (!(start >= 0 && start < n) || !Number.isInteger(yColumn) || yColumn < 1) return null;
 
@@ -189,6 +198,8 @@ export function delimitedParseNumeric(
       columns = col;
     } else if (col !== columns) return null;
 
+    if (rows >= maxRows)
+      return { x: new Float64Array(0), y: new Float64Array(0), columns, delimiter: isComma ? ',' : 'whitespace', isOverLimit: true };
     if (rows === cap) {
       cap *= 2;
       const nx = new Float64Array(cap);

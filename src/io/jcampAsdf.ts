@@ -170,7 +170,9 @@ export function jcampAsdfDecodeLine(
       }
       continue;
     }
-    const shown = c < 32 || c === 127 ? `\\u${c.toString(16).padStart(4, '0')}` : line[i];
+    // One UTF-16 unit, shown as \uXXXX when it is a control, a line break or half a surrogate pair.
+    const isPrintable = c >= 32 && c !== 127 && !(c >= 0x80 && c <= 0x9f) && c !== 0x2028 && c !== 0x2029 && (c < 0xd800 || c > 0xdfff);
+    const shown = isPrintable ? line[i] : `\\u${c.toString(16).padStart(4, '0')}`;
     return fail(col, `unexpected character '${shown}' in compressed (ASDF) data`);
   }
   if (!hasX) return fail(1, 'empty data line');

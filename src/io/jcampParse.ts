@@ -12,6 +12,7 @@
  */
 import { jcampAsdfDecodeLine } from './jcampAsdf';
 import { TraceColumnBuilder } from './traceColumns';
+import { INPUT_LIMITS, inputExcerpt } from './inputLimits';
 
 /** Options of `jcampParse`. */
 export interface JcampParseOptions {
@@ -80,6 +81,9 @@ const RE_AFFN = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
  */
 export function jcampParse(text: string, options: JcampParseOptions): Outcome {
   const { maxPoints, onProgress } = options;
+  // ASDF DUP counts let a few characters claim millions of points; past a floor, points must be paid for
+  // in text (see INPUT_LIMITS.jcampMaxPointsPerChar).
+  const expansionCap = Math.max(INPUT_LIMITS.jcampExpansionFloorPoints, INPUT_LIMITS.jcampMaxPointsPerChar * text.length);
   const lines = text.split(/\r\n|\r|\n/);
   const messages: string[] = [];
   let labels = new Map<string, JcampLabel>();
@@ -115,7 +119,7 @@ export function jcampParse(text: string, options: JcampParseOptions): Outcome {
     }
     const eq = t.indexOf('=');
     if (eq < 0) {
-      messages.push(`line ${lineNo}: '${t.slice(0, 40)}' has no '=' and was ignored`);
+      messages.push(`line ${lineNo}: '${inputExcerpt(t, 40)}' has no '=' and was ignored`);
       continue;
     }
     const key = labelKey(t.slice(2, eq));
@@ -163,13 +167,13 @@ export function jcampParse(text: string, options: JcampParseOptions): Outcome {
         const form = value.toUpperCase().replace(/\s/g, '').split(',')[0];
         const decoded =
           form === '(X++(Y..Y))'
-            ? decodeXpp(lines, li, lineNo, labels, maxPoints, tick)
+            ? decodeXpp(lines, li, lineNo, labels, maxPoints, expansionCap, tick)
             : form === '(XY..XY)'
               ? decodeXy(lines, li, lineNo, labels, maxPoints, tick)
               : undefined;
         if (!decoded)
           return fail(
-            `line ${lineNo}: data table form '${value}' is not supported (expected (X++(Y..Y)) or (XY..XY))`,
+            `line ${lineNo}: data table form '${inputExcerpt(value)}' is not supported (expected (X++(Y..Y)) or (XY..XY))`,
             lineNo,
             key,
           );
@@ -226,7 +230,7 @@ function numLabel(
   const l = labels.get(key);
   if (!l) return { ok: true };
   const v = l.value.trim();
-  if (!RE_AFFN.test(v)) return fail(`line ${l.line}: ##${key}= '${l.value}' is not a number`, l.line, key);
+  if (!RE_AFFN.test(v)) return fail(`line ${l.line}: ##${key}= '${inputExcerpt(l.value)}' is not a number`, l.line, key);
   return { ok: true, value: Number(v), line: l.line };
 }
 
@@ -262,13 +266,14 @@ function tableHeader(labels: Map<string, JcampLabel>, maxPoints: number): { ok: 
 
 const fmt = (v: number) => Number(v.toPrecision(8)).toString();
 
-/** Decode an (X++(Y..Y)) table whose first data line is lines[start]. */
+/** Decode an (X++(Y..Y)) table whose first data line is lines[start]; at most expansionCap points. */
 function decodeXpp(
   lines: string[],
   start: number,
   tableLine: number,
   labels: Map<string, JcampLabel>,
   maxPoints: number,
+  expansionCap: number,
   tick: (lineIndex: number) => void,
 ): Decoded {
   const hr = tableHeader(labels, maxPoints);
@@ -287,7 +292,8 @@ function decodeXpp(
   if (lastX.value === undefined && deltaX.value === undefined)
     return fail(`line ${tableLine}: ##LASTX and ##DELTAX are both missing (one is required for (X++(Y..Y)))`, tableLine, 'LASTX');
 
-  const budget = nPoints ?? maxPoints;
+  const claimed = nPoints ?? maxPoints;
+  const budget = Math.min(claimed, expansionCap);
   const out = new TraceColumnBuilder(Math.min(budget, 1 << 16));
   const lineX: { line: number; x: number; index: number }[] = [];
   let prevEndsDif = false;
@@ -309,6 +315,14 @@ function decodeXpp(
     const dec = jcampAsdfDecodeLine(t, room);
     if (!dec.ok) {
       const column = dec.error.column + (raw.length - raw.trimStart().length);
+      if (dec.error.isOverflow && budget < claimed)
+        return fail(
+          `line ${lineNo}: the compressed data expand to more than ${budget} points, over ` +
+            `${INPUT_LIMITS.jcampMaxPointsPerChar} points per character of the file (limit jcampMaxPointsPerChar); ` +
+            'a measured spectrum does not compress this far, so the file is damaged or not a spectrum',
+          lineNo,
+          'NPOINTS',
+        );
       if (dec.error.isOverflow)
         return fail(
           nPoints !== undefined
@@ -430,7 +444,7 @@ function decodeXy(
       let v: number;
       if (tok === '?') v = NaN;
       else if (RE_AFFN.test(tok)) v = Number(tok);
-      else return fail(`line ${lineNo}: '${tok.slice(0, 20)}' is not a number in the (XY..XY) table`, lineNo);
+      else return fail(`line ${lineNo}: '${inputExcerpt(tok, 20)}' is not a number in the (XY..XY) table`, lineNo);
       if (!hasPending) {
         pendingX = v;
         pendingLine = lineNo;

@@ -4,12 +4,14 @@
  * Read: header required; columns found by name (any order, case-insensitive):
  * J_up, K_up, J_lo, K_lo, wavenumber (cm^-1) required; uncertainty (cm^-1, default 0.001),
  * blended, excluded, flags, note, id, peak_id optional; other columns are kept as text.
- * Lines starting with '#' and blank lines are skipped.
+ * Lines starting with '#' and blank lines are skipped. Numbers are decimal (no hex, no "Infinity").
+ * Limits: INPUT_LIMITS.maxTextChars of text, maxLineTableRows rows, J and K up to maxQuantumJ.
  */
 import Papa from 'papaparse';
 import { ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1, type Assignment } from '../fit/assignment';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { TopShape } from '../physics/model';
+import { INPUT_LIMITS, inputExcerpt, inputLimitCheck } from './inputLimits';
 
 /** A parsed line table. */
 export interface LineTable {
@@ -49,8 +51,11 @@ const TRUE_WORDS = new Set(['1', 'true', 'yes', 'y', 'x']);
 const FALSE_WORDS = new Set(['', '0', 'false', 'no', 'n']);
 
 function quoteCell(v: string): string {
-  return `'${v.length > 40 ? v.slice(0, 40) + '…' : v}'`;
+  return `'${inputExcerpt(v, 40)}'`;
 }
+
+// Decimal notation only: Number() would also read '0x1F', '0b1', 'Infinity' and '' (as 0).
+const RE_DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 /**
  * Parse an assigned-line CSV into Assignments.
@@ -59,11 +64,15 @@ function quoteCell(v: string): string {
  * @throws LineTableError such as "L.csv: line 7: J_up 'x' is not a whole number"
  */
 export function lineTableParse(text: string, options: LineTableParseOptions = {}): LineTable {
-  const prefix = options.fileName ? `${options.fileName}: ` : '';
+  // The name is shown verbatim (HTML included: the page escapes it) but kept on one line.
+  const prefix = options.fileName ? `${inputExcerpt(options.fileName, 1000)}: ` : '';
   const defaultSigma = options.defaultUncertaintyCm1 ?? ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1;
   const fail = (line: number, msg: string): never => {
     throw new LineTableError(`${prefix}line ${line}: ${msg}`);
   };
+  if (typeof text !== 'string') throw new LineTableError(`${prefix}lineTableParse: text must be a string, got ${typeof text}`);
+  const tooLong = inputLimitCheck('maxTextChars', text.length);
+  if (tooLong) throw new LineTableError(`${prefix}${tooLong}`);
   const normalised = text.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n');
 
   // Collect rows with the line each starts on (quoted fields may span lines).
@@ -77,6 +86,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
     return lineAtCounted;
   };
   let parseError: { line: number; message: string } | null = null;
+  let tooManyLine = 0;
   Papa.parse<string[]>(normalised, {
     delimiter: ',',
     newline: '\n',
@@ -92,10 +102,18 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
       const cells = result.data;
       if (cells.length === 1 && cells[0].trim() === '') return;
       if (cells[0].trimStart().startsWith('#')) return;
+      // Header plus maxLineTableRows data rows.
+      if (rows.length > INPUT_LIMITS.maxLineTableRows) {
+        tooManyLine = line;
+        parser.abort();
+        return;
+      }
       rows.push({ cells, line });
     },
   });
   if (parseError) fail((parseError as { line: number }).line, `malformed CSV: ${(parseError as { message: string }).message}`);
+  if (tooManyLine)
+    fail(tooManyLine, `more than ${INPUT_LIMITS.maxLineTableRows} data rows (limit maxLineTableRows); split the table`);
   if (rows.length === 0) throw new LineTableError(`${prefix}no header line found; expected a header naming ${REQUIRED.join(', ')}`);
 
   const header = rows[0];
@@ -106,7 +124,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
   header.cells.forEach((raw, idx) => {
     const name = raw.trim();
     const lower = name.toLowerCase();
-    if (seen.has(lower)) fail(header.line, `column '${name}' appears twice in the header`);
+    if (seen.has(lower)) fail(header.line, `column ${quoteCell(name)} appears twice in the header`);
     seen.set(lower, idx);
     const known = [...REQUIRED, ...OPTIONAL].find((k) => k.toLowerCase() === lower);
     if (known) column[known] = idx;
@@ -119,7 +137,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
   if (missing.length) {
     fail(
       header.line,
-      `header lacks column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} (found: ${header.cells.map((c) => c.trim()).join(', ')}); expected J_up,K_up,J_lo,K_lo,wavenumber[,uncertainty]`,
+      `header lacks column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} (found: ${inputExcerpt(header.cells.map((c) => c.trim()).join(', '), 200)}); expected J_up,K_up,J_lo,K_lo,wavenumber[,uncertainty]`,
     );
   }
 
@@ -139,9 +157,10 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
     const whole = (k: 'J_up' | 'K_up' | 'J_lo' | 'K_lo'): number => {
       const v = cell(k)!;
       if (v === '') fail(line, `${k} is empty`);
-      const n = Number(v);
+      const n = RE_DECIMAL.test(v) ? Number(v) : NaN;
       if (!Number.isInteger(n)) fail(line, `${k} ${quoteCell(v)} is not a whole number`);
       if (n < 0) fail(line, `${k} ${quoteCell(v)} must be >= 0`);
+      if (n > INPUT_LIMITS.maxQuantumJ) fail(line, `${k} ${quoteCell(v)} is above the largest J or K handled (${INPUT_LIMITS.maxQuantumJ})`);
       return n;
     };
     const jUpper = whole('J_up');
@@ -149,12 +168,12 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
     const jLower = whole('J_lo');
     const kLower = whole('K_lo');
     const wn = cell('wavenumber')!;
-    const observedCm1 = Number(wn);
-    if (wn === '' || !Number.isFinite(observedCm1)) fail(line, `wavenumber ${quoteCell(wn)} is not a number (cm^-1)`);
+    const observedCm1 = RE_DECIMAL.test(wn) ? Number(wn) : NaN;
+    if (!Number.isFinite(observedCm1)) fail(line, `wavenumber ${quoteCell(wn)} is not a number (cm^-1)`);
     const un = cell('uncertainty') ?? '';
     let uncertaintyCm1 = defaultSigma;
     if (un !== '') {
-      uncertaintyCm1 = Number(un);
+      uncertaintyCm1 = RE_DECIMAL.test(un) ? Number(un) : NaN;
       if (!Number.isFinite(uncertaintyCm1) || uncertaintyCm1 <= 0) fail(line, `uncertainty ${quoteCell(un)} must be a number > 0 (cm^-1)`);
     }
     const flagWords = (cell('flags') ?? '').toLowerCase().split(/[\s;|]+/).filter(Boolean);
@@ -171,7 +190,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
     const idCell = cell('id') ?? '';
     let id = idCell !== '' ? idCell : `line${line}`;
     if (ids.has(id)) {
-      warnings.push(`${prefix}line ${line}: id '${id}' repeats an earlier row; renamed '${id}#${line}'`);
+      warnings.push(`${prefix}line ${line}: id ${quoteCell(id)} repeats an earlier row; renamed ${quoteCell(`${id}#${line}`)}`);
       id = `${id}#${line}`;
     }
     ids.add(id);

@@ -8,6 +8,7 @@ import {
   type TopShape,
 } from '../physics/model';
 import { MHZ_PER_CM1 } from '../physics/constants';
+import { INPUT_LIMITS, inputExcerpt, inputJsonParse } from './inputLimits';
 
 /** A model file's parameter: a number (floated in a fit) or {value, fixed}. */
 const parameterSchema = z.union([
@@ -28,9 +29,13 @@ const fileSchema = z.looseObject({
   lower: stateSchema,
   upper: stateSchema,
   temperature: z.number().refine((t) => Number.isFinite(t) && t > 0, 'a temperature in K, > 0'),
-  jMax: z.number().int().min(0).max(2000),
-  kMax: z.number().int().min(0).max(2000).optional(),
-  spinWeights: z.array(z.number().refine((w) => Number.isFinite(w) && w >= 0, 'a finite weight >= 0')).min(1).optional(),
+  jMax: z.number().int().min(0).max(INPUT_LIMITS.maxModelJ),
+  kMax: z.number().int().min(0).max(INPUT_LIMITS.maxModelK).optional(),
+  spinWeights: z
+    .array(z.number().refine((w) => Number.isFinite(w) && w >= 0, 'a finite weight >= 0'))
+    .min(1)
+    .max(INPUT_LIMITS.maxSpinWeights)
+    .optional(),
   // Checked here (not silently dropped) because the spectrum command takes the Doppler width from it.
   mass: z.number().refine((m) => Number.isFinite(m) && m > 0, 'a molecular mass in amu, > 0').optional(),
   name: z.string().max(200).optional(),
@@ -93,28 +98,31 @@ export function modelAllowedParameters(shape: TopShape, side: 'lower' | 'upper')
 function describe(v: unknown): string {
   if (v === null) return 'null';
   if (Array.isArray(v)) return 'an array';
-  if (typeof v === 'string') return `the string ${JSON.stringify(v.length > 30 ? v.slice(0, 30) + '…' : v)}`;
+  if (typeof v === 'string') return `the string ${inputExcerpt(JSON.stringify(v.length > 30 ? v.slice(0, 30) + '…' : v))}`;
   return typeof v === 'object' ? 'an object' : `${typeof v} ${String(v)}`;
 }
 
 function pathOf(path: PropertyKey[]): string {
-  return path.map((p) => (typeof p === 'number' ? `[${p}]` : String(p))).join('.').replace(/\.\[/g, '[') || '(top level)';
+  // Keys come from the file: quoted as one short line.
+  const text = path.map((p) => (typeof p === 'number' ? `[${p}]` : String(p))).join('.').replace(/\.\[/g, '[');
+  return inputExcerpt(text, 80) || '(top level)';
 }
 
 /**
  * Read a model file (JSON text) into a BandModel, with fit flags.
  * All constants in cm^-1 (a lower-state constant may be given as {"value": x, "unit": "MHz"}),
  * temperature in K. An oblate top uses "C" in place of "A"; absent parameters are 0 and fixed.
- * @throws ModelFileError naming the field's path and what was expected
+ * Text longer than INPUT_LIMITS.maxModelFileChars is refused before parsing.
+ * @throws ModelFileError naming the field's path (or the line and column of a JSON syntax error) and what was expected
  */
 export function modelFileParse(text: string): ModelFile {
-  let raw: unknown;
-  try {
-    raw = JSON.parse(text);
-  } catch (err) {
-    throw new ModelFileError(`model file is not valid JSON: ${(err as Error).message}`);
+  const parsed = inputJsonParse(text, INPUT_LIMITS.maxModelFileChars);
+  if (!parsed.ok) {
+    if (parsed.field === 'maxChars')
+      throw new ModelFileError(`model file: ${parsed.message} (maxModelFileChars); is this really a model file?`);
+    throw new ModelFileError(`model file is ${parsed.message}`);
   }
-  return modelFileFromJson(raw);
+  return modelFileFromJson(parsed.value);
 }
 
 /** As modelFileParse, from an already parsed JSON value. */
@@ -151,7 +159,7 @@ export function modelFileFromJson(raw: unknown): ModelFile {
             : name === 'C' && shape === 'prolate'
               ? ' (a prolate top gives "A" in place of "C")'
               : '';
-        throw new ModelFileError(`model file: field '${path}' is not a ${side}-state constant of ${shape === "oblate" ? "an" : "a"} ${shape} model${hint}; expected one of ${allowed.join(', ')}`);
+        throw new ModelFileError(`model file: field '${inputExcerpt(path, 80)}' is not a ${side}-state constant of ${shape === "oblate" ? "an" : "a"} ${shape} model${hint}; expected one of ${allowed.join(', ')}`);
       }
       const p = parameterSchema.safeParse(value);
       if (!p.success) {
@@ -177,7 +185,7 @@ export function modelFileFromJson(raw: unknown): ModelFile {
   }
   const warnings: string[] = [];
   for (const key of Object.keys(raw)) {
-    if (!KNOWN_TOP.has(key)) warnings.push(`model file: unknown top-level field '${key}' ignored`);
+    if (!KNOWN_TOP.has(key)) warnings.push(`model file: unknown top-level field '${inputExcerpt(key, 80)}' ignored`);
   }
   const massAmu = f.mass;
   const name = f.name;

@@ -10,6 +10,7 @@ import { delimitedParse } from './delimitedParse';
 import { delimitedFieldClean, delimitedIsCommentAt } from './delimitedField';
 import { delimitedSplitLine } from './delimitedSniff';
 import { jcampDetect, jcampParse, type JcampLabel } from './jcampParse';
+import { inputExcerpt } from './inputLimits';
 import {
   unitsOrdinateFromLabel,
   unitsOrdinateFromValues,
@@ -60,7 +61,8 @@ export function importTrace(
   options?: Partial<TraceImportOptions>,
   onProgress?: (fraction: number) => void,
 ): TraceImportOutcome {
-  const name = typeof fileName === 'string' && fileName !== '' ? fileName : '(unnamed)';
+  // Shown verbatim (HTML included: the page escapes it), but kept on one line.
+  const name = typeof fileName === 'string' && fileName !== '' ? inputExcerpt(fileName, 1000) : '(unnamed)';
   try {
     return importTraceChecked(text, name, options, onProgress);
   } catch (err) {
@@ -190,9 +192,16 @@ function readDelimited(
       const fast = delimitedParseNumeric(text, {
         start: pre.start,
         yColumn: options.yColumn,
+        maxRows: options.maxPoints,
         delimiter: options.delimiter === ',' ? ',' : options.delimiter === 'whitespace' ? 'whitespace' : 'auto',
         onProgress,
       });
+      if (fast?.isOverLimit) {
+        const line = pre.firstLine + options.maxPoints;
+        return {
+          error: { message: `more than ${options.maxPoints} data rows (limit maxPoints), at line ${line}`, line, field: 'maxPoints' },
+        };
+      }
       if (fast) {
         let eol = text.indexOf('\n', pre.start);
         if (eol < 0) eol = text.length;
@@ -258,7 +267,7 @@ function headerLabels(
 
 function describeDelimited(delimiter: TraceDelimiter, decimal: string, names?: string[]): string {
   const d = delimiter === '\t' ? 'tab' : delimiter === 'whitespace' ? 'blank' : `'${delimiter}'`;
-  const header = names ? `, header: ${names.map((s) => s.slice(0, 40)).join(' | ')}` : ', no header';
+  const header = names ? `, header: ${names.map((s) => inputExcerpt(s, 40)).join(' | ')}` : ', no header';
   return `read as delimited text (${d}-separated, '${decimal}' decimals${header})`;
 }
 
@@ -311,7 +320,7 @@ function resolveXUnit(
     const { max } = xRange(raw.x);
     const unit: TraceXUnit = max <= 100 ? 'um' : 'nm';
     messages.push(
-      `the abscissa is named a wavelength without a unit ('${label}'); values up to ${fmtNum(max)} read as ${unit === 'um' ? 'µm' : 'nm'}`,
+      `the abscissa is named a wavelength without a unit ('${inputExcerpt(label ?? '')}'); values up to ${fmtNum(max)} read as ${unit === 'um' ? 'µm' : 'nm'}`,
     );
     return { xUnit: unit, messages };
   }
@@ -322,7 +331,7 @@ function resolveXUnit(
   if (raw.xUnitsLabel)
     return {
       error:
-        `line ${raw.xUnitsLabel.line}: ##XUNITS=${raw.xUnitsLabel.value} is not an infrared abscissa unit ` +
+        `line ${raw.xUnitsLabel.line}: ##XUNITS=${inputExcerpt(raw.xUnitsLabel.value)} is not an infrared abscissa unit ` +
         `(expected 1/CM, MICROMETERS or NANOMETERS); set the xUnit option to override`,
       line: raw.xUnitsLabel.line,
       field: 'XUNITS',
@@ -355,12 +364,12 @@ function resolveOrdinate(raw: RawTrace, options: TraceImportOptions): { ordinate
   if (hint === 'transmittance') {
     const ordinate = unitsTransmittanceScale(stats);
     if (ordinate === 'percent-transmittance')
-      messages.push(`'${label}' with values up to ${fmtNum(stats.max)} read as percent transmittance`);
+      messages.push(`'${inputExcerpt(label ?? '')}' with values up to ${fmtNum(stats.max)} read as percent transmittance`);
     return { ordinate, messages };
   }
   if (hint) return { ordinate: hint, messages };
   const guess = unitsOrdinateFromValues(stats);
-  const what = raw.yUnitsLabel ? `##YUNITS=${raw.yUnitsLabel.value} is not recognised` : 'the ordinate is not named in the file';
+  const what = raw.yUnitsLabel ? `##YUNITS=${inputExcerpt(raw.yUnitsLabel.value)} is not recognised` : 'the ordinate is not named in the file';
   messages.push(
     `${what}; read as ${ORDINATE_WORDS[guess.ordinate]} from the values (${guess.reason}); set the ordinate option to override`,
   );

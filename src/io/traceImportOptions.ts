@@ -3,6 +3,7 @@
  * all read the same values.
  */
 import type { TraceDecimal, TraceDelimiter, TraceFormat, TraceOrdinate, TraceXUnit } from './trace';
+import { INPUT_LIMITS } from './inputLimits';
 
 /** Overrides for `importTrace`. Every field is optional at the call site (`Partial<TraceImportOptions>`). */
 export interface TraceImportOptions {
@@ -45,8 +46,9 @@ export interface TraceImportOptions {
    */
   maxChars: number;
   /**
-   * Most points accepted (guards JCAMP ##NPOINTS and DUP counts against absurd allocations).
-   * @default 5e7
+   * Most points accepted (guards JCAMP ##NPOINTS and DUP counts against absurd allocations, and caps
+   * the rows of delimited text).
+   * @default 5e7 (INPUT_LIMITS.maxTracePoints)
    */
   maxPoints: number;
 }
@@ -60,7 +62,7 @@ export const TRACE_IMPORT_DEFAULTS: Readonly<TraceImportOptions> = Object.freeze
   delimiter: 'auto',
   decimal: 'auto',
   maxChars: 1.5e9,
-  maxPoints: 5e7,
+  maxPoints: INPUT_LIMITS.maxTracePoints,
 });
 
 const FORMATS = ['auto', 'delimited', 'jcamp-dx'];
