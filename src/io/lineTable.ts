@@ -55,7 +55,30 @@ function quoteCell(v: string): string {
 }
 
 // Decimal notation only: Number() would also read '0x1F', '0b1', 'Infinity' and '' (as 0).
+/** True when the line starting at `pos` begins, after blanks, with '#'. */
+function isCommentAt(text: string, pos: number): boolean {
+  let c = text.charCodeAt(pos);
+  while (c === 32 || c === 9) c = text.charCodeAt(++pos);
+  return c === 35;
+}
+
 const RE_DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+/**
+ * CRLF and lone CR line ends as LF, outside quoted fields only: a CR inside a quoted note is data and
+ * must read back unchanged. ('""' inside quotes toggles twice, so counting quotes is enough.)
+ */
+function lineEndsNormalise(text: string): string {
+  if (text.indexOf('\r') < 0) return text;
+  let inQuotes = false;
+  return text.replace(/"|\r\n?/g, (m) => {
+    if (m === '"') {
+      inQuotes = !inQuotes;
+      return m;
+    }
+    return inQuotes ? m : '\n';
+  });
+}
 
 /**
  * Parse an assigned-line CSV into Assignments.
@@ -73,7 +96,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
   if (typeof text !== 'string') throw new LineTableError(`${prefix}lineTableParse: text must be a string, got ${typeof text}`);
   const tooLong = inputLimitCheck('maxTextChars', text.length);
   if (tooLong) throw new LineTableError(`${prefix}${tooLong}`);
-  const normalised = text.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n');
+  const normalised = lineEndsNormalise(text.replace(/^\uFEFF/, ''));
 
   // Collect rows with the line each starts on (quoted fields may span lines).
   const rows: { cells: string[]; line: number }[] = [];
@@ -92,7 +115,8 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
     newline: '\n',
     skipEmptyLines: false,
     step: (result, parser) => {
-      const line = lineOf(rowStart);
+      const start = rowStart;
+      const line = lineOf(start);
       rowStart = result.meta.cursor;
       if (result.errors.length > 0 && !parseError) {
         parseError = { line, message: result.errors[0].message };
@@ -101,7 +125,8 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
       }
       const cells = result.data;
       if (cells.length === 1 && cells[0].trim() === '') return;
-      if (cells[0].trimStart().startsWith('#')) return;
+      // A comment is a line whose text starts with '#'; a quoted first cell "#…" is data (and gets its error).
+      if (isCommentAt(normalised, start)) return;
       // Header plus maxLineTableRows data rows.
       if (rows.length > INPUT_LIMITS.maxLineTableRows) {
         tooManyLine = line;
