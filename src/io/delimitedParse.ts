@@ -93,6 +93,7 @@ export function delimitedParse(
   let firstCommaLine = 0;
   let firstPointLine = 0;
   let tooMany = 0;
+  let unclosedQuoteLine = 0;
 
   /** Handle one row; returns false to stop reading. */
   const onRow = (fields: string[], rowStart: number, line: number): boolean => {
@@ -152,6 +153,12 @@ export function delimitedParse(
       header: false,
       skipEmptyLines: false,
       step: (results, parser) => {
+        // papaparse reads an unclosed quote to the end of the text: every later row would vanish into one field.
+        if (results.errors.some((e) => e.code === 'MissingQuotes')) {
+          unclosedQuoteLine = line;
+          parser.abort();
+          return;
+        }
         if (!onRow(results.data, rowStart, line)) {
           parser.abort();
           return;
@@ -168,6 +175,14 @@ export function delimitedParse(
     });
   }
 
+  if (unclosedQuoteLine)
+    return {
+      ok: false,
+      error: {
+        message: `line ${unclosedQuoteLine}: a double quote opened on this line is never closed, so the rest of the file would read as one field`,
+        line: unclosedQuoteLine,
+      },
+    };
   if (tooMany)
     return {
       ok: false,

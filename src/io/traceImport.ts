@@ -288,6 +288,9 @@ function preambleEnd(text: string): { start: number; firstLine: number; header?:
     if (t !== '' && !delimitedIsCommentAt(text, pos)) {
       const c = t.charCodeAt(0);
       if ((c >= 48 && c <= 57) || c === 43 || c === 45 || c === 46) return { start: pos, firstLine: line, header };
+      // A quoted number ("1000","0.1") is a data row, not a header: only the general reader reads quotes.
+      const q = t.charCodeAt(1);
+      if (c === 34 && ((q >= 48 && q <= 57) || q === 43 || q === 45 || q === 46)) return null;
       header = content;
     }
     pos = eol + 1;
