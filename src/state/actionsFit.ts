@@ -115,11 +115,15 @@ export function fitRevert(): void {
   });
 }
 
-/** Apply a refused fit's suggestion: fix the keys it names (one undo step). */
-export function fitApplySuggestion(): void {
+/**
+ * Apply a refused fit's suggestion: fix the keys it names (one undo step), then fit again.
+ * @param runner as for fitStart
+ */
+export async function fitApplySuggestion(runner: typeof solverFit = solverFit): Promise<void> {
   const s = benchStore.getState();
   if (!s.fitOutcome || s.fitOutcome.ok) return;
   const fix = new Set(s.fitOutcome.error.fixSuggested);
   if (fix.size === 0) return;
   benchUpdate(`fix ${[...fix].join(', ')}`, (st) => ({ floated: st.floated.filter((k) => !fix.has(k)) }), { history: true });
+  await fitStart(runner);
 }

@@ -1,9 +1,17 @@
 /** The page's message area: what happened, in plain words (always text nodes). */
+import { useEffect } from 'react';
 import { messageDismiss } from '../state/actionsCore';
 import { useBench } from '../state/store';
 
+/** Info messages fade after this long, ms; warnings and errors stay until dismissed. */
+const INFO_LIFETIME_MS = 12_000;
+
 export function MessageArea() {
   const messages = useBench((s) => s.messages);
+  useEffect(() => {
+    const timers = messages.filter((m) => m.level === 'info').map((m) => setTimeout(() => messageDismiss(m.id), INFO_LIFETIME_MS));
+    return () => timers.forEach(clearTimeout);
+  }, [messages]);
   return (
     <div className="messages" aria-live="polite" aria-label="Messages" data-testid="messages">
       {messages.map((m) => (

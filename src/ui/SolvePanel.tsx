@@ -120,7 +120,7 @@ export function SolvePanel() {
           </p>
           {outcome.error.suggestion && <p>Suggestion: {outcome.error.suggestion}</p>}
           {outcome.error.fixSuggested.length > 0 && (
-            <button type="button" onClick={fitApplySuggestion}>
+            <button type="button" onClick={() => void fitApplySuggestion()}>
               Fix {outcome.error.fixSuggested.join(', ')} and fit again
             </button>
           )}

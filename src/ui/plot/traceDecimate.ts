@@ -73,12 +73,13 @@ export function traceDecimate(
   if (x[i] < fromCm1) i++;
   const last = x[end - 1] > toCm1 ? end - 1 : end;
   const width = (toCm1 - fromCm1) / columns;
+  const colOf = (v: number) => Math.min(Math.max(Math.floor((v - fromCm1) / width), 0), columns - 1);
   while (i < last) {
-    const col = Math.min(Math.floor((x[i] - fromCm1) / width), columns - 1);
-    const colEnd = fromCm1 + (col + 1) * width;
+    // Membership by the same formula for every sample, so each pass consumes at least one.
+    const col = colOf(x[i]);
     let iMin = -1;
     let iMax = -1;
-    for (; i < last && (x[i] < colEnd || col === columns - 1); i++) {
+    for (; i < last && colOf(x[i]) === col; i++) {
       const v = y[i];
       if (!Number.isFinite(v)) continue;
       if (iMin < 0 || v < y[iMin]) iMin = i;

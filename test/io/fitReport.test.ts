@@ -1,0 +1,98 @@
+import { describe, expect, it } from 'vitest';
+import { fitBand } from '../../src/fit/fitBand';
+import { fitReportMarkdown, formatValueSigma, markdownEscape } from '../../src/io/fitReport';
+import { bandLines } from '../../src/physics/bandLines';
+import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
+
+describe('formatValueSigma', () => {
+  it('writes the GUM example m = 100.02147(35) g', () => {
+    // Ref: JCGM 100:2008 (GUM) §7.2.2, example "m_S = 100,021 47(35) g" (u = 0.35 mg).
+    expect(formatValueSigma(100.02147, 0.00035)).toBe('100.02147(35)');
+  });
+  it('rounds σ to two significant digits and the value to the same place (hand-checked)', () => {
+    expect(formatValueSigma(1148.6001234, 0.0000153)).toBe('1148.600123(15)');
+    expect(formatValueSigma(0.29135, 0.0996)).toBe('0.29(10)');
+    expect(formatValueSigma(-3.2e-7, 1.23e-9)).toBe('-0.0000003200(12)');
+    // σ = 250 has its two digits left of the point: written with a shared exponent, 12350 ± 250.
+    expect(formatValueSigma(12345.6, 250)).toBe('1.235(25)e4');
+  });
+  it('gives the value alone when σ is missing or zero', () => {
+    expect(formatValueSigma(0.5, null)).toBe('0.5');
+    expect(formatValueSigma(1 / 3, 0)).toBe('0.3333333333');
+  });
+});
+
+describe('markdownEscape', () => {
+  it('turns markup and table breaks into inert text', () => {
+    expect(markdownEscape('<img src=x onerror=alert(1)>|a\nb')).toBe('&lt;img src=x onerror=alert(1)&gt;\\|a b');
+  });
+});
+
+describe('fitReportMarkdown', () => {
+  // Invented constants; lines computed from them with 1e-4 cm^-1 alternating offsets so σ_w is finite.
+  const truth: BandModel = {
+    shape: 'prolate',
+    band: 'parallel',
+    lower: stateConstantsFrom({ B: 0.25, A: 4 }),
+    upper: stateConstantsFrom({ origin: 950, B: 0.249, A: 3.99 }),
+    temperatureK: 300,
+    jMax: 15,
+    kMax: 3,
+    spinWeights: [1],
+  };
+  const lines = bandLines(truth);
+  const input = {
+    model: truth,
+    floated: ['upper.origin', 'upper.B', 'lower.B'],
+    lines: Array.from({ length: lines.count }, (_, i) => ({
+      jUpper: lines.jUpper[i],
+      kUpper: lines.kUpper[i],
+      jLower: lines.jLower[i],
+      kLower: lines.kLower[i],
+      observedCm1: lines.wavenumberCm1[i] + (i % 2 ? 1e-4 : -1e-4),
+      uncertaintyCm1: 1e-4,
+    })),
+  };
+  const outcome = fitBand(input);
+  if (!outcome.ok) throw new Error(outcome.error.message);
+  const result = outcome.result;
+  const md = fitReportMarkdown(result, 'prolate', { modelName: 'Test <script>', appVersion: '0.1.0', dateIso: '2024-05-06T07:08:09.000Z' });
+
+  it('names the date, version, N and σ_w', () => {
+    expect(md).toContain('- Date: 2024-05-06T07:08:09.000Z');
+    expect(md).toContain('Ladder Bench 0.1.0');
+    expect(md).toContain(`N = ${result.nLines}`);
+    expect(md).toContain(`σ_w = ${result.sigmaW!.toPrecision(4)}`);
+    expect(md).toContain('# Fit report: Test &lt;script&gt;');
+  });
+
+  it('lists every constant with its exact value and σ', () => {
+    for (const [key, p] of Object.entries(result.parameters)) {
+      const row = md.split('\n').find((l) => l.includes(`\`${key}\``) && l.startsWith('| ') && l.includes(p.fixed ? 'fixed' : 'floated'));
+      expect(row, key).toBeDefined();
+      const cells = row!.split('|').map((c) => c.trim());
+      expect(Number(cells[4])).toBe(p.value);
+      // σ is printed to 3 significant digits: relative rounding ≤ 0.5 %.
+      if (!p.fixed) expect(Math.abs(Number(cells[5]) - p.sigma!) / p.sigma!).toBeLessThan(5e-3);
+    }
+  });
+
+  it('prints the lower triangle of the correlation matrix with a unit diagonal', () => {
+    const start = md.indexOf('## Correlation matrix');
+    const rows = md
+      .slice(start)
+      .split('\n')
+      .filter((l) => l.startsWith('| `'));
+    expect(rows.length).toBe(result.floated.length);
+    rows.forEach((r, i) => {
+      const cells = r.split('|').map((c) => c.trim()).slice(2, -1);
+      expect(Number(cells[i])).toBe(1);
+      for (let j = 0; j < i; j++) expect(Number(cells[j])).toBeCloseTo(result.correlation[i][j], 4);
+    });
+  });
+
+  it('has one line row per input line', () => {
+    const body = md.slice(md.indexOf('## Lines'));
+    expect(body.split('\n').filter((l) => /^\| [pqr]?[PQR]\d*\(\d+\)/.test(l)).length).toBe(lines.count);
+  });
+});

@@ -1,0 +1,78 @@
+import { describe, expect, it } from 'vitest';
+import { assignmentDeviation, assignmentsAdd, assignmentsRemove, assignmentsUpdate, peakIdAt } from '../../src/state/assignLogic';
+
+const q1 = { jUpper: 5, kUpper: 2, jLower: 4, kLower: 1 };
+const q2 = { jUpper: 6, kUpper: 2, jLower: 5, kLower: 1 };
+
+describe('assignmentsAdd', () => {
+  it('adds a new assignment with the default σ of 0.001 cm^-1 (headless contract)', () => {
+    const { list, id } = assignmentsAdd([], { ...q1, observedCm1: 1000.1 }, 'a1');
+    expect(id).toBe('a1');
+    expect(list).toEqual([{ id: 'a1', ...q1, observedCm1: 1000.1, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' }]);
+  });
+
+  it('refuses a non-finite position', () => {
+    expect(() => assignmentsAdd([], { ...q1, observedCm1: NaN }, 'a1')).toThrow(/observedCm1/);
+  });
+
+  it('re-assigns the same quanta instead of duplicating them, keeping id and note', () => {
+    let { list } = assignmentsAdd([], { ...q1, observedCm1: 1000.1, peakId: 'p1' }, 'a1');
+    list = assignmentsUpdate(list, 'a1', { note: 'strong' });
+    const r = assignmentsAdd(list, { ...q1, observedCm1: 1000.2, peakId: 'p2' }, 'a2');
+    expect(r.id).toBe('a1');
+    expect(r.list.length).toBe(1);
+    expect(r.list[0]).toMatchObject({ id: 'a1', observedCm1: 1000.2, peakId: 'p2', note: 'strong' });
+  });
+
+  it('flags both transitions of one peak as blended, and un-flags when one moves away', () => {
+    let { list } = assignmentsAdd([], { ...q1, observedCm1: 1000.1, peakId: 'p1' }, 'a1');
+    ({ list } = assignmentsAdd(list, { ...q2, observedCm1: 1000.1, peakId: 'p1' }, 'a2'));
+    expect(list.map((a) => a.isBlended)).toEqual([true, true]);
+    ({ list } = assignmentsAdd(list, { ...q2, observedCm1: 1000.7, peakId: 'p9' }, 'a3'));
+    expect(list.map((a) => a.isBlended)).toEqual([false, false]);
+  });
+
+  it('never changes the input list', () => {
+    const { list } = assignmentsAdd([], { ...q1, observedCm1: 1000.1 }, 'a1');
+    const frozen = Object.freeze([...list]);
+    assignmentsAdd(frozen, { ...q2, observedCm1: 1000.2 }, 'a2');
+    expect(frozen.length).toBe(1);
+  });
+});
+
+describe('assignmentsUpdate and assignmentsRemove', () => {
+  it('refuses σ <= 0 and unknown ids, naming the field', () => {
+    const { list } = assignmentsAdd([], { ...q1, observedCm1: 1000.1 }, 'a1');
+    expect(() => assignmentsUpdate(list, 'a1', { uncertaintyCm1: 0 })).toThrow(/uncertainty/);
+    expect(() => assignmentsUpdate(list, 'zz', { note: 'x' })).toThrow(/zz/);
+    expect(assignmentsUpdate(list, 'a1', { isExcluded: true })[0].isExcluded).toBe(true);
+  });
+  it('removing one of a blend un-flags the other', () => {
+    let { list } = assignmentsAdd([], { ...q1, observedCm1: 1000.1, peakId: 'p1' }, 'a1');
+    ({ list } = assignmentsAdd(list, { ...q2, observedCm1: 1000.1, peakId: 'p1' }, 'a2'));
+    const after = assignmentsRemove(list, ['a2']);
+    expect(after).toHaveLength(1);
+    expect(after[0].isBlended).toBe(false);
+  });
+});
+
+describe('assignmentDeviation', () => {
+  it('uses the tolerance without a fit', () => {
+    expect(assignmentDeviation(1000.03, 1000, 0.001, null, 0.02)).toMatchObject({ isFar: true, omcSigma: null });
+    expect(assignmentDeviation(1000.01, 1000, 0.001, null, 0.02).isFar).toBe(false);
+  });
+  it('uses 3σ with σ = √(σ_obs² + σ_pred²) once a fit exists (3σ rule, common practice)', () => {
+    // σ = √(0.003² + 0.004²) = 0.005; 0.0149 is 2.98 σ, 0.0151 is 3.02 σ.
+    expect(assignmentDeviation(1000.0149, 1000, 0.003, 0.004, 1e-9).isFar).toBe(false);
+    const far = assignmentDeviation(1000.0151, 1000, 0.003, 0.004, 1);
+    expect(far.isFar).toBe(true);
+    expect(far.omcSigma).toBeCloseTo(3.02, 10);
+  });
+});
+
+describe('peakIdAt', () => {
+  it('identifies a peak by its centre to 1e-5 cm^-1', () => {
+    expect(peakIdAt(1000.123456)).toBe('pk1000.12346');
+    expect(peakIdAt(1000.123456)).toBe(peakIdAt(1000.1234561));
+  });
+});

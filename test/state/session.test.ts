@@ -1,0 +1,64 @@
+import { beforeEach, describe, expect, it } from 'vitest';
+import { projectFileParse } from '../../src/io/projectFile';
+import { candidateAssign, peakClick } from '../../src/state/actionsAssign';
+import { droppedKind, traceReplace } from '../../src/state/actionsImport';
+import { projectExportText, projectImportText } from '../../src/state/actionsProject';
+import { sessionOf, stateFromSession } from '../../src/state/session';
+import { benchStore } from '../../src/state/store';
+import { smallModel, smallTrace } from './fixtures';
+
+beforeEach(() => {
+  benchStore.setState(benchStore.getInitialState(), true);
+});
+
+describe('project export and import through the store', () => {
+  it('imports back to exactly the same session', () => {
+    const model = smallModel();
+    benchStore.setState({ model, minIntensity: 0.02, theme: 'dark', xRange: [1000, 1002] });
+    traceReplace(smallTrace(model).trace, null, 'file');
+    benchStore.setState({ xRange: [1000, 1002] });
+    peakClick(2);
+    candidateAssign(0);
+    peakClick(5);
+    candidateAssign(1);
+    const before = sessionOf(benchStore.getState());
+    const text = projectExportText('0.1.0', '2024-01-01T00:00:00Z');
+    benchStore.setState(benchStore.getInitialState(), true);
+    expect(projectImportText(text, 'p.json')).toBe(true);
+    const after = sessionOf(benchStore.getState());
+    const { trace: t1, ...r1 } = after;
+    const { trace: t0, ...r0 } = before;
+    expect(r1).toEqual(r0);
+    expect(Array.from(t1!.absorbance)).toEqual(Array.from(t0!.absorbance));
+    expect(benchStore.getState().past).toEqual([]);
+  });
+
+  it('keeps the current session when the file cannot be read', () => {
+    const model = smallModel();
+    benchStore.setState({ model });
+    const s = benchStore.getState();
+    expect(projectImportText('{"format":"ladder-bench-project","version":99}', 'new.json')).toBe(false);
+    expect(benchStore.getState().model).toBe(s.model);
+    expect(benchStore.getState().messages.at(-1)!.text).toMatch(/newer Ladder Bench/);
+  });
+
+  it('fills fields a file leaves out with the initial values', () => {
+    const doc = JSON.parse(projectExportText('0.1.0'));
+    delete doc.session.view;
+    const r = projectFileParse(JSON.stringify(doc));
+    if (!r.ok) throw new Error(r.message);
+    const fields = stateFromSession(r.session);
+    expect(fields.theme).toBe(benchStore.getInitialState().theme);
+    expect(fields.tableQuery).toEqual(benchStore.getInitialState().tableQuery);
+  });
+});
+
+describe('droppedKind', () => {
+  it('tells project, model, line table and trace apart by content', () => {
+    expect(droppedKind('{"format": "ladder-bench-project", "version": 2}', 'x.txt')).toBe('project');
+    expect(droppedKind('\uFEFF  {"shape":"prolate"}', 'x.dat')).toBe('model');
+    expect(droppedKind('J_up,K_up,J_lo,K_lo,wavenumber\n1,0,0,0,1000', 'a.csv')).toBe('line-table');
+    expect(droppedKind('wavenumber_cm-1,transmittance\n1000,0.9', 'a.csv')).toBe('trace');
+    expect(droppedKind('##TITLE=x', 'a.jdx')).toBe('trace');
+  });
+});

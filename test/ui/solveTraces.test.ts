@@ -1,0 +1,70 @@
+import { describe, expect, it } from 'vitest';
+import { combinationDifferences } from '../../src/fit/combinationDifferences';
+import { fitBand } from '../../src/fit/fitBand';
+import { bandLines } from '../../src/physics/bandLines';
+import { combinationFigure, correlationFigure, residualFigure } from '../../src/ui/plot/solveTraces';
+import { smallModel } from '../state/fixtures';
+
+const model = smallModel();
+const lines = bandLines(model, { minIntensity: 0.02 });
+const obs = Array.from({ length: lines.count }, (_, i) => ({
+  jUpper: lines.jUpper[i],
+  kUpper: lines.kUpper[i],
+  jLower: lines.jLower[i],
+  kLower: lines.kLower[i],
+  observedCm1: lines.wavenumberCm1[i] + ((i * 7919) % 13 - 6) * 1e-5,
+  uncertaintyCm1: 1e-4,
+}));
+
+describe('residualFigure', () => {
+  it('plots one series per K″ with obs − calc against J″ and the assignment ids', () => {
+    const r = fitBand({ model, floated: ['upper.origin', 'upper.B', 'lower.B'], lines: obs });
+    if (!r.ok) throw new Error(r.error.message);
+    const ids = obs.map((_, i) => `a${i}`);
+    const { data } = residualFigure(r.result, ids, 'prolate', false);
+    const ks = new Set(obs.map((o) => o.kLower));
+    expect(data.length).toBe(ks.size);
+    let n = 0;
+    for (const d of data as unknown as { x: number[]; y: number[]; customdata: string[] }[]) {
+      d.customdata.forEach((id, k) => {
+        const i = Number(id.slice(1));
+        expect(d.x[k]).toBe(obs[i].jLower);
+        expect(d.y[k]).toBe(r.result.lines[i].obsMinusCalc);
+      });
+      n += d.x.length;
+    }
+    expect(n).toBe(obs.length);
+  });
+});
+
+describe('correlationFigure', () => {
+  it('shows the correlation matrix on a fixed −1 … +1 scale', () => {
+    const r = fitBand({ model, floated: ['upper.origin', 'upper.B', 'lower.B'], lines: obs });
+    if (!r.ok) throw new Error(r.error.message);
+    const h = correlationFigure(r.result, false).data[0] as unknown as { z: number[][]; zmin: number; zmax: number; x: string[] };
+    expect(h.zmin).toBe(-1);
+    expect(h.zmax).toBe(1);
+    expect(h.x).toEqual(r.result.floated);
+    expect(h.z).toEqual(r.result.correlation);
+  });
+});
+
+describe('combinationFigure', () => {
+  it('draws each K with its line 4B − 8DJ((J+½)²+¾) − 4DJK K² through the points', () => {
+    // Exact lines from the model: the lower-state differences follow the formula with the
+    // model's B″, DJ″ (Herzberg I 1950, ch. III), so each point lies on its K line.
+    const exact = obs.map((o, i) => ({ ...o, observedCm1: lines.wavenumberCm1[i] }));
+    const cd = combinationDifferences(exact, 'lower', { shape: 'prolate' });
+    if (!cd.ok) throw new Error(cd.error.message);
+    const { data } = combinationFigure(cd.result, false);
+    const B = cd.result.B.value;
+    const DJ = cd.result.DJ.value;
+    const DJK = cd.result.DJK.value;
+    expect(B).toBeCloseTo(model.lower.B, 9);
+    for (let t = 0; t < data.length; t += 2) {
+      const pts = data[t] as unknown as { x: number[]; y: number[]; name: string };
+      const k = Number(pts.name.split('=')[1]);
+      pts.x.forEach((x, i) => expect(pts.y[i]).toBeCloseTo(4 * B - 8 * DJ * (x + 0.75) - 4 * DJK * k * k, 8));
+    }
+  });
+});
