@@ -7,6 +7,7 @@ import { assistantMatch } from './assistantMatch';
 import { assistantMisassignments, assistantRobustScale } from './assistantMisassignment';
 import { assistantOptionsResolve } from './assistantOptions';
 import {
+  assistantNearestPeak,
   assistantPeakContext,
   assistantPeaksCheck,
   assistantPeaksRepairWarning,
@@ -16,6 +17,7 @@ import {
 } from './assistantPeakContext';
 import { assistantCatalogue, assistantQuantaKey, type AssistantCatalogue } from './assistantPredict';
 import { assistantRefit } from './assistantRefit';
+import { assistantShiftSearch } from './assistantShiftSearch';
 import { assistantFitLines } from './assistantReview';
 import type { AssistantAmbiguity, AssistantIteration, AssistantLine, AssistantOptions, AssistantOptionsResolved, AssistantRunResult } from './assistantTypes';
 import type { PeakList } from './peaksFind';
@@ -127,8 +129,8 @@ function checkLines(model: BandModel, lines: readonly AssistantLine[]): void {
  * 3. Offer the unassigned rungs within reach (a step s beyond the assigned J'' of their sub-band,
  *    or J'' ≤ K'' + 2s in a sub-band next to one with ≥ 3 lines; s = reachJStep while lines come
  *    in, doubled after an iteration that adds nothing, so a run of ambiguous rungs is jumped,
- *    until it spans the band) whose predicted SNR is
- *    at least minPredictedSnr; match them (assistantMatch: one peak for the rung, one rung for the
+ *    until it spans the band) whose predicted SNR is at least minPredictedSnr and whose k·σ
+ *    window is at most maxWindowFwhm local FWHMs (others wait for a better fit); match them (assistantMatch: one peak for the rung, one rung for the
  *    peak, intensity plausible). Possible blends are weighted down (assistantPeakUncertainty).
  * Every added line has status 'proposed', its reason and distance; ambiguities are listed, never
  * chosen. Lines given by the user (source 'user') are never changed. The result's undo record
@@ -175,8 +177,10 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     warnings.push('There are no lines to start from: give seed lines (or pick them with assistantSeedFromModel).');
   }
 
+  // User lines the fit disagrees with are left out of the run's fits; the lines themselves stay as given.
+  const heldOut = new Set<string>();
   const refit = (): void => {
-    const out = assistantRefit(model, input.floatable, assistantFitLines(lines), state.fit);
+    const out = assistantRefit(model, input.floatable, assistantFitLines(lines).filter((l) => !heldOut.has(l.id)), state.fit);
     state.fitNotes = out.notes;
     state.floated = out.floated;
     if (out.fit) {
@@ -194,7 +198,14 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
   let step = options.reachJStep;
   for (let iteration = 1; iteration <= options.maxIterations; iteration++) {
     refit();
-    const nExcluded = excludeOutliers(lines, state.fit, options, iteration);
+    let nExcluded = 0;
+    if (state.fit && state.fit.nLines <= DELETION_MAX_LINES) {
+      const fitLines = assistantFitLines(lines).filter((l) => !heldOut.has(l.id));
+      const bad = deletionOutliers(model, input.floatable, fitLines, state.fit);
+      nExcluded += markOutliers(bad.map((b) => ({ l: b.line, z: b.z })), heldOut, warnings, iteration, model.shape);
+      if (bad.length) refit();
+    }
+    nExcluded += excludeOutliers(lines, state.fit, options, iteration, heldOut, warnings);
     if (nExcluded > 0) refit();
     const current = state.fit;
     const minIntensity = Number.isFinite(heightScale) && peaks.noiseSigma > 0 ? Math.min(1e-3, Math.max(1e-7, (0.5 * peaks.noiseSigma) / heightScale)) : 1e-4;
@@ -221,14 +232,31 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     const forbidden = new Set<string>();
     for (const l of lines) if (l.status === 'rejected' && l.peakIndex !== null) forbidden.add(`${assistantQuantaKey(l)}@${l.peakIndex}`);
 
+    // Sub-bands not yet pinned by the fit are opened only once their whole ladder lines up with
+    // the peaks (the fit cannot yet tell how far the K structure of the model is off).
+    const fitSubBands = new Set(assistantFitLines(lines).map((l) => assistantSubBandIndex(model, l.kUpper - l.kLower, l.kLower)));
+    const needsAlignment = model.shape !== 'linear' && fitSubBands.size < ALIGN_BELOW_SUB_BANDS;
     const minHeight = peaks.noiseSigma > 0 ? options.minPredictedSnr * peaks.noiseSigma : 0.5 * minOf(peaks.height, peaks.count);
-    const candidates: number[] = [];
-    const tolerances: number[] = [];
+    const offered: number[] = [];
     for (let i = 0; i < cat.lines.count; i++) {
       if (isRungAssigned[i]) continue;
       if (!isReached(model, reach, cat.lines.deltaK[i], cat.lines.kLower[i], cat.lines.jLower[i], step)) continue;
       const strongEnough = Number.isFinite(heightScale) ? heightScale * cat.lines.intensity[i] >= minHeight : cat.lines.intensity[i] >= 0.02;
-      if (!strongEnough) continue;
+      if (strongEnough) offered.push(i);
+    }
+    const alignment = needsAlignment ? alignNewSubBands(model, cat, peaks, context, offered, reach) : new Map<number, SubBandAlignment | null>();
+    const candidates: number[] = [];
+    const tolerances: number[] = [];
+    let nTooWide = 0;
+    for (const i of offered) {
+      const m = assistantSubBandIndex(model, cat.lines.deltaK[i], cat.lines.kLower[i]);
+      if (alignment.has(m) && alignment.get(m) === null) continue;
+      const p = assistantNearestPeak(peaks, cat.predictedCm1[i]);
+      const width = p >= 0 ? context.localFwhmCm1[p] : context.medianFwhmCm1;
+      if (options.toleranceSigma * cat.toleranceSigmaCm1[i] > options.maxWindowFwhm * width) {
+        nTooWide++;
+        continue;
+      }
       candidates.push(i);
       tolerances.push(cat.toleranceSigmaCm1[i]);
     }
@@ -273,7 +301,7 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
         predictedCm1: cat.predictedCm1[i],
         matchSigmaCm1: m.sigmaCm1,
         distanceSigma: m.distanceSigma,
-        reason: `iteration ${iteration}: ${m.reason}`,
+        reason: `iteration ${iteration}: ${m.reason}${alignmentNote(alignment.get(assistantSubBandIndex(model, cat.lines.deltaK[i], cat.lines.kLower[i])))}`,
         iteration,
       };
       line.note = line.reason;
@@ -288,6 +316,7 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       rmsCm1: current ? current.rmsCm1 : NaN,
       medianToleranceCm1: median(tolerances),
       reachJStep: step,
+      nWaiting: nTooWide,
       nProposed: matched.matches.length,
       nExcluded,
     });
@@ -301,7 +330,7 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
   if (!isFinished) {
     if (lastAdded > 0) {
       refit();
-      if (excludeOutliers(lines, state.fit, options, iterations.length) > 0) refit();
+      if (excludeOutliers(lines, state.fit, options, iterations.length, heldOut, warnings) > 0) refit();
     }
     warnings.push(`Stopped after maxIterations = ${options.maxIterations} with lines still being added; run again to continue.`);
   }
@@ -323,26 +352,201 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
   };
 }
 
+/** Fewer sub-bands than this in the fit: new sub-bands are opened only by aligning their ladder. */
+const ALIGN_BELOW_SUB_BANDS = 3;
+/** A ladder needs at least this many offered rungs to be aligned. */
+const ALIGN_MIN_RUNGS = 4;
+
+/** How a new sub-band's ladder was lined up with the peaks. */
+interface SubBandAlignment {
+  /** Offset added to the sub-band's predictions, cm^-1. */
+  offsetCm1: number;
+  /** Robust spread of the rungs about the aligned ladder, cm^-1 (added to their tolerance). */
+  spreadCm1: number;
+  matched: number;
+  offered: number;
+}
+
+function alignmentNote(a: SubBandAlignment | null | undefined): string {
+  if (!a) return '';
+  return `; sub-band opened by lining up its ladder: offset ${a.offsetCm1 >= 0 ? '+' : ''}${a.offsetCm1.toPrecision(3)} cm^-1 (${a.matched} of ${a.offered} rungs on peaks)`;
+}
+
 /**
- * Exclude from the fit the machine-made lines (proposals and model-only seeds, never the user's)
- * more than excludeSigma × the robust σ_w from the fit; they stay in the set with the reason.
- * @returns how many were excluded
+ * For every sub-band with offered rungs but no line yet: search the one offset (within ±0.8 B'',
+ * less than half a rung spacing so a shift by one rung cannot alias) that puts most of its rungs
+ * within half a FWHM of a peak. Accepted when at least half the rungs (≥ 3) match, clearly more
+ * than chance, and either the unshifted ladder does within 10 % as well (the model's positions are
+ * kept) or no offset 2 FWHM or more away does nearly as well (≤ 60 %); a shift is then refined to
+ * the median residual and the sub-band's predictions (and tolerances, by the robust spread) are
+ * changed in the catalogue. A sub-band that fails maps to null (not opened this iteration).
+ * Source: aligning a predicted sub-band ladder with the spectrum as a whole is the usual way to
+ * assign a new K sub-band (e.g. in a Loomis–Wood diagram); common practice.
  */
-function excludeOutliers(lines: AssistantLine[], fit: FitResult | null, options: AssistantOptionsResolved, iteration: number): number {
+function alignNewSubBands(
+  model: BandModel,
+  cat: AssistantCatalogue,
+  peaks: PeakList,
+  context: AssistantPeakContext,
+  offered: readonly number[],
+  reach: Reach,
+): Map<number, SubBandAlignment | null> {
+  const bySub = new Map<number, number[]>();
+  for (const i of offered) {
+    const m = assistantSubBandIndex(model, cat.lines.deltaK[i], cat.lines.kLower[i]);
+    if (reach.has(m)) continue;
+    if (!bySub.has(m)) bySub.set(m, []);
+    bySub.get(m)!.push(i);
+  }
+  const out = new Map<number, SubBandAlignment | null>();
+  const tau = context.medianFwhmCm1;
+  const window = Math.max(3 * tau, 0.8 * Math.abs(model.lower.B));
+  for (const [m, idx] of bySub) {
+    if (idx.length < ALIGN_MIN_RUNGS || !(tau > 0)) {
+      out.set(m, null);
+      continue;
+    }
+    const r = assistantShiftSearch(peaks, tau, idx, cat.predictedCm1, () => 0, () => 0, {
+      deltaCentre: 0,
+      deltaWindow: window,
+      sumCentre: 0,
+      sumWindow: 0,
+      diffCentre: 0,
+      diffWindow: 0,
+    });
+    const isEnough = r.count >= Math.max(3, 0.5 * r.n) && r.count / r.n >= 2 * r.chance + 0.1;
+    // The model's own positions are kept when they do nearly as well as the best shift (a band
+    // whose sub-bands nearly coincide aligns equally well with its neighbours' ladders).
+    const isModelGood = isEnough && r.centreCount >= 0.9 * r.count;
+    const isClear = isEnough && r.secondCount <= 0.6 * r.count;
+    if (!isModelGood && !isClear) {
+      out.set(m, null);
+      continue;
+    }
+    const shift = isModelGood ? 0 : r.delta;
+    const residuals: number[] = [];
+    for (const i of idx) {
+      const x = cat.predictedCm1[i] + shift;
+      const k = assistantNearestPeak(peaks, x);
+      if (k >= 0 && Math.abs(peaks.wavenumberCm1[k] - x) <= 0.5 * tau) residuals.push(peaks.wavenumberCm1[k] - x);
+    }
+    const mid = median(residuals);
+    const spread = 1.4826 * median(residuals.map((v) => Math.abs(v - mid)));
+    const offsetCm1 = isModelGood ? 0 : shift + (Number.isFinite(mid) ? mid : 0);
+    out.set(m, {
+      offsetCm1,
+      spreadCm1: isModelGood ? 0 : Number.isFinite(spread) ? spread : 0.5 * tau,
+      matched: isModelGood ? r.centreCount : r.count,
+      offered: r.n,
+    });
+  }
+  // Move the aligned sub-bands' predictions (every line of them, so competitor checks see them too).
+  let moved = false;
+  for (let i = 0; i < cat.lines.count; i++) {
+    const a = out.get(assistantSubBandIndex(model, cat.lines.deltaK[i], cat.lines.kLower[i]));
+    if (!a) continue;
+    cat.predictedCm1[i] += a.offsetCm1;
+    cat.toleranceSigmaCm1[i] = Math.hypot(cat.toleranceSigmaCm1[i], a.spreadCm1);
+    moved = true;
+  }
+  if (moved) cat.order.sort((a, b) => cat.predictedCm1[a] - cat.predictedCm1[b]);
+  return out;
+}
+
+/**
+ * Exclude from the fit the machine-made lines (proposals and model-only seeds) more than
+ * excludeSigma × the robust σ_w from the fit; they stay in the set with the reason. The user's
+ * own lines (source 'user', or accepted) that far off are not changed but left out of the run's
+ * fits (heldOut), with a warning naming them. At most a third of the fitted lines go per call.
+ * @returns how many were excluded or held out
+ */
+function excludeOutliers(
+  lines: AssistantLine[],
+  fit: FitResult | null,
+  options: AssistantOptionsResolved,
+  iteration: number,
+  heldOut: Set<string>,
+  warnings: string[],
+): number {
   if (!fit || fit.nLines < 10 || fit.isExactlyDetermined) return 0;
   const scale = assistantRobustScale(fit.lines.filter((l) => !l.isExcluded).map((l) => l.normalisedResidual));
-  let n = 0;
-  for (const l of lines) {
-    if (l.isExcluded || l.status === 'rejected' || l.status === 'accepted' || l.source === 'user') continue;
-    const r = (l.observedCm1 - calcOf(fit, l)) / l.uncertaintyCm1;
-    if (Math.abs(r) > options.excludeSigma * scale) {
-      l.isExcluded = true;
-      l.reason += `; excluded in iteration ${iteration}: obs − calc is ${(r / scale).toFixed(1)}σ (blend, perturbation or misassignment?)`;
-      l.note = l.reason;
-      n++;
+  const off = lines
+    .filter((l) => !l.isExcluded && l.status !== 'rejected' && !heldOut.has(l.id))
+    .map((l) => ({ l, z: (l.observedCm1 - calcOf(fit, l)) / l.uncertaintyCm1 / scale }))
+    .filter((o) => Math.abs(o.z) > options.excludeSigma)
+    .sort((a, b) => Math.abs(b.z) - Math.abs(a.z))
+    .slice(0, Math.floor(fit.nLines / 3));
+  return markOutliers(off, heldOut, warnings, iteration, fit.model.shape);
+}
+
+/** Exclude machine-made outliers (with the reason) and hold out the user's (with a warning). */
+function markOutliers(
+  off: { l: AssistantLine; z: number }[],
+  heldOut: Set<string>,
+  warnings: string[],
+  iteration: number,
+  shape: BandModel['shape'],
+): number {
+  for (const { l, z } of off) {
+    const what = Number.isFinite(z) ? `${z.toFixed(1)}σ` : 'far';
+    if (l.source === 'user' || l.status === 'accepted') {
+      heldOut.add(l.id);
+      warnings.push(
+        `${lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape)} (id '${l.id}', ${l.observedCm1} cm^-1) is ${what} from the fit of the other lines in iteration ${iteration}: left out of this run's fits (the line itself is unchanged; check it)`,
+      );
+      continue;
     }
+    l.isExcluded = true;
+    l.reason += `; excluded in iteration ${iteration}: obs − calc is ${what} from the fit of the other lines (blend, perturbation or misassignment?)`;
+    l.note = l.reason;
   }
-  return n;
+  return off.length;
+}
+
+/** Deletion diagnostics run only on fits this small (cost: one refit per line per round). */
+const DELETION_MAX_LINES = 40;
+/** A line is deleted when leaving it out removes at least this fraction of χ². */
+const DELETION_CHI2_SHARE = 0.5;
+
+/**
+ * Gross outliers of a small set that a fit absorbs (two swapped lines among ten spoil every
+ * residual, so no single residual stands out): repeatedly refit without each line in turn and
+ * drop the line whose removal lowers χ² the most, while that removal takes away at least half
+ * of χ² and σ_w is still above 3 (so lines with merely understated uncertainties are kept);
+ * at most a third of the lines.
+ * Source: deletion (leave-one-out) diagnostics, Cook & Weisberg, Residuals and Influence in
+ * Regression (1982), ch. 3 (from memory).
+ */
+function deletionOutliers(
+  model: BandModel,
+  floatable: readonly string[],
+  fitLines: AssistantLine[],
+  fit: FitResult,
+): { line: AssistantLine; z: number }[] {
+  const out: { line: AssistantLine; z: number }[] = [];
+  let current = fitLines;
+  let chi2 = fit.chi2;
+  let sigmaW = fit.sigmaW ?? 0;
+  while (out.length < Math.floor(fitLines.length / 3) && sigmaW > 3 && current.length > 3) {
+    let best = -1;
+    let bestChi2 = Infinity;
+    let bestSigmaW = 0;
+    for (let j = 0; j < current.length; j++) {
+      const rest = current.filter((_, i) => i !== j);
+      const r = assistantRefit(model, floatable, rest, fit);
+      if (!r.fit || r.fit.chi2 >= bestChi2) continue;
+      best = j;
+      bestChi2 = r.fit.chi2;
+      bestSigmaW = r.fit.sigmaW ?? 0;
+    }
+    if (best < 0 || chi2 - bestChi2 < DELETION_CHI2_SHARE * chi2) break;
+    const line = current[best];
+    out.push({ line, z: Math.sqrt(Math.max(chi2 - bestChi2, 0)) / Math.max(bestSigmaW, 1) });
+    current = current.filter((_, i) => i !== best);
+    chi2 = bestChi2;
+    sigmaW = bestSigmaW;
+  }
+  return out;
 }
 
 function calcOf(fit: FitResult, l: AssistantLine): number {

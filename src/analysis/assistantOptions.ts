@@ -13,6 +13,7 @@ const RANGES: Record<keyof AssistantOptions, [number, number, boolean]> = {
   blendPartnerFraction: [0, 1, false],
   minPredictedSnr: [0, 1e6, false],
   intensityRatioMax: [1, 1e6, false],
+  maxWindowFwhm: [0.05, 1000, false],
   reachJStep: [1, 1000, true],
   maxIterations: [1, 10000, true],
   outlierSigma: [0.5, 100, false],

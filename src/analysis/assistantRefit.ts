@@ -13,6 +13,11 @@ export interface AssistantRefitOutcome {
   notes: string[];
 }
 
+/** Constants dropped again when the fit leaves them insignificant (the rest of the staging is kept). */
+const HIGHER_ORDER = new Set(['DJ', 'DJK', 'DK', 'HJ', 'HJK', 'HKJ', 'HK']);
+/** |value|/σ below which a higher-order constant counts as not determined (common practice: 2–3). */
+const SIGNIFICANCE = 2;
+
 /** What the fitted lines span (decides which constants they can determine). */
 interface LineSpan {
   n: number;
@@ -23,7 +28,8 @@ interface LineSpan {
 }
 
 function lineSpan(lines: readonly FitLineInput[]): LineSpan {
-  const ks = new Set<number>();
+  // Distinct (K', K'') pairs: in a perpendicular band the sub-bands rK and pK of one K'' differ.
+  const ks = new Set<string>();
   let n = 0;
   let jMax = 0;
   let hasQ = false;
@@ -31,7 +37,7 @@ function lineSpan(lines: readonly FitLineInput[]): LineSpan {
   for (const l of lines) {
     if (l.isExcluded) continue;
     n++;
-    ks.add(l.kLower);
+    ks.add(`${l.kUpper},${l.kLower}`);
     jMax = Math.max(jMax, l.jLower);
     if (l.jUpper === l.jLower) hasQ = true;
     else hasPR = true;
@@ -63,11 +69,13 @@ function stagedKeys(model: BandModel, span: LineSpan): string[][] {
 /**
  * Fit the band to the current lines, floating only what they can determine.
  *
- * Staging: origin first, then B′ and B″ (≥ 3 lines), the unique-axis constants and ζ (≥ 2 K''),
+ * Staging: origin first, then B′ and B″ (≥ 3 lines), the unique-axis constants and ζ (≥ 2 sub-bands, i.e. distinct (K′, K″)),
  * DJ (≥ 12 lines reaching J'' ≥ 10), DJK, DK, then H terms as the set grows; only keys in
- * `floatable` are ever floated, at most N − 2 of them (the rest wait). A refusal of the fit
+ * `floatable` are ever floated, at most N − 2 of them from 5 lines on, N − 1 below (the rest wait). A refusal of the fit
  * for an under-determined set (rank diagnosis of fitBand) fixes the constants it suggests, or the
- * latest-staged one involved, and tries again; too few lines drops the latest-staged key. Never
+ * latest-staged one involved, and tries again; too few lines drops the latest-staged key; a
+ * centrifugal constant (D, H) the fit leaves below 2σ is held at its model value and the fit
+ * repeated (a t-test, common practice when building up a fit). Never
  * throws for an under-determined set; a set no constant can be fitted to gives fit null and the error.
  * Source: weighted least squares and rank diagnosis of fit/fitBand.ts; staging is common practice
  * of bootstrapping a band analysis (low-order constants first).
@@ -87,7 +95,8 @@ export function assistantRefit(
   const notes: string[] = [];
   const staged = stagedKeys(model, span).map((keys) => keys.filter((k) => allowed.has(k)));
   let floated = staged.flat();
-  const cap = span.n >= 3 ? span.n - 2 : span.n;
+  // Two degrees of freedom once there are 5 lines (the Student factor is 6.5 at one, 2.2 at two).
+  const cap = span.n >= 5 ? span.n - 2 : span.n >= 2 ? span.n - 1 : span.n;
   if (floated.length > cap) {
     notes.push(`${floated.length - cap} constant(s) wait for more lines (${floated.slice(cap).join(', ')}): ${span.n} lines keep at most ${cap} floated`);
     floated = floated.slice(0, cap);
@@ -110,7 +119,22 @@ export function assistantRefit(
   let lastError: FitError | null = null;
   for (let attempt = 0; attempt < 20; attempt++) {
     const outcome = fitBand({ model: start(floated), floated, lines });
-    if (outcome.ok) return { fit: outcome.result, error: null, floated, notes };
+    if (outcome.ok) {
+      // Centrifugal constants the lines do not yet determine (|value| < 2σ) are held at the model
+      // value: floated, they would only blur every prediction beyond the data.
+      const weak = outcome.result.isExactlyDetermined
+        ? []
+        : floated.filter((k) => {
+            const name = fitKeyParse(k)?.name ?? '';
+            if (!HIGHER_ORDER.has(name)) return false;
+            const p = outcome.result.parameters[k];
+            return p.sigma !== null && Math.abs(p.value) < SIGNIFICANCE * p.sigma;
+          });
+      if (weak.length === 0) return { fit: outcome.result, error: null, floated, notes };
+      notes.push(`${weak.join(', ')} held at the model value${weak.length > 1 ? 's' : ''}: not yet determined by the lines (|value| < ${SIGNIFICANCE}σ)`);
+      floated = floated.filter((k) => !weak.includes(k));
+      continue;
+    }
     const e = outcome.error;
     lastError = e;
     if (e.kind === 'underdetermined' || e.kind === 'unused-parameter') {

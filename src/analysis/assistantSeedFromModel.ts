@@ -6,6 +6,7 @@ import { assistantPeakContext, assistantPeaksCheck, assistantPeaksInRange, assis
 import { assistantOptionsResolve } from './assistantOptions';
 import type { AssistantLine, AssistantOptions } from './assistantTypes';
 import type { PeakList } from './peaksFind';
+import { assistantShiftSearch as shiftSearch } from './assistantShiftSearch';
 
 /** Options of assistantSeedFromModel; ASSISTANT_SEED_DEFAULTS holds the defaults. */
 export interface AssistantSeedOptions {
@@ -42,8 +43,6 @@ const SEARCH_MAX_J = 25;
 const COARSE_MAX_J = 12;
 /** The coarse search uses at most this many lines. */
 const COARSE_LINES = 40;
-/** Most grid steps on each side for each B direction. */
-const SEARCH_MAX_STEPS = 250;
 /** Each sub-band's own shift is searched within ± this, cm^-1. */
 const SUB_BAND_WINDOW_CM1 = 0.5;
 
@@ -315,113 +314,4 @@ function isIsolated(
     if (j !== i && lines.intensity[j] >= fraction * lines.intensity[i]) return false;
   }
   return true;
-}
-
-/** Windows of shiftSearch: centre and half width of δ, s and d, cm^-1. */
-interface ShiftWindows {
-  deltaCentre: number;
-  deltaWindow: number;
-  sumCentre: number;
-  sumWindow: number;
-  diffCentre: number;
-  diffWindow: number;
-}
-
-/** Best shift found by shiftSearch. */
-interface ShiftBest {
-  delta: number;
-  sum: number;
-  diff: number;
-  /** Lines with a peak within τ/2 at the best shift. */
-  count: number;
-  /** Lines used. */
-  n: number;
-  /** Median fraction over the grid (chance coincidences). */
-  chance: number;
-  sumStep: number;
-  diffStep: number;
-}
-
-/**
- * Grid search of (δ, s, d) maximising the number of lines i with a peak within τ/2 of
- * ν_i + δ + s·dSum(i) + d·dDiff(i); δ by a histogram in steps of τ, s and d in steps that move the
- * farthest line by τ (at most SEARCH_MAX_STEPS per side). Ties go to the smallest change.
- */
-function shiftSearch(
-  peaks: PeakList,
-  tau: number,
-  idx: number[],
-  position: Float64Array,
-  dSum: (i: number) => number,
-  dDiff: (i: number) => number,
-  w: ShiftWindows,
-): ShiftBest {
-  const n = idx.length;
-  const nu = Float64Array.from(idx, (i) => position[i]);
-  const ds = Float64Array.from(idx, dSum);
-  const dd = Float64Array.from(idx, dDiff);
-  const steps = (d: Float64Array, window: number): { count: number; step: number } => {
-    let max = 0;
-    for (const v of d) max = Math.max(max, Math.abs(v));
-    if (!(max > 0) || !(window > 0)) return { count: 0, step: 0 };
-    const count = Math.min(SEARCH_MAX_STEPS, Math.ceil((window * max) / tau));
-    return { count, step: window / count };
-  };
-  const sg = steps(ds, w.sumWindow);
-  const dg = steps(dd, w.diffWindow);
-  const nDelta = Math.max(1, Math.ceil(w.deltaWindow / tau));
-  const bins = 2 * nDelta + 1;
-  const score = new Int32Array(bins);
-  const stamp = new Int32Array(bins);
-  // How often each score occurs over the grid (for the median: the chance level).
-  const histogram = new Float64Array(n + 1);
-  let best: ShiftBest = { delta: w.deltaCentre, sum: w.sumCentre, diff: w.diffCentre, count: -1, n, chance: 0, sumStep: sg.step, diffStep: dg.step };
-  let bestCost = Infinity;
-  for (let a = -sg.count; a <= sg.count; a++) {
-    const sum = w.sumCentre + a * sg.step;
-    for (let c = -dg.count; c <= dg.count; c++) {
-      const diff = w.diffCentre + c * dg.step;
-      score.fill(0);
-      stamp.fill(-1);
-      for (let k = 0; k < n; k++) {
-        const x = nu[k] + sum * ds[k] + diff * dd[k] + w.deltaCentre;
-        const [first, last] = assistantPeaksInRange(peaks, x - nDelta * tau - tau, x + nDelta * tau + tau);
-        for (let p = first; p <= last; p++) {
-          const shift = peaks.wavenumberCm1[p] - x;
-          // Bins whose centre (b − nDelta)·τ lies within τ/2 of the shift (one or two bins).
-          const lo = Math.max(0, Math.ceil((shift - 0.5 * tau) / tau + nDelta));
-          const hi = Math.min(bins - 1, Math.floor((shift + 0.5 * tau) / tau + nDelta));
-          for (let b = lo; b <= hi; b++) {
-            if (stamp[b] === k) continue;
-            stamp[b] = k;
-            score[b]++;
-          }
-        }
-      }
-      for (let b = 0; b < bins; b++) {
-        histogram[score[b]]++;
-        if (score[b] < best.count) continue;
-        const deltaRel = (b - nDelta) * tau;
-        const cost = Math.abs(deltaRel) / Math.max(w.deltaWindow, tau) + (sg.count ? Math.abs(a) / sg.count : 0) + (dg.count ? Math.abs(c) / dg.count : 0);
-        if (score[b] > best.count || cost < bestCost) {
-          best = { ...best, delta: w.deltaCentre + deltaRel, sum, diff, count: score[b] };
-          bestCost = cost;
-        }
-      }
-    }
-  }
-  let cells = 0;
-  for (const h of histogram) cells += h;
-  let seen = 0;
-  let median = 0;
-  for (let v = 0; v <= n; v++) {
-    seen += histogram[v];
-    if (seen >= cells / 2) {
-      median = v;
-      break;
-    }
-  }
-  best.chance = n > 0 ? median / n : 0;
-  if (best.count < 0) best.count = 0;
-  return best;
 }

@@ -142,6 +142,12 @@ export interface AssistantOptions {
   minPredictedSnr?: number;
   /** Observed/predicted peak height must lie within [1/f, f] (once ≥ 3 assigned peaks fix the scale). @default 5 */
   intensityRatioMax?: number;
+  /**
+   * A rung is offered only while its k·σ half window is at most this many local FWHMs; a rung
+   * predicted less well waits for a better fit (a wide window in a crowded trace nearly always
+   * holds some peak). @default 1
+   */
+  maxWindowFwhm?: number;
   /** J'' range grows by this many rungs beyond the assigned ones per iteration. @default 4 */
   reachJStep?: number;
   /** Most iterations of the auto-extend loop. @default 60 */
@@ -175,6 +181,7 @@ export const ASSISTANT_DEFAULTS: Required<Omit<AssistantOptions, 'fallbackSigmaC
   blendPartnerFraction: 0.1,
   minPredictedSnr: 10,
   intensityRatioMax: 5,
+  maxWindowFwhm: 1,
   reachJStep: 4,
   maxIterations: 60,
   outlierSigma: 3,
@@ -197,6 +204,8 @@ export interface AssistantIteration {
   medianToleranceCm1: number;
   /** J'' reach step used (reachJStep, or doubled after an iteration that added nothing). */
   reachJStep: number;
+  /** Rungs within reach left for later because their window was wider than maxWindowFwhm. */
+  nWaiting: number;
   /** Lines proposed in this iteration. */
   nProposed: number;
   /** Proposals excluded after this iteration's refit (outliers). */
