@@ -1,16 +1,17 @@
 import { PARAMETER_NAMES } from '../physics/model';
-import { assignmentCheck } from './assignment';
+import { ASSIGNMENT_MAX_J, assignmentCheck } from './assignment';
 import { fitParameterKeys } from './bandDesign';
 import type { FitError, FitInput } from './fitTypes';
 
 /**
- * True only when transitionCheck would accept the line (same rules, no allocation): a cheap
+ * True only when assignmentCheck would accept the line (same rules, no allocation): a cheap
  * first pass so the per-line check of a large fit stays fast; anything else goes to
- * transitionCheck for the full reason. Kept equal to transitionCheck by a property test.
+ * assignmentCheck for the full reason. Kept equal to assignmentCheck by a property test.
  */
 export function quantaQuickValid(jUpper: number, kUpper: number, jLower: number, kLower: number, band: string, shape: string): boolean {
   if (!(Number.isInteger(jUpper) && Number.isInteger(kUpper) && Number.isInteger(jLower) && Number.isInteger(kLower))) return false;
   if (kUpper < 0 || kLower < 0 || kUpper > jUpper || kLower > jLower) return false;
+  if (jUpper > ASSIGNMENT_MAX_J || jLower > ASSIGNMENT_MAX_J) return false;
   const deltaJ = jUpper - jLower;
   if (deltaJ < -1 || deltaJ > 1) return false;
   if (shape === 'linear') {
