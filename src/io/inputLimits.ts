@@ -149,10 +149,15 @@ export type InputJsonOutcome =
  * error (V8's own message gives a position only for some errors and may quote raw line breaks).
  * @param text untrusted JSON text
  * @param maxChars longest text accepted, characters @default INPUT_LIMITS.maxTextChars
+ * @param reviver passed to JSON.parse
  * @returns the parsed value, or a message such as "not valid JSON at line 3, column 7: Unexpected token …"
  * Source: JSON grammar of ECMA-404 (2nd ed., 2017), used for locating the error.
  */
-export function inputJsonParse(text: string, maxChars: number = INPUT_LIMITS.maxTextChars): InputJsonOutcome {
+export function inputJsonParse(
+  text: string,
+  maxChars: number = INPUT_LIMITS.maxTextChars,
+  reviver?: (key: string, value: unknown) => unknown,
+): InputJsonOutcome {
   if (typeof text !== 'string') return { ok: false, message: `not text (got ${typeof text})` };
   if (text.length > maxChars)
     return {
@@ -161,12 +166,16 @@ export function inputJsonParse(text: string, maxChars: number = INPUT_LIMITS.max
       field: 'maxChars',
     };
   try {
-    return { ok: true, value: JSON.parse(text) };
+    return { ok: true, value: JSON.parse(text, reviver) };
   } catch (err) {
     const detail = inputExcerpt(err instanceof Error ? err.message : String(err), 160);
     const at = inputJsonErrorOffset(text);
-    // Valid by the grammar yet refused (out of memory, say): no place to name.
-    if (at < 0) return { ok: false, message: `could not be read as JSON: ${detail}` };
+    // Valid by the grammar yet refused (a reviver's recursion too deep, out of memory): no place to name.
+    if (at < 0)
+      return {
+        ok: false,
+        message: `could not be read as JSON: ${detail}${err instanceof RangeError ? ' (nested too deeply?)' : ''}`,
+      };
     let line = 1;
     let lineStart = 0;
     for (let i = 0; i < at; i++)

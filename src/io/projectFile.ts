@@ -18,6 +18,7 @@ import type { Assignment } from '../fit/assignment';
 import type { FitOutcome } from '../fit/fitTypes';
 import { PARAMETER_NAMES, stateConstantsFrom, type BandModel } from '../physics/model';
 import { modelFileFromJson } from './modelFile';
+import { INPUT_LIMITS, inputExcerpt, inputJsonParse } from './inputLimits';
 import type { Trace, TraceImportReport } from './trace';
 
 /** Format name written into every project file. */
@@ -173,16 +174,16 @@ const modelSchema = z.object({
   lower: stateSchema,
   upper: stateSchema,
   temperatureK: z.number().refine((t) => Number.isFinite(t) && t > 0, 'a temperature > 0 K'),
-  jMax: z.number().int().min(0).max(2000),
-  kMax: z.number().int().min(0).max(2000),
-  spinWeights: z.array(z.number().min(0)).min(1),
+  jMax: z.number().int().min(0).max(INPUT_LIMITS.maxModelJ),
+  kMax: z.number().int().min(0).max(INPUT_LIMITS.maxModelK),
+  spinWeights: z.array(z.number().min(0)).min(1).max(INPUT_LIMITS.maxSpinWeights),
 });
 const assignmentSchema = z.object({
   id: z.string().min(1),
-  jUpper: z.number().int().min(0),
-  kUpper: z.number().int().min(0),
-  jLower: z.number().int().min(0),
-  kLower: z.number().int().min(0),
+  jUpper: z.number().int().min(0).max(INPUT_LIMITS.maxQuantumJ),
+  kUpper: z.number().int().min(0).max(INPUT_LIMITS.maxQuantumJ),
+  jLower: z.number().int().min(0).max(INPUT_LIMITS.maxQuantumJ),
+  kLower: z.number().int().min(0).max(INPUT_LIMITS.maxQuantumJ),
   observedCm1: finite,
   uncertaintyCm1: z.number().refine((v) => Number.isFinite(v) && v > 0, 'a number > 0'),
   isBlended: z.boolean(),
@@ -255,7 +256,8 @@ type FieldName = keyof typeof FIELD_SCHEMAS;
 
 function issueText(issue: z.core.$ZodIssue): string {
   const path = issue.path.map((p) => (typeof p === 'number' ? `[${p}]` : `.${String(p)}`)).join('');
-  return `${path ? path + ': ' : ''}${issue.message}`;
+  // Paths and messages may hold keys from the file: one short line.
+  return inputExcerpt(`${path ? path + ': ' : ''}${issue.message}`, 200);
 }
 
 // ---------------------------------------------------------------- write
@@ -298,7 +300,7 @@ export function projectFileSerialize(session: ProjectSession, header: ProjectFil
 function describeValue(v: unknown): string {
   if (v === null) return 'null';
   if (Array.isArray(v)) return 'a list';
-  if (typeof v === 'string') return `the text ${JSON.stringify(v.length > 30 ? v.slice(0, 30) + '…' : v)}`;
+  if (typeof v === 'string') return `the text ${inputExcerpt(JSON.stringify(v.length > 30 ? v.slice(0, 30) + '…' : v))}`;
   return typeof v === 'object' ? 'an object' : `${typeof v} ${String(v)}`;
 }
 
@@ -320,6 +322,9 @@ function migrateV1(doc: Record<string, unknown>, messages: string[]): Record<str
     };
   } else if (t === null) session.trace = null;
   if (Array.isArray(doc.assignments)) {
+    (doc.assignments as unknown[]).forEach((a, i) => {
+      if (!a || typeof a !== 'object' || Array.isArray(a)) throw new Error(`assignments[${i}] is ${describeValue(a)}; expected an object`);
+    });
     session.assignments = (doc.assignments as Record<string, unknown>[]).map((a, i) => ({
       id: typeof a.id === 'string' && a.id ? a.id : `a${i + 1}`,
       jUpper: a.J_up,
@@ -347,12 +352,10 @@ function migrateV1(doc: Record<string, unknown>, messages: string[]): Record<str
  *   messages for migrated, missing, invalid or unknown fields; or a refusal saying why
  */
 export function projectFileParse(text: string): ProjectFileOutcome {
-  let doc: unknown;
-  try {
-    doc = JSON.parse(text, reviver);
-  } catch (err) {
-    return { ok: false, message: `project file is not valid JSON: ${(err as Error).message}` };
-  }
+  const parsed = inputJsonParse(text, INPUT_LIMITS.maxTextChars, reviver);
+  if (!parsed.ok)
+    return { ok: false, message: parsed.field === 'maxChars' ? `project file: ${parsed.message} (maxTextChars)` : `project file is ${parsed.message}` };
+  const doc = parsed.value;
   if (!doc || typeof doc !== 'object' || Array.isArray(doc)) return { ok: false, message: `project file: expected a JSON object, got ${describeValue(doc)}` };
   const d = doc as Record<string, unknown>;
   if (d.format !== PROJECT_FORMAT) {
@@ -368,7 +371,7 @@ export function projectFileParse(text: string): ProjectFileOutcome {
   if (version > PROJECT_VERSION) {
     return {
       ok: false,
-      message: `project file: version ${version} was written by a newer Ladder Bench${typeof d.appVersion === 'string' ? ` (${d.appVersion})` : ''}; this one reads versions up to ${PROJECT_VERSION}. Open it with the newer version, or export the model file and line table from there and open those here.`,
+      message: `project file: version ${version} was written by a newer Ladder Bench${typeof d.appVersion === 'string' ? ` (${inputExcerpt(d.appVersion, 40)})` : ''}; this one reads versions up to ${PROJECT_VERSION}. Open it with the newer version, or export the model file and line table from there and open those here.`,
     };
   }
   const messages: string[] = [];
@@ -384,7 +387,8 @@ export function projectFileParse(text: string): ProjectFileOutcome {
       return { ok: false, message: `project file: field 'session' is ${d.session === undefined ? 'missing' : describeValue(d.session)}; expected an object` };
     }
     raw = d.session as Record<string, unknown>;
-    for (const k of Object.keys(d)) if (!['format', 'version', 'savedAt', 'appVersion', 'session'].includes(k)) messages.push(`unknown top-level field '${k}' ignored`);
+    for (const k of Object.keys(d))
+      if (!['format', 'version', 'savedAt', 'appVersion', 'session'].includes(k)) messages.push(`unknown top-level field '${inputExcerpt(k)}' ignored`);
   }
   const m = modelSchema.safeParse(raw.model);
   if (!m.success) {
@@ -397,7 +401,7 @@ export function projectFileParse(text: string): ProjectFileOutcome {
   };
   const session: Partial<ProjectSession> & { model: BandModel } = { model };
   for (const key of Object.keys(raw)) {
-    if (key !== 'model' && !(key in FIELD_SCHEMAS)) messages.push(`unknown field 'session.${key}' ignored`);
+    if (key !== 'model' && !(key in FIELD_SCHEMAS)) messages.push(`unknown field 'session.${inputExcerpt(key)}' ignored`);
   }
   for (const name of Object.keys(FIELD_SCHEMAS) as FieldName[]) {
     if (!(name in raw)) {
@@ -419,6 +423,11 @@ export function projectFileParse(text: string): ProjectFileOutcome {
           if (x.length !== t.points || y.length !== t.points) throw new Error(`session.trace: expected ${t.points} points, found ${x.length} and ${y.length}`);
           for (let i = 1; i < x.length; i++) {
             if (!(x[i] > x[i - 1])) throw new Error(`session.trace: wavenumbers must increase; point ${i} (${x[i]}) follows ${x[i - 1]}`);
+          }
+          // The rest of the workbench relies on a finite trace (a NaN would poison every sum over it).
+          for (let i = 0; i < x.length; i++) {
+            if (!Number.isFinite(x[i]) || !Number.isFinite(y[i]))
+              throw new Error(`session.trace: point ${i} is not finite (${x[i]} cm^-1, absorbance ${y[i]})`);
           }
           session.trace = { wavenumberCm1: x, absorbance: y };
         } catch (err) {
