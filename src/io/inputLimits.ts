@@ -57,6 +57,13 @@ export interface InputLimits {
   maxSpinWeights: number;
   /** Longest model file, characters. A model file is ~1 kB; 1e7 stops a trace picked by mistake before JSON.parse. */
   maxModelFileChars: number;
+  /**
+   * Deepest nesting of arrays/objects in a JSON file. Model files nest 3 levels and project files about 8;
+   * JSON.parse with a reviver and JSON.stringify recurse, and overflow the stack near 2500 levels
+   * (measured, Node 20 main thread; worker threads have smaller stacks), so deeper text is refused
+   * before parsing.
+   */
+  maxJsonDepth: number;
   /** Longest untrusted text (a label value, a cell) quoted in a message, characters. */
   messageExcerptChars: number;
 }
@@ -74,6 +81,7 @@ export const INPUT_LIMITS: Readonly<InputLimits> = Object.freeze({
   maxModelK: 2000,
   maxSpinWeights: 2001,
   maxModelFileChars: 10_000_000,
+  maxJsonDepth: 200,
   messageExcerptChars: 60,
 });
 
@@ -93,6 +101,7 @@ const LIMIT_WORDS: Record<InputLimitName, [string, string]> = {
   maxModelK: ['kMax', ''],
   maxSpinWeights: ['spin-weight count', 'entries'],
   maxModelFileChars: ['text length', 'characters'],
+  maxJsonDepth: ['nesting depth', 'levels'],
   messageExcerptChars: ['excerpt length', 'characters'],
 };
 
@@ -165,6 +174,14 @@ export function inputJsonParse(
       message: `the text is ${text.length} characters long, above the limit of ${maxChars} characters`,
       field: 'maxChars',
     };
+  const deep = inputJsonDepthBeyond(text, INPUT_LIMITS.maxJsonDepth);
+  if (deep)
+    return {
+      ok: false,
+      message: `nested more than ${INPUT_LIMITS.maxJsonDepth} levels deep at line ${deep.line} (limit maxJsonDepth)`,
+      line: deep.line,
+      field: 'maxJsonDepth',
+    };
   try {
     return { ok: true, value: JSON.parse(text, reviver) };
   } catch (err) {
@@ -174,7 +191,7 @@ export function inputJsonParse(
     if (at < 0)
       return {
         ok: false,
-        message: `could not be read as JSON: ${detail}${err instanceof RangeError ? ' (nested too deeply?)' : ''}`,
+        message: `not readable as JSON: ${detail}${err instanceof RangeError ? ' (nested too deeply?)' : ''}`,
       };
     let line = 1;
     let lineStart = 0;
@@ -187,6 +204,28 @@ export function inputJsonParse(
     const where = at >= text.length ? `(the text ends early, at line ${line})` : `at line ${line}, column ${column}`;
     return { ok: false, message: `not valid JSON ${where}: ${detail}`, line, column };
   }
+}
+
+/**
+ * Where JSON text first opens more than `maxDepth` nested arrays/objects (brackets inside strings do not
+ * count), or null. One linear pass, no parsing.
+ */
+function inputJsonDepthBeyond(text: string, maxDepth: number): { line: number } | null {
+  let depth = 0;
+  let line = 1;
+  let inString = false;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 10) line++;
+    if (inString) {
+      if (c === 92) i++;
+      else if (c === 34) inString = false;
+    } else if (c === 34) inString = true;
+    else if (c === 91 || c === 123) {
+      if (++depth > maxDepth) return { line };
+    } else if (c === 93 || c === 125) depth--;
+  }
+  return null;
 }
 
 /**

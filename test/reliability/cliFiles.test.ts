@@ -159,7 +159,7 @@ describe('CLI as a subprocess (real file reading, real exit codes)', () => {
     const cases: [string[], RegExp][] = [
       [['peaks', '--trace', 'test/fixtures/hostile/png-header.png'], /^peaks: .*png-header\.png: no numeric data rows found\n$/],
       [['peaks', '--trace', 'test/fixtures/hostile/dup-bomb.jdx'], /^peaks: .*dup-bomb\.jdx: line 11: the compressed data expand to more than 1000000 points/],
-      [['simulate', '--model', 'test/fixtures/hostile/model-deep-junk.json'], /^simulate: .*model-deep-junk\.json: model file: field 'upper' is an array/],
+      [['simulate', '--model', 'test/fixtures/hostile/model-deep-junk.json'], /^simulate: .*model-deep-junk\.json: model file is nested more than 200 levels deep at line 9 \(limit maxJsonDepth\)\n$/],
       [
         ['fit', '--model', 'test/fixtures/lines/fictitious-perpendicular/model.json', '--lines', 'test/fixtures/hostile/lines-j-1e12.csv'],
         /^fit: .*lines-j-1e12\.csv: line 3: J_up '1e12' is above the largest J or K handled \(2000\)\n$/,
