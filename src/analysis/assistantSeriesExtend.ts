@@ -87,7 +87,8 @@ export const ASSISTANT_SERIES_MIN_RUNGS = 3;
  * With a fit, each rung is predicted from it (fitPredict σ × Student factor ⊕ residual scatter ⊕
  * width floor, as in the auto-extend loop) and checked one-to-one against every other line of
  * the band (assistantMatch). Without one, the offset obs − model of the assigned rungs is fitted
- * by weighted least squares with a polynomial in J'' (degree 1 for 3 rungs, 2 for more) and added
+ * by weighted least squares with a polynomial in J'' (degree 1 for 3 rungs, 2 for more; rungs on
+ * possibly blended peaks weighted down as in the loop) and added
  * to the model; its σ is propagated from the polynomial's covariance (scaled by the reduced χ²
  * when that exceeds 1, and widened by the Student factor); other series are then not checked
  * (only peaks already carrying a line are refused).
@@ -146,7 +147,20 @@ export function assistantSeriesExtend(input: AssistantSeriesInput): AssistantSer
     });
     candidates = wanted.map((i) => cat.indexOf.get(keyOf(all, i))!).filter((i) => i !== undefined);
   } else {
-    const poly = seriesPolynomial(assigned, model);
+    // Rungs on possibly blended peaks are weighted down here as in the loop (their given σ is kept
+    // when larger).
+    const weighted = assigned.map((l) =>
+      l.peakIndex === null
+        ? l
+        : {
+            ...l,
+            uncertaintyCm1: Math.max(
+              l.uncertaintyCm1,
+              assistantPeakUncertainty(peaks, context, l.peakIndex, options.positionFloorFraction, options.blendUncertaintyFraction),
+            ),
+          },
+    );
+    const poly = seriesPolynomial(weighted, model);
     polynomial = { degree: poly.degree, centreJ: poly.centre, coefficientsCm1: poly.coefficients };
     const sub = lineListSubset(all, wanted);
     const predictedCm1 = new Float64Array(sub.count);

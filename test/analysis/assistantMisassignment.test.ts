@@ -1,0 +1,137 @@
+import { describe, expect, it } from 'vitest';
+import { assistantMisassignments, assistantRobustScale } from '../../src/analysis/assistantMisassignment';
+import { assistantPeakContext } from '../../src/analysis/assistantPeakContext';
+import { assistantLinesFromAssignments } from '../../src/analysis/assistantReview';
+import type { PeakList } from '../../src/analysis/peaksFind';
+import type { Assignment } from '../../src/fit/assignment';
+import { bandLines } from '../../src/physics/bandLines';
+import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
+import { randomNormal, randomSeeded } from './syntheticTrace';
+
+/** Invented prolate top, perpendicular band, small enough to list every line as a peak. */
+const MODEL: BandModel = {
+  shape: 'prolate',
+  band: 'perpendicular',
+  lower: stateConstantsFrom({ B: 0.61, A: 4.2, DJ: 1e-6 }),
+  upper: stateConstantsFrom({ origin: 1234.5, B: 0.605, A: 4.15, DJ: 1e-6, zeta: 0.12 }),
+  temperatureK: 296,
+  jMax: 20,
+  kMax: 3,
+  spinWeights: [1],
+};
+const FLOATABLE = ['upper.origin', 'upper.B', 'lower.B', 'upper.A', 'upper.zeta', 'upper.DJ', 'lower.DJ'];
+
+/**
+ * Every line of MODEL stronger than 5 % as a peak (FWHM 0.01 cm^-1, centre σ 2e-4 cm^-1) with
+ * seeded position noise of that σ, and the matching assignments; lines closer than 0.05 cm^-1
+ * to another are left out so each peak is one line.
+ */
+function cleanSet(): { peaks: PeakList; assignments: Assignment[] } {
+  const lines = bandLines(MODEL, { minIntensity: 0.05 });
+  const order = Array.from({ length: lines.count }, (_, i) => i).sort((a, b) => lines.wavenumberCm1[a] - lines.wavenumberCm1[b]);
+  const keep = order.filter((i, s) => {
+    const x = lines.wavenumberCm1[i];
+    const prev = s > 0 ? lines.wavenumberCm1[order[s - 1]] : -Infinity;
+    const next = s + 1 < order.length ? lines.wavenumberCm1[order[s + 1]] : Infinity;
+    return x - prev > 0.05 && next - x > 0.05;
+  });
+  const rand = randomSeeded(5);
+  const sigma = 2e-4;
+  const x = Float64Array.from(keep, (i) => lines.wavenumberCm1[i] + sigma * randomNormal(rand));
+  const n = keep.length;
+  const peaks: PeakList = {
+    count: n,
+    wavenumberCm1: x,
+    height: Float64Array.from(keep, (i) => lines.intensity[i]),
+    fwhmCm1: new Float64Array(n).fill(0.01),
+    snr: Float64Array.from(keep, (i) => lines.intensity[i] * 500),
+    prominence: Float64Array.from(keep, (i) => lines.intensity[i]),
+    isBlend: new Uint8Array(n),
+    centreSigmaCm1: new Float64Array(n).fill(sigma),
+    noiseSigma: 0.002,
+  };
+  const assignments = keep.map((i, s) => ({
+    id: `L${s}`,
+    jUpper: lines.jUpper[i],
+    kUpper: lines.kUpper[i],
+    jLower: lines.jLower[i],
+    kLower: lines.kLower[i],
+    observedCm1: x[s],
+    uncertaintyCm1: sigma,
+    isBlended: false,
+    isExcluded: false,
+    note: '',
+  }));
+  return { peaks, assignments };
+}
+
+describe('assistantRobustScale', () => {
+  it('is 1.4826 × the median |r| and ignores a few wild values', () => {
+    // MAD consistency factor 1/Φ⁻¹(3/4) = 1.4826 (Hampel 1974); median of |r| = 2 here.
+    expect(assistantRobustScale([1, -2, 2, 3, -1000])).toBeCloseTo(1.4826 * 2, 12);
+    expect(assistantRobustScale([])).toBe(1);
+    expect(assistantRobustScale([0, 0, 0])).toBe(0.5);
+  });
+});
+
+describe('assistantMisassignments', () => {
+  const { peaks, assignments } = cleanSet();
+  const context = assistantPeakContext(peaks);
+
+  it('finds nothing (or almost nothing) in a correct set', () => {
+    const lines = assistantLinesFromAssignments(assignments, MODEL, peaks, context, 'accepted');
+    const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks });
+    expect(lines.length).toBeGreaterThan(60);
+    // Gaussian position noise: |z| > 3 for 0.27 % of lines (normal tail); allow 2 of ~100.
+    expect(hunt.suspects.length).toBeLessThanOrEqual(2);
+    expect(hunt.fit).not.toBeNull();
+  });
+
+  it('finds a deliberately swapped pair and names each one as the other’s alternative', () => {
+    const swapped = assignments.map((a) => ({ ...a }));
+    // Swap the quantum numbers of two strong lines of different sub-bands.
+    const a = swapped.findIndex((l) => l.kLower === 1 && l.kUpper === 2 && l.jUpper === l.jLower + 1 && l.jLower === 6);
+    const b = swapped.findIndex((l) => l.kLower === 0 && l.kUpper === 1 && l.jUpper === l.jLower - 1 && l.jLower === 7);
+    expect(a).toBeGreaterThanOrEqual(0);
+    expect(b).toBeGreaterThanOrEqual(0);
+    const qa = { jUpper: swapped[a].jUpper, kUpper: swapped[a].kUpper, jLower: swapped[a].jLower, kLower: swapped[a].kLower };
+    const qb = { jUpper: swapped[b].jUpper, kUpper: swapped[b].kUpper, jLower: swapped[b].jLower, kLower: swapped[b].kLower };
+    Object.assign(swapped[a], qb);
+    Object.assign(swapped[b], qa);
+    const lines = assistantLinesFromAssignments(swapped, MODEL, peaks, context, 'accepted');
+    const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks });
+    const ids = hunt.suspects.map((s) => s.id);
+    expect(ids.slice(0, 2).sort()).toEqual([swapped[a].id, swapped[b].id].sort());
+    const sa = hunt.suspects.find((s) => s.id === swapped[a].id)!;
+    const sb = hunt.suspects.find((s) => s.id === swapped[b].id)!;
+    expect(sa.alternativeRungs[0]).toMatchObject({ ...qa, isAssignedElsewhere: true });
+    expect(sb.alternativeRungs[0]).toMatchObject({ ...qb, isAssignedElsewhere: true });
+    expect(sa.label).toBe('rP0(7)');
+    expect(sb.label).toBe('rR1(6)');
+    expect(Math.abs(sa.normalisedResidual)).toBeGreaterThan(100);
+    expect(sa.reasons.join(' ')).toMatch(/obs − calc = .* from the fit without the outliers/);
+    // The clean fit leaves them out, so the other lines fit as before: σ_w near 1 (stated σ = true σ).
+    expect(hunt.scale).toBeLessThan(1.5);
+    // Their own rungs are predicted at the other's peak: offered as alternative peaks.
+    expect(sa.alternativePeaks.map((p) => p.peakIndex)).toContain(lines[b].peakIndex);
+  });
+
+  it('flags a line shifted by a few σ through its combination differences too', () => {
+    const shifted = assignments.map((a) => ({ ...a }));
+    const r = shifted.findIndex((l) => l.kLower === 0 && l.jUpper === l.jLower + 1 && l.jLower === 5);
+    shifted[r].observedCm1 += 0.004; // 20σ: far outside the 3σ of both tests
+    const lines = assistantLinesFromAssignments(shifted, MODEL, peaks, context, 'accepted');
+    const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks });
+    const s = hunt.suspects.find((x) => x.id === shifted[r].id)!;
+    expect(s).toBeDefined();
+    expect(s.obsMinusCalcCm1).toBeCloseTo(0.004, 3);
+    expect(s.reasons.some((t) => /combination difference/.test(t))).toBe(true);
+  });
+
+  it('returns no suspects and the fit error when nothing can be fitted', () => {
+    const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines: [], peaks });
+    expect(hunt.suspects).toEqual([]);
+    expect(hunt.fit).toBeNull();
+    expect(hunt.fitError?.kind).toBe('too-few-lines');
+  });
+});
