@@ -256,8 +256,9 @@ type FieldName = keyof typeof FIELD_SCHEMAS;
 
 function issueText(issue: z.core.$ZodIssue): string {
   const path = issue.path.map((p) => (typeof p === 'number' ? `[${p}]` : `.${String(p)}`)).join('');
-  // Paths and messages may hold keys from the file: one short line.
-  return inputExcerpt(`${path ? path + ': ' : ''}${issue.message}`, 200);
+  // zod says "received undefined" for an absent field; say "missing". Paths may hold keys from the file: one short line.
+  const message = issue.message.replace(/^Invalid input: expected (\w+), received undefined$/, 'missing (expected $1)');
+  return inputExcerpt(`${path ? path + ': ' : ''}${message}`, 200);
 }
 
 // ---------------------------------------------------------------- write
