@@ -1,4 +1,5 @@
 /** Entry: render the page at once, then restore the autosaved session or load the demo. */
+import './ui/zodConfig';
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { bootstrap } from './state/bootstrap';

@@ -46,6 +46,12 @@ export function traceReplace(trace: Trace, report: TraceImportReport | null, sou
   );
 }
 
+/** A message ending in a full stop (importer messages may lack one). */
+export function sentence(text: string): string {
+  const t = text.trim();
+  return /[.!?]$/.test(t) ? t : `${t}.`;
+}
+
 /** One-line description of an import report for the message area. */
 export function importReportSummary(r: TraceImportReport): string {
   const ord = { absorbance: 'absorbance', transmittance: 'transmittance', 'percent-transmittance': 'transmittance in %' }[r.ordinate];
@@ -86,7 +92,7 @@ export async function traceImport(
     if (importAbort !== ctrl) return false;
     importAbort = null;
     benchUpdate('import failed', () => ({ traceImport: null }), { history: false });
-    if ((err as Error).name !== 'AbortError') messagePost('error', `Could not read ${fileName}: ${(err as Error).message}. The current trace and assignments are unchanged.`);
+    if ((err as Error).name !== 'AbortError') messagePost('error', `Could not read ${fileName}: ${sentence((err as Error).message)} The current trace and assignments are unchanged.`);
     return false;
   }
   if (importAbort !== ctrl) return false;
@@ -94,13 +100,13 @@ export async function traceImport(
   if (!outcome.ok) {
     benchUpdate('import failed', () => ({ traceImport: null }), { history: false });
     const where = outcome.error.line !== undefined ? ` (line ${outcome.error.line})` : '';
-    messagePost('error', `Could not read ${fileName}${where}: ${outcome.error.message} The current trace and assignments are unchanged.`);
+    messagePost('error', `Could not read ${fileName}${where}: ${sentence(outcome.error.message)} The current trace and assignments are unchanged.`);
     return false;
   }
   lastSource = { file, fileName };
   traceReplace(outcome.trace, outcome.report, source, overrides);
-  messagePost('info', importReportSummary(outcome.report));
-  for (const m of outcome.report.messages) messagePost('info', `${fileName}: ${m}`);
+  // The importer's own remarks are listed in the Trace file panel; only skipped rows are worth a note here.
+  messagePost(outcome.report.skipped.count > 0 ? 'warning' : 'info', importReportSummary(outcome.report));
   return true;
 }
 

@@ -1,7 +1,8 @@
 /**
  * The simulated spectrum shown over the trace: Voigt lines from the current model on a uniform
- * grid, scaled by least squares to the measured absorbance, and the difference obs − sim.
+ * grid, scaled and offset to the measured absorbance, and the difference obs − sim.
  */
+import { arrayMedianInPlace, arraySelectInPlace } from '../analysis/arrayMedian';
 import type { Trace } from '../io/trace';
 import type { LineList } from '../physics/model';
 import { spectrumSynthesize } from '../physics/spectrum';
@@ -14,6 +15,8 @@ export interface SimulatedSpectrum {
   absorbance: Float64Array;
   /** Scale applied to the unit-area line sum to match the trace (1/max when there is no trace). */
   scale: number;
+  /** Offset added after scaling (the trace's baseline absorbance; 0 without a trace). */
+  offset: number;
   /** obs − sim at each trace point (absorbance), or null without a trace. */
   obsMinusSim: Float64Array | null;
 }
@@ -30,9 +33,24 @@ export interface SimulationOptions {
 /** Doppler HWHM per cm^-1 of line position at 1 K and 1 amu: √(2 ln2 k/(m_u c²)). */
 const DOPPLER_HWHM_PER_CM1 = 3.581e-7;
 
+/** Quantile of the strong-line level used to match heights (the top 0.1 % of samples). */
+const MATCH_QUANTILE = 0.999;
+
+function quantiles(values: Float64Array): { median: number; high: number } {
+  const scratch = values.filter(Number.isFinite);
+  const n = scratch.length;
+  if (n === 0) return { median: 0, high: 0 };
+  const high = arraySelectInPlace(scratch, n, Math.min(n - 1, Math.floor(MATCH_QUANTILE * n)));
+  return { median: arrayMedianInPlace(scratch, n), high };
+}
+
 /**
- * Simulate the band over the trace's range (or the lines' range without a trace) and scale it to
- * the trace by least squares, k = Σ a·s / Σ s² over the trace points (s interpolated linearly).
+ * Simulate the band over the trace's range (or the lines' range without a trace) and match it to
+ * the trace: a·s + b with a = (q(obs) − m(obs)) / (q(s) − m(s)) and b = m(obs) − a·m(s), m the
+ * median (the baseline level) and q the 99.9 % quantile (the strong-line level) over the trace
+ * points (s interpolated linearly). Unlike a least-squares scale this does not collapse to 0 while
+ * a first-guess model puts the lines beside the observed ones; for a trace that is exactly a·s + b
+ * it returns a and b.
  * Grid step: a quarter of the narrowest Voigt FWHM (Olivero–Longbothum) at the range's low end, but
  * no finer than the trace sampling and no more than maxPoints points.
  * Source: Doppler width as Demtröder, Laser Spectroscopy (2008) eq. 3.43 (from memory);
@@ -83,28 +101,23 @@ export function simulationBuild(lines: LineList, trace: Trace | null, options: S
     return y[k] * (1 - f) + y[k + 1] * f;
   };
   let scale: number;
+  let offset = 0;
   let obsMinusSim: Float64Array | null = null;
   if (trace && trace.wavenumberCm1.length > 1) {
-    let sa = 0;
-    let ss = 0;
     const n = trace.wavenumberCm1.length;
     const sAt = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      const s = at(trace.wavenumberCm1[i]);
-      sAt[i] = s;
-      const a = trace.absorbance[i];
-      if (!Number.isFinite(a)) continue;
-      sa += a * s;
-      ss += s * s;
-    }
-    scale = ss > 0 ? sa / ss : 0;
+    for (let i = 0; i < n; i++) sAt[i] = at(trace.wavenumberCm1[i]);
+    const qo = quantiles(trace.absorbance);
+    const qs = quantiles(sAt);
+    scale = qs.high > qs.median ? (qo.high - qo.median) / (qs.high - qs.median) : 0;
+    offset = qo.median - scale * qs.median;
     obsMinusSim = sAt;
-    for (let i = 0; i < n; i++) obsMinusSim[i] = trace.absorbance[i] - scale * sAt[i];
+    for (let i = 0; i < n; i++) obsMinusSim[i] = trace.absorbance[i] - (scale * sAt[i] + offset);
   } else {
     let max = 0;
     for (let k = 0; k < npoints; k++) max = Math.max(max, y[k]);
     scale = max > 0 ? 1 / max : 0;
   }
-  for (let k = 0; k < npoints; k++) y[k] *= scale;
-  return { xCm1, absorbance: y, scale, obsMinusSim };
+  for (let k = 0; k < npoints; k++) y[k] = y[k] * scale + offset;
+  return { xCm1, absorbance: y, scale, offset, obsMinusSim };
 }

@@ -20,7 +20,7 @@ const COLUMNS: { key: TableQuery['sortKey'] | null; label: string; className?: s
   { key: 'obs', label: 'obs / cm⁻¹', className: 'num' },
   { key: 'calc', label: 'calc / cm⁻¹', className: 'num' },
   { key: 'omc', label: 'o − c / cm⁻¹', className: 'num' },
-  { key: null, label: 'σ / cm⁻¹' },
+  { key: null, label: 'σ / cm⁻¹', className: 'c-sigma' },
   { key: null, label: 'Excl.' },
   { key: null, label: 'Blend' },
   { key: null, label: 'Note' },

@@ -77,7 +77,7 @@ export function CombinationPanel() {
                         {state === 'lower' ? '″' : '′'}
                       </th>
                       <td className="num">{p.fixed ? `${p.value} (fixed)` : formatValueSigma(p.value, p.sigma)} cm⁻¹</td>
-                      <td className="num muted">model {String(model[state][k])}</td>
+                      <td className="num muted">model {Number(model[state][k].toPrecision(8))}</td>
                     </tr>
                   );
                 })}

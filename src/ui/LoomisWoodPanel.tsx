@@ -21,7 +21,13 @@ export function LoomisWoodPanel() {
   const cursor = useBench((s) => s.cursor);
   const isDark = useBench((s) => s.theme === 'dark');
   const cursorKey = cursor ? `${'pqr'[cursor.kUpper - cursor.kLower + 1]}:${cursor.kLower}:${'PQR'[cursor.jUpper - cursor.jLower + 1]}` : null;
-  const key = seriesKey && band.ladderByKey.has(seriesKey) ? seriesKey : (cursorKey ?? band.ladders[0]?.key ?? null);
+  const strongestKey = useMemo(() => {
+    let best: string | null = null;
+    let bestI = -1;
+    for (const l of band.ladders) for (const i of l.lineIndex) if (band.lines.intensity[i] > bestI) ((bestI = band.lines.intensity[i]), (best = l.key));
+    return best;
+  }, [band]);
+  const key = seriesKey && band.ladderByKey.has(seriesKey) ? seriesKey : (cursorKey ?? strongestKey);
   const ladder = key ? band.ladderByKey.get(key) : undefined;
 
   const fig = useMemo(() => {

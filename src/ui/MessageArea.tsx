@@ -14,7 +14,7 @@ export function MessageArea() {
   }, [messages]);
   return (
     <div className="messages" aria-live="polite" aria-label="Messages" data-testid="messages">
-      {messages.map((m) => (
+      {[...messages].reverse().map((m) => (
         <div key={m.id} className={`message ${m.level}`} role={m.level === 'error' ? 'alert' : 'status'}>
           <span className="message-level">{m.level === 'error' ? 'Error' : m.level === 'warning' ? 'Note' : 'Info'}</span>
           <span className="message-text">{m.text}</span>

@@ -36,6 +36,9 @@ const NAME_TEXT: Record<string, string> = {
   q: 'q (l-doubling)',
 };
 
+/** Constants shown to 12 significant digits (the stored value keeps full precision until edited). */
+const showConstant = (v: number) => String(Number(v.toPrecision(12)));
+
 const ORDER: ParameterName[] = ['origin', 'B', 'A', 'C', 'DJ', 'DJK', 'DK', 'HJ', 'HJK', 'HKJ', 'HK', 'zeta', 'q'];
 
 function ConstantName({ name }: { name: string }) {
@@ -192,7 +195,7 @@ export function ModelPanel() {
                 <>
                   <td>
                     {lowerUnit === 'cm-1' || name === 'zeta' ? (
-                      <NumberField key="cm" label={`Lower ${name} in cm⁻¹`} isLabelHidden value={model.lower[name]} onCommit={(v) => modelSetConstant('lower', name, v)} testId={`lower-${name}`} />
+                      <NumberField key="cm" label={`Lower ${name} in cm⁻¹`} isLabelHidden value={model.lower[name]} format={showConstant} onCommit={(v) => modelSetConstant('lower', name, v)} testId={`lower-${name}`} />
                     ) : (
                       <NumberField
                         key="mhz"
@@ -218,7 +221,7 @@ export function ModelPanel() {
               {upperNames.includes(name) ? (
                 <>
                   <td>
-                    <NumberField label={`Upper ${name}${name === 'zeta' ? '' : ' in cm⁻¹'}`} isLabelHidden value={model.upper[name]} onCommit={(v) => modelSetConstant('upper', name, v)} testId={`upper-${name}`} />
+                    <NumberField label={`Upper ${name}${name === 'zeta' ? '' : ' in cm⁻¹'}`} isLabelHidden value={model.upper[name]} format={showConstant} onCommit={(v) => modelSetConstant('upper', name, v)} testId={`upper-${name}`} />
                   </td>
                   <td>
                     <input type="checkbox" aria-label={`Float upper ${name} in the fit`} checked={isFloated(`upper.${name}`)} onChange={(e) => modelSetFloated(`upper.${name}`, e.target.checked)} />

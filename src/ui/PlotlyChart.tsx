@@ -32,6 +32,7 @@ const BASE_CONFIG: Partial<Config> = {
   scrollZoom: true,
   modeBarButtonsToRemove: ['select2d', 'lasso2d', 'toImage'],
   doubleClick: 'reset',
+  showTips: false,
 };
 
 export function PlotlyChart(props: PlotlyChartProps) {

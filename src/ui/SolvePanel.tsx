@@ -58,7 +58,7 @@ function ResultTable({ result }: { result: FitResult }) {
               <th scope="row">{key}</th>
               <td className="num">{p.fixed ? `${p.value} (fixed)` : formatValueSigma(p.value, p.sigma)}</td>
               <td className="num">{p.fixed ? '' : p.sigma === null ? 'n/a' : p.sigma.toPrecision(2)}</td>
-              <td className={`num ${current !== p.value ? 'muted' : ''}`}>{String(current)}</td>
+              <td className={`num ${current !== p.value ? 'muted' : ''}`}>{Number(current.toPrecision(12))}</td>
             </tr>
           );
         })}

@@ -21,17 +21,35 @@ describe('simulationBuild', () => {
     }
   });
 
-  it('recovers the scale of a trace made from the same spectrum (least squares k = Σas/Σs²)', () => {
+  it('recovers scale and baseline of a trace made from the same spectrum', () => {
     const opts = { temperatureK: 200, massAmu: 50, lorentzHwhmCm1: 0.002 };
     const unit = simulationBuild(lines, null, opts)!;
     const raw = unit.absorbance.map((v) => v / unit.scale); // unscaled line sum
-    const trace = { wavenumberCm1: unit.xCm1, absorbance: raw.map((v) => 0.37 * v) };
+    const trace = { wavenumberCm1: unit.xCm1, absorbance: raw.map((v) => 0.37 * v + 0.02) };
     const fit = simulationBuild(lines, trace, opts)!;
     // Same profile on a grid rebuilt from the trace's range (round-off can move its nodes, so the
-    // trace is read by linear interpolation): scale 0.37 to 1e-9, obs − sim below 1e-5 of the peak.
-    expect(fit.scale).toBeCloseTo(0.37, 9);
+    // trace is read by linear interpolation): scale 0.37 and offset 0.02 to 1e-5 relative, obs − sim
+    // below 1e-5 of the peak.
+    expect(fit.scale / 0.37).toBeCloseTo(1, 5);
+    expect(fit.offset / 0.02).toBeCloseTo(1, 5);
     let worst = 0;
     for (const v of fit.obsMinusSim!) worst = Math.max(worst, Math.abs(v));
     expect(worst).toBeLessThan(0.37 * 1e-5);
+  });
+});
+
+describe('simulationBuild with a first-guess model', () => {
+  it('keeps the simulated lines as strong as the observed ones even when their positions miss', () => {
+    // Trace from the model, simulation from the model shifted by 0.05 cm^-1 (more than a line
+    // width): a least-squares scale would fall towards 0; matching levels keeps it near 1.
+    const model = smallModel();
+    const lines = bandLines(model, { minIntensity: 0.02 });
+    const opts = { temperatureK: 200, massAmu: 50, lorentzHwhmCm1: 0.002 };
+    const unit = simulationBuild(lines, null, opts)!;
+    const trace = { wavenumberCm1: unit.xCm1, absorbance: unit.absorbance };
+    const shifted = { ...lines, wavenumberCm1: lines.wavenumberCm1.map((v) => v + 0.05) };
+    const sim = simulationBuild(shifted, trace, opts)!;
+    expect(sim.scale / unit.scale).toBeGreaterThan(0.9);
+    expect(sim.scale / unit.scale).toBeLessThan(1.1);
   });
 });
