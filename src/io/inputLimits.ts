@@ -272,7 +272,6 @@ function inputJsonErrorOffset(text: string): number {
     }
     return false;
   };
-  const NUMBER = /-?(?:0|[1-9]\d*)(?:\.\d+)?(?:[eE][+-]?\d+)?/y;
   /** Scan one value at i; returns 'open' after [ or {, true after a scalar, false at a bad character. */
   const scanValue = (): boolean | 'open' => {
     const c = text.charCodeAt(i);
@@ -282,18 +281,40 @@ function inputJsonErrorOffset(text: string): number {
       return 'open';
     }
     if (c === 34) return scanString();
-    for (const word of ['true', 'false', 'null'])
-      if (text.startsWith(word, i)) {
-        i += word.length;
-        return true;
-      }
-    NUMBER.lastIndex = i;
-    const m = NUMBER.exec(text);
-    if (m && m[0] !== '-' && m[0] !== '') {
-      i += m[0].length;
-      return true;
+    const word = c === 116 ? 'true' : c === 102 ? 'false' : c === 110 ? 'null' : '';
+    if (word) {
+      // Stop at the first character that breaks the literal.
+      let k = 0;
+      while (k < word.length && text.charCodeAt(i + k) === word.charCodeAt(k)) k++;
+      i += k;
+      return k === word.length;
     }
-    return false;
+    return scanNumber();
+  };
+  const isDigitAt = (k: number) => {
+    const d = text.charCodeAt(k);
+    return d >= 48 && d <= 57;
+  };
+  /** Scan one number at i; on failure i is left at the first character that cannot continue it. */
+  const scanNumber = (): boolean => {
+    if (text.charCodeAt(i) === 45) i++;
+    if (!isDigitAt(i)) return false;
+    if (text.charCodeAt(i) === 48) i++;
+    else while (isDigitAt(i)) i++;
+    if (text.charCodeAt(i) === 46) {
+      i++;
+      if (!isDigitAt(i)) return false;
+      while (isDigitAt(i)) i++;
+    }
+    const e = text.charCodeAt(i);
+    if (e === 101 || e === 69) {
+      i++;
+      const sign = text.charCodeAt(i);
+      if (sign === 43 || sign === 45) i++;
+      if (!isDigitAt(i)) return false;
+      while (isDigitAt(i)) i++;
+    }
+    return true;
   };
   // expect: 0 value, 1 value or close (after '['), 2 key or close (after '{'), 3 key (after ','), 4 ',' or close
   let expect = 0;
