@@ -33,6 +33,8 @@ export interface LineTableParseOptions {
   fileName?: string;
   /** Uncertainty of rows without one, cm^-1. @default 0.001 */
   defaultUncertaintyCm1?: number;
+  /** Most data rows read; a longer table is refused. May only lower the shared limit. @default INPUT_LIMITS.maxLineTableRows (2e6) */
+  maxRows?: number;
 }
 
 /** A line table that cannot be read; the message names the file, line and field. */
@@ -90,6 +92,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
   // The name is shown verbatim (HTML included: the page escapes it) but kept on one line.
   const prefix = options.fileName ? `${inputExcerpt(options.fileName, 1000)}: ` : '';
   const defaultSigma = options.defaultUncertaintyCm1 ?? ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1;
+  const maxRows = Math.min(options.maxRows ?? Infinity, INPUT_LIMITS.maxLineTableRows);
   const fail = (line: number, msg: string): never => {
     throw new LineTableError(`${prefix}line ${line}: ${msg}`);
   };
@@ -128,7 +131,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
       // A comment is a line whose text starts with '#'; a quoted first cell "#…" is data (and gets its error).
       if (isCommentAt(normalised, start)) return;
       // Header plus maxLineTableRows data rows.
-      if (rows.length > INPUT_LIMITS.maxLineTableRows) {
+      if (rows.length > maxRows) {
         tooManyLine = line;
         parser.abort();
         return;
@@ -138,7 +141,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
   });
   if (parseError) fail((parseError as { line: number }).line, `malformed CSV: ${(parseError as { message: string }).message}`);
   if (tooManyLine)
-    fail(tooManyLine, `more than ${INPUT_LIMITS.maxLineTableRows} data rows (limit maxLineTableRows); split the table`);
+    fail(tooManyLine, `more than ${maxRows} data rows (limit maxLineTableRows); split the table`);
   if (rows.length === 0) throw new LineTableError(`${prefix}no header line found; expected a header naming ${REQUIRED.join(', ')}`);
 
   const header = rows[0];
