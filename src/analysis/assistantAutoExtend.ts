@@ -133,7 +133,7 @@ function checkLines(model: BandModel, lines: readonly AssistantLine[]): void {
  *    window is at most maxWindowFwhm local FWHMs (others wait for a better fit); match them (assistantMatch: one peak for the rung, one rung for the
  *    peak, intensity plausible). Possible blends are weighted down (assistantPeakUncertainty).
  * Every added line has status 'proposed', its reason and distance; ambiguities are listed, never
- * chosen. Lines given by the user (source 'user') are never changed. The result's undo record
+ * chosen. The members of an unresolved K stack on one peak are all proposed but kept out of the fit. Lines given by the user (source 'user') are never changed. The result's undo record
  * restores the set as it was (assistantUndo). Finally the misassignment hunt runs on the whole set.
  * Source: the assign–fit–predict loop of rovibrational analysis (common practice; e.g. Papoušek &
  * Aliev, Molecular Vibrational-Rotational Spectra (1982), ch. on assignment, from memory).
@@ -304,6 +304,12 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
         reason: `iteration ${iteration}: ${m.reason}${alignmentNote(alignment.get(assistantSubBandIndex(model, cat.lines.deltaK[i], cat.lines.kLower[i])))}`,
         iteration,
       };
+      if (m.stack > 1) {
+        // The peak is the sum of the K components: its position is none of theirs, and fitting each
+        // component to it would pull the K constants towards an unresolved structure.
+        line.isExcluded = true;
+        line.reason += '; kept out of the fit (a blend of unresolved K components)';
+      }
       line.note = line.reason;
       lines.push(line);
       addedIds.push(line.id);
@@ -320,6 +326,10 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       nProposed: matched.matches.length,
       nExcluded,
     });
+    if (live.length === 0) {
+      isFinished = true;
+      break;
+    }
     if (matched.matches.length > 0) step = options.reachJStep;
     else if (step <= model.jMax) step *= 2;
     else {

@@ -1,3 +1,4 @@
+import { seriesLabelAscii } from '../physics/lineLabel';
 import type { TopShape } from '../physics/model';
 import { assistantPeaksInRange, type AssistantPeakContext } from './assistantPeakContext';
 import { assistantOverlapShift, assistantPairSigma, assistantRungOf, type AssistantCatalogue } from './assistantPredict';
@@ -23,6 +24,8 @@ export interface AssistantMatch {
   hasPartnerWithin: boolean;
   /** Expected pull of the maximum by neighbouring predicted lines, cm^-1 (assistantOverlapShift). */
   overlapShiftCm1: number;
+  /** Number of rungs assigned to this peak together (1, or the size of an unresolved K stack). */
+  stack: number;
   /** Plain words. */
   reason: string;
 }
@@ -51,7 +54,10 @@ export interface AssistantMatchInput {
  * k·σ (σ of the pair: the rung's tolerance σ ⊕ the peak's centre σ), that peak is free, its
  * height agrees with the rung's predicted intensity within a factor intensityRatioMax (once the
  * scale is known), and no other unassigned rung at least 1/dominanceRatio as strong lies within
- * k·σ of the peak. Everything else that comes close is listed as an ambiguity with all its
+ * k·σ of the peak. The exception is an unresolved K stack: when every comparable rival has the
+ * same ΔK, ΔJ and J'' (only K differs, as in the K structure of a parallel band) and each member's
+ * only peak is this one, all members go to the peak together as a blend (nothing is chosen
+ * between them). Everything else that comes close is listed as an ambiguity with all its
  * candidates and never chosen. Weaker rungs within tolerance (≥ blendPartnerFraction of the
  * candidate) and wide or flagged peaks mark the match as a possible blend.
  * Source: the one-to-one rule is common practice of assignment by prediction; the intensity
@@ -95,6 +101,7 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
   };
 
   const matches: AssistantMatch[] = [];
+  const matchedRungs = new Set<number>();
   const ambiguous: AssistantAmbiguity[] = [];
   const severalRungsAt = new Map<number, AssistantAmbiguity>();
   for (let c = 0; c < input.candidates.length; c++) {
@@ -131,21 +138,67 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
       });
       continue;
     }
+    if (matchedRungs.has(i)) continue;
     const intensity = cat.lines.intensity[i];
+    const others = rungsAtPeak(p, i);
+    const competitors = others.filter((j) => cat.lines.intensity[j] * options.dominanceRatio >= intensity);
+    // An unresolved K stack (same ΔK, ΔJ and J'', only K differs; the K structure of a parallel
+    // band) is not a choice between candidates: all its members go to the peak, as a blend.
+    const sameStack = (j: number) =>
+      cat.lines.deltaK[j] === cat.lines.deltaK[i] && cat.lines.deltaJ[j] === cat.lines.deltaJ[i] && cat.lines.jLower[j] === cat.lines.jLower[i];
+    let stack: number[] = [];
+    if (competitors.length > 0 && competitors.every(sameStack)) {
+      const strongest = Math.max(intensity, ...competitors.map((j) => cat.lines.intensity[j]));
+      const members = [i, ...others.filter((j) => sameStack(j) && cat.lines.intensity[j] >= options.blendPartnerFraction * strongest)];
+      const onlyThisPeak = members.every((j) => {
+        const w = k * Math.hypot(cat.toleranceSigmaCm1[j], maxCentreSigma);
+        const [a, b] = assistantPeaksInRange(peaks, cat.predictedCm1[j] - w, cat.predictedCm1[j] + w);
+        for (let q = a; q <= b; q++) if (q !== p && pairPasses(j, q)) return false;
+        return !input.forbidden.has(`${rungKey(j)}@${p}`);
+      });
+      if (onlyThisPeak) stack = members;
+    }
+    const contributing = stack.length ? stack : [i, ...others];
     if (Number.isFinite(input.heightScale) && input.heightScale > 0) {
-      const ratio = peaks.height[p] / (input.heightScale * intensity);
-      if (!(ratio <= options.intensityRatioMax && ratio >= 1 / options.intensityRatioMax)) {
+      // Too strong: against this rung alone (or the whole stack); too weak: against all lines that
+      // would contribute to the peak.
+      const ratio = peaks.height[p] / (input.heightScale * contributing.reduce((sum, j) => sum + cat.lines.intensity[j], 0));
+      const ownRatio = stack.length ? ratio : peaks.height[p] / (input.heightScale * intensity);
+      if (!(ownRatio <= options.intensityRatioMax && ratio >= 1 / options.intensityRatioMax)) {
         ambiguous.push({
           kind: 'intensity-mismatch',
           rungs: [rung],
           peaks: found,
-          reason: `${rung.label}: the only peak within ${k}σ (${hit.wavenumberCm1.toFixed(4)} cm^-1) is ${ratio.toPrecision(2)}× the predicted height (allowed 1/${options.intensityRatioMax}…${options.intensityRatioMax})`,
+          reason: `${rung.label}: the only peak within ${k}σ (${hit.wavenumberCm1.toFixed(4)} cm^-1) is ${(ratio < 1 / options.intensityRatioMax ? ratio : ownRatio).toPrecision(2)}× the predicted height (allowed 1/${options.intensityRatioMax}…${options.intensityRatioMax})`,
         });
         continue;
       }
     }
-    const others = rungsAtPeak(p, i);
-    const competitors = others.filter((j) => cat.lines.intensity[j] * options.dominanceRatio >= intensity);
+    if (stack.length) {
+      const label = seriesLabelAscii(cat.lines.deltaK[i], cat.lines.deltaJ[i], 0, shape).replace(/0$/, '');
+      const ks = stack.map((j) => cat.lines.kLower[j]).sort((a, b) => a - b);
+      for (const j of stack) {
+        const r = assistantRungOf(cat, j, shape);
+        const sigma = assistantPairSigma(cat.toleranceSigmaCm1[j], peaks.centreSigmaCm1[p]);
+        const d = Math.abs(peaks.wavenumberCm1[p] - cat.predictedCm1[j]);
+        const overlap = assistantOverlapShift(cat, j, context.localFwhmCm1[p]);
+        matchedRungs.add(j);
+        matches.push({
+          rung: j,
+          peak: p,
+          distanceSigma: d / sigma,
+          sigmaCm1: sigma,
+          isBlend: true,
+          hasPartnerWithin: true,
+          overlapShiftCm1: overlap.shiftCm1,
+          stack: stack.length,
+          reason:
+            `${r.label}: the unresolved K components K'' = ${ks.join(', ')} of ${label}(${cat.lines.jLower[i]}) share the only peak within ${k}σ ` +
+            `(${hit.wavenumberCm1.toFixed(4)} cm^-1; this one ${(d / sigma).toFixed(2)}σ from ${r.predictedCm1.toFixed(4)}): all assigned to it as a blend, weighted down`,
+        });
+      }
+      continue;
+    }
     if (competitors.length > 0) {
       let entry = severalRungsAt.get(p);
       if (!entry) {
@@ -174,6 +227,7 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
         `on the wing of ${assistantRungOf(cat, overlap.neighbour, shape).label} (expected pull ${overlap.shiftCm1 >= 0 ? '+' : ''}${overlap.shiftCm1.toPrecision(2)} cm^-1)`,
       );
     }
+    matchedRungs.add(i);
     matches.push({
       rung: i,
       peak: p,
@@ -182,15 +236,17 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
       isBlend: why.length > 0,
       hasPartnerWithin: partners.length > 0,
       overlapShiftCm1: overlap.shiftCm1,
+      stack: 1,
       reason:
         `${rung.label}: only peak within ${k}σ of ${rung.predictedCm1.toFixed(4)} ± ${hit.sigmaCm1.toPrecision(2)} cm^-1 ` +
         `(${hit.distanceSigma.toFixed(2)}σ) and the only rung for that peak` +
         (why.length ? `; ${why.join('; ')}: weighted down` : ''),
     });
   }
-  // Guard: one peak never goes to two rungs in one pass (cannot happen with the symmetric test
-  // above, but a wrong catalogue must not create a silent double assignment).
+  // Guard: one peak never goes to two rungs in one pass unless they are one K stack (cannot happen
+  // otherwise with the symmetric test above, but a wrong catalogue must not create a silent double
+  // assignment).
   const byPeak = new Map<number, number>();
   for (const m of matches) byPeak.set(m.peak, (byPeak.get(m.peak) ?? 0) + 1);
-  return { matches: matches.filter((m) => byPeak.get(m.peak) === 1), ambiguous };
+  return { matches: matches.filter((m) => byPeak.get(m.peak) === m.stack), ambiguous };
 }

@@ -130,7 +130,7 @@ describe('assistantAutoExtend on a synthetic perpendicular band (target)', () =>
     }
   });
 
-  it('never gives one peak to two lines', () => {
+  it('never gives one peak to two lines (K stacks cannot occur in this prolate perpendicular band)', () => {
     const peaks = confident.map((l) => l.peakIndex).filter((p) => p !== null);
     expect(new Set(peaks).size).toBe(peaks.length);
   });

@@ -1,0 +1,195 @@
+import { assistantAutoExtend } from '../analysis/assistantAutoExtend';
+import { assistantPeakContext, assistantPeaksUsable } from '../analysis/assistantPeakContext';
+import { assistantLinesFromAssignments } from '../analysis/assistantReview';
+import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
+import type { AssistantLine, AssistantRunResult } from '../analysis/assistantTypes';
+import { peaksFind } from '../analysis/peaksFind';
+import { assignmentCheck } from '../fit/assignment';
+import type { FitResult } from '../fit/fitTypes';
+import { importTrace } from '../io/traceImport';
+import { lineLabelAscii } from '../physics/lineLabel';
+import type { BandModel } from '../physics/model';
+import { transitionWavenumber } from '../physics/termValues';
+import { cliLoadModel } from './cliModel';
+import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand, type CliIo } from './cliIo';
+import { cliLoadLines } from './fitCommand';
+
+/**
+ * Smallest peak SNR used by the assign command: the peak finder's own default (5σ keeps noise
+ * spikes rare even on 10^5-point traces; the assistant offers only rungs predicted at ≥ 10σ).
+ */
+export const ASSIGN_MIN_SNR = 5;
+
+/** Allowed range of --tolerance (k of the k·σ matching window). */
+export const ASSIGN_TOLERANCE_RANGE: readonly [number, number] = [0.5, 20];
+
+/** Columns of the CSV the assign command writes (the first six are the line-table contract). */
+export const ASSIGN_COLUMNS = [
+  'J_up',
+  'K_up',
+  'J_lo',
+  'K_lo',
+  'wavenumber',
+  'uncertainty',
+  'status',
+  'label',
+  'calc',
+  'obs_minus_calc',
+  'distance_sigma',
+  'flags',
+  'note',
+] as const;
+
+/** A CSV cell: quoted when it holds a comma, quote or line break. */
+function csvCell(text: string): string {
+  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+/** Read and import the trace, or a one-line CliError naming the file and the line or field at fault. */
+function loadTrace(path: string, io: CliIo) {
+  const outcome = importTrace(io.readFile(path), path);
+  if (!outcome.ok) {
+    const { message, line, field } = outcome.error;
+    const where: string[] = [];
+    if (line !== undefined && !new RegExp(`\\bline ${line}\\b`).test(message)) where.push(`line ${line}`);
+    if (field !== undefined && !message.includes(field)) where.push(`field ${field}`);
+    throw new CliError(`cannot read trace '${path}': ${message}${where.length ? ` (${where.join(', ')})` : ''}`);
+  }
+  return outcome.trace;
+}
+
+/**
+ * `assign --model M.json --trace FILE [--lines SEED.csv] [--tolerance K]`: run the assistant's
+ * whole auto-extend loop headless and print the assigned lines.
+ *
+ * Peaks: peaksFind on the imported trace (any format importTrace reads) with minSnr 5.
+ * Seeds: with --lines, the user's lines (wavenumber = observed position, cm^-1; uncertainty
+ * default 0.001 cm^-1), never changed by the loop. Without --lines, from the model alone
+ * (assistantSeedFromModel): the origin and both B are first shifted to put the strongest
+ * low-K, low-J lines on peaks, then the strongest predicted lines with exactly one peak within
+ * ±3 median FWHM and no comparable predicted line there become seeds (status 'seed').
+ * The fits float the model file's floated constants (plain numbers) that the lines can determine;
+ * the model's jMax and kMax bound the lines sought. --tolerance is k of the k·σ window (default 3).
+ *
+ * stdout: CSV with header J_up,K_up,J_lo,K_lo,wavenumber,uncertainty,status,label,calc,
+ * obs_minus_calc,distance_sigma,flags,note — one row per confident line: status 'seed' or
+ * 'proposed' (lines the loop excluded as outliers and ambiguous cases are not rows; they are
+ * counted on stderr). flags: 'blended' (weighted down), 'suspect' (the misassignment hunt
+ * distrusts it). calc from the final fit, cm^-1. stderr: the final fit's summary.
+ * Exit 0 on success; bad inputs give one stderr line naming the file, line and field, exit 1.
+ */
+export const assignCommand: CliCommand = (args, io) => {
+  const opts = cliParseArgs(args, ['model', 'trace', 'lines', 'tolerance']);
+  const modelPath = cliRequire(opts, 'model');
+  const tracePath = cliRequire(opts, 'trace');
+  const tolerance = cliNumber(opts, 'tolerance', 3);
+  const [tMin, tMax] = ASSIGN_TOLERANCE_RANGE;
+  if (!(tolerance >= tMin && tolerance <= tMax)) throw new CliError(`option --tolerance must be a number from ${tMin} to ${tMax} (σ), got ${tolerance}`);
+  const file = cliLoadModel(modelPath, io);
+  const trace = loadTrace(tracePath, io);
+  const found = peaksFind(trace, { minSnr: ASSIGN_MIN_SNR });
+  const usable = assistantPeaksUsable(found);
+  const peaks = usable.peaks;
+  if (peaks.count === 0) throw new CliError(`${tracePath}: no peaks found at SNR >= ${ASSIGN_MIN_SNR}`);
+  const context = assistantPeakContext(peaks);
+  const floatable = file.floated;
+  let model: BandModel = file.model;
+  let seeds: AssistantLine[];
+  let seedText: string;
+  if (typeof opts.lines === 'string') {
+    const linesPath = opts.lines;
+    const table = cliLoadLines(linesPath, io);
+    table.assignments.forEach((a, i) => {
+      const why = assignmentCheck(a, model);
+      if (why) throw new CliError(`${linesPath}: line ${table.lineNumbers[i]}: ${why}`);
+    });
+    if (table.assignments.length === 0) throw new CliError(`${linesPath}: no lines (only a header); give at least one seed line`);
+    seeds = assistantLinesFromAssignments(table.assignments, model, peaks, context);
+    seedText = `${seeds.length} seed line(s) from ${linesPath}`;
+  } else {
+    const seeded = assistantSeedFromModel(model, peaks, floatable);
+    for (const w of seeded.warnings) io.stderr(`assign: ${w}\n`);
+    if (seeded.lines.length === 0) throw new CliError(`no seed lines could be picked from the model alone; give --lines SEED.csv`);
+    model = seeded.model;
+    seeds = seeded.lines;
+    seedText =
+      `${seeds.length} seed line(s) from the model alone (origin ${signed(seeded.originShiftCm1, 4)}, ` +
+      `B' ${signed(seeded.upperBShiftCm1, 6)}, B'' ${signed(seeded.lowerBShiftCm1, 6)} cm^-1 applied first)`;
+  }
+  let run: AssistantRunResult;
+  try {
+    run = assistantAutoExtend({ model, floatable, peaks, lines: seeds, options: { toleranceSigma: tolerance } });
+  } catch (err) {
+    throw new CliError(err instanceof Error ? err.message : String(err));
+  }
+  if (!run.fit) throw new CliError(`no fit could be made from the lines: ${run.fitError?.message ?? 'unknown reason'}`);
+  const fit = run.fit;
+  const suspect = new Set(run.suspects.map((s) => s.id));
+  const rows = run.lines.filter((l) => l.status !== 'rejected' && !l.isExcluded);
+  const seedRows = rows.filter((l) => l.status === 'seed' || l.status === 'accepted');
+  const proposed = rows.filter((l) => l.status === 'proposed').sort((a, b) => a.observedCm1 - b.observedCm1);
+  const shape = model.shape;
+  const out: string[] = [ASSIGN_COLUMNS.join(',')];
+  for (const l of [...seedRows, ...proposed]) {
+    const calc = transitionWavenumber(fit.model, l.jUpper, l.kUpper, l.jLower, l.kLower);
+    const flags = [l.isBlended && 'blended', suspect.has(l.id) && 'suspect'].filter(Boolean).join(';');
+    out.push(
+      [
+        l.jUpper,
+        l.kUpper,
+        l.jLower,
+        l.kLower,
+        l.observedCm1.toFixed(6),
+        l.uncertaintyCm1.toPrecision(3),
+        l.status === 'accepted' ? 'seed' : l.status,
+        lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape),
+        calc.toFixed(6),
+        (l.observedCm1 - calc).toExponential(3),
+        Number.isFinite(l.distanceSigma) ? l.distanceSigma.toFixed(2) : '',
+        flags,
+        csvCell(l.reason),
+      ].join(','),
+    );
+  }
+  io.stdout(out.join('\n') + '\n');
+  io.stderr(summary(run, fit, { tracePath, nPeaks: peaks.count, repaired: usable.repaired.length, seedText, nSeeds: seedRows.length, nProposed: proposed.length, shape }));
+  return 0;
+};
+
+function signed(v: number, digits: number): string {
+  return `${v >= 0 ? '+' : ''}${v.toFixed(digits)}`;
+}
+
+/** The stderr summary: counts, the final fit's constants, the ambiguities and suspects (first few). */
+function summary(
+  run: AssistantRunResult,
+  fit: FitResult,
+  info: { tracePath: string; nPeaks: number; repaired: number; seedText: string; nSeeds: number; nProposed: number; shape: BandModel['shape'] },
+): string {
+  const lines: string[] = [];
+  lines.push(`assign: ${info.tracePath}: ${info.nPeaks} peaks at SNR >= ${ASSIGN_MIN_SNR}${info.repaired ? ` (${info.repaired} without a usable centre σ)` : ''}; ${info.seedText}`);
+  const excluded = run.lines.filter((l) => l.isExcluded && l.status !== 'rejected').length;
+  lines.push(
+    `assign: ${run.iterations.length} iterations; ${info.nSeeds} seed(s) and ${info.nProposed} proposed line(s) written; ` +
+      `${excluded} excluded as outliers, ${run.ambiguous.length} ambiguous case(s) left undecided, ${run.suspects.length} suspect(s)`,
+  );
+  lines.push(
+    `assign: final fit: ${fit.nLines} lines, ${fit.nParameters} constants, rms ${fit.rmsCm1.toExponential(3)} cm^-1, ` +
+      `sigmaW ${fit.sigmaW === null ? 'n/a (exactly determined)' : fit.sigmaW.toFixed(3)}; ${fit.convergenceMessage}`,
+  );
+  for (const key of fit.floated) {
+    const p = fit.parameters[key];
+    const unit = key.endsWith('.zeta') ? '' : ' cm^-1';
+    lines.push(`  ${key} = ${p.value.toPrecision(12)} ± ${p.sigma === null ? 'n/a' : p.sigma.toExponential(2)}${unit}`);
+  }
+  for (const note of run.fitNotes) lines.push(`  note: ${note}`);
+  for (const w of [...fit.warnings, ...run.warnings]) lines.push(`  warning: ${w}`);
+  for (const a of run.ambiguous.slice(0, 10)) lines.push(`  ambiguous: ${a.reason}`);
+  if (run.ambiguous.length > 10) lines.push(`  ambiguous: … and ${run.ambiguous.length - 10} more`);
+  for (const s of run.suspects.slice(0, 10)) {
+    const alt = s.alternativeRungs.slice(0, 3).map((a) => `${a.label}${a.isAssignedElsewhere ? ' (assigned elsewhere)' : ''}`);
+    lines.push(`  suspect: ${s.label} at ${s.observedCm1.toFixed(4)}: ${s.reasons.join('; ')}${alt.length ? `; would fit: ${alt.join(', ')}` : ''}`);
+  }
+  if (run.suspects.length > 10) lines.push(`  suspect: … and ${run.suspects.length - 10} more`);
+  return lines.map((l) => l.replace(/\s*\n\s*/g, ' ')).join('\n') + '\n';
+}
