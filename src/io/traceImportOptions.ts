@@ -42,7 +42,7 @@ export interface TraceImportOptions {
   decimal: TraceDecimal | 'auto';
   /**
    * Longest text accepted, in UTF-16 code units (characters).
-   * @default 1.5e9
+   * @default INPUT_LIMITS.maxTextChars (5e8, below the longest string V8 can hold)
    */
   maxChars: number;
   /**
@@ -61,7 +61,7 @@ export const TRACE_IMPORT_DEFAULTS: Readonly<TraceImportOptions> = Object.freeze
   ordinate: 'auto',
   delimiter: 'auto',
   decimal: 'auto',
-  maxChars: 1.5e9,
+  maxChars: INPUT_LIMITS.maxTextChars,
   maxPoints: INPUT_LIMITS.maxTracePoints,
 });
 

@@ -7,7 +7,7 @@ describe('traceImportOptionsResolve', () => {
     expect(r).toEqual({ ok: true, options: { ...TRACE_IMPORT_DEFAULTS, xUnit: 'um' } });
   });
   it('documents the defaults the brief asks for', () => {
-    expect(TRACE_IMPORT_DEFAULTS).toMatchObject({ yColumn: 1, decimal: 'auto', maxChars: 1.5e9 });
+    expect(TRACE_IMPORT_DEFAULTS).toMatchObject({ yColumn: 1, decimal: 'auto', maxChars: 500_000_000 });
   });
   it.each([
     [{ yColumn: 0 }, 'yColumn', 'importTrace: options.yColumn must be an integer >= 1 (column 0 is the abscissa), got 0'],
