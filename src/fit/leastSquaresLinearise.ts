@@ -40,7 +40,7 @@ export interface Lineariser {
  * pivoting: the rank is judged from the SVD of R, which does not need it.
  * Source: Golub & Van Loan, Matrix Computations 4th ed. (2013) §5.5 (rank-deficient least squares
  * via the SVD); J. J. Moré, "The Levenberg–Marquardt algorithm: implementation and theory",
- * Lecture Notes in Math. 630 (1978) for the column-scaled formulation.
+ * in G. A. Watson (ed.), Numerical Analysis, Springer LNM 630 (1978) for the column-scaled formulation.
  * @param rankRelativeTolerance relative singular-value threshold of the rank test
  */
 export function lineariserCreate(m: number, n: number, rankRelativeTolerance: number): Lineariser {
