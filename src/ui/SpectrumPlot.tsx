@@ -11,7 +11,7 @@ import { peakIdAt } from '../state/assignLogic';
 import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated } from '../state/selectors';
 import { benchStore, useBench } from '../state/store';
 import { CandidateList } from './CandidateList';
-import { ladderRowsBuild } from './plot/ladderGeometry';
+import { ladderRowsBuild, rungPointQuanta } from './plot/ladderGeometry';
 import { spectrumFigure } from './plot/toTraces';
 import { PlotlyChart } from './PlotlyChart';
 import { PlotToolbar } from './PlotToolbar';
@@ -22,8 +22,8 @@ function onClick(e: PlotMouseEvent): void {
   const kind = (p.data as { meta?: { kind?: string } }).meta?.kind;
   if (kind === 'peaks') peakClick(p.customdata as unknown as number);
   else if (kind === 'rungs') {
-    const q = p.customdata as unknown as number[] | null;
-    if (q) rungClick({ jUpper: q[0], kUpper: q[1], jLower: q[2], kLower: q[3] });
+    const q = rungPointQuanta((p.data as { meta?: object }).meta, (p as { text?: unknown }).text, p.customdata);
+    if (q) rungClick(q);
   } else if (kind === 'trace') {
     // Look for a peak within 1 % of the visible width (at least 0.01 cm^-1) of the click.
     const r = benchStore.getState().xRange;

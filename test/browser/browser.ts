@@ -97,3 +97,36 @@ export async function clickAPeak(page: Page): Promise<void> {
   if (candidates.length === 0) throw new Error('clickAPeak: no peak marker on screen');
   await page.mouse.click(candidates[0].x, candidates[0].y);
 }
+
+/**
+ * Hover over the middle rung of the first ladder trace in view (pixel position from plotly's own
+ * axis mapping) and click it.
+ * @returns the hover label text shown before the click
+ */
+export async function clickARung(page: Page): Promise<string> {
+  const pos = await page.evaluate(() => {
+    type Ax = { d2p: (v: number) => number; _offset: number };
+    const gd = document.querySelector('[data-testid=spectrum-plot]') as unknown as {
+      data: { meta?: { kind?: string; deltaK?: number }; x: (number | null)[]; y: (number | null)[] }[];
+      _fullLayout: { xaxis: Ax; yaxis2: Ax };
+      getBoundingClientRect: () => DOMRect;
+    };
+    const L = gd._fullLayout;
+    const r = gd.getBoundingClientRect();
+    const [xr0, xr1] = (L.xaxis as unknown as { range: number[] }).range;
+    for (const t of gd.data) {
+      if (t.meta?.kind !== 'rungs' || t.meta.deltaK === undefined) continue;
+      const xs = t.x.map((v, i) => ({ v, i })).filter((p) => p.v !== null && p.v > xr0 + 0.3 * (xr1 - xr0) && p.v < xr1 - 0.3 * (xr1 - xr0));
+      if (xs.length === 0) continue;
+      const { v, i } = xs[Math.floor(xs.length / 2)];
+      return { x: r.left + L.xaxis._offset + L.xaxis.d2p(v!), y: r.top + L.yaxis2._offset + L.yaxis2.d2p(t.y[i]!) };
+    }
+    return null;
+  });
+  if (!pos) throw new Error('clickARung: no rung on screen');
+  await page.mouse.move(pos.x, pos.y);
+  await page.waitForSelector('[data-testid=spectrum-plot] .hoverlayer .hovertext', { timeout: 5000 });
+  const label = (await page.locator('[data-testid=spectrum-plot] .hoverlayer .hovertext').first().textContent()) ?? '';
+  await page.mouse.click(pos.x, pos.y);
+  return label;
+}

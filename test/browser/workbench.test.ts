@@ -5,7 +5,7 @@
  */
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { assignedCount, clickAPeak, gotoApp, launch, openPage, SHOTS, waitForPlot, zoomPlot } from './browser';
+import { assignedCount, clickAPeak, clickARung, gotoApp, launch, openPage, SHOTS, waitForPlot, zoomPlot } from './browser';
 
 let browser: Browser;
 beforeAll(async () => {
@@ -66,13 +66,22 @@ describe('workbench page', () => {
     await page.keyboard.press('Control+y');
     await expect.poll(() => assignedCount(page)).toBe(1);
 
+    // Click a rung (its hover shows label, position, intensity), then a peak: that line is assigned.
+    const hover = (await clickARung(page)).replace(/\u200b/g, ''); // plotly pads sub/superscripts with zero-width spaces
+    expect(hover).toMatch(/^[pr][PQR]\d+\(\d+\)[\d.]+ cm⁻¹rel\. intensity [\d.e-]+$/);
+    await expect.poll(() => page.evaluate(() => (document.querySelector('[data-testid=spectrum-plot]') as unknown as { data: { name?: string }[] }).data.some((t) => t.name === 'selected rung'))).toBe(true);
+    await clickAPeak(page);
+    await expect.poll(() => assignedCount(page)).toBe(2);
+    const rungLabel = hover.split('(')[0] + '(' + hover.split('(')[1].split(')')[0] + ')';
+    expect(await page.locator('[data-testid=assignment-row] .line-label').allTextContents()).toContain(rungLabel);
+
     // Keyboard: select the strongest rung, assign along its series.
     await page.locator('body').click({ position: { x: 2, y: 2 } });
     await page.keyboard.press('Escape');
     await page.keyboard.press('ArrowRight');
     await page.keyboard.press('a');
     await page.keyboard.press('a');
-    await expect.poll(() => assignedCount(page)).toBeGreaterThanOrEqual(2);
+    await expect.poll(() => assignedCount(page)).toBeGreaterThanOrEqual(3);
     const n = await assignedCount(page);
 
     await page.waitForTimeout(800); // autosave runs 300 ms after the last change

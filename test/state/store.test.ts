@@ -1,7 +1,7 @@
 import { beforeEach, describe, expect, it } from 'vitest';
 import { fitBand } from '../../src/fit/fitBand';
 import { transitionWavenumber } from '../../src/physics/termValues';
-import { assignmentDelete, assignmentEdit, candidateAssign, cursorStep, peakClick, rungClick, selectCandidates } from '../../src/state/actionsAssign';
+import { assignNearPosition, assignmentDelete, assignmentEdit, candidateAssign, cursorAssignNearest, cursorStep, peakClick, rungClick, selectCandidates } from '../../src/state/actionsAssign';
 import { redo, undo } from '../../src/state/actionsCore';
 import { fitAccept, fitRevert, fitStart } from '../../src/state/actionsFit';
 import { traceReplace } from '../../src/state/actionsImport';
@@ -114,6 +114,27 @@ describe('assigning', () => {
     expect(s.assignments[0]).toMatchObject({ jLower: c.jLower, kLower: c.kLower, observedCm1: peaks!.wavenumberCm1[0] });
     expect(s.cursor!.jLower).toBe(c.jLower + 1);
     expect(s.cursor!.kLower).toBe(c.kLower);
+  });
+
+  it('assigns the cursor rung to the nearest peak by key, and a Loomis–Wood click to the peak near it', () => {
+    loadSmall();
+    cursorStep(1);
+    cursorStep(-1);
+    const c = benchStore.getState().cursor!;
+    expect(cursorAssignNearest()).toBe(true);
+    const a = benchStore.getState().assignments[0];
+    const nu = transitionWavenumber(benchStore.getState().model, c.jUpper, c.kUpper, c.jLower, c.kLower);
+    // Noise-free trace: the nearest peak is the rung's own line (peak centre within 0.002 cm^-1).
+    expect(a).toMatchObject({ jLower: c.jLower, kLower: c.kLower });
+    expect(Math.abs(a.observedCm1 - nu)).toBeLessThan(0.002);
+    expect(benchStore.getState().cursor!.jLower).toBe(c.jLower + 1);
+    // A click 0.001 cm^-1 beside the next rung's line in its strip.
+    const q = benchStore.getState().cursor!;
+    const nu2 = transitionWavenumber(benchStore.getState().model, q.jUpper, q.kUpper, q.jLower, q.kLower);
+    expect(assignNearPosition(q, nu2 + 0.001, 0.01)).toBe(true);
+    expect(benchStore.getState().assignments.length).toBe(2);
+    expect(assignNearPosition(q, nu2 + 0.35, 1e-4)).toBe(false);
+    expect(benchStore.getState().messages.at(-1)!.text).toMatch(/No peak within/);
   });
 
   it('flags a line assigned far from its prediction', () => {

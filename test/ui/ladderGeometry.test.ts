@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { bandLadders } from '../../src/physics/bandLadders';
 import { bandLines } from '../../src/physics/bandLines';
 import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
-import { ladderRowKey, ladderRowsBuild, ladderTracesBuild, rungExtent, rungTip } from '../../src/ui/plot/ladderGeometry';
+import { ladderLabelTemplate, ladderRowKey, rungPointQuanta, ladderRowsBuild, ladderTracesBuild, rungExtent, rungTip } from '../../src/ui/plot/ladderGeometry';
 
 // Invented constants (cm^-1), small enough to count lines by hand.
 const model: BandModel = {
@@ -69,26 +69,29 @@ describe('rungExtent', () => {
 });
 
 describe('ladderTracesBuild', () => {
-  it('draws each ladder as one trace of segments separated by nulls, with quanta for clicks', () => {
+  it('draws each ladder as one trace of segments separated by nulls, clickable back to its quanta', () => {
     const lines = bandLines(model);
     const ladders = bandLadders(lines, 'prolate');
     const rows = ladderRowsBuild(ladders, 'prolate');
     const traces = ladderTracesBuild(rows, lines, 'prolate', { xRangeCm1: [0, 5000] });
     expect(traces.length).toBe(ladders.length);
     let rungs = 0;
-    for (const t of traces as unknown as { x: (number | null)[]; y: (number | null)[]; customdata: (number[] | null)[]; hovertext: (string | null)[] }[]) {
+    type T = { x: (number | null)[]; y: (number | null)[]; text: (number | null)[]; customdata: (number | null)[]; hovertemplate: string; meta: { deltaK: number; deltaJ: number; kLower: number } };
+    for (const t of traces as unknown as T[]) {
+      expect(t.hovertemplate).toMatch(/^<sup>[pr]<\/sup>[PQR]<sub>\d<\/sub>\(%\{text\}\)<br>%\{x:\.4f\} cm⁻¹/);
       expect(t.x.length % 3).toBe(0);
       for (let k = 0; k < t.x.length; k += 3) {
         expect(t.x[k]).toBe(t.x[k + 1]);
         expect(t.x[k + 2]).toBeNull();
         expect(t.y[k + 2]).toBeNull();
-        const q = t.customdata[k]!;
-        // The segment sits at the line's position: find it in the line list by its quanta.
+        const q = rungPointQuanta(t.meta, t.text[k], t.customdata[k])!;
+        // The segment sits at the position of the line with those quanta.
         const i = Array.from({ length: lines.count }, (_, n) => n).find(
-          (n) => lines.jUpper[n] === q[0] && lines.kUpper[n] === q[1] && lines.jLower[n] === q[2] && lines.kLower[n] === q[3],
+          (n) => lines.jUpper[n] === q.jUpper && lines.kUpper[n] === q.kUpper && lines.jLower[n] === q.jLower && lines.kLower[n] === q.kLower,
         )!;
+        expect(i).toBeDefined();
         expect(t.x[k]).toBe(lines.wavenumberCm1[i]);
-        expect(t.hovertext[k]).toContain(lines.wavenumberCm1[i].toFixed(4));
+        expect(t.customdata[k]).toBe(lines.intensity[i]);
         rungs++;
       }
     }
@@ -105,5 +108,21 @@ describe('ladderTracesBuild', () => {
     for (let i = 0; i < lines.count; i++) if (lines.wavenumberCm1[i] >= 999 - 0.04 && lines.wavenumberCm1[i] <= 1001 + 0.04) inRange++;
     expect(count(some)).toBe(inRange);
     expect(count(some)).toBeLessThan(count(all));
+  });
+});
+
+describe('ladderLabelTemplate', () => {
+  it('is the line label with J″ left to plotly', () => {
+    expect(ladderLabelTemplate({ deltaK: 1, deltaJ: 0, kLower: 3 }, 'prolate')).toBe('<sup>r</sup>Q<sub>3</sub>(%{text})');
+    expect(ladderLabelTemplate({ deltaK: 0, deltaJ: -1, kLower: 0 }, 'linear')).toBe('P(%{text})');
+  });
+});
+
+describe('rungPointQuanta', () => {
+  it('reads marker points from customdata and refuses anything else', () => {
+    expect(rungPointQuanta(undefined, undefined, [5, 2, 4, 1])).toEqual({ jUpper: 5, kUpper: 2, jLower: 4, kLower: 1 });
+    expect(rungPointQuanta(undefined, undefined, 0.5)).toBeNull();
+    expect(rungPointQuanta({ deltaK: 1, deltaJ: 0, kLower: 2 }, 'x', null)).toBeNull();
+    expect(rungPointQuanta({ deltaK: -1, deltaJ: 1, kLower: 2 }, 7, null)).toEqual({ jUpper: 8, kUpper: 1, jLower: 7, kLower: 2 });
   });
 });

@@ -6,7 +6,7 @@
 import type { Data } from 'plotly.js';
 import type { Ladder } from '../../physics/bandLadders';
 import { lineLabelHtml } from '../../physics/lineLabel';
-import type { LineList, TopShape } from '../../physics/model';
+import type { LineList, TopShape, TransitionQuanta } from '../../physics/model';
 import { ladderColour } from './plotColours';
 
 /** One row of the ladder panel: every branch (P, Q, R) of one ΔK and K''. */
@@ -87,6 +87,35 @@ export function rungTip(deltaJ: number, intensity: number): number {
   return deltaJ < 0 ? lo : hi;
 }
 
+/**
+ * Plotly hover template of a ladder's label, J'' taken from customdata[2]: e.g.
+ * "<sup>r</sup>Q<sub>3</sub>(%{text})". Our own markup, no outside text.
+ */
+export function ladderLabelTemplate(ladder: Pick<Ladder, 'deltaK' | 'deltaJ' | 'kLower'>, shape: TopShape): string {
+  return lineLabelHtml(ladder.deltaK, ladder.deltaJ, ladder.kLower, 0, shape).replace(/\(0\)$/, '(%{text})');
+}
+
+/**
+ * Quantum numbers of a clicked rung point: ladder traces carry the series in their meta and J''
+ * as the point's text; the marker traces (assigned, cursor) carry [J', K', J'', K''] as customdata.
+ * @returns the quanta, or null when the point is not a rung
+ */
+export function rungPointQuanta(
+  meta: { deltaK?: number; deltaJ?: number; kLower?: number } | undefined,
+  text: unknown,
+  customdata: unknown,
+): TransitionQuanta | null {
+  if (meta && meta.deltaK !== undefined && meta.deltaJ !== undefined && meta.kLower !== undefined) {
+    const j = Number(text);
+    if (!Number.isInteger(j)) return null;
+    return { jUpper: j + meta.deltaJ, kUpper: meta.kLower + meta.deltaK, jLower: j, kLower: meta.kLower };
+  }
+  if (Array.isArray(customdata) && customdata.length >= 4 && customdata.every((v) => Number.isInteger(v))) {
+    return { jUpper: customdata[0], kUpper: customdata[1], jLower: customdata[2], kLower: customdata[3] };
+  }
+  return null;
+}
+
 /** Options of ladderTracesBuild. */
 export interface LadderTracesOptions {
   /** Visible x range, cm^-1; rungs outside it (plus 2 % margin) are left out. */
@@ -100,7 +129,8 @@ export interface LadderTracesOptions {
 
 /**
  * One plotly line trace per ladder (ΔK, K'', branch): rung segments separated by nulls, with
- * hover text (label, position, intensity) on both ends and customdata [J', K', J'', K''] for clicks.
+ * J'' as text and the intensity as customdata on both ends (the hover template shows label,
+ * position and intensity; rungPointQuanta turns a clicked point back into quanta).
  * @param rows from ladderRowsBuild
  * @param lines the line list the ladders index into (positions cm^-1, relative intensities)
  * @param shape rotor shape (for labels)
@@ -116,18 +146,19 @@ export function ladderTracesBuild(rows: readonly LadderRow[], lines: LineList, s
     for (const ladder of row.ladders) {
       const x: (number | null)[] = [];
       const y: (number | null)[] = [];
-      const text: (string | null)[] = [];
-      const custom: (number[] | null)[] = [];
+      // Flat per-vertex arrays only (nested customdata makes plotly's redraw several times slower):
+      // text = J'', customdata = intensity; the trace's meta names the series, so a click
+      // recovers the quanta from (meta, J'') and the hover template fills in the label.
+      const jText: (number | null)[] = [];
+      const inten: (number | null)[] = [];
       for (const i of ladder.lineIndex) {
         const nu = lines.wavenumberCm1[i];
         if (nu < lo || nu > hi) continue;
         const [b, t] = rungExtent(ladder.deltaJ, lines.intensity[i]);
-        const label = `${lineLabelHtml(lines.deltaK[i], lines.deltaJ[i], lines.kLower[i], lines.jLower[i], shape)}<br>${nu.toFixed(4)} cm⁻¹<br>rel. intensity ${lines.intensity[i].toPrecision(3)}`;
-        const q = [lines.jUpper[i], lines.kUpper[i], lines.jLower[i], lines.kLower[i]];
         x.push(nu, nu, null);
         y.push(row.y + b, row.y + t, null);
-        text.push(label, label, null);
-        custom.push(q, q, null);
+        jText.push(lines.jLower[i], lines.jLower[i], null);
+        inten.push(lines.intensity[i], lines.intensity[i], null);
       }
       if (x.length === 0) continue;
       out.push({
@@ -140,10 +171,10 @@ export function ladderTracesBuild(rows: readonly LadderRow[], lines: LineList, s
         yaxis: options.yaxis ?? 'y2',
         connectgaps: false,
         line: { color: colour, width: ladder.deltaJ === 0 ? 2.2 : 1.6 },
-        hovertext: text as string[],
-        hovertemplate: '%{hovertext}<extra></extra>',
-        customdata: custom as unknown as number[][],
-        meta: { kind: 'rungs', ladderKey: ladder.key },
+        hovertemplate: `${ladderLabelTemplate(ladder, shape)}<br>%{x:.4f} cm⁻¹<br>rel. intensity %{customdata:.3g}<extra></extra>`,
+        text: jText as unknown as string[],
+        customdata: inten as unknown as number[],
+        meta: { kind: 'rungs', ladderKey: ladder.key, deltaK: ladder.deltaK, deltaJ: ladder.deltaJ, kLower: ladder.kLower },
         showlegend: false,
       } as Data);
     }

@@ -48,7 +48,7 @@ export interface SpectrumFigureInput {
 }
 
 /** Largest number of peak markers drawn at once (the strongest by SNR are kept). */
-export const PEAK_MARKERS_MAX = 1500;
+export const PEAK_MARKERS_MAX = 600;
 
 const toTransmittance = (a: number) => 10 ** -a;
 
