@@ -41,7 +41,7 @@ export function importSetParser(p: TraceParser): void {
 export function traceReplace(trace: Trace, report: TraceImportReport | null, source: TraceSource, overrides: Partial<TraceImportOptions> = {}): void {
   benchUpdate(
     'load trace',
-    () => ({ trace, traceReport: report, traceSource: source, importOverrides: overrides, xRange: null, candidateTarget: null, traceImport: null }),
+    () => ({ trace, traceReport: report, traceSource: source, importOverrides: overrides, xRange: null, candidateTarget: null, traceImport: null, traceCalibration: null }),
     { history: false },
   );
 }

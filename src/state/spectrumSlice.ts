@@ -1,4 +1,5 @@
 import type { StateCreator } from 'zustand';
+import type { AxisCalibration } from '../analysis/calibrationFit';
 import type { Trace, TraceImportReport } from '../io/trace';
 import type { TraceImportOptions } from '../io/traceImportOptions';
 import type { BenchState } from './store';
@@ -29,6 +30,8 @@ export interface SpectrumSlice {
   peakMinSnr: number;
   /** Subtract a smooth baseline before peak finding. */
   peakBaseline: boolean;
+  /** Calibration applied to the trace axis since it was read (null: axis as in the file). */
+  traceCalibration: AxisCalibration | null;
 }
 
 /** Initial spectrum state. */
@@ -41,6 +44,7 @@ export function spectrumSliceInitial(): SpectrumSlice {
     traceImport: null,
     peakMinSnr: 5,
     peakBaseline: false,
+    traceCalibration: null,
   };
 }
 

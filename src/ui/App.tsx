@@ -6,6 +6,7 @@ import { viewSet, viewSetTab, viewSetTheme } from '../state/actionsView';
 import { useBench } from '../state/store';
 import type { BenchTab } from '../state/viewSlice';
 import { AssignmentsTable } from './AssignmentsTable';
+import { CalibrationPanel } from './CalibrationPanel';
 import { CombinationPanel } from './CombinationPanel';
 import { ExportPanel } from './ExportPanel';
 import { HelpOverlay } from './HelpOverlay';
@@ -23,6 +24,7 @@ const TABS: { id: BenchTab; label: string }[] = [
   { id: 'combination', label: 'Combination differences' },
   { id: 'loomis', label: 'Loomis–Wood' },
   { id: 'import', label: 'Trace file' },
+  { id: 'calibration', label: 'Calibration' },
   { id: 'export', label: 'Export' },
 ];
 
@@ -93,6 +95,7 @@ function LowerPanel() {
         {tab === 'combination' && <CombinationPanel />}
         {tab === 'loomis' && <LoomisWoodPanel />}
         {tab === 'import' && <ImportPanel />}
+        {tab === 'calibration' && <CalibrationPanel />}
         {tab === 'export' && <ExportPanel />}
       </div>
     </section>
