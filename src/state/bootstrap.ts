@@ -3,11 +3,14 @@
  */
 import { messagePost } from './actionsCore';
 import { demoLoad } from './actionsImport';
+import { peaksWorkerStart } from './actionsPeaks';
 import { persistRestore, persistStart } from './persist';
 import { benchStore } from './store';
 
 /** Bring the page to life (called once from main.tsx). */
 export async function bootstrap(): Promise<void> {
+  // Peaks are found off the main thread, so the trace is drawn as soon as it is parsed.
+  peaksWorkerStart();
   let restored = false;
   try {
     restored = await persistRestore();

@@ -72,9 +72,20 @@ const peaksOf = memoLast((trace: BenchState['trace'], minSnr: number, baseline: 
   }
 });
 
-/** Peaks found in the current trace (null without a trace). */
+const PEAKS_PENDING: { peaks: PeakList | null; error: string | null } = { peaks: null, error: null };
+
+const peaksFromResult = memoLast((r: NonNullable<BenchState['peaksResult']>) => ({ peaks: r.peaks, error: r.error }));
+
+/**
+ * Peaks found in the current trace (null without a trace). With peak finding in the worker
+ * (actionsPeaks), the peaks are null until the worker's result for this trace and these settings
+ * has arrived; otherwise (Node, tests) they are computed here on first use.
+ */
 export function selectPeaks(s: BenchState): { peaks: PeakList | null; error: string | null } {
-  return peaksOf(s.trace, s.peakMinSnr, s.peakBaseline);
+  if (!s.isPeaksInWorker) return peaksOf(s.trace, s.peakMinSnr, s.peakBaseline);
+  const r = s.peaksResult;
+  if (r && r.trace === s.trace && r.minSnr === s.peakMinSnr && r.baseline === s.peakBaseline) return peaksFromResult(r);
+  return PEAKS_PENDING;
 }
 
 /** The last successful fit result, or null. */

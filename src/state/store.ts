@@ -4,6 +4,7 @@
  * without a hook.
  */
 import { create } from 'zustand';
+import { createAnalysisSlice, type AnalysisSlice } from './analysisSlice';
 import { createAssignmentsSlice, type AssignmentsSlice } from './assignmentsSlice';
 import { createFitSlice, type FitSlice } from './fitSlice';
 import { createHistorySlice, type HistorySlice } from './history';
@@ -12,7 +13,7 @@ import { createSpectrumSlice, type SpectrumSlice } from './spectrumSlice';
 import { createViewSlice, type ViewSlice } from './viewSlice';
 
 /** The whole workbench state. */
-export type BenchState = SpectrumSlice & ModelSlice & AssignmentsSlice & FitSlice & ViewSlice & HistorySlice;
+export type BenchState = SpectrumSlice & ModelSlice & AssignmentsSlice & FitSlice & ViewSlice & HistorySlice & AnalysisSlice;
 
 /** The store hook (`useBench(s => s.x)`) with getState/setState/subscribe/getInitialState. */
 export const useBench = create<BenchState>()((...a) => ({
@@ -22,6 +23,7 @@ export const useBench = create<BenchState>()((...a) => ({
   ...createFitSlice(...a),
   ...createViewSlice(...a),
   ...createHistorySlice(...a),
+  ...createAnalysisSlice(...a),
 }));
 
 /** The same store, for non-React callers. */

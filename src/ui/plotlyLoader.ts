@@ -10,3 +10,7 @@ export function plotlyLoad(): Promise<PlotlyApi> {
   loading ??= import('plotly.js-cartesian-dist-min').then((m) => ((m as { default?: PlotlyApi }).default ?? (m as unknown as PlotlyApi)));
   return loading;
 }
+
+// Start the download at boot (this module is imported by the first chart), in parallel with the
+// demo fetch and parse, rather than when the first chart mounts.
+void plotlyLoad().catch(() => undefined);
