@@ -22,7 +22,7 @@ function onClick(e: PlotMouseEvent): void {
   const kind = (p.data as { meta?: { kind?: string } }).meta?.kind;
   if (kind === 'peaks') peakClick(p.customdata as unknown as number);
   else if (kind === 'rungs') {
-    const q = rungPointQuanta((p.data as { meta?: object }).meta, (p as { text?: unknown }).text, p.customdata);
+    const q = rungPointQuanta((p.data as { meta?: object }).meta, p.pointNumber, p.customdata, selectBand(benchStore.getState()).lines);
     if (q) rungClick(q);
   } else if (kind === 'trace') {
     // Look for a peak within 1 % of the visible width (at least 0.01 cm^-1) of the click.
@@ -31,11 +31,24 @@ function onClick(e: PlotMouseEvent): void {
   }
 }
 
+let relayoutFrame = 0;
+let relayoutRange: [number, number] | null | undefined;
+
+// Zoom and pan fire several relayout events per frame; only the last range of a frame is applied,
+// so the figure is rebuilt at most once per animation frame.
 function onRelayout(e: PlotRelayoutEvent): void {
   const r = e as Record<string, unknown>;
-  if (r['xaxis.autorange']) viewSetXRange(null);
-  else if (r['xaxis.range[0]'] !== undefined && r['xaxis.range[1]'] !== undefined) viewSetXRange([Number(r['xaxis.range[0]']), Number(r['xaxis.range[1]'])]);
-  else if (Array.isArray(r['xaxis.range'])) viewSetXRange([Number(r['xaxis.range'][0]), Number(r['xaxis.range'][1])]);
+  if (r['xaxis.autorange']) relayoutRange = null;
+  else if (r['xaxis.range[0]'] !== undefined && r['xaxis.range[1]'] !== undefined) relayoutRange = [Number(r['xaxis.range[0]']), Number(r['xaxis.range[1]'])];
+  else if (Array.isArray(r['xaxis.range'])) relayoutRange = [Number(r['xaxis.range'][0]), Number(r['xaxis.range'][1])];
+  else return;
+  if (relayoutFrame) return;
+  relayoutFrame = requestAnimationFrame(() => {
+    relayoutFrame = 0;
+    const range = relayoutRange;
+    relayoutRange = undefined;
+    if (range !== undefined) viewSetXRange(range);
+  });
 }
 
 export function SpectrumPlot() {

@@ -69,33 +69,42 @@ describe('rungExtent', () => {
 });
 
 describe('ladderTracesBuild', () => {
-  it('draws each ladder as one trace of segments separated by nulls, clickable back to its quanta', () => {
+  it('draws the ladders as few traces (one per colour and width) of segments separated by nulls, each clickable back to its quanta', () => {
     const lines = bandLines(model);
     const ladders = bandLadders(lines, 'prolate');
     const rows = ladderRowsBuild(ladders, 'prolate');
     const traces = ladderTracesBuild(rows, lines, 'prolate', { xRangeCm1: [0, 5000] });
-    expect(traces.length).toBe(ladders.length);
+    // At most two widths (Q wider) per row colour, so never more traces than 2 x rows, and fewer than series.
+    expect(traces.length).toBeLessThan(ladders.length);
+    expect(traces.length).toBeLessThanOrEqual(2 * rows.length);
     let rungs = 0;
-    type T = { x: (number | null)[]; y: (number | null)[]; text: (number | null)[]; customdata: (number | null)[]; hovertemplate: string; meta: { deltaK: number; deltaJ: number; kLower: number } };
+    const seen = new Set<number>();
+    type T = { x: (number | null)[]; y: (number | null)[]; text: (string | null)[]; customdata: (number | null)[]; hovertemplate: string; meta: { deltaK: number; lineIndex: (number | null)[] } };
     for (const t of traces as unknown as T[]) {
-      expect(t.hovertemplate).toMatch(/^<sup>[pr]<\/sup>[PQR]<sub>\d<\/sub>\(%\{text\}\)<br>%\{x:\.4f\} cm⁻¹/);
+      expect(t.hovertemplate).toBe('%{text}<br>%{x:.4f} cm⁻¹<br>rel. intensity %{customdata:.3g}<extra></extra>');
       expect(t.x.length % 3).toBe(0);
+      expect(t.meta.lineIndex.length).toBe(t.x.length);
       for (let k = 0; k < t.x.length; k += 3) {
         expect(t.x[k]).toBe(t.x[k + 1]);
         expect(t.x[k + 2]).toBeNull();
         expect(t.y[k + 2]).toBeNull();
-        const q = rungPointQuanta(t.meta, t.text[k], t.customdata[k])!;
-        // The segment sits at the position of the line with those quanta.
+        const q = rungPointQuanta(t.meta, k, t.customdata[k], lines)!;
+        // The segment sits at the position of the line with those quanta (found by brute force).
         const i = Array.from({ length: lines.count }, (_, n) => n).find(
           (n) => lines.jUpper[n] === q.jUpper && lines.kUpper[n] === q.kUpper && lines.jLower[n] === q.jLower && lines.kLower[n] === q.kLower,
         )!;
         expect(i).toBeDefined();
+        expect(q.kUpper - q.kLower).toBe(t.meta.deltaK);
         expect(t.x[k]).toBe(lines.wavenumberCm1[i]);
         expect(t.customdata[k]).toBe(lines.intensity[i]);
+        // The hover label is the line's own label.
+        expect(t.text[k]).toBe(ladderLabelTemplate({ deltaK: q.kUpper - q.kLower, deltaJ: q.jUpper - q.jLower, kLower: q.kLower }, 'prolate').replace('%{text}', String(q.jLower)));
+        seen.add(i);
         rungs++;
       }
     }
     expect(rungs).toBe(lines.count);
+    expect(seen.size).toBe(lines.count);
   });
 
   it('leaves out rungs outside the visible range', () => {
@@ -119,10 +128,12 @@ describe('ladderLabelTemplate', () => {
 });
 
 describe('rungPointQuanta', () => {
-  it('reads marker points from customdata and refuses anything else', () => {
-    expect(rungPointQuanta(undefined, undefined, [5, 2, 4, 1])).toEqual({ jUpper: 5, kUpper: 2, jLower: 4, kLower: 1 });
-    expect(rungPointQuanta(undefined, undefined, 0.5)).toBeNull();
-    expect(rungPointQuanta({ deltaK: 1, deltaJ: 0, kLower: 2 }, 'x', null)).toBeNull();
-    expect(rungPointQuanta({ deltaK: -1, deltaJ: 1, kLower: 2 }, 7, null)).toEqual({ jUpper: 8, kUpper: 1, jLower: 7, kLower: 2 });
+  it('reads marker points from customdata, ladder vertices from meta.lineIndex, and refuses anything else', () => {
+    const lines = bandLines(model);
+    expect(rungPointQuanta(undefined, undefined, [5, 2, 4, 1], lines)).toEqual({ jUpper: 5, kUpper: 2, jLower: 4, kLower: 1 });
+    expect(rungPointQuanta(undefined, undefined, 0.5, lines)).toBeNull();
+    expect(rungPointQuanta({ lineIndex: [3, 3, null] }, 2, null, lines)).toBeNull();
+    expect(rungPointQuanta({ lineIndex: [lines.count] }, 0, null, lines)).toBeNull();
+    expect(rungPointQuanta({ lineIndex: [null, 4] }, 1, null, lines)).toEqual({ jUpper: lines.jUpper[4], kUpper: lines.kUpper[4], jLower: lines.jLower[4], kLower: lines.kLower[4] });
   });
 });

@@ -96,19 +96,25 @@ export function ladderLabelTemplate(ladder: Pick<Ladder, 'deltaK' | 'deltaJ' | '
 }
 
 /**
- * Quantum numbers of a clicked rung point: ladder traces carry the series in their meta and J''
- * as the point's text; the marker traces (assigned, cursor) carry [J', K', J'', K''] as customdata.
+ * Quantum numbers of a clicked rung point: ladder traces carry, in their meta, the index into the
+ * line list of every vertex (`lineIndex`); the marker traces (assigned, cursor) carry
+ * [J', K', J'', K''] as customdata.
+ * @param meta the clicked trace's meta
+ * @param pointNumber the clicked vertex
+ * @param customdata the clicked vertex's customdata
+ * @param lines the line list the ladder traces were built from
  * @returns the quanta, or null when the point is not a rung
  */
 export function rungPointQuanta(
-  meta: { deltaK?: number; deltaJ?: number; kLower?: number } | undefined,
-  text: unknown,
+  meta: { lineIndex?: readonly (number | null)[] } | undefined,
+  pointNumber: unknown,
   customdata: unknown,
+  lines: LineList,
 ): TransitionQuanta | null {
-  if (meta && meta.deltaK !== undefined && meta.deltaJ !== undefined && meta.kLower !== undefined) {
-    const j = Number(text);
-    if (!Number.isInteger(j)) return null;
-    return { jUpper: j + meta.deltaJ, kUpper: meta.kLower + meta.deltaK, jLower: j, kLower: meta.kLower };
+  if (meta && Array.isArray(meta.lineIndex)) {
+    const i = typeof pointNumber === 'number' ? meta.lineIndex[pointNumber] : null;
+    if (i === null || i === undefined || !(i >= 0 && i < lines.count)) return null;
+    return { jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i] };
   }
   if (Array.isArray(customdata) && customdata.length >= 4 && customdata.every((v) => Number.isInteger(v))) {
     return { jUpper: customdata[0], kUpper: customdata[1], jLower: customdata[2], kLower: customdata[3] };
@@ -128,56 +134,66 @@ export interface LadderTracesOptions {
 }
 
 /**
- * One plotly line trace per ladder (ΔK, K'', branch): rung segments separated by nulls, with
- * J'' as text and the intensity as customdata on both ends (the hover template shows label,
- * position and intensity; rungPointQuanta turns a clicked point back into quanta).
- * @param rows from ladderRowsBuild
- * @param lines the line list the ladders index into (positions cm^-1, relative intensities)
- * @param shape rotor shape (for labels)
+ * Plotly traces of the ladder rows: one trace per colour and line width (rows of one ΔK share a
+ * hue every 8 K'' values; Q rungs are drawn wider), each a set of vertical segments separated by
+ * null gaps. Far fewer traces than one per series, which is most of plotly's redraw cost after a
+ * zoom. Every vertex carries its line label as text and its intensity as customdata (flat
+ * arrays: nested customdata makes plotly's redraw several times slower); meta.lineIndex maps each
+ * vertex back to the line list for clicks (rungPointQuanta).
+ * @param rows ladder rows (ladderRowsBuild)
+ * @param lines the line list the ladders index
+ * @param shape top shape (for labels)
+ * @param options visible range (cm^-1), axes, theme
  */
 export function ladderTracesBuild(rows: readonly LadderRow[], lines: LineList, shape: TopShape, options: LadderTracesOptions): Data[] {
   const [from, to] = options.xRangeCm1;
   const margin = 0.02 * (to - from);
   const lo = from - margin;
   const hi = to + margin;
-  const out: Data[] = [];
+  type Group = { colour: string; width: number; deltaK: number; x: (number | null)[]; y: (number | null)[]; text: (string | null)[]; inten: (number | null)[]; lineIndex: (number | null)[] };
+  const groups = new Map<string, Group>();
   for (const row of rows) {
     const colour = ladderColour(row.deltaK, row.kLower, options.isDark ?? false);
     for (const ladder of row.ladders) {
-      const x: (number | null)[] = [];
-      const y: (number | null)[] = [];
-      // Flat per-vertex arrays only (nested customdata makes plotly's redraw several times slower):
-      // text = J'', customdata = intensity; the trace's meta names the series, so a click
-      // recovers the quanta from (meta, J'') and the hover template fills in the label.
-      const jText: (number | null)[] = [];
-      const inten: (number | null)[] = [];
+      const width = ladder.deltaJ === 0 ? 2.2 : 1.6;
+      const gkey = `${colour}|${width}`;
+      let g = groups.get(gkey);
+      const template = ladderLabelTemplate(ladder, shape);
       for (const i of ladder.lineIndex) {
         const nu = lines.wavenumberCm1[i];
         if (nu < lo || nu > hi) continue;
+        if (!g) {
+          g = { colour, width, deltaK: row.deltaK, x: [], y: [], text: [], inten: [], lineIndex: [] };
+          groups.set(gkey, g);
+        }
         const [b, t] = rungExtent(ladder.deltaJ, lines.intensity[i]);
-        x.push(nu, nu, null);
-        y.push(row.y + b, row.y + t, null);
-        jText.push(lines.jLower[i], lines.jLower[i], null);
-        inten.push(lines.intensity[i], lines.intensity[i], null);
+        const label = template.replace('%{text}', String(lines.jLower[i]));
+        g.x.push(nu, nu, null);
+        g.y.push(row.y + b, row.y + t, null);
+        g.text.push(label, label, null);
+        g.inten.push(lines.intensity[i], lines.intensity[i], null);
+        g.lineIndex.push(i, i, null);
       }
-      if (x.length === 0) continue;
-      out.push({
-        type: 'scatter',
-        mode: 'lines',
-        name: ladder.label,
-        x,
-        y,
-        xaxis: options.xaxis ?? 'x',
-        yaxis: options.yaxis ?? 'y2',
-        connectgaps: false,
-        line: { color: colour, width: ladder.deltaJ === 0 ? 2.2 : 1.6 },
-        hovertemplate: `${ladderLabelTemplate(ladder, shape)}<br>%{x:.4f} cm⁻¹<br>rel. intensity %{customdata:.3g}<extra></extra>`,
-        text: jText as unknown as string[],
-        customdata: inten as unknown as number[],
-        meta: { kind: 'rungs', ladderKey: ladder.key, deltaK: ladder.deltaK, deltaJ: ladder.deltaJ, kLower: ladder.kLower },
-        showlegend: false,
-      } as Data);
     }
+  }
+  const out: Data[] = [];
+  for (const g of groups.values()) {
+    out.push({
+      type: 'scatter',
+      mode: 'lines',
+      name: `ladders ${g.colour}`,
+      x: g.x,
+      y: g.y,
+      xaxis: options.xaxis ?? 'x',
+      yaxis: options.yaxis ?? 'y2',
+      connectgaps: false,
+      line: { color: g.colour, width: g.width },
+      hovertemplate: '%{text}<br>%{x:.4f} cm⁻¹<br>rel. intensity %{customdata:.3g}<extra></extra>',
+      text: g.text as string[],
+      customdata: g.inten as unknown as number[],
+      meta: { kind: 'rungs', deltaK: g.deltaK, lineIndex: g.lineIndex },
+      showlegend: false,
+    } as Data);
   }
   return out;
 }
