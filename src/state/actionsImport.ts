@@ -189,19 +189,36 @@ export function lineTableLoadText(text: string, fileName: string): boolean {
   return true;
 }
 
+/** The demo files being fetched: each resolves to its content, or null when it is not there. */
+export interface DemoFetch {
+  modelText: Promise<string | null>;
+  traceBlob: Promise<Blob | null>;
+}
+
+/**
+ * Start fetching both demo files (model and trace) from our own server at once, so start-up can
+ * overlap them with restoring the session; pass the result to demoLoad.
+ */
+export function demoFetch(): DemoFetch {
+  const base = import.meta.env?.BASE_URL ?? '/';
+  const get = <T>(path: string, read: (r: Response) => Promise<T>): Promise<T | null> =>
+    fetch(`${base}${path}`).then(
+      (r) => (r.ok ? read(r) : null),
+      () => null,
+    ).catch(() => null);
+  return { modelText: get('demo/model.json', (r) => r.text()), traceBlob: get('demo/trace.csv', (r) => r.blob()) };
+}
+
 /**
  * Load the demo: the model and trace from /demo/ (fetched from our own server), or, when they are
- * not there, the built-in model with a trace simulated in memory.
+ * not there, the built-in model with a trace simulated in memory. The trace parse starts in its
+ * worker before the model is applied, so the (main-thread) model update and the parse overlap.
+ * @param fetched files already being fetched (demoFetch), else fetched here
  */
-export async function demoLoad(): Promise<void> {
-  const base = import.meta.env?.BASE_URL ?? '/';
-  let modelText: string | null = null;
-  try {
-    const r = await fetch(`${base}demo/model.json`);
-    if (r.ok) modelText = await r.text();
-  } catch {
-    modelText = null;
-  }
+export async function demoLoad(fetched: DemoFetch = demoFetch()): Promise<void> {
+  const traceBlob = await fetched.traceBlob;
+  const traceDone = traceBlob ? traceImport(traceBlob, 'demo/trace.csv', {}, 'demo').catch(() => false) : Promise.resolve(false);
+  const modelText = await fetched.modelText;
   if (modelText) {
     try {
       const f = modelFileParse(modelText);
@@ -210,16 +227,7 @@ export async function demoLoad(): Promise<void> {
       messagePost('warning', `The demo model could not be read (${(err as Error).message}); using the built-in one.`);
     }
   }
-  let traceLoaded = false;
-  try {
-    const r = await fetch(`${base}demo/trace.csv`);
-    if (r.ok) {
-      const blob = await r.blob();
-      traceLoaded = await traceImport(blob, 'demo/trace.csv', {}, 'demo');
-    }
-  } catch {
-    traceLoaded = false;
-  }
+  const traceLoaded = await traceDone;
   if (!traceLoaded) {
     const s = benchStore.getState();
     traceReplace(demoFallbackTrace(s.model, s.massAmu), null, 'simulated-demo');

@@ -2,7 +2,7 @@
  * Start-up: restore the autosaved session when there is one, else load the demo; then autosave.
  */
 import { messagePost } from './actionsCore';
-import { demoLoad } from './actionsImport';
+import { demoFetch, demoLoad } from './actionsImport';
 import { peaksWorkerStart } from './actionsPeaks';
 import { persistRestore, persistStart } from './persist';
 import { benchStore } from './store';
@@ -11,6 +11,8 @@ import { benchStore } from './store';
 export async function bootstrap(): Promise<void> {
   // Peaks are found off the main thread, so the trace is drawn as soon as it is parsed.
   peaksWorkerStart();
+  // Fetched while the autosaved session is looked up (dropped when one is restored).
+  const demo = demoFetch();
   let restored = false;
   try {
     restored = await persistRestore();
@@ -21,7 +23,7 @@ export async function bootstrap(): Promise<void> {
     const s = benchStore.getState();
     messagePost('info', `Restored your last session (${s.assignments.length} assignments). Changes are saved automatically in this browser.`);
   } else {
-    await demoLoad();
+    await demoLoad(demo);
     // The demo is the starting point, not something to undo back out of.
     benchStore.setState({ past: [], future: [] });
   }
