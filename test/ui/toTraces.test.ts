@@ -4,7 +4,9 @@ import { bandLadders } from '../../src/physics/bandLadders';
 import { bandLines } from '../../src/physics/bandLines';
 import { peakIdAt } from '../../src/state/assignLogic';
 import { ladderRowsBuild } from '../../src/ui/plot/ladderGeometry';
-import { figureFullRange, spectrumFigure, type SpectrumFigureInput } from '../../src/ui/plot/toTraces';
+import type { AssignmentRow } from '../../src/state/selectors';
+import { rungPointQuanta } from '../../src/ui/plot/ladderGeometry';
+import { ASSIGNED_MARKERS_MAX, figureFullRange, spectrumFigure, type SpectrumFigureInput } from '../../src/ui/plot/toTraces';
 import { smallModel, smallTrace } from '../state/fixtures';
 
 function input(over: Partial<SpectrumFigureInput> = {}): SpectrumFigureInput {
@@ -107,6 +109,29 @@ describe('spectrumFigure', () => {
     for (let i = 0; i < inp.lines.count; i++) {
       expect(inp.lines.wavenumberCm1[i]).toBeGreaterThan(lo);
       expect(inp.lines.wavenumberCm1[i]).toBeLessThan(hi);
+    }
+  });
+
+  it('draws assigned rungs as bars in one path once there are more than ASSIGNED_MARKERS_MAX in view, each vertex mapped back to its line', () => {
+    const model = { ...smallModel(), jMax: 40, kMax: 8 };
+    const lines = bandLines(model, { minIntensity: 0 });
+    const ladders = bandLadders(lines, model.shape);
+    const indexOf = new Map<string, number>();
+    for (let i = 0; i < lines.count; i++) indexOf.set(`${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`, i);
+    expect(lines.count).toBeGreaterThan(ASSIGNED_MARKERS_MAX);
+    const assignments = Array.from({ length: lines.count }, (_, i) => {
+      const a = { id: `a${i}`, jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i], observedCm1: lines.wavenumberCm1[i] };
+      return { a, labelHtml: `line ${i}`, deltaJ: a.jUpper - a.jLower, deltaK: a.kUpper - a.kLower, omcCm1: 0, omcSigma: null, isFar: false, isOutlier: false } as unknown as AssignmentRow;
+    });
+    const { data } = spectrumFigure(input({ trace: null, peaks: null, lines, indexOf, rows: ladderRowsBuild(ladders, model.shape), assignments }));
+    const bars = data.find((d) => d.name === 'assigned rungs') as unknown as { mode: string; x: (number | null)[]; hovertext: (string | null)[]; meta: { lineIndex: (number | null)[] } };
+    expect(bars.mode).toBe('lines');
+    expect(bars.x.length).toBe(3 * lines.count);
+    for (let k = 0; k < bars.x.length; k += 3) {
+      const q = rungPointQuanta(bars.meta, k, undefined, lines)!;
+      const i = indexOf.get(`${q.jUpper},${q.kUpper},${q.jLower},${q.kLower}`)!;
+      expect(bars.x[k]).toBe(lines.wavenumberCm1[i]);
+      expect(bars.hovertext[k]).toMatch(new RegExp(`^line ${i} assigned`));
     }
   });
 });

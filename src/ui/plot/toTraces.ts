@@ -50,6 +50,12 @@ export interface SpectrumFigureInput {
 /** Largest number of peak markers drawn at once (the strongest by SNR are kept). */
 export const PEAK_MARKERS_MAX = 600;
 
+/** Most assigned-rung markers drawn as symbols; more are drawn as bars in one path. */
+export const ASSIGNED_MARKERS_MAX = 400;
+
+/** Half length of an assigned-rung bar, ladder-axis units (rows are 1 apart). */
+const ASSIGNED_BAR_HALF = 0.09;
+
 const toTransmittance = (a: number) => 10 ** -a;
 
 /** The range shown when nothing is zoomed: the trace, else the predicted lines, else 0…1. */
@@ -135,8 +141,8 @@ function peakTraces(input: SpectrumFigureInput, range: [number, number], theme: 
 
 function assignmentMarkers(input: SpectrumFigureInput, range: [number, number], theme: ReturnType<typeof plotTheme>): Data[] {
   const rowY = new Map(input.rows.map((r) => [r.key, r.y]));
-  const ok = { x: [] as number[], y: [] as number[], text: [] as string[], custom: [] as number[][] };
-  const far = { x: [] as number[], y: [] as number[], text: [] as string[], custom: [] as number[][] };
+  const ok = { x: [] as number[], y: [] as number[], text: [] as string[], custom: [] as number[][], line: [] as number[] };
+  const far = { x: [] as number[], y: [] as number[], text: [] as string[], custom: [] as number[][], line: [] as number[] };
   const margin = 0.02 * (range[1] - range[0]);
   for (const r of input.assignments) {
     const a = r.a;
@@ -153,6 +159,7 @@ function assignmentMarkers(input: SpectrumFigureInput, range: [number, number], 
     const sig = r.omcSigma !== null ? ` (${r.omcSigma.toFixed(1)} σ)` : '';
     target.text.push(`${r.labelHtml} assigned<br>obs ${a.observedCm1.toFixed(4)} cm⁻¹<br>obs − calc ${r.omcCm1.toExponential(2)} cm⁻¹${sig}${r.isFar ? '<br>far from prediction' : ''}`);
     target.custom.push([a.jUpper, a.kUpper, a.jLower, a.kLower]);
+    target.line.push(i);
   }
   const mk = (d: typeof ok, colour: string, name: string, symbol: string): Data =>
     ({
@@ -169,7 +176,39 @@ function assignmentMarkers(input: SpectrumFigureInput, range: [number, number], 
       meta: { kind: 'rungs' },
       showlegend: false,
     }) as Data;
-  return [mk(ok, theme.assigned, 'assigned rungs', 'circle'), mk(far, theme.flagged, 'assigned far from prediction', 'x')];
+  // Thousands of marker paths are most of a redraw's cost at full range; past this many the
+  // assigned rungs are drawn as short bars in one path (same hover; clicks resolved through meta.lineIndex).
+  const dense = (d: typeof ok, colour: string, name: string): Data => {
+    const x: (number | null)[] = [];
+    const y: (number | null)[] = [];
+    const text: (string | null)[] = [];
+    const lineIndex: (number | null)[] = [];
+    for (let k = 0; k < d.x.length; k++) {
+      x.push(d.x[k], d.x[k], null);
+      y.push(d.y[k] - ASSIGNED_BAR_HALF, d.y[k] + ASSIGNED_BAR_HALF, null);
+      text.push(d.text[k], d.text[k], null);
+      lineIndex.push(d.line[k], d.line[k], null);
+    }
+    return {
+      type: 'scatter',
+      mode: 'lines',
+      name,
+      x,
+      y,
+      yaxis: 'y2',
+      connectgaps: false,
+      hovertext: text,
+      hovertemplate: '%{hovertext}<extra></extra>',
+      line: { color: colour, width: 4 },
+      // Clicks map a vertex back to its line as on the ladder traces (rungPointQuanta).
+      meta: { kind: 'rungs', lineIndex },
+      showlegend: false,
+    } as Data;
+  };
+  return [
+    ok.x.length > ASSIGNED_MARKERS_MAX ? dense(ok, theme.assigned, 'assigned rungs') : mk(ok, theme.assigned, 'assigned rungs', 'circle'),
+    mk(far, theme.flagged, 'assigned far from prediction', 'x'),
+  ];
 }
 
 function cursorMarker(input: SpectrumFigureInput, theme: ReturnType<typeof plotTheme>): { data: Data[]; shapes: Partial<Shape>[] } {
