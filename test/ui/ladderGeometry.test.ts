@@ -69,7 +69,7 @@ describe('rungExtent', () => {
 });
 
 describe('ladderTracesBuild', () => {
-  it('draws the ladders as few traces (one per colour and width) of segments separated by nulls, each clickable back to its quanta', () => {
+  it('draws the ladders as few traces (one per colour and width) of rung polylines separated by nulls, each clickable back to its quanta', () => {
     const lines = bandLines(model);
     const ladders = bandLadders(lines, 'prolate');
     const rows = ladderRowsBuild(ladders, 'prolate');
@@ -82,12 +82,15 @@ describe('ladderTracesBuild', () => {
     type T = { x: (number | null)[]; y: (number | null)[]; text: (string | null)[]; customdata: (number | null)[]; hovertemplate: string; meta: { deltaK: number; lineIndex: (number | null)[] } };
     for (const t of traces as unknown as T[]) {
       expect(t.hovertemplate).toBe('%{text}<br>%{x:.4f} cm⁻¹<br>rel. intensity %{customdata:.3g}<extra></extra>');
-      expect(t.x.length % 3).toBe(0);
-      expect(t.meta.lineIndex.length).toBe(t.x.length);
-      for (let k = 0; k < t.x.length; k += 3) {
-        expect(t.x[k]).toBe(t.x[k + 1]);
-        expect(t.x[k + 2]).toBeNull();
-        expect(t.y[k + 2]).toBeNull();
+      // Series are polylines of 4 vertices per rung (row line, rung ends, row line) ended by a null.
+      const pieces: number[][] = [[]];
+      t.x.forEach((v, k) => (v === null ? pieces.push([]) : pieces[pieces.length - 1].push(k)));
+      for (const piece of pieces) expect(piece.length % 4).toBe(0);
+      for (const k of pieces.flatMap((piece) => piece.filter((_, n) => n % 4 === 0))) {
+        expect(t.x[k]).toBe(t.x[k + 3]);
+        expect(t.x[k + 1]).toBe(t.x[k]);
+        expect(t.y[k]).toBe(t.y[k + 3]);
+        expect(t.meta.lineIndex[k + 2]).toBe(t.meta.lineIndex[k]);
         const q = rungPointQuanta(t.meta, k, t.customdata[k], lines)!;
         // The segment sits at the position of the line with those quanta (found by brute force).
         const i = Array.from({ length: lines.count }, (_, n) => n).find(
@@ -112,7 +115,7 @@ describe('ladderTracesBuild', () => {
     const rows = ladderRowsBuild(bandLadders(lines, 'prolate'), 'prolate');
     const all = ladderTracesBuild(rows, lines, 'prolate', { xRangeCm1: [0, 5000] });
     const some = ladderTracesBuild(rows, lines, 'prolate', { xRangeCm1: [999, 1001] });
-    const count = (ts: typeof all) => ts.reduce((n, t) => n + (t as { x: unknown[] }).x.length / 3, 0);
+    const count = (ts: typeof all) => ts.reduce((n, t) => n + (t as { x: unknown[] }).x.filter((v) => v !== null).length / 4, 0);
     let inRange = 0;
     for (let i = 0; i < lines.count; i++) if (lines.wavenumberCm1[i] >= 999 - 0.04 && lines.wavenumberCm1[i] <= 1001 + 0.04) inRange++;
     expect(count(some)).toBe(inRange);

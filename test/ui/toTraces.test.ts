@@ -67,8 +67,8 @@ describe('spectrumFigure', () => {
     const rungTraces = data.filter((d) => (d as { meta?: { kind?: string } }).meta?.kind === 'rungs' && (d as { mode?: string }).mode === 'lines');
     expect(rungTraces.length).toBeGreaterThan(0);
     expect(rungTraces.length).toBeLessThan(inp.rows.reduce((n, r) => n + r.ladders.length, 0));
-    // Every line of the model is in view here, so every line has exactly one rung (3 vertices each).
-    const rungCount = rungTraces.reduce((n, t) => n + (t as { x: unknown[] }).x.length / 3, 0);
+    // Every line of the model is in view here, so every line has exactly one rung (4 vertices each).
+    const rungCount = rungTraces.reduce((n, t) => n + (t as { x: unknown[] }).x.filter((v) => v !== null).length / 4, 0);
     expect(rungCount).toBe(inp.rows.reduce((n, r) => n + r.ladders.reduce((m, l) => m + l.lineIndex.length, 0), 0));
     for (const t of rungTraces) expect((t as { yaxis?: string }).yaxis).toBe('y2');
     const y = layout.yaxis as { domain: number[] };

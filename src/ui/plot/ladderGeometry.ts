@@ -135,9 +135,9 @@ export interface LadderTracesOptions {
 
 /**
  * Plotly traces of the ladder rows: one trace per colour and line width (rows of one ΔK share a
- * hue every 8 K'' values; Q rungs are drawn wider), each a set of vertical segments separated by
- * null gaps. Far fewer traces than one per series, which is most of plotly's redraw cost after a
- * zoom. Every vertex carries its line label as text and its intensity as customdata (flat
+ * hue every 8 K'' values; Q rungs are drawn wider); each series is one polyline of 4 vertices per
+ * rung (row line, rung ends, row line), series separated by null gaps. Few traces and few SVG paths: their number is most of plotly's
+ * redraw cost after a zoom. Every vertex carries its line label as text and its intensity as customdata (flat
  * arrays: nested customdata makes plotly's redraw several times slower); meta.lineIndex maps each
  * vertex back to the line list for clicks (rungPointQuanta).
  * @param rows ladder rows (ladderRowsBuild)
@@ -159,6 +159,7 @@ export function ladderTracesBuild(rows: readonly LadderRow[], lines: LineList, s
       const gkey = `${colour}|${width}`;
       let g = groups.get(gkey);
       const template = ladderLabelTemplate(ladder, shape);
+      let isOpen = false;
       for (const i of ladder.lineIndex) {
         const nu = lines.wavenumberCm1[i];
         if (nu < lo || nu > hi) continue;
@@ -166,13 +167,25 @@ export function ladderTracesBuild(rows: readonly LadderRow[], lines: LineList, s
           g = { colour, width, deltaK: row.deltaK, x: [], y: [], text: [], inten: [], lineIndex: [] };
           groups.set(gkey, g);
         }
+        // Rungs of one series are joined along the row line (base → ends → base), so the series is
+        // one SVG path: plotly draws every null-separated piece as a path of its own, and thousands
+        // of paths were most of a redraw. Only series are separated by nulls.
         const [b, t] = rungExtent(ladder.deltaJ, lines.intensity[i]);
         const label = template.replace('%{text}', String(lines.jLower[i]));
-        g.x.push(nu, nu, null);
-        g.y.push(row.y + b, row.y + t, null);
-        g.text.push(label, label, null);
-        g.inten.push(lines.intensity[i], lines.intensity[i], null);
-        g.lineIndex.push(i, i, null);
+        const inten = lines.intensity[i];
+        g.x.push(nu, nu, nu, nu);
+        g.y.push(row.y, row.y + b, row.y + t, row.y);
+        g.text.push(label, label, label, label);
+        g.inten.push(inten, inten, inten, inten);
+        g.lineIndex.push(i, i, i, i);
+        isOpen = true;
+      }
+      if (g && isOpen) {
+        g.x.push(null);
+        g.y.push(null);
+        g.text.push(null);
+        g.inten.push(null);
+        g.lineIndex.push(null);
       }
     }
   }
