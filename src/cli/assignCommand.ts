@@ -106,6 +106,10 @@ export const assignCommand: CliCommand = (args, io) => {
     if (table.assignments.length === 0) throw new CliError(`${linesPath}: no lines (only a header); give at least one seed line`);
     seeds = assistantLinesFromAssignments(table.assignments, model, peaks, context);
     seedText = `${seeds.length} seed line(s) from ${linesPath}`;
+    const offPeak = seeds.filter((l) => l.peakIndex === null).length;
+    if (offPeak > 0) {
+      io.stderr(`assign: ${offPeak} of the ${seeds.length} seed lines lie on no peak of the trace (within half a FWHM); is it the right trace?\n`);
+    }
   } else {
     const seeded = assistantSeedFromModel(model, peaks, floatable);
     for (const w of seeded.warnings) io.stderr(`assign: ${w}\n`);

@@ -100,6 +100,24 @@ describe('assistantMatch', () => {
     expect(r.ambiguous.map((a) => a.kind)).toEqual(['several-rungs']);
   });
 
+  it('assigns an unresolved K stack (same ΔJ and J″, K differs) to its peak together, as a blend', () => {
+    // qR0(5), qR1(5), qR2(5) of a parallel band 0.001 cm^-1 apart, one peak between them.
+    const cat = catalogue([100, 100.001, 100.002], [1, 0.9, 0.8]);
+    cat.lines.jLower.fill(5);
+    cat.lines.jUpper.fill(6);
+    cat.lines.kLower.set([0, 1, 2]);
+    cat.lines.kUpper.set([0, 1, 2]);
+    const r = assistantMatch(input(cat, peaksAt([100.001], [2.7]), { shape: 'prolate' }));
+    expect(r.ambiguous).toHaveLength(0);
+    expect(r.matches.map((m) => m.rung).sort()).toEqual([0, 1, 2]);
+    for (const m of r.matches) {
+      expect(m.peak).toBe(0);
+      expect(m.stack).toBe(3);
+      expect(m.isBlend).toBe(true);
+      expect(m.reason).toMatch(/unresolved K components K'' = 0, 1, 2 of qR\(5\) share the only peak/);
+    }
+  });
+
   it('does not take a peak that already carries a line, nor a rejected pair', () => {
     const cat = catalogue([100, 101], [1, 1]);
     const peaks = peaksAt([100, 101], [1, 1]);
