@@ -47,8 +47,8 @@ export interface SpectrumFigureInput {
   isDark: boolean;
 }
 
-/** Largest number of peak markers drawn at once (the strongest by SNR are kept). */
-export const PEAK_MARKERS_MAX = 600;
+/** Largest number of peak markers drawn at once (the strongest by SNR are kept; each marker is an SVG path, so they cost every redraw). */
+export const PEAK_MARKERS_MAX = 250;
 
 /** Most assigned-rung markers drawn as symbols; more are drawn as bars in one path. */
 export const ASSIGNED_MARKERS_MAX = 400;
