@@ -5,6 +5,7 @@ export * from './delimitedParseNumeric';
 export * from './delimitedSniff';
 export * from './exportCsv';
 export * from './fitReport';
+export * from './inputLimits';
 export * from './jcampAsdf';
 export * from './jcampParse';
 export * from './lineTable';
