@@ -268,12 +268,17 @@ function peakMeasure(
     { amplitude: top - base, centreCm1: three.centreCm1, sigmaWidthCm1: startWidth > 0 ? startWidth : x[a + 1] - x[a] },
     sigma,
   );
+  const localStep = 0.5 * (x[Math.min(a + 1, x.length - 1)] - x[Math.max(a - 1, 0)]);
   const isFitGood =
     fit.isConverged &&
     fit.amplitude > 0 &&
     fit.centreCm1 >= x[i0] &&
     fit.centreCm1 <= x[i1] &&
-    fit.sigmaWidthCm1 * GAUSSIAN_FWHM_PER_SIGMA <= 4 * (x[i1] - x[i0]);
+    fit.sigmaWidthCm1 * GAUSSIAN_FWHM_PER_SIGMA <= 4 * (x[i1] - x[i0]) &&
+    // A width below the sampling step is not resolved by the data (a 3-point fit can collapse so,
+    // with a singular covariance); the three-point estimate is used instead.
+    fit.sigmaWidthCm1 * GAUSSIAN_FWHM_PER_SIGMA >= localStep &&
+    Number.isFinite(fit.centreSigmaCm1);
   let centre: number;
   let height: number;
   let fwhm: number;
@@ -293,6 +298,9 @@ function peakMeasure(
     centre = three.centreCm1;
     height = three.height;
     fwhm = Number.isFinite(three.sigmaWidthCm1) ? three.sigmaWidthCm1 * GAUSSIAN_FWHM_PER_SIGMA : width;
+    // Never narrower than the sampling can show.
+    if (!(fwhm >= localStep)) fwhm = Math.max(width, localStep);
+    // Common-practice estimate σ_ν ≈ FWHM / (SNR · sqrt(N)).
     centreSigma = sigma > 0 ? fwhm / ((height / sigma) * Math.sqrt(nAbove)) : 0;
   }
   if (!(height > 0 && fwhm > 0)) return null;
