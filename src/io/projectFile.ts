@@ -124,16 +124,17 @@ export function base64ToFloat64(text: string, field: string): Float64Array {
   const nBytes = (clean.length / 4) * 3 - pad;
   if (nBytes % 8 !== 0) throw new Error(`${field}: ${nBytes} bytes is not a whole number of 8-byte doubles`);
   const bytes = new Uint8Array(nBytes);
+  // One pass without per-group allocation (a closure per 4 characters cost ~0.5 s on a 1e6-point trace).
+  const sextet = (i: number): number => {
+    const ch = clean.charCodeAt(i);
+    if (ch === 61 && i >= clean.length - pad) return 0; // '=' padding at the very end
+    const v = ch < 128 ? B64_INDEX[ch] : -1;
+    if (v < 0) throw new Error(`${field}: character ${JSON.stringify(clean[i])} at ${i} is not base64`);
+    return v;
+  };
   let o = 0;
   for (let i = 0; i < clean.length; i += 4) {
-    const c = [0, 1, 2, 3].map((k) => {
-      const ch = clean.charCodeAt(i + k);
-      if (clean[i + k] === '=' && i + 4 === clean.length) return 0;
-      const v = ch < 128 ? B64_INDEX[ch] : -1;
-      if (v < 0) throw new Error(`${field}: character ${JSON.stringify(clean[i + k])} at ${i + k} is not base64`);
-      return v;
-    });
-    const n = (c[0] << 18) | (c[1] << 12) | (c[2] << 6) | c[3];
+    const n = (sextet(i) << 18) | (sextet(i + 1) << 12) | (sextet(i + 2) << 6) | sextet(i + 3);
     if (o < nBytes) bytes[o++] = (n >> 16) & 255;
     if (o < nBytes) bytes[o++] = (n >> 8) & 255;
     if (o < nBytes) bytes[o++] = n & 255;
