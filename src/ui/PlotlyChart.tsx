@@ -57,17 +57,27 @@ export function PlotlyChart(props: PlotlyChartProps) {
     if (!isReady || !ref.current) return;
     const el = ref.current;
     let cancelled = false;
-    void plotlyLoad().then(async (Plotly) => {
-      if (cancelled) return;
-      await Plotly.react(el, props.data, { autosize: true, ...props.layout }, { ...BASE_CONFIG, ...props.config });
-      if (el.on && !el.dataset.bound) {
-        el.dataset.bound = '1';
-        el.on('plotly_click', (e) => handlers.current.onClick?.(e as PlotMouseEvent));
-        el.on('plotly_relayout', (e) => handlers.current.onRelayout?.(e as PlotRelayoutEvent));
-      }
+    // Draw after the browser has painted the rest of this update (rAF, then a task): a click that
+    // adds a table row shows the row first instead of waiting for the SVG redraw, and a prop change
+    // superseded before then is never drawn.
+    let timer = 0;
+    const frame = requestAnimationFrame(() => {
+      timer = window.setTimeout(() => {
+        void plotlyLoad().then(async (Plotly) => {
+          if (cancelled) return;
+          await Plotly.react(el, props.data, { autosize: true, ...props.layout }, { ...BASE_CONFIG, ...props.config });
+          if (el.on && !el.dataset.bound) {
+            el.dataset.bound = '1';
+            el.on('plotly_click', (e) => handlers.current.onClick?.(e as PlotMouseEvent));
+            el.on('plotly_relayout', (e) => handlers.current.onRelayout?.(e as PlotRelayoutEvent));
+          }
+        });
+      }, 0);
     });
     return () => {
       cancelled = true;
+      cancelAnimationFrame(frame);
+      clearTimeout(timer);
     };
   }, [isReady, props.data, props.layout, props.config]);
 
