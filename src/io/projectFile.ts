@@ -410,6 +410,27 @@ export function projectFileParse(text: string): ProjectFileOutcome {
       if (version === PROJECT_VERSION) messages.push(`field 'session.${name}' is missing; the default is used`);
       continue;
     }
+    if (name === 'assignments' && Array.isArray(raw[name])) {
+      // Row by row, so that one bad row costs that row only, not the user's whole line list.
+      const kept: Assignment[] = [];
+      const dropped: string[] = [];
+      const seen = new Set<string>();
+      (raw[name] as unknown[]).forEach((row, i) => {
+        const a = assignmentSchema.safeParse(row);
+        if (!a.success) dropped.push(`[${i}] (${issueText(a.error.issues[0]).replace(/^\./, "")})`);
+        else if (seen.has(a.data.id)) dropped.push(`[${i}] (id '${inputExcerpt(a.data.id)}' appears earlier)`);
+        else {
+          seen.add(a.data.id);
+          kept.push(a.data as Assignment);
+        }
+      });
+      if (dropped.length) {
+        const listed = dropped.slice(0, 5).join(', ') + (dropped.length > 5 ? ` and ${dropped.length - 5} more` : '');
+        messages.push(`${dropped.length} of ${(raw[name] as unknown[]).length} assignments were not loaded: session.assignments${listed}`);
+      }
+      session.assignments = kept;
+      continue;
+    }
     const r = FIELD_SCHEMAS[name].safeParse(raw[name]);
     if (!r.success) {
       messages.push(`field 'session.${name}' is invalid (${issueText(r.error.issues[0])}); the default is used`);
@@ -450,17 +471,6 @@ export function projectFileParse(text: string): ProjectFileOutcome {
       continue;
     }
     (session as Record<string, unknown>)[name] = r.data;
-  }
-  if (session.assignments) {
-    const seen = new Set<string>();
-    for (const a of session.assignments) {
-      if (seen.has(a.id)) {
-        messages.push(`assignment id '${a.id}' appears more than once; the assignments were not loaded`);
-        delete session.assignments;
-        break;
-      }
-      seen.add(a.id);
-    }
   }
   return { ok: true, session, messages, version };
 }
