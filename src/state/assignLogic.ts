@@ -20,6 +20,11 @@ export function peakIdAt(positionCm1: number): string {
   return `pk${positionCm1.toFixed(5)}`;
 }
 
+/** The position a peak id encodes (cm^-1, rounded to 1e-5), NaN for a string that is not a peak id. */
+export function peakIdPosition(id: string): number {
+  return id.startsWith('pk') ? Number(id.slice(2)) : NaN;
+}
+
 /**
  * Add an assignment. Quanta already in the list are re-assigned (their position and peak replaced,
  * keeping id, σ and note) rather than duplicated. A peak that then carries two or more transitions

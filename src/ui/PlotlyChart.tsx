@@ -17,9 +17,18 @@ export interface PlotlyChartProps {
   config?: Partial<Config>;
   onClick?: (event: PlotMouseEvent) => void;
   onRelayout?: (event: PlotRelayoutEvent) => void;
+  /** Called after every drawing of the chart (plotly's afterplot), with the chart element. */
+  onAfterPlot?: (el: HTMLElement) => void;
+  /** Called while a pan drags the axes (plotly's relayouting), before the chart is redrawn. */
+  onRelayouting?: (el: HTMLElement, event: PlotRelayoutEvent) => void;
   /** Called with the chart's width and height in px after each resize. */
   onSize?: (widthPx: number, heightPx: number) => void;
   className?: string;
+  /**
+   * Draw this update at once instead of after the browser has painted the rest of the page (for
+   * zoom and pan, whose only visible result is the chart). @default false
+   */
+  isUrgent?: boolean;
   /** Accessible name of the chart. */
   label: string;
   /** data-testid for browser tests. */
@@ -59,21 +68,25 @@ export function PlotlyChart(props: PlotlyChartProps) {
     let cancelled = false;
     // Draw after the browser has painted the rest of this update (rAF, then a task): a click that
     // adds a table row shows the row first instead of waiting for the SVG redraw, and a prop change
-    // superseded before then is never drawn.
+    // superseded before then is never drawn. An urgent update (zoom, pan) is drawn at once.
+    const draw = () =>
+      void plotlyLoad().then(async (Plotly) => {
+        if (cancelled) return;
+        await Plotly.react(el, props.data, { autosize: true, ...props.layout }, { ...BASE_CONFIG, ...props.config });
+        if (el.on && !el.dataset.bound) {
+          el.dataset.bound = '1';
+          el.on('plotly_click', (e) => handlers.current.onClick?.(e as PlotMouseEvent));
+          el.on('plotly_relayout', (e) => handlers.current.onRelayout?.(e as PlotRelayoutEvent));
+          el.on('plotly_afterplot', () => handlers.current.onAfterPlot?.(el));
+          el.on('plotly_relayouting', (e) => handlers.current.onRelayouting?.(el, e as PlotRelayoutEvent));
+          // The first drawing's afterplot fired before these listeners existed.
+          handlers.current.onAfterPlot?.(el);
+        }
+      });
     let timer = 0;
-    const frame = requestAnimationFrame(() => {
-      timer = window.setTimeout(() => {
-        void plotlyLoad().then(async (Plotly) => {
-          if (cancelled) return;
-          await Plotly.react(el, props.data, { autosize: true, ...props.layout }, { ...BASE_CONFIG, ...props.config });
-          if (el.on && !el.dataset.bound) {
-            el.dataset.bound = '1';
-            el.on('plotly_click', (e) => handlers.current.onClick?.(e as PlotMouseEvent));
-            el.on('plotly_relayout', (e) => handlers.current.onRelayout?.(e as PlotRelayoutEvent));
-          }
-        });
-      }, 0);
-    });
+    let frame = 0;
+    if (props.isUrgent) draw();
+    else frame = requestAnimationFrame(() => (timer = window.setTimeout(draw, 0)));
     return () => {
       cancelled = true;
       cancelAnimationFrame(frame);

@@ -2,53 +2,57 @@
  * The main plot: trace, peaks, simulated spectrum and the ladders; clicks become assignment
  * actions, zoom/pan becomes the view range (which re-decimates the trace).
  */
-import type { PlotMouseEvent, PlotRelayoutEvent } from 'plotly.js';
-import { useMemo, useState } from 'react';
+import type { PlotRelayoutEvent } from 'plotly.js';
+import { useMemo, useRef, useState } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import { peakClick, rungClick, traceClickAt } from '../state/actionsAssign';
 import { viewSetXRange } from '../state/actionsView';
-import { peakIdAt } from '../state/assignLogic';
+import { peakIdAt, peakIdPosition } from '../state/assignLogic';
 import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated } from '../state/selectors';
 import { benchStore, useBench } from '../state/store';
 import { CandidateList } from './CandidateList';
-import { ladderRowsBuild, rungPointQuanta } from './plot/ladderGeometry';
+import { ladderRowsBuild } from './plot/ladderGeometry';
+import { ladderMarkersBuild, ladderSceneBuild } from './plot/ladderScene';
+import { peakLayerBase, peakLayerBuild } from './plot/peakLayer';
 import { spectrumFigure } from './plot/toTraces';
 import { PlotlyChart } from './PlotlyChart';
+import { PlotOverlay, type PlotOverlayHandle } from './PlotOverlay';
 import { PlotToolbar } from './PlotToolbar';
-
-function onClick(e: PlotMouseEvent): void {
-  const p = e.points?.[0];
-  if (!p) return;
-  const kind = (p.data as { meta?: { kind?: string } }).meta?.kind;
-  if (kind === 'peaks') peakClick(p.customdata as unknown as number);
-  else if (kind === 'rungs') {
-    const q = rungPointQuanta((p.data as { meta?: object }).meta, p.pointNumber, p.customdata, selectBand(benchStore.getState()).lines);
-    if (q) rungClick(q);
-  } else if (kind === 'trace') {
-    // Look for a peak within 1 % of the visible width (at least 0.01 cm^-1) of the click.
-    const r = benchStore.getState().xRange;
-    traceClickAt(Number(p.x), Math.max(0.01, r ? 0.01 * (r[1] - r[0]) : 0.05));
-  }
-}
 
 let relayoutFrame = 0;
 let relayoutRange: [number, number] | null | undefined;
 
-// Zoom and pan fire several relayout events per frame; only the last range of a frame is applied,
-// so the figure is rebuilt at most once per animation frame.
-function onRelayout(e: PlotRelayoutEvent): void {
+/** The x range a plotly relayout event sets: a range, null for autorange, undefined for none. */
+function relayoutRangeOf(e: PlotRelayoutEvent): [number, number] | null | undefined {
   const r = e as Record<string, unknown>;
-  if (r['xaxis.autorange']) relayoutRange = null;
-  else if (r['xaxis.range[0]'] !== undefined && r['xaxis.range[1]'] !== undefined) relayoutRange = [Number(r['xaxis.range[0]']), Number(r['xaxis.range[1]'])];
-  else if (Array.isArray(r['xaxis.range'])) relayoutRange = [Number(r['xaxis.range'][0]), Number(r['xaxis.range'][1])];
-  else return;
-  if (relayoutFrame) return;
+  if (r['xaxis.autorange']) return null;
+  if (r['xaxis.range[0]'] !== undefined && r['xaxis.range[1]'] !== undefined) return [Number(r['xaxis.range[0]']), Number(r['xaxis.range[1]'])];
+  if (Array.isArray(r['xaxis.range'])) return [Number(r['xaxis.range'][0]), Number(r['xaxis.range'][1])];
+  return undefined;
+}
+
+// A finished zoom or pan is applied at once (its redraw should not wait a frame); a burst of
+// relayouts (scroll zoom) is then applied at most once per animation frame, the last range winning.
+function onRelayout(e: PlotRelayoutEvent): void {
+  const range = relayoutRangeOf(e);
+  if (range === undefined) return;
+  if (relayoutFrame) {
+    relayoutRange = range;
+    return;
+  }
+  viewSetXRange(range);
   relayoutFrame = requestAnimationFrame(() => {
     relayoutFrame = 0;
-    const range = relayoutRange;
+    const last = relayoutRange;
     relayoutRange = undefined;
-    if (range !== undefined) viewSetXRange(range);
+    if (last !== undefined) viewSetXRange(last);
   });
+}
+
+function onRungLine(lineIndex: number): void {
+  const lines = selectBand(benchStore.getState()).lines;
+  if (lineIndex < 0 || lineIndex >= lines.count) return;
+  rungClick({ jUpper: lines.jUpper[lineIndex], kUpper: lines.kUpper[lineIndex], jLower: lines.jLower[lineIndex], kLower: lines.kLower[lineIndex] });
 }
 
 export function SpectrumPlot() {
@@ -61,7 +65,7 @@ export function SpectrumPlot() {
   const hiddenRows = useBench((s) => s.hiddenRows);
   const shape = useBench((s) => s.model.shape);
   const rowsA = useBench(selectAssignmentRows);
-  const selectedAssignmentId = useBench((s) => s.selectedAssignmentId);
+  const selectedObservedCm1 = useBench((s) => (s.selectedAssignmentId ? (s.assignments.find((a) => a.id === s.selectedAssignmentId)?.observedCm1 ?? null) : null));
   const cursor = useBench((s) => s.cursor);
   const candidatePeakCm1 = useBench((s) => s.candidateTarget?.peakCm1 ?? null);
   const { showSimulated, showObsMinusSim, showPeaks } = useBench(
@@ -71,11 +75,17 @@ export function SpectrumPlot() {
   const sim = useBench((s) => (s.showSimulated || s.showObsMinusSim ? selectSimulated(s).sim : null));
 
   const rows = useMemo(() => ladderRowsBuild(band.ladders, shape, new Set(hiddenRows)), [band.ladders, shape, hiddenRows]);
+  const scene = useMemo(() => ladderSceneBuild(rows, band.lines, isDark), [rows, band.lines, isDark]);
+  const markers = useMemo(() => ladderMarkersBuild(rowsA, rows, band.lines, band.indexOf), [rowsA, rows, band]);
+  const cursorLine = cursor ? (band.indexOf.get(`${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}`) ?? -1) : -1;
+  const overlayRef = useRef<PlotOverlayHandle>(null);
   const assignedPeaks = useMemo(() => {
     const m = new Map<string, string>();
     for (const r of rowsA) if (r.a.peakId && !m.has(r.a.peakId)) m.set(r.a.peakId, r.labelHtml);
     return m;
   }, [rowsA]);
+  const peakBase = useMemo(() => (showPeaks && peaks && trace ? peakLayerBase(peaks, trace, ordinate) : null), [showPeaks, peaks, trace, ordinate]);
+  const peakLayer = useMemo(() => (peakBase ? peakLayerBuild(peakBase, assignedPeaks, peakIdAt, peakIdPosition) : null), [peakBase, assignedPeaks]);
   const figure = useMemo(
     () =>
       spectrumFigure({
@@ -84,25 +94,25 @@ export function SpectrumPlot() {
         columns: size.width - 90,
         heightPx: size.height,
         ordinate,
-        peaks,
-        showPeaks,
-        assignedPeaks,
-        peakId: peakIdAt,
         rows,
         lines: band.lines,
-        indexOf: band.indexOf,
-        shape,
-        assignments: rowsA,
-        selectedAssignmentId,
-        cursor,
+        cursorCm1: cursorLine >= 0 ? band.lines.wavenumberCm1[cursorLine] : null,
+        selectedObservedCm1,
         candidatePeakCm1,
         sim,
         showSimulated,
         showObsMinusSim,
         isDark,
       }),
-    [trace, xRange, size, ordinate, peaks, showPeaks, assignedPeaks, rows, band, shape, rowsA, selectedAssignmentId, cursor, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark],
+    [trace, xRange, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark],
   );
+
+  // A change of the visible range alone (zoom, pan) is drawn at once; anything else after the page
+  // has painted (see PlotlyChart).
+  const prevInputs = useRef<unknown[]>([]);
+  const inputs: unknown[] = [xRange, trace, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark];
+  const isRangeOnly = prevInputs.current.length > 0 && inputs[0] !== prevInputs.current[0] && inputs.every((v, i) => i === 0 || v === prevInputs.current[i]);
+  prevInputs.current = inputs;
 
   return (
     <section className="spectrum-panel" aria-label="Spectrum and ladders">
@@ -111,12 +121,31 @@ export function SpectrumPlot() {
         <PlotlyChart
           data={figure.data}
           layout={figure.layout}
-          onClick={onClick}
           onRelayout={onRelayout}
+          isUrgent={isRangeOnly}
+          onAfterPlot={(el) => overlayRef.current?.paint(el)}
+          onRelayouting={(el, e) => {
+            const r = relayoutRangeOf(e);
+            if (r) overlayRef.current?.paint(el, r);
+          }}
           onSize={(width, height) => setSize((o) => (o.width === width && o.height === height ? o : { width, height }))}
           label="Trace with predicted sub-branch ladders. Click a peak to see candidate assignments, or a rung and then a peak to assign it."
           testId="spectrum-plot"
           className="spectrum-plot"
+        />
+        <PlotOverlay
+          ref={overlayRef}
+          scene={scene}
+          markers={markers}
+          cursorLine={cursorLine}
+          lines={band.lines}
+          shape={shape}
+          peaks={peakLayer}
+          isDark={isDark}
+          onRungClick={onRungLine}
+          onPeakClick={peakClick}
+          // Look for a peak within 1 % of the visible width (at least 0.01 cm^-1) of the click.
+          onTraceClick={(nu, widthCm1) => traceClickAt(nu, Math.max(0.01, 0.01 * widthCm1))}
         />
         <CandidateList />
         {band.error && (

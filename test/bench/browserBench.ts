@@ -521,24 +521,19 @@ async function zoomTo(page: Page, fromFrac: number, toFrac: number): Promise<voi
   await pause(400);
 }
 
-/** Screen positions of free (unassigned) peak markers inside the middle of the plot. */
+/**
+ * Screen positions of free (unassigned) peak markers inside the middle of the plot: the overlay
+ * canvas lists some of the markers it painted (data-free-peaks, canvas CSS px).
+ */
 async function freePeakPositions(page: Page): Promise<{ x: number; y: number }[]> {
   return page.evaluate(() => {
-    const gd = document.querySelector('[data-testid=spectrum-plot]');
-    const area = Array.from(gd?.querySelectorAll('.draglayer .nsewdrag') ?? [])
-      .find((e) => (e.parentNode as Element | null)?.getAttribute('class') === 'xy')
-      ?.getBoundingClientRect();
-    if (!gd || !area) return [];
+    const canvas = document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null;
+    if (!canvas) return [];
+    const r = canvas.getBoundingClientRect();
     const out: { x: number; y: number }[] = [];
-    for (const g of Array.from(gd.querySelectorAll('.scatterlayer .trace'))) {
-      const cd = (g as unknown as { __data__?: { trace?: { name?: string } }[] }).__data__;
-      if (cd?.[0]?.trace?.name !== 'peaks') continue;
-      for (const pt of Array.from(g.querySelectorAll('path.point'))) {
-        const b = pt.getBoundingClientRect();
-        const x = b.x + b.width / 2;
-        const y = b.y + b.height / 2;
-        if (b.width > 0 && x > area.x + area.width * 0.1 && x < area.x + area.width * 0.9 && y > area.y + 4 && y < area.y + area.height - 4) out.push({ x, y });
-      }
+    for (const pair of (canvas.dataset.freePeaks ?? '').split(';').filter(Boolean)) {
+      const [x, y] = pair.split(',').map(Number);
+      if (x > 0.1 * r.width && x < 0.9 * r.width) out.push({ x: r.left + x, y: r.top + y });
     }
     return out;
   });
@@ -602,7 +597,11 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
       w = await watchResult(page, 'waiting for the candidate list', 10_000);
       await profPeak?.stop();
     } catch (err) {
-      problems.push(`peak click: ${(err as Error).message}`);
+      const state = await page.evaluate(() => ({
+        selectedRung: (document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null)?.dataset.selectedRung ?? '',
+        message: document.querySelector('[data-testid=messages]')?.textContent?.slice(0, 160) ?? '',
+      }));
+      problems.push(`peak click at ${target.x.toFixed(0)},${target.y.toFixed(0)}: ${(err as Error).message} (selected rung '${state.selectedRung}', messages '${state.message}')`);
       await page.keyboard.press('Escape');
       continue;
     }

@@ -83,50 +83,31 @@ export async function zoomPlot(page: Page, fromFrac: number, toFrac: number): Pr
   await page.waitForTimeout(400);
 }
 
-/** Click the first unassigned peak marker in the middle of the visible trace. */
+/** Click the first unassigned peak marker in the middle of the visible trace (from the overlay's read-out). */
 export async function clickAPeak(page: Page): Promise<void> {
-  const box = (await page.locator('[data-testid=spectrum-plot] .nsewdrag').first().boundingBox())!;
-  const markers = page.locator('[data-testid=spectrum-plot] .scatterlayer .trace .points path');
-  const n = await markers.count();
-  const candidates: { x: number; y: number }[] = [];
-  for (let i = 0; i < n; i++) {
-    const b = await markers.nth(i).boundingBox();
-    if (b && b.y > box.y + box.height * 0.6 && b.x > box.x + box.width * 0.3 && b.x < box.x + box.width * 0.7) candidates.push({ x: b.x + b.width / 2, y: b.y + b.height / 2 });
-    if (candidates.length > 3) break;
-  }
-  if (candidates.length === 0) throw new Error('clickAPeak: no peak marker on screen');
-  await page.mouse.click(candidates[0].x, candidates[0].y);
+  const overlay = page.locator('[data-testid=plot-overlay]');
+  const box = (await overlay.boundingBox())!;
+  const list = ((await overlay.getAttribute('data-free-peaks')) ?? '').split(';').filter(Boolean);
+  const candidates = list.map((p) => p.split(',').map(Number)).filter(([x]) => x > box.width * 0.3 && x < box.width * 0.7);
+  if (candidates.length === 0) throw new Error(`clickAPeak: no peak marker on screen (${list.length} listed)`);
+  await page.mouse.click(box.x + candidates[0][0], box.y + candidates[0][1]);
 }
 
 /**
- * Hover over the middle rung of the first ladder trace in view (pixel position from plotly's own
- * axis mapping) and click it.
- * @returns the hover label text shown before the click
+ * Hover over the strongest rung in the middle of the view (position from the overlay's read-out)
+ * and click it.
+ * @returns the tooltip text shown before the click
  */
 export async function clickARung(page: Page): Promise<string> {
-  const pos = await page.evaluate(() => {
-    type Ax = { d2p: (v: number) => number; _offset: number };
-    const gd = document.querySelector('[data-testid=spectrum-plot]') as unknown as {
-      data: { meta?: { kind?: string; deltaK?: number }; x: (number | null)[]; y: (number | null)[] }[];
-      _fullLayout: { xaxis: Ax; yaxis2: Ax };
-      getBoundingClientRect: () => DOMRect;
-    };
-    const L = gd._fullLayout;
-    const r = gd.getBoundingClientRect();
-    const [xr0, xr1] = (L.xaxis as unknown as { range: number[] }).range;
-    for (const t of gd.data) {
-      if (t.meta?.kind !== 'rungs' || t.meta.deltaK === undefined) continue;
-      const xs = t.x.map((v, i) => ({ v, i })).filter((p) => p.v !== null && p.v > xr0 + 0.3 * (xr1 - xr0) && p.v < xr1 - 0.3 * (xr1 - xr0));
-      if (xs.length === 0) continue;
-      const { v, i } = xs[Math.floor(xs.length / 2)];
-      return { x: r.left + L.xaxis._offset + L.xaxis.d2p(v!), y: r.top + L.yaxis2._offset + L.yaxis2.d2p(t.y[i]!) };
-    }
-    return null;
-  });
-  if (!pos) throw new Error('clickARung: no rung on screen');
-  await page.mouse.move(pos.x, pos.y);
-  await page.waitForSelector('[data-testid=spectrum-plot] .hoverlayer .hovertext', { timeout: 5000 });
-  const label = (await page.locator('[data-testid=spectrum-plot] .hoverlayer .hovertext').first().textContent()) ?? '';
-  await page.mouse.click(pos.x, pos.y);
+  const overlay = page.locator('[data-testid=plot-overlay]');
+  const box = (await overlay.boundingBox())!;
+  const at = (await overlay.getAttribute('data-strongest-rung')) ?? '';
+  if (!at) throw new Error('clickARung: no rung on screen');
+  const [x, y] = at.split(',').map(Number);
+  await page.mouse.move(box.x + x, box.y + y);
+  const tip = page.locator('[data-testid=plot-tip]');
+  await tip.waitFor({ state: 'visible', timeout: 5000 });
+  const label = (await tip.textContent()) ?? '';
+  await page.mouse.click(box.x + x, box.y + y);
   return label;
 }

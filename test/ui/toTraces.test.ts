@@ -1,12 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { peaksFind } from '../../src/analysis/peaksFind';
 import { bandLadders } from '../../src/physics/bandLadders';
 import { bandLines } from '../../src/physics/bandLines';
-import { peakIdAt } from '../../src/state/assignLogic';
 import { ladderRowsBuild } from '../../src/ui/plot/ladderGeometry';
-import type { AssignmentRow } from '../../src/state/selectors';
-import { rungPointQuanta } from '../../src/ui/plot/ladderGeometry';
-import { ASSIGNED_MARKERS_MAX, figureFullRange, spectrumFigure, type SpectrumFigureInput } from '../../src/ui/plot/toTraces';
+import { figureFullRange, spectrumFigure, type SpectrumFigureInput } from '../../src/ui/plot/toTraces';
 import { smallModel, smallTrace } from '../state/fixtures';
 
 function input(over: Partial<SpectrumFigureInput> = {}): SpectrumFigureInput {
@@ -14,25 +10,16 @@ function input(over: Partial<SpectrumFigureInput> = {}): SpectrumFigureInput {
   const { trace } = smallTrace(model);
   const lines = bandLines(model, { minIntensity: 0.02 });
   const ladders = bandLadders(lines, model.shape);
-  const indexOf = new Map<string, number>();
-  for (let i = 0; i < lines.count; i++) indexOf.set(`${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`, i);
   return {
     trace,
     xRange: null,
     columns: 600,
     heightPx: 500,
     ordinate: 'absorbance',
-    peaks: peaksFind(trace),
-    showPeaks: true,
-    assignedPeaks: new Map(),
-    peakId: peakIdAt,
     rows: ladderRowsBuild(ladders, model.shape),
     lines,
-    indexOf,
-    shape: model.shape,
-    assignments: [],
-    selectedAssignmentId: null,
-    cursor: null,
+    cursorCm1: null,
+    selectedObservedCm1: null,
     candidatePeakCm1: null,
     sim: null,
     showSimulated: false,
@@ -61,34 +48,28 @@ describe('spectrumFigure', () => {
     a.y.forEach((v, i) => expect(t.y[i]).toBeCloseTo(10 ** -v, 14));
   });
 
-  it('draws every visible rung in fewer ladder traces than series, on the ladder axis above the trace', () => {
+  it('gives the ladder axis above the trace one grid line per row and no plotly data (rungs and peaks are painted on the overlay)', () => {
     const inp = input();
     const { data, layout } = spectrumFigure(inp);
-    const rungTraces = data.filter((d) => (d as { meta?: { kind?: string } }).meta?.kind === 'rungs' && (d as { mode?: string }).mode === 'lines');
-    expect(rungTraces.length).toBeGreaterThan(0);
-    expect(rungTraces.length).toBeLessThan(inp.rows.reduce((n, r) => n + r.ladders.length, 0));
-    // Every line of the model is in view here, so every line has exactly one rung (4 vertices each).
-    const rungCount = rungTraces.reduce((n, t) => n + (t as { x: unknown[] }).x.filter((v) => v !== null).length / 4, 0);
-    expect(rungCount).toBe(inp.rows.reduce((n, r) => n + r.ladders.reduce((m, l) => m + l.lineIndex.length, 0), 0));
-    for (const t of rungTraces) expect((t as { yaxis?: string }).yaxis).toBe('y2');
+    expect(kinds(data)).toEqual(['trace', 'ladder-axis']);
+    const axisTrace = data[1] as { x: unknown[]; yaxis?: string };
+    expect(axisTrace.x).toEqual([]);
+    expect(axisTrace.yaxis).toBe('y2');
     const y = layout.yaxis as { domain: number[] };
-    const y2 = layout.yaxis2 as { domain: number[]; tickvals: number[] };
+    const y2 = layout.yaxis2 as { domain: number[]; tickvals: number[]; showticklabels: boolean };
     expect(y2.domain[0]).toBeGreaterThan(y.domain[1]);
-    expect(y2.tickvals.length).toBe(inp.rows.length);
+    expect(y2.tickvals).toEqual(inp.rows.map((r) => r.y));
+    expect(y2.showticklabels).toBe(false);
   });
 
-  it('marks assigned peaks apart from free ones and adds the cursor marker and line', () => {
+  it('draws the selected rung and the selected assignment as vertical lines', () => {
     const inp = input();
-    const p = inp.peaks!;
-    const assignedPeaks = new Map([[peakIdAt(p.wavenumberCm1[0]), 'x']]);
-    const c = { jUpper: inp.lines.jUpper[0], kUpper: inp.lines.kUpper[0], jLower: inp.lines.jLower[0], kLower: inp.lines.kLower[0] };
-    const { data, layout } = spectrumFigure({ ...inp, assignedPeaks, cursor: c });
-    const peakTraces = data.filter((d) => (d as { meta?: { kind?: string } }).meta?.kind === 'peaks') as unknown as { x: number[]; customdata: number[] }[];
-    expect(peakTraces[1].x).toEqual([p.wavenumberCm1[0]]);
-    expect(peakTraces[0].x.length + peakTraces[1].x.length).toBe(p.count);
-    expect(peakTraces[1].customdata).toEqual([0]);
-    expect(data.some((d) => (d as { name?: string }).name === 'selected rung')).toBe(true);
-    expect((layout.shapes as { x0: number }[]).some((s) => s.x0 === inp.lines.wavenumberCm1[0])).toBe(true);
+    const nu = inp.lines.wavenumberCm1[0];
+    const { layout } = spectrumFigure({ ...inp, cursorCm1: nu, selectedObservedCm1: nu + 0.5 });
+    const xs = (layout.shapes as { x0: number }[]).map((s) => s.x0);
+    expect(xs).toContain(nu);
+    expect(xs).toContain(nu + 0.5);
+    expect(spectrumFigure(inp).layout.shapes).toEqual([]);
   });
 
   it('adds the obs − sim axis below the trace only when asked and there is a simulation', () => {
@@ -102,36 +83,13 @@ describe('spectrumFigure', () => {
   });
 
   it('works without a trace (ladders only)', () => {
-    const inp = input({ trace: null, peaks: null });
+    const inp = input({ trace: null });
     const { data, layout } = spectrumFigure(inp);
     expect(kinds(data)).not.toContain('trace');
     const [lo, hi] = (layout.xaxis as { range: number[] }).range;
     for (let i = 0; i < inp.lines.count; i++) {
       expect(inp.lines.wavenumberCm1[i]).toBeGreaterThan(lo);
       expect(inp.lines.wavenumberCm1[i]).toBeLessThan(hi);
-    }
-  });
-
-  it('draws assigned rungs as bars in one path once there are more than ASSIGNED_MARKERS_MAX in view, each vertex mapped back to its line', () => {
-    const model = { ...smallModel(), jMax: 40, kMax: 8 };
-    const lines = bandLines(model, { minIntensity: 0 });
-    const ladders = bandLadders(lines, model.shape);
-    const indexOf = new Map<string, number>();
-    for (let i = 0; i < lines.count; i++) indexOf.set(`${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`, i);
-    expect(lines.count).toBeGreaterThan(ASSIGNED_MARKERS_MAX);
-    const assignments = Array.from({ length: lines.count }, (_, i) => {
-      const a = { id: `a${i}`, jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i], observedCm1: lines.wavenumberCm1[i] };
-      return { a, labelHtml: `line ${i}`, deltaJ: a.jUpper - a.jLower, deltaK: a.kUpper - a.kLower, omcCm1: 0, omcSigma: null, isFar: false, isOutlier: false } as unknown as AssignmentRow;
-    });
-    const { data } = spectrumFigure(input({ trace: null, peaks: null, lines, indexOf, rows: ladderRowsBuild(ladders, model.shape), assignments }));
-    const bars = data.find((d) => d.name === 'assigned rungs') as unknown as { mode: string; x: (number | null)[]; hovertext: (string | null)[]; meta: { lineIndex: (number | null)[] } };
-    expect(bars.mode).toBe('lines');
-    expect(bars.x.length).toBe(3 * lines.count);
-    for (let k = 0; k < bars.x.length; k += 3) {
-      const q = rungPointQuanta(bars.meta, k, undefined, lines)!;
-      const i = indexOf.get(`${q.jUpper},${q.kUpper},${q.jLower},${q.kLower}`)!;
-      expect(bars.x[k]).toBe(lines.wavenumberCm1[i]);
-      expect(bars.hovertext[k]).toMatch(new RegExp(`^line ${i} assigned`));
     }
   });
 });

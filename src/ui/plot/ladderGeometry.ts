@@ -1,13 +1,11 @@
 /**
  * Geometry of the sub-branch ladders drawn above the trace: one row per (ΔK, K'') series, P rungs
  * hanging below the row line, R rungs standing above it, Q rungs through it; rung length grows with
- * the line's intensity. Pure: ladders and lines in, plotly trace objects out.
+ * the line's intensity. Pure: ladders in, rows and rung extents out (painted by ladderScene).
  */
-import type { Data } from 'plotly.js';
 import type { Ladder } from '../../physics/bandLadders';
 import { lineLabelHtml } from '../../physics/lineLabel';
-import type { LineList, TopShape, TransitionQuanta } from '../../physics/model';
-import { ladderColour } from './plotColours';
+import type { TopShape } from '../../physics/model';
 
 /** One row of the ladder panel: every branch (P, Q, R) of one ΔK and K''. */
 export interface LadderRow {
@@ -93,120 +91,4 @@ export function rungTip(deltaJ: number, intensity: number): number {
  */
 export function ladderLabelTemplate(ladder: Pick<Ladder, 'deltaK' | 'deltaJ' | 'kLower'>, shape: TopShape): string {
   return lineLabelHtml(ladder.deltaK, ladder.deltaJ, ladder.kLower, 0, shape).replace(/\(0\)$/, '(%{text})');
-}
-
-/**
- * Quantum numbers of a clicked rung point: ladder traces carry, in their meta, the index into the
- * line list of every vertex (`lineIndex`); the marker traces (assigned, cursor) carry
- * [J', K', J'', K''] as customdata.
- * @param meta the clicked trace's meta
- * @param pointNumber the clicked vertex
- * @param customdata the clicked vertex's customdata
- * @param lines the line list the ladder traces were built from
- * @returns the quanta, or null when the point is not a rung
- */
-export function rungPointQuanta(
-  meta: { lineIndex?: readonly (number | null)[] } | undefined,
-  pointNumber: unknown,
-  customdata: unknown,
-  lines: LineList,
-): TransitionQuanta | null {
-  if (meta && Array.isArray(meta.lineIndex)) {
-    const i = typeof pointNumber === 'number' ? meta.lineIndex[pointNumber] : null;
-    if (i === null || i === undefined || !(i >= 0 && i < lines.count)) return null;
-    return { jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i] };
-  }
-  if (Array.isArray(customdata) && customdata.length >= 4 && customdata.every((v) => Number.isInteger(v))) {
-    return { jUpper: customdata[0], kUpper: customdata[1], jLower: customdata[2], kLower: customdata[3] };
-  }
-  return null;
-}
-
-/** Options of ladderTracesBuild. */
-export interface LadderTracesOptions {
-  /** Visible x range, cm^-1; rungs outside it (plus 2 % margin) are left out. */
-  xRangeCm1: [number, number];
-  /** Plotly axis ids the rows are drawn on. @default 'x' and 'y2' */
-  xaxis?: string;
-  yaxis?: string;
-  /** Dark theme (lighter colours). @default false */
-  isDark?: boolean;
-}
-
-/**
- * Plotly traces of the ladder rows: one trace per colour and line width (rows of one ΔK share a
- * hue every 8 K'' values; Q rungs are drawn wider); each series is one polyline of 4 vertices per
- * rung (row line, rung ends, row line), series separated by null gaps. Few traces and few SVG paths: their number is most of plotly's
- * redraw cost after a zoom. Every vertex carries its line label as text and its intensity as customdata (flat
- * arrays: nested customdata makes plotly's redraw several times slower); meta.lineIndex maps each
- * vertex back to the line list for clicks (rungPointQuanta).
- * @param rows ladder rows (ladderRowsBuild)
- * @param lines the line list the ladders index
- * @param shape top shape (for labels)
- * @param options visible range (cm^-1), axes, theme
- */
-export function ladderTracesBuild(rows: readonly LadderRow[], lines: LineList, shape: TopShape, options: LadderTracesOptions): Data[] {
-  const [from, to] = options.xRangeCm1;
-  const margin = 0.02 * (to - from);
-  const lo = from - margin;
-  const hi = to + margin;
-  type Group = { colour: string; width: number; deltaK: number; x: (number | null)[]; y: (number | null)[]; text: (string | null)[]; inten: (number | null)[]; lineIndex: (number | null)[] };
-  const groups = new Map<string, Group>();
-  for (const row of rows) {
-    const colour = ladderColour(row.deltaK, row.kLower, options.isDark ?? false);
-    for (const ladder of row.ladders) {
-      const width = ladder.deltaJ === 0 ? 2.2 : 1.6;
-      const gkey = `${colour}|${width}`;
-      let g = groups.get(gkey);
-      const template = ladderLabelTemplate(ladder, shape);
-      let isOpen = false;
-      for (const i of ladder.lineIndex) {
-        const nu = lines.wavenumberCm1[i];
-        if (nu < lo || nu > hi) continue;
-        if (!g) {
-          g = { colour, width, deltaK: row.deltaK, x: [], y: [], text: [], inten: [], lineIndex: [] };
-          groups.set(gkey, g);
-        }
-        // Rungs of one series are joined along the row line (base → ends → base), so the series is
-        // one SVG path: plotly draws every null-separated piece as a path of its own, and thousands
-        // of paths were most of a redraw. Only series are separated by nulls.
-        const [b, t] = rungExtent(ladder.deltaJ, lines.intensity[i]);
-        const label = template.replace('%{text}', String(lines.jLower[i]));
-        const inten = lines.intensity[i];
-        g.x.push(nu, nu, nu, nu);
-        g.y.push(row.y, row.y + b, row.y + t, row.y);
-        g.text.push(label, label, label, label);
-        g.inten.push(inten, inten, inten, inten);
-        g.lineIndex.push(i, i, i, i);
-        isOpen = true;
-      }
-      if (g && isOpen) {
-        g.x.push(null);
-        g.y.push(null);
-        g.text.push(null);
-        g.inten.push(null);
-        g.lineIndex.push(null);
-      }
-    }
-  }
-  const out: Data[] = [];
-  for (const g of groups.values()) {
-    out.push({
-      type: 'scatter',
-      mode: 'lines',
-      name: `ladders ${g.colour}`,
-      x: g.x,
-      y: g.y,
-      xaxis: options.xaxis ?? 'x',
-      yaxis: options.yaxis ?? 'y2',
-      connectgaps: false,
-      line: { color: g.colour, width: g.width },
-      hovertemplate: '%{text}<br>%{x:.4f} cm⁻¹<br>rel. intensity %{customdata:.3g}<extra></extra>',
-      text: g.text as string[],
-      customdata: g.inten as unknown as number[],
-      meta: { kind: 'rungs', deltaK: g.deltaK, lineIndex: g.lineIndex },
-      showlegend: false,
-    } as Data);
-  }
-  return out;
 }

@@ -1,0 +1,218 @@
+/**
+ * The main plot's canvas overlay: paints the ladder panel (rungs, row names, assigned markers, the
+ * selected rung) and the peak markers over plotly's axes whenever plotly has drawn or is panning;
+ * shows a tooltip for what is under the pointer; turns clicks into rung, peak and trace clicks.
+ * No decisions of its own.
+ */
+import { useEffect, useImperativeHandle, useRef, type Ref } from 'react';
+import { lineLabelAscii } from '../physics/lineLabel';
+import type { LineList, TopShape } from '../physics/model';
+import { ladderHitTest, ladderScenePaint, ladderStrongestInView, ladderTipHtml, type LadderMarkers, type LadderScene, type LadderView } from './plot/ladderScene';
+import { peakLayerHitTest, peakLayerPaint, peakLayerPixel, peakLayerTipHtml, peakLayerVisible, type PeakLayer } from './plot/peakLayer';
+import { plotTheme } from './plot/plotColours';
+
+/** What the chart hands over after each draw: the plot element, and the x range while panning. */
+export interface PlotOverlayHandle {
+  paint(plotEl: HTMLElement, xRangeOverrideCm1?: [number, number]): void;
+}
+
+interface AxisLayout {
+  range: number[];
+  _offset: number;
+  _length: number;
+}
+
+export interface PlotOverlayProps {
+  ref?: Ref<PlotOverlayHandle>;
+  scene: LadderScene;
+  markers: LadderMarkers | null;
+  /** Line index of the selected rung, or −1. */
+  cursorLine: number;
+  lines: LineList;
+  shape: TopShape;
+  peaks: PeakLayer | null;
+  isDark: boolean;
+  onRungClick: (lineIndex: number) => void;
+  onPeakClick: (peakIndex: number) => void;
+  /** A click in the trace panel away from any marker: position (cm^-1) and visible width (cm^-1). */
+  onTraceClick: (positionCm1: number, visibleWidthCm1: number) => void;
+}
+
+/** Views of the two panels in canvas CSS px, from plotly's laid-out axes. */
+interface Views {
+  ladder: LadderView | null;
+  trace: LadderView | null;
+}
+
+/** Peak read-out for tests: up to this many free markers' positions. */
+const FREE_PEAKS_LISTED = 40;
+
+export function PlotOverlay(props: PlotOverlayProps) {
+  const canvasRef = useRef<HTMLCanvasElement>(null);
+  const tipRef = useRef<HTMLDivElement>(null);
+  const latest = useRef(props);
+  latest.current = props;
+  const viewsRef = useRef<Views>({ ladder: null, trace: null });
+  const drawnPeaksRef = useRef<Int32Array>(new Int32Array(0));
+  const plotRef = useRef<{ el: HTMLElement; override?: [number, number] } | null>(null);
+
+  const paint = () => {
+    const canvas = canvasRef.current;
+    const plot = plotRef.current;
+    if (!canvas || !plot) return;
+    const fl = (plot.el as unknown as { _fullLayout?: { xaxis?: AxisLayout; yaxis?: AxisLayout; yaxis2?: AxisLayout } })._fullLayout;
+    const cssW = canvas.clientWidth;
+    const cssH = canvas.clientHeight;
+    const dpr = window.devicePixelRatio || 1;
+    if (canvas.width !== Math.round(cssW * dpr) || canvas.height !== Math.round(cssH * dpr)) {
+      canvas.width = Math.round(cssW * dpr);
+      canvas.height = Math.round(cssH * dpr);
+    }
+    const ctx = canvas.getContext('2d');
+    if (!ctx) return;
+    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+    ctx.clearRect(0, 0, cssW, cssH);
+    const xa = fl?.xaxis;
+    if (!xa || !Array.isArray(xa.range)) {
+      viewsRef.current = { ladder: null, trace: null };
+      return;
+    }
+    const cr = canvas.getBoundingClientRect();
+    const pr = plot.el.getBoundingClientRect();
+    const [x0, x1] = plot.override ?? [Number(xa.range[0]), Number(xa.range[1])];
+    const viewOf = (ya: AxisLayout | undefined): LadderView | null =>
+      ya && Array.isArray(ya.range)
+        ? { x0Cm1: x0, x1Cm1: x1, y0: Number(ya.range[0]), y1: Number(ya.range[1]), leftPx: pr.left - cr.left + xa._offset, topPx: pr.top - cr.top + ya._offset, widthPx: xa._length, heightPx: ya._length }
+        : null;
+    const views: Views = { ladder: viewOf(fl?.yaxis2), trace: viewOf(fl?.yaxis) };
+    viewsRef.current = views;
+    const p = latest.current;
+    const theme = plotTheme(p.isDark);
+    // Read-outs for tests and checks: what is drawn, the selected rung, and where the strongest rung
+    // and some free peaks sit (canvas CSS px).
+    const data = canvas.dataset;
+    if (views.ladder) {
+      data.rungsDrawn = String(ladderScenePaint(ctx, p.scene, p.markers, p.cursorLine, views.ladder, theme));
+      const strongest = ladderStrongestInView(p.scene, p.lines, views.ladder);
+      data.strongestRung = strongest ? `${strongest.xPx.toFixed(1)},${strongest.yPx.toFixed(1)}` : '';
+    }
+    data.selectedRung = p.cursorLine >= 0 && p.cursorLine < p.lines.count ? ascii(p.lines, p.cursorLine, p.shape) : '';
+    if (views.trace && p.peaks) {
+      const drawn = peakLayerVisible(p.peaks, views.trace.x0Cm1, views.trace.x1Cm1);
+      drawnPeaksRef.current = drawn;
+      data.peaksDrawn = String(peakLayerPaint(ctx, p.peaks, drawn, views.trace, theme));
+      // Free markers inside the panel, spread evenly over the drawn ones.
+      const inside: number[] = [];
+      for (const i of drawn) {
+        if (p.peaks.isAssigned[i]) continue;
+        const q = peakLayerPixel(p.peaks, i, views.trace);
+        if (q.yPx >= views.trace.topPx && q.yPx <= views.trace.topPx + views.trace.heightPx) inside.push(i);
+      }
+      const stride = Math.max(1, Math.ceil(inside.length / FREE_PEAKS_LISTED));
+      const free: string[] = [];
+      for (let k = 0; k < inside.length; k += stride) {
+        const q = peakLayerPixel(p.peaks, inside[k], views.trace);
+        free.push(`${q.xPx.toFixed(1)},${q.yPx.toFixed(1)}`);
+      }
+      data.freePeaks = free.join(';');
+    } else {
+      drawnPeaksRef.current = new Int32Array(0);
+      data.peaksDrawn = '0';
+      data.freePeaks = '';
+    }
+  };
+
+  useImperativeHandle(
+    props.ref,
+    () => ({
+      paint(el, override) {
+        plotRef.current = { el, override };
+        paint();
+      },
+    }),
+    [],
+  );
+
+  // Repaint when what is drawn changes (the plot itself may not redraw).
+  useEffect(() => {
+    paint();
+  }, [props.scene, props.markers, props.cursorLine, props.peaks, props.isDark]);
+
+  useEffect(() => {
+    const canvas = canvasRef.current;
+    const host = canvas?.parentElement;
+    if (!canvas || !host) return;
+    type Hit = { html: string; xPx: number; yPx: number; act: () => void } | null;
+    const hitAt = (e: MouseEvent): Hit => {
+      const views = viewsRef.current;
+      const r = canvas.getBoundingClientRect();
+      const x = e.clientX - r.left;
+      const y = e.clientY - r.top;
+      const p = latest.current;
+      if (views.ladder) {
+        const hit = ladderHitTest(p.scene, p.markers, views.ladder, x, y);
+        if (hit) return { html: ladderTipHtml(hit, p.markers, p.lines, p.shape, hit.lineIndex === p.cursorLine), xPx: hit.xPx, yPx: hit.yPx, act: () => p.onRungClick(hit.lineIndex) };
+      }
+      const tv = views.trace;
+      if (tv && p.peaks) {
+        const i = peakLayerHitTest(p.peaks, drawnPeaksRef.current, tv, x, y);
+        if (i >= 0) {
+          const q = peakLayerPixel(p.peaks, i, tv);
+          return { html: peakLayerTipHtml(p.peaks, i), xPx: q.xPx, yPx: q.yPx, act: () => p.onPeakClick(i) };
+        }
+      }
+      if (tv && x >= tv.leftPx && x <= tv.leftPx + tv.widthPx && y >= tv.topPx && y <= tv.topPx + tv.heightPx) {
+        const nu = tv.x0Cm1 + ((x - tv.leftPx) / tv.widthPx) * (tv.x1Cm1 - tv.x0Cm1);
+        return { html: '', xPx: x, yPx: y, act: () => p.onTraceClick(nu, Math.abs(tv.x1Cm1 - tv.x0Cm1)) };
+      }
+      return null;
+    };
+    const hide = () => {
+      if (tipRef.current) tipRef.current.hidden = true;
+    };
+    const onMove = (e: MouseEvent) => {
+      const tip = tipRef.current;
+      if (!tip) return;
+      if (e.buttons !== 0 || !(e.target instanceof Element) || !e.target.closest('.plot-surface')) return hide();
+      const hit = hitAt(e);
+      if (!hit || !hit.html) return hide();
+      tip.innerHTML = hit.html;
+      tip.hidden = false;
+      const w = canvas.clientWidth;
+      const left = hit.xPx + 14 + tip.offsetWidth > w ? hit.xPx - 14 - tip.offsetWidth : hit.xPx + 14;
+      tip.style.left = `${Math.max(0, left)}px`;
+      tip.style.top = `${Math.max(0, hit.yPx - tip.offsetHeight / 2)}px`;
+    };
+    // Plotly re-dispatches a click on its drag layer after the browser's own; one pointer click
+    // (same place, same moment) acts once.
+    let last = { x: NaN, y: NaN, t: -Infinity };
+    const onClick = (e: MouseEvent) => {
+      if (e.clientX === last.x && e.clientY === last.y && e.timeStamp - last.t < 250) return;
+      // Only clicks on the plot itself (not on the candidate list, notes or tooltips above it).
+      if (!(e.target instanceof Element) || !e.target.closest('.plot-surface')) return;
+      last = { x: e.clientX, y: e.clientY, t: e.timeStamp };
+      hitAt(e)?.act();
+    };
+    host.addEventListener('mousemove', onMove);
+    host.addEventListener('mouseleave', hide);
+    host.addEventListener('mousedown', hide);
+    host.addEventListener('click', onClick);
+    return () => {
+      host.removeEventListener('mousemove', onMove);
+      host.removeEventListener('mouseleave', hide);
+      host.removeEventListener('mousedown', hide);
+      host.removeEventListener('click', onClick);
+    };
+  }, []);
+
+  return (
+    <>
+      <canvas ref={canvasRef} className="plot-overlay" data-testid="plot-overlay" aria-hidden="true" />
+      <div ref={tipRef} className="plot-tip" role="tooltip" data-testid="plot-tip" hidden />
+    </>
+  );
+}
+
+function ascii(lines: LineList, i: number, shape: TopShape): string {
+  return lineLabelAscii(lines.kUpper[i] - lines.kLower[i], lines.jUpper[i] - lines.jLower[i], lines.kLower[i], lines.jLower[i], shape);
+}

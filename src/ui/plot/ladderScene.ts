@@ -1,0 +1,456 @@
+/**
+ * The ladder panel drawn on a 2D canvas instead of as plotly traces: every rung is one short line,
+ * so tens of thousands of rungs cost a few milliseconds per redraw, and a zoom or pan never makes
+ * plotly recompute them. Pure: the scene is plain data built once per model (not per view), the
+ * painter takes any object with the CanvasRenderingContext2D calls it uses, and hit testing maps a
+ * pointer position back to a line of the line list.
+ */
+import { lineLabelHtml } from '../../physics/lineLabel';
+import type { LineList, TopShape } from '../../physics/model';
+import type { AssignmentRow } from '../../state/selectors';
+import { ladderLabelTemplate, rungExtent, rungTip, type LadderRow } from './ladderGeometry';
+import { ladderColour, type PlotTheme } from './plotColours';
+import { sortedLowerBound } from './traceDecimate';
+
+/** Rungs of one colour and line width, drawn as one canvas path. */
+export interface LadderStyleGroup {
+  colour: string;
+  widthPx: number;
+  /** Series of the group: index ranges [start, end) into the scene's rung arrays. */
+  series: { start: number; end: number; rowY: number }[];
+}
+
+/** Everything the ladder panel draws that depends on the model only (not on the view). */
+export interface LadderScene {
+  /** Each row's name split into runs (drawn left of the panel). */
+  rowLabels: MarkupRun[][];
+  /** Rung position, cm^-1, in series order (series are contiguous). */
+  nuCm1: Float64Array;
+  /** Rung ends on the ladder axis (row centre ± extent). */
+  yBottom: Float64Array;
+  yTop: Float64Array;
+  /** Index of the rung's line in the line list. */
+  lineIndex: Int32Array;
+  /** Index of the rung's row in `rows`. */
+  rowIndex: Int32Array;
+  groups: LadderStyleGroup[];
+  /** Per row: its rungs sorted by position (indices into the rung arrays), for hit testing. */
+  rowOrder: Int32Array[];
+  /** Per row: the sorted positions matching rowOrder, cm^-1. */
+  rowNuCm1: Float64Array[];
+  rows: readonly LadderRow[];
+}
+
+/** Assigned-line markers (the green dots and red crosses on rungs). */
+export interface LadderMarkers {
+  nuCm1: Float64Array;
+  /** Marker centre on the ladder axis (the rung's tip). */
+  y: Float64Array;
+  /** 1 = far from the prediction or a fit outlier (drawn as a cross), 0 = fine. */
+  isFlagged: Uint8Array;
+  lineIndex: Int32Array;
+  /** The table row of each marker (its tooltip is made from it when hovered). */
+  rows: AssignmentRow[];
+}
+
+/** The visible window of the ladder panel, in data and in CSS pixels relative to the canvas. */
+export interface LadderView {
+  /** Visible x range, cm^-1 (x0 < x1 or reversed; either works). */
+  x0Cm1: number;
+  x1Cm1: number;
+  /** Ladder axis range [bottom, top]. */
+  y0: number;
+  y1: number;
+  /** The panel's box inside the canvas, CSS px. */
+  leftPx: number;
+  topPx: number;
+  widthPx: number;
+  heightPx: number;
+}
+
+/** What a pointer is over. */
+export type LadderHit =
+  | { kind: 'rung'; lineIndex: number; xPx: number; yPx: number }
+  | { kind: 'marker'; marker: number; lineIndex: number; xPx: number; yPx: number };
+
+/** The 2D-context calls the painter uses (CanvasRenderingContext2D has them all). */
+export interface LadderPaintContext {
+  strokeStyle: string | CanvasGradient | CanvasPattern;
+  fillStyle: string | CanvasGradient | CanvasPattern;
+  lineWidth: number;
+  beginPath(): void;
+  moveTo(x: number, y: number): void;
+  lineTo(x: number, y: number): void;
+  arc(x: number, y: number, r: number, a0: number, a1: number): void;
+  closePath(): void;
+  stroke(): void;
+  fill(): void;
+  save(): void;
+  restore(): void;
+  rect(x: number, y: number, w: number, h: number): void;
+  clip(): void;
+  font: string;
+  textBaseline: CanvasTextBaseline;
+  fillText(text: string, x: number, y: number): void;
+  measureText(text: string): { width: number };
+}
+
+/** A run of label text: plain, superscript or subscript. */
+export interface MarkupRun {
+  text: string;
+  kind: 'plain' | 'sup' | 'sub';
+}
+
+/**
+ * Split our own label markup (plain text with <sup>…</sup> and <sub>…</sub>, as lineLabelHtml and
+ * the row names produce) into runs; any other tag is dropped, entities are not used by our labels.
+ * @param html label markup
+ */
+export function markupRuns(html: string): MarkupRun[] {
+  const runs: MarkupRun[] = [];
+  const re = /<(sup|sub)>(.*?)<\/\1>/g;
+  let at = 0;
+  const plain = (t: string) => {
+    const text = t.replace(/<[^>]*>/g, '');
+    if (text) runs.push({ text, kind: 'plain' });
+  };
+  for (let m = re.exec(html); m; m = re.exec(html)) {
+    plain(html.slice(at, m.index));
+    const text = m[2].replace(/<[^>]*>/g, '');
+    if (text) runs.push({ text, kind: m[1] as 'sup' | 'sub' });
+    at = m.index + m[0].length;
+  }
+  plain(html.slice(at));
+  return runs;
+}
+
+/**
+ * Paint a label right-aligned at (xRight, yMiddle): sub- and superscripts at 75 % size, shifted.
+ * @returns the label's width, px
+ */
+export function markupPaint(ctx: LadderPaintContext, runs: readonly MarkupRun[], xRight: number, yMiddle: number, sizePx: number, family: string): number {
+  const small = Math.round(sizePx * 0.75 * 10) / 10;
+  const fontOf = (r: MarkupRun) => `${r.kind === 'plain' ? sizePx : small}px ${family}`;
+  const widths = runs.map((r) => {
+    ctx.font = fontOf(r);
+    return ctx.measureText(r.text).width;
+  });
+  const total = widths.reduce((a, b) => a + b, 0);
+  let x = xRight - total;
+  ctx.textBaseline = 'middle';
+  runs.forEach((r, i) => {
+    ctx.font = fontOf(r);
+    const dy = r.kind === 'sup' ? -0.35 * sizePx : r.kind === 'sub' ? 0.3 * sizePx : 0;
+    ctx.fillText(r.text, x, yMiddle + dy);
+    x += widths[i];
+  });
+  return total;
+}
+
+/** Font family of the row names (the plots' font). */
+const LABEL_FONT = 'system-ui, sans-serif';
+
+/** Most assigned markers drawn as dots; past this many in view they are drawn as short bars. */
+export const LADDER_DOTS_MAX = 400;
+
+/** Half length of an assigned bar (ladder-axis units; rows are 1 apart). */
+const BAR_HALF = 0.09;
+
+/**
+ * Build the scene of the ladder rows: one entry per rung, grouped by colour and width (Q rungs
+ * wider), each series contiguous.
+ * @param rows ladder rows (ladderRowsBuild)
+ * @param lines the line list the ladders index
+ * @param isDark dark theme colours
+ */
+export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, isDark: boolean): LadderScene {
+  let n = 0;
+  for (const row of rows) for (const l of row.ladders) n += l.lineIndex.length;
+  const nuCm1 = new Float64Array(n);
+  const yBottom = new Float64Array(n);
+  const yTop = new Float64Array(n);
+  const lineIndex = new Int32Array(n);
+  const rowIndex = new Int32Array(n);
+  const groups = new Map<string, LadderStyleGroup>();
+  const perRow: number[][] = rows.map(() => []);
+  let k = 0;
+  rows.forEach((row, r) => {
+    const colour = ladderColour(row.deltaK, row.kLower, isDark);
+    for (const ladder of row.ladders) {
+      if (ladder.lineIndex.length === 0) continue;
+      const widthPx = ladder.deltaJ === 0 ? 2.2 : 1.6;
+      const key = `${colour}|${widthPx}`;
+      let g = groups.get(key);
+      if (!g) groups.set(key, (g = { colour, widthPx, series: [] }));
+      const start = k;
+      for (const i of ladder.lineIndex) {
+        const [b, t] = rungExtent(ladder.deltaJ, lines.intensity[i]);
+        nuCm1[k] = lines.wavenumberCm1[i];
+        yBottom[k] = row.y + b;
+        yTop[k] = row.y + t;
+        lineIndex[k] = i;
+        rowIndex[k] = r;
+        perRow[r].push(k);
+        k++;
+      }
+      g.series.push({ start, end: k, rowY: row.y });
+    }
+  });
+  const rowOrder = perRow.map((list) => Int32Array.from(list.sort((a, b) => nuCm1[a] - nuCm1[b])));
+  const rowNuCm1 = rowOrder.map((order) => Float64Array.from(order, (q) => nuCm1[q]));
+  const rowLabels = rows.map((r) => markupRuns(r.tickHtml));
+  return { rowLabels, nuCm1, yBottom, yTop, lineIndex, rowIndex, groups: [...groups.values()], rowOrder, rowNuCm1, rows };
+}
+
+/**
+ * Markers of the assigned lines that have a rung in the scene's rows.
+ * @param assignments rows of the assignments table
+ * @param rows ladder rows shown
+ * @param lines line list
+ * @param indexOf quanta key "J',K',J'',K''" → line index
+ */
+export function ladderMarkersBuild(assignments: readonly AssignmentRow[], rows: readonly LadderRow[], lines: LineList, indexOf: ReadonlyMap<string, number>): LadderMarkers {
+  const rowY = new Map(rows.map((r) => [r.key, r.y]));
+  const nu: number[] = [];
+  const y: number[] = [];
+  const flag: number[] = [];
+  const line: number[] = [];
+  const kept: AssignmentRow[] = [];
+  for (const r of assignments) {
+    const a = r.a;
+    const i = indexOf.get(`${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
+    if (i === undefined) continue;
+    const y0 = rowY.get(`${'pqr'[r.deltaK + 1]}:${a.kLower}`);
+    if (y0 === undefined) continue;
+    nu.push(lines.wavenumberCm1[i]);
+    y.push(y0 + rungTip(r.deltaJ, lines.intensity[i]));
+    flag.push(r.isFar || r.isOutlier ? 1 : 0);
+    line.push(i);
+    kept.push(r);
+  }
+  return { nuCm1: Float64Array.from(nu), y: Float64Array.from(y), isFlagged: Uint8Array.from(flag), lineIndex: Int32Array.from(line), rows: kept };
+}
+
+/** Data → CSS px maps of a view. */
+export function viewMaps(view: LadderView): { px: (nu: number) => number; py: (y: number) => number } {
+  const sx = view.widthPx / (view.x1Cm1 - view.x0Cm1);
+  const sy = view.heightPx / (view.y1 - view.y0);
+  return {
+    px: (nu) => view.leftPx + (nu - view.x0Cm1) * sx,
+    py: (y) => view.topPx + (view.y1 - y) * sy,
+  };
+}
+
+/**
+ * Paint the ladder panel: rungs and series lines, then the assigned markers, then the cursor ring.
+ * Only what lies inside the view (plus one pixel) is drawn; the panel box is clipped.
+ * @param ctx a 2D context already scaled to CSS px
+ * @param scene from ladderSceneBuild
+ * @param markers from ladderMarkersBuild (or null)
+ * @param cursorLine line index of the selected rung, or -1
+ * @param view visible window
+ * @param theme colours
+ * @returns the number of rungs drawn
+ */
+export function ladderScenePaint(ctx: LadderPaintContext, scene: LadderScene, markers: LadderMarkers | null, cursorLine: number, view: LadderView, theme: PlotTheme): number {
+  if (!(view.widthPx > 0 && view.heightPx > 0) || view.x1Cm1 === view.x0Cm1) return 0;
+  const { px, py } = viewMaps(view);
+  const lo = Math.min(view.x0Cm1, view.x1Cm1);
+  const hi = Math.max(view.x0Cm1, view.x1Cm1);
+  const pad = (hi - lo) / view.widthPx;
+  // Row names left of the panel, right-aligned 6 px from its edge.
+  const sizePx = scene.rows.length > 24 ? 8 : scene.rows.length > 14 ? 9 : 10;
+  ctx.fillStyle = theme.text;
+  scene.rows.forEach((row, r) => {
+    const y = py(row.y);
+    if (y >= view.topPx - 1 && y <= view.topPx + view.heightPx + 1) markupPaint(ctx, scene.rowLabels[r], view.leftPx - 6, y, sizePx, LABEL_FONT);
+  });
+  ctx.save();
+  ctx.beginPath();
+  ctx.rect(view.leftPx, view.topPx, view.widthPx, view.heightPx);
+  ctx.clip();
+  let drawn = 0;
+  for (const g of scene.groups) {
+    ctx.strokeStyle = g.colour;
+    ctx.lineWidth = g.widthPx;
+    ctx.beginPath();
+    for (const s of g.series) {
+      let first = Infinity;
+      let last = -Infinity;
+      for (let k = s.start; k < s.end; k++) {
+        const nu = scene.nuCm1[k];
+        if (nu < lo - pad || nu > hi + pad) continue;
+        // Centre of a device pixel column keeps thin rungs crisp.
+        const x = Math.round(px(nu)) + 0.5;
+        ctx.moveTo(x, py(scene.yBottom[k]));
+        ctx.lineTo(x, py(scene.yTop[k]));
+        if (x < first) first = x;
+        if (x > last) last = x;
+        drawn++;
+      }
+      if (last > first) {
+        const y = Math.round(py(s.rowY)) + 0.5;
+        ctx.moveTo(first, y);
+        ctx.lineTo(last, y);
+      }
+    }
+    ctx.stroke();
+  }
+  if (markers) markersPaint(ctx, markers, px, py, lo - pad, hi + pad, theme);
+  if (cursorLine >= 0) {
+    const k = scene.lineIndex.indexOf(cursorLine);
+    if (k >= 0) {
+      const row = scene.rows[scene.rowIndex[k]];
+      // The rung's tip: the lower end of a P rung (which hangs from its row line), else the upper.
+      const tipY = scene.yTop[k] > row.y ? scene.yTop[k] : scene.yBottom[k];
+      ctx.strokeStyle = theme.cursor;
+      ctx.lineWidth = 2.5;
+      ctx.beginPath();
+      ctx.arc(px(scene.nuCm1[k]), py(tipY), 7.5, 0, 2 * Math.PI);
+      ctx.stroke();
+    }
+  }
+  ctx.restore();
+  return drawn;
+}
+
+function markersPaint(ctx: LadderPaintContext, m: LadderMarkers, px: (nu: number) => number, py: (y: number) => number, lo: number, hi: number, theme: PlotTheme): void {
+  let nOk = 0;
+  for (let k = 0; k < m.nuCm1.length; k++) if (!m.isFlagged[k] && m.nuCm1[k] >= lo && m.nuCm1[k] <= hi) nOk++;
+  const isDense = nOk > LADDER_DOTS_MAX;
+  // Fine markers: dots with a thin paper-coloured ring (bars when thousands are in view).
+  ctx.beginPath();
+  for (let k = 0; k < m.nuCm1.length; k++) {
+    const nu = m.nuCm1[k];
+    if (m.isFlagged[k] || nu < lo || nu > hi) continue;
+    const x = px(nu);
+    if (isDense) {
+      const xs = Math.round(x) + 0.5;
+      ctx.moveTo(xs, py(m.y[k] - BAR_HALF));
+      ctx.lineTo(xs, py(m.y[k] + BAR_HALF));
+    } else {
+      const y = py(m.y[k]);
+      ctx.moveTo(x + 3.5, y);
+      ctx.arc(x, y, 3.5, 0, 2 * Math.PI);
+    }
+  }
+  if (isDense) {
+    ctx.strokeStyle = theme.assigned;
+    ctx.lineWidth = 4;
+    ctx.stroke();
+  } else {
+    ctx.fillStyle = theme.assigned;
+    ctx.fill();
+    ctx.strokeStyle = theme.paper;
+    ctx.lineWidth = 1;
+    ctx.stroke();
+  }
+  // Flagged markers: crosses.
+  ctx.beginPath();
+  for (let k = 0; k < m.nuCm1.length; k++) {
+    const nu = m.nuCm1[k];
+    if (!m.isFlagged[k] || nu < lo || nu > hi) continue;
+    const x = px(nu);
+    const y = py(m.y[k]);
+    ctx.moveTo(x - 4, y - 4);
+    ctx.lineTo(x + 4, y + 4);
+    ctx.moveTo(x - 4, y + 4);
+    ctx.lineTo(x + 4, y - 4);
+  }
+  ctx.strokeStyle = theme.flagged;
+  ctx.lineWidth = 2;
+  ctx.stroke();
+}
+
+/**
+ * What lies under a pointer: an assigned marker within 6 px, else the nearest rung of the row under
+ * the pointer within `tolerancePx` horizontally.
+ * @param scene the scene
+ * @param markers the markers (or null)
+ * @param view the view the scene was painted with
+ * @param xPx pointer x, CSS px in the canvas
+ * @param yPx pointer y, CSS px in the canvas
+ * @param tolerancePx largest horizontal distance to a rung, px @default 5
+ */
+export function ladderHitTest(scene: LadderScene, markers: LadderMarkers | null, view: LadderView, xPx: number, yPx: number, tolerancePx = 5): LadderHit | null {
+  if (xPx < view.leftPx || xPx > view.leftPx + view.widthPx || yPx < view.topPx || yPx > view.topPx + view.heightPx) return null;
+  const { px, py } = viewMaps(view);
+  if (markers) {
+    let best = -1;
+    let bestD = 36;
+    for (let k = 0; k < markers.nuCm1.length; k++) {
+      const dx = px(markers.nuCm1[k]) - xPx;
+      if (dx * dx > bestD) continue;
+      const dy = py(markers.y[k]) - yPx;
+      if (dx * dx + dy * dy < bestD) {
+        bestD = dx * dx + dy * dy;
+        best = k;
+      }
+    }
+    if (best >= 0) return { kind: 'marker', marker: best, lineIndex: markers.lineIndex[best], xPx: px(markers.nuCm1[best]), yPx: py(markers.y[best]) };
+  }
+  const yData = view.y1 - ((yPx - view.topPx) / view.heightPx) * (view.y1 - view.y0);
+  const rowY = Math.round(yData);
+  const r = scene.rows.findIndex((row) => row.y === rowY);
+  if (r < 0 || Math.abs(yData - rowY) > 0.5) return null;
+  const nuAt = view.x0Cm1 + ((xPx - view.leftPx) / view.widthPx) * (view.x1Cm1 - view.x0Cm1);
+  const sorted = scene.rowNuCm1[r];
+  const at = sortedLowerBound(sorted, nuAt);
+  let best = -1;
+  let bestD = tolerancePx;
+  for (const j of [at - 1, at]) {
+    if (j < 0 || j >= sorted.length) continue;
+    const d = Math.abs(px(sorted[j]) - xPx);
+    if (d <= bestD) {
+      bestD = d;
+      best = j;
+    }
+  }
+  if (best < 0) return null;
+  const k = scene.rowOrder[r][best];
+  return { kind: 'rung', lineIndex: scene.lineIndex[k], xPx: px(scene.nuCm1[k]), yPx: py((scene.yBottom[k] + scene.yTop[k]) / 2) };
+}
+
+/**
+ * Tooltip markup of a hit: a rung's label, position and relative intensity; an assigned marker's
+ * assignment text.
+ * @param hit from ladderHitTest
+ * @param markers the markers the hit refers to
+ * @param lines line list
+ * @param shape rotor shape (labels)
+ * @param isSelected the rung is the selected one (adds how to assign it)
+ */
+export function ladderTipHtml(hit: LadderHit, markers: LadderMarkers | null, lines: LineList, shape: TopShape, isSelected: boolean): string {
+  if (hit.kind === 'marker' && markers) {
+    const r = markers.rows[hit.marker];
+    const sig = r.omcSigma !== null ? ` (${r.omcSigma.toFixed(1)} σ)` : '';
+    return `${r.labelHtml} assigned<br>obs ${r.a.observedCm1.toFixed(4)} cm⁻¹<br>obs − calc ${r.omcCm1.toExponential(2)} cm⁻¹${sig}${r.isFar ? '<br>far from prediction' : ''}`;
+  }
+  const i = hit.lineIndex;
+  const dk = lines.kUpper[i] - lines.kLower[i];
+  const dj = lines.jUpper[i] - lines.jLower[i];
+  const label = ladderLabelTemplate({ deltaK: dk, deltaJ: dj, kLower: lines.kLower[i] }, shape).replace('%{text}', String(lines.jLower[i]));
+  const inten = Number(lines.intensity[i].toPrecision(3));
+  const base = `${label}<br>${lines.wavenumberCm1[i].toFixed(4)} cm⁻¹<br>rel. intensity ${inten}`;
+  return isSelected ? `${base}<br>selected: click a peak to assign` : base;
+}
+
+/** The scene's strongest rung inside the middle of a view (for keyboard focus and tests), or null. */
+export function ladderStrongestInView(scene: LadderScene, lines: LineList, view: LadderView): { lineIndex: number; xPx: number; yPx: number } | null {
+  const lo = Math.min(view.x0Cm1, view.x1Cm1);
+  const hi = Math.max(view.x0Cm1, view.x1Cm1);
+  const { px, py } = viewMaps(view);
+  let best = -1;
+  for (let k = 0; k < scene.nuCm1.length; k++) {
+    const nu = scene.nuCm1[k];
+    if (nu < lo + 0.3 * (hi - lo) || nu > hi - 0.3 * (hi - lo)) continue;
+    if (best < 0 || lines.intensity[scene.lineIndex[k]] > lines.intensity[scene.lineIndex[best]]) best = k;
+  }
+  if (best < 0) return null;
+  return { lineIndex: scene.lineIndex[best], xPx: px(scene.nuCm1[best]), yPx: py((scene.yBottom[best] + scene.yTop[best]) / 2) };
+}
+
+/** Label markup of a line (for the selected-rung readout). */
+export function ladderLineLabel(lines: LineList, i: number, shape: TopShape): string {
+  return lineLabelHtml(lines.kUpper[i] - lines.kLower[i], lines.jUpper[i] - lines.jLower[i], lines.kLower[i], lines.jLower[i], shape);
+}

@@ -1,0 +1,185 @@
+/**
+ * Peak markers painted on the plot's canvas overlay (not as plotly markers: every SVG marker cost
+ * every redraw). Built once per peak list, trace, ordinate and assignment state; each paint picks
+ * the strongest peaks in view. Pure, like ladderScene.
+ */
+import type { PeakList } from '../../analysis/peaksFind';
+import type { Trace } from '../../io/trace';
+import { sortedLowerBound } from '../../state/sortedSearch';
+import { viewMaps, type LadderPaintContext, type LadderView } from './ladderScene';
+import type { PlotTheme } from './plotColours';
+
+/** Largest number of peak markers drawn at once (the strongest by SNR in view are kept). */
+export const PEAK_MARKERS_MAX = 250;
+
+/** Radius of a peak marker, CSS px (an assigned one is drawn 0.75 px larger). */
+const MARKER_RADIUS_PX = 3.5;
+
+/** Peak markers ready to paint: position, height on the plotted ordinate, state. */
+export interface PeakLayer {
+  peaks: PeakList;
+  /** Peak positions, cm^-1 (ascending, as in the peak list). */
+  nuCm1: Float64Array;
+  /** Marker height: the trace's value at the peak on the plotted ordinate. */
+  y: Float64Array;
+  /** 1 = carries an assignment (filled marker). */
+  isAssigned: Uint8Array;
+  /** Label markup of a peak's assignment, or undefined (for its tooltip). */
+  assignedLabel: (positionCm1: number) => string | undefined;
+}
+
+/** Axis mapping of the trace panel, CSS px relative to the canvas (same form as the ladder panel's). */
+export type PanelView = LadderView;
+
+function traceValueAt(trace: Trace, positionCm1: number): number {
+  const x = trace.wavenumberCm1;
+  const k = Math.min(Math.max(sortedLowerBound(x, positionCm1), 0), x.length - 1);
+  const j = k > 0 && Math.abs(x[k - 1] - positionCm1) < Math.abs(x[k] - positionCm1) ? k - 1 : k;
+  return trace.absorbance[j];
+}
+
+/** The parts of a peak layer that do not depend on the assignments. */
+export type PeakLayerBase = Pick<PeakLayer, 'peaks' | 'nuCm1' | 'y'>;
+
+/**
+ * Positions and heights of the markers (once per peak list, trace and ordinate).
+ * @param peaks peak list (positions ascending)
+ * @param trace the trace the peaks were found in
+ * @param ordinate plotted ordinate (transmittance = 10^−A)
+ */
+export function peakLayerBase(peaks: PeakList, trace: Trace, ordinate: 'absorbance' | 'transmittance'): PeakLayerBase {
+  const n = peaks.count;
+  const y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const a = traceValueAt(trace, peaks.wavenumberCm1[i]);
+    y[i] = ordinate === 'transmittance' ? 10 ** -a : a;
+  }
+  return { peaks, nuCm1: peaks.wavenumberCm1.subarray(0, n), y };
+}
+
+/**
+ * Add the assignment state (once per change of the assignments): each assigned peak is found by
+ * its position, so the cost grows with the number of assignments, not of peaks.
+ * @param base from peakLayerBase
+ * @param assigned peak id → label markup of the (first) assignment on that peak
+ * @param peakId the store's peak id of a position (ids encode the position)
+ * @param idPositionCm1 the position an id encodes, cm^-1
+ */
+export function peakLayerBuild(base: PeakLayerBase, assigned: ReadonlyMap<string, string>, peakId: (positionCm1: number) => string, idPositionCm1: (id: string) => number): PeakLayer {
+  const nu = base.nuCm1;
+  const isAssigned = new Uint8Array(nu.length);
+  for (const id of assigned.keys()) {
+    const at = idPositionCm1(id);
+    if (!Number.isFinite(at)) continue;
+    const k = sortedLowerBound(nu, at);
+    for (const j of [k - 1, k, k + 1]) if (j >= 0 && j < nu.length && peakId(nu[j]) === id) isAssigned[j] = 1;
+  }
+  return { ...base, isAssigned, assignedLabel: (positionCm1) => assigned.get(peakId(positionCm1)) };
+}
+
+/** Tooltip markup of a peak: position, height, SNR, width, blend flag and its assignment. */
+export function peakLayerTipHtml(layer: PeakLayer, i: number): string {
+  const p = layer.peaks;
+  const nu = p.wavenumberCm1[i];
+  const label = layer.isAssigned[i] ? layer.assignedLabel(nu) : undefined;
+  return (
+    `peak ${nu.toFixed(4)} cm⁻¹<br>height ${p.height[i].toPrecision(3)} (SNR ${Number.isFinite(p.snr[i]) ? p.snr[i].toFixed(0) : '∞'})` +
+    `<br>FWHM ${p.fwhmCm1[i].toPrecision(2)} cm⁻¹${p.isBlend[i] ? '<br>blend' : ''}${label ? `<br>assigned ${label}` : ''}`
+  );
+}
+
+/**
+ * Indices of the peaks drawn in a view: all in the visible range, or the PEAK_MARKERS_MAX strongest
+ * by SNR when there are more (ascending position).
+ */
+export function peakLayerVisible(layer: PeakLayerBase, x0Cm1: number, x1Cm1: number): Int32Array {
+  const lo = sortedLowerBound(layer.nuCm1, Math.min(x0Cm1, x1Cm1));
+  const hi = sortedLowerBound(layer.nuCm1, Math.max(x0Cm1, x1Cm1));
+  const n = Math.max(hi - lo, 0);
+  const idx = Int32Array.from({ length: n }, (_, k) => lo + k);
+  if (n <= PEAK_MARKERS_MAX) return idx;
+  // Strongest first; an infinite SNR (noise-free trace) sorts first, NaN last.
+  const snr = layer.peaks.snr;
+  const bySnr = Array.from(idx).sort((a, b) => (snr[b] || 0) - (snr[a] || 0) || a - b);
+  return Int32Array.from(bySnr.slice(0, PEAK_MARKERS_MAX)).sort();
+}
+
+/**
+ * Paint the peak markers of a view: free peaks as open circles (blends as open diamonds), assigned
+ * peaks as filled circles with a paper-coloured ring.
+ * @param drawn indices from peakLayerVisible
+ * @returns the number of markers painted
+ */
+export function peakLayerPaint(ctx: LadderPaintContext, layer: PeakLayer, drawn: Int32Array, view: PanelView, theme: PlotTheme): number {
+  if (!(view.widthPx > 0 && view.heightPx > 0) || view.x1Cm1 === view.x0Cm1 || view.y1 === view.y0) return 0;
+  const { px, py } = viewMaps(view);
+  const r = MARKER_RADIUS_PX;
+  ctx.save();
+  ctx.beginPath();
+  ctx.rect(view.leftPx, view.topPx, view.widthPx, view.heightPx);
+  ctx.clip();
+  // Free peaks: one path of open shapes.
+  ctx.beginPath();
+  for (const i of drawn) {
+    if (layer.isAssigned[i]) continue;
+    const x = px(layer.nuCm1[i]);
+    const y = py(layer.y[i]);
+    if (layer.peaks.isBlend[i]) {
+      ctx.moveTo(x, y - r - 0.8);
+      ctx.lineTo(x + r + 0.8, y);
+      ctx.lineTo(x, y + r + 0.8);
+      ctx.lineTo(x - r - 0.8, y);
+      ctx.closePath();
+    } else {
+      ctx.moveTo(x + r, y);
+      ctx.arc(x, y, r, 0, 2 * Math.PI);
+    }
+  }
+  ctx.strokeStyle = theme.peak;
+  ctx.lineWidth = 1.3;
+  ctx.stroke();
+  // Assigned peaks: filled.
+  ctx.beginPath();
+  for (const i of drawn) {
+    if (!layer.isAssigned[i]) continue;
+    const x = px(layer.nuCm1[i]);
+    const y = py(layer.y[i]);
+    ctx.moveTo(x + r + 0.75, y);
+    ctx.arc(x, y, r + 0.75, 0, 2 * Math.PI);
+  }
+  ctx.fillStyle = theme.assigned;
+  ctx.fill();
+  ctx.strokeStyle = theme.paper;
+  ctx.lineWidth = 1;
+  ctx.stroke();
+  ctx.restore();
+  return drawn.length;
+}
+
+/**
+ * The drawn peak nearest a pointer within `tolerancePx` (CSS px), or −1.
+ * @param drawn indices from peakLayerVisible (the ones on screen)
+ */
+export function peakLayerHitTest(layer: PeakLayer, drawn: Int32Array, view: PanelView, xPx: number, yPx: number, tolerancePx = 6): number {
+  if (xPx < view.leftPx - tolerancePx || xPx > view.leftPx + view.widthPx + tolerancePx || yPx < view.topPx - tolerancePx || yPx > view.topPx + view.heightPx + tolerancePx) return -1;
+  const { px, py } = viewMaps(view);
+  let best = -1;
+  let bestD = tolerancePx * tolerancePx;
+  for (const i of drawn) {
+    const dx = px(layer.nuCm1[i]) - xPx;
+    if (dx * dx > bestD) continue;
+    const dy = py(layer.y[i]) - yPx;
+    const d = dx * dx + dy * dy;
+    if (d <= bestD) {
+      bestD = d;
+      best = i;
+    }
+  }
+  return best;
+}
+
+/** Canvas CSS px of a drawn peak (for the overlay's tooltip and read-outs). */
+export function peakLayerPixel(layer: PeakLayer, i: number, view: PanelView): { xPx: number; yPx: number } {
+  const { px, py } = viewMaps(view);
+  return { xPx: px(layer.nuCm1[i]), yPx: py(layer.y[i]) };
+}

@@ -1,0 +1,266 @@
+import { describe, expect, it } from 'vitest';
+import type { Assignment } from '../../src/fit/assignment';
+import { bandLadders } from '../../src/physics/bandLadders';
+import { bandLines } from '../../src/physics/bandLines';
+import { stateConstantsFrom, type BandModel, type LineList } from '../../src/physics/model';
+import type { AssignmentRow } from '../../src/state/selectors';
+import { ladderLabelTemplate, ladderRowsBuild, rungExtent, rungTip } from '../../src/ui/plot/ladderGeometry';
+import {
+  LADDER_DOTS_MAX,
+  ladderHitTest,
+  ladderMarkersBuild,
+  ladderSceneBuild,
+  ladderScenePaint,
+  ladderStrongestInView,
+  ladderTipHtml,
+  markupRuns,
+  type LadderView,
+} from '../../src/ui/plot/ladderScene';
+import { ladderColour, plotTheme } from '../../src/ui/plot/plotColours';
+import { paintRecorder } from './paintRecorder';
+
+// Invented constants (cm^-1): a small perpendicular band of a fictitious prolate top.
+const model: BandModel = {
+  shape: 'prolate',
+  band: 'perpendicular',
+  lower: stateConstantsFrom({ B: 0.3, A: 5 }),
+  upper: stateConstantsFrom({ origin: 1000, B: 0.299, A: 4.98, zeta: 0.2 }),
+  temperatureK: 300,
+  jMax: 15,
+  kMax: 4,
+  spinWeights: [1],
+};
+
+const theme = plotTheme(false);
+
+function setUp(m: BandModel = model) {
+  const lines = bandLines(m);
+  const rows = ladderRowsBuild(bandLadders(lines, m.shape), m.shape);
+  const scene = ladderSceneBuild(rows, lines, false);
+  return { lines, rows, scene };
+}
+
+function fullView(lines: LineList, rowsCount: number): LadderView {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < lines.count; i++) {
+    lo = Math.min(lo, lines.wavenumberCm1[i]);
+    hi = Math.max(hi, lines.wavenumberCm1[i]);
+  }
+  return { x0Cm1: lo - 1, x1Cm1: hi + 1, y0: -0.6, y1: rowsCount - 0.4, leftPx: 70, topPx: 10, widthPx: 1000, heightPx: 15 * rowsCount };
+}
+
+const px = (v: LadderView, nu: number) => v.leftPx + ((nu - v.x0Cm1) / (v.x1Cm1 - v.x0Cm1)) * v.widthPx;
+const py = (v: LadderView, y: number) => v.topPx + ((v.y1 - y) / (v.y1 - v.y0)) * v.heightPx;
+
+/** Index of the line with these quanta, by brute force over the list. */
+function lineOf(lines: LineList, jUpper: number, kUpper: number, jLower: number, kLower: number): number {
+  for (let i = 0; i < lines.count; i++) if (lines.jUpper[i] === jUpper && lines.kUpper[i] === kUpper && lines.jLower[i] === jLower && lines.kLower[i] === kLower) return i;
+  return -1;
+}
+
+function rowOf(a: Assignment, lines: LineList, i: number, over: Partial<AssignmentRow> = {}): AssignmentRow {
+  return {
+    a,
+    labelAscii: `line ${i}`,
+    labelHtml: `line ${i}`,
+    deltaJ: a.jUpper - a.jLower,
+    deltaK: a.kUpper - a.kLower,
+    calcCm1: lines.wavenumberCm1[i],
+    omcCm1: a.observedCm1 - lines.wavenumberCm1[i],
+    omcSigma: null,
+    isFar: false,
+    isOutlier: false,
+    ...over,
+  };
+}
+
+describe('ladderSceneBuild', () => {
+  it('holds one rung per line of the ladders, at the line position, with the rung extent of its branch and intensity', () => {
+    const { lines, rows, scene } = setUp();
+    const total = rows.reduce((n, r) => n + r.ladders.reduce((m, l) => m + l.lineIndex.length, 0), 0);
+    expect(scene.nuCm1.length).toBe(total);
+    expect(new Set(scene.lineIndex).size).toBe(total);
+    for (let k = 0; k < scene.nuCm1.length; k++) {
+      const i = scene.lineIndex[k];
+      const row = rows[scene.rowIndex[k]];
+      expect(scene.nuCm1[k]).toBe(lines.wavenumberCm1[i]);
+      const [b, t] = rungExtent(lines.jUpper[i] - lines.jLower[i], lines.intensity[i]);
+      expect(scene.yBottom[k]).toBeCloseTo(row.y + b, 14);
+      expect(scene.yTop[k]).toBeCloseTo(row.y + t, 14);
+      // The rung belongs to its row's ΔK and K''.
+      expect(lines.kUpper[i] - lines.kLower[i]).toBe(row.deltaK);
+      expect(lines.kLower[i]).toBe(row.kLower);
+    }
+  });
+
+  it('groups rungs by row colour and width (Q wider), and sorts each row by position for hit testing', () => {
+    const { rows, scene } = setUp();
+    expect(scene.groups.length).toBeLessThanOrEqual(2 * rows.length);
+    for (const g of scene.groups) {
+      expect([1.6, 2.2]).toContain(g.widthPx);
+      for (const s of g.series) {
+        const row = rows.find((r) => r.y === s.rowY)!;
+        expect(g.colour).toBe(ladderColour(row.deltaK, row.kLower, false));
+      }
+    }
+    scene.rowNuCm1.forEach((nu, r) => {
+      for (let j = 1; j < nu.length; j++) expect(nu[j]).toBeGreaterThanOrEqual(nu[j - 1]);
+      expect(scene.rowOrder[r].every((k) => scene.rowIndex[k] === r)).toBe(true);
+    });
+  });
+});
+
+describe('ladderScenePaint', () => {
+  it('paints every rung in view as a vertical segment at its pixel column, in its row colour', () => {
+    const { lines, rows, scene } = setUp();
+    const view = fullView(lines, rows.length);
+    const rec = paintRecorder();
+    const drawn = ladderScenePaint(rec.ctx, scene, null, -1, view, theme);
+    expect(drawn).toBe(scene.nuCm1.length);
+    const vertical = rec.segments.filter((s) => s.x0 === s.x1);
+    expect(vertical.length).toBe(drawn);
+    for (let k = 0; k < scene.nuCm1.length; k++) {
+      const x = Math.round(px(view, scene.nuCm1[k])) + 0.5;
+      const row = rows[scene.rowIndex[k]];
+      const seg = vertical.find((s) => s.x0 === x && Math.abs(s.y0 - py(view, scene.yBottom[k])) < 1e-9 && Math.abs(s.y1 - py(view, scene.yTop[k])) < 1e-9);
+      expect(seg).toBeDefined();
+      expect(seg!.colour).toBe(ladderColour(row.deltaK, row.kLower, false));
+    }
+    // The row names are painted left of the panel, one per row.
+    expect(rec.texts.map((t) => t.text).join('|')).toContain('K″=0');
+    expect(rec.texts.every((t) => t.x < view.leftPx)).toBe(true);
+  });
+
+  it('leaves out rungs outside the visible range', () => {
+    const { lines, rows, scene } = setUp();
+    const view = { ...fullView(lines, rows.length), x0Cm1: 999, x1Cm1: 1001 };
+    const drawn = ladderScenePaint(paintRecorder().ctx, scene, null, -1, view, theme);
+    // One pixel of margin each side (2 cm^-1 over 1000 px).
+    let inRange = 0;
+    for (const nu of scene.nuCm1) if (nu >= 999 - 0.002 && nu <= 1001 + 0.002) inRange++;
+    expect(drawn).toBe(inRange);
+    expect(drawn).toBeLessThan(scene.nuCm1.length);
+  });
+
+  it('draws assigned lines as dots at the rung tips, flagged ones as crosses, and bars once more than LADDER_DOTS_MAX are in view', () => {
+    const big: BandModel = { ...model, jMax: 40, kMax: 8 };
+    const { lines, rows, scene } = setUp(big);
+    const indexOf = new Map<string, number>();
+    for (let i = 0; i < lines.count; i++) indexOf.set(`${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`, i);
+    const mk = (i: number): Assignment => ({ id: `a${i}`, jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i], observedCm1: lines.wavenumberCm1[i], uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' });
+    const few = [0, 1, 2].map((i) => rowOf(mk(i), lines, i, { isFar: i === 2 }));
+    const markers = ladderMarkersBuild(few, rows, lines, indexOf);
+    expect(Array.from(markers.lineIndex)).toEqual([0, 1, 2]);
+    expect(Array.from(markers.isFlagged)).toEqual([0, 0, 1]);
+    for (let k = 0; k < 3; k++) {
+      const i = markers.lineIndex[k];
+      const row = rows.find((r) => r.deltaK === lines.kUpper[i] - lines.kLower[i] && r.kLower === lines.kLower[i])!;
+      expect(markers.y[k]).toBeCloseTo(row.y + rungTip(lines.jUpper[i] - lines.jLower[i], lines.intensity[i]), 14);
+    }
+    const view = fullView(lines, rows.length);
+    const rec = paintRecorder();
+    ladderScenePaint(rec.ctx, scene, markers, -1, view, theme);
+    const dots = rec.arcs.filter((a) => a.how === 'fill');
+    expect(dots.map((d) => d.colour)).toEqual([theme.assigned, theme.assigned]);
+    expect(dots[0].x).toBeCloseTo(px(view, lines.wavenumberCm1[0]), 9);
+    expect(rec.segments.filter((s) => s.colour === theme.flagged).length).toBe(2);
+
+    expect(lines.count).toBeGreaterThan(LADDER_DOTS_MAX);
+    const all = Array.from({ length: lines.count }, (_, i) => rowOf(mk(i), lines, i));
+    const rec2 = paintRecorder();
+    ladderScenePaint(rec2.ctx, scene, ladderMarkersBuild(all, rows, lines, indexOf), -1, view, theme);
+    expect(rec2.arcs.filter((a) => a.how === 'fill').length).toBe(0);
+    expect(rec2.segments.filter((s) => s.colour === theme.assigned && s.widthPx === 4).length).toBe(lines.count);
+  });
+
+  it('rings the selected rung at its tip', () => {
+    const { lines, rows, scene } = setUp();
+    const view = fullView(lines, rows.length);
+    const i = scene.lineIndex[5];
+    const rec = paintRecorder();
+    ladderScenePaint(rec.ctx, scene, null, i, view, theme);
+    const ring = rec.arcs.find((a) => a.colour === theme.cursor)!;
+    expect(ring).toBeDefined();
+    expect(ring.x).toBeCloseTo(px(view, lines.wavenumberCm1[i]), 9);
+    const row = rows[scene.rowIndex[5]];
+    expect(ring.y).toBeCloseTo(py(view, row.y + rungTip(lines.jUpper[i] - lines.jLower[i], lines.intensity[i])), 9);
+  });
+});
+
+describe('ladderHitTest', () => {
+  it('maps a pointer on a rung back to its line, and misses between rows, far from rungs and outside the panel', () => {
+    const { lines, rows, scene } = setUp();
+    // Zoomed so rungs of one row are several pixels apart.
+    const view = { ...fullView(lines, rows.length), x0Cm1: 995, x1Cm1: 1005 };
+    let checked = 0;
+    for (let k = 0; k < scene.nuCm1.length; k++) {
+      const nu = scene.nuCm1[k];
+      if (nu < 995 || nu > 1005) continue;
+      const r = scene.rowIndex[k];
+      const neighbours = scene.rowNuCm1[r].filter((v) => v !== nu && Math.abs(px(view, v) - px(view, nu)) < 12);
+      if (neighbours.length) continue;
+      const hit = ladderHitTest(scene, null, view, px(view, nu) + 2, py(view, rows[r].y + 0.1));
+      expect(hit?.kind).toBe('rung');
+      const i = hit!.lineIndex;
+      expect(lineOf(lines, lines.jUpper[i], lines.kUpper[i], lines.jLower[i], lines.kLower[i])).toBe(scene.lineIndex[k]);
+      checked++;
+    }
+    expect(checked).toBeGreaterThan(5);
+    expect(ladderHitTest(scene, null, view, view.leftPx - 5, view.topPx + 20)).toBeNull();
+    expect(ladderHitTest(scene, null, view, view.leftPx + 10, view.topPx + view.heightPx + 5)).toBeNull();
+    // 0.6 row units above the top row: inside the panel, but in no row.
+    expect(ladderHitTest(scene, null, view, view.leftPx + 500, py(view, rows[0].y + 0.55))).toBeNull();
+  });
+
+  it('prefers an assigned marker within 6 px, and its tooltip is the assignment', () => {
+    const { lines, rows, scene } = setUp();
+    const indexOf = new Map<string, number>();
+    for (let i = 0; i < lines.count; i++) indexOf.set(`${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`, i);
+    const i = scene.lineIndex[3];
+    const a: Assignment = { id: 'x', jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i], observedCm1: lines.wavenumberCm1[i] + 0.001, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' };
+    const markers = ladderMarkersBuild([rowOf(a, lines, i)], rows, lines, indexOf);
+    const view = fullView(lines, rows.length);
+    const hit = ladderHitTest(scene, markers, view, px(view, markers.nuCm1[0]) + 3, py(view, markers.y[0]) - 2)!;
+    expect(hit.kind).toBe('marker');
+    expect(hit.lineIndex).toBe(i);
+    expect(ladderTipHtml(hit, markers, lines, 'prolate', false)).toBe(`line ${i} assigned<br>obs ${a.observedCm1.toFixed(4)} cm⁻¹<br>obs − calc ${(0.001).toExponential(2)} cm⁻¹`);
+  });
+
+  it("a rung's tooltip gives its label, position and relative intensity", () => {
+    const { lines, scene } = setUp();
+    const i = scene.lineIndex[0];
+    const label = ladderLabelTemplate({ deltaK: lines.kUpper[i] - lines.kLower[i], deltaJ: lines.jUpper[i] - lines.jLower[i], kLower: lines.kLower[i] }, 'prolate').replace('%{text}', String(lines.jLower[i]));
+    const tip = ladderTipHtml({ kind: 'rung', lineIndex: i, xPx: 0, yPx: 0 }, null, lines, 'prolate', false);
+    expect(tip).toBe(`${label}<br>${lines.wavenumberCm1[i].toFixed(4)} cm⁻¹<br>rel. intensity ${Number(lines.intensity[i].toPrecision(3))}`);
+    expect(ladderTipHtml({ kind: 'rung', lineIndex: i, xPx: 0, yPx: 0 }, null, lines, 'prolate', true)).toContain('click a peak to assign');
+  });
+
+  it('finds the strongest rung in the middle of a view', () => {
+    const { lines, rows, scene } = setUp();
+    const view = fullView(lines, rows.length);
+    const s = ladderStrongestInView(scene, lines, view)!;
+    const lo = view.x0Cm1 + 0.3 * (view.x1Cm1 - view.x0Cm1);
+    const hi = view.x1Cm1 - 0.3 * (view.x1Cm1 - view.x0Cm1);
+    let best = -1;
+    for (let i = 0; i < lines.count; i++) if (lines.wavenumberCm1[i] >= lo && lines.wavenumberCm1[i] <= hi && (best < 0 || lines.intensity[i] > lines.intensity[best])) best = i;
+    expect(lines.intensity[s.lineIndex]).toBe(lines.intensity[best]);
+  });
+});
+
+describe('markupRuns', () => {
+  it('splits our label markup into plain, superscript and subscript runs', () => {
+    expect(markupRuns('<sup>r</sup>K″=3')).toEqual([
+      { text: 'r', kind: 'sup' },
+      { text: 'K″=3', kind: 'plain' },
+    ]);
+    expect(markupRuns('<sup>p</sup>Q<sub>12</sub>(40)')).toEqual([
+      { text: 'p', kind: 'sup' },
+      { text: 'Q', kind: 'plain' },
+      { text: '12', kind: 'sub' },
+      { text: '(40)', kind: 'plain' },
+    ]);
+    expect(markupRuns('band')).toEqual([{ text: 'band', kind: 'plain' }]);
+    expect(markupRuns('<b>x</b>')).toEqual([{ text: 'x', kind: 'plain' }]);
+  });
+});

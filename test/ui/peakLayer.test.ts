@@ -1,0 +1,101 @@
+import { describe, expect, it } from 'vitest';
+import { peaksFind, type PeakList } from '../../src/analysis/peaksFind';
+import { peakIdAt, peakIdPosition } from '../../src/state/assignLogic';
+import type { LadderView } from '../../src/ui/plot/ladderScene';
+import { PEAK_MARKERS_MAX, peakLayerBase, peakLayerBuild, peakLayerHitTest, peakLayerPaint, peakLayerPixel, peakLayerTipHtml, peakLayerVisible } from '../../src/ui/plot/peakLayer';
+import { plotTheme } from '../../src/ui/plot/plotColours';
+import { smallTrace } from '../state/fixtures';
+import { paintRecorder } from './paintRecorder';
+
+const theme = plotTheme(false);
+
+function setUp() {
+  const { trace } = smallTrace();
+  const peaks = peaksFind(trace);
+  return { trace, peaks };
+}
+
+/** The trace sample nearest a position, by a linear scan. */
+function nearestSample(x: Float64Array, at: number): number {
+  let best = 0;
+  for (let i = 1; i < x.length; i++) if (Math.abs(x[i] - at) < Math.abs(x[best] - at)) best = i;
+  return best;
+}
+
+function viewOf(peaks: PeakList, y0: number, y1: number): LadderView {
+  return { x0Cm1: peaks.wavenumberCm1[0] - 1, x1Cm1: peaks.wavenumberCm1[peaks.count - 1] + 1, y0, y1, leftPx: 70, topPx: 200, widthPx: 4000, heightPx: 300 };
+}
+
+describe('peakLayer', () => {
+  it('puts each marker on the trace sample nearest its peak, on the plotted ordinate', () => {
+    const { trace, peaks } = setUp();
+    expect(peaks.count).toBeGreaterThan(20);
+    const a = peakLayerBase(peaks, trace, 'absorbance');
+    const t = peakLayerBase(peaks, trace, 'transmittance');
+    for (let i = 0; i < peaks.count; i++) {
+      const j = nearestSample(trace.wavenumberCm1, peaks.wavenumberCm1[i]);
+      expect(a.y[i]).toBe(trace.absorbance[j]);
+      // Transmittance T = 10^−A (absorbance is decadic).
+      expect(t.y[i]).toBeCloseTo(10 ** -trace.absorbance[j], 14);
+    }
+  });
+
+  it('marks exactly the peaks whose ids carry an assignment, and their tooltip names it', () => {
+    const { trace, peaks } = setUp();
+    const base = peakLayerBase(peaks, trace, 'absorbance');
+    const picked = [0, 3, peaks.count - 1];
+    const assigned = new Map(picked.map((i) => [peakIdAt(peaks.wavenumberCm1[i]), `label ${i}`]));
+    assigned.set('pk-not-a-peak', 'x');
+    assigned.set('not an id', 'y');
+    const layer = peakLayerBuild(base, assigned, peakIdAt, peakIdPosition);
+    for (let i = 0; i < peaks.count; i++) expect(layer.isAssigned[i]).toBe(picked.includes(i) ? 1 : 0);
+    expect(peakLayerTipHtml(layer, 3)).toContain('<br>assigned label 3');
+    expect(peakLayerTipHtml(layer, 1)).not.toContain('assigned');
+    expect(peakLayerTipHtml(layer, 1)).toMatch(new RegExp(`^peak ${peaks.wavenumberCm1[1].toFixed(4)} cm⁻¹<br>height `));
+  });
+
+  it('draws every peak in view, or the PEAK_MARKERS_MAX strongest by SNR when there are more', () => {
+    const { trace, peaks } = setUp();
+    const base = peakLayerBase(peaks, trace, 'absorbance');
+    const lo = peaks.wavenumberCm1[2];
+    const hi = peaks.wavenumberCm1[10];
+    // Positions in [lo, hi) are in view.
+    expect(Array.from(peakLayerVisible(base, lo, hi))).toEqual([2, 3, 4, 5, 6, 7, 8, 9]);
+    expect(Array.from(peakLayerVisible(base, hi, lo))).toEqual([2, 3, 4, 5, 6, 7, 8, 9]);
+    // Many peaks: the strongest kept, in ascending position.
+    const n = 3 * PEAK_MARKERS_MAX;
+    const many: PeakList = {
+      ...peaks,
+      count: n,
+      wavenumberCm1: Float64Array.from({ length: n }, (_, i) => 1000 + 0.01 * i),
+      snr: Float64Array.from({ length: n }, (_, i) => (i * 7919) % n),
+    };
+    const kept = peakLayerVisible({ peaks: many, nuCm1: many.wavenumberCm1, y: new Float64Array(n) }, 0, 2000);
+    expect(kept.length).toBe(PEAK_MARKERS_MAX);
+    const threshold = Array.from(many.snr).sort((a, b) => b - a)[PEAK_MARKERS_MAX - 1];
+    for (const i of kept) expect(many.snr[i]).toBeGreaterThanOrEqual(threshold);
+    for (let k = 1; k < kept.length; k++) expect(kept[k]).toBeGreaterThan(kept[k - 1]);
+  });
+
+  it('paints free peaks open and assigned ones filled, and hit-tests the marker under the pointer', () => {
+    const { trace, peaks } = setUp();
+    const layer = peakLayerBuild(peakLayerBase(peaks, trace, 'absorbance'), new Map([[peakIdAt(peaks.wavenumberCm1[4]), 'x']]), peakIdAt, peakIdPosition);
+    let ymax = 0;
+    for (const v of layer.y) ymax = Math.max(ymax, v);
+    const view = viewOf(peaks, 0, 1.1 * ymax);
+    const drawn = peakLayerVisible(layer, view.x0Cm1, view.x1Cm1);
+    const rec = paintRecorder();
+    expect(peakLayerPaint(rec.ctx, layer, drawn, view, theme)).toBe(peaks.count);
+    const filled = rec.arcs.filter((a) => a.how === 'fill');
+    expect(filled.length).toBe(1);
+    expect(filled[0].x).toBeCloseTo(peakLayerPixel(layer, 4, view).xPx, 9);
+    for (const i of [0, 4, 7]) {
+      const q = peakLayerPixel(layer, i, view);
+      expect(peakLayerHitTest(layer, drawn, view, q.xPx + 2, q.yPx - 2)).toBe(i);
+    }
+    const q = peakLayerPixel(layer, 0, view);
+    expect(peakLayerHitTest(layer, drawn, view, q.xPx, q.yPx + 40)).toBe(-1);
+    // A peak that is not drawn is not hit.
+    expect(peakLayerHitTest(layer, Int32Array.from([1]), view, q.xPx, q.yPx)).toBe(-1);
+  });
+});
