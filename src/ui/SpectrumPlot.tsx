@@ -107,11 +107,13 @@ export function SpectrumPlot() {
     [trace, xRange, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark],
   );
 
-  // A change of the visible range alone (zoom, pan) is drawn at once; anything else after the page
-  // has painted (see PlotlyChart).
+  // A change of the visible range alone (zoom, pan) and a new trace are drawn at once (the plot is
+  // all there is to see); anything else after the page has painted (see PlotlyChart).
   const prevInputs = useRef<unknown[]>([]);
   const inputs: unknown[] = [xRange, trace, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark];
-  const isRangeOnly = prevInputs.current.length > 0 && inputs[0] !== prevInputs.current[0] && inputs.every((v, i) => i === 0 || v === prevInputs.current[i]);
+  const prev = prevInputs.current;
+  const isRangeOnly = prev.length > 0 && inputs[0] !== prev[0] && inputs.every((v, i) => i === 0 || v === prev[i]);
+  const isNewTrace = prev.length > 0 && inputs[1] !== prev[1];
   prevInputs.current = inputs;
 
   return (
@@ -122,7 +124,7 @@ export function SpectrumPlot() {
           data={figure.data}
           layout={figure.layout}
           onRelayout={onRelayout}
-          isUrgent={isRangeOnly}
+          isUrgent={isRangeOnly || isNewTrace}
           onAfterPlot={(el) => overlayRef.current?.paint(el)}
           onRelayouting={(el, e) => {
             const r = relayoutRangeOf(e);
