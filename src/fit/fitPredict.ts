@@ -65,3 +65,22 @@ export function fitPredictLines(result: FitResult, lines: LineList): { wavenumbe
   }
   return { wavenumberCm1, sigmaCm1 };
 }
+
+/**
+ * The 1σ of fitPredict for many lines in one pass (one gradient buffer, no per-line objects);
+ * equal, value for value, to `fitPredict(result, quanta[i]).sigmaCm1`.
+ * Source: as fitPredict (σ_ν = sqrt(g C gᵀ), Bevington & Robinson (2003) ch. 3).
+ * @param result a successful FitResult
+ * @param quanta the lines' quantum numbers (not checked against the band)
+ * @param out optional output of length quanta.length
+ * @returns 1σ of each predicted position, cm^-1 (NaN where the fit gave no covariance)
+ */
+export function fitPredictSigmas(result: FitResult, quanta: readonly TransitionQuanta[], out: Float64Array = new Float64Array(quanta.length)): Float64Array {
+  if (out.length < quanta.length) throw new Error(`fitPredictSigmas: out must hold ${quanta.length} values, got ${out.length}`);
+  const g = new Float64Array(result.floated.length);
+  for (let i = 0; i < quanta.length; i++) {
+    bandLineGradient(result.model, result.floated, quanta[i], g);
+    out[i] = sigmaFrom(result, g);
+  }
+  return out;
+}

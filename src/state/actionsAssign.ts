@@ -4,6 +4,7 @@
  * Every change to the assignment list enters undo history.
  */
 import type { PeakList } from '../analysis/peaksFind';
+import { fitPredict } from '../fit/fitPredict';
 import type { TransitionQuanta } from '../physics/model';
 import { sortedLowerBound } from './sortedSearch';
 import { assignmentsAdd, assignmentsRemove, assignmentsUpdate, peakIdAt, type AssignmentPatch } from './assignLogic';
@@ -12,7 +13,7 @@ import { viewEnsureVisible, viewZoomTo } from './actionsView';
 import type { CandidateTarget } from './assignmentsSlice';
 import { candidatesRank, quantaKey, type Candidate } from './candidateRank';
 import { memoLast } from './memo';
-import { quantaLabel, selectAssignedKeys, selectBand, selectPeaks, selectPredictionSigmas } from './selectors';
+import { quantaLabel, selectAssignedKeys, selectBand, selectPeaks } from './selectors';
 import { benchStore, type BenchState } from './store';
 
 /** Ladder key ("r:3:Q") of a line's series. */
@@ -22,25 +23,35 @@ export function ladderKeyOf(q: TransitionQuanta): string {
 
 /** Candidate search half-width for the current model: 1.2 B'' (about half a J spacing), at least 0.05 cm^-1. */
 export function candidateWindowCm1(s: BenchState): number {
-  return Math.max(0.05, 1.2 * Math.abs(s.model.lower.B));
+  return candidateWindowOf(s.model);
 }
 
+function candidateWindowOf(model: BenchState['model']): number {
+  return Math.max(0.05, 1.2 * Math.abs(model.lower.B));
+}
+
+const NO_CANDIDATES: Candidate[] = [];
+
 const candidates = memoLast(
-  (target: CandidateTarget | null, band: ReturnType<typeof selectBand>, sigmas: Float64Array | null, assigned: Set<string>, s: BenchState): Candidate[] => {
-    if (!target) return [];
-    return candidatesRank(band.lines, target.peakCm1, {
-      windowCm1: candidateWindowCm1(s),
-      shape: s.model.shape,
+  (target: CandidateTarget | null, band: ReturnType<typeof selectBand>, outcome: BenchState['fitOutcome'], assigned: Set<string>, model: BenchState['model']): Candidate[] => {
+    if (!target) return NO_CANDIDATES;
+    const result = outcome?.ok && !outcome.result.isExactlyDetermined ? outcome.result : null;
+    const lines = band.lines;
+    return candidatesRank(lines, target.peakCm1, {
+      windowCm1: candidateWindowOf(model),
+      shape: model.shape,
       assignedKeys: assigned,
       peakSigmaCm1: Number.isFinite(target.peakSigmaCm1) ? target.peakSigmaCm1 : 0,
-      ...(sigmas ? { predictionSigmaCm1: (i: number) => sigmas[i] } : {}),
+      // Only the few lines in the window need a prediction σ: compute those (the same value
+      // selectPredictionSigmas gives for line i) instead of one for every line of the band.
+      ...(result ? { predictionSigmaCm1: (i: number) => fitPredict(result, quantaAt(lines, i)).sigmaCm1 } : {}),
     });
   },
 );
 
 /** Ranked candidates for the peak whose list is open ([] when none is). */
 export function selectCandidates(s: BenchState): Candidate[] {
-  return candidates(s.candidateTarget, selectBand(s), selectPredictionSigmas(s), selectAssignedKeys(s), s);
+  return candidates(s.candidateTarget, selectBand(s), s.fitOutcome, selectAssignedKeys(s), s.model);
 }
 
 function peakTarget(peaks: PeakList, i: number): CandidateTarget {

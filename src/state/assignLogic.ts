@@ -4,7 +4,6 @@
  */
 import { ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1, type Assignment } from '../fit/assignment';
 import type { TransitionQuanta } from '../physics/model';
-import { quantaKey } from './candidateRank';
 
 /** What a new assignment needs. */
 export interface AssignmentDraft extends TransitionQuanta {
@@ -36,8 +35,8 @@ export function peakIdPosition(id: string): number {
  */
 export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDraft, id: string): { list: Assignment[]; id: string } {
   if (!Number.isFinite(draft.observedCm1)) throw new Error(`assignmentsAdd: observedCm1 must be finite, got ${draft.observedCm1}`);
-  const key = quantaKey(draft);
-  const existing = list.find((a) => quantaKey(a) === key);
+  // Numbers compared directly: no key string per row on every click.
+  const existing = list.find((a) => a.jUpper === draft.jUpper && a.kUpper === draft.kUpper && a.jLower === draft.jLower && a.kLower === draft.kLower);
   let out: Assignment[];
   let resultId: string;
   if (existing) {

@@ -4,7 +4,7 @@
  */
 import { peaksFind, type PeakList } from '../analysis/peaksFind';
 import type { Assignment } from '../fit/assignment';
-import { fitPredict, fitPredictLines } from '../fit/fitPredict';
+import { fitPredictLines, fitPredictSigmas } from '../fit/fitPredict';
 import type { FitOutcome, FitResult } from '../fit/fitTypes';
 import { bandLadders, type Ladder } from '../physics/bandLadders';
 import { bandLines } from '../physics/bandLines';
@@ -120,21 +120,137 @@ export interface AssignmentRow {
   isOutlier: boolean;
 }
 
-const assignmentRows = memoLast(
-  (assignments: Assignment[], model: BandModel, outcome: FitOutcome | null, fitIds: string[], toleranceCm1: number): AssignmentRow[] => {
-    const result = outcome?.ok && !outcome.result.isExactlyDetermined ? outcome.result : null;
-    const outlierIds = new Set<string>();
-    if (outcome?.ok) for (const i of outcome.result.outliers) outlierIds.add(fitIds[i]);
-    return assignments.map((a) => {
-      const calcCm1 = transitionWavenumber(model, a.jUpper, a.kUpper, a.jLower, a.kLower);
-      const sigmaPred = result ? fitPredict(result, a).sigmaCm1 : null;
-      const dev = assignmentDeviation(a.observedCm1, calcCm1, a.uncertaintyCm1, sigmaPred, toleranceCm1);
+/** Inputs of the assignment rows (the store fields they are derived from). */
+export interface AssignmentRowsInput {
+  assignments: readonly Assignment[];
+  model: BandModel;
+  fitOutcome: FitOutcome | null;
+  /** Assignment id of each line of the last fit (same order as its result lines). */
+  fitLineIds: readonly string[];
+  /** Far-from-prediction tolerance without a fit, cm^-1. */
+  farToleranceCm1: number;
+}
+
+/** A row with the prediction 1σ it was judged with (cm^-1, null without a fit). */
+interface RowEntry {
+  row: AssignmentRow;
+  sigmaPredCm1: number | null;
+}
+
+/**
+ * The rows of one set of inputs and what the next update may reuse: rows are kept per assignment
+ * object (assignments are immutable, so the same object means the same values).
+ */
+export interface AssignmentRowsState {
+  input: AssignmentRowsInput;
+  rows: AssignmentRow[];
+  entryOf: Map<Assignment, RowEntry>;
+}
+
+function rowsFitResult(outcome: FitOutcome | null): FitResult | null {
+  return outcome?.ok && !outcome.result.isExactlyDetermined ? outcome.result : null;
+}
+
+function rowsOutlierIds(outcome: FitOutcome | null, fitLineIds: readonly string[]): Set<string> {
+  const ids = new Set<string>();
+  if (outcome?.ok) for (const i of outcome.result.outliers) ids.add(fitLineIds[i]);
+  return ids;
+}
+
+function isSameQuanta(a: Assignment, b: Assignment): boolean {
+  return a.jUpper === b.jUpper && a.kUpper === b.kUpper && a.jLower === b.jLower && a.kLower === b.kLower;
+}
+
+function isSameRow(x: AssignmentRow, y: AssignmentRow): boolean {
+  return (
+    x.a === y.a &&
+    x.labelAscii === y.labelAscii &&
+    x.labelHtml === y.labelHtml &&
+    Object.is(x.calcCm1, y.calcCm1) &&
+    Object.is(x.omcCm1, y.omcCm1) &&
+    Object.is(x.omcSigma, y.omcSigma) &&
+    x.isFar === y.isFar &&
+    x.isOutlier === y.isOutlier
+  );
+}
+
+/**
+ * Assignment rows for new inputs, reusing what the previous inputs computed: with only the list
+ * changed, unchanged assignments keep their row objects and only new ones are computed (one
+ * prediction each); with a new fit, model or tolerance, labels and positions are carried over where
+ * their inputs are unchanged, the prediction σ of every row comes from one batched pass
+ * (fitPredictSigmas), and a row whose values come out the same keeps its old object. When every row
+ * is unchanged the previous array itself is returned, so memoised consumers skip their work.
+ * The rows equal those of a fresh computation (checked in test/state/selectors.test.ts).
+ * WARNING: relies on assignments never being mutated in place (the store replaces them).
+ * @param prev the state returned by the previous call, or null
+ * @param input the store fields the rows derive from
+ */
+export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: AssignmentRowsInput): AssignmentRowsState {
+  const p = prev?.input;
+  if (
+    prev &&
+    p &&
+    p.assignments === input.assignments &&
+    p.model === input.model &&
+    p.fitOutcome === input.fitOutcome &&
+    p.fitLineIds === input.fitLineIds &&
+    p.farToleranceCm1 === input.farToleranceCm1
+  ) {
+    return prev;
+  }
+  const { assignments, model, fitOutcome, fitLineIds, farToleranceCm1 } = input;
+  const isSameModel = p?.model === model;
+  const isSameShape = p?.model.shape === model.shape;
+  const isSameFit = p?.fitOutcome === fitOutcome && p?.fitLineIds === fitLineIds;
+  const isSameContext = isSameModel && isSameFit && p?.farToleranceCm1 === farToleranceCm1;
+  const result = rowsFitResult(fitOutcome);
+  const outlierIds = rowsOutlierIds(fitOutcome, fitLineIds);
+  const old = prev?.entryOf;
+  const n = assignments.length;
+  const entries: (RowEntry | undefined)[] = new Array(n);
+  // Which rows need a new prediction σ (batched below).
+  const needSigma: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const a = assignments[i];
+    const e = old?.get(a);
+    if (e && isSameContext) entries[i] = e;
+    else if (!(e && isSameFit) && result) needSigma.push(i);
+  }
+  let sigmas: Float64Array | null = null;
+  if (result && needSigma.length > 0) sigmas = fitPredictSigmas(result, needSigma.map((i) => assignments[i]));
+  let k = 0;
+  // Old rows by id: an edited assignment (a new object for the same id) keeps its labels and
+  // calculated position when its quanta are unchanged.
+  let oldById: Map<string, RowEntry> | null = null;
+  const entryOf = new Map<Assignment, RowEntry>();
+  let isAllSame = prev !== null && prev.rows.length === n;
+  const rows: AssignmentRow[] = new Array(n);
+  for (let i = 0; i < n; i++) {
+    const a = assignments[i];
+    let entry = entries[i];
+    if (!entry) {
+      let e = old?.get(a);
+      if (!e && old) {
+        if (!oldById) {
+          oldById = new Map();
+          for (const x of old.values()) oldById.set(x.row.a.id, x);
+        }
+        e = oldById.get(a.id);
+      }
+      const hasSameQuanta = e !== undefined && isSameQuanta(e.row.a, a);
+      let sigmaPredCm1: number | null = null;
+      if (result) sigmaPredCm1 = e && e.row.a === a && isSameFit ? e.sigmaPredCm1 : sigmas![k++];
+      const calcCm1 = e && hasSameQuanta && isSameModel ? e.row.calcCm1 : transitionWavenumber(model, a.jUpper, a.kUpper, a.jLower, a.kLower);
       const deltaK = a.kUpper - a.kLower;
       const deltaJ = a.jUpper - a.jLower;
-      return {
+      const labelAscii = e && hasSameQuanta && isSameShape ? e.row.labelAscii : lineLabelAscii(deltaK, deltaJ, a.kLower, a.jLower, model.shape);
+      const labelHtml = e && hasSameQuanta && isSameShape ? e.row.labelHtml : lineLabelHtml(deltaK, deltaJ, a.kLower, a.jLower, model.shape);
+      const dev = assignmentDeviation(a.observedCm1, calcCm1, a.uncertaintyCm1, sigmaPredCm1, farToleranceCm1);
+      const row: AssignmentRow = {
         a,
-        labelAscii: lineLabelAscii(deltaK, deltaJ, a.kLower, a.jLower, model.shape),
-        labelHtml: lineLabelHtml(deltaK, deltaJ, a.kLower, a.jLower, model.shape),
+        labelAscii,
+        labelHtml,
         deltaJ,
         deltaK,
         calcCm1,
@@ -143,13 +259,27 @@ const assignmentRows = memoLast(
         isFar: dev.isFar,
         isOutlier: outlierIds.has(a.id),
       };
-    });
-  },
-);
+      entry = e && isSameRow(e.row, row) ? { row: e.row, sigmaPredCm1 } : { row, sigmaPredCm1 };
+    }
+    rows[i] = entry.row;
+    entryOf.set(a, entry);
+    if (isAllSame && prev!.rows[i] !== entry.row) isAllSame = false;
+  }
+  return { input, rows: isAllSame ? prev!.rows : rows, entryOf };
+}
 
-/** Assignments with labels, calculated positions and flags. */
+let assignmentRowsLast: AssignmentRowsState | null = null;
+
+/** Assignments with labels, calculated positions and flags (incremental; see assignmentRowsUpdate). */
 export function selectAssignmentRows(s: BenchState): AssignmentRow[] {
-  return assignmentRows(s.assignments, s.model, s.fitOutcome, s.fitLineIds, s.farToleranceCm1);
+  assignmentRowsLast = assignmentRowsUpdate(assignmentRowsLast, {
+    assignments: s.assignments,
+    model: s.model,
+    fitOutcome: s.fitOutcome,
+    fitLineIds: s.fitLineIds,
+    farToleranceCm1: s.farToleranceCm1,
+  });
+  return assignmentRowsLast.rows;
 }
 
 const assignedKeys = memoLast((assignments: Assignment[]): Set<string> => new Set(assignments.map(quantaKey)));

@@ -1,13 +1,13 @@
 /** The assignments table: virtualised rows, sort and filter, inline edits; a row click zooms the plot to the line. */
 import { useVirtualizer } from '@tanstack/react-virtual';
-import { useMemo, useRef, useState } from 'react';
+import { memo, useMemo, useRef, useState } from 'react';
 import type { TransitionQuanta } from '../physics/model';
 import { assignmentDelete, assignmentEdit, assignmentSelect } from '../state/actionsAssign';
 import { benchUpdate } from '../state/actionsCore';
 import { viewSetTableQuery } from '../state/actionsView';
 import { selectAssignmentRows, type AssignmentRow } from '../state/selectors';
 import { useBench } from '../state/store';
-import { tableRowsQuery } from '../state/tableQuery';
+import { tableRowsQueryMemo } from '../state/tableQuery';
 import type { TableQuery } from '../state/viewSlice';
 import { LineLabel } from './LineLabel';
 import { NumberField } from './NumberField';
@@ -52,7 +52,9 @@ function NoteField({ id, note }: { id: string; note: string }) {
   );
 }
 
-function Row({ r, isSelected, shape, top }: { r: AssignmentRow; isSelected: boolean; shape: 'prolate' | 'oblate' | 'linear'; top: number }) {
+// Memoised: rows keep their objects while unchanged (selectAssignmentRows), so a new assignment
+// re-renders only the rows whose data or position changed.
+const Row = memo(function Row({ r, isSelected, shape, top }: { r: AssignmentRow; isSelected: boolean; shape: 'prolate' | 'oblate' | 'linear'; top: number }) {
   const a = r.a;
   const flags = [r.isFar && 'far from prediction', r.isOutlier && 'fit outlier'].filter(Boolean).join(', ');
   return (
@@ -111,7 +113,7 @@ function Row({ r, isSelected, shape, top }: { r: AssignmentRow; isSelected: bool
       </span>
     </div>
   );
-}
+});
 
 function Filters() {
   const q = useBench((s) => s.tableQuery);
@@ -171,10 +173,11 @@ export function AssignmentsTable() {
   const q = useBench((s) => s.tableQuery);
   const selectedId = useBench((s) => s.selectedAssignmentId);
   const shape = useBench((s) => s.model.shape);
-  const shown = useMemo(() => tableRowsQuery(rows, q), [rows, q]);
+  const query = useMemo(() => tableRowsQueryMemo(), []);
+  const shown = useMemo(() => query(rows, q), [query, rows, q]);
   const scrollRef = useRef<HTMLDivElement>(null);
   const virtualizer = useVirtualizer({ count: shown.length, getScrollElement: () => scrollRef.current, estimateSize: () => ROW_HEIGHT, overscan: 12 });
-  const nFar = rows.filter((r) => r.isFar).length;
+  const nFar = useMemo(() => rows.reduce((n, r) => n + (r.isFar ? 1 : 0), 0), [rows]);
 
   return (
     <div className="assignments">

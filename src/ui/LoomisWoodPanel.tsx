@@ -30,20 +30,27 @@ export function LoomisWoodPanel() {
   const key = seriesKey && band.ladderByKey.has(seriesKey) ? seriesKey : (cursorKey ?? strongestKey);
   const ladder = key ? band.ladderByKey.get(key) : undefined;
 
-  const fig = useMemo(() => {
+  // The strips depend on the trace and the series only, so a new assignment redraws the markers
+  // without re-binning the trace.
+  const grid = useMemo(() => {
     if (!ladder || !trace) return null;
     const centres = Array.from(ladder.lineIndex, (i) => ({ jLower: band.lines.jLower[i], centreCm1: band.lines.wavenumberCm1[i] }));
-    const grid = loomisWoodGrid(trace, centres, halfWidth, BINS);
-    const marks = { offsetCm1: [] as number[], jLower: [] as number[], text: [] as string[] };
+    return loomisWoodGrid(trace, centres, halfWidth, BINS);
+  }, [ladder, trace, halfWidth, band]);
+  const marks = useMemo(() => {
+    const m = { offsetCm1: [] as number[], jLower: [] as number[], text: [] as string[] };
+    if (!ladder) return m;
+    const inLadder = new Set(ladder.lineIndex);
     for (const r of rows) {
       const li = band.indexOf.get(`${r.a.jUpper},${r.a.kUpper},${r.a.jLower},${r.a.kLower}`);
-      if (li === undefined || !ladder.lineIndex.includes(li)) continue;
-      marks.offsetCm1.push(r.a.observedCm1 - band.lines.wavenumberCm1[li]);
-      marks.jLower.push(r.a.jLower);
-      marks.text.push(`${r.labelHtml}<br>obs − calc ${r.omcCm1.toExponential(2)} cm⁻¹`);
+      if (li === undefined || !inLadder.has(li)) continue;
+      m.offsetCm1.push(r.a.observedCm1 - band.lines.wavenumberCm1[li]);
+      m.jLower.push(r.a.jLower);
+      m.text.push(`${r.labelHtml}<br>obs − calc ${r.omcCm1.toExponential(2)} cm⁻¹`);
     }
-    return loomisFigure(grid, marks, isDark);
-  }, [ladder, trace, halfWidth, rows, band, isDark]);
+    return m;
+  }, [ladder, rows, band]);
+  const fig = useMemo(() => (grid ? loomisFigure(grid, marks, isDark) : null), [grid, marks, isDark]);
 
   const onClick = (e: PlotMouseEvent) => {
     const p = e.points?.[0];

@@ -19,10 +19,11 @@
  *
  * Environment: LB_BENCH_DIST (built app folder, default dist), LB_BENCH_RUNS (repeats, default 5),
  * LB_BENCH_ONLY (comma list of measure numbers, e.g. "1,7"), LB_BENCH_PROFILE=1 (also record main-thread
- * CPU profiles of the first run of each measure and print time per function to stderr; build with
+ * CPU profiles of the first run of each measure and print time per function to stderr; LB_BENCH_PROFILE_DIR
+ * also writes them there as .cpuprofile files; build with
  * `vite build --minify false` for readable names).
  */
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -50,6 +51,8 @@ const RUNS = Math.max(1, Number(process.env.LB_BENCH_RUNS ?? 5));
 const ONLY = new Set((process.env.LB_BENCH_ONLY ?? '').split(',').filter(Boolean).map(Number));
 const want = (n: number) => ONLY.size === 0 || ONLY.has(n);
 const PROFILE = process.env.LB_BENCH_PROFILE === '1';
+/** Folder to also write the raw CPU profiles to (.cpuprofile, for DevTools), when set. */
+const PROFILE_DIR = process.env.LB_BENCH_PROFILE_DIR ?? '';
 const PLOT = '[data-testid=spectrum-plot]';
 const LAUNCH_ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'];
 
@@ -205,6 +208,7 @@ async function profileStart(page: Page, what: string): Promise<{ stop: () => Pro
       try {
         const { profile } = (await cdp.send('Profiler.stop')) as unknown as { profile: CpuProfile };
         const s = profileSummary(profile, 18);
+        if (PROFILE_DIR) writeFileSync(join(PROFILE_DIR, `${what.replace(/[^a-z0-9]+/gi, '_')}.cpuprofile`), JSON.stringify(profile));
         console.error(JSON.stringify({ profile: what, sampled_ms: s.sampledMs, by_total: s.byTotal.map((r) => `${r.totalMs} ${r.fn}`), by_self: s.bySelf.map((r) => `${r.selfMs} ${r.fn}`) }));
       } catch (err) {
         note(`profile of ${what} lost: ${(err as Error).message}`);
@@ -696,6 +700,10 @@ async function measureFit(browser: Browser, baseUrl: string, inputs: BenchInputs
     worker.push(post && res ? res.t - post.t : NaN);
     during.push(longestTask(p, click, w.paint));
     after.push(longestTask(p, w.paint, w.paint + 1500));
+    // Diagnostic only: where the click → paint time goes in this run.
+    note(
+      `fit run ${run}: click→post ${post ? round1(post.t - click) : '?'} ms, worker ${round1(worker[worker.length - 1])} ms, result→paint ${res ? round1(w.paint - res.t) : '?'} ms, longest task during ${during[during.length - 1]} ms, after ${after[after.length - 1]} ms`,
+    );
     summary = (await page.locator('[data-testid=fit-summary]').textContent()) ?? '';
   }
   if (!/N = 5000/.test(summary.replace(/\s+/g, ' '))) note(`fit summary does not read N = 5000: ${summary}`);

@@ -7,7 +7,7 @@ import { fitAccept, fitRevert, fitStart } from '../../src/state/actionsFit';
 import { traceReplace } from '../../src/state/actionsImport';
 import { modelSetConstant, modelSetFloated, modelSetShape } from '../../src/state/actionsModel';
 import { viewSetXRange } from '../../src/state/actionsView';
-import { selectAssignmentRows, selectBand, selectPeaks } from '../../src/state/selectors';
+import { selectAssignmentRows, selectBand, selectPeaks, selectPredictionSigmas } from '../../src/state/selectors';
 import { benchStore } from '../../src/state/store';
 import { smallModel, smallTrace } from './fixtures';
 
@@ -205,6 +205,30 @@ describe('fitting', () => {
     expect(benchStore.getState().isFitAccepted).toBe(true);
     fitRevert();
     expect(benchStore.getState().model).toBe(before);
+  });
+
+  it('ranks candidates after a fit by distance in σ, with each line\'s σ the one the fit predicts for it', async () => {
+    loadSmall();
+    // Twelve lines with noise of a few 1e-4 cm^-1, so the fit has a covariance and every σ_pred > 0.
+    const band = selectBand(benchStore.getState());
+    const assignments = Array.from({ length: 12 }, (_, n) => {
+      const i = (n * 5) % band.lines.count;
+      const q = { jUpper: band.lines.jUpper[i], kUpper: band.lines.kUpper[i], jLower: band.lines.jLower[i], kLower: band.lines.kLower[i] };
+      return { id: `a${n + 1}`, ...q, observedCm1: band.lines.wavenumberCm1[i] + ((n % 3) - 1) * 3e-4, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' };
+    });
+    benchStore.setState({ assignments, floated: ['upper.origin', 'upper.B', 'lower.B'] });
+    await fitStart(runFit);
+    expect(benchStore.getState().fitOutcome?.ok).toBe(true);
+    peakClick(3);
+    const s = benchStore.getState();
+    const cands = selectCandidates(s);
+    const sigmas = selectPredictionSigmas(s)!;
+    expect(cands.length).toBeGreaterThan(0);
+    for (const c of cands) {
+      const sigma = Math.hypot(sigmas[c.lineIndex], s.candidateTarget!.peakSigmaCm1);
+      // Same formula on the same numbers: equal to round-off.
+      expect(c.distanceSigma).toBeCloseTo(Math.abs(c.distanceCm1) / sigma, 12);
+    }
   });
 
   it('reports a refused fit in the message area', async () => {

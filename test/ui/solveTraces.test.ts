@@ -35,6 +35,37 @@ describe('residualFigure', () => {
     }
     expect(n).toBe(obs.length);
   });
+
+  it('draws fitted, excluded and outlier lines as separate uniform-marker traces, each line once with its own hover text', () => {
+    // Every 5th line excluded and every 7th shifted by 0.01 cm^-1 (≫ σ = 1e-4) so the fit flags it.
+    const lines2 = obs.map((o, i) => ({ ...o, isExcluded: i % 5 === 0, observedCm1: o.observedCm1 + (i % 7 === 3 ? 0.01 : 0) }));
+    const r = fitBand({ model, floated: ['upper.origin', 'upper.B', 'lower.B'], lines: lines2 });
+    if (!r.ok) throw new Error(r.error.message);
+    expect(r.result.outliers.length).toBeGreaterThan(0);
+    const ids = obs.map((_, i) => `a${i}`);
+    const { data } = residualFigure(r.result, ids, 'prolate', false);
+    const seen = new Set<string>();
+    for (const d of data as unknown as { x: number[]; y: number[]; customdata: string[]; hovertext: string[]; marker: { symbol: unknown; color: unknown } }[]) {
+      expect(typeof d.marker.symbol).toBe('string');
+      expect(typeof d.marker.color).toBe('string');
+      d.customdata.forEach((id, k) => {
+        const i = Number(id.slice(1));
+        const l = r.result.lines[i];
+        expect(seen.has(id)).toBe(false);
+        seen.add(id);
+        expect(d.marker.symbol).toBe(l.isOutlier ? 'x' : l.isExcluded ? 'circle-open' : 'circle');
+        expect(d.x[k]).toBe(l.jLower);
+        expect(d.y[k]).toBe(l.obsMinusCalc);
+        expect(d.hovertext[k]).toContain(`obs − calc ${l.obsMinusCalc.toExponential(2)} cm⁻¹`);
+        expect(d.hovertext[k].includes('excluded')).toBe(l.isExcluded);
+        expect(d.hovertext[k].includes('outlier')).toBe(l.isOutlier);
+      });
+    }
+    expect(seen.size).toBe(obs.length);
+    // One legend entry per K″.
+    const legend = (data as unknown as { showlegend: boolean; legendgroup: string }[]).filter((d) => d.showlegend);
+    expect(legend.length).toBe(new Set(obs.map((o) => o.kLower)).size);
+  });
 });
 
 describe('correlationFigure', () => {

@@ -29,41 +29,68 @@ function axis(isDark: boolean, title: string): Partial<Layout['xaxis']> {
   return { title: { text: title }, color: t.text, gridcolor: t.grid, zerolinecolor: t.grid, linecolor: t.grid };
 }
 
+/** Marker style classes of the residual plot, in drawing order (flagged lines drawn on top). */
+const RESIDUAL_CLASSES = [
+  { symbol: 'circle', suffix: '' },
+  { symbol: 'circle-open', suffix: ', excluded' },
+  { symbol: 'x', suffix: ', outliers' },
+] as const;
+
 /**
- * Residual plot: obs − calc (cm^-1) against J'', one trace per K'' (colour by K''), excluded lines
- * as open markers, outliers as crosses. customdata carries the assignment id for clicks.
+ * Residual plot: obs − calc (cm^-1) against J'', coloured by K'', excluded lines as open markers,
+ * outliers as crosses. One trace per K'' and marker class, each with a single marker style (no
+ * per-point style arrays, which make plotly style every point on its own) and its hover strings
+ * built here; the traces of one K'' share a legend entry. customdata carries the assignment id
+ * for clicks.
  * @param result the fit
  * @param lineIds assignment id of each result line (same order)
  * @param shape rotor shape (labels)
  */
 export function residualFigure(result: FitResult, lineIds: readonly string[], shape: TopShape, isDark: boolean): { data: Data[]; layout: Partial<Layout> } {
-  const byK = new Map<number, number[]>();
-  result.lines.forEach((l, i) => {
-    const list = byK.get(l.kLower) ?? [];
-    list.push(i);
-    byK.set(l.kLower, list);
-  });
+  // Lines by K'' and class: 0 fitted, 1 excluded, 2 outlier.
+  const groups = new Map<number, number[][]>();
+  const lines = result.lines;
+  for (let i = 0; i < lines.length; i++) {
+    const l = lines[i];
+    let g = groups.get(l.kLower);
+    if (!g) groups.set(l.kLower, (g = [[], [], []]));
+    g[l.isOutlier ? 2 : l.isExcluded ? 1 : 0].push(i);
+  }
   const data: Data[] = [];
-  for (const k of [...byK.keys()].sort((a, b) => a - b)) {
-    const idx = byK.get(k)!;
-    data.push({
-      type: 'scatter',
-      mode: 'markers',
-      name: shape === 'linear' ? 'lines' : `K″=${k}`,
-      x: idx.map((i) => result.lines[i].jLower),
-      y: idx.map((i) => result.lines[i].obsMinusCalc),
-      customdata: idx.map((i) => lineIds[i]),
-      hovertext: idx.map((i) => {
-        const l = result.lines[i];
-        return `${lineLabelHtml(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape)}<br>obs − calc ${l.obsMinusCalc.toExponential(2)} cm⁻¹<br>${l.normalisedResidual.toFixed(2)} σ${l.isExcluded ? '<br>excluded' : ''}${l.isOutlier ? '<br>outlier' : ''}`;
-      }),
-      hovertemplate: '%{hovertext}<extra></extra>',
-      marker: {
-        color: kColour(k, isDark),
-        size: 7,
-        symbol: idx.map((i) => (result.lines[i].isOutlier ? 'x' : result.lines[i].isExcluded ? 'circle-open' : 'circle')),
-      },
-    } as Data);
+  for (const k of [...groups.keys()].sort((a, b) => a - b)) {
+    const colour = kColour(k, isDark);
+    const name = shape === 'linear' ? 'lines' : `K″=${k}`;
+    let isFirst = true;
+    groups.get(k)!.forEach((idx, c) => {
+      if (idx.length === 0) return;
+      const n = idx.length;
+      const x = new Array<number>(n);
+      const y = new Array<number>(n);
+      const ids = new Array<string>(n);
+      const text = new Array<string>(n);
+      for (let m = 0; m < n; m++) {
+        const i = idx[m];
+        const l = lines[i];
+        x[m] = l.jLower;
+        y[m] = l.obsMinusCalc;
+        ids[m] = lineIds[i];
+        text[m] = `${lineLabelHtml(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape)}<br>obs − calc ${l.obsMinusCalc.toExponential(2)} cm⁻¹<br>${l.normalisedResidual.toFixed(2)} σ${l.isExcluded ? '<br>excluded' : ''}${l.isOutlier ? '<br>outlier' : ''}`;
+      }
+      data.push({
+        type: 'scatter',
+        mode: 'markers',
+        name: isFirst ? name : `${name}${RESIDUAL_CLASSES[c].suffix}`,
+        legendgroup: `k${k}`,
+        showlegend: isFirst,
+        x,
+        y,
+        customdata: ids,
+        hovertext: text,
+        hovertemplate: '%{hovertext}<extra></extra>',
+        marker: { color: colour, size: 7, symbol: RESIDUAL_CLASSES[c].symbol },
+      } as Data);
+      isFirst = false;
+    });
   }
   return {
     data,
