@@ -12,7 +12,7 @@ import { parseTraceInWorker } from '../workers/parseClient';
 import { assignmentsMarkBlends } from './assignLogic';
 import { benchUpdate, messagePost } from './actionsCore';
 import { modelLoadText, modelReplace } from './actionsModel';
-import { projectImportText } from './actionsProject';
+import { projectImport } from './actionsProject';
 import { demoFallbackTrace } from './demoFallback';
 import { benchStore } from './store';
 import type { TraceSource } from './spectrumSlice';
@@ -153,8 +153,9 @@ export async function fileOpen(file: File): Promise<boolean> {
   const head = await file.slice(0, 4096).text();
   const kind = droppedKind(head, file.name);
   if (kind === 'trace') return traceImport(file, file.name);
+  // A project is read in the parse worker, file and all (its trace makes it large).
+  if (kind === 'project') return projectImport(file, file.name);
   const text = await file.text();
-  if (kind === 'project') return projectImportText(text, file.name);
   if (kind === 'model') return modelLoadText(text, file.name);
   return lineTableLoadText(text, file.name);
 }

@@ -1,7 +1,9 @@
 /**
- * Messages between the UI thread and the trace-parse worker (`parse.worker.ts`).
- * Plain serialisable data; the Float64Array buffers of a result are transferred, not copied.
+ * Messages between the UI thread and the parse worker (`parse.worker.ts`): trace import, project
+ * files read and written. Plain serialisable data; the Float64Array buffers of a result are
+ * transferred, not copied.
  */
+import type { ProjectFileHeader, ProjectFileOutcome, ProjectPartName, ProjectSession } from '../io/projectFile';
 import type { TraceImportOutcome } from '../io/trace';
 import type { TraceImportOptions } from '../io/traceImportOptions';
 
@@ -35,10 +37,83 @@ export interface ParseErrorMessage {
   message: string;
 }
 
+/** UI → worker: read this project file (or file, read inside the worker) with `projectFileParse`. */
+export interface ProjectReadRequestMessage {
+  type: 'project-read';
+  id: number;
+  text: string | Blob;
+  fileName: string;
+  /** Session fields saved apart from the text (the autosave's layout), see `projectFileParse`. */
+  parts: Partial<Record<ProjectPartName, string>>;
+}
+
+/** Worker → UI: what `projectFileParse` returned (the trace buffers transferred). */
+export interface ProjectReadResultMessage {
+  type: 'project-read-result';
+  id: number;
+  outcome: ProjectFileOutcome;
+}
+
+/** UI → worker: write this session as project-file text with `projectFileSerialize`. */
+export interface ProjectWriteRequestMessage {
+  type: 'project-write';
+  id: number;
+  session: ProjectSession;
+  header: ProjectFileHeader;
+}
+
+/** Worker → UI: the project-file text. */
+export interface ProjectWriteResultMessage {
+  type: 'project-write-result';
+  id: number;
+  text: string;
+}
+
+/** An IndexedDB database and object store (as idb-keyval's createStore takes them). */
+export interface StoreName {
+  db: string;
+  store: string;
+}
+
+/**
+ * UI → worker: key-value storage done in the worker, so that IndexedDB's serialisation of a large
+ * trace (hundreds of ms for 16 MB in Chromium) does not block the page. 'store-set' writes all
+ * entries in one transaction.
+ */
+export type StoreRequestMessage =
+  | { type: 'store-get'; id: number; name: StoreName; keys: string[] }
+  | { type: 'store-set'; id: number; name: StoreName; entries: [string, unknown][] }
+  | { type: 'store-del'; id: number; name: StoreName; keys: string[] };
+
+/** Worker → UI: the values read (typed arrays transferred), or that a write or delete is done. */
+export type StoreResultMessage = { type: 'store-values'; id: number; values: unknown[] } | { type: 'store-done'; id: number };
+
 /** Every message the worker accepts. */
-export type ParseWorkerRequest = ParseRequestMessage;
+export type ParseWorkerRequest = ParseRequestMessage | ProjectReadRequestMessage | ProjectWriteRequestMessage | StoreRequestMessage;
 /** Every message the worker sends. */
-export type ParseWorkerResponse = ParseProgressMessage | ParseResultMessage | ParseErrorMessage;
+export type ParseWorkerResponse =
+  | ParseProgressMessage
+  | ParseResultMessage
+  | ParseErrorMessage
+  | ProjectReadResultMessage
+  | ProjectWriteResultMessage
+  | StoreResultMessage;
+
+/**
+ * Buffers of stored values that can be transferred: those of typed arrays that are a value or a
+ * property of one (the trace record is { wavenumberCm1, absorbance }).
+ */
+export function storeValuesTransferables(values: unknown[]): ArrayBuffer[] {
+  const found = new Set<ArrayBuffer>();
+  const take = (v: unknown) => {
+    if (ArrayBuffer.isView(v) && v.buffer instanceof ArrayBuffer) found.add(v.buffer);
+  };
+  for (const v of values) {
+    take(v);
+    if (v && typeof v === 'object' && !ArrayBuffer.isView(v)) for (const p of Object.values(v)) take(p);
+  }
+  return [...found];
+}
 
 /**
  * Buffers of an outcome that can be transferred to the receiving thread (the trace columns).
@@ -48,6 +123,18 @@ export type ParseWorkerResponse = ParseProgressMessage | ParseResultMessage | Pa
 export function parseOutcomeTransferables(outcome: TraceImportOutcome): ArrayBuffer[] {
   if (!outcome.ok) return [];
   const buffers = [outcome.trace.wavenumberCm1.buffer, outcome.trace.absorbance.buffer];
+  return [...new Set(buffers)].filter((b): b is ArrayBuffer => b instanceof ArrayBuffer);
+}
+
+/**
+ * Buffers of a project read that can be transferred (the session's trace columns).
+ * @param outcome what `projectFileParse` returned
+ * @returns the distinct ArrayBuffers of the trace (empty when there is none)
+ */
+export function projectOutcomeTransferables(outcome: ProjectFileOutcome): ArrayBuffer[] {
+  const trace = outcome.ok ? outcome.session.trace : null;
+  if (!trace) return [];
+  const buffers = [trace.wavenumberCm1.buffer, trace.absorbance.buffer];
   return [...new Set(buffers)].filter((b): b is ArrayBuffer => b instanceof ArrayBuffer);
 }
 

@@ -130,9 +130,13 @@ describe('files', () => {
     await page.locator('[data-testid=tab-assignments]').click();
     for (let i = 0; i < 3; i++) await page.locator('[data-testid=assignment-row]').first().getByRole('button', { name: /Delete assignment/ }).click();
     await expect.poll(() => assignedCount(page)).toBe(expected - 3);
+    const parseWorkers = () => log.workers.filter((u) => /parse\.worker/.test(u)).length;
+    const workersBefore = parseWorkers();
     await page.locator('[data-testid=file-input]').setInputFiles({ name: project.name, mimeType: 'application/json', buffer: Buffer.from(project.text) });
     // The project was saved with the Export tab open, and opens that way again.
     await expect.poll(() => page.locator('[data-testid=tab-export]').getAttribute('aria-selected')).toBe('true');
+    // It was read in a parse worker, not on the page's thread.
+    expect(parseWorkers()).toBeGreaterThan(workersBefore);
     await page.locator('[data-testid=tab-assignments]').click();
     await expect.poll(() => assignedCount(page)).toBe(expected);
     await waitForPlot(page);

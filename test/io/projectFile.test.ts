@@ -1,6 +1,16 @@
 import fc from 'fast-check';
-import { describe, expect, it } from 'vitest';
-import { base64ToFloat64, float64ToBase64, PROJECT_FORMAT, PROJECT_VERSION, projectFileParse, projectFileSerialize, type ProjectSession } from '../../src/io/projectFile';
+import { describe, expect, it, vi } from 'vitest';
+import {
+  base64ToFloat64,
+  float64ToBase64,
+  PROJECT_FORMAT,
+  PROJECT_PART_NAMES,
+  PROJECT_VERSION,
+  projectFileParse,
+  projectFileSerialize,
+  projectPartSerialize,
+  type ProjectSession,
+} from '../../src/io/projectFile';
 import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
 
 const model: BandModel = {
@@ -221,5 +231,84 @@ describe('projectFileSerialize / projectFileParse', () => {
     expect(Array.from(r.session.trace!.absorbance)).toEqual([0.1, 0.5, 0.1]);
     expect(r.session.assignments).toEqual([{ id: 'a1', jUpper: 3, kUpper: 1, jLower: 2, kLower: 1, observedCm1: 901.2, uncertaintyCm1: 0.002, isBlended: false, isExcluded: false, note: 'x' }]);
     expect(r.messages.join(' ')).toMatch(/migrated from project version 1/);
+  });
+});
+
+describe('float64ToBase64 against an independent encoder', () => {
+  it('matches Node Buffer base64 for every padding case (1, 2 and 3 doubles) and for a large array', () => {
+    // Ref: Node.js Buffer 'base64' encoding (RFC 4648 §4 alphabet with '=' padding), an encoder independent of ours.
+    const cases = [Float64Array.of(1.5), Float64Array.of(-0, Math.PI), Float64Array.of(NaN, Infinity, 1e-310)];
+    const big = new Float64Array(100_003);
+    for (let i = 0; i < big.length; i++) big[i] = 1000 + i * 0.0019 + Math.sin(i) * 1e-3;
+    for (const values of [...cases, big]) {
+      const bytes = new Uint8Array(values.length * 8);
+      const view = new DataView(bytes.buffer);
+      values.forEach((v, i) => view.setFloat64(i * 8, v, true));
+      expect(float64ToBase64(values)).toBe(Buffer.from(bytes).toString('base64'));
+    }
+  });
+
+  it('gives the same text without a TextDecoder (the String.fromCharCode path)', async () => {
+    const values = new Float64Array(70_001).map((_, i) => i / 7 - 3);
+    const withDecoder = float64ToBase64(values);
+    vi.stubGlobal('TextDecoder', undefined);
+    vi.resetModules();
+    try {
+      const bare = await import('../../src/io/projectFile');
+      expect(bare.float64ToBase64(values)).toBe(withDecoder);
+      expect(bare.float64ToBase64(Float64Array.of(1))).toBe('AAAAAAAA8D8=');
+    } finally {
+      vi.unstubAllGlobals();
+      vi.resetModules();
+    }
+  });
+});
+
+describe('project file with fields saved apart (the autosave layout)', () => {
+  it('reads a file without assignments and fit, plus those fields as parts, to the same session as the whole file', () => {
+    const s = session();
+    const whole = projectFileParse(projectFileSerialize(s, header));
+    const head = projectFileSerialize(s, header, PROJECT_PART_NAMES);
+    expect(JSON.parse(head).session).not.toHaveProperty('assignments');
+    expect(JSON.parse(head).session).not.toHaveProperty('fit');
+    const split = projectFileParse(head, { assignments: projectPartSerialize('assignments', s.assignments), fit: projectPartSerialize('fit', s.fit) });
+    expect(split).toEqual(whole);
+    // The fit's condition number of ∞ survives in its part as in the file.
+    if (split.ok && split.session.fit?.outcome?.ok) expect(split.session.fit.outcome.result.conditionNumber).toBe(Infinity);
+  });
+
+  it('writes exactly the same text as before when nothing is omitted', () => {
+    const s = session();
+    const text = projectFileSerialize(s, header);
+    const doc = JSON.parse(text);
+    expect(Object.keys(doc.session)).toEqual(['model', ...Object.keys(s).filter((k) => k !== 'model' && k !== 'trace'), 'trace']);
+    expect(projectFileSerialize(s, header, [])).toBe(text);
+  });
+
+  it("keeps the file's own field over a part (a session written before the split)", () => {
+    const s = session();
+    const stale = [{ ...s.assignments[0], id: 'old', note: 'stale' }];
+    const r = projectFileParse(projectFileSerialize(s, header), { assignments: projectPartSerialize('assignments', stale) });
+    expect(r.ok && r.session.assignments?.map((a) => a.id)).toEqual(['a1', 'a2']);
+  });
+
+  it('checks a part row by row like the file: a bad row is dropped and named, the others kept', () => {
+    const s = session();
+    const rows = [{ ...s.assignments[0], uncertaintyCm1: -1 }, s.assignments[1]];
+    const r = projectFileParse(projectFileSerialize(s, header, ['assignments']), { assignments: JSON.stringify(rows) });
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.session.assignments?.map((a) => a.id)).toEqual(['a2']);
+    expect(r.messages.join('\n')).toMatch(/1 of 2 assignments were not loaded: session.assignments\[0\] \(uncertaintyCm1/);
+  });
+
+  it('says which part could not be read and loads the rest with that field at its default', () => {
+    const s = session();
+    const r = projectFileParse(projectFileSerialize(s, header, PROJECT_PART_NAMES), { assignments: '[{"id": ', fit: projectPartSerialize('fit', s.fit) });
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.session.assignments).toBeUndefined();
+    expect(r.session.fit?.lineIds).toEqual(['a1', 'a2']);
+    expect(r.messages.join('\n')).toMatch(/separately saved field 'session.assignments' could not be read \(not valid JSON/);
   });
 });

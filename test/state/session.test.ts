@@ -1,8 +1,8 @@
-import { beforeEach, describe, expect, it } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { projectFileParse } from '../../src/io/projectFile';
 import { candidateAssign, peakClick } from '../../src/state/actionsAssign';
 import { droppedKind, traceReplace } from '../../src/state/actionsImport';
-import { projectExportText, projectImportText } from '../../src/state/actionsProject';
+import { projectExportText, projectExportTextAsync, projectImport, projectImportText, projectReadHere, projectSetIo } from '../../src/state/actionsProject';
 import { sessionOf, stateFromSession } from '../../src/state/session';
 import { benchStore } from '../../src/state/store';
 import { smallModel, smallTrace } from './fixtures';
@@ -50,6 +50,61 @@ describe('project export and import through the store', () => {
     const fields = stateFromSession(r.session);
     expect(fields.theme).toBe(benchStore.getInitialState().theme);
     expect(fields.tableQuery).toEqual(benchStore.getInitialState().tableQuery);
+  });
+});
+
+describe('project open off the page thread (projectImport)', () => {
+  afterEach(() => projectSetIo(null));
+
+  function worked(): string {
+    const model = smallModel();
+    benchStore.setState({ model, theme: 'dark' });
+    traceReplace(smallTrace(model).trace, null, 'file');
+    peakClick(2);
+    candidateAssign(0);
+    return projectExportText('0.1.0', '2024-01-01T00:00:00Z');
+  }
+
+  it('reads a file here when there is no Worker, to the same session as projectImportText', async () => {
+    const text = worked();
+    benchStore.setState(benchStore.getInitialState(), true);
+    projectImportText(text, 'p.json');
+    const sync = sessionOf(benchStore.getState());
+    benchStore.setState(benchStore.getInitialState(), true);
+    expect(await projectImport(new Blob([text]), 'p.json')).toBe(true);
+    const { trace: t1, ...r1 } = sessionOf(benchStore.getState());
+    const { trace: t0, ...r0 } = sync;
+    expect(r1).toEqual(r0);
+    expect(Array.from(t1!.wavenumberCm1)).toEqual(Array.from(t0!.wavenumberCm1));
+    expect(await projectExportTextAsync('0.1.0', '2024-01-01T00:00:00Z')).toBe(projectExportText('0.1.0', '2024-01-01T00:00:00Z'));
+  });
+
+  it('keeps the session and says why when the reader fails (a crashed worker)', async () => {
+    worked();
+    const before = benchStore.getState();
+    projectSetIo(async () => {
+      throw new Error('parse worker failed for p.json: out of memory');
+    });
+    expect(await projectImport('{}', 'p.json')).toBe(false);
+    const s = benchStore.getState();
+    expect([s.model, s.trace, s.assignments]).toEqual([before.model, before.trace, before.assignments]);
+    expect(s.messages.at(-1)!.text).toBe('Could not open p.json: parse worker failed for p.json: out of memory. The current session is unchanged.');
+  });
+
+  it('applies only the project opened last when an earlier one is read more slowly', async () => {
+    const text = worked();
+    const other = JSON.parse(text);
+    other.session.modelName = 'second';
+    let releaseFirst: () => void = () => undefined;
+    projectSetIo(async (file, name, parts) => {
+      if (name === 'first.json') await new Promise<void>((r) => (releaseFirst = r));
+      return projectReadHere(file, name, parts);
+    });
+    const first = projectImport(text, 'first.json');
+    expect(await projectImport(JSON.stringify(other), 'second.json')).toBe(true);
+    releaseFirst();
+    expect(await first).toBe(false);
+    expect(benchStore.getState().modelName).toBe('second');
   });
 });
 
