@@ -95,19 +95,28 @@ export async function clickAPeak(page: Page): Promise<void> {
 
 /**
  * Hover over the strongest rung in the middle of the view (position from the overlay's read-out)
- * and click it.
+ * and click it; when the layout moved under the pointer (e.g. a message appeared above the plot)
+ * and the click missed, hover and click again at the new position.
  * @returns the tooltip text shown before the click
  */
 export async function clickARung(page: Page): Promise<string> {
   const overlay = page.locator('[data-testid=plot-overlay]');
-  const box = (await overlay.boundingBox())!;
-  const at = (await overlay.getAttribute('data-strongest-rung')) ?? '';
-  if (!at) throw new Error('clickARung: no rung on screen');
-  const [x, y] = at.split(',').map(Number);
-  await page.mouse.move(box.x + x, box.y + y);
   const tip = page.locator('[data-testid=plot-tip]');
-  await tip.waitFor({ state: 'visible', timeout: 5000 });
-  const label = (await tip.textContent()) ?? '';
-  await page.mouse.click(box.x + x, box.y + y);
+  let label = '';
+  for (let attempt = 0; attempt < 3; attempt++) {
+    const box = (await overlay.boundingBox())!;
+    const at = (await overlay.getAttribute('data-strongest-rung')) ?? '';
+    if (!at) throw new Error('clickARung: no rung on screen');
+    const [x, y] = at.split(',').map(Number);
+    await page.mouse.move(box.x + x, box.y + y);
+    await tip.waitFor({ state: 'visible', timeout: 5000 });
+    label = (await tip.textContent()) ?? '';
+    await page.mouse.click(box.x + x, box.y + y);
+    const selected = await page
+      .waitForFunction(() => ((document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null)?.dataset.selectedRung ?? '') !== '', null, { timeout: 1000 })
+      .then(() => true)
+      .catch(() => false);
+    if (selected) return label;
+  }
   return label;
 }
