@@ -32,8 +32,25 @@ function contentSecurityPolicy(): Plugin {
   };
 }
 
+/**
+ * plotly's registry has a static require of the map library's stylesheet, run only when a map
+ * trace is registered; our partial plotly bundle (src/ui/plotlyBundle.ts) registers none, so the
+ * 80 kB stylesheet is replaced by nothing instead of being shipped.
+ */
+function unusedMapStyles(): Plugin {
+  const id = '\0ladder-bench-no-map-css';
+  return {
+    name: 'ladder-bench-no-map-css',
+    enforce: 'pre',
+    resolveId: (source) => (source === 'maplibre-gl/dist/maplibre-gl.css' ? id : null),
+    load: (source) => (source === id ? '' : null),
+  };
+}
+
 export default defineConfig({
-  plugins: [react(), contentSecurityPolicy()],
+  plugins: [react(), contentSecurityPolicy(), unusedMapStyles()],
+  // Some of plotly's dependencies read Node's `global`; in the browser that is globalThis.
+  define: { global: 'globalThis' },
   worker: { format: 'es' },
   build: { target: 'es2022', chunkSizeWarningLimit: 4000 },
   test: {

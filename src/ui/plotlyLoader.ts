@@ -1,5 +1,6 @@
 /**
- * Lazy loading of plotly (1.5 MB): the page paints first, plotly arrives in its own chunk.
+ * Lazy loading of plotly (our partial bundle, plotlyBundle.ts): the page paints first, plotly
+ * arrives in its own chunk.
  */
 type PlotlyApi = typeof import('plotly.js');
 
@@ -7,7 +8,7 @@ let loading: Promise<PlotlyApi> | null = null;
 
 /** Load plotly once; every chart awaits the same promise. */
 export function plotlyLoad(): Promise<PlotlyApi> {
-  loading ??= import('plotly.js-cartesian-dist-min').then((m) => ((m as { default?: PlotlyApi }).default ?? (m as unknown as PlotlyApi)));
+  loading ??= import('./plotlyBundle').then((m) => m.default);
   return loading;
 }
 
