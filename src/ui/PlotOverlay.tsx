@@ -36,6 +36,8 @@ export interface PlotOverlayProps {
   onPeakClick: (peakIndex: number) => void;
   /** A click in the trace panel away from any marker: position (cm^-1) and visible width (cm^-1). */
   onTraceClick: (positionCm1: number, visibleWidthCm1: number) => void;
+  /** A double-click on the plot away from markers and rungs. */
+  onDoubleClick: () => void;
 }
 
 /** Views of the two panels in canvas CSS px, from plotly's laid-out axes. */
@@ -43,6 +45,10 @@ interface Views {
   ladder: LadderView | null;
   trace: LadderView | null;
 }
+
+/** Two clicks this close in time (ms) and place (CSS px) are a double-click. */
+const DOUBLE_CLICK_MS = 400;
+const DOUBLE_CLICK_PX = 6;
 
 /** Peak read-out for tests: up to this many free markers' positions. */
 const FREE_PEAKS_LISTED = 40;
@@ -183,15 +189,20 @@ export function PlotOverlay(props: PlotOverlayProps) {
       tip.style.left = `${Math.max(0, left)}px`;
       tip.style.top = `${Math.max(0, hit.yPx - tip.offsetHeight / 2)}px`;
     };
-    // Plotly re-dispatches a click on its drag layer after the browser's own; one pointer click
-    // (same place, same moment) acts once.
+    // plotly covers the page while a button is down, so the browser's own click lands on the cover;
+    // plotly then re-dispatches the click (untrusted) on its drag layer. That one is ours; a trusted
+    // click that still reaches us (no cover on touch devices) is the same click and is skipped.
+    // Two clicks within DOUBLE_CLICK_MS and DOUBLE_CLICK_PX are a double-click: the second one zooms
+    // out (unless on a marker or rung) instead of acting again.
     let last = { x: NaN, y: NaN, t: -Infinity };
     const onClick = (e: MouseEvent) => {
-      if (e.clientX === last.x && e.clientY === last.y && e.timeStamp - last.t < 250) return;
-      // Only clicks on the plot itself (not on the candidate list, notes or tooltips above it).
+      if (e.isTrusted) return;
       if (!(e.target instanceof Element) || !e.target.closest('.plot-surface')) return;
-      last = { x: e.clientX, y: e.clientY, t: e.timeStamp };
-      hitAt(e)?.act();
+      const isDouble = Math.hypot(e.clientX - last.x, e.clientY - last.y) <= DOUBLE_CLICK_PX && e.timeStamp - last.t <= DOUBLE_CLICK_MS;
+      last = isDouble ? { x: NaN, y: NaN, t: -Infinity } : { x: e.clientX, y: e.clientY, t: e.timeStamp };
+      const hit = hitAt(e);
+      if (!isDouble) hit?.act();
+      else if (!hit?.html) latest.current.onDoubleClick();
     };
     host.addEventListener('mousemove', onMove);
     host.addEventListener('mouseleave', hide);

@@ -2,7 +2,7 @@
  * The main plot: trace, peaks, simulated spectrum and the ladders; clicks become assignment
  * actions, zoom/pan becomes the view range (which re-decimates the trace).
  */
-import type { PlotRelayoutEvent } from 'plotly.js';
+import type { Config, PlotRelayoutEvent } from 'plotly.js';
 import { useMemo, useRef, useState } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import { peakClick, rungClick, traceClickAt } from '../state/actionsAssign';
@@ -48,6 +48,17 @@ function onRelayout(e: PlotRelayoutEvent): void {
     if (last !== undefined) viewSetXRange(last);
   });
 }
+
+/**
+ * The main chart's plotly settings: plotly's own double-click (and its "reset axes" button) would
+ * restore the range of the first drawing and counts any two clicks within 300 ms anywhere on the
+ * chart (a rung, then a peak) as a double-click; the overlay turns a real double-click into
+ * "Zoom out" instead.
+ */
+const SPECTRUM_CONFIG: Partial<Config> = {
+  doubleClick: false,
+  modeBarButtonsToRemove: ['select2d', 'lasso2d', 'toImage', 'resetScale2d'],
+};
 
 function onRungLine(lineIndex: number): void {
   const lines = selectBand(benchStore.getState()).lines;
@@ -123,6 +134,7 @@ export function SpectrumPlot() {
         <PlotlyChart
           data={figure.data}
           layout={figure.layout}
+          config={SPECTRUM_CONFIG}
           onRelayout={onRelayout}
           isUrgent={isRangeOnly || isNewTrace}
           onAfterPlot={(el) => overlayRef.current?.paint(el)}
@@ -148,6 +160,7 @@ export function SpectrumPlot() {
           onPeakClick={peakClick}
           // Look for a peak within 1 % of the visible width (at least 0.01 cm^-1) of the click.
           onTraceClick={(nu, widthCm1) => traceClickAt(nu, Math.max(0.01, 0.01 * widthCm1))}
+          onDoubleClick={() => viewSetXRange(null)}
         />
         <CandidateList />
         {band.error && (

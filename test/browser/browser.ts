@@ -106,7 +106,14 @@ export async function clickARung(page: Page): Promise<string> {
   for (let attempt = 0; attempt < 3; attempt++) {
     const box = (await overlay.boundingBox())!;
     const at = (await overlay.getAttribute('data-strongest-rung')) ?? '';
-    if (!at) throw new Error('clickARung: no rung on screen');
+    if (!at) {
+      const state = await page.evaluate(() => {
+        const d = (document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null)?.dataset ?? {};
+        const gd = document.querySelector('[data-testid=spectrum-plot]') as unknown as { _fullLayout?: { xaxis?: { range?: number[]; _length?: number } } };
+        return JSON.stringify({ ...d, freePeaks: undefined, range: gd._fullLayout?.xaxis?.range, widthPx: gd._fullLayout?.xaxis?._length });
+      });
+      throw new Error(`clickARung: no rung on screen (attempt ${attempt + 1}; overlay ${state})`);
+    }
     const [x, y] = at.split(',').map(Number);
     await page.mouse.move(box.x + x, box.y + y);
     await tip.waitFor({ state: 'visible', timeout: 5000 });

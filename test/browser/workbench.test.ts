@@ -124,6 +124,14 @@ describe('workbench page', () => {
     await zoomPlot(page, 0.5, 0.56);
     await page.waitForTimeout(600);
     await page.screenshot({ path: `${SHOTS}/08-simulated.png` });
+    // A double-click on the plot away from markers shows the whole trace again.
+    const xRange = () => page.evaluate(() => (document.querySelector('[data-testid=spectrum-plot]') as unknown as { _fullLayout: { xaxis: { range: number[] } } })._fullLayout.xaxis.range.map((v) => Math.round(v)));
+    expect(await xRange()).not.toEqual([1033, 1252]);
+    const overlayBox = (await page.locator('[data-testid=plot-overlay]').boundingBox())!;
+    const traceArea = (await page.locator('[data-testid=spectrum-plot] .nsewdrag').last().boundingBox())!;
+    await page.mouse.dblclick(traceArea.x + 6, traceArea.y + 6);
+    await expect.poll(xRange).toEqual([1033, 1252]);
+    expect(overlayBox.width).toBeGreaterThan(0);
     await page.locator('[data-testid=tab-loomis]').click();
     await page.waitForSelector('[data-testid=loomis-plot] .main-svg');
     await page.setViewportSize({ width: 1440, height: 1400 });
