@@ -1,6 +1,6 @@
 /** Entry: render the page at once, then restore the autosaved session or load the demo. */
 import './ui/zodConfig';
-import { StrictMode } from 'react';
+import { startTransition, StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { bootstrap } from './state/bootstrap';
 import { App } from './ui/App';
@@ -8,9 +8,14 @@ import './ui/theme.css';
 
 const root = document.getElementById('root');
 if (!root) throw new Error('main: the page has no #root element');
-createRoot(root).render(
-  <StrictMode>
-    <App />
-  </StrictMode>,
+// The first render is a transition: React renders the page in slices of a few milliseconds and
+// yields in between, instead of one long task while the demo and plotly are loading.
+const reactRoot = createRoot(root);
+startTransition(() =>
+  reactRoot.render(
+    <StrictMode>
+      <App />
+    </StrictMode>,
+  ),
 );
 void bootstrap();

@@ -118,13 +118,13 @@ export function SpectrumPlot() {
     [trace, xRange, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark],
   );
 
-  // A change of the visible range alone (zoom, pan) and a new trace are drawn at once (the plot is
-  // all there is to see); anything else after the page has painted (see PlotlyChart).
+  // A change of the visible range alone (zoom, pan) is drawn at once; anything else after the page
+  // has painted (see PlotlyChart). A new trace waits too: drawing it in the task that rendered it
+  // made one main-thread task of both (over 100 ms for the demo), for one frame gained.
   const prevInputs = useRef<unknown[]>([]);
   const inputs: unknown[] = [xRange, trace, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark];
   const prev = prevInputs.current;
   const isRangeOnly = prev.length > 0 && inputs[0] !== prev[0] && inputs.every((v, i) => i === 0 || v === prev[i]);
-  const isNewTrace = prev.length > 0 && inputs[1] !== prev[1];
   prevInputs.current = inputs;
 
   return (
@@ -136,7 +136,7 @@ export function SpectrumPlot() {
           layout={figure.layout}
           config={SPECTRUM_CONFIG}
           onRelayout={onRelayout}
-          isUrgent={isRangeOnly || isNewTrace}
+          isUrgent={isRangeOnly}
           onAfterPlot={(el) => overlayRef.current?.paint(el)}
           onRelayouting={(el, e) => {
             const r = relayoutRangeOf(e);
