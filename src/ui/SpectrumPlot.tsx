@@ -87,7 +87,7 @@ export function SpectrumPlot() {
 
   const rows = useMemo(() => ladderRowsBuild(band.ladders, shape, new Set(hiddenRows)), [band.ladders, shape, hiddenRows]);
   const scene = useMemo(() => ladderSceneBuild(rows, band.lines, isDark), [rows, band.lines, isDark]);
-  const markers = useMemo(() => ladderMarkersBuild(rowsA, rows, band.lines, band.indexOf), [rowsA, rows, band]);
+  const markers = useMemo(() => ladderMarkersBuild(rowsA, scene), [rowsA, scene]);
   const cursorLine = cursor ? (band.indexOf.get(`${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}`) ?? -1) : -1;
   const overlayRef = useRef<PlotOverlayHandle>(null);
   const assignedPeaks = useMemo(() => {

@@ -146,12 +146,16 @@ describe('ladderScenePaint', () => {
   it('draws assigned lines as dots at the rung tips, flagged ones as crosses, and bars once more than LADDER_DOTS_MAX are in view', () => {
     const big: BandModel = { ...model, jMax: 40, kMax: 8 };
     const { lines, rows, scene } = setUp(big);
-    const indexOf = new Map<string, number>();
-    for (let i = 0; i < lines.count; i++) indexOf.set(`${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`, i);
     const mk = (i: number): Assignment => ({ id: `a${i}`, jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i], observedCm1: lines.wavenumberCm1[i], uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' });
     const few = [0, 1, 2].map((i) => rowOf(mk(i), lines, i, { isFar: i === 2 }));
-    const markers = ladderMarkersBuild(few, rows, lines, indexOf);
+    // A line the model does not predict has no rung, so no marker.
+    const unpredicted = rowOf({ ...mk(0), id: 'none', jUpper: 900, jLower: 899 }, lines, 0);
+    const markers = ladderMarkersBuild([...few, unpredicted], scene);
     expect(Array.from(markers.lineIndex)).toEqual([0, 1, 2]);
+    // Nor does a line of a hidden row.
+    const hiddenKey = rows.find((r) => r.deltaK === lines.kUpper[1] - lines.kLower[1] && r.kLower === lines.kLower[1])!.key;
+    const partial = ladderSceneBuild(ladderRowsBuild(bandLadders(lines, 'prolate'), 'prolate', new Set([hiddenKey])), lines, false);
+    expect(Array.from(ladderMarkersBuild(few, partial).lineIndex)).not.toContain(1);
     expect(Array.from(markers.isFlagged)).toEqual([0, 0, 1]);
     for (let k = 0; k < 3; k++) {
       const i = markers.lineIndex[k];
@@ -169,7 +173,7 @@ describe('ladderScenePaint', () => {
     expect(lines.count).toBeGreaterThan(LADDER_DOTS_MAX);
     const all = Array.from({ length: lines.count }, (_, i) => rowOf(mk(i), lines, i));
     const rec2 = paintRecorder();
-    ladderScenePaint(rec2.ctx, scene, ladderMarkersBuild(all, rows, lines, indexOf), -1, view, theme);
+    ladderScenePaint(rec2.ctx, scene, ladderMarkersBuild(all, scene), -1, view, theme);
     expect(rec2.arcs.filter((a) => a.how === 'fill').length).toBe(0);
     expect(rec2.segments.filter((s) => s.colour === theme.assigned && s.widthPx === 4).length).toBe(lines.count);
   });
@@ -215,11 +219,9 @@ describe('ladderHitTest', () => {
 
   it('prefers an assigned marker within 6 px, and its tooltip is the assignment', () => {
     const { lines, rows, scene } = setUp();
-    const indexOf = new Map<string, number>();
-    for (let i = 0; i < lines.count; i++) indexOf.set(`${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`, i);
     const i = scene.lineIndex[3];
     const a: Assignment = { id: 'x', jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i], observedCm1: lines.wavenumberCm1[i] + 0.001, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' };
-    const markers = ladderMarkersBuild([rowOf(a, lines, i)], rows, lines, indexOf);
+    const markers = ladderMarkersBuild([rowOf(a, lines, i)], scene);
     const view = fullView(lines, rows.length);
     const hit = ladderHitTest(scene, markers, view, px(view, markers.nuCm1[0]) + 3, py(view, markers.y[0]) - 2)!;
     expect(hit.kind).toBe('marker');

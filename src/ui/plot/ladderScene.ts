@@ -38,7 +38,17 @@ export interface LadderScene {
   rowOrder: Int32Array[];
   /** Per row: the sorted positions matching rowOrder, cm^-1. */
   rowNuCm1: Float64Array[];
+  /** Rung index of a line by its quanta (quantaNumber), for placing assigned markers. */
+  rungOf: Map<number, number>;
   rows: readonly LadderRow[];
+}
+
+/**
+ * One number for a line's quanta (J', K', J'', K'' each below 2^12 — far beyond any band here), so
+ * lookups need no key strings.
+ */
+export function quantaNumber(jUpper: number, kUpper: number, jLower: number, kLower: number): number {
+  return ((jUpper * 4096 + kUpper) * 4096 + jLower) * 4096 + kLower;
 }
 
 /** Assigned-line markers (the green dots and red crosses on rungs). */
@@ -199,36 +209,42 @@ export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, is
   const rowOrder = perRow.map((list) => Int32Array.from(list.sort((a, b) => nuCm1[a] - nuCm1[b])));
   const rowNuCm1 = rowOrder.map((order) => Float64Array.from(order, (q) => nuCm1[q]));
   const rowLabels = rows.map((r) => markupRuns(r.tickHtml));
-  return { rowLabels, nuCm1, yBottom, yTop, lineIndex, rowIndex, groups: [...groups.values()], rowOrder, rowNuCm1, rows };
+  const rungOf = new Map<number, number>();
+  for (let q = 0; q < n; q++) {
+    const i = lineIndex[q];
+    rungOf.set(quantaNumber(lines.jUpper[i], lines.kUpper[i], lines.jLower[i], lines.kLower[i]), q);
+  }
+  return { rowLabels, nuCm1, yBottom, yTop, lineIndex, rowIndex, groups: [...groups.values()], rowOrder, rowNuCm1, rungOf, rows };
 }
 
 /**
- * Markers of the assigned lines that have a rung in the scene's rows.
+ * Markers of the assigned lines that have a rung in the scene's rows (hidden rows and lines the
+ * model does not predict have none), at the rung's tip.
  * @param assignments rows of the assignments table
- * @param rows ladder rows shown
- * @param lines line list
- * @param indexOf quanta key "J',K',J'',K''" → line index
+ * @param scene from ladderSceneBuild
  */
-export function ladderMarkersBuild(assignments: readonly AssignmentRow[], rows: readonly LadderRow[], lines: LineList, indexOf: ReadonlyMap<string, number>): LadderMarkers {
-  const rowY = new Map(rows.map((r) => [r.key, r.y]));
-  const nu: number[] = [];
-  const y: number[] = [];
-  const flag: number[] = [];
-  const line: number[] = [];
+export function ladderMarkersBuild(assignments: readonly AssignmentRow[], scene: LadderScene): LadderMarkers {
+  const n = assignments.length;
+  const nu = new Float64Array(n);
+  const y = new Float64Array(n);
+  const flag = new Uint8Array(n);
+  const line = new Int32Array(n);
   const kept: AssignmentRow[] = [];
   for (const r of assignments) {
     const a = r.a;
-    const i = indexOf.get(`${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
-    if (i === undefined) continue;
-    const y0 = rowY.get(`${'pqr'[r.deltaK + 1]}:${a.kLower}`);
-    if (y0 === undefined) continue;
-    nu.push(lines.wavenumberCm1[i]);
-    y.push(y0 + rungTip(r.deltaJ, lines.intensity[i]));
-    flag.push(r.isFar || r.isOutlier ? 1 : 0);
-    line.push(i);
+    const q = scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower));
+    if (q === undefined) continue;
+    const k = kept.length;
+    const rowY = scene.rows[scene.rowIndex[q]].y;
+    nu[k] = scene.nuCm1[q];
+    // The tip: the lower end of a P rung (it hangs from its row line), else the upper.
+    y[k] = scene.yTop[q] > rowY ? scene.yTop[q] : scene.yBottom[q];
+    flag[k] = r.isFar || r.isOutlier ? 1 : 0;
+    line[k] = scene.lineIndex[q];
     kept.push(r);
   }
-  return { nuCm1: Float64Array.from(nu), y: Float64Array.from(y), isFlagged: Uint8Array.from(flag), lineIndex: Int32Array.from(line), rows: kept };
+  const m = kept.length;
+  return { nuCm1: nu.slice(0, m), y: y.slice(0, m), isFlagged: flag.slice(0, m), lineIndex: line.slice(0, m), rows: kept };
 }
 
 /** Data → CSS px maps of a view. */
