@@ -107,5 +107,15 @@ export async function projectImport(file: File | Blob | string, fileName: string
     return false;
   }
   if (serial !== openSerial) return false;
-  return projectApply(r, fileName);
+  if (!r.ok) return projectApply(r, fileName);
+  // Applied in two tasks: the trace, model and view first, the assignments and fit in the next task
+  // (with 5,000 assignments, one update rendering both was a main-thread task over 100 ms).
+  const { session } = r;
+  const deferred = { assignments: session.assignments, fit: session.fit, nextAssignmentNumber: session.nextAssignmentNumber };
+  const first = stateFromSession({ ...session, assignments: [], fit: undefined });
+  benchStore.setState(first);
+  await new Promise((resolve) => setTimeout(resolve, 0));
+  // Another project (or file) replaced this one meanwhile: leave it.
+  if (serial !== openSerial || benchStore.getState().trace !== first.trace || benchStore.getState().model !== first.model) return false;
+  return projectApply({ ...r, session: { ...session, ...deferred } }, fileName);
 }
