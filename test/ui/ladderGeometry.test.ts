@@ -1,20 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { bandLadders } from '../../src/physics/bandLadders';
 import { bandLines } from '../../src/physics/bandLines';
-import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
+import type { BandModel } from '../../src/physics/model';
+import { ladderTestModel } from './ladderFixtures';
 import { ladderLabelTemplate, ladderRowKey, ladderRowsBuild, rungExtent, rungTip } from '../../src/ui/plot/ladderGeometry';
 
-// Invented constants (cm^-1), small enough to count lines by hand.
-const model: BandModel = {
-  shape: 'prolate',
-  band: 'perpendicular',
-  lower: stateConstantsFrom({ B: 0.3, A: 5 }),
-  upper: stateConstantsFrom({ origin: 1000, B: 0.299, A: 4.98, zeta: 0.2 }),
-  temperatureK: 300,
-  jMax: 6,
-  kMax: 2,
-  spinWeights: [1],
-};
+const model = ladderTestModel;
 
 describe('ladderRowsBuild', () => {
   it('returns no rows for no ladders', () => {

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { Assignment } from '../../src/fit/assignment';
 import { bandLadders } from '../../src/physics/bandLadders';
 import { bandLines } from '../../src/physics/bandLines';
-import { stateConstantsFrom, type BandModel, type LineList } from '../../src/physics/model';
+import type { BandModel, LineList } from '../../src/physics/model';
 import type { AssignmentRow } from '../../src/state/selectors';
 import { ladderLabelTemplate, ladderRowsBuild, rungExtent, rungTip } from '../../src/ui/plot/ladderGeometry';
 import {
@@ -17,19 +17,11 @@ import {
   type LadderView,
 } from '../../src/ui/plot/ladderScene';
 import { ladderColour, plotTheme } from '../../src/ui/plot/plotColours';
+import { ladderTestModel } from './ladderFixtures';
 import { paintRecorder } from './paintRecorder';
 
-// Invented constants (cm^-1): a small perpendicular band of a fictitious prolate top.
-const model: BandModel = {
-  shape: 'prolate',
-  band: 'perpendicular',
-  lower: stateConstantsFrom({ B: 0.3, A: 5 }),
-  upper: stateConstantsFrom({ origin: 1000, B: 0.299, A: 4.98, zeta: 0.2 }),
-  temperatureK: 300,
-  jMax: 15,
-  kMax: 4,
-  spinWeights: [1],
-};
+// The small invented band of the ladder-geometry tests, with more J and K so rows hold many rungs.
+const model: BandModel = { ...ladderTestModel, jMax: 15, kMax: 4 };
 
 const theme = plotTheme(false);
 

@@ -330,6 +330,15 @@ export function ladderScenePaint(ctx: LadderPaintContext, scene: LadderScene, ma
   return drawn;
 }
 
+/** Fill the current path of circles as assigned dots with a thin paper-coloured ring (ladders and peaks alike). */
+export function assignedDotsFinish(ctx: LadderPaintContext, theme: PlotTheme): void {
+  ctx.fillStyle = theme.assigned;
+  ctx.fill();
+  ctx.strokeStyle = theme.paper;
+  ctx.lineWidth = 1;
+  ctx.stroke();
+}
+
 function markersPaint(ctx: LadderPaintContext, m: LadderMarkers, px: (nu: number) => number, py: (y: number) => number, lo: number, hi: number, theme: PlotTheme): void {
   let nOk = 0;
   for (let k = 0; k < m.nuCm1.length; k++) if (!m.isFlagged[k] && m.nuCm1[k] >= lo && m.nuCm1[k] <= hi) nOk++;
@@ -355,11 +364,7 @@ function markersPaint(ctx: LadderPaintContext, m: LadderMarkers, px: (nu: number
     ctx.lineWidth = 4;
     ctx.stroke();
   } else {
-    ctx.fillStyle = theme.assigned;
-    ctx.fill();
-    ctx.strokeStyle = theme.paper;
-    ctx.lineWidth = 1;
-    ctx.stroke();
+    assignedDotsFinish(ctx, theme);
   }
   // Flagged markers: crosses.
   ctx.beginPath();

@@ -6,7 +6,7 @@
 import type { PeakList } from '../../analysis/peaksFind';
 import type { Trace } from '../../io/trace';
 import { sortedLowerBound } from '../../state/sortedSearch';
-import { viewMaps, type LadderPaintContext, type LadderView } from './ladderScene';
+import { assignedDotsFinish, viewMaps, type LadderPaintContext, type LadderView } from './ladderScene';
 import type { PlotTheme } from './plotColours';
 
 /** Largest number of peak markers drawn at once (the strongest by SNR in view are kept). */
@@ -147,11 +147,7 @@ export function peakLayerPaint(ctx: LadderPaintContext, layer: PeakLayer, drawn:
     ctx.moveTo(x + r + 0.75, y);
     ctx.arc(x, y, r + 0.75, 0, 2 * Math.PI);
   }
-  ctx.fillStyle = theme.assigned;
-  ctx.fill();
-  ctx.strokeStyle = theme.paper;
-  ctx.lineWidth = 1;
-  ctx.stroke();
+  assignedDotsFinish(ctx, theme);
   ctx.restore();
   return drawn.length;
 }
