@@ -128,12 +128,24 @@ export function PlotOverlay(props: PlotOverlayProps) {
     }
   };
 
+  // Paint once per animation frame however often it is asked (plotly's afterplot fires twice in a
+  // zoom, relayouting on every pointer move of a pan), and apart from the task that drew plotly.
+  const frameRef = useRef(0);
+  const paintSoon = () => {
+    if (frameRef.current) return;
+    frameRef.current = requestAnimationFrame(() => {
+      frameRef.current = 0;
+      paint();
+    });
+  };
+  useEffect(() => () => cancelAnimationFrame(frameRef.current), []);
+
   useImperativeHandle(
     props.ref,
     () => ({
       paint(el, override) {
         plotRef.current = { el, override };
-        paint();
+        paintSoon();
       },
     }),
     [],
@@ -141,7 +153,7 @@ export function PlotOverlay(props: PlotOverlayProps) {
 
   // Repaint when what is drawn changes (the plot itself may not redraw).
   useEffect(() => {
-    paint();
+    paintSoon();
   }, [props.scene, props.markers, props.cursorLine, props.peaks, props.isDark]);
 
   useEffect(() => {
