@@ -97,6 +97,8 @@ export function SpectrumPlot() {
   }, [rowsA]);
   const peakBase = useMemo(() => (showPeaks && peaks && trace ? peakLayerBase(peaks, trace, ordinate) : null), [showPeaks, peaks, trace, ordinate]);
   const peakLayer = useMemo(() => (peakBase ? peakLayerBuild(peakBase, assignedPeaks, peakIdAt, peakIdPosition) : null), [peakBase, assignedPeaks]);
+  // What the plotly figure depends on; the visible range first (see isRangeOnly).
+  const inputs: unknown[] = [xRange, trace, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark];
   const figure = useMemo(
     () =>
       spectrumFigure({
@@ -115,14 +117,13 @@ export function SpectrumPlot() {
         showObsMinusSim,
         isDark,
       }),
-    [trace, xRange, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark],
+    inputs,
   );
 
   // A change of the visible range alone (zoom, pan) is drawn at once; anything else after the page
   // has painted (see PlotlyChart). A new trace waits too: drawing it in the task that rendered it
   // made one main-thread task of both (over 100 ms for the demo), for one frame gained.
   const prevInputs = useRef<unknown[]>([]);
-  const inputs: unknown[] = [xRange, trace, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark];
   const prev = prevInputs.current;
   const isRangeOnly = prev.length > 0 && inputs[0] !== prev[0] && inputs.every((v, i) => i === 0 || v === prev[i]);
   prevInputs.current = inputs;

@@ -417,14 +417,9 @@ async function redrawStep(page: Page, kind: 'zoom' | 'pan' | 'reset', k: number)
   const area = await plotBox(page, 'nsewdrag');
   await watchArm(page, 'traceRedrawn', null, 15_000);
   const armed = await page.evaluate(() => performance.now());
-  const y = area.y + area.height * 0.8;
   if (kind === 'zoom') {
-    // Box zoom, x only (the vertical move stays under plotly's minimum drag).
     const a = 0.25 + 0.1 * (k % 3);
-    await page.mouse.move(area.x + area.width * a, y);
-    await page.mouse.down();
-    await page.mouse.move(area.x + area.width * (a + 0.35), y + 2, { steps: 4 });
-    await page.mouse.up();
+    await boxZoomDrag(page, area, a, a + 0.35);
   } else if (kind === 'pan') {
     const axis = await plotBox(page, 'ewdrag');
     const cx = axis.x + axis.width / 2;
@@ -518,15 +513,23 @@ async function zoomFromFull(page: Page, steps: [number, number][]): Promise<void
   for (const [a, b] of steps) await zoomTo(page, a, b);
 }
 
-/** Zoom the plot to a fraction of the current range with a box drag (no timing). */
-async function zoomTo(page: Page, fromFrac: number, toFrac: number): Promise<void> {
-  const area = await plotBox(page, 'nsewdrag');
+/**
+ * A box zoom in x between two fractions of the trace subplot's width, low in the plot; the vertical
+ * move stays under plotly's minimum drag, so only x zooms.
+ */
+async function boxZoomDrag(page: Page, area: { x: number; y: number; width: number; height: number }, fromFrac: number, toFrac: number): Promise<void> {
   const y = area.y + area.height * 0.8;
-  await watchArm(page, 'traceRedrawn', null, 15_000);
   await page.mouse.move(area.x + area.width * fromFrac, y);
   await page.mouse.down();
   await page.mouse.move(area.x + area.width * toFrac, y + 2, { steps: 4 });
   await page.mouse.up();
+}
+
+/** Zoom the plot to a fraction of the current range with a box drag (no timing). */
+async function zoomTo(page: Page, fromFrac: number, toFrac: number): Promise<void> {
+  const area = await plotBox(page, 'nsewdrag');
+  await watchArm(page, 'traceRedrawn', null, 15_000);
+  await boxZoomDrag(page, area, fromFrac, toFrac);
   await watchResult(page, 'waiting for a zoom', 15_000);
   await pause(400);
 }
@@ -759,13 +762,8 @@ async function zoomLongTasks(page: Page): Promise<void> {
     await watchArm(page, 'traceRedrawn', null, 15_000);
     const armed = await page.evaluate(() => performance.now());
     const prof = run < 2 ? await profileStart(page, `view change with 5000 assigned (${run % 2 ? 'zoom out' : 'box zoom'}): input + 1.5 s`) : null;
-    if (run % 2 === 0) {
-      const y = area.y + area.height * 0.8;
-      await page.mouse.move(area.x + area.width * 0.3, y);
-      await page.mouse.down();
-      await page.mouse.move(area.x + area.width * 0.7, y + 2, { steps: 4 });
-      await page.mouse.up();
-    } else await zoomOutButton(page).click();
+    if (run % 2 === 0) await boxZoomDrag(page, area, 0.3, 0.7);
+    else await zoomOutButton(page).click();
     await watchResult(page, 'waiting for the redraw after a view change', 15_000).catch((err: Error) => note(err.message));
     await pause(1500);
     await prof?.stop();

@@ -8,7 +8,7 @@
 import { lineLabelHtml } from '../../physics/lineLabel';
 import type { LineList, TopShape } from '../../physics/model';
 import type { AssignmentRow } from '../../state/selectors';
-import { ladderLabelTemplate, rungExtent, rungTip, type LadderRow } from './ladderGeometry';
+import { ladderLabelTemplate, rungExtent, type LadderRow } from './ladderGeometry';
 import { ladderColour, type PlotTheme } from './plotColours';
 import { sortedLowerBound } from './traceDecimate';
 
@@ -217,6 +217,11 @@ export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, is
   return { rowLabels, nuCm1, yBottom, yTop, lineIndex, rowIndex, groups: [...groups.values()], rowOrder, rowNuCm1, rungOf, rows };
 }
 
+/** The tip of rung q on the ladder axis: the lower end of a P rung (it hangs from its row line), else the upper (as rungTip). */
+function rungTipAt(scene: LadderScene, q: number): number {
+  return scene.yTop[q] > scene.rows[scene.rowIndex[q]].y ? scene.yTop[q] : scene.yBottom[q];
+}
+
 /**
  * Markers of the assigned lines that have a rung in the scene's rows (hidden rows and lines the
  * model does not predict have none), at the rung's tip.
@@ -235,10 +240,8 @@ export function ladderMarkersBuild(assignments: readonly AssignmentRow[], scene:
     const q = scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower));
     if (q === undefined) continue;
     const k = kept.length;
-    const rowY = scene.rows[scene.rowIndex[q]].y;
     nu[k] = scene.nuCm1[q];
-    // The tip: the lower end of a P rung (it hangs from its row line), else the upper.
-    y[k] = scene.yTop[q] > rowY ? scene.yTop[q] : scene.yBottom[q];
+    y[k] = rungTipAt(scene, q);
     flag[k] = r.isFar || r.isOutlier ? 1 : 0;
     line[k] = scene.lineIndex[q];
     kept.push(r);
@@ -316,9 +319,7 @@ export function ladderScenePaint(ctx: LadderPaintContext, scene: LadderScene, ma
   if (cursorLine >= 0) {
     const k = scene.lineIndex.indexOf(cursorLine);
     if (k >= 0) {
-      const row = scene.rows[scene.rowIndex[k]];
-      // The rung's tip: the lower end of a P rung (which hangs from its row line), else the upper.
-      const tipY = scene.yTop[k] > row.y ? scene.yTop[k] : scene.yBottom[k];
+      const tipY = rungTipAt(scene, k);
       ctx.strokeStyle = theme.cursor;
       ctx.lineWidth = 2.5;
       ctx.beginPath();
