@@ -27,7 +27,11 @@ function contentSecurityPolicy(): Plugin {
     transformIndexHtml: {
       order: 'post',
       // Right after the charset declaration, before any script or style.
-      handler: (html) => html.replace(/(<meta charset="[^"]*"\s*\/?>)/i, `$1\n    <meta http-equiv="Content-Security-Policy" content="${CONTENT_SECURITY_POLICY}" />`),
+      handler: (html) =>
+        html.replace(
+          /(<meta charset="[^"]*"\s*\/?>)/i,
+          `$1\n    <meta http-equiv="Content-Security-Policy" content="${CONTENT_SECURITY_POLICY}" />`,
+        ),
     },
   };
 }

@@ -19,7 +19,14 @@ import { assistantCatalogue, assistantQuantaKey, type AssistantCatalogue } from 
 import { assistantRefit } from './assistantRefit';
 import { assistantShiftSearch } from './assistantShiftSearch';
 import { assistantFitLines } from './assistantReview';
-import type { AssistantAmbiguity, AssistantIteration, AssistantLine, AssistantOptions, AssistantOptionsResolved, AssistantRunResult } from './assistantTypes';
+import type {
+  AssistantAmbiguity,
+  AssistantIteration,
+  AssistantLine,
+  AssistantOptions,
+  AssistantOptionsResolved,
+  AssistantRunResult,
+} from './assistantTypes';
 import type { PeakList } from './peaksFind';
 
 /** Inputs of assistantAutoExtend. */
@@ -104,7 +111,8 @@ function checkLines(model: BandModel, lines: readonly AssistantLine[]): void {
     if (!l || typeof l !== 'object') throw new Error(`${where}: must be an assistant line object`);
     const why = assignmentCheck(l, model);
     if (why) throw new Error(`${where}: ${why}`);
-    if (!Number.isFinite(l.observedCm1)) throw new Error(`${where}: observedCm1 must be a finite wavenumber in cm^-1, got ${l.observedCm1}`);
+    if (!Number.isFinite(l.observedCm1))
+      throw new Error(`${where}: observedCm1 must be a finite wavenumber in cm^-1, got ${l.observedCm1}`);
     if (!(l.uncertaintyCm1 > 0) || !Number.isFinite(l.uncertaintyCm1)) {
       throw new Error(`${where}: uncertaintyCm1 must be a finite number > 0 (cm^-1), got ${l.uncertaintyCm1}`);
     }
@@ -180,7 +188,12 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
   // User lines the fit disagrees with are left out of the run's fits; the lines themselves stay as given.
   const heldOut = new Set<string>();
   const refit = (): void => {
-    const out = assistantRefit(model, input.floatable, assistantFitLines(lines).filter((l) => !heldOut.has(l.id)), state.fit);
+    const out = assistantRefit(
+      model,
+      input.floatable,
+      assistantFitLines(lines).filter((l) => !heldOut.has(l.id)),
+      state.fit,
+    );
     state.fitNotes = out.notes;
     state.floated = out.floated;
     if (out.fit) {
@@ -202,13 +215,20 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     if (state.fit && state.fit.nLines <= DELETION_MAX_LINES) {
       const fitLines = assistantFitLines(lines).filter((l) => !heldOut.has(l.id));
       const bad = deletionOutliers(model, input.floatable, fitLines, state.fit);
-      nExcluded += markOutliers(bad.map((b) => ({ l: b.line, z: b.z })), heldOut, warnings, iteration, model.shape);
+      nExcluded += markOutliers(
+        bad.map((b) => ({ l: b.line, z: b.z })),
+        heldOut,
+        warnings,
+        iteration,
+        model.shape,
+      );
       if (bad.length) refit();
     }
     nExcluded += excludeOutliers(lines, state.fit, options, iteration, heldOut, warnings);
     if (nExcluded > 0) refit();
     const current = state.fit;
-    const minIntensity = Number.isFinite(heightScale) && peaks.noiseSigma > 0 ? Math.min(1e-3, Math.max(1e-7, (0.5 * peaks.noiseSigma) / heightScale)) : 1e-4;
+    const minIntensity =
+      Number.isFinite(heightScale) && peaks.noiseSigma > 0 ? Math.min(1e-3, Math.max(1e-7, (0.5 * peaks.noiseSigma) / heightScale)) : 1e-4;
     const cat = assistantCatalogue({
       model: current ? current.model : model,
       fit: current,
@@ -241,10 +261,14 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     for (let i = 0; i < cat.lines.count; i++) {
       if (isRungAssigned[i]) continue;
       if (!isReached(model, reach, cat.lines.deltaK[i], cat.lines.kLower[i], cat.lines.jLower[i], step)) continue;
-      const strongEnough = Number.isFinite(heightScale) ? heightScale * cat.lines.intensity[i] >= minHeight : cat.lines.intensity[i] >= 0.02;
+      const strongEnough = Number.isFinite(heightScale)
+        ? heightScale * cat.lines.intensity[i] >= minHeight
+        : cat.lines.intensity[i] >= 0.02;
       if (strongEnough) offered.push(i);
     }
-    const alignment = needsAlignment ? alignNewSubBands(model, cat, peaks, context, offered, reach) : new Map<number, SubBandAlignment | null>();
+    const alignment = needsAlignment
+      ? alignNewSubBands(model, cat, peaks, context, offered, reach)
+      : new Map<number, SubBandAlignment | null>();
     const candidates: number[] = [];
     const tolerances: number[] = [];
     let nTooWide = 0;
@@ -416,14 +440,22 @@ function alignNewSubBands(
       out.set(m, null);
       continue;
     }
-    const r = assistantShiftSearch(peaks, tau, idx, cat.predictedCm1, () => 0, () => 0, {
-      deltaCentre: 0,
-      deltaWindow: window,
-      sumCentre: 0,
-      sumWindow: 0,
-      diffCentre: 0,
-      diffWindow: 0,
-    });
+    const r = assistantShiftSearch(
+      peaks,
+      tau,
+      idx,
+      cat.predictedCm1,
+      () => 0,
+      () => 0,
+      {
+        deltaCentre: 0,
+        deltaWindow: window,
+        sumCentre: 0,
+        sumWindow: 0,
+        diffCentre: 0,
+        diffWindow: 0,
+      },
+    );
     const isEnough = r.count >= Math.max(3, 0.5 * r.n) && r.count / r.n >= 2 * r.chance + 0.1;
     // The model's own positions are kept when they do nearly as well as the best shift (a band
     // whose sub-bands nearly coincide aligns equally well with its neighbours' ladders).

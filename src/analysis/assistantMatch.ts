@@ -145,7 +145,9 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
     // An unresolved K stack (same ΔK, ΔJ and J'', only K differs; the K structure of a parallel
     // band) is not a choice between candidates: all its members go to the peak, as a blend.
     const sameStack = (j: number) =>
-      cat.lines.deltaK[j] === cat.lines.deltaK[i] && cat.lines.deltaJ[j] === cat.lines.deltaJ[i] && cat.lines.jLower[j] === cat.lines.jLower[i];
+      cat.lines.deltaK[j] === cat.lines.deltaK[i] &&
+      cat.lines.deltaJ[j] === cat.lines.deltaJ[i] &&
+      cat.lines.jLower[j] === cat.lines.jLower[i];
     let stack: number[] = [];
     if (competitors.length > 0 && competitors.every(sameStack)) {
       const strongest = Math.max(intensity, ...competitors.map((j) => cat.lines.intensity[j]));

@@ -4,8 +4,20 @@ import { fitPredict } from '../fit/fitPredict';
 import type { FitError, FitResult } from '../fit/fitTypes';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel } from '../physics/model';
-import { assistantPeakContext, assistantPeaksCheck, assistantPeaksInRange, assistantPeaksUsable, type AssistantPeakContext } from './assistantPeakContext';
-import { assistantCatalogue, assistantPairSigma, assistantQuantaKey, assistantStudentFactor, assistantFitScatterCm1 } from './assistantPredict';
+import {
+  assistantPeakContext,
+  assistantPeaksCheck,
+  assistantPeaksInRange,
+  assistantPeaksUsable,
+  type AssistantPeakContext,
+} from './assistantPeakContext';
+import {
+  assistantCatalogue,
+  assistantPairSigma,
+  assistantQuantaKey,
+  assistantStudentFactor,
+  assistantFitScatterCm1,
+} from './assistantPredict';
 import { assistantRefit } from './assistantRefit';
 import { assistantOptionsResolve } from './assistantOptions';
 import type { AssistantAlternative, AssistantCandidatePeak, AssistantOptions, AssistantSuspect } from './assistantTypes';
@@ -93,7 +105,12 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
   };
   for (let round = 0; round < 5; round++) {
     const inFit = active.filter((i) => !excluded.has(i));
-    const refit = assistantRefit(model, input.floatable, inFit.map((i) => ({ ...lines[i], isExcluded: false })), fit);
+    const refit = assistantRefit(
+      model,
+      input.floatable,
+      inFit.map((i) => ({ ...lines[i], isExcluded: false })),
+      fit,
+    );
     if (!refit.fit) {
       fitError = refit.error;
       break;
@@ -170,14 +187,17 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
     const z = omc / e.sigma;
     const reasons: string[] = [];
     if (Math.abs(z) > thr) {
-      reasons.push(`obs − calc = ${omc.toPrecision(3)} cm^-1 is ${z.toFixed(1)}σ (σ = ${e.sigma.toPrecision(2)} cm^-1) from the fit without the outliers`);
+      reasons.push(
+        `obs − calc = ${omc.toPrecision(3)} cm^-1 is ${z.toFixed(1)}σ (σ = ${e.sigma.toPrecision(2)} cm^-1) from the fit without the outliers`,
+      );
     }
     const cdReasons = cdBad.get(i);
     if (cdReasons && !cdGood.has(i)) reasons.push(...cdReasons);
     if (reasons.length === 0) continue;
 
     const peakIndex = line.peakIndex ?? null;
-    const centreSigma = peakIndex !== null && peakIndex >= 0 && peakIndex < peaks.count ? peaks.centreSigmaCm1[peakIndex] : line.uncertaintyCm1;
+    const centreSigma =
+      peakIndex !== null && peakIndex >= 0 && peakIndex < peaks.count ? peaks.centreSigmaCm1[peakIndex] : line.uncertaintyCm1;
     const alternativeRungs: AssistantAlternative[] = [];
     const ownKey = assistantQuantaKey(line);
     for (let j = 0; j < cat.lines.count; j++) {
@@ -201,7 +221,9 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
     const own = cat.indexOf.get(ownKey);
     const floorWidth = Number.isFinite(context.medianFwhmCm1) ? context.medianFwhmCm1 : 0;
     const ownTol =
-      own !== undefined ? cat.toleranceSigmaCm1[own] : Math.hypot(e.predictionSigma * factor, scatter, options.widthFloorFraction * floorWidth);
+      own !== undefined
+        ? cat.toleranceSigmaCm1[own]
+        : Math.hypot(e.predictionSigma * factor, scatter, options.widthFloorFraction * floorWidth);
     const alternativePeaks: AssistantCandidatePeak[] = [];
     const half = k * Math.hypot(ownTol, maxOf(peaks.centreSigmaCm1, peaks.count));
     const [first, last] = assistantPeaksInRange(peaks, e.calc - half, e.calc + half);
@@ -209,7 +231,8 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
       if (p === peakIndex) continue;
       const sigma = assistantPairSigma(ownTol, peaks.centreSigmaCm1[p]);
       const d = Math.abs(peaks.wavenumberCm1[p] - e.calc);
-      if (d <= k * sigma) alternativePeaks.push({ peakIndex: p, wavenumberCm1: peaks.wavenumberCm1[p], distanceSigma: d / sigma, sigmaCm1: sigma });
+      if (d <= k * sigma)
+        alternativePeaks.push({ peakIndex: p, wavenumberCm1: peaks.wavenumberCm1[p], distanceSigma: d / sigma, sigmaCm1: sigma });
     }
     alternativePeaks.sort((a, b) => a.distanceSigma - b.distanceSigma);
     suspects.push({

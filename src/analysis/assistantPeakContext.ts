@@ -64,8 +64,13 @@ export function assistantPeaksUsable(peaks: PeakList): { peaks: PeakList; repair
 /** The warning for repaired peaks (empty when none). */
 export function assistantPeaksRepairWarning(peaks: PeakList, repaired: number[]): string[] {
   if (repaired.length === 0) return [];
-  const where = repaired.slice(0, 5).map((k) => peaks.wavenumberCm1[k].toFixed(4)).join(', ');
-  return [`${repaired.length} peak(s) had no usable centre σ (at ${where}${repaired.length > 5 ? ', …' : ''} cm^-1); a quarter of their FWHM is used instead`];
+  const where = repaired
+    .slice(0, 5)
+    .map((k) => peaks.wavenumberCm1[k].toFixed(4))
+    .join(', ');
+  return [
+    `${repaired.length} peak(s) had no usable centre σ (at ${where}${repaired.length > 5 ? ', …' : ''} cm^-1); a quarter of their FWHM is used instead`,
+  ];
 }
 
 /**

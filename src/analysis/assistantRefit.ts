@@ -98,7 +98,9 @@ export function assistantRefit(
   // Two degrees of freedom once there are 5 lines (the Student factor is 6.5 at one, 2.2 at two).
   const cap = span.n >= 5 ? span.n - 2 : span.n >= 2 ? span.n - 1 : span.n;
   if (floated.length > cap) {
-    notes.push(`${floated.length - cap} constant(s) wait for more lines (${floated.slice(cap).join(', ')}): ${span.n} lines keep at most ${cap} floated`);
+    notes.push(
+      `${floated.length - cap} constant(s) wait for more lines (${floated.slice(cap).join(', ')}): ${span.n} lines keep at most ${cap} floated`,
+    );
     floated = floated.slice(0, cap);
   }
   const waiting = floatable.filter((k) => !floated.includes(k) && !staged.flat().includes(k));
@@ -131,7 +133,9 @@ export function assistantRefit(
             return p.sigma !== null && Math.abs(p.value) < SIGNIFICANCE * p.sigma;
           });
       if (weak.length === 0) return { fit: outcome.result, error: null, floated, notes };
-      notes.push(`${weak.join(', ')} held at the model value${weak.length > 1 ? 's' : ''}: not yet determined by the lines (|value| < ${SIGNIFICANCE}σ)`);
+      notes.push(
+        `${weak.join(', ')} held at the model value${weak.length > 1 ? 's' : ''}: not yet determined by the lines (|value| < ${SIGNIFICANCE}σ)`,
+      );
       floated = floated.filter((k) => !weak.includes(k));
       continue;
     }

@@ -30,7 +30,8 @@ export function assistantLinesFromAssignments(
     const where = `assistantLinesFromAssignments: line ${i + 1} (id '${a.id}')`;
     const why = assignmentCheck(a, model);
     if (why) throw new Error(`${where}: ${why}`);
-    if (!Number.isFinite(a.observedCm1)) throw new Error(`${where}: observedCm1 must be a finite wavenumber in cm^-1, got ${a.observedCm1}`);
+    if (!Number.isFinite(a.observedCm1))
+      throw new Error(`${where}: observedCm1 must be a finite wavenumber in cm^-1, got ${a.observedCm1}`);
     const sigma = a.uncertaintyCm1 ?? ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1;
     if (!(sigma > 0) || !Number.isFinite(sigma)) throw new Error(`${where}: uncertaintyCm1 must be a finite number > 0, got ${sigma}`);
     let peakIndex: number | null = null;

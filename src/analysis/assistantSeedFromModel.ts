@@ -2,7 +2,13 @@ import { bandLines } from '../physics/bandLines';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
-import { assistantPeakContext, assistantPeaksCheck, assistantPeaksInRange, assistantPeaksUsable, assistantPeakUncertainty } from './assistantPeakContext';
+import {
+  assistantPeakContext,
+  assistantPeaksCheck,
+  assistantPeaksInRange,
+  assistantPeaksUsable,
+  assistantPeakUncertainty,
+} from './assistantPeakContext';
 import { assistantOptionsResolve } from './assistantOptions';
 import type { AssistantLine, AssistantOptions } from './assistantTypes';
 import type { PeakList } from './peaksFind';
@@ -87,7 +93,8 @@ function checkSeedOptions(o: Required<Omit<AssistantSeedOptions, 'assistant'>>):
     const v = o[k] as number;
     if (!(v > 0) || !Number.isFinite(v)) throw new Error(`assistantSeedFromModel: ${k} must be a finite number > 0, got ${v}`);
   }
-  if (!(o.bScaleWindow >= 0 && o.bScaleWindow < 0.5)) throw new Error(`assistantSeedFromModel: bScaleWindow must be in [0, 0.5), got ${o.bScaleWindow}`);
+  if (!(o.bScaleWindow >= 0 && o.bScaleWindow < 0.5))
+    throw new Error(`assistantSeedFromModel: bScaleWindow must be in [0, 0.5), got ${o.bScaleWindow}`);
   for (const k of ['searchLines', 'count', 'perSeries'] as const) {
     if (!Number.isInteger(o[k]) || o[k] < 1) throw new Error(`assistantSeedFromModel: ${k} must be a whole number >= 1, got ${o[k]}`);
   }
@@ -168,21 +175,32 @@ export function assistantSeedFromModel(
   const ranked = [...subBands.entries()].sort((x, y) => total(y[1]) - total(x[1]));
   if (ranked.length === 0) return empty('The model predicts no lines at low J and K to seed from.');
   const strongestOf = (idx: number[], jMax: number) =>
-    idx.filter((i) => lines.jLower[i] <= jMax).sort((x, y) => lines.intensity[y] - lines.intensity[x]).slice(0, o.searchLines);
+    idx
+      .filter((i) => lines.jLower[i] <= jMax)
+      .sort((x, y) => lines.intensity[y] - lines.intensity[x])
+      .slice(0, o.searchLines);
   const termB = (j: number, k: number) => j * (j + 1) - k * k;
   const dSumOf = (i: number) => termB(lines.jUpper[i], lines.kUpper[i]) - termB(lines.jLower[i], lines.kLower[i]);
   const dDiffOf = (i: number) => 0.5 * (termB(lines.jUpper[i], lines.kUpper[i]) + termB(lines.jLower[i], lines.kLower[i]));
   const bRef = Math.abs(model.lower.B) > 0 ? Math.abs(model.lower.B) : Math.abs(model.upper.B);
   const [mainKey, mainLines] = ranked[0];
   // Coarse: low-J lines over the whole window; fine: all search lines near the coarse optimum.
-  const coarse = shiftSearch(peaks, tau, strongestOf(mainLines, COARSE_MAX_J).slice(0, COARSE_LINES), lines.wavenumberCm1, dSumOf, dDiffOf, {
-    deltaCentre: 0,
-    deltaWindow: o.originWindowCm1,
-    sumCentre: 0,
-    sumWindow: o.bScaleWindow * bRef,
-    diffCentre: 0,
-    diffWindow: 2 * o.bScaleWindow * bRef,
-  });
+  const coarse = shiftSearch(
+    peaks,
+    tau,
+    strongestOf(mainLines, COARSE_MAX_J).slice(0, COARSE_LINES),
+    lines.wavenumberCm1,
+    dSumOf,
+    dDiffOf,
+    {
+      deltaCentre: 0,
+      deltaWindow: o.originWindowCm1,
+      sumCentre: 0,
+      sumWindow: o.bScaleWindow * bRef,
+      diffCentre: 0,
+      diffWindow: 2 * o.bScaleWindow * bRef,
+    },
+  );
   const fine = shiftSearch(peaks, tau, strongestOf(mainLines, SEARCH_MAX_J), lines.wavenumberCm1, dSumOf, dDiffOf, {
     deltaCentre: coarse.delta,
     deltaWindow: 3 * tau,
@@ -222,19 +240,29 @@ export function assistantSeedFromModel(
   }
   for (const [key, idx] of bySub) {
     const use = idx.sort((x, y) => predicted.intensity[y] - predicted.intensity[x]).slice(0, o.searchLines);
-    const r = shiftSearch(peaks, tau, use, predicted.wavenumberCm1, () => 0, () => 0, {
-      deltaCentre: 0,
-      deltaWindow: key === mainKey ? 3 * tau : SUB_BAND_WINDOW_CM1,
-      sumCentre: 0,
-      sumWindow: 0,
-      diffCentre: 0,
-      diffWindow: 0,
-    });
+    const r = shiftSearch(
+      peaks,
+      tau,
+      use,
+      predicted.wavenumberCm1,
+      () => 0,
+      () => 0,
+      {
+        deltaCentre: 0,
+        deltaWindow: key === mainKey ? 3 * tau : SUB_BAND_WINDOW_CM1,
+        sumCentre: 0,
+        sumWindow: 0,
+        diffCentre: 0,
+        diffWindow: 0,
+      },
+    );
     if (r.n >= 3 && r.count / r.n >= 2 * r.chance + 0.1) subShift.set(key, r.delta);
   }
 
   // 2. Seeds: strongest isolated lines with exactly one peak in their window.
-  const order = Int32Array.from({ length: predicted.count }, (_, i) => i).sort((a, b) => predicted.wavenumberCm1[a] - predicted.wavenumberCm1[b]);
+  const order = Int32Array.from({ length: predicted.count }, (_, i) => i).sort(
+    (a, b) => predicted.wavenumberCm1[a] - predicted.wavenumberCm1[b],
+  );
   const sortedNu = Float64Array.from(order, (i) => predicted.wavenumberCm1[i]);
   const half = o.windowFwhm * tau;
   const byIntensity = Int32Array.from({ length: predicted.count }, (_, i) => i)
@@ -279,7 +307,8 @@ export function assistantSeedFromModel(
       iteration: 0,
     });
   }
-  if (seeds.length < 3) warnings.push(`Only ${seeds.length} line(s) of the model have exactly one peak in their window; the loop may not get far.`);
+  if (seeds.length < 3)
+    warnings.push(`Only ${seeds.length} line(s) of the model have exactly one peak in their window; the loop may not get far.`);
   return {
     lines: seeds,
     model: corrected,

@@ -115,7 +115,8 @@ export function assistantSeriesExtend(input: AssistantSeriesInput): AssistantSer
   for (let i = 0; i < all.count; i++) {
     if (all.deltaK[i] === series.deltaK && all.deltaJ[i] === series.deltaJ && all.kLower[i] === series.kLower) inSeries.push(i);
   }
-  if (inSeries.length === 0) throw new Error(`${fn}: the band has no series ${label} (ΔK ${series.deltaK}, K'' ${series.kLower}, ΔJ ${series.deltaJ})`);
+  if (inSeries.length === 0)
+    throw new Error(`${fn}: the band has no series ${label} (ΔK ${series.deltaK}, K'' ${series.kLower}, ΔJ ${series.deltaJ})`);
   const live = input.lines.filter((l) => l.status !== 'rejected' && !l.isExcluded);
   const assigned = live.filter(
     (l) => l.kUpper - l.kLower === series.deltaK && l.jUpper - l.jLower === series.deltaJ && l.kLower === series.kLower,
@@ -179,7 +180,9 @@ export function assistantSeriesExtend(input: AssistantSeriesInput): AssistantSer
     for (let s = 0; s < sub.count; s++) indexOf.set(keyOf(sub, s), s);
     cat = { lines: sub, predictedCm1, predictionSigmaCm1, toleranceSigmaCm1, order, indexOf };
     candidates = Array.from({ length: sub.count }, (_, s) => s);
-    warnings.push(`No fit: ${label} predicted from the model plus a degree-${poly.degree} polynomial of obs − model in J''; other series were not checked for competing rungs.`);
+    warnings.push(
+      `No fit: ${label} predicted from the model plus a degree-${poly.degree} polynomial of obs − model in J''; other series were not checked for competing rungs.`,
+    );
   }
 
   const isRungAssigned = new Uint8Array(cat.lines.count);
@@ -188,10 +191,24 @@ export function assistantSeriesExtend(input: AssistantSeriesInput): AssistantSer
     if (i !== undefined) isRungAssigned[i] = 1;
   }
   const peakOwner: string[] = new Array(peaks.count).fill('');
-  for (const l of live) if (l.peakIndex !== null && l.peakIndex < peaks.count) peakOwner[l.peakIndex] = seriesLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, model.shape) + `(${l.jLower})`;
+  for (const l of live)
+    if (l.peakIndex !== null && l.peakIndex < peaks.count)
+      peakOwner[l.peakIndex] = seriesLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, model.shape) + `(${l.jLower})`;
   const forbidden = new Set<string>();
-  for (const l of input.lines) if (l.status === 'rejected' && l.peakIndex !== null) forbidden.add(`${assistantQuantaKey(l)}@${l.peakIndex}`);
-  const matched = assistantMatch({ cat, peaks, context, shape: model.shape, candidates, isRungAssigned, peakOwner, forbidden, heightScale: NaN, options });
+  for (const l of input.lines)
+    if (l.status === 'rejected' && l.peakIndex !== null) forbidden.add(`${assistantQuantaKey(l)}@${l.peakIndex}`);
+  const matched = assistantMatch({
+    cat,
+    peaks,
+    context,
+    shape: model.shape,
+    candidates,
+    isRungAssigned,
+    peakOwner,
+    forbidden,
+    heightScale: NaN,
+    options,
+  });
 
   const usedIds = new Set(input.lines.map((l) => l.id));
   let counter = 0;

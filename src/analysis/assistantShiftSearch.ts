@@ -116,7 +116,10 @@ export function assistantShiftSearch(
         if (score[b] > bestPerBin[b]) bestPerBin[b] = score[b];
         if (score[b] < best.count) continue;
         const deltaRel = (b - nDelta) * tau;
-        const cost = Math.abs(deltaRel) / Math.max(w.deltaWindow, tau) + (sg.count ? Math.abs(a) / sg.count : 0) + (dg.count ? Math.abs(c) / dg.count : 0);
+        const cost =
+          Math.abs(deltaRel) / Math.max(w.deltaWindow, tau) +
+          (sg.count ? Math.abs(a) / sg.count : 0) +
+          (dg.count ? Math.abs(c) / dg.count : 0);
         if (score[b] > best.count || cost < bestCost) {
           best = { ...best, delta: w.deltaCentre + deltaRel, sum, diff, count: score[b] };
           bestCost = cost;

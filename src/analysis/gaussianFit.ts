@@ -73,8 +73,7 @@ export function gaussianFit(
       const c2 = gaussianChi2(x, d, i0, i1, a2, m2, s2);
       if (c2 <= chi2) {
         // Steps below 1e-9 of the width are far inside any centre σ a noisy trace allows.
-        const small =
-          Math.abs(step[0]) <= 1e-9 * Math.abs(a2) && Math.abs(step[1]) <= 1e-9 * s2 && Math.abs(step[2]) <= 1e-9 * s2;
+        const small = Math.abs(step[0]) <= 1e-9 * Math.abs(a2) && Math.abs(step[1]) <= 1e-9 * s2 && Math.abs(step[2]) <= 1e-9 * s2;
         const flat = chi2 - c2 <= 1e-12 * chi2;
         amp = a2;
         mu = m2;

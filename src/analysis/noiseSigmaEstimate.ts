@@ -25,11 +25,7 @@ export const MAD_TO_SIGMA = 1.482602218505602;
  *   used only when its three samples are all included
  * @returns σ in absorbance units; 0 for fewer than 3 usable points or a noiseless straight line
  */
-export function noiseSigmaEstimate(
-  wavenumberCm1: ArrayLike<number>,
-  absorbance: ArrayLike<number>,
-  exclude?: Uint8Array,
-): number {
+export function noiseSigmaEstimate(wavenumberCm1: ArrayLike<number>, absorbance: ArrayLike<number>, exclude?: Uint8Array): number {
   traceCheck('noiseSigmaEstimate', wavenumberCm1, absorbance);
   const n = absorbance.length;
   if (exclude && exclude.length !== n) {
@@ -40,7 +36,7 @@ export function noiseSigmaEstimate(
   let sumSq = 0;
   let used = 0;
   for (let i = 1; i < n - 1; i++) {
-    if (exclude && (exclude[i - 1] | exclude[i] | exclude[i + 1])) continue;
+    if (exclude && exclude[i - 1] | exclude[i] | exclude[i + 1]) continue;
     const span = wavenumberCm1[i + 1] - wavenumberCm1[i - 1];
     const a = (wavenumberCm1[i + 1] - wavenumberCm1[i]) / span;
     const b = 1 - a;

@@ -30,12 +30,7 @@ export interface SimplePeakList {
  * @param prominenceSigma threshold in units of noiseSigma (≥ 0)
  * @returns positions (cm^-1) and heights (absorbance), ascending position
  */
-export function peaksFindSimple(
-  x: Float64Array,
-  y: Float64Array,
-  noiseSigma: number,
-  prominenceSigma: number,
-): SimplePeakList {
+export function peaksFindSimple(x: Float64Array, y: Float64Array, noiseSigma: number, prominenceSigma: number): SimplePeakList {
   traceCheck('peaksFindSimple', x, y);
   if (!(noiseSigma >= 0) || !Number.isFinite(noiseSigma)) {
     throw new Error(`peaksFindSimple: noiseSigma must be a finite number >= 0, got ${noiseSigma}`);

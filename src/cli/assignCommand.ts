@@ -84,7 +84,8 @@ export const assignCommand: CliCommand = (args, io) => {
   const tracePath = cliRequire(opts, 'trace');
   const tolerance = cliNumber(opts, 'tolerance', 3);
   const [tMin, tMax] = ASSIGN_TOLERANCE_RANGE;
-  if (!(tolerance >= tMin && tolerance <= tMax)) throw new CliError(`option --tolerance must be a number from ${tMin} to ${tMax} (σ), got ${tolerance}`);
+  if (!(tolerance >= tMin && tolerance <= tMax))
+    throw new CliError(`option --tolerance must be a number from ${tMin} to ${tMax} (σ), got ${tolerance}`);
   const file = cliLoadModel(modelPath, io);
   const trace = loadTrace(tracePath, io);
   const found = peaksFind(trace, { minSnr: ASSIGN_MIN_SNR });
@@ -108,7 +109,9 @@ export const assignCommand: CliCommand = (args, io) => {
     seedText = `${seeds.length} seed line(s) from ${linesPath}`;
     const offPeak = seeds.filter((l) => l.peakIndex === null).length;
     if (offPeak > 0) {
-      io.stderr(`assign: ${offPeak} of the ${seeds.length} seed lines lie on no peak of the trace (within half a FWHM); is it the right trace?\n`);
+      io.stderr(
+        `assign: ${offPeak} of the ${seeds.length} seed lines lie on no peak of the trace (within half a FWHM); is it the right trace?\n`,
+      );
     }
   } else {
     const seeded = assistantSeedFromModel(model, peaks, floatable);
@@ -156,7 +159,17 @@ export const assignCommand: CliCommand = (args, io) => {
     );
   }
   io.stdout(out.join('\n') + '\n');
-  io.stderr(summary(run, fit, { tracePath, nPeaks: peaks.count, repaired: usable.repaired.length, seedText, nSeeds: seedRows.length, nProposed: proposed.length, shape }));
+  io.stderr(
+    summary(run, fit, {
+      tracePath,
+      nPeaks: peaks.count,
+      repaired: usable.repaired.length,
+      seedText,
+      nSeeds: seedRows.length,
+      nProposed: proposed.length,
+      shape,
+    }),
+  );
   return 0;
 };
 
@@ -168,10 +181,20 @@ function signed(v: number, digits: number): string {
 function summary(
   run: AssistantRunResult,
   fit: FitResult,
-  info: { tracePath: string; nPeaks: number; repaired: number; seedText: string; nSeeds: number; nProposed: number; shape: BandModel['shape'] },
+  info: {
+    tracePath: string;
+    nPeaks: number;
+    repaired: number;
+    seedText: string;
+    nSeeds: number;
+    nProposed: number;
+    shape: BandModel['shape'];
+  },
 ): string {
   const lines: string[] = [];
-  lines.push(`assign: ${info.tracePath}: ${info.nPeaks} peaks at SNR >= ${ASSIGN_MIN_SNR}${info.repaired ? ` (${info.repaired} without a usable centre σ)` : ''}; ${info.seedText}`);
+  lines.push(
+    `assign: ${info.tracePath}: ${info.nPeaks} peaks at SNR >= ${ASSIGN_MIN_SNR}${info.repaired ? ` (${info.repaired} without a usable centre σ)` : ''}; ${info.seedText}`,
+  );
   const excluded = run.lines.filter((l) => l.isExcluded && l.status !== 'rejected').length;
   lines.push(
     `assign: ${run.iterations.length} iterations; ${info.nSeeds} seed(s) and ${info.nProposed} proposed line(s) written; ` +
@@ -192,7 +215,9 @@ function summary(
   if (run.ambiguous.length > 10) lines.push(`  ambiguous: … and ${run.ambiguous.length - 10} more`);
   for (const s of run.suspects.slice(0, 10)) {
     const alt = s.alternativeRungs.slice(0, 3).map((a) => `${a.label}${a.isAssignedElsewhere ? ' (assigned elsewhere)' : ''}`);
-    lines.push(`  suspect: ${s.label} at ${s.observedCm1.toFixed(4)}: ${s.reasons.join('; ')}${alt.length ? `; would fit: ${alt.join(', ')}` : ''}`);
+    lines.push(
+      `  suspect: ${s.label} at ${s.observedCm1.toFixed(4)}: ${s.reasons.join('; ')}${alt.length ? `; would fit: ${alt.join(', ')}` : ''}`,
+    );
   }
   if (run.suspects.length > 10) lines.push(`  suspect: … and ${run.suspects.length - 10} more`);
   return lines.map((l) => l.replace(/\s*\n\s*/g, ' ')).join('\n') + '\n';

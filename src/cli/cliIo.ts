@@ -25,11 +25,7 @@ export class CliError extends Error {
  * @param valued names that take a value
  * @param flags names that take none
  */
-export function cliParseArgs(
-  args: string[],
-  valued: readonly string[],
-  flags: readonly string[] = [],
-): Record<string, string | true> {
+export function cliParseArgs(args: string[], valued: readonly string[], flags: readonly string[] = []): Record<string, string | true> {
   const out: Record<string, string | true> = {};
   for (let i = 0; i < args.length; i++) {
     const arg = args[i];

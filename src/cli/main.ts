@@ -25,7 +25,13 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<CliCommand
 };
 
 function usage(): string {
-  return 'usage: cli <command> [options]\n' + Object.values(COMMANDS).map((c) => '  ' + c.summary).join('\n') + '\n';
+  return (
+    'usage: cli <command> [options]\n' +
+    Object.values(COMMANDS)
+      .map((c) => '  ' + c.summary)
+      .join('\n') +
+    '\n'
+  );
 }
 
 /** Run one CLI invocation; returns the exit code. */

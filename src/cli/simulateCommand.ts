@@ -12,9 +12,7 @@ export const simulateCommand: CliCommand = (args, io) => {
   const opts = cliParseArgs(args, ['model', 'min-intensity']);
   const file = cliLoadModel(cliRequire(opts, 'model'), io);
   const lines = bandLines(file.model, { minIntensity: cliNumber(opts, 'min-intensity', 0) });
-  const order = Array.from({ length: lines.count }, (_, i) => i).sort(
-    (a, b) => lines.wavenumberCm1[a] - lines.wavenumberCm1[b],
-  );
+  const order = Array.from({ length: lines.count }, (_, i) => i).sort((a, b) => lines.wavenumberCm1[a] - lines.wavenumberCm1[b]);
   const rows: string[] = ['J_up,K_up,J_lo,K_lo,wavenumber,intensity,E_lo,label'];
   for (const i of order) {
     rows.push(

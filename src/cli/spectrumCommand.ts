@@ -75,7 +75,9 @@ export const spectrumCommand: CliCommand = (args, io) => {
   }
   if (!(massAmu > 0)) throw new CliError(`--mass must be > 0 amu, got ${massAmu}`);
   if (grid.adjusted) {
-    io.stderr(`spectrum: --step ${cliNumber(opts, 'step')} does not divide the range; using ${grid.stepCm1} cm^-1 so the last point is ${cliNumber(opts, 'to')}\n`);
+    io.stderr(
+      `spectrum: --step ${cliNumber(opts, 'step')} does not divide the range; using ${grid.stepCm1} cm^-1 so the last point is ${cliNumber(opts, 'to')}\n`,
+    );
   }
 
   const lines = bandLines(file.model);

@@ -140,11 +140,21 @@ export function combinationDifferences(
   const suspectSigma = options.suspectSigma ?? 3;
   const lineName = options.lineName ?? ((i: number) => `#${i + 1}`);
   if (state !== 'lower' && state !== 'upper') {
-    return { ok: false, error: { kind: 'bad-input', message: `combinationDifferences: state must be 'lower' or 'upper', got '${String(state)}'` } };
+    return {
+      ok: false,
+      error: { kind: 'bad-input', message: `combinationDifferences: state must be 'lower' or 'upper', got '${String(state)}'` },
+    };
   }
   const active = lines.map((l, i) => i).filter((i) => !lines[i].isExcluded);
   const anyDeltaK = active.some((i) => lines[i].kUpper !== lines[i].kLower);
-  const band = shape === 'linear' ? (active.some((i) => lines[i].kUpper === 1) ? 'perpendicular' : 'parallel') : anyDeltaK ? 'perpendicular' : 'parallel';
+  const band =
+    shape === 'linear'
+      ? active.some((i) => lines[i].kUpper === 1)
+        ? 'perpendicular'
+        : 'parallel'
+      : anyDeltaK
+        ? 'perpendicular'
+        : 'parallel';
   for (const i of active) {
     const l = lines[i];
     const why = transitionCheck(l, band, shape);
@@ -156,7 +166,10 @@ export function combinationDifferences(
       return { ok: false, error: { kind: 'bad-input', message: `wavenumber must be finite, got ${l.observedCm1}`, lineIndex: i } };
     }
     if (!(l.uncertaintyCm1 > 0) || !Number.isFinite(l.uncertaintyCm1)) {
-      return { ok: false, error: { kind: 'bad-input', message: `uncertainty must be a number > 0, got ${l.uncertaintyCm1}`, lineIndex: i } };
+      return {
+        ok: false,
+        error: { kind: 'bad-input', message: `uncertainty must be a number > 0, got ${l.uncertaintyCm1}`, lineIndex: i },
+      };
     }
   }
 

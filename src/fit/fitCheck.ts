@@ -38,8 +38,10 @@ function badInput(message: string, parameters: string[] = [], suggestion = 'Corr
 export function fitCheck(input: FitInput): FitError | null {
   const { model, floated, lines } = input;
   if (!model || typeof model !== 'object') return badInput('fitBand: model is missing');
-  if (!['prolate', 'oblate', 'linear'].includes(model.shape)) return badInput(`fitBand: model.shape must be prolate, oblate or linear, got '${String(model.shape)}'`);
-  if (!['parallel', 'perpendicular'].includes(model.band)) return badInput(`fitBand: model.band must be parallel or perpendicular, got '${String(model.band)}'`);
+  if (!['prolate', 'oblate', 'linear'].includes(model.shape))
+    return badInput(`fitBand: model.shape must be prolate, oblate or linear, got '${String(model.shape)}'`);
+  if (!['parallel', 'perpendicular'].includes(model.band))
+    return badInput(`fitBand: model.band must be parallel or perpendicular, got '${String(model.band)}'`);
   for (const side of ['lower', 'upper'] as const) {
     for (const name of PARAMETER_NAMES) {
       const v = model[side]?.[name];
@@ -52,10 +54,9 @@ export function fitCheck(input: FitInput): FitError | null {
   const seen = new Set<string>();
   for (const key of floated) {
     if (!allowed.has(key)) {
-      return badInput(
-        `fitBand: '${key}' is not a constant of a ${model.shape} model; floatable keys are ${[...allowed].join(', ')}`,
-        [key],
-      );
+      return badInput(`fitBand: '${key}' is not a constant of a ${model.shape} model; floatable keys are ${[...allowed].join(', ')}`, [
+        key,
+      ]);
     }
     if (seen.has(key)) return badInput(`fitBand: '${key}' is listed twice in floated`, [key]);
     seen.add(key);

@@ -75,7 +75,11 @@ export function fitPredictLines(result: FitResult, lines: LineList): { wavenumbe
  * @param out optional output of length quanta.length
  * @returns 1σ of each predicted position, cm^-1 (NaN where the fit gave no covariance)
  */
-export function fitPredictSigmas(result: FitResult, quanta: readonly TransitionQuanta[], out: Float64Array = new Float64Array(quanta.length)): Float64Array {
+export function fitPredictSigmas(
+  result: FitResult,
+  quanta: readonly TransitionQuanta[],
+  out: Float64Array = new Float64Array(quanta.length),
+): Float64Array {
   if (out.length < quanta.length) throw new Error(`fitPredictSigmas: out must hold ${quanta.length} values, got ${out.length}`);
   const g = new Float64Array(result.floated.length);
   for (let i = 0; i < quanta.length; i++) {

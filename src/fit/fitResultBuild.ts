@@ -209,7 +209,8 @@ function fitWarnings(c: WarningContext): string[] {
   const pairs: string[] = [];
   for (let a = 0; a < c.correlation.length; a++) {
     for (let b = a + 1; b < c.correlation.length; b++) {
-      if (Math.abs(c.correlation[a][b]) > CORRELATION_WARN) pairs.push(`${c.floated[a]}/${c.floated[b]} (${c.correlation[a][b].toFixed(5)})`);
+      if (Math.abs(c.correlation[a][b]) > CORRELATION_WARN)
+        pairs.push(`${c.floated[a]}/${c.floated[b]} (${c.correlation[a][b].toFixed(5)})`);
     }
   }
   if (pairs.length) w.push(`Very strongly correlated constants: ${pairs.slice(0, 6).join(', ')}${pairs.length > 6 ? ', …' : ''}.`);

@@ -132,13 +132,7 @@ export interface FitResult {
 }
 
 /** Kinds of refusal. */
-export type FitErrorKind =
-  | 'bad-input'
-  | 'too-few-lines'
-  | 'unused-parameter'
-  | 'underdetermined'
-  | 'diverged'
-  | 'cancelled';
+export type FitErrorKind = 'bad-input' | 'too-few-lines' | 'unused-parameter' | 'underdetermined' | 'diverged' | 'cancelled';
 
 /** Why a fit was refused; no constants are given for undetermined parameters. */
 export interface FitError {

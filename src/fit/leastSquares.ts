@@ -31,13 +31,7 @@ export interface LeastSquaresOptions {
 
 /** How leastSquaresSolve ended. */
 export type LeastSquaresStatus =
-  | 'chi2-change'
-  | 'step-size'
-  | 'no-further-decrease'
-  | 'max-iterations'
-  | 'rank-deficient'
-  | 'non-finite'
-  | 'cancelled';
+  'chi2-change' | 'step-size' | 'no-further-decrease' | 'max-iterations' | 'rank-deficient' | 'non-finite' | 'cancelled';
 
 /** Result of leastSquaresSolve. */
 export interface LeastSquaresSolution {

@@ -97,12 +97,16 @@ export function rankDiagnosis(
   const unique = model.shape === 'oblate' ? 'C' : 'A';
   const notes: string[] = [];
   if (model.band === 'parallel' && has(`upper.${unique}`) && has(`lower.${unique}`)) {
-    notes.push(`in a parallel band (ΔK = 0) the lines depend only on ${unique}′ − ${unique}″${has('upper.DK') && has('lower.DK') ? ' and DK′ − DK″' : ''}, not on each state's value`);
+    notes.push(
+      `in a parallel band (ΔK = 0) the lines depend only on ${unique}′ − ${unique}″${has('upper.DK') && has('lower.DK') ? ' and DK′ − DK″' : ''}, not on each state's value`,
+    );
   } else if (model.band === 'parallel' && has('upper.DK') && has('lower.DK')) {
     notes.push('in a parallel band (ΔK = 0) the lines depend only on DK′ − DK″');
   }
   if (model.band === 'perpendicular' && has(`upper.${unique}`) && has(`lower.${unique}`) && has('upper.zeta')) {
-    notes.push(`one perpendicular band determines only ${unique}′ − ${unique}″ and ${unique}′(1 − ζ), not ${unique}″, ${unique}′ and ζ separately`);
+    notes.push(
+      `one perpendicular band determines only ${unique}′ − ${unique}″ and ${unique}′(1 − ζ), not ${unique}″, ${unique}′ and ζ separately`,
+    );
   }
   const message =
     `The fit is under-determined: the lines fix only ${involvedKeys.length - nullity} combination${involvedKeys.length - nullity === 1 ? '' : 's'} of ` +

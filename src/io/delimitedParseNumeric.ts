@@ -73,10 +73,7 @@ const E_LOWER = 101;
  * @returns x (column 0) and y (column `yColumn`) in file units, or null
  * Source: Clinger, "How to read floating point numbers accurately", PLDI 1990 (the exact fast case).
  */
-export function delimitedParseNumeric(
-  text: string,
-  options?: Partial<DelimitedParseNumericOptions>,
-): DelimitedNumericColumns | null {
+export function delimitedParseNumeric(text: string, options?: Partial<DelimitedParseNumericOptions>): DelimitedNumericColumns | null {
   const start = options?.start ?? 0;
   const yColumn = options?.yColumn ?? 1;
   const onProgress = options?.onProgress;

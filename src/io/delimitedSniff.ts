@@ -3,13 +3,7 @@
  */
 import Papa from 'papaparse';
 import type { TraceDelimiter } from './trace';
-import {
-  DelimitedFieldKind,
-  delimitedFieldClean,
-  delimitedFieldKind,
-  delimitedIsCommentAt,
-  delimitedNewline,
-} from './delimitedField';
+import { DelimitedFieldKind, delimitedFieldClean, delimitedFieldKind, delimitedIsCommentAt, delimitedNewline } from './delimitedField';
 
 /** Delimiter chosen by `delimitedSniff` and what the sample looked like. */
 export interface DelimitedSniffResult {
@@ -49,12 +43,7 @@ export function delimitedSplitLine(line: string, delimiter: TraceDelimiter): str
  * @param isDecimalComma true when the user said the decimals are commas (',' is then not a candidate)
  * @returns the choice, or null when no sampled line splits into two numbers under any candidate
  */
-export function delimitedSniff(
-  text: string,
-  start: number,
-  forced?: TraceDelimiter,
-  isDecimalComma = false,
-): DelimitedSniffResult | null {
+export function delimitedSniff(text: string, start: number, forced?: TraceDelimiter, isDecimalComma = false): DelimitedSniffResult | null {
   const sample: string[] = [];
   const nl = delimitedNewline(text) === '\r' ? '\r' : '\n';
   let pos = start;
@@ -88,8 +77,7 @@ export function delimitedSniff(
     let columns = 2;
     let top = -1;
     for (const [c, k] of counts) if (k > top || (k === top && c < columns)) [columns, top] = [c, k];
-    if (!best || matching > best.matchingLines)
-      best = { delimiter: d, columns, matchingLines: matching, sampledLines: sample.length };
+    if (!best || matching > best.matchingLines) best = { delimiter: d, columns, matchingLines: matching, sampledLines: sample.length };
   }
   return best;
 }

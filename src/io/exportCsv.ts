@@ -6,7 +6,17 @@ import { lineLabelAscii } from '../physics/lineLabel';
 import type { LineList, TopShape } from '../physics/model';
 
 /** Header of simulatedLinesCsv. */
-export const SIMULATED_LINES_COLUMNS = ['J_up', 'K_up', 'J_lo', 'K_lo', 'label', 'wavenumber_cm-1', 'intensity_rel', 'E_lower_cm-1', 'honl_london'] as const;
+export const SIMULATED_LINES_COLUMNS = [
+  'J_up',
+  'K_up',
+  'J_lo',
+  'K_lo',
+  'label',
+  'wavenumber_cm-1',
+  'intensity_rel',
+  'E_lower_cm-1',
+  'honl_london',
+] as const;
 
 /**
  * The predicted line list as CSV (one row per line, in ascending wavenumber), numbers written with
@@ -45,7 +55,8 @@ export function spectrumCsv(xCm1: Float64Array, columns: Record<string, ArrayLik
   const names = Object.keys(columns);
   for (const n of names) {
     if (/[",\r\n]/.test(n)) throw new Error(`spectrumCsv: column name ${JSON.stringify(n)} may not contain a comma, quote or newline`);
-    if (columns[n].length !== xCm1.length) throw new Error(`spectrumCsv: column '${n}' has ${columns[n].length} values, expected ${xCm1.length}`);
+    if (columns[n].length !== xCm1.length)
+      throw new Error(`spectrumCsv: column '${n}' has ${columns[n].length} values, expected ${xCm1.length}`);
   }
   const parts: string[] = [['wavenumber_cm-1', ...names].join(',')];
   const cols = names.map((n) => columns[n]);

@@ -20,7 +20,12 @@ export interface FitReportInfo {
 
 /** Escape text for a Markdown table cell or line (no HTML, no table breaks). */
 export function markdownEscape(text: string): string {
-  return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/\|/g, '\\|').replace(/[\r\n]+/g, ' ');
+  return text
+    .replace(/&/g, '&amp;')
+    .replace(/</g, '&lt;')
+    .replace(/>/g, '&gt;')
+    .replace(/\|/g, '\\|')
+    .replace(/[\r\n]+/g, ' ');
 }
 
 /**
@@ -85,11 +90,17 @@ export function fitReportMarkdown(result: FitResult, shape: TopShape, info: FitR
   if (info.fitFinishedAt) out.push(`- Fit finished: ${info.fitFinishedAt}`);
   out.push(`- Program: Ladder Bench ${markdownEscape(info.appVersion)}`);
   out.push(`- Rotor: ${result.model.shape} top, ${result.model.band} band`);
-  out.push(`- Lines fitted N = ${result.nLines}; floated constants P = ${result.nParameters}; lines excluded: ${result.lines.filter((l) => l.isExcluded).length}`);
-  out.push(`- Weighted standard deviation σ_w = ${result.sigmaW === null ? 'not defined (N = P, exactly determined)' : result.sigmaW.toPrecision(4)}`);
+  out.push(
+    `- Lines fitted N = ${result.nLines}; floated constants P = ${result.nParameters}; lines excluded: ${result.lines.filter((l) => l.isExcluded).length}`,
+  );
+  out.push(
+    `- Weighted standard deviation σ_w = ${result.sigmaW === null ? 'not defined (N = P, exactly determined)' : result.sigmaW.toPrecision(4)}`,
+  );
   out.push(`- rms of obs − calc = ${result.rmsCm1.toExponential(3)} cm⁻¹; χ² = ${result.chi2.toPrecision(5)}`);
   out.push(`- Iterations: ${result.iterations}; ${markdownEscape(result.convergenceMessage)}`);
-  out.push(`- Condition number of the scaled Jacobian: ${Number.isFinite(result.conditionNumber) ? result.conditionNumber.toExponential(2) : '∞'}`);
+  out.push(
+    `- Condition number of the scaled Jacobian: ${Number.isFinite(result.conditionNumber) ? result.conditionNumber.toExponential(2) : '∞'}`,
+  );
   out.push('');
   out.push('## Constants');
   out.push('');
@@ -100,7 +111,9 @@ export function fitReportMarkdown(result: FitResult, shape: TopShape, info: FitR
   for (const [key, p] of Object.entries(result.parameters)) {
     const status = p.fixed ? 'fixed' : 'floated';
     const sigma = p.fixed ? '' : p.sigma === null ? 'n/a' : p.sigma.toPrecision(3);
-    out.push(`| ${constantName(key)} | \`${key}\` | ${p.fixed ? String(p.value) : formatValueSigma(p.value, p.sigma)} | ${String(p.value)} | ${sigma} | ${status} |`);
+    out.push(
+      `| ${constantName(key)} | \`${key}\` | ${p.fixed ? String(p.value) : formatValueSigma(p.value, p.sigma)} | ${String(p.value)} | ${sigma} | ${status} |`,
+    );
   }
   out.push('');
   out.push('## Correlation matrix');
@@ -124,12 +137,14 @@ export function fitReportMarkdown(result: FitResult, shape: TopShape, info: FitR
   if (result.outliers.length === 0) out.push('None (no fitted line beyond the outlier limit).');
   for (const i of result.outliers) {
     const l = result.lines[i];
-    out.push(`- ${lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape)}: obs − calc = ${l.obsMinusCalc.toExponential(3)} cm⁻¹ = ${l.normalisedResidual.toFixed(2)} σ`);
+    out.push(
+      `- ${lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape)}: obs − calc = ${l.obsMinusCalc.toExponential(3)} cm⁻¹ = ${l.normalisedResidual.toFixed(2)} σ`,
+    );
   }
   out.push('');
   out.push('## Lines');
   out.push('');
-  out.push("| Label | J′ | K′ | J″ | K″ | obs / cm⁻¹ | calc / cm⁻¹ | obs − calc / cm⁻¹ | σ / cm⁻¹ | (o − c)/σ | Flags |");
+  out.push('| Label | J′ | K′ | J″ | K″ | obs / cm⁻¹ | calc / cm⁻¹ | obs − calc / cm⁻¹ | σ / cm⁻¹ | (o − c)/σ | Flags |');
   out.push('|---|---:|---:|---:|---:|---:|---:|---:|---:|---:|---|');
   for (const l of result.lines) {
     const flags = [l.isExcluded && 'excluded', l.isOutlier && 'outlier'].filter(Boolean).join(', ');

@@ -150,8 +150,7 @@ export function inputIsOneLine(message: string): boolean {
 
 /** Outcome of `inputJsonParse`. */
 export type InputJsonOutcome =
-  | { ok: true; value: unknown }
-  | { ok: false; message: string; line?: number; column?: number; field?: string };
+  { ok: true; value: unknown } | { ok: false; message: string; line?: number; column?: number; field?: string };
 
 /**
  * JSON.parse behind a length limit, with a one-line message that names the line and column of a syntax

@@ -129,7 +129,7 @@ export function jcampAsdfDecodeLine(
       while (i < n) {
         const d = line.charCodeAt(i);
         if (isDigit(d)) i++;
-        else if (d === 46 && !dot) (dot = true, i++);
+        else if (d === 46 && !dot) ((dot = true), i++);
         else break;
       }
       const digit = DIGIT[c];
@@ -147,8 +147,7 @@ export function jcampAsdfDecodeLine(
         lastKind = SQZ;
       } else {
         if (!hasX) return fail(col, `DIF character '${line[s]}' cannot stand for the abscissa`);
-        if (y.length === 0)
-          return fail(col, `DIF character '${line[s]}' has no ordinate before it on this line to add to`);
+        if (y.length === 0) return fail(col, `DIF character '${line[s]}' has no ordinate before it on this line to add to`);
         if (y.length >= maxValues) return tooMany(col);
         last = last + v;
         lastDelta = v;

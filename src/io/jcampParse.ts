@@ -107,7 +107,9 @@ export function jcampParse(text: string, options: JcampParseOptions): Outcome {
   scan: while (li < lines.length) {
     tick(li);
     const lineNo = li + 1;
-    const t = stripComment(lines[li]).trim().replace(/^\uFEFF/, '');
+    const t = stripComment(lines[li])
+      .trim()
+      .replace(/^\uFEFF/, '');
     li++;
     if (!t.startsWith('##')) {
       // A value continued on the next line (long titles); stray text between records is ignored.
@@ -219,8 +221,7 @@ function fail(message: string, line?: number, field?: string): { ok: false; erro
 }
 
 type Decoded =
-  | { ok: true; x: Float64Array; y: Float64Array; lines: Int32Array; next: number; notes: string[] }
-  | { ok: false; error: JcampParseError };
+  { ok: true; x: Float64Array; y: Float64Array; lines: Int32Array; next: number; notes: string[] } | { ok: false; error: JcampParseError };
 
 /** Numeric label value, undefined when absent, or an error when present but not a number. */
 function numLabel(
@@ -241,25 +242,27 @@ interface TableHeader {
   nPointsLine?: number;
 }
 
-function tableHeader(labels: Map<string, JcampLabel>, maxPoints: number): { ok: true; h: TableHeader } | { ok: false; error: JcampParseError } {
+function tableHeader(
+  labels: Map<string, JcampLabel>,
+  maxPoints: number,
+): { ok: true; h: TableHeader } | { ok: false; error: JcampParseError } {
   const xf = numLabel(labels, 'XFACTOR');
   if (!xf.ok) return xf;
   const yf = numLabel(labels, 'YFACTOR');
   if (!yf.ok) return yf;
   const np = numLabel(labels, 'NPOINTS');
   if (!np.ok) return np;
-  for (const [key, f] of [['XFACTOR', xf], ['YFACTOR', yf]] as const)
+  for (const [key, f] of [
+    ['XFACTOR', xf],
+    ['YFACTOR', yf],
+  ] as const)
     if (f.value !== undefined && (f.value === 0 || !Number.isFinite(f.value)))
       return fail(`line ${f.line}: ##${key}=${f.value} must be a non-zero finite number`, f.line, key);
   if (np.value !== undefined) {
     if (!Number.isInteger(np.value) || np.value < 1)
       return fail(`line ${np.line}: ##NPOINTS=${np.value} must be a positive integer`, np.line, 'NPOINTS');
     if (np.value > maxPoints)
-      return fail(
-        `line ${np.line}: ##NPOINTS=${np.value} is above the limit of ${maxPoints} points (maxPoints)`,
-        np.line,
-        'NPOINTS',
-      );
+      return fail(`line ${np.line}: ##NPOINTS=${np.value} is above the limit of ${maxPoints} points (maxPoints)`, np.line, 'NPOINTS');
   }
   return { ok: true, h: { xFactor: xf.value ?? 1, yFactor: yf.value ?? 1, nPoints: np.value, nPointsLine: np.line } };
 }
@@ -361,8 +364,7 @@ function decodeXpp(
   if (count === 0) return fail(`line ${tableLine}: the data table has no data lines`, tableLine, 'XYDATA');
 
   const n = nPoints ?? count;
-  const step =
-    lastX.value !== undefined ? (n > 1 ? (lastX.value - firstX.value) / (n - 1) : 0) : (deltaX.value as number);
+  const step = lastX.value !== undefined ? (n > 1 ? (lastX.value - firstX.value) / (n - 1) : 0) : (deltaX.value as number);
   // X check: a line whose abscissa is more than half a point spacing from its point index means data
   // were lost or added before it (writers round X, so smaller differences are normal).
   let xFail: { line: number; x: number; expected: number; offPoints: number } | undefined;
@@ -396,8 +398,7 @@ function decodeXpp(
   if (xFailText) notes.push(`${xFailText}; abscissae were taken from ##FIRSTX/##LASTX/##NPOINTS`);
   if (lastX.value !== undefined && deltaX.value !== undefined && n > 1) {
     const rel = Math.abs(deltaX.value - step) / Math.abs(step);
-    if (rel > 1e-3)
-      notes.push(`##DELTAX=${deltaX.value} differs from (LASTX − FIRSTX)/(NPOINTS − 1) = ${fmt(step)}; the latter was used`);
+    if (rel > 1e-3) notes.push(`##DELTAX=${deltaX.value} differs from (LASTX − FIRSTX)/(NPOINTS − 1) = ${fmt(step)}; the latter was used`);
   }
   const cols = out.finish();
   for (let i = 0; i < count; i++) cols.x[i] = firstX.value + i * step;
@@ -463,8 +464,7 @@ function decodeXy(
       hasPending = false;
     }
   }
-  if (hasPending)
-    return fail(`line ${pendingLine}: the (XY..XY) table ends with an abscissa without its ordinate`, pendingLine);
+  if (hasPending) return fail(`line ${pendingLine}: the (XY..XY) table ends with an abscissa without its ordinate`, pendingLine);
   if (out.length === 0) return fail(`line ${tableLine}: the data table has no data lines`, tableLine, 'XYDATA');
   if (nPoints !== undefined && out.length !== nPoints) {
     const truncated = j >= lines.length;

@@ -140,8 +140,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
     },
   });
   if (parseError) fail((parseError as { line: number }).line, `malformed CSV: ${(parseError as { message: string }).message}`);
-  if (tooManyLine)
-    fail(tooManyLine, `more than ${maxRows} data rows (limit maxLineTableRows); split the table`);
+  if (tooManyLine) fail(tooManyLine, `more than ${maxRows} data rows (limit maxLineTableRows); split the table`);
   if (rows.length === 0) throw new LineTableError(`${prefix}no header line found; expected a header naming ${REQUIRED.join(', ')}`);
 
   const header = rows[0];
@@ -188,7 +187,8 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
       const n = RE_DECIMAL.test(v) ? Number(v) : NaN;
       if (!Number.isInteger(n)) fail(line, `${k} ${quoteCell(v)} is not a whole number`);
       if (n < 0) fail(line, `${k} ${quoteCell(v)} must be >= 0`);
-      if (n > INPUT_LIMITS.maxQuantumJ) fail(line, `${k} ${quoteCell(v)} is above the largest J or K handled (${INPUT_LIMITS.maxQuantumJ})`);
+      if (n > INPUT_LIMITS.maxQuantumJ)
+        fail(line, `${k} ${quoteCell(v)} is above the largest J or K handled (${INPUT_LIMITS.maxQuantumJ})`);
       return n;
     };
     const jUpper = whole('J_up');
@@ -204,7 +204,10 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
       uncertaintyCm1 = RE_DECIMAL.test(un) ? Number(un) : NaN;
       if (!Number.isFinite(uncertaintyCm1) || uncertaintyCm1 <= 0) fail(line, `uncertainty ${quoteCell(un)} must be a number > 0 (cm^-1)`);
     }
-    const flagWords = (cell('flags') ?? '').toLowerCase().split(/[\s;|]+/).filter(Boolean);
+    const flagWords = (cell('flags') ?? '')
+      .toLowerCase()
+      .split(/[\s;|]+/)
+      .filter(Boolean);
     const flag = (k: 'blended' | 'excluded'): boolean => {
       const v = cell(k);
       if (v === undefined) return flagWords.includes(k);

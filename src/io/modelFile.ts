@@ -37,7 +37,10 @@ const fileSchema = z.looseObject({
     .max(INPUT_LIMITS.maxSpinWeights)
     .optional(),
   // Checked here (not silently dropped) because the spectrum command takes the Doppler width from it.
-  mass: z.number().refine((m) => Number.isFinite(m) && m > 0, 'a molecular mass in amu, > 0').optional(),
+  mass: z
+    .number()
+    .refine((m) => Number.isFinite(m) && m > 0, 'a molecular mass in amu, > 0')
+    .optional(),
   name: z.string().max(200).optional(),
 });
 
@@ -64,7 +67,20 @@ function expectedText(issue: z.core.$ZodIssue): string {
 }
 
 /** Keys a model file may carry at top level besides the required ones (others give a warning). */
-const KNOWN_TOP = new Set(['shape', 'band', 'lower', 'upper', 'temperature', 'jMax', 'kMax', 'spinWeights', 'name', 'notes', 'mass', 'version']);
+const KNOWN_TOP = new Set([
+  'shape',
+  'band',
+  'lower',
+  'upper',
+  'temperature',
+  'jMax',
+  'kMax',
+  'spinWeights',
+  'name',
+  'notes',
+  'mass',
+  'version',
+]);
 
 /** A model file read into the physics model plus the fit's floated/fixed flags. */
 export interface ModelFile {
@@ -104,7 +120,10 @@ function describe(v: unknown): string {
 
 function pathOf(path: PropertyKey[]): string {
   // Keys come from the file: quoted as one short line.
-  const text = path.map((p) => (typeof p === 'number' ? `[${p}]` : String(p))).join('.').replace(/\.\[/g, '[');
+  const text = path
+    .map((p) => (typeof p === 'number' ? `[${p}]` : String(p)))
+    .join('.')
+    .replace(/\.\[/g, '[');
   return inputExcerpt(text, 80) || '(top level)';
 }
 
@@ -159,11 +178,15 @@ export function modelFileFromJson(raw: unknown): ModelFile {
             : name === 'C' && shape === 'prolate'
               ? ' (a prolate top gives "A" in place of "C")'
               : '';
-        throw new ModelFileError(`model file: field '${inputExcerpt(path, 80)}' is not a ${side}-state constant of ${shape === "oblate" ? "an" : "a"} ${shape} model${hint}; expected one of ${allowed.join(', ')}`);
+        throw new ModelFileError(
+          `model file: field '${inputExcerpt(path, 80)}' is not a ${side}-state constant of ${shape === 'oblate' ? 'an' : 'a'} ${shape} model${hint}; expected one of ${allowed.join(', ')}`,
+        );
       }
       const p = parameterSchema.safeParse(value);
       if (!p.success) {
-        throw new ModelFileError(`model file: field '${path}' is ${describe(value)}; expected a finite number or {"value": number, "fixed": true|false}`);
+        throw new ModelFileError(
+          `model file: field '${path}' is ${describe(value)}; expected a finite number or {"value": number, "fixed": true|false}`,
+        );
       }
       let v: number;
       let fixed: boolean;

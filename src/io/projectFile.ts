@@ -191,7 +191,8 @@ function reviver(_key: string, value: unknown): unknown {
 const finite = z.number().refine(Number.isFinite, 'a finite number');
 const stateSchema = z.record(z.string(), finite).superRefine((rec, ctx) => {
   for (const k of Object.keys(rec)) {
-    if (!(PARAMETER_NAMES as readonly string[]).includes(k)) ctx.addIssue({ code: 'custom', message: `unknown constant '${k}'`, path: [k] });
+    if (!(PARAMETER_NAMES as readonly string[]).includes(k))
+      ctx.addIssue({ code: 'custom', message: `unknown constant '${k}'`, path: [k] });
   }
 });
 const modelSchema = z.object({
@@ -250,7 +251,14 @@ const viewSchema = z.object({
 });
 const fitSchema = z.object({
   // The fit outcome is produced by our own solver; only its outline is checked here.
-  outcome: z.union([z.object({ ok: z.literal(true), result: z.looseObject({ parameters: z.record(z.string(), z.unknown()), lines: z.array(z.unknown()) }) }), z.object({ ok: z.literal(false), error: z.looseObject({ kind: z.string(), message: z.string() }) }), z.null()]),
+  outcome: z.union([
+    z.object({
+      ok: z.literal(true),
+      result: z.looseObject({ parameters: z.record(z.string(), z.unknown()), lines: z.array(z.unknown()) }),
+    }),
+    z.object({ ok: z.literal(false), error: z.looseObject({ kind: z.string(), message: z.string() }) }),
+    z.null(),
+  ]),
   lineIds: z.array(z.string()),
   finishedAt: z.string().nullable(),
   modelBeforeAccept: modelSchema.nullable(),
@@ -388,7 +396,8 @@ function migrateV1(doc: Record<string, unknown>, messages: string[]): Record<str
     session.nextAssignmentNumber = (doc.assignments as unknown[]).length + 1;
   }
   const v = doc.view as { xRange?: unknown } | undefined;
-  if (v && Array.isArray(v.xRange)) messages.push('version 1 kept only the zoom range of the view; other view settings take their defaults');
+  if (v && Array.isArray(v.xRange))
+    messages.push('version 1 kept only the zoom range of the view; other view settings take their defaults');
   messages.push('migrated from project version 1 (model-file constants, plain-number trace) to version 2');
   return session;
 }
@@ -405,9 +414,13 @@ function migrateV1(doc: Record<string, unknown>, messages: string[]): Record<str
 export function projectFileParse(text: string, parts: Partial<Record<ProjectPartName, string>> = {}): ProjectFileOutcome {
   const parsed = inputJsonParse(text, INPUT_LIMITS.maxTextChars, reviver);
   if (!parsed.ok)
-    return { ok: false, message: parsed.field === 'maxChars' ? `project file: ${parsed.message} (maxTextChars)` : `project file is ${parsed.message}` };
+    return {
+      ok: false,
+      message: parsed.field === 'maxChars' ? `project file: ${parsed.message} (maxTextChars)` : `project file is ${parsed.message}`,
+    };
   const doc = parsed.value;
-  if (!doc || typeof doc !== 'object' || Array.isArray(doc)) return { ok: false, message: `project file: expected a JSON object, got ${describeValue(doc)}` };
+  if (!doc || typeof doc !== 'object' || Array.isArray(doc))
+    return { ok: false, message: `project file: expected a JSON object, got ${describeValue(doc)}` };
   const d = doc as Record<string, unknown>;
   if (d.format !== PROJECT_FORMAT) {
     return {
@@ -417,7 +430,10 @@ export function projectFileParse(text: string, parts: Partial<Record<ProjectPart
   }
   const version = d.version;
   if (typeof version !== 'number' || !Number.isInteger(version) || version < 1) {
-    return { ok: false, message: `project file: field 'version' is ${version === undefined ? 'missing' : describeValue(version)}; expected a whole number >= 1` };
+    return {
+      ok: false,
+      message: `project file: field 'version' is ${version === undefined ? 'missing' : describeValue(version)}; expected a whole number >= 1`,
+    };
   }
   if (version > PROJECT_VERSION) {
     return {
@@ -435,11 +451,15 @@ export function projectFileParse(text: string, parts: Partial<Record<ProjectPart
     }
   } else {
     if (!d.session || typeof d.session !== 'object' || Array.isArray(d.session)) {
-      return { ok: false, message: `project file: field 'session' is ${d.session === undefined ? 'missing' : describeValue(d.session)}; expected an object` };
+      return {
+        ok: false,
+        message: `project file: field 'session' is ${d.session === undefined ? 'missing' : describeValue(d.session)}; expected an object`,
+      };
     }
     raw = d.session as Record<string, unknown>;
     for (const k of Object.keys(d))
-      if (!['format', 'version', 'savedAt', 'appVersion', 'session'].includes(k)) messages.push(`unknown top-level field '${inputExcerpt(k)}' ignored`);
+      if (!['format', 'version', 'savedAt', 'appVersion', 'session'].includes(k))
+        messages.push(`unknown top-level field '${inputExcerpt(k)}' ignored`);
     for (const name of PROJECT_PART_NAMES) {
       const part = parts[name];
       // The file's own field wins: parts are only what was written beside it.
@@ -453,7 +473,10 @@ export function projectFileParse(text: string, parts: Partial<Record<ProjectPart
   }
   const m = modelSchema.safeParse(raw.model);
   if (!m.success) {
-    return { ok: false, message: `project file: field 'session.model' ${raw.model === undefined ? 'is missing' : `is not a band model (${issueText(m.error.issues[0])})`}` };
+    return {
+      ok: false,
+      message: `project file: field 'session.model' ${raw.model === undefined ? 'is missing' : `is not a band model (${issueText(m.error.issues[0])})`}`,
+    };
   }
   const model: BandModel = {
     ...m.data,
@@ -476,7 +499,7 @@ export function projectFileParse(text: string, parts: Partial<Record<ProjectPart
       const seen = new Set<string>();
       (raw[name] as unknown[]).forEach((row, i) => {
         const a = assignmentSchema.safeParse(row);
-        if (!a.success) dropped.push(`[${i}] (${issueText(a.error.issues[0]).replace(/^\./, "")})`);
+        if (!a.success) dropped.push(`[${i}] (${issueText(a.error.issues[0]).replace(/^\./, '')})`);
         else if (seen.has(a.data.id)) dropped.push(`[${i}] (id '${inputExcerpt(a.data.id)}' appears earlier)`);
         else {
           seen.add(a.data.id);
@@ -502,7 +525,8 @@ export function projectFileParse(text: string, parts: Partial<Record<ProjectPart
         try {
           const x = base64ToFloat64(t.wavenumberCm1, 'session.trace.wavenumberCm1');
           const y = base64ToFloat64(t.absorbance, 'session.trace.absorbance');
-          if (x.length !== t.points || y.length !== t.points) throw new Error(`session.trace: expected ${t.points} points, found ${x.length} and ${y.length}`);
+          if (x.length !== t.points || y.length !== t.points)
+            throw new Error(`session.trace: expected ${t.points} points, found ${x.length} and ${y.length}`);
           for (let i = 1; i < x.length; i++) {
             if (!(x[i] > x[i - 1])) throw new Error(`session.trace: wavenumbers must increase; point ${i} (${x[i]}) follows ${x[i - 1]}`);
           }
@@ -524,7 +548,11 @@ export function projectFileParse(text: string, parts: Partial<Record<ProjectPart
         ...f,
         outcome: f.outcome as FitOutcome | null,
         modelBeforeAccept: f.modelBeforeAccept
-          ? { ...f.modelBeforeAccept, lower: stateConstantsFrom(f.modelBeforeAccept.lower), upper: stateConstantsFrom(f.modelBeforeAccept.upper) }
+          ? {
+              ...f.modelBeforeAccept,
+              lower: stateConstantsFrom(f.modelBeforeAccept.lower),
+              upper: stateConstantsFrom(f.modelBeforeAccept.upper),
+            }
           : null,
       };
       continue;

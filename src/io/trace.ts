@@ -62,6 +62,4 @@ export interface TraceImportError {
 }
 
 /** Outcome of an import: data and report, or a clear error. Never throws for bad content. */
-export type TraceImportOutcome =
-  | { ok: true; trace: Trace; report: TraceImportReport }
-  | { ok: false; error: TraceImportError };
+export type TraceImportOutcome = { ok: true; trace: Trace; report: TraceImportReport } | { ok: false; error: TraceImportError };

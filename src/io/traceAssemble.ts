@@ -105,9 +105,7 @@ export function traceAssemble(
     for (let i = 0, k = 0; i < n; i++) if (valid[i]) idx[k++] = i;
     const key = (i: number) => (isWavelength ? xFactor / x[i] : x[i]);
     order = idx.sort((a, b) => key(a) - key(b) || a - b);
-    messages.push(
-      `the axis is not monotonic (first reversal at line ${lineAt(firstReversal)}); points were sorted by wavenumber`,
-    );
+    messages.push(`the axis is not monotonic (first reversal at line ${lineAt(firstReversal)}); points were sorted by wavenumber`);
   } else {
     order = new Uint32Array(nValid);
     const reverse = fileDescending !== isWavelength;

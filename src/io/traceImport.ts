@@ -11,13 +11,7 @@ import { delimitedFieldClean, delimitedIsCommentAt } from './delimitedField';
 import { delimitedSplitLine } from './delimitedSniff';
 import { jcampDetect, jcampParse, type JcampLabel } from './jcampParse';
 import { inputExcerpt } from './inputLimits';
-import {
-  unitsOrdinateFromLabel,
-  unitsOrdinateFromValues,
-  unitsTransmittanceScale,
-  unitsValueStats,
-  unitsXFromLabel,
-} from './unitsDetect';
+import { unitsOrdinateFromLabel, unitsOrdinateFromValues, unitsTransmittanceScale, unitsValueStats, unitsXFromLabel } from './unitsDetect';
 
 /** Raw columns from either reader, before units and ordering are handled. */
 interface RawTrace {
@@ -89,11 +83,7 @@ function importTraceChecked(
   const options = resolved.options;
   if (typeof text !== 'string') return refuse(`importTrace: text must be a string, got ${typeof text}`, undefined, 'text');
   if (text.length > options.maxChars)
-    return refuse(
-      `the text is ${text.length} characters long, above the limit of ${options.maxChars} (maxChars)`,
-      undefined,
-      'maxChars',
-    );
+    return refuse(`the text is ${text.length} characters long, above the limit of ${options.maxChars} (maxChars)`, undefined, 'maxChars');
   if (text.trim() === '') return refuse('the file is empty');
 
   let last = -1;
@@ -184,8 +174,7 @@ function readDelimited(
   onProgress: (f: number) => void,
 ): RawTrace | { error: { message: string; line?: number; field?: string } } {
   const canFast =
-    (options.delimiter === 'auto' || options.delimiter === ',' || options.delimiter === 'whitespace') &&
-    options.decimal !== ',';
+    (options.delimiter === 'auto' || options.delimiter === ',' || options.delimiter === 'whitespace') && options.decimal !== ',';
   if (canFast) {
     const pre = preambleEnd(text);
     if (pre) {
@@ -207,7 +196,9 @@ function readDelimited(
         if (eol < 0) eol = text.length;
         // Blank-separated rows that use tabs are reported (and their header split) as tab-separated.
         const delimiter: TraceDelimiter =
-          fast.delimiter === 'whitespace' && text.slice(pre.start, eol).trim().includes('\t') && !/ /.test(text.slice(pre.start, eol).trim())
+          fast.delimiter === 'whitespace' &&
+          text.slice(pre.start, eol).trim().includes('\t') &&
+          !/ /.test(text.slice(pre.start, eol).trim())
             ? '\t'
             : fast.delimiter;
         const headerNames = pre.header ? delimitedSplitLine(pre.header, delimiter).map(delimitedFieldClean) : undefined;
@@ -372,7 +363,9 @@ function resolveOrdinate(raw: RawTrace, options: TraceImportOptions): { ordinate
   }
   if (hint) return { ordinate: hint, messages };
   const guess = unitsOrdinateFromValues(stats);
-  const what = raw.yUnitsLabel ? `##YUNITS=${inputExcerpt(raw.yUnitsLabel.value)} is not recognised` : 'the ordinate is not named in the file';
+  const what = raw.yUnitsLabel
+    ? `##YUNITS=${inputExcerpt(raw.yUnitsLabel.value)} is not recognised`
+    : 'the ordinate is not named in the file';
   messages.push(
     `${what}; read as ${ORDINATE_WORDS[guess.ordinate]} from the values (${guess.reason}); set the ordinate option to override`,
   );

@@ -92,8 +92,7 @@ export function traceImportOptionsResolve(
     message: `importTrace: options.${field} must be ${expected}, got ${JSON.stringify(got) ?? String(got)}`,
   });
   if (!FORMATS.includes(o.format)) return bad('format', FORMATS.join(' | '), o.format);
-  if (!Number.isInteger(o.yColumn) || o.yColumn < 1)
-    return bad('yColumn', 'an integer >= 1 (column 0 is the abscissa)', o.yColumn);
+  if (!Number.isInteger(o.yColumn) || o.yColumn < 1) return bad('yColumn', 'an integer >= 1 (column 0 is the abscissa)', o.yColumn);
   if (!X_UNITS.includes(o.xUnit)) return bad('xUnit', X_UNITS.join(' | '), o.xUnit);
   if (!ORDINATES.includes(o.ordinate)) return bad('ordinate', ORDINATES.join(' | '), o.ordinate);
   if (!DELIMITERS.includes(o.delimiter)) return bad('delimiter', "auto | ',' | '\\t' | ';' | whitespace", o.delimiter);

@@ -5,12 +5,7 @@
 
 /** Why a row or point was left out. */
 export type TraceSkipReason =
-  | 'non-numeric'
-  | 'missing column'
-  | 'NaN/Infinity'
-  | "invalid value '?'"
-  | 'duplicate x'
-  | 'non-positive wavelength';
+  'non-numeric' | 'missing column' | 'NaN/Infinity' | "invalid value '?'" | 'duplicate x' | 'non-positive wavelength';
 
 /** Most line numbers kept in a report; the count stays exact beyond it. */
 export const TRACE_SKIP_LINES_KEPT = 100_000;

@@ -38,8 +38,7 @@ export function unitsXFromLabel(label: string): UnitsXHint | undefined {
 export function unitsOrdinateFromLabel(label: string): UnitsOrdinateHint | undefined {
   const s = label.toLowerCase();
   // log(1/T) names transmittance inside an absorbance label, so it is tested first.
-  if (/log\s*\(?\s*1\s*\/\s*t/.test(s) || /absorbance|absorption/.test(s) || word('abs').test(s))
-    return 'absorbance';
+  if (/log\s*\(?\s*1\s*\/\s*t/.test(s) || /absorbance|absorption/.test(s) || word('abs').test(s)) return 'absorbance';
   const isTrans = /transmit|transmission/.test(s) || word('t').test(s.replace(/%/g, ' '));
   if (isTrans && /%|percent|per cent/.test(s)) return 'percent-transmittance';
   if (isTrans) return 'transmittance';
@@ -106,13 +105,10 @@ export const UNITS_GUESS_MIN_VALUES = 5;
 export function unitsOrdinateFromValues(stats: UnitsValueStats): UnitsOrdinateGuess {
   const { min, max, median } = stats;
   const range = `values in [${fmt(min)}, ${fmt(max)}], median ${fmt(median)}`;
-  if (stats.count < UNITS_GUESS_MIN_VALUES)
-    return { ordinate: 'absorbance', reason: `only ${stats.count} values, too few to judge` };
+  if (stats.count < UNITS_GUESS_MIN_VALUES) return { ordinate: 'absorbance', reason: `only ${stats.count} values, too few to judge` };
   const dipsDown = median - min >= max - median;
-  if (min >= -0.05 && max <= 1.05 && median >= 0.5 && dipsDown)
-    return { ordinate: 'transmittance', reason: range };
-  if (min >= -5 && max <= 110 && max > 1.05 && median >= 10 && dipsDown)
-    return { ordinate: 'percent-transmittance', reason: range };
+  if (min >= -0.05 && max <= 1.05 && median >= 0.5 && dipsDown) return { ordinate: 'transmittance', reason: range };
+  if (min >= -5 && max <= 110 && max > 1.05 && median >= 10 && dipsDown) return { ordinate: 'percent-transmittance', reason: range };
   return { ordinate: 'absorbance', reason: range };
 }
 

@@ -50,106 +50,234 @@ type Row = readonly [string, 1 | 2, 'z' | 'xy' | null, boolean?];
 
 // Species and z / (x, y) columns as in Cotton (1990) Appendix IIA (recalled, see tests).
 const TABLE_ROWS: Record<string, { order: number; rows: readonly Row[] }> = {
-  C3: { order: 3, rows: [['A', 1, 'z'], ['E', 2, 'xy', true]] },
-  C4: { order: 4, rows: [['A', 1, 'z'], ['B', 1, null], ['E', 2, 'xy', true]] },
+  C3: {
+    order: 3,
+    rows: [
+      ['A', 1, 'z'],
+      ['E', 2, 'xy', true],
+    ],
+  },
+  C4: {
+    order: 4,
+    rows: [
+      ['A', 1, 'z'],
+      ['B', 1, null],
+      ['E', 2, 'xy', true],
+    ],
+  },
   C6: {
     order: 6,
-    rows: [['A', 1, 'z'], ['B', 1, null], ['E1', 2, 'xy', true], ['E2', 2, null, true]],
+    rows: [
+      ['A', 1, 'z'],
+      ['B', 1, null],
+      ['E1', 2, 'xy', true],
+      ['E2', 2, null, true],
+    ],
   },
-  S4: { order: 4, rows: [['A', 1, null], ['B', 1, 'z'], ['E', 2, 'xy', true]] },
+  S4: {
+    order: 4,
+    rows: [
+      ['A', 1, null],
+      ['B', 1, 'z'],
+      ['E', 2, 'xy', true],
+    ],
+  },
   S6: {
     order: 6,
-    rows: [['Ag', 1, null], ['Eg', 2, null, true], ['Au', 1, 'z'], ['Eu', 2, 'xy', true]],
+    rows: [
+      ['Ag', 1, null],
+      ['Eg', 2, null, true],
+      ['Au', 1, 'z'],
+      ['Eu', 2, 'xy', true],
+    ],
   },
-  C3v: { order: 6, rows: [['A1', 1, 'z'], ['A2', 1, null], ['E', 2, 'xy']] },
+  C3v: {
+    order: 6,
+    rows: [
+      ['A1', 1, 'z'],
+      ['A2', 1, null],
+      ['E', 2, 'xy'],
+    ],
+  },
   C4v: {
     order: 8,
-    rows: [['A1', 1, 'z'], ['A2', 1, null], ['B1', 1, null], ['B2', 1, null], ['E', 2, 'xy']],
+    rows: [
+      ['A1', 1, 'z'],
+      ['A2', 1, null],
+      ['B1', 1, null],
+      ['B2', 1, null],
+      ['E', 2, 'xy'],
+    ],
   },
-  C5v: { order: 10, rows: [['A1', 1, 'z'], ['A2', 1, null], ['E1', 2, 'xy'], ['E2', 2, null]] },
+  C5v: {
+    order: 10,
+    rows: [
+      ['A1', 1, 'z'],
+      ['A2', 1, null],
+      ['E1', 2, 'xy'],
+      ['E2', 2, null],
+    ],
+  },
   C6v: {
     order: 12,
     rows: [
-      ['A1', 1, 'z'], ['A2', 1, null], ['B1', 1, null], ['B2', 1, null],
-      ['E1', 2, 'xy'], ['E2', 2, null],
+      ['A1', 1, 'z'],
+      ['A2', 1, null],
+      ['B1', 1, null],
+      ['B2', 1, null],
+      ['E1', 2, 'xy'],
+      ['E2', 2, null],
     ],
   },
   C3h: {
     order: 6,
-    rows: [["A'", 1, null], ["E'", 2, 'xy', true], ["A''", 1, 'z'], ["E''", 2, null, true]],
+    rows: [
+      ["A'", 1, null],
+      ["E'", 2, 'xy', true],
+      ["A''", 1, 'z'],
+      ["E''", 2, null, true],
+    ],
   },
   C4h: {
     order: 8,
     rows: [
-      ['Ag', 1, null], ['Bg', 1, null], ['Eg', 2, null, true],
-      ['Au', 1, 'z'], ['Bu', 1, null], ['Eu', 2, 'xy', true],
+      ['Ag', 1, null],
+      ['Bg', 1, null],
+      ['Eg', 2, null, true],
+      ['Au', 1, 'z'],
+      ['Bu', 1, null],
+      ['Eu', 2, 'xy', true],
     ],
   },
   C6h: {
     order: 12,
     rows: [
-      ['Ag', 1, null], ['Bg', 1, null], ['E1g', 2, null, true], ['E2g', 2, null, true],
-      ['Au', 1, 'z'], ['Bu', 1, null], ['E1u', 2, 'xy', true], ['E2u', 2, null, true],
+      ['Ag', 1, null],
+      ['Bg', 1, null],
+      ['E1g', 2, null, true],
+      ['E2g', 2, null, true],
+      ['Au', 1, 'z'],
+      ['Bu', 1, null],
+      ['E1u', 2, 'xy', true],
+      ['E2u', 2, null, true],
     ],
   },
-  D3: { order: 6, rows: [['A1', 1, null], ['A2', 1, 'z'], ['E', 2, 'xy']] },
+  D3: {
+    order: 6,
+    rows: [
+      ['A1', 1, null],
+      ['A2', 1, 'z'],
+      ['E', 2, 'xy'],
+    ],
+  },
   D4: {
     order: 8,
-    rows: [['A1', 1, null], ['A2', 1, 'z'], ['B1', 1, null], ['B2', 1, null], ['E', 2, 'xy']],
+    rows: [
+      ['A1', 1, null],
+      ['A2', 1, 'z'],
+      ['B1', 1, null],
+      ['B2', 1, null],
+      ['E', 2, 'xy'],
+    ],
   },
   D6: {
     order: 12,
     rows: [
-      ['A1', 1, null], ['A2', 1, 'z'], ['B1', 1, null], ['B2', 1, null],
-      ['E1', 2, 'xy'], ['E2', 2, null],
+      ['A1', 1, null],
+      ['A2', 1, 'z'],
+      ['B1', 1, null],
+      ['B2', 1, null],
+      ['E1', 2, 'xy'],
+      ['E2', 2, null],
     ],
   },
   D2d: {
     order: 8,
-    rows: [['A1', 1, null], ['A2', 1, null], ['B1', 1, null], ['B2', 1, 'z'], ['E', 2, 'xy']],
+    rows: [
+      ['A1', 1, null],
+      ['A2', 1, null],
+      ['B1', 1, null],
+      ['B2', 1, 'z'],
+      ['E', 2, 'xy'],
+    ],
   },
   D3d: {
     order: 12,
     rows: [
-      ['A1g', 1, null], ['A2g', 1, null], ['Eg', 2, null],
-      ['A1u', 1, null], ['A2u', 1, 'z'], ['Eu', 2, 'xy'],
+      ['A1g', 1, null],
+      ['A2g', 1, null],
+      ['Eg', 2, null],
+      ['A1u', 1, null],
+      ['A2u', 1, 'z'],
+      ['Eu', 2, 'xy'],
     ],
   },
   D4d: {
     order: 16,
     rows: [
-      ['A1', 1, null], ['A2', 1, null], ['B1', 1, null], ['B2', 1, 'z'],
-      ['E1', 2, 'xy'], ['E2', 2, null], ['E3', 2, null],
+      ['A1', 1, null],
+      ['A2', 1, null],
+      ['B1', 1, null],
+      ['B2', 1, 'z'],
+      ['E1', 2, 'xy'],
+      ['E2', 2, null],
+      ['E3', 2, null],
     ],
   },
   D3h: {
     order: 12,
     rows: [
-      ["A1'", 1, null], ["A2'", 1, null], ["E'", 2, 'xy'],
-      ["A1''", 1, null], ["A2''", 1, 'z'], ["E''", 2, null],
+      ["A1'", 1, null],
+      ["A2'", 1, null],
+      ["E'", 2, 'xy'],
+      ["A1''", 1, null],
+      ["A2''", 1, 'z'],
+      ["E''", 2, null],
     ],
   },
   D4h: {
     order: 16,
     rows: [
-      ['A1g', 1, null], ['A2g', 1, null], ['B1g', 1, null], ['B2g', 1, null], ['Eg', 2, null],
-      ['A1u', 1, null], ['A2u', 1, 'z'], ['B1u', 1, null], ['B2u', 1, null], ['Eu', 2, 'xy'],
+      ['A1g', 1, null],
+      ['A2g', 1, null],
+      ['B1g', 1, null],
+      ['B2g', 1, null],
+      ['Eg', 2, null],
+      ['A1u', 1, null],
+      ['A2u', 1, 'z'],
+      ['B1u', 1, null],
+      ['B2u', 1, null],
+      ['Eu', 2, 'xy'],
     ],
   },
   D5h: {
     order: 20,
     rows: [
-      ["A1'", 1, null], ["A2'", 1, null], ["E1'", 2, 'xy'], ["E2'", 2, null],
-      ["A1''", 1, null], ["A2''", 1, 'z'], ["E1''", 2, null], ["E2''", 2, null],
+      ["A1'", 1, null],
+      ["A2'", 1, null],
+      ["E1'", 2, 'xy'],
+      ["E2'", 2, null],
+      ["A1''", 1, null],
+      ["A2''", 1, 'z'],
+      ["E1''", 2, null],
+      ["E2''", 2, null],
     ],
   },
   D6h: {
     order: 24,
     rows: [
-      ['A1g', 1, null], ['A2g', 1, null], ['B1g', 1, null], ['B2g', 1, null],
-      ['E1g', 2, null], ['E2g', 2, null],
-      ['A1u', 1, null], ['A2u', 1, 'z'], ['B1u', 1, null], ['B2u', 1, null],
-      ['E1u', 2, 'xy'], ['E2u', 2, null],
+      ['A1g', 1, null],
+      ['A2g', 1, null],
+      ['B1g', 1, null],
+      ['B2g', 1, null],
+      ['E1g', 2, null],
+      ['E2g', 2, null],
+      ['A1u', 1, null],
+      ['A2u', 1, 'z'],
+      ['B1u', 1, null],
+      ['B2u', 1, null],
+      ['E1u', 2, 'xy'],
+      ['E2u', 2, null],
     ],
   },
 };
@@ -159,10 +287,31 @@ const GROUP_ALIASES: Record<string, string> = { c3i: 'S6' };
 
 // Typographic variants seen in pasted labels, mapped to plain ASCII before comparing.
 const CHAR_MAP: Record<string, string> = {
-  '′': "'", 'ʹ': "'", '’': "'", '‘': "'", '`': "'", '´': "'",
-  '″': "''", 'ʺ': "''", '"': "''", '”': "''",
-  '₀': '0', '₁': '1', '₂': '2', '₃': '3', '₄': '4', '₅': '5', '₆': '6', '₇': '7', '₈': '8', '₉': '9',
-  '¹': '1', '²': '2', 'ᵤ': 'u', 'ₕ': 'h', 'ᵥ': 'v',
+  '′': "'",
+  ʹ: "'",
+  '’': "'",
+  '‘': "'",
+  '`': "'",
+  '´': "'",
+  '″': "''",
+  ʺ: "''",
+  '"': "''",
+  '”': "''",
+  '₀': '0',
+  '₁': '1',
+  '₂': '2',
+  '₃': '3',
+  '₄': '4',
+  '₅': '5',
+  '₆': '6',
+  '₇': '7',
+  '₈': '8',
+  '₉': '9',
+  '¹': '1',
+  '²': '2',
+  ᵤ: 'u',
+  ₕ: 'h',
+  ᵥ: 'v',
 };
 
 function normalizeLabel(text: string): string {
@@ -186,9 +335,7 @@ function tableKey(fn: string, pointGroup: unknown): string {
   const alias = GROUP_ALIASES[norm];
   if (alias) return alias;
   for (const key of Object.keys(TABLE_ROWS)) if (key.toLowerCase() === norm) return key;
-  throw new Error(
-    `${fn}: unknown point group "${pointGroup}"; valid: ${Object.keys(TABLE_ROWS).join(', ')} (alias C3i = S6)`,
-  );
+  throw new Error(`${fn}: unknown point group "${pointGroup}"; valid: ${Object.keys(TABLE_ROWS).join(', ')} (alias C3i = S6)`);
 }
 
 function rowToSpecies(row: Row): BandSymmetrySpecies {
@@ -255,13 +402,9 @@ export function bandTypeFromSymmetry(pointGroup: string, species: string): BandS
     found = list.find((s) => s.isComplexPair && normalizeLabel(s.label) === norm.slice(1));
   }
   if (!found) {
-    throw new Error(
-      `${fn}: species "${species}" is not a species of ${key}; valid: ${list.map((s) => s.label).join(', ')}`,
-    );
+    throw new Error(`${fn}: species "${species}" is not a species of ${key}; valid: ${list.map((s) => s.label).join(', ')}`);
   }
-  const name = found.isComplexPair
-    ? `${found.label} (real pair of complex-conjugate 1-D species)`
-    : found.label;
+  const name = found.isComplexPair ? `${found.label} (real pair of complex-conjugate 1-D species)` : found.label;
   if (found.transformsLike === 'z') {
     return { activity: 'parallel', reason: `${name} of ${key} transforms like z: parallel band (ΔK = 0)` };
   }

@@ -19,7 +19,7 @@ export interface LineLabelParts {
 export function lineLabelParts(deltaK: number, deltaJ: number, kLower: number, jLower: number, shape: TopShape): LineLabelParts {
   const linear = shape === 'linear';
   return {
-    deltaKLetter: linear ? '' : DELTA_LETTER[deltaK] ?? '?',
+    deltaKLetter: linear ? '' : (DELTA_LETTER[deltaK] ?? '?'),
     branchLetter: BRANCH_LETTER[deltaJ] ?? '?',
     kLower: linear ? null : kLower,
     jLower,

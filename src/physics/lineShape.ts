@@ -77,7 +77,7 @@ export function lineShapeVoigt(dxCm1: number, gaussHwhmCm1: number, lorentzHwhmC
   }
   const x = (SQRT_LN2 * dxCm1) / gaussHwhmCm1;
   const y = (SQRT_LN2 * lorentzHwhmCm1) / gaussHwhmCm1;
-  return (SQRT_LN2 * INV_SQRT_PI / gaussHwhmCm1) * faddeevaRe(x, y);
+  return ((SQRT_LN2 * INV_SQRT_PI) / gaussHwhmCm1) * faddeevaRe(x, y);
 }
 
 /**
@@ -96,10 +96,7 @@ export function lineShapeDopplerHwhm(nuCm1: number, temperatureK: number, massAm
     throw new RangeError(`lineShapeDopplerHwhm: temperatureK must be finite and >= 0, got ${temperatureK}`);
   }
   if (!(massAmu > 0)) throw new RangeError(`lineShapeDopplerHwhm: massAmu must be > 0, got ${massAmu}`);
-  return (
-    (Math.abs(nuCm1) / SPEED_OF_LIGHT_M_PER_S) *
-    Math.sqrt((2 * LN2 * BOLTZMANN_J_PER_K * temperatureK) / (massAmu * ATOMIC_MASS_KG))
-  );
+  return (Math.abs(nuCm1) / SPEED_OF_LIGHT_M_PER_S) * Math.sqrt((2 * LN2 * BOLTZMANN_J_PER_K * temperatureK) / (massAmu * ATOMIC_MASS_KG));
 }
 
 /**

@@ -198,5 +198,5 @@ export function lineShapeVoigtTableValue(table: LineShapeVoigtTable, u: number, 
 export function lineShapeVoigtAsymptoticK(x: number, y: number): number {
   const r2 = x * x + y * y;
   const inv = 1 / r2;
-  return (inv * (y + (0.5 * (3 * x * x * y - y * y * y) * inv * inv))) / Math.sqrt(Math.PI);
+  return (inv * (y + 0.5 * (3 * x * x * y - y * y * y) * inv * inv)) / Math.sqrt(Math.PI);
 }

@@ -13,21 +13,7 @@ export type TopShape = 'prolate' | 'oblate' | 'linear';
 export type BandType = 'parallel' | 'perpendicular';
 
 /** Every constant a state may carry, by model-file name. */
-export const PARAMETER_NAMES = [
-  'origin',
-  'B',
-  'A',
-  'C',
-  'DJ',
-  'DJK',
-  'DK',
-  'HJ',
-  'HJK',
-  'HKJ',
-  'HK',
-  'zeta',
-  'q',
-] as const;
+export const PARAMETER_NAMES = ['origin', 'B', 'A', 'C', 'DJ', 'DJK', 'DK', 'HJ', 'HJK', 'HKJ', 'HK', 'zeta', 'q'] as const;
 
 /** A constant's model-file name. */
 export type ParameterName = (typeof PARAMETER_NAMES)[number];

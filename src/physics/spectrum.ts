@@ -8,13 +8,7 @@ import { ATOMIC_MASS_KG, BOLTZMANN_J_PER_K, SPEED_OF_LIGHT_M_PER_S } from './con
 import { faddeevaRe } from './faddeeva';
 import { lineShapeVoigtTable, type LineShapeVoigtTable } from './lineShapeVoigtTable';
 import { spectrumAddVoigt } from './spectrumAddVoigt';
-import {
-  spectrumTailConvolve,
-  spectrumTailFarLines,
-  spectrumTailKernel,
-  spectrumTailPlan,
-  spectrumTailStickWeights,
-} from './spectrumTail';
+import { spectrumTailConvolve, spectrumTailFarLines, spectrumTailKernel, spectrumTailPlan, spectrumTailStickWeights } from './spectrumTail';
 
 /** Line positions and intensities as columns; a LineList from model.ts satisfies it. */
 export interface SpectrumLines {
@@ -117,8 +111,7 @@ function prepare(fn: string, lines: SpectrumLines, opts: SpectrumSynthesizeOptio
   const dopplerPerCm1 =
     opts.massAmu === Infinity
       ? 0
-      : Math.sqrt((2 * LN2 * BOLTZMANN_J_PER_K * opts.temperatureK) / (opts.massAmu * ATOMIC_MASS_KG)) /
-        SPEED_OF_LIGHT_M_PER_S;
+      : Math.sqrt((2 * LN2 * BOLTZMANN_J_PER_K * opts.temperatureK) / (opts.massAmu * ATOMIC_MASS_KG)) / SPEED_OF_LIGHT_M_PER_S;
   const doppler = new Float64Array(n);
   const fwhm = new Float64Array(n);
   let yMin = Infinity;
@@ -236,7 +229,7 @@ function addNear(
   if (kHi < kLo || intensity === 0) return;
   const { fromCm1, stepCm1, npoints } = grid;
   if (dopplerHwhmCm1 > 0) {
-    const c = (SQRT_LN2 / Math.sqrt(Math.PI)) / dopplerHwhmCm1;
+    const c = SQRT_LN2 / Math.sqrt(Math.PI) / dopplerHwhmCm1;
     const r = SQRT_LN2 / dopplerHwhmCm1;
     const yr = r * lorentzHwhmCm1;
     let kNear = Math.round((nu - fromCm1) / stepCm1);

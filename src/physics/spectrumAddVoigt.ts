@@ -147,16 +147,7 @@ function addTable(
 }
 
 /** out[k] += ampK · K_asym(u s, y) for k ∈ [ka, kb), two-term asymptotic series (A&S 7.1.23). */
-function addAsymptotic(
-  out: Float64Array,
-  ka: number,
-  kb: number,
-  uA: number,
-  du: number,
-  s: number,
-  y: number,
-  ampK: number,
-): void {
+function addAsymptotic(out: Float64Array, ka: number, kb: number, uA: number, du: number, s: number, y: number, ampK: number): void {
   const y2 = y * y;
   const c1 = ampK * y * INV_SQRT_PI;
   let x = (uA + ka * du) * s;
@@ -170,16 +161,7 @@ function addAsymptotic(
 }
 
 /** out[k] += ampK · y/(√π (x² + y²)) for k ∈ [ka, kb): leading asymptotic term (A&S 7.1.23). */
-function addLorentzTail(
-  out: Float64Array,
-  ka: number,
-  kb: number,
-  uA: number,
-  du: number,
-  s: number,
-  y: number,
-  ampK: number,
-): void {
+function addLorentzTail(out: Float64Array, ka: number, kb: number, uA: number, du: number, s: number, y: number, ampK: number): void {
   const y2 = y * y;
   const c1 = ampK * y * INV_SQRT_PI;
   let x = (uA + ka * du) * s;

@@ -72,15 +72,6 @@ export function upperLevelEnergy(model: BandModel, jUpper: number, kUpper: numbe
  * The ΔK sign that picks the Coriolis component is K' − K''.
  * @returns line position in cm^-1 (no validity check; see transitionCheck)
  */
-export function transitionWavenumber(
-  model: BandModel,
-  jUpper: number,
-  kUpper: number,
-  jLower: number,
-  kLower: number,
-): number {
-  return (
-    upperLevelEnergy(model, jUpper, kUpper, kUpper - kLower, jUpper - jLower) -
-    levelEnergy(model.lower, model.shape, jLower, kLower)
-  );
+export function transitionWavenumber(model: BandModel, jUpper: number, kUpper: number, jLower: number, kLower: number): number {
+  return upperLevelEnergy(model, jUpper, kUpper, kUpper - kLower, jUpper - jLower) - levelEnergy(model.lower, model.shape, jLower, kLower);
 }

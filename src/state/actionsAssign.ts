@@ -33,7 +33,13 @@ function candidateWindowOf(model: BenchState['model']): number {
 const NO_CANDIDATES: Candidate[] = [];
 
 const candidates = memoLast(
-  (target: CandidateTarget | null, band: ReturnType<typeof selectBand>, outcome: BenchState['fitOutcome'], assigned: Set<string>, model: BenchState['model']): Candidate[] => {
+  (
+    target: CandidateTarget | null,
+    band: ReturnType<typeof selectBand>,
+    outcome: BenchState['fitOutcome'],
+    assigned: Set<string>,
+    model: BenchState['model'],
+  ): Candidate[] => {
     if (!target) return NO_CANDIDATES;
     const result = outcome?.ok && !outcome.result.isExactlyDetermined ? outcome.result : null;
     const lines = band.lines;
@@ -135,7 +141,10 @@ export function traceClickAt(positionCm1: number, toleranceCm1: number): void {
   if (!peaks) return;
   const i = peakNearest(peaks, positionCm1, toleranceCm1);
   if (i < 0) {
-    messagePost('info', `No peak found within ${toleranceCm1.toPrecision(2)} cm⁻¹ of ${positionCm1.toFixed(4)} cm⁻¹; lower the peak-finding SNR threshold to find weaker peaks.`);
+    messagePost(
+      'info',
+      `No peak found within ${toleranceCm1.toPrecision(2)} cm⁻¹ of ${positionCm1.toFixed(4)} cm⁻¹; lower the peak-finding SNR threshold to find weaker peaks.`,
+    );
     return;
   }
   peakClick(i);
@@ -216,7 +225,8 @@ export function cursorStepK(dir: number): void {
     const ladder = band.ladderByKey.get(key);
     if (!ladder || ladder.lineIndex.length === 0) continue;
     let best = ladder.lineIndex[0];
-    for (const i of ladder.lineIndex) if (Math.abs(band.lines.jLower[i] - s.cursor.jLower) < Math.abs(band.lines.jLower[best] - s.cursor.jLower)) best = i;
+    for (const i of ladder.lineIndex)
+      if (Math.abs(band.lines.jLower[i] - s.cursor.jLower) < Math.abs(band.lines.jLower[best] - s.cursor.jLower)) best = i;
     const next = quantaAt(band.lines, best);
     benchUpdate('move cursor', () => ({ cursor: next }), { history: false });
     viewEnsureVisible(band.lines.wavenumberCm1[best]);
@@ -246,7 +256,10 @@ export function cursorAssignNearest(): boolean {
   const nu = band.lines.wavenumberCm1[i];
   const p = peakNearest(peaks, nu, candidateWindowCm1(s) / 2);
   if (p < 0) {
-    messagePost('info', `No peak within ${(candidateWindowCm1(s) / 2).toPrecision(2)} cm⁻¹ of ${quantaLabel(s.cursor, s.model.shape)} at ${nu.toFixed(4)} cm⁻¹.`);
+    messagePost(
+      'info',
+      `No peak within ${(candidateWindowCm1(s) / 2).toPrecision(2)} cm⁻¹ of ${quantaLabel(s.cursor, s.model.shape)} at ${nu.toFixed(4)} cm⁻¹.`,
+    );
     return false;
   }
   assignToPeak(s.cursor, peakTarget(peaks, p));
@@ -276,7 +289,14 @@ export function assignNearPosition(q: TransitionQuanta, positionCm1: number, tol
 export function assignmentSelect(id: string | null, zoom = true): void {
   const s = benchStore.getState();
   const a = id ? s.assignments.find((x) => x.id === id) : undefined;
-  benchUpdate('select row', () => ({ selectedAssignmentId: a ? a.id : null, cursor: a ? { jUpper: a.jUpper, kUpper: a.kUpper, jLower: a.jLower, kLower: a.kLower } : s.cursor }), { history: false });
+  benchUpdate(
+    'select row',
+    () => ({
+      selectedAssignmentId: a ? a.id : null,
+      cursor: a ? { jUpper: a.jUpper, kUpper: a.kUpper, jLower: a.jLower, kLower: a.kLower } : s.cursor,
+    }),
+    { history: false },
+  );
   if (a && zoom) {
     const w = s.xRange ? Math.min((s.xRange[1] - s.xRange[0]) / 2, 4 * candidateWindowCm1(s)) : 4 * candidateWindowCm1(s);
     viewZoomTo(a.observedCm1, w);
@@ -291,7 +311,10 @@ export function assignmentEdit(id: string, patch: AssignmentPatch): string | nul
   const field = Object.keys(patch).join(',');
   try {
     const list = assignmentsUpdate(benchStore.getState().assignments, id, patch);
-    benchUpdate(`edit ${field} of ${id}`, () => ({ assignments: list }), { history: true, coalesce: field === 'note' || field === 'uncertaintyCm1' });
+    benchUpdate(`edit ${field} of ${id}`, () => ({ assignments: list }), {
+      history: true,
+      coalesce: field === 'note' || field === 'uncertaintyCm1',
+    });
     return null;
   } catch (err) {
     return (err as Error).message;

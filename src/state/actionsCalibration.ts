@@ -41,7 +41,10 @@ export function calibrationApplyToTrace(fit: CalibrationFit): void {
   const total = s.traceCalibration ? calibrationCompose(s.traceCalibration, cal) : cal;
   benchUpdate('calibrate axis', () => ({ trace: calibrationTraceApply(s.trace!, cal), traceCalibration: total }), { history: false });
   benchUpdate('calibrate assigned positions', (st) => ({ assignments: assignmentsMoved(st.assignments, cal, false) }), { history: true });
-  messagePost('info', `Wavenumber axis calibrated: δ = ${total.delta.toExponential(4)}, offset ${total.offsetCm1.toFixed(6)} cm⁻¹ in all (revert restores the file's axis).`);
+  messagePost(
+    'info',
+    `Wavenumber axis calibrated: δ = ${total.delta.toExponential(4)}, offset ${total.offsetCm1.toFixed(6)} cm⁻¹ in all (revert restores the file's axis).`,
+  );
 }
 
 /** Take the calibration off again, back to the axis as read from the file. */

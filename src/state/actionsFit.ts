@@ -69,7 +69,14 @@ export async function fitStart(runner: typeof solverFit = solverFit): Promise<vo
   fitAbort = null;
   benchUpdate(
     'fit done',
-    () => ({ isFitRunning: false, fitProgress: null, fitOutcome: outcome, fitLineIds: ids, fitFinishedAt: new Date().toISOString(), isFitAccepted: false }),
+    () => ({
+      isFitRunning: false,
+      fitProgress: null,
+      fitOutcome: outcome,
+      fitLineIds: ids,
+      fitFinishedAt: new Date().toISOString(),
+      isFitAccepted: false,
+    }),
     { history: false },
   );
   messagePost(outcome.ok ? (outcome.result.warnings.length ? 'warning' : 'info') : 'error', fitOutcomeSummary(outcome));
@@ -101,18 +108,26 @@ export function fitAccept(): void {
   const s = benchStore.getState();
   if (!s.fitOutcome?.ok) return;
   const params = s.fitOutcome.result.parameters;
-  benchUpdate('accept fitted constants', (st) => ({ model: modelWithFitted(st.model, params), modelBeforeAccept: st.model, isFitAccepted: true }), {
-    history: true,
-  });
+  benchUpdate(
+    'accept fitted constants',
+    (st) => ({ model: modelWithFitted(st.model, params), modelBeforeAccept: st.model, isFitAccepted: true }),
+    {
+      history: true,
+    },
+  );
 }
 
 /** Go back to the model in force before the fitted constants were accepted; one undo step. */
 export function fitRevert(): void {
   const s = benchStore.getState();
   if (!s.modelBeforeAccept) return;
-  benchUpdate('keep previous constants', (st) => ({ model: st.modelBeforeAccept ?? st.model, modelBeforeAccept: null, isFitAccepted: false }), {
-    history: true,
-  });
+  benchUpdate(
+    'keep previous constants',
+    (st) => ({ model: st.modelBeforeAccept ?? st.model, modelBeforeAccept: null, isFitAccepted: false }),
+    {
+      history: true,
+    },
+  );
 }
 
 /**

@@ -38,10 +38,24 @@ export function importSetParser(p: TraceParser): void {
 }
 
 /** Put a trace in place (not undoable: the trace is not part of history). */
-export function traceReplace(trace: Trace, report: TraceImportReport | null, source: TraceSource, overrides: Partial<TraceImportOptions> = {}): void {
+export function traceReplace(
+  trace: Trace,
+  report: TraceImportReport | null,
+  source: TraceSource,
+  overrides: Partial<TraceImportOptions> = {},
+): void {
   benchUpdate(
     'load trace',
-    () => ({ trace, traceReport: report, traceSource: source, importOverrides: overrides, xRange: null, candidateTarget: null, traceImport: null, traceCalibration: null }),
+    () => ({
+      trace,
+      traceReport: report,
+      traceSource: source,
+      importOverrides: overrides,
+      xRange: null,
+      candidateTarget: null,
+      traceImport: null,
+      traceCalibration: null,
+    }),
     { history: false },
   );
 }
@@ -92,7 +106,11 @@ export async function traceImport(
     if (importAbort !== ctrl) return false;
     importAbort = null;
     benchUpdate('import failed', () => ({ traceImport: null }), { history: false });
-    if ((err as Error).name !== 'AbortError') messagePost('error', `Could not read ${fileName}: ${sentence((err as Error).message)} The current trace and assignments are unchanged.`);
+    if ((err as Error).name !== 'AbortError')
+      messagePost(
+        'error',
+        `Could not read ${fileName}: ${sentence((err as Error).message)} The current trace and assignments are unchanged.`,
+      );
     return false;
   }
   if (importAbort !== ctrl) return false;
@@ -100,7 +118,10 @@ export async function traceImport(
   if (!outcome.ok) {
     benchUpdate('import failed', () => ({ traceImport: null }), { history: false });
     const where = outcome.error.line !== undefined ? ` (line ${outcome.error.line})` : '';
-    messagePost('error', `Could not read ${fileName}${where}: ${sentence(outcome.error.message)} The current trace and assignments are unchanged.`);
+    messagePost(
+      'error',
+      `Could not read ${fileName}${where}: ${sentence(outcome.error.message)} The current trace and assignments are unchanged.`,
+    );
     return false;
   }
   lastSource = { file, fileName };
@@ -122,7 +143,10 @@ export function traceImportCancel(): void {
 /** Read the current trace's file again with changed import choices. */
 export async function traceReimport(overrides: Partial<TraceImportOptions>): Promise<boolean> {
   if (!lastSource) {
-    messagePost('warning', 'The original file is no longer available (it is not kept across reloads); choose it again to re-import with other settings.');
+    messagePost(
+      'warning',
+      'The original file is no longer available (it is not kept across reloads); choose it again to re-import with other settings.',
+    );
     return false;
   }
   return traceImport(lastSource.file, lastSource.fileName, overrides, benchStore.getState().traceSource === 'demo' ? 'demo' : 'file');
@@ -203,10 +227,12 @@ export interface DemoFetch {
 export function demoFetch(): DemoFetch {
   const base = import.meta.env?.BASE_URL ?? '/';
   const get = <T>(path: string, read: (r: Response) => Promise<T>): Promise<T | null> =>
-    fetch(`${base}${path}`).then(
-      (r) => (r.ok ? read(r) : null),
-      () => null,
-    ).catch(() => null);
+    fetch(`${base}${path}`)
+      .then(
+        (r) => (r.ok ? read(r) : null),
+        () => null,
+      )
+      .catch(() => null);
   return { modelText: get('demo/model.json', (r) => r.text()), traceBlob: get('demo/trace.csv', (r) => r.blob()) };
 }
 

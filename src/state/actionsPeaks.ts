@@ -8,7 +8,13 @@ import { analysisPeaksFind, analysisWorkerAvailable } from '../workers/analysisC
 import { benchStore, type BenchState } from './store';
 
 /** Store the peaks found for a trace and settings (called with the worker's answer). */
-export function peaksSetResult(trace: NonNullable<BenchState['trace']>, minSnr: number, baseline: boolean, peaks: PeakList | null, error: string | null): void {
+export function peaksSetResult(
+  trace: NonNullable<BenchState['trace']>,
+  minSnr: number,
+  baseline: boolean,
+  peaks: PeakList | null,
+  error: string | null,
+): void {
   benchStore.setState({ peaksResult: { trace, minSnr, baseline, peaks, error } });
 }
 

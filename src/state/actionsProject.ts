@@ -17,12 +17,17 @@ import { sessionOf, stateFromSession } from './session';
 import { benchStore } from './store';
 
 /** Reads project-file text (or a file) as `projectFileParse` does; the worker in the page. */
-export type ProjectReader = (file: File | Blob | string, fileName: string, parts?: Partial<Record<ProjectPartName, string>>) => Promise<ProjectFileOutcome>;
+export type ProjectReader = (
+  file: File | Blob | string,
+  fileName: string,
+  parts?: Partial<Record<ProjectPartName, string>>,
+) => Promise<ProjectFileOutcome>;
 /** Writes a session as `projectFileSerialize` does; the worker in the page. */
 export type ProjectWriter = (session: ProjectSession, header: ProjectFileHeader) => Promise<string>;
 
 /** The main-thread reader (no Worker: Node, tests). */
-export const projectReadHere: ProjectReader = async (file, _fileName, parts = {}) => projectFileParse(typeof file === 'string' ? file : await file.text(), parts);
+export const projectReadHere: ProjectReader = async (file, _fileName, parts = {}) =>
+  projectFileParse(typeof file === 'string' ? file : await file.text(), parts);
 /** The main-thread writer (no Worker: Node, tests). */
 export const projectWriteHere: ProjectWriter = async (session, header) => projectFileSerialize(session, header);
 
@@ -103,7 +108,10 @@ export async function projectImport(file: File | Blob | string, fileName: string
   } catch (err) {
     if (serial !== openSerial) return false;
     const text = (err as Error).message.trim();
-    messagePost('error', `Could not open ${fileName}: ${/[.!?]$/.test(text) ? text.slice(0, -1) : text}. The current session is unchanged.`);
+    messagePost(
+      'error',
+      `Could not open ${fileName}: ${/[.!?]$/.test(text) ? text.slice(0, -1) : text}. The current session is unchanged.`,
+    );
     return false;
   }
   if (serial !== openSerial) return false;

@@ -36,13 +36,23 @@ export function peakIdPosition(id: string): number {
 export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDraft, id: string): { list: Assignment[]; id: string } {
   if (!Number.isFinite(draft.observedCm1)) throw new Error(`assignmentsAdd: observedCm1 must be finite, got ${draft.observedCm1}`);
   // Numbers compared directly: no key string per row on every click.
-  const existing = list.find((a) => a.jUpper === draft.jUpper && a.kUpper === draft.kUpper && a.jLower === draft.jLower && a.kLower === draft.kLower);
+  const existing = list.find(
+    (a) => a.jUpper === draft.jUpper && a.kUpper === draft.kUpper && a.jLower === draft.jLower && a.kLower === draft.kLower,
+  );
   let out: Assignment[];
   let resultId: string;
   if (existing) {
     resultId = existing.id;
     out = list.map((a) =>
-      a === existing ? { ...a, observedCm1: draft.observedCm1, peakId: draft.peakId, isBlended: false, uncertaintyCm1: draft.uncertaintyCm1 ?? a.uncertaintyCm1 } : a,
+      a === existing
+        ? {
+            ...a,
+            observedCm1: draft.observedCm1,
+            peakId: draft.peakId,
+            isBlended: false,
+            uncertaintyCm1: draft.uncertaintyCm1 ?? a.uncertaintyCm1,
+          }
+        : a,
     );
   } else {
     resultId = id;

@@ -21,7 +21,10 @@ export async function bootstrap(): Promise<void> {
   }
   if (restored) {
     const s = benchStore.getState();
-    messagePost('info', `Restored your last session (${s.assignments.length} assignments). Changes are saved automatically in this browser.`);
+    messagePost(
+      'info',
+      `Restored your last session (${s.assignments.length} assignments). Changes are saved automatically in this browser.`,
+    );
   } else {
     await demoLoad(demo);
     // The demo is the starting point, not something to undo back out of.

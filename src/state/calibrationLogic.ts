@@ -36,7 +36,11 @@ export function calibrationPairsParse(text: string): CalibrationPairsText {
       errors.push(`line ${i + 1}: wavenumbers and sigma must be > 0`);
       return;
     }
-    pairs.push(fields.length === 3 ? { observedCm1: nums[0], referenceCm1: nums[1], referenceSigmaCm1: nums[2] } : { observedCm1: nums[0], referenceCm1: nums[1] });
+    pairs.push(
+      fields.length === 3
+        ? { observedCm1: nums[0], referenceCm1: nums[1], referenceSigmaCm1: nums[2] }
+        : { observedCm1: nums[0], referenceCm1: nums[1] },
+    );
   });
   return { pairs, errors };
 }

@@ -38,7 +38,11 @@ export function demoFallbackTrace(model: BandModel, massAmu: number, stepCm1 = 0
   lo = Math.floor(lo - 5);
   hi = Math.ceil(hi + 5);
   const npoints = Math.floor((hi - lo) / stepCm1) + 1;
-  const y = spectrumSynthesize(lines, { fromCm1: lo, stepCm1, npoints }, { temperatureK: model.temperatureK, massAmu, lorentzHwhmCm1: 0.003 });
+  const y = spectrumSynthesize(
+    lines,
+    { fromCm1: lo, stepCm1, npoints },
+    { temperatureK: model.temperatureK, massAmu, lorentzHwhmCm1: 0.003 },
+  );
   let max = 0;
   for (let k = 0; k < npoints; k++) max = Math.max(max, y[k]);
   const rand = mulberry32(20240611);

@@ -47,7 +47,13 @@ export function historySnapshot(s: HistoryTracked, label: string): HistorySnapsh
 
 /** True when two states differ in a tracked field (by reference: every edit makes new objects). */
 export function historyChanged(a: HistoryTracked, b: HistoryTracked): boolean {
-  return a.model !== b.model || a.floated !== b.floated || a.symmetry !== b.symmetry || a.minIntensity !== b.minIntensity || a.assignments !== b.assignments;
+  return (
+    a.model !== b.model ||
+    a.floated !== b.floated ||
+    a.symmetry !== b.symmetry ||
+    a.minIntensity !== b.minIntensity ||
+    a.assignments !== b.assignments
+  );
 }
 
 /**

@@ -20,4 +20,14 @@ export function modelDefaultDemo(): BandModel {
 }
 
 /** Constants floated by default in the fallback demo. */
-export const MODEL_DEFAULT_FLOATED = ['upper.origin', 'upper.B', 'upper.A', 'upper.zeta', 'lower.B', 'upper.DJ', 'lower.DJ', 'upper.DJK', 'lower.DJK'];
+export const MODEL_DEFAULT_FLOATED = [
+  'upper.origin',
+  'upper.B',
+  'upper.A',
+  'upper.zeta',
+  'lower.B',
+  'upper.DJ',
+  'lower.DJ',
+  'upper.DJK',
+  'lower.DJK',
+];

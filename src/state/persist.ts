@@ -146,7 +146,11 @@ export function persistSaveNow(): Promise<void> {
       if (isTraceNew) entries.push([TRACE_KEY, s.trace ? { wavenumberCm1: s.trace.wavenumberCm1, absorbance: s.trace.absorbance } : null]);
       if (isAssignmentsNew) entries.push([PART_KEYS.assignments, projectPartSerialize('assignments', session.assignments)]);
       if (isFitNew) entries.push([PART_KEYS.fit, projectPartSerialize('fit', session.fit)]);
-      const head = projectFileSerialize({ ...session, trace: null }, { appVersion: 'autosave', savedAt: new Date().toISOString() }, PROJECT_PART_NAMES);
+      const head = projectFileSerialize(
+        { ...session, trace: null },
+        { appVersion: 'autosave', savedAt: new Date().toISOString() },
+        PROJECT_PART_NAMES,
+      );
       entries.push([SESSION_KEY, head]);
       // Copying a new trace to the storage worker takes 10–20 ms: done in a task of its own, not after the texts were built.
       if (isTraceNew) await new Promise((resolve) => setTimeout(resolve, 0));
@@ -158,7 +162,10 @@ export function persistSaveNow(): Promise<void> {
     } catch (err) {
       if (!hasWarned) {
         hasWarned = true;
-        messagePost('warning', `Autosave is not available in this browser (${(err as Error).message}); export a project file to keep your work.`);
+        messagePost(
+          'warning',
+          `Autosave is not available in this browser (${(err as Error).message}); export a project file to keep your work.`,
+        );
       }
     }
   };
@@ -211,7 +218,11 @@ export async function persistRestore(): Promise<boolean> {
     return false;
   }
   const t = trace as Trace | null | undefined;
-  const isTrace = !!t && t.wavenumberCm1 instanceof Float64Array && t.absorbance instanceof Float64Array && t.wavenumberCm1.length === t.absorbance.length;
+  const isTrace =
+    !!t &&
+    t.wavenumberCm1 instanceof Float64Array &&
+    t.absorbance instanceof Float64Array &&
+    t.wavenumberCm1.length === t.absorbance.length;
   const session = { ...r.session, trace: isTrace ? (t as Trace) : null };
   const fields = stateFromSession(session);
   benchStore.setState(fields);

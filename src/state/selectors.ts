@@ -63,14 +63,16 @@ export function selectBand(s: BenchState): PredictedBand {
   return predictedBand(s.model, s.minIntensity);
 }
 
-const peaksOf = memoLast((trace: BenchState['trace'], minSnr: number, baseline: boolean): { peaks: PeakList | null; error: string | null } => {
-  if (!trace || trace.wavenumberCm1.length < 5) return { peaks: null, error: null };
-  try {
-    return { peaks: peaksFind(trace, { minSnr, baseline }), error: null };
-  } catch (err) {
-    return { peaks: null, error: (err as Error).message };
-  }
-});
+const peaksOf = memoLast(
+  (trace: BenchState['trace'], minSnr: number, baseline: boolean): { peaks: PeakList | null; error: string | null } => {
+    if (!trace || trace.wavenumberCm1.length < 5) return { peaks: null, error: null };
+    try {
+      return { peaks: peaksFind(trace, { minSnr, baseline }), error: null };
+    } catch (err) {
+      return { peaks: null, error: (err as Error).message };
+    }
+  },
+);
 
 const PEAKS_PENDING: { peaks: PeakList | null; error: string | null } = { peaks: null, error: null };
 
@@ -218,7 +220,11 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
     else if (!(e && isSameFit) && result) needSigma.push(i);
   }
   let sigmas: Float64Array | null = null;
-  if (result && needSigma.length > 0) sigmas = fitPredictSigmas(result, needSigma.map((i) => assignments[i]));
+  if (result && needSigma.length > 0)
+    sigmas = fitPredictSigmas(
+      result,
+      needSigma.map((i) => assignments[i]),
+    );
   let k = 0;
   // Old rows by id: an edited assignment (a new object for the same id) keeps its labels and
   // calculated position when its quanta are unchanged.
@@ -241,11 +247,14 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
       const hasSameQuanta = e !== undefined && isSameQuanta(e.row.a, a);
       let sigmaPredCm1: number | null = null;
       if (result) sigmaPredCm1 = e && e.row.a === a && isSameFit ? e.sigmaPredCm1 : sigmas![k++];
-      const calcCm1 = e && hasSameQuanta && isSameModel ? e.row.calcCm1 : transitionWavenumber(model, a.jUpper, a.kUpper, a.jLower, a.kLower);
+      const calcCm1 =
+        e && hasSameQuanta && isSameModel ? e.row.calcCm1 : transitionWavenumber(model, a.jUpper, a.kUpper, a.jLower, a.kLower);
       const deltaK = a.kUpper - a.kLower;
       const deltaJ = a.jUpper - a.jLower;
-      const labelAscii = e && hasSameQuanta && isSameShape ? e.row.labelAscii : lineLabelAscii(deltaK, deltaJ, a.kLower, a.jLower, model.shape);
-      const labelHtml = e && hasSameQuanta && isSameShape ? e.row.labelHtml : lineLabelHtml(deltaK, deltaJ, a.kLower, a.jLower, model.shape);
+      const labelAscii =
+        e && hasSameQuanta && isSameShape ? e.row.labelAscii : lineLabelAscii(deltaK, deltaJ, a.kLower, a.jLower, model.shape);
+      const labelHtml =
+        e && hasSameQuanta && isSameShape ? e.row.labelHtml : lineLabelHtml(deltaK, deltaJ, a.kLower, a.jLower, model.shape);
       const dev = assignmentDeviation(a.observedCm1, calcCm1, a.uncertaintyCm1, sigmaPredCm1, farToleranceCm1);
       const row: AssignmentRow = {
         a,
@@ -290,7 +299,13 @@ export function selectAssignedKeys(s: BenchState): Set<string> {
 }
 
 const simulated = memoLast(
-  (lines: LineList, trace: BenchState['trace'], temperatureK: number, massAmu: number, lorentzHwhmCm1: number): { sim: SimulatedSpectrum | null; error: string | null } => {
+  (
+    lines: LineList,
+    trace: BenchState['trace'],
+    temperatureK: number,
+    massAmu: number,
+    lorentzHwhmCm1: number,
+  ): { sim: SimulatedSpectrum | null; error: string | null } => {
     try {
       return { sim: simulationBuild(lines, trace, { temperatureK, massAmu, lorentzHwhmCm1 }), error: null };
     } catch (err) {

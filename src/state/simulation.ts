@@ -85,11 +85,15 @@ export function simulationBuild(lines: LineList, trace: Trace | null, options: S
   if (trace && trace.wavenumberCm1.length > 1) step = Math.max(step, (hi - lo) / (trace.wavenumberCm1.length - 1));
   step = Math.max(step, (hi - lo) / (maxPoints - 1));
   const npoints = Math.max(2, Math.floor((hi - lo) / step) + 1);
-  const y = spectrumSynthesize(lines, { fromCm1: lo, stepCm1: step, npoints }, {
-    temperatureK: options.temperatureK,
-    massAmu: options.massAmu,
-    lorentzHwhmCm1: options.lorentzHwhmCm1,
-  });
+  const y = spectrumSynthesize(
+    lines,
+    { fromCm1: lo, stepCm1: step, npoints },
+    {
+      temperatureK: options.temperatureK,
+      massAmu: options.massAmu,
+      lorentzHwhmCm1: options.lorentzHwhmCm1,
+    },
+  );
   const xCm1 = new Float64Array(npoints);
   for (let k = 0; k < npoints; k++) xCm1[k] = lo + k * step;
   const at = (x: number): number => {

@@ -92,7 +92,12 @@ const APPEND_MAX = 16;
  * The previous result with the rows appended since placed in it, or null when rows is not the
  * previous rows plus a few at the end.
  */
-function appended(prevRows: readonly AssignmentRow[], prevOut: readonly AssignmentRow[], rows: readonly AssignmentRow[], q: TableQuery): AssignmentRow[] | null {
+function appended(
+  prevRows: readonly AssignmentRow[],
+  prevOut: readonly AssignmentRow[],
+  rows: readonly AssignmentRow[],
+  q: TableQuery,
+): AssignmentRow[] | null {
   const n0 = prevRows.length;
   if (rows.length < n0 || rows.length - n0 > APPEND_MAX) return null;
   for (let i = 0; i < n0; i++) if (rows[i] !== prevRows[i]) return null;

@@ -37,7 +37,8 @@ function Header({ onOpen }: { onOpen: () => void }) {
   const canRedo = useBench((s) => s.future.length > 0);
   const undoLabel = useBench((s) => s.past[s.past.length - 1]?.label);
   const redoLabel = useBench((s) => s.future[s.future.length - 1]?.label);
-  const name = report?.fileName ?? (source === 'simulated-demo' ? 'simulated demo trace' : source === 'project' ? 'trace from project' : 'no trace');
+  const name =
+    report?.fileName ?? (source === 'simulated-demo' ? 'simulated demo trace' : source === 'project' ? 'trace from project' : 'no trace');
   return (
     <header className="top">
       <h1>
@@ -59,13 +60,28 @@ function Header({ onOpen }: { onOpen: () => void }) {
         <button type="button" className="primary" onClick={onOpen} data-testid="open-file">
           Open file…
         </button>
-        <button type="button" onClick={() => undo()} disabled={!canUndo} title={undoLabel ? `Undo ${undoLabel} (Ctrl+Z)` : 'Undo (Ctrl+Z)'} data-testid="undo">
+        <button
+          type="button"
+          onClick={() => undo()}
+          disabled={!canUndo}
+          title={undoLabel ? `Undo ${undoLabel} (Ctrl+Z)` : 'Undo (Ctrl+Z)'}
+          data-testid="undo"
+        >
           Undo
         </button>
-        <button type="button" onClick={() => redo()} disabled={!canRedo} title={redoLabel ? `Redo ${redoLabel} (Ctrl+Shift+Z)` : 'Redo (Ctrl+Shift+Z)'}>
+        <button
+          type="button"
+          onClick={() => redo()}
+          disabled={!canRedo}
+          title={redoLabel ? `Redo ${redoLabel} (Ctrl+Shift+Z)` : 'Redo (Ctrl+Shift+Z)'}
+        >
           Redo
         </button>
-        <button type="button" onClick={() => viewSetTheme(theme === 'dark' ? 'light' : 'dark')} aria-label={`Switch to ${theme === 'dark' ? 'light' : 'dark'} theme`}>
+        <button
+          type="button"
+          onClick={() => viewSetTheme(theme === 'dark' ? 'light' : 'dark')}
+          aria-label={`Switch to ${theme === 'dark' ? 'light' : 'dark'} theme`}
+        >
           {theme === 'dark' ? 'Light' : 'Dark'}
         </button>
         <button type="button" onClick={() => viewSet('isHelpOpen', true)} aria-label="Keyboard help" title="Keyboard help (?)">
@@ -83,7 +99,16 @@ function LowerPanel() {
     <section className="lower" aria-label="Work panels">
       <div role="tablist" className="tabs" aria-label="Panels">
         {TABS.map((t) => (
-          <button key={t.id} role="tab" type="button" id={`tab-${t.id}`} aria-selected={tab === t.id} aria-controls={`panel-${t.id}`} onClick={() => viewSetTab(t.id)} data-testid={`tab-${t.id}`}>
+          <button
+            key={t.id}
+            role="tab"
+            type="button"
+            id={`tab-${t.id}`}
+            aria-selected={tab === t.id}
+            aria-controls={`panel-${t.id}`}
+            onClick={() => viewSetTab(t.id)}
+            data-testid={`tab-${t.id}`}
+          >
             {t.label}
             {t.id === 'assignments' && nAssigned > 0 ? ` (${nAssigned})` : ''}
           </button>

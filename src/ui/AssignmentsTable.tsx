@@ -54,7 +54,17 @@ function NoteField({ id, note }: { id: string; note: string }) {
 
 // Memoised: rows keep their objects while unchanged (selectAssignmentRows), so a new assignment
 // re-renders only the rows whose data or position changed.
-const Row = memo(function Row({ r, isSelected, shape, top }: { r: AssignmentRow; isSelected: boolean; shape: 'prolate' | 'oblate' | 'linear'; top: number }) {
+const Row = memo(function Row({
+  r,
+  isSelected,
+  shape,
+  top,
+}: {
+  r: AssignmentRow;
+  isSelected: boolean;
+  shape: 'prolate' | 'oblate' | 'linear';
+  top: number;
+}) {
   const a = r.a;
   const flags = [r.isFar && 'far from prediction', r.isOutlier && 'fit outlier'].filter(Boolean).join(', ');
   return (
@@ -87,13 +97,29 @@ const Row = memo(function Row({ r, isSelected, shape, top }: { r: AssignmentRow;
         {r.omcCm1.toFixed(5)}
       </span>
       <span role="cell" onClick={(e) => e.stopPropagation()}>
-        <NumberField label={`Uncertainty of ${a.id} in cm⁻¹`} isLabelHidden className="narrow" value={a.uncertaintyCm1} onCommit={(v) => assignmentEdit(a.id, { uncertaintyCm1: v })} />
+        <NumberField
+          label={`Uncertainty of ${a.id} in cm⁻¹`}
+          isLabelHidden
+          className="narrow"
+          value={a.uncertaintyCm1}
+          onCommit={(v) => assignmentEdit(a.id, { uncertaintyCm1: v })}
+        />
       </span>
       <span role="cell" onClick={(e) => e.stopPropagation()}>
-        <input type="checkbox" aria-label={`Exclude ${a.id} from the fit`} checked={a.isExcluded} onChange={(e) => assignmentEdit(a.id, { isExcluded: e.target.checked })} />
+        <input
+          type="checkbox"
+          aria-label={`Exclude ${a.id} from the fit`}
+          checked={a.isExcluded}
+          onChange={(e) => assignmentEdit(a.id, { isExcluded: e.target.checked })}
+        />
       </span>
       <span role="cell" onClick={(e) => e.stopPropagation()}>
-        <input type="checkbox" aria-label={`${a.id} is a blend`} checked={a.isBlended} onChange={(e) => assignmentEdit(a.id, { isBlended: e.target.checked })} />
+        <input
+          type="checkbox"
+          aria-label={`${a.id} is a blend`}
+          checked={a.isBlended}
+          onChange={(e) => assignmentEdit(a.id, { isBlended: e.target.checked })}
+        />
       </span>
       <span role="cell">
         <NoteField id={a.id} note={a.note} />
@@ -132,15 +158,33 @@ function Filters() {
       </label>
       <label>
         K″
-        <input type="number" min={0} className="tiny" value={q.kLower ?? ''} onChange={(e) => viewSetTableQuery({ kLower: optNum(e.target.value) })} />
+        <input
+          type="number"
+          min={0}
+          className="tiny"
+          value={q.kLower ?? ''}
+          onChange={(e) => viewSetTableQuery({ kLower: optNum(e.target.value) })}
+        />
       </label>
       <label>
         J″ from
-        <input type="number" min={0} className="tiny" value={q.jMin ?? ''} onChange={(e) => viewSetTableQuery({ jMin: optNum(e.target.value) })} />
+        <input
+          type="number"
+          min={0}
+          className="tiny"
+          value={q.jMin ?? ''}
+          onChange={(e) => viewSetTableQuery({ jMin: optNum(e.target.value) })}
+        />
       </label>
       <label>
         to
-        <input type="number" min={0} className="tiny" value={q.jMax ?? ''} onChange={(e) => viewSetTableQuery({ jMax: optNum(e.target.value) })} />
+        <input
+          type="number"
+          min={0}
+          className="tiny"
+          value={q.jMax ?? ''}
+          onChange={(e) => viewSetTableQuery({ jMax: optNum(e.target.value) })}
+        />
       </label>
       <label>
         |o − c| ≥
@@ -176,7 +220,12 @@ export function AssignmentsTable() {
   const query = useMemo(() => tableRowsQueryMemo(), []);
   const shown = useMemo(() => query(rows, q), [query, rows, q]);
   const scrollRef = useRef<HTMLDivElement>(null);
-  const virtualizer = useVirtualizer({ count: shown.length, getScrollElement: () => scrollRef.current, estimateSize: () => ROW_HEIGHT, overscan: 12 });
+  const virtualizer = useVirtualizer({
+    count: shown.length,
+    getScrollElement: () => scrollRef.current,
+    estimateSize: () => ROW_HEIGHT,
+    overscan: 12,
+  });
   const nFar = useMemo(() => rows.reduce((n, r) => n + (r.isFar ? 1 : 0), 0), [rows]);
 
   return (
@@ -191,9 +240,18 @@ export function AssignmentsTable() {
       <div className="vtable" role="table" aria-label="Assigned lines" aria-rowcount={shown.length + 1}>
         <div role="row" className="thead">
           {COLUMNS.map((c, i) => (
-            <span role="columnheader" key={i} className={c.className} aria-sort={c.key && q.sortKey === c.key ? (q.sortDescending ? 'descending' : 'ascending') : undefined}>
+            <span
+              role="columnheader"
+              key={i}
+              className={c.className}
+              aria-sort={c.key && q.sortKey === c.key ? (q.sortDescending ? 'descending' : 'ascending') : undefined}
+            >
               {c.key ? (
-                <button type="button" className="sort" onClick={() => viewSetTableQuery({ sortKey: c.key!, sortDescending: q.sortKey === c.key ? !q.sortDescending : false })}>
+                <button
+                  type="button"
+                  className="sort"
+                  onClick={() => viewSetTableQuery({ sortKey: c.key!, sortDescending: q.sortKey === c.key ? !q.sortDescending : false })}
+                >
                   {c.label}
                   {q.sortKey === c.key ? (q.sortDescending ? ' ▼' : ' ▲') : ''}
                 </button>
@@ -205,11 +263,21 @@ export function AssignmentsTable() {
         </div>
         <div ref={scrollRef} className="tbody" role="rowgroup">
           {shown.length === 0 ? (
-            <p className="empty muted">{rows.length === 0 ? 'No lines assigned yet: click a peak in the plot to see candidates, or click a rung and then a peak.' : 'No row matches the filter.'}</p>
+            <p className="empty muted">
+              {rows.length === 0
+                ? 'No lines assigned yet: click a peak in the plot to see candidates, or click a rung and then a peak.'
+                : 'No row matches the filter.'}
+            </p>
           ) : (
             <div style={{ height: virtualizer.getTotalSize(), position: 'relative' }}>
               {virtualizer.getVirtualItems().map((v) => (
-                <Row key={shown[v.index].a.id} r={shown[v.index]} isSelected={shown[v.index].a.id === selectedId} shape={shape} top={v.start} />
+                <Row
+                  key={shown[v.index].a.id}
+                  r={shown[v.index]}
+                  isSelected={shown[v.index].a.id === selectedId}
+                  shape={shape}
+                  top={v.start}
+                />
               ))}
             </div>
           )}

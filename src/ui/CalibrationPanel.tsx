@@ -29,8 +29,8 @@ export function CalibrationPanel() {
   return (
     <div className="calibration-panel" data-testid="calibration-panel">
       <p className="muted">
-        One pair per line: <code>observed, reference[, σ]</code> in cm⁻¹. Click a peak in the plot, then “Add picked peak”, and
-        type its reference wavenumber. The fit is ν<sub>true</sub> = (1 + δ) ν<sub>obs</sub>
+        One pair per line: <code>observed, reference[, σ]</code> in cm⁻¹. Click a peak in the plot, then “Add picked peak”, and type its
+        reference wavenumber. The fit is ν<sub>true</sub> = (1 + δ) ν<sub>obs</sub>
         {withOffset ? ' + offset' : ''}.
       </p>
       <div className="row">
@@ -38,13 +38,26 @@ export function CalibrationPanel() {
           Add picked peak{target ? ` (${target.peakCm1.toFixed(4)} cm⁻¹)` : ''}
         </button>
         <label>
-          Reference file <input type="file" accept=".csv,.txt,.tsv" aria-label="Read reference pairs from a file" onChange={(e) => readFile(e.target.files?.[0])} />
+          Reference file{' '}
+          <input
+            type="file"
+            accept=".csv,.txt,.tsv"
+            aria-label="Read reference pairs from a file"
+            onChange={(e) => readFile(e.target.files?.[0])}
+          />
         </label>
         <label>
           <input type="checkbox" checked={withOffset} onChange={(e) => setWithOffset(e.target.checked)} /> fit an offset too
         </label>
       </div>
-      <textarea aria-label="Reference pairs: observed, reference, optional sigma, in cm-1" rows={6} cols={60} value={text} onChange={(e) => setText(e.target.value)} spellCheck={false} />
+      <textarea
+        aria-label="Reference pairs: observed, reference, optional sigma, in cm-1"
+        rows={6}
+        cols={60}
+        value={text}
+        onChange={(e) => setText(e.target.value)}
+        spellCheck={false}
+      />
       {parsed.errors.length > 0 && (
         <ul className="calibration-errors" role="alert">
           {parsed.errors.map((e) => (
@@ -81,7 +94,11 @@ export function CalibrationPanel() {
             )}
             ; rms {fit.rmsCm1.toExponential(2)} cm⁻¹{fit.sigmaW !== null ? `, σ_w ${fit.sigmaW.toFixed(2)}` : ''}; N = {fit.n}
           </p>
-          {fit.isExactlyDetermined && <p className="warning">As many pairs as parameters: the correction passes through them exactly, so nothing checks it. Add pairs.</p>}
+          {fit.isExactlyDetermined && (
+            <p className="warning">
+              As many pairs as parameters: the correction passes through them exactly, so nothing checks it. Add pairs.
+            </p>
+          )}
           <table className="calibration-residuals">
             <thead>
               <tr>

@@ -11,7 +11,12 @@ export function CandidateList() {
   const hasFit = useBench((s) => selectFitResult(s) !== null);
   if (!target) return null;
   return (
-    <div className="candidate-list" role="dialog" aria-label={`Candidates for the peak at ${target.peakCm1.toFixed(4)} cm⁻¹`} data-testid="candidates">
+    <div
+      className="candidate-list"
+      role="dialog"
+      aria-label={`Candidates for the peak at ${target.peakCm1.toFixed(4)} cm⁻¹`}
+      data-testid="candidates"
+    >
       <div className="candidate-head">
         <strong>Peak {target.peakCm1.toFixed(4)} cm⁻¹</strong>
         <button type="button" className="icon" aria-label="Close candidate list" onClick={selectionClear}>
@@ -36,16 +41,29 @@ export function CandidateList() {
             {cands.map((c, n) => (
               <tr key={c.lineIndex} className={`${c.isAssigned ? 'is-assigned' : ''} ${c.isWeak ? 'is-weak' : ''}`}>
                 <td>
-                  <button type="button" className="assign-btn" onClick={() => candidateAssign(n)} aria-label={`Assign ${c.labelAscii} (key ${n + 1})`} data-testid={`candidate-${n}`}>
+                  <button
+                    type="button"
+                    className="assign-btn"
+                    onClick={() => candidateAssign(n)}
+                    aria-label={`Assign ${c.labelAscii} (key ${n + 1})`}
+                    data-testid={`candidate-${n}`}
+                  >
                     {n + 1}
                   </button>
                 </td>
                 <td>
                   <LineLabel q={c} shape={shape} />
-                  {c.isAssigned && <span className="badge" title="Already assigned">assigned</span>}
+                  {c.isAssigned && (
+                    <span className="badge" title="Already assigned">
+                      assigned
+                    </span>
+                  )}
                 </td>
                 <td className="num">{c.predictedCm1.toFixed(4)}</td>
-                <td className="num">{c.distanceCm1 >= 0 ? '+' : '−'}{Math.abs(c.distanceCm1).toFixed(4)}</td>
+                <td className="num">
+                  {c.distanceCm1 >= 0 ? '+' : '−'}
+                  {Math.abs(c.distanceCm1).toFixed(4)}
+                </td>
                 {hasFit && <td className="num">{c.distanceSigma === null ? '–' : c.distanceSigma.toFixed(1)}</td>}
                 <td className="num">{c.intensity.toPrecision(2)}</td>
               </tr>

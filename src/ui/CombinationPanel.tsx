@@ -65,7 +65,9 @@ export function CombinationPanel() {
                   return (
                     <tr key={k}>
                       <th scope="row">
-                        {k === 'B' ? 'B' : k === 'DJ' ? (
+                        {k === 'B' ? (
+                          'B'
+                        ) : k === 'DJ' ? (
                           <>
                             D<sub>J</sub>
                           </>
@@ -84,7 +86,8 @@ export function CombinationPanel() {
               </tbody>
             </table>
             <p>
-              {outcome.result.nPairs} pairs; σ<sub>w</sub> = {outcome.result.sigmaW === null ? 'n/a' : outcome.result.sigmaW.toPrecision(3)}; rms {outcome.result.rmsCm1.toExponential(2)} cm⁻¹
+              {outcome.result.nPairs} pairs; σ<sub>w</sub> = {outcome.result.sigmaW === null ? 'n/a' : outcome.result.sigmaW.toPrecision(3)}
+              ; rms {outcome.result.rmsCm1.toExponential(2)} cm⁻¹
             </p>
             {outcome.result.warnings.length > 0 && (
               <ul className="warnings">
@@ -112,7 +115,15 @@ export function CombinationPanel() {
               </ul>
             )}
           </div>
-          {fig && <PlotlyChart data={fig.data} layout={fig.layout} label="Combination differences Δ2F/(J+½) against (J+½)², one series per K" className="cd-plot" testId="cd-plot" />}
+          {fig && (
+            <PlotlyChart
+              data={fig.data}
+              layout={fig.layout}
+              label="Combination differences Δ2F/(J+½) against (J+½)², one series per K"
+              className="cd-plot"
+              testId="cd-plot"
+            />
+          )}
         </div>
       )}
     </div>

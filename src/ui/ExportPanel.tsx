@@ -26,7 +26,11 @@ export function exportLineTable(): void {
   guard('line table', () => {
     const s = benchStore.getState();
     const rows = selectAssignmentRows(s);
-    const text = lineTableSerialize(s.assignments, { shape: s.model.shape, calcCm1: rows.map((r) => r.calcCm1), isOutlier: rows.map((r) => r.isOutlier) });
+    const text = lineTableSerialize(s.assignments, {
+      shape: s.model.shape,
+      calcCm1: rows.map((r) => r.calcCm1),
+      isOutlier: rows.map((r) => r.isOutlier),
+    });
     downloadText(`${stem()}-assignments.csv`, text, 'text/csv');
   });
 }
@@ -39,7 +43,12 @@ export function exportFitReport(): void {
       messagePost('info', 'Run a fit first; the report describes its result.');
       return;
     }
-    const text = fitReportMarkdown(result, s.model.shape, { modelName: s.modelName, appVersion: APP_VERSION, dateIso: new Date().toISOString(), fitFinishedAt: s.fitFinishedAt });
+    const text = fitReportMarkdown(result, s.model.shape, {
+      modelName: s.modelName,
+      appVersion: APP_VERSION,
+      dateIso: new Date().toISOString(),
+      fitFinishedAt: s.fitFinishedAt,
+    });
     downloadText(`${stem()}-fit-report.md`, text, 'text/markdown');
   });
 }
@@ -62,7 +71,11 @@ export function exportSimulatedSpectrum(): void {
 export function exportModel(): void {
   guard('model file', () => {
     const s = benchStore.getState();
-    downloadText(`${stem()}-model.json`, modelFileSerialize({ model: s.model, floated: s.floated, name: s.modelName, massAmu: s.massAmu }), 'application/json');
+    downloadText(
+      `${stem()}-model.json`,
+      modelFileSerialize({ model: s.model, floated: s.floated, name: s.modelName, massAmu: s.massAmu }),
+      'application/json',
+    );
   });
 }
 

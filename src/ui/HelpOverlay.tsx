@@ -44,9 +44,9 @@ export function HelpOverlay() {
           </tbody>
         </table>
         <p className="muted small">
-          Line labels read <sup>ΔK</sup>ΔJ<sub>K″</sub>(J″): p, q, r for ΔK = −1, 0, +1 and P, Q, R for ΔJ = −1, 0, +1. In the ladders, P rungs hang below
-          their row line, R rungs stand above it and Q rungs cross it; rung length grows with intensity. Green dots mark assigned lines, red crosses lines
-          assigned far from their prediction.
+          Line labels read <sup>ΔK</sup>ΔJ<sub>K″</sub>(J″): p, q, r for ΔK = −1, 0, +1 and P, Q, R for ΔJ = −1, 0, +1. In the ladders, P
+          rungs hang below their row line, R rungs stand above it and Q rungs cross it; rung length grows with intensity. Green dots mark
+          assigned lines, red crosses lines assigned far from their prediction.
         </p>
       </div>
     </div>

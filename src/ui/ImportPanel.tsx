@@ -4,7 +4,11 @@ import type { TraceImportOptions } from '../io/traceImportOptions';
 import { traceReimport } from '../state/actionsImport';
 import { useBench } from '../state/store';
 
-const ORDINATE_WORDS = { absorbance: 'absorbance', transmittance: 'transmittance (0–1)', 'percent-transmittance': 'transmittance (%)' } as const;
+const ORDINATE_WORDS = {
+  absorbance: 'absorbance',
+  transmittance: 'transmittance (0–1)',
+  'percent-transmittance': 'transmittance (%)',
+} as const;
 const UNIT_WORDS = { 'cm-1': 'wavenumber, cm⁻¹', um: 'wavelength, µm', nm: 'wavelength, nm' } as const;
 const DELIM_WORDS: Record<string, string> = { ',': 'comma', '\t': 'tab', ';': 'semicolon', whitespace: 'spaces' };
 
@@ -55,7 +59,12 @@ export function ImportPanel() {
         <dt>Ordinate</dt>
         <dd>
           {ORDINATE_WORDS[report.ordinate]}
-          {report.columnNames && report.yColumn !== undefined && <> — column {report.yColumn + 1} “{report.columnNames[report.yColumn] ?? ''}”</>}
+          {report.columnNames && report.yColumn !== undefined && (
+            <>
+              {' '}
+              — column {report.yColumn + 1} “{report.columnNames[report.yColumn] ?? ''}”
+            </>
+          )}
         </dd>
         <dt>Points</dt>
         <dd>{report.points.toLocaleString('en')}</dd>
@@ -64,7 +73,11 @@ export function ImportPanel() {
           {report.rangeCm1[0].toFixed(4)} – {report.rangeCm1[1].toFixed(4)} cm⁻¹
         </dd>
         <dt>Skipped</dt>
-        <dd>{report.skipped.count === 0 ? 'none' : `${report.skipped.count} (lines ${report.skipped.lines.slice(0, 12).join(', ')}${report.skipped.lines.length > 12 ? ', …' : ''})`}</dd>
+        <dd>
+          {report.skipped.count === 0
+            ? 'none'
+            : `${report.skipped.count} (lines ${report.skipped.lines.slice(0, 12).join(', ')}${report.skipped.lines.length > 12 ? ', …' : ''})`}
+        </dd>
       </dl>
       {report.messages.length > 0 && (
         <ul className="warnings">

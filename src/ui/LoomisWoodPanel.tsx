@@ -20,11 +20,14 @@ export function LoomisWoodPanel() {
   const rows = useBench(selectAssignmentRows);
   const cursor = useBench((s) => s.cursor);
   const isDark = useBench((s) => s.theme === 'dark');
-  const cursorKey = cursor ? `${'pqr'[cursor.kUpper - cursor.kLower + 1]}:${cursor.kLower}:${'PQR'[cursor.jUpper - cursor.jLower + 1]}` : null;
+  const cursorKey = cursor
+    ? `${'pqr'[cursor.kUpper - cursor.kLower + 1]}:${cursor.kLower}:${'PQR'[cursor.jUpper - cursor.jLower + 1]}`
+    : null;
   const strongestKey = useMemo(() => {
     let best: string | null = null;
     let bestI = -1;
-    for (const l of band.ladders) for (const i of l.lineIndex) if (band.lines.intensity[i] > bestI) ((bestI = band.lines.intensity[i]), (best = l.key));
+    for (const l of band.ladders)
+      for (const i of l.lineIndex) if (band.lines.intensity[i] > bestI) ((bestI = band.lines.intensity[i]), (best = l.key));
     return best;
   }, [band]);
   const key = seriesKey && band.ladderByKey.has(seriesKey) ? seriesKey : (cursorKey ?? strongestKey);
@@ -62,7 +65,7 @@ export function LoomisWoodPanel() {
     const li = Array.from(ladder.lineIndex).find((i) => b.lines.jLower[i] === j);
     if (li === undefined) return;
     const q = { jUpper: b.lines.jUpper[li], kUpper: b.lines.kUpper[li], jLower: j, kLower: b.lines.kLower[li] };
-    assignNearPosition(q, b.lines.wavenumberCm1[li] + offset, Math.max((2 * halfWidth) / BINS * 4, 0.005));
+    assignNearPosition(q, b.lines.wavenumberCm1[li] + offset, Math.max(((2 * halfWidth) / BINS) * 4, 0.005));
   };
 
   return (
@@ -78,13 +81,27 @@ export function LoomisWoodPanel() {
             ))}
           </select>
         </label>
-        <NumberField label="Half width / cm⁻¹" className="narrow" value={halfWidth} onCommit={(v) => (v > 0 && v <= 50 ? (viewSetLoomis({ halfWidthCm1: v }), null) : 'half width must be between 0 and 50 cm⁻¹')} />
-        <span className="muted small">A correct series lines up on the dotted centre line. Click a line in a strip to assign that strip's J″ to the peak there.</span>
+        <NumberField
+          label="Half width / cm⁻¹"
+          className="narrow"
+          value={halfWidth}
+          onCommit={(v) => (v > 0 && v <= 50 ? (viewSetLoomis({ halfWidthCm1: v }), null) : 'half width must be between 0 and 50 cm⁻¹')}
+        />
+        <span className="muted small">
+          A correct series lines up on the dotted centre line. Click a line in a strip to assign that strip's J″ to the peak there.
+        </span>
       </div>
       {!trace ? (
         <p className="muted">Load a trace to see the Loomis–Wood diagram.</p>
       ) : fig ? (
-        <PlotlyChart data={fig.data} layout={fig.layout} onClick={onClick} label={`Loomis–Wood diagram of series ${ladder?.label ?? ''}`} className="loomis-plot" testId="loomis-plot" />
+        <PlotlyChart
+          data={fig.data}
+          layout={fig.layout}
+          onClick={onClick}
+          label={`Loomis–Wood diagram of series ${ladder?.label ?? ''}`}
+          className="loomis-plot"
+          testId="loomis-plot"
+        />
       ) : (
         <p className="muted">No series in the model.</p>
       )}

@@ -195,7 +195,15 @@ export function ModelPanel() {
                 <>
                   <td>
                     {lowerUnit === 'cm-1' || name === 'zeta' ? (
-                      <NumberField key="cm" label={`Lower ${name} in cm⁻¹`} isLabelHidden value={model.lower[name]} format={showConstant} onCommit={(v) => modelSetConstant('lower', name, v)} testId={`lower-${name}`} />
+                      <NumberField
+                        key="cm"
+                        label={`Lower ${name} in cm⁻¹`}
+                        isLabelHidden
+                        value={model.lower[name]}
+                        format={showConstant}
+                        onCommit={(v) => modelSetConstant('lower', name, v)}
+                        testId={`lower-${name}`}
+                      />
                     ) : (
                       <NumberField
                         key="mhz"
@@ -209,7 +217,12 @@ export function ModelPanel() {
                     )}
                   </td>
                   <td>
-                    <input type="checkbox" aria-label={`Float lower ${name} in the fit`} checked={isFloated(`lower.${name}`)} onChange={(e) => modelSetFloated(`lower.${name}`, e.target.checked)} />
+                    <input
+                      type="checkbox"
+                      aria-label={`Float lower ${name} in the fit`}
+                      checked={isFloated(`lower.${name}`)}
+                      onChange={(e) => modelSetFloated(`lower.${name}`, e.target.checked)}
+                    />
                   </td>
                 </>
               ) : (
@@ -221,10 +234,22 @@ export function ModelPanel() {
               {upperNames.includes(name) ? (
                 <>
                   <td>
-                    <NumberField label={`Upper ${name}${name === 'zeta' ? '' : ' in cm⁻¹'}`} isLabelHidden value={model.upper[name]} format={showConstant} onCommit={(v) => modelSetConstant('upper', name, v)} testId={`upper-${name}`} />
+                    <NumberField
+                      label={`Upper ${name}${name === 'zeta' ? '' : ' in cm⁻¹'}`}
+                      isLabelHidden
+                      value={model.upper[name]}
+                      format={showConstant}
+                      onCommit={(v) => modelSetConstant('upper', name, v)}
+                      testId={`upper-${name}`}
+                    />
                   </td>
                   <td>
-                    <input type="checkbox" aria-label={`Float upper ${name} in the fit`} checked={isFloated(`upper.${name}`)} onChange={(e) => modelSetFloated(`upper.${name}`, e.target.checked)} />
+                    <input
+                      type="checkbox"
+                      aria-label={`Float upper ${name} in the fit`}
+                      checked={isFloated(`upper.${name}`)}
+                      onChange={(e) => modelSetFloated(`upper.${name}`, e.target.checked)}
+                    />
                   </td>
                 </>
               ) : (

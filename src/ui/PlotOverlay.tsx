@@ -7,7 +7,15 @@
 import { useEffect, useImperativeHandle, useRef, type Ref } from 'react';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { LineList, TopShape } from '../physics/model';
-import { ladderHitTest, ladderScenePaint, ladderStrongestInView, ladderTipHtml, type LadderMarkers, type LadderScene, type LadderView } from './plot/ladderScene';
+import {
+  ladderHitTest,
+  ladderScenePaint,
+  ladderStrongestInView,
+  ladderTipHtml,
+  type LadderMarkers,
+  type LadderScene,
+  type LadderView,
+} from './plot/ladderScene';
 import { peakLayerHitTest, peakLayerPaint, peakLayerPixel, peakLayerTipHtml, peakLayerVisible, type PeakLayer } from './plot/peakLayer';
 import { plotTheme } from './plot/plotColours';
 
@@ -88,7 +96,16 @@ export function PlotOverlay(props: PlotOverlayProps) {
     const [x0, x1] = plot.override ?? [Number(xa.range[0]), Number(xa.range[1])];
     const viewOf = (ya: AxisLayout | undefined): LadderView | null =>
       ya && Array.isArray(ya.range)
-        ? { x0Cm1: x0, x1Cm1: x1, y0: Number(ya.range[0]), y1: Number(ya.range[1]), leftPx: pr.left - cr.left + xa._offset, topPx: pr.top - cr.top + ya._offset, widthPx: xa._length, heightPx: ya._length }
+        ? {
+            x0Cm1: x0,
+            x1Cm1: x1,
+            y0: Number(ya.range[0]),
+            y1: Number(ya.range[1]),
+            leftPx: pr.left - cr.left + xa._offset,
+            topPx: pr.top - cr.top + ya._offset,
+            widthPx: xa._length,
+            heightPx: ya._length,
+          }
         : null;
     const views: Views = { ladder: viewOf(fl?.yaxis2), trace: viewOf(fl?.yaxis) };
     viewsRef.current = views;
@@ -169,7 +186,13 @@ export function PlotOverlay(props: PlotOverlayProps) {
       const p = latest.current;
       if (views.ladder) {
         const hit = ladderHitTest(p.scene, p.markers, views.ladder, x, y);
-        if (hit) return { html: ladderTipHtml(hit, p.markers, p.lines, p.shape, hit.lineIndex === p.cursorLine), xPx: hit.xPx, yPx: hit.yPx, act: () => p.onRungClick(hit.lineIndex) };
+        if (hit)
+          return {
+            html: ladderTipHtml(hit, p.markers, p.lines, p.shape, hit.lineIndex === p.cursorLine),
+            xPx: hit.xPx,
+            yPx: hit.yPx,
+            act: () => p.onRungClick(hit.lineIndex),
+          };
       }
       const tv = views.trace;
       if (tv && p.peaks) {

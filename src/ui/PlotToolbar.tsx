@@ -42,7 +42,8 @@ export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
         </label>
       </fieldset>
       <label className="check">
-        <input type="checkbox" checked={showPeaks} onChange={(e) => viewSet('showPeaks', e.target.checked)} /> Peaks ({peakCount.toLocaleString('en')})
+        <input type="checkbox" checked={showPeaks} onChange={(e) => viewSet('showPeaks', e.target.checked)} /> Peaks (
+        {peakCount.toLocaleString('en')})
       </label>
       <NumberField
         label="min SNR"
@@ -55,13 +56,30 @@ export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
         }}
       />
       <label className="check" title="Subtract a smooth baseline before finding peaks">
-        <input type="checkbox" checked={peakBaseline} onChange={(e) => benchUpdate('peak baseline', () => ({ peakBaseline: e.target.checked }), { history: false })} /> Baseline
+        <input
+          type="checkbox"
+          checked={peakBaseline}
+          onChange={(e) => benchUpdate('peak baseline', () => ({ peakBaseline: e.target.checked }), { history: false })}
+        />{' '}
+        Baseline
       </label>
       <label className="check">
-        <input type="checkbox" checked={showSimulated} onChange={(e) => viewSet('showSimulated', e.target.checked)} data-testid="toggle-sim" /> Simulated
+        <input
+          type="checkbox"
+          checked={showSimulated}
+          onChange={(e) => viewSet('showSimulated', e.target.checked)}
+          data-testid="toggle-sim"
+        />{' '}
+        Simulated
       </label>
       <label className="check">
-        <input type="checkbox" checked={showObsMinusSim} disabled={!hasTrace} onChange={(e) => viewSet('showObsMinusSim', e.target.checked)} /> obs − sim
+        <input
+          type="checkbox"
+          checked={showObsMinusSim}
+          disabled={!hasTrace}
+          onChange={(e) => viewSet('showObsMinusSim', e.target.checked)}
+        />{' '}
+        obs − sim
       </label>
       <button type="button" onClick={() => viewSetXRange(null)} title="Show the whole trace (double-click the plot does the same)">
         Zoom out

@@ -117,7 +117,9 @@ function ResidualPlot({ result, lineIds }: { result: FitResult; lineIds: string[
         />
       ) : (
         <div className="plot-box residual-plot">
-          <div className="plot-loading">The residuals of {result.lines.length} lines are drawn when this part of the panel is on screen.</div>
+          <div className="plot-loading">
+            The residuals of {result.lines.length} lines are drawn when this part of the panel is on screen.
+          </div>
         </div>
       )}
     </div>
@@ -139,7 +141,10 @@ export function SolvePanel() {
   const canRevert = useBench((s) => s.modelBeforeAccept !== null);
   const isAccepted = useBench((s) => s.isFitAccepted);
   const finishedAt = useBench((s) => s.fitFinishedAt);
-  const corr = useMemo(() => (plotResult && plotResult.correlation.length > 0 ? correlationFigure(plotResult, isDark) : null), [plotResult, isDark]);
+  const corr = useMemo(
+    () => (plotResult && plotResult.correlation.length > 0 ? correlationFigure(plotResult, isDark) : null),
+    [plotResult, isDark],
+  );
 
   return (
     <div className="solve">
@@ -171,7 +176,11 @@ export function SolvePanel() {
           )}
         </div>
       </div>
-      {!outcome && !isRunning && <p className="muted">Assign at least as many lines as floated constants, then press Fit. The fit runs in the background; the page stays usable.</p>}
+      {!outcome && !isRunning && (
+        <p className="muted">
+          Assign at least as many lines as floated constants, then press Fit. The fit runs in the background; the page stays usable.
+        </p>
+      )}
       {outcome && !outcome.ok && (
         <div className="refusal" role="alert" data-testid="fit-refusal">
           <p>
@@ -214,7 +223,8 @@ export function SolvePanel() {
                 const l = result.lines[i];
                 return (
                   <li key={`o${i}`}>
-                    Outlier <LineLabel q={l} shape={shape} />: obs − calc = {l.obsMinusCalc.toExponential(2)} cm⁻¹ ({l.normalisedResidual.toFixed(1)} σ){' '}
+                    Outlier <LineLabel q={l} shape={shape} />: obs − calc = {l.obsMinusCalc.toExponential(2)} cm⁻¹ (
+                    {l.normalisedResidual.toFixed(1)} σ){' '}
                     <button type="button" className="link" onClick={() => assignmentSelect(lineIds[i])}>
                       show
                     </button>
@@ -225,7 +235,15 @@ export function SolvePanel() {
           )}
           <div className="fit-grid">
             <ResultTable result={result} />
-            {corr && <PlotlyChart data={corr.data} layout={corr.layout} label="Correlation matrix of the floated constants" className="corr-plot" testId="corr-plot" />}
+            {corr && (
+              <PlotlyChart
+                data={corr.data}
+                layout={corr.layout}
+                label="Correlation matrix of the floated constants"
+                className="corr-plot"
+                testId="corr-plot"
+              />
+            )}
           </div>
           {plotResult && <ResidualPlot result={plotResult} lineIds={plotted.lineIds} />}
         </div>

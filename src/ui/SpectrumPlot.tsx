@@ -26,7 +26,8 @@ let relayoutRange: [number, number] | null | undefined;
 function relayoutRangeOf(e: PlotRelayoutEvent): [number, number] | null | undefined {
   const r = e as Record<string, unknown>;
   if (r['xaxis.autorange']) return null;
-  if (r['xaxis.range[0]'] !== undefined && r['xaxis.range[1]'] !== undefined) return [Number(r['xaxis.range[0]']), Number(r['xaxis.range[1]'])];
+  if (r['xaxis.range[0]'] !== undefined && r['xaxis.range[1]'] !== undefined)
+    return [Number(r['xaxis.range[0]']), Number(r['xaxis.range[1]'])];
   if (Array.isArray(r['xaxis.range'])) return [Number(r['xaxis.range'][0]), Number(r['xaxis.range'][1])];
   return undefined;
 }
@@ -63,7 +64,12 @@ const SPECTRUM_CONFIG: Partial<Config> = {
 function onRungLine(lineIndex: number): void {
   const lines = selectBand(benchStore.getState()).lines;
   if (lineIndex < 0 || lineIndex >= lines.count) return;
-  rungClick({ jUpper: lines.jUpper[lineIndex], kUpper: lines.kUpper[lineIndex], jLower: lines.jLower[lineIndex], kLower: lines.kLower[lineIndex] });
+  rungClick({
+    jUpper: lines.jUpper[lineIndex],
+    kUpper: lines.kUpper[lineIndex],
+    jLower: lines.jLower[lineIndex],
+    kLower: lines.kLower[lineIndex],
+  });
 }
 
 export function SpectrumPlot() {
@@ -76,7 +82,9 @@ export function SpectrumPlot() {
   const hiddenRows = useBench((s) => s.hiddenRows);
   const shape = useBench((s) => s.model.shape);
   const rowsA = useBench(selectAssignmentRows);
-  const selectedObservedCm1 = useBench((s) => (s.selectedAssignmentId ? (s.assignments.find((a) => a.id === s.selectedAssignmentId)?.observedCm1 ?? null) : null));
+  const selectedObservedCm1 = useBench((s) =>
+    s.selectedAssignmentId ? (s.assignments.find((a) => a.id === s.selectedAssignmentId)?.observedCm1 ?? null) : null,
+  );
   const cursor = useBench((s) => s.cursor);
   const candidatePeakCm1 = useBench((s) => s.candidateTarget?.peakCm1 ?? null);
   const { showSimulated, showObsMinusSim, showPeaks } = useBench(
@@ -95,10 +103,30 @@ export function SpectrumPlot() {
     for (const r of rowsA) if (r.a.peakId && !m.has(r.a.peakId)) m.set(r.a.peakId, r.labelHtml);
     return m;
   }, [rowsA]);
-  const peakBase = useMemo(() => (showPeaks && peaks && trace ? peakLayerBase(peaks, trace, ordinate) : null), [showPeaks, peaks, trace, ordinate]);
-  const peakLayer = useMemo(() => (peakBase ? peakLayerBuild(peakBase, assignedPeaks, peakIdAt, peakIdPosition) : null), [peakBase, assignedPeaks]);
+  const peakBase = useMemo(
+    () => (showPeaks && peaks && trace ? peakLayerBase(peaks, trace, ordinate) : null),
+    [showPeaks, peaks, trace, ordinate],
+  );
+  const peakLayer = useMemo(
+    () => (peakBase ? peakLayerBuild(peakBase, assignedPeaks, peakIdAt, peakIdPosition) : null),
+    [peakBase, assignedPeaks],
+  );
   // What the plotly figure depends on; the visible range first (see isRangeOnly).
-  const inputs: unknown[] = [xRange, trace, size, ordinate, rows, band.lines, cursorLine, selectedObservedCm1, candidatePeakCm1, sim, showSimulated, showObsMinusSim, isDark];
+  const inputs: unknown[] = [
+    xRange,
+    trace,
+    size,
+    ordinate,
+    rows,
+    band.lines,
+    cursorLine,
+    selectedObservedCm1,
+    candidatePeakCm1,
+    sim,
+    showSimulated,
+    showObsMinusSim,
+    isDark,
+  ];
   const figure = useMemo(
     () =>
       spectrumFigure({

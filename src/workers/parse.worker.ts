@@ -103,7 +103,10 @@ function projectWrite(request: Extract<ParseWorkerRequest, { type: 'project-writ
     const text = projectFileSerialize(request.session, request.header);
     scope.postMessage({ type: 'project-write-result', id, text }, []);
   } catch (err) {
-    scope.postMessage({ type: 'error', id, message: `parse worker: writing the project: ${err instanceof Error ? err.message : String(err)}` }, []);
+    scope.postMessage(
+      { type: 'error', id, message: `parse worker: writing the project: ${err instanceof Error ? err.message : String(err)}` },
+      [],
+    );
   }
 }
 

@@ -132,11 +132,8 @@ export function projectReadInWorker(
  * @param header app version and time of saving
  */
 export function projectWriteInWorker(session: ProjectSession, header: ProjectFileHeader): Promise<string> {
-  return workerRun(
-    { type: 'project-write', session, header },
-    'the project',
-    'project write',
-    (msg) => (msg.type === 'project-write-result' ? msg.text : undefined),
+  return workerRun({ type: 'project-write', session, header }, 'the project', 'project write', (msg) =>
+    msg.type === 'project-write-result' ? msg.text : undefined,
   );
 }
 

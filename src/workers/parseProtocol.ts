@@ -92,12 +92,7 @@ export type StoreResultMessage = { type: 'store-values'; id: number; values: unk
 export type ParseWorkerRequest = ParseRequestMessage | ProjectReadRequestMessage | ProjectWriteRequestMessage | StoreRequestMessage;
 /** Every message the worker sends. */
 export type ParseWorkerResponse =
-  | ParseProgressMessage
-  | ParseResultMessage
-  | ParseErrorMessage
-  | ProjectReadResultMessage
-  | ProjectWriteResultMessage
-  | StoreResultMessage;
+  ParseProgressMessage | ParseResultMessage | ParseErrorMessage | ProjectReadResultMessage | ProjectWriteResultMessage | StoreResultMessage;
 
 /**
  * Buffers of stored values that can be transferred: those of typed arrays that are a value or a

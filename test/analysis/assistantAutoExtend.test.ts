@@ -10,7 +10,19 @@ import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
 import { syntheticAssignable, syntheticBand, syntheticIsCorrect, syntheticTruthModel, type SyntheticBand } from './assistantSyntheticBand';
 
 /** Constants floated in the target run (lower.A stays fixed: one perpendicular band cannot give A'', A' and ζ; rankDiagnosis). */
-const FLOATABLE = ['upper.origin', 'upper.B', 'lower.B', 'upper.A', 'upper.zeta', 'upper.DJ', 'lower.DJ', 'upper.DJK', 'lower.DJK', 'upper.DK', 'lower.DK'];
+const FLOATABLE = [
+  'upper.origin',
+  'upper.B',
+  'lower.B',
+  'upper.A',
+  'upper.zeta',
+  'upper.DJ',
+  'lower.DJ',
+  'upper.DJK',
+  'lower.DJK',
+  'upper.DK',
+  'lower.DK',
+];
 
 /** First-guess errors of the target: B′ +0.8 %, B″ +0.6 %, origin +0.3 cm^-1, A′ +0.3 %, ζ −0.004. */
 function firstGuess(truth: BandModel): BandModel {
@@ -76,7 +88,9 @@ describe('assistantAutoExtend on a synthetic perpendicular band (target)', () =>
   const assignable = syntheticAssignable(band);
   const correctKeys = new Set(correct.map(keyOf));
   const L = band.lines;
-  const found = assignable.filter((i) => correctKeys.has(keyOf({ jUpper: L.jUpper[i], kUpper: L.kUpper[i], jLower: L.jLower[i], kLower: L.kLower[i] })));
+  const found = assignable.filter((i) =>
+    correctKeys.has(keyOf({ jUpper: L.jUpper[i], kUpper: L.kUpper[i], jLower: L.jLower[i], kLower: L.kLower[i] })),
+  );
   const recall = found.length / assignable.length;
   const precision = correct.length / confident.length;
   // Reported, not asserted (no timed assertions in unit tests).
@@ -108,7 +122,9 @@ describe('assistantAutoExtend on a synthetic perpendicular band (target)', () =>
     // 3σ: the fit's own standard errors (σ_w-scaled covariance); the brief's criterion.
     const fit = run.fit!;
     expect(fit).not.toBeNull();
-    expect(fit.floated).toEqual(expect.arrayContaining(['upper.origin', 'upper.B', 'lower.B', 'upper.A', 'upper.zeta', 'upper.DJ', 'lower.DJ']));
+    expect(fit.floated).toEqual(
+      expect.arrayContaining(['upper.origin', 'upper.B', 'lower.B', 'upper.A', 'upper.zeta', 'upper.DJ', 'lower.DJ']),
+    );
     for (const key of fit.floated) {
       const [side, name] = key.split('.') as ['upper' | 'lower', keyof BandModel['upper']];
       const p = fit.parameters[key];
@@ -204,7 +220,18 @@ function seedsOf(model: BandModel, peaks: PeakList, labels: [number, number][]):
   const context = assistantPeakContext(peaks);
   const assignments: Assignment[] = labels.map(([jUpper, jLower], n) => {
     const nu = model.upper.origin + model.upper.B * jUpper * (jUpper + 1) - model.lower.B * jLower * (jLower + 1);
-    return { id: `s${n}`, jUpper, kUpper: 0, jLower, kLower: 0, observedCm1: nu, uncertaintyCm1: 1e-4, isBlended: false, isExcluded: false, note: '' };
+    return {
+      id: `s${n}`,
+      jUpper,
+      kUpper: 0,
+      jLower,
+      kLower: 0,
+      observedCm1: nu,
+      uncertaintyCm1: 1e-4,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+    };
   });
   return assistantLinesFromAssignments(assignments, model, peaks, context);
 }
@@ -215,7 +242,12 @@ describe('assistantAutoExtend, hand-checkable cases', () => {
   it('assigns every line of a clean linear band from four seeds', () => {
     // ν = ν0 + B′J′(J′+1) − B″J″(J″+1) (Herzberg I (1950) ch. III); every peak is a line, no noise.
     const { model, peaks, lines } = linearBand();
-    const seeds = seedsOf(model, peaks, [[3, 2], [4, 3], [2, 3], [3, 4]]);
+    const seeds = seedsOf(model, peaks, [
+      [3, 2],
+      [4, 3],
+      [2, 3],
+      [3, 4],
+    ]);
     const run = assistantAutoExtend({ model, floatable, peaks, lines: seeds });
     const assigned = run.lines.filter((l) => !l.isExcluded);
     expect(assigned).toHaveLength(lines.count);
@@ -229,7 +261,12 @@ describe('assistantAutoExtend, hand-checkable cases', () => {
     const nuR5 = model.upper.origin + 1.48 * 6 * 7 - 1.5 * 5 * 6;
     // A second peak 0.001 cm^-1 (0.05 FWHM) from R(5), well inside the 3σ window (σ ≥ 0.1 FWHM floor).
     const crowded = addPeak(peaks, nuR5 + 0.001, 0.5);
-    const seeds = seedsOf(model, crowded, [[3, 2], [4, 3], [2, 3], [3, 4]]);
+    const seeds = seedsOf(model, crowded, [
+      [3, 2],
+      [4, 3],
+      [2, 3],
+      [3, 4],
+    ]);
     const run = assistantAutoExtend({ model, floatable, peaks: crowded, lines: seeds });
     expect(run.lines.some((l) => l.jUpper === 6 && l.jLower === 5)).toBe(false);
     const amb = run.ambiguous.find((a) => a.kind === 'several-peaks' && a.rungs[0].label === 'R(5)');
@@ -244,7 +281,12 @@ describe('assistantAutoExtend, hand-checkable cases', () => {
     const nuR7 = model.upper.origin + 1.48 * 8 * 9 - 1.5 * 7 * 8;
     const k = assistantNearestPeak(peaks, nuR7);
     peaks.fwhmCm1[k] = 0.05; // 2.5× the common width 0.02 cm^-1: above the 1.5× blend ratio
-    const seeds = seedsOf(model, peaks, [[3, 2], [4, 3], [2, 3], [3, 4]]);
+    const seeds = seedsOf(model, peaks, [
+      [3, 2],
+      [4, 3],
+      [2, 3],
+      [3, 4],
+    ]);
     const run = assistantAutoExtend({ model, floatable, peaks, lines: seeds });
     const r7 = run.lines.find((l) => l.jUpper === 8 && l.jLower === 7)!;
     const r6 = run.lines.find((l) => l.jUpper === 7 && l.jLower === 6)!;
@@ -258,10 +300,21 @@ describe('assistantAutoExtend, hand-checkable cases', () => {
 
   it('does not propose again a pair the user rejected', () => {
     const { model, peaks } = linearBand();
-    const seeds = seedsOf(model, peaks, [[3, 2], [4, 3], [2, 3], [3, 4]]);
+    const seeds = seedsOf(model, peaks, [
+      [3, 2],
+      [4, 3],
+      [2, 3],
+      [3, 4],
+    ]);
     const first = assistantAutoExtend({ model, floatable, peaks, lines: seeds });
     const r8 = first.lines.find((l) => l.jUpper === 9 && l.jLower === 8)!;
-    const reviewed = assistantReject(assistantAccept(first.lines, first.addedIds.filter((id) => id !== r8.id)), [r8.id]);
+    const reviewed = assistantReject(
+      assistantAccept(
+        first.lines,
+        first.addedIds.filter((id) => id !== r8.id),
+      ),
+      [r8.id],
+    );
     const second = assistantAutoExtend({ model, floatable, peaks, lines: reviewed });
     expect(second.addedIds).toHaveLength(0);
     expect(second.lines.filter((l) => l.jUpper === 9 && l.jLower === 8).map((l) => l.status)).toEqual(['rejected']);
@@ -295,9 +348,12 @@ describe('assistantAutoExtend, hand-checkable cases', () => {
 describe('assistantSubBandIndex', () => {
   it('numbers perpendicular sub-bands ΔK·K″ so that neighbours differ by one', () => {
     const m = { shape: 'prolate', band: 'perpendicular' } as const;
-    expect([assistantSubBandIndex(m, -1, 2), assistantSubBandIndex(m, -1, 1), assistantSubBandIndex(m, 1, 0), assistantSubBandIndex(m, 1, 1)]).toEqual([
-      -2, -1, 0, 1,
-    ]);
+    expect([
+      assistantSubBandIndex(m, -1, 2),
+      assistantSubBandIndex(m, -1, 1),
+      assistantSubBandIndex(m, 1, 0),
+      assistantSubBandIndex(m, 1, 1),
+    ]).toEqual([-2, -1, 0, 1]);
     expect(assistantSubBandIndex({ shape: 'oblate', band: 'parallel' }, 0, 3)).toBe(3);
     expect(assistantSubBandIndex({ shape: 'linear', band: 'perpendicular' }, 1, 0)).toBe(0);
   });

@@ -25,7 +25,14 @@ function catalogue(positions: number[], intensities: number[]): AssistantCatalog
   const order = Int32Array.from({ length: n }, (_, i) => i).sort((a, b) => positions[a] - positions[b]);
   const indexOf = new Map<string, number>();
   for (let i = 0; i < n; i++) indexOf.set(`${i + 1},0,${i},0`, i);
-  return { lines, predictedCm1: Float64Array.from(positions), predictionSigmaCm1: new Float64Array(n).fill(1e-3), toleranceSigmaCm1: new Float64Array(n).fill(1e-3), order, indexOf };
+  return {
+    lines,
+    predictedCm1: Float64Array.from(positions),
+    predictionSigmaCm1: new Float64Array(n).fill(1e-3),
+    toleranceSigmaCm1: new Float64Array(n).fill(1e-3),
+    order,
+    indexOf,
+  };
 }
 
 function peaksAt(x: number[], heights: number[]): PeakList {

@@ -1,6 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { assistantPeakContext } from '../../src/analysis/assistantPeakContext';
-import { assistantCatalogue, assistantOverlapShift, assistantPairSigma, assistantStudentFactor, type AssistantCatalogue } from '../../src/analysis/assistantPredict';
+import {
+  assistantCatalogue,
+  assistantOverlapShift,
+  assistantPairSigma,
+  assistantStudentFactor,
+  type AssistantCatalogue,
+} from '../../src/analysis/assistantPredict';
 import type { PeakList } from '../../src/analysis/peaksFind';
 import { fitBand } from '../../src/fit/fitBand';
 import { fitPredictLines } from '../../src/fit/fitPredict';
@@ -140,7 +146,15 @@ describe('assistantCatalogue', () => {
     const fit = fitBand({ model, floated: ['upper.origin', 'upper.B', 'lower.B'], lines });
     expect(fit.ok).toBe(true);
     if (!fit.ok) return;
-    const cat = assistantCatalogue({ model: fit.result.model, fit: fit.result, peaks, context, minIntensity: 0, widthFloorFraction: 0.1, fallbackSigmaCm1: 0.05 });
+    const cat = assistantCatalogue({
+      model: fit.result.model,
+      fit: fit.result,
+      peaks,
+      context,
+      minIntensity: 0,
+      widthFloorFraction: 0.1,
+      fallbackSigmaCm1: 0.05,
+    });
     const direct = fitPredictLines(fit.result, cat.lines);
     const factor = assistantStudentFactor(7 - 3);
     const r = fit.result.lines.map((l) => Math.abs(l.obsMinusCalc)).sort((a, b) => a - b);

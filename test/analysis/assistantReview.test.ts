@@ -1,6 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { assistantPeakContext } from '../../src/analysis/assistantPeakContext';
-import { assistantAccept, assistantAcceptAll, assistantFitLines, assistantLinesFromAssignments, assistantReject, assistantUndo } from '../../src/analysis/assistantReview';
+import {
+  assistantAccept,
+  assistantAcceptAll,
+  assistantFitLines,
+  assistantLinesFromAssignments,
+  assistantReject,
+  assistantUndo,
+} from '../../src/analysis/assistantReview';
 import type { AssistantLine } from '../../src/analysis/assistantTypes';
 import type { PeakList } from '../../src/analysis/peaksFind';
 import type { Assignment } from '../../src/fit/assignment';
@@ -62,7 +69,9 @@ describe('assistantLinesFromAssignments', () => {
     expect(() => assistantLinesFromAssignments(bad, model, peaks, context)).toThrow(
       /line 1 \(id 'a'\): ΔK = 0 is not allowed in a perpendicular band/,
     );
-    expect(() => assistantLinesFromAssignments([{ ...assignments[0], observedCm1: NaN }], model, peaks, context)).toThrow(/observedCm1 must be a finite/);
+    expect(() => assistantLinesFromAssignments([{ ...assignments[0], observedCm1: NaN }], model, peaks, context)).toThrow(
+      /observedCm1 must be a finite/,
+    );
   });
 });
 

@@ -56,6 +56,8 @@ describe('assistantSeedFromModel', () => {
     const empty: PeakList = { ...band.peaks, count: 0 };
     expect(assistantSeedFromModel(truth, empty, FLOATABLE).lines).toEqual([]);
     expect(() => assistantSeedFromModel(truth, band.peaks, FLOATABLE, { count: 0 })).toThrow(/count must be a whole number >= 1, got 0/);
-    expect(() => assistantSeedFromModel(truth, band.peaks, FLOATABLE, { originWindowCm1: -1 })).toThrow(/originWindowCm1 must be a finite number > 0/);
+    expect(() => assistantSeedFromModel(truth, band.peaks, FLOATABLE, { originWindowCm1: -1 })).toThrow(
+      /originWindowCm1 must be a finite number > 0/,
+    );
   });
 });

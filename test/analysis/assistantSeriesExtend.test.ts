@@ -13,7 +13,11 @@ const band = syntheticBand(truth, 1 / 400, 11);
 band.peaks = assistantPeaksUsable(band.peaks).peaks;
 const context = assistantPeakContext(band.peaks);
 /** First guess: B′ +0.8 %, B″ +0.6 %, origin +0.3 cm^-1 (as in the target test). */
-const guess: BandModel = { ...truth, lower: { ...truth.lower, B: truth.lower.B * 1.006 }, upper: { ...truth.upper, B: truth.upper.B * 1.008, origin: truth.upper.origin + 0.3 } };
+const guess: BandModel = {
+  ...truth,
+  lower: { ...truth.lower, B: truth.lower.B * 1.006 },
+  upper: { ...truth.upper, B: truth.upper.B * 1.008, origin: truth.upper.origin + 0.3 },
+};
 
 /** rR1(J'') at the peak nearest the truth position, for the given J''. */
 function rungs(js: number[]): AssistantLine[] {
@@ -21,7 +25,15 @@ function rungs(js: number[]): AssistantLine[] {
     js.map((j, n) => {
       const q = { jUpper: j + 1, kUpper: 2, jLower: j, kLower: 1 };
       const k = assistantNearestPeak(band.peaks, transitionWavenumber(truth, q.jUpper, q.kUpper, q.jLower, q.kLower));
-      return { id: `r${n}`, ...q, observedCm1: band.peaks.wavenumberCm1[k], uncertaintyCm1: 3e-4, isBlended: false, isExcluded: false, note: '' };
+      return {
+        id: `r${n}`,
+        ...q,
+        observedCm1: band.peaks.wavenumberCm1[k],
+        uncertaintyCm1: 3e-4,
+        isBlended: false,
+        isExcluded: false,
+        note: '',
+      };
     }),
     guess,
     band.peaks,
@@ -47,7 +59,12 @@ describe('seriesPolynomial', () => {
 
 describe('assistantSeriesExtend', () => {
   it('extends rR1 both ways from six rungs with the model and a series polynomial (no fit)', () => {
-    const r = assistantSeriesExtend({ model: guess, series: { deltaK: 1, kLower: 1, deltaJ: 1 }, lines: rungs([8, 9, 10, 11, 12, 13]), peaks: band.peaks });
+    const r = assistantSeriesExtend({
+      model: guess,
+      series: { deltaK: 1, kLower: 1, deltaJ: 1 },
+      lines: rungs([8, 9, 10, 11, 12, 13]),
+      peaks: band.peaks,
+    });
     expect(r.method).toBe('series-polynomial');
     expect(r.label).toBe('rR1');
     expect(r.polynomial!.degree).toBe(2);
@@ -71,7 +88,12 @@ describe('assistantSeriesExtend', () => {
     // other series are predicted well enough to be checked as competitors.
     const others = assistantLinesFromAssignments(
       syntheticAssignable(band)
-        .filter((i) => band.lines.kLower[i] <= 3 && band.lines.jLower[i] <= 14 && !(band.lines.kLower[i] === 1 && band.lines.deltaK[i] === 1 && band.lines.deltaJ[i] === 1))
+        .filter(
+          (i) =>
+            band.lines.kLower[i] <= 3 &&
+            band.lines.jLower[i] <= 14 &&
+            !(band.lines.kLower[i] === 1 && band.lines.deltaK[i] === 1 && band.lines.deltaJ[i] === 1),
+        )
         .slice(0, 40)
         .map((i, n) => ({
           id: `o${n}`,
@@ -107,11 +129,11 @@ describe('assistantSeriesExtend', () => {
   });
 
   it('needs three rungs and a series of the band', () => {
-    expect(() => assistantSeriesExtend({ model: guess, series: { deltaK: 1, kLower: 1, deltaJ: 1 }, lines: rungs([9, 10]), peaks: band.peaks })).toThrow(
-      /series rR1 has 2 assigned rung\(s\); at least 3 are needed/,
-    );
-    expect(() => assistantSeriesExtend({ model: guess, series: { deltaK: 0, kLower: 1, deltaJ: 1 }, lines: rungs([9, 10, 11]), peaks: band.peaks })).toThrow(
-      /the band has no series qR1/,
-    );
+    expect(() =>
+      assistantSeriesExtend({ model: guess, series: { deltaK: 1, kLower: 1, deltaJ: 1 }, lines: rungs([9, 10]), peaks: band.peaks }),
+    ).toThrow(/series rR1 has 2 assigned rung\(s\); at least 3 are needed/);
+    expect(() =>
+      assistantSeriesExtend({ model: guess, series: { deltaK: 0, kLower: 1, deltaJ: 1 }, lines: rungs([9, 10, 11]), peaks: band.peaks }),
+    ).toThrow(/the band has no series qR1/);
   });
 });

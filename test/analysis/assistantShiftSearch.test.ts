@@ -32,9 +32,22 @@ describe('assistantShiftSearch', () => {
 
   it('finds an origin shift alone within a grid step', () => {
     const flat = peaksAt(ms.map((m) => 1000.237 + 0.8 * m + 0.002 * m * m).concat(clutter));
-    const r = assistantShiftSearch(flat, 0.01, idx, predicted, () => 0, () => 0, {
-      deltaCentre: 0, deltaWindow: 0.35, sumCentre: 0, sumWindow: 0, diffCentre: 0, diffWindow: 0,
-    });
+    const r = assistantShiftSearch(
+      flat,
+      0.01,
+      idx,
+      predicted,
+      () => 0,
+      () => 0,
+      {
+        deltaCentre: 0,
+        deltaWindow: 0.35,
+        sumCentre: 0,
+        sumWindow: 0,
+        diffCentre: 0,
+        diffWindow: 0,
+      },
+    );
     // Bins of τ = 0.01 cm^-1: the found δ is within τ/2 of 0.237.
     expect(Math.abs(r.delta - 0.237)).toBeLessThanOrEqual(0.005 + 1e-12);
     expect(r.count).toBe(30);
@@ -43,9 +56,22 @@ describe('assistantShiftSearch', () => {
   });
 
   it('finds shift and curvature together (d along m², s along m)', () => {
-    const r = assistantShiftSearch(peaks, 0.01, idx, predicted, (i) => ms[i], (i) => ms[i] * ms[i], {
-      deltaCentre: 0, deltaWindow: 0.35, sumCentre: 0, sumWindow: 0.004, diffCentre: 0, diffWindow: 0.004,
-    });
+    const r = assistantShiftSearch(
+      peaks,
+      0.01,
+      idx,
+      predicted,
+      (i) => ms[i],
+      (i) => ms[i] * ms[i],
+      {
+        deltaCentre: 0,
+        deltaWindow: 0.35,
+        sumCentre: 0,
+        sumWindow: 0.004,
+        diffCentre: 0,
+        diffWindow: 0.004,
+      },
+    );
     expect(r.count).toBe(30);
     expect(Math.abs(r.delta - 0.237)).toBeLessThanOrEqual(0.01);
     // d is found within one grid step (the step moves the farthest line, m = 15, by ≤ τ).

@@ -83,7 +83,7 @@ export function syntheticBand(truth: BandModel, noise: number, seed: number): Sy
   }
   // Doppler HWHM α = ν/c √(2 ln2 kT/m); Voigt FWHM by Olivero & Longbothum (1977).
   const nu = truth.upper.origin;
-  const alpha = (nu / 299792458) * Math.sqrt((2 * Math.LN2 * 1.380649e-23 * truth.temperatureK) / (SYNTHETIC_MASS_AMU * 1.66053906660e-27));
+  const alpha = (nu / 299792458) * Math.sqrt((2 * Math.LN2 * 1.380649e-23 * truth.temperatureK) / (SYNTHETIC_MASS_AMU * 1.6605390666e-27));
   const fL = 2 * SYNTHETIC_LORENTZ_HWHM_CM1;
   const fG = 2 * alpha;
   const fwhmCm1 = 0.5346 * fL + Math.sqrt(0.2166 * fL * fL + fG * fG);
@@ -112,7 +112,10 @@ export function syntheticAssignable(band: SyntheticBand, minSnr = 20, comparable
   for (let s = 0; s < order.length; s++) {
     const i = order[s];
     if (band.heightAtLine[i] < minSnr * band.noiseSigma) continue;
-    if (!hasMaximumNear(band, maxima, lines.wavenumberCm1[i], 0.25 * band.fwhmCm1, minSnr * band.noiseSigma, 0.5 * minSnr * band.noiseSigma)) continue;
+    if (
+      !hasMaximumNear(band, maxima, lines.wavenumberCm1[i], 0.25 * band.fwhmCm1, minSnr * band.noiseSigma, 0.5 * minSnr * band.noiseSigma)
+    )
+      continue;
     let ok = true;
     for (let t = s - 1; t >= 0 && lines.wavenumberCm1[i] - lines.wavenumberCm1[order[t]] < band.fwhmCm1; t--) {
       if (lines.intensity[order[t]] >= comparable * lines.intensity[i]) ok = false;
@@ -129,7 +132,14 @@ export function syntheticAssignable(band: SyntheticBand, minSnr = 20, comparable
  * Whether the noise-free spectrum has a local maximum within ±half of x (cm^-1) that is at least
  * minHeight high and stands at least minProminence above its surroundings (SciPy prominence).
  */
-function hasMaximumNear(band: SyntheticBand, maxima: LocalMaxima, xCm1: number, half: number, minHeight: number, minProminence: number): boolean {
+function hasMaximumNear(
+  band: SyntheticBand,
+  maxima: LocalMaxima,
+  xCm1: number,
+  half: number,
+  minHeight: number,
+  minProminence: number,
+): boolean {
   const x = band.trace.wavenumberCm1;
   const y = band.cleanAbsorbance;
   for (let m = 0; m < maxima.count; m++) {
@@ -145,14 +155,19 @@ function hasMaximumNear(band: SyntheticBand, maxima: LocalMaxima, xCm1: number, 
  * half a FWHM of the observed position and carries at least a quarter of the intensity of the
  * strongest truth line within that half width (so it makes a real part of the peak).
  */
-export function syntheticIsCorrect(band: SyntheticBand, q: { jUpper: number; kUpper: number; jLower: number; kLower: number }, observedCm1: number): boolean {
+export function syntheticIsCorrect(
+  band: SyntheticBand,
+  q: { jUpper: number; kUpper: number; jLower: number; kLower: number },
+  observedCm1: number,
+): boolean {
   const { lines } = band;
   let own = -1;
   let strongest = 0;
   for (let i = 0; i < lines.count; i++) {
     if (Math.abs(lines.wavenumberCm1[i] - observedCm1) > 0.5 * band.fwhmCm1) continue;
     strongest = Math.max(strongest, lines.intensity[i]);
-    if (lines.jUpper[i] === q.jUpper && lines.kUpper[i] === q.kUpper && lines.jLower[i] === q.jLower && lines.kLower[i] === q.kLower) own = i;
+    if (lines.jUpper[i] === q.jUpper && lines.kUpper[i] === q.kUpper && lines.jLower[i] === q.jLower && lines.kLower[i] === q.kLower)
+      own = i;
   }
   return own >= 0 && lines.intensity[own] >= 0.25 * strongest;
 }

@@ -23,11 +23,13 @@ describe('calibrationFit: refusals', () => {
   });
 
   it('refuses NaN, non-positive wavenumbers and bad sigmas, naming the pair and field', () => {
-    expect(() => calibrationFit([{ observedCm1: NaN, referenceCm1: 1 }], { withOffset: false })).toThrow(/pairs\[0\]\.observedCm1 .* got NaN/);
+    expect(() => calibrationFit([{ observedCm1: NaN, referenceCm1: 1 }], { withOffset: false })).toThrow(
+      /pairs\[0\]\.observedCm1 .* got NaN/,
+    );
     expect(() => calibrationFit([{ observedCm1: 1, referenceCm1: -2 }], { withOffset: false })).toThrow(/pairs\[0\]\.referenceCm1/);
-    expect(() =>
-      calibrationFit([{ observedCm1: 1, referenceCm1: 1, referenceSigmaCm1: 0 }], { withOffset: false }),
-    ).toThrow(/referenceSigmaCm1 must be .* got 0/);
+    expect(() => calibrationFit([{ observedCm1: 1, referenceCm1: 1, referenceSigmaCm1: 0 }], { withOffset: false })).toThrow(
+      /referenceSigmaCm1 must be .* got 0/,
+    );
     const mixed = [
       { observedCm1: 1000, referenceCm1: 1000, referenceSigmaCm1: 1e-4 },
       { observedCm1: 2000, referenceCm1: 2000 },

@@ -299,7 +299,8 @@ describe('peaksFind: baseline removal', () => {
     const x = axisUniform(1000, 1020, 40001);
     const rand = randomSeeded(71);
     const lines: SyntheticLine[] = [];
-    for (let k = 0; k < 40; k++) lines.push({ centreCm1: 1000.5 + k * 0.48 + 0.1 * rand(), heightAbs: 0.05, fwhmCm1: 0.01, shape: 'gaussian' });
+    for (let k = 0; k < 40; k++)
+      lines.push({ centreCm1: 1000.5 + k * 0.48 + 0.1 * rand(), heightAbs: 0.05, fwhmCm1: 0.01, shape: 'gaussian' });
     const base = (v: number) => 0.2 + 0.5 * ((v - 1000) / 20) ** 2 + 0.05 * Math.sin((v - 1000) / 3);
     const y = syntheticAbsorbance(x, lines, 1e-3, 72, base);
     const r = peaksFind(trace(x, y), { baseline: { scaleCm1: 2 } });

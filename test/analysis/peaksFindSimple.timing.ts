@@ -41,9 +41,7 @@ times.sort((a, b) => a - b);
 const t = performance.now();
 const est = noiseSigmaEstimate(x, y);
 const tNoise = performance.now() - t;
-console.log(
-  `peaksFindSimple n=${n}: ${count} peaks, median ${times[2].toFixed(2)} ms (runs ${times.map((v) => v.toFixed(1)).join(', ')})`,
-);
+console.log(`peaksFindSimple n=${n}: ${count} peaks, median ${times[2].toFixed(2)} ms (runs ${times.map((v) => v.toFixed(1)).join(', ')})`);
 console.log(`noiseSigmaEstimate: ${est.toExponential(4)} vs true ${sigma.toExponential(4)} (${tNoise.toFixed(1)} ms)`);
 
 // For comparison, the careful peaksFind on the same trace (single run; it is not benchmarked).

@@ -58,7 +58,15 @@ const PROFILE = process.env.LB_BENCH_PROFILE === '1';
 /** Folder to also write the raw CPU profiles to (.cpuprofile, for DevTools), when set. */
 const PROFILE_DIR = process.env.LB_BENCH_PROFILE_DIR ?? '';
 const PLOT = '[data-testid=spectrum-plot]';
-const LAUNCH_ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'];
+const LAUNCH_ARGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+];
 
 type Json = Record<string, unknown>;
 
@@ -90,7 +98,11 @@ function pageWatchInstall(): void {
     const gd = document.querySelector('[data-testid=spectrum-plot]');
     if (!gd) return null;
     for (const g of Array.from(gd.querySelectorAll('.scatterlayer .trace'))) {
-      const cd = (g as unknown as { __data__?: { trace?: { meta?: { kind?: string }; _input?: { x?: ArrayLike<number>; meta?: { kind?: string } } } }[] }).__data__;
+      const cd = (
+        g as unknown as {
+          __data__?: { trace?: { meta?: { kind?: string }; _input?: { x?: ArrayLike<number>; meta?: { kind?: string } } } }[];
+        }
+      ).__data__;
       const tr = cd?.[0]?.trace;
       const kind = tr?._input?.meta?.kind ?? tr?.meta?.kind;
       if (kind === 'trace') return { g, x: tr?._input?.x ?? null };
@@ -103,7 +115,8 @@ function pageWatchInstall(): void {
     const t = traceInput();
     return t && isDrawn(t.g) ? { x: t.x } : null;
   };
-  const solverResults = () => lb.workerMessages.filter((m) => m.direction === 'receive' && m.type === 'result' && /solver/.test(m.url)).length;
+  const solverResults = () =>
+    lb.workerMessages.filter((m) => m.direction === 'receive' && m.type === 'result' && /solver/.test(m.url)).length;
   lb.conds = {
     // The trace line is drawn (any data).
     plotDrawn: () => traceLine() !== null,
@@ -121,14 +134,19 @@ function pageWatchInstall(): void {
       return t !== null && t.x !== null && t.x !== lb.baseline && isDrawn(t.g);
     },
     // The assignments count reads n (and, when the new row is rendered, it is the selected one).
-    rowCount: (arg) => (document.querySelector('[data-testid=assignment-count]')?.textContent ?? '').startsWith(`${arg as number} assigned`),
-    candidatesOpen: () => document.querySelector('[data-testid=candidates] [data-testid=candidate-0]') !== null || document.querySelector('[data-testid=candidates] p') !== null,
+    rowCount: (arg) =>
+      (document.querySelector('[data-testid=assignment-count]')?.textContent ?? '').startsWith(`${arg as number} assigned`),
+    candidatesOpen: () =>
+      document.querySelector('[data-testid=candidates] [data-testid=candidate-0]') !== null ||
+      document.querySelector('[data-testid=candidates] p') !== null,
     // A solver result arrived after arming, no "Fitting…" status is left, and the summary is shown.
     fitShown: () =>
       solverResults() > (lb.baseline as number) &&
       document.querySelector('[data-testid=fit-summary]') !== null &&
       !Array.from(document.querySelectorAll('.solve-run [role=status]')).some((e) => /Fitting/.test(e.textContent ?? '')),
-    projectOpen: (arg) => (document.querySelector('[data-testid=assignment-count]')?.textContent ?? '').startsWith(`${arg as number} assigned`) && traceLine() !== null,
+    projectOpen: (arg) =>
+      (document.querySelector('[data-testid=assignment-count]')?.textContent ?? '').startsWith(`${arg as number} assigned`) &&
+      traceLine() !== null,
   };
   lb.pending = null;
   lb.watch = (name, arg, timeoutMs) => {
@@ -168,7 +186,11 @@ interface WatchResult {
 }
 
 async function watchArm(page: Page, name: string, arg: unknown, timeoutMs: number): Promise<void> {
-  await page.evaluate(([n, a, t]) => (window as unknown as { __lb: { watch: (n: string, a: unknown, t: number) => void } }).__lb.watch(n as string, a, t as number), [name, arg, timeoutMs] as const);
+  await page.evaluate(
+    ([n, a, t]) =>
+      (window as unknown as { __lb: { watch: (n: string, a: unknown, t: number) => void } }).__lb.watch(n as string, a, t as number),
+    [name, arg, timeoutMs] as const,
+  );
 }
 
 async function watchResult(page: Page, what: string, timeoutMs: number): Promise<WatchResult> {
@@ -213,7 +235,14 @@ async function profileStart(page: Page, what: string): Promise<{ stop: () => Pro
         const { profile } = (await cdp.send('Profiler.stop')) as unknown as { profile: CpuProfile };
         const s = profileSummary(profile, 18);
         if (PROFILE_DIR) writeFileSync(join(PROFILE_DIR, `${what.replace(/[^a-z0-9]+/gi, '_')}.cpuprofile`), JSON.stringify(profile));
-        console.error(JSON.stringify({ profile: what, sampled_ms: s.sampledMs, by_total: s.byTotal.map((r) => `${r.totalMs} ${r.fn}`), by_self: s.bySelf.map((r) => `${r.selfMs} ${r.fn}`) }));
+        console.error(
+          JSON.stringify({
+            profile: what,
+            sampled_ms: s.sampledMs,
+            by_total: s.byTotal.map((r) => `${r.totalMs} ${r.fn}`),
+            by_self: s.bySelf.map((r) => `${r.selfMs} ${r.fn}`),
+          }),
+        );
       } catch (err) {
         note(`profile of ${what} lost: ${(err as Error).message}`);
       } finally {
@@ -244,7 +273,9 @@ async function contextOpen(browser: Browser, baseUrl: string): Promise<{ context
 
 async function gotoDemo(page: Page, baseUrl: string): Promise<WatchResult> {
   await page.goto(baseUrl, { waitUntil: 'commit', timeout: 30_000 });
-  await page.waitForFunction(() => (window as unknown as { __lb?: { watch?: unknown } }).__lb?.watch !== undefined, null, { timeout: 30_000 });
+  await page.waitForFunction(() => (window as unknown as { __lb?: { watch?: unknown } }).__lb?.watch !== undefined, null, {
+    timeout: 30_000,
+  });
   await watchArm(page, 'plotDrawn', null, 60_000);
   return watchResult(page, 'waiting for the demo plot', 60_000);
 }
@@ -260,7 +291,9 @@ async function chooseFile(page: Page, path: string): Promise<void> {
  */
 async function plotBox(page: Page, cls: 'nsewdrag' | 'ewdrag'): Promise<{ x: number; y: number; width: number; height: number }> {
   const box = await page.evaluate((c) => {
-    const el = Array.from(document.querySelectorAll(`[data-testid=spectrum-plot] .draglayer .${c}`)).find((e) => (e.parentNode as Element | null)?.getAttribute('class') === 'xy');
+    const el = Array.from(document.querySelectorAll(`[data-testid=spectrum-plot] .draglayer .${c}`)).find(
+      (e) => (e.parentNode as Element | null)?.getAttribute('class') === 'xy',
+    );
     const b = el?.getBoundingClientRect();
     return b ? { x: b.x, y: b.y, width: b.width, height: b.height } : null;
   }, cls);
@@ -307,7 +340,9 @@ async function measureDemo(browser: Browser, baseUrl: string): Promise<void> {
       jsFiles = js.map((j) => new URL(j.url).pathname);
       const p = await probe(page);
       phases.fcp.push(p.paints.find((e) => e.name === 'first-contentful-paint')?.start ?? NaN);
-      const res = await page.evaluate(() => performance.getEntriesByType('resource').map((e) => ({ name: e.name, end: (e as PerformanceResourceTiming).responseEnd })));
+      const res = await page.evaluate(() =>
+        performance.getEntriesByType('resource').map((e) => ({ name: e.name, end: (e as PerformanceResourceTiming).responseEnd })),
+      );
       const ended = (re: RegExp) => res.find((e) => re.test(e.name))?.end ?? NaN;
       phases.entry_js_loaded.push(ended(/assets\/index-.*\.js/));
       phases.plotly_js_loaded.push(ended(/plotly/));
@@ -318,7 +353,10 @@ async function measureDemo(browser: Browser, baseUrl: string): Promise<void> {
       const tasks = p.longtasks.filter((t) => t.start < w.paint);
       phases.longtask_sum.push(tasks.reduce((a, t) => a + t.duration, 0));
       phases.longtask_max.push(Math.max(0, ...tasks.map((t) => t.duration)));
-      if (run === 0) note(`demo long tasks before the plot (start:duration ms): ${tasks.map((t) => `${t.start.toFixed(0)}:${t.duration.toFixed(0)}`).join(' ')}`);
+      if (run === 0)
+        note(
+          `demo long tasks before the plot (start:duration ms): ${tasks.map((t) => `${t.start.toFixed(0)}:${t.duration.toFixed(0)}`).join(' ')}`,
+        );
       if (errors.length) note(`demo run ${run}: page errors: ${errors.join(' | ')}`);
     } finally {
       await context.close();
@@ -350,7 +388,9 @@ async function loadBigTrace(browser: Browser, baseUrl: string, inputs: BenchInpu
   const { context, page, errors } = await contextOpen(browser, baseUrl);
   await gotoDemo(page, baseUrl);
   await chooseFile(page, inputs.modelJson);
-  await page.waitForFunction(() => /bench W1/.test(document.body.textContent ?? ''), null, { timeout: 30_000 }).catch(() => note('model file: its name did not show on the page (continuing)'));
+  await page
+    .waitForFunction(() => /bench W1/.test(document.body.textContent ?? ''), null, { timeout: 30_000 })
+    .catch(() => note('model file: its name did not show on the page (continuing)'));
   await pause(800); // let the model's redraw and autosave pass
   await watchArm(page, 'traceRange', inputs.traceRangeCm1, 60_000);
   const armed = await page.evaluate(() => performance.now());
@@ -385,12 +425,21 @@ async function measureBigTrace(browser: Browser, baseUrl: string, inputs: BenchI
     const r = await loadBigTrace(browser, baseUrl, inputs, run === 0);
     rows.push(r);
     if (r.loaded.errors.length) note(`1e6 run ${run}: page errors: ${r.loaded.errors.join(' | ')}`);
-    note(`1e6 run ${run}: plot ${r.toPlotMs.toFixed(0)} ms, worker ${r.workerMs.toFixed(0)} ms, result→paint ${r.resultToPaintMs.toFixed(0)} ms, long tasks ${r.longtasksDuring.join(', ')}`);
+    note(
+      `1e6 run ${run}: plot ${r.toPlotMs.toFixed(0)} ms, worker ${r.workerMs.toFixed(0)} ms, result→paint ${r.resultToPaintMs.toFixed(0)} ms, long tasks ${r.longtasksDuring.join(', ')}`,
+    );
     if (run === RUNS - 1) keep = r.loaded;
     else await r.loaded.context.close();
   }
   const m = (f: (r: (typeof rows)[number]) => number) => round1(statMedian(rows.map(f)));
-  emit({ measure: 'trace_1e6_to_first_plot', median_ms: m((r) => r.toPlotMs), runs: rows.length, target: 3000, points: inputs.tracePoints, max_ms: round1(Math.max(...rows.map((r) => r.toPlotMs))) });
+  emit({
+    measure: 'trace_1e6_to_first_plot',
+    median_ms: m((r) => r.toPlotMs),
+    runs: rows.length,
+    target: 3000,
+    points: inputs.tracePoints,
+    max_ms: round1(Math.max(...rows.map((r) => r.toPlotMs))),
+  });
   emit({
     measure: 'trace_1e6_parse_in_worker',
     median_ms: m((r) => r.workerMs),
@@ -517,7 +566,12 @@ async function zoomFromFull(page: Page, steps: [number, number][]): Promise<void
  * A box zoom in x between two fractions of the trace subplot's width, low in the plot; the vertical
  * move stays under plotly's minimum drag, so only x zooms.
  */
-async function boxZoomDrag(page: Page, area: { x: number; y: number; width: number; height: number }, fromFrac: number, toFrac: number): Promise<void> {
+async function boxZoomDrag(
+  page: Page,
+  area: { x: number; y: number; width: number; height: number },
+  fromFrac: number,
+  toFrac: number,
+): Promise<void> {
   const y = area.y + area.height * 0.8;
   await page.mouse.move(area.x + area.width * fromFrac, y);
   await page.mouse.down();
@@ -565,7 +619,13 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
   const { page } = loaded;
   await page.locator('[data-testid=tab-assignments]').click();
   await pause(300);
-  const xRange = () => page.evaluate(() => (document.querySelector('[data-testid=spectrum-plot]') as unknown as { _fullLayout?: { xaxis?: { range?: number[] } } })._fullLayout?.xaxis?.range?.join(',') ?? '');
+  const xRange = () =>
+    page.evaluate(
+      () =>
+        (
+          document.querySelector('[data-testid=spectrum-plot]') as unknown as { _fullLayout?: { xaxis?: { range?: number[] } } }
+        )._fullLayout?.xaxis?.range?.join(',') ?? '',
+    );
   let region = 0;
   let regionRange = '';
   let viewMoved = 0;
@@ -593,7 +653,9 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
     // Each peak once (by screen column); spread the picks over the plot.
     const untried = peaks.filter((q) => !tried.has(Math.round(q.x)));
     if (untried.length === 0) {
-      problems.push(`region ${regions[region].join('–')}: ${peaks.length ? `all ${peaks.length} free peak markers tried` : `no free peak marker (plot ${JSON.stringify(await plotCensus(page))})`}`);
+      problems.push(
+        `region ${regions[region].join('–')}: ${peaks.length ? `all ${peaks.length} free peak markers tried` : `no free peak marker (plot ${JSON.stringify(await plotCensus(page))})`}`,
+      );
       if (++region >= regions.length) break;
       tried.clear();
       await enterRegion();
@@ -614,7 +676,9 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
         selectedRung: (document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null)?.dataset.selectedRung ?? '',
         message: document.querySelector('[data-testid=messages]')?.textContent?.slice(0, 160) ?? '',
       }));
-      problems.push(`peak click at ${target.x.toFixed(0)},${target.y.toFixed(0)}: ${(err as Error).message} (selected rung '${state.selectedRung}', messages '${state.message}')`);
+      problems.push(
+        `peak click at ${target.x.toFixed(0)},${target.y.toFixed(0)}: ${(err as Error).message} (selected rung '${state.selectedRung}', messages '${state.message}')`,
+      );
       await page.keyboard.press('Escape');
       continue;
     }
@@ -680,8 +744,12 @@ async function measureFit(browser: Browser, baseUrl: string, inputs: BenchInputs
   await profOpenAfter.stop();
   let p = await probe(page);
   const openStart = inputAfter(p, 'change', armed);
-  const readPost = p.workerMessages.find((m) => /parse/.test(m.url) && m.direction === 'post' && m.type === 'project-read' && m.t >= openStart);
-  const readResult = p.workerMessages.find((m) => /parse/.test(m.url) && m.direction === 'receive' && m.type === 'project-read-result' && m.t >= openStart);
+  const readPost = p.workerMessages.find(
+    (m) => /parse/.test(m.url) && m.direction === 'post' && m.type === 'project-read' && m.t >= openStart,
+  );
+  const readResult = p.workerMessages.find(
+    (m) => /parse/.test(m.url) && m.direction === 'receive' && m.type === 'project-read-result' && m.t >= openStart,
+  );
   emit({
     measure: 'project_open_1e6_trace_5000_lines',
     median_ms: round1(open.paint - openStart),
@@ -761,7 +829,8 @@ async function zoomLongTasks(page: Page): Promise<void> {
     const area = await plotBox(page, 'nsewdrag');
     await watchArm(page, 'traceRedrawn', null, 15_000);
     const armed = await page.evaluate(() => performance.now());
-    const prof = run < 2 ? await profileStart(page, `view change with 5000 assigned (${run % 2 ? 'zoom out' : 'box zoom'}): input + 1.5 s`) : null;
+    const prof =
+      run < 2 ? await profileStart(page, `view change with 5000 assigned (${run % 2 ? 'zoom out' : 'box zoom'}): input + 1.5 s`) : null;
     if (run % 2 === 0) await boxZoomDrag(page, area, 0.3, 0.7);
     else await zoomOutButton(page).click();
     await watchResult(page, 'waiting for the redraw after a view change', 15_000).catch((err: Error) => note(err.message));
@@ -806,7 +875,9 @@ async function measureRestore(browser: Browser, baseUrl: string, inputs: BenchIn
     for (let run = 0; run < RUNS; run++) {
       await page.reload({ waitUntil: 'commit', timeout: 30_000 });
       const prof = run === 0 ? await profileStart(page, 'reload: autosaved 1e6 trace + 5000 lines restored') : null;
-      await page.waitForFunction(() => (window as unknown as { __lb?: { watch?: unknown } }).__lb?.watch !== undefined, null, { timeout: 30_000 });
+      await page.waitForFunction(() => (window as unknown as { __lb?: { watch?: unknown } }).__lb?.watch !== undefined, null, {
+        timeout: 30_000,
+      });
       await watchArm(page, 'projectOpen', inputs.nAssigned, 120_000);
       const w = await watchResult(page, 'waiting for the restored session', 120_000);
       await prof?.stop();
@@ -814,8 +885,14 @@ async function measureRestore(browser: Browser, baseUrl: string, inputs: BenchIn
       const p = await probe(page);
       shown.push(w.paint);
       longest.push(longestTask(p, 0, w.paint));
-      lists.push(p.longtasks.filter((t) => t.start < w.paint).map((t) => `${t.start.toFixed(0)}:${t.duration.toFixed(0)}`).join(' '));
-      if (/Restored your last session \(5000 assignments\)/.test((await page.locator('[data-testid=messages]').textContent()) ?? '')) restoredMessage++;
+      lists.push(
+        p.longtasks
+          .filter((t) => t.start < w.paint)
+          .map((t) => `${t.start.toFixed(0)}:${t.duration.toFixed(0)}`)
+          .join(' '),
+      );
+      if (/Restored your last session \(5000 assignments\)/.test((await page.locator('[data-testid=messages]').textContent()) ?? ''))
+        restoredMessage++;
     }
     if (errors.length) note(`restore page errors: ${errors.join(' | ')}`);
     emit({
@@ -861,7 +938,11 @@ async function main(): Promise<void> {
     process.exit(2);
   }, 30 * 60_000);
   try {
-    note(`serving ${DIST}; ${RUNS} runs per measure; load average ${loadavg().map((v) => v.toFixed(2)).join(' ')}`);
+    note(
+      `serving ${DIST}; ${RUNS} runs per measure; load average ${loadavg()
+        .map((v) => v.toFixed(2))
+        .join(' ')}`,
+    );
     if (want(7)) measureBundle();
     const needInputs = [2, 3, 4, 5, 6, 8].some(want);
     let inputs: BenchInputs | null = null;
@@ -880,7 +961,11 @@ async function main(): Promise<void> {
         try {
           if (want(3)) await measureRedraw(loaded, 50);
           if (want(4)) {
-            await measureAssign(loaded, '1e6_trace', Math.max(RUNS, 8), [[0.45, 0.5], [0.5, 0.55], [0.55, 0.6]]);
+            await measureAssign(loaded, '1e6_trace', Math.max(RUNS, 8), [
+              [0.45, 0.5],
+              [0.5, 0.55],
+              [0.55, 0.6],
+            ]);
           }
         } finally {
           await loaded.context.close();
@@ -892,7 +977,16 @@ async function main(): Promise<void> {
       try {
         if (want(4)) {
           // Most lines near the centre are among the 5,000 assigned: try regions towards the band's wings.
-          const wings: [number, number][] = [[0.8, 0.85], [0.15, 0.2], [0.85, 0.9], [0.1, 0.15], [0.75, 0.8], [0.2, 0.25], [0.9, 0.95], [0.05, 0.1]];
+          const wings: [number, number][] = [
+            [0.8, 0.85],
+            [0.15, 0.2],
+            [0.85, 0.9],
+            [0.1, 0.15],
+            [0.75, 0.8],
+            [0.2, 0.25],
+            [0.9, 0.95],
+            [0.05, 0.1],
+          ];
           await measureAssign(fitPage, 'with_5000_assigned', Math.max(RUNS, 8), wings);
         }
       } finally {

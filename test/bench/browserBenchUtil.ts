@@ -235,9 +235,21 @@ export function benchInputsWrite(w: WorkloadFile, dir: string): BenchInputs {
   );
   const projectFileName = 'bench-5000-lines.lbproj.json';
   const projectJson = join(dir, projectFileName);
-  writeFileSync(projectJson, projectFileSerialize(sessionOf(benchStore.getState()), { appVersion: 'bench', savedAt: '2000-01-01T00:00:00.000Z' }));
+  writeFileSync(
+    projectJson,
+    projectFileSerialize(sessionOf(benchStore.getState()), { appVersion: 'bench', savedAt: '2000-01-01T00:00:00.000Z' }),
+  );
   benchReset();
-  return { traceCsv, traceFileName, traceRangeCm1: [x[0], x[npoints - 1]], tracePoints: npoints, modelJson, projectJson, projectFileName, nAssigned: nStrong };
+  return {
+    traceCsv,
+    traceFileName,
+    traceRangeCm1: [x[0], x[npoints - 1]],
+    tracePoints: npoints,
+    modelJson,
+    projectJson,
+    projectFileName,
+    nAssigned: nStrong,
+  };
 }
 
 // ---------------------------------------------------------------- in-page probes
@@ -270,7 +282,13 @@ export function pageProbeInstall(): void {
   try {
     new PerformanceObserver((list) => {
       for (const e of list.getEntries() as PerformanceEventTiming[]) {
-        lb.events.push({ name: e.name, start: e.startTime, duration: e.duration, processingStart: e.processingStart, processingEnd: e.processingEnd });
+        lb.events.push({
+          name: e.name,
+          start: e.startTime,
+          duration: e.duration,
+          processingStart: e.processingStart,
+          processingEnd: e.processingEnd,
+        });
       }
     }).observe({ type: 'event', buffered: true, durationThreshold: 16 } as PerformanceObserverInit);
   } catch {
@@ -359,8 +377,14 @@ export function profileSummary(profile: CpuProfile, topN = 15): { bySelf: Profil
   const totals = [...total.keys()].map((fn) => ({ fn, selfMs: round1(self.get(fn) ?? 0), totalMs: round1(total.get(fn) ?? 0) }));
   const skip = /^\((root|program|idle)\)/;
   return {
-    bySelf: rows.filter((r) => !skip.test(r.fn)).sort((a, b) => b.selfMs - a.selfMs).slice(0, topN),
-    byTotal: totals.filter((r) => !skip.test(r.fn)).sort((a, b) => b.totalMs - a.totalMs).slice(0, topN),
+    bySelf: rows
+      .filter((r) => !skip.test(r.fn))
+      .sort((a, b) => b.selfMs - a.selfMs)
+      .slice(0, topN),
+    byTotal: totals
+      .filter((r) => !skip.test(r.fn))
+      .sort((a, b) => b.totalMs - a.totalMs)
+      .slice(0, topN),
     sampledMs: round1(sampledMs),
   };
 }

@@ -1,5 +1,5 @@
 /**
- * `npm run bench`: times workloads W1–W5 of ../shared/bench/workloads.json in-process and prints one
+ * `npm run bench`: times workloads W1–W5 of bench/workloads.json in-process and prints one
  * JSON line per workload: {"workload", "median_ms", "runs", "size"}. Warm-up and repeat counts come
  * from the file (at least 5 timed runs); LB_BENCH_REPEATS raises the repeat count.
  *

@@ -1,6 +1,6 @@
 /**
- * Benchmark workloads W1–W5, built from the definitions in ../shared/bench/workloads.json (read at run
- * time; no numbers are copied here). Each workload is split into an untimed `prepare` and a timed `run`.
+ * Benchmark workloads W1–W5, built from the definitions in bench/workloads.json at the project root (read
+ * at run time; no numbers are copied here). Each workload is split into an untimed `prepare` and a timed `run`.
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -10,8 +10,8 @@ import { analysisRequire } from './benchDeps';
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 export type WorkloadFile = Record<string, any>;
 
-/** Path of the shared definitions: ../shared/bench/workloads.json beside the project root. */
-export const WORKLOADS_PATH = fileURLToPath(new URL('../../../shared/bench/workloads.json', import.meta.url));
+/** Path of the workload definitions: bench/workloads.json at the project root. */
+export const WORKLOADS_PATH = fileURLToPath(new URL('../../bench/workloads.json', import.meta.url));
 
 /** Read the workload definitions. */
 export function workloadsRead(path = WORKLOADS_PATH): WorkloadFile {
@@ -51,8 +51,7 @@ export function seededNormal(seed: number): () => number {
  * (the line list and fit keep their definitions except nstrong, which is capped by the list).
  */
 export function workloadsPrepare(w: WorkloadFile, scale = 1): PreparedWorkload[] {
-  const { modelFileFromJson, bandLines, spectrumSynthesizeWindowed, peaksFindSimple, fitBand, delimitedParseNumeric } =
-    analysisRequire();
+  const { modelFileFromJson, bandLines, spectrumSynthesizeWindowed, peaksFindSimple, fitBand, delimitedParseNumeric } = analysisRequire();
   const model = modelFileFromJson(w.W1.model).model;
   const cut = w.W1.cut as number;
   const lines = bandLines(model, { minIntensity: cut });

@@ -17,7 +17,15 @@ export function fixture(name: string): string {
 export async function launch(): Promise<Browser> {
   return chromium.launch({
     executablePath: '/usr/bin/chromium',
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      '--no-first-run',
+    ],
   });
 }
 
@@ -62,7 +70,9 @@ export async function gotoApp(page: Page): Promise<void> {
 
 export async function waitForPlot(page: Page): Promise<void> {
   await page.waitForSelector('[data-testid=spectrum-plot] .scatterlayer .trace', { timeout: 60_000 });
-  await page.waitForFunction(() => document.querySelector('[data-testid=file-name]')?.textContent !== 'no trace', null, { timeout: 60_000 });
+  await page.waitForFunction(() => document.querySelector('[data-testid=file-name]')?.textContent !== 'no trace', null, {
+    timeout: 60_000,
+  });
 }
 
 /** Number of assignments shown in the table header. */
@@ -109,7 +119,9 @@ export async function clickARung(page: Page): Promise<string> {
     if (!at) {
       const state = await page.evaluate(() => {
         const d = (document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null)?.dataset ?? {};
-        const gd = document.querySelector('[data-testid=spectrum-plot]') as unknown as { _fullLayout?: { xaxis?: { range?: number[]; _length?: number } } };
+        const gd = document.querySelector('[data-testid=spectrum-plot]') as unknown as {
+          _fullLayout?: { xaxis?: { range?: number[]; _length?: number } };
+        };
         return JSON.stringify({ ...d, freePeaks: undefined, range: gd._fullLayout?.xaxis?.range, widthPx: gd._fullLayout?.xaxis?._length });
       });
       throw new Error(`clickARung: no rung on screen (attempt ${attempt + 1}; overlay ${state})`);
@@ -120,7 +132,11 @@ export async function clickARung(page: Page): Promise<string> {
     label = (await tip.textContent()) ?? '';
     await page.mouse.click(box.x + x, box.y + y);
     const selected = await page
-      .waitForFunction(() => ((document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null)?.dataset.selectedRung ?? '') !== '', null, { timeout: 1000 })
+      .waitForFunction(
+        () => ((document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null)?.dataset.selectedRung ?? '') !== '',
+        null,
+        { timeout: 1000 },
+      )
       .then(() => true)
       .catch(() => false);
     if (selected) return label;

@@ -52,14 +52,18 @@ describe('files', () => {
     // A malformed file: error in words, trace and assignments unchanged.
     const before = await page.locator('[data-testid=import-facts]').textContent();
     await page.locator('[data-testid=file-input]').setInputFiles(fixture('broken.csv'));
-    await expect.poll(() => page.locator('.message.error').last().textContent(), { timeout: 30_000 }).toMatch(/Could not read broken\.csv.*unchanged/);
+    await expect
+      .poll(() => page.locator('.message.error').last().textContent(), { timeout: 30_000 })
+      .toMatch(/Could not read broken\.csv.*unchanged/);
     expect(await page.locator('[data-testid=file-name]').textContent()).toBe('dropped.csv');
     expect(await page.locator('[data-testid=import-facts]').textContent()).toBe(before);
     await page.screenshot({ path: `${SHOTS}/11-malformed-file.png` });
 
     // Markup in the file name and in the JCAMP-DX title is shown as text and never runs.
     const evil = '<img src=x onerror="window.__xss=3">.jdx';
-    await page.locator('[data-testid=file-input]').setInputFiles({ name: evil, mimeType: 'text/plain', buffer: readFileSync(fixture('hostile.jdx')) });
+    await page
+      .locator('[data-testid=file-input]')
+      .setInputFiles({ name: evil, mimeType: 'text/plain', buffer: readFileSync(fixture('hostile.jdx')) });
     await expect.poll(() => page.locator('[data-testid=file-name]').textContent(), { timeout: 30_000 }).toBe(evil);
     await page.locator('[data-testid=tab-import]').click();
     await expect.poll(() => page.locator('[data-testid=import-facts]').textContent()).toContain('<script>window.__xss=2</script>');
@@ -128,11 +132,18 @@ describe('files', () => {
 
     // Delete everything, then open the project: the same state comes back.
     await page.locator('[data-testid=tab-assignments]').click();
-    for (let i = 0; i < 3; i++) await page.locator('[data-testid=assignment-row]').first().getByRole('button', { name: /Delete assignment/ }).click();
+    for (let i = 0; i < 3; i++)
+      await page
+        .locator('[data-testid=assignment-row]')
+        .first()
+        .getByRole('button', { name: /Delete assignment/ })
+        .click();
     await expect.poll(() => assignedCount(page)).toBe(expected - 3);
     const parseWorkers = () => log.workers.filter((u) => /parse\.worker/.test(u)).length;
     const workersBefore = parseWorkers();
-    await page.locator('[data-testid=file-input]').setInputFiles({ name: project.name, mimeType: 'application/json', buffer: Buffer.from(project.text) });
+    await page
+      .locator('[data-testid=file-input]')
+      .setInputFiles({ name: project.name, mimeType: 'application/json', buffer: Buffer.from(project.text) });
     // The project was saved with the Export tab open, and opens that way again.
     await expect.poll(() => page.locator('[data-testid=tab-export]').getAttribute('aria-selected')).toBe('true');
     // It was read in a parse worker, not on the page's thread.

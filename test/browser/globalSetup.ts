@@ -82,8 +82,21 @@ function writeFixtures(dir: string): void {
 
   writeFileSync(join(dir, 'broken.csv'), 'this is not,a spectrum\nhello,world\nfoo,bar\n');
   // Markup in the title of a JCAMP-DX file (its name carries markup too; see the test).
-  const jdx = ['##TITLE=<img src=x onerror="window.__xss=1"><script>window.__xss=2</script>', '##JCAMP-DX=4.24', '##DATA TYPE=INFRARED SPECTRUM', '##XUNITS=1/CM', '##YUNITS=TRANSMITTANCE', '##FIRSTX=1100', '##LASTX=1101', '##NPOINTS=101', '##XFACTOR=1', '##YFACTOR=1', '##XYDATA=(X++(Y..Y))'];
-  for (let k = 0; k < 101; k += 1) jdx.push(`${(1100 + k * 0.01).toFixed(2)} ${(0.9 - 0.5 * Math.exp(-0.5 * ((k - 50) / 3) ** 2)).toFixed(4)}`);
+  const jdx = [
+    '##TITLE=<img src=x onerror="window.__xss=1"><script>window.__xss=2</script>',
+    '##JCAMP-DX=4.24',
+    '##DATA TYPE=INFRARED SPECTRUM',
+    '##XUNITS=1/CM',
+    '##YUNITS=TRANSMITTANCE',
+    '##FIRSTX=1100',
+    '##LASTX=1101',
+    '##NPOINTS=101',
+    '##XFACTOR=1',
+    '##YFACTOR=1',
+    '##XYDATA=(X++(Y..Y))',
+  ];
+  for (let k = 0; k < 101; k += 1)
+    jdx.push(`${(1100 + k * 0.01).toFixed(2)} ${(0.9 - 0.5 * Math.exp(-0.5 * ((k - 50) / 3) ** 2)).toFixed(4)}`);
   jdx.push('##END=');
   writeFileSync(join(dir, 'hostile.jdx'), jdx.join('\n') + '\n');
 }
@@ -92,11 +105,17 @@ let server: PreviewServer | null = null;
 let dir = '';
 
 export default async function setup(project: TestProject): Promise<() => Promise<void>> {
-  if (!existsSync(join(root, 'dist/index.html'))) throw new Error('browser tests: dist/ is missing; run `vite build` first (npm run test:browser does)');
+  if (!existsSync(join(root, 'dist/index.html')))
+    throw new Error('browser tests: dist/ is missing; run `vite build` first (npm run test:browser does)');
   dir = mkdtempSync(join(tmpdir(), 'ladder-bench-browser-'));
   writeFixtures(dir);
   const port = await freePort();
-  server = await preview({ root, configFile: join(root, 'vite.config.ts'), logLevel: 'warn', preview: { port, strictPort: true, host: '127.0.0.1', open: false } });
+  server = await preview({
+    root,
+    configFile: join(root, 'vite.config.ts'),
+    logLevel: 'warn',
+    preview: { port, strictPort: true, host: '127.0.0.1', open: false },
+  });
   project.provide('baseUrl', `http://127.0.0.1:${port}`);
   project.provide('fixtureDir', dir);
   return async () => {

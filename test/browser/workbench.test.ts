@@ -27,7 +27,9 @@ describe('workbench page', () => {
     await expect
       .poll(() =>
         page.evaluate(() => {
-          const gd = document.querySelector('[data-testid=spectrum-plot]') as unknown as { data?: { meta?: { kind?: string }; x: unknown[] }[] };
+          const gd = document.querySelector('[data-testid=spectrum-plot]') as unknown as {
+            data?: { meta?: { kind?: string }; x: unknown[] }[];
+          };
           const overlay = (document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null)?.dataset;
           const hasTrace = (gd.data ?? []).some((t) => t.meta?.kind === 'trace' && t.x.length > 0);
           return hasTrace && Number(overlay?.peaksDrawn) > 0 && Number(overlay?.rungsDrawn) > 100;
@@ -125,7 +127,12 @@ describe('workbench page', () => {
     await page.waitForTimeout(600);
     await page.screenshot({ path: `${SHOTS}/08-simulated.png` });
     // A double-click on the plot away from markers shows the whole trace again.
-    const xRange = () => page.evaluate(() => (document.querySelector('[data-testid=spectrum-plot]') as unknown as { _fullLayout: { xaxis: { range: number[] } } })._fullLayout.xaxis.range.map((v) => Math.round(v)));
+    const xRange = () =>
+      page.evaluate(() =>
+        (
+          document.querySelector('[data-testid=spectrum-plot]') as unknown as { _fullLayout: { xaxis: { range: number[] } } }
+        )._fullLayout.xaxis.range.map((v) => Math.round(v)),
+      );
     expect(await xRange()).not.toEqual([1033, 1252]);
     const overlayBox = (await page.locator('[data-testid=plot-overlay]').boundingBox())!;
     const traceArea = (await page.locator('[data-testid=spectrum-plot] .nsewdrag').last().boundingBox())!;

@@ -91,7 +91,9 @@ describe('assign (in process)', () => {
   it('seeds itself from the model when no lines are given (oblate top)', async () => {
     const r = await run(['--model', join(FIX, 'model-oblate-guess.json'), '--trace', oblateTrace]);
     expect(r.code).toBe(0);
-    expect(r.stderr).toMatch(/seed line\(s\) from the model alone \(origin [+-][\d.]+, B' [+-][\d.]+, B'' [+-][\d.]+ cm\^-1 applied first\)/);
+    expect(r.stderr).toMatch(
+      /seed line\(s\) from the model alone \(origin [+-][\d.]+, B' [+-][\d.]+, B'' [+-][\d.]+ cm\^-1 applied first\)/,
+    );
     const rows = rowsOf(r.stdout);
     expect(rows.length).toBeGreaterThan(200);
     const right = rows.filter((x) => syntheticIsCorrect(oblateBand, x, x.observedCm1)).length;
@@ -101,7 +103,16 @@ describe('assign (in process)', () => {
   });
 
   it('takes --tolerance as k of the k·σ window', async () => {
-    const wide = await run(['--model', join(FIX, 'model-guess.json'), '--trace', prolateTrace, '--lines', join(FIX, 'seeds.csv'), '--tolerance', '2']);
+    const wide = await run([
+      '--model',
+      join(FIX, 'model-guess.json'),
+      '--trace',
+      prolateTrace,
+      '--lines',
+      join(FIX, 'seeds.csv'),
+      '--tolerance',
+      '2',
+    ]);
     expect(wide.code).toBe(0);
     expect(wide.stdout).toMatch(/only peak within 2σ/);
   });
@@ -111,8 +122,14 @@ describe('assign (in process)', () => {
     const cases: [string[], RegExp][] = [
       [['--trace', prolateTrace], /^assign: missing required option --model\n$/],
       [['--model', model], /^assign: missing required option --trace\n$/],
-      [['--model', model, '--trace', prolateTrace, '--tolerance', '0'], /^assign: option --tolerance must be a number from 0\.5 to 20 \(σ\), got 0\n$/],
-      [['--model', model, '--trace', prolateTrace, '--tolerance', 'wide'], /^assign: option --tolerance must be a finite number, got 'wide'\n$/],
+      [
+        ['--model', model, '--trace', prolateTrace, '--tolerance', '0'],
+        /^assign: option --tolerance must be a number from 0\.5 to 20 \(σ\), got 0\n$/,
+      ],
+      [
+        ['--model', model, '--trace', prolateTrace, '--tolerance', 'wide'],
+        /^assign: option --tolerance must be a finite number, got 'wide'\n$/,
+      ],
       [['--model', model, '--trace', prolateTrace, '--colour', 'red'], /^assign: unknown option --colour/],
     ];
     for (const [args, message] of cases) {
@@ -128,9 +145,18 @@ describe('assign (in process)', () => {
     const cases: [string[], RegExp][] = [
       [['--model', model, '--trace', join(dir, 'missing.csv')], /^assign: cannot read '.*missing\.csv': no such file\n$/],
       [['--model', model, '--trace', join(FIX, 'trace-bad.csv')], /^assign: cannot read trace '.*trace-bad\.csv': .+\n$/],
-      [['--model', model, '--trace', prolateTrace, '--lines', join(FIX, 'seeds-bad-quanta.csv')], /^assign: .*seeds-bad-quanta\.csv: line 3: ΔK = 0 is not allowed in a perpendicular band/],
-      [['--model', model, '--trace', prolateTrace, '--lines', join(FIX, 'seeds-bad-number.csv')], /^assign: .*seeds-bad-number\.csv: line 2: wavenumber 'abc' is not a number/],
-      [['--model', join(ROOT, 'test/fixtures/models/bad-oblate-with-A.json'), '--trace', prolateTrace], /^assign: .*bad-oblate-with-A\.json: model file: field 'lower\.A'/],
+      [
+        ['--model', model, '--trace', prolateTrace, '--lines', join(FIX, 'seeds-bad-quanta.csv')],
+        /^assign: .*seeds-bad-quanta\.csv: line 3: ΔK = 0 is not allowed in a perpendicular band/,
+      ],
+      [
+        ['--model', model, '--trace', prolateTrace, '--lines', join(FIX, 'seeds-bad-number.csv')],
+        /^assign: .*seeds-bad-number\.csv: line 2: wavenumber 'abc' is not a number/,
+      ],
+      [
+        ['--model', join(ROOT, 'test/fixtures/models/bad-oblate-with-A.json'), '--trace', prolateTrace],
+        /^assign: .*bad-oblate-with-A\.json: model file: field 'lower\.A'/,
+      ],
     ];
     for (const [args, message] of cases) {
       const r = await run(args);
@@ -153,10 +179,24 @@ describe('assign (in process)', () => {
 describe('assign (subprocess)', () => {
   it('runs through npx tsx src/cli/main.ts with exit 0 and the same CSV as in process', async () => {
     const inProcess = await run(['--model', join(FIX, 'model-guess.json'), '--trace', prolateTrace, '--lines', join(FIX, 'seeds.csv')]);
-    const p = spawnSync('npx', ['tsx', 'src/cli/main.ts', 'assign', '--model', join(FIX, 'model-guess.json'), '--trace', prolateTrace, '--lines', join(FIX, 'seeds.csv')], {
-      cwd: ROOT,
-      encoding: 'utf8',
-    });
+    const p = spawnSync(
+      'npx',
+      [
+        'tsx',
+        'src/cli/main.ts',
+        'assign',
+        '--model',
+        join(FIX, 'model-guess.json'),
+        '--trace',
+        prolateTrace,
+        '--lines',
+        join(FIX, 'seeds.csv'),
+      ],
+      {
+        cwd: ROOT,
+        encoding: 'utf8',
+      },
+    );
     expect(p.status).toBe(0);
     const lines = p.stdout.trim().split('\n');
     expect(lines[0]).toBe(ASSIGN_COLUMNS.join(','));
@@ -168,10 +208,14 @@ describe('assign (subprocess)', () => {
   });
 
   it('gives one stderr line and a non-zero exit for a bad trace', () => {
-    const p = spawnSync('npx', ['tsx', 'src/cli/main.ts', 'assign', '--model', join(FIX, 'model-guess.json'), '--trace', join(FIX, 'trace-bad.csv')], {
-      cwd: ROOT,
-      encoding: 'utf8',
-    });
+    const p = spawnSync(
+      'npx',
+      ['tsx', 'src/cli/main.ts', 'assign', '--model', join(FIX, 'model-guess.json'), '--trace', join(FIX, 'trace-bad.csv')],
+      {
+        cwd: ROOT,
+        encoding: 'utf8',
+      },
+    );
     expect(p.status).not.toBe(0);
     expect(p.stderr.trim().split('\n')).toHaveLength(1);
     expect(p.stderr).toMatch(/trace-bad\.csv/);

@@ -46,7 +46,10 @@ describe('combdiff command (in process)', () => {
   });
 
   it('refuses a bad --state or --shape and too few pairs', async () => {
-    expect(await run(['--lines', HCL, '--state', 'middle'])).toMatchObject({ code: 1, stderr: "combdiff: option --state must be 'lower' or 'upper', got 'middle'\n" });
+    expect(await run(['--lines', HCL, '--state', 'middle'])).toMatchObject({
+      code: 1,
+      stderr: "combdiff: option --state must be 'lower' or 'upper', got 'middle'\n",
+    });
     expect((await run(['--lines', HCL, '--state', 'lower', '--shape', 'round'])).stderr).toMatch(/--shape must be 'prolate' or 'oblate'/);
     const few = 'J_up,K_up,J_lo,K_lo,wavenumber\n1,0,0,0,2906.25\n';
     const r = await run(['--lines', 'L.csv', '--state', 'lower'], { 'L.csv': few });
@@ -63,7 +66,10 @@ describe('combdiff command (in process)', () => {
 
 describe('combdiff command (subprocess)', () => {
   it('runs through npx tsx src/cli/main.ts', () => {
-    const stdout = execFileSync('npx', ['tsx', 'src/cli/main.ts', 'combdiff', '--lines', HCL, '--state', 'lower'], { cwd: ROOT, encoding: 'utf8' });
+    const stdout = execFileSync('npx', ['tsx', 'src/cli/main.ts', 'combdiff', '--lines', HCL, '--state', 'lower'], {
+      cwd: ROOT,
+      encoding: 'utf8',
+    });
     expect(JSON.parse(stdout).nPairs).toBe(8);
   });
 });

@@ -48,7 +48,19 @@ describe('fit command (in process)', () => {
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const json = JSON.parse(r.stdout);
-    for (const key of ['parameters', 'rms', 'sigmaW', 'nLines', 'residuals', 'warnings', 'lines', 'iterations', 'conditionNumber', 'correlation', 'nParameters']) {
+    for (const key of [
+      'parameters',
+      'rms',
+      'sigmaW',
+      'nLines',
+      'residuals',
+      'warnings',
+      'lines',
+      'iterations',
+      'conditionNumber',
+      'correlation',
+      'nParameters',
+    ]) {
       expect(json).toHaveProperty(key);
     }
     expect(json.nLines).toBe(150);
@@ -82,7 +94,16 @@ describe('fit command (in process)', () => {
     expect(r.code).toBe(0);
     const json = JSON.parse(r.stdout);
     expect(json.nLines).toBe(19);
-    expect(Object.keys(json.parameters).sort()).toEqual(['lower.B', 'lower.DJ', 'lower.HJ', 'upper.B', 'upper.DJ', 'upper.HJ', 'upper.origin', 'upper.q']);
+    expect(Object.keys(json.parameters).sort()).toEqual([
+      'lower.B',
+      'lower.DJ',
+      'lower.HJ',
+      'upper.B',
+      'upper.DJ',
+      'upper.HJ',
+      'upper.origin',
+      'upper.q',
+    ]);
     expect(Math.abs(json.parameters['lower.B'].value - 10.44) / json.parameters['lower.B'].sigma).toBeLessThan(3);
     expect(Math.abs(json.parameters['upper.B'].value - 10.133) / json.parameters['upper.B'].sigma).toBeLessThan(3);
   });
@@ -100,7 +121,8 @@ describe('fit command (in process)', () => {
   });
 
   it('names file, line and field for a bad lines file', async () => {
-    const csv = 'J_up,K_up,J_lo,K_lo,wavenumber\n1,0,0,0,813.2\n2,0,1,0,814.0\n0,0,1,0,811.6\n3,0,2,0,814.8\n1,0,2,0,810.8\nx,0,3,0,815.5\n';
+    const csv =
+      'J_up,K_up,J_lo,K_lo,wavenumber\n1,0,0,0,813.2\n2,0,1,0,814.0\n0,0,1,0,811.6\n3,0,2,0,814.8\n1,0,2,0,810.8\nx,0,3,0,815.5\n';
     const r = await run(['--model', 'm.json', '--lines', 'L.csv'], { 'm.json': LINEAR_MODEL, 'L.csv': csv });
     expect(r.code).toBe(1);
     expect(r.stderr).toBe("fit: L.csv: line 7: J_up 'x' is not a whole number\n");
@@ -123,7 +145,9 @@ describe('fit command (in process)', () => {
   });
 
   it('uses the default uncertainty 0.001 cm^-1 when the column is absent', async () => {
-    const lines = readFileSync(`${ROOT}/${FIX}/lines.csv`, 'utf8').replace(/,0\.0005$/gm, '').replace('wavenumber,uncertainty', 'wavenumber');
+    const lines = readFileSync(`${ROOT}/${FIX}/lines.csv`, 'utf8')
+      .replace(/,0\.0005$/gm, '')
+      .replace('wavenumber,uncertainty', 'wavenumber');
     const r = await run(['--model', `${FIX}/model.json`, '--lines', 'L.csv'], { 'L.csv': lines });
     const json = JSON.parse(r.stdout);
     expect(json.lines.every((l: { sigma: number }) => l.sigma === 0.001)).toBe(true);
@@ -148,11 +172,15 @@ describe('fit command (subprocess)', () => {
     let status = 0;
     let stderr = '';
     try {
-      execFileSync('npx', ['tsx', 'src/cli/main.ts', 'fit', '--model', `${FIX}/model-underdetermined.json`, '--lines', `${FIX}/lines.csv`], {
-        cwd: ROOT,
-        encoding: 'utf8',
-        stdio: ['ignore', 'pipe', 'pipe'],
-      });
+      execFileSync(
+        'npx',
+        ['tsx', 'src/cli/main.ts', 'fit', '--model', `${FIX}/model-underdetermined.json`, '--lines', `${FIX}/lines.csv`],
+        {
+          cwd: ROOT,
+          encoding: 'utf8',
+          stdio: ['ignore', 'pipe', 'pipe'],
+        },
+      );
     } catch (err) {
       status = (err as { status: number }).status;
       stderr = (err as { stderr: string }).stderr;

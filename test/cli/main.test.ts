@@ -69,7 +69,10 @@ describe('cliParseArgs, cliRequire, cliNumber', () => {
 
 describe('cli entry (subprocess)', () => {
   it('exits non-zero with one line on stderr for a missing model file via npm run cli', () => {
-    const r = spawnSync('npm', ['run', '--silent', 'cli', '--', 'simulate', '--model', 'no-such-model.json'], { cwd: ROOT, encoding: 'utf8' });
+    const r = spawnSync('npm', ['run', '--silent', 'cli', '--', 'simulate', '--model', 'no-such-model.json'], {
+      cwd: ROOT,
+      encoding: 'utf8',
+    });
     expect(r.status).toBe(1);
     expect(r.stdout).toBe('');
     expect(r.stderr).toBe("simulate: cannot read 'no-such-model.json': no such file\n");

@@ -101,10 +101,26 @@ describe('simulate command (in process)', () => {
 
   it.each([
     ['not JSON', '{', /model file is not valid JSON/],
-    ['a missing field', JSON.stringify({ shape: 'prolate', lower: {}, upper: {}, temperature: 296, jMax: 5, kMax: 2 }), /field 'band' is missing/],
-    ['a wrong type', JSON.stringify({ shape: 'prolate', band: 'parallel', lower: {}, upper: {}, temperature: 'hot', jMax: 5, kMax: 2 }), /field 'temperature' is the string "hot"/],
-    ['A on an oblate top', JSON.stringify({ shape: 'oblate', band: 'parallel', lower: { A: 1 }, upper: {}, temperature: 296, jMax: 5, kMax: 2 }), /field 'lower\.A'/],
-    ['an unknown constant', JSON.stringify({ shape: 'prolate', band: 'parallel', lower: { Bee: 1 }, upper: {}, temperature: 296, jMax: 5, kMax: 2 }), /field 'lower\.Bee'/],
+    [
+      'a missing field',
+      JSON.stringify({ shape: 'prolate', lower: {}, upper: {}, temperature: 296, jMax: 5, kMax: 2 }),
+      /field 'band' is missing/,
+    ],
+    [
+      'a wrong type',
+      JSON.stringify({ shape: 'prolate', band: 'parallel', lower: {}, upper: {}, temperature: 'hot', jMax: 5, kMax: 2 }),
+      /field 'temperature' is the string "hot"/,
+    ],
+    [
+      'A on an oblate top',
+      JSON.stringify({ shape: 'oblate', band: 'parallel', lower: { A: 1 }, upper: {}, temperature: 296, jMax: 5, kMax: 2 }),
+      /field 'lower\.A'/,
+    ],
+    [
+      'an unknown constant',
+      JSON.stringify({ shape: 'prolate', band: 'parallel', lower: { Bee: 1 }, upper: {}, temperature: 296, jMax: 5, kMax: 2 }),
+      /field 'lower\.Bee'/,
+    ],
   ])('refuses a model file with %s: exit 1, one line on stderr, no stack trace', async (_what, text, message) => {
     const r = await simulate(['--model', 'm.json'], { 'm.json': text });
     expect(r.code).toBe(1);

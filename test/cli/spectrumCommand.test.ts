@@ -130,7 +130,18 @@ describe('spectrum command (in process)', () => {
     const to = 1187;
     const step = 0.004;
     const gamma = 0.02;
-    const r = await run(['--model', PROLATE, '--from', String(from), '--to', String(to), '--step', String(step), '--lorentz', String(gamma)]);
+    const r = await run([
+      '--model',
+      PROLATE,
+      '--from',
+      String(from),
+      '--to',
+      String(to),
+      '--step',
+      String(step),
+      '--lorentz',
+      String(gamma),
+    ]);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const { header, x, y } = parseCsv(r.stdout);
@@ -210,7 +221,15 @@ describe('spectrum command (in process)', () => {
 
   it('refuses a bad model file in one line naming the field', async () => {
     const r = await run(['--model', 'bad.json', '--from', '900', '--to', '910', '--step', '0.01', '--mass', '50'], {
-      'bad.json': JSON.stringify({ shape: 'prolate', band: 'parallel', lower: { B: 'NaN' }, upper: {}, temperature: 296, jMax: 5, kMax: 2 }),
+      'bad.json': JSON.stringify({
+        shape: 'prolate',
+        band: 'parallel',
+        lower: { B: 'NaN' },
+        upper: {},
+        temperature: 296,
+        jMax: 5,
+        kMax: 2,
+      }),
     });
     expect(r.code).toBe(1);
     expect(r.stderr).toMatch(/^spectrum: bad\.json: model file: field 'lower\.B' is the string "NaN"/);
@@ -233,10 +252,28 @@ describe('spectrum command (subprocess)', () => {
     const m = memoryIo();
     expect(await cliMain(args, m.io)).toBe(0);
     expect(out).toBe(m.stdout());
-    const bad = spawnSync('npx', ['tsx', 'src/cli/main.ts', 'spectrum', '--model', FIXTURES + 'bad-oblate-with-A.json', '--from', '1', '--to', '2', '--step', '0.1', '--mass', '40'], {
-      cwd: ROOT,
-      encoding: 'utf8',
-    });
+    const bad = spawnSync(
+      'npx',
+      [
+        'tsx',
+        'src/cli/main.ts',
+        'spectrum',
+        '--model',
+        FIXTURES + 'bad-oblate-with-A.json',
+        '--from',
+        '1',
+        '--to',
+        '2',
+        '--step',
+        '0.1',
+        '--mass',
+        '40',
+      ],
+      {
+        cwd: ROOT,
+        encoding: 'utf8',
+      },
+    );
     expect(bad.status).toBe(1);
     expect(bad.stdout).toBe('');
     expect(bad.stderr.trimEnd().split('\n')).toHaveLength(1);

@@ -18,7 +18,9 @@ describe('assignmentCheck', () => {
 
   it('refuses a ΔK the band type forbids', () => {
     expect(assignmentCheck({ jUpper: 5, kUpper: 3, jLower: 4, kLower: 2 }, prolatePar)).toMatch(/ΔK = 1 is not allowed in a parallel band/);
-    expect(assignmentCheck({ jUpper: 5, kUpper: 2, jLower: 4, kLower: 2 }, prolatePerp)).toMatch(/ΔK = 0 is not allowed in a perpendicular band/);
+    expect(assignmentCheck({ jUpper: 5, kUpper: 2, jLower: 4, kLower: 2 }, prolatePerp)).toMatch(
+      /ΔK = 0 is not allowed in a perpendicular band/,
+    );
   });
 
   it('refuses negative and non-integer quantum numbers', () => {

@@ -70,11 +70,16 @@ describe('bandProblem', () => {
       const model = withHigherOrder(inventedModel(shape, band));
       const keys = fitParameterKeys(shape);
       const lines = simulatedLines(model, 80, 0.002, 7);
-      const posed = bandProblem(model, keys, {
-        quanta: lines,
-        observedCm1: Float64Array.from(lines, (l) => l.observedCm1),
-        uncertaintyCm1: Float64Array.from(lines, (l) => l.uncertaintyCm1),
-      }, { isCompressed: false });
+      const posed = bandProblem(
+        model,
+        keys,
+        {
+          quanta: lines,
+          observedCm1: Float64Array.from(lines, (l) => l.observedCm1),
+          uncertaintyCm1: Float64Array.from(lines, (l) => l.uncertaintyCm1),
+        },
+        { isCompressed: false },
+      );
       const r = new Float64Array(lines.length);
       posed.problem.residuals(posed.start, r);
       lines.forEach((l, i) => {

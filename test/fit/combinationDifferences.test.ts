@@ -105,7 +105,13 @@ describe('combinationDifferences', () => {
   });
 
   it('ignores excluded lines', () => {
-    const r = ok(combinationDifferences(HCL.map((l, i) => (i === 0 ? { ...l, isExcluded: true } : l)), 'lower', { shape: 'linear' }));
+    const r = ok(
+      combinationDifferences(
+        HCL.map((l, i) => (i === 0 ? { ...l, isExcluded: true } : l)),
+        'lower',
+        { shape: 'linear' },
+      ),
+    );
     expect(r.nPairs).toBe(7);
   });
 

@@ -63,7 +63,10 @@ describe('fitBand: degenerate and invalid input', () => {
 
   it('names a non-positive uncertainty', () => {
     const bad = lines.map((l, i) => (i === 2 ? { ...l, uncertaintyCm1: 0 } : l));
-    expect(fitBand({ model, floated, lines: bad })).toMatchObject({ ok: false, error: { kind: 'bad-input', message: expect.stringMatching(/lines\[2\]: uncertaintyCm1/) } });
+    expect(fitBand({ model, floated, lines: bad })).toMatchObject({
+      ok: false,
+      error: { kind: 'bad-input', message: expect.stringMatching(/lines\[2\]: uncertaintyCm1/) },
+    });
   });
 
   it('refuses impossible quantum numbers with the reason', () => {
@@ -73,10 +76,19 @@ describe('fitBand: degenerate and invalid input', () => {
   });
 
   it('refuses an unknown or repeated key and a NaN start value', () => {
-    expect(fitBand({ model, floated: ['upper.A'], lines })).toMatchObject({ ok: false, error: { kind: 'bad-input', parameters: ['upper.A'] } });
-    expect(fitBand({ model, floated: ['upper.B', 'upper.B'], lines })).toMatchObject({ ok: false, error: { message: expect.stringMatching(/twice/) } });
+    expect(fitBand({ model, floated: ['upper.A'], lines })).toMatchObject({
+      ok: false,
+      error: { kind: 'bad-input', parameters: ['upper.A'] },
+    });
+    expect(fitBand({ model, floated: ['upper.B', 'upper.B'], lines })).toMatchObject({
+      ok: false,
+      error: { message: expect.stringMatching(/twice/) },
+    });
     const nanModel = { ...model, lower: { ...model.lower, B: NaN } };
-    expect(fitBand({ model: nanModel, floated, lines })).toMatchObject({ ok: false, error: { message: expect.stringMatching(/lower\.B must be a finite number/) } });
+    expect(fitBand({ model: nanModel, floated, lines })).toMatchObject({
+      ok: false,
+      error: { message: expect.stringMatching(/lower\.B must be a finite number/) },
+    });
   });
 
   it('with nothing floated reports obs − calc of the given constants', () => {
@@ -103,8 +115,26 @@ describe('fitBand: round trips with seeded noise', () => {
   it('recovers a prolate perpendicular band (lower A and DK fixed) from perturbed start values', () => {
     const truth = inventedModel('prolate', 'perpendicular');
     const lines = simulatedLines(truth, 800, 0.0005, 42);
-    const start = perturbed(truth, { '+upper.origin': 0.05, 'upper.B': 1.0005, 'upper.A': 1.002, '+upper.zeta': 0.01, 'lower.B': 0.9995, 'upper.DJ': 1.2 });
-    const floated = ['upper.origin', 'upper.B', 'upper.A', 'upper.DJ', 'upper.DJK', 'upper.DK', 'upper.zeta', 'lower.B', 'lower.DJ', 'lower.DJK'];
+    const start = perturbed(truth, {
+      '+upper.origin': 0.05,
+      'upper.B': 1.0005,
+      'upper.A': 1.002,
+      '+upper.zeta': 0.01,
+      'lower.B': 0.9995,
+      'upper.DJ': 1.2,
+    });
+    const floated = [
+      'upper.origin',
+      'upper.B',
+      'upper.A',
+      'upper.DJ',
+      'upper.DJK',
+      'upper.DK',
+      'upper.zeta',
+      'lower.B',
+      'lower.DJ',
+      'lower.DJK',
+    ];
     const r = ok(fitBand({ model: start, floated, lines }));
     expectRecovered(r, truth);
     expect(r.parameters['lower.A']).toEqual({ value: truth.lower.A, sigma: 0, fixed: true });
@@ -137,7 +167,19 @@ describe('fitBand: round trips with seeded noise', () => {
   it('recovers a prolate parallel band with sextic HJ in both states', () => {
     const truth = inventedModel('prolate', 'parallel', { lower: { HJ: 4e-13 }, upper: { HJ: 5e-13 }, jMax: 80 });
     const lines = simulatedLines(truth, 1500, 0.0005, 11);
-    const floated = ['upper.origin', 'upper.B', 'upper.A', 'upper.DJ', 'upper.DJK', 'upper.DK', 'upper.HJ', 'lower.B', 'lower.DJ', 'lower.DJK', 'lower.HJ'];
+    const floated = [
+      'upper.origin',
+      'upper.B',
+      'upper.A',
+      'upper.DJ',
+      'upper.DJK',
+      'upper.DK',
+      'upper.HJ',
+      'lower.B',
+      'lower.DJ',
+      'lower.DJK',
+      'lower.HJ',
+    ];
     expectRecovered(ok(fitBand({ model: truth, floated, lines })), truth);
   });
 
@@ -162,9 +204,9 @@ describe('fitBand: round trips with seeded noise', () => {
   });
 
   it('fits the 5,000 strongest lines of benchmark W4 with 13 floated constants', () => {
-    // Workload W4 of ../shared/bench/workloads.json: uniform noise of sd 0.0005 cm^-1 with the same
+    // Workload W4 of bench/workloads.json: uniform noise of sd 0.0005 cm^-1 with the same
     // stated uncertainty, so σ_w ≈ 1. Correctness only; timing is in test/fit/w4Timing.ts.
-    const workloads = JSON.parse(readFileSync(new URL('../../../shared/bench/workloads.json', import.meta.url), 'utf8'));
+    const workloads = JSON.parse(readFileSync(new URL('../../bench/workloads.json', import.meta.url), 'utf8'));
     const { input, truth } = w4Input(workloads);
     const r = ok(fitBand(input));
     expect(r.nLines).toBe(5000);

@@ -9,7 +9,11 @@ import { inventedModel, simulatedLines } from './fitTestData';
 
 function fit(seed: number, count = 40): FitResult {
   const truth = inventedModel('linear', 'parallel');
-  const o = fitBand({ model: truth, floated: ['upper.origin', 'upper.B', 'upper.DJ', 'lower.B', 'lower.DJ'], lines: simulatedLines(truth, count, 0.001, seed) });
+  const o = fitBand({
+    model: truth,
+    floated: ['upper.origin', 'upper.B', 'upper.DJ', 'lower.B', 'lower.DJ'],
+    lines: simulatedLines(truth, count, 0.001, seed),
+  });
   if (!o.ok) throw new Error(o.error.message);
   return o.result;
 }

@@ -69,8 +69,7 @@ export function inventedModel(
 export function simulatedLines(model: BandModel, count: number, sigmaCm1: number, seed: number): FitLineInput[] {
   const l = bandLines(model);
   const order = Array.from({ length: l.count }, (_, i) => i).sort(
-    (a, b) =>
-      l.intensity[b] - l.intensity[a] || l.jLower[a] - l.jLower[b] || l.kLower[a] - l.kLower[b] || l.jUpper[a] - l.jUpper[b],
+    (a, b) => l.intensity[b] - l.intensity[a] || l.jLower[a] - l.jLower[b] || l.kLower[a] - l.kLower[b] || l.jUpper[a] - l.jUpper[b],
   );
   const g = seededGaussian(seed);
   return order.slice(0, count).map((i) => ({

@@ -15,7 +15,14 @@ const MISRA1A = {
     [500, 1e-4],
     [250, 5e-4],
   ],
-  certified: { b1: 2.3894212918e2, b2: 5.5015643181e-4, sd1: 2.7070075241, sd2: 7.2668688436e-6, rss: 1.2455138894e-1, residualSd: 1.018787633e-1 },
+  certified: {
+    b1: 2.3894212918e2,
+    b2: 5.5015643181e-4,
+    sd1: 2.7070075241,
+    sd2: 7.2668688436e-6,
+    rss: 1.2455138894e-1,
+    residualSd: 1.018787633e-1,
+  },
 };
 
 function misraProblem(): LeastSquaresProblem {

@@ -1,11 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { inverse, Matrix, SVD } from 'ml-matrix';
-import {
-  linearisePredictedDecrease,
-  lineariserCreate,
-  lineariseCovariance,
-  lineariseStep,
-} from '../../src/fit/leastSquaresLinearise';
+import { linearisePredictedDecrease, lineariserCreate, lineariseCovariance, lineariseStep } from '../../src/fit/leastSquaresLinearise';
 import { seededGaussian } from './fitTestData';
 
 /** A seeded m×n Jacobian with columns of very different scales (as B against HJ), plus residuals. */
@@ -63,7 +58,9 @@ describe('lineariserCreate', () => {
     const d = Matrix.diag([...lin.columnScale]);
     const js = mat.mmul(d);
     const lambda = 0.37;
-    const z = inverse(js.transpose().mmul(js).add(Matrix.eye(3).mul(lambda))).mmul(js.transpose()).mmul(rMat);
+    const z = inverse(js.transpose().mmul(js).add(Matrix.eye(3).mul(lambda)))
+      .mmul(js.transpose())
+      .mmul(rMat);
     const step = new Float64Array(3);
     lineariseStep(lin, lambda, step);
     for (let j = 0; j < 3; j++) expect(step[j] / (z.get(j, 0) * lin.columnScale[j])).toBeCloseTo(1, 10);

@@ -52,7 +52,18 @@ describe('rankDiagnosis (through fitBand)', () => {
     it(`refuses a ${shape} perpendicular band with ${u}″, ${u}′ and ζ floated and suggests fixing lower.${u}`, () => {
       const truth = inventedModel(shape, 'perpendicular');
       const lines = simulatedLines(truth, 500, 0.001, 2);
-      const floated = ['upper.origin', 'upper.B', `upper.${u}`, 'upper.zeta', 'upper.DJ', 'upper.DJK', 'lower.B', `lower.${u}`, 'lower.DJ', 'lower.DJK'];
+      const floated = [
+        'upper.origin',
+        'upper.B',
+        `upper.${u}`,
+        'upper.zeta',
+        'upper.DJ',
+        'upper.DJK',
+        'lower.B',
+        `lower.${u}`,
+        'lower.DJ',
+        'lower.DJK',
+      ];
       const e = refused({ model: truth, floated, lines });
       expect(e.kind).toBe('underdetermined');
       expect(e.parameters).toEqual(expect.arrayContaining([`upper.${u}`, `lower.${u}`, 'upper.zeta']));

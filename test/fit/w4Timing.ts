@@ -1,5 +1,5 @@
 /**
- * Timing script (not a unit test) for benchmark W4 of ../shared/bench/workloads.json:
+ * Timing script (not a unit test) for benchmark W4 of bench/workloads.json:
  * weighted fit of the 5,000 strongest W1 lines with 13 floated constants.
  * Run: npx tsx test/fit/w4Timing.ts
  */
@@ -76,7 +76,7 @@ export function w4Input(workloads: { W1: { cut: number; model: Record<string, un
 }
 
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
-  const workloads = JSON.parse(readFileSync(new URL('../../../shared/bench/workloads.json', import.meta.url), 'utf8'));
+  const workloads = JSON.parse(readFileSync(new URL('../../bench/workloads.json', import.meta.url), 'utf8'));
   const { input, truth } = w4Input(workloads);
   // Protocol of workloads.json: 1 warm-up, then the median of 5 timed runs. V8 reaches its
   // optimising tier only after a few calls, so a second figure follows a longer warm-up
@@ -96,7 +96,9 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
   const warmTimes = timeRuns();
   if (!outcome.ok) throw new Error(outcome.error.message);
   const res = outcome.result;
-  console.log(`W4: ${res.nLines} lines, ${res.nParameters} floated, ${res.iterations} iterations (${res.convergence}), σ_w = ${res.sigmaW}`);
+  console.log(
+    `W4: ${res.nLines} lines, ${res.nParameters} floated, ${res.iterations} iterations (${res.convergence}), σ_w = ${res.sigmaW}`,
+  );
   const median = (t: number[]) => t[Math.floor(t.length / 2)].toFixed(2);
   console.log(`1 warm-up:   times ms ${times.map((t) => t.toFixed(2)).join(' ')}; median ${median(times)} ms`);
   console.log(`21 warm-ups: times ms ${warmTimes.map((t) => t.toFixed(2)).join(' ')}; median ${median(warmTimes)} ms`);
@@ -104,6 +106,8 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
     const [side, name] = key.split('.') as ['lower' | 'upper', ParameterName];
     const p = res.parameters[key];
     const t = truth[side][name];
-    console.log(`${key.padEnd(14)} ${p.value.toPrecision(12).padStart(18)} ± ${p.sigma!.toExponential(2)}  (fit − truth)/σ = ${((p.value - t) / p.sigma!).toFixed(2)}`);
+    console.log(
+      `${key.padEnd(14)} ${p.value.toPrecision(12).padStart(18)} ± ${p.sigma!.toExponential(2)}  (fit − truth)/σ = ${((p.value - t) / p.sigma!).toFixed(2)}`,
+    );
   }
 }

@@ -86,7 +86,11 @@ describe('delimitedParse layouts', () => {
   });
   it('reads a file that mixes CRLF and LF line ends', () => {
     const c = parse('h1;h2\r\n1;2\n3;4\r\n5;6\n');
-    expect([Array.from(c.x), Array.from(c.y), Array.from(c.lines)]).toEqual([[1, 3, 5], [2, 4, 6], [2, 3, 4]]);
+    expect([Array.from(c.x), Array.from(c.y), Array.from(c.lines)]).toEqual([
+      [1, 3, 5],
+      [2, 4, 6],
+      [2, 3, 4],
+    ]);
   });
   it('counts lines correctly when a quoted field spans two lines', () => {
     const c = parse('"a\nb",y\n1,2\n3,4\n');
@@ -119,8 +123,12 @@ describe('delimitedParse agrees with the fast path on plain text', () => {
   it('gives identical columns for 5000 plain rows (comma and blank separated)', () => {
     // Seeded linear congruential values, so the test is reproducible.
     let s = 12345;
-    const rnd = () => ((s = (s * 1103515245 + 12345) % 2147483648) / 2147483648);
-    const rows = Array.from({ length: 5000 }, (_, i) => [(500 + i * 0.25).toFixed(4), (rnd() * 2 - 0.5).toExponential(5), rnd().toFixed(6)]);
+    const rnd = () => (s = (s * 1103515245 + 12345) % 2147483648) / 2147483648;
+    const rows = Array.from({ length: 5000 }, (_, i) => [
+      (500 + i * 0.25).toFixed(4),
+      (rnd() * 2 - 0.5).toExponential(5),
+      rnd().toFixed(6),
+    ]);
     for (const sep of [',', '  ']) {
       const text = rows.map((r) => r.join(sep)).join('\n') + '\n';
       const fast = delimitedParseNumeric(text, { yColumn: 2 })!;

@@ -44,7 +44,10 @@ describe('delimitedParseNumeric on plain text', () => {
   });
   it('reads CRLF line ends, blanks around commas, a missing final line end and trailing blank lines', () => {
     const r = delimitedParseNumeric('  1 , 2\r\n3 ,4\r\n5, 6\r\n\r\n  \n');
-    expect(r && [Array.from(r.x), Array.from(r.y)]).toEqual([[1, 3, 5], [2, 4, 6]]);
+    expect(r && [Array.from(r.x), Array.from(r.y)]).toEqual([
+      [1, 3, 5],
+      [2, 4, 6],
+    ]);
     expect(Array.from(delimitedParseNumeric('1,2\n3,4')!.y)).toEqual([2, 4]);
   });
   it('reads tab- and space-separated columns as blank-separated', () => {
@@ -52,7 +55,19 @@ describe('delimitedParseNumeric on plain text', () => {
     expect(r && [Array.from(r.x), Array.from(r.y), r.columns, r.delimiter]).toEqual([[1, 4], [3, 6], 3, 'whitespace']);
   });
   it('reads signs, exponents and forms without integer or fraction digits exactly as Number does', () => {
-    const fields = ['+1.5', '-0.25', '.5', '5.', '1e3', '-2.5E-4', '+7e+2', '0.000000000000000000000123', '12345678901234567890', '1e400', '-0'];
+    const fields = [
+      '+1.5',
+      '-0.25',
+      '.5',
+      '5.',
+      '1e3',
+      '-2.5E-4',
+      '+7e+2',
+      '0.000000000000000000000123',
+      '12345678901234567890',
+      '1e400',
+      '-0',
+    ];
     const text = fields.map((f) => `1,${f}\n`).join('');
     const r = delimitedParseNumeric(text)!;
     fields.forEach((f, i) => expect(Object.is(r.y[i], Number(f)), f).toBe(true));
@@ -82,9 +97,9 @@ describe('delimitedParseNumeric agrees bit for bit with Number()', () => {
     fc.double({ noNaN: true, noDefaultInfinity: true }).map((v) => String(v)),
     fc.tuple(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.integer({ min: 0, max: 12 })).map(([v, d]) => v.toFixed(d)),
     fc.tuple(fc.double({ noNaN: true, noDefaultInfinity: true }), fc.integer({ min: 0, max: 20 })).map(([v, d]) => v.toExponential(d)),
-    fc.tuple(fc.stringMatching(/^[0-9]{1,22}$/), fc.stringMatching(/^[0-9]{0,22}$/), fc.boolean()).map(
-      ([a, b, neg]) => `${neg ? '-' : ''}${a}.${b}`,
-    ),
+    fc
+      .tuple(fc.stringMatching(/^[0-9]{1,22}$/), fc.stringMatching(/^[0-9]{0,22}$/), fc.boolean())
+      .map(([a, b, neg]) => `${neg ? '-' : ''}${a}.${b}`),
   );
   it('for random rows of random fields (seed 20260101, 300 runs)', () => {
     fc.assert(

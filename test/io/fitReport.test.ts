@@ -85,7 +85,10 @@ describe('fitReportMarkdown', () => {
       .filter((l) => l.startsWith('| `'));
     expect(rows.length).toBe(result.floated.length);
     rows.forEach((r, i) => {
-      const cells = r.split('|').map((c) => c.trim()).slice(2, -1);
+      const cells = r
+        .split('|')
+        .map((c) => c.trim())
+        .slice(2, -1);
       expect(Number(cells[i])).toBe(1);
       for (let j = 0; j < i; j++) expect(Number(cells[j])).toBeCloseTo(result.correlation[i][j], 4);
     });

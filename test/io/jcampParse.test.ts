@@ -46,7 +46,11 @@ describe('jcampParse on files written to the standard', () => {
     expect(Array.from(c.y)).toEqual(Array.from(affn.y));
   });
   it('matches the CSV copy of the band (same numbers written as decimals)', () => {
-    const rows = fixture('band.csv').trim().split('\n').slice(1).map((l) => l.split(',').map(Number));
+    const rows = fixture('band.csv')
+      .trim()
+      .split('\n')
+      .slice(1)
+      .map((l) => l.split(',').map(Number));
     // Tolerance 1e-15 absolute: 579 × 1e-4 and Number("0.0579") may differ by one ulp.
     rows.forEach(([x, y], i) => {
       expect(affn.x[i]).toBe(x);
@@ -105,9 +109,9 @@ describe('jcampParse on files written to the standard', () => {
     expect(c.messages[0]).toBe('the file holds further blocks (line 18); only the first spectrum was read');
   });
   it('joins a title continued on the next line', () => {
-    expect(parse('##TITLE=a long\n  title\n##JCAMP-DX=4.24\n##FIRSTX=1\n##LASTX=2\n##NPOINTS=2\n##XYDATA=(X++(Y..Y))\n1 1 2\n##END=\n').title).toBe(
-      'a long title',
-    );
+    expect(
+      parse('##TITLE=a long\n  title\n##JCAMP-DX=4.24\n##FIRSTX=1\n##LASTX=2\n##NPOINTS=2\n##XYDATA=(X++(Y..Y))\n1 1 2\n##END=\n').title,
+    ).toBe('a long title');
   });
   it('takes the abscissa step from DELTAX when LASTX is missing, and counts points without NPOINTS', () => {
     const c = parse('##TITLE=t\n##JCAMP-DX=4.24\n##FIRSTX=10\n##DELTAX=-0.5\n##XYDATA=(X++(Y..Y))\n10 1 2 3\n##END=\n');
@@ -125,7 +129,9 @@ describe('jcampParse refusals and warnings', () => {
     // Line 2 of the table starts with the check value B036 (2036); make it C036 (3036).
     const bad = difdup.replace('\n1084B036', '\n1084C036');
     const e = refusal(bad);
-    expect(e.message).toBe(`line ${firstData + 2}: DIF y-check failed: the first ordinate 3036 should repeat the last ordinate 2036 of line ${firstData + 1}`);
+    expect(e.message).toBe(
+      `line ${firstData + 2}: DIF y-check failed: the first ordinate 3036 should repeat the last ordinate 2036 of line ${firstData + 1}`,
+    );
     expect(e.line).toBe(firstData + 2);
   });
   it('refuses a wrong compression character with line and column', () => {
@@ -138,7 +144,9 @@ describe('jcampParse refusals and warnings', () => {
     const e = refusal(cut);
     const n = cut.split('\n').length;
     expect(e.message).toMatch(
-      new RegExp(`^line ${firstData + 3}: ##NPOINTS=64 \\(line 16\\) but the data table \\(lines ${firstData + 1}–${firstData + 3}\\) holds 39 points; the file ends at line ${n} without ##END= \\(truncated\\?\\)$`),
+      new RegExp(
+        `^line ${firstData + 3}: ##NPOINTS=64 \\(line 16\\) but the data table \\(lines ${firstData + 1}–${firstData + 3}\\) holds 39 points; the file ends at line ${n} without ##END= \\(truncated\\?\\)$`,
+      ),
     );
   });
   it('refuses an NPOINTS larger than the table', () => {
@@ -194,7 +202,9 @@ describe('jcampParse refusals and warnings', () => {
     expect(refusal('##TITLE=t\n##XYPOINTS=(XY..XY)\n1,2 3\n##END=\n').message).toBe(
       'line 3: the (XY..XY) table ends with an abscissa without its ordinate',
     );
-    expect(refusal('##TITLE=t\n##XYPOINTS=(XY..XY)\n1,2 3,x4\n##END=\n').message).toBe("line 3: 'x4' is not a number in the (XY..XY) table");
+    expect(refusal('##TITLE=t\n##XYPOINTS=(XY..XY)\n1,2 3,x4\n##END=\n').message).toBe(
+      "line 3: 'x4' is not a number in the (XY..XY) table",
+    );
   });
   it('notes a missing ##END= when the counts still agree', () => {
     const c = parse(head('', 3) + '1 1 2 3\n');

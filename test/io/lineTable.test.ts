@@ -77,7 +77,9 @@ describe('lineTableParse', () => {
   });
 
   it('names a missing required column and a repeated one', () => {
-    expect(parseError('J_up,K_up,J_lo,wavenumber\n')).toMatch(/^L.csv: line 1: header lacks column K_lo \(found: J_up, K_up, J_lo, wavenumber\)/);
+    expect(parseError('J_up,K_up,J_lo,wavenumber\n')).toMatch(
+      /^L.csv: line 1: header lacks column K_lo \(found: J_up, K_up, J_lo, wavenumber\)/,
+    );
     expect(parseError('J_up,K_up,J_lo,K_lo,wavenumber,j_up\n')).toMatch(/line 1: column 'j_up' appears twice/);
   });
 
@@ -104,11 +106,34 @@ describe('lineTableSerialize', () => {
     const [header, row] = csv.trimEnd().split('\n');
     expect(header.split(',')).toEqual([...LINE_TABLE_COLUMNS]);
     const cells = row.split(',');
-    expect(cells.slice(0, 11)).toEqual(['1', '0', '0', '0', '2906.25', '0.05', 'R(0)', '2906.2', String(2906.25 - 2906.2), 'outlier', 'R(0)']);
+    expect(cells.slice(0, 11)).toEqual([
+      '1',
+      '0',
+      '0',
+      '0',
+      '2906.25',
+      '0.05',
+      'R(0)',
+      '2906.2',
+      String(2906.25 - 2906.2),
+      'outlier',
+      'R(0)',
+    ]);
   });
 
   it('labels symmetric-top lines ^ΔK ΔJ_K″(J″)', () => {
-    const a: Assignment = { id: 'x', jUpper: 12, kUpper: 4, jLower: 12, kLower: 3, observedCm1: 1, uncertaintyCm1: 1, isBlended: false, isExcluded: false, note: '' };
+    const a: Assignment = {
+      id: 'x',
+      jUpper: 12,
+      kUpper: 4,
+      jLower: 12,
+      kLower: 3,
+      observedCm1: 1,
+      uncertaintyCm1: 1,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+    };
     expect(lineTableSerialize([a], { shape: 'prolate' }).split('\n')[1].split(',')[6]).toBe('rQ3(12)');
   });
 

@@ -72,7 +72,9 @@ describe('modelFileParse: refusals name the field', () => {
     expect(refusal({ lower: { B: 0.3, X: 1 } })).toMatch(/field 'lower\.X' is not a lower-state constant/);
     expect(refusal({ lower: { B: 0.3, zeta: 0.2 } })).toMatch(/field 'lower\.zeta'/);
     expect(refusal({ lower: { B: 0.3, origin: 1 } })).toMatch(/field 'lower\.origin'/);
-    expect(refusal({ shape: 'linear', lower: { B: 0.3 }, upper: { origin: 1, B: 0.3, zeta: 0.1 } })).toMatch(/field 'upper\.zeta' .*linear/);
+    expect(refusal({ shape: 'linear', lower: { B: 0.3 }, upper: { origin: 1, B: 0.3, zeta: 0.1 } })).toMatch(
+      /field 'upper\.zeta' .*linear/,
+    );
   });
 });
 
@@ -153,7 +155,15 @@ describe('modelFileSerialize', () => {
                 .map(([k, [v, fixed]]) => [k, fixed ? { value: v, fixed: true } : v]),
             );
           };
-          const text = JSON.stringify({ shape, band, lower: keep('lower', lower), upper: keep('upper', upper), temperature, jMax: 20, kMax: 5 });
+          const text = JSON.stringify({
+            shape,
+            band,
+            lower: keep('lower', lower),
+            upper: keep('upper', upper),
+            temperature,
+            jMax: 20,
+            kMax: 5,
+          });
           const a = modelFileParse(text);
           const b = modelFileParse(modelFileSerialize(a));
           expect(b.model).toEqual(a.model);

@@ -58,8 +58,31 @@ function session(): ProjectSession {
     peakMinSnr: 5,
     peakBaseline: false,
     assignments: [
-      { id: 'a1', jUpper: 5, kUpper: 2, jLower: 4, kLower: 1, observedCm1: 1150.123456789, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: 'note, with "quotes"\nand a newline', peakId: 'pk1150.12346' },
-      { id: 'a2', jUpper: 6, kUpper: 2, jLower: 5, kLower: 1, observedCm1: 1150.7, uncertaintyCm1: 0.002, isBlended: true, isExcluded: true, note: '' },
+      {
+        id: 'a1',
+        jUpper: 5,
+        kUpper: 2,
+        jLower: 4,
+        kLower: 1,
+        observedCm1: 1150.123456789,
+        uncertaintyCm1: 0.001,
+        isBlended: false,
+        isExcluded: false,
+        note: 'note, with "quotes"\nand a newline',
+        peakId: 'pk1150.12346',
+      },
+      {
+        id: 'a2',
+        jUpper: 6,
+        kUpper: 2,
+        jLower: 5,
+        kLower: 1,
+        observedCm1: 1150.7,
+        uncertaintyCm1: 0.002,
+        isBlended: true,
+        isExcluded: true,
+        note: '',
+      },
     ],
     nextAssignmentNumber: 3,
     farToleranceCm1: 0.02,
@@ -215,7 +238,17 @@ describe('projectFileSerialize / projectFileParse', () => {
     const v1 = {
       format: PROJECT_FORMAT,
       version: 1,
-      model: { name: 'old', shape: 'prolate', band: 'parallel', lower: { B: 0.3, A: { value: 5, fixed: true } }, upper: { origin: 900, B: 0.299, A: 4.9 }, temperature: 250, jMax: 30, kMax: 5, mass: 40 },
+      model: {
+        name: 'old',
+        shape: 'prolate',
+        band: 'parallel',
+        lower: { B: 0.3, A: { value: 5, fixed: true } },
+        upper: { origin: 900, B: 0.299, A: 4.9 },
+        temperature: 250,
+        jMax: 30,
+        kMax: 5,
+        mass: 40,
+      },
       trace: { wavenumberCm1: [899, 900, 901], absorbance: [0.1, 0.5, 0.1] },
       assignments: [{ J_up: 3, K_up: 1, J_lo: 2, K_lo: 1, obs: 901.2, sigma: 0.002, note: 'x' }],
       view: { xRange: [899, 901] },
@@ -229,7 +262,20 @@ describe('projectFileSerialize / projectFileParse', () => {
     expect(r.session.floated).toEqual(['lower.B', 'upper.origin', 'upper.B', 'upper.A']);
     expect(r.session.massAmu).toBe(40);
     expect(Array.from(r.session.trace!.absorbance)).toEqual([0.1, 0.5, 0.1]);
-    expect(r.session.assignments).toEqual([{ id: 'a1', jUpper: 3, kUpper: 1, jLower: 2, kLower: 1, observedCm1: 901.2, uncertaintyCm1: 0.002, isBlended: false, isExcluded: false, note: 'x' }]);
+    expect(r.session.assignments).toEqual([
+      {
+        id: 'a1',
+        jUpper: 3,
+        kUpper: 1,
+        jLower: 2,
+        kLower: 1,
+        observedCm1: 901.2,
+        uncertaintyCm1: 0.002,
+        isBlended: false,
+        isExcluded: false,
+        note: 'x',
+      },
+    ]);
     expect(r.messages.join(' ')).toMatch(/migrated from project version 1/);
   });
 });
@@ -271,7 +317,10 @@ describe('project file with fields saved apart (the autosave layout)', () => {
     const head = projectFileSerialize(s, header, PROJECT_PART_NAMES);
     expect(JSON.parse(head).session).not.toHaveProperty('assignments');
     expect(JSON.parse(head).session).not.toHaveProperty('fit');
-    const split = projectFileParse(head, { assignments: projectPartSerialize('assignments', s.assignments), fit: projectPartSerialize('fit', s.fit) });
+    const split = projectFileParse(head, {
+      assignments: projectPartSerialize('assignments', s.assignments),
+      fit: projectPartSerialize('fit', s.fit),
+    });
     expect(split).toEqual(whole);
     // The fit's condition number of ∞ survives in its part as in the file.
     if (split.ok && split.session.fit?.outcome?.ok) expect(split.session.fit.outcome.result.conditionNumber).toBe(Infinity);
@@ -304,7 +353,10 @@ describe('project file with fields saved apart (the autosave layout)', () => {
 
   it('says which part could not be read and loads the rest with that field at its default', () => {
     const s = session();
-    const r = projectFileParse(projectFileSerialize(s, header, PROJECT_PART_NAMES), { assignments: '[{"id": ', fit: projectPartSerialize('fit', s.fit) });
+    const r = projectFileParse(projectFileSerialize(s, header, PROJECT_PART_NAMES), {
+      assignments: '[{"id": ',
+      fit: projectPartSerialize('fit', s.fit),
+    });
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     expect(r.session.assignments).toBeUndefined();

@@ -29,11 +29,19 @@ describe('traceAssemble', () => {
   });
   it('keeps an ascending axis as it is', () => {
     const v = run(input([1, 2, 3], [0.1, 0.2, 0.3]));
-    expect([Array.from(v.trace.wavenumberCm1), Array.from(v.trace.absorbance), v.wasDescending]).toEqual([[1, 2, 3], [0.1, 0.2, 0.3], false]);
+    expect([Array.from(v.trace.wavenumberCm1), Array.from(v.trace.absorbance), v.wasDescending]).toEqual([
+      [1, 2, 3],
+      [0.1, 0.2, 0.3],
+      false,
+    ]);
   });
   it('reverses a descending axis and says so', () => {
     const v = run(input([3, 2, 1], [0.3, 0.2, 0.1]));
-    expect([Array.from(v.trace.wavenumberCm1), Array.from(v.trace.absorbance), v.wasDescending]).toEqual([[1, 2, 3], [0.1, 0.2, 0.3], true]);
+    expect([Array.from(v.trace.wavenumberCm1), Array.from(v.trace.absorbance), v.wasDescending]).toEqual([
+      [1, 2, 3],
+      [0.1, 0.2, 0.3],
+      true,
+    ]);
   });
   it('sorts an unordered axis, naming the first reversal, and accepts uneven spacing', () => {
     const v = run(input([1, 2.5, 2, 7], [1, 2.5, 2, 7], { lines: Int32Array.from([10, 11, 12, 13]) }));
@@ -52,9 +60,17 @@ describe('traceAssemble', () => {
   it('converts µm and nm to wavenumbers (ν̃ = 1e4/λ, 1e7/λ) and stores them ascending', () => {
     // Ref: ν̃ = 1/λ (IUPAC Green Book §2.7); exact quotients, so exact comparison.
     const um = run(input([2.5, 5, 10], [1, 2, 3], { xUnit: 'um' }));
-    expect([Array.from(um.trace.wavenumberCm1), Array.from(um.trace.absorbance), um.wasDescending]).toEqual([[1000, 2000, 4000], [3, 2, 1], false]);
+    expect([Array.from(um.trace.wavenumberCm1), Array.from(um.trace.absorbance), um.wasDescending]).toEqual([
+      [1000, 2000, 4000],
+      [3, 2, 1],
+      false,
+    ]);
     const nm = run(input([5000, 2500, 2000], [1, 2, 3], { xUnit: 'nm' }));
-    expect([Array.from(nm.trace.wavenumberCm1), Array.from(nm.trace.absorbance), nm.wasDescending]).toEqual([[2000, 4000, 5000], [1, 2, 3], true]);
+    expect([Array.from(nm.trace.wavenumberCm1), Array.from(nm.trace.absorbance), nm.wasDescending]).toEqual([
+      [2000, 4000, 5000],
+      [1, 2, 3],
+      true,
+    ]);
   });
   it('skips non-positive wavelengths and non-finite values with their reasons', () => {
     const i = input([0, 2, -1, 4, 5], [1, Infinity, 1, 1, 1], { xUnit: 'um' });

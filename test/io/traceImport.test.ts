@@ -90,7 +90,12 @@ describe('importTrace on delimited fixtures', () => {
   });
   it('reads a tab-separated %T file (header "%T") and converts to absorbance', () => {
     const { trace, report } = loadFixture('tab_percent_descending.txt');
-    expect(report).toMatchObject({ ordinate: 'percent-transmittance', delimiter: '\t', columnNames: ['Wavenumber', '%T'], wasDescending: true });
+    expect(report).toMatchObject({
+      ordinate: 'percent-transmittance',
+      delimiter: '\t',
+      columnNames: ['Wavenumber', '%T'],
+      wasDescending: true,
+    });
     // Ref: A = 2 − log10(%T) (IUPAC Gold Book); rows 1000.0 → 98.9 %T and 1002.0 → 35.0 %T. Tolerance 1e-15 (round-off).
     expect(trace.wavenumberCm1[0]).toBe(1000);
     expect(trace.absorbance[0]).toBeCloseTo(2 - Math.log10(98.9), 15);
@@ -126,10 +131,18 @@ describe('importTrace on delimited fixtures', () => {
   });
   it('reads the chosen column of a file with extra columns', () => {
     const { trace, report } = loadFixture('extra_columns.csv', { yColumn: 3 });
-    expect(report).toMatchObject({ yColumn: 3, ordinate: 'absorbance', columnNames: ['wavenumber', 'sample single beam', 'reference single beam', 'absorbance', 'flag'] });
+    expect(report).toMatchObject({
+      yColumn: 3,
+      ordinate: 'absorbance',
+      columnNames: ['wavenumber', 'sample single beam', 'reference single beam', 'absorbance', 'flag'],
+    });
     // The fixture's absorbance column is −log10(sample/reference) rounded to 7 decimals (Beer–Lambert);
     // tolerance 5e-8 = half a unit in the 7th decimal.
-    const rows = fixture('extra_columns.csv').trim().split('\n').slice(1).map((l) => l.split(','));
+    const rows = fixture('extra_columns.csv')
+      .trim()
+      .split('\n')
+      .slice(1)
+      .map((l) => l.split(','));
     rows.forEach((r, i) => expect(Math.abs(trace.absorbance[i] + Math.log10(Number(r[1]) / Number(r[2])))).toBeLessThan(5e-8));
   });
   it('reads the single-beam column as transmittance-like when asked (yColumn 1, ordinate override)', () => {
@@ -165,7 +178,9 @@ describe('importTrace on delimited fixtures', () => {
   });
   it('hints at µm when an unlabelled axis spans 2.5–25', () => {
     const { report } = load('2.5,0.1\n10,0.2\n25,0.3\n');
-    expect(report.messages).toContain("the abscissa runs from 2.5 to 25 and was read as cm^-1; if these are wavelengths in µm, set xUnit to 'um'");
+    expect(report.messages).toContain(
+      "the abscissa runs from 2.5 to 25 and was read as cm^-1; if these are wavelengths in µm, set xUnit to 'um'",
+    );
   });
   it('honours xUnit and ordinate overrides', () => {
     const { trace, report } = load('2.5,50\n10,10\n', 'a.csv', { xUnit: 'um', ordinate: 'percent-transmittance' });
@@ -192,7 +207,12 @@ describe('importTrace on JCAMP-DX fixtures', () => {
   it('reads the DIFDUP fixture (5.01) like its CSV copy', () => {
     const jdx = loadFixture('band_difdup.jdx');
     const csv = loadFixture('band.csv');
-    expect(jdx.report).toMatchObject({ format: 'jcamp-dx', points: 64, wasDescending: true, title: 'fictitious band, (X++(Y..Y)) band_difdup.jdx' });
+    expect(jdx.report).toMatchObject({
+      format: 'jcamp-dx',
+      points: 64,
+      wasDescending: true,
+      title: 'fictitious band, (X++(Y..Y)) band_difdup.jdx',
+    });
     expect(arr(jdx.trace.wavenumberCm1)).toEqual(arr(csv.trace.wavenumberCm1));
     // Tolerance 1e-15: integer × YFACTOR against the decimal text (one ulp).
     arr(jdx.trace.absorbance).forEach((a, i) => expect(Math.abs(a - csv.trace.absorbance[i])).toBeLessThan(1e-15));
@@ -243,14 +263,18 @@ describe('importTrace ordinate round trips', () => {
 
 describe('importTrace progress and purity', () => {
   const rows = (n: number, sep = ',', dec = '.') =>
-    Array.from({ length: n }, (_, i) => `${(400 + i * 0.01).toFixed(4)}${sep}${(0.5 + 0.4 * Math.sin(i / 50)).toFixed(6)}`.replace(/\./g, dec)).join('\n');
+    Array.from({ length: n }, (_, i) =>
+      `${(400 + i * 0.01).toFixed(4)}${sep}${(0.5 + 0.4 * Math.sin(i / 50)).toFixed(6)}`.replace(/\./g, dec),
+    ).join('\n');
   it.each([
     ['the fast path', rows(200000)],
     ['the papaparse path', rows(200000, ';', ',')],
     [
       'the JCAMP-DX reader',
       '##TITLE=big\n##JCAMP-DX=4.24\n##XUNITS=1/CM\n##YUNITS=ABSORBANCE\n##FIRSTX=0\n##LASTX=49999\n##NPOINTS=50000\n##XYDATA=(X++(Y..Y))\n' +
-        Array.from({ length: 5000 }, (_, k) => `${k * 10} ${Array.from({ length: 10 }, (_, j) => (k * 10 + j) % 977).join(' ')}`).join('\n') +
+        Array.from({ length: 5000 }, (_, k) => `${k * 10} ${Array.from({ length: 10 }, (_, j) => (k * 10 + j) % 977).join(' ')}`).join(
+          '\n',
+        ) +
         '\n##END=\n',
     ],
   ])('reports monotone progress from 0 to 1 in steps ≤ 5 %% on a large input read by %s', (_label, text) => {

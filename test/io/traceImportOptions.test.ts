@@ -13,7 +13,11 @@ describe('traceImportOptionsResolve', () => {
     [{ yColumn: 0 }, 'yColumn', 'importTrace: options.yColumn must be an integer >= 1 (column 0 is the abscissa), got 0'],
     [{ yColumn: 1.5 }, 'yColumn', 'importTrace: options.yColumn must be an integer >= 1 (column 0 is the abscissa), got 1.5'],
     [{ xUnit: 'furlong' }, 'xUnit', 'importTrace: options.xUnit must be auto | cm-1 | um | nm, got "furlong"'],
-    [{ ordinate: 'T' }, 'ordinate', 'importTrace: options.ordinate must be auto | absorbance | transmittance | percent-transmittance, got "T"'],
+    [
+      { ordinate: 'T' },
+      'ordinate',
+      'importTrace: options.ordinate must be auto | absorbance | transmittance | percent-transmittance, got "T"',
+    ],
     [{ decimal: ':' }, 'decimal', `importTrace: options.decimal must be auto | '.' | ',', got ":"`],
     [{ maxChars: -1 }, 'maxChars', 'importTrace: options.maxChars must be a positive number, got -1'],
   ])('refuses %o naming the field', (options, field, message) => {

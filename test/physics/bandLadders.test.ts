@@ -71,7 +71,7 @@ describe('bandLadders', () => {
     expect(rq0.lineIndex.length).toBe(15);
   });
 
-  it('labels a linear band\'s ladders by branch only', () => {
+  it("labels a linear band's ladders by branch only", () => {
     const lin: BandModel = {
       ...PERP,
       shape: 'linear',

@@ -111,7 +111,10 @@ describe('bandLines: selection rules', () => {
   for (const [name, m] of [
     ['prolate perpendicular', PERP],
     ['prolate parallel', PAR],
-    ['oblate perpendicular', model({ shape: 'oblate', lower: { B: 0.25, C: 0.13 }, upper: { origin: 900, B: 0.249, C: 0.129, zeta: -0.3 }, jMax: 25, kMax: 25 })],
+    [
+      'oblate perpendicular',
+      model({ shape: 'oblate', lower: { B: 0.25, C: 0.13 }, upper: { origin: 900, B: 0.249, C: 0.129, zeta: -0.3 }, jMax: 25, kMax: 25 }),
+    ],
     ['linear Σ–Σ', model({ shape: 'linear', band: 'parallel', lower: { B: 0.39 }, upper: { origin: 2349, B: 0.387 }, jMax: 40 })],
     ['linear Π–Σ', model({ shape: 'linear', lower: { B: 0.39 }, upper: { origin: 667, B: 0.39, q: 4e-4 }, jMax: 40 })],
     ['spin weights [1, 0, 0]', { ...PERP, spinWeights: [1, 0, 0] }],
@@ -142,7 +145,8 @@ describe('bandLines: selection rules', () => {
     const plain = rows(bandLines({ ...PERP, spinWeights: [1] }));
     const weighted = rows(w);
     // Compare ratios to the same reference line so the normalisation cancels (tol: round-off 1e-12).
-    const key = (x: { jLower: number; kLower: number; deltaJ: number; deltaK: number }) => `${x.jLower},${x.kLower},${x.deltaJ},${x.deltaK}`;
+    const key = (x: { jLower: number; kLower: number; deltaJ: number; deltaK: number }) =>
+      `${x.jLower},${x.kLower},${x.deltaJ},${x.deltaK}`;
     const ref = plain.find((x) => x.kLower === 0 && x.jLower === 10 && x.deltaJ === 1)!;
     const refW = weighted.find((x) => key(x) === key(ref))!;
     for (const x of weighted) {
@@ -160,7 +164,7 @@ describe('bandLines: selection rules', () => {
 });
 
 describe('bandLines: positions', () => {
-  it('puts every line at E′ − E″ of the contract\'s term values', () => {
+  it("puts every line at E′ − E″ of the contract's term values", () => {
     const { lower: lo, upper: up } = PERP;
     for (const x of rows(bandLines(PERP))) {
       const coriolis = 2 * up.A * up.zeta * x.kUpper * (x.deltaK > 0 ? -1 : 1);
@@ -201,7 +205,8 @@ describe('bandLines: positions', () => {
     const lo = { B: 0.32, A: 2.6 };
     const up = { origin: 1150, B: 0.32, A: 2.6 - 1e-4, zeta: 0.25 };
     const lines = rows(bandLines(model({ lower: lo, upper: up, jMax: 30, kMax: 12 })));
-    const head = (K: number, s: number) => lines.find((x) => x.deltaJ === 0 && x.kLower === K && x.deltaK === s && x.jLower === K + (s > 0 ? 1 : 0))!.nu;
+    const head = (K: number, s: number) =>
+      lines.find((x) => x.deltaJ === 0 && x.kLower === K && x.deltaK === s && x.jLower === K + (s > 0 ? 1 : 0))!.nu;
     const spacing = 2 * (up.A * (1 - up.zeta) - up.B);
     for (let K = 1; K < 12; K++) {
       expect(Math.abs((head(K + 1, 1) - head(K, 1)) / spacing - 1)).toBeLessThan(0.01);
@@ -271,7 +276,14 @@ describe('bandLines: intensities', () => {
 
   it('keeps the stimulated-emission factor accurate for a far-infrared band (c2ν/T ≪ 1)', () => {
     // ν ≈ 20 cm^-1 at 1000 K: x = c2ν/T ≈ 0.03, where 1 − e^{−x} must not lose digits.
-    const m = model({ band: 'parallel', lower: { B: 0.32, A: 2.6 }, upper: { origin: 20, B: 0.319, A: 2.6 }, temperatureK: 1000, jMax: 10, kMax: 3 });
+    const m = model({
+      band: 'parallel',
+      lower: { B: 0.32, A: 2.6 },
+      upper: { origin: 20, B: 0.319, A: 2.6 },
+      temperatureK: 1000,
+      jMax: 10,
+      kMax: 3,
+    });
     const r = rows(bandLines(m));
     const c2 = 1.438776877;
     const raw = r.map((x) => x.nu * (x.kLower === 0 ? 1 : 2) * x.hl * Math.exp((-c2 * x.eLower) / 1000) * -Math.expm1((-c2 * x.nu) / 1000));

@@ -1,10 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import {
-  bandSymmetryPointGroups,
-  bandSymmetrySpecies,
-  bandSymmetryTable,
-  bandTypeFromSymmetry,
-} from '../../src/physics/bandSymmetry';
+import { bandSymmetryPointGroups, bandSymmetrySpecies, bandSymmetryTable, bandTypeFromSymmetry } from '../../src/physics/bandSymmetry';
 
 // Reference tables, written out here independently of the module.
 // Ref: F. A. Cotton, Chemical Applications of Group Theory, 3rd ed. (1990), Appendix IIA
@@ -79,8 +74,7 @@ const EXPECTED: Record<string, Expected> = {
 type M3 = number[]; // row-major 3×3
 const mul = (a: M3, b: M3): M3 => {
   const c = new Array<number>(9).fill(0);
-  for (let i = 0; i < 3; i++)
-    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) c[3 * i + j] += a[3 * i + k] * b[3 * k + j];
+  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) c[3 * i + j] += a[3 * i + k] * b[3 * k + j];
   return c;
 };
 const transpose = (a: M3): M3 => [a[0], a[3], a[6], a[1], a[4], a[7], a[2], a[5], a[8]];
@@ -142,8 +136,7 @@ function classCount(group: M3[]): number {
   return count;
 }
 
-const isAbelian = (group: M3[]): boolean =>
-  group.every((a) => group.every((b) => keyOf(mul(a, b)) === keyOf(mul(b, a))));
+const isAbelian = (group: M3[]): boolean => group.every((a) => group.every((b) => keyOf(mul(a, b)) === keyOf(mul(b, a))));
 
 // Σ_R |χ(R)|² / h for the z (χ = R_zz) and (x, y) (χ = R_xx + R_yy) representations.
 // Ref: Cotton (1990) §4.3, eq. 4.3-4: the sum is h exactly for an irreducible representation,
@@ -306,9 +299,7 @@ describe('bandTypeFromSymmetry label handling', () => {
   });
 
   it('rejects a species not in the group, listing the valid species', () => {
-    expect(() => bandTypeFromSymmetry('C3v', 'B1')).toThrow(
-      /bandTypeFromSymmetry: species "B1" is not a species of C3v; valid: A1, A2, E/,
-    );
+    expect(() => bandTypeFromSymmetry('C3v', 'B1')).toThrow(/bandTypeFromSymmetry: species "B1" is not a species of C3v; valid: A1, A2, E/);
     // a component prefix is only meaningful for a complex pair
     expect(() => bandTypeFromSymmetry('C3v', '1E')).toThrow(/species "1E"/);
     expect(() => bandTypeFromSymmetry('D3h', 'A2')).toThrow(/valid: A1', A2'/);

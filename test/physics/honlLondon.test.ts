@@ -17,16 +17,9 @@ function wigner3j(j1: number, j2: number, j3: number, m1: number, m2: number, m3
   if (m1 + m2 + m3 !== 0) return 0;
   if (j3 < Math.abs(j1 - j2) || j3 > j1 + j2) return 0;
   if (Math.abs(m1) > j1 || Math.abs(m2) > j2 || Math.abs(m3) > j3) return 0;
-  const triangle =
-    (factorial(j1 + j2 - j3) * factorial(j1 - j2 + j3) * factorial(-j1 + j2 + j3)) / factorial(j1 + j2 + j3 + 1);
+  const triangle = (factorial(j1 + j2 - j3) * factorial(j1 - j2 + j3) * factorial(-j1 + j2 + j3)) / factorial(j1 + j2 + j3 + 1);
   const pre = Math.sqrt(
-    triangle *
-      factorial(j1 + m1) *
-      factorial(j1 - m1) *
-      factorial(j2 + m2) *
-      factorial(j2 - m2) *
-      factorial(j3 + m3) *
-      factorial(j3 - m3),
+    triangle * factorial(j1 + m1) * factorial(j1 - m1) * factorial(j2 + m2) * factorial(j2 - m2) * factorial(j3 + m3) * factorial(j3 - m3),
   );
   let sum = 0;
   const tMin = Math.max(0, j2 - j3 - m1, j1 - j3 + m2);
@@ -75,7 +68,7 @@ describe('honlLondonFactor', () => {
     expect(honlLondonFactor(5, 0, 0, 0)).toBe(0);
   });
 
-  it('matches Herzberg\'s parallel-band factors at hand-checkable points', () => {
+  it("matches Herzberg's parallel-band factors at hand-checkable points", () => {
     // Ref: Herzberg II (1945) eqs. (IV,60)–(IV,62): R (J+1)²−K²/(J+1), Q (2J+1)K²/(J(J+1)), P (J²−K²)/J.
     // J = 3, K = 2: R = (16 − 4)/4 = 3, Q = 7·4/12 = 7/3, P = (9 − 4)/3 = 5/3 (sum 7 = 2J+1).
     expect(honlLondonFactor(3, 2, 1, 0)).toBeCloseTo(3, 14);
@@ -83,7 +76,7 @@ describe('honlLondonFactor', () => {
     expect(honlLondonFactor(3, 2, -1, 0)).toBeCloseTo(5 / 3, 14);
   });
 
-  it('matches Herzberg\'s perpendicular-band factors at hand-checkable points', () => {
+  it("matches Herzberg's perpendicular-band factors at hand-checkable points", () => {
     // Ref: Herzberg II (1945) eq. (IV,72), K → K+1 with J = 3, K = 1:
     //   R (J+2+K)(J+1+K)/(4(J+1)) = 6·5/16 = 15/8; Q (2J+1)(J+1+K)(J−K)/(4J(J+1)) = 7·5·2/48 = 35/24;
     //   P (J−1−K)(J−K)/(4J) = 1·2/12 = 1/6.

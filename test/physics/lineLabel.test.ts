@@ -38,18 +38,12 @@ describe('lineLabel', () => {
 
   it('round-trips ASCII labels of symmetric tops and linear molecules (seeded property test)', () => {
     fc.assert(
-      fc.property(
-        fc.constantFrom(-1, 0, 1),
-        fc.constantFrom(-1, 0, 1),
-        fc.nat(200),
-        fc.nat(500),
-        (deltaK, deltaJ, kLower, jLower) => {
-          const top = lineLabelParse(lineLabelAscii(deltaK, deltaJ, kLower, jLower, 'prolate'));
-          expect(top).toEqual({ deltaK, deltaJ, kLower, jLower });
-          const lin = lineLabelParse(lineLabelAscii(deltaK, deltaJ, kLower, jLower, 'linear'));
-          expect(lin).toEqual({ deltaK: null, deltaJ, kLower: null, jLower });
-        },
-      ),
+      fc.property(fc.constantFrom(-1, 0, 1), fc.constantFrom(-1, 0, 1), fc.nat(200), fc.nat(500), (deltaK, deltaJ, kLower, jLower) => {
+        const top = lineLabelParse(lineLabelAscii(deltaK, deltaJ, kLower, jLower, 'prolate'));
+        expect(top).toEqual({ deltaK, deltaJ, kLower, jLower });
+        const lin = lineLabelParse(lineLabelAscii(deltaK, deltaJ, kLower, jLower, 'linear'));
+        expect(lin).toEqual({ deltaK: null, deltaJ, kLower: null, jLower });
+      }),
       { seed: 20_241_201, numRuns: 500 },
     );
   });

@@ -254,12 +254,24 @@ describe('spectrumSynthesize', () => {
 
   it('handles pure Lorentz, pure Gauss, a coarse grid and a small grid', () => {
     const cases: [SpectrumSynthesizeOptions, SpectrumGrid][] = [
-      [{ temperatureK: 0, massAmu: 50, lorentzHwhmCm1: 0.003 }, { fromCm1: 1300, stepCm1: 5e-4, npoints: 4000 }],
-      [{ temperatureK: 296, massAmu: Infinity, lorentzHwhmCm1: 0.003 }, { fromCm1: 1300, stepCm1: 5e-4, npoints: 4000 }],
-      [{ temperatureK: 296, massAmu: 50, lorentzHwhmCm1: 0 }, { fromCm1: 1300, stepCm1: 2e-4, npoints: 4000 }],
+      [
+        { temperatureK: 0, massAmu: 50, lorentzHwhmCm1: 0.003 },
+        { fromCm1: 1300, stepCm1: 5e-4, npoints: 4000 },
+      ],
+      [
+        { temperatureK: 296, massAmu: Infinity, lorentzHwhmCm1: 0.003 },
+        { fromCm1: 1300, stepCm1: 5e-4, npoints: 4000 },
+      ],
+      [
+        { temperatureK: 296, massAmu: 50, lorentzHwhmCm1: 0 },
+        { fromCm1: 1300, stepCm1: 2e-4, npoints: 4000 },
+      ],
       [typical, { fromCm1: 1300, stepCm1: 0.01, npoints: 3000 }],
       [typical, { fromCm1: 1300.5, stepCm1: 1e-3, npoints: 50 }],
-      [{ temperatureK: 296, massAmu: 2, lorentzHwhmCm1: 0.001 }, { fromCm1: 1000, stepCm1: 0.2, npoints: 4000 }],
+      [
+        { temperatureK: 296, massAmu: 2, lorentzHwhmCm1: 0.001 },
+        { fromCm1: 1000, stepCm1: 0.2, npoints: 4000 },
+      ],
     ];
     for (const [opts, grid] of cases) {
       const span = grid.npoints * grid.stepCm1;

@@ -1,10 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import {
-  spectrumFftComplex,
-  spectrumFftReal,
-  spectrumFftRealInverse,
-  spectrumFftTwiddles,
-} from '../../src/physics/spectrumFft';
+import { spectrumFftComplex, spectrumFftReal, spectrumFftRealInverse, spectrumFftTwiddles } from '../../src/physics/spectrumFft';
 
 /** Seeded LCG (Numerical Recipes "quick and dirty" constants), values in [−0.5, 0.5). */
 function lcg(seed: number): () => number {

@@ -101,8 +101,7 @@ describe('levelEnergy', () => {
       DJ: mhz.DJ / MHZ_PER_CM1,
       DJK: mhz.DJK / MHZ_PER_CM1,
     });
-    const lineMhz = (J: number, K: number) =>
-      (levelEnergy(st, 'prolate', J + 1, K) - levelEnergy(st, 'prolate', J, K)) * MHZ_PER_CM1;
+    const lineMhz = (J: number, K: number) => (levelEnergy(st, 'prolate', J + 1, K) - levelEnergy(st, 'prolate', J, K)) * MHZ_PER_CM1;
     expect(Math.abs(lineMhz(0, 0) - 51_072.1)).toBeLessThan(1);
     expect(Math.abs(lineMhz(1, 0) - 102_142.6)).toBeLessThan(1);
     expect(Math.abs(lineMhz(1, 1) - 102_140.9)).toBeLessThan(1);
@@ -128,12 +127,12 @@ function model(
 }
 
 describe('upperLevelEnergy', () => {
-  it('adds the origin to F\'(J, K) in a parallel band', () => {
+  it("adds the origin to F'(J, K) in a parallel band", () => {
     const m = model({ band: 'parallel', lower: { B: 1 }, upper: { origin: 1000, B: 0.9, A: 4, zeta: 0.3 } });
     expect(upperLevelEnergy(m, 3, 2, 0, 1)).toBeCloseTo(1000 + 0.9 * 12 + (4 - 0.9) * 4, 10);
   });
 
-  it('applies the first-order Coriolis term ∓2A\'ζK\' in a perpendicular band', () => {
+  it("applies the first-order Coriolis term ∓2A'ζK' in a perpendicular band", () => {
     // Ref: Herzberg II (1945) ch. IV, eq. (IV,45): E' = ν0 + F'(J,K) ∓ 2A'ζK for ΔK = ±1.
     const m = model({ lower: { B: 1 }, upper: { origin: 1000, B: 0.9, A: 4, zeta: 0.3 } });
     const rigid = 1000 + 0.9 * 12 + (4 - 0.9) * 4;
@@ -141,7 +140,7 @@ describe('upperLevelEnergy', () => {
     expect(upperLevelEnergy(m, 3, 2, -1, 0)).toBeCloseTo(rigid + 2 * 4 * 0.3 * 2, 10);
   });
 
-  it('uses C\' in the Coriolis term of an oblate top', () => {
+  it("uses C' in the Coriolis term of an oblate top", () => {
     const m = model({ shape: 'oblate', lower: { B: 1 }, upper: { origin: 1000, B: 0.9, C: 0.5, zeta: -0.4 } });
     const rigid = 1000 + 0.9 * 6 + (0.5 - 0.9) * 1;
     expect(upperLevelEnergy(m, 2, 1, +1, 1)).toBeCloseTo(rigid - 2 * 0.5 * -0.4 * 1, 10);
@@ -158,7 +157,7 @@ describe('upperLevelEnergy', () => {
 });
 
 describe('transitionWavenumber', () => {
-  it('is E\'(upper) − F\'\'(lower) with the Coriolis sign picked by K\' − K\'\'', () => {
+  it("is E'(upper) − F''(lower) with the Coriolis sign picked by K' − K''", () => {
     const m = model({ lower: { B: 1, A: 4.1 }, upper: { origin: 1000, B: 0.98, A: 4, zeta: 0.3 } });
     // rR2(3): J'' = 3, K'' = 2 → J' = 4, K' = 3.
     const up = 1000 + 0.98 * 20 + (4 - 0.98) * 9 - 2 * 4 * 0.3 * 3;

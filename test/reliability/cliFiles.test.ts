@@ -66,9 +66,22 @@ const COMMANDS: Record<string, (file: string) => { args: string[]; files: Record
 describe('CLI commands refuse hostile files with one stderr line', () => {
   const traces = readdirSync(HOSTILE).filter((f) => /\.(csv|jdx|png|bin)$/.test(f) && !f.startsWith('lines-'));
   const refusedTraces = [
-    'all-nan.csv', 'asdf-bad-char.jdx', 'dif-check-fail.jdx', 'dup-billion.jdx', 'dup-bomb.jdx', 'empty.csv', 'label-100k.jdx',
-    'mixed-decimals.csv', 'npoints-2e9.jdx', 'nul-bytes.csv', 'png-header.png', 'random-bytes.bin', 'truncated-mid-data.jdx',
-    'unclosed-quote.csv', 'whitespace-only.csv', 'xunits-hz-script.jdx',
+    'all-nan.csv',
+    'asdf-bad-char.jdx',
+    'dif-check-fail.jdx',
+    'dup-billion.jdx',
+    'dup-bomb.jdx',
+    'empty.csv',
+    'label-100k.jdx',
+    'mixed-decimals.csv',
+    'npoints-2e9.jdx',
+    'nul-bytes.csv',
+    'png-header.png',
+    'random-bytes.bin',
+    'truncated-mid-data.jdx',
+    'unclosed-quote.csv',
+    'whitespace-only.csv',
+    'xunits-hz-script.jdx',
   ];
   it.each(refusedTraces)('peaks --trace %s', async (name) => {
     const r = await run(['peaks', '--trace', name], { [name]: hostile(name) });
@@ -97,17 +110,21 @@ describe('CLI commands refuse hostile files with one stderr line', () => {
     expect(r.stderr).toMatch(message);
   });
 
-  it.each(['model-wrong-types.json', 'model-missing-fields.json', 'model-oblate-with-a.json', 'model-deep-junk.json', 'model-not-json.json', 'model-nan-literal.json'])(
-    'simulate, spectrum and fit --model %s',
-    async (name) => {
-      for (const command of ['simulate --model', 'spectrum --model', 'fit --model']) {
-        const { args, files } = COMMANDS[command](hostile(name));
-        const r = await run(args, files);
-        expectOneLineRefusal(r, args[0]);
-        expect(r.stderr).toContain('M.json: model file');
-      }
-    },
-  );
+  it.each([
+    'model-wrong-types.json',
+    'model-missing-fields.json',
+    'model-oblate-with-a.json',
+    'model-deep-junk.json',
+    'model-not-json.json',
+    'model-nan-literal.json',
+  ])('simulate, spectrum and fit --model %s', async (name) => {
+    for (const command of ['simulate --model', 'spectrum --model', 'fit --model']) {
+      const { args, files } = COMMANDS[command](hostile(name));
+      const r = await run(args, files);
+      expectOneLineRefusal(r, args[0]);
+      expect(r.stderr).toContain('M.json: model file');
+    }
+  });
 
   it('simulate refuses a model with 1e6 spin weights before building anything', async () => {
     const model = JSON.parse(GOOD_MODEL) as Record<string, unknown>;
@@ -158,8 +175,14 @@ describe('CLI as a subprocess (real file reading, real exit codes)', () => {
   it('refuses a PNG, a DUP bomb, deeply nested JSON and J = 1e12 with one stderr line each', async () => {
     const cases: [string[], RegExp][] = [
       [['peaks', '--trace', 'test/fixtures/hostile/png-header.png'], /^peaks: .*png-header\.png: no numeric data rows found\n$/],
-      [['peaks', '--trace', 'test/fixtures/hostile/dup-bomb.jdx'], /^peaks: .*dup-bomb\.jdx: line 11: the compressed data expand to more than 1000000 points/],
-      [['simulate', '--model', 'test/fixtures/hostile/model-deep-junk.json'], /^simulate: .*model-deep-junk\.json: model file is nested more than 200 levels deep at line 9 \(limit maxJsonDepth\)\n$/],
+      [
+        ['peaks', '--trace', 'test/fixtures/hostile/dup-bomb.jdx'],
+        /^peaks: .*dup-bomb\.jdx: line 11: the compressed data expand to more than 1000000 points/,
+      ],
+      [
+        ['simulate', '--model', 'test/fixtures/hostile/model-deep-junk.json'],
+        /^simulate: .*model-deep-junk\.json: model file is nested more than 200 levels deep at line 9 \(limit maxJsonDepth\)\n$/,
+      ],
       [
         ['fit', '--model', 'test/fixtures/lines/fictitious-perpendicular/model.json', '--lines', 'test/fixtures/hostile/lines-j-1e12.csv'],
         /^fit: .*lines-j-1e12\.csv: line 3: J_up '1e12' is above the largest J or K handled \(2000\)\n$/,
@@ -171,8 +194,11 @@ describe('CLI as a subprocess (real file reading, real exit codes)', () => {
         ([args]) =>
           new Promise<{ status: number | null; stdout: string; stderr: string }>((resolve) => {
             countInput(`cli ${args[0]} (subprocess)`);
-            execFile('npx', ['tsx', 'src/cli/main.ts', ...args], { cwd: ROOT, encoding: 'utf8', timeout: 60_000 }, (error, stdout, stderr) =>
-              resolve({ status: error ? ((error as { code?: number }).code ?? null) : 0, stdout, stderr }),
+            execFile(
+              'npx',
+              ['tsx', 'src/cli/main.ts', ...args],
+              { cwd: ROOT, encoding: 'utf8', timeout: 60_000 },
+              (error, stdout, stderr) => resolve({ status: error ? ((error as { code?: number }).code ?? null) : 0, stdout, stderr }),
             );
           }),
       ),

@@ -41,7 +41,11 @@ const TRACE_REFUSALS: [string, string, number?][] = [
     13,
   ],
   ['asdf-bad-char.jdx', "asdf-bad-char.jdx: line 13, column 7: unexpected character 'w' in compressed (ASDF) data", 13],
-  ['dif-check-fail.jdx', 'dif-check-fail.jdx: line 14: DIF y-check failed: the first ordinate 143 should repeat the last ordinate 142 of line 13', 14],
+  [
+    'dif-check-fail.jdx',
+    'dif-check-fail.jdx: line 14: DIF y-check failed: the first ordinate 143 should repeat the last ordinate 142 of line 13',
+    14,
+  ],
   ['npoints-2e9.jdx', 'npoints-2e9.jdx: line 10: ##NPOINTS=2000000000 is above the limit of 50000000 points (maxPoints)', 10],
   [
     'dup-billion.jdx',
@@ -53,7 +57,11 @@ const TRACE_REFUSALS: [string, string, number?][] = [
     'dup-bomb.jdx: line 11: the compressed data expand to more than 1000000 points, over 1000 points per character of the file (limit jcampMaxPointsPerChar); a measured spectrum does not compress this far, so the file is damaged or not a spectrum',
     11,
   ],
-  ['label-100k.jdx', "label-100k.jdx: line 10: ##YFACTOR= '0.001 junkjunkjunkjunkjunkjunkjunkjunkjunkjunkjunkjunkjunkju…' is not a number", 10],
+  [
+    'label-100k.jdx',
+    "label-100k.jdx: line 10: ##YFACTOR= '0.001 junkjunkjunkjunkjunkjunkjunkjunkjunkjunkjunkjunkjunkju…' is not a number",
+    10,
+  ],
   [
     'xunits-hz-script.jdx',
     'xunits-hz-script.jdx: line 4: ##XUNITS=<script>alert(1)</script> is not an infrared abscissa unit (expected 1/CM, MICROMETERS or NANOMETERS); set the xUnit option to override',
@@ -65,7 +73,11 @@ const TRACE_REFUSALS: [string, string, number?][] = [
     "mixed-decimals.csv: mixed decimal separators: line 2 uses a decimal comma and line 4 uses a decimal point; set the decimal option to ',' or '.' to choose",
     4,
   ],
-  ['nul-bytes.csv', 'nul-bytes.csv: only 1 usable data point (line 2); at least 2 are needed (3 rows skipped: lines 3, 4, 5 (non-numeric))', 2],
+  [
+    'nul-bytes.csv',
+    'nul-bytes.csv: only 1 usable data point (line 2); at least 2 are needed (3 rows skipped: lines 3, 4, 5 (non-numeric))',
+    2,
+  ],
   [
     'unclosed-quote.csv',
     'unclosed-quote.csv: line 2: a double quote opened on this line is never closed, so the rest of the file would read as one field',
@@ -214,7 +226,10 @@ describe('hostile model files', () => {
       `model file: field 'lower.A' is not a lower-state constant of an oblate model (an oblate top gives "C" in place of "A"); expected one of B, C, DJ, DJK, DK, HJ, HJK, HKJ, HK`,
     ],
     ['model-deep-junk.json', 'model file is nested more than 200 levels deep at line 9 (limit maxJsonDepth)'],
-    ['model-not-json.json', `model file is not valid JSON at line 4, column 3: Expected ',' or '}' after property value in JSON at position 47`],
+    [
+      'model-not-json.json',
+      `model file is not valid JSON at line 4, column 3: Expected ',' or '}' after property value in JSON at position 47`,
+    ],
     [
       'model-nan-literal.json',
       `model file is not valid JSON at line 1, column 57: Unexpected token 'N', ..."r": {"B": NaN}}\\u000a" is not valid JSON`,
@@ -280,7 +295,7 @@ describe('hostile project files', () => {
     const r = parse('project-big-j.json');
     if (!r.ok) throw new Error(r.message);
     expect(r.session.assignments).toEqual([]);
-    expect(r.messages.join("\n")).toMatch(/1 of 1 assignments were not loaded: session.assignments\[0\] \(jUpper/);
+    expect(r.messages.join('\n')).toMatch(/1 of 1 assignments were not loaded: session.assignments\[0\] \(jUpper/);
   });
 });
 

@@ -32,7 +32,9 @@ describe('INPUT_LIMITS', () => {
 describe('inputLimitCheck', () => {
   it('passes a value at the limit and names value, limit and limit name above it', () => {
     expect(inputLimitCheck('maxLineTableRows', 2_000_000)).toBeNull();
-    expect(inputLimitCheck('maxLineTableRows', 2_000_001)).toBe('row count 2000001 is above the limit of 2000000 data rows (maxLineTableRows)');
+    expect(inputLimitCheck('maxLineTableRows', 2_000_001)).toBe(
+      'row count 2000001 is above the limit of 2000000 data rows (maxLineTableRows)',
+    );
     expect(inputLimitCheck('maxQuantumJ', 1e12)).toBe('J 1000000000000 is above the limit of 2000 (maxQuantumJ)');
     expect(inputLimitCheck('maxTracePoints', 11, 10)).toBe('point count 11 is above the limit of 10 points (maxTracePoints)');
   });
@@ -68,7 +70,8 @@ describe('inputExcerpt', () => {
 describe('inputIsOneLine', () => {
   it('rejects empty messages and every Unicode line break', () => {
     expect(inputIsOneLine('file: line 3: bad')).toBe(true);
-    for (const bad of ['', '  ', 'a\nb', 'a\rb', 'a\u2028b', 'a\u2029b', 'a\u0085b']) expect(inputIsOneLine(bad), JSON.stringify(bad)).toBe(false);
+    for (const bad of ['', '  ', 'a\nb', 'a\rb', 'a\u2028b', 'a\u2029b', 'a\u0085b'])
+      expect(inputIsOneLine(bad), JSON.stringify(bad)).toBe(false);
   });
 });
 
@@ -99,7 +102,11 @@ describe('inputJsonParse', () => {
     // single-line text is P + 1: both name the first character that cannot continue valid JSON.
     const jsonText = fc.jsonValue({ maxDepth: 4 }).map((v) => JSON.stringify(v));
     const edits = fc.array(
-      fc.record({ kind: fc.constant('replace' as const), at: fc.nat(), text: fc.constantFrom('"', ',', ':', '[', ']', '{', '}', 'x', '-', '.', '0', 'e', '\\', '\u0001', ' ') }),
+      fc.record({
+        kind: fc.constant('replace' as const),
+        at: fc.nat(),
+        text: fc.constantFrom('"', ',', ':', '[', ']', '{', '}', 'x', '-', '.', '0', 'e', '\\', '\u0001', ' '),
+      }),
       { maxLength: 3 },
     );
     let compared = 0;

@@ -42,7 +42,7 @@ function affn(v: number): string {
 /** Replace runs of equal tokens by the token and a DUP count. */
 function dupCompress(tokens: string[]): string[] {
   const out: string[] = [];
-  for (let i = 0; i < tokens.length; ) {
+  for (let i = 0; i < tokens.length;) {
     let j = i + 1;
     while (j < tokens.length && tokens[j] === tokens[i]) j++;
     out.push(tokens[i]);

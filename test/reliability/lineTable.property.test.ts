@@ -60,7 +60,10 @@ function parseChecked(text: string): LineTable | LineTableError {
 
 /** Untrusted text of every kind: delimiters, quotes, CR/LF, '#', HTML, any Unicode (incl. lone surrogates). */
 const hostileText = fc.oneof(
-  fc.string({ unit: fc.constantFrom('a', ' ', ',', '"', '\n', '\r', '\r\n', '#', 'é', '1', '<', '>', '&', '\t', ';', '\u2028'), maxLength: 12 }),
+  fc.string({
+    unit: fc.constantFrom('a', ' ', ',', '"', '\n', '\r', '\r\n', '#', 'é', '1', '<', '>', '&', '\t', ';', '\u2028'),
+    maxLength: 12,
+  }),
   fc.string({ unit: 'binary', maxLength: 8 }),
   fc.constantFrom('<script>alert(1)</script>', '=cmd|" /C calc"!A0', '#not a comment', 'x\r\ny', '"quoted"'),
 );
@@ -78,7 +81,10 @@ const assignmentsArb = fc.array(
     note: hostileText,
     // Ids are trimmed when read, so generated ids carry no surrounding blanks.
     id: hostileText.filter((s) => s.trim() === s && s !== ''),
-    peakId: fc.option(hostileText.filter((s) => s.trim() === s && s !== ''), { nil: undefined }),
+    peakId: fc.option(
+      hostileText.filter((s) => s.trim() === s && s !== ''),
+      { nil: undefined },
+    ),
   }),
   { maxLength: 15 },
 );
@@ -100,9 +106,12 @@ describe('lineTableParse on hostile text: LineTableError only, one-line messages
   });
 
   it('mutations of the line-table fixtures and of exported tables', () => {
-    const exported = fc
-      .sample(assignmentsArb, { numRuns: 10, seed: 9 })
-      .map((rows) => lineTableSerialize(rows.map((r, i) => withId(r, i)), { shape: 'prolate' }));
+    const exported = fc.sample(assignmentsArb, { numRuns: 10, seed: 9 }).map((rows) =>
+      lineTableSerialize(
+        rows.map((r, i) => withId(r, i)),
+        { shape: 'prolate' },
+      ),
+    );
     fc.assert(
       fc.property(mutationArb([...FIXTURES, ...exported]), (text) => void parseChecked(text)),
       { numRuns: 5000, seed: 303 },
@@ -113,7 +122,25 @@ describe('lineTableParse on hostile text: LineTableError only, one-line messages
     const columns = ['J_up', 'K_up', 'J_lo', 'K_lo', 'wavenumber', 'uncertainty', 'blended', 'excluded', 'flags', 'note', 'id', 'peak_id'];
     const good = ['3', '1', '2', '0', '1000.5', '0.001', 'no', 'no', '', 'n', 'a1', 'p1'];
     const cell = fc.oneof(
-      fc.constantFrom('-1', '1e12', '2.5', '0x10', '0b1', 'Infinity', 'NaN', '1e999', '-0', '', ' ', '1,5', '""', '"3"', '2001', '1e3', '3.0'),
+      fc.constantFrom(
+        '-1',
+        '1e12',
+        '2.5',
+        '0x10',
+        '0b1',
+        'Infinity',
+        'NaN',
+        '1e999',
+        '-0',
+        '',
+        ' ',
+        '1,5',
+        '""',
+        '"3"',
+        '2001',
+        '1e3',
+        '3.0',
+      ),
       hostileText,
     );
     fc.assert(

@@ -22,7 +22,10 @@ import {
 
 afterAll(() => countsPrint('modelFile.property.test.ts'));
 
-const MODEL_DIRS = [new URL('../fixtures/models/', import.meta.url), new URL('../fixtures/lines/fictitious-perpendicular/', import.meta.url)];
+const MODEL_DIRS = [
+  new URL('../fixtures/models/', import.meta.url),
+  new URL('../fixtures/lines/fictitious-perpendicular/', import.meta.url),
+];
 const FIXTURES = MODEL_DIRS.flatMap((dir) =>
   readdirSync(dir)
     .filter((f) => f.endsWith('.json') && f !== 'truth.json')
@@ -75,9 +78,15 @@ const modelFileArb: fc.Arbitrary<Pick<ModelFile, 'model' | 'floated' | 'massAmu'
     temperatureK: fc.double({ min: 1e-3, max: 1e5, noNaN: true }),
     jMax: fc.integer({ min: 0, max: INPUT_LIMITS.maxModelJ }),
     kMax: fc.integer({ min: 0, max: INPUT_LIMITS.maxModelK }),
-    spinWeights: fc.array(fc.double({ min: 0, max: 1e6, noNaN: true }).map((w) => (Object.is(w, -0) ? 0 : w)), { minLength: 1, maxLength: 8 }),
+    spinWeights: fc.array(
+      fc.double({ min: 0, max: 1e6, noNaN: true }).map((w) => (Object.is(w, -0) ? 0 : w)),
+      { minLength: 1, maxLength: 8 },
+    ),
     massAmu: fc.option(fc.double({ min: 1e-3, max: 1e6, noNaN: true }), { nil: undefined }),
-    name: fc.option(fc.string({ minLength: 1, maxLength: 200, unit: 'grapheme-composite' }).filter((s) => s.length <= 200), { nil: undefined }),
+    name: fc.option(
+      fc.string({ minLength: 1, maxLength: 200, unit: 'grapheme-composite' }).filter((s) => s.length <= 200),
+      { nil: undefined },
+    ),
   })
   .map((g) => {
     const model: BandModel = {
@@ -133,8 +142,26 @@ describe('modelFileParse on hostile text: ModelFileError only, one-line messages
       fc.integer({ min: 0, max: 5000 }).map((n) => Array<number>(n).fill(1)),
     );
     const paths = [
-      'shape', 'band', 'lower', 'upper', 'temperature', 'jMax', 'kMax', 'spinWeights', 'mass', 'name',
-      'lower.B', 'lower.A', 'lower.C', 'lower.DJ', 'upper.origin', 'upper.zeta', 'upper.q', 'upper.B', 'lower.origin', 'lower.__proto__',
+      'shape',
+      'band',
+      'lower',
+      'upper',
+      'temperature',
+      'jMax',
+      'kMax',
+      'spinWeights',
+      'mass',
+      'name',
+      'lower.B',
+      'lower.A',
+      'lower.C',
+      'lower.DJ',
+      'upper.origin',
+      'upper.zeta',
+      'upper.q',
+      'upper.B',
+      'lower.origin',
+      'lower.__proto__',
     ];
     fc.assert(
       fc.property(modelFileArb, fc.constantFrom(...paths), fc.option(hostile, { nil: undefined }), (file, path, value) => {

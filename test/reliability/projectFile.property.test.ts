@@ -50,7 +50,8 @@ function parseChecked(text: string): ProjectFileOutcome {
   if (assignments) {
     expect(new Set(assignments.map((a) => a.id)).size).toBe(assignments.length);
     for (const a of assignments)
-      for (const q of [a.jUpper, a.kUpper, a.jLower, a.kLower]) expect(Number.isInteger(q) && q >= 0 && q <= INPUT_LIMITS.maxQuantumJ).toBe(true);
+      for (const q of [a.jUpper, a.kUpper, a.jLower, a.kLower])
+        expect(Number.isInteger(q) && q >= 0 && q <= INPUT_LIMITS.maxQuantumJ).toBe(true);
   }
   for (const m of r.messages) expectGoodMessage(m);
   // A session read from a file can be written again (autosave does this at once).
@@ -59,7 +60,11 @@ function parseChecked(text: string): ProjectFileOutcome {
 }
 
 const finite = fc.double({ noNaN: true, noDefaultInfinity: true }).map((v) => (Object.is(v, -0) ? 0 : v));
-const text = fc.oneof(fc.string({ maxLength: 20 }), fc.string({ unit: 'binary', maxLength: 8 }), fc.constantFrom('<b>x</b>', 'a\nb', '"q"', ''));
+const text = fc.oneof(
+  fc.string({ maxLength: 20 }),
+  fc.string({ unit: 'binary', maxLength: 8 }),
+  fc.constantFrom('<b>x</b>', 'a\nb', '"q"', ''),
+);
 
 const modelArb: fc.Arbitrary<BandModel> = fc
   .record({
@@ -70,7 +75,10 @@ const modelArb: fc.Arbitrary<BandModel> = fc
     temperatureK: fc.double({ min: 1e-3, max: 1e5, noNaN: true }),
     jMax: fc.nat(INPUT_LIMITS.maxModelJ),
     kMax: fc.nat(INPUT_LIMITS.maxModelK),
-    spinWeights: fc.array(fc.double({ min: 0, max: 100, noNaN: true }).map((w) => (Object.is(w, -0) ? 0 : w)), { minLength: 1, maxLength: 6 }),
+    spinWeights: fc.array(
+      fc.double({ min: 0, max: 100, noNaN: true }).map((w) => (Object.is(w, -0) ? 0 : w)),
+      { minLength: 1, maxLength: 6 },
+    ),
   })
   .map((g) => {
     const lower = stateConstantsZero();
@@ -134,7 +142,9 @@ const sessionArb: fc.Arbitrary<ProjectSession> = fc
     xRange: fc.option(fc.tuple(finite, finite), { nil: null }),
     theme: fc.constantFrom('light' as const, 'dark' as const),
     // Through JSON once: JSON has no −0 (ECMA-404; JSON.stringify writes 0), and a UI setting is no number to keep bit for bit.
-    tableQuery: fc.dictionary(fc.string({ maxLength: 6 }), fc.jsonValue({ maxDepth: 3 })).map((q) => JSON.parse(JSON.stringify(q)) as Record<string, unknown>),
+    tableQuery: fc
+      .dictionary(fc.string({ maxLength: 6 }), fc.jsonValue({ maxDepth: 3 }))
+      .map((q) => JSON.parse(JSON.stringify(q)) as Record<string, unknown>),
   })
   .map((g) => ({
     model: g.model,
@@ -197,10 +207,26 @@ describe('projectFileParse on hostile text: a usable session or one line, never 
     );
   });
   it('any JSON value in any field of a v2 session, and in a v1 document', () => {
-    const fields = ['model', 'floated', 'trace', 'assignments', 'view', 'fit', 'traceReport', 'massAmu', 'importOverrides', 'modelName', 'symmetry'];
+    const fields = [
+      'model',
+      'floated',
+      'trace',
+      'assignments',
+      'view',
+      'fit',
+      'traceReport',
+      'massAmu',
+      'importOverrides',
+      'modelName',
+      'symmetry',
+    ];
     const hostile = fc.oneof(
       fc.jsonValue({ maxDepth: 4 }),
-      fc.constantFrom({ $nonFinite: 'NaN' }, { $nonFinite: 'Infinity' }, { encoding: 'float64-le-base64', points: 1, wavenumberCm1: 'AAAAAAAA+H8=', absorbance: 'AAAAAAAA8D8=' }),
+      fc.constantFrom(
+        { $nonFinite: 'NaN' },
+        { $nonFinite: 'Infinity' },
+        { encoding: 'float64-le-base64', points: 1, wavenumberCm1: 'AAAAAAAA+H8=', absorbance: 'AAAAAAAA8D8=' },
+      ),
     );
     fc.assert(
       fc.property(fc.nat(seeds.length - 1), fc.constantFrom(...fields), hostile, fc.boolean(), (i, field, value, isV1) => {

@@ -205,9 +205,9 @@ export function mutationArb(seeds: readonly string[]): fc.Arbitrary<string> {
 
 /** Random bytes decoded as latin1 (every byte a character) or as UTF-8 (with U+FFFD for bad sequences). */
 export function bytesTextArb(maxLength = 400): fc.Arbitrary<string> {
-  return fc.tuple(fc.uint8Array({ maxLength }), fc.boolean()).map(([bytes, isUtf8]) =>
-    isUtf8 ? new TextDecoder('utf-8').decode(bytes) : String.fromCharCode(...bytes),
-  );
+  return fc
+    .tuple(fc.uint8Array({ maxLength }), fc.boolean())
+    .map(([bytes, isUtf8]) => (isUtf8 ? new TextDecoder('utf-8').decode(bytes) : String.fromCharCode(...bytes)));
 }
 
 /** Random strings: any code points (incl. lone surrogates), and strings drawn from a parser's own alphabet. */

@@ -27,7 +27,13 @@ describe('importTrace maxPoints on every reader', () => {
     const e = refusal(text, 10);
     expect([e.message, e.line, e.field]).toEqual(['big.txt: more than 10 data rows (limit maxPoints), at line 11', 11, 'maxPoints']);
     countInput('importTrace');
-    expect(importTrace(rows(10, (i) => `${1000 + i},0.5`), 'ok.csv', { maxPoints: 10 }).ok).toBe(true);
+    expect(
+      importTrace(
+        rows(10, (i) => `${1000 + i},0.5`),
+        'ok.csv',
+        { maxPoints: 10 },
+      ).ok,
+    ).toBe(true);
   });
   it('CSV with comments (papaparse path) and blank-separated text (line splitter)', () => {
     const withComments = rows(11, (i) => `# row ${i}\n${1000 + i};0.5`);

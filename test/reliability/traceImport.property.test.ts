@@ -226,7 +226,10 @@ const jcampCaseArb: fc.Arbitrary<JcampCase> = fc
     form: fc.constantFrom<JcampForm>('AFFN', 'PAC', 'SQZ', 'SQZDUP', 'DIF', 'DIFDUP'),
     y0: fc.integer({ min: -1_000_000, max: 1_000_000 }),
     // Many zero steps, so DUP runs (of equal values and of equal differences) occur.
-    steps: fc.array(fc.oneof(fc.constant(0), fc.constant(7), fc.integer({ min: -50_000, max: 50_000 })), { minLength: 200, maxLength: 200 }),
+    steps: fc.array(fc.oneof(fc.constant(0), fc.constant(7), fc.integer({ min: -50_000, max: 50_000 })), {
+      minLength: 200,
+      maxLength: 200,
+    }),
     floats: fc.array(fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e9, max: 1e9 }), { minLength: 200, maxLength: 200 }),
     perLine: fc.array(fc.integer({ min: 1, max: 25 }), { minLength: 1, maxLength: 5 }),
     firstX: fc.integer({ min: 400, max: 5000 }),

@@ -48,7 +48,20 @@ describe('calibration actions', () => {
     const axis = Float64Array.from({ length: 101 }, (_, i) => 1000 + i);
     benchStore.setState({ trace: { wavenumberCm1: axis, absorbance: new Float64Array(101) } });
     benchStore.setState({
-      assignments: [{ id: 'a1', jUpper: 2, kUpper: 1, jLower: 1, kLower: 0, observedCm1: 1050, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' }],
+      assignments: [
+        {
+          id: 'a1',
+          jUpper: 2,
+          kUpper: 1,
+          jLower: 1,
+          kLower: 0,
+          observedCm1: 1050,
+          uncertaintyCm1: 0.001,
+          isBlended: false,
+          isExcluded: false,
+          note: '',
+        },
+      ],
     });
     const pairs = [1010, 1040, 1090].map((obs) => ({ observedCm1: obs, referenceCm1: obs * (1 + delta) }));
     const fit = calibrationRun(pairs, false)!;

@@ -58,7 +58,10 @@ describe('candidatesRank', () => {
     const l = lines([90, 95, 110, 120], [1, 1, 1, 1]);
     const c = candidatesRank(l, 100, { windowCm1: 1, minCount: 2, shape: 'prolate' });
     expect(c.map((x) => x.predictedCm1)).toEqual([95, 90]);
-    const many = lines(Array.from({ length: 30 }, (_, i) => 100 + i * 0.001), Array(30).fill(1));
+    const many = lines(
+      Array.from({ length: 30 }, (_, i) => 100 + i * 0.001),
+      Array(30).fill(1),
+    );
     expect(candidatesRank(many, 100, { windowCm1: 1, shape: 'prolate' }).length).toBe(9);
   });
 

@@ -34,7 +34,11 @@ export function smallTrace(model: BandModel = smallModel()): { trace: Trace; lin
   hi = Math.ceil(hi + 1);
   const step = 0.001;
   const n = Math.floor((hi - lo) / step) + 1;
-  const y = spectrumSynthesize(lines, { fromCm1: lo, stepCm1: step, npoints: n }, { temperatureK: 200, massAmu: 50, lorentzHwhmCm1: 0.002 });
+  const y = spectrumSynthesize(
+    lines,
+    { fromCm1: lo, stepCm1: step, npoints: n },
+    { temperatureK: 200, massAmu: 50, lorentzHwhmCm1: 0.002 },
+  );
   let max = 0;
   for (const v of y) max = Math.max(max, v);
   const x = new Float64Array(n);

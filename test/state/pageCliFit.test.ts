@@ -21,7 +21,7 @@ describe('page fit versus CLI fit of the exported files', () => {
     const guess = modelFileParse(readFileSync('public/demo/model.json', 'utf8'));
     const lines = bandLines(truth, { minIntensity: 0.05 });
     let seed = 12345;
-    const uniform = () => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
+    const uniform = () => (seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648;
     const assignments: Assignment[] = [];
     for (let i = 0; i < lines.count && assignments.length < 400; i += 3) {
       assignments.push({

@@ -116,7 +116,11 @@ describe('autosave records and restore', () => {
     await persistSaveNow();
     traceReplace(smallTrace(smallModel()).trace, null, 'file');
     await persistSaveNow();
-    expect(mem.writes.slice(1)).toEqual([['assignments', 'session'], ['fit', 'session'], ['session', 'trace']]);
+    expect(mem.writes.slice(1)).toEqual([
+      ['assignments', 'session'],
+      ['fit', 'session'],
+      ['session', 'trace'],
+    ]);
     const n = benchStore.getState().assignments.length;
     benchReset();
     await persistRestore();
@@ -127,9 +131,16 @@ describe('autosave records and restore', () => {
     await workedSession();
     const s = benchStore.getState();
     const expected = oldPathFields(s);
-    const oneRecord = projectFileSerialize({ ...sessionOf(s), trace: null }, { appVersion: 'autosave', savedAt: '2024-01-01T00:00:00.000Z' });
+    const oneRecord = projectFileSerialize(
+      { ...sessionOf(s), trace: null },
+      { appVersion: 'autosave', savedAt: '2024-01-01T00:00:00.000Z' },
+    );
     // A stale assignments record beside it must not win over the assignments inside the record.
-    const mem = memoryStorage({ session: oneRecord, trace: { wavenumberCm1: s.trace!.wavenumberCm1, absorbance: s.trace!.absorbance }, assignments: '[]' });
+    const mem = memoryStorage({
+      session: oneRecord,
+      trace: { wavenumberCm1: s.trace!.wavenumberCm1, absorbance: s.trace!.absorbance },
+      assignments: '[]',
+    });
     persistSetStorage(mem.storage);
     benchReset();
     expect(await persistRestore()).toBe(true);

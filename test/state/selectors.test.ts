@@ -94,7 +94,11 @@ type Op =
   | { kind: 'same' };
 
 const opArb: fc.Arbitrary<Op> = fc.oneof(
-  fc.record({ kind: fc.constant('add' as const), line: fc.nat(lines.count - 1), offset: fc.double({ min: -0.05, max: 0.05, noNaN: true }) }),
+  fc.record({
+    kind: fc.constant('add' as const),
+    line: fc.nat(lines.count - 1),
+    offset: fc.double({ min: -0.05, max: 0.05, noNaN: true }),
+  }),
   fc.record({ kind: fc.constant('remove' as const), at: fc.nat(200) }),
   fc.record({
     kind: fc.constant('edit' as const),
@@ -136,7 +140,9 @@ function applyOp(input: AssignmentRowsInput, op: Op, next: { n: number }): Assig
     case 'model':
       return { ...input, model: models[op.m] };
     case 'fit':
-      return op.f === null ? { ...input, fitOutcome: null, fitLineIds: [] } : { ...input, fitOutcome: fits[op.f].outcome, fitLineIds: fits[op.f].ids };
+      return op.f === null
+        ? { ...input, fitOutcome: null, fitLineIds: [] }
+        : { ...input, fitOutcome: fits[op.f].outcome, fitLineIds: fits[op.f].ids };
     case 'tolerance':
       return { ...input, farToleranceCm1: op.value };
     case 'same':

@@ -2,7 +2,14 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { projectFileParse } from '../../src/io/projectFile';
 import { candidateAssign, peakClick } from '../../src/state/actionsAssign';
 import { droppedKind, traceReplace } from '../../src/state/actionsImport';
-import { projectExportText, projectExportTextAsync, projectImport, projectImportText, projectReadHere, projectSetIo } from '../../src/state/actionsProject';
+import {
+  projectExportText,
+  projectExportTextAsync,
+  projectImport,
+  projectImportText,
+  projectReadHere,
+  projectSetIo,
+} from '../../src/state/actionsProject';
 import { sessionOf, stateFromSession } from '../../src/state/session';
 import { benchStore } from '../../src/state/store';
 import { smallModel, smallTrace } from './fixtures';
@@ -88,7 +95,9 @@ describe('project open off the page thread (projectImport)', () => {
     expect(await projectImport('{}', 'p.json')).toBe(false);
     const s = benchStore.getState();
     expect([s.model, s.trace, s.assignments]).toEqual([before.model, before.trace, before.assignments]);
-    expect(s.messages.at(-1)!.text).toBe('Could not open p.json: parse worker failed for p.json: out of memory. The current session is unchanged.');
+    expect(s.messages.at(-1)!.text).toBe(
+      'Could not open p.json: parse worker failed for p.json: out of memory. The current session is unchanged.',
+    );
   });
 
   it('applies only the project opened last when an earlier one is read more slowly', async () => {

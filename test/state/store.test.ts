@@ -1,7 +1,17 @@
 import { beforeEach, describe, expect, it } from 'vitest';
 import { fitBand } from '../../src/fit/fitBand';
 import { transitionWavenumber } from '../../src/physics/termValues';
-import { assignNearPosition, assignmentDelete, assignmentEdit, candidateAssign, cursorAssignNearest, cursorStep, peakClick, rungClick, selectCandidates } from '../../src/state/actionsAssign';
+import {
+  assignNearPosition,
+  assignmentDelete,
+  assignmentEdit,
+  candidateAssign,
+  cursorAssignNearest,
+  cursorStep,
+  peakClick,
+  rungClick,
+  selectCandidates,
+} from '../../src/state/actionsAssign';
 import { redo, undo } from '../../src/state/actionsCore';
 import { fitAccept, fitRevert, fitStart } from '../../src/state/actionsFit';
 import { traceReplace } from '../../src/state/actionsImport';
@@ -145,7 +155,8 @@ describe('assigning', () => {
     // Assign to a peak ~ far away on purpose.
     const nu = transitionWavenumber(benchStore.getState().model, c.jUpper, c.kUpper, c.jLower, c.kLower);
     let far = 0;
-    for (let i = 0; i < peaks!.count; i++) if (Math.abs(peaks!.wavenumberCm1[i] - nu - 0.5) < Math.abs(peaks!.wavenumberCm1[far] - nu - 0.5)) far = i;
+    for (let i = 0; i < peaks!.count; i++)
+      if (Math.abs(peaks!.wavenumberCm1[i] - nu - 0.5) < Math.abs(peaks!.wavenumberCm1[far] - nu - 0.5)) far = i;
     peakClick(far);
     const row = selectAssignmentRows(benchStore.getState())[0];
     expect(Math.abs(row.omcCm1)).toBeGreaterThan(0.02);
@@ -185,7 +196,15 @@ describe('fitting', () => {
     const assignments = [];
     for (let i = 0; i < band.lines.count; i++) {
       const q = { jUpper: band.lines.jUpper[i], kUpper: band.lines.kUpper[i], jLower: band.lines.jLower[i], kLower: band.lines.kLower[i] };
-      assignments.push({ id: `a${i + 1}`, ...q, observedCm1: transitionWavenumber(truth, q.jUpper, q.kUpper, q.jLower, q.kLower), uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' });
+      assignments.push({
+        id: `a${i + 1}`,
+        ...q,
+        observedCm1: transitionWavenumber(truth, q.jUpper, q.kUpper, q.jLower, q.kLower),
+        uncertaintyCm1: 0.001,
+        isBlended: false,
+        isExcluded: false,
+        note: '',
+      });
     }
     benchStore.setState({ assignments });
     await fitStart(runFit);
@@ -207,14 +226,22 @@ describe('fitting', () => {
     expect(benchStore.getState().model).toBe(before);
   });
 
-  it('ranks candidates after a fit by distance in σ, with each line\'s σ the one the fit predicts for it', async () => {
+  it("ranks candidates after a fit by distance in σ, with each line's σ the one the fit predicts for it", async () => {
     loadSmall();
     // Twelve lines with noise of a few 1e-4 cm^-1, so the fit has a covariance and every σ_pred > 0.
     const band = selectBand(benchStore.getState());
     const assignments = Array.from({ length: 12 }, (_, n) => {
       const i = (n * 5) % band.lines.count;
       const q = { jUpper: band.lines.jUpper[i], kUpper: band.lines.kUpper[i], jLower: band.lines.jLower[i], kLower: band.lines.kLower[i] };
-      return { id: `a${n + 1}`, ...q, observedCm1: band.lines.wavenumberCm1[i] + ((n % 3) - 1) * 3e-4, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' };
+      return {
+        id: `a${n + 1}`,
+        ...q,
+        observedCm1: band.lines.wavenumberCm1[i] + ((n % 3) - 1) * 3e-4,
+        uncertaintyCm1: 0.001,
+        isBlended: false,
+        isExcluded: false,
+        note: '',
+      };
     });
     benchStore.setState({ assignments, floated: ['upper.origin', 'upper.B', 'lower.B'] });
     await fitStart(runFit);
@@ -232,7 +259,23 @@ describe('fitting', () => {
   });
 
   it('reports a refused fit in the message area', async () => {
-    benchStore.setState({ floated: ['upper.origin', 'upper.B'], assignments: [{ id: 'a1', jUpper: 2, kUpper: 1, jLower: 1, kLower: 0, observedCm1: 1000, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' }] });
+    benchStore.setState({
+      floated: ['upper.origin', 'upper.B'],
+      assignments: [
+        {
+          id: 'a1',
+          jUpper: 2,
+          kUpper: 1,
+          jLower: 1,
+          kLower: 0,
+          observedCm1: 1000,
+          uncertaintyCm1: 0.001,
+          isBlended: false,
+          isExcluded: false,
+          note: '',
+        },
+      ],
+    });
     await fitStart(runFit);
     const s = benchStore.getState();
     expect(s.fitOutcome?.ok).toBe(false);

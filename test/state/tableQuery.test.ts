@@ -6,7 +6,18 @@ import { viewSliceInitial, type TableQuery } from '../../src/state/viewSlice';
 
 function row(id: string, dk: number, dj: number, k: number, j: number, omc: number): AssignmentRow {
   return {
-    a: { id, jUpper: j + dj, kUpper: k + dk, jLower: j, kLower: k, observedCm1: 1000 + j, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' },
+    a: {
+      id,
+      jUpper: j + dj,
+      kUpper: k + dk,
+      jLower: j,
+      kLower: k,
+      observedCm1: 1000 + j,
+      uncertaintyCm1: 0.001,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+    },
     labelAscii: '',
     labelHtml: '',
     deltaJ: dj,
@@ -77,7 +88,10 @@ const rowArb = fc
     dj: fc.integer({ min: -1, max: 1 }),
     k: fc.nat(3),
     j: fc.nat(6),
-    omc: fc.oneof({ weight: 20, arbitrary: fc.constantFrom(-0.02, -0.001, 0, 0.001, 0.004, 0.02) }, { weight: 1, arbitrary: fc.constant(Number.NaN) }),
+    omc: fc.oneof(
+      { weight: 20, arbitrary: fc.constantFrom(-0.02, -0.001, 0, 0.001, 0.004, 0.02) },
+      { weight: 1, arbitrary: fc.constant(Number.NaN) },
+    ),
   })
   .map(({ dk, dj, k, j, omc }) => row(`r${j}`, dk, dj, k, j, omc));
 
@@ -91,7 +105,12 @@ const queryArb: fc.Arbitrary<TableQuery> = fc.record({
   minAbsOmcCm1: fc.constantFrom(0, 0, 0.001, 0.005),
 });
 
-type TableOp = { kind: 'append'; rows: AssignmentRow[] } | { kind: 'replace'; at: number; r: AssignmentRow } | { kind: 'remove'; at: number } | { kind: 'query'; q: TableQuery } | { kind: 'same' };
+type TableOp =
+  | { kind: 'append'; rows: AssignmentRow[] }
+  | { kind: 'replace'; at: number; r: AssignmentRow }
+  | { kind: 'remove'; at: number }
+  | { kind: 'query'; q: TableQuery }
+  | { kind: 'same' };
 
 const tableOpArb: fc.Arbitrary<TableOp> = fc.oneof(
   { weight: 4, arbitrary: fc.record({ kind: fc.constant('append' as const), rows: fc.array(rowArb, { minLength: 1, maxLength: 20 }) }) },

@@ -9,7 +9,18 @@ import { parseTraceInWorker } from '../../src/workers/parseClient';
 // were, and the page says what happened.
 describe('a crashed worker leaves the session intact', () => {
   const trace = { wavenumberCm1: Float64Array.from([1000, 1000.5, 1001]), absorbance: Float64Array.from([0.1, 0.5, 0.1]) };
-  const assignment = { id: 'a1', jUpper: 3, kUpper: 1, jLower: 2, kLower: 0, observedCm1: 1000.5, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: 'mine' };
+  const assignment = {
+    id: 'a1',
+    jUpper: 3,
+    kUpper: 1,
+    jLower: 2,
+    kLower: 0,
+    observedCm1: 1000.5,
+    uncertaintyCm1: 0.001,
+    isBlended: false,
+    isExcluded: false,
+    note: 'mine',
+  };
 
   beforeEach(() => {
     benchReset();

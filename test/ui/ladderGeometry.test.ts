@@ -65,4 +65,3 @@ describe('ladderLabelTemplate', () => {
     expect(ladderLabelTemplate({ deltaK: 0, deltaJ: -1, kLower: 0 }, 'linear')).toBe('P(%{text})');
   });
 });
-

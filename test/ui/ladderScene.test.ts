@@ -47,7 +47,8 @@ const py = (v: LadderView, y: number) => v.topPx + ((v.y1 - y) / (v.y1 - v.y0)) 
 
 /** Index of the line with these quanta, by brute force over the list. */
 function lineOf(lines: LineList, jUpper: number, kUpper: number, jLower: number, kLower: number): number {
-  for (let i = 0; i < lines.count; i++) if (lines.jUpper[i] === jUpper && lines.kUpper[i] === kUpper && lines.jLower[i] === jLower && lines.kLower[i] === kLower) return i;
+  for (let i = 0; i < lines.count; i++)
+    if (lines.jUpper[i] === jUpper && lines.kUpper[i] === kUpper && lines.jLower[i] === jLower && lines.kLower[i] === kLower) return i;
   return -1;
 }
 
@@ -115,7 +116,9 @@ describe('ladderScenePaint', () => {
     for (let k = 0; k < scene.nuCm1.length; k++) {
       const x = Math.round(px(view, scene.nuCm1[k])) + 0.5;
       const row = rows[scene.rowIndex[k]];
-      const seg = vertical.find((s) => s.x0 === x && Math.abs(s.y0 - py(view, scene.yBottom[k])) < 1e-9 && Math.abs(s.y1 - py(view, scene.yTop[k])) < 1e-9);
+      const seg = vertical.find(
+        (s) => s.x0 === x && Math.abs(s.y0 - py(view, scene.yBottom[k])) < 1e-9 && Math.abs(s.y1 - py(view, scene.yTop[k])) < 1e-9,
+      );
       expect(seg).toBeDefined();
       expect(seg!.colour).toBe(ladderColour(row.deltaK, row.kLower, false));
     }
@@ -138,7 +141,18 @@ describe('ladderScenePaint', () => {
   it('draws assigned lines as dots at the rung tips, flagged ones as crosses, and bars once more than LADDER_DOTS_MAX are in view', () => {
     const big: BandModel = { ...model, jMax: 40, kMax: 8 };
     const { lines, rows, scene } = setUp(big);
-    const mk = (i: number): Assignment => ({ id: `a${i}`, jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i], observedCm1: lines.wavenumberCm1[i], uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' });
+    const mk = (i: number): Assignment => ({
+      id: `a${i}`,
+      jUpper: lines.jUpper[i],
+      kUpper: lines.kUpper[i],
+      jLower: lines.jLower[i],
+      kLower: lines.kLower[i],
+      observedCm1: lines.wavenumberCm1[i],
+      uncertaintyCm1: 0.001,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+    });
     const few = [0, 1, 2].map((i) => rowOf(mk(i), lines, i, { isFar: i === 2 }));
     // A line the model does not predict has no rung, so no marker.
     const unpredicted = rowOf({ ...mk(0), id: 'none', jUpper: 900, jLower: 899 }, lines, 0);
@@ -212,21 +226,39 @@ describe('ladderHitTest', () => {
   it('prefers an assigned marker within 6 px, and its tooltip is the assignment', () => {
     const { lines, rows, scene } = setUp();
     const i = scene.lineIndex[3];
-    const a: Assignment = { id: 'x', jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i], observedCm1: lines.wavenumberCm1[i] + 0.001, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' };
+    const a: Assignment = {
+      id: 'x',
+      jUpper: lines.jUpper[i],
+      kUpper: lines.kUpper[i],
+      jLower: lines.jLower[i],
+      kLower: lines.kLower[i],
+      observedCm1: lines.wavenumberCm1[i] + 0.001,
+      uncertaintyCm1: 0.001,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+    };
     const markers = ladderMarkersBuild([rowOf(a, lines, i)], scene);
     const view = fullView(lines, rows.length);
     const hit = ladderHitTest(scene, markers, view, px(view, markers.nuCm1[0]) + 3, py(view, markers.y[0]) - 2)!;
     expect(hit.kind).toBe('marker');
     expect(hit.lineIndex).toBe(i);
-    expect(ladderTipHtml(hit, markers, lines, 'prolate', false)).toBe(`line ${i} assigned<br>obs ${a.observedCm1.toFixed(4)} cm⁻¹<br>obs − calc ${(0.001).toExponential(2)} cm⁻¹`);
+    expect(ladderTipHtml(hit, markers, lines, 'prolate', false)).toBe(
+      `line ${i} assigned<br>obs ${a.observedCm1.toFixed(4)} cm⁻¹<br>obs − calc ${(0.001).toExponential(2)} cm⁻¹`,
+    );
   });
 
   it("a rung's tooltip gives its label, position and relative intensity", () => {
     const { lines, scene } = setUp();
     const i = scene.lineIndex[0];
-    const label = ladderLabelTemplate({ deltaK: lines.kUpper[i] - lines.kLower[i], deltaJ: lines.jUpper[i] - lines.jLower[i], kLower: lines.kLower[i] }, 'prolate').replace('%{text}', String(lines.jLower[i]));
+    const label = ladderLabelTemplate(
+      { deltaK: lines.kUpper[i] - lines.kLower[i], deltaJ: lines.jUpper[i] - lines.jLower[i], kLower: lines.kLower[i] },
+      'prolate',
+    ).replace('%{text}', String(lines.jLower[i]));
     const tip = ladderTipHtml({ kind: 'rung', lineIndex: i, xPx: 0, yPx: 0 }, null, lines, 'prolate', false);
-    expect(tip).toBe(`${label}<br>${lines.wavenumberCm1[i].toFixed(4)} cm⁻¹<br>rel. intensity ${Number(lines.intensity[i].toPrecision(3))}`);
+    expect(tip).toBe(
+      `${label}<br>${lines.wavenumberCm1[i].toFixed(4)} cm⁻¹<br>rel. intensity ${Number(lines.intensity[i].toPrecision(3))}`,
+    );
     expect(ladderTipHtml({ kind: 'rung', lineIndex: i, xPx: 0, yPx: 0 }, null, lines, 'prolate', true)).toContain('click a peak to assign');
   });
 
@@ -237,7 +269,9 @@ describe('ladderHitTest', () => {
     const lo = view.x0Cm1 + 0.3 * (view.x1Cm1 - view.x0Cm1);
     const hi = view.x1Cm1 - 0.3 * (view.x1Cm1 - view.x0Cm1);
     let best = -1;
-    for (let i = 0; i < lines.count; i++) if (lines.wavenumberCm1[i] >= lo && lines.wavenumberCm1[i] <= hi && (best < 0 || lines.intensity[i] > lines.intensity[best])) best = i;
+    for (let i = 0; i < lines.count; i++)
+      if (lines.wavenumberCm1[i] >= lo && lines.wavenumberCm1[i] <= hi && (best < 0 || lines.intensity[i] > lines.intensity[best]))
+        best = i;
     expect(lines.intensity[s.lineIndex]).toBe(lines.intensity[best]);
   });
 });

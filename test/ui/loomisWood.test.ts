@@ -32,7 +32,12 @@ describe('loomisWoodGrid', () => {
     // Predictions 2 cm^-1 apart; the "observed" lines all 0.1 cm^-1 higher: the maximum of every
     // strip falls in the bin at +0.1 (bin width 0.02, so within ±0.01 of it).
     const preds = [995, 997, 999, 1001, 1003];
-    const g = loomisWoodGrid(trace(preds.map((p) => p + 0.1)), preds.map((c, j) => ({ jLower: j + 3, centreCm1: c })), 0.5, 50);
+    const g = loomisWoodGrid(
+      trace(preds.map((p) => p + 0.1)),
+      preds.map((c, j) => ({ jLower: j + 3, centreCm1: c })),
+      0.5,
+      50,
+    );
     expect(g.jLower).toEqual([3, 4, 5, 6, 7]);
     for (const row of g.z) {
       const best = row.reduce<number>((b, v, i) => ((v ?? -1) > (row[b] ?? -1) ? i : b), 0);
@@ -42,7 +47,15 @@ describe('loomisWoodGrid', () => {
   });
 
   it('leaves bins outside the trace empty and sorts strips by J″', () => {
-    const g = loomisWoodGrid(trace([1000]), [{ jLower: 9, centreCm1: 1009.8 }, { jLower: 2, centreCm1: 1000 }], 0.5, 10);
+    const g = loomisWoodGrid(
+      trace([1000]),
+      [
+        { jLower: 9, centreCm1: 1009.8 },
+        { jLower: 2, centreCm1: 1000 },
+      ],
+      0.5,
+      10,
+    );
     expect(g.jLower).toEqual([2, 9]);
     expect(g.z[1].slice(-2)).toEqual([null, null]);
     expect(g.z[0].every((v) => v !== null)).toBe(true);

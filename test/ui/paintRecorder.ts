@@ -46,7 +46,8 @@ export function paintRecorder(): PaintRecord {
     },
     closePath() {},
     stroke() {
-      for (const s of path) rec.segments.push({ x0: s.x0, y0: s.y0, x1: s.x1, y1: s.y1, colour: String(ctx.strokeStyle), widthPx: ctx.lineWidth });
+      for (const s of path)
+        rec.segments.push({ x0: s.x0, y0: s.y0, x1: s.x1, y1: s.y1, colour: String(ctx.strokeStyle), widthPx: ctx.lineWidth });
       for (const a of arcs) rec.arcs.push({ ...a, colour: String(ctx.strokeStyle), how: 'stroke' });
     },
     fill() {

@@ -2,7 +2,16 @@ import { describe, expect, it } from 'vitest';
 import { peaksFind, type PeakList } from '../../src/analysis/peaksFind';
 import { peakIdAt, peakIdPosition } from '../../src/state/assignLogic';
 import type { LadderView } from '../../src/ui/plot/ladderScene';
-import { PEAK_MARKERS_MAX, peakLayerBase, peakLayerBuild, peakLayerHitTest, peakLayerPaint, peakLayerPixel, peakLayerTipHtml, peakLayerVisible } from '../../src/ui/plot/peakLayer';
+import {
+  PEAK_MARKERS_MAX,
+  peakLayerBase,
+  peakLayerBuild,
+  peakLayerHitTest,
+  peakLayerPaint,
+  peakLayerPixel,
+  peakLayerTipHtml,
+  peakLayerVisible,
+} from '../../src/ui/plot/peakLayer';
 import { plotTheme } from '../../src/ui/plot/plotColours';
 import { smallTrace } from '../state/fixtures';
 import { paintRecorder } from './paintRecorder';
@@ -23,7 +32,16 @@ function nearestSample(x: Float64Array, at: number): number {
 }
 
 function viewOf(peaks: PeakList, y0: number, y1: number): LadderView {
-  return { x0Cm1: peaks.wavenumberCm1[0] - 1, x1Cm1: peaks.wavenumberCm1[peaks.count - 1] + 1, y0, y1, leftPx: 70, topPx: 200, widthPx: 4000, heightPx: 300 };
+  return {
+    x0Cm1: peaks.wavenumberCm1[0] - 1,
+    x1Cm1: peaks.wavenumberCm1[peaks.count - 1] + 1,
+    y0,
+    y1,
+    leftPx: 70,
+    topPx: 200,
+    widthPx: 4000,
+    heightPx: 300,
+  };
 }
 
 describe('peakLayer', () => {
@@ -79,7 +97,12 @@ describe('peakLayer', () => {
 
   it('paints free peaks open and assigned ones filled, and hit-tests the marker under the pointer', () => {
     const { trace, peaks } = setUp();
-    const layer = peakLayerBuild(peakLayerBase(peaks, trace, 'absorbance'), new Map([[peakIdAt(peaks.wavenumberCm1[4]), 'x']]), peakIdAt, peakIdPosition);
+    const layer = peakLayerBuild(
+      peakLayerBase(peaks, trace, 'absorbance'),
+      new Map([[peakIdAt(peaks.wavenumberCm1[4]), 'x']]),
+      peakIdAt,
+      peakIdPosition,
+    );
     let ymax = 0;
     for (const v of layer.y) ymax = Math.max(ymax, v);
     const view = viewOf(peaks, 0, 1.1 * ymax);

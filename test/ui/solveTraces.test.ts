@@ -12,7 +12,7 @@ const obs = Array.from({ length: lines.count }, (_, i) => ({
   kUpper: lines.kUpper[i],
   jLower: lines.jLower[i],
   kLower: lines.kLower[i],
-  observedCm1: lines.wavenumberCm1[i] + ((i * 7919) % 13 - 6) * 1e-5,
+  observedCm1: lines.wavenumberCm1[i] + (((i * 7919) % 13) - 6) * 1e-5,
   uncertaintyCm1: 1e-4,
 }));
 
@@ -45,7 +45,13 @@ describe('residualFigure', () => {
     const ids = obs.map((_, i) => `a${i}`);
     const { data } = residualFigure(r.result, ids, 'prolate', false);
     const seen = new Set<string>();
-    for (const d of data as unknown as { x: number[]; y: number[]; customdata: string[]; hovertext: string[]; marker: { symbol: unknown; color: unknown } }[]) {
+    for (const d of data as unknown as {
+      x: number[];
+      y: number[];
+      customdata: string[];
+      hovertext: string[];
+      marker: { symbol: unknown; color: unknown };
+    }[]) {
       expect(typeof d.marker.symbol).toBe('string');
       expect(typeof d.marker.color).toBe('string');
       d.customdata.forEach((id, k) => {

@@ -74,7 +74,13 @@ describe('spectrumFigure', () => {
 
   it('adds the obs − sim axis below the trace only when asked and there is a simulation', () => {
     const inp = input();
-    const sim = { xCm1: inp.trace!.wavenumberCm1, absorbance: inp.trace!.absorbance, scale: 1, offset: 0, obsMinusSim: new Float64Array(inp.trace!.wavenumberCm1.length) };
+    const sim = {
+      xCm1: inp.trace!.wavenumberCm1,
+      absorbance: inp.trace!.absorbance,
+      scale: 1,
+      offset: 0,
+      obsMinusSim: new Float64Array(inp.trace!.wavenumberCm1.length),
+    };
     expect(spectrumFigure({ ...inp, showObsMinusSim: true }).layout.yaxis3).toBeUndefined();
     const f = spectrumFigure({ ...inp, sim, showObsMinusSim: true, showSimulated: true });
     expect(f.layout.yaxis3).toBeDefined();

@@ -70,8 +70,30 @@ function projectText(): string {
   traceReplace(smallTrace(model).trace, null, 'file');
   benchStore.setState({
     assignments: [
-      { id: 'a1', jUpper: 3, kUpper: 1, jLower: 2, kLower: 0, observedCm1: 1000.5, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: '' },
-      { id: 'a2', jUpper: 4, kUpper: 1, jLower: 3, kLower: 0, observedCm1: 1001.1, uncertaintyCm1: 0.001, isBlended: false, isExcluded: false, note: 'x' },
+      {
+        id: 'a1',
+        jUpper: 3,
+        kUpper: 1,
+        jLower: 2,
+        kLower: 0,
+        observedCm1: 1000.5,
+        uncertaintyCm1: 0.001,
+        isBlended: false,
+        isExcluded: false,
+        note: '',
+      },
+      {
+        id: 'a2',
+        jUpper: 4,
+        kUpper: 1,
+        jLower: 3,
+        kLower: 0,
+        observedCm1: 1001.1,
+        uncertaintyCm1: 0.001,
+        isBlended: false,
+        isExcluded: false,
+        note: 'x',
+      },
     ],
   });
   return projectFileSerialize(sessionOf(benchStore.getState()), { appVersion: '0.1.0', savedAt: '2024-01-01T00:00:00.000Z' });

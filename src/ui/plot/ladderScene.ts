@@ -138,7 +138,14 @@ export function markupRuns(html: string): MarkupRun[] {
  * Paint a label right-aligned at (xRight, yMiddle): sub- and superscripts at 75 % size, shifted.
  * @returns the label's width, px
  */
-export function markupPaint(ctx: LadderPaintContext, runs: readonly MarkupRun[], xRight: number, yMiddle: number, sizePx: number, family: string): number {
+export function markupPaint(
+  ctx: LadderPaintContext,
+  runs: readonly MarkupRun[],
+  xRight: number,
+  yMiddle: number,
+  sizePx: number,
+  family: string,
+): number {
   const small = Math.round(sizePx * 0.75 * 10) / 10;
   const fontOf = (r: MarkupRun) => `${r.kind === 'plain' ? sizePx : small}px ${family}`;
   const widths = runs.map((r) => {
@@ -271,7 +278,14 @@ export function viewMaps(view: LadderView): { px: (nu: number) => number; py: (y
  * @param theme colours
  * @returns the number of rungs drawn
  */
-export function ladderScenePaint(ctx: LadderPaintContext, scene: LadderScene, markers: LadderMarkers | null, cursorLine: number, view: LadderView, theme: PlotTheme): number {
+export function ladderScenePaint(
+  ctx: LadderPaintContext,
+  scene: LadderScene,
+  markers: LadderMarkers | null,
+  cursorLine: number,
+  view: LadderView,
+  theme: PlotTheme,
+): number {
   if (!(view.widthPx > 0 && view.heightPx > 0) || view.x1Cm1 === view.x0Cm1) return 0;
   const { px, py } = viewMaps(view);
   const lo = Math.min(view.x0Cm1, view.x1Cm1);
@@ -282,7 +296,8 @@ export function ladderScenePaint(ctx: LadderPaintContext, scene: LadderScene, ma
   ctx.fillStyle = theme.text;
   scene.rows.forEach((row, r) => {
     const y = py(row.y);
-    if (y >= view.topPx - 1 && y <= view.topPx + view.heightPx + 1) markupPaint(ctx, scene.rowLabels[r], view.leftPx - 6, y, sizePx, LABEL_FONT);
+    if (y >= view.topPx - 1 && y <= view.topPx + view.heightPx + 1)
+      markupPaint(ctx, scene.rowLabels[r], view.leftPx - 6, y, sizePx, LABEL_FONT);
   });
   ctx.save();
   ctx.beginPath();
@@ -340,7 +355,15 @@ export function assignedDotsFinish(ctx: LadderPaintContext, theme: PlotTheme): v
   ctx.stroke();
 }
 
-function markersPaint(ctx: LadderPaintContext, m: LadderMarkers, px: (nu: number) => number, py: (y: number) => number, lo: number, hi: number, theme: PlotTheme): void {
+function markersPaint(
+  ctx: LadderPaintContext,
+  m: LadderMarkers,
+  px: (nu: number) => number,
+  py: (y: number) => number,
+  lo: number,
+  hi: number,
+  theme: PlotTheme,
+): void {
   let nOk = 0;
   for (let k = 0; k < m.nuCm1.length; k++) if (!m.isFlagged[k] && m.nuCm1[k] >= lo && m.nuCm1[k] <= hi) nOk++;
   const isDense = nOk > LADDER_DOTS_MAX;
@@ -394,7 +417,14 @@ function markersPaint(ctx: LadderPaintContext, m: LadderMarkers, px: (nu: number
  * @param yPx pointer y, CSS px in the canvas
  * @param tolerancePx largest horizontal distance to a rung, px @default 5
  */
-export function ladderHitTest(scene: LadderScene, markers: LadderMarkers | null, view: LadderView, xPx: number, yPx: number, tolerancePx = 5): LadderHit | null {
+export function ladderHitTest(
+  scene: LadderScene,
+  markers: LadderMarkers | null,
+  view: LadderView,
+  xPx: number,
+  yPx: number,
+  tolerancePx = 5,
+): LadderHit | null {
   if (xPx < view.leftPx || xPx > view.leftPx + view.widthPx || yPx < view.topPx || yPx > view.topPx + view.heightPx) return null;
   const { px, py } = viewMaps(view);
   if (markers) {
@@ -409,7 +439,8 @@ export function ladderHitTest(scene: LadderScene, markers: LadderMarkers | null,
         best = k;
       }
     }
-    if (best >= 0) return { kind: 'marker', marker: best, lineIndex: markers.lineIndex[best], xPx: px(markers.nuCm1[best]), yPx: py(markers.y[best]) };
+    if (best >= 0)
+      return { kind: 'marker', marker: best, lineIndex: markers.lineIndex[best], xPx: px(markers.nuCm1[best]), yPx: py(markers.y[best]) };
   }
   const yData = view.y1 - ((yPx - view.topPx) / view.heightPx) * (view.y1 - view.y0);
   const rowY = Math.round(yData);
@@ -442,7 +473,13 @@ export function ladderHitTest(scene: LadderScene, markers: LadderMarkers | null,
  * @param shape rotor shape (labels)
  * @param isSelected the rung is the selected one (adds how to assign it)
  */
-export function ladderTipHtml(hit: LadderHit, markers: LadderMarkers | null, lines: LineList, shape: TopShape, isSelected: boolean): string {
+export function ladderTipHtml(
+  hit: LadderHit,
+  markers: LadderMarkers | null,
+  lines: LineList,
+  shape: TopShape,
+  isSelected: boolean,
+): string {
   if (hit.kind === 'marker' && markers) {
     const r = markers.rows[hit.marker];
     const sig = r.omcSigma !== null ? ` (${r.omcSigma.toFixed(1)} σ)` : '';
@@ -458,7 +495,11 @@ export function ladderTipHtml(hit: LadderHit, markers: LadderMarkers | null, lin
 }
 
 /** The scene's strongest rung inside the middle of a view (for keyboard focus and tests), or null. */
-export function ladderStrongestInView(scene: LadderScene, lines: LineList, view: LadderView): { lineIndex: number; xPx: number; yPx: number } | null {
+export function ladderStrongestInView(
+  scene: LadderScene,
+  lines: LineList,
+  view: LadderView,
+): { lineIndex: number; xPx: number; yPx: number } | null {
   const lo = Math.min(view.x0Cm1, view.x1Cm1);
   const hi = Math.max(view.x0Cm1, view.x1Cm1);
   const { px, py } = viewMaps(view);

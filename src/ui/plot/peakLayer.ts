@@ -65,7 +65,12 @@ export function peakLayerBase(peaks: PeakList, trace: Trace, ordinate: 'absorban
  * @param peakId the store's peak id of a position (ids encode the position)
  * @param idPositionCm1 the position an id encodes, cm^-1
  */
-export function peakLayerBuild(base: PeakLayerBase, assigned: ReadonlyMap<string, string>, peakId: (positionCm1: number) => string, idPositionCm1: (id: string) => number): PeakLayer {
+export function peakLayerBuild(
+  base: PeakLayerBase,
+  assigned: ReadonlyMap<string, string>,
+  peakId: (positionCm1: number) => string,
+  idPositionCm1: (id: string) => number,
+): PeakLayer {
   const nu = base.nuCm1;
   const isAssigned = new Uint8Array(nu.length);
   for (const id of assigned.keys()) {
@@ -157,7 +162,13 @@ export function peakLayerPaint(ctx: LadderPaintContext, layer: PeakLayer, drawn:
  * @param drawn indices from peakLayerVisible (the ones on screen)
  */
 export function peakLayerHitTest(layer: PeakLayer, drawn: Int32Array, view: PanelView, xPx: number, yPx: number, tolerancePx = 6): number {
-  if (xPx < view.leftPx - tolerancePx || xPx > view.leftPx + view.widthPx + tolerancePx || yPx < view.topPx - tolerancePx || yPx > view.topPx + view.heightPx + tolerancePx) return -1;
+  if (
+    xPx < view.leftPx - tolerancePx ||
+    xPx > view.leftPx + view.widthPx + tolerancePx ||
+    yPx < view.topPx - tolerancePx ||
+    yPx > view.topPx + view.heightPx + tolerancePx
+  )
+    return -1;
   const { px, py } = viewMaps(view);
   let best = -1;
   let bestD = tolerancePx * tolerancePx;

@@ -46,7 +46,12 @@ const RESIDUAL_CLASSES = [
  * @param lineIds assignment id of each result line (same order)
  * @param shape rotor shape (labels)
  */
-export function residualFigure(result: FitResult, lineIds: readonly string[], shape: TopShape, isDark: boolean): { data: Data[]; layout: Partial<Layout> } {
+export function residualFigure(
+  result: FitResult,
+  lineIds: readonly string[],
+  shape: TopShape,
+  isDark: boolean,
+): { data: Data[]; layout: Partial<Layout> } {
   // Lines by K'' and class: 0 fitted, 1 excluded, 2 outlier.
   const groups = new Map<number, number[][]>();
   const lines = result.lines;
@@ -74,7 +79,8 @@ export function residualFigure(result: FitResult, lineIds: readonly string[], sh
         x[m] = l.jLower;
         y[m] = l.obsMinusCalc;
         ids[m] = lineIds[i];
-        text[m] = `${lineLabelHtml(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape)}<br>obs − calc ${l.obsMinusCalc.toExponential(2)} cm⁻¹<br>${l.normalisedResidual.toFixed(2)} σ${l.isExcluded ? '<br>excluded' : ''}${l.isOutlier ? '<br>outlier' : ''}`;
+        text[m] =
+          `${lineLabelHtml(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape)}<br>obs − calc ${l.obsMinusCalc.toExponential(2)} cm⁻¹<br>${l.normalisedResidual.toFixed(2)} σ${l.isExcluded ? '<br>excluded' : ''}${l.isOutlier ? '<br>outlier' : ''}`;
       }
       data.push({
         type: 'scatter',

@@ -115,7 +115,17 @@ export function spectrumFigure(input: SpectrumFigureInput): { data: Data[]; layo
   // The ladder axis holds no plotly data: rungs, assigned markers and the cursor ring are painted
   // on a canvas over it (ladderScene), so a zoom never makes plotly recompute them. This empty
   // trace keeps the subplot (its grid lines are the row base lines, its ticks the row names).
-  data.push({ type: 'scatter', mode: 'lines', name: 'ladder axis', x: [], y: [], yaxis: 'y2', hoverinfo: 'skip', meta: { kind: 'ladder-axis' }, showlegend: false } as Data);
+  data.push({
+    type: 'scatter',
+    mode: 'lines',
+    name: 'ladder axis',
+    x: [],
+    y: [],
+    yaxis: 'y2',
+    hoverinfo: 'skip',
+    meta: { kind: 'ladder-axis' },
+    showlegend: false,
+  } as Data);
   const nRows = input.rows.length;
   // Ladder panel: about 15 px per row, between 25 % and 58 % of the chart height.
   const usable = Math.max(input.heightPx - 50, 100);
@@ -123,13 +133,40 @@ export function spectrumFigure(input: SpectrumFigureInput): { data: Data[]; layo
   const traceTop = 1 - ladderFrac - 0.03;
   const shapes: Partial<Shape>[] = [];
   if (input.cursorCm1 !== null) {
-    shapes.push({ type: 'line', xref: 'x', yref: 'paper', x0: input.cursorCm1, x1: input.cursorCm1, y0: 0, y1: 1, line: { color: theme.cursor, width: 1.2, dash: 'dot' } });
+    shapes.push({
+      type: 'line',
+      xref: 'x',
+      yref: 'paper',
+      x0: input.cursorCm1,
+      x1: input.cursorCm1,
+      y0: 0,
+      y1: 1,
+      line: { color: theme.cursor, width: 1.2, dash: 'dot' },
+    });
   }
   if (input.candidatePeakCm1 !== null) {
-    shapes.push({ type: 'line', xref: 'x', yref: 'paper', x0: input.candidatePeakCm1, x1: input.candidatePeakCm1, y0: 0, y1: 1, line: { color: theme.peak, width: 1.5 } });
+    shapes.push({
+      type: 'line',
+      xref: 'x',
+      yref: 'paper',
+      x0: input.candidatePeakCm1,
+      x1: input.candidatePeakCm1,
+      y0: 0,
+      y1: 1,
+      line: { color: theme.peak, width: 1.5 },
+    });
   }
   if (input.selectedObservedCm1 !== null) {
-    shapes.push({ type: 'line', xref: 'x', yref: 'paper', x0: input.selectedObservedCm1, x1: input.selectedObservedCm1, y0: 0, y1: traceTop, line: { color: theme.assigned, width: 1.5, dash: 'dash' } });
+    shapes.push({
+      type: 'line',
+      xref: 'x',
+      yref: 'paper',
+      x0: input.selectedObservedCm1,
+      x1: input.selectedObservedCm1,
+      y0: 0,
+      y1: traceTop,
+      line: { color: theme.assigned, width: 1.5, dash: 'dash' },
+    });
   }
   const axisCommon = { color: theme.text, gridcolor: theme.grid, zerolinecolor: theme.grid, linecolor: theme.grid };
   const layout: Partial<Layout> = {
