@@ -1,7 +1,6 @@
 import { bandLines } from '../physics/bandLines';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel } from '../physics/model';
-import { transitionWavenumber } from '../physics/termValues';
 import {
   assistantPeakContext,
   assistantPeaksCheck,

@@ -83,7 +83,7 @@ export function rankDiagnosis(
   // Greedy: drop the most-preferred candidate whenever dropping it keeps the rank (removes one null direction).
   const remaining = Array.from({ length: n }, (_, i) => i);
   const toFix: string[] = [];
-  let rank = lin.rank;
+  const rank = lin.rank;
   for (const i of [...involved].sort((a, b) => fixRank(floated[a]) - fixRank(floated[b]))) {
     if (rank === remaining.length) break;
     const without = remaining.filter((c) => c !== i);

@@ -133,6 +133,8 @@ export function inputExcerpt(text: string, maxChars: number = INPUT_LIMITS.messa
   // A cut inside a surrogate pair would leave half a character.
   if (cut && /[\uD800-\uDBFF]$/.test(s)) s = s.slice(0, -1);
   s = s.replace(
+    // Control characters are exactly what this replaces.
+    // eslint-disable-next-line no-control-regex
     /[\u0000-\u001f\u007f-\u009f\u2028\u2029]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g,
     (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`,
   );

@@ -89,10 +89,16 @@ export function jcampAsdfDecodeLine(
       const s = i;
       if (c === 43 || c === 45) i++;
       let digits = 0;
-      while (i < n && isDigit(line.charCodeAt(i))) (i++, digits++);
+      while (i < n && isDigit(line.charCodeAt(i))) {
+        i++;
+        digits++;
+      }
       if (i < n && line.charCodeAt(i) === 46) {
         i++;
-        while (i < n && isDigit(line.charCodeAt(i))) (i++, digits++);
+        while (i < n && isDigit(line.charCodeAt(i))) {
+          i++;
+          digits++;
+        }
       }
       if (digits === 0) return fail(col, `'${line[s]}' is not followed by a number`);
       const e = line.charCodeAt(i);
@@ -129,8 +135,10 @@ export function jcampAsdfDecodeLine(
       while (i < n) {
         const d = line.charCodeAt(i);
         if (isDigit(d)) i++;
-        else if (d === 46 && !dot) ((dot = true), i++);
-        else break;
+        else if (d === 46 && !dot) {
+          dot = true;
+          i++;
+        } else break;
       }
       const digit = DIGIT[c];
       const mag = Number(String(Math.abs(digit)) + line.slice(s + 1, i));

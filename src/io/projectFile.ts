@@ -119,7 +119,7 @@ export function float64ToBase64(values: Float64Array): string {
     codes[o++] = B64_CODES[v >> 18];
     codes[o++] = B64_CODES[(v >> 12) & 63];
     codes[o++] = i + 1 < n ? B64_CODES[(v >> 6) & 63] : 61; // '='
-    codes[o++] = 61;
+    codes[o] = 61;
   }
   return asciiText(codes);
 }

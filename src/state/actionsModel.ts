@@ -47,11 +47,6 @@ export function modelSetFloated(key: string, isFloated: boolean): void {
   );
 }
 
-/** Float exactly these keys (e.g. the suggestion of an under-determined fit applied). */
-export function modelSetFloatedKeys(keys: readonly string[], label: string): void {
-  benchUpdate(label, () => ({ floated: [...keys] }), { history: true });
-}
-
 /** Floated keys that remain meaningful for a shape (drops A for oblate, C for prolate …). */
 export function floatedForShape(floated: readonly string[], shape: TopShape): string[] {
   return floated.filter((k) => {

@@ -27,7 +27,12 @@ export function LoomisWoodPanel() {
     let best: string | null = null;
     let bestI = -1;
     for (const l of band.ladders)
-      for (const i of l.lineIndex) if (band.lines.intensity[i] > bestI) ((bestI = band.lines.intensity[i]), (best = l.key));
+      for (const i of l.lineIndex) {
+        if (band.lines.intensity[i] > bestI) {
+          bestI = band.lines.intensity[i];
+          best = l.key;
+        }
+      }
     return best;
   }, [band]);
   const key = seriesKey && band.ladderByKey.has(seriesKey) ? seriesKey : (cursorKey ?? strongestKey);

@@ -165,12 +165,17 @@ export function PlotOverlay(props: PlotOverlayProps) {
         paintSoon();
       },
     }),
+    // paintSoon only schedules paint(), which reads the latest props and scene through refs, so the
+    // handle made at mount stays right; re-creating it per render would cost the parent a re-bind.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
     [],
   );
 
   // Repaint when what is drawn changes (the plot itself may not redraw).
   useEffect(() => {
     paintSoon();
+    // The listed props are what the canvas shows; paintSoon is a fresh closure each render on purpose.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [props.scene, props.markers, props.cursorLine, props.peaks, props.isDark]);
 
   useEffect(() => {

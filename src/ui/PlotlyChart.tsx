@@ -92,6 +92,8 @@ export function PlotlyChart(props: PlotlyChartProps) {
       cancelAnimationFrame(frame);
       clearTimeout(timer);
     };
+    // isUrgent only chooses how soon a change of the figure is drawn; on its own it is not a change.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [isReady, props.data, props.layout, props.config]);
 
   useEffect(() => {

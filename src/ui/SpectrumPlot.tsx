@@ -145,6 +145,9 @@ export function SpectrumPlot() {
         showObsMinusSim,
         isDark,
       }),
+    // `inputs` lists exactly the values read above; it is kept as one array so the range-only test
+    // below compares the same list.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
     inputs,
   );
 

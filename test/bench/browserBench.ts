@@ -57,7 +57,6 @@ const want = (n: number) => ONLY.size === 0 || ONLY.has(n);
 const PROFILE = process.env.LB_BENCH_PROFILE === '1';
 /** Folder to also write the raw CPU profiles to (.cpuprofile, for DevTools), when set. */
 const PROFILE_DIR = process.env.LB_BENCH_PROFILE_DIR ?? '';
-const PLOT = '[data-testid=spectrum-plot]';
 const LAUNCH_ARGS = [
   '--headless',
   '--no-sandbox',
@@ -155,7 +154,7 @@ function pageWatchInstall(): void {
     if (name === 'fitShown') lb.baseline = solverResults();
     lb.pending = new Promise((resolveWatch, rejectWatch) => {
       const tick = () => {
-        let ok = false;
+        let ok: boolean;
         try {
           ok = lb.conds[name](arg);
         } catch {

@@ -5,7 +5,6 @@
  * painter takes any object with the CanvasRenderingContext2D calls it uses, and hit testing maps a
  * pointer position back to a line of the line list.
  */
-import { lineLabelHtml } from '../../physics/lineLabel';
 import type { LineList, TopShape } from '../../physics/model';
 import type { AssignmentRow } from '../../state/selectors';
 import { ladderLabelTemplate, rungExtent, type LadderRow } from './ladderGeometry';
@@ -511,9 +510,4 @@ export function ladderStrongestInView(
   }
   if (best < 0) return null;
   return { lineIndex: scene.lineIndex[best], xPx: px(scene.nuCm1[best]), yPx: py((scene.yBottom[best] + scene.yTop[best]) / 2) };
-}
-
-/** Label markup of a line (for the selected-rung readout). */
-export function ladderLineLabel(lines: LineList, i: number, shape: TopShape): string {
-  return lineLabelHtml(lines.kUpper[i] - lines.kLower[i], lines.jUpper[i] - lines.jLower[i], lines.kLower[i], lines.jLower[i], shape);
 }
