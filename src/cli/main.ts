@@ -22,6 +22,10 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<CliCommand
     summary: 'assign --model M.json --trace FILE [--lines SEED.csv] [--tolerance K]',
     load: async () => (await import('./assignCommand')).assignCommand,
   },
+  perturbations: {
+    summary: 'perturbations --model M.json --lines L.csv [--state upper|lower]',
+    load: async () => (await import('./perturbationsCommand')).perturbationsCommand,
+  },
 };
 
 function usage(): string {
