@@ -122,11 +122,13 @@ export function perturbationScan(levels: readonly LevelTermValue[], options: Per
   const findings: PerturbationFinding[] = [];
   if (levels.length === 0 || !(noise > 0)) return { findings, noiseCm1: noise, nLevels: levels.length, nStacks: stacks.size };
 
-  const kLabel = state === 'upper' ? "K'" : 'K″';
-  const jLabel = state === 'upper' ? "J'" : 'J″';
+  const kLabel = state === 'upper' ? 'K′' : 'K″';
+  const jLabel = state === 'upper' ? 'J′' : 'J″';
   const compLabel = (c: number) => (c > 0 ? ' (+ component)' : c < 0 ? ' (− component)' : '');
 
-  // 1. Local excursions from the running median of each stack.
+  // 1. Local excursions from the running median of each stack. Flagged levels are kept out of the
+  // stack summaries below, so one shifted level does not make its whole stack look drifted.
+  const locallyFlagged = new Set<LevelTermValue>();
   for (const s of stacks.values()) {
     if (s.length < 2 * halfWindow + 1) continue;
     const excursion = s.map((l, i) => {
@@ -136,6 +138,7 @@ export function perturbationScan(levels: readonly LevelTermValue[], options: Per
       return l.obsMinusCalcCm1 - arrayMedian(Float64Array.from(around));
     });
     const flagged = excursion.map((e, i) => Math.abs(e) > threshold * Math.max(noise, s[i].sigmaCm1));
+    s.forEach((l, i) => flagged[i] && locallyFlagged.add(l));
     for (let i = 0; i < s.length;) {
       if (!flagged[i]) {
         i++;
@@ -183,7 +186,8 @@ export function perturbationScan(levels: readonly LevelTermValue[], options: Per
     n: number;
   }
   const summaries: StackSummary[] = [];
-  for (const s of stacks.values()) {
+  for (const all of stacks.values()) {
+    const s = all.filter((l) => !locallyFlagged.has(l));
     if (s.length < 3) continue;
     const offset = arrayMedian(Float64Array.from(s, (l) => l.obsMinusCalcCm1));
     // Weighted straight line of o − c against J(J+1); drift = change over the stack's J range.

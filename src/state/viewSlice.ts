@@ -10,7 +10,7 @@ export interface BenchMessage {
 }
 
 /** Which tab of the lower panel is shown. */
-export type BenchTab = 'assignments' | 'solve' | 'combination' | 'loomis' | 'export' | 'import' | 'calibration';
+export type BenchTab = 'assignments' | 'solve' | 'combination' | 'loomis' | 'levels' | 'export' | 'import' | 'calibration';
 
 /** Sort and filter of the assignments table. */
 export interface TableQuery {

@@ -12,6 +12,7 @@ import { ExportPanel } from './ExportPanel';
 import { HelpOverlay } from './HelpOverlay';
 import { ImportPanel } from './ImportPanel';
 import { keyboardHandle } from './keyboard';
+import { LevelsPanel } from './LevelsPanel';
 import { LoomisWoodPanel } from './LoomisWoodPanel';
 import { MessageArea } from './MessageArea';
 import { ModelPanel } from './ModelPanel';
@@ -23,6 +24,7 @@ const TABS: { id: BenchTab; label: string }[] = [
   { id: 'solve', label: 'Fit' },
   { id: 'combination', label: 'Combination differences' },
   { id: 'loomis', label: 'Loomis–Wood' },
+  { id: 'levels', label: 'Levels' },
   { id: 'import', label: 'Trace file' },
   { id: 'calibration', label: 'Calibration' },
   { id: 'export', label: 'Export' },
@@ -119,6 +121,7 @@ function LowerPanel() {
         {tab === 'solve' && <SolvePanel />}
         {tab === 'combination' && <CombinationPanel />}
         {tab === 'loomis' && <LoomisWoodPanel />}
+        {tab === 'levels' && <LevelsPanel />}
         {tab === 'import' && <ImportPanel />}
         {tab === 'calibration' && <CalibrationPanel />}
         {tab === 'export' && <ExportPanel />}
