@@ -233,13 +233,3 @@ export async function persistRestore(): Promise<boolean> {
   savedFit = undefined;
   return true;
 }
-
-/** Forget the autosaved session (the "new session" button). */
-export async function persistClear(): Promise<void> {
-  try {
-    await storage.delMany([SESSION_KEY, TRACE_KEY, ...PROJECT_PART_NAMES.map((n) => PART_KEYS[n])]);
-  } catch {
-    // Nothing saved, nothing to clear.
-  }
-  forgetSaved();
-}
