@@ -53,7 +53,7 @@ export function sessionOf(s: BenchState): ProjectSession {
   };
 }
 
-const TABS: BenchTab[] = ['assignments', 'solve', 'combination', 'loomis', 'export', 'import'];
+const TABS: BenchTab[] = ['assignments', 'solve', 'combination', 'loomis', 'levels', 'export', 'import', 'calibration'];
 
 /**
  * Store fields for a (possibly partial) session; absent fields take their initial values.

@@ -145,7 +145,7 @@ describe('files', () => {
       .locator('[data-testid=file-input]')
       .setInputFiles({ name: project.name, mimeType: 'application/json', buffer: Buffer.from(project.text) });
     // The project was saved with the Export tab open, and opens that way again.
-    await expect.poll(() => page.locator('[data-testid=tab-export]').getAttribute('aria-selected')).toBe('true');
+    await expect.poll(() => page.locator('[data-testid=tab-export]').getAttribute('aria-selected'), { timeout: 30_000 }).toBe('true');
     // It was read in a parse worker, not on the page's thread.
     expect(parseWorkers()).toBeGreaterThan(workersBefore);
     await page.locator('[data-testid=tab-assignments]').click();
