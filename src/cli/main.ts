@@ -3,6 +3,7 @@
  * Output on stdout, one-line errors on stderr with a non-zero exit, never a stack trace.
  */
 import { readFileSync } from 'node:fs';
+import { textDecode } from '../io/textDecode';
 import { CliError, type CliCommand, type CliIo } from './cliIo';
 
 /** Commands by name; each module is loaded only when used, so start-up stays fast. */
@@ -60,18 +61,26 @@ export async function cliMain(argv: string[], io: CliIo): Promise<number> {
   }
 }
 
-/** Node io: files read as UTF-8, paths named in errors. */
+/** The bytes of a file, or a CliError naming the path. */
+function readBytes(path: string): Uint8Array {
+  try {
+    return readFileSync(path);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    throw new CliError(`cannot read '${path}'${code === 'ENOENT' ? ': no such file' : code ? ` (${code})` : ''}`);
+  }
+}
+
+/** Node io: text decoded by textDecode (UTF-8, UTF-16 with a byte-order mark or NUL bytes), paths named in errors. */
 export const nodeIo: CliIo = {
   stdout: (t) => void process.stdout.write(t),
   stderr: (t) => void process.stderr.write(t),
   readFile: (path) => {
-    try {
-      return readFileSync(path, 'utf8');
-    } catch (err) {
-      const code = (err as NodeJS.ErrnoException).code;
-      throw new CliError(`cannot read '${path}'${code === 'ENOENT' ? ': no such file' : code ? ` (${code})` : ''}`);
-    }
+    const decoded = textDecode(readBytes(path));
+    if (!decoded.ok) throw new CliError(`${path}: ${decoded.message}`);
+    return decoded.text;
   },
+  readBytes,
 };
 
 const isEntry = process.argv[1] && /main\.ts$/.test(process.argv[1]);

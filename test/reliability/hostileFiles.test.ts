@@ -120,7 +120,7 @@ describe('hostile traces that are still usable, with what was done said in the r
     const r = trace('nan-infinity.csv');
     if (!r.ok) throw new Error(r.error.message);
     expect(Array.from(r.trace.wavenumberCm1)).toEqual([1000, 1003, 1003.5]);
-    expect(r.report.messages).toContain('5 rows skipped: lines 3, 4, 5, 6, 7 (NaN/Infinity)');
+    expect(r.report.messages).toContain('5 rows skipped, not finite numbers (NaN or Infinity), at lines 3, 4, 5, 6, 7');
   });
 
   it('duplicate-x.csv: the first of each repeated abscissa is kept, the others listed', () => {
@@ -128,7 +128,9 @@ describe('hostile traces that are still usable, with what was done said in the r
     if (!r.ok) throw new Error(r.error.message);
     expect(Array.from(r.trace.wavenumberCm1)).toEqual([1000, 1000.5, 1001, 1001.5]);
     expect(Array.from(r.trace.absorbance)).toEqual([0.1, 0.2, 0.3, 0.4]);
-    expect(r.report.messages).toContain('2 rows skipped: lines 4, 6 (duplicate x)');
+    expect(r.report.messages).toContain(
+      '2 rows skipped, x repeated from an earlier row (the first row of each x is kept; y differs from the row kept in 2 of 2), at lines 4, 6',
+    );
   });
 
   it('descending-gap.csv: stored ascending, the gap kept (not filled), the reversal reported', () => {
@@ -153,7 +155,7 @@ describe('hostile traces that are still usable, with what was done said in the r
     if (!r.ok) throw new Error(r.error.message);
     expect(Array.from(r.trace.wavenumberCm1)).toEqual([1000, 1002, 1003, 1005]);
     expect(Array.from(r.trace.absorbance)).toEqual([1e308, 0, -0, 0.5]);
-    expect(r.report.messages).toContain('2 rows skipped: lines 3, 6 (NaN/Infinity)');
+    expect(r.report.messages).toContain('2 rows skipped, not finite numbers (NaN or Infinity), at lines 3, 6');
   });
 
   it('keeps a file name holding HTML verbatim in the message (the page escapes it, the importer does not)', () => {
