@@ -5,31 +5,23 @@
 import { readFileSync } from 'node:fs';
 import { textDecode } from '../io/textDecode';
 import { CliError, type CliCommand, type CliIo } from './cliIo';
+import { CLI_HELP, cliHelpText, cliSynopsis } from './cliHelp';
 
-/** Commands by name; each module is loaded only when used, so start-up stays fast. */
-const COMMANDS: Record<string, { summary: string; load: () => Promise<CliCommand> }> = {
-  simulate: { summary: 'simulate --model M.json', load: async () => (await import('./simulateCommand')).simulateCommand },
-  spectrum: {
-    summary: 'spectrum --model M.json --from X1 --to X2 --step DX [--mass AMU] [--lorentz HWHM]',
-    load: async () => (await import('./spectrumCommand')).spectrumCommand,
-  },
-  peaks: { summary: 'peaks --trace FILE [--min-snr S]', load: async () => (await import('./peaksCommand')).peaksCommand },
-  fit: { summary: 'fit --model M.json --lines L.csv', load: async () => (await import('./fitCommand')).fitCommand },
-  combdiff: {
-    summary: 'combdiff --lines L.csv --state lower|upper [--shape prolate|oblate]',
-    load: async () => (await import('./combdiffCommand')).combdiffCommand,
-  },
-  assign: {
-    summary: 'assign --model M.json --trace FILE [--lines SEED.csv] [--tolerance K]',
-    load: async () => (await import('./assignCommand')).assignCommand,
-  },
+/** Commands by name; each module is loaded only when used, so start-up stays fast. Their usage is in cliHelp.ts. */
+const COMMANDS: Record<string, () => Promise<CliCommand>> = {
+  simulate: async () => (await import('./simulateCommand')).simulateCommand,
+  spectrum: async () => (await import('./spectrumCommand')).spectrumCommand,
+  peaks: async () => (await import('./peaksCommand')).peaksCommand,
+  fit: async () => (await import('./fitCommand')).fitCommand,
+  combdiff: async () => (await import('./combdiffCommand')).combdiffCommand,
+  assign: async () => (await import('./assignCommand')).assignCommand,
 };
 
 function usage(): string {
   return (
-    'usage: cli <command> [options]\n' +
-    Object.values(COMMANDS)
-      .map((c) => '  ' + c.summary)
+    'usage: cli <command> [options]   (cli <command> --help for its options, units and defaults)\n' +
+    Object.keys(COMMANDS)
+      .map((name) => '  ' + (CLI_HELP[name] ? cliSynopsis(name, CLI_HELP[name]) : name))
       .join('\n') +
     '\n'
   );
@@ -42,13 +34,18 @@ export async function cliMain(argv: string[], io: CliIo): Promise<number> {
     io.stdout(usage());
     return name ? 0 : 2;
   }
-  const entry = COMMANDS[name];
-  if (!entry) {
+  const load = COMMANDS[name];
+  if (!load) {
     io.stderr(`cli: unknown command '${name}'\n${usage()}`);
     return 2;
   }
+  if (rest.includes('--help') || rest.includes('-h')) {
+    const help = CLI_HELP[name];
+    io.stdout(help ? cliHelpText(name, help) : usage());
+    return 0;
+  }
   try {
-    const command = await entry.load();
+    const command = await load();
     return await command(rest, io);
   } catch (err) {
     if (err instanceof CliError) {
