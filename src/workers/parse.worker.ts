@@ -7,6 +7,7 @@ import { createStore, delMany, getMany, setMany, type UseStore } from 'idb-keyva
 import { INPUT_LIMITS } from '../io/inputLimits';
 import { projectFileParse, projectFileSerialize } from '../io/projectFile';
 import { importTrace } from '../io/traceImport';
+import { importTraceBytes } from '../io/traceImportBytes';
 import { TRACE_IMPORT_DEFAULTS } from '../io/traceImportOptions';
 import {
   PARSE_PROGRESS_STEP,
@@ -38,9 +39,9 @@ async function handle(request: ParseWorkerRequest): Promise<void> {
   if (!request || request.type !== 'parse') return;
   const { id, fileName } = request;
   try {
-    let text: string;
-    if (typeof request.text === 'string') text = request.text;
-    else {
+    // A file is read as bytes and decoded by importTraceBytes (byte-order marks, UTF-16), as the CLI does.
+    let bytes: Uint8Array | undefined;
+    if (typeof request.text !== 'string') {
       const maxChars = request.options?.maxChars ?? TRACE_IMPORT_DEFAULTS.maxChars;
       // Checked before reading: a file this large would not fit in one string anyway.
       if (request.text.size > maxChars) {
@@ -60,15 +61,18 @@ async function handle(request: ParseWorkerRequest): Promise<void> {
         );
         return;
       }
-      text = await request.text.text();
+      bytes = new Uint8Array(await request.text.arrayBuffer());
     }
     let sent = -1;
-    const outcome = importTrace(text, fileName, request.options, (fraction) => {
+    const onProgress = (fraction: number) => {
       if (fraction - sent >= PARSE_PROGRESS_STEP || (fraction === 1 && sent < 1)) {
         sent = fraction;
         scope.postMessage({ type: 'progress', id, fraction }, []);
       }
-    });
+    };
+    const outcome = bytes
+      ? importTraceBytes(bytes, fileName, request.options, onProgress)
+      : importTrace(request.text as string, fileName, request.options, onProgress);
     scope.postMessage({ type: 'result', id, outcome }, parseOutcomeTransferables(outcome));
   } catch (err) {
     const message = `parse worker: ${fileName}: ${err instanceof Error ? err.message : String(err)}`;
