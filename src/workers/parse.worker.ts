@@ -6,6 +6,7 @@
 import { createStore, delMany, getMany, setMany, type UseStore } from 'idb-keyval';
 import { INPUT_LIMITS } from '../io/inputLimits';
 import { projectFileParse, projectFileSerialize } from '../io/projectFile';
+import { textDecode } from '../io/textDecode';
 import { importTrace } from '../io/traceImport';
 import { importTraceBytes } from '../io/traceImportBytes';
 import { TRACE_IMPORT_DEFAULTS } from '../io/traceImportOptions';
@@ -92,7 +93,13 @@ async function projectRead(request: Extract<ParseWorkerRequest, { type: 'project
         scope.postMessage({ type: 'project-read-result', id, outcome: { ok: false, message } }, []);
         return;
       }
-      text = await request.text.text();
+      // Decoded like a trace (a project re-saved as UTF-16 still opens).
+      const decoded = textDecode(new Uint8Array(await request.text.arrayBuffer()));
+      if (!decoded.ok) {
+        scope.postMessage({ type: 'project-read-result', id, outcome: { ok: false, message: `project file: ${decoded.message}` } }, []);
+        return;
+      }
+      text = decoded.text;
     }
     const outcome = projectFileParse(text, request.parts);
     scope.postMessage({ type: 'project-read-result', id, outcome }, projectOutcomeTransferables(outcome));

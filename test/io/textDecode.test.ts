@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { textDecode, textDecodeHow, textDecodeNote, textGuessUtf16 } from '../../src/io/textDecode';
+import { textDecode, textDecodeHow, textDecodeNote, textGuessUtf16, textUtf16Units } from '../../src/io/textDecode';
 
 /** UTF-16 code units of a string as bytes (the test's own encoder, so the decoder is not checked against itself). */
 function utf16(text: string, isLittleEndian: boolean): number[] {
@@ -97,6 +97,15 @@ describe('textDecode', () => {
 
   it('offsets the first invalid byte by the mark it removed', () => {
     expect(ok(bytes([0xef, 0xbb, 0xbf, 0x31, 0xff])).firstInvalidByte).toBe(4);
+  });
+});
+
+describe('textUtf16Units (the fallback decoder)', () => {
+  it('gives what the platform decoder gives, in both byte orders, across its 8192-unit chunks', () => {
+    const text = 'x (µm),€,𝜈\n'.repeat(2000);
+    expect(textUtf16Units(bytes(utf16(text, true)), true)).toBe(text);
+    expect(textUtf16Units(bytes(utf16(text, false)), false)).toBe(text);
+    expect(textUtf16Units(bytes([]), true)).toBe('');
   });
 });
 
