@@ -90,6 +90,8 @@ export type TraceImportIssue =
       lineCount: number;
       /** For 'duplicate x': how many of the skipped rows had a y different from the row kept. */
       differentY?: number;
+      /** The first offending text and its line (for 'non-numeric'), untrusted text. */
+      firstText?: { line: number; text: string };
     }
   | { kind: 'unsorted'; /** Line of the first point out of order. */ firstLine: number }
   | {

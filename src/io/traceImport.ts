@@ -155,6 +155,7 @@ function importTraceChecked(
     count: k.count,
     lines: k.lines,
     lineCount: k.lineCount,
+    ...(k.firstText ? { firstText: { line: k.firstText.line, text: inputExcerpt(k.firstText.text, 40) } } : {}),
     ...(k.reason === 'duplicate x' ? { differentY: assembled.value.duplicateDifferentY } : {}),
   }));
   issues.push(...assembled.value.issues);

@@ -28,6 +28,10 @@ export function traceIssueText(issue: TraceImportIssue): string {
   switch (issue.kind) {
     case 'skipped': {
       let what = SKIP_WORDS[issue.reason] ?? issue.reason;
+      if (issue.firstText) {
+        const t = issue.firstText.text.trim() === '' ? 'an empty field' : `'${issue.firstText.text}'`;
+        what += issue.count > 1 ? ` (e.g. ${t} on line ${issue.firstText.line})` : ` (${t})`;
+      }
       if (issue.reason === 'duplicate x') {
         const d = issue.differentY;
         const differ =

@@ -18,9 +18,16 @@ export class TraceSkipLog {
   /** Line numbers by reason (together at most `TRACE_SKIP_LINES_KEPT`), in the order recorded. */
   readonly linesByReason = new Map<TraceSkipReason, number[]>();
 
-  /** Record one skipped row/point found at 1-based `line`. */
-  add(line: number, reason: TraceSkipReason): void {
+  /** The first offending text recorded for each reason, with its line. */
+  readonly firstText = new Map<TraceSkipReason, { line: number; text: string }>();
+
+  /**
+   * Record one skipped row/point found at 1-based `line`.
+   * @param text the offending field, shown (cut to 40 characters) for the first skip of a reason
+   */
+  add(line: number, reason: TraceSkipReason, text?: string): void {
     this.count++;
+    if (text !== undefined && !this.firstText.has(reason)) this.firstText.set(reason, { line, text });
     if (this.lines.length < TRACE_SKIP_LINES_KEPT) {
       this.lines.push(line);
       const list = this.linesByReason.get(reason);
@@ -46,7 +53,8 @@ export class TraceSkipLog {
       const lines = sortedUnique(recorded);
       // Skips past the cap have unknown lines: count each as a line of its own.
       const lineCount = lines.length + (count - recorded.length);
-      return { reason, count, lines: lines.slice(0, kept), lineCount };
+      const first = this.firstText.get(reason);
+      return { reason, count, lines: lines.slice(0, kept), lineCount, ...(first ? { firstText: first } : {}) };
     });
   }
 }
@@ -63,6 +71,8 @@ export interface TraceSkipKind {
   lines: number[];
   /** Distinct lines the skips sit on (≥ lines.length; several JCAMP points may share a line). */
   lineCount: number;
+  /** The first offending text and its line, when the reader recorded one (untrusted text, not cut). */
+  firstText?: { line: number; text: string };
 }
 
 function sortedUnique(lines: readonly number[]): number[] {

@@ -59,7 +59,7 @@ function utf16(text: string, isLittleEndian: boolean, hasBom = true): Uint8Array
 describe('peaks prints the importer warnings on stderr and exits 0', () => {
   it.each([
     ['nan-rows.csv', ['6 rows skipped, not finite numbers (NaN or Infinity), at lines 102, 103, 1501, 2401, 3334, 4001']],
-    ['text-in-numbers.csv', ['3 rows skipped, text where a number belongs, at lines 57, 420, 777']],
+    ['text-in-numbers.csv', ["3 rows skipped, text where a number belongs (e.g. 'abc' on line 57), at lines 57, 420, 777"]],
     ['flat-trace.csv', ['the trace is flat: all 5000 points have the same value (absorbance 0.25), so no peaks can be found in it']],
     [
       'random-order-repeats.csv',

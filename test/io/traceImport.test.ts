@@ -155,7 +155,7 @@ describe('importTrace on delimited fixtures', () => {
     expect(report.skipped).toEqual({ count: 7, lines: [4, 6, 8, 9, 10, 12, 14] });
     // One message per kind of problem, each with its count and lines (the words of traceImportWarnings).
     expect(report.messages.slice(1)).toEqual([
-      '3 rows skipped, text where a number belongs, at lines 4, 9, 14',
+      "3 rows skipped, text where a number belongs (e.g. 'n/a' on line 4), at lines 4, 9, 14",
       '3 rows skipped, not finite numbers (NaN or Infinity), at lines 6, 10, 12',
       '1 row skipped, x repeated from an earlier row (the first row of each x is kept; y differs from the row kept in 1 of 1), at line 8',
     ]);
@@ -167,7 +167,7 @@ describe('importTrace on delimited fixtures', () => {
     const text = 'x,y\n' + Array.from({ length: 30 }, (_, k) => (k % 2 ? 'bad,row' : `${k + 1},0.${k + 1}`)).join('\n');
     const { report } = load(text);
     expect(report.messages).toContain(
-      '15 rows skipped, text where a number belongs, at lines 3, 5, 7, 9, 11, 13, 15, 17, 19, 21 and 5 more',
+      "15 rows skipped, text where a number belongs (e.g. 'bad' on line 3), at lines 3, 5, 7, 9, 11, 13, 15, 17, 19, 21 and 5 more",
     );
     expect(report.skipped.lines.length).toBe(15);
   });

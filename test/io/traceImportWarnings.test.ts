@@ -49,7 +49,7 @@ describe('traceImportWarnings on imported text', () => {
   it('gives one line per kind, in the order the kinds were met', () => {
     const report = load(csv(['1000,0.1', '1001,abc', '1002,NaN', '1003,0.3', 'n/a,0.2', '1004,-inf', '1005,0.2']));
     expect(traceImportWarnings(report)).toEqual([
-      '2 rows skipped, text where a number belongs, at lines 3, 6',
+      "2 rows skipped, text where a number belongs (e.g. 'abc' on line 3), at lines 3, 6",
       '2 rows skipped, not finite numbers (NaN or Infinity), at lines 4, 7',
     ]);
     expect(report.skipped).toEqual({ count: 4, lines: [3, 4, 6, 7] });
@@ -137,5 +137,14 @@ describe('importTraceBytes', () => {
   it('says nothing about the encoding of an empty file', () => {
     const r = importTraceBytes(Uint8Array.from([0xff, 0xfe]), 'e.csv');
     expect(r.ok ? '' : r.error.message).toBe('e.csv: the file is empty');
+  });
+});
+
+describe('the first offending text', () => {
+  it('is quoted (cut after 40 characters) for text in a number column; an empty field is named as such', () => {
+    const one = load(csv(['1000,0.1', `1001,${'z'.repeat(60)}`, '1002,0.3']));
+    expect(traceImportWarnings(one)).toEqual([`1 row skipped, text where a number belongs ('${'z'.repeat(40)}…'), at line 3`]);
+    const empty = load(csv(['1000,0.1', '1001, ', '1002,0.3']));
+    expect(traceImportWarnings(empty)).toEqual(['1 row skipped, text where a number belongs (an empty field), at line 3']);
   });
 });

@@ -177,7 +177,7 @@ describe('hostile traces that are still usable, with what was done said in the r
  */
 const TRACE_WARNINGS: [string, string[], number][] = [
   ['nan-rows.csv', ['6 rows skipped, not finite numbers (NaN or Infinity), at lines 102, 103, 1501, 2401, 3334, 4001'], 4994],
-  ['text-in-numbers.csv', ['3 rows skipped, text where a number belongs, at lines 57, 420, 777'], 997],
+  ['text-in-numbers.csv', ["3 rows skipped, text where a number belongs (e.g. 'abc' on line 57), at lines 57, 420, 777"], 997],
   ['flat-trace.csv', ['the trace is flat: all 5000 points have the same value (absorbance 0.25), so no peaks can be found in it'], 5000],
   [
     'random-order-repeats.csv',
