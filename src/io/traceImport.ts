@@ -43,6 +43,9 @@ const PREAMBLE_MAX_LINES = 1000;
  * wavelengths are taken as vacuum wavelengths. Ordinate: absorbance, transmittance or %T from the header,
  * ##YUNITS, `options.ordinate`, or guessed from the values; stored as A = −log10 T.
  * Rows or points that cannot be used (text, NaN/Infinity, duplicate x) are skipped and listed by line.
+ * Every problem (rows skipped, by reason; axis re-ordered; values clamped; a flat trace) is in
+ * `report.issues` and, worded by `traceImportWarnings`, among `report.messages`. A refusal for too few
+ * rows names an overlong line and the file's line breaks (`traceLongLineNote`).
  * @param text whole file text (not modified)
  * @param fileName shown in messages
  * @param options overrides, see `TraceImportOptions` (defaults in `TRACE_IMPORT_DEFAULTS`)
