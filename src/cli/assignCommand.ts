@@ -6,13 +6,13 @@ import type { AssistantLine, AssistantRunResult } from '../analysis/assistantTyp
 import { peaksFind } from '../analysis/peaksFind';
 import { assignmentCheck } from '../fit/assignment';
 import type { FitResult } from '../fit/fitTypes';
-import { importTrace } from '../io/traceImport';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
 import { cliLoadModel } from './cliModel';
 import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand, type CliIo } from './cliIo';
 import { cliLoadLines } from './fitCommand';
+import { cliPrintTraceWarnings, cliReadTrace } from './cliTrace';
 
 /**
  * Smallest peak SNR used by the assign command: the peak finder's own default (5σ keeps noise
@@ -47,7 +47,7 @@ function csvCell(text: string): string {
 
 /** Read and import the trace, or a one-line CliError naming the file and the line or field at fault. */
 function loadTrace(path: string, io: CliIo) {
-  const outcome = importTrace(io.readFile(path), path);
+  const outcome = cliReadTrace(path, io);
   if (!outcome.ok) {
     const { message, line, field } = outcome.error;
     const where: string[] = [];
@@ -55,6 +55,7 @@ function loadTrace(path: string, io: CliIo) {
     if (field !== undefined && !message.includes(field)) where.push(`field ${field}`);
     throw new CliError(`cannot read trace '${path}': ${message}${where.length ? ` (${where.join(', ')})` : ''}`);
   }
+  cliPrintTraceWarnings(outcome.report, io);
   return outcome.trace;
 }
 

@@ -4,8 +4,13 @@ export interface CliIo {
   stdout(text: string): void;
   /** Write text to standard error (no newline added). */
   stderr(text: string): void;
-  /** Read a whole text file (UTF-8); throws a plain Error naming the path when it cannot. */
+  /**
+   * Read a whole text file (decoded by `textDecode`: UTF-8, or UTF-16 with a byte-order mark or NUL
+   * bytes); throws an Error naming the path when it cannot.
+   */
   readFile(path: string): string;
+  /** Read a whole file as bytes (traces are decoded by the importer, which then names the encoding). Optional. */
+  readBytes?(path: string): Uint8Array;
 }
 
 /** A user-facing CLI failure: printed as one line on stderr, exit code 1 (or the given code). */

@@ -5,12 +5,15 @@ import { lineLabelAscii } from '../physics/lineLabel';
 import { cliLoadModel } from './cliModel';
 import { CliError, cliParseArgs, cliRequire, type CliCommand, type CliIo } from './cliIo';
 
-/** Read a line table for a CLI command; errors become one-line CliErrors naming file, line and field. */
+/**
+ * Read a line table for a CLI command; errors become one-line CliErrors naming file, line and field;
+ * the table's warnings (one per kind of problem, naming the file and lines) go to stderr as `warning: …`.
+ */
 export function cliLoadLines(path: string, io: CliIo): LineTable {
   const text = io.readFile(path);
   try {
     const table = lineTableParse(text, { fileName: path });
-    for (const w of table.warnings) io.stderr(`${w}\n`);
+    for (const w of table.warnings) io.stderr(`warning: ${w}\n`);
     return table;
   } catch (err) {
     if (err instanceof LineTableError) throw new CliError(err.message);

@@ -3,36 +3,26 @@
  * Output on stdout, one-line errors on stderr with a non-zero exit, never a stack trace.
  */
 import { readFileSync } from 'node:fs';
+import { textDecode } from '../io/textDecode';
 import { CliError, type CliCommand, type CliIo } from './cliIo';
+import { CLI_HELP, cliHelpText, cliSynopsis } from './cliHelp';
 
-/** Commands by name; each module is loaded only when used, so start-up stays fast. */
-const COMMANDS: Record<string, { summary: string; load: () => Promise<CliCommand> }> = {
-  simulate: { summary: 'simulate --model M.json', load: async () => (await import('./simulateCommand')).simulateCommand },
-  spectrum: {
-    summary: 'spectrum --model M.json --from X1 --to X2 --step DX [--mass AMU] [--lorentz HWHM]',
-    load: async () => (await import('./spectrumCommand')).spectrumCommand,
-  },
-  peaks: { summary: 'peaks --trace FILE [--min-snr S]', load: async () => (await import('./peaksCommand')).peaksCommand },
-  fit: { summary: 'fit --model M.json --lines L.csv', load: async () => (await import('./fitCommand')).fitCommand },
-  combdiff: {
-    summary: 'combdiff --lines L.csv --state lower|upper [--shape prolate|oblate]',
-    load: async () => (await import('./combdiffCommand')).combdiffCommand,
-  },
-  assign: {
-    summary: 'assign --model M.json --trace FILE [--lines SEED.csv] [--tolerance K]',
-    load: async () => (await import('./assignCommand')).assignCommand,
-  },
-  perturbations: {
-    summary: 'perturbations --model M.json --lines L.csv [--state upper|lower]',
-    load: async () => (await import('./perturbationsCommand')).perturbationsCommand,
-  },
+/** Commands by name; each module is loaded only when used, so start-up stays fast. Their usage is in cliHelp.ts. */
+const COMMANDS: Record<string, () => Promise<CliCommand>> = {
+  simulate: async () => (await import('./simulateCommand')).simulateCommand,
+  spectrum: async () => (await import('./spectrumCommand')).spectrumCommand,
+  peaks: async () => (await import('./peaksCommand')).peaksCommand,
+  fit: async () => (await import('./fitCommand')).fitCommand,
+  combdiff: async () => (await import('./combdiffCommand')).combdiffCommand,
+  assign: async () => (await import('./assignCommand')).assignCommand,
+  perturbations: async () => (await import('./perturbationsCommand')).perturbationsCommand,
 };
 
 function usage(): string {
   return (
-    'usage: cli <command> [options]\n' +
-    Object.values(COMMANDS)
-      .map((c) => '  ' + c.summary)
+    'usage: cli <command> [options]   (cli <command> --help for its options, units and defaults)\n' +
+    Object.keys(COMMANDS)
+      .map((name) => '  ' + (CLI_HELP[name] ? cliSynopsis(name, CLI_HELP[name]) : name))
       .join('\n') +
     '\n'
   );
@@ -45,13 +35,18 @@ export async function cliMain(argv: string[], io: CliIo): Promise<number> {
     io.stdout(usage());
     return name ? 0 : 2;
   }
-  const entry = COMMANDS[name];
-  if (!entry) {
+  const load = COMMANDS[name];
+  if (!load) {
     io.stderr(`cli: unknown command '${name}'\n${usage()}`);
     return 2;
   }
+  if (rest.includes('--help') || rest.includes('-h')) {
+    const help = CLI_HELP[name];
+    io.stdout(help ? cliHelpText(name, help) : usage());
+    return 0;
+  }
   try {
-    const command = await entry.load();
+    const command = await load();
     return await command(rest, io);
   } catch (err) {
     if (err instanceof CliError) {
@@ -64,18 +59,26 @@ export async function cliMain(argv: string[], io: CliIo): Promise<number> {
   }
 }
 
-/** Node io: files read as UTF-8, paths named in errors. */
+/** The bytes of a file, or a CliError naming the path. */
+function readBytes(path: string): Uint8Array {
+  try {
+    return readFileSync(path);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    throw new CliError(`cannot read '${path}'${code === 'ENOENT' ? ': no such file' : code ? ` (${code})` : ''}`);
+  }
+}
+
+/** Node io: text decoded by textDecode (UTF-8, UTF-16 with a byte-order mark or NUL bytes), paths named in errors. */
 export const nodeIo: CliIo = {
   stdout: (t) => void process.stdout.write(t),
   stderr: (t) => void process.stderr.write(t),
   readFile: (path) => {
-    try {
-      return readFileSync(path, 'utf8');
-    } catch (err) {
-      const code = (err as NodeJS.ErrnoException).code;
-      throw new CliError(`cannot read '${path}'${code === 'ENOENT' ? ': no such file' : code ? ` (${code})` : ''}`);
-    }
+    const decoded = textDecode(readBytes(path));
+    if (!decoded.ok) throw new CliError(`${path}: ${decoded.message}`);
+    return decoded.text;
   },
+  readBytes,
 };
 
 const isEntry = process.argv[1] && /main\.ts$/.test(process.argv[1]);

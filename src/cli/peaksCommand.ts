@@ -1,6 +1,6 @@
 import { peaksFind } from '../analysis/peaksFind';
-import { importTrace } from '../io/traceImport';
 import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand } from './cliIo';
+import { cliPrintTraceWarnings, cliReadTrace } from './cliTrace';
 
 /**
  * `peaks --trace FILE [--min-snr S] [--noise SIGMA] [--baseline]`: find the lines of a measured trace.
@@ -16,8 +16,7 @@ export const peaksCommand: CliCommand = (args, io) => {
   if (minSnr < 0) throw new CliError(`option --min-snr must be >= 0, got ${minSnr}`);
   const noiseSigma = opts.noise === undefined ? undefined : cliNumber(opts, 'noise');
   if (noiseSigma !== undefined && noiseSigma < 0) throw new CliError(`option --noise must be >= 0, got ${noiseSigma}`);
-  const text = io.readFile(file);
-  const outcome = importTrace(text, file);
+  const outcome = cliReadTrace(file, io);
   if (!outcome.ok) {
     const { message, line, field } = outcome.error;
     const where: string[] = [];
@@ -27,6 +26,7 @@ export const peaksCommand: CliCommand = (args, io) => {
     const named = message.includes(file) ? message : `${file}: ${message}`;
     throw new CliError(`${named}${where.length ? ` (${where.join(', ')})` : ''}`);
   }
+  cliPrintTraceWarnings(outcome.report, io);
   const peaks = peaksFind(outcome.trace, { minSnr, noiseSigma, baseline: opts.baseline === true });
   const rows: string[] = ['wavenumber,height,fwhm,snr,blend,wavenumber_sigma'];
   for (let k = 0; k < peaks.count; k++) {

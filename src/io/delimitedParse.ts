@@ -120,7 +120,8 @@ export function delimitedParse(
       if (fields.length > maxFieldsSeen) maxFieldsSeen = fields.length;
     }
     if (!hasData) preamble = fields;
-    else skipped.add(line, isNumber(k0) && !hasY ? 'missing column' : 'non-numeric');
+    else if (isNumber(k0) && !hasY) skipped.add(line, 'missing column');
+    else skipped.add(line, 'non-numeric', isNumber(k0) ? fy : f0);
     return true;
   };
 

@@ -19,3 +19,6 @@ export * from './traceImportOptions';
 export * from './traceSkipLog';
 export * from './units';
 export * from './unitsDetect';
+export * from './textDecode';
+export * from './traceImportBytes';
+export * from './traceImportWarnings';

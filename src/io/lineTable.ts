@@ -12,6 +12,7 @@ import { ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1, type Assignment } from '../fit/assi
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { TopShape } from '../physics/model';
 import { INPUT_LIMITS, inputExcerpt, inputLimitCheck } from './inputLimits';
+import { traceLineList } from './traceSkipLog';
 
 /** A parsed line table. */
 export interface LineTable {
@@ -23,7 +24,7 @@ export interface LineTable {
   extraColumns: string[];
   /** Their cells, one record per row (keys = extraColumns). */
   extras: Record<string, string>[];
-  /** Non-fatal remarks. */
+  /** Non-fatal remarks, one per kind of problem, each naming the file and the lines. */
   warnings: string[];
 }
 
@@ -173,6 +174,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
   const extras: Record<string, string>[] = [];
   const warnings: string[] = [];
   const ids = new Set<string>();
+  const renamed: { line: number; from: string; to: string }[] = [];
   const width = header.cells.length;
   for (const row of rows.slice(1)) {
     const { cells, line } = row;
@@ -221,7 +223,7 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
     const idCell = cell('id') ?? '';
     let id = idCell !== '' ? idCell : `line${line}`;
     if (ids.has(id)) {
-      warnings.push(`${prefix}line ${line}: id ${quoteCell(id)} repeats an earlier row; renamed ${quoteCell(`${id}#${line}`)}`);
+      renamed.push({ line, from: id, to: `${id}#${line}` });
       id = `${id}#${line}`;
     }
     ids.add(id);
@@ -244,6 +246,14 @@ export function lineTableParse(text: string, options: LineTableParseOptions = {}
     const extra: Record<string, string> = {};
     extraColumns.forEach((name, k) => (extra[name] = cells[extraIndex[k]] ?? ''));
     extras.push(extra);
+  }
+  if (renamed.length > 0) {
+    const first = renamed[0];
+    const n = renamed.length;
+    warnings.push(
+      `${prefix}${n} row${n === 1 ? '' : 's'} renamed, id used by an earlier row (${quoteCell(first.from)} → ${quoteCell(first.to)}` +
+        `${n > 1 ? ', and so on' : ''}), at ${traceLineList(renamed.map((r) => r.line))}`,
+    );
   }
   return { assignments, lineNumbers, extraColumns, extras, warnings };
 }

@@ -1,3 +1,5 @@
+import type { TraceSkipReason } from './traceSkipLog';
+
 /**
  * A measured trace as the rest of the workbench sees it: an ascending wavenumber axis (cm^-1)
  * and absorbance (−log10 T, dimensionless), stored as columns.
@@ -32,8 +34,18 @@ export interface TraceImportReport {
   wasDescending: boolean;
   /** Title from the file (JCAMP ##TITLE or similar), untrusted text. */
   title?: string;
-  /** Plain-language notes, e.g. "3 rows skipped: lines 5, 9, 12". */
+  /**
+   * Plain-language notes, e.g. "read as delimited text (…)"; the problems of `issues` are among them, in
+   * the words of `traceImportWarnings`.
+   */
   messages: string[];
+  /**
+   * Problems found in the data, by kind: skipped rows, a re-ordered axis, clamped values, a flat trace,
+   * bytes that are not valid text. Absent in reports saved before it existed. Worded by `traceImportWarnings`.
+   */
+  issues?: TraceImportIssue[];
+  /** Text encoding the file was decoded from, when it came as bytes (`textDecode`). */
+  encoding?: string;
   /** Column names from the header line of a delimited file, untrusted text. */
   columnNames?: string[];
   /** 0-based column read as the ordinate (delimited files). */
@@ -63,3 +75,40 @@ export interface TraceImportError {
 
 /** Outcome of an import: data and report, or a clear error. Never throws for bad content. */
 export type TraceImportOutcome = { ok: true; trace: Trace; report: TraceImportReport } | { ok: false; error: TraceImportError };
+
+/** One kind of problem an import found (and what it did about it); see `traceImportWarnings` for the words. */
+export type TraceImportIssue =
+  | {
+      kind: 'skipped';
+      reason: TraceSkipReason;
+      /** 'row' for delimited text, 'point' for JCAMP-DX (several points per line). */
+      noun: 'row' | 'point';
+      count: number;
+      /** First 1-based line numbers, ascending (at most 20). */
+      lines: number[];
+      /** Distinct lines the skips sit on. */
+      lineCount: number;
+      /** For 'duplicate x': how many of the skipped rows had a y different from the row kept. */
+      differentY?: number;
+      /** The first offending text and its line (for 'non-numeric'), untrusted text. */
+      firstText?: { line: number; text: string };
+    }
+  | { kind: 'unsorted'; /** Line of the first point out of order. */ firstLine: number }
+  | {
+      kind: 'clamped';
+      count: number;
+      /** First 1-based line numbers, ascending (at most 20). */
+      lines: number[];
+      /** Transmittance fraction the values ≤ 0 were set to. */
+      transmittance: number;
+    }
+  | { kind: 'flat'; points: number; /** The one absorbance every point has. */ absorbance: number }
+  | {
+      kind: 'undecodable';
+      /** Encoding the bytes were read as, e.g. 'UTF-8'. */
+      encoding: string;
+      /** Byte sequences that are not valid in it (each read as U+FFFD). */
+      count: number;
+      /** 0-based offset of the first one. */
+      firstByte: number;
+    };

@@ -3,8 +3,9 @@
  * wavelengths converted to vacuum wavenumbers, axis stored ascending, duplicate abscissae removed,
  * ordinate converted to absorbance.
  */
-import type { Trace, TraceOrdinate, TraceXUnit } from './trace';
-import { TraceSkipLog, type TraceSkipReason, traceLineList } from './traceSkipLog';
+import type { Trace, TraceImportIssue, TraceOrdinate, TraceXUnit } from './trace';
+import { traceIssueText } from './traceImportWarnings';
+import { TraceSkipLog, type TraceSkipReason } from './traceSkipLog';
 
 /** Input of `traceAssemble`. */
 export interface TraceAssembleInput {
@@ -27,8 +28,12 @@ export interface TraceAssembleOutput {
   trace: Trace;
   /** The file's own axis ran from high to low (in its own unit). */
   wasDescending: boolean;
-  /** Notes on sorting and clamping. */
+  /** Notes on sorting and clamping (the words of `issues`). */
   messages: string[];
+  /** Sorting and clamping, as data. */
+  issues: TraceImportIssue[];
+  /** Rows skipped as 'duplicate x' whose y differed from the row kept. */
+  duplicateDifferentY: number;
 }
 
 /** Smallest transmittance fraction used when a value T ≤ 0 is clamped (A = 6). */
@@ -92,11 +97,14 @@ export function traceAssemble(
     }
   }
 
-  const messages: string[] = [];
+  const issues: TraceImportIssue[] = [];
   const fileDescending = down > 0 && up === 0;
   if (nValid === n && n >= 2 && down === 0 && equal === 0 && !isWavelength && !isTrans) {
     // Common case (ascending cm^-1 absorbance, nothing to drop): the parser's fresh arrays are the trace.
-    return { ok: true, value: { trace: { wavenumberCm1: x, absorbance: y }, wasDescending: false, messages } };
+    return {
+      ok: true,
+      value: { trace: { wavenumberCm1: x, absorbance: y }, wasDescending: false, messages: [], issues, duplicateDifferentY: 0 },
+    };
   }
   // Visit points in ascending wavenumber: wavelengths reverse the order.
   let order: Uint32Array;
@@ -105,7 +113,7 @@ export function traceAssemble(
     for (let i = 0, k = 0; i < n; i++) if (valid[i]) idx[k++] = i;
     const key = (i: number) => (isWavelength ? xFactor / x[i] : x[i]);
     order = idx.sort((a, b) => key(a) - key(b) || a - b);
-    messages.push(`the axis is not monotonic (first reversal at line ${lineAt(firstReversal)}); points were sorted by wavenumber`);
+    issues.push({ kind: 'unsorted', firstLine: lineAt(firstReversal) });
   } else {
     order = new Uint32Array(nValid);
     const reverse = fileDescending !== isWavelength;
@@ -120,6 +128,7 @@ export function traceAssemble(
   const keptIndex = new Uint32Array(nValid);
   let m = 0;
   let clamped = 0;
+  let differentY = 0;
   const clampedLines: number[] = [];
   for (let k = 0; k < nValid; k++) {
     const i = order[k];
@@ -136,6 +145,7 @@ export function traceAssemble(
     } else a = y[i];
     if (m > 0 && v === nu[m - 1]) {
       const j = keptIndex[m - 1];
+      if (a !== absorb[m - 1]) differentY++;
       if (i < j) {
         skipped.add(lineAt(j), 'duplicate x');
         absorb[m - 1] = a;
@@ -157,14 +167,14 @@ export function traceAssemble(
   }
   if (clamped > 0) {
     clampedLines.sort((p, q) => p - q);
-    messages.push(
-      `${clamped} point${clamped === 1 ? '' : 's'} with transmittance ≤ 0 clamped to T = ${Number(floorT.toPrecision(3))} ` +
-        `(A = ${Number((0 - Math.log10(floorT)).toPrecision(3))}): ${traceLineList(clampedLines, clamped)}`,
-    );
+    issues.push({ kind: 'clamped', count: clamped, lines: clampedLines.slice(0, 20), transmittance: floorT });
   }
   const trace: Trace = {
     wavenumberCm1: m === nValid ? nu : nu.slice(0, m),
     absorbance: m === nValid ? absorb : absorb.slice(0, m),
   };
-  return { ok: true, value: { trace, wasDescending: fileDescending, messages } };
+  return {
+    ok: true,
+    value: { trace, wasDescending: fileDescending, messages: issues.map(traceIssueText), issues, duplicateDifferentY: differentY },
+  };
 }

@@ -1,7 +1,8 @@
 /**
  * Entry point of trace import: text in, an ascending cm^-1 / absorbance `Trace` and a report out.
  */
-import type { TraceDelimiter, TraceImportOutcome, TraceImportReport, TraceOrdinate, TraceXUnit } from './trace';
+import type { TraceDelimiter, TraceImportIssue, TraceImportOutcome, TraceImportReport, TraceOrdinate, TraceXUnit } from './trace';
+import { traceImportWarnings } from './traceImportWarnings';
 import { traceImportOptionsResolve, type TraceImportOptions } from './traceImportOptions';
 import { TraceSkipLog, type TraceSkipReason, traceSkipMessage } from './traceSkipLog';
 import { traceAssemble } from './traceAssemble';
@@ -42,6 +43,9 @@ const PREAMBLE_MAX_LINES = 1000;
  * wavelengths are taken as vacuum wavelengths. Ordinate: absorbance, transmittance or %T from the header,
  * ##YUNITS, `options.ordinate`, or guessed from the values; stored as A = −log10 T.
  * Rows or points that cannot be used (text, NaN/Infinity, duplicate x) are skipped and listed by line.
+ * Every problem (rows skipped, by reason; axis re-ordered; values clamped; a flat trace) is in
+ * `report.issues` and, worded by `traceImportWarnings`, among `report.messages`. A refusal for too few
+ * rows names an overlong line and the file's line breaks (`traceLongLineNote`).
  * @param text whole file text (not modified)
  * @param fileName shown in messages
  * @param options overrides, see `TraceImportOptions` (defaults in `TRACE_IMPORT_DEFAULTS`)
@@ -141,15 +145,28 @@ function importTraceChecked(
   });
   if (!assembled.ok) {
     const skipNote = traceSkipMessage(raw.skipped, raw.noun);
-    return refuse(assembled.message + (skipNote ? ` (${skipNote})` : ''), assembled.line);
+    const lineNote = traceLongLineNote(text);
+    return refuse(assembled.message + (skipNote ? ` (${skipNote})` : '') + (lineNote ? `; ${lineNote}` : ''), assembled.line);
   }
   report(0.99);
   const { trace, wasDescending } = assembled.value;
-  const messages = [...raw.messages, ...xr.messages, ...or.messages, ...assembled.value.messages];
-  if (wasDescending) messages.push('the axis ran from high to low in the file; it is stored ascending');
-  const skipNote = traceSkipMessage(raw.skipped, raw.noun);
-  if (skipNote) messages.push(skipNote);
   const n = trace.wavenumberCm1.length;
+  const issues: TraceImportIssue[] = raw.skipped.kinds().map((k) => ({
+    kind: 'skipped' as const,
+    reason: k.reason,
+    noun: raw.noun,
+    count: k.count,
+    lines: k.lines,
+    lineCount: k.lineCount,
+    ...(k.firstText ? { firstText: { line: k.firstText.line, text: inputExcerpt(k.firstText.text, 40) } } : {}),
+    ...(k.reason === 'duplicate x' ? { differentY: assembled.value.duplicateDifferentY } : {}),
+  }));
+  issues.push(...assembled.value.issues);
+  const flat = traceFlatValue(trace.absorbance);
+  if (flat !== undefined) issues.push({ kind: 'flat', points: n, absorbance: flat });
+  const messages = [...raw.messages, ...xr.messages, ...or.messages];
+  if (wasDescending) messages.push('the axis ran from high to low in the file; it is stored ascending');
+  messages.push(...traceImportWarnings({ issues }));
   const out: TraceImportReport = {
     fileName,
     format: isJcamp ? 'jcamp-dx' : 'delimited',
@@ -160,11 +177,48 @@ function importTraceChecked(
     skipped: { count: raw.skipped.count, lines: raw.skipped.sortedLines() },
     wasDescending,
     messages,
+    issues,
     ...raw.extra,
   };
   if (raw.title !== undefined) out.title = raw.title;
   report(1);
   return { ok: true, trace, report: out };
+}
+
+/** The one ordinate every point has, or undefined when they differ (a flat trace holds no peaks). */
+function traceFlatValue(y: Float64Array): number | undefined {
+  const first = y[0];
+  for (let i = 1; i < y.length; i++) if (y[i] !== first) return undefined;
+  return first;
+}
+
+/** Longest line (in characters) above which a refusal says how the text is broken into lines. */
+export const TRACE_LONG_LINE_CHARS = 1000;
+
+/**
+ * Why a text with too few data rows may have them: its longest line is very long and it has no (or few)
+ * line breaks, as when a file's line ends were lost. LF, CRLF and CR-only line ends count.
+ * @returns e.g. "line 1 is 52,428,800 characters long and the file has no line breaks (a trace needs one
+ *   line per point)", or undefined when no line is longer than TRACE_LONG_LINE_CHARS
+ */
+export function traceLongLineNote(text: string): string | undefined {
+  const eol = text.indexOf('\n') >= 0 ? '\n' : '\r';
+  let breaks = 0;
+  let longest = 0;
+  let longestLine = 1;
+  for (let pos = 0, line = 1; pos <= text.length; line++) {
+    let end = text.indexOf(eol, pos);
+    if (end < 0) end = text.length;
+    else breaks++;
+    if (end - pos > longest) {
+      longest = end - pos;
+      longestLine = line;
+    }
+    pos = end + 1;
+  }
+  if (longest <= TRACE_LONG_LINE_CHARS) return undefined;
+  const breakText = breaks === 0 ? 'the file has no line breaks' : `the file has only ${breaks} line break${breaks === 1 ? '' : 's'}`;
+  return `line ${longestLine} is ${longest.toLocaleString('en')} characters long and ${breakText} (a trace needs one line per point)`;
 }
 
 /** Delimited text: the plain-numeric fast path when it can prove the layout, else papaparse. */

@@ -15,21 +15,71 @@ export class TraceSkipLog {
   count = 0;
   readonly lines: number[] = [];
   readonly byReason = new Map<TraceSkipReason, number>();
+  /** Line numbers by reason (together at most `TRACE_SKIP_LINES_KEPT`), in the order recorded. */
+  readonly linesByReason = new Map<TraceSkipReason, number[]>();
 
-  /** Record one skipped row/point found at 1-based `line`. */
-  add(line: number, reason: TraceSkipReason): void {
+  /** The first offending text recorded for each reason, with its line. */
+  readonly firstText = new Map<TraceSkipReason, { line: number; text: string }>();
+
+  /**
+   * Record one skipped row/point found at 1-based `line`.
+   * @param text the offending field, shown (cut to 40 characters) for the first skip of a reason
+   */
+  add(line: number, reason: TraceSkipReason, text?: string): void {
     this.count++;
-    if (this.lines.length < TRACE_SKIP_LINES_KEPT) this.lines.push(line);
+    if (text !== undefined && !this.firstText.has(reason)) this.firstText.set(reason, { line, text });
+    if (this.lines.length < TRACE_SKIP_LINES_KEPT) {
+      this.lines.push(line);
+      const list = this.linesByReason.get(reason);
+      if (list) list.push(line);
+      else this.linesByReason.set(reason, [line]);
+    }
     this.byReason.set(reason, (this.byReason.get(reason) ?? 0) + 1);
   }
 
   /** Line numbers ascending, without repeats (several JCAMP points can share a line). */
   sortedLines(): number[] {
-    const s = Float64Array.from(this.lines).sort();
-    const out: number[] = [];
-    for (let i = 0; i < s.length; i++) if (i === 0 || s[i] !== s[i - 1]) out.push(s[i]);
-    return out;
+    return sortedUnique(this.lines);
   }
+
+  /**
+   * The skips by reason, in the order the reasons first occurred: count, the first `kept` line numbers
+   * (ascending, without repeats) and how many distinct lines the reason stands for.
+   * @param kept most line numbers kept per reason
+   */
+  kinds(kept = TRACE_SKIP_LINES_REPORTED): TraceSkipKind[] {
+    return [...this.byReason.entries()].map(([reason, count]) => {
+      const recorded = this.linesByReason.get(reason) ?? [];
+      const lines = sortedUnique(recorded);
+      // Skips past the cap have unknown lines: count each as a line of its own.
+      const lineCount = lines.length + (count - recorded.length);
+      const first = this.firstText.get(reason);
+      return { reason, count, lines: lines.slice(0, kept), lineCount, ...(first ? { firstText: first } : {}) };
+    });
+  }
+}
+
+/** Line numbers kept per reason in an import report (the messages show the first ten). */
+export const TRACE_SKIP_LINES_REPORTED = 20;
+
+/** Rows or points skipped for one reason. */
+export interface TraceSkipKind {
+  reason: TraceSkipReason;
+  /** Rows (delimited text) or points (JCAMP-DX) skipped for this reason. */
+  count: number;
+  /** First 1-based line numbers, ascending, without repeats (at most TRACE_SKIP_LINES_REPORTED). */
+  lines: number[];
+  /** Distinct lines the skips sit on (≥ lines.length; several JCAMP points may share a line). */
+  lineCount: number;
+  /** The first offending text and its line, when the reader recorded one (untrusted text, not cut). */
+  firstText?: { line: number; text: string };
+}
+
+function sortedUnique(lines: readonly number[]): number[] {
+  const s = Float64Array.from(lines).sort();
+  const out: number[] = [];
+  for (let i = 0; i < s.length; i++) if (i === 0 || s[i] !== s[i - 1]) out.push(s[i]);
+  return out;
 }
 
 /**

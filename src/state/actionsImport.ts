@@ -8,6 +8,8 @@ import { lineTableParse } from '../io/lineTable';
 import { modelFileParse } from '../io/modelFile';
 import type { Trace, TraceImportOutcome, TraceImportReport } from '../io/trace';
 import type { TraceImportOptions } from '../io/traceImportOptions';
+import { textDecode } from '../io/textDecode';
+import { traceImportWarnings } from '../io/traceImportWarnings';
 import { parseTraceInWorker } from '../workers/parseClient';
 import { assignmentsMarkBlends } from './assignLogic';
 import { benchUpdate, messagePost } from './actionsCore';
@@ -20,6 +22,9 @@ import type { TraceSource } from './spectrumSlice';
 /** The file the current trace came from (kept for re-import with other choices; not persisted). */
 let lastSource: { file: File | Blob | string; fileName: string } | null = null;
 let importAbort: AbortController | null = null;
+
+/** Import warnings posted to the message area (the rest are in the Trace file panel). */
+const IMPORT_WARNINGS_POSTED = 4;
 
 /** The trace parser (the worker in the page; tests may swap in importTrace). */
 export type TraceParser = (
@@ -126,8 +131,13 @@ export async function traceImport(
   }
   lastSource = { file, fileName };
   traceReplace(outcome.trace, outcome.report, source, overrides);
-  // The importer's own remarks are listed in the Trace file panel; only skipped rows are worth a note here.
-  messagePost(outcome.report.skipped.count > 0 ? 'warning' : 'info', importReportSummary(outcome.report));
+  // The importer's own remarks are listed in the Trace file panel; its warnings (the words the CLI prints)
+  // also go to the message area, one per kind of problem, the first few only (the area keeps six messages).
+  const warnings = traceImportWarnings(outcome.report);
+  messagePost(warnings.length > 0 || outcome.report.skipped.count > 0 ? 'warning' : 'info', importReportSummary(outcome.report));
+  for (const w of warnings.slice(0, IMPORT_WARNINGS_POSTED)) messagePost('warning', `${fileName}: ${sentence(w)}`);
+  if (warnings.length > IMPORT_WARNINGS_POSTED)
+    messagePost('warning', `${fileName}: ${warnings.length - IMPORT_WARNINGS_POSTED} more warnings are listed in the Trace file panel.`);
   return true;
 }
 
@@ -174,12 +184,20 @@ export function droppedKind(head: string, fileName: string): DroppedKind {
  * @returns true when something was loaded
  */
 export async function fileOpen(file: File): Promise<boolean> {
-  const head = await file.slice(0, 4096).text();
+  // Decoded like the whole file will be (a UTF-16 model or line table reads too); a head cut inside a
+  // character only spoils its end.
+  const headDecoded = textDecode(new Uint8Array(await file.slice(0, 4096).arrayBuffer()));
+  const head = headDecoded.ok ? headDecoded.text : '';
   const kind = droppedKind(head, file.name);
   if (kind === 'trace') return traceImport(file, file.name);
   // A project is read in the parse worker, file and all (its trace makes it large).
   if (kind === 'project') return projectImport(file, file.name);
-  const text = await file.text();
+  const decoded = textDecode(new Uint8Array(await file.arrayBuffer()));
+  if (!decoded.ok) {
+    messagePost('error', `Could not read ${file.name}: ${sentence(decoded.message)} Nothing was changed.`);
+    return false;
+  }
+  const text = decoded.text;
   if (kind === 'model') return modelLoadText(text, file.name);
   return lineTableLoadText(text, file.name);
 }
@@ -190,8 +208,9 @@ export async function fileOpen(file: File): Promise<boolean> {
  */
 export function lineTableLoadText(text: string, fileName: string): boolean {
   let rows: Assignment[];
+  let warnings: string[];
   try {
-    rows = lineTableParse(text, { fileName }).assignments;
+    ({ assignments: rows, warnings } = lineTableParse(text, { fileName }));
   } catch (err) {
     messagePost('error', `Could not read the line table: ${(err as Error).message}. The assignments are unchanged.`);
     return false;
@@ -211,6 +230,7 @@ export function lineTableLoadText(text: string, fileName: string): boolean {
     { history: true },
   );
   messagePost('info', `Read ${rows.length} assigned lines from ${fileName}.`);
+  for (const w of warnings) messagePost('warning', sentence(w));
   return true;
 }
 

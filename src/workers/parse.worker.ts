@@ -6,7 +6,9 @@
 import { createStore, delMany, getMany, setMany, type UseStore } from 'idb-keyval';
 import { INPUT_LIMITS } from '../io/inputLimits';
 import { projectFileParse, projectFileSerialize } from '../io/projectFile';
+import { textDecode } from '../io/textDecode';
 import { importTrace } from '../io/traceImport';
+import { importTraceBytes } from '../io/traceImportBytes';
 import { TRACE_IMPORT_DEFAULTS } from '../io/traceImportOptions';
 import {
   PARSE_PROGRESS_STEP,
@@ -38,9 +40,9 @@ async function handle(request: ParseWorkerRequest): Promise<void> {
   if (!request || request.type !== 'parse') return;
   const { id, fileName } = request;
   try {
-    let text: string;
-    if (typeof request.text === 'string') text = request.text;
-    else {
+    // A file is read as bytes and decoded by importTraceBytes (byte-order marks, UTF-16), as the CLI does.
+    let bytes: Uint8Array | undefined;
+    if (typeof request.text !== 'string') {
       const maxChars = request.options?.maxChars ?? TRACE_IMPORT_DEFAULTS.maxChars;
       // Checked before reading: a file this large would not fit in one string anyway.
       if (request.text.size > maxChars) {
@@ -60,15 +62,18 @@ async function handle(request: ParseWorkerRequest): Promise<void> {
         );
         return;
       }
-      text = await request.text.text();
+      bytes = new Uint8Array(await request.text.arrayBuffer());
     }
     let sent = -1;
-    const outcome = importTrace(text, fileName, request.options, (fraction) => {
+    const onProgress = (fraction: number) => {
       if (fraction - sent >= PARSE_PROGRESS_STEP || (fraction === 1 && sent < 1)) {
         sent = fraction;
         scope.postMessage({ type: 'progress', id, fraction }, []);
       }
-    });
+    };
+    const outcome = bytes
+      ? importTraceBytes(bytes, fileName, request.options, onProgress)
+      : importTrace(request.text as string, fileName, request.options, onProgress);
     scope.postMessage({ type: 'result', id, outcome }, parseOutcomeTransferables(outcome));
   } catch (err) {
     const message = `parse worker: ${fileName}: ${err instanceof Error ? err.message : String(err)}`;
@@ -88,7 +93,13 @@ async function projectRead(request: Extract<ParseWorkerRequest, { type: 'project
         scope.postMessage({ type: 'project-read-result', id, outcome: { ok: false, message } }, []);
         return;
       }
-      text = await request.text.text();
+      // Decoded like a trace (a project re-saved as UTF-16 still opens).
+      const decoded = textDecode(new Uint8Array(await request.text.arrayBuffer()));
+      if (!decoded.ok) {
+        scope.postMessage({ type: 'project-read-result', id, outcome: { ok: false, message: `project file: ${decoded.message}` } }, []);
+        return;
+      }
+      text = decoded.text;
     }
     const outcome = projectFileParse(text, request.parts);
     scope.postMessage({ type: 'project-read-result', id, outcome }, projectOutcomeTransferables(outcome));

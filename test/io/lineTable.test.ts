@@ -95,7 +95,16 @@ describe('lineTableParse', () => {
   it('renames a repeated id with a warning', () => {
     const t = lineTableParse('J_up,K_up,J_lo,K_lo,wavenumber,id\n1,0,0,0,1,a\n2,0,1,0,2,a\n');
     expect(t.assignments.map((a) => a.id)).toEqual(['a', 'a#3']);
-    expect(t.warnings[0]).toMatch(/line 3: id 'a' repeats/);
+    expect(t.warnings).toEqual(["1 row renamed, id used by an earlier row ('a' → 'a#3'), at line 3"]);
+  });
+
+  it('reports all renamed rows in one warning with their count and first lines', () => {
+    const rows = Array.from({ length: 13 }, (_, i) => `${i + 1},0,${i},0,${1000 + i},same`);
+    const t = lineTableParse(['J_up,K_up,J_lo,K_lo,wavenumber,id', ...rows].join('\n') + '\n', { fileName: 'L.csv' });
+    expect(t.assignments.map((a) => a.id).slice(0, 3)).toEqual(['same', 'same#3', 'same#4']);
+    expect(t.warnings).toEqual([
+      "L.csv: 12 rows renamed, id used by an earlier row ('same' → 'same#3', and so on), at lines 3, 4, 5, 6, 7, 8, 9, 10, 11, 12 and 2 more",
+    ]);
   });
 });
 

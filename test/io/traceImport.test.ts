@@ -153,7 +153,12 @@ describe('importTrace on delimited fixtures', () => {
   it('skips bad rows and lists their lines with the reasons', () => {
     const { trace, report } = loadFixture('bad_rows.csv');
     expect(report.skipped).toEqual({ count: 7, lines: [4, 6, 8, 9, 10, 12, 14] });
-    expect(report.messages).toContain('7 rows skipped: lines 4, 6, 8, 9, 10, 12, 14 (non-numeric: 3, NaN/Infinity: 3, duplicate x: 1)');
+    // One message per kind of problem, each with its count and lines (the words of traceImportWarnings).
+    expect(report.messages.slice(1)).toEqual([
+      "3 rows skipped, text where a number belongs (e.g. 'n/a' on line 4), at lines 4, 9, 14",
+      '3 rows skipped, not finite numbers (NaN or Infinity), at lines 6, 10, 12',
+      '1 row skipped, x repeated from an earlier row (the first row of each x is kept; y differs from the row kept in 1 of 1), at line 8',
+    ]);
     expect(arr(trace.wavenumberCm1)).toEqual([900, 900.5, 901, 902, 903, 904]);
     expect(trace.absorbance[3]).toBe(0.5); // the first 902.0 row is kept, the duplicate on line 8 dropped
   });
@@ -161,7 +166,9 @@ describe('importTrace on delimited fixtures', () => {
     // Lines 2, 4, …, 30 hold data; lines 3, 5, …, 31 are bad.
     const text = 'x,y\n' + Array.from({ length: 30 }, (_, k) => (k % 2 ? 'bad,row' : `${k + 1},0.${k + 1}`)).join('\n');
     const { report } = load(text);
-    expect(report.messages).toContain('15 rows skipped: lines 3, 5, 7, 9, 11, 13, 15, 17, 19, 21 and 5 more (non-numeric)');
+    expect(report.messages).toContain(
+      "15 rows skipped, text where a number belongs (e.g. 'bad' on line 3), at lines 3, 5, 7, 9, 11, 13, 15, 17, 19, 21 and 5 more",
+    );
     expect(report.skipped.lines.length).toBe(15);
   });
   it('reads quoted fields through papaparse', () => {
@@ -228,7 +235,7 @@ describe('importTrace on JCAMP-DX fixtures', () => {
   it("reads an nm %T (XY..XY) file and skips the '?' point by line", () => {
     const { trace, report } = loadFixture('overtone_nm_percent.jdx');
     expect(report).toMatchObject({ xUnit: 'nm', ordinate: 'percent-transmittance', points: 5, skipped: { count: 1, lines: [12] } });
-    expect(report.messages).toContain("1 point skipped: line 12 (invalid value '?')");
+    expect(report.messages).toContain("1 point skipped, missing values ('?'), at line 12");
     expect(trace.wavenumberCm1[4]).toBe(1e7 / 1600);
   });
   it('reads a transmittance JCAMP-DX file whose values are percent as %T, and says so', () => {

@@ -10,6 +10,8 @@ import fc from 'fast-check';
 import { afterAll, describe, expect, it } from 'vitest';
 import type { CliIo } from '../../src/cli/cliIo';
 import { cliMain } from '../../src/cli/main';
+import { importTrace } from '../../src/io/traceImport';
+import { traceImportWarnings } from '../../src/io/traceImportWarnings';
 import { bytesTextArb, countInput, countsPrint, HANG_LIMIT_MS, mutationArb, randomTextArb } from './reliabilityHarness';
 
 afterAll(() => countsPrint('cliFiles.test.ts'));
@@ -88,10 +90,14 @@ describe('CLI commands refuse hostile files with one stderr line', () => {
     expectOneLineRefusal(r, 'peaks');
     expect(r.stderr).toContain(name);
   });
-  it('peaks reads the hostile traces that are still usable (and names nothing on stderr)', async () => {
+  it("peaks reads the hostile traces that are still usable, exit 0, with the importer's warnings on stderr", async () => {
     for (const name of traces.filter((f) => !refusedTraces.includes(f))) {
       const r = await run(['peaks', '--trace', name], { [name]: hostile(name) });
-      expect([name, r.code, r.stderr]).toEqual([name, 0, '']);
+      const imported = importTrace(hostile(name), name);
+      if (!imported.ok) throw new Error(imported.error.message);
+      // Exactly the report's warnings, one line each, in the words the page shows too.
+      const expected = traceImportWarnings(imported.report).map((w) => `warning: ${name}: ${w}\n`);
+      expect([name, r.code, r.stderr]).toEqual([name, 0, expected.join('')]);
       expect(r.stdout.startsWith('wavenumber,height,fwhm')).toBe(true);
     }
   });
@@ -174,7 +180,11 @@ describe('CLI commands on random hostile files: a result or one stderr line, nev
 describe('CLI as a subprocess (real file reading, real exit codes)', () => {
   it('refuses a PNG, a DUP bomb, deeply nested JSON and J = 1e12 with one stderr line each', async () => {
     const cases: [string[], RegExp][] = [
-      [['peaks', '--trace', 'test/fixtures/hostile/png-header.png'], /^peaks: .*png-header\.png: no numeric data rows found\n$/],
+      [
+        ['peaks', '--trace', 'test/fixtures/hostile/png-header.png'],
+        // Read from its bytes, the refusal also says how they were decoded.
+        /^peaks: .*png-header\.png: no numeric data rows found; the bytes were read as UTF-8 \(no byte-order mark\) and 2 byte sequences are not valid UTF-8, the first at byte 0: is it a text file, or text in another encoding\?\n$/,
+      ],
       [
         ['peaks', '--trace', 'test/fixtures/hostile/dup-bomb.jdx'],
         /^peaks: .*dup-bomb\.jdx: line 11: the compressed data expand to more than 1000000 points/,

@@ -8,6 +8,8 @@
 import { readFileSync, readdirSync } from 'node:fs';
 import { afterAll, describe, expect, it } from 'vitest';
 import { importTrace } from '../../src/io/traceImport';
+import { importTraceBytes } from '../../src/io/traceImportBytes';
+import { traceImportWarnings } from '../../src/io/traceImportWarnings';
 import { lineTableParse } from '../../src/io/lineTable';
 import { modelFileParse, ModelFileError } from '../../src/io/modelFile';
 import { projectFileParse } from '../../src/io/projectFile';
@@ -120,7 +122,7 @@ describe('hostile traces that are still usable, with what was done said in the r
     const r = trace('nan-infinity.csv');
     if (!r.ok) throw new Error(r.error.message);
     expect(Array.from(r.trace.wavenumberCm1)).toEqual([1000, 1003, 1003.5]);
-    expect(r.report.messages).toContain('5 rows skipped: lines 3, 4, 5, 6, 7 (NaN/Infinity)');
+    expect(r.report.messages).toContain('5 rows skipped, not finite numbers (NaN or Infinity), at lines 3, 4, 5, 6, 7');
   });
 
   it('duplicate-x.csv: the first of each repeated abscissa is kept, the others listed', () => {
@@ -128,7 +130,9 @@ describe('hostile traces that are still usable, with what was done said in the r
     if (!r.ok) throw new Error(r.error.message);
     expect(Array.from(r.trace.wavenumberCm1)).toEqual([1000, 1000.5, 1001, 1001.5]);
     expect(Array.from(r.trace.absorbance)).toEqual([0.1, 0.2, 0.3, 0.4]);
-    expect(r.report.messages).toContain('2 rows skipped: lines 4, 6 (duplicate x)');
+    expect(r.report.messages).toContain(
+      '2 rows skipped, x repeated from an earlier row (the first row of each x is kept; y differs from the row kept in 2 of 2), at lines 4, 6',
+    );
   });
 
   it('descending-gap.csv: stored ascending, the gap kept (not filled), the reversal reported', () => {
@@ -153,7 +157,7 @@ describe('hostile traces that are still usable, with what was done said in the r
     if (!r.ok) throw new Error(r.error.message);
     expect(Array.from(r.trace.wavenumberCm1)).toEqual([1000, 1002, 1003, 1005]);
     expect(Array.from(r.trace.absorbance)).toEqual([1e308, 0, -0, 0.5]);
-    expect(r.report.messages).toContain('2 rows skipped: lines 3, 6 (NaN/Infinity)');
+    expect(r.report.messages).toContain('2 rows skipped, not finite numbers (NaN or Infinity), at lines 3, 6');
   });
 
   it('keeps a file name holding HTML verbatim in the message (the page escapes it, the importer does not)', () => {
@@ -164,6 +168,151 @@ describe('hostile traces that are still usable, with what was done said in the r
     // A line break in a name is escaped so the message stays one line.
     const r2 = trace('a\nb.csv', '');
     expect(r2.ok ? '' : r2.error.message).toBe('a\\u000ab.csv: the file is empty');
+  });
+});
+
+/**
+ * Import warnings: one per kind of problem, with its count and first lines, in the words of
+ * traceImportWarnings (the page and the CLI show exactly these); the data stay usable.
+ */
+const TRACE_WARNINGS: [string, string[], number][] = [
+  ['nan-rows.csv', ['6 rows skipped, not finite numbers (NaN or Infinity), at lines 102, 103, 1501, 2401, 3334, 4001'], 4994],
+  ['text-in-numbers.csv', ["3 rows skipped, text where a number belongs (e.g. 'abc' on line 57), at lines 57, 420, 777"], 997],
+  ['flat-trace.csv', ['the trace is flat: all 5000 points have the same value (absorbance 0.25), so no peaks can be found in it'], 5000],
+  [
+    'random-order-repeats.csv',
+    [
+      '200 rows skipped, x repeated from an earlier row (the first row of each x is kept; y differs from the row kept in 200 of 200), at lines 92, 111, 182, 210, 233, 238, 257, 262, 263, 268 and 190 more',
+      'the axis is not monotonic (first reversal at line 5); points were sorted by wavenumber',
+    ],
+    1000,
+  ],
+];
+
+describe('hostile traces that read with warnings', () => {
+  it.each(TRACE_WARNINGS)('%s', (name, warnings, points) => {
+    const r = trace(name);
+    if (!r.ok) throw new Error(r.error.message);
+    expect(traceImportWarnings(r.report)).toEqual(warnings);
+    expect(r.report.points).toBe(points);
+    // The panel lists the same words among the report's notes.
+    for (const w of warnings) expect(r.report.messages).toContain(w);
+    for (const w of warnings) expectGoodMessage(w);
+  });
+
+  it('random-order-repeats.csv: stored strictly ascending, the first row of each repeated x kept', () => {
+    const r = trace('random-order-repeats.csv');
+    if (!r.ok) throw new Error(r.error.message);
+    const x = r.trace.wavenumberCm1;
+    for (let i = 1; i < x.length; i++) expect(x[i]).toBeGreaterThan(x[i - 1]);
+    // Which of the two rows of a repeated x comes first is fixed by the seeded shuffle: read it from the file.
+    const rows = read('random-order-repeats.csv').trim().split('\n').slice(1);
+    const first = new Map<string, number>();
+    for (const row of rows) {
+      const [xs, ys] = row.split(',');
+      if (!first.has(xs)) first.set(xs, Number(ys));
+    }
+    for (let i = 0; i < x.length; i++) expect(r.trace.absorbance[i]).toBe(first.get(x[i].toFixed(2)));
+  });
+});
+
+/** A small trace in the given text, as bytes of an encoding (the tests write their own encoded fixtures). */
+const SMALL_TRACE = 'wavenumber,absorbance\n1000.0,0.10\n1000.5,0.30\n1001.0,0.12\n';
+function utf16Bytes(text: string, isLittleEndian: boolean, hasBom: boolean): Uint8Array {
+  const units = (hasBom ? '\uFEFF' : '') + text;
+  const out = new Uint8Array(units.length * 2);
+  for (let i = 0; i < units.length; i++) {
+    const c = units.charCodeAt(i);
+    out[2 * i + (isLittleEndian ? 0 : 1)] = c & 0xff;
+    out[2 * i + (isLittleEndian ? 1 : 0)] = c >> 8;
+  }
+  return out;
+}
+
+describe('hostile encodings (importTraceBytes; fixtures written by the test)', () => {
+  // Byte-order marks: Unicode Standard 15.0, §23.8 and Table 2-4 (UTF-8 EF BB BF, UTF-16 BE FE FF, UTF-16 LE FF FE).
+  it.each([
+    ['utf16le-bom.csv', utf16Bytes(SMALL_TRACE, true, true), 'the bytes were read as UTF-16 LE (its byte-order mark)'],
+    ['utf16be-bom.csv', utf16Bytes(SMALL_TRACE, false, true), 'the bytes were read as UTF-16 BE (its byte-order mark)'],
+    [
+      'utf16le-no-bom.csv',
+      utf16Bytes(SMALL_TRACE, true, false),
+      'the bytes were read as UTF-16 LE (NUL bytes in every second position, no byte-order mark)',
+    ],
+    [
+      'utf16be-no-bom.csv',
+      utf16Bytes(SMALL_TRACE, false, false),
+      'the bytes were read as UTF-16 BE (NUL bytes in every second position, no byte-order mark)',
+    ],
+  ])('%s reads as the same trace, with a note naming the encoding', (name, bytes, note) => {
+    countInput('importTraceBytes');
+    const r = importTraceBytes(bytes, name);
+    if (!r.ok) throw new Error(r.error.message);
+    expect(Array.from(r.trace.wavenumberCm1)).toEqual([1000, 1000.5, 1001]);
+    expect(Array.from(r.trace.absorbance)).toEqual([0.1, 0.3, 0.12]);
+    expect(r.report.columnNames).toEqual(['wavenumber', 'absorbance']);
+    expect(r.report.messages[0]).toBe(note);
+    expect(traceImportWarnings(r.report)).toEqual([]);
+  });
+
+  it('utf8-bom.csv reads with no note and no warning', () => {
+    const bytes = new Uint8Array([0xef, 0xbb, 0xbf, ...new TextEncoder().encode(SMALL_TRACE)]);
+    const r = importTraceBytes(bytes, 'utf8-bom.csv');
+    if (!r.ok) throw new Error(r.error.message);
+    expect(r.report.encoding).toBe('UTF-8');
+    expect(r.report.columnNames).toEqual(['wavenumber', 'absorbance']);
+    expect(r.report.messages.some((m) => /bytes were read/.test(m))).toBe(false);
+    expect(traceImportWarnings(r.report)).toEqual([]);
+  });
+
+  it('utf32le-bom.csv is refused with a message naming the encoding', () => {
+    const bytes = new Uint8Array([0xff, 0xfe, 0, 0, 0x31, 0, 0, 0]);
+    const r = importTraceBytes(bytes, 'utf32le-bom.csv');
+    expect(r.ok ? '' : r.error.message).toBe(
+      'utf32le-bom.csv: the file is UTF-32 LE text (byte-order mark FF FE 00 00), which is not read; save it as UTF-8 or UTF-16',
+    );
+  });
+
+  it('latin1-header.csv (µ as the single byte B5) reads, with a warning naming the byte', () => {
+    // ISO 8859-1 puts µ at B5; in UTF-8 a lone B5 is a continuation byte with no lead (invalid).
+    const text = 'wavenumber (cm-1),absorbance (\u00b5)\n1000,0.1\n1001,0.2\n';
+    const bytes = Uint8Array.from(text, (c) => c.charCodeAt(0));
+    const r = importTraceBytes(bytes, 'latin1-header.csv');
+    if (!r.ok) throw new Error(r.error.message);
+    expect(traceImportWarnings(r.report)).toEqual([
+      '1 byte sequence is not valid UTF-8 (the first at byte 30) and read as the replacement character U+FFFD',
+    ]);
+  });
+
+  it('random-bytes.bin, read from its bytes, is refused with how the bytes were read', () => {
+    const bytes = new Uint8Array(readFileSync(new URL('random-bytes.bin', DIR)));
+    const r = importTraceBytes(bytes, 'random-bytes.bin');
+    expect(r.ok ? '' : r.error.message).toBe(
+      'random-bytes.bin: no numeric data rows found; the bytes were read as UTF-8 (no byte-order mark) and 222 byte sequences are not valid UTF-8, the first at byte 1: is it a text file, or text in another encoding?',
+    );
+  });
+});
+
+describe('one enormous line (generated by the test: 50 MB is not committed)', () => {
+  it('a 50,000,000-character file with no line break says so, with the length of line 1', () => {
+    // "x,y," repeated: one row of ten million fields; only its first two make a point.
+    const unit = '1000.000,0.1234,';
+    const text = unit.repeat(50_000_000 / unit.length);
+    expect(text.length).toBe(50_000_000);
+    const r = importTrace(text.replaceAll(',', ' '), 'one-line.txt');
+    expect(r.ok ? '' : r.error.message).toBe(
+      'one-line.txt: only 1 usable data point (line 1); at least 2 are needed; line 1 is 50,000,000 characters long and the file has no line breaks (a trace needs one line per point)',
+    );
+  });
+
+  it('a header line and one 26,000-character data line: fewer line breaks than the data need', () => {
+    const text = 'wavenumber,absorbance\n' + Array.from({ length: 2000 }, (_, i) => `${1000 + i},0.12345,`).join('');
+    const r = importTrace(text, 'two-lines.csv');
+    if (r.ok) throw new Error('accepted');
+    expect(r.error.message).toMatch(
+      /^two-lines\.csv: only 1 usable data point \(line 2\); at least 2 are needed; line 2 is [\d,]+ characters long and the file has only 1 line break \(a trace needs one line per point\)$/,
+    );
+    expectGoodMessage(r.error.message, { prefix: 'two-lines.csv: ', line: 2 });
   });
 });
 

@@ -1,0 +1,197 @@
+/**
+ * Usage of every CLI command, kept in one place: `cli --help` lists the synopses, `cli <command> --help`
+ * (or `-h`) prints the whole entry. Each option gives its unit and default.
+ */
+
+/** One option of a command. */
+export interface CliOptionHelp {
+  /** Name without the dashes. */
+  name: string;
+  /** Placeholder of the value (e.g. 'FILE', 'S'); absent for a flag. */
+  value?: string;
+  /** What it is for. */
+  text: string;
+  /** Unit of the value ('cm^-1', 'amu', 'σ', 'file path', 'dimensionless', 'flag' …). */
+  unit: string;
+  /** Default, in words; 'required' for an option that must be given. */
+  default: string;
+}
+
+/** Help of one command. */
+export interface CliCommandHelp {
+  /** What the command does, one sentence. */
+  summary: string;
+  options: CliOptionHelp[];
+  /** What goes to stdout and stderr. */
+  output: string;
+  /** One command line that works from the repository root (public/demo holds the demo files). */
+  example: string;
+}
+
+const WARNINGS = 'stderr: problems with the input, one line each ("warning: FILE: …"); the exit status stays 0 while the data are usable.';
+
+/** Help of every command, in the order `cli --help` lists them. */
+export const CLI_HELP: Record<string, CliCommandHelp> = {
+  simulate: {
+    summary: 'List the lines of the band the model describes, strongest = 1.',
+    options: [
+      { name: 'model', value: 'M.json', text: 'model file (see DEVELOPERS.md)', unit: 'file path', default: 'required' },
+      {
+        name: 'min-intensity',
+        value: 'X',
+        text: 'leave out lines weaker than this',
+        unit: 'relative intensity (strongest line = 1)',
+        default: '0 (all lines)',
+      },
+    ],
+    output: 'stdout: CSV J_up,K_up,J_lo,K_lo,wavenumber,intensity,E_lo,label, ascending wavenumber; wavenumber and E_lo in cm^-1.',
+    example: 'npm run --silent cli -- simulate --model public/demo/model.json --min-intensity 0.001',
+  },
+  spectrum: {
+    summary: 'Compute the band spectrum on an even grid (Voigt profiles: Doppler width from temperature and mass, Lorentz width given).',
+    options: [
+      { name: 'model', value: 'M.json', text: 'model file', unit: 'file path', default: 'required' },
+      { name: 'from', value: 'X1', text: 'first grid point', unit: 'cm^-1', default: 'required' },
+      { name: 'to', value: 'X2', text: 'last grid point (> X1)', unit: 'cm^-1', default: 'required' },
+      {
+        name: 'step',
+        value: 'DX',
+        text: 'grid step; adjusted (with a note) when it does not divide X2 − X1',
+        unit: 'cm^-1',
+        default: 'required',
+      },
+      {
+        name: 'mass',
+        value: 'AMU',
+        text: 'molecular mass for the Doppler width',
+        unit: 'amu',
+        default: 'the model file\'s "mass"; required without it',
+      },
+      { name: 'lorentz', value: 'HWHM', text: 'Lorentz half width at half maximum', unit: 'cm^-1', default: '0 (pure Doppler)' },
+    ],
+    output: 'stdout: CSV x,y; x in cm^-1, y in relative intensity × cm.',
+    example: 'npm run --silent cli -- spectrum --model public/demo/model.json --from 1140 --to 1160 --step 0.002',
+  },
+  peaks: {
+    summary: 'Find the lines of a measured trace (delimited text or JCAMP-DX; UTF-8, or UTF-16 with a byte-order mark).',
+    options: [
+      { name: 'trace', value: 'FILE', text: 'trace file', unit: 'file path', default: 'required' },
+      { name: 'min-snr', value: 'S', text: 'smallest peak height above the local baseline', unit: 'noise σ (dimensionless)', default: '5' },
+      { name: 'noise', value: 'SIGMA', text: 'noise 1σ of the trace', unit: 'absorbance', default: 'estimated from the trace' },
+      { name: 'baseline', text: 'subtract a smooth baseline before the search', unit: 'flag (no value)', default: 'off' },
+    ],
+    output: `stdout: CSV wavenumber,height,fwhm,snr,blend,wavenumber_sigma; wavenumber, fwhm and wavenumber_sigma in cm^-1, height in absorbance. ${WARNINGS}`,
+    example: 'npm run --silent cli -- peaks --trace public/demo/trace.csv --min-snr 8',
+  },
+  fit: {
+    summary: "Fit the model's floated constants to assigned lines by weighted least squares.",
+    options: [
+      {
+        name: 'model',
+        value: 'M.json',
+        text: 'model file; its plain-number constants are floated',
+        unit: 'file path',
+        default: 'required',
+      },
+      {
+        name: 'lines',
+        value: 'L.csv',
+        text: 'line table (J_up,K_up,J_lo,K_lo,wavenumber[,uncertainty])',
+        unit: 'file path; wavenumber and uncertainty in cm^-1',
+        default: 'required; uncertainty 0.001 cm^-1 where blank',
+      },
+    ],
+    output: `stdout: JSON with every constant {value, sigma, fixed} in cm^-1, rms (cm^-1), sigmaW, residuals and warnings. ${WARNINGS}`,
+    example: 'npm run --silent cli -- fit --model public/demo/model.json --lines lines.csv   (lines.csv as written by assign)',
+  },
+  combdiff: {
+    summary: 'B, DJ and DJK of one state from the combination differences of assigned lines.',
+    options: [
+      { name: 'lines', value: 'L.csv', text: 'line table', unit: 'file path; wavenumber in cm^-1', default: 'required' },
+      { name: 'state', value: 'lower|upper', text: 'state whose constants are wanted', unit: 'word', default: 'required' },
+      { name: 'shape', value: 'prolate|oblate', text: 'rotor shape (linear is also accepted)', unit: 'word', default: 'prolate' },
+    ],
+    output: `stdout: JSON {B, DJ, DJK: {value, sigma, fixed} in cm^-1, nPairs, sigmaW, rms, pairs, warnings}. ${WARNINGS}`,
+    example: 'npm run --silent cli -- combdiff --lines lines.csv --state lower   (lines.csv as written by assign)',
+  },
+  assign: {
+    summary: 'Assign the lines of a measured trace from a model (and optional seed lines), fitting as it goes.',
+    options: [
+      {
+        name: 'model',
+        value: 'M.json',
+        text: 'model file (first guess); its plain-number constants are floated',
+        unit: 'file path',
+        default: 'required',
+      },
+      { name: 'trace', value: 'FILE', text: 'trace file (delimited text or JCAMP-DX)', unit: 'file path', default: 'required' },
+      {
+        name: 'lines',
+        value: 'SEED.csv',
+        text: 'seed lines, never changed',
+        unit: 'file path; wavenumber in cm^-1',
+        default: 'seeds picked from the model alone',
+      },
+      {
+        name: 'tolerance',
+        value: 'K',
+        text: 'half width of the matching window, K·σ (from 0.5 to 20)',
+        unit: 'σ (dimensionless)',
+        default: '3',
+      },
+    ],
+    output: `stdout: CSV of the confident lines (J_up,K_up,J_lo,K_lo,wavenumber,uncertainty,status,label,calc,obs_minus_calc,distance_sigma,flags,note); stderr: the final fit's summary. ${WARNINGS}`,
+    example: 'npm run --silent cli -- assign --model public/demo/model.json --trace public/demo/trace.csv > lines.csv',
+  },
+  perturbations: {
+    summary:
+      "Fit the lines, then look for perturbed levels of one state: local crossings along J, jumps between K stacks, stacks drifting with J; the state's levels as reduced term values.",
+    options: [
+      {
+        name: 'model',
+        value: 'M.json',
+        text: 'model file (start values; plain numbers are floated)',
+        unit: 'file path',
+        default: 'required',
+      },
+      { name: 'lines', value: 'L.csv', text: 'assigned lines', unit: 'file path', default: 'required' },
+      { name: 'state', value: 'S', text: "which state's levels to scan: upper or lower", unit: 'word', default: 'upper' },
+    ],
+    output: `stdout: JSON {state, rounds, rmsFirst, rmsLast, noise (cm^-1), setAside (line numbers), findings [{kind, k, kFrom, component, jFrom, jTo, jPeak, size (cm^-1), significance, description}], levels [{J, K, component, obs, calc, obsMinusCalc, sigma, nLines, spread, reducedObs, reducedCalc} (cm^-1)]}. ${WARNINGS}`,
+    example: 'npm run --silent cli -- perturbations --model model.json --lines lines.csv --state upper',
+  },
+};
+
+/** One-line synopsis, e.g. "peaks --trace FILE [--min-snr S] [--noise SIGMA] [--baseline]". */
+export function cliSynopsis(name: string, help: CliCommandHelp): string {
+  const parts = help.options.map((o) => {
+    const text = `--${o.name}${o.value ? ` ${o.value}` : ''}`;
+    return o.default.startsWith('required') ? text : `[${text}]`;
+  });
+  return [name, ...parts].join(' ');
+}
+
+/** The whole help of a command: usage, what it does, each option with unit and default, output, example. */
+export function cliHelpText(name: string, help: CliCommandHelp): string {
+  const width = Math.max(...help.options.map((o) => `--${o.name}${o.value ? ` ${o.value}` : ''}`.length), '-h, --help'.length) + 2;
+  const rows = help.options.map((o) => {
+    const left = `--${o.name}${o.value ? ` ${o.value}` : ''}`.padEnd(width);
+    const given = o.default.startsWith('required') ? `R${o.default.slice(1)}` : `Default: ${o.default}`;
+    return `  ${left}${o.text}. Unit: ${o.unit}. ${given}.`;
+  });
+  rows.push(`  ${'-h, --help'.padEnd(width)}print this help and exit.`);
+  return [
+    `usage: cli ${cliSynopsis(name, help)}`,
+    '',
+    help.summary,
+    '',
+    'options:',
+    ...rows,
+    '',
+    help.output,
+    '',
+    'example:',
+    `  ${help.example}`,
+    '',
+  ].join('\n');
+}
