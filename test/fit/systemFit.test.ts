@@ -42,11 +42,11 @@ describe('systemFit reproduces fitBand on single-band models', () => {
     ['oblate', 'parallel'],
   ] as const) {
     const truth = inventedModel(shape, band);
-    const start = perturbed(truth, 1e-3);
     const floated =
       shape === 'linear'
         ? ['upper.origin', 'upper.B', 'upper.DJ', 'upper.q', 'lower.B', 'lower.DJ']
         : ['upper.origin', 'upper.B', 'upper.C', 'upper.DJ', 'upper.DJK', 'lower.B', 'lower.DJ', 'lower.DJK', 'upper.DK'];
+    const start = perturbed(truth, Object.fromEntries(floated.map((k) => [k, 1.001])));
     const text = modelFileSerialize({ model: start, floated });
     cases.push({ name: `invented ${shape} ${band} band`, modelText: text, lines: simulatedLines(truth, 300, 0.0004, 7) });
   }
