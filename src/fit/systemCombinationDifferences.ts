@@ -97,7 +97,8 @@ export function systemCombinationDifferences(
     const groups = new Map<string, { l: SystemFitLine; i: number }[]>();
     for (const e of own) {
       const l = e.l;
-      const shared = side === 'lower' ? `${l.jUpper}|${l.kUpper}|${l.lUpper}|${l.tagUpper}` : `${l.jLower}|${l.kLower}|${l.lLower}|${l.tagLower}`;
+      const shared =
+        side === 'lower' ? `${l.jUpper}|${l.kUpper}|${l.lUpper}|${l.tagUpper}` : `${l.jLower}|${l.kLower}|${l.lLower}|${l.tagLower}`;
       const measured = side === 'lower' ? `${l.kLower}|${l.lLower}|${l.tagLower}` : `${l.kUpper}|${l.lUpper}|${l.tagUpper}`;
       const key = `${shared}#${measured}`;
       const g = groups.get(key);
@@ -133,7 +134,8 @@ export function systemCombinationDifferences(
   const design = new Float64Array(n * nC);
   const levelGrad = (J: number, K: number, l: number, tag: string): Float64Array | null => {
     const set = provider.levels(J, values, K);
-    for (let i = 0; i < set.count; i++) if (set.K[i] === K && set.l[i] === l && set.tag[i] === tag) return set.gradient.slice(i * nC, i * nC + nC);
+    for (let i = 0; i < set.count; i++)
+      if (set.K[i] === K && set.l[i] === l && set.tag[i] === tag) return set.gradient.slice(i * nC, i * nC + nC);
     return null;
   };
   for (let r = 0; r < n; r++) {
@@ -151,9 +153,16 @@ export function systemCombinationDifferences(
     for (let r = 0; r < n && !any; r++) any = Math.abs(design[r * nC + c]) > 0;
     if (isFloated && any) floatedCols.push(c);
   }
-  if (n === 0) return { ok: false, message: `no combination differences of state '${state}': no pair of lines shares a level (and no pure rotational line) among ${usable.length} lines` };
+  if (n === 0)
+    return {
+      ok: false,
+      message: `no combination differences of state '${state}': no pair of lines shares a level (and no pure rotational line) among ${usable.length} lines`,
+    };
   if (n < floatedCols.length) {
-    return { ok: false, message: `${n} combination difference${n === 1 ? '' : 's'} cannot determine ${floatedCols.length} constants (${floatedCols.map((c) => names[c]).join(', ')}); fix some in the system file` };
+    return {
+      ok: false,
+      message: `${n} combination difference${n === 1 ? '' : 's'} cannot determine ${floatedCols.length} constants (${floatedCols.map((c) => names[c]).join(', ')}); fix some in the system file`,
+    };
   }
   const nP = floatedCols.length;
   const fixedPart = new Float64Array(n);
@@ -210,11 +219,20 @@ export function systemCombinationDifferences(
     if (!nonZero) continue;
     const key = keyOf(names[c])?.key ?? `${state}.${names[c]}`;
     const j = floatedCols.indexOf(c);
-    out[key] = j >= 0 ? { value: p[j], sigma: cov ? Math.sqrt(cov[j * nP + j] * scale) : null, fixed: false } : { value: values[c], sigma: 0, fixed: true };
+    out[key] =
+      j >= 0
+        ? { value: p[j], sigma: cov ? Math.sqrt(cov[j * nP + j] * scale) : null, fixed: false }
+        : { value: values[c], sigma: 0, fixed: true };
   }
   const warnings: string[] = [];
   const suspects = full.filter((x) => x.isSuspect).length;
-  if (suspects) warnings.push(`${suspects} combination difference${suspects === 1 ? '' : 's'} deviate by more than 3σ: one of the two lines is probably misassigned.`);
+  if (suspects)
+    warnings.push(
+      `${suspects} combination difference${suspects === 1 ? '' : 's'} deviate by more than 3σ: one of the two lines is probably misassigned.`,
+    );
   warnings.push(`Differences from ${[...bandsUsed].join(', ') || 'no band'}.`);
-  return { ok: true, result: { species: species.name, state, parameters: out, nPairs: n, pairs: full, sigmaW, rmsCm1: Math.sqrt(sq / n), warnings } };
+  return {
+    ok: true,
+    result: { species: species.name, state, parameters: out, nPairs: n, pairs: full, sigmaW, rmsCm1: Math.sqrt(sq / n), warnings },
+  };
 }
