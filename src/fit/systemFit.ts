@@ -152,7 +152,11 @@ export function systemFit(input: SystemFitInput, hooks: FitHooks = {}): SystemFi
   // Energies and gradients of every endpoint at parameters p (one provider call per state and J).
   const nEnds = ends.length;
   const energy = new Float64Array(nEnds);
-  const gradRows: Float64Array[] = ends.map((e) => new Float64Array(e.plan.provider.parameterNames.length));
+  // Gradients of every endpoint in one flat buffer (row k at k·width), copied by loop: no per-call views.
+  const width = Math.max(1, ...[...plans.values()].map((p) => p.provider.parameterNames.length));
+  const grad = new Float64Array(nEnds * width);
+  // The level index found last time; a provider keeps its level order, so it is checked and rarely searched again.
+  const lastIndex = new Int32Array(nEnds).fill(-1);
   const groups = new Map<StatePlan, Map<number, number[]>>();
   ends.forEach((e, k) => {
     let byJ = groups.get(e.plan);
@@ -161,26 +165,32 @@ export function systemFit(input: SystemFitInput, hooks: FitHooks = {}): SystemFi
     if (list) list.push(k);
     else byJ.set(e.J, [k]);
   });
+  const kTopOf = new Map<number[], number>();
+  for (const byJ of groups.values()) for (const ks of byJ.values()) kTopOf.set(ks, Math.max(...ks.map((k) => ends[k].K)));
   let missing: string | null = null;
   const evaluate = (p: Float64Array): void => {
     for (const [plan, byJ] of groups) {
       for (let c = 0; c < plan.column.length; c++) if (plan.column[c] >= 0) plan.values[c] = p[plan.column[c]];
       const nC = plan.provider.parameterNames.length;
       for (const [J, ks] of byJ) {
-        let kTop = 0;
-        for (const k of ks) kTop = Math.max(kTop, ends[k].K);
-        const set = plan.provider.levels(J, plan.values, kTop);
+        const set = plan.provider.levels(J, plan.values, kTopOf.get(ks)!);
         for (const k of ks) {
           const e = ends[k];
-          let found = -1;
-          for (let i = 0; i < set.count && found < 0; i++) if (set.K[i] === e.K && set.l[i] === e.l && set.tag[i] === e.tag) found = i;
+          let found = lastIndex[k];
+          if (!(found >= 0 && found < set.count && set.K[found] === e.K && set.l[found] === e.l && set.tag[found] === e.tag)) {
+            found = -1;
+            for (let i = 0; i < set.count && found < 0; i++) if (set.K[i] === e.K && set.l[i] === e.l && set.tag[i] === e.tag) found = i;
+            lastIndex[k] = found;
+          }
           if (found < 0) {
             missing ??= `state '${plan.state}' has no level J=${J} K=${e.K} l=${e.l}${e.tag ? ' ' + e.tag : ''}`;
             energy[k] = NaN;
             continue;
           }
           energy[k] = set.energyCm1[found];
-          gradRows[k].set(set.gradient.subarray(found * nC, found * nC + nC));
+          const from = found * nC;
+          const to = k * width;
+          for (let c = 0; c < nC; c++) grad[to + c] = set.gradient[from + c];
         }
       }
     }
@@ -213,12 +223,12 @@ export function systemFit(input: SystemFitInput, hooks: FitHooks = {}): SystemFi
         const w = 1 / sigma[r];
         for (let side = 0; side < 2; side++) {
           const k = 2 * i + side;
-          const plan = ends[k].plan;
-          const g = gradRows[k];
+          const column = ends[k].plan.column;
+          const row = k * width;
           const sign = side === 0 ? w : -w;
-          for (let c = 0; c < plan.column.length; c++) {
-            const j = plan.column[c];
-            if (j >= 0) out[j * nLines + r] += sign * g[c];
+          for (let c = 0; c < column.length; c++) {
+            const j = column[c];
+            if (j >= 0) out[j * nLines + r] += sign * grad[row + c];
           }
         }
       }

@@ -68,7 +68,10 @@ export function termLevelProvider(shape: TopShape, isDegenerate: boolean): Level
         s.tag[0] = 'e';
         s.componentCount[0] = 1;
         s.energyCm1[0] = origin + (B * x - DJ * x * x + HJ * x * x * x);
-        s.gradient.set([1, x, -x * x, x * x * x, 0, 0], 0);
+        s.gradient[0] = 1;
+        s.gradient[1] = x;
+        s.gradient[2] = -x * x;
+        s.gradient[3] = x * x * x;
         return s;
       }
       if (J < 1 || kTop < 1) {
@@ -86,7 +89,13 @@ export function termLevelProvider(shape: TopShape, isDegenerate: boolean): Level
         s.tag[i] = i === 0 ? 'e' : 'f';
         s.componentCount[i] = 1;
         s.energyCm1[i] = origin + rot + sign * half;
-        s.gradient.set([1, x - 1, -x * x, x * x * x, sign * 0.5 * x, sign * 0.5 * x * x], i * nP);
+        const g = i * nP;
+        s.gradient[g] = 1;
+        s.gradient[g + 1] = x - 1;
+        s.gradient[g + 2] = -x * x;
+        s.gradient[g + 3] = x * x * x;
+        s.gradient[g + 4] = sign * 0.5 * x;
+        s.gradient[g + 5] = sign * 0.5 * x * x;
       }
       return s;
     }
@@ -104,8 +113,9 @@ export function termLevelProvider(shape: TopShape, isDegenerate: boolean): Level
       // the same numbers to the last bit.
       const f =
         B * x + (unique - B) * k2 - DJ * x * x - DJK * x * k2 - DK * k4 + HJ * x * x * x + HJK * x * x * k2 + HKJ * x * k4 + HK * k4 * k2;
-      const signs = isDegenerate && K > 0 ? [1, -1] : [0];
-      for (const l of signs) {
+      const nSigns = isDegenerate && K > 0 ? 2 : 1;
+      for (let t = 0; t < nSigns; t++) {
+        const l = nSigns === 1 ? 0 : t === 0 ? 1 : -1;
         const coriolisUnit = isDegenerate ? -2 * K * l : 0;
         s.K[i] = K;
         s.l[i] = l as -1 | 0 | 1;
