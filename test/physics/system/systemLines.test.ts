@@ -118,6 +118,30 @@ describe('systemLines across bands', () => {
     expect([plus, minus]).toEqual([1, 1]);
   });
 
+  it('places a perpendicular hot band from a nondegenerate excited state with the upper Coriolis term', () => {
+    // ν3+ν6 ← ν3 (E ← A, lower state excited): ΔK = +1 reaches the (+l) levels at −2A′ζ′K′, ΔK = −1 the (−l)
+    // levels at +2A′ζ′K′; the band origin is G′ − G″.
+    // Ref: Herzberg II (1945) ch. IV eq. (IV,45) and the ΔK = ±1, Δℓ = ±1 (same sign) rule.
+    const zeta = 0.3;
+    const model = hotBandSystem(zeta);
+    model.species[0].bands = [{ name: 'hot2', upper: 'v3v6', lower: 'v3', strength: 1 }];
+    const lines = systemLines(model);
+    const F = (J: number, K: number) =>
+      0.44 * J * (J + 1) + (5.1 - 0.44) * K * K - 6e-7 * (J * (J + 1)) ** 2 - 4e-6 * J * (J + 1) * K * K - 8e-5 * K ** 4;
+    let seen = 0;
+    for (let i = 0; i < lines.count; i++) {
+      if (lines.jLower[i] !== 8 || lines.kLower[i] !== 2 || lines.deltaJ[i] !== 1) continue;
+      const kUp = lines.kUpper[i];
+      const l = kUp > 2 ? 1 : -1;
+      expect(lines.lUpper[i]).toBe(l);
+      const expected = 1740 - 730 + F(9, kUp) - 2 * 5.1 * zeta * kUp * l - F(8, 2);
+      // Tolerance: round-off of energies near 2000 cm^-1 (1e-9 cm^-1).
+      expect(Math.abs(lines.wavenumberCm1[i] - expected)).toBeLessThan(1e-9);
+      seen++;
+    }
+    expect(seen).toBe(2);
+  });
+
   it('sums the vibrational partition function over the listed states with their degeneracies', () => {
     // Ref: Q_v = Σ g_v exp(−c2 G_v/T), Herzberg II (1945) ch. V (from memory).
     const q = vibrationalPartitionFunction(hotBandSystem(0).species[0], 296);
