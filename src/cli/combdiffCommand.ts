@@ -77,7 +77,10 @@ function combdiffSystem(modelPath: string, linesPath: string, state: string, opt
   let speciesIndex = 0;
   if (typeof speciesName === 'string') {
     speciesIndex = system.model.species.findIndex((s) => s.name === speciesName);
-    if (speciesIndex < 0) throw new CliError(`option --species: no species '${speciesName}' in ${modelPath} (species: ${system.model.species.map((s) => s.name).join(', ')})`);
+    if (speciesIndex < 0)
+      throw new CliError(
+        `option --species: no species '${speciesName}' in ${modelPath} (species: ${system.model.species.map((s) => s.name).join(', ')})`,
+      );
   } else if (system.model.species.length > 1) {
     throw new CliError(`${modelPath} holds ${system.model.species.length} species; choose one with --species`);
   }

@@ -87,7 +87,9 @@ export const spectrumCommand: CliCommand = (args, io) => {
     if (massOption !== undefined && !(massOption > 0)) throw new CliError(`--mass must be > 0 amu, got ${massOption}`);
     for (const sp of model.species) {
       if (massOption === undefined && sp.massAmu === undefined) {
-        throw new CliError(`no molecular mass for the Doppler width of species '${sp.name}': give --mass AMU or "mass" (amu) for it in ${modelPath}`);
+        throw new CliError(
+          `no molecular mass for the Doppler width of species '${sp.name}': give --mass AMU or "mass" (amu) for it in ${modelPath}`,
+        );
       }
     }
     noteAdjusted();
@@ -98,7 +100,11 @@ export const spectrumCommand: CliCommand = (args, io) => {
       for (let i = 0; i < all.count; i++) if (all.bandRefs[all.bandIndex[i]].speciesIndex === s) pick.push(i);
       if (pick.length === 0) return;
       const part = spectrumSynthesize(
-        { count: pick.length, wavenumberCm1: Float64Array.from(pick, (i) => all.wavenumberCm1[i]), intensity: Float64Array.from(pick, (i) => all.intensity[i]) },
+        {
+          count: pick.length,
+          wavenumberCm1: Float64Array.from(pick, (i) => all.wavenumberCm1[i]),
+          intensity: Float64Array.from(pick, (i) => all.intensity[i]),
+        },
         grid,
         { temperatureK: model.temperatureK, massAmu: massOption ?? sp.massAmu!, lorentzHwhmCm1 },
       );
