@@ -1,7 +1,7 @@
 /**
  * Input and result types of the joint fit of several bands (fit/systemFit.ts). Plain serialisable data.
  */
-import type { FitConvergence, FitError, FitOptions } from './fitTypes';
+import type { FitConvergence, FitError } from './fitTypes';
 
 /** How a constant enters a joint fit. */
 export type SystemParameterStatus = 'floated' | 'fixed' | 'tied';
@@ -115,4 +115,3 @@ export interface SystemFitResult {
 /** Result of systemFit: a result or a refusal, never an exception for bad data. */
 export type SystemFitOutcome = { ok: true; result: SystemFitResult } | { ok: false; error: FitError };
 
-export type { FitOptions };
