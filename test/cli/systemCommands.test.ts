@@ -80,6 +80,20 @@ describe('simulate with a system file', () => {
   });
 });
 
+describe('simulate → fit round trip', () => {
+  it('reads the simulate output back as a line table (band and l columns) and fits it to zero residuals', async () => {
+    const sim = await run(['simulate', '--model', SYSTEM, '--min-intensity', '0.001']);
+    expect(sim.code).toBe(0);
+    const fit = await run(['fit', '--model', SYSTEM, '--lines', 'sim.csv'], { 'sim.csv': sim.stdout });
+    expect(fit.stderr).toBe('');
+    expect(fit.code).toBe(0);
+    const out = JSON.parse(fit.stdout);
+    // simulate prints positions to 1e-7 cm^-1, so residuals stay below that rounding (5e-8) plus the fit's slack.
+    expect(Math.max(...out.residuals.map(Math.abs))).toBeLessThan(1e-7);
+    expect(new Set(out.lines.map((l: { band: string }) => l.band))).toEqual(new Set(['nu3', 'nu6', 'hot']));
+  });
+});
+
 describe('spectrum with a system file', () => {
   it('sums the bands of every species', async () => {
     const json = JSON.parse(SYSTEM_TEXT);

@@ -8,7 +8,7 @@ import type { BandModel } from '../../../src/physics/model';
 import { systemFromBandModel } from '../../../src/physics/system/systemFromBandModel';
 import { systemLines } from '../../../src/physics/system/systemLines';
 import type { SystemModel } from '../../../src/physics/system/systemModel';
-import { vibrationalPartitionFunction } from '../../../src/physics/system/vibrationalPartition';
+import { vibrationalPartitionFunction, vibrationalPopulation } from '../../../src/physics/system/vibrationalPartition';
 
 const fixture = (name: string): BandModel =>
   modelFileParse(readFileSync(new URL(`../../fixtures/models/${name}`, import.meta.url), 'utf8')).model;
@@ -147,6 +147,14 @@ describe('systemLines across bands', () => {
     const q = vibrationalPartitionFunction(hotBandSystem(0).species[0], 296);
     const c = SECOND_RADIATION_CM_K / 296;
     expect(q).toBeCloseTo(1 + Math.exp(-c * 730) + 2 * Math.exp(-c * 1010) + 2 * Math.exp(-c * 1740), 14);
+  });
+
+  it('gives each state its Boltzmann fraction g exp(−c2 G/T)/Q_vib, summing to 1', () => {
+    // Ref: Boltzmann distribution over vibrational states, Herzberg II (1945) ch. V.
+    const species = hotBandSystem(0).species[0];
+    const fractions = species.states.map((s) => vibrationalPopulation(species, s.name, 296));
+    expect(fractions.reduce((a, b) => a + b, 0)).toBeCloseTo(1, 14);
+    expect(fractions[2] / fractions[0]).toBeCloseTo(2 * Math.exp((-SECOND_RADIATION_CM_K * 1010) / 296), 14);
   });
 
   it('scales an isotopologue by its abundance', () => {
