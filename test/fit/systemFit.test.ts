@@ -151,6 +151,10 @@ describe('systemFit: joint fit of several bands', () => {
     }
     expect(Math.abs(r.sigmaW! - 1)).toBeLessThan(4 / Math.sqrt(2 * r.degreesOfFreedom));
     expect(r.bands.map((b) => b.band)).toEqual(['nu3', 'nu6', 'hot']);
+    // A″ is floated: the parallel ν3 alone sees only A′ − A″, the perpendicular ν6 (ζ fixed) fixes it
+    // absolutely, so the joint fit determines every state's A (Herzberg II (1945) ch. IV).
+    expect(r.floated).toEqual(expect.arrayContaining(['ground.A', 'v3.A', 'v6.A', 'v3v6.A']));
+    expect(r.parameters['ground.A'].sigma!).toBeGreaterThan(0);
   });
 
   it('fits a tied constant as one parameter', () => {
