@@ -114,4 +114,3 @@ export interface SystemFitResult {
 
 /** Result of systemFit: a result or a refusal, never an exception for bad data. */
 export type SystemFitOutcome = { ok: true; result: SystemFitResult } | { ok: false; error: FitError };
-
