@@ -2,7 +2,9 @@ import { assignmentCheck } from '../fit/assignment';
 import { fitBand } from '../fit/fitBand';
 import { lineTableParse, LineTableError, type LineTable } from '../io/lineTable';
 import { lineLabelAscii } from '../physics/lineLabel';
-import { cliLoadModel } from './cliModel';
+import { systemFit } from '../fit/systemFit';
+import { systemFileFromModelFile, type SystemFile } from '../io/systemFile';
+import { cliLoadModelOrSystem, cliLoadSystemLines, cliResolveSystemLines } from './cliModel';
 import { CliError, cliParseArgs, cliRequire, type CliCommand, type CliIo } from './cliIo';
 
 /**
@@ -29,13 +31,25 @@ export function cliLoadLines(path: string, io: CliIo): LineTable {
  * correlation (in the order of "floated"), nParameters and warnings.
  * Refusals (under-determined, too few lines) end with exit 1 and one stderr line naming the
  * constants involved.
+ * With a system file (JSON with "species"; or a line table with MHz rows) every band is fitted at
+ * once (fit/systemFit.ts): the same JSON keys (parameters keyed "<state>.<constant>", a tied one
+ * with "same"), plus degreesOfFreedom, covarianceScale, bands (per-band rms) and, per line, band,
+ * species, l_up, l_lo, tag_up, tag_lo, unit and for MHz lines obsMHz, calcMHz, obsMinusCalcMHz, sigmaMHz.
+ * σ of the constants are scaled by σ_w only when σ_w > 1.
  */
 export const fitCommand: CliCommand = (args, io) => {
   const opts = cliParseArgs(args, ['model', 'lines']);
   const modelPath = cliRequire(opts, 'model');
   const linesPath = cliRequire(opts, 'lines');
-  const file = cliLoadModel(modelPath, io);
+  const loaded = cliLoadModelOrSystem(modelPath, io);
+  if (loaded.kind === 'system') return fitSystem(loaded.file, linesPath, io);
+  const file = loaded.file;
   const table = cliLoadLines(linesPath, io);
+  // A table with MHz rows cannot be read as cm^-1: fit it as a one-band system instead.
+  const unitColumn = table.extraColumns.find((c) => c.toLowerCase() === 'unit');
+  if (unitColumn && table.extras.some((e) => (e[unitColumn] ?? '').trim().toLowerCase() === 'mhz')) {
+    return fitSystem(systemFileFromModelFile(file), linesPath, io);
+  }
   table.assignments.forEach((a, i) => {
     const why = assignmentCheck(a, file.model);
     if (why) throw new CliError(`${linesPath}: line ${table.lineNumbers[i]}: ${why}`);
@@ -81,3 +95,60 @@ export const fitCommand: CliCommand = (args, io) => {
   io.stdout(JSON.stringify(out, null, 2) + '\n');
   return 0;
 };
+
+/** The joint fit of a system file's bands to a system line table; JSON as the single-band fit plus the system fields. */
+function fitSystem(system: SystemFile, linesPath: string, io: CliIo): number {
+  const table = cliLoadSystemLines(linesPath, io);
+  const lines = cliResolveSystemLines(system, table, linesPath);
+  const outcome = systemFit({ model: system.model, parameters: system.parameters, lines });
+  if (!outcome.ok) {
+    const e = outcome.error;
+    const params = e.parameters.length ? ` Parameters involved: ${e.parameters.join(', ')}.` : '';
+    throw new CliError(`${e.message}${params} ${e.suggestion}`.trim().replace(/\s*\n\s*/g, ' '));
+  }
+  const r = outcome.result;
+  const signed = (l: number) => (l > 0 ? '+1' : l < 0 ? '-1' : '0');
+  const out = {
+    parameters: r.parameters,
+    rms: r.rmsCm1,
+    sigmaW: r.sigmaW,
+    nLines: r.nLines,
+    residuals: r.lines.map((l) => l.obsMinusCalc),
+    warnings: r.warnings,
+    lines: r.lines.map((l) => ({
+      J_up: l.jUpper,
+      K_up: l.kUpper,
+      J_lo: l.jLower,
+      K_lo: l.kLower,
+      label: lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, system.model.species[l.speciesIndex].shape),
+      obs: l.obs,
+      calc: l.calc,
+      obsMinusCalc: l.obsMinusCalc,
+      sigma: l.sigma,
+      normalisedResidual: l.normalisedResidual,
+      isOutlier: l.isOutlier,
+      isExcluded: l.isExcluded,
+      band: l.band,
+      species: l.species,
+      l_up: signed(l.lUpper),
+      l_lo: signed(l.lLower),
+      tag_up: l.tagUpper,
+      tag_lo: l.tagLower,
+      unit: l.unit ?? 'cm-1',
+      ...(l.unit === 'MHz' ? { obsMHz: l.obsMHz, calcMHz: l.calcMHz, obsMinusCalcMHz: l.obsMinusCalcMHz, sigmaMHz: l.sigmaMHz } : {}),
+    })),
+    iterations: r.iterations,
+    convergence: r.convergenceMessage,
+    conditionNumber: r.conditionNumber,
+    floated: r.floated,
+    correlation: r.correlation,
+    nParameters: r.nParameters,
+    chi2: r.chi2,
+    isExactlyDetermined: r.isExactlyDetermined,
+    degreesOfFreedom: r.degreesOfFreedom,
+    covarianceScale: r.covarianceScale,
+    bands: r.bands,
+  };
+  io.stdout(JSON.stringify(out, null, 2) + '\n');
+  return 0;
+}

@@ -1,6 +1,7 @@
 import { bandLines } from '../physics/bandLines';
 import { spectrumSynthesize, type SpectrumGrid } from '../physics/spectrum';
-import { cliLoadModel } from './cliModel';
+import { systemLines } from '../physics/system/systemLines';
+import { cliLoadModelOrSystem } from './cliModel';
 import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand } from './cliIo';
 
 /** Largest grid the spectrum command accepts (about 0.5 GB of CSV text). */
@@ -61,6 +62,8 @@ export function spectrumCommandDecimals(stepCm1: number): number {
  * no sensible default mass). --lorentz is the Lorentz HWHM in cm^-1, default 0 (pure Doppler).
  * If DX does not divide X2 − X1 the step is adjusted to (X2 − X1)/(npoints − 1), with a note on stderr.
  * x is printed with one decimal more than the step resolves, y with 7 significant digits.
+ * With a system file (JSON with "species") y sums every band of every species (intensities on one
+ * scale, strongest line of all = 1), each species with its own mass (--mass overrides all).
  */
 export const spectrumCommand: CliCommand = (args, io) => {
   const opts = cliParseArgs(args, ['model', 'from', 'to', 'step', 'mass', 'lorentz']);
@@ -68,20 +71,56 @@ export const spectrumCommand: CliCommand = (args, io) => {
   const grid = spectrumCommandGrid(cliNumber(opts, 'from'), cliNumber(opts, 'to'), cliNumber(opts, 'step'));
   const lorentzHwhmCm1 = cliNumber(opts, 'lorentz', 0);
   if (lorentzHwhmCm1 < 0) throw new CliError(`--lorentz must be a half width >= 0 cm^-1, got ${lorentzHwhmCm1}`);
-  const file = cliLoadModel(modelPath, io);
-  const massAmu = opts.mass !== undefined ? cliNumber(opts, 'mass') : file.massAmu;
-  if (massAmu === undefined) {
-    throw new CliError(`no molecular mass for the Doppler width: give --mass AMU or "mass" (amu) in ${modelPath}`);
+  const noteAdjusted = () => {
+    if (grid.adjusted) {
+      io.stderr(
+        `spectrum: --step ${cliNumber(opts, 'step')} does not divide the range; using ${grid.stepCm1} cm^-1 so the last point is ${cliNumber(opts, 'to')}\n`,
+      );
+    }
+  };
+  const loaded = cliLoadModelOrSystem(modelPath, io);
+  let y: Float64Array;
+  if (loaded.kind === 'system') {
+    // Every band of every species summed, each species with its own Doppler width.
+    const model = loaded.file.model;
+    const massOption = opts.mass !== undefined ? cliNumber(opts, 'mass') : undefined;
+    if (massOption !== undefined && !(massOption > 0)) throw new CliError(`--mass must be > 0 amu, got ${massOption}`);
+    for (const sp of model.species) {
+      if (massOption === undefined && sp.massAmu === undefined) {
+        throw new CliError(
+          `no molecular mass for the Doppler width of species '${sp.name}': give --mass AMU or "mass" (amu) for it in ${modelPath}`,
+        );
+      }
+    }
+    noteAdjusted();
+    const all = systemLines(model);
+    y = new Float64Array(grid.npoints);
+    model.species.forEach((sp, s) => {
+      const pick: number[] = [];
+      for (let i = 0; i < all.count; i++) if (all.bandRefs[all.bandIndex[i]].speciesIndex === s) pick.push(i);
+      if (pick.length === 0) return;
+      const part = spectrumSynthesize(
+        {
+          count: pick.length,
+          wavenumberCm1: Float64Array.from(pick, (i) => all.wavenumberCm1[i]),
+          intensity: Float64Array.from(pick, (i) => all.intensity[i]),
+        },
+        grid,
+        { temperatureK: model.temperatureK, massAmu: massOption ?? sp.massAmu!, lorentzHwhmCm1 },
+      );
+      for (let k = 0; k < grid.npoints; k++) y[k] += part[k];
+    });
+  } else {
+    const file = loaded.file;
+    const massAmu = opts.mass !== undefined ? cliNumber(opts, 'mass') : file.massAmu;
+    if (massAmu === undefined) {
+      throw new CliError(`no molecular mass for the Doppler width: give --mass AMU or "mass" (amu) in ${modelPath}`);
+    }
+    if (!(massAmu > 0)) throw new CliError(`--mass must be > 0 amu, got ${massAmu}`);
+    noteAdjusted();
+    const lines = bandLines(file.model);
+    y = spectrumSynthesize(lines, grid, { temperatureK: file.model.temperatureK, massAmu, lorentzHwhmCm1 });
   }
-  if (!(massAmu > 0)) throw new CliError(`--mass must be > 0 amu, got ${massAmu}`);
-  if (grid.adjusted) {
-    io.stderr(
-      `spectrum: --step ${cliNumber(opts, 'step')} does not divide the range; using ${grid.stepCm1} cm^-1 so the last point is ${cliNumber(opts, 'to')}\n`,
-    );
-  }
-
-  const lines = bandLines(file.model);
-  const y = spectrumSynthesize(lines, grid, { temperatureK: file.model.temperatureK, massAmu, lorentzHwhmCm1 });
 
   const decimals = spectrumCommandDecimals(grid.stepCm1);
   const last = grid.npoints - 1;

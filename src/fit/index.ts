@@ -12,3 +12,8 @@ export * from './jacobiSvd';
 export * from './leastSquares';
 export * from './leastSquaresLinearise';
 export * from './rankDiagnosis';
+export * from './systemCombinationDifferences';
+export * from './systemFit';
+export * from './systemFitTypes';
+export * from './systemLineResolve';
+export * from './systemRankDiagnosis';

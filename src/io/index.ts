@@ -11,6 +11,8 @@ export * from './jcampParse';
 export * from './lineTable';
 export * from './modelFile';
 export * from './projectFile';
+export * from './systemFile';
+export * from './systemLineTable';
 export * from './trace';
 export * from './traceAssemble';
 export * from './traceColumns';

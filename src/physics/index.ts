@@ -14,5 +14,6 @@ export * from './spectrum';
 export * from './spectrumAddVoigt';
 export * from './spectrumFft';
 export * from './spectrumTail';
+export * from './system';
 export * from './termValues';
 export * from './transitionCheck';

@@ -1,0 +1,436 @@
+import { MHZ_PER_CM1 } from '../physics/constants';
+import type { LevelProvider } from '../physics/system/levelTypes';
+import type { SystemModel } from '../physics/system/systemModel';
+import { systemStateProvider } from '../physics/system/systemStateLevels';
+import { FIT_DEFAULTS, type FitConvergence, type FitError, type FitHooks, type FitOptions } from './fitTypes';
+import { leastSquaresSolve } from './leastSquares';
+import { lineariseCovariance, type Linearisation } from './leastSquaresLinearise';
+import { systemRankDiagnosis } from './systemRankDiagnosis';
+import type {
+  SystemFitBandSummary,
+  SystemFitLine,
+  SystemFitLineResult,
+  SystemFitOutcome,
+  SystemFitParameterResult,
+  SystemParameter,
+} from './systemFitTypes';
+
+/** Everything a joint fit needs (plain data). */
+export interface SystemFitInput {
+  /** Start values and structure (constants in cm^-1). */
+  model: SystemModel;
+  /** Every constant's key, value and status (io/systemFile.ts). */
+  parameters: readonly SystemParameter[];
+  /** Observed lines with fully labelled levels (fit/systemLineResolve.ts). */
+  lines: readonly SystemFitLine[];
+  options?: FitOptions;
+}
+
+const CONVERGENCE_WORDS: Record<FitConvergence, string> = {
+  'chi2-change': 'converged: the last step changed χ² by less than the tolerance',
+  'step-size': 'converged: the last step moved every constant by a negligible fraction of its uncertainty',
+  'no-further-decrease': 'converged: χ² cannot be lowered further (the minimum is reached to round-off)',
+  'max-iterations': 'stopped at the iteration limit before meeting the convergence tests',
+  'nothing-floated': 'nothing floated: positions calculated from the given constants',
+};
+
+/** σ_w outside [1/3, 3] earns a warning (common practice). */
+const SIGMA_W_WARN = 3;
+/** Condition numbers above this earn a "nearly undetermined" warning. */
+const CONDITION_WARN = 1e8;
+/** |correlation| above this earns a warning. */
+const CORRELATION_WARN = 0.9999;
+
+/** One state's place in the fit: its provider and where each of its constants comes from. */
+interface StatePlan {
+  speciesIndex: number;
+  state: string;
+  provider: LevelProvider;
+  values: Float64Array;
+  /** Per provider constant: floated parameter index, or −1 when fixed. */
+  column: Int32Array;
+}
+
+function refuse(
+  kind: FitError['kind'],
+  message: string,
+  parameters: string[] = [],
+  suggestion = '',
+  fixSuggested: string[] = [],
+): SystemFitOutcome {
+  return { ok: false, error: { kind, message, parameters, suggestion, fixSuggested } };
+}
+
+/**
+ * Fit the constants of several bands of one or more species to their assigned lines at once, by
+ * weighted least squares (weights 1/σ²; microwave lines enter in cm^-1 with their own σ). A
+ * constant of a state shared by several bands is one parameter; tied constants ({"same": …}) are
+ * one parameter; fixed constants stay at their values. Line positions are E′ − E″ of the states'
+ * level providers, the Jacobian their ∂E/∂p. Refuses in words (FitError) when the data cannot
+ * determine the floated set; never throws for bad data.
+ * Statistics: χ² = Σ((o − c)/σ)², σ_w = sqrt(χ²/(N − P)); covariance (JᵀWJ)⁻¹ scaled by σ_w²
+ * only when σ_w > 1 (the stated σ are then taken as too small; never scaled down).
+ * Source: Bevington & Robinson, Data Reduction and Error Analysis, 3rd ed. (2003), ch. 7–8; solver
+ * fit/leastSquares.ts.
+ * @param input model, parameters, lines
+ * @param hooks progress and cancellation
+ */
+export function systemFit(input: SystemFitInput, hooks: FitHooks = {}): SystemFitOutcome {
+  const options = { ...FIT_DEFAULTS, ...input.options };
+  const { model, parameters, lines } = input;
+  // Parameters: one column per floated constant; a tie follows its target's column or value.
+  const floated = parameters.filter((p) => p.status === 'floated').map((p) => p.key);
+  const columnOfKey = new Map(floated.map((k, j) => [k, j]));
+  const byKey = new Map(parameters.map((p) => [p.key, p]));
+  for (const p of parameters) {
+    if (!Number.isFinite(p.value)) return refuse('bad-input', `systemFit: ${p.key} must be a finite number, got ${p.value}`, [p.key]);
+    if (p.status === 'tied' && (!p.same || !byKey.has(p.same)))
+      return refuse('bad-input', `systemFit: ${p.key} is tied to an unknown constant '${p.same}'`, [p.key]);
+  }
+  const columnOf = (p: SystemParameter): number => columnOfKey.get(p.status === 'tied' ? p.same! : p.key) ?? -1;
+  const plans = new Map<string, StatePlan>();
+  const planOf = (speciesIndex: number, state: string): StatePlan => {
+    const id = `${speciesIndex}/${state}`;
+    let plan = plans.get(id);
+    if (!plan) {
+      const species = model.species[speciesIndex];
+      const st = species.states.find((s) => s.name === state)!;
+      const provider = systemStateProvider(species.shape, st);
+      const values = Float64Array.from(provider.parameterNames, (n) => st.constants[n] ?? 0);
+      const column = new Int32Array(provider.parameterNames.length).fill(-1);
+      provider.parameterNames.forEach((name, c) => {
+        const p = parameters.find((q) => q.speciesIndex === speciesIndex && q.state === state && q.name === name);
+        if (p) {
+          values[c] = p.status === 'tied' ? byKey.get(p.same!)!.value : p.value;
+          column[c] = columnOf(p);
+        }
+      });
+      plan = { speciesIndex, state, provider, values, column };
+      plans.set(id, plan);
+    }
+    return plan;
+  };
+
+  // Endpoints of every line in the fit.
+  const used: number[] = [];
+  const ends: { plan: StatePlan; J: number; K: number; l: number; tag: string }[] = [];
+  for (let i = 0; i < lines.length; i++) {
+    const line = lines[i];
+    const species = model.species[line.speciesIndex];
+    if (!species) return refuse('bad-input', `systemFit: lines[${i}] names species index ${line.speciesIndex}, which does not exist`);
+    const band = species.bands.find((b) => b.name === line.band);
+    if (!band)
+      return refuse('bad-input', `systemFit: lines[${i}] names band '${line.band}', which species '${species.name}' does not have`);
+    if (!Number.isFinite(line.observedCm1))
+      return refuse('bad-input', `systemFit: lines[${i}]: observedCm1 must be a finite wavenumber in cm^-1, got ${line.observedCm1}`);
+    if (!(line.uncertaintyCm1 > 0) || !Number.isFinite(line.uncertaintyCm1)) {
+      return refuse('bad-input', `systemFit: lines[${i}]: uncertaintyCm1 must be a finite number > 0 (cm^-1), got ${line.uncertaintyCm1}`);
+    }
+    ends.push({ plan: planOf(line.speciesIndex, band.upper), J: line.jUpper, K: line.kUpper, l: line.lUpper, tag: line.tagUpper });
+    ends.push({ plan: planOf(line.speciesIndex, band.lower), J: line.jLower, K: line.kLower, l: line.lLower, tag: line.tagLower });
+    if (!line.isExcluded) used.push(i);
+  }
+  const nLines = used.length;
+  const nP = floated.length;
+  if (nLines === 0) {
+    return refuse(
+      'too-few-lines',
+      lines.length === 0 ? 'There are no lines to fit.' : `All ${lines.length} lines are excluded; there is nothing to fit.`,
+      [...floated],
+      'Assign lines (or include excluded ones) and fit again.',
+    );
+  }
+  if (nLines < nP) {
+    return refuse(
+      'too-few-lines',
+      `${nLines} line${nLines === 1 ? '' : 's'} cannot determine ${nP} floated constants (${floated.join(', ')}): at least ${nP} lines are needed, and more to obtain uncertainties.`,
+      [...floated],
+      `Assign at least ${nP - nLines} more line${nP - nLines === 1 ? '' : 's'} or fix ${nP - nLines} of the floated constants (higher-order ones such as H or D first).`,
+    );
+  }
+
+  // Energies and gradients of every endpoint at parameters p (one provider call per state and J).
+  const nEnds = ends.length;
+  const energy = new Float64Array(nEnds);
+  // Gradients of every endpoint in one flat buffer (row k at k·width), copied by loop: no per-call views.
+  const width = Math.max(1, ...[...plans.values()].map((p) => p.provider.parameterNames.length));
+  const grad = new Float64Array(nEnds * width);
+  // The level index found last time; a provider keeps its level order, so it is checked and rarely searched again.
+  const lastIndex = new Int32Array(nEnds).fill(-1);
+  const groups = new Map<StatePlan, Map<number, number[]>>();
+  ends.forEach((e, k) => {
+    let byJ = groups.get(e.plan);
+    if (!byJ) groups.set(e.plan, (byJ = new Map()));
+    const list = byJ.get(e.J);
+    if (list) list.push(k);
+    else byJ.set(e.J, [k]);
+  });
+  const kTopOf = new Map<number[], number>();
+  for (const byJ of groups.values()) for (const ks of byJ.values()) kTopOf.set(ks, Math.max(...ks.map((k) => ends[k].K)));
+  let missing: string | null = null;
+  const evaluate = (p: Float64Array): void => {
+    for (const [plan, byJ] of groups) {
+      for (let c = 0; c < plan.column.length; c++) if (plan.column[c] >= 0) plan.values[c] = p[plan.column[c]];
+      const nC = plan.provider.parameterNames.length;
+      for (const [J, ks] of byJ) {
+        const set = plan.provider.levels(J, plan.values, kTopOf.get(ks)!);
+        for (const k of ks) {
+          const e = ends[k];
+          let found = lastIndex[k];
+          if (!(found >= 0 && found < set.count && set.K[found] === e.K && set.l[found] === e.l && set.tag[found] === e.tag)) {
+            found = -1;
+            for (let i = 0; i < set.count && found < 0; i++) if (set.K[i] === e.K && set.l[i] === e.l && set.tag[i] === e.tag) found = i;
+            lastIndex[k] = found;
+          }
+          if (found < 0) {
+            missing ??= `state '${plan.state}' has no level J=${J} K=${e.K} l=${e.l}${e.tag ? ' ' + e.tag : ''}`;
+            energy[k] = NaN;
+            continue;
+          }
+          energy[k] = set.energyCm1[found];
+          const from = found * nC;
+          const to = k * width;
+          for (let c = 0; c < nC; c++) grad[to + c] = set.gradient[from + c];
+        }
+      }
+    }
+  };
+  const observed = Float64Array.from(used, (i) => lines[i].observedCm1);
+  const sigma = Float64Array.from(used, (i) => lines[i].uncertaintyCm1);
+  const calcAll = (p: Float64Array): Float64Array => {
+    evaluate(p);
+    return Float64Array.from(lines, (_, i) => energy[2 * i] - energy[2 * i + 1]);
+  };
+  const start = Float64Array.from(floated, (k) => byKey.get(k)!.value);
+  evaluate(start);
+  if (missing) return refuse('bad-input', `systemFit: ${missing}`);
+
+  const problem = {
+    nObservations: nLines,
+    nParameters: nP,
+    residuals(p: Float64Array, out: Float64Array) {
+      evaluate(p);
+      for (let r = 0; r < nLines; r++) {
+        const i = used[r];
+        out[r] = (observed[r] - (energy[2 * i] - energy[2 * i + 1])) / sigma[r];
+      }
+    },
+    jacobian(p: Float64Array, out: Float64Array) {
+      evaluate(p);
+      out.fill(0);
+      for (let r = 0; r < nLines; r++) {
+        const i = used[r];
+        const w = 1 / sigma[r];
+        for (let side = 0; side < 2; side++) {
+          const k = 2 * i + side;
+          const column = ends[k].plan.column;
+          const row = k * width;
+          const sign = side === 0 ? w : -w;
+          for (let c = 0; c < column.length; c++) {
+            const j = column[c];
+            if (j >= 0) out[j * nLines + r] += sign * grad[row + c];
+          }
+        }
+      }
+    },
+  };
+
+  let values: Float64Array = start;
+  let lin: Linearisation | null = null;
+  let iterations = 0;
+  let convergence: FitConvergence = 'nothing-floated';
+  if (nP > 0) {
+    const solution = leastSquaresSolve(problem, start, {
+      maxIterations: options.maxIterations,
+      chi2RelativeTolerance: options.chi2RelativeTolerance,
+      stepToleranceSigma: options.stepToleranceSigma,
+      rankRelativeTolerance: options.rankRelativeTolerance,
+      onIteration: hooks.onProgress,
+      shouldCancel: hooks.shouldCancel,
+    });
+    switch (solution.status) {
+      case 'rank-deficient':
+        return { ok: false, error: systemRankDiagnosis(solution.linearisation!, floated, input, used, options.rankRelativeTolerance) };
+      case 'cancelled':
+        return refuse('cancelled', 'The fit was cancelled.');
+      case 'non-finite':
+        return refuse(
+          'diverged',
+          'The calculated line positions are not finite numbers at the start values.',
+          [...floated],
+          'Check the start values in the system file.',
+        );
+      default:
+        values = solution.parameters;
+        lin = solution.linearisation;
+        iterations = solution.iterations;
+        convergence = solution.status;
+    }
+  }
+  return { ok: true, result: buildResult(input, floated, used, values, lin, iterations, convergence, calcAll(values), options) };
+}
+
+function buildResult(
+  input: SystemFitInput,
+  floated: string[],
+  used: number[],
+  values: Float64Array,
+  lin: Linearisation | null,
+  iterations: number,
+  convergence: FitConvergence,
+  calc: Float64Array,
+  options: Required<FitOptions>,
+) {
+  const { model, parameters, lines } = input;
+  const nLines = used.length;
+  const nParameters = floated.length;
+  const dof = nLines - nParameters;
+  const isExactlyDetermined = dof === 0 && nParameters > 0;
+  const inFit = new Uint8Array(lines.length);
+  for (const i of used) inFit[i] = 1;
+  let chi2 = 0;
+  let sumSq = 0;
+  const lineResults: SystemFitLineResult[] = lines.map((line, i) => {
+    const obsMinusCalc = line.observedCm1 - calc[i];
+    const normalisedResidual = obsMinusCalc / line.uncertaintyCm1;
+    if (inFit[i]) {
+      chi2 += normalisedResidual * normalisedResidual;
+      sumSq += obsMinusCalc * obsMinusCalc;
+    }
+    const r: SystemFitLineResult = {
+      ...line,
+      species: model.species[line.speciesIndex].name,
+      isExcluded: !inFit[i],
+      obs: line.observedCm1,
+      calc: calc[i],
+      obsMinusCalc,
+      sigma: line.uncertaintyCm1,
+      normalisedResidual,
+      isOutlier: inFit[i] === 1 && !isExactlyDetermined && Math.abs(normalisedResidual) > options.outlierSigma,
+    };
+    if (line.unit === 'MHz') {
+      r.obsMHz = line.observedCm1 * MHZ_PER_CM1;
+      r.calcMHz = calc[i] * MHZ_PER_CM1;
+      r.obsMinusCalcMHz = obsMinusCalc * MHZ_PER_CM1;
+      r.sigmaMHz = line.uncertaintyCm1 * MHZ_PER_CM1;
+    }
+    return r;
+  });
+  const rmsCm1 = Math.sqrt(sumSq / nLines);
+  const sigmaW = dof > 0 ? Math.sqrt(chi2 / dof) : nParameters === 0 ? Math.sqrt(chi2 / nLines) : null;
+  const covarianceScale = sigmaW !== null && sigmaW > 1 ? sigmaW * sigmaW : 1;
+  let covariance: number[][] = [];
+  let correlation: number[][] = [];
+  const sigmas = new Float64Array(nParameters);
+  if (lin && !isExactlyDetermined) {
+    const unit = lineariseCovariance(lin);
+    for (let a = 0; a < nParameters; a++) sigmas[a] = Math.sqrt(unit[a * nParameters + a] * covarianceScale);
+    covariance = Array.from({ length: nParameters }, (_, a) =>
+      Array.from({ length: nParameters }, (_, b) => unit[a * nParameters + b] * covarianceScale),
+    );
+    correlation = Array.from({ length: nParameters }, (_, a) =>
+      Array.from({ length: nParameters }, (_, b) =>
+        a === b ? 1 : unit[a * nParameters + b] / Math.sqrt(unit[a * nParameters + a] * unit[b * nParameters + b]),
+      ),
+    );
+  }
+  const column = new Map(floated.map((k, j) => [k, j]));
+  const valueOf = (key: string): SystemFitParameterResult => {
+    const j = column.get(key);
+    if (j !== undefined) return { value: values[j], sigma: isExactlyDetermined ? null : sigmas[j], fixed: false };
+    return { value: parameters.find((p) => p.key === key)!.value, sigma: 0, fixed: true };
+  };
+  const out: Record<string, SystemFitParameterResult> = {};
+  for (const p of parameters) out[p.key] = p.status === 'tied' ? { ...valueOf(p.same!), same: p.same } : valueOf(p.key);
+
+  const outliers: number[] = [];
+  lineResults.forEach((l, i) => l.isOutlier && outliers.push(i));
+  const bands: SystemFitBandSummary[] = [];
+  model.species.forEach((species, s) => {
+    for (const band of species.bands) {
+      let n = 0;
+      let sq = 0;
+      let nsq = 0;
+      for (const i of used) {
+        const l = lineResults[i];
+        if (l.speciesIndex !== s || l.band !== band.name) continue;
+        n++;
+        sq += l.obsMinusCalc * l.obsMinusCalc;
+        nsq += l.normalisedResidual * l.normalisedResidual;
+      }
+      if (n > 0)
+        bands.push({ species: species.name, band: band.name, nLines: n, rmsCm1: Math.sqrt(sq / n), rmsNormalised: Math.sqrt(nsq / n) });
+    }
+  });
+
+  const warnings: string[] = [];
+  if (convergence === 'max-iterations')
+    warnings.push(`The fit stopped after ${iterations} iterations without converging; the constants may not be final.`);
+  if (isExactlyDetermined) {
+    warnings.push(
+      `Exactly determined: ${nLines} lines for ${nParameters} floated constants, so the constants reproduce the lines exactly and no uncertainties can be given. Assign more lines to obtain them.`,
+    );
+  } else if (sigmaW !== null && nParameters > 0) {
+    const s = sigmaW.toPrecision(3);
+    if (sigmaW > SIGMA_W_WARN) {
+      warnings.push(
+        `σ_w = ${s}: the lines scatter about ${s} times more than their stated uncertainties. Check for misassignments (see the outliers), constants missing from the model, or uncertainties set too small.`,
+      );
+    } else if (sigmaW < 1 / SIGMA_W_WARN) {
+      warnings.push(
+        `σ_w = ${s}: the residuals are much smaller than the stated uncertainties; the uncertainties may be set too large (the constants' σ are not scaled down).`,
+      );
+    }
+  }
+  if (outliers.length > 0) {
+    const labels = outliers
+      .slice(0, 10)
+      .map((i) => {
+        const l = lineResults[i];
+        return `${l.band} J'=${l.jUpper} K'=${l.kUpper} ← J"=${l.jLower} K"=${l.kLower} (${l.normalisedResidual.toFixed(1)}σ)`;
+      })
+      .join(', ');
+    warnings.push(
+      `${outliers.length} line${outliers.length === 1 ? '' : 's'} deviate${outliers.length === 1 ? 's' : ''} from the fit by more than ${options.outlierSigma} times ${outliers.length === 1 ? 'its' : 'their'} uncertainty: ${labels}${outliers.length > 10 ? ', …' : ''}. Possible misassignments or blends.`,
+    );
+  }
+  if (lin && lin.conditionNumber > CONDITION_WARN && Number.isFinite(lin.conditionNumber)) {
+    const n = lin.nParameters;
+    const j = n - 1;
+    let max = 0;
+    for (let i = 0; i < n; i++) max = Math.max(max, Math.abs(lin.svd.v[j * n + i]));
+    const keys = floated.filter((_, i) => Math.abs(lin.svd.v[j * n + i]) >= 0.2 * max);
+    warnings.push(
+      `Nearly undetermined (condition number ${lin.conditionNumber.toExponential(1)}): the data barely separate ${keys.join(', ')}; their uncertainties are large and fixing one of them may be wiser.`,
+    );
+  }
+  const pairs: string[] = [];
+  for (let a = 0; a < correlation.length; a++) {
+    for (let b = a + 1; b < correlation.length; b++) {
+      if (Math.abs(correlation[a][b]) > CORRELATION_WARN) pairs.push(`${floated[a]}/${floated[b]} (${correlation[a][b].toFixed(5)})`);
+    }
+  }
+  if (pairs.length) warnings.push(`Very strongly correlated constants: ${pairs.slice(0, 6).join(', ')}${pairs.length > 6 ? ', …' : ''}.`);
+  return {
+    parameters: out,
+    floated: [...floated],
+    covariance,
+    correlation,
+    nLines,
+    nParameters,
+    degreesOfFreedom: dof,
+    chi2,
+    rmsCm1,
+    sigmaW,
+    covarianceScale,
+    isExactlyDetermined,
+    lines: lineResults,
+    outliers,
+    bands,
+    iterations,
+    convergence,
+    convergenceMessage: CONVERGENCE_WORDS[convergence],
+    conditionNumber: lin ? lin.conditionNumber : 1,
+    warnings,
+  };
+}

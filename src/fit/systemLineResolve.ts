@@ -1,0 +1,126 @@
+import { ASSIGNMENT_MAX_J } from './assignment';
+import { bandTransitions } from '../physics/system/bandRules';
+import { levelLabelText, type LevelSet } from '../physics/system/levelTypes';
+import type { SystemModel } from '../physics/system/systemModel';
+import { systemStateFind } from '../physics/system/systemModel';
+import { systemStateProvider, systemStateValues } from '../physics/system/systemStateLevels';
+import type { SystemFitLine } from './systemFitTypes';
+
+/** What a line table row says about a line (the labels it leaves out are null). */
+export interface SystemLineQuery {
+  band: string | null;
+  species: string | null;
+  jUpper: number;
+  kUpper: number;
+  jLower: number;
+  kLower: number;
+  lUpper: -1 | 0 | 1 | null;
+  lLower: -1 | 0 | 1 | null;
+  tagUpper: string | null;
+  tagLower: string | null;
+}
+
+/** A resolved line (everything but the observation) or why the row names no single allowed line. */
+export type SystemLineResolution =
+  { ok: true; line: Omit<SystemFitLine, 'observedCm1' | 'uncertaintyCm1' | 'isExcluded' | 'unit'> } | { ok: false; message: string };
+
+function copy(s: LevelSet): LevelSet {
+  return { ...s, K: s.K.slice(0, s.count), l: s.l.slice(0, s.count), tag: s.tag.slice(0, s.count) };
+}
+
+/**
+ * Find the one allowed transition of the system that a line-table row names: its species (the
+ * only one when not named), its band (the species' only band when not named), and the upper and
+ * lower levels with the given J, K and, where given, l and tag. Refuses, in words, when none
+ * matches (naming the rule broken) or when several do (naming the labels that would decide).
+ * Source: selection rules of physics/system/bandRules.ts.
+ * @param model the system
+ * @param q what the row says
+ */
+export function systemLineResolve(model: SystemModel, q: SystemLineQuery): SystemLineResolution {
+  const bad = (message: string): SystemLineResolution => ({ ok: false, message });
+  let speciesIndex = 0;
+  if (q.species !== null) {
+    speciesIndex = model.species.findIndex((s) => s.name === q.species);
+    if (speciesIndex < 0)
+      return bad(`species '${q.species}' is not in the system (species: ${model.species.map((s) => s.name).join(', ')})`);
+  } else if (model.species.length > 1) {
+    return bad(`the system has ${model.species.length} species; name the line's species in a species column`);
+  }
+  const species = model.species[speciesIndex];
+  let band = species.bands[0];
+  if (q.band !== null) {
+    const found = species.bands.find((b) => b.name === q.band);
+    if (!found)
+      return bad(
+        `band '${q.band}' is not a band of species '${species.name}' (bands: ${species.bands.map((b) => b.name).join(', ') || 'none'})`,
+      );
+    band = found;
+  } else if (species.bands.length !== 1) {
+    return bad(
+      `species '${species.name}' has ${species.bands.length} bands; name the line's band in a band column (bands: ${species.bands.map((b) => b.name).join(', ')})`,
+    );
+  }
+  for (const [name, v] of [
+    ['J_up', q.jUpper],
+    ['K_up', q.kUpper],
+    ['J_lo', q.jLower],
+    ['K_lo', q.kLower],
+  ] as const) {
+    if (!Number.isInteger(v) || v < 0) return bad(`${name}=${v} must be a whole number >= 0`);
+    if (v > ASSIGNMENT_MAX_J) return bad(`${name}=${v} is above the largest J handled (${ASSIGNMENT_MAX_J})`);
+  }
+  const deltaJ = q.jUpper - q.jLower;
+  if (deltaJ < -1 || deltaJ > 1) return bad(`J_up=${q.jUpper} and J_lo=${q.jLower} differ by ${deltaJ}; a line has ΔJ = 0 or ±1`);
+  const lower = systemStateFind(species, band.lower);
+  const upper = systemStateFind(species, band.upper);
+  const lp = systemStateProvider(species.shape, lower);
+  const up = systemStateProvider(species.shape, upper);
+  const loSet = copy(lp.levels(q.jLower, systemStateValues(lp, lower), q.kLower));
+  const upSet = copy(up.levels(q.jUpper, systemStateValues(up, upper), q.kUpper));
+  const matches: { i: number; j: number }[] = [];
+  let sameKAllowed = 0;
+  bandTransitions(loSet, lower.isDegenerate, upSet, upper.isDegenerate, q.kLower, (i, j) => {
+    if (loSet.K[i] !== q.kLower || upSet.K[j] !== q.kUpper) return;
+    sameKAllowed++;
+    if (q.lLower !== null && loSet.l[i] !== q.lLower) return;
+    if (q.lUpper !== null && upSet.l[j] !== q.lUpper) return;
+    if (q.tagLower !== null && loSet.tag[i] !== q.tagLower) return;
+    if (q.tagUpper !== null && upSet.tag[j] !== q.tagUpper) return;
+    matches.push({ i, j });
+  });
+  const where = `band '${band.name}' (${band.upper} ← ${band.lower})`;
+  const qn = `J'=${q.jUpper} K'=${q.kUpper} ← J"=${q.jLower} K"=${q.kLower}`;
+  if (matches.length === 0) {
+    if (sameKAllowed > 0) return bad(`${qn} is allowed in ${where}, but not with the l or tag labels given`);
+    if (species.shape === 'linear' && (q.kUpper !== (upper.isDegenerate ? 1 : 0) || q.kLower !== (lower.isDegenerate ? 1 : 0))) {
+      return bad(`${qn} is not a line of ${where}: a linear molecule has K = 0 in a Σ state and K = 1 in a Π state`);
+    }
+    return bad(
+      `${qn} is not an allowed line of ${where} (ΔK must be ${lower.isDegenerate === upper.isDegenerate ? '0' : '±1'}, K <= J, and no Q line where its Hönl–London factor is 0)`,
+    );
+  }
+  if (matches.length > 1) {
+    const options = matches.map(
+      ({ i, j }) =>
+        `${levelLabelText({ J: q.jUpper, K: upSet.K[j], l: upSet.l[j] as -1 | 0 | 1, tag: upSet.tag[j] })} ← ${levelLabelText({ J: q.jLower, K: loSet.K[i], l: loSet.l[i] as -1 | 0 | 1, tag: loSet.tag[i] })}`,
+    );
+    return bad(`${qn} names ${matches.length} lines of ${where} (${options.join('; ')}); give l_lo/l_up or tag_lo/tag_up to choose`);
+  }
+  const { i, j } = matches[0];
+  return {
+    ok: true,
+    line: {
+      speciesIndex,
+      band: band.name,
+      jUpper: q.jUpper,
+      kUpper: q.kUpper,
+      lUpper: upSet.l[j] as -1 | 0 | 1,
+      tagUpper: upSet.tag[j],
+      jLower: q.jLower,
+      kLower: q.kLower,
+      lLower: loSet.l[i] as -1 | 0 | 1,
+      tagLower: loSet.tag[i],
+    },
+  };
+}

@@ -1,0 +1,62 @@
+/**
+ * The multi-band model: species (molecules or isotopologues) → vibrational states → bands.
+ * Plain serialisable data; energies in cm^-1, temperature in K.
+ *
+ * A state's constants are kept by name (see termLevelParameterNames): `origin` is its vibrational
+ * term value above the species' lowest state (0 for that state), the others as in the single-band
+ * model. A band joins an upper and a lower state of the same species; its type (ΔK = 0 or ±1)
+ * follows from the states' degeneracy (bandRules.systemBandType).
+ */
+import type { TopShape } from '../model';
+
+/** One vibrational state of a species. */
+export interface SystemState {
+  name: string;
+  /** Degenerate (ℓ = ±1: E of a symmetric top, Π of a linear molecule). */
+  isDegenerate: boolean;
+  /** Constants by name (cm^-1; ζ dimensionless); an absent constant is 0. */
+  constants: Record<string, number>;
+}
+
+/** One band: a transition between two states of a species. */
+export interface SystemBand {
+  name: string;
+  /** Name of the upper state. */
+  upper: string;
+  /** Name of the lower state. */
+  lower: string;
+  /** Relative band strength (square of the vibrational transition moment, arbitrary units shared by the species' bands). */
+  strength: number;
+}
+
+/** A molecule or isotopologue. */
+export interface SystemSpecies {
+  name: string;
+  shape: TopShape;
+  /** Mass, amu (for Doppler widths); optional. */
+  massAmu?: number;
+  /** Relative abundance (multiplies every band of the species). */
+  abundance: number;
+  /** Nuclear-spin weights, g = spinWeights[|k − ℓ| mod n] (levelTypes.levelSpinIndex). */
+  spinWeights: number[];
+  states: SystemState[];
+  bands: SystemBand[];
+}
+
+/** The whole model of a session or system file. */
+export interface SystemModel {
+  /** Temperature, K (rotational and vibrational). */
+  temperatureK: number;
+  /** Largest lower-state J'' enumerated. */
+  jMax: number;
+  /** Largest lower-state K'' enumerated (ignored for linear molecules). */
+  kMax: number;
+  species: SystemSpecies[];
+}
+
+/** The state of a species by name, or a thrown Error naming the species and band. */
+export function systemStateFind(species: SystemSpecies, name: string): SystemState {
+  const s = species.states.find((st) => st.name === name);
+  if (!s) throw new Error(`systemStateFind: species '${species.name}' has no state '${name}'`);
+  return s;
+}
