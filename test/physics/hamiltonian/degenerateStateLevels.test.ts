@@ -6,7 +6,7 @@ import { stateConstantsFrom } from '../../../src/physics/model';
 import { levelEnergy } from '../../../src/physics/termValues';
 
 /** An invented prolate C3v top in an E state (fictitious; magnitudes like a methyl halide). */
-const INVENTED_E: HamiltonianConstants = {
+const INVENTED_E = {
   origin: 1180.5,
   B: 0.342,
   A: 5.1,
@@ -20,7 +20,7 @@ const INVENTED_E: HamiltonianConstants = {
   q22: 3.0e-4,
   q22J: -2.0e-9,
   q12: 2.0e-4,
-};
+} satisfies HamiltonianConstants;
 
 /**
  * Independent reference: the full 2(2J+1)-dimensional matrix in the |k, ℓ = ±1⟩ basis written
