@@ -228,7 +228,8 @@ function solveChain(
       for (let q = 0; q < N_PARAMS; q++) {
         let s = 0;
         for (let i = 0; i < n; i++) s += v[i] * v[i] * dDiag[q * n + i];
-        for (let i = 0; i < n - 1; i++) s += 2 * v[i] * v[i + 1] * dOff[q * nOff + i];
+        // Only the ℓ-type constants appear off the diagonal.
+        if (q >= I_Q22) for (let i = 0; i < n - 1; i++) s += 2 * v[i] * v[i + 1] * dOff[q * nOff + i];
         derivatives[q] = s;
       }
     }

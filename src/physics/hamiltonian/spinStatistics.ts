@@ -22,6 +22,11 @@ export interface SpinWeightLevel {
   K: number;
   /** Symmetry species in the group of the statistics (ignored for kMod). */
   species: string;
+  /**
+   * kMod only: how many k functions the level stands for (1 for K = 0 or one member of an A1/A2
+   * pair, 2 for an E level or an unsplit ±K pair). @default K > 0 ? 2 : 1
+   */
+  degeneracy?: number;
 }
 
 /**
@@ -54,15 +59,13 @@ export function spinStatisticsSpeciesTable(group: string, weights: Readonly<Reco
  * Source: Herzberg II (1945) ch. I sec. 3 (weights by K for C3v tops); Bunker and Jensen (1998)
  * ch. 8 and 12 (weights by species); both from memory.
  * @param stats statistics of the molecule
- * @param level the level's K and species
- * @param functions for kMod only: how many k functions the level stands for (1 for a level of a
- *   split A1/A2 pair or K = 0, 2 for an unsplit ±K pair) @default K > 0 ? 2 : 1
+ * @param level the level's K, species and (kMod) number of k functions
  */
-export function levelSpinWeight(stats: SpinStatistics, level: SpinWeightLevel, functions = level.K > 0 ? 2 : 1): number {
+export function levelSpinWeight(stats: SpinStatistics, level: SpinWeightLevel): number {
   if (stats.kind === 'kMod') {
     const n = stats.weights.length;
     if (n === 0) throw new Error('levelSpinWeight: spinWeights is empty');
-    return stats.weights[level.K % n] * functions;
+    return stats.weights[level.K % n] * (level.degeneracy ?? (level.K > 0 ? 2 : 1));
   }
   const w = stats.weights[level.species];
   if (w === undefined) throw new Error(`levelSpinWeight: no weight for species ${level.species} in ${stats.pointGroup}`);

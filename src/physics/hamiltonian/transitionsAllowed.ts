@@ -40,7 +40,7 @@ export function transitionsAllowed(
   options: TransitionsAllowedOptions,
 ): AllowedTransition[] {
   const group = rovibGroupCheck(options.pointGroup, 'transitionsAllowed');
-  const weightOk = (lev: HamiltonianLevel) => !options.spin || levelSpinWeight(options.spin, lev, lev.degeneracy) > 0;
+  const weightOk = (lev: HamiltonianLevel) => !options.spin || levelSpinWeight(options.spin, lev) > 0;
   const out: AllowedTransition[] = [];
   const lowerOk = lower.map(weightOk);
   // Lower levels by J, so each upper level looks at J' − 1 … J' + 1 only.
