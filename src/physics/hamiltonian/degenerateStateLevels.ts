@@ -9,7 +9,7 @@ import {
 import { hamiltonianTermsCheck } from './hamiltonianTermsCheck';
 import { rotorPolynomialBasis, rotorPolynomialNames, type RotorShape } from './rotorPolynomial';
 import { rovibGroupCheck, rovibSpeciesDegenerate, rovibSpeciesNondegenerate, type RovibPointGroup } from './rovibSymmetry';
-import { tridiagonalEigen } from './symmetricEigen';
+import { tridiagonalEigenFast } from './symmetricEigen';
 
 /** Options of degenerateStateLevels. */
 export interface DegenerateStateOptions {
@@ -74,7 +74,7 @@ interface ChainState {
  * (descending, ℓ = +1 before ℓ = −1) is a chain with ℓ(2,2) links inside one m and ℓ(2,−1) links
  * from m to m − 3, i.e. a tridiagonal matrix. Class (k − ℓ) ≡ 0 holds the A1/A2 pairs; σv maps it
  * onto itself and is used to fold it into two half-chains (σv = ±1). Classes 1 and 2 are mirror
- * images (E levels); only class 1 is diagonalised. Every block is solved by tridiagonalEigen, and
+ * images (E levels); only class 1 is diagonalised. Every block is solved by tridiagonalEigenFast, and
  * each eigenvector is labelled (eigenLabelsAssign) by its dominant |k, ℓ⟩: K = |k|, l = sign(kℓ).
  * Derivatives ∂E/∂p = vᵀ (∂H/∂p) v (Hellmann–Feynman theorem; the basis does not depend on p).
  * @param constants origin, rotor polynomial and DEGENERATE_STATE_TERMS, cm⁻¹ (ζ dimensionless)
@@ -214,7 +214,7 @@ function solveChain(
     const phase = sigma * (ctx.J % 2 === 0 ? -1 : 1);
     diag[0] += q22Element(ctx, 1, dDiag, n, 0, phase);
   }
-  const eig = tridiagonalEigen(diag, off);
+  const eig = tridiagonalEigenFast(diag, off);
   const labels = eigenLabelsAssign(eig.vectors, n);
   for (let j = 0; j < n; j++) {
     const dominant = chain[labels.basisIndex[j]];

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
-import { symmetricEigen, tridiagonalEigen } from '../../../src/physics/hamiltonian/symmetricEigen';
+import { symmetricEigen, tridiagonalEigen, tridiagonalEigenFast } from '../../../src/physics/hamiltonian/symmetricEigen';
 import { seededGaussian } from '../../fit/fitTestData';
 
 function randomSymmetric(n: number, seed: number): Float64Array {
@@ -122,5 +122,47 @@ describe('tridiagonalEigen', () => {
     expect(res.eig).toBeLessThan(1e-11);
     expect(res.orth).toBeLessThan(1e-12);
     expect([...tridiagonalEigen(d, e, false).values]).toEqual([...r.values].map((v) => expect.closeTo(v, 11)));
+  });
+});
+
+describe('tridiagonalEigenFast', () => {
+  function compare(d: number[], e: number[], tolValue: number, tolVector: number): void {
+    const fast = tridiagonalEigenFast(d, e);
+    const ql = tridiagonalEigen(d, e);
+    const n = d.length;
+    for (let j = 0; j < n; j++) {
+      expect(Math.abs(fast.values[j] - ql.values[j])).toBeLessThan(tolValue);
+      // Same unit vector up to sign (both are sign-fixed by their largest component).
+      let dot = 0;
+      for (let i = 0; i < n; i++) dot += fast.vectors[j * n + i] * ql.vectors[j * n + i];
+      expect(1 - Math.abs(dot)).toBeLessThan(tolVector);
+    }
+    const a = new Float64Array(n * n);
+    for (let i = 0; i < n; i++) {
+      a[i * n + i] = d[i];
+      if (i < n - 1) a[i * n + i + 1] = a[(i + 1) * n + i] = e[i];
+    }
+    const res = residuals(a, n, fast.values, fast.vectors);
+    expect(res.orth).toBeLessThan(1e-9);
+  }
+
+  it('agrees with the QL vectors on a seeded random 60×60 tridiagonal matrix', () => {
+    // Reference: tridiagonalEigen (QL). Entries O(10): eigenvalues to 1e-11, vectors to 1e-12 in 1 − |v·w|.
+    const g = seededGaussian(31);
+    compare(
+      Array.from({ length: 60 }, () => 10 * g()),
+      Array.from({ length: 59 }, () => g()),
+      1e-11,
+      1e-12,
+    );
+  });
+
+  it('agrees with the QL vectors on a stiff chain like a degenerate state at J = 80 (diagonal up to 3e4, tiny links)', () => {
+    // A quadratic diagonal (A k² − 2Aζ k with A = 5 cm⁻¹) and couplings from 1e-9 to 1 cm⁻¹; the smallest
+    // diagonal gap is 2 cm⁻¹. Tolerances: eigenvalues 1e-9 (round-off of 3e4), vectors 1e-9 (ε‖T‖/gap ≈ 1e-12).
+    const n = 107;
+    const d = Array.from({ length: n }, (_, i) => 1200 + 5 * (i - 53) ** 2 - 2.7 * (i - 53));
+    const e = Array.from({ length: n - 1 }, (_, i) => 10 ** (-9 + (9 * i) / (n - 2)));
+    compare(d, e, 1e-9, 1e-9);
   });
 });
