@@ -120,6 +120,31 @@ describe('degenerateStateLevels', () => {
     }
   });
 
+  it('gives the hand-worked J = 1 levels with q12 and q22', () => {
+    // Hand-worked 2×2 (x = J(J+1) = 2): the chain |1,−1⟩ (K = 1, −l) – |0,+1⟩ (K = 0) is linked by ℓ(2,−1),
+    // element q12·(2·1 − 1)·√(x − 1·0) = √2·q12, with diagonals B·x + (A − B) + 2Aζ and B·x, so
+    // E = mean ± √(Δ²/4 + 2 q12²). The |1,+1⟩/|−1,−1⟩ pair (K = 1, +l) has ℓ(2,2) element −½ q22·√2·√2 =
+    // −q22 and splits into B·x + (A − B) − 2Aζ ± q22. Tolerance 1e-12 cm⁻¹ (round-off).
+    const c = { origin: 0, B: 0.3, A: 5, zeta: 0.25, q22: 0.01, q12: 0.2 };
+    const ls = degenerateStateLevels(c, 1, { shape: 'prolate', pointGroup: 'C3v' }).levels;
+    const d1 = 0.3 * 2 + (5 - 0.3) + 2 * 5 * 0.25;
+    const d0 = 0.3 * 2;
+    const mean = (d1 + d0) / 2;
+    const root = Math.sqrt(((d1 - d0) / 2) ** 2 + 2 * 0.2 ** 2);
+    const eMinus = ls.filter((l) => l.species === 'E').map((l) => l.energyCm1);
+    eMinus.sort((a, b) => a - b);
+    expect(eMinus).toHaveLength(2);
+    expect(Math.abs(eMinus[0] - (mean - root))).toBeLessThan(1e-12);
+    expect(Math.abs(eMinus[1] - (mean + root))).toBeLessThan(1e-12);
+    const plus = ls
+      .filter((l) => l.K === 1 && l.l === 1)
+      .map((l) => l.energyCm1)
+      .sort((a, b) => a - b);
+    const dPlus = 0.3 * 2 + (5 - 0.3) - 2 * 5 * 0.25;
+    expect(Math.abs(plus[0] - (dPlus - 0.01))).toBeLessThan(1e-12);
+    expect(Math.abs(plus[1] - (dPlus + 0.01))).toBeLessThan(1e-12);
+  });
+
   it('splits the K = 1 (+l) pair by q22 J(J+1) into A1 and A2 (first order, P/R levels from K″ = 0 above)', () => {
     // Hand-worked 2×2: with ζ-only diagonal the pair |1,+1⟩, |−1,−1⟩ is degenerate and the ℓ(2,2)
     // element −½q22 J(J+1) splits it into ±½ q22 J(J+1); the rest of the chain shifts both by
