@@ -10,3 +10,4 @@ export * from './rovibSymmetry';
 export * from './spinStatistics';
 export * from './symmetricEigen';
 export * from './transitionsAllowed';
+export * from './linearPiStateLevels';
