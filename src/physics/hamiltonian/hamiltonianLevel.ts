@@ -45,10 +45,30 @@ export interface HamiltonianLevelSet {
 /** Constants of a state by file-key name (cm⁻¹; ζ dimensionless); absent keys are 0. */
 export type HamiltonianConstants = Readonly<Record<string, number>>;
 
-/** Refuse keys a provider does not know and values that are not finite. */
+/** Where a constant that one provider refuses does belong, for the refusal message. */
+const CONSTANT_HOMES: Record<string, string> = {
+  zeta: 'a degenerate (E) state (degenerateStateLevels)',
+  etaJ: 'a degenerate (E) state (degenerateStateLevels)',
+  etaK: 'a degenerate (E) state (degenerateStateLevels)',
+  q22: 'a degenerate (E) state (degenerateStateLevels)',
+  q22J: 'a degenerate (E) state (degenerateStateLevels)',
+  q12: 'a degenerate (E) state of a C3v top (degenerateStateLevels)',
+  q: "a linear molecule's Π state (linearPiStateLevels)",
+  qJ: "a linear molecule's Π state (linearPiStateLevels)",
+  inv: 'an inversion-doubled state (inversionStateLevels)',
+  eps3: 'an inversion-doubled state (inversionStateLevels)',
+  eps3J: 'an inversion-doubled state (inversionStateLevels)',
+  A: 'a prolate top (an oblate top has C)',
+  C: 'an oblate top (a prolate top has A)',
+};
+
+/** Refuse keys a provider does not know (saying where they belong) and values that are not finite. */
 export function hamiltonianConstantsCheck(where: string, constants: HamiltonianConstants, allowed: readonly string[]): void {
   for (const [key, value] of Object.entries(constants)) {
-    if (!allowed.includes(key)) throw new Error(`${where}: unknown constant ${JSON.stringify(key)} (known: ${allowed.join(', ')})`);
+    if (!allowed.includes(key)) {
+      const hint = CONSTANT_HOMES[key] ? `; ${key} belongs to ${CONSTANT_HOMES[key]}` : '';
+      throw new Error(`${where}: unknown constant ${JSON.stringify(key)} (known: ${allowed.join(', ')})${hint}`);
+    }
     if (!Number.isFinite(value)) throw new Error(`${where}: constant ${key} must be a finite number, got ${value}`);
   }
 }

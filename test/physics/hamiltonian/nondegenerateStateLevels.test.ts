@@ -35,5 +35,10 @@ describe('nondegenerateStateLevels', () => {
     expect(levels.map((l) => `${l.K}${l.tag}:${l.species}`)).toEqual(['0:A1', '1:E', '2:E', '3A1:A1', '3A2:A2', '4:E']);
     expect(nondegenerateStateLevels(c, 3, { shape: 'prolate', pointGroup: 'C3v', vibSpecies: 'A2' }).levels[0].species).toBe('A1');
     expect(() => nondegenerateStateLevels(c, 3, { shape: 'prolate', pointGroup: 'C3v', vibSpecies: 'E' })).toThrow(/degenerate/);
+    expect(() => nondegenerateStateLevels({ zeta: 0.2 }, 3, { shape: 'prolate', pointGroup: 'C3v' })).toThrow(
+      /zeta belongs to a degenerate \(E\) state/,
+    );
+    expect(() => nondegenerateStateLevels({ C: 2 }, 3, { shape: 'prolate', pointGroup: 'C3v' })).toThrow(/C belongs to an oblate top/);
+    expect(() => nondegenerateStateLevels({ B: NaN }, 3, { shape: 'prolate', pointGroup: 'C3v' })).toThrow(/B must be a finite number/);
   });
 });
