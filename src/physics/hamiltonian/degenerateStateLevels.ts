@@ -67,8 +67,8 @@ interface ChainState {
  * origin + F(J,K) ∓ 2UζK.
  * Source: diagonal terms and the v_t = 1 forms of the ℓ(2,2) and ℓ(2,−1) matrix elements as in
  * Papoušek and Aliev (1982), chapter on degenerate vibrational states of symmetric tops, and
- * A. J. Cartwright and I. M. Mills, J. Mol. Spectrosc. 34, 415 (1970) (ℓ-type doubling and
- * resonance operators), from memory; the √ factors are the standard ⟨J,k±1|J±|J,k⟩ ladder elements.
+ * G. J. Cartwright and I. M. Mills, J. Mol. Spectrosc. (1970) (ℓ-type doubling and resonance
+ * operators; volume and page not re-checked), from memory; the √ factors are the standard ⟨J,k±1|J±|J,k⟩ ladder elements.
  *
  * Structure: H conserves (k − ℓ) mod 3, and in each class the basis ordered by m = k − ℓ
  * (descending, ℓ = +1 before ℓ = −1) is a chain with ℓ(2,2) links inside one m and ℓ(2,−1) links

@@ -11,7 +11,8 @@
  * σv = σh·C2 (D3h) is R_y^π, of C2 (D3h) is R_x^π and of σh (D3h) is R_z^π, with
  *   R_z^β |J,k⟩ = e^{ikβ} |J,k⟩,   R_x^π |J,k⟩ = (−1)^J |J,−k⟩,   R_y^π |J,k⟩ = (−1)^{J+k} |J,−k⟩.
  * For a doubly degenerate vibration the ℓ = ±1 functions (q_x ± i q_y) go into each other under σv
- * with phase +1 and pick up e^{∓2πiℓ/3}·… under C3, so only k − ℓ (mod 3) matters for C3.
+ * with phase +1, and under C3 a basis function |k, ℓ⟩ picks up a phase e^{2πi(k − ℓ)/3}, so only
+ * k − ℓ (mod 3) matters for C3 (A species when k − ℓ ≡ 0, E otherwise).
  */
 
 /** A molecular symmetry group supported here. */
