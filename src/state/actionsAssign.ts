@@ -3,8 +3,10 @@
  * a rung (select it, or assign it to the open peak), step along a series, edit and delete rows.
  * Every change to the assignment list enters undo history.
  */
+import { matchSingle, matchSingleContext, type MatchSingleContext, type MatchSingleOutcome } from '../analysis/matchSingle';
 import type { PeakList } from '../analysis/peaksFind';
 import { fitPredict } from '../fit/fitPredict';
+import type { FitResult } from '../fit/fitTypes';
 import type { TransitionQuanta } from '../physics/model';
 import { sortedLowerBound } from './sortedSearch';
 import { assignmentsAdd, assignmentsRemove, assignmentsUpdate, peakIdAt, type AssignmentPatch } from './assignLogic';
@@ -13,7 +15,7 @@ import { viewEnsureVisible, viewZoomTo } from './actionsView';
 import type { CandidateTarget } from './assignmentsSlice';
 import { candidatesRank, quantaKey, type Candidate } from './candidateRank';
 import { memoLast } from './memo';
-import { quantaLabel, selectAssignedKeys, selectBand, selectPeaks } from './selectors';
+import { quantaLabel, selectAssignedKeys, selectBand, selectFitResult, selectPeaks } from './selectors';
 import { benchStore, type BenchState } from './store';
 
 /** Ladder key ("r:3:Q") of a line's series. */
@@ -238,31 +240,95 @@ function quantaAt(lines: ReturnType<typeof selectBand>['lines'], i: number): Tra
   return { jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i] };
 }
 
+const walkContext = memoLast(
+  (model: BenchState['model'], fit: FitResult | null, peaks: PeakList, minIntensity: number, toleranceSigma: number): MatchSingleContext =>
+    // Rivals down to a quarter of the weakest drawn line take part (the assistant's dominance ratio).
+    matchSingleContext({ model, fit, peaks, minIntensity: minIntensity / 4, options: { toleranceSigma } }),
+);
+
+/** The fit the walk predicts from: the last successful fit unless it was exactly determined. */
+function walkFit(s: BenchState): FitResult | null {
+  const r = selectFitResult(s);
+  return r && !r.isExactlyDetermined ? r : null;
+}
+
 /**
- * Assign the cursor rung to the peak nearest its predicted position (within the candidate window),
- * then step to the next J''.
- * @returns false (with a message) when there is no cursor or no peak near enough
+ * What the keyboard walk would do with a rung now (no change to the state): the assistant's
+ * matching rules applied to that rung alone (analysis/matchSingle).
+ * @returns null without peaks or with an invalid tolerance
  */
-export function cursorAssignNearest(): boolean {
+export function walkDecide(s: BenchState, q: TransitionQuanta): MatchSingleOutcome | null {
+  const { peaks } = selectPeaks(s);
+  if (!peaks || peaks.count === 0) return null;
+  const ctx = walkContext(s.model, walkFit(s), peaks, s.minIntensity, s.walkToleranceSigma);
+  return matchSingle(ctx, q, s.assignments);
+}
+
+/**
+ * Set k of the keyboard walk (a rung is matched only within k·σ of its prediction).
+ * @returns an error sentence, or null
+ */
+export function walkToleranceSet(k: number): string | null {
+  if (!(Number.isFinite(k) && k >= 0.5 && k <= 20)) return `the walk tolerance must be a number of σ from 0.5 to 20, got ${k}`;
+  benchUpdate('walk tolerance', () => ({ walkToleranceSigma: k }), { history: false });
+  return null;
+}
+
+/**
+ * The keyboard walk: assign the cursor rung to its peak when the assistant's rules find exactly
+ * one (within k·σ of the prediction, height compatible, no rival), then step to the next J″.
+ * Where it is unsure it assigns nothing, leaves the cursor where it is and says why.
+ * @returns true when a line was assigned
+ */
+export function cursorAssignMatched(): boolean {
   const s = benchStore.getState();
   if (!s.cursor) {
     messagePost('info', 'Select a rung first (click it, or press → to start at the strongest line).');
     return false;
   }
-  const band = selectBand(s);
-  const i = band.indexOf.get(quantaKey(s.cursor));
   const { peaks } = selectPeaks(s);
-  if (i === undefined || !peaks) return false;
-  const nu = band.lines.wavenumberCm1[i];
-  const p = peakNearest(peaks, nu, candidateWindowCm1(s) / 2);
-  if (p < 0) {
+  if (!peaks) {
+    messagePost('info', 'There are no peaks to assign to yet (load a trace, or wait for peak finding).');
+    return false;
+  }
+  const q = s.cursor;
+  const label = quantaLabel(q, s.model.shape);
+  let d: MatchSingleOutcome | null;
+  try {
+    d = walkDecide(s, q);
+  } catch (err) {
+    messagePost('error', `${label} was not assigned: ${(err as Error).message}.`);
+    return false;
+  }
+  if (!d) return false;
+  const basis = walkFit(s) ? 'σ from the current fit' : 'first-guess σ (no fit yet)';
+  if (d.kind === 'declined') {
     messagePost(
-      'info',
-      `No peak within ${(candidateWindowCm1(s) / 2).toPrecision(2)} cm⁻¹ of ${quantaLabel(s.cursor, s.model.shape)} at ${nu.toFixed(4)} cm⁻¹.`,
+      'warning',
+      `${label} not assigned: ${d.reason} (tolerance ${d.toleranceSigma}σ, ${basis}). Click its peak to assign it by hand, or press → to skip.`,
     );
     return false;
   }
-  assignToPeak(s.cursor, peakTarget(peaks, p));
+  const existing = s.assignments.find((a) => quantaKey(a) === quantaKey(q));
+  if (existing && existing.observedCm1 === peaks.wavenumberCm1[d.peak]) {
+    cursorStep(1);
+    return false;
+  }
+  if (existing) {
+    messagePost(
+      'warning',
+      `${label} is already assigned at ${existing.observedCm1.toFixed(4)} cm⁻¹, but the walk finds ${peaks.wavenumberCm1[d.peak].toFixed(4)} cm⁻¹ (${d.distanceSigma.toFixed(1)}σ); it was left as it is. Click a peak to re-assign it.`,
+    );
+    return false;
+  }
+  assignToPeak(q, peakTarget(peaks, d.peak));
+  messagePost(
+    d.isBlend ? 'warning' : 'info',
+    `Assigned ${label} at ${peaks.wavenumberCm1[d.peak].toFixed(4)} cm⁻¹: ${d.distanceSigma.toFixed(1)}σ from ${d.predictedCm1.toFixed(4)} cm⁻¹ ` +
+      `(within ${d.toleranceSigma}σ = ±${(d.toleranceSigma * d.sigmaCm1).toPrecision(2)} cm⁻¹, ${basis})` +
+      (d.isBlend ? `; possible blend: ${d.reason.split('; ').slice(1).join('; ') || 'see the peak'}` : '') +
+      '.',
+  );
   cursorStep(1);
   return true;
 }

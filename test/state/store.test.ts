@@ -6,11 +6,12 @@ import {
   assignmentDelete,
   assignmentEdit,
   candidateAssign,
-  cursorAssignNearest,
+  cursorAssignMatched,
   cursorStep,
   peakClick,
   rungClick,
   selectCandidates,
+  walkToleranceSet,
 } from '../../src/state/actionsAssign';
 import { redo, undo } from '../../src/state/actionsCore';
 import { fitAccept, fitRevert, fitStart } from '../../src/state/actionsFit';
@@ -126,12 +127,22 @@ describe('assigning', () => {
     expect(s.cursor!.kLower).toBe(c.kLower);
   });
 
-  it('assigns the cursor rung to the nearest peak by key, and a Loomis–Wood click to the peak near it', () => {
+  it('walks by key only where one peak matches (declining with a reason otherwise), and a Loomis–Wood click assigns the peak near it', () => {
     loadSmall();
     cursorStep(1);
     cursorStep(-1);
     const c = benchStore.getState().cursor!;
-    expect(cursorAssignNearest()).toBe(true);
+    // No fit: first-guess σ = 0.2 B″ = 0.06 cm^-1 (the assistant's fallback), so ±3σ = ±0.18 cm^-1
+    // holds several peaks of this Q-branch pile: the walk declines, says why and stays put.
+    expect(cursorAssignMatched()).toBe(false);
+    expect(benchStore.getState().assignments).toEqual([]);
+    expect(benchStore.getState().cursor).toEqual(c);
+    expect(benchStore.getState().messages.at(-1)!.text).toMatch(/not assigned: .*peaks lie within 3σ/);
+    // The user narrows the tolerance to 0.5σ (±0.03 cm^-1): one peak is left, the rung's own.
+    expect(walkToleranceSet(0)).toMatch(/from 0.5 to 20/);
+    expect(walkToleranceSet(0.5)).toBeNull();
+    expect(cursorAssignMatched()).toBe(true);
+    expect(benchStore.getState().messages.at(-1)!.text).toMatch(/within 0.5σ = ±0.03\d* cm⁻¹, first-guess σ/);
     const a = benchStore.getState().assignments[0];
     const nu = transitionWavenumber(benchStore.getState().model, c.jUpper, c.kUpper, c.jLower, c.kLower);
     // Noise-free trace: the nearest peak is the rung's own line (peak centre within 0.002 cm^-1).
