@@ -175,6 +175,43 @@ export function candidateAssign(n: number): boolean {
   return true;
 }
 
+/** What a plot click may change, kept so the second click of a double-click can take it back. */
+type ClickUndo = Pick<
+  BenchState,
+  'assignments' | 'past' | 'future' | 'cursor' | 'candidateTarget' | 'selectedAssignmentId' | 'nextAssignmentNumber'
+>;
+let clickUndo: ClickUndo | null = null;
+
+/** Remember the state before a plot click acts (the first click of what may become a double-click). */
+export function plotClickBegin(): void {
+  const s = benchStore.getState();
+  clickUndo = {
+    assignments: s.assignments,
+    past: s.past,
+    future: s.future,
+    cursor: s.cursor,
+    candidateTarget: s.candidateTarget,
+    selectedAssignmentId: s.selectedAssignmentId,
+    nextAssignmentNumber: s.nextAssignmentNumber,
+  };
+}
+
+/**
+ * The second click of a double-click: a double-click is one gesture (zoom out), so whatever its
+ * first click did (an assignment, a cursor step, a candidate list opened, a rung selected) is
+ * taken back, leaving no trace in the undo history. Call before zooming out.
+ */
+export function plotClickTakeBack(): void {
+  const u = clickUndo;
+  clickUndo = null;
+  if (!u) return;
+  const s = benchStore.getState();
+  // Only when nothing else entered history since the first click (it made at most one step).
+  const isClickOnly = s.past === u.past || (s.past.length === u.past.length + 1 && s.past[u.past.length - 1] === u.past.at(-1));
+  if (isClickOnly) benchStore.setState(u);
+  else benchStore.setState({ cursor: u.cursor, candidateTarget: u.candidateTarget });
+}
+
 /** Close the candidate list and deselect the rung. */
 export function selectionClear(): void {
   benchUpdate('clear selection', () => ({ candidateTarget: null, cursor: null }), { history: false });

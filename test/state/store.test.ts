@@ -9,6 +9,8 @@ import {
   cursorAssignMatched,
   cursorStep,
   peakClick,
+  plotClickBegin,
+  plotClickTakeBack,
   rungClick,
   selectCandidates,
   walkToleranceSet,
@@ -156,6 +158,34 @@ describe('assigning', () => {
     expect(benchStore.getState().assignments.length).toBe(2);
     expect(assignNearPosition(q, nu2 + 0.35, 1e-4)).toBe(false);
     expect(benchStore.getState().messages.at(-1)!.text).toMatch(/No peak within/);
+  });
+
+  it('a double-click is one gesture: its first click’s assignment, cursor step or candidate list is taken back', () => {
+    loadSmall();
+    cursorStep(1);
+    const c = benchStore.getState().cursor!;
+    const before = benchStore.getState();
+    // First click of a double-click on a peak with a rung selected: it assigns at once …
+    plotClickBegin();
+    peakClick(3);
+    expect(benchStore.getState().assignments.length).toBe(1);
+    // … and the second click takes it back, leaving nothing in the undo history.
+    plotClickTakeBack();
+    const after = benchStore.getState();
+    expect(after.assignments).toBe(before.assignments);
+    expect(after.past).toBe(before.past);
+    expect(after.cursor).toEqual(c);
+    // With no rung selected, the first click opens a candidate list; the second closes it, so a
+    // later rung click selects the rung instead of assigning it to the old peak.
+    benchStore.setState({ cursor: null });
+    plotClickBegin();
+    peakClick(3);
+    expect(benchStore.getState().candidateTarget).not.toBeNull();
+    plotClickTakeBack();
+    expect(benchStore.getState().candidateTarget).toBeNull();
+    rungClick(c);
+    expect(benchStore.getState().assignments).toEqual([]);
+    expect(benchStore.getState().cursor).toEqual(c);
   });
 
   it('flags a line assigned far from its prediction', () => {
