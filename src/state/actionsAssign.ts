@@ -3,9 +3,14 @@
  * a rung (select it, or assign it to the open peak), step along a series, edit and delete rows.
  * Every change to the assignment list enters undo history.
  */
-import { matchSingle, matchSingleContext, type MatchSingleContext, type MatchSingleOutcome } from '../analysis/matchSingle';
+import {
+  matchSingle,
+  matchSingleContext,
+  matchSingleHeightScale,
+  type MatchSingleContext,
+  type MatchSingleOutcome,
+} from '../analysis/matchSingle';
 import type { PeakList } from '../analysis/peaksFind';
-import { fitPredict } from '../fit/fitPredict';
 import type { FitResult } from '../fit/fitTypes';
 import type { TransitionQuanta } from '../physics/model';
 import { sortedLowerBound } from './sortedSearch';
@@ -23,13 +28,17 @@ export function ladderKeyOf(q: TransitionQuanta): string {
   return `${'pqr'[q.kUpper - q.kLower + 1]}:${q.kLower}:${'PQR'[q.jUpper - q.jLower + 1]}`;
 }
 
-/** Candidate search half-width for the current model: 1.2 B'' (about half a J spacing), at least 0.05 cm^-1. */
+/**
+ * Base half-width of the candidate search, cm^-1: 2.5 B'' before any fit (a first guess is often
+ * a line spacing off), 1.2 B'' (about half a line spacing) with one; at least 0.05 cm^-1. Each
+ * line's window widens further to 5σ of its prediction (candidatesRank).
+ */
 export function candidateWindowCm1(s: BenchState): number {
-  return candidateWindowOf(s.model);
+  return candidateWindowOf(s.model, walkFit(s) !== null);
 }
 
-function candidateWindowOf(model: BenchState['model']): number {
-  return Math.max(0.05, 1.2 * Math.abs(model.lower.B));
+function candidateWindowOf(model: BenchState['model'], hasFit: boolean): number {
+  return Math.max(0.05, (hasFit ? 1.2 : 2.5) * Math.abs(model.lower.B));
 }
 
 const NO_CANDIDATES: Candidate[] = [];
@@ -37,29 +46,43 @@ const NO_CANDIDATES: Candidate[] = [];
 const candidates = memoLast(
   (
     target: CandidateTarget | null,
-    band: ReturnType<typeof selectBand>,
-    outcome: BenchState['fitOutcome'],
+    ctx: MatchSingleContext | null,
+    hasFit: boolean,
     assigned: Set<string>,
+    assignments: BenchState['assignments'],
     model: BenchState['model'],
+    minIntensity: number,
   ): Candidate[] => {
-    if (!target) return NO_CANDIDATES;
-    const result = outcome?.ok && !outcome.result.isExactlyDetermined ? outcome.result : null;
-    const lines = band.lines;
+    if (!target || !ctx) return NO_CANDIDATES;
+    const { cat, peaks } = ctx;
+    const p = peakNearest(peaks, target.peakCm1, 1e-6);
+    // Predictions (and their σ) from the fit when there is one, as the keyboard walk uses them.
+    const lines = { ...cat.lines, wavenumberCm1: cat.predictedCm1 };
     return candidatesRank(lines, target.peakCm1, {
-      windowCm1: candidateWindowOf(model),
+      windowCm1: candidateWindowOf(model, hasFit),
       shape: model.shape,
       assignedKeys: assigned,
       peakSigmaCm1: Number.isFinite(target.peakSigmaCm1) ? target.peakSigmaCm1 : 0,
-      // Only the few lines in the window need a prediction σ: compute those (the same value
-      // selectPredictionSigmas gives for line i) instead of one for every line of the band.
-      ...(result ? { predictionSigmaCm1: (i: number) => fitPredict(result, quantaAt(lines, i)).sigmaCm1 } : {}),
+      predictionSigmaCm1: (i) => cat.toleranceSigmaCm1[i],
+      ...(p >= 0 ? { peakHeight: peaks.height[p], heightScale: matchSingleHeightScale(ctx, assignments) } : {}),
+      intensityRatioMax: ctx.options.intensityRatioMax,
+      isOffered: (i) => cat.lines.intensity[i] >= minIntensity,
     });
   },
 );
 
 /** Ranked candidates for the peak whose list is open ([] when none is). */
 export function selectCandidates(s: BenchState): Candidate[] {
-  return candidates(s.candidateTarget, selectBand(s), s.fitOutcome, selectAssignedKeys(s), s.model);
+  if (!s.candidateTarget) return NO_CANDIDATES;
+  return candidates(
+    s.candidateTarget,
+    walkContextOf(s),
+    walkFit(s) !== null,
+    selectAssignedKeys(s),
+    s.assignments,
+    s.model,
+    s.minIntensity,
+  );
 }
 
 function peakTarget(peaks: PeakList, i: number): CandidateTarget {
@@ -289,16 +312,21 @@ function walkFit(s: BenchState): FitResult | null {
   return r && !r.isExactlyDetermined ? r : null;
 }
 
+/** The walk's (and the candidate list's) predictions for the current state, or null without peaks. */
+function walkContextOf(s: BenchState): MatchSingleContext | null {
+  const { peaks } = selectPeaks(s);
+  if (!peaks || peaks.count === 0) return null;
+  return walkContext(s.model, walkFit(s), peaks, s.minIntensity, s.walkToleranceSigma);
+}
+
 /**
  * What the keyboard walk would do with a rung now (no change to the state): the assistant's
  * matching rules applied to that rung alone (analysis/matchSingle).
  * @returns null without peaks or with an invalid tolerance
  */
 export function walkDecide(s: BenchState, q: TransitionQuanta): MatchSingleOutcome | null {
-  const { peaks } = selectPeaks(s);
-  if (!peaks || peaks.count === 0) return null;
-  const ctx = walkContext(s.model, walkFit(s), peaks, s.minIntensity, s.walkToleranceSigma);
-  return matchSingle(ctx, q, s.assignments);
+  const ctx = walkContextOf(s);
+  return ctx ? matchSingle(ctx, q, s.assignments) : null;
 }
 
 /**

@@ -1,4 +1,6 @@
 import { beforeEach, describe, expect, it } from 'vitest';
+import { assistantPeakContext } from '../../src/analysis/assistantPeakContext';
+import { assistantCatalogue } from '../../src/analysis/assistantPredict';
 import { fitBand } from '../../src/fit/fitBand';
 import { transitionWavenumber } from '../../src/physics/termValues';
 import {
@@ -267,7 +269,7 @@ describe('fitting', () => {
     expect(benchStore.getState().model).toBe(before);
   });
 
-  it("ranks candidates after a fit by distance in σ, with each line's σ the one the fit predicts for it", async () => {
+  it("ranks candidates after a fit by distance in σ, each line's σ the assistant's matching σ from the fit", async () => {
     loadSmall();
     // Twelve lines with noise of a few 1e-4 cm^-1, so the fit has a covariance and every σ_pred > 0.
     const band = selectBand(benchStore.getState());
@@ -291,11 +293,28 @@ describe('fitting', () => {
     const s = benchStore.getState();
     const cands = selectCandidates(s);
     const sigmas = selectPredictionSigmas(s)!;
+    const band2 = selectBand(s);
+    // The σ of each candidate is the assistant's matching σ (assistantCatalogue: fit σ widened by
+    // the Student factor, ⊕ residual scatter ⊕ width floor), built here independently.
+    const { peaks } = selectPeaks(s);
+    const fit = s.fitOutcome!.ok ? s.fitOutcome!.result : null;
+    const cat = assistantCatalogue({
+      model: fit!.model,
+      fit,
+      peaks: peaks!,
+      context: assistantPeakContext(peaks!),
+      minIntensity: s.minIntensity / 4,
+      widthFloorFraction: 0.1,
+      fallbackSigmaCm1: 0.2 * s.model.lower.B,
+    });
     expect(cands.length).toBeGreaterThan(0);
     for (const c of cands) {
-      const sigma = Math.hypot(sigmas[c.lineIndex], s.candidateTarget!.peakSigmaCm1);
+      const key = `${c.jUpper},${c.kUpper},${c.jLower},${c.kLower}`;
+      const sigma = Math.hypot(cat.toleranceSigmaCm1[cat.indexOf.get(key)!], s.candidateTarget!.peakSigmaCm1);
       // Same formula on the same numbers: equal to round-off.
       expect(c.distanceSigma).toBeCloseTo(Math.abs(c.distanceCm1) / sigma, 12);
+      // Never narrower than the fit's own propagated σ of that line.
+      expect(sigma).toBeGreaterThanOrEqual(sigmas[band2.indexOf.get(key)!]);
     }
   });
 
