@@ -48,7 +48,7 @@ export interface CandidatesRankOptions {
   peakHeight?: number;
   /** Peak height per unit relative intensity (absorbance), NaN/absent while unknown. */
   heightScale?: number;
-  /** Height ratio counted as a 2σ disagreement (the assistant's limit of a plausible match). @default 5 */
+  /** Height ratio counted as a 3σ disagreement (the assistant's limit of a plausible match). @default 5 */
   intensityRatioMax?: number;
   /** Lines for which this returns false are never offered (e.g. below the drawn intensity cut). */
   isOffered?: (lineIndex: number) => boolean;
@@ -56,6 +56,9 @@ export interface CandidatesRankOptions {
   assignedKeys?: ReadonlySet<string>;
   shape: TopShape;
 }
+
+/** A height at the limit ratio counts as a position this many σ off (the assistant's default k). */
+const INTENSITY_AT_LIMIT_SIGMA = 3;
 
 /** A stable text key for quantum numbers: "J',K',J'',K''". */
 export function quantaKey(q: TransitionQuanta): string {
@@ -68,11 +71,12 @@ export function quantaKey(q: TransitionQuanta): string {
  * A line is offered when it lies within ±max(windowCm1, windowSigma·σ) of the peak, σ being its
  * prediction σ ⊕ the peak's centre σ, so the search widens with the model's uncertainty. Ranking
  * combines position and intensity into one score, like a χ²:
- *   score = z² + (2·ln r / ln f)²,
+ *   score = z² + (3·ln r / ln f)²,
  * z = |peak − predicted| / σ, r the ratio of the
  * observed height to the height the line's intensity predicts (once a height scale is known), or,
  * before that, the strongest line in the window over this one (a weak line rarely makes a peak a
- * strong one could), and f = intensityRatioMax (a factor f off counts as 2σ). Ties break by
+ * strong one could), and f = intensityRatioMax: a height a factor f off (the assistant's limit of a
+ * plausible match) counts as much as a position 3σ off (its position tolerance). Ties break by
  * intensity, strongest first. Without any σ the order is by |peak − predicted| with lines weaker
  * than 1 % of the strongest in the window last. Such weak lines are flagged in either case.
  * Source: common practice (assignment by prediction with an intensity check); the score is the
@@ -118,7 +122,7 @@ export function candidatesRank(lines: LineList, peakCm1: number, options: Candid
     const intensity = lines.intensity[i];
     const heightRatio = hasScale && intensity > 0 ? options.peakHeight! / (scale! * intensity) : null;
     const r = heightRatio ?? (intensity > 0 ? iMax / intensity : Infinity);
-    const intensityTerm = Number.isFinite(r) && r > 0 ? (2 * Math.log(r)) / lnF : 1e3;
+    const intensityTerm = Number.isFinite(r) && r > 0 ? (INTENSITY_AT_LIMIT_SIGMA * Math.log(r)) / lnF : 1e3;
     const z = distanceSigma ?? Math.abs(distanceCm1);
     const q = { jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i] };
     return {
@@ -144,4 +148,30 @@ export function candidatesRank(lines: LineList, peakCm1: number, options: Candid
       (a, b) => Number(a.isWeak) - Number(b.isWeak) || Math.abs(a.distanceCm1) - Math.abs(b.distanceCm1) || b.intensity - a.intensity,
     );
   return cands.slice(0, maxCount).map(({ score: _score, ...c }) => c);
+}
+
+/** How many of the strongest peaks and lines the rough height scale matches. */
+const SCALE_GUESS_RANKS = 30;
+
+/**
+ * A rough peak height per unit relative intensity before any line is assigned: the median over
+ * k = 1…30 of (k-th highest peak) / (k-th strongest predicted line), matching the strongest peaks
+ * with the strongest lines by rank. Good to a factor of about two where the strong lines stand
+ * alone, worse in piled-up Q branches; used only until assignments give the scale.
+ * Source: derived here (a rank (quantile–quantile) match of two distributions, common practice).
+ * @param heights peak heights (absorbance)
+ * @param intensities relative intensities of the predicted lines
+ * @returns absorbance per unit relative intensity, NaN when either list is empty
+ */
+export function candidateHeightScaleGuess(heights: ArrayLike<number>, intensities: ArrayLike<number>): number {
+  const h = Array.from(heights)
+    .filter((v) => v > 0)
+    .sort((a, b) => b - a);
+  const l = Array.from(intensities)
+    .filter((v) => v > 0)
+    .sort((a, b) => b - a);
+  const n = Math.min(SCALE_GUESS_RANKS, h.length, l.length);
+  if (n === 0) return NaN;
+  const r = Array.from({ length: n }, (_, k) => h[k] / l[k]).sort((a, b) => a - b);
+  return n % 2 ? r[n >> 1] : 0.5 * (r[n / 2 - 1] + r[n / 2]);
 }

@@ -232,11 +232,22 @@ export function PlotOverlay(props: PlotOverlayProps) {
     // out. The first click has already acted (a click must answer at once), so the second takes
     // that back (plotClickTakeBack) before zooming: a double-click never assigns, selects or
     // leaves a candidate list open.
+    // The browser counts clicks on the input's own timing (UIEvent.detail of the mousedown, which
+    // lands on plotly's drag layer before the cover goes up): a busy page that re-dispatches the
+    // second click late still sees a double-click.
     let last = { x: NaN, y: NaN, t: -Infinity };
+    let downCount = 0;
+    const onDown = (e: MouseEvent) => {
+      if (e.isTrusted) downCount = e.detail;
+      hide();
+    };
     const onClick = (e: MouseEvent) => {
       if (e.isTrusted) return;
       if (!(e.target instanceof Element) || !e.target.closest('.plot-surface')) return;
-      const isDouble = Math.hypot(e.clientX - last.x, e.clientY - last.y) <= DOUBLE_CLICK_PX && e.timeStamp - last.t <= DOUBLE_CLICK_MS;
+      const isDouble =
+        downCount >= 2 ||
+        (Math.hypot(e.clientX - last.x, e.clientY - last.y) <= DOUBLE_CLICK_PX && e.timeStamp - last.t <= DOUBLE_CLICK_MS);
+      downCount = 0;
       last = isDouble ? { x: NaN, y: NaN, t: -Infinity } : { x: e.clientX, y: e.clientY, t: e.timeStamp };
       if (isDouble) {
         plotClickTakeBack();
@@ -248,12 +259,12 @@ export function PlotOverlay(props: PlotOverlayProps) {
     };
     host.addEventListener('mousemove', onMove);
     host.addEventListener('mouseleave', hide);
-    host.addEventListener('mousedown', hide);
+    host.addEventListener('mousedown', onDown);
     host.addEventListener('click', onClick);
     return () => {
       host.removeEventListener('mousemove', onMove);
       host.removeEventListener('mouseleave', hide);
-      host.removeEventListener('mousedown', hide);
+      host.removeEventListener('mousedown', onDown);
       host.removeEventListener('click', onClick);
     };
   }, []);

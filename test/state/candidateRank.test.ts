@@ -79,7 +79,7 @@ describe('candidatesRank', () => {
   it('ranks by position and intensity together once the height scale is known', () => {
     // Peak 100.000 of height 0.5; scale 1 absorbance per unit intensity. Line 0: 0.5σ off but
     // predicted 50× too weak (intensity 0.01); line 1: 1.5σ off with the right height (0.5).
-    // Scores: line 0: 0.25 + (2 ln 50 / ln 5)² ≈ 23.5; line 1: 2.25 + 0 = 2.25, so line 1 first.
+    // Scores: line 0: 0.25 + (3 ln 50 / ln 5)² ≈ 52.8; line 1: 2.25 + 0 = 2.25, so line 1 first.
     const l = lines([100.005, 99.985], [0.01, 0.5]);
     const c = candidatesRank(l, 100, {
       windowCm1: 0.1,
