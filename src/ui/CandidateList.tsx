@@ -28,7 +28,7 @@ export function CandidateList() {
       aria-label={`Candidates for the peak at ${target.peakCm1.toFixed(4)} cm⁻¹`}
       data-testid="candidates"
       data-side={side}
-      style={{ top: 'auto', bottom: 8, maxHeight: '60%', ...(side === 'left' ? { left: 60, right: 'auto' } : { right: 18, left: 'auto' }) }}
+      style={{ top: 'auto', bottom: 8, maxHeight: '45%', ...(side === 'left' ? { left: 60, right: 'auto' } : { right: 18, left: 'auto' }) }}
     >
       <div className="candidate-head">
         <strong>Peak {target.peakCm1.toFixed(4)} cm⁻¹</strong>
@@ -58,7 +58,10 @@ export function CandidateList() {
               </th>
               <th scope="col">Int.</th>
               {hasHeights && (
-                <th scope="col" title="Observed peak height over the height this line's intensity predicts">
+                <th
+                  scope="col"
+                  title="Observed peak height over the height this line's intensity predicts (a rough scale until three lines on single peaks are assigned)"
+                >
                   obs/pred
                 </th>
               )}

@@ -36,6 +36,7 @@ describe('keyboard walk against the truth (synthetic bands with noise, real peak
     const ladders = [0, 1, 2, 3, 4, 5].flatMap((k) => [`q:${k}:R`, `q:${k}:P`, ...(k > 0 ? [`q:${k}:Q`] : [])]);
     const plan = { seedLadders: ['q:0:R', 'q:0:P', 'q:3:R'], seedsPerLadder: 4, floated: floatedFor(['upper.A']), ladders };
     const { tally } = await keyboardWalk(truth, walkFirstGuess(truth), plan, 11);
+    console.info(`parallel band walk: ${JSON.stringify({ ...tally, wrongLabels: undefined })}`);
     expectHonestWalk(tally, 150);
   }, 120000);
   it('perpendicular band: rR, rP, pP, pR, rQ, pQ sub-branches K″ = 0…4', async () => {
@@ -53,6 +54,7 @@ describe('keyboard walk against the truth (synthetic bands with noise, real peak
       ladders,
     };
     const { tally } = await keyboardWalk(truth, walkFirstGuess(truth), plan, 12);
+    console.info(`perpendicular band walk: ${JSON.stringify({ ...tally, wrongLabels: undefined })}`);
     expectHonestWalk(tally, 500);
   }, 120000);
 });

@@ -7,7 +7,7 @@
 import { fitBand } from '../../src/fit/fitBand';
 import { stateConstantsFrom, type BandModel, type TransitionQuanta } from '../../src/physics/model';
 import { transitionWavenumber } from '../../src/physics/termValues';
-import { cursorAssignMatched, cursorStep, peakClick } from '../../src/state/actionsAssign';
+import { cursorAssignMatched, cursorStep, peakClick, peakNearest } from '../../src/state/actionsAssign';
 import { fitAccept, fitStart } from '../../src/state/actionsFit';
 import { traceReplace } from '../../src/state/actionsImport';
 import { selectBand, selectPeaks } from '../../src/state/selectors';
@@ -73,6 +73,12 @@ export interface WalkTally {
   declined: number;
   /** The wrong ones, for the failure message. */
   wrongLabels: string[];
+  /**
+   * For comparison, on the same rungs: what the earlier rule (nearest peak within 0.6 B″ of the
+   * model's position) would have assigned, right and wrong.
+   */
+  nearestRuleCorrect: number;
+  nearestRuleWrong: number;
 }
 
 /** Ladder keys ("r:3:R" = ΔK·K″ sub-branch letter, K″, branch) to walk. */
@@ -121,7 +127,9 @@ export async function keyboardWalk(
   traceReplace(band.trace, null, 'file');
   const fitEvery = plan.fitEvery ?? 15;
   const giveUpAfter = plan.giveUpAfter ?? 4;
-  const tally: WalkTally = { correct: 0, wrong: 0, declined: 0, wrongLabels: [] };
+  const tally: WalkTally = { correct: 0, wrong: 0, declined: 0, wrongLabels: [], nearestRuleCorrect: 0, nearestRuleWrong: 0 };
+  const { peaks } = selectPeaks(benchStore.getState());
+  if (!peaks) throw new Error('keyboardWalk: no peaks found');
   let sinceFit = 0;
   const refit = async () => {
     benchStore.setState({ floated: plan.floated(benchStore.getState().assignments.length) });
@@ -133,6 +141,15 @@ export async function keyboardWalk(
     const s = benchStore.getState();
     const q = s.cursor as TransitionQuanta;
     const before = s.assignments.length;
+    const band0 = selectBand(s);
+    const li = band0.indexOf.get(`${q.jUpper},${q.kUpper},${q.jLower},${q.kLower}`);
+    if (li !== undefined) {
+      const near = peakNearest(peaks, band0.lines.wavenumberCm1[li], 0.6 * Math.abs(s.model.lower.B));
+      if (near >= 0) {
+        if (syntheticIsCorrect(band, q, peaks.wavenumberCm1[near])) tally.nearestRuleCorrect++;
+        else tally.nearestRuleWrong++;
+      }
+    }
     const ok = cursorAssignMatched();
     const after = benchStore.getState().assignments;
     if (ok && after.length > before) {
@@ -147,8 +164,6 @@ export async function keyboardWalk(
     return ok;
   };
   // Hand-made seeds: the rung, then the peak nearest its true position.
-  const { peaks } = selectPeaks(benchStore.getState());
-  if (!peaks) throw new Error('keyboardWalk: no peaks found');
   for (const key of plan.seedLadders) {
     const b = selectBand(benchStore.getState());
     const ladder = b.ladderByKey.get(key);
