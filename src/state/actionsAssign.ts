@@ -345,7 +345,7 @@ function walkContextOf(s: BenchState): MatchSingleContext | null {
  * matching rules applied to that rung alone (analysis/matchSingle).
  * @returns null without peaks or with an invalid tolerance
  */
-export function walkDecide(s: BenchState, q: TransitionQuanta): MatchSingleOutcome | null {
+function walkDecide(s: BenchState, q: TransitionQuanta): MatchSingleOutcome | null {
   const ctx = walkContextOf(s);
   return ctx ? matchSingle(ctx, q, s.assignments) : null;
 }
