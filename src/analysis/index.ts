@@ -16,6 +16,7 @@ export * from './baselineEstimate';
 export * from './calibrationApply';
 export * from './calibrationFit';
 export * from './gaussianFit';
+export * from './matchSingle';
 export * from './noiseSigmaEstimate';
 export * from './peakProminence';
 export * from './peaksFind';

@@ -28,7 +28,8 @@ export function cliLoadLines(path: string, io: CliIo): LineTable {
  * constants (plain numbers in the model file) to the lines; JSON on stdout with every constant
  * ({value, sigma, fixed}, cm^-1), rms (cm^-1, unweighted), sigmaW (dimensionless), nLines,
  * residuals (obs − calc, cm^-1, input order), per-line details, iterations, conditionNumber,
- * correlation (in the order of "floated"), nParameters and warnings.
+ * correlation (in the order of "floated"), nParameters, warnings, degreesOfFreedom (N − P) and
+ * covarianceScale (σ_w² when σ_w > 1, else 1: uncertainties are never scaled down).
  * Refusals (under-determined, too few lines) end with exit 1 and one stderr line naming the
  * constants involved.
  * With a system file (JSON with "species"; or a line table with MHz rows) every band is fitted at
@@ -91,6 +92,9 @@ export const fitCommand: CliCommand = (args, io) => {
     nParameters: r.nParameters,
     chi2: r.chi2,
     isExactlyDetermined: r.isExactlyDetermined,
+    // Added keys (the older ones above keep their names and meaning).
+    degreesOfFreedom: r.nLines - r.nParameters,
+    covarianceScale: r.covarianceScale,
   };
   io.stdout(JSON.stringify(out, null, 2) + '\n');
   return 0;

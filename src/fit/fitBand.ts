@@ -3,7 +3,7 @@ import { fitCheck } from './fitCheck';
 import { fitResultBuild } from './fitResultBuild';
 import { FIT_DEFAULTS, type FitHooks, type FitInput, type FitOutcome } from './fitTypes';
 import { leastSquaresSolve } from './leastSquares';
-import { rankDiagnosis } from './rankDiagnosis';
+import { rankDiagnosis, rankDiagnosisStructural } from './rankDiagnosis';
 
 /**
  * Fit the constants of a symmetric-top (or linear) band to assigned line positions by weighted
@@ -41,6 +41,14 @@ export function fitBand(input: FitInput, hooks: FitHooks = {}): FitOutcome {
     };
   }
   if (nLines < nParameters) {
+    // A set no number of lines of these kinds can determine gets the structural words, not a count.
+    const structural = rankDiagnosisStructural(
+      model,
+      floated,
+      used.map((i) => lines[i]),
+      options.rankRelativeTolerance,
+    );
+    if (structural) return { ok: false, error: structural };
     return {
       ok: false,
       error: {

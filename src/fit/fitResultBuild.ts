@@ -15,6 +15,13 @@ const CONVERGENCE_WORDS: Record<FitConvergence, string> = {
 
 /** σ_w outside [1/SIGMA_W_WARN, SIGMA_W_WARN] earns a warning (common practice). */
 const SIGMA_W_WARN = 3;
+/**
+ * Fewer degrees of freedom than this earn a warning that σ_w (and so every σ) is itself poorly
+ * known: its relative standard error is about 1/√(2ν) (> 22 % below ν = 10).
+ * Source: Bevington & Robinson (2003) sec. 11.1 (χ² distribution, variance 2ν), from memory;
+ * the threshold is common practice.
+ */
+export const FIT_FEW_DOF = 10;
 /** Condition numbers above this earn a "nearly undetermined" warning. */
 const CONDITION_WARN = 1e8;
 /** |correlation| above this earns a warning. */
@@ -24,11 +31,17 @@ const CORRELATION_WARN = 0.9999;
  * Assemble the FitResult of a finished fit: fitted model, standard errors, covariance and
  * correlation, per-line obs − calc, outliers and plain-language warnings.
  *
- * Statistics: χ² = Σ ((o − c)/σ_i)²; σ_w = sqrt(χ²/(N − P)); covariance C = (JᵀWJ)⁻¹ σ_w²;
- * σ_p = sqrt(C_pp); correlation ρ_ab = C_ab / (σ_a σ_b); rms = sqrt(mean (o − c)²) (cm^-1,
- * unweighted). With N = P no σ is given (sigma null). An outlier has |o − c| > outlierSigma·σ_i.
+ * Statistics: χ² = Σ ((o − c)/σ_i)²; ν = N − P degrees of freedom; σ_w = sqrt(χ²/ν);
+ * covariance C = (JᵀWJ)⁻¹ · max(1, σ_w²); σ_p = sqrt(C_pp); correlation ρ_ab = C_ab / (σ_a σ_b);
+ * rms = sqrt(mean (o − c)²) (cm^-1, unweighted). With N = P no σ is given (sigma null). An outlier
+ * has |o − c| > outlierSigma·σ_i.
+ * The covariance is scaled up by σ_w² when the lines scatter more than their stated σ (σ_w > 1:
+ * the stated σ are taken as too small), but never scaled down: σ_w < 1 with few degrees of
+ * freedom is mostly chance (a 1-dof fit gave σ_w = 0.0035), and shrinking every σ by it claims a
+ * precision the data cannot back. (JᵀWJ)⁻¹ alone is the covariance implied by the stated σ.
  * Source: Bevington & Robinson, Data Reduction and Error Analysis, 3rd ed. (2003), ch. 7–8
- * (covariance as the inverse curvature matrix, scaled by the reduced χ²).
+ * (covariance as the inverse curvature matrix; with known σ_i it is used unscaled, the reduced-χ²
+ * scaling estimates σ_i when they are not known), from memory; one-sided scaling: common practice.
  * @param input the fit input (start model, floated keys, all lines)
  * @param used indices of the lines in the fit
  * @param values fitted values of the floated keys
@@ -83,13 +96,14 @@ export function fitResultBuild(
   });
   const rmsCm1 = Math.sqrt(sumSq / nLines);
   const sigmaW = dof > 0 ? Math.sqrt(chi2 / dof) : nParameters === 0 ? Math.sqrt(chi2 / nLines) : null;
+  const covarianceScale = sigmaW !== null && sigmaW > 1 ? sigmaW * sigmaW : 1;
 
   let covariance: number[][] = [];
   let correlation: number[][] = [];
   const sigmas = new Float64Array(nParameters);
   if (lin && !isExactlyDetermined && sigmaW !== null) {
     const unit = lineariseCovariance(lin);
-    const s2 = sigmaW * sigmaW;
+    const s2 = covarianceScale;
     for (let a = 0; a < nParameters; a++) sigmas[a] = Math.sqrt(unit[a * nParameters + a] * s2);
     covariance = Array.from({ length: nParameters }, (_, a) =>
       Array.from({ length: nParameters }, (_, b) => unit[a * nParameters + b] * s2),
@@ -126,6 +140,7 @@ export function fitResultBuild(
     convergence,
     iterations,
     nLines,
+    dof,
     options,
   });
   return {
@@ -135,6 +150,8 @@ export function fitResultBuild(
     correlation,
     nLines,
     nParameters,
+    degreesOfFreedom: dof,
+    covarianceScale,
     chi2,
     rmsCm1,
     sigmaW,
@@ -162,6 +179,7 @@ interface WarningContext {
   convergence: FitConvergence;
   iterations: number;
   nLines: number;
+  dof: number;
   options: Required<FitOptions>;
 }
 
@@ -176,12 +194,22 @@ function fitWarnings(c: WarningContext): string[] {
     );
   } else if (c.sigmaW !== null && c.floated.length > 0) {
     const s = c.sigmaW.toPrecision(3);
+    const notScaled =
+      c.sigmaW < 1 ? ' The uncertainties follow from the stated line uncertainties; they are not scaled down by σ_w below 1.' : '';
+    if (c.dof < FIT_FEW_DOF) {
+      const rel = Math.round(100 / Math.sqrt(2 * c.dof));
+      w.push(
+        `Only ${c.dof} degree${c.dof === 1 ? '' : 's'} of freedom (${c.nLines} lines − ${c.floated.length} floated constants): σ_w = ${s} is itself uncertain by about ${rel} %, so the uncertainties of the constants mean little.${notScaled} Assign more lines (or float fewer constants) before trusting them.`,
+      );
+    }
     if (c.sigmaW > SIGMA_W_WARN) {
       w.push(
-        `σ_w = ${s}: the lines scatter about ${s} times more than their stated uncertainties. Check for misassignments (see the outliers), constants missing from the model, or uncertainties set too small.`,
+        `σ_w = ${s}: the lines scatter about ${s} times more than their stated uncertainties, and every uncertainty has been scaled up by σ_w. Check for misassignments (see the outliers), constants missing from the model, or uncertainties set too small.`,
       );
-    } else if (c.sigmaW < 1 / SIGMA_W_WARN) {
-      w.push(`σ_w = ${s}: the residuals are much smaller than the stated uncertainties; the uncertainties may be set too large.`);
+    } else if (c.sigmaW < 1 / SIGMA_W_WARN && c.dof >= FIT_FEW_DOF) {
+      w.push(
+        `σ_w = ${s}: over ${c.dof} degrees of freedom the residuals are much smaller than the stated uncertainties; the stated uncertainties may be set too large.${notScaled}`,
+      );
     }
   }
   if (c.outliers.length > 0) {

@@ -100,13 +100,20 @@ export interface FitResult {
   parameters: Record<string, FitParameterResult>;
   /** Floated keys, in the order of the covariance and correlation matrices. */
   floated: string[];
-  /** Covariance of the floated constants (scaled by σ_w²), units products of theirs; [] when exactly determined. */
+  /** Covariance of the floated constants (scaled by covarianceScale), units products of theirs; [] when exactly determined. */
   covariance: number[][];
   /** Correlation matrix of the floated constants (dimensionless); [] when exactly determined. */
   correlation: number[][];
   /** Lines in the fit (not excluded). */
   nLines: number;
   nParameters: number;
+  /** Degrees of freedom ν = N − P (nLines − nParameters). */
+  degreesOfFreedom: number;
+  /**
+   * Factor applied to (JᵀWJ)⁻¹ to give the covariance: σ_w² when σ_w > 1, else 1 (never scaled down).
+   * Dimensionless.
+   */
+  covarianceScale: number;
   /** Weighted χ² = Σ ((obs − calc)/σ)², dimensionless. */
   chi2: number;
   /** Unweighted sqrt(mean (obs − calc)²) over the fitted lines, cm^-1. */

@@ -1,11 +1,12 @@
 /**
  * Explain in words why a band fit is under-determined, and which constants to fix.
  */
-import type { BandModel } from '../physics/model';
-import { fitKeyParse } from './bandDesign';
+import type { BandModel, TransitionQuanta } from '../physics/model';
+import { bandProblem, fitKeyParse } from './bandDesign';
+import { quantaQuickValid } from './fitCheck';
 import type { FitError } from './fitTypes';
 import { jacobiSvd } from './jacobiSvd';
-import type { Linearisation } from './leastSquaresLinearise';
+import { lineariserCreate, type Linearisation } from './leastSquaresLinearise';
 
 /** A parameter counts as part of a null direction when its (column-scaled) component exceeds this. */
 export const NULL_SPACE_COMPONENT_MIN = 0.05;
@@ -117,4 +118,68 @@ export function rankDiagnosis(
     ? `Fix ${toFix.join(' and ')} at ${toFix.length > 1 ? 'values' : 'a value'} known from elsewhere (another band, microwave or ground-state combination differences) and fit again.`
     : `Fix one of ${involvedKeys.join(', ')} and fit again.`;
   return { kind: 'underdetermined', message, parameters: involvedKeys, suggestion, fixSuggested: toFix };
+}
+
+/**
+ * The structural rank test: can lines of the kinds given determine the floated constants at all,
+ * however many of them are assigned? Each (K′, K″, ΔJ) series present among the lines is filled
+ * out with P + 4 consecutive J″ values from its lowest one (every line allowed by the band's
+ * selection rules, J″ ≤ model.jMax + P + 4), and the rank test of the fit is run on the Jacobian
+ * of that set at the model's values. A deficiency there is one no number of further lines of these
+ * series can remove (A″ from ΔK = 0 lines only; A from K = 0 lines only); rankDiagnosis words it.
+ * Run before the line-count test, so "assign more lines" is never advised where more lines
+ * cannot help.
+ * Source: rank of the design matrix (Golub & Van Loan 2013 §5.5); the series fill-out is derived
+ * here: within one series, positions are polynomials in J(J+1) of degree ≤ 3, and P + 4 distinct
+ * J values exceed every such degree.
+ * @param model band model (cm^-1) at which the Jacobian is taken
+ * @param floated fit keys in order
+ * @param quanta the lines' quantum numbers (those in the fit)
+ * @param rankRelativeTolerance the fit's rank threshold
+ * @returns the FitError of a structural deficiency, or null when enough lines could determine the set
+ */
+export function rankDiagnosisStructural(
+  model: BandModel,
+  floated: readonly string[],
+  quanta: readonly TransitionQuanta[],
+  rankRelativeTolerance: number,
+): FitError | null {
+  const nP = floated.length;
+  if (nP === 0 || quanta.length === 0) return null;
+  const series = new Map<string, TransitionQuanta>();
+  for (const q of quanta) {
+    const key = `${q.kUpper},${q.kLower},${q.jUpper - q.jLower}`;
+    const seen = series.get(key);
+    if (!seen || q.jLower < seen.jLower) series.set(key, q);
+  }
+  const filled: TransitionQuanta[] = [];
+  for (const q of series.values()) {
+    const dj = q.jUpper - q.jLower;
+    let added = 0;
+    for (let j = q.jLower; added < nP + 4 && j <= q.jLower + 4 * (nP + 4) + 10; j++) {
+      if (!quantaQuickValid(j + dj, q.kUpper, j, q.kLower, model.band, model.shape)) continue;
+      filled.push({ jUpper: j + dj, kUpper: q.kUpper, jLower: j, kLower: q.kLower });
+      added++;
+    }
+  }
+  const n = filled.length;
+  if (n < nP) return null;
+  const posed = bandProblem(model, floated, {
+    quanta: filled,
+    observedCm1: new Float64Array(n),
+    uncertaintyCm1: new Float64Array(n).fill(1),
+  });
+  const m = posed.problem.nObservations;
+  if (m < nP) return null;
+  const jac = new Float64Array(m * nP);
+  const residuals = new Float64Array(m);
+  posed.problem.jacobian(posed.start, jac);
+  posed.problem.residuals(posed.start, residuals);
+  const lin = lineariserCreate(m, nP, rankRelativeTolerance).linearise(jac, residuals);
+  if (lin.rank === nP && lin.zeroColumns.length === 0) return null;
+  const e = rankDiagnosis(lin, floated, model, rankRelativeTolerance);
+  return {
+    ...e,
+    message: `${e.message} More lines of the same kinds (ΔK, K″ and branch) cannot change this.`,
+  };
 }

@@ -93,6 +93,7 @@ export function fitReportMarkdown(result: FitResult, shape: TopShape, info: FitR
   out.push(
     `- Lines fitted N = ${result.nLines}; floated constants P = ${result.nParameters}; lines excluded: ${result.lines.filter((l) => l.isExcluded).length}`,
   );
+  out.push(`- Degrees of freedom ν = N − P = ${result.nLines - result.nParameters}`);
   out.push(
     `- Weighted standard deviation σ_w = ${result.sigmaW === null ? 'not defined (N = P, exactly determined)' : result.sigmaW.toPrecision(4)}`,
   );
@@ -104,7 +105,13 @@ export function fitReportMarkdown(result: FitResult, shape: TopShape, info: FitR
   out.push('');
   out.push('## Constants');
   out.push('');
-  out.push('Values in cm⁻¹ (ζ dimensionless); σ is the 1σ standard error scaled by σ_w.');
+  out.push(
+    `Values in cm⁻¹ (ζ dimensionless); σ is the 1σ standard error ${
+      result.sigmaW !== null && result.sigmaW > 1
+        ? 'scaled up by σ_w (the lines scatter more than their stated uncertainties)'
+        : 'from the stated line uncertainties (not scaled down by σ_w, which is not above 1)'
+    }.`,
+  );
   out.push('');
   out.push('| Constant | Key | Value(σ) | Value | σ | Status |');
   out.push('|---|---|---|---|---|---|');

@@ -3,17 +3,24 @@
  * a rung (select it, or assign it to the open peak), step along a series, edit and delete rows.
  * Every change to the assignment list enters undo history.
  */
+import {
+  matchSingle,
+  matchSingleContext,
+  matchSingleHeightScale,
+  type MatchSingleContext,
+  type MatchSingleOutcome,
+} from '../analysis/matchSingle';
 import type { PeakList } from '../analysis/peaksFind';
-import { fitPredict } from '../fit/fitPredict';
+import type { FitResult } from '../fit/fitTypes';
 import type { TransitionQuanta } from '../physics/model';
 import { sortedLowerBound } from './sortedSearch';
 import { assignmentsAdd, assignmentsRemove, assignmentsUpdate, peakIdAt, type AssignmentPatch } from './assignLogic';
 import { benchUpdate, messagePost } from './actionsCore';
 import { viewEnsureVisible, viewZoomTo } from './actionsView';
 import type { CandidateTarget } from './assignmentsSlice';
-import { candidatesRank, quantaKey, type Candidate } from './candidateRank';
+import { candidateHeightScaleGuess, candidatesRank, quantaKey, type Candidate } from './candidateRank';
 import { memoLast } from './memo';
-import { quantaLabel, selectAssignedKeys, selectBand, selectPeaks } from './selectors';
+import { quantaLabel, selectAssignedKeys, selectBand, selectFitResult, selectPeaks } from './selectors';
 import { benchStore, type BenchState } from './store';
 
 /** Ladder key ("r:3:Q") of a line's series. */
@@ -21,43 +28,82 @@ export function ladderKeyOf(q: TransitionQuanta): string {
   return `${'pqr'[q.kUpper - q.kLower + 1]}:${q.kLower}:${'PQR'[q.jUpper - q.jLower + 1]}`;
 }
 
-/** Candidate search half-width for the current model: 1.2 B'' (about half a J spacing), at least 0.05 cm^-1. */
+/**
+ * Base half-width of the candidate search, cm^-1: 2.5 B'' before any fit (a first guess is often
+ * a line spacing off), 1.2 B'' (about half a line spacing) with one; at least 0.05 cm^-1. Each
+ * line's window widens further to 5σ of its prediction (candidatesRank).
+ */
 export function candidateWindowCm1(s: BenchState): number {
-  return candidateWindowOf(s.model);
+  return candidateWindowOf(s.model, walkFit(s) !== null);
 }
 
-function candidateWindowOf(model: BenchState['model']): number {
-  return Math.max(0.05, 1.2 * Math.abs(model.lower.B));
+function candidateWindowOf(model: BenchState['model'], hasFit: boolean): number {
+  return Math.max(0.05, (hasFit ? 1.2 : 2.5) * Math.abs(model.lower.B));
 }
 
 const NO_CANDIDATES: Candidate[] = [];
 
+/**
+ * First-guess σ of a prediction before any fit, in units of B″: 2 B″, one line spacing (a first
+ * guess is often 0.1–0.4 cm^-1 off, more at high J). Measured on the demo (its first guess against
+ * its truth, 30 strong lone lines 0.1–0.4 cm^-1 off): the true line ranked in the top three for 23
+ * of 30 (0 of 30 with the matching σ of 0.2 B″ alone).
+ */
+const FIRST_GUESS_SIGMA_B = 2;
+
+const heightScaleGuess = memoLast((peaks: PeakList, cat: MatchSingleContext['cat']) =>
+  candidateHeightScaleGuess(peaks.height.subarray(0, peaks.count), cat.lines.intensity),
+);
+
+/** Height scale from the assignments (≥ 3 single peaks), else the rough rank-matched guess. */
+function candidateHeightScale(ctx: MatchSingleContext, assignments: BenchState['assignments']): number {
+  const fromAssigned = matchSingleHeightScale(ctx, assignments);
+  return Number.isFinite(fromAssigned) ? fromAssigned : heightScaleGuess(ctx.peaks, ctx.cat);
+}
+
 const candidates = memoLast(
   (
     target: CandidateTarget | null,
-    band: ReturnType<typeof selectBand>,
-    outcome: BenchState['fitOutcome'],
+    ctx: MatchSingleContext | null,
+    hasFit: boolean,
     assigned: Set<string>,
+    assignments: BenchState['assignments'],
     model: BenchState['model'],
+    minIntensity: number,
   ): Candidate[] => {
-    if (!target) return NO_CANDIDATES;
-    const result = outcome?.ok && !outcome.result.isExactlyDetermined ? outcome.result : null;
-    const lines = band.lines;
+    if (!target || !ctx) return NO_CANDIDATES;
+    const { cat, peaks } = ctx;
+    const p = peakNearest(peaks, target.peakCm1, 1e-6);
+    // Predictions (and their σ) from the fit when there is one, as the keyboard walk uses them.
+    const lines = { ...cat.lines, wavenumberCm1: cat.predictedCm1 };
     return candidatesRank(lines, target.peakCm1, {
-      windowCm1: candidateWindowOf(model),
+      windowCm1: candidateWindowOf(model, hasFit),
       shape: model.shape,
       assignedKeys: assigned,
       peakSigmaCm1: Number.isFinite(target.peakSigmaCm1) ? target.peakSigmaCm1 : 0,
-      // Only the few lines in the window need a prediction σ: compute those (the same value
-      // selectPredictionSigmas gives for line i) instead of one for every line of the band.
-      ...(result ? { predictionSigmaCm1: (i: number) => fitPredict(result, quantaAt(lines, i)).sigmaCm1 } : {}),
+      // Before a fit, the first guess's error is unknown: σ₀ = max(matching σ, 2 B″).
+      predictionSigmaCm1: hasFit
+        ? (i) => cat.toleranceSigmaCm1[i]
+        : (i) => Math.max(cat.toleranceSigmaCm1[i], FIRST_GUESS_SIGMA_B * Math.abs(model.lower.B)),
+      ...(p >= 0 ? { peakHeight: peaks.height[p], heightScale: candidateHeightScale(ctx, assignments) } : {}),
+      intensityRatioMax: ctx.options.intensityRatioMax,
+      isOffered: (i) => cat.lines.intensity[i] >= minIntensity,
     });
   },
 );
 
 /** Ranked candidates for the peak whose list is open ([] when none is). */
 export function selectCandidates(s: BenchState): Candidate[] {
-  return candidates(s.candidateTarget, selectBand(s), s.fitOutcome, selectAssignedKeys(s), s.model);
+  if (!s.candidateTarget) return NO_CANDIDATES;
+  return candidates(
+    s.candidateTarget,
+    walkContextOf(s),
+    walkFit(s) !== null,
+    selectAssignedKeys(s),
+    s.assignments,
+    s.model,
+    s.minIntensity,
+  );
 }
 
 function peakTarget(peaks: PeakList, i: number): CandidateTarget {
@@ -173,6 +219,43 @@ export function candidateAssign(n: number): boolean {
   return true;
 }
 
+/** What a plot click may change, kept so the second click of a double-click can take it back. */
+type ClickUndo = Pick<
+  BenchState,
+  'assignments' | 'past' | 'future' | 'cursor' | 'candidateTarget' | 'selectedAssignmentId' | 'nextAssignmentNumber'
+>;
+let clickUndo: ClickUndo | null = null;
+
+/** Remember the state before a plot click acts (the first click of what may become a double-click). */
+export function plotClickBegin(): void {
+  const s = benchStore.getState();
+  clickUndo = {
+    assignments: s.assignments,
+    past: s.past,
+    future: s.future,
+    cursor: s.cursor,
+    candidateTarget: s.candidateTarget,
+    selectedAssignmentId: s.selectedAssignmentId,
+    nextAssignmentNumber: s.nextAssignmentNumber,
+  };
+}
+
+/**
+ * The second click of a double-click: a double-click is one gesture (zoom out), so whatever its
+ * first click did (an assignment, a cursor step, a candidate list opened, a rung selected) is
+ * taken back, leaving no trace in the undo history. Call before zooming out.
+ */
+export function plotClickTakeBack(): void {
+  const u = clickUndo;
+  clickUndo = null;
+  if (!u) return;
+  const s = benchStore.getState();
+  // Only when nothing else entered history since the first click (it made at most one step).
+  const isClickOnly = s.past === u.past || (s.past.length === u.past.length + 1 && s.past[u.past.length - 1] === u.past.at(-1));
+  if (isClickOnly) benchStore.setState(u);
+  else benchStore.setState({ cursor: u.cursor, candidateTarget: u.candidateTarget });
+}
+
 /** Close the candidate list and deselect the rung. */
 export function selectionClear(): void {
   benchUpdate('clear selection', () => ({ candidateTarget: null, cursor: null }), { history: false });
@@ -238,31 +321,100 @@ function quantaAt(lines: ReturnType<typeof selectBand>['lines'], i: number): Tra
   return { jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i] };
 }
 
+const walkContext = memoLast(
+  (model: BenchState['model'], fit: FitResult | null, peaks: PeakList, minIntensity: number, toleranceSigma: number): MatchSingleContext =>
+    // Rivals down to a quarter of the weakest drawn line take part (the assistant's dominance ratio).
+    matchSingleContext({ model, fit, peaks, minIntensity: minIntensity / 4, options: { toleranceSigma } }),
+);
+
+/** The fit the walk predicts from: the last successful fit unless it was exactly determined. */
+function walkFit(s: BenchState): FitResult | null {
+  const r = selectFitResult(s);
+  return r && !r.isExactlyDetermined ? r : null;
+}
+
+/** The walk's (and the candidate list's) predictions for the current state, or null without peaks. */
+function walkContextOf(s: BenchState): MatchSingleContext | null {
+  const { peaks } = selectPeaks(s);
+  if (!peaks || peaks.count === 0) return null;
+  return walkContext(s.model, walkFit(s), peaks, s.minIntensity, s.walkToleranceSigma);
+}
+
 /**
- * Assign the cursor rung to the peak nearest its predicted position (within the candidate window),
- * then step to the next J''.
- * @returns false (with a message) when there is no cursor or no peak near enough
+ * What the keyboard walk would do with a rung now (no change to the state): the assistant's
+ * matching rules applied to that rung alone (analysis/matchSingle).
+ * @returns null without peaks or with an invalid tolerance
  */
-export function cursorAssignNearest(): boolean {
+function walkDecide(s: BenchState, q: TransitionQuanta): MatchSingleOutcome | null {
+  const ctx = walkContextOf(s);
+  return ctx ? matchSingle(ctx, q, s.assignments) : null;
+}
+
+/**
+ * Set k of the keyboard walk (a rung is matched only within k·σ of its prediction).
+ * @returns an error sentence, or null
+ */
+export function walkToleranceSet(k: number): string | null {
+  if (!(Number.isFinite(k) && k >= 0.5 && k <= 20)) return `the walk tolerance must be a number of σ from 0.5 to 20, got ${k}`;
+  benchUpdate('walk tolerance', () => ({ walkToleranceSigma: k }), { history: false });
+  return null;
+}
+
+/**
+ * The keyboard walk: assign the cursor rung to its peak when the assistant's rules find exactly
+ * one (within k·σ of the prediction, height compatible, no rival), then step to the next J″.
+ * Where it is unsure it assigns nothing, leaves the cursor where it is and says why.
+ * @returns true when a line was assigned
+ */
+export function cursorAssignMatched(): boolean {
   const s = benchStore.getState();
   if (!s.cursor) {
     messagePost('info', 'Select a rung first (click it, or press → to start at the strongest line).');
     return false;
   }
-  const band = selectBand(s);
-  const i = band.indexOf.get(quantaKey(s.cursor));
   const { peaks } = selectPeaks(s);
-  if (i === undefined || !peaks) return false;
-  const nu = band.lines.wavenumberCm1[i];
-  const p = peakNearest(peaks, nu, candidateWindowCm1(s) / 2);
-  if (p < 0) {
+  if (!peaks) {
+    messagePost('info', 'There are no peaks to assign to yet (load a trace, or wait for peak finding).');
+    return false;
+  }
+  const q = s.cursor;
+  const label = quantaLabel(q, s.model.shape);
+  let d: MatchSingleOutcome | null;
+  try {
+    d = walkDecide(s, q);
+  } catch (err) {
+    messagePost('error', `${label} was not assigned: ${(err as Error).message}.`);
+    return false;
+  }
+  if (!d) return false;
+  const basis = walkFit(s) ? 'σ from the current fit' : 'first-guess σ (no fit yet)';
+  if (d.kind === 'declined') {
     messagePost(
-      'info',
-      `No peak within ${(candidateWindowCm1(s) / 2).toPrecision(2)} cm⁻¹ of ${quantaLabel(s.cursor, s.model.shape)} at ${nu.toFixed(4)} cm⁻¹.`,
+      'warning',
+      `${label} not assigned: ${d.reason} (tolerance ${d.toleranceSigma}σ, ${basis}). Click its peak to assign it by hand, or press → to skip.`,
     );
     return false;
   }
-  assignToPeak(s.cursor, peakTarget(peaks, p));
+  const existing = s.assignments.find((a) => quantaKey(a) === quantaKey(q));
+  if (existing && existing.observedCm1 === peaks.wavenumberCm1[d.peak]) {
+    cursorStep(1);
+    return false;
+  }
+  if (existing) {
+    messagePost(
+      'warning',
+      `${label} is already assigned at ${existing.observedCm1.toFixed(4)} cm⁻¹, but the walk finds ${peaks.wavenumberCm1[d.peak].toFixed(4)} cm⁻¹ (${d.distanceSigma.toFixed(1)}σ); it was left as it is. Click a peak to re-assign it.`,
+    );
+    return false;
+  }
+  assignToPeak(q, peakTarget(peaks, d.peak));
+  messagePost(
+    d.isBlend ? 'warning' : 'info',
+    `Assigned ${label} at ${peaks.wavenumberCm1[d.peak].toFixed(4)} cm⁻¹: ${d.distanceSigma.toFixed(1)}σ from ${d.predictedCm1.toFixed(4)} cm⁻¹ ` +
+      `(within ${d.toleranceSigma}σ = ±${(d.toleranceSigma * d.sigmaCm1).toPrecision(2)} cm⁻¹, ${basis})` +
+      (d.isBlend ? `; possible blend: ${d.reason.split('; ').slice(1).join('; ') || 'see the peak'}` : '') +
+      '.',
+  );
   cursorStep(1);
   return true;
 }

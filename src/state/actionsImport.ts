@@ -11,7 +11,7 @@ import type { TraceImportOptions } from '../io/traceImportOptions';
 import { textDecode } from '../io/textDecode';
 import { traceImportWarnings } from '../io/traceImportWarnings';
 import { parseTraceInWorker } from '../workers/parseClient';
-import { assignmentsMarkBlends } from './assignLogic';
+import { assignmentsMarkBlends, assignmentsSplitAllowed } from './assignLogic';
 import { benchUpdate, messagePost } from './actionsCore';
 import { modelLoadText, modelReplace } from './actionsModel';
 import { projectImport } from './actionsProject';
@@ -209,28 +209,48 @@ export async function fileOpen(file: File): Promise<boolean> {
 export function lineTableLoadText(text: string, fileName: string): boolean {
   let rows: Assignment[];
   let warnings: string[];
+  let lineNumbers: number[];
   try {
-    ({ assignments: rows, warnings } = lineTableParse(text, { fileName }));
+    const table = lineTableParse(text, { fileName });
+    rows = table.assignments;
+    warnings = table.warnings;
+    lineNumbers = table.lineNumbers;
   } catch (err) {
     messagePost('error', `Could not read the line table: ${(err as Error).message}. The assignments are unchanged.`);
     return false;
   }
   const s = benchStore.getState();
+  // Transitions the band cannot have (ΔK = ±2 in a perpendicular band, …) never enter the list.
+  const { kept, refused } = assignmentsSplitAllowed(rows, lineNumbers, s.model);
+  rows = kept;
   let n = s.nextAssignmentNumber;
-  benchUpdate(
-    `load line table ${fileName}`,
-    (st) => {
-      const key = (a: Assignment) => `${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`;
-      const incoming = new Map(rows.map((r) => [key(r), r]));
-      const kept = st.assignments.filter((a) => !incoming.has(key(a)));
-      const ids = new Set(kept.map((a) => a.id));
-      const added = rows.map((r) => (ids.has(r.id) || !r.id ? { ...r, id: `a${n++}` } : r));
-      return { assignments: assignmentsMarkBlends([...kept, ...added]), nextAssignmentNumber: n };
-    },
-    { history: true },
-  );
-  messagePost('info', `Read ${rows.length} assigned lines from ${fileName}.`);
+  if (rows.length > 0) {
+    benchUpdate(
+      `load line table ${fileName}`,
+      (st) => {
+        const key = (a: Assignment) => `${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`;
+        const incoming = new Map(rows.map((r) => [key(r), r]));
+        const kept = st.assignments.filter((a) => !incoming.has(key(a)));
+        const ids = new Set(kept.map((a) => a.id));
+        const added = rows.map((r) => (ids.has(r.id) || !r.id ? { ...r, id: `a${n++}` } : r));
+        return { assignments: assignmentsMarkBlends([...kept, ...added]), nextAssignmentNumber: n };
+      },
+      { history: true },
+    );
+  }
   for (const w of warnings) messagePost('warning', sentence(w));
+  if (refused.length > 0) {
+    const shown = refused
+      .slice(0, 5)
+      .map((r) => `line ${r.lineNumber}: ${r.reason}`)
+      .join('; ');
+    messagePost(
+      'warning',
+      `Read ${rows.length} assigned line${rows.length === 1 ? '' : 's'} from ${fileName}; refused ${refused.length} row${refused.length === 1 ? '' : 's'} whose transition cannot exist in this ${s.model.band} band (${shown}${refused.length > 5 ? '; …' : ''}).`,
+    );
+    return rows.length > 0;
+  }
+  messagePost('info', `Read ${rows.length} assigned lines from ${fileName}.`);
   return true;
 }
 

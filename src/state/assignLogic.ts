@@ -2,8 +2,8 @@
  * Pure helpers behind the assignment actions: add, update, remove assignments and judge how far
  * an observation sits from its prediction. Lists are immutable (every change returns a new array).
  */
-import { ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1, type Assignment } from '../fit/assignment';
-import type { TransitionQuanta } from '../physics/model';
+import { ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1, assignmentCheck, type Assignment } from '../fit/assignment';
+import type { BandModel, TransitionQuanta } from '../physics/model';
 
 /** What a new assignment needs. */
 export interface AssignmentDraft extends TransitionQuanta {
@@ -153,4 +153,36 @@ export function assignmentDeviation(
     return { omcCm1, omcSigma, isFar: omcSigma > 3 };
   }
   return { omcCm1, omcSigma: null, isFar: Math.abs(omcCm1) > toleranceCm1 };
+}
+
+/** A row of an imported line table that was refused, with where and why. */
+export interface RefusedRow {
+  /** 1-based line number in the file. */
+  lineNumber: number;
+  /** Plain words (the selection rule it breaks, naming the value). */
+  reason: string;
+}
+
+/**
+ * Split imported rows into those the band allows and those it cannot have (ΔK = ±2 in a
+ * perpendicular band, K > J, …), by the rules of assignmentCheck (physics/transitionCheck), the
+ * same the CLI applies to a line table.
+ * @param rows parsed rows
+ * @param lineNumbers file line number of each row (1-based)
+ * @param model band type and rotor shape
+ * @returns the rows kept (in order) and the refused ones with their line numbers and reasons
+ */
+export function assignmentsSplitAllowed<T extends TransitionQuanta>(
+  rows: readonly T[],
+  lineNumbers: readonly number[],
+  model: Pick<BandModel, 'band' | 'shape'>,
+): { kept: T[]; refused: RefusedRow[] } {
+  const kept: T[] = [];
+  const refused: RefusedRow[] = [];
+  rows.forEach((r, i) => {
+    const why = assignmentCheck(r, model);
+    if (why) refused.push({ lineNumber: lineNumbers[i] ?? i + 1, reason: why });
+    else kept.push(r);
+  });
+  return { kept, refused };
 }

@@ -1,4 +1,5 @@
 import type { StateCreator } from 'zustand';
+import { ASSISTANT_DEFAULTS } from '../analysis/assistantTypes';
 import type { Assignment } from '../fit/assignment';
 import type { TransitionQuanta } from '../physics/model';
 import type { BenchState } from './store';
@@ -26,6 +27,11 @@ export interface AssignmentsSlice {
   farToleranceCm1: number;
   /** Next numeric part of new assignment ids. */
   nextAssignmentNumber: number;
+  /**
+   * k of the keyboard walk: a rung is assigned only to the one peak within k·σ of its prediction
+   * (σ propagated from the fit, or the first-guess σ). @default 3 (the assistant's default)
+   */
+  walkToleranceSigma: number;
 }
 
 /** Initial assignments state. */
@@ -37,6 +43,7 @@ export function assignmentsSliceInitial(): AssignmentsSlice {
     candidateTarget: null,
     farToleranceCm1: 0.02,
     nextAssignmentNumber: 1,
+    walkToleranceSigma: ASSISTANT_DEFAULTS.toleranceSigma,
   };
 }
 

@@ -12,8 +12,10 @@ export interface Candidate extends TransitionQuanta {
   predictedCm1: number;
   /** peak − predicted, cm^-1. */
   distanceCm1: number;
-  /** |distance| over the combined σ of prediction and peak; null without a fit. */
+  /** |distance| over the combined σ of prediction and peak; null when no σ is given. */
   distanceSigma: number | null;
+  /** Observed peak height over the height the line's intensity predicts (null before a scale is known). */
+  heightRatio: number | null;
   /** Relative intensity (strongest line = 1). */
   intensity: number;
   labelAscii: string;
@@ -27,20 +29,36 @@ export interface Candidate extends TransitionQuanta {
 
 /** Options of candidatesRank. */
 export interface CandidatesRankOptions {
-  /** Lines within ± this of the peak are candidates, cm^-1. */
+  /** Lines within ± this of the peak are always candidates, cm^-1. */
   windowCm1: number;
-  /** At most this many are returned. @default 9 */
+  /**
+   * The window of line i widens to windowSigma × its σ (σ_pred ⊕ σ_peak) when that is wider, so a
+   * poorly predicted line is still offered. @default 5
+   */
+  windowSigma?: number;
+  /** At most this many are returned (the list scrolls; keys 1–9 reach the first nine). @default 40 */
   maxCount?: number;
   /** When fewer than this many lie in the window, the nearest lines fill up to it. @default 3 */
   minCount?: number;
-  /** Predicted 1σ of line i from the last fit, cm^-1 (absent without a fit). */
+  /** 1σ of line i's prediction, cm^-1: from the fit, or a first-guess σ (absent: ranking by cm^-1). */
   predictionSigmaCm1?: (lineIndex: number) => number;
   /** 1σ of the peak centre, cm^-1. @default 0 */
   peakSigmaCm1?: number;
+  /** Observed height of the peak (absorbance), for the intensity agreement. */
+  peakHeight?: number;
+  /** Peak height per unit relative intensity (absorbance), NaN/absent while unknown. */
+  heightScale?: number;
+  /** Height ratio counted as a 3σ disagreement (the assistant's limit of a plausible match). @default 5 */
+  intensityRatioMax?: number;
+  /** Lines for which this returns false are never offered (e.g. below the drawn intensity cut). */
+  isOffered?: (lineIndex: number) => boolean;
   /** Quanta keys (see quantaKey) of assigned lines. */
   assignedKeys?: ReadonlySet<string>;
   shape: TopShape;
 }
+
+/** A height at the limit ratio counts as a position this many σ off (the assistant's default k). */
+const INTENSITY_AT_LIMIT_SIGMA = 3;
 
 /** A stable text key for quantum numbers: "J',K',J'',K''". */
 export function quantaKey(q: TransitionQuanta): string {
@@ -49,24 +67,42 @@ export function quantaKey(q: TransitionQuanta): string {
 
 /**
  * Candidate transitions for a peak, best first.
- * Without a fit the order is by |peak − predicted| in cm^-1; with one, by that distance in units
- * of σ = √(σ_pred² + σ_peak²), which prefers well-predicted lines. In both cases lines weaker than
- * 1 % of the strongest line in the window go after the others (a first guess rarely matches a weak
- * line where a strong one is close). Ties break by intensity, strongest first.
- * Source: common practice (nearest-prediction assignment with an intensity check).
+ *
+ * A line is offered when it lies within ±max(windowCm1, windowSigma·σ) of the peak, σ being its
+ * prediction σ ⊕ the peak's centre σ, so the search widens with the model's uncertainty. Ranking
+ * combines position and intensity into one score, like a χ²:
+ *   score = z² + (3·ln r / ln f)²,
+ * z = |peak − predicted| / σ, r the ratio of the
+ * observed height to the height the line's intensity predicts (once a height scale is known), or,
+ * before that, the strongest line in the window over this one (a weak line rarely makes a peak a
+ * strong one could), and f = intensityRatioMax: a height a factor f off (the assistant's limit of a
+ * plausible match) counts as much as a position 3σ off (its position tolerance). Ties break by
+ * intensity, strongest first. Without any σ the order is by |peak − predicted| with lines weaker
+ * than 1 % of the strongest in the window last. Such weak lines are flagged in either case.
+ * Source: common practice (assignment by prediction with an intensity check); the score is the
+ * sum of squared normalised deviations (Bevington & Robinson 2003 ch. 6, from memory).
  * @param lines predicted lines (positions cm^-1, relative intensities)
  * @param peakCm1 observed peak position, cm^-1
  */
 export function candidatesRank(lines: LineList, peakCm1: number, options: CandidatesRankOptions): Candidate[] {
   if (!Number.isFinite(peakCm1)) throw new Error(`candidatesRank: peakCm1 must be finite, got ${peakCm1}`);
   if (!(options.windowCm1 > 0)) throw new Error(`candidatesRank: windowCm1 must be > 0, got ${options.windowCm1}`);
-  const maxCount = options.maxCount ?? 9;
+  const maxCount = options.maxCount ?? 40;
   const minCount = options.minCount ?? 3;
+  const windowSigma = options.windowSigma ?? 5;
+  const peakSigma = options.peakSigmaCm1 ?? 0;
+  const sigmaOf = (i: number): number | null => {
+    if (!options.predictionSigmaCm1) return null;
+    const s = Math.hypot(options.predictionSigmaCm1(i), peakSigma);
+    return s > 0 && Number.isFinite(s) ? s : null;
+  };
   const inWindow: number[] = [];
   const all: { i: number; d: number }[] = [];
   for (let i = 0; i < lines.count; i++) {
+    if (options.isOffered && !options.isOffered(i)) continue;
     const d = Math.abs(peakCm1 - lines.wavenumberCm1[i]);
-    if (d <= options.windowCm1) inWindow.push(i);
+    const s = sigmaOf(i);
+    if (d <= Math.max(options.windowCm1, s === null ? 0 : windowSigma * s)) inWindow.push(i);
     else all.push({ i, d });
   }
   if (inWindow.length < minCount) {
@@ -75,15 +111,19 @@ export function candidatesRank(lines: LineList, peakCm1: number, options: Candid
   }
   let iMax = 0;
   for (const i of inWindow) iMax = Math.max(iMax, lines.intensity[i]);
-  const peakSigma = options.peakSigmaCm1 ?? 0;
+  const lnF = Math.log(options.intensityRatioMax ?? 5);
+  const scale = options.heightScale;
+  const hasScale = scale !== undefined && Number.isFinite(scale) && scale > 0 && options.peakHeight !== undefined;
   const cands: (Candidate & { score: number })[] = inWindow.map((i) => {
     const predictedCm1 = lines.wavenumberCm1[i];
     const distanceCm1 = peakCm1 - predictedCm1;
-    let distanceSigma: number | null = null;
-    if (options.predictionSigmaCm1) {
-      const s = Math.hypot(options.predictionSigmaCm1(i), peakSigma);
-      distanceSigma = s > 0 && Number.isFinite(s) ? Math.abs(distanceCm1) / s : null;
-    }
+    const s = sigmaOf(i);
+    const distanceSigma = s === null ? null : Math.abs(distanceCm1) / s;
+    const intensity = lines.intensity[i];
+    const heightRatio = hasScale && intensity > 0 ? options.peakHeight! / (scale! * intensity) : null;
+    const r = heightRatio ?? (intensity > 0 ? iMax / intensity : Infinity);
+    const intensityTerm = Number.isFinite(r) && r > 0 ? (INTENSITY_AT_LIMIT_SIGMA * Math.log(r)) / lnF : 1e3;
+    const z = distanceSigma ?? Math.abs(distanceCm1);
     const q = { jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i] };
     return {
       ...q,
@@ -91,14 +131,47 @@ export function candidatesRank(lines: LineList, peakCm1: number, options: Candid
       predictedCm1,
       distanceCm1,
       distanceSigma,
-      intensity: lines.intensity[i],
+      heightRatio,
+      intensity,
       labelAscii: lineLabelAscii(lines.deltaK[i], lines.deltaJ[i], q.kLower, q.jLower, options.shape),
       labelHtml: lineLabelHtml(lines.deltaK[i], lines.deltaJ[i], q.kLower, q.jLower, options.shape),
       isAssigned: options.assignedKeys?.has(quantaKey(q)) ?? false,
-      isWeak: lines.intensity[i] < 0.01 * iMax,
-      score: distanceSigma ?? Math.abs(distanceCm1),
+      isWeak: intensity < 0.01 * iMax,
+      score: z * z + intensityTerm * intensityTerm,
     };
   });
-  cands.sort((a, b) => Number(a.isWeak) - Number(b.isWeak) || a.score - b.score || b.intensity - a.intensity);
+  if (options.predictionSigmaCm1) cands.sort((a, b) => a.score - b.score || b.intensity - a.intensity);
+  // No σ at all: by distance in cm^-1, much weaker lines last (a distance in cm^-1 and an
+  // intensity ratio have no common scale).
+  else
+    cands.sort(
+      (a, b) => Number(a.isWeak) - Number(b.isWeak) || Math.abs(a.distanceCm1) - Math.abs(b.distanceCm1) || b.intensity - a.intensity,
+    );
   return cands.slice(0, maxCount).map(({ score: _score, ...c }) => c);
+}
+
+/** How many of the strongest peaks and lines the rough height scale matches. */
+const SCALE_GUESS_RANKS = 30;
+
+/**
+ * A rough peak height per unit relative intensity before any line is assigned: the median over
+ * k = 1…30 of (k-th highest peak) / (k-th strongest predicted line), matching the strongest peaks
+ * with the strongest lines by rank. Good to a factor of about two where the strong lines stand
+ * alone, worse in piled-up Q branches; used only until assignments give the scale.
+ * Source: derived here (a rank (quantile–quantile) match of two distributions, common practice).
+ * @param heights peak heights (absorbance)
+ * @param intensities relative intensities of the predicted lines
+ * @returns absorbance per unit relative intensity, NaN when either list is empty
+ */
+export function candidateHeightScaleGuess(heights: ArrayLike<number>, intensities: ArrayLike<number>): number {
+  const h = Array.from(heights)
+    .filter((v) => v > 0)
+    .sort((a, b) => b - a);
+  const l = Array.from(intensities)
+    .filter((v) => v > 0)
+    .sort((a, b) => b - a);
+  const n = Math.min(SCALE_GUESS_RANKS, h.length, l.length);
+  if (n === 0) return NaN;
+  const r = Array.from({ length: n }, (_, k) => h[k] / l[k]).sort((a, b) => a - b);
+  return n % 2 ? r[n >> 1] : 0.5 * (r[n / 2 - 1] + r[n / 2]);
 }

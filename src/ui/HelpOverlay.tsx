@@ -8,7 +8,10 @@ const KEYS: [string, string][] = [
   ['click a rung, then a peak', 'assign that line to that peak (the cursor then moves to the next J″)'],
   ['→ / ←', 'select the next / previous J″ of the selected series (starts at the strongest line)'],
   ['↑ / ↓', 'the same J″ in the series of the next / previous K″'],
-  ['A or Enter', 'assign the selected rung to the nearest peak (or the top candidate)'],
+  [
+    'A or Enter',
+    'assign the selected rung where exactly one peak matches within ±kσ (k in the toolbar; otherwise it says why), or the top candidate',
+  ],
   ['Z', 'zoom to the selected rung'],
   ['F', 'fit the assigned lines'],
   ['Delete', 'delete the selected assignment'],

@@ -1,11 +1,12 @@
 /**
  * The main plot's canvas overlay: paints the ladder panel (rungs, row names, assigned markers, the
  * selected rung) and the peak markers over plotly's axes whenever plotly has drawn or is panning;
- * shows a tooltip for what is under the pointer; turns clicks into rung, peak and trace clicks.
- * No decisions of its own.
+ * shows a tooltip for what is under the pointer; turns clicks into rung, peak and trace clicks,
+ * and a double-click into one zoom-out gesture. No decisions of its own.
  */
 import { useEffect, useImperativeHandle, useRef, type Ref } from 'react';
 import { lineLabelAscii } from '../physics/lineLabel';
+import { plotClickBegin, plotClickTakeBack } from '../state/actionsAssign';
 import type { LineList, TopShape } from '../physics/model';
 import {
   ladderHitTest,
@@ -44,7 +45,7 @@ export interface PlotOverlayProps {
   onPeakClick: (peakIndex: number) => void;
   /** A click in the trace panel away from any marker: position (cm^-1) and visible width (cm^-1). */
   onTraceClick: (positionCm1: number, visibleWidthCm1: number) => void;
-  /** A double-click on the plot away from markers and rungs. */
+  /** A double-click anywhere on the plot (its first click's effect has been taken back). */
   onDoubleClick: () => void;
 }
 
@@ -232,26 +233,43 @@ export function PlotOverlay(props: PlotOverlayProps) {
     // plotly covers the page while a button is down, so the browser's own click lands on the cover;
     // plotly then re-dispatches the click (untrusted) on its drag layer. That one is ours; a trusted
     // click that still reaches us (no cover on touch devices) is the same click and is skipped.
-    // Two clicks within DOUBLE_CLICK_MS and DOUBLE_CLICK_PX are a double-click: the second one zooms
-    // out (unless on a marker or rung) instead of acting again.
+    // Two clicks within DOUBLE_CLICK_MS and DOUBLE_CLICK_PX are a double-click, one gesture: zoom
+    // out. The first click has already acted (a click must answer at once), so the second takes
+    // that back (plotClickTakeBack) before zooming: a double-click never assigns, selects or
+    // leaves a candidate list open.
+    // The browser counts clicks on the input's own timing (UIEvent.detail of the mousedown, which
+    // lands on plotly's drag layer before the cover goes up): a busy page that re-dispatches the
+    // second click late still sees a double-click.
     let last = { x: NaN, y: NaN, t: -Infinity };
+    let downCount = 0;
+    const onDown = (e: MouseEvent) => {
+      if (e.isTrusted) downCount = e.detail;
+      hide();
+    };
     const onClick = (e: MouseEvent) => {
       if (e.isTrusted) return;
       if (!(e.target instanceof Element) || !e.target.closest('.plot-surface')) return;
-      const isDouble = Math.hypot(e.clientX - last.x, e.clientY - last.y) <= DOUBLE_CLICK_PX && e.timeStamp - last.t <= DOUBLE_CLICK_MS;
+      const isDouble =
+        downCount >= 2 ||
+        (Math.hypot(e.clientX - last.x, e.clientY - last.y) <= DOUBLE_CLICK_PX && e.timeStamp - last.t <= DOUBLE_CLICK_MS);
+      downCount = 0;
       last = isDouble ? { x: NaN, y: NaN, t: -Infinity } : { x: e.clientX, y: e.clientY, t: e.timeStamp };
-      const hit = hitAt(e);
-      if (!isDouble) hit?.act();
-      else if (!hit?.html) latest.current.onDoubleClick();
+      if (isDouble) {
+        plotClickTakeBack();
+        latest.current.onDoubleClick();
+        return;
+      }
+      plotClickBegin();
+      hitAt(e)?.act();
     };
     host.addEventListener('mousemove', onMove);
     host.addEventListener('mouseleave', hide);
-    host.addEventListener('mousedown', hide);
+    host.addEventListener('mousedown', onDown);
     host.addEventListener('click', onClick);
     return () => {
       host.removeEventListener('mousemove', onMove);
       host.removeEventListener('mouseleave', hide);
-      host.removeEventListener('mousedown', hide);
+      host.removeEventListener('mousedown', onDown);
       host.removeEventListener('click', onClick);
     };
   }, []);

@@ -1,5 +1,6 @@
-/** Controls above the plot: ordinate, overlays, peak threshold, zoom out, ladder rows. */
+/** Controls above the plot: ordinate, overlays, peak threshold, keyboard-walk tolerance, zoom out, ladder rows. */
 import { useMemo, useState } from 'react';
+import { walkToleranceSet } from '../state/actionsAssign';
 import { benchUpdate } from '../state/actionsCore';
 import { viewSet, viewSetHiddenRows, viewSetOrdinate, viewSetRowHidden, viewSetXRange } from '../state/actionsView';
 import type { Ladder } from '../physics/bandLadders';
@@ -16,6 +17,7 @@ export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
   const showPeaks = useBench((s) => s.showPeaks);
   const peakMinSnr = useBench((s) => s.peakMinSnr);
   const peakBaseline = useBench((s) => s.peakBaseline);
+  const walkTolerance = useBench((s) => s.walkToleranceSigma);
   const peakCount = useBench((s) => selectPeaks(s).peaks?.count ?? 0);
   const peakError = useBench((s) => selectPeaks(s).error);
   const hasTrace = useBench((s) => s.trace !== null);
@@ -63,6 +65,13 @@ export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
         />{' '}
         Baseline
       </label>
+      <NumberField
+        label="A-key walk ±σ"
+        className="narrow"
+        value={walkTolerance}
+        testId="walk-tolerance"
+        onCommit={(v) => walkToleranceSet(v)}
+      />
       <label className="check">
         <input
           type="checkbox"

@@ -203,9 +203,17 @@ export function SolvePanel() {
             <span>
               P = <b>{result.nParameters}</b>
             </span>
+            <span data-testid="fit-dof" title="Degrees of freedom: lines in the fit minus floated constants">
+              ν = N − P = <b>{result.nLines - result.nParameters}</b>
+            </span>
             <span>
               σ<sub>w</sub> = <b>{result.sigmaW === null ? 'n/a' : result.sigmaW.toPrecision(3)}</b>
             </span>
+            {result.sigmaW !== null && result.nParameters > 0 && (
+              <span className="muted" data-testid="fit-sigma-scaling">
+                {result.sigmaW > 1 ? 'σ scaled up by σ_w' : 'σ from the stated line uncertainties (not scaled down by σ_w < 1)'}
+              </span>
+            )}
             <span>
               rms = <b>{result.rmsCm1.toExponential(2)}</b> cm⁻¹
             </span>

@@ -1,7 +1,7 @@
 /**
  * The page's keyboard map: a key event becomes one action (nothing happens while typing in a field).
  */
-import { assignmentDelete, candidateAssign, cursorAssignNearest, cursorStep, cursorStepK, selectionClear } from '../state/actionsAssign';
+import { assignmentDelete, candidateAssign, cursorAssignMatched, cursorStep, cursorStepK, selectionClear } from '../state/actionsAssign';
 import { redo, undo, messagePost } from '../state/actionsCore';
 import { fitStart } from '../state/actionsFit';
 import { viewSet, viewZoomTo } from '../state/actionsView';
@@ -64,7 +64,7 @@ export function keyboardHandle(e: KeyboardEvent): boolean {
     case 'A':
     case 'Enter':
       if (s.candidateTarget) candidateAssign(0);
-      else cursorAssignNearest();
+      else cursorAssignMatched();
       return true;
     case 'f':
     case 'F':

@@ -87,14 +87,15 @@ describe('workbench page', () => {
     const rungLabel = hover.split('(')[0] + '(' + hover.split('(')[1].split(')')[0] + ')';
     expect(await page.locator('[data-testid=assignment-row] .line-label').allTextContents()).toContain(rungLabel);
 
-    // Keyboard: select the strongest rung, assign along its series.
+    // Keyboard: select the strongest rung and press A; with only the first guess the walk assigns
+    // where one peak matches within 3σ and otherwise says why (test/browser/assignSafety.test.ts).
     await page.locator('body').click({ position: { x: 2, y: 2 } });
     await page.keyboard.press('Escape');
     await page.keyboard.press('ArrowRight');
     await page.keyboard.press('a');
-    await page.keyboard.press('a');
-    await expect.poll(() => assignedCount(page)).toBeGreaterThanOrEqual(3);
+    await expect.poll(() => page.locator('[data-testid=messages]').textContent()).toMatch(/Assigned .*within 3σ|not assigned: /);
     const n = await assignedCount(page);
+    expect(n).toBeGreaterThanOrEqual(2);
 
     await page.waitForTimeout(800); // autosave runs 300 ms after the last change
     await page.reload();

@@ -65,6 +65,9 @@ describe('fit command (in process)', () => {
     }
     expect(json.nLines).toBe(150);
     expect(json.nParameters).toBe(10);
+    // Added keys: ν = N − P, and the covariance factor (σ_w² only when σ_w > 1).
+    expect(json.degreesOfFreedom).toBe(140);
+    expect(json.covarianceScale).toBe(json.sigmaW > 1 ? json.sigmaW ** 2 : 1);
     expect(json.residuals).toHaveLength(150);
     expect(json.residuals.every((x: unknown) => typeof x === 'number')).toBe(true);
     expect(json.lines[0]).toMatchObject({ J_up: 17, K_up: 1, J_lo: 17, K_lo: 0, isOutlier: expect.any(Boolean) });

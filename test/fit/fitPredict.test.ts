@@ -43,7 +43,8 @@ describe('fitPredict', () => {
       const r = fit(500 + seed);
       const p = fitPredict(r, q);
       preds.push(p.wavenumberCm1);
-      sigma += p.sigmaCm1 / r.sigmaW! / 200;
+      // Unscaled σ (the covariance is scaled by σ_w² only when σ_w > 1; see fitResultBuild).
+      sigma += p.sigmaCm1 / Math.max(1, r.sigmaW!) / 200;
     }
     const mean = preds.reduce((s, v) => s + v, 0) / preds.length;
     const sd = Math.sqrt(preds.reduce((s, v) => s + (v - mean) ** 2, 0) / (preds.length - 1));

@@ -101,3 +101,42 @@ describe('rankDiagnosis (through fitBand)', () => {
     expect(e.fixSuggested).toHaveLength(1);
   });
 });
+
+describe('rankDiagnosisStructural (through fitBand): structure before line count', () => {
+  // Same physics as above (Herzberg II (1945) ch. IV): ΔK = 0 lines depend on A′ and A″ only
+  // through A′ − A″, so no number of them determines both. With fewer lines than constants the
+  // refusal must say that, not ask for more lines.
+  it('gives the structural words, not "assign more lines", for A′ and A″ floated with 5 parallel-band lines', () => {
+    const truth = inventedModel('prolate', 'parallel');
+    const floated = ['upper.origin', 'upper.B', 'upper.A', 'lower.B', 'lower.A', 'upper.DJ', 'lower.DJ'];
+    // Three K″ = 1 and two K″ = 2 lines (two K values, so origin and A′ − A″ are separable).
+    const all = simulatedLines(truth, 400, 0.001, 3);
+    const lines = [...all.filter((l) => l.kLower === 1).slice(0, 3), ...all.filter((l) => l.kLower === 2).slice(0, 2)];
+    const e = refused({ model: truth, floated, lines });
+    expect(e.kind).toBe('underdetermined');
+    expect(e.parameters.sort()).toEqual(['lower.A', 'upper.A']);
+    expect(e.fixSuggested).toEqual(['lower.A']);
+    expect(e.message).toMatch(/only on A′ − A″/);
+    expect(e.message).toMatch(/cannot change this/);
+    expect(e.suggestion).not.toMatch(/more line/);
+    expectNoNumbers(e);
+  });
+
+  it('names A as unused when every one of the few lines has K = 0', () => {
+    const truth = inventedModel('prolate', 'parallel');
+    const k0 = simulatedLines(truth, 3000, 0.001, 4)
+      .filter((l) => l.kLower === 0)
+      .slice(0, 3);
+    const e = refused({ model: truth, floated: ['upper.origin', 'upper.B', 'lower.B', 'upper.A', 'upper.DJ'], lines: k0 });
+    expect(e.kind).toBe('unused-parameter');
+    expect(e.parameters).toEqual(['upper.A']);
+  });
+
+  it('still asks for more lines when more lines of the same kinds would determine the set', () => {
+    const truth = inventedModel('prolate', 'parallel');
+    const floated = ['upper.origin', 'upper.B', 'lower.B', 'upper.DJ', 'lower.DJ'];
+    const e = refused({ model: truth, floated, lines: simulatedLines(truth, 3, 0.001, 5) });
+    expect(e.kind).toBe('too-few-lines');
+    expect(e.suggestion).toMatch(/at least 2 more lines/);
+  });
+});

@@ -63,6 +63,8 @@ describe('fitReportMarkdown', () => {
     expect(md).toContain('Ladder Bench 0.1.0');
     expect(md).toContain(`N = ${result.nLines}`);
     expect(md).toContain(`σ_w = ${result.sigmaW!.toPrecision(4)}`);
+    expect(md).toContain(`Degrees of freedom ν = N − P = ${result.nLines - result.nParameters}`);
+    expect(md).toMatch(result.sigmaW! > 1 ? /scaled up by σ_w/ : /not scaled down by σ_w/);
     expect(md).toContain('# Fit report: Test &lt;script&gt;');
   });
 

@@ -96,6 +96,8 @@ function session(): ProjectSession {
           correlation: [[1]],
           nLines: 2,
           nParameters: 1,
+          degreesOfFreedom: 1,
+          covarianceScale: 1.4884,
           chi2: 1.5,
           rmsCm1: 1e-3,
           sigmaW: 1.22,

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { assignmentDeviation, assignmentsAdd, assignmentsRemove, assignmentsUpdate, peakIdAt } from '../../src/state/assignLogic';
+import {
+  assignmentDeviation,
+  assignmentsAdd,
+  assignmentsRemove,
+  assignmentsSplitAllowed,
+  assignmentsUpdate,
+  peakIdAt,
+} from '../../src/state/assignLogic';
 
 const q1 = { jUpper: 5, kUpper: 2, jLower: 4, kLower: 1 };
 const q2 = { jUpper: 6, kUpper: 2, jLower: 5, kLower: 1 };
@@ -74,5 +81,31 @@ describe('peakIdAt', () => {
   it('identifies a peak by its centre to 1e-5 cm^-1', () => {
     expect(peakIdAt(1000.123456)).toBe('pk1000.12346');
     expect(peakIdAt(1000.123456)).toBe(peakIdAt(1000.1234561));
+  });
+});
+
+describe('assignmentsSplitAllowed', () => {
+  // Selection rules of a perpendicular band of a symmetric top: ΔK = ±1, ΔJ = 0, ±1
+  // (Herzberg II (1945) ch. IV; Hollas (1998) sec. 6.2.4, from memory). ΔK = 2 and 4 cannot occur.
+  const perpendicular = { band: 'perpendicular' as const, shape: 'prolate' as const };
+  it('keeps allowed rows and refuses ΔK = 2 and ΔK = 4 rows, naming their file lines', () => {
+    const rows = [
+      { jUpper: 11, kUpper: 2, jLower: 12, kLower: 1 }, // rP1(12), ΔK = +1, allowed
+      { jUpper: 10, kUpper: 3, jLower: 11, kLower: 1 }, // ΔK = +2
+      { jUpper: 5, kUpper: 0, jLower: 4, kLower: 4 }, // ΔK = −4
+      { jUpper: 5, kUpper: 0, jLower: 4, kLower: 1 }, // ΔK = −1, allowed
+    ];
+    const { kept, refused } = assignmentsSplitAllowed(rows, [2, 3, 4, 5], perpendicular);
+    expect(kept).toEqual([rows[0], rows[3]]);
+    expect(refused.map((r) => r.lineNumber)).toEqual([3, 4]);
+    expect(refused[0].reason).toMatch(/ΔK = 2 is not allowed in a perpendicular band/);
+    expect(refused[1].reason).toMatch(/ΔK = -4 is not allowed/);
+  });
+
+  it('refuses K > J and keeps everything in an all-valid table', () => {
+    const { kept, refused } = assignmentsSplitAllowed([{ jUpper: 3, kUpper: 5, jLower: 4, kLower: 4 }], [7], perpendicular);
+    expect(kept).toEqual([]);
+    expect(refused).toEqual([{ lineNumber: 7, reason: expect.stringMatching(/K_up=5 exceeds J_up=3/) }]);
+    expect(assignmentsSplitAllowed([{ jUpper: 3, kUpper: 1, jLower: 3, kLower: 0 }], [2], perpendicular).refused).toEqual([]);
   });
 });

@@ -62,7 +62,37 @@ describe('candidatesRank', () => {
       Array.from({ length: 30 }, (_, i) => 100 + i * 0.001),
       Array(30).fill(1),
     );
-    expect(candidatesRank(many, 100, { windowCm1: 1, shape: 'prolate' }).length).toBe(9);
+    expect(candidatesRank(many, 100, { windowCm1: 1, shape: 'prolate' }).length).toBe(30);
+    expect(candidatesRank(many, 100, { windowCm1: 1, shape: 'prolate', maxCount: 9 }).length).toBe(9);
+  });
+
+  it('widens the window to 5σ of a poorly predicted line, so the right line is not cut off', () => {
+    // Peak at 100.00; the line at 100.40 lies outside the ±0.1 base window but its prediction σ is
+    // 0.1 cm^-1 (4σ away); the line at 100.30 has σ 0.01 (30σ) and stays out.
+    const l = lines([100.4, 100.3], [1, 1]);
+    const sig = [0.1, 0.01];
+    const c = candidatesRank(l, 100, { windowCm1: 0.1, minCount: 0, shape: 'prolate', predictionSigmaCm1: (i) => sig[i] });
+    expect(c.map((x) => x.lineIndex)).toEqual([0]);
+    expect(c[0].distanceSigma).toBeCloseTo(4, 12);
+  });
+
+  it('ranks by position and intensity together once the height scale is known', () => {
+    // Peak 100.000 of height 0.5; scale 1 absorbance per unit intensity. Line 0: 0.5σ off but
+    // predicted 50× too weak (intensity 0.01); line 1: 1.5σ off with the right height (0.5).
+    // Scores: line 0: 0.25 + (3 ln 50 / ln 5)² ≈ 52.8; line 1: 2.25 + 0 = 2.25, so line 1 first.
+    const l = lines([100.005, 99.985], [0.01, 0.5]);
+    const c = candidatesRank(l, 100, {
+      windowCm1: 0.1,
+      shape: 'prolate',
+      predictionSigmaCm1: () => 0.01,
+      peakHeight: 0.5,
+      heightScale: 1,
+    });
+    expect(c.map((x) => x.lineIndex)).toEqual([1, 0]);
+    expect(c[0].heightRatio).toBeCloseTo(1, 12);
+    expect(c[1].heightRatio).toBeCloseTo(50, 12);
+    // Offered lines only.
+    expect(candidatesRank(l, 100, { windowCm1: 0.1, shape: 'prolate', isOffered: (i) => i === 0 }).map((x) => x.lineIndex)).toEqual([0]);
   });
 
   it('marks lines already assigned', () => {

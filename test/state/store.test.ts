@@ -1,4 +1,6 @@
 import { beforeEach, describe, expect, it } from 'vitest';
+import { assistantPeakContext } from '../../src/analysis/assistantPeakContext';
+import { assistantCatalogue } from '../../src/analysis/assistantPredict';
 import { fitBand } from '../../src/fit/fitBand';
 import { transitionWavenumber } from '../../src/physics/termValues';
 import {
@@ -6,11 +8,14 @@ import {
   assignmentDelete,
   assignmentEdit,
   candidateAssign,
-  cursorAssignNearest,
+  cursorAssignMatched,
   cursorStep,
   peakClick,
+  plotClickBegin,
+  plotClickTakeBack,
   rungClick,
   selectCandidates,
+  walkToleranceSet,
 } from '../../src/state/actionsAssign';
 import { redo, undo } from '../../src/state/actionsCore';
 import { fitAccept, fitRevert, fitStart } from '../../src/state/actionsFit';
@@ -126,12 +131,22 @@ describe('assigning', () => {
     expect(s.cursor!.kLower).toBe(c.kLower);
   });
 
-  it('assigns the cursor rung to the nearest peak by key, and a Loomis–Wood click to the peak near it', () => {
+  it('walks by key only where one peak matches (declining with a reason otherwise), and a Loomis–Wood click assigns the peak near it', () => {
     loadSmall();
     cursorStep(1);
     cursorStep(-1);
     const c = benchStore.getState().cursor!;
-    expect(cursorAssignNearest()).toBe(true);
+    // No fit: first-guess σ = 0.2 B″ = 0.06 cm^-1 (the assistant's fallback), so ±3σ = ±0.18 cm^-1
+    // holds several peaks of this Q-branch pile: the walk declines, says why and stays put.
+    expect(cursorAssignMatched()).toBe(false);
+    expect(benchStore.getState().assignments).toEqual([]);
+    expect(benchStore.getState().cursor).toEqual(c);
+    expect(benchStore.getState().messages.at(-1)!.text).toMatch(/not assigned: .*peaks lie within 3σ/);
+    // The user narrows the tolerance to 0.5σ (±0.03 cm^-1): one peak is left, the rung's own.
+    expect(walkToleranceSet(0)).toMatch(/from 0.5 to 20/);
+    expect(walkToleranceSet(0.5)).toBeNull();
+    expect(cursorAssignMatched()).toBe(true);
+    expect(benchStore.getState().messages.at(-1)!.text).toMatch(/within 0.5σ = ±0.03\d* cm⁻¹, first-guess σ/);
     const a = benchStore.getState().assignments[0];
     const nu = transitionWavenumber(benchStore.getState().model, c.jUpper, c.kUpper, c.jLower, c.kLower);
     // Noise-free trace: the nearest peak is the rung's own line (peak centre within 0.002 cm^-1).
@@ -145,6 +160,34 @@ describe('assigning', () => {
     expect(benchStore.getState().assignments.length).toBe(2);
     expect(assignNearPosition(q, nu2 + 0.35, 1e-4)).toBe(false);
     expect(benchStore.getState().messages.at(-1)!.text).toMatch(/No peak within/);
+  });
+
+  it('a double-click is one gesture: its first click’s assignment, cursor step or candidate list is taken back', () => {
+    loadSmall();
+    cursorStep(1);
+    const c = benchStore.getState().cursor!;
+    const before = benchStore.getState();
+    // First click of a double-click on a peak with a rung selected: it assigns at once …
+    plotClickBegin();
+    peakClick(3);
+    expect(benchStore.getState().assignments.length).toBe(1);
+    // … and the second click takes it back, leaving nothing in the undo history.
+    plotClickTakeBack();
+    const after = benchStore.getState();
+    expect(after.assignments).toBe(before.assignments);
+    expect(after.past).toBe(before.past);
+    expect(after.cursor).toEqual(c);
+    // With no rung selected, the first click opens a candidate list; the second closes it, so a
+    // later rung click selects the rung instead of assigning it to the old peak.
+    benchStore.setState({ cursor: null });
+    plotClickBegin();
+    peakClick(3);
+    expect(benchStore.getState().candidateTarget).not.toBeNull();
+    plotClickTakeBack();
+    expect(benchStore.getState().candidateTarget).toBeNull();
+    rungClick(c);
+    expect(benchStore.getState().assignments).toEqual([]);
+    expect(benchStore.getState().cursor).toEqual(c);
   });
 
   it('flags a line assigned far from its prediction', () => {
@@ -226,7 +269,7 @@ describe('fitting', () => {
     expect(benchStore.getState().model).toBe(before);
   });
 
-  it("ranks candidates after a fit by distance in σ, with each line's σ the one the fit predicts for it", async () => {
+  it("ranks candidates after a fit by distance in σ, each line's σ the assistant's matching σ from the fit", async () => {
     loadSmall();
     // Twelve lines with noise of a few 1e-4 cm^-1, so the fit has a covariance and every σ_pred > 0.
     const band = selectBand(benchStore.getState());
@@ -250,11 +293,28 @@ describe('fitting', () => {
     const s = benchStore.getState();
     const cands = selectCandidates(s);
     const sigmas = selectPredictionSigmas(s)!;
+    const band2 = selectBand(s);
+    // The σ of each candidate is the assistant's matching σ (assistantCatalogue: fit σ widened by
+    // the Student factor, ⊕ residual scatter ⊕ width floor), built here independently.
+    const { peaks } = selectPeaks(s);
+    const fit = s.fitOutcome!.ok ? s.fitOutcome!.result : null;
+    const cat = assistantCatalogue({
+      model: fit!.model,
+      fit,
+      peaks: peaks!,
+      context: assistantPeakContext(peaks!),
+      minIntensity: s.minIntensity / 4,
+      widthFloorFraction: 0.1,
+      fallbackSigmaCm1: 0.2 * s.model.lower.B,
+    });
     expect(cands.length).toBeGreaterThan(0);
     for (const c of cands) {
-      const sigma = Math.hypot(sigmas[c.lineIndex], s.candidateTarget!.peakSigmaCm1);
+      const key = `${c.jUpper},${c.kUpper},${c.jLower},${c.kLower}`;
+      const sigma = Math.hypot(cat.toleranceSigmaCm1[cat.indexOf.get(key)!], s.candidateTarget!.peakSigmaCm1);
       // Same formula on the same numbers: equal to round-off.
       expect(c.distanceSigma).toBeCloseTo(Math.abs(c.distanceCm1) / sigma, 12);
+      // Never narrower than the fit's own propagated σ of that line.
+      expect(sigma).toBeGreaterThanOrEqual(sigmas[band2.indexOf.get(key)!]);
     }
   });
 
