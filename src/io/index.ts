@@ -1,4 +1,5 @@
 /** Public names of src/io (re-exports; one concept per file). */
+export * from './constantName';
 export * from './delimitedField';
 export * from './delimitedParse';
 export * from './delimitedParseNumeric';
@@ -10,6 +11,7 @@ export * from './jcampAsdf';
 export * from './jcampParse';
 export * from './lineTable';
 export * from './modelFile';
+export * from './numberFormat';
 export * from './projectFile';
 export * from './trace';
 export * from './traceAssemble';
