@@ -5,6 +5,7 @@ export * from './delimitedParse';
 export * from './delimitedParseNumeric';
 export * from './delimitedSniff';
 export * from './exportCsv';
+export * from './exportName';
 export * from './fitReport';
 export * from './inputLimits';
 export * from './jcampAsdf';
