@@ -3,6 +3,7 @@
  * files and the command line use ("upper.DJ"). Keys stay in files; only what is shown changes.
  * Pure: text in, text out.
  */
+import { MHZ_PER_CM1 } from '../physics/constants';
 import { PARAMETER_NAMES } from '../physics/model';
 
 /** The pieces of a constant's name: symbol, subscript and state prime. */
@@ -81,4 +82,30 @@ const KEY_PATTERN = new RegExp(`\\b(upper|lower)\\.(${[...PARAMETER_NAMES].sort(
  */
 export function constantKeysToNames(text: string): string {
   return text.replace(KEY_PATTERN, (key) => constantNameText(key));
+}
+
+/** Unit the rotational constants are shown in. */
+export type ConstantUnit = 'cm-1' | 'MHz';
+
+/**
+ * The unit a constant is shown in: ν₀ always cm⁻¹ (a band origin in MHz helps no one), ζ none, every
+ * other constant the chosen unit.
+ * @param key "side.name" or "name"
+ * @returns "cm⁻¹", "MHz" or "" (dimensionless)
+ */
+export function constantDisplayUnit(key: string, unit: ConstantUnit): string {
+  const name = key.slice(key.indexOf('.') + 1);
+  if (name === 'zeta') return '';
+  if (name === 'origin' || unit === 'cm-1') return 'cm⁻¹';
+  return 'MHz';
+}
+
+/**
+ * A constant (or its σ) in its display unit (constantDisplayUnit).
+ * Source: 1 cm⁻¹ = c · 1 cm⁻¹ = 29 979.2458 MHz (c exact, CODATA 2018).
+ * @param key "side.name" or "name"
+ * @param valueCm1 the value in cm⁻¹ (ζ dimensionless)
+ */
+export function constantToDisplayUnit(key: string, valueCm1: number, unit: ConstantUnit): number {
+  return constantDisplayUnit(key, unit) === 'MHz' ? valueCm1 * MHZ_PER_CM1 : valueCm1;
 }

@@ -27,11 +27,16 @@ export function modelSetConstant(side: ModelSide, name: ParameterName, value: nu
 }
 
 /**
- * Set a lower-state constant given in MHz.
+ * Set a constant given in MHz (lower state unless `side` says otherwise).
  * @param valueMhz MHz
  */
-export function modelSetConstantMhz(name: ParameterName, valueMhz: number): string | null {
-  return modelSetConstant('lower', name, valueMhz / wavenumberToMhz(1));
+export function modelSetConstantMhz(name: ParameterName, valueMhz: number, side: ModelSide = 'lower'): string | null {
+  return modelSetConstant(side, name, valueMhz / wavenumberToMhz(1));
+}
+
+/** Show the rotational constants (model panel, fit table) in cm⁻¹ or MHz; ν₀ stays in cm⁻¹ and ζ has no unit. */
+export function modelSetConstantUnit(unit: 'cm-1' | 'MHz'): void {
+  benchUpdate('constant unit', () => ({ constantUnit: unit }), { history: false });
 }
 
 /** Float or fix a constant in the fit. */
