@@ -4,6 +4,8 @@
  */
 import type { FitResult } from '../fit/fitTypes';
 import { lineLabelAscii } from '../physics/lineLabel';
+import { constantNameText } from './constantName';
+import { formatNumber, formatValueUncertainty } from './numberFormat';
 import type { TopShape } from '../physics/model';
 
 /** Context written into the report header. */
@@ -53,26 +55,10 @@ export function formatValueSigma(value: number, sigma: number | null): string {
   return `${m.toFixed(d)}(${Math.round((sigma / 10 ** e) * 10 ** d)})e${e}`;
 }
 
-const CONSTANT_WORDS: Record<string, string> = {
-  origin: 'band origin ν₀',
-  B: 'B',
-  A: 'A',
-  C: 'C',
-  DJ: 'D_J',
-  DJK: 'D_JK',
-  DK: 'D_K',
-  HJ: 'H_J',
-  HJK: 'H_JK',
-  HKJ: 'H_KJ',
-  HK: 'H_K',
-  zeta: 'Coriolis ζ',
-  q: 'l-doubling q',
-};
-
+/** A constant's name for the report: as the trade writes it, with its state ("D_J″ (lower)"). */
 function constantName(key: string): string {
-  const [side, name] = key.split('.');
-  const word = CONSTANT_WORDS[name] ?? name;
-  return `${word} ${side === 'upper' ? '(upper, ′)' : '(lower, ″)'}`;
+  const side = key.split('.')[0];
+  return `${constantNameText(key)} ${side === 'upper' ? '(upper)' : side === 'lower' ? '(lower)' : ''}`.trim();
 }
 
 /**
@@ -112,7 +98,7 @@ export function fitReportMarkdown(result: FitResult, shape: TopShape, info: FitR
     const status = p.fixed ? 'fixed' : 'floated';
     const sigma = p.fixed ? '' : p.sigma === null ? 'n/a' : p.sigma.toPrecision(3);
     out.push(
-      `| ${constantName(key)} | \`${key}\` | ${p.fixed ? String(p.value) : formatValueSigma(p.value, p.sigma)} | ${String(p.value)} | ${sigma} | ${status} |`,
+      `| ${constantName(key)} | \`${key}\` | ${p.fixed ? formatNumber(p.value, 12) : formatValueUncertainty(p.value, p.sigma)} | ${String(p.value)} | ${sigma} | ${status} |`,
     );
   }
   out.push('');

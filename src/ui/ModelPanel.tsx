@@ -140,8 +140,11 @@ export function ModelPanel() {
         <SpinWeights weights={model.spinWeights} />
         <NumberField label="Intensity cut" value={minIntensity} onCommit={modelSetMinIntensity} />
       </div>
-      <div className="unit-row">
-        <span className="muted small">Rotational constants in</span>
+      <div
+        className="unit-row"
+        title="One switch for every rotational constant here and in the fit table (value and σ); ν₀ stays in cm⁻¹ and ζ has no unit"
+      >
+        <span className="muted small">Constants in</span>
         <button
           type="button"
           className="unit-toggle"
@@ -149,9 +152,9 @@ export function ModelPanel() {
           aria-label={`Unit of the rotational constants: ${unit === 'cm-1' ? 'cm⁻¹' : 'MHz'}; switch to ${unit === 'cm-1' ? 'MHz' : 'cm⁻¹'}`}
           data-testid="lower-unit"
         >
-          {unit === 'cm-1' ? 'cm⁻¹' : 'MHz'}
+          {unit === 'cm-1' ? 'cm⁻¹' : 'MHz'} ⇄
         </button>
-        <span className="muted small">(ν₀ in cm⁻¹, ζ without unit; also in the fit table)</span>
+        <span className="muted small">(ν₀ always cm⁻¹)</span>
       </div>
       <table className="constants">
         <caption className="visually-hidden">Constants of the lower and upper state; tick "fit" to float a constant</caption>
@@ -164,7 +167,9 @@ export function ModelPanel() {
         </colgroup>
         <thead>
           <tr>
-            <th scope="col">Constant</th>
+            <th scope="col">
+              <span className="visually-hidden">Constant</span>
+            </th>
             <th scope="col">Lower ″ / {unitText}</th>
             <th scope="col" title="Float in the fit">
               fit
