@@ -30,31 +30,6 @@ export function markdownEscape(text: string): string {
     .replace(/[\r\n]+/g, ' ');
 }
 
-/**
- * A value with its 1σ in the compact notation value(σ): σ rounded to two significant digits and
- * the value to the same decimal place, e.g. (1148.6001234, 0.0000153) → "1148.600123(15)".
- * Source: BIPM JCGM 100:2008 (GUM) §7.2.2, notation of the standard uncertainty in parentheses.
- * @param value the value
- * @param sigma its 1σ (> 0); null or 0 gives the value alone to 10 significant digits
- */
-export function formatValueSigma(value: number, sigma: number | null): string {
-  if (!Number.isFinite(value)) return String(value);
-  if (sigma === null || !(sigma > 0) || !Number.isFinite(sigma)) return String(Number(value.toPrecision(10)));
-  const exp = Math.floor(Math.log10(sigma));
-  let decimals = 1 - exp; // two significant digits of σ
-  let digits = Math.round(sigma * 10 ** decimals);
-  if (digits >= 100) {
-    decimals -= 1;
-    digits = Math.round(sigma * 10 ** decimals);
-  }
-  if (decimals >= 0 && decimals <= 20) return `${value.toFixed(decimals)}(${digits})`;
-  // σ of 100 or more: write both in exponent form with the same exponent.
-  const e = Math.floor(Math.log10(Math.abs(value) || sigma));
-  const m = value / 10 ** e;
-  const d = Math.max(0, e - exp + 1);
-  return `${m.toFixed(d)}(${Math.round((sigma / 10 ** e) * 10 ** d)})e${e}`;
-}
-
 /** A constant's name for the report: as the trade writes it, with its state ("D_J″ (lower)"). */
 function constantName(key: string): string {
   const side = key.split('.')[0];

@@ -254,25 +254,27 @@ export function AssignmentsTable() {
   const present = useMemo(() => new Set(rows.map((r) => r.a.id)), [rows]);
   const live = useMemo(() => [...checked].filter((id) => present.has(id)), [checked, present]);
   const shownChecked = useMemo(() => shown.reduce((n, r) => n + (checked.has(r.a.id) ? 1 : 0), 0), [shown, checked]);
-  const onCheck = useCallback(
-    (id: string, isOn: boolean, isRange: boolean) => {
-      setChecked((prev) => {
-        const next = new Set(prev);
-        const to = shown.findIndex((r) => r.a.id === id);
-        const from = isRange && anchor.current !== null ? shown.findIndex((r) => r.a.id === anchor.current) : -1;
-        if (from >= 0 && to >= 0) {
-          for (let i = Math.min(from, to); i <= Math.max(from, to); i++) {
-            if (isOn) next.add(shown[i].a.id);
-            else next.delete(shown[i].a.id);
-          }
-        } else if (isOn) next.add(id);
-        else next.delete(id);
-        return next;
-      });
-      anchor.current = id;
-    },
-    [shown],
-  );
+  // The rows in their shown order, read when a box is ticked: onCheck stays the same function, so a
+  // new assignment does not re-render every memoised row for a new callback.
+  const shownRef = useRef(shown);
+  shownRef.current = shown;
+  const onCheck = useCallback((id: string, isOn: boolean, isRange: boolean) => {
+    const shown = shownRef.current;
+    setChecked((prev) => {
+      const next = new Set(prev);
+      const to = shown.findIndex((r) => r.a.id === id);
+      const from = isRange && anchor.current !== null ? shown.findIndex((r) => r.a.id === anchor.current) : -1;
+      if (from >= 0 && to >= 0) {
+        for (let i = Math.min(from, to); i <= Math.max(from, to); i++) {
+          if (isOn) next.add(shown[i].a.id);
+          else next.delete(shown[i].a.id);
+        }
+      } else if (isOn) next.add(id);
+      else next.delete(id);
+      return next;
+    });
+    anchor.current = id;
+  }, []);
 
   return (
     <div className="assignments">

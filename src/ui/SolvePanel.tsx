@@ -120,7 +120,7 @@ function ResidualPlot({ result, lineIds }: { result: FitResult; lineIds: string[
         <PlotlyChart
           data={fig.data}
           layout={fig.layout}
-          label="Residuals obs − calc against J″, coloured by K″; click a point to select its line"
+          label="Residuals obs − calc against J″, one series per sub-branch: colour by K″ and ΔK, marker by branch (P ◀, Q ●, R ▶); click a point to select its line"
           className="residual-plot"
           testId="residual-plot"
           onClick={(e) => {
