@@ -75,9 +75,8 @@ function XRangeFields() {
         <span className="visually-hidden">Zoom to (cm⁻¹)</span>
         <input type="text" inputMode="decimal" value={to} onChange={(e) => edit(1, e.target.value)} onKeyDown={onKey} data-testid="x-to" />
       </label>
-      <span className="muted">cm⁻¹</span>
-      <button type="submit" data-testid="x-zoom">
-        Zoom
+      <button type="submit" data-testid="x-zoom" title="Zoom to this range (or press Enter in a field)">
+        cm⁻¹ ↵
       </button>
       {error && (
         <span className="field-error" role="alert">
@@ -109,17 +108,13 @@ export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
 
   return (
     <div className="plot-toolbar" role="toolbar" aria-label="Plot settings">
-      <fieldset className="segmented">
-        <legend className="visually-hidden">Ordinate</legend>
-        <label>
-          <input type="radio" name="ordinate" checked={ordinate === 'transmittance'} onChange={() => viewSetOrdinate('transmittance')} />
-          Transmittance
-        </label>
-        <label>
-          <input type="radio" name="ordinate" checked={ordinate === 'absorbance'} onChange={() => viewSetOrdinate('absorbance')} />
-          Absorbance
-        </label>
-      </fieldset>
+      <label>
+        <span className="visually-hidden">Ordinate</span>
+        <select value={ordinate} onChange={(e) => viewSetOrdinate(e.target.value as 'absorbance' | 'transmittance')}>
+          <option value="transmittance">Transmittance</option>
+          <option value="absorbance">Absorbance</option>
+        </select>
+      </label>
       <label className="check">
         <input type="checkbox" checked={showPeaks} onChange={(e) => viewSet('showPeaks', e.target.checked)} /> Peaks (
         {peakCount.toLocaleString('en')})
