@@ -4,6 +4,8 @@
  */
 import type { FitResult } from '../fit/fitTypes';
 import { lineLabelAscii } from '../physics/lineLabel';
+import { constantNameText } from './constantName';
+import { formatNumber, formatValueUncertainty } from './numberFormat';
 import type { TopShape } from '../physics/model';
 
 /** Context written into the report header. */
@@ -28,51 +30,10 @@ export function markdownEscape(text: string): string {
     .replace(/[\r\n]+/g, ' ');
 }
 
-/**
- * A value with its 1σ in the compact notation value(σ): σ rounded to two significant digits and
- * the value to the same decimal place, e.g. (1148.6001234, 0.0000153) → "1148.600123(15)".
- * Source: BIPM JCGM 100:2008 (GUM) §7.2.2, notation of the standard uncertainty in parentheses.
- * @param value the value
- * @param sigma its 1σ (> 0); null or 0 gives the value alone to 10 significant digits
- */
-export function formatValueSigma(value: number, sigma: number | null): string {
-  if (!Number.isFinite(value)) return String(value);
-  if (sigma === null || !(sigma > 0) || !Number.isFinite(sigma)) return String(Number(value.toPrecision(10)));
-  const exp = Math.floor(Math.log10(sigma));
-  let decimals = 1 - exp; // two significant digits of σ
-  let digits = Math.round(sigma * 10 ** decimals);
-  if (digits >= 100) {
-    decimals -= 1;
-    digits = Math.round(sigma * 10 ** decimals);
-  }
-  if (decimals >= 0 && decimals <= 20) return `${value.toFixed(decimals)}(${digits})`;
-  // σ of 100 or more: write both in exponent form with the same exponent.
-  const e = Math.floor(Math.log10(Math.abs(value) || sigma));
-  const m = value / 10 ** e;
-  const d = Math.max(0, e - exp + 1);
-  return `${m.toFixed(d)}(${Math.round((sigma / 10 ** e) * 10 ** d)})e${e}`;
-}
-
-const CONSTANT_WORDS: Record<string, string> = {
-  origin: 'band origin ν₀',
-  B: 'B',
-  A: 'A',
-  C: 'C',
-  DJ: 'D_J',
-  DJK: 'D_JK',
-  DK: 'D_K',
-  HJ: 'H_J',
-  HJK: 'H_JK',
-  HKJ: 'H_KJ',
-  HK: 'H_K',
-  zeta: 'Coriolis ζ',
-  q: 'l-doubling q',
-};
-
+/** A constant's name for the report: as the trade writes it, with its state ("D_J″ (lower)"). */
 function constantName(key: string): string {
-  const [side, name] = key.split('.');
-  const word = CONSTANT_WORDS[name] ?? name;
-  return `${word} ${side === 'upper' ? '(upper, ′)' : '(lower, ″)'}`;
+  const side = key.split('.')[0];
+  return `${constantNameText(key)} ${side === 'upper' ? '(upper)' : side === 'lower' ? '(lower)' : ''}`.trim();
 }
 
 /**
@@ -119,7 +80,7 @@ export function fitReportMarkdown(result: FitResult, shape: TopShape, info: FitR
     const status = p.fixed ? 'fixed' : 'floated';
     const sigma = p.fixed ? '' : p.sigma === null ? 'n/a' : p.sigma.toPrecision(3);
     out.push(
-      `| ${constantName(key)} | \`${key}\` | ${p.fixed ? String(p.value) : formatValueSigma(p.value, p.sigma)} | ${String(p.value)} | ${sigma} | ${status} |`,
+      `| ${constantName(key)} | \`${key}\` | ${p.fixed ? formatNumber(p.value, 12) : formatValueUncertainty(p.value, p.sigma)} | ${String(p.value)} | ${sigma} | ${status} |`,
     );
   }
   out.push('');

@@ -58,6 +58,8 @@ export interface ProjectSession {
   modelName: string;
   /** amu */
   massAmu: number;
+  /** Where the mass came from: 'default' (never set: not written into an exported model file), 'file' or 'user'. Optional (added later). */
+  massSource?: 'default' | 'file' | 'user';
   /** cm^-1 */
   lorentzHwhmCm1: number;
   minIntensity: number;
@@ -270,6 +272,7 @@ const FIELD_SCHEMAS = {
   floated: z.array(z.string().regex(/^(lower|upper)\.[A-Za-z]+$/, 'a key such as "upper.B"')),
   modelName: z.string().max(500),
   massAmu: z.number().refine((m) => Number.isFinite(m) && m > 0, 'a mass > 0 amu'),
+  massSource: z.enum(['default', 'file', 'user']),
   lorentzHwhmCm1: z.number().refine((m) => Number.isFinite(m) && m >= 0, 'a width >= 0 cm^-1'),
   minIntensity: z.number().min(0).max(1),
   symmetry: z.object({ pointGroup: z.string(), species: z.string() }).nullable(),
@@ -287,6 +290,9 @@ const FIELD_SCHEMAS = {
 } as const;
 
 type FieldName = keyof typeof FIELD_SCHEMAS;
+
+/** Fields added after version 2 was first written: a file without them is complete, and says nothing. */
+const FIELDS_ADDED_LATER: ReadonlySet<FieldName> = new Set(['massSource']);
 
 function issueText(issue: z.core.$ZodIssue): string {
   const path = issue.path.map((p) => (typeof p === 'number' ? `[${p}]` : `.${String(p)}`)).join('');
@@ -489,7 +495,8 @@ export function projectFileParse(text: string, parts: Partial<Record<ProjectPart
   }
   for (const name of Object.keys(FIELD_SCHEMAS) as FieldName[]) {
     if (!(name in raw)) {
-      if (version === PROJECT_VERSION) messages.push(`field 'session.${name}' is missing; the default is used`);
+      if (version === PROJECT_VERSION && !FIELDS_ADDED_LATER.has(name))
+        messages.push(`field 'session.${name}' is missing; the default is used`);
       continue;
     }
     if (name === 'assignments' && Array.isArray(raw[name])) {

@@ -462,8 +462,11 @@ export function assignmentSelect(id: string | null, zoom = true): void {
 export function assignmentEdit(id: string, patch: AssignmentPatch): string | null {
   const field = Object.keys(patch).join(',');
   try {
-    const list = assignmentsUpdate(benchStore.getState().assignments, id, patch);
-    benchUpdate(`edit ${field} of ${id}`, () => ({ assignments: list }), {
+    const s = benchStore.getState();
+    const list = assignmentsUpdate(s.assignments, id, patch);
+    const a = list.find((x) => x.id === id)!;
+    // Undo labels name the line, never the internal id.
+    benchUpdate(`edit ${field} of ${quantaLabel(a, s.model.shape)}`, () => ({ assignments: list }), {
       history: true,
       coalesce: field === 'note' || field === 'uncertaintyCm1',
     });
@@ -473,11 +476,18 @@ export function assignmentEdit(id: string, patch: AssignmentPatch): string | nul
   }
 }
 
+/** The line label of an assignment for an undo label ("rQ3(12)"), or "an assignment". */
+function deletedName(id: string): string {
+  const s = benchStore.getState();
+  const a = s.assignments.find((x) => x.id === id);
+  return a ? quantaLabel(a, s.model.shape) : 'an assignment';
+}
+
 /** Delete assignments (one undo step). */
 export function assignmentDelete(ids: readonly string[]): void {
   if (ids.length === 0) return;
   benchUpdate(
-    ids.length === 1 ? `delete ${ids[0]}` : `delete ${ids.length} assignments`,
+    ids.length === 1 ? `delete ${deletedName(ids[0])}` : `delete ${ids.length} assignments`,
     (s) => ({
       assignments: assignmentsRemove(s.assignments, ids),
       selectedAssignmentId: ids.includes(s.selectedAssignmentId ?? '') ? null : s.selectedAssignmentId,

@@ -13,6 +13,11 @@ export interface UpdateOptions {
   history: boolean;
   /** Merge with the previous step when it has the same label (typing in one field). @default false */
   coalesce?: boolean;
+  /**
+   * Further store fields this change replaces that undo must put back (e.g. the model's name with a
+   * model file, every session field with a project). Their old values go into the undo step.
+   */
+  extraKeys?: readonly (keyof BenchState)[];
 }
 
 /**
@@ -28,11 +33,12 @@ export function benchUpdate(label: string, recipe: (s: BenchState) => Partial<Be
     return;
   }
   const after = { ...before, ...patch };
-  if (!historyChanged(before, after)) {
+  const extraKeys = options.extraKeys ?? [];
+  if (!historyChanged(before, after) && !extraKeys.some((k) => before[k] !== after[k])) {
     benchStore.setState(patch);
     return;
   }
-  benchStore.setState({ ...patch, ...historyRecord(before, before, label, options.coalesce) });
+  benchStore.setState({ ...patch, ...historyRecord(before, before, label, options.coalesce, extraKeys) });
 }
 
 /** Undo the last model edit or assignment change. @returns the label undone, or null */
@@ -41,7 +47,7 @@ export function undo(): string | null {
   const r = historyUndo(s, s);
   if (!r) return null;
   const { label, ...fields } = r;
-  benchStore.setState({ ...fields, candidateTarget: null });
+  benchStore.setState({ ...(fields as Partial<BenchState>), candidateTarget: null });
   return label;
 }
 
@@ -51,7 +57,7 @@ export function redo(): string | null {
   const r = historyRedo(s, s);
   if (!r) return null;
   const { label, ...fields } = r;
-  benchStore.setState({ ...fields, candidateTarget: null });
+  benchStore.setState({ ...(fields as Partial<BenchState>), candidateTarget: null });
   return label;
 }
 

@@ -4,6 +4,7 @@
  */
 import { fitKeyParse } from '../fit/bandDesign';
 import type { FitInput, FitOutcome } from '../fit/fitTypes';
+import { constantKeysToNames } from '../io/constantName';
 import type { BandModel, ParameterName } from '../physics/model';
 import { solverFit } from '../workers/solverClient';
 import { benchUpdate, messagePost } from './actionsCore';
@@ -32,7 +33,8 @@ export function fitInputOf(s: Pick<BenchState, 'model' | 'floated' | 'assignment
 export function fitOutcomeSummary(outcome: FitOutcome): string {
   if (!outcome.ok) {
     const e = outcome.error;
-    return `The fit was refused: ${e.message}${e.suggestion ? ` Suggestion: ${e.suggestion}` : ''}`;
+    // Constants named as on the page (D_J′), not by their file keys (upper.DJ).
+    return `The fit was refused: ${constantKeysToNames(e.message)}${e.suggestion ? ` Suggestion: ${constantKeysToNames(e.suggestion)}` : ''}`;
   }
   const r = outcome.result;
   const sw = r.sigmaW === null ? 'exactly determined' : `σ_w = ${r.sigmaW.toPrecision(3)}`;

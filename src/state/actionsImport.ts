@@ -15,6 +15,7 @@ import { assignmentsMarkBlends, assignmentsSplitAllowed } from './assignLogic';
 import { benchUpdate, messagePost } from './actionsCore';
 import { modelLoadText, modelReplace } from './actionsModel';
 import { projectImport } from './actionsProject';
+import { confirmAsk } from './actionsSession';
 import { demoFallbackTrace } from './demoFallback';
 import { benchStore } from './store';
 import type { TraceSource } from './spectrumSlice';
@@ -189,9 +190,23 @@ export async function fileOpen(file: File): Promise<boolean> {
   const headDecoded = textDecode(new Uint8Array(await file.slice(0, 4096).arrayBuffer()));
   const head = headDecoded.ok ? headDecoded.text : '';
   const kind = droppedKind(head, file.name);
-  if (kind === 'trace') return traceImport(file, file.name);
+  if (kind === 'trace') return traceOpenAsking(file, file.name);
   // A project is read in the parse worker, file and all (its trace makes it large).
-  if (kind === 'project') return projectImport(file, file.name);
+  if (kind === 'project') {
+    const n = benchStore.getState().assignments.length;
+    if (n > 0) {
+      const choice = await confirmAsk({
+        title: `Open the project ${file.name}?`,
+        text: `It replaces the current session: the trace, the model, the ${n} assignment${n === 1 ? '' : 's'} and the fit. Undo (Ctrl+Z) brings the current session back.`,
+        choices: [{ id: 'open', label: 'Open and replace the session' }],
+      });
+      if (choice !== 'open') {
+        messagePost('info', `${file.name} was not opened; the session is unchanged.`);
+        return false;
+      }
+    }
+    return projectImport(file, file.name);
+  }
   const decoded = textDecode(new Uint8Array(await file.arrayBuffer()));
   if (!decoded.ok) {
     messagePost('error', `Could not read ${file.name}: ${sentence(decoded.message)} Nothing was changed.`);
@@ -200,6 +215,48 @@ export async function fileOpen(file: File): Promise<boolean> {
   const text = decoded.text;
   if (kind === 'model') return modelLoadText(text, file.name);
   return lineTableLoadText(text, file.name);
+}
+
+/**
+ * Load another trace chosen by the user. When assignments exist, asks first whether to keep them
+ * (their observed positions stay those measured on the previous trace) or clear them (with the fit;
+ * one undo step), and says afterwards which it did. Cancelling loads nothing.
+ * @returns true when the trace was replaced
+ */
+export async function traceOpenAsking(file: File | Blob | string, fileName: string): Promise<boolean> {
+  const n = benchStore.getState().assignments.length;
+  let isClearing = false;
+  if (n > 0) {
+    const choice = await confirmAsk({
+      title: `Load the trace ${fileName}?`,
+      text: `There ${n === 1 ? 'is 1 assignment' : `are ${n} assignments`} on the current trace. Keep them (their observed positions stay those of the current trace, so check them against the new one), or clear them with the fit (Undo brings them back).`,
+      choices: [
+        { id: 'keep', label: `Load and keep the ${n} assignment${n === 1 ? '' : 's'}` },
+        { id: 'clear', label: 'Load and clear the assignments' },
+      ],
+    });
+    if (choice === null) {
+      messagePost('info', `${fileName} was not loaded; the trace and assignments are unchanged.`);
+      return false;
+    }
+    isClearing = choice === 'clear';
+  }
+  const isLoaded = await traceImport(file, fileName);
+  if (!isLoaded || n === 0) return isLoaded;
+  if (isClearing) {
+    benchUpdate(
+      `clear ${n} assignments`,
+      () => ({ assignments: [], selectedAssignmentId: null, cursor: null, fitOutcome: null, fitLineIds: [], fitFinishedAt: null }),
+      { history: true, extraKeys: ['fitOutcome', 'fitLineIds', 'fitFinishedAt'] },
+    );
+    messagePost('info', `The ${n} assignments of the previous trace were cleared with the fit; Undo brings them back.`);
+  } else {
+    messagePost(
+      'warning',
+      `The ${n} assignments of the previous trace were kept; their observed positions are from that trace, so check them against ${fileName}.`,
+    );
+  }
+  return true;
 }
 
 /**

@@ -6,7 +6,7 @@ import { bandTypeFromSymmetry } from '../physics/bandSymmetry';
 import { wavenumberToMhz } from '../physics/constants';
 import type { BandModel, BandType, ParameterName, TopShape } from '../physics/model';
 import { benchUpdate, messagePost } from './actionsCore';
-import type { ModelSymmetry } from './modelSlice';
+import { MASS_DEFAULT_AMU, type ModelSymmetry } from './modelSlice';
 
 /** Which state a constant belongs to. */
 export type ModelSide = 'lower' | 'upper';
@@ -27,11 +27,16 @@ export function modelSetConstant(side: ModelSide, name: ParameterName, value: nu
 }
 
 /**
- * Set a lower-state constant given in MHz.
+ * Set a constant given in MHz (lower state unless `side` says otherwise).
  * @param valueMhz MHz
  */
-export function modelSetConstantMhz(name: ParameterName, valueMhz: number): string | null {
-  return modelSetConstant('lower', name, valueMhz / wavenumberToMhz(1));
+export function modelSetConstantMhz(name: ParameterName, valueMhz: number, side: ModelSide = 'lower'): string | null {
+  return modelSetConstant(side, name, valueMhz / wavenumberToMhz(1));
+}
+
+/** Show the rotational constants (model panel, fit table) in cm⁻¹ or MHz; ν₀ stays in cm⁻¹ and ζ has no unit. */
+export function modelSetConstantUnit(unit: 'cm-1' | 'MHz'): void {
+  benchUpdate('constant unit', () => ({ constantUnit: unit }), { history: false });
 }
 
 /** Float or fix a constant in the fit. */
@@ -132,7 +137,9 @@ export function modelSetSpinWeights(text: string): string | null {
 export function modelSetSimulation(field: 'massAmu' | 'lorentzHwhmCm1', value: number): string | null {
   if (field === 'massAmu' && !(value > 0 && Number.isFinite(value))) return `mass must be a number > 0 amu, got ${value}`;
   if (field === 'lorentzHwhmCm1' && !(value >= 0 && Number.isFinite(value))) return `Lorentz HWHM must be a number >= 0 cm⁻¹, got ${value}`;
-  benchUpdate(`edit ${field}`, () => ({ [field]: value }), { history: false });
+  benchUpdate(`edit ${field}`, () => (field === 'massAmu' ? { massAmu: value, massSource: 'user' } : { [field]: value }), {
+    history: false,
+  });
   return null;
 }
 
@@ -143,20 +150,32 @@ export function modelSetMinIntensity(value: number): string | null {
   return null;
 }
 
-/** Replace the whole model (e.g. from a model file); one undo step. */
+/**
+ * Replace the whole model (e.g. from a model file); one undo step, which also puts back the previous
+ * model's name and mass. A file without a mass keeps a mass the user typed, and otherwise returns to
+ * the default (so a mass from the previous file is not carried over into the next export).
+ */
 export function modelReplace(file: Pick<ModelFile, 'model' | 'floated' | 'name' | 'massAmu'>, label: string): void {
   benchUpdate(
     label,
-    (s) => ({
-      model: file.model,
-      floated: file.floated,
-      modelName: file.name ?? s.modelName,
-      massAmu: file.massAmu ?? s.massAmu,
-      symmetry: null,
-      isFitAccepted: false,
-      modelBeforeAccept: null,
-    }),
-    { history: true },
+    (s) => {
+      const mass =
+        file.massAmu !== undefined
+          ? { massAmu: file.massAmu, massSource: 'file' as const }
+          : s.massSource === 'user'
+            ? {}
+            : { massAmu: MASS_DEFAULT_AMU, massSource: 'default' as const };
+      return {
+        model: file.model,
+        floated: file.floated,
+        modelName: file.name ?? s.modelName,
+        ...mass,
+        symmetry: null,
+        isFitAccepted: false,
+        modelBeforeAccept: null,
+      };
+    },
+    { history: true, extraKeys: ['modelName', 'massAmu', 'massSource', 'isFitAccepted', 'modelBeforeAccept'] },
   );
 }
 

@@ -13,8 +13,9 @@ import {
 } from '../io/projectFile';
 import { projectReadInWorker, projectWriteInWorker } from '../workers/parseClient';
 import { messagePost } from './actionsCore';
+import { sessionReplaceFrom } from './actionsSession';
 import { sessionOf, stateFromSession } from './session';
-import { benchStore } from './store';
+import { benchStore, type BenchState } from './store';
 
 /** Reads project-file text (or a file) as `projectFileParse` does; the worker in the page. */
 export type ProjectReader = (
@@ -67,17 +68,21 @@ export function projectExportTextAsync(appVersion: string, savedAt: string = new
 
 /**
  * Make a read project file the session, or say why it could not be read (the session is then unchanged).
- * Undo history starts afresh (the project is a new starting point).
+ * Opening is one undo step: Undo brings back the session that was replaced, trace and all.
+ * @param before the state to come back to on undo @default the current state
  * @returns true when loaded
  */
-export function projectApply(r: ProjectFileOutcome, fileName: string): boolean {
+export function projectApply(r: ProjectFileOutcome, fileName: string, before: BenchState = benchStore.getState()): boolean {
   if (!r.ok) {
     messagePost('error', `Could not open ${fileName}: ${r.message}. The current session is unchanged.`);
     return false;
   }
-  benchStore.setState(stateFromSession(r.session));
+  sessionReplaceFrom(before, stateFromSession(r.session), `open project ${fileName}`);
   for (const m of r.messages) messagePost('warning', `${fileName}: ${m}`);
-  messagePost('info', `Project ${fileName} opened (${r.session.assignments?.length ?? 0} assignments).`);
+  messagePost(
+    'info',
+    `Project ${fileName} opened (${r.session.assignments?.length ?? 0} assignments). Undo brings the previous session back.`,
+  );
   return true;
 }
 
@@ -94,7 +99,7 @@ let openSerial = 0;
 
 /**
  * Replace the session with a project file's content, read by the project reader (the worker in the
- * page; this thread only applies the result). A file that cannot be read, or a reader that fails,
+ * page; this thread only applies the result); one undo step. A file that cannot be read, or a reader that fails,
  * changes nothing; when a second project is opened before the first is read, only the second is applied.
  * @param file the file, or its text
  * @param fileName shown in messages (untrusted text)
@@ -119,11 +124,13 @@ export async function projectImport(file: File | Blob | string, fileName: string
   // Applied in two tasks: the trace, model and view first, the assignments and fit in the next task
   // (with 5,000 assignments, one update rendering both was a main-thread task over 100 ms).
   const { session } = r;
+  const before = benchStore.getState();
   const deferred = { assignments: session.assignments, fit: session.fit, nextAssignmentNumber: session.nextAssignmentNumber };
-  const first = stateFromSession({ ...session, assignments: [], fit: undefined });
+  // The undo history stays as it was until the second task records the whole opening as one step.
+  const { past: _past, future: _future, ...first } = stateFromSession({ ...session, assignments: [], fit: undefined });
   benchStore.setState(first);
   await new Promise((resolve) => setTimeout(resolve, 0));
   // Another project (or file) replaced this one meanwhile: leave it.
   if (serial !== openSerial || benchStore.getState().trace !== first.trace || benchStore.getState().model !== first.model) return false;
-  return projectApply({ ...r, session: { ...session, ...deferred } }, fileName);
+  return projectApply({ ...r, session: { ...session, ...deferred } }, fileName, before);
 }

@@ -18,6 +18,11 @@ export interface ModelSlice {
   modelName: string;
   /** Molecular mass for the Doppler width of the simulated spectrum, amu. */
   massAmu: number;
+  /**
+   * Where the mass came from: 'default' (never set; used for the simulation only and not written
+   * into an exported model file), a model 'file', or typed by the 'user'.
+   */
+  massSource: MassSource;
   /** Lorentz (pressure) HWHM of the simulated spectrum, cm^-1. */
   lorentzHwhmCm1: number;
   /** Lines weaker than this (strongest = 1) are not drawn or offered. */
@@ -26,13 +31,20 @@ export interface ModelSlice {
   symmetry: ModelSymmetry | null;
 }
 
+/** Where the molecular mass came from (see ModelSlice.massSource). */
+export type MassSource = 'default' | 'file' | 'user';
+
+/** Mass used for the simulation's Doppler width when none was set, amu. */
+export const MASS_DEFAULT_AMU = 50;
+
 /** Initial model state (the fallback demo model). */
 export function modelSliceInitial(): ModelSlice {
   return {
     model: modelDefaultDemo(),
     floated: [...MODEL_DEFAULT_FLOATED],
     modelName: 'demo molecule (built in)',
-    massAmu: 50,
+    massAmu: MASS_DEFAULT_AMU,
+    massSource: 'default',
     lorentzHwhmCm1: 0.004,
     minIntensity: 0.002,
     symmetry: null,

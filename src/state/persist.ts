@@ -113,6 +113,7 @@ function saveRelevant(a: BenchState, b: BenchState): boolean {
     a.symmetry !== b.symmetry ||
     a.modelName !== b.modelName ||
     a.massAmu !== b.massAmu ||
+    a.massSource !== b.massSource ||
     a.lorentzHwhmCm1 !== b.lorentzHwhmCm1 ||
     a.minIntensity !== b.minIntensity ||
     a.peakMinSnr !== b.peakMinSnr ||

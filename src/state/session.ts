@@ -17,6 +17,7 @@ export function sessionOf(s: BenchState): ProjectSession {
     floated: s.floated,
     modelName: s.modelName,
     massAmu: s.massAmu,
+    massSource: s.massSource,
     lorentzHwhmCm1: s.lorentzHwhmCm1,
     minIntensity: s.minIntensity,
     symmetry: s.symmetry,
@@ -75,6 +76,8 @@ export function stateFromSession(p: Partial<ProjectSession> & { model: ProjectSe
     floated: p.floated ?? m.floated,
     modelName: p.modelName ?? m.modelName,
     massAmu: p.massAmu ?? m.massAmu,
+    // A project without the field (older files) kept a mass it had from somewhere: count it as set.
+    massSource: p.massSource ?? (p.massAmu !== undefined ? 'file' : m.massSource),
     lorentzHwhmCm1: p.lorentzHwhmCm1 ?? m.lorentzHwhmCm1,
     minIntensity: p.minIntensity ?? m.minIntensity,
     symmetry: p.symmetry ?? null,

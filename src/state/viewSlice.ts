@@ -9,6 +9,17 @@ export interface BenchMessage {
   text: string;
 }
 
+/** A question the page asks before it replaces the user's work (an in-page prompt, never window.confirm). */
+export interface ConfirmRequest {
+  id: number;
+  /** One-line question. */
+  title: string;
+  /** What happens with each answer (plain text). */
+  text: string;
+  /** The answers besides "Cancel", first = the default; ids are returned by confirmAsk. */
+  choices: { id: string; label: string }[];
+}
+
 /** Which tab of the lower panel is shown. */
 export type BenchTab = 'assignments' | 'solve' | 'combination' | 'loomis' | 'levels' | 'export' | 'import' | 'calibration';
 
@@ -50,6 +61,10 @@ export interface ViewSlice {
   tableQuery: TableQuery;
   messages: BenchMessage[];
   nextMessageId: number;
+  /** The question being asked, or null. */
+  confirm: ConfirmRequest | null;
+  /** Unit of the rotational constants shown (model panel and fit table); ν₀ stays in cm⁻¹, ζ has none. */
+  constantUnit: 'cm-1' | 'MHz';
 }
 
 /** Initial view state. */
@@ -70,6 +85,8 @@ export function viewSliceInitial(): ViewSlice {
     tableQuery: { sortKey: 'label', sortDescending: false, branch: '', kLower: null, jMin: null, jMax: null, minAbsOmcCm1: 0 },
     messages: [],
     nextMessageId: 1,
+    confirm: null,
+    constantUnit: 'cm-1',
   };
 }
 

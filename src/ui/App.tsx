@@ -1,13 +1,15 @@
 /** The workbench page. */
 import { useEffect, useRef, useState } from 'react';
 import { redo, undo } from '../state/actionsCore';
+import { sessionNew } from '../state/actionsSession';
 import { fileOpen, traceImportCancel } from '../state/actionsImport';
 import { viewSet, viewSetTab, viewSetTheme } from '../state/actionsView';
-import { useBench } from '../state/store';
+import { benchStore, useBench } from '../state/store';
 import type { BenchTab } from '../state/viewSlice';
 import { AssignmentsTable } from './AssignmentsTable';
 import { CalibrationPanel } from './CalibrationPanel';
 import { CombinationPanel } from './CombinationPanel';
+import { ConfirmPrompt } from './ConfirmPrompt';
 import { ExportPanel } from './ExportPanel';
 import { HelpOverlay } from './HelpOverlay';
 import { ImportPanel } from './ImportPanel';
@@ -61,6 +63,14 @@ function Header({ onOpen }: { onOpen: () => void }) {
       <div className="top-actions">
         <button type="button" className="primary" onClick={onOpen} data-testid="open-file">
           Open file…
+        </button>
+        <button
+          type="button"
+          onClick={() => void sessionNew()}
+          title="Clear the trace, peaks, assignments and fit and start from the default model (Undo brings the session back)"
+          data-testid="new-session"
+        >
+          New session
         </button>
         <button
           type="button"
@@ -141,6 +151,8 @@ export function App() {
 
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
+      // While the page asks a question, keys belong to it (no assignment behind its back).
+      if (benchStore.getState().confirm) return;
       if (keyboardHandle(e)) e.preventDefault();
     };
     let depth = 0;
@@ -204,6 +216,7 @@ export function App() {
         </div>
       </main>
       <HelpOverlay />
+      <ConfirmPrompt />
       {isDragging && (
         <div className="drop-overlay" aria-hidden="true">
           <div>Drop a trace, model file, line table or project to open it</div>

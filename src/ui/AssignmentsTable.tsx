@@ -1,11 +1,12 @@
 /** The assignments table: virtualised rows, sort and filter, inline edits; a row click zooms the plot to the line. */
 import { useVirtualizer } from '@tanstack/react-virtual';
-import { memo, useMemo, useRef, useState } from 'react';
+import { memo, useCallback, useMemo, useRef, useState } from 'react';
+import { formatFixed } from '../io/numberFormat';
 import type { TransitionQuanta } from '../physics/model';
 import { assignmentDelete, assignmentEdit, assignmentSelect } from '../state/actionsAssign';
 import { benchUpdate } from '../state/actionsCore';
 import { viewSetTableQuery } from '../state/actionsView';
-import { selectAssignmentRows, type AssignmentRow } from '../state/selectors';
+import { quantaLabel, selectAssignmentRows, type AssignmentRow } from '../state/selectors';
 import { useBench } from '../state/store';
 import { tableRowsQueryMemo } from '../state/tableQuery';
 import type { TableQuery } from '../state/viewSlice';
@@ -15,6 +16,7 @@ import { NumberField } from './NumberField';
 const ROW_HEIGHT = 30;
 
 const COLUMNS: { key: TableQuery['sortKey'] | null; label: string; className?: string }[] = [
+  { key: null, label: '' },
   { key: 'label', label: 'Line' },
   { key: 'jLower', label: 'J′ K′ ← J″ K″' },
   { key: 'obs', label: 'obs / cm⁻¹', className: 'num' },
@@ -31,14 +33,14 @@ function quanta(r: AssignmentRow): TransitionQuanta {
   return { jUpper: r.a.jUpper, kUpper: r.a.kUpper, jLower: r.a.jLower, kLower: r.a.kLower };
 }
 
-function NoteField({ id, note }: { id: string; note: string }) {
+function NoteField({ id, note, name }: { id: string; note: string; name: string }) {
   const [draft, setDraft] = useState(note);
   const [isFocused, setFocused] = useState(false);
   return (
     <input
       type="text"
       className="note"
-      aria-label={`Note for ${id}`}
+      aria-label={`Note for ${name}`}
       value={isFocused ? draft : note}
       maxLength={500}
       onFocus={() => (setDraft(note), setFocused(true))}
@@ -57,15 +59,23 @@ function NoteField({ id, note }: { id: string; note: string }) {
 const Row = memo(function Row({
   r,
   isSelected,
+  isChecked,
+  onCheck,
   shape,
   top,
 }: {
   r: AssignmentRow;
   isSelected: boolean;
+  /** Ticked for "delete selected". */
+  isChecked: boolean;
+  /** Tick or untick; shift extends from the last tick (a range). */
+  onCheck: (id: string, isChecked: boolean, isRange: boolean) => void;
   shape: 'prolate' | 'oblate' | 'linear';
   top: number;
 }) {
   const a = r.a;
+  // Rows are named by their line in labels (screen readers), never by the internal id.
+  const name = quantaLabel(quanta(r), shape);
   const flags = [r.isFar && 'far from prediction', r.isOutlier && 'fit outlier'].filter(Boolean).join(', ');
   return (
     <div
@@ -75,7 +85,18 @@ const Row = memo(function Row({
       style={{ transform: `translateY(${top}px)`, height: ROW_HEIGHT }}
       onClick={() => assignmentSelect(a.id)}
       data-testid="assignment-row"
+      data-checked={isChecked || undefined}
     >
+      <span role="cell" onClick={(e) => e.stopPropagation()}>
+        <input
+          type="checkbox"
+          aria-label={`Select ${name}`}
+          checked={isChecked}
+          onChange={() => undefined}
+          onClick={(e) => onCheck(a.id, (e.target as HTMLInputElement).checked, e.shiftKey)}
+          data-testid="row-check"
+        />
+      </span>
       <span role="cell" className="c-label">
         <LineLabel q={quanta(r)} shape={shape} />
         {flags && (
@@ -88,17 +109,17 @@ const Row = memo(function Row({
         {a.jUpper} {a.kUpper} ← {a.jLower} {a.kLower}
       </span>
       <span role="cell" className="num">
-        {a.observedCm1.toFixed(5)}
+        {formatFixed(a.observedCm1, 5)}
       </span>
       <span role="cell" className="num">
-        {r.calcCm1.toFixed(5)}
+        {formatFixed(r.calcCm1, 5)}
       </span>
       <span role="cell" className={`num ${r.isFar ? 'bad' : ''}`} title={r.omcSigma !== null ? `${r.omcSigma.toFixed(1)} σ` : undefined}>
-        {r.omcCm1.toFixed(5)}
+        {formatFixed(r.omcCm1, 5)}
       </span>
       <span role="cell" onClick={(e) => e.stopPropagation()}>
         <NumberField
-          label={`Uncertainty of ${a.id} in cm⁻¹`}
+          label={`Uncertainty of ${name} in cm⁻¹`}
           isLabelHidden
           className="narrow"
           value={a.uncertaintyCm1}
@@ -108,7 +129,7 @@ const Row = memo(function Row({
       <span role="cell" onClick={(e) => e.stopPropagation()}>
         <input
           type="checkbox"
-          aria-label={`Exclude ${a.id} from the fit`}
+          aria-label={`Exclude ${name} from the fit`}
           checked={a.isExcluded}
           onChange={(e) => assignmentEdit(a.id, { isExcluded: e.target.checked })}
         />
@@ -116,19 +137,19 @@ const Row = memo(function Row({
       <span role="cell" onClick={(e) => e.stopPropagation()}>
         <input
           type="checkbox"
-          aria-label={`${a.id} is a blend`}
+          aria-label={`${name} is a blend`}
           checked={a.isBlended}
           onChange={(e) => assignmentEdit(a.id, { isBlended: e.target.checked })}
         />
       </span>
       <span role="cell">
-        <NoteField id={a.id} note={a.note} />
+        <NoteField id={a.id} note={a.note} name={name} />
       </span>
       <span role="cell">
         <button
           type="button"
           className="icon"
-          aria-label={`Delete assignment ${a.id}`}
+          aria-label={`Delete assignment ${name}`}
           onClick={(e) => {
             e.stopPropagation();
             assignmentDelete([a.id]);
@@ -227,6 +248,33 @@ export function AssignmentsTable() {
     overscan: 12,
   });
   const nFar = useMemo(() => rows.reduce((n, r) => n + (r.isFar ? 1 : 0), 0), [rows]);
+  const [checked, setChecked] = useState<ReadonlySet<string>>(() => new Set());
+  const anchor = useRef<string | null>(null);
+  // Ticks of rows that no longer exist (deleted, undone, a new session) are forgotten.
+  const present = useMemo(() => new Set(rows.map((r) => r.a.id)), [rows]);
+  const live = useMemo(() => [...checked].filter((id) => present.has(id)), [checked, present]);
+  const shownChecked = useMemo(() => shown.reduce((n, r) => n + (checked.has(r.a.id) ? 1 : 0), 0), [shown, checked]);
+  // The rows in their shown order, read when a box is ticked: onCheck stays the same function, so a
+  // new assignment does not re-render every memoised row for a new callback.
+  const shownRef = useRef(shown);
+  shownRef.current = shown;
+  const onCheck = useCallback((id: string, isOn: boolean, isRange: boolean) => {
+    const shown = shownRef.current;
+    setChecked((prev) => {
+      const next = new Set(prev);
+      const to = shown.findIndex((r) => r.a.id === id);
+      const from = isRange && anchor.current !== null ? shown.findIndex((r) => r.a.id === anchor.current) : -1;
+      if (from >= 0 && to >= 0) {
+        for (let i = Math.min(from, to); i <= Math.max(from, to); i++) {
+          if (isOn) next.add(shown[i].a.id);
+          else next.delete(shown[i].a.id);
+        }
+      } else if (isOn) next.add(id);
+      else next.delete(id);
+      return next;
+    });
+    anchor.current = id;
+  }, []);
 
   return (
     <div className="assignments">
@@ -235,31 +283,70 @@ export function AssignmentsTable() {
           {rows.length} assigned{shown.length !== rows.length ? `, ${shown.length} shown` : ''}
           {nFar > 0 && <span className="bad"> · {nFar} far from prediction</span>}
         </span>
+        <button
+          type="button"
+          disabled={live.length === 0}
+          onClick={() => {
+            assignmentDelete(live);
+            setChecked(new Set());
+            anchor.current = null;
+          }}
+          title="Delete the ticked rows (one undo step); shift-click a box to tick a range"
+          data-testid="delete-selected"
+        >
+          Delete selected{live.length > 0 ? ` (${live.length})` : ''}
+        </button>
         <Filters />
       </div>
       <div className="vtable" role="table" aria-label="Assigned lines" aria-rowcount={shown.length + 1}>
         <div role="row" className="thead">
-          {COLUMNS.map((c, i) => (
-            <span
-              role="columnheader"
-              key={i}
-              className={c.className}
-              aria-sort={c.key && q.sortKey === c.key ? (q.sortDescending ? 'descending' : 'ascending') : undefined}
-            >
-              {c.key ? (
-                <button
-                  type="button"
-                  className="sort"
-                  onClick={() => viewSetTableQuery({ sortKey: c.key!, sortDescending: q.sortKey === c.key ? !q.sortDescending : false })}
-                >
-                  {c.label}
-                  {q.sortKey === c.key ? (q.sortDescending ? ' ▼' : ' ▲') : ''}
-                </button>
-              ) : (
-                c.label
-              )}
-            </span>
-          ))}
+          {COLUMNS.map((c, i) =>
+            i === 0 ? (
+              <span role="columnheader" key={i}>
+                <input
+                  type="checkbox"
+                  aria-label="Select every row shown"
+                  checked={shown.length > 0 && shownChecked === shown.length}
+                  ref={(el) => {
+                    if (el) el.indeterminate = shownChecked > 0 && shownChecked < shown.length;
+                  }}
+                  onChange={(e) => {
+                    const isOn = e.target.checked;
+                    setChecked((prev) => {
+                      const next = new Set(prev);
+                      for (const r of shown) {
+                        if (isOn) next.add(r.a.id);
+                        else next.delete(r.a.id);
+                      }
+                      return next;
+                    });
+                    anchor.current = null;
+                  }}
+                  data-testid="check-all"
+                />
+              </span>
+            ) : (
+              <span
+                role="columnheader"
+                key={i}
+                className={c.className}
+                aria-sort={c.key && q.sortKey === c.key ? (q.sortDescending ? 'descending' : 'ascending') : undefined}
+              >
+                {c.key ? (
+                  <button
+                    type="button"
+                    className="sort"
+                    onClick={() => viewSetTableQuery({ sortKey: c.key!, sortDescending: q.sortKey === c.key ? !q.sortDescending : false })}
+                  >
+                    {c.label}
+                    {q.sortKey === c.key ? (q.sortDescending ? ' ▼' : ' ▲') : ''}
+                  </button>
+                ) : (
+                  c.label
+                )}
+              </span>
+            ),
+          )}
         </div>
         <div ref={scrollRef} className="tbody" role="rowgroup">
           {shown.length === 0 ? (
@@ -275,6 +362,8 @@ export function AssignmentsTable() {
                   key={shown[v.index].a.id}
                   r={shown[v.index]}
                   isSelected={shown[v.index].a.id === selectedId}
+                  isChecked={checked.has(shown[v.index].a.id)}
+                  onCheck={onCheck}
                   shape={shape}
                   top={v.start}
                 />

@@ -1,12 +1,14 @@
 /** Combination differences of the assigned lines: B, D_J, D_JK of one state and the diagnostic plot Δ2F/(J+½) vs (J+½)². */
 import { useMemo } from 'react';
 import { combinationDifferences } from '../fit/combinationDifferences';
-import { formatValueSigma } from '../io/fitReport';
+import { formatNumber, formatValueUncertainty } from '../io/numberFormat';
 import { lineLabelAscii } from '../physics/lineLabel';
 import { assignmentSelect } from '../state/actionsAssign';
 import { viewSetCombinationState } from '../state/actionsView';
+import { combinationHint } from '../state/combinationHint';
 import { useBench } from '../state/store';
 import { combinationFigure } from './plot/solveTraces';
+import { ConstantName } from './ConstantName';
 import { PlotlyChart } from './PlotlyChart';
 
 export function CombinationPanel() {
@@ -21,7 +23,7 @@ export function CombinationPanel() {
         shape,
         lineName: (i) => {
           const a = assignments[i];
-          return `${lineLabelAscii(a.kUpper - a.kLower, a.jUpper - a.jLower, a.kLower, a.jLower, shape)} (${a.id})`;
+          return lineLabelAscii(a.kUpper - a.kLower, a.jUpper - a.jLower, a.kLower, a.jLower, shape);
         },
       }),
     [assignments, state, shape],
@@ -43,7 +45,7 @@ export function CombinationPanel() {
         </fieldset>
       </div>
       {!outcome.ok ? (
-        <p className="muted" role="status">
+        <p className="muted" role="status" data-testid="cd-status">
           {outcome.error.message}
           {outcome.error.lineIndex !== undefined && assignments[outcome.error.lineIndex] && (
             <>
@@ -53,33 +55,35 @@ export function CombinationPanel() {
               </button>
             </>
           )}
+          {outcome.error.kind === 'too-few-pairs' && (
+            <>
+              <br />
+              <span data-testid="cd-hint">{combinationHint(assignments, state, shape === 'linear')}</span>
+            </>
+          )}
         </p>
       ) : (
         <div className="cd-body">
           <div className="cd-summary">
             <table className="fit-table">
               <caption className="visually-hidden">Constants from combination differences</caption>
+              <thead>
+                <tr>
+                  <th scope="col">Constant</th>
+                  <th scope="col">Value (σ) / cm⁻¹</th>
+                  <th scope="col">Model / cm⁻¹</th>
+                </tr>
+              </thead>
               <tbody>
                 {(['B', 'DJ', 'DJK'] as const).map((k) => {
                   const p = outcome.result[k];
                   return (
                     <tr key={k}>
                       <th scope="row">
-                        {k === 'B' ? (
-                          'B'
-                        ) : k === 'DJ' ? (
-                          <>
-                            D<sub>J</sub>
-                          </>
-                        ) : (
-                          <>
-                            D<sub>JK</sub>
-                          </>
-                        )}
-                        {state === 'lower' ? '″' : '′'}
+                        <ConstantName constantKey={`${state}.${k}`} />
                       </th>
-                      <td className="num">{p.fixed ? `${p.value} (fixed)` : formatValueSigma(p.value, p.sigma)} cm⁻¹</td>
-                      <td className="num muted">model {Number(model[state][k].toPrecision(8))}</td>
+                      <td className="num">{p.fixed ? `${formatNumber(p.value)} (fixed)` : formatValueUncertainty(p.value, p.sigma)}</td>
+                      <td className="num muted">{formatNumber(model[state][k], 8)}</td>
                     </tr>
                   );
                 })}

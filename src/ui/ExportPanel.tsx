@@ -1,6 +1,7 @@
 /** Downloads: assigned line table, fit report, simulated lines and spectrum, model file, whole project. */
 import { lineTableSerialize } from '../io/lineTable';
 import { simulatedLinesCsv, spectrumCsv } from '../io/exportCsv';
+import { exportStem } from '../io/exportName';
 import { fitReportMarkdown } from '../io/fitReport';
 import { modelFileSerialize } from '../io/modelFile';
 import { messagePost } from '../state/actionsCore';
@@ -8,10 +9,12 @@ import { projectExportTextAsync } from '../state/actionsProject';
 import { selectAssignmentRows, selectBand, selectFitResult, selectSimulated } from '../state/selectors';
 import { benchStore, useBench } from '../state/store';
 import { APP_VERSION } from './appVersion';
-import { downloadText, fileStem } from './download';
+import { downloadText } from './download';
 
+/** Stem of every export's file name: the trace's file name, else the model's name. */
 function stem(): string {
-  return fileStem(benchStore.getState().modelName);
+  const s = benchStore.getState();
+  return exportStem(s.traceReport?.fileName ?? null, s.modelName);
 }
 
 function guard(what: string, f: () => void): void {
@@ -73,7 +76,13 @@ export function exportModel(): void {
     const s = benchStore.getState();
     downloadText(
       `${stem()}-model.json`,
-      modelFileSerialize({ model: s.model, floated: s.floated, name: s.modelName, massAmu: s.massAmu }),
+      // A mass nobody set (the simulation's default) is not the molecule's: it stays out of the file.
+      modelFileSerialize({
+        model: s.model,
+        floated: s.floated,
+        name: s.modelName,
+        massAmu: s.massSource === 'default' ? undefined : s.massAmu,
+      }),
       'application/json',
     );
   });

@@ -1,7 +1,7 @@
 /** Model panel: shape, band type (or from symmetry), constants of both states with float/fix, temperature, limits, spin weights, simulation widths. */
-import { useRef, useState } from 'react';
+import { Fragment, useRef, useState } from 'react';
+import { constantDisplayUnit, constantNameText, constantToDisplayUnit, type ConstantUnit } from '../io/constantName';
 import { bandSymmetryPointGroups, bandSymmetrySpecies } from '../physics/bandSymmetry';
-import { MHZ_PER_CM1 } from '../physics/constants';
 import type { BandType, ParameterName, TopShape } from '../physics/model';
 import {
   modelLoadText,
@@ -9,6 +9,7 @@ import {
   modelSetBand,
   modelSetConstant,
   modelSetConstantMhz,
+  modelSetConstantUnit,
   modelSetFloated,
   modelSetMinIntensity,
   modelSetScalar,
@@ -16,41 +17,20 @@ import {
   modelSetSimulation,
   modelSetSpinWeights,
   modelSetSymmetry,
+  type ModelSide,
 } from '../state/actionsModel';
 import { useBench } from '../state/store';
+import { ConstantName } from './ConstantName';
 import { NumberField } from './NumberField';
 
-const NAME_TEXT: Record<string, string> = {
-  origin: 'ν₀ origin',
-  B: 'B',
-  A: 'A',
-  C: 'C',
-  DJ: 'D_J',
-  DJK: 'D_JK',
-  DK: 'D_K',
-  HJ: 'H_J',
-  HJK: 'H_JK',
-  HKJ: 'H_KJ',
-  HK: 'H_K',
-  zeta: 'ζ (Coriolis)',
-  q: 'q (l-doubling)',
-};
-
-/** Constants shown to 12 significant digits (the stored value keeps full precision until edited). */
-const showConstant = (v: number) => String(Number(v.toPrecision(12)));
+/**
+ * A constant as typed into its field: 12 significant digits in JavaScript's own notation, so the text
+ * parses back exactly as shown ("2.13475981901e-7"; never "-0"). The field is wide enough for the
+ * longest such text (checked in the browser test), so no exponent is cut off.
+ */
+const showConstant = (v: number) => String(Number(v.toPrecision(12)) || 0);
 
 const ORDER: ParameterName[] = ['origin', 'B', 'A', 'C', 'DJ', 'DJK', 'DK', 'HJ', 'HJK', 'HKJ', 'HK', 'zeta', 'q'];
-
-function ConstantName({ name }: { name: string }) {
-  const t = NAME_TEXT[name] ?? name;
-  const [base, sub] = t.split('_');
-  return (
-    <>
-      {base}
-      {sub && <sub>{sub}</sub>}
-    </>
-  );
-}
 
 function SymmetryChooser() {
   const symmetry = useBench((s) => s.symmetry);
@@ -98,7 +78,8 @@ export function ModelPanel() {
   const massAmu = useBench((s) => s.massAmu);
   const lorentz = useBench((s) => s.lorentzHwhmCm1);
   const minIntensity = useBench((s) => s.minIntensity);
-  const [lowerUnit, setLowerUnit] = useState<'cm-1' | 'MHz'>('cm-1');
+  const unit = useBench((s) => s.constantUnit);
+  const unitText = unit === 'cm-1' ? 'cm⁻¹' : 'MHz';
   const fileRef = useRef<HTMLInputElement>(null);
   const lowerNames = modelParameterNames(model, 'lower');
   const upperNames = modelParameterNames(model, 'upper');
@@ -159,27 +140,41 @@ export function ModelPanel() {
         <SpinWeights weights={model.spinWeights} />
         <NumberField label="Intensity cut" value={minIntensity} onCommit={modelSetMinIntensity} />
       </div>
+      <div
+        className="unit-row"
+        title="One switch for every rotational constant here and in the fit table (value and σ); ν₀ stays in cm⁻¹ and ζ has no unit"
+      >
+        <span className="muted small">Constants in</span>
+        <button
+          type="button"
+          className="unit-toggle"
+          onClick={() => modelSetConstantUnit(unit === 'cm-1' ? 'MHz' : 'cm-1')}
+          aria-label={`Unit of the rotational constants: ${unit === 'cm-1' ? 'cm⁻¹' : 'MHz'}; switch to ${unit === 'cm-1' ? 'MHz' : 'cm⁻¹'}`}
+          data-testid="lower-unit"
+        >
+          {unit === 'cm-1' ? 'cm⁻¹' : 'MHz'} ⇄
+        </button>
+        <span className="muted small">(ν₀ always cm⁻¹)</span>
+      </div>
       <table className="constants">
         <caption className="visually-hidden">Constants of the lower and upper state; tick "fit" to float a constant</caption>
+        <colgroup>
+          <col className="c-name" />
+          <col />
+          <col className="c-fit" />
+          <col />
+          <col className="c-fit" />
+        </colgroup>
         <thead>
           <tr>
-            <th scope="col">Constant</th>
             <th scope="col">
-              Lower ″{' '}
-              <button
-                type="button"
-                className="unit-toggle"
-                onClick={() => setLowerUnit(lowerUnit === 'cm-1' ? 'MHz' : 'cm-1')}
-                aria-label={`Lower-state unit: ${lowerUnit === 'cm-1' ? 'cm⁻¹' : 'MHz'}; switch`}
-                data-testid="lower-unit"
-              >
-                {lowerUnit === 'cm-1' ? 'cm⁻¹' : 'MHz'}
-              </button>
+              <span className="visually-hidden">Constant</span>
             </th>
+            <th scope="col">Lower ″ / {unitText}</th>
             <th scope="col" title="Float in the fit">
               fit
             </th>
-            <th scope="col">Upper ′ / cm⁻¹</th>
+            <th scope="col">Upper ′ / {unitText}</th>
             <th scope="col" title="Float in the fit">
               fit
             </th>
@@ -189,74 +184,25 @@ export function ModelPanel() {
           {names.map((name) => (
             <tr key={name}>
               <th scope="row">
-                <ConstantName name={name} />
+                <ConstantName constantKey={name} />
+                {name === 'origin' && unit === 'MHz' && <span className="muted small"> /cm⁻¹</span>}
               </th>
-              {lowerNames.includes(name) ? (
-                <>
-                  <td>
-                    {lowerUnit === 'cm-1' || name === 'zeta' ? (
-                      <NumberField
-                        key="cm"
-                        label={`Lower ${name} in cm⁻¹`}
-                        isLabelHidden
-                        value={model.lower[name]}
-                        format={showConstant}
-                        onCommit={(v) => modelSetConstant('lower', name, v)}
-                        testId={`lower-${name}`}
-                      />
-                    ) : (
-                      <NumberField
-                        key="mhz"
-                        label={`Lower ${name} in MHz`}
-                        isLabelHidden
-                        value={model.lower[name] * MHZ_PER_CM1}
-                        format={(v) => String(Number(v.toPrecision(12)))}
-                        onCommit={(v) => modelSetConstantMhz(name, v)}
-                        testId={`lower-${name}-mhz`}
-                      />
-                    )}
-                  </td>
-                  <td>
-                    <input
-                      type="checkbox"
-                      aria-label={`Float lower ${name} in the fit`}
-                      checked={isFloated(`lower.${name}`)}
-                      onChange={(e) => modelSetFloated(`lower.${name}`, e.target.checked)}
-                    />
-                  </td>
-                </>
-              ) : (
-                <>
-                  <td className="muted">—</td>
-                  <td />
-                </>
-              )}
-              {upperNames.includes(name) ? (
-                <>
-                  <td>
-                    <NumberField
-                      label={`Upper ${name}${name === 'zeta' ? '' : ' in cm⁻¹'}`}
-                      isLabelHidden
-                      value={model.upper[name]}
-                      format={showConstant}
-                      onCommit={(v) => modelSetConstant('upper', name, v)}
-                      testId={`upper-${name}`}
-                    />
-                  </td>
-                  <td>
-                    <input
-                      type="checkbox"
-                      aria-label={`Float upper ${name} in the fit`}
-                      checked={isFloated(`upper.${name}`)}
-                      onChange={(e) => modelSetFloated(`upper.${name}`, e.target.checked)}
-                    />
-                  </td>
-                </>
-              ) : (
-                <>
-                  <td className="muted">—</td>
-                  <td />
-                </>
+              {(['lower', 'upper'] as const).map((side) =>
+                (side === 'lower' ? lowerNames : upperNames).includes(name) ? (
+                  <ConstantCells
+                    key={side}
+                    side={side}
+                    name={name}
+                    unit={unit}
+                    value={model[side][name]}
+                    isFloated={isFloated(`${side}.${name}`)}
+                  />
+                ) : (
+                  <Fragment key={side}>
+                    <td className="muted">—</td>
+                    <td />
+                  </Fragment>
+                ),
               )}
             </tr>
           ))}
@@ -268,6 +214,49 @@ export function ModelPanel() {
         <NumberField label="Lorentz HWHM / cm⁻¹" value={lorentz} onCommit={(v) => modelSetSimulation('lorentzHwhmCm1', v)} />
       </div>
     </section>
+  );
+}
+
+/** The value field and the "fit" box of one constant of one state; the field shows the chosen unit. */
+function ConstantCells({
+  side,
+  name,
+  unit,
+  value,
+  isFloated,
+}: {
+  side: ModelSide;
+  name: ParameterName;
+  unit: ConstantUnit;
+  value: number;
+  isFloated: boolean;
+}) {
+  const key = `${side}.${name}`;
+  const shownUnit = constantDisplayUnit(key, unit);
+  const nameText = constantNameText(key);
+  const isMhz = shownUnit === 'MHz';
+  return (
+    <>
+      <td>
+        <NumberField
+          key={isMhz ? 'mhz' : 'cm'}
+          label={`${nameText}${shownUnit ? ` in ${shownUnit}` : ' (no unit)'}`}
+          isLabelHidden
+          value={constantToDisplayUnit(key, value, unit)}
+          format={showConstant}
+          onCommit={(v) => (isMhz ? modelSetConstantMhz(name, v, side) : modelSetConstant(side, name, v))}
+          testId={isMhz ? `${side}-${name}-mhz` : `${side}-${name}`}
+        />
+      </td>
+      <td>
+        <input
+          type="checkbox"
+          aria-label={`Float ${nameText} in the fit`}
+          checked={isFloated}
+          onChange={(e) => modelSetFloated(key, e.target.checked)}
+        />
+      </td>
+    </>
   );
 }
 

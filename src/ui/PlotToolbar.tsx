@@ -1,5 +1,5 @@
-/** Controls above the plot: ordinate, overlays, peak threshold, keyboard-walk tolerance, zoom out, ladder rows. */
-import { useMemo, useState } from 'react';
+/** Controls above the plot: ordinate, overlays, peak threshold, keyboard-walk tolerance, zoom out, typed range, ladder rows. */
+import { useMemo, useState, type KeyboardEvent } from 'react';
 import { walkToleranceSet } from '../state/actionsAssign';
 import { benchUpdate } from '../state/actionsCore';
 import { viewSet, viewSetHiddenRows, viewSetOrdinate, viewSetRowHidden, viewSetXRange } from '../state/actionsView';
@@ -9,6 +9,84 @@ import { useBench } from '../state/store';
 import { ladderRowsBuild } from './plot/ladderGeometry';
 import { ladderColour } from './plot/plotColours';
 import { NumberField } from './NumberField';
+
+/** Text of a range end in the fields (3 decimals: 0.001 cm⁻¹ is finer than a line's width here). */
+const rangeText = (v: number) => v.toFixed(3);
+
+/**
+ * Two fields to type the x range to zoom to (cm⁻¹); Enter or "Zoom" applies them. They show the
+ * visible range while not being edited. A range that is not two increasing numbers is refused in words.
+ */
+function XRangeFields() {
+  const xRange = useBench((s) => s.xRange);
+  const trace = useBench((s) => s.trace);
+  const shown: [number, number] | null =
+    xRange ??
+    (trace && trace.wavenumberCm1.length > 1 ? [trace.wavenumberCm1[0], trace.wavenumberCm1[trace.wavenumberCm1.length - 1]] : null);
+  const [draft, setDraft] = useState<[string, string] | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const from = draft ? draft[0] : shown ? rangeText(shown[0]) : '';
+  const to = draft ? draft[1] : shown ? rangeText(shown[1]) : '';
+  const apply = () => {
+    const a = Number(from.trim() === '' ? NaN : from);
+    const b = Number(to.trim() === '' ? NaN : to);
+    if (!Number.isFinite(a) || !Number.isFinite(b)) {
+      setError('type two numbers in cm⁻¹');
+      return;
+    }
+    if (!(b > a)) {
+      setError(`"to" must be above "from" (${a} to ${b} cm⁻¹)`);
+      return;
+    }
+    setError(null);
+    setDraft(null);
+    viewSetXRange([a, b]);
+  };
+  const edit = (i: 0 | 1, v: string) => setDraft(i === 0 ? [v, to] : [from, v]);
+  const onKey = (e: KeyboardEvent<HTMLInputElement>) => {
+    e.stopPropagation();
+    if (e.key === 'Enter') apply();
+    if (e.key === 'Escape') {
+      setDraft(null);
+      setError(null);
+    }
+  };
+  return (
+    <form
+      className={`x-range ${error ? 'invalid' : ''}`}
+      aria-label="Zoom to a wavenumber range"
+      onSubmit={(e) => {
+        e.preventDefault();
+        apply();
+      }}
+    >
+      <label>
+        <span className="visually-hidden">Zoom from (cm⁻¹)</span>
+        <input
+          type="text"
+          inputMode="decimal"
+          value={from}
+          onChange={(e) => edit(0, e.target.value)}
+          onKeyDown={onKey}
+          data-testid="x-from"
+        />
+      </label>
+      <span aria-hidden="true">–</span>
+      <label>
+        <span className="visually-hidden">Zoom to (cm⁻¹)</span>
+        <input type="text" inputMode="decimal" value={to} onChange={(e) => edit(1, e.target.value)} onKeyDown={onKey} data-testid="x-to" />
+      </label>
+      <button type="submit" data-testid="x-zoom" title="Zoom to this range (or press Enter in a field)">
+        cm⁻¹ ↵
+      </button>
+      {error && (
+        <span className="field-error" role="alert">
+          {error}
+        </span>
+      )}
+    </form>
+  );
+}
 
 export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
   const ordinate = useBench((s) => s.ordinate);
@@ -32,17 +110,13 @@ export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
 
   return (
     <div className="plot-toolbar" role="toolbar" aria-label="Plot settings">
-      <fieldset className="segmented">
-        <legend className="visually-hidden">Ordinate</legend>
-        <label>
-          <input type="radio" name="ordinate" checked={ordinate === 'transmittance'} onChange={() => viewSetOrdinate('transmittance')} />
-          Transmittance
-        </label>
-        <label>
-          <input type="radio" name="ordinate" checked={ordinate === 'absorbance'} onChange={() => viewSetOrdinate('absorbance')} />
-          Absorbance
-        </label>
-      </fieldset>
+      <label>
+        <span className="visually-hidden">Ordinate</span>
+        <select value={ordinate} onChange={(e) => viewSetOrdinate(e.target.value as 'absorbance' | 'transmittance')}>
+          <option value="transmittance">Transmittance</option>
+          <option value="absorbance">Absorbance</option>
+        </select>
+      </label>
       <label className="check">
         <input type="checkbox" checked={showPeaks} onChange={(e) => viewSet('showPeaks', e.target.checked)} /> Peaks (
         {peakCount.toLocaleString('en')})
@@ -90,6 +164,7 @@ export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
         />{' '}
         obs − sim
       </label>
+      <XRangeFields />
       <button type="button" onClick={() => viewSetXRange(null)} title="Show the whole trace (double-click the plot does the same)">
         Zoom out
       </button>

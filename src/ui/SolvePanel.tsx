@@ -1,7 +1,8 @@
 /** Solve panel: floated constants, fit in the worker, values ± σ, correlation heatmap, residuals, warnings, accept/keep. */
 import { useDeferredValue, useEffect, useMemo, useRef, useState, type RefObject } from 'react';
 import type { FitResult } from '../fit/fitTypes';
-import { formatValueSigma } from '../io/fitReport';
+import { constantDisplayUnit, constantKeysToNames, constantToDisplayUnit } from '../io/constantName';
+import { formatNumber, formatValueUncertainty } from '../io/numberFormat';
 import { assignmentSelect } from '../state/actionsAssign';
 import { fitAccept, fitApplySuggestion, fitCancel, fitRevert, fitStart } from '../state/actionsFit';
 import { modelParameterNames, modelSetFloated } from '../state/actionsModel';
@@ -9,6 +10,7 @@ import { selectFitResult } from '../state/selectors';
 import { benchStore, useBench } from '../state/store';
 import { correlationFigure, residualFigure } from './plot/solveTraces';
 import { PlotlyChart } from './PlotlyChart';
+import { ConstantName } from './ConstantName';
 import { LineLabel } from './LineLabel';
 
 function FloatChooser() {
@@ -25,7 +27,7 @@ function FloatChooser() {
             return (
               <label key={key} className="check">
                 <input type="checkbox" checked={floated.includes(key)} onChange={(e) => modelSetFloated(key, e.target.checked)} />
-                {name}
+                <ConstantName constantKey={key} />
               </label>
             );
           })}
@@ -37,6 +39,8 @@ function FloatChooser() {
 
 function ResultTable({ result }: { result: FitResult }) {
   const model = useBench((s) => s.model);
+  const unit = useBench((s) => s.constantUnit);
+  const unitText = unit === 'cm-1' ? 'cm⁻¹' : 'MHz';
   const rows = Object.entries(result.parameters).filter(([, p]) => !p.fixed || p.value !== 0);
   return (
     <table className="fit-table" data-testid="fit-constants">
@@ -44,21 +48,30 @@ function ResultTable({ result }: { result: FitResult }) {
       <thead>
         <tr>
           <th scope="col">Constant</th>
-          <th scope="col">Value(σ)</th>
-          <th scope="col">σ</th>
-          <th scope="col">Current model</th>
+          <th scope="col">Value (σ) / {unitText}</th>
+          <th scope="col">σ / {unitText}</th>
+          <th scope="col">Current model / {unitText}</th>
         </tr>
       </thead>
       <tbody>
         {rows.map(([key, p]) => {
           const [side, name] = key.split('.') as ['lower' | 'upper', string];
           const current = (model[side] as Record<string, number>)[name];
+          const shownUnit = constantDisplayUnit(key, unit);
+          const inUnit = (v: number) => constantToDisplayUnit(key, v, unit);
           return (
-            <tr key={key} className={p.fixed ? 'fixed' : ''}>
-              <th scope="row">{key}</th>
-              <td className="num">{p.fixed ? `${p.value} (fixed)` : formatValueSigma(p.value, p.sigma)}</td>
-              <td className="num">{p.fixed ? '' : p.sigma === null ? 'n/a' : p.sigma.toPrecision(2)}</td>
-              <td className={`num ${current !== p.value ? 'muted' : ''}`}>{Number(current.toPrecision(12))}</td>
+            <tr key={key} className={p.fixed ? 'fixed' : ''} data-key={key}>
+              <th scope="row" title={key}>
+                <ConstantName constantKey={key} />
+                {shownUnit !== unitText && <span className="muted small"> {shownUnit ? `/ ${shownUnit}` : '(no unit)'}</span>}
+              </th>
+              <td className="num">
+                {p.fixed
+                  ? `${formatNumber(inUnit(p.value), 10)} (fixed)`
+                  : formatValueUncertainty(inUnit(p.value), p.sigma === null ? null : inUnit(p.sigma))}
+              </td>
+              <td className="num">{p.fixed ? '' : p.sigma === null ? 'n/a' : formatNumber(inUnit(p.sigma), 2)}</td>
+              <td className={`num ${current !== p.value ? 'muted' : ''}`}>{formatNumber(inUnit(current), 12)}</td>
             </tr>
           );
         })}
@@ -107,7 +120,7 @@ function ResidualPlot({ result, lineIds }: { result: FitResult; lineIds: string[
         <PlotlyChart
           data={fig.data}
           layout={fig.layout}
-          label="Residuals obs − calc against J″, coloured by K″; click a point to select its line"
+          label="Residuals obs − calc against J″, one series per sub-branch: colour by K″ and ΔK, marker by branch (P ◀, Q ●, R ▶); click a point to select its line"
           className="residual-plot"
           testId="residual-plot"
           onClick={(e) => {
@@ -184,12 +197,12 @@ export function SolvePanel() {
       {outcome && !outcome.ok && (
         <div className="refusal" role="alert" data-testid="fit-refusal">
           <p>
-            <strong>The fit was refused.</strong> {outcome.error.message}
+            <strong>The fit was refused.</strong> {constantKeysToNames(outcome.error.message)}
           </p>
-          {outcome.error.suggestion && <p>Suggestion: {outcome.error.suggestion}</p>}
+          {outcome.error.suggestion && <p>Suggestion: {constantKeysToNames(outcome.error.suggestion)}</p>}
           {outcome.error.fixSuggested.length > 0 && (
             <button type="button" onClick={() => void fitApplySuggestion()}>
-              Fix {outcome.error.fixSuggested.join(', ')} and fit again
+              Fix {outcome.error.fixSuggested.map((k) => constantKeysToNames(k)).join(', ')} and fit again
             </button>
           )}
         </div>
@@ -225,7 +238,7 @@ export function SolvePanel() {
           {(result.warnings.length > 0 || result.outliers.length > 0) && (
             <ul className="warnings">
               {result.warnings.map((w, i) => (
-                <li key={i}>{w}</li>
+                <li key={i}>{constantKeysToNames(w)}</li>
               ))}
               {result.outliers.map((i) => {
                 const l = result.lines[i];

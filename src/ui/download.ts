@@ -10,12 +10,3 @@ export function downloadText(fileName: string, text: string, mime: string): void
   a.remove();
   setTimeout(() => URL.revokeObjectURL(url), 10_000);
 }
-
-/** A file-name-safe stem from untrusted text (letters, digits, dot, dash, underscore). */
-export function fileStem(text: string): string {
-  const s = text
-    .replace(/[^A-Za-z0-9._-]+/g, '_')
-    .replace(/^_+|_+$/g, '')
-    .slice(0, 60);
-  return s || 'ladder-bench';
-}

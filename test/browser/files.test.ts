@@ -88,7 +88,7 @@ describe('files', () => {
     await page.locator('[data-testid=fit-run]').click();
     await page.waitForSelector('[data-testid=fit-constants]', { timeout: 60_000 });
     expect(log.workers.some((u) => /solver\.worker/.test(u))).toBe(true);
-    const originRow = page.locator('[data-testid=fit-constants] tr', { hasText: 'upper.origin' });
+    const originRow = page.locator('[data-testid=fit-constants] tr[data-key="upper.origin"]');
     // Ref: public/demo/truth.json, upper.origin = 1148.6431 cm^-1; lines carry 0.0003 cm^-1 noise,
     // so the fitted origin agrees to well within 0.001 cm^-1.
     const value = Number((await originRow.locator('td').first().textContent())!.split('(')[0]);
@@ -144,6 +144,8 @@ describe('files', () => {
     await page
       .locator('[data-testid=file-input]')
       .setInputFiles({ name: project.name, mimeType: 'application/json', buffer: Buffer.from(project.text) });
+    // Assignments exist, so the page asks before the project replaces them.
+    await page.locator('[data-testid=confirm-open]').click();
     // The project was saved with the Export tab open, and opens that way again.
     await expect.poll(() => page.locator('[data-testid=tab-export]').getAttribute('aria-selected'), { timeout: 30_000 }).toBe('true');
     // It was read in a parse worker, not on the page's thread.

@@ -1,27 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { fitBand } from '../../src/fit/fitBand';
-import { fitReportMarkdown, formatValueSigma, markdownEscape } from '../../src/io/fitReport';
+import { fitReportMarkdown, markdownEscape } from '../../src/io/fitReport';
 import { bandLines } from '../../src/physics/bandLines';
 import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
 
-describe('formatValueSigma', () => {
-  it('writes the GUM example m = 100.02147(35) g', () => {
-    // Ref: JCGM 100:2008 (GUM) §7.2.2, example "m_S = 100,021 47(35) g" (u = 0.35 mg).
-    expect(formatValueSigma(100.02147, 0.00035)).toBe('100.02147(35)');
-  });
-  it('rounds σ to two significant digits and the value to the same place (hand-checked)', () => {
-    expect(formatValueSigma(1148.6001234, 0.0000153)).toBe('1148.600123(15)');
-    expect(formatValueSigma(0.29135, 0.0996)).toBe('0.29(10)');
-    expect(formatValueSigma(-3.2e-7, 1.23e-9)).toBe('-0.0000003200(12)');
-    // σ = 250 has its two digits left of the point: written with a shared exponent, 12350 ± 250.
-    expect(formatValueSigma(12345.6, 250)).toBe('1.235(25)e4');
-  });
-  it('gives the value alone when σ is missing or zero', () => {
-    expect(formatValueSigma(0.5, null)).toBe('0.5');
-    expect(formatValueSigma(1 / 3, 0)).toBe('0.3333333333');
-  });
-});
-
+// The value(σ) notation itself is tested in test/io/numberFormat.test.ts (formatValueUncertainty).
 describe('markdownEscape', () => {
   it('turns markup and table breaks into inert text', () => {
     expect(markdownEscape('<img src=x onerror=alert(1)>|a\nb')).toBe('&lt;img src=x onerror=alert(1)&gt;\\|a b');

@@ -10,6 +10,7 @@ import {
   projectReadHere,
   projectSetIo,
 } from '../../src/state/actionsProject';
+import { redo, undo } from '../../src/state/actionsCore';
 import { sessionOf, stateFromSession } from '../../src/state/session';
 import { benchStore } from '../../src/state/store';
 import { smallModel, smallTrace } from './fixtures';
@@ -37,7 +38,37 @@ describe('project export and import through the store', () => {
     const { trace: t0, ...r0 } = before;
     expect(r1).toEqual(r0);
     expect(Array.from(t1!.absorbance)).toEqual(Array.from(t0!.absorbance));
-    expect(benchStore.getState().past).toEqual([]);
+    // Opening is one undo step.
+    expect(benchStore.getState().past.map((p) => p.label)).toEqual(['open project p.json']);
+  });
+
+  it('undoes a project open back to the whole previous session, trace and names included, and redoes it', () => {
+    const model = smallModel();
+    benchStore.setState({ model, theme: 'dark', modelName: 'first band' });
+    traceReplace(smallTrace(model).trace, null, 'file');
+    peakClick(2);
+    candidateAssign(0);
+    const text = projectExportText('0.1.0', '2024-01-01T00:00:00Z');
+    const other = JSON.parse(text);
+    other.session.modelName = 'second band';
+    other.session.assignments = [];
+    other.session.trace = null;
+    const before = benchStore.getState();
+    expect(projectImportText(JSON.stringify(other), 'q.json')).toBe(true);
+    expect(benchStore.getState().assignments).toEqual([]);
+    expect(benchStore.getState().trace).toBeNull();
+    expect(undo()).toBe('open project q.json');
+    const back = benchStore.getState();
+    expect([back.modelName, back.trace, back.assignments, back.model]).toEqual([
+      before.modelName,
+      before.trace,
+      before.assignments,
+      before.model,
+    ]);
+    // The undo steps of the first session are still there behind it.
+    expect(back.past.length).toBe(before.past.length);
+    expect(redo()).toBe('open project q.json');
+    expect(benchStore.getState().modelName).toBe('second band');
   });
 
   it('keeps the current session when the file cannot be read', () => {

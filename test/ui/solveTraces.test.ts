@@ -17,13 +17,13 @@ const obs = Array.from({ length: lines.count }, (_, i) => ({
 }));
 
 describe('residualFigure', () => {
-  it('plots one series per K″ with obs − calc against J″ and the assignment ids', () => {
+  it('plots one trace per sub-branch series with obs − calc against J″ and the assignment ids', () => {
     const r = fitBand({ model, floated: ['upper.origin', 'upper.B', 'lower.B'], lines: obs });
     if (!r.ok) throw new Error(r.error.message);
     const ids = obs.map((_, i) => `a${i}`);
     const { data } = residualFigure(r.result, ids, 'prolate', false);
-    const ks = new Set(obs.map((o) => o.kLower));
-    expect(data.length).toBe(ks.size);
+    const series = new Set(obs.map((o) => `${o.kUpper - o.kLower}:${o.kLower}:${o.jUpper - o.jLower}`));
+    expect(data.length).toBe(series.size);
     let n = 0;
     for (const d of data as unknown as { x: number[]; y: number[]; customdata: string[] }[]) {
       d.customdata.forEach((id, k) => {
@@ -59,7 +59,9 @@ describe('residualFigure', () => {
         const l = r.result.lines[i];
         expect(seen.has(id)).toBe(false);
         seen.add(id);
-        expect(d.marker.symbol).toBe(l.isOutlier ? 'x' : l.isExcluded ? 'circle-open' : 'circle');
+        // Branch by marker (P ◀, Q ●, R ▶), excluded open, outliers crossed.
+        const base = ['triangle-left', 'circle', 'triangle-right'][l.jUpper - l.jLower + 1];
+        expect(d.marker.symbol).toBe(l.isOutlier ? 'x' : l.isExcluded ? `${base}-open` : base);
         expect(d.x[k]).toBe(l.jLower);
         expect(d.y[k]).toBe(l.obsMinusCalc);
         expect(d.hovertext[k]).toContain(`obs − calc ${l.obsMinusCalc.toExponential(2)} cm⁻¹`);
@@ -68,9 +70,10 @@ describe('residualFigure', () => {
       });
     }
     expect(seen.size).toBe(obs.length);
-    // One legend entry per K″.
-    const legend = (data as unknown as { showlegend: boolean; legendgroup: string }[]).filter((d) => d.showlegend);
-    expect(legend.length).toBe(new Set(obs.map((o) => o.kLower)).size);
+    // One legend entry per sub-branch series (ΔK, K″, ΔJ), named as the ladders are ("rR3").
+    const legend = (data as unknown as { showlegend: boolean; name: string }[]).filter((d) => d.showlegend);
+    expect(legend.length).toBe(new Set(obs.map((o) => `${o.kUpper - o.kLower}:${o.kLower}:${o.jUpper - o.jLower}`)).size);
+    for (const d of legend) expect(d.name).toMatch(/^[pqr]?[PQR]\d*$/);
   });
 });
 
@@ -81,7 +84,8 @@ describe('correlationFigure', () => {
     const h = correlationFigure(r.result, false).data[0] as unknown as { z: number[][]; zmin: number; zmax: number; x: string[] };
     expect(h.zmin).toBe(-1);
     expect(h.zmax).toBe(1);
-    expect(h.x).toEqual(r.result.floated);
+    // The constants are named as the trade writes them, in the order floated.
+    expect(h.x).toEqual(['ν<sub>0</sub>', 'B′', 'B″']);
     expect(h.z).toEqual(r.result.correlation);
   });
 });

@@ -150,7 +150,9 @@ describe('project files through the parse worker', () => {
     const { trace: t0, ...r0 } = here;
     expect(r1).toEqual(r0);
     expect(Array.from(t1!.absorbance)).toEqual(Array.from(t0!.absorbance));
-    expect(benchStore.getState().messages.at(-1)?.text).toBe('Project p.json opened (2 assignments).');
+    expect(benchStore.getState().messages.at(-1)?.text).toBe(
+      'Project p.json opened (2 assignments). Undo brings the previous session back.',
+    );
   });
 
   it('rejects storage requests with the worker error when the store cannot be opened (no IndexedDB here)', async () => {

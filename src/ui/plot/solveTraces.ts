@@ -6,10 +6,11 @@
 import type { Data, Layout } from 'plotly.js';
 import type { CombDiffResult } from '../../fit/combinationDifferences';
 import type { FitResult } from '../../fit/fitTypes';
-import { lineLabelHtml } from '../../physics/lineLabel';
+import { constantNameHtml } from '../../io/constantName';
+import { lineLabelHtml, seriesLabelAscii } from '../../physics/lineLabel';
 import type { TopShape } from '../../physics/model';
 import type { LoomisGrid } from './loomisWood';
-import { kColour, plotTheme } from './plotColours';
+import { kColour, ladderColour, plotTheme } from './plotColours';
 
 function baseLayout(isDark: boolean): Partial<Layout> {
   const t = plotTheme(isDark);
@@ -29,19 +30,23 @@ function axis(isDark: boolean, title: string): Partial<Layout['xaxis']> {
   return { title: { text: title }, color: t.text, gridcolor: t.grid, zerolinecolor: t.grid, linecolor: t.grid };
 }
 
-/** Marker style classes of the residual plot, in drawing order (flagged lines drawn on top). */
+/** Marker symbol of each branch ΔJ = −1, 0, +1 (P ◀, Q ●, R ▶): the sub-branches stay apart where their colours are close. */
+const BRANCH_SYMBOLS: Record<number, string> = { [-1]: 'triangle-left', 0: 'circle', 1: 'triangle-right' };
+
+/** Drawing classes of the residual plot, in drawing order (flagged lines on top): fitted, excluded, outliers. */
 const RESIDUAL_CLASSES = [
-  { symbol: 'circle', suffix: '' },
-  { symbol: 'circle-open', suffix: ', excluded' },
-  { symbol: 'x', suffix: ', outliers' },
+  { symbol: (base: string) => base, suffix: '' },
+  { symbol: (base: string) => `${base}-open`, suffix: ', excluded' },
+  { symbol: () => 'x', suffix: ', outliers' },
 ] as const;
 
 /**
- * Residual plot: obs − calc (cm^-1) against J'', coloured by K'', excluded lines as open markers,
- * outliers as crosses. One trace per K'' and marker class, each with a single marker style (no
- * per-point style arrays, which make plotly style every point on its own) and its hover strings
- * built here; the traces of one K'' share a legend entry. customdata carries the assignment id
- * for clicks.
+ * Residual plot: obs − calc (cm^-1) against J'', one legend entry per sub-branch series
+ * (^ΔK ΔJ_K''): colour by K'' in the family of ΔK (the ladders' colours on the main plot), marker
+ * by branch (P ◀, Q ●, R ▶); excluded lines as open markers, outliers as crosses. One trace per
+ * series and class, each with a single marker style (no per-point style arrays, which make plotly
+ * style every point on its own) and its hover strings built here; the traces of one series share
+ * a legend entry. customdata carries the assignment id for clicks.
  * @param result the fit
  * @param lineIds assignment id of each result line (same order)
  * @param shape rotor shape (labels)
@@ -52,21 +57,27 @@ export function residualFigure(
   shape: TopShape,
   isDark: boolean,
 ): { data: Data[]; layout: Partial<Layout> } {
-  // Lines by K'' and class: 0 fitted, 1 excluded, 2 outlier.
-  const groups = new Map<number, number[][]>();
+  // Lines by series (ΔK, K'', ΔJ) and class: 0 fitted, 1 excluded, 2 outlier.
+  const groups = new Map<string, { deltaK: number; kLower: number; deltaJ: number; idx: number[][] }>();
   const lines = result.lines;
   for (let i = 0; i < lines.length; i++) {
     const l = lines[i];
-    let g = groups.get(l.kLower);
-    if (!g) groups.set(l.kLower, (g = [[], [], []]));
-    g[l.isOutlier ? 2 : l.isExcluded ? 1 : 0].push(i);
+    const deltaK = l.kUpper - l.kLower;
+    const deltaJ = l.jUpper - l.jLower;
+    const key = `${deltaK}:${l.kLower}:${deltaJ}`;
+    let g = groups.get(key);
+    if (!g) groups.set(key, (g = { deltaK, kLower: l.kLower, deltaJ, idx: [[], [], []] }));
+    g.idx[l.isOutlier ? 2 : l.isExcluded ? 1 : 0].push(i);
   }
+  // Legend order as the ladders: ΔK descending, K'', branch.
+  const series = [...groups.values()].sort((a, b) => b.deltaK - a.deltaK || a.kLower - b.kLower || a.deltaJ - b.deltaJ);
   const data: Data[] = [];
-  for (const k of [...groups.keys()].sort((a, b) => a - b)) {
-    const colour = kColour(k, isDark);
-    const name = shape === 'linear' ? 'lines' : `K″=${k}`;
+  for (const g of series) {
+    const colour = ladderColour(g.deltaK, g.kLower, isDark);
+    const name = seriesLabelAscii(g.deltaK, g.deltaJ, g.kLower, shape);
+    const base = BRANCH_SYMBOLS[g.deltaJ] ?? 'circle';
     let isFirst = true;
-    groups.get(k)!.forEach((idx, c) => {
+    g.idx.forEach((idx, c) => {
       if (idx.length === 0) return;
       const n = idx.length;
       const x = new Array<number>(n);
@@ -86,21 +97,26 @@ export function residualFigure(
         type: 'scatter',
         mode: 'markers',
         name: isFirst ? name : `${name}${RESIDUAL_CLASSES[c].suffix}`,
-        legendgroup: `k${k}`,
+        legendgroup: `s${g.deltaK}:${g.kLower}:${g.deltaJ}`,
         showlegend: isFirst,
         x,
         y,
         customdata: ids,
         hovertext: text,
         hovertemplate: '%{hovertext}<extra></extra>',
-        marker: { color: colour, size: 7, symbol: RESIDUAL_CLASSES[c].symbol },
+        marker: { color: colour, size: 7, symbol: RESIDUAL_CLASSES[c].symbol(base) },
       } as Data);
       isFirst = false;
     });
   }
   return {
     data,
-    layout: { ...baseLayout(isDark), xaxis: axis(isDark, 'J″'), yaxis: { ...axis(isDark, 'obs − calc / cm⁻¹'), exponentformat: 'e' } },
+    layout: {
+      ...baseLayout(isDark),
+      legend: { orientation: 'v', font: { size: 10 }, title: { text: 'sub-branch<br>◀ P ● Q ▶ R' } },
+      xaxis: axis(isDark, 'J″'),
+      yaxis: { ...axis(isDark, 'obs − calc / cm⁻¹'), exponentformat: 'e' },
+    },
   };
 }
 
@@ -114,11 +130,12 @@ const CORRELATION_SCALE: [number, string][] = [
 ];
 
 /**
- * Correlation matrix heatmap of the floated constants (zmin −1, zmax +1), values printed in cells.
+ * Correlation matrix heatmap of the floated constants (zmin −1, zmax +1), values printed in cells;
+ * the constants named as the trade writes them (D<sub>J</sub>″), not by their file keys.
  * @param result the fit
  */
 export function correlationFigure(result: FitResult, isDark: boolean): { data: Data[]; layout: Partial<Layout> } {
-  const keys = result.floated;
+  const keys = result.floated.map((k) => constantNameHtml(k));
   const n = keys.length;
   const z = result.correlation.map((row) => [...row]);
   const text = z.map((row) => row.map((v) => v.toFixed(2)));
