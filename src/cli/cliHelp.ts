@@ -35,7 +35,7 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
   simulate: {
     summary: 'List the lines of the band the model describes, strongest = 1.',
     options: [
-      { name: 'model', value: 'M.json', text: 'model file (see DEVELOPERS.md)', unit: 'file path', default: 'required' },
+      { name: 'model', value: 'M.json', text: 'model file or system file (see DEVELOPERS.md)', unit: 'file path', default: 'required' },
       {
         name: 'min-intensity',
         value: 'X',
@@ -50,7 +50,7 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
   spectrum: {
     summary: 'Compute the band spectrum on an even grid (Voigt profiles: Doppler width from temperature and mass, Lorentz width given).',
     options: [
-      { name: 'model', value: 'M.json', text: 'model file', unit: 'file path', default: 'required' },
+      { name: 'model', value: 'M.json', text: 'model file or system file (every band is summed)', unit: 'file path', default: 'required' },
       { name: 'from', value: 'X1', text: 'first grid point', unit: 'cm^-1', default: 'required' },
       { name: 'to', value: 'X2', text: 'last grid point (> X1)', unit: 'cm^-1', default: 'required' },
       {
@@ -110,6 +110,20 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
       { name: 'lines', value: 'L.csv', text: 'line table', unit: 'file path; wavenumber in cm^-1', default: 'required' },
       { name: 'state', value: 'lower|upper', text: 'state whose constants are wanted', unit: 'word', default: 'required' },
       { name: 'shape', value: 'prolate|oblate', text: 'rotor shape (linear is also accepted)', unit: 'word', default: 'prolate' },
+      {
+        name: 'model',
+        value: 'S.json',
+        text: 'system file: pool every band that shares the state named by --state (a state name of the system file then)',
+        unit: 'file path',
+        default: 'none (one band, from the line table alone)',
+      },
+      {
+        name: 'species',
+        value: 'NAME',
+        text: 'species of the state, when the system file has several',
+        unit: 'word',
+        default: 'the only species',
+      },
     ],
     output: `stdout: JSON {B, DJ, DJK: {value, sigma, fixed} in cm^-1, nPairs, sigmaW, rms, pairs, warnings}. ${WARNINGS}`,
     example: 'npm run --silent cli -- combdiff --lines lines.csv --state lower   (lines.csv as written by assign)',
