@@ -5,6 +5,8 @@ export * from './bandSymmetry';
 export * from './constants';
 export * from './faddeeva';
 export * from './honlLondon';
+export * from './instrumentLineShape';
+export * from './instrumentSpectrum';
 export * from './lineLabel';
 export * from './lineShape';
 export * from './lineShapeVoigtTable';

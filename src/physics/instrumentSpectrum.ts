@@ -1,0 +1,241 @@
+/**
+ * A band as a Fourier-transform spectrometer records it: the true optical depth τ(ν) of the lines
+ * (Voigt profiles) turned into transmittance e^{−τ}, convolved with the instrument line shape,
+ * and given back as the apparent optical depth −ln(ILS ⊛ e^{−τ}) at the requested points.
+ * Applying the ILS to transmittance, not to τ, is what the instrument does; the two agree only
+ * while τ ≪ 1 at the lines' own (Doppler) width, which unresolved Q branches of heavy molecules
+ * easily break.
+ * Source: Griffiths & de Haseth, Fourier Transform Infrared Spectrometry, 2nd ed. (2007), ch. 2;
+ * Beer–Lambert law T = e^{−τ}.
+ */
+import { lineShapeDopplerHwhm, lineShapeVoigtFwhm } from './lineShape';
+import { apodizationCheck, instrumentApplyToPacked, type ApodizationName } from './instrumentLineShape';
+import { spectrumSynthesize, type SpectrumLines } from './spectrum';
+import { spectrumFftReal, spectrumFftRealInverse, spectrumFftTwiddles } from './spectrumFft';
+
+/** How the instrument is applied: exactly (transmittance) or in the weak-absorption limit (linear). */
+export type InstrumentRoute = 'linear' | 'transmittance';
+
+/** Options of instrumentSpectrum. */
+export interface InstrumentSpectrumOptions {
+  /** Maximum optical path difference L, cm (> 0). */
+  opdCm: number;
+  /** Apodization of the interferogram. @default 'boxcar' */
+  apodization?: ApodizationName;
+  /** Translational temperature for the Doppler width, K (> 0). */
+  temperatureK: number;
+  /** Molecular mass, amu (> 0). */
+  massAmu: number;
+  /** Lorentz HWHM shared by all lines, cm^-1 (≥ 0). @default 0 */
+  lorentzHwhmCm1?: number;
+  /** Optical depth τ (natural-log absorbance, −ln T) per unit of line intensity × cm (≥ 0). */
+  opticalDepthScale: number;
+  /**
+   * 'transmittance' applies the ILS to e^{−τ}; 'linear' to τ (the weak-absorption limit);
+   * 'auto' takes 'linear' only when the largest optical depth at the lines' own width is
+   * estimated below LINEAR_ROUTE_MAX_DEPTH. @default 'auto'
+   */
+  route?: InstrumentRoute | 'auto';
+  /** Largest internal grid (power of two). @default 2^21 */
+  maxFinePoints?: number;
+}
+
+/** What instrumentSpectrum returns. */
+export interface InstrumentSpectrumResult {
+  /** Apparent optical depth −ln(T_observed) at each requested point (dimensionless). */
+  opticalDepth: Float64Array;
+  /** The route taken. */
+  route: InstrumentRoute;
+  /** Internal grid step, cm^-1, and its length (FFT size). */
+  fineStepCm1: number;
+  finePoints: number;
+  /**
+   * True when the transmittance route's grid is coarser than a third of the lines' Voigt FWHM
+   * (maxFinePoints reached): strong-line saturation is then only approximated.
+   */
+  isUnderResolved: boolean;
+}
+
+/** Largest estimated peak optical depth for which the 'auto' route applies the ILS to τ directly. */
+export const LINEAR_ROUTE_MAX_DEPTH = 0.01;
+
+/** Internal grid step of the linear route in units of 1/L: 40 points per 1/L keeps aliasing below 0.3 %. */
+const LINEAR_STEP_TIMES_OPD = 0.025;
+
+/**
+ * Region beyond the requested range whose lines still count (their ILS wings), in units of 1/L
+ * (12/L is 24 resolution elements; a boxcar wing there is below 1.5 % of one line's peak, and the
+ * wings of neighbouring lines alternate in sign).
+ */
+const MARGIN_TIMES_INV_OPD = 12;
+
+function nextPow2(n: number): number {
+  let p = 2;
+  while (p < n) p *= 2;
+  return p;
+}
+
+/**
+ * Estimated largest optical depth of the lines at their own width: lines collected in bins one
+ * Voigt FWHM wide, the fullest bin's intensity times the peak of an area-1 Gaussian of that FWHM.
+ * @returns dimensionless estimate (an upper-ish bound for isolated lines, fair for Q-branch piles)
+ */
+function peakDepthEstimate(lines: SpectrumLines, lo: number, hi: number, fwhmCm1: number, scale: number): number {
+  const nBins = Math.max(1, Math.min(1 << 22, Math.ceil((hi - lo) / fwhmCm1) + 1));
+  const bins = new Float64Array(nBins);
+  let max = 0;
+  for (let i = 0; i < lines.count; i++) {
+    const nu = lines.wavenumberCm1[i];
+    if (nu < lo || nu > hi) continue;
+    const b = Math.min(nBins - 1, Math.floor((nu - lo) / fwhmCm1));
+    bins[b] += lines.intensity[i];
+    if (bins[b] > max) max = bins[b];
+  }
+  return (scale * max * 0.9394) / fwhmCm1;
+}
+
+/** Four-point Lagrange interpolation of y (uniform grid from g0, step h) at x. */
+function cubicAt(y: Float64Array, g0: number, h: number, x: number): number {
+  const t = (x - g0) / h;
+  let j = Math.floor(t) - 1;
+  if (j < 0) j = 0;
+  if (j > y.length - 4) j = y.length - 4;
+  const u = t - j; // in [1, 2] normally
+  const a = u - 1;
+  const b = u - 2;
+  const c = u - 3;
+  return (-y[j] * a * b * c) / 6 + (y[j + 1] * u * b * c) / 2 - (y[j + 2] * u * a * c) / 2 + (y[j + 3] * u * a * b) / 6;
+}
+
+/**
+ * The apparent optical depth of a line list seen through a Fourier-transform spectrometer, at
+ * ascending points x (a trace's axis). Lines up to 12/L beyond [x_0, x_last] contribute.
+ *
+ * Transmittance route: τ on an internal grid of step ≤ FWHM_Voigt/3 (spectrumSynthesize, full
+ * Voigt profiles), a = 1 − e^{−τ}, a ⊛ ILS by FFT (zero padded, so nothing wraps around), then
+ * −ln(1 − a_obs) at x by four-point interpolation of the band-limited a_obs.
+ * Linear route: lines binned as sticks (linear weights, whose sinc² smoothing is divided out) on
+ * a grid of step 0.025/L, one FFT, multiplied by the Voigt transform exp(−π²x²α²/ln2 − 2πγ|x|)
+ * (α at the centre of the range) and the apodization, inverse FFT.
+ * Source: Griffiths & de Haseth (2007) ch. 2 (ILS, apodization); convolution theorem; Voigt
+ * transform as the product of the Gaussian and Lorentzian transforms (e.g. Armstrong, JQSRT 7,
+ * 61 (1967)).
+ * @param lines line centres (cm^-1) and intensities (area, intensity unit)
+ * @param xCm1 ascending points, cm^-1 (at least one)
+ * @param options instrument and line-width options (cm, cm^-1, K, amu)
+ * @returns apparent optical depth −ln T at x, and how it was computed
+ */
+export function instrumentSpectrum(lines: SpectrumLines, xCm1: Float64Array, options: InstrumentSpectrumOptions): InstrumentSpectrumResult {
+  const fn = 'instrumentSpectrum';
+  const { opdCm, temperatureK, massAmu, opticalDepthScale: scale } = options;
+  const apodization = apodizationCheck(fn, options.apodization ?? 'boxcar');
+  const gamma = options.lorentzHwhmCm1 ?? 0;
+  if (!(opdCm > 0) || !Number.isFinite(opdCm)) throw new RangeError(`${fn}: opdCm must be finite and > 0, got ${opdCm}`);
+  if (!(temperatureK > 0)) throw new RangeError(`${fn}: temperatureK must be > 0, got ${temperatureK}`);
+  if (!(massAmu > 0)) throw new RangeError(`${fn}: massAmu must be > 0, got ${massAmu}`);
+  if (!(gamma >= 0) || !Number.isFinite(gamma)) throw new RangeError(`${fn}: lorentzHwhmCm1 must be finite and >= 0, got ${gamma}`);
+  if (!(scale >= 0) || !Number.isFinite(scale)) throw new RangeError(`${fn}: opticalDepthScale must be finite and >= 0, got ${scale}`);
+  const n = xCm1.length;
+  if (n < 1) throw new RangeError(`${fn}: xCm1 must hold at least one point`);
+  for (let i = 0; i < n; i++) {
+    if (!Number.isFinite(xCm1[i]) || (i > 0 && !(xCm1[i] > xCm1[i - 1]))) {
+      throw new RangeError(`${fn}: xCm1 must be finite and strictly ascending; point ${i} is ${xCm1[i]}`);
+    }
+  }
+  const maxFine = options.maxFinePoints ?? 1 << 21;
+  const xLo = xCm1[0];
+  const xHi = xCm1[n - 1];
+  const margin = MARGIN_TIMES_INV_OPD / opdCm;
+  const lo = xLo - margin;
+  const hi = xHi + margin;
+  const centre = 0.5 * (xLo + xHi);
+  const alpha = lineShapeDopplerHwhm(centre, temperatureK, massAmu);
+  const fwhmVoigt = lineShapeVoigtFwhm(2 * gamma, 2 * alpha);
+
+  const requested = options.route ?? 'auto';
+  const route: InstrumentRoute =
+    requested !== 'auto'
+      ? requested
+      : peakDepthEstimate(lines, lo, hi, fwhmVoigt, scale) < LINEAR_ROUTE_MAX_DEPTH
+        ? 'linear'
+        : 'transmittance';
+
+  // Internal grid: data over [lo, hi], then as many zeros again (half on each side) so the
+  // circular convolution wraps nothing but zeros into the range.
+  const span = hi - lo;
+  let step = LINEAR_STEP_TIMES_OPD / opdCm;
+  let isUnderResolved = false;
+  if (route === 'transmittance') step = Math.min(step, fwhmVoigt / 3);
+  let nFine = nextPow2(Math.ceil((span + 2 * margin) / step) + 4);
+  if (nFine > maxFine) {
+    nFine = maxFine;
+    const coarser = (span + 2 * margin) / (nFine - 4);
+    if (route === 'transmittance' && coarser > fwhmVoigt / 3) isUnderResolved = true;
+    step = coarser;
+  }
+  const g0 = lo - margin;
+  const twiddles = spectrumFftTwiddles(nFine);
+  const buf = new Float64Array(nFine);
+
+  if (route === 'linear') {
+    for (let i = 0; i < lines.count; i++) {
+      const nu = lines.wavenumberCm1[i];
+      if (nu < lo || nu > hi) continue;
+      const t = (nu - g0) / step;
+      const j = Math.floor(t);
+      const f = t - j;
+      const w = (scale * lines.intensity[i]) / step;
+      buf[j] += w * (1 - f);
+      buf[j + 1] += w * f;
+    }
+    spectrumFftReal(buf, twiddles);
+    const dx = 1 / (nFine * step);
+    const voigtGain = (x: number): number => {
+      const s = Math.PI * x * step;
+      const sinc = s === 0 ? 1 : Math.sin(s) / s;
+      return Math.exp(-(Math.PI * Math.PI * x * x * alpha * alpha) / Math.LN2 - 2 * Math.PI * gamma * x) / (sinc * sinc);
+    };
+    const half = nFine >> 1;
+    const kMax = Math.min(half - 1, Math.ceil(opdCm / dx));
+    for (let k = 1; k <= kMax; k++) {
+      const g = voigtGain(k * dx);
+      buf[2 * k] *= g;
+      buf[2 * k + 1] *= g;
+    }
+    buf[1] *= voigtGain(half * dx);
+    instrumentApplyToPacked(buf, step, opdCm, apodization);
+    spectrumFftRealInverse(buf, twiddles);
+    const out = new Float64Array(n);
+    for (let i = 0; i < n; i++) out[i] = cubicAt(buf, g0, step, xCm1[i]);
+    return { opticalDepth: out, route, fineStepCm1: step, finePoints: nFine, isUnderResolved };
+  }
+
+  // Transmittance route: τ on [lo, hi] only (outside: no lines counted, a = 0).
+  const offset = Math.round(margin / step);
+  const nData = Math.min(nFine - offset, Math.ceil(span / step) + 1);
+  const inWindow = { count: 0, wavenumberCm1: new Float64Array(lines.count), intensity: new Float64Array(lines.count) };
+  for (let i = 0; i < lines.count; i++) {
+    const nu = lines.wavenumberCm1[i];
+    if (nu < lo || nu > hi) continue;
+    inWindow.wavenumberCm1[inWindow.count] = nu;
+    inWindow.intensity[inWindow.count++] = lines.intensity[i];
+  }
+  const dataStart = g0 + offset * step;
+  const tau = spectrumSynthesize(
+    inWindow,
+    { fromCm1: dataStart, stepCm1: step, npoints: nData },
+    { temperatureK, massAmu, lorentzHwhmCm1: gamma },
+    buf.subarray(offset, offset + nData),
+  );
+  for (let i = 0; i < nData; i++) tau[i] = 1 - Math.exp(-scale * tau[i]);
+  spectrumFftReal(buf, twiddles);
+  instrumentApplyToPacked(buf, step, opdCm, apodization);
+  spectrumFftRealInverse(buf, twiddles);
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const transmittance = 1 - cubicAt(buf, g0, step, xCm1[i]);
+    // Ringing of an unapodized ILS next to a saturated region can take T below 0; 1e-12 keeps the log finite.
+    out[i] = -Math.log(Math.max(transmittance, 1e-12));
+  }
+  return { opticalDepth: out, route, fineStepCm1: step, finePoints: nFine, isUnderResolved };
+}
