@@ -1,4 +1,6 @@
 import { bandLines } from '../physics/bandLines';
+import { APODIZATION_NAMES, apodizationCheck } from '../physics/instrumentLineShape';
+import { instrumentSpectrum } from '../physics/instrumentSpectrum';
 import { spectrumSynthesize, type SpectrumGrid } from '../physics/spectrum';
 import { cliLoadModel } from './cliModel';
 import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand } from './cliIo';
@@ -61,13 +63,22 @@ export function spectrumCommandDecimals(stepCm1: number): number {
  * no sensible default mass). --lorentz is the Lorentz HWHM in cm^-1, default 0 (pure Doppler).
  * If DX does not divide X2 − X1 the step is adjusted to (X2 − X1)/(npoints − 1), with a note on stderr.
  * x is printed with one decimal more than the step resolves, y with 7 significant digits.
+ *
+ * With `--opd L [--apodization NAME] [--depth-scale S]` the band is seen through a Fourier-transform
+ * spectrometer of maximum optical path difference L (cm) and the named apodization (default boxcar):
+ * the true optical depth is τ = S·y (S default 1, i.e. y read as −ln T), the instrument line shape
+ * acts on the transmittance e^{−τ}, and the column y becomes the apparent optical depth −ln T_obs
+ * (natural-log absorbance, dimensionless; divide by ln 10 for decadic absorbance). For τ ≪ 1 it
+ * tends to S × (instrument line shape ⊛ y). A note on stderr says so. Without --opd the output is
+ * unchanged.
  */
 export const spectrumCommand: CliCommand = (args, io) => {
-  const opts = cliParseArgs(args, ['model', 'from', 'to', 'step', 'mass', 'lorentz']);
+  const opts = cliParseArgs(args, ['model', 'from', 'to', 'step', 'mass', 'lorentz', 'opd', 'apodization', 'depth-scale']);
   const modelPath = cliRequire(opts, 'model');
   const grid = spectrumCommandGrid(cliNumber(opts, 'from'), cliNumber(opts, 'to'), cliNumber(opts, 'step'));
   const lorentzHwhmCm1 = cliNumber(opts, 'lorentz', 0);
   if (lorentzHwhmCm1 < 0) throw new CliError(`--lorentz must be a half width >= 0 cm^-1, got ${lorentzHwhmCm1}`);
+  const instrument = spectrumCommandInstrument(opts);
   const file = cliLoadModel(modelPath, io);
   const massAmu = opts.mass !== undefined ? cliNumber(opts, 'mass') : file.massAmu;
   if (massAmu === undefined) {
@@ -81,7 +92,29 @@ export const spectrumCommand: CliCommand = (args, io) => {
   }
 
   const lines = bandLines(file.model);
-  const y = spectrumSynthesize(lines, grid, { temperatureK: file.model.temperatureK, massAmu, lorentzHwhmCm1 });
+  let y: Float64Array;
+  if (instrument) {
+    const x = new Float64Array(grid.npoints);
+    for (let k = 0; k < grid.npoints; k++) x[k] = grid.fromCm1 + k * grid.stepCm1;
+    const seen = instrumentSpectrum(lines, x, {
+      opdCm: instrument.opdCm,
+      apodization: instrument.apodization,
+      temperatureK: file.model.temperatureK,
+      massAmu,
+      lorentzHwhmCm1,
+      opticalDepthScale: instrument.depthScale,
+      route: 'transmittance',
+    });
+    y = seen.opticalDepth;
+    io.stderr(
+      `spectrum: y is the apparent optical depth −ln T (natural-log absorbance) through the instrument line shape ` +
+        `(L = ${instrument.opdCm} cm, ${instrument.apodization}), true optical depth = ${instrument.depthScale} × relative intensity × cm` +
+        (seen.isUnderResolved ? '; WARNING: the internal grid is coarser than the line width, saturation is approximate' : '') +
+        '\n',
+    );
+  } else {
+    y = spectrumSynthesize(lines, grid, { temperatureK: file.model.temperatureK, massAmu, lorentzHwhmCm1 });
+  }
 
   const decimals = spectrumCommandDecimals(grid.stepCm1);
   const last = grid.npoints - 1;
@@ -99,3 +132,31 @@ export const spectrumCommand: CliCommand = (args, io) => {
   if (chunk) io.stdout(chunk);
   return 0;
 };
+
+/**
+ * The instrument options of the spectrum command, or null without --opd.
+ * @throws CliError for --apodization or --depth-scale without --opd, L ≤ 0, an unknown apodization
+ *   or a negative depth scale
+ */
+export function spectrumCommandInstrument(
+  opts: Record<string, string | true>,
+): { opdCm: number; apodization: (typeof APODIZATION_NAMES)[number]; depthScale: number } | null {
+  if (opts.opd === undefined) {
+    for (const name of ['apodization', 'depth-scale']) {
+      if (opts[name] !== undefined) throw new CliError(`--${name} needs --opd L (the maximum optical path difference, cm)`);
+    }
+    return null;
+  }
+  const opdCm = cliNumber(opts, 'opd');
+  if (!(opdCm > 0)) throw new CliError(`--opd must be a maximum optical path difference > 0 cm, got ${opdCm}`);
+  const name = typeof opts.apodization === 'string' ? opts.apodization : 'boxcar';
+  let apodization: (typeof APODIZATION_NAMES)[number];
+  try {
+    apodization = apodizationCheck('spectrum', name);
+  } catch {
+    throw new CliError(`--apodization must be one of ${APODIZATION_NAMES.join(', ')}, got '${name}'`);
+  }
+  const depthScale = cliNumber(opts, 'depth-scale', 1);
+  if (!(depthScale >= 0)) throw new CliError(`--depth-scale must be >= 0, got ${depthScale}`);
+  return { opdCm, apodization, depthScale };
+}
