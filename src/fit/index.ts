@@ -2,6 +2,7 @@
 export * from './assignment';
 export * from './bandDesign';
 export * from './combinationDifferences';
+export * from './contourFit';
 export * from './fitBand';
 export * from './fitCheck';
 export * from './fitPredict';
