@@ -12,6 +12,7 @@ export * from './assistantSeedFromModel';
 export * from './assistantSeriesExtend';
 export * from './assistantShiftSearch';
 export * from './assistantTypes';
+export * from './bandShapeClassify';
 export * from './baselineEstimate';
 export * from './calibrationApply';
 export * from './calibrationFit';

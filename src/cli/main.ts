@@ -9,7 +9,8 @@ import { CliError, type CliCommand, type CliIo } from './cliIo';
 const COMMANDS: Record<string, { summary: string; load: () => Promise<CliCommand> }> = {
   simulate: { summary: 'simulate --model M.json', load: async () => (await import('./simulateCommand')).simulateCommand },
   spectrum: {
-    summary: 'spectrum --model M.json --from X1 --to X2 --step DX [--mass AMU] [--lorentz HWHM]',
+    summary:
+      'spectrum --model M.json --from X1 --to X2 --step DX [--mass AMU] [--lorentz HWHM] [--opd L [--apodization NAME] [--depth-scale S]]',
     load: async () => (await import('./spectrumCommand')).spectrumCommand,
   },
   peaks: { summary: 'peaks --trace FILE [--min-snr S]', load: async () => (await import('./peaksCommand')).peaksCommand },
@@ -21,6 +22,15 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<CliCommand
   assign: {
     summary: 'assign --model M.json --trace FILE [--lines SEED.csv] [--tolerance K]',
     load: async () => (await import('./assignCommand')).assignCommand,
+  },
+  contour: {
+    summary:
+      'contour --model M.json --trace FILE --from X1 --to X2 --opd L [--apodization NAME] [--mass AMU] [--lorentz HWHM] [--float key1,key2,...]',
+    load: async () => (await import('./contourCommand')).contourCommand,
+  },
+  classify: {
+    summary: 'classify --trace FILE --from X1 --to X2 [--temperature K]',
+    load: async () => (await import('./classifyCommand')).classifyCommand,
   },
 };
 
