@@ -21,4 +21,5 @@ export * from './noiseSigmaEstimate';
 export * from './peakProminence';
 export * from './peaksFind';
 export * from './peaksFindSimple';
+export * from './qBranchFind';
 export * from './traceCheck';

@@ -12,4 +12,5 @@ export * from './householderQr';
 export * from './jacobiSvd';
 export * from './leastSquares';
 export * from './leastSquaresLinearise';
+export * from './qBranchFit';
 export * from './rankDiagnosis';
