@@ -18,3 +18,4 @@ export * from './spectrumFft';
 export * from './spectrumTail';
 export * from './termValues';
 export * from './transitionCheck';
+export * from './vibrationalActivity';
