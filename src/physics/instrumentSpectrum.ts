@@ -50,8 +50,8 @@ export interface InstrumentSpectrumResult {
   fineStepCm1: number;
   finePoints: number;
   /**
-   * True when the transmittance route's grid is coarser than a third of the lines' Voigt FWHM
-   * (maxFinePoints reached): strong-line saturation is then only approximated.
+   * True when the saturated windows of the transmittance route needed more than maxFinePoints
+   * points and were sampled coarser than a third of the Voigt FWHM: saturation is then approximate.
    */
   isUnderResolved: boolean;
 }
@@ -111,12 +111,14 @@ function cubicAt(y: Float64Array, g0: number, h: number, x: number): number {
  * The apparent optical depth of a line list seen through a Fourier-transform spectrometer, at
  * ascending points x (a trace's axis). Lines up to 12/L beyond [x_0, x_last] contribute.
  *
- * Transmittance route: τ on an internal grid of step ≤ FWHM_Voigt/3 (spectrumSynthesize, full
- * Voigt profiles), a = 1 − e^{−τ}, a ⊛ ILS by FFT (zero padded, so nothing wraps around), then
- * −ln(1 − a_obs) at x by four-point interpolation of the band-limited a_obs.
- * Linear route: lines binned as sticks (cubic B-spline weights, whose sinc⁴ smoothing is divided out) on
- * a grid of step 0.025/L, one FFT, multiplied by the Voigt transform exp(−π²x²α²/ln2 − 2πγ|x|)
- * (α at the centre of the range) and the apodization, inverse FFT.
+ * Both routes bin the lines as sticks (cubic B-spline weights, whose sinc⁴ is divided out) on an
+ * internal grid of step 0.025/L, take one FFT, multiply by the Voigt transform
+ * exp(−π²x²α²/ln2 − 2πγ|x|) (α at the centre of the range) and the apodization, and transform back.
+ * That is the instrument applied to τ (the weak-absorption limit, 'linear'). The transmittance
+ * route subtracts, before the apodization, the saturation c = τ − (1 − e^{−τ}) computed exactly
+ * (full Voigt profiles on a grid of a third of the FWHM) inside windows around every place where the
+ * lines reach an optical depth above LINEAR_ROUTE_MAX_DEPTH at their own width, and returns
+ * −ln(1 − ILS ⊛ (τ − c)); elsewhere c ≤ τ²/2 < 5e-5 is neglected.
  * Source: Griffiths & de Haseth (2007) ch. 2 (ILS, apodization); convolution theorem; Voigt
  * transform as the product of the Gaussian and Lorentzian transforms (e.g. Armstrong, JQSRT 7,
  * 61 (1967)).
@@ -160,87 +162,164 @@ export function instrumentSpectrum(lines: SpectrumLines, xCm1: Float64Array, opt
         ? 'linear'
         : 'transmittance';
 
-  // Internal grid: data over [lo, hi], then as many zeros again (half on each side) so the
-  // circular convolution wraps nothing but zeros into the range.
+  // Internal grid (step 0.025/L): data over [lo, hi], then as many zeros again (half on each side)
+  // so the circular convolution wraps nothing but zeros into the range.
   const span = hi - lo;
   let step = LINEAR_STEP_TIMES_OPD / opdCm;
-  let isUnderResolved = false;
-  if (route === 'transmittance') step = Math.min(step, fwhmVoigt / 3);
-  let nFine = nextPow2(Math.ceil((span + 2 * margin) / step) + 4);
+  let nFine = nextPow2(Math.ceil((span + 2 * margin) / step) + 8);
   if (nFine > maxFine) {
     nFine = maxFine;
-    const coarser = (span + 2 * margin) / (nFine - 4);
-    if (route === 'transmittance' && coarser > fwhmVoigt / 3) isUnderResolved = true;
-    step = coarser;
+    step = (span + 2 * margin) / (nFine - 8);
   }
   const g0 = lo - margin;
   const twiddles = spectrumFftTwiddles(nFine);
   const buf = new Float64Array(nFine);
-
-  if (route === 'linear') {
-    for (let i = 0; i < lines.count; i++) {
-      const nu = lines.wavenumberCm1[i];
-      if (nu < lo || nu > hi) continue;
-      // Cubic B-spline weights on nodes j−1 … j+2: the binned spectrum then moves smoothly (C²)
-      // with the line positions, which a least-squares fit needs; their sinc⁴ is divided out below.
-      const t = (nu - g0) / step;
-      const j = Math.floor(t);
-      const f = t - j;
-      const g = 1 - f;
-      const w = (scale * lines.intensity[i]) / (6 * step);
-      buf[j - 1] += w * g * g * g;
-      buf[j] += w * (3 * f * f * f - 6 * f * f + 4);
-      buf[j + 1] += w * (-3 * f * f * f + 3 * f * f + 3 * f + 1);
-      buf[j + 2] += w * f * f * f;
-    }
-    spectrumFftReal(buf, twiddles);
-    const dx = 1 / (nFine * step);
-    const voigtGain = (x: number): number => {
-      const s = Math.PI * x * step;
-      const sinc = s === 0 ? 1 : Math.sin(s) / s;
-      return Math.exp(-(Math.PI * Math.PI * x * x * alpha * alpha) / Math.LN2 - 2 * Math.PI * gamma * x) / (sinc * sinc * sinc * sinc);
-    };
-    const half = nFine >> 1;
-    const kMax = Math.min(half - 1, Math.ceil(opdCm / dx));
-    for (let k = 1; k <= kMax; k++) {
-      const g = voigtGain(k * dx);
-      buf[2 * k] *= g;
-      buf[2 * k + 1] *= g;
-    }
-    buf[1] *= voigtGain(half * dx);
-    instrumentApplyToPacked(buf, step, opdCm, apodization);
-    spectrumFftRealInverse(buf, twiddles);
-    const out = new Float64Array(n);
-    for (let i = 0; i < n; i++) out[i] = cubicAt(buf, g0, step, xCm1[i]);
-    return { opticalDepth: out, route, fineStepCm1: step, finePoints: nFine, isUnderResolved };
-  }
-
-  // Transmittance route: τ on [lo, hi] only (outside: no lines counted, a = 0).
-  const offset = Math.round(margin / step);
-  const nData = Math.min(nFine - offset, Math.ceil(span / step) + 1);
-  const inWindow = { count: 0, wavenumberCm1: new Float64Array(lines.count), intensity: new Float64Array(lines.count) };
   for (let i = 0; i < lines.count; i++) {
     const nu = lines.wavenumberCm1[i];
     if (nu < lo || nu > hi) continue;
-    inWindow.wavenumberCm1[inWindow.count] = nu;
-    inWindow.intensity[inWindow.count++] = lines.intensity[i];
+    binCubic(buf, (nu - g0) / step, (scale * lines.intensity[i]) / step);
   }
-  const dataStart = g0 + offset * step;
-  const tau = spectrumSynthesize(
-    inWindow,
-    { fromCm1: dataStart, stepCm1: step, npoints: nData },
-    { temperatureK, massAmu, lorentzHwhmCm1: gamma },
-    buf.subarray(offset, offset + nData),
-  );
-  for (let i = 0; i < nData; i++) tau[i] = 1 - Math.exp(-scale * tau[i]);
+  let corr: Float64Array | null = null;
+  let isUnderResolved = false;
+  if (route === 'transmittance') {
+    corr = new Float64Array(nFine);
+    isUnderResolved = saturationSticks(lines, lo, hi, scale, fwhmVoigt, gamma, temperatureK, massAmu, g0, step, corr, maxFine);
+  }
   spectrumFftReal(buf, twiddles);
+  if (corr) spectrumFftReal(corr, twiddles);
+  const dx = 1 / (nFine * step);
+  const half = nFine >> 1;
+  const kMax = Math.min(half - 1, Math.ceil(opdCm / dx));
+  for (let k = 1; k <= kMax; k++) {
+    const x = k * dx;
+    const sx = Math.PI * x * step;
+    const sinc = Math.sin(sx) / sx;
+    const bspline = 1 / (sinc * sinc * sinc * sinc);
+    const voigt = Math.exp(-(Math.PI * Math.PI * x * x * alpha * alpha) / Math.LN2 - 2 * Math.PI * gamma * x);
+    buf[2 * k] *= voigt * bspline;
+    buf[2 * k + 1] *= voigt * bspline;
+    if (corr) {
+      buf[2 * k] -= corr[2 * k] * bspline;
+      buf[2 * k + 1] -= corr[2 * k + 1] * bspline;
+    }
+  }
+  if (corr) buf[0] -= corr[0];
   instrumentApplyToPacked(buf, step, opdCm, apodization);
   spectrumFftRealInverse(buf, twiddles);
   const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const transmittance = 1 - cubicAt(buf, g0, step, xCm1[i]);
-    // Ringing of an unapodized ILS next to a saturated region can take T below 0; 1e-12 keeps the log finite.
-    out[i] = -Math.log(Math.max(transmittance, 1e-12));
+  if (route === 'linear') {
+    for (let i = 0; i < n; i++) out[i] = cubicAt(buf, g0, step, xCm1[i]);
+  } else {
+    for (let i = 0; i < n; i++) {
+      // buf holds the observed absorptance 1 − T_obs. Ringing of an unapodized ILS next to a
+      // saturated region can take T below 0; 1e-12 keeps the log finite.
+      out[i] = -Math.log(Math.max(1 - cubicAt(buf, g0, step, xCm1[i]), 1e-12));
+    }
   }
   return { opticalDepth: out, route, fineStepCm1: step, finePoints: nFine, isUnderResolved };
+}
+
+/**
+ * Add a stick of the given weight at fractional grid position t with cubic B-spline weights on
+ * nodes ⌊t⌋−1 … ⌊t⌋+2: the binned spectrum then moves smoothly (C²) with the line positions, which
+ * a least-squares fit needs; the B-spline's transform sinc⁴ is divided out after the FFT.
+ * Source: I. J. Schoenberg, Quart. Appl. Math. 4, 45 (1946) (cardinal B-splines).
+ */
+function binCubic(buf: Float64Array, t: number, weight: number): void {
+  const j = Math.floor(t);
+  const f = t - j;
+  const g = 1 - f;
+  const w = weight / 6;
+  buf[j - 1] += w * g * g * g;
+  buf[j] += w * (3 * f * f * f - 6 * f * f + 4);
+  buf[j + 1] += w * (-3 * f * f * f + 3 * f * f + 3 * f + 1);
+  buf[j + 2] += w * f * f * f;
+}
+
+/**
+ * The saturation correction c = τ − (1 − e^{−τ}) ≥ 0, binned as sticks on the internal grid: exact
+ * (τ from full Voigt profiles on a grid of a quarter of the Voigt FWHM) but only inside windows around
+ * the places where the lines pile up to an optical depth above LINEAR_ROUTE_MAX_DEPTH at their own
+ * width; elsewhere c < τ²/2 is neglected. The observed absorptance is then ILS ⊛ (τ − c).
+ * @returns true when the windows needed more than maxFine points and the grid was coarsened
+ */
+function saturationSticks(
+  lines: SpectrumLines,
+  lo: number,
+  hi: number,
+  scale: number,
+  fwhm: number,
+  gamma: number,
+  temperatureK: number,
+  massAmu: number,
+  g0: number,
+  step: number,
+  corr: Float64Array,
+  maxFine: number,
+): boolean {
+  const nBins = Math.ceil((hi - lo) / fwhm) + 1;
+  const bins = new Float64Array(nBins);
+  for (let i = 0; i < lines.count; i++) {
+    const nu = lines.wavenumberCm1[i];
+    if (nu < lo || nu > hi) continue;
+    bins[Math.floor((nu - lo) / fwhm)] += lines.intensity[i];
+  }
+  const peakFactor = (scale * 0.9394) / fwhm;
+  const pad = 4 + Math.ceil((20 * gamma) / fwhm);
+  const windows: [number, number][] = [];
+  for (let b = 0; b < nBins; b++) {
+    const near = bins[b] + (b > 0 ? bins[b - 1] : 0) + (b + 1 < nBins ? bins[b + 1] : 0);
+    if (near * peakFactor < LINEAR_ROUTE_MAX_DEPTH) continue;
+    const wa = Math.max(0, b - pad);
+    const wb = Math.min(nBins - 1, b + pad);
+    const last = windows[windows.length - 1];
+    // Nearby windows are merged: each window costs a synthesis set-up, a short gap costs little.
+    if (last && wa <= last[1] + 400) last[1] = wb;
+    else windows.push([wa, wb]);
+  }
+  if (windows.length === 0) return false;
+  let total = 0;
+  for (const [wa, wb] of windows) total += wb - wa + 1;
+  let fineStep = fwhm / 3;
+  let isUnderResolved = false;
+  if (total * 3 > maxFine) {
+    fineStep = (total * fwhm) / maxFine;
+    isUnderResolved = fineStep > fwhm / 3;
+  }
+  // Lines sorted by position once, so each window takes its own (with wings) by bisection.
+  const order = Array.from({ length: lines.count }, (_, i) => i).sort((p, q) => lines.wavenumberCm1[p] - lines.wavenumberCm1[q]);
+  const sortedNu = Float64Array.from(order, (i) => lines.wavenumberCm1[i]);
+  const lowerBound = (v: number) => {
+    let a = 0;
+    let b = sortedNu.length;
+    while (a < b) {
+      const m = (a + b) >> 1;
+      if (sortedNu[m] < v) a = m + 1;
+      else b = m;
+    }
+    return a;
+  };
+  const reach = 6 * fwhm + 50 * gamma;
+  for (const [wa, wb] of windows) {
+    const from = lo + wa * fwhm;
+    const to = lo + (wb + 1) * fwhm;
+    const i0 = lowerBound(from - reach);
+    const i1 = lowerBound(to + reach);
+    const local = { count: i1 - i0, wavenumberCm1: new Float64Array(i1 - i0), intensity: new Float64Array(i1 - i0) };
+    for (let k = i0; k < i1; k++) {
+      local.wavenumberCm1[k - i0] = sortedNu[k];
+      local.intensity[k - i0] = lines.intensity[order[k]];
+    }
+    const npoints = Math.max(2, Math.ceil((to - from) / fineStep) + 1);
+    const h = (to - from) / (npoints - 1);
+    const tau = spectrumSynthesize(local, { fromCm1: from, stepCm1: h, npoints }, { temperatureK, massAmu, lorentzHwhmCm1: gamma });
+    for (let j = 0; j < npoints; j++) {
+      const t = scale * tau[j];
+      // τ − (1 − e^{−τ}) without cancellation for small τ.
+      const c = t < 1e-3 ? t * t * (0.5 - t / 6) : t - 1 + Math.exp(-t);
+      if (c === 0) continue;
+      binCubic(corr, (from + j * h - g0) / step, ((j === 0 || j === npoints - 1 ? 0.5 : 1) * c * h) / step);
+    }
+  }
+  return isUnderResolved;
 }
