@@ -34,7 +34,8 @@ export interface ContourFitInput {
   lorentzHwhmCm1?: number;
   /**
    * Keys floated: model keys ("upper.origin", "lower.B", …), "scale" and "lorentz".
-   * @default contourDefaultFloat(model) plus scale and lorentz
+   * @default contourDefaultFloat(model), scale, and lorentz when lorentzHwhmCm1 > 0 (at 0 the width
+   *   enters as |γ| and has no slope, so it cannot start from there)
    */
   float?: string[];
   /** Degree of the baseline polynomial in the reduced abscissa t ∈ [−1, 1]. @default 1 */
@@ -174,7 +175,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     if (!Number.isFinite(y[i])) throw new Error(`${fn}: the trace has a non-finite absorbance at ${x[i]} cm^-1`);
   }
   const allowed = new Set([...fitParameterKeys(input.model.shape), 'scale', 'lorentz']);
-  const requested = input.float ?? [...contourDefaultFloat(input.model), 'scale', 'lorentz'];
+  const requested = input.float ?? [...contourDefaultFloat(input.model), 'scale', ...((input.lorentzHwhmCm1 ?? 0) > 0 ? ['lorentz'] : [])];
   for (const k of requested) {
     if (!allowed.has(k)) throw new Error(`${fn}: cannot float '${k}' for a ${input.model.shape} model; known: ${[...allowed].join(', ')}`);
   }
