@@ -239,6 +239,8 @@ export function bandShapeClassify(
   let comb: ReturnType<typeof combOf> = null;
   for (const level of [0.5, 0.3, 0.12]) {
     comb = combOf(allPeaks.filter((p) => p.prominence >= level * maxProm));
+    // A "comb" finer than three samples is noise or ripple, not structure.
+    if (comb && comb.spacing < 3 * step) comb = null;
     if (comb) break;
   }
 
@@ -262,7 +264,7 @@ export function bandShapeClassify(
   // median prominence of its neighbours.
   const local = comb ? 3 * comb.spacing : width / 6;
   const central = allPeaks.filter((p) => Math.abs(p.x - centroid) < 0.3 * width);
-  let centralSpike: Peak | null = null;
+  let centralSpike: Peak | null = null as Peak | null;
   const envPlain = smooth(y, Math.max(2, (comb ? 1.2 * comb.spacing : width / 40) / step));
   const plainMax = Math.max(...envPlain);
   const plainLobes = refinedPeaks(x, envPlain, 0.05 * plainMax).filter((p) => p.height > 0.3 * plainMax);
@@ -310,7 +312,25 @@ export function bandShapeClassify(
 
   const centre0 = tallest ? tallest.x : centroid;
   const twoLobes = lobes.some((l) => l.x < centre0) && lobes.some((l) => l.x > centre0);
-  if (comb && !twoLobes && !centralSpike) {
+  // Heights of the comb members near the centre: a series of Q branches peaks there; resolved P and
+  // R lines dip there (low J), with a Q branch standing out of the dip in a PQR band.
+  let combDip = false;
+  let combCentralPeak: Peak | null = null;
+  if (comb) {
+    const hMax = Math.max(...comb.members.map((p) => p.height));
+    const near = comb.members.filter((p) => Math.abs(p.x - centroid) <= 2.5 * comb.spacing);
+    const tallestNear = near.reduce<Peak | null>((b, p) => (!b || p.height > b.height ? p : b), null);
+    const rest = near.filter((p) => p !== tallestNear);
+    const restMean = rest.length ? rest.reduce((a, p) => a + p.height, 0) / rest.length : 0;
+    if (tallestNear && rest.length >= 2 && tallestNear.height >= 2 * restMean && Math.abs(tallestNear.x - centroid) <= 1.5 * comb.spacing) {
+      combCentralPeak = tallestNear;
+    }
+    const nearMean = near.length ? near.reduce((a, p) => a + p.height, 0) / near.length : 0;
+    combDip = near.length === 0 || (combCentralPeak ? restMean : nearMean) < 0.5 * hMax;
+  }
+  if (comb && !centralSpike && combCentralPeak) centralSpike = combCentralPeak;
+  const combIsQSeries = comb !== null && !twoLobes && !combDip && !combCentralPeak && !centralSpike;
+  if (comb && combIsQSeries) {
     profile = 'Q-series';
     const fit = qSeriesFit(comb.members, centroid);
     qSpacing = fit.spacing;
@@ -321,8 +341,24 @@ export function bandShapeClassify(
       'the origin is the band centroid (which Q branch is K = 0 needs the model or the intensity pattern)',
       'B is not read from a Q-branch series (the spacing gives A′(1−ζ) − B′, not B)',
     );
-    if (comb.regularity < 0.8) confidence = 'medium';
-  } else if (comb && (twoLobes || centralSpike)) {
+    if (comb.regularity < 0.9 || comb.members.length < 8) confidence = 'medium';
+    // Resolved J lines of a parallel band also make a regular comb (spacing 2B). If two envelope
+    // maxima sit where P and R maxima of B = spacing/2 would (2.358√(BT), within 25 %), say so.
+    const below = plainLobes.filter((l) => l.x < centroid);
+    const above = plainLobes.filter((l) => l.x > centroid);
+    if (below.length && above.length) {
+      const sep = Math.max(...above.map((l) => l.x)) - Math.min(...below.map((l) => l.x));
+      const expected = bandPrSeparation(comb.spacing / 2, T);
+      if (Math.abs(sep / expected - 1) < 0.25) {
+        confidence = 'low';
+        evidence.push(
+          `but two envelope maxima ${sep.toPrecision(3)} cm^-1 apart fit P and R branches of lines ${comb.spacing.toPrecision(3)} cm^-1 apart (B ≈ ${(comb.spacing / 2).toPrecision(3)} cm^-1 at ${T} K): the comb may be resolved rotational lines of a parallel band`,
+        );
+      }
+    } else if (temperatureAssumed) {
+      evidence.push(`(T = ${T} K assumed only for this check)`);
+    }
+  } else if (comb) {
     // Resolved rotational lines, spacing ≈ 2B.
     B = comb.spacing / 2;
     bMethod = 'line-spacing';
@@ -332,6 +368,14 @@ export function bandShapeClassify(
       origin = centralSpike.x;
       evidence.push(
         `resolved lines with spacing ${comb.spacing.toPrecision(4)} cm^-1 (B ≈ spacing/2) and a dominant central peak at ${centralSpike.x.toFixed(3)} cm^-1: P, Q and R branches`,
+      );
+    } else if (gap && allPeaks.some((q) => Math.abs(q.x - gap.centre) < 0.5 * gap.width - 0.3 * comb!.spacing)) {
+      // Something stands in the central gap: a weak or spread Q branch (a symmetric top's parallel band).
+      profile = 'PQR';
+      origin = gap.centre;
+      confidence = 'medium';
+      evidence.push(
+        `resolved lines with spacing ${comb.spacing.toPrecision(4)} cm^-1 (B ≈ spacing/2) and a weak feature in the central gap at ${gap.centre.toFixed(3)} cm^-1: a weak Q branch`,
       );
     } else {
       profile = 'PR';
@@ -344,13 +388,22 @@ export function bandShapeClassify(
       );
       if (!gap) confidence = 'medium';
     }
-    if (!twoLobes) confidence = confidence === 'high' ? 'medium' : 'low';
+    if (!twoLobes && !combDip) confidence = confidence === 'high' ? 'medium' : 'low';
   } else if (twoLobes) {
     const [p, r] = outerLobes(lobes, centre0);
     const separation = r.x - p.x;
     const centre = centralSpike && centralSpike.x > p.x && centralSpike.x < r.x ? centralSpike.x : 0.5 * (p.x + r.x);
     B = bandBFromBranchSpread(x, bridged, centre, T);
     bMethod = 'pr-separation';
+    const fromMaxima = bandBFromPrSeparation(separation, T);
+    if (!(B / fromMaxima > 0.7 && B / fromMaxima < 1.4)) {
+      evidence.push(
+        `B from the branch spread (${B.toPrecision(3)} cm^-1) and from the maxima (${fromMaxima.toPrecision(3)} cm^-1) disagree, so none is given`,
+      );
+      B = null;
+      bMethod = 'none';
+      confidence = 'low';
+    }
     if (centralSpike && centralSpike.x > p.x && centralSpike.x < r.x) {
       profile = 'PQR';
       origin = centralSpike.x;
@@ -362,10 +415,11 @@ export function bandShapeClassify(
       origin = 0.5 * (p.x + r.x);
       evidence.push(`two envelope maxima (P and R) ${separation.toPrecision(4)} cm^-1 apart with a minimum and no Q branch between them`);
     }
-    evidence.push(
-      `B from the spread of the P and R branches about the centre (mean |ν − ν0| = 1.2533·√(2BkT/hc), the mean of the same distribution whose maxima give Δν = 2.358√(BT)) with ${tNote}; the maxima alone give ${bandBFromPrSeparation(separation, T).toPrecision(3)} cm^-1`,
-    );
-    if (temperatureAssumed) confidence = 'medium';
+    if (B !== null)
+      evidence.push(
+        `B from the spread of the P and R branches about the centre (mean |ν − ν0| = 1.2533·√(2BkT/hc), the mean of the same distribution whose maxima give Δν = 2.358√(BT)) with ${tNote}; the maxima alone give ${bandBFromPrSeparation(separation, T).toPrecision(3)} cm^-1`,
+      );
+    if (temperatureAssumed && confidence === 'high') confidence = 'medium';
   } else if (centralSpike) {
     profile = 'PQR';
     origin = centralSpike.x;
@@ -384,10 +438,17 @@ export function bandShapeClassify(
   let implication: string;
   if (profile === 'PR') {
     type = 'linear-parallel';
+    // PR implies a linear molecule; a symmetric top's weak, spread Q branch can hide in noise.
+    if (confidence === 'high') {
+      confidence = 'medium';
+      evidence.push('a weak Q branch (parallel band of a symmetric top) could hide in the noise, so PR is not certain');
+    }
+    alternativeType = 'symmetric-top-parallel';
     implication =
       'P and R without Q: a Σ–Σ (parallel) band of a linear molecule; a symmetric top would show a Q branch in a parallel band.';
   } else if (profile === 'Q-series') {
     type = 'symmetric-top-perpendicular';
+    if (confidence === 'low') alternativeType = 'symmetric-top-parallel';
     implication = 'A series of Q branches: a perpendicular (ΔK = ±1) band of a symmetric top; their spacing is ≈ 2[A′(1−ζ) − B′].';
   } else {
     const qShare = centralSpike ? qBranchShare(x, y, centralSpike, area, comb?.spacing ?? width / 20) : NaN;
