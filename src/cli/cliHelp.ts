@@ -68,8 +68,30 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
         default: 'the model file\'s "mass"; required without it',
       },
       { name: 'lorentz', value: 'HWHM', text: 'Lorentz half width at half maximum', unit: 'cm^-1', default: '0 (pure Doppler)' },
+      {
+        name: 'opd',
+        value: 'L',
+        text: 'show the band through a Fourier-transform spectrometer of this maximum optical path difference (applied to transmittance)',
+        unit: 'cm',
+        default: 'none (no instrument line shape)',
+      },
+      {
+        name: 'apodization',
+        value: 'NAME',
+        text: 'with --opd: boxcar, triangular, happ-genzel, norton-beer-weak, norton-beer-medium or norton-beer-strong',
+        unit: 'word',
+        default: 'boxcar',
+      },
+      {
+        name: 'depth-scale',
+        value: 'S',
+        text: 'with --opd: true optical depth = S × y',
+        unit: 'per (relative intensity × cm)',
+        default: '1',
+      },
     ],
-    output: 'stdout: CSV x,y; x in cm^-1, y in relative intensity × cm.',
+    output:
+      'stdout: CSV x,y; x in cm^-1, y in relative intensity × cm (with --opd: the apparent optical depth −ln T, a note on stderr says so).',
     example: 'npm run --silent cli -- spectrum --model public/demo/model.json --from 1140 --to 1160 --step 0.002',
   },
   peaks: {
@@ -156,6 +178,60 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
     ],
     output: `stdout: CSV of the confident lines (J_up,K_up,J_lo,K_lo,wavenumber,uncertainty,status,label,calc,obs_minus_calc,distance_sigma,flags,note); stderr: the final fit's summary. ${WARNINGS}`,
     example: 'npm run --silent cli -- assign --model public/demo/model.json --trace public/demo/trace.csv > lines.csv',
+  },
+  contour: {
+    summary: 'Fit the band contour of the model, seen through a Fourier-transform instrument line shape, to a region of the trace.',
+    options: [
+      {
+        name: 'model',
+        value: 'M.json',
+        text: 'model file (start values; its floated constants among origin, B, A/C, ζ are fitted)',
+        unit: 'file path',
+        default: 'required',
+      },
+      { name: 'trace', value: 'FILE', text: 'measured trace', unit: 'file path', default: 'required' },
+      { name: 'from', value: 'X1', text: 'start of the region', unit: 'cm^-1', default: 'required' },
+      { name: 'to', value: 'X2', text: 'end of the region (> X1)', unit: 'cm^-1', default: 'required' },
+      { name: 'opd', value: 'L', text: 'maximum optical path difference of the instrument', unit: 'cm', default: 'required' },
+      {
+        name: 'apodization',
+        value: 'NAME',
+        text: 'boxcar, triangular, happ-genzel, norton-beer-weak, norton-beer-medium or norton-beer-strong',
+        unit: 'word',
+        default: 'boxcar',
+      },
+      { name: 'mass', value: 'AMU', text: 'molecular mass for the Doppler width', unit: 'amu', default: 'the model file\'s "mass"' },
+      { name: 'lorentz', value: 'HWHM', text: 'Lorentz half width; when given it is also fitted', unit: 'cm^-1', default: '0, not fitted' },
+      {
+        name: 'float',
+        value: 'K1,K2',
+        text: "keys to float instead of the model file's choice",
+        unit: 'comma-separated keys',
+        default: "the model file's floated constants",
+      },
+      { name: 'baseline-degree', value: 'D', text: 'degree of the baseline polynomial', unit: 'dimensionless', default: '1 (linear)' },
+    ],
+    output: `stdout: JSON {parameters {key: {value, sigma, fixed}}, rms, nPoints, scale, baseline, warnings, combinations, correlations, noiseSigma, status, route}; cm^-1, rms and baseline in absorbance. ${WARNINGS}`,
+    example:
+      'npm run --silent cli -- contour --model model.json --trace lowres.csv --from 1100 --to 1200 --opd 2 --apodization happ-genzel',
+  },
+  classify: {
+    summary:
+      'Say what a band region looks like (P and R only, P, Q and R, or a series of Q branches), what that implies, and rough constants.',
+    options: [
+      { name: 'trace', value: 'FILE', text: 'measured trace', unit: 'file path', default: 'required' },
+      { name: 'from', value: 'X1', text: 'start of the region', unit: 'cm^-1', default: 'required' },
+      { name: 'to', value: 'X2', text: 'end of the region (> X1)', unit: 'cm^-1', default: 'required' },
+      {
+        name: 'temperature',
+        value: 'K',
+        text: 'temperature of the gas, for B from the P–R separation',
+        unit: 'K',
+        default: '296, and the output says it was assumed',
+      },
+    ],
+    output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, temperature, temperatureAssumed, implication}; cm^-1. ${WARNINGS}`,
+    example: 'npm run --silent cli -- classify --trace lowres.csv --from 1100 --to 1200 --temperature 296',
   },
   perturbations: {
     summary:

@@ -16,6 +16,8 @@ const COMMANDS: Record<string, () => Promise<CliCommand>> = {
   combdiff: async () => (await import('./combdiffCommand')).combdiffCommand,
   assign: async () => (await import('./assignCommand')).assignCommand,
   perturbations: async () => (await import('./perturbationsCommand')).perturbationsCommand,
+  contour: async () => (await import('./contourCommand')).contourCommand,
+  classify: async () => (await import('./classifyCommand')).classifyCommand,
 };
 
 function usage(): string {

@@ -1,4 +1,6 @@
 import { bandLines } from '../physics/bandLines';
+import { APODIZATION_NAMES, apodizationCheck } from '../physics/instrumentLineShape';
+import { instrumentSpectrum } from '../physics/instrumentSpectrum';
 import { spectrumSynthesize, type SpectrumGrid } from '../physics/spectrum';
 import { systemLines } from '../physics/system/systemLines';
 import { cliLoadModelOrSystem } from './cliModel';
@@ -64,13 +66,22 @@ export function spectrumCommandDecimals(stepCm1: number): number {
  * x is printed with one decimal more than the step resolves, y with 7 significant digits.
  * With a system file (JSON with "species") y sums every band of every species (intensities on one
  * scale, strongest line of all = 1), each species with its own mass (--mass overrides all).
+ *
+ * With `--opd L [--apodization NAME] [--depth-scale S]` the band is seen through a Fourier-transform
+ * spectrometer of maximum optical path difference L (cm) and the named apodization (default boxcar):
+ * the true optical depth is τ = S·y (S default 1, i.e. y read as −ln T), the instrument line shape
+ * acts on the transmittance e^{−τ}, and the column y becomes the apparent optical depth −ln T_obs
+ * (natural-log absorbance, dimensionless; divide by ln 10 for decadic absorbance). For τ ≪ 1 it
+ * tends to S × (instrument line shape ⊛ y). A note on stderr says so. Without --opd the output is
+ * unchanged.
  */
 export const spectrumCommand: CliCommand = (args, io) => {
-  const opts = cliParseArgs(args, ['model', 'from', 'to', 'step', 'mass', 'lorentz']);
+  const opts = cliParseArgs(args, ['model', 'from', 'to', 'step', 'mass', 'lorentz', 'opd', 'apodization', 'depth-scale']);
   const modelPath = cliRequire(opts, 'model');
   const grid = spectrumCommandGrid(cliNumber(opts, 'from'), cliNumber(opts, 'to'), cliNumber(opts, 'step'));
   const lorentzHwhmCm1 = cliNumber(opts, 'lorentz', 0);
   if (lorentzHwhmCm1 < 0) throw new CliError(`--lorentz must be a half width >= 0 cm^-1, got ${lorentzHwhmCm1}`);
+  const instrument = spectrumCommandInstrument(opts);
   const noteAdjusted = () => {
     if (grid.adjusted) {
       io.stderr(
@@ -81,6 +92,7 @@ export const spectrumCommand: CliCommand = (args, io) => {
   const loaded = cliLoadModelOrSystem(modelPath, io);
   let y: Float64Array;
   if (loaded.kind === 'system') {
+    if (instrument) throw new CliError('--opd (instrument line shape) takes a single-band model file for now, not a system file');
     // Every band of every species summed, each species with its own Doppler width.
     const model = loaded.file.model;
     const massOption = opts.mass !== undefined ? cliNumber(opts, 'mass') : undefined;
@@ -119,7 +131,28 @@ export const spectrumCommand: CliCommand = (args, io) => {
     if (!(massAmu > 0)) throw new CliError(`--mass must be > 0 amu, got ${massAmu}`);
     noteAdjusted();
     const lines = bandLines(file.model);
-    y = spectrumSynthesize(lines, grid, { temperatureK: file.model.temperatureK, massAmu, lorentzHwhmCm1 });
+    if (instrument) {
+      const x = new Float64Array(grid.npoints);
+      for (let k = 0; k < grid.npoints; k++) x[k] = grid.fromCm1 + k * grid.stepCm1;
+      const seen = instrumentSpectrum(lines, x, {
+        opdCm: instrument.opdCm,
+        apodization: instrument.apodization,
+        temperatureK: file.model.temperatureK,
+        massAmu,
+        lorentzHwhmCm1,
+        opticalDepthScale: instrument.depthScale,
+        route: 'transmittance',
+      });
+      y = seen.opticalDepth;
+      io.stderr(
+        `spectrum: y is the apparent optical depth −ln T (natural-log absorbance) through the instrument line shape ` +
+          `(L = ${instrument.opdCm} cm, ${instrument.apodization}), true optical depth = ${instrument.depthScale} × relative intensity × cm` +
+          (seen.isUnderResolved ? '; WARNING: the internal grid is coarser than the line width, saturation is approximate' : '') +
+          '\n',
+      );
+    } else {
+      y = spectrumSynthesize(lines, grid, { temperatureK: file.model.temperatureK, massAmu, lorentzHwhmCm1 });
+    }
   }
 
   const decimals = spectrumCommandDecimals(grid.stepCm1);
@@ -138,3 +171,31 @@ export const spectrumCommand: CliCommand = (args, io) => {
   if (chunk) io.stdout(chunk);
   return 0;
 };
+
+/**
+ * The instrument options of the spectrum command, or null without --opd.
+ * @throws CliError for --apodization or --depth-scale without --opd, L ≤ 0, an unknown apodization
+ *   or a negative depth scale
+ */
+export function spectrumCommandInstrument(
+  opts: Record<string, string | true>,
+): { opdCm: number; apodization: (typeof APODIZATION_NAMES)[number]; depthScale: number } | null {
+  if (opts.opd === undefined) {
+    for (const name of ['apodization', 'depth-scale']) {
+      if (opts[name] !== undefined) throw new CliError(`--${name} needs --opd L (the maximum optical path difference, cm)`);
+    }
+    return null;
+  }
+  const opdCm = cliNumber(opts, 'opd');
+  if (!(opdCm > 0)) throw new CliError(`--opd must be a maximum optical path difference > 0 cm, got ${opdCm}`);
+  const name = typeof opts.apodization === 'string' ? opts.apodization : 'boxcar';
+  let apodization: (typeof APODIZATION_NAMES)[number];
+  try {
+    apodization = apodizationCheck('spectrum', name);
+  } catch {
+    throw new CliError(`--apodization must be one of ${APODIZATION_NAMES.join(', ')}, got '${name}'`);
+  }
+  const depthScale = cliNumber(opts, 'depth-scale', 1);
+  if (!(depthScale >= 0)) throw new CliError(`--depth-scale must be >= 0, got ${depthScale}`);
+  return { opdCm, apodization, depthScale };
+}

@@ -2,6 +2,7 @@
 export * from './assignment';
 export * from './bandDesign';
 export * from './combinationDifferences';
+export * from './contourFit';
 export * from './fitBand';
 export * from './fitCheck';
 export * from './fitPredict';
@@ -11,6 +12,7 @@ export * from './householderQr';
 export * from './jacobiSvd';
 export * from './leastSquares';
 export * from './leastSquaresLinearise';
+export * from './qBranchFit';
 export * from './rankDiagnosis';
 export * from './systemCombinationDifferences';
 export * from './systemFit';

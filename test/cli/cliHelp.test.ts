@@ -25,7 +25,7 @@ describe('command help', () => {
   const names = Object.keys(CLI_HELP);
 
   it('covers every command', () => {
-    expect(names).toEqual(['simulate', 'spectrum', 'peaks', 'fit', 'combdiff', 'assign', 'perturbations']);
+    expect(names).toEqual(['simulate', 'spectrum', 'peaks', 'fit', 'combdiff', 'assign', 'contour', 'classify', 'perturbations']);
   });
 
   it.each(names)('%s --help and -h print the usage on stdout, exit 0, nothing on stderr', async (name) => {

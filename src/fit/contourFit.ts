@@ -1,0 +1,522 @@
+/**
+ * Band-contour fit: least squares of the synthetic band, seen through a Fourier-transform
+ * spectrometer's instrument line shape, to a region of a measured trace whose lines need not be
+ * resolved. Floats the band constants the contour can determine, an intensity scale, the Lorentz
+ * width and a baseline polynomial.
+ */
+import { bandLines } from '../physics/bandLines';
+import { instrumentLineShapeFwhm, type ApodizationName } from '../physics/instrumentLineShape';
+import { instrumentSpectrum, type InstrumentRoute } from '../physics/instrumentSpectrum';
+import { shapeUniqueName, type BandModel } from '../physics/model';
+import { fitKeyParse, fitParameterKeys } from './bandDesign';
+import { leastSquaresSolve, type LeastSquaresStatus } from './leastSquares';
+import { lineariseCovariance, type Linearisation } from './leastSquaresLinearise';
+import { rankDiagnosis } from './rankDiagnosis';
+
+/** Input of contourFit. */
+export interface ContourFitInput {
+  /** Start model (constants in cm^-1, temperature in K; the temperature stays fixed). */
+  model: BandModel;
+  /** Trace axis, ascending, cm^-1. */
+  wavenumberCm1: Float64Array;
+  /** Trace ordinate, decadic absorbance (−log10 T). */
+  absorbance: Float64Array;
+  /** Region fitted, cm^-1 (from < to). */
+  fromCm1: number;
+  toCm1: number;
+  /** Maximum optical path difference L, cm. */
+  opdCm: number;
+  /** @default 'boxcar' */
+  apodization?: ApodizationName;
+  /** Molecular mass for the Doppler width, amu. */
+  massAmu: number;
+  /** Start Lorentz HWHM, cm^-1. @default 0 */
+  lorentzHwhmCm1?: number;
+  /**
+   * Keys floated: model keys ("upper.origin", "lower.B", …), "scale" and "lorentz".
+   * @default contourDefaultFloat(model), scale, and lorentz when lorentzHwhmCm1 > 0 (at 0 the width
+   *   enters as |γ| and has no slope, so it cannot start from there)
+   */
+  float?: string[];
+  /** Degree of the baseline polynomial in the reduced abscissa t ∈ [−1, 1]. @default 1 */
+  baselineDegree?: number;
+  /**
+   * Noise σ of the trace, absorbance; only scales the solver's stopping test (σ of the results come
+   * from the residuals). @default a robust estimate from second differences of the region
+   */
+  noiseSigma?: number;
+  /** Called after each iteration of each stage. */
+  onProgress?: (stage: number, iteration: number, rms: number) => void;
+  /** Polled once per iteration. */
+  shouldCancel?: () => boolean;
+}
+
+/** One reported parameter: value, 1σ (0 when fixed) and whether it was held fixed. */
+export interface ContourParameter {
+  value: number;
+  sigma: number;
+  fixed: boolean;
+}
+
+/** Result of contourFit. */
+export interface ContourFitResult {
+  /** Model constants (cm^-1; zeta dimensionless) and "lorentz" (HWHM, cm^-1). */
+  parameters: Record<string, ContourParameter>;
+  /** Derived combinations the contour determines, with σ from the covariance (cm^-1). */
+  combinations: Record<string, { value: number; sigma: number }>;
+  /** Root-mean-square residual, absorbance. */
+  rms: number;
+  nPoints: number;
+  /** Decadic absorbance per unit of relative intensity × cm (weak-limit peak ≈ scale × band). */
+  scale: number;
+  scaleSigma: number;
+  /** Baseline coefficients c_k of Σ c_k t^k, t = (2x − from − to)/(to − from). */
+  baseline: number[];
+  baselineSigma: number[];
+  /** Correlation coefficients of floated pairs with |ρ| ≥ 0.95. */
+  correlations: { a: string; b: string; rho: number }[];
+  warnings: string[];
+  status: LeastSquaresStatus;
+  iterations: number;
+  route: InstrumentRoute;
+  /** Region axis, the fitted simulation (with baseline) and the residual (obs − calc), absorbance. */
+  x: Float64Array;
+  simulation: Float64Array;
+  residual: Float64Array;
+}
+
+/** Relative singular value under which the contour is taken as unable to fix a direction. */
+export const CONTOUR_RANK_TOLERANCE = 1e-6;
+
+/** |ρ| from which a pair of floated parameters is named in the warnings. */
+export const CONTOUR_CORRELATION_WARN = 0.995;
+
+/**
+ * Constants a band contour can usually determine, by band type: origin, B′ and B″ always; for a
+ * symmetric top also the upper unique constant (A′ or C′, via A′ − A″ with A″ held), and for a
+ * perpendicular band ζ (A′(1 − ζ) sets the Q-branch spacing). Lower A″/C″ and the distortion
+ * constants are held: one band's contour fixes only differences and A′(1 − ζ).
+ * Source: Herzberg, Molecular Spectra and Molecular Structure II (1945), ch. IV (what one band determines).
+ * @param model the band model
+ * @returns fit keys
+ */
+export function contourDefaultFloat(model: BandModel): string[] {
+  const keys = ['upper.origin', 'upper.B', 'lower.B'];
+  const unique = shapeUniqueName(model.shape);
+  if (unique) keys.push(`upper.${unique}`);
+  if (unique && model.band === 'perpendicular') keys.push('upper.zeta');
+  return keys;
+}
+
+interface Layout {
+  modelKeys: string[];
+  hasScale: boolean;
+  hasLorentz: boolean;
+  nBaseline: number;
+}
+
+function layoutSize(l: Layout): number {
+  return l.modelKeys.length + (l.hasScale ? 1 : 0) + (l.hasLorentz ? 1 : 0) + l.nBaseline;
+}
+
+/** Default finite-difference step of a model key (cm^-1, or dimensionless for ζ). */
+function stepFor(key: string, value: number): number {
+  const name = fitKeyParse(key)?.name;
+  const floor = name === 'origin' ? 1e-4 : name === 'zeta' ? 1e-5 : name === 'B' ? 1e-6 : 1e-5;
+  return Math.max(floor, Math.abs(value) * 1e-6);
+}
+
+function setModelKey(model: BandModel, key: string, value: number): void {
+  const k = fitKeyParse(key)!;
+  model[k.side][k.name] = value;
+}
+
+function getModelKey(model: BandModel, key: string): number {
+  const k = fitKeyParse(key)!;
+  return model[k.side][k.name];
+}
+
+/**
+ * Fit a band contour to a trace region.
+ * Model: A(x) = −log10(ILS ⊛ 10^{−s·y(ν)}) + Σ c_k t^k, y the band's lines (relative intensities,
+ * strongest = 1) with Voigt profiles (Doppler from T and the mass, Lorentz HWHM floated), s the
+ * scale; the instrument is applied to transmittance (instrumentSpectrum) unless the lines are
+ * optically thin at their own width. Two stages: origin, scale and baseline first, then all
+ * floated keys. Levenberg–Marquardt with a central-difference Jacobian (analytic for the
+ * baseline). A direction of the scaled Jacobian with relative singular value below
+ * CONTOUR_RANK_TOLERANCE is explained with rankDiagnosis's words and the constants it proposes are
+ * held at their start values (a warning says so). σ = √(χ²/(m − n)) × √diag(JᵀJ)⁻¹, inflated by
+ * √((1 + ρ₁)/(1 − ρ₁)) when the residuals' lag-1 autocorrelation ρ₁ > 0 (correlated noise of an
+ * oversampled trace).
+ * Source: Levenberg (1944), Marquardt (1963) via leastSquaresSolve; Griffiths & de Haseth (2007)
+ * ch. 2 for the instrument; variance inflation for AR(1) residuals: e.g. Bartlett (1946) /
+ * von Storch & Zwiers, Statistical Analysis in Climate Research (1999) §17.1 (from memory).
+ * @param input trace, region, instrument and start model
+ * @returns fitted parameters, σ, combinations, warnings and the fitted simulation
+ * @throws Error naming the problem for an empty region, unknown float keys or bad numbers
+ */
+export function contourFit(input: ContourFitInput): ContourFitResult {
+  const fn = 'contourFit';
+  const { fromCm1, toCm1, opdCm, massAmu } = input;
+  if (!(toCm1 > fromCm1)) throw new Error(`${fn}: the region must have to > from, got ${fromCm1} … ${toCm1}`);
+  if (!(opdCm > 0) || !Number.isFinite(opdCm)) throw new Error(`${fn}: opd must be > 0 cm, got ${opdCm}`);
+  if (!(massAmu > 0) || !Number.isFinite(massAmu)) throw new Error(`${fn}: mass must be > 0 amu, got ${massAmu}`);
+  const apodization = input.apodization ?? 'boxcar';
+  const degree = input.baselineDegree ?? 1;
+  if (!Number.isInteger(degree) || degree < 0 || degree > 6) throw new Error(`${fn}: baseline degree must be 0 … 6, got ${degree}`);
+  let i0 = 0;
+  while (i0 < input.wavenumberCm1.length && input.wavenumberCm1[i0] < fromCm1) i0++;
+  let i1 = i0;
+  while (i1 < input.wavenumberCm1.length && input.wavenumberCm1[i1] <= toCm1) i1++;
+  const x = input.wavenumberCm1.slice(i0, i1);
+  const y = input.absorbance.slice(i0, i1);
+  const m = x.length;
+  for (let i = 0; i < m; i++) {
+    if (!Number.isFinite(y[i])) throw new Error(`${fn}: the trace has a non-finite absorbance at ${x[i]} cm^-1`);
+  }
+  const allowed = new Set([...fitParameterKeys(input.model.shape), 'scale', 'lorentz']);
+  const requested = input.float ?? [...contourDefaultFloat(input.model), 'scale', ...((input.lorentzHwhmCm1 ?? 0) > 0 ? ['lorentz'] : [])];
+  for (const k of requested) {
+    if (!allowed.has(k)) throw new Error(`${fn}: cannot float '${k}' for a ${input.model.shape} model; known: ${[...allowed].join(', ')}`);
+  }
+  const nBaseline = degree + 1;
+  if (m < 2 * (requested.length + nBaseline) + 5) {
+    throw new Error(
+      `${fn}: the region ${fromCm1} … ${toCm1} cm^-1 holds ${m} trace points, too few for ${requested.length + nBaseline} parameters`,
+    );
+  }
+  const warnings: string[] = [];
+  const ln10 = Math.LN10;
+  // Residuals are divided by the noise so the solver's step test (in σ units) means what it says.
+  const weight = 1 / (input.noiseSigma && input.noiseSigma > 0 ? input.noiseSigma : secondDifferenceSigma(y) || 1e-12);
+  const t = new Float64Array(m);
+  for (let i = 0; i < m; i++) t[i] = (2 * x[i] - fromCm1 - toCm1) / (toCm1 - fromCm1);
+
+  const model: BandModel = structuredClone(input.model);
+  let lorentz = Math.abs(input.lorentzHwhmCm1 ?? 0);
+  let route: InstrumentRoute = 'linear';
+
+  // Band on the region at unit scale; used for the scale's start value.
+  const bandAt = (mdl: BandModel, gamma: number, scale: number, r: InstrumentRoute | 'auto') =>
+    instrumentSpectrum(bandLines(mdl), x, {
+      opdCm,
+      apodization,
+      temperatureK: mdl.temperatureK,
+      massAmu,
+      lorentzHwhmCm1: gamma,
+      opticalDepthScale: scale * ln10,
+      route: r,
+    });
+
+  // Start values: scale and baseline by linear least squares of y ≈ s·band + Σ c_k t^k with the
+  // start model's band in the weak limit.
+  const unit = bandAt(model, lorentz, 1, 'linear').opticalDepth;
+  let unitMax = 0;
+  for (let i = 0; i < m; i++) unitMax = Math.max(unitMax, unit[i] / ln10);
+  if (!(unitMax > 0)) throw new Error(`${fn}: the model has no lines in ${fromCm1} … ${toCm1} cm^-1 (check the origin and the region)`);
+  const baseline = new Float64Array(nBaseline);
+  const linear = linearStart(unit, t, y, nBaseline);
+  let scale = linear.scale / ln10;
+  if (!(scale > 0)) {
+    // The start model's band does not resemble the trace at all; size it by the largest excursion.
+    const sorted = Float64Array.from(y).sort();
+    scale = Math.max(sorted[m - 1] - sorted[Math.floor(0.05 * (m - 1))], 1e-12) / unitMax;
+    baseline[0] = sorted[Math.floor(0.05 * (m - 1))];
+    warnings.push('The start model does not match the trace (its band correlates negatively with it): check the origin and the band type.');
+  } else {
+    baseline.set(linear.baseline);
+  }
+  route = bandAt(model, lorentz, scale, 'auto').route;
+
+  const evaluate = (layout: Layout, p: Float64Array, out: Float64Array): void => {
+    const mdl: BandModel = { ...model, lower: { ...model.lower }, upper: { ...model.upper } };
+    layout.modelKeys.forEach((k, j) => setModelKey(mdl, k, p[j]));
+    let j = layout.modelKeys.length;
+    const s = layout.hasScale ? Math.exp(p[j++]) : scale; // floated as ln(scale): stays > 0
+    const g = layout.hasLorentz ? Math.abs(p[j++]) : lorentz;
+    const band = bandAt(mdl, g, s, route).opticalDepth;
+    for (let i = 0; i < m; i++) {
+      let b = 0;
+      for (let k = nBaseline - 1; k >= 0; k--) b = b * t[i] + (layout.nBaseline ? p[j + k] : baseline[k]);
+      out[i] = band[i] / ln10 + b;
+    }
+  };
+
+  const runStage = (stage: number, layout: Layout) => {
+    const n = layoutSize(layout);
+    const start = new Float64Array(n);
+    layout.modelKeys.forEach((k, j) => (start[j] = getModelKey(model, k)));
+    let j = layout.modelKeys.length;
+    if (layout.hasScale) start[j++] = Math.log(scale);
+    if (layout.hasLorentz) start[j++] = lorentz;
+    for (let k = 0; k < layout.nBaseline; k++) start[j + k] = baseline[k];
+    const f0 = new Float64Array(m);
+    const f1 = new Float64Array(m);
+    const f2 = new Float64Array(m);
+    const solution = leastSquaresSolve(
+      {
+        nObservations: m,
+        nParameters: n,
+        residuals(p, out) {
+          evaluate(layout, p, f0);
+          for (let i = 0; i < m; i++) out[i] = (y[i] - f0[i]) * weight;
+        },
+        jacobian(p, out) {
+          const q = Float64Array.from(p);
+          const nonlinear = n - layout.nBaseline;
+          for (let c = 0; c < nonlinear; c++) {
+            const h =
+              c < layout.modelKeys.length
+                ? stepFor(layout.modelKeys[c], p[c])
+                : c === layout.modelKeys.length && layout.hasScale
+                  ? 1e-5
+                  : Math.max(Math.abs(p[c]) * 1e-5, 1e-5);
+            // Central differences: the valleys of a contour fit (B against ζ and the origin) are long
+            // and shallow, and a forward difference's O(h) error is enough to bend the step off them.
+            q[c] = p[c] + h;
+            evaluate(layout, q, f1);
+            q[c] = p[c] - h;
+            evaluate(layout, q, f2);
+            q[c] = p[c];
+            for (let i = 0; i < m; i++) out[c * m + i] = ((f1[i] - f2[i]) / (2 * h)) * weight;
+          }
+          for (let k = 0; k < layout.nBaseline; k++) {
+            const c = nonlinear + k;
+            for (let i = 0; i < m; i++) out[c * m + i] = t[i] ** k * weight;
+          }
+        },
+      },
+      start,
+      {
+        maxIterations: 40,
+        chi2RelativeTolerance: 1e-9,
+        stepToleranceSigma: 1e-4,
+        rankRelativeTolerance: CONTOUR_RANK_TOLERANCE,
+        onIteration: (it, chi2) => input.onProgress?.(stage, it, Math.sqrt(chi2 / m) / weight),
+        shouldCancel: input.shouldCancel,
+      },
+    );
+    // Keep what was reached as the next start.
+    const p = solution.parameters;
+    layout.modelKeys.forEach((k, c) => setModelKey(model, k, p[c]));
+    let c = layout.modelKeys.length;
+    if (layout.hasScale) scale = Math.exp(p[c++]);
+    if (layout.hasLorentz) lorentz = Math.abs(p[c++]);
+    for (let k = 0; k < layout.nBaseline; k++) baseline[k] = p[c + k];
+    return solution;
+  };
+
+  let modelKeys = requested.filter((k) => k !== 'scale' && k !== 'lorentz');
+  const hasScale = requested.includes('scale');
+  const hasLorentz = requested.includes('lorentz');
+  // Stage 1: position and size only (a far start of the width or shape constants cannot pull it off).
+  if (modelKeys.includes('upper.origin') || hasScale) {
+    runStage(1, { modelKeys: modelKeys.filter((k) => k === 'upper.origin'), hasScale, hasLorentz: false, nBaseline });
+  }
+  let layout: Layout = { modelKeys, hasScale, hasLorentz, nBaseline };
+  let solution = runStage(2, layout);
+  for (let attempt = 0; solution.status === 'rank-deficient' && attempt < 3; attempt++) {
+    const lin = solution.linearisation!;
+    const names = [...layout.modelKeys, ...(hasScale ? ['scale'] : []), ...(hasLorentz ? ['lorentz'] : [])];
+    const floatedAll = [...names, ...Array.from({ length: nBaseline }, (_, k) => `baseline.c${k}`)];
+    const why = rankDiagnosis(lin, floatedAll, model, CONTOUR_RANK_TOLERANCE);
+    const toFix = why.fixSuggested.length ? why.fixSuggested : why.parameters.slice(0, 1);
+    warnings.push(
+      `${why.message
+        .replace('the lines fix', 'the contour fixes')
+        .replace(/leaves? every line unchanged/, (w) =>
+          w.startsWith('leaves') ? 'leaves the contour unchanged' : 'leave the contour unchanged',
+        )
+        .replace('No fitted line depends on', 'The contour does not depend on')
+        .replace(' No values are given for them.', '')} Held at the start value${toFix.length > 1 ? 's' : ''}: ${toFix.join(', ')}.`,
+    );
+    modelKeys = modelKeys.filter((k) => !toFix.includes(k));
+    layout = { modelKeys, hasScale: hasScale && !toFix.includes('scale'), hasLorentz: hasLorentz && !toFix.includes('lorentz'), nBaseline };
+    solution = runStage(2, layout);
+  }
+  // The route was chosen from the start scale; if the fitted scale makes the lines optically thick
+  // (or thin), fit once more the right way.
+  const finalRoute = bandAt(model, lorentz, scale, 'auto').route;
+  if (finalRoute !== route) {
+    route = finalRoute;
+    solution = runStage(3, layout);
+  }
+  if (solution.status === 'rank-deficient') {
+    throw new Error(`${fn}: the contour cannot determine the floated constants even after holding some; float fewer`);
+  }
+  if (solution.status === 'non-finite') throw new Error(`${fn}: the model gave non-finite values; check the start constants`);
+
+  const n = layoutSize(layout);
+  const sim = new Float64Array(m);
+  evaluate(layout, solution.parameters, sim);
+  const residual = new Float64Array(m);
+  let chi2 = 0;
+  for (let i = 0; i < m; i++) {
+    residual[i] = y[i] - sim[i];
+    chi2 += residual[i] * residual[i];
+  }
+  const rms = Math.sqrt(chi2 / m);
+  let r1num = 0;
+  for (let i = 1; i < m; i++) r1num += residual[i] * residual[i - 1];
+  const rho1 = chi2 > 0 ? r1num / chi2 : 0;
+  const inflation = rho1 > 0 ? Math.sqrt((1 + rho1) / (1 - Math.min(rho1, 0.99))) : 1;
+  if (rho1 > 0.3) {
+    warnings.push(
+      `Neighbouring residuals are correlated (lag-1 ρ = ${rho1.toFixed(2)}): the trace is oversampled or the model misses structure; σ are inflated by ${inflation.toFixed(2)} to allow for it.`,
+    );
+  }
+  const sigmaW = Math.sqrt(chi2 / Math.max(m - n, 1)) * inflation;
+  const lin = solution.linearisation as Linearisation;
+  const cov = lineariseCovariance(lin).map((v) => v * weight * weight); // (JᵀJ)⁻¹ of the unweighted problem
+  const sd = (c: number) => Math.sqrt(Math.max(cov[c * n + c], 0)) * sigmaW;
+
+  const names = [...layout.modelKeys, ...(layout.hasScale ? ['scale'] : []), ...(layout.hasLorentz ? ['lorentz'] : [])];
+  const parameters: Record<string, ContourParameter> = {};
+  for (const key of fitParameterKeys(model.shape)) {
+    const c = layout.modelKeys.indexOf(key);
+    const value = getModelKey(model, key);
+    if (c < 0 && value === 0 && !requested.includes(key)) continue;
+    parameters[key] = { value, sigma: c >= 0 ? sd(c) : 0, fixed: c < 0 };
+  }
+  const lc = names.indexOf('lorentz');
+  parameters.lorentz = { value: lorentz, sigma: lc >= 0 ? sd(lc) : 0, fixed: lc < 0 };
+  const sc = names.indexOf('scale');
+  const baselineSigma = Array.from({ length: nBaseline }, (_, k) => sd(names.length + k));
+
+  // Derived combinations: gradient g of each, σ² = gᵀ C g over the floated model keys.
+  const combinations: Record<string, { value: number; sigma: number }> = {};
+  const combo = (name: string, value: number, grad: Record<string, number>) => {
+    let v = 0;
+    let touched = false;
+    for (const [ka, ga] of Object.entries(grad)) {
+      const a = names.indexOf(ka);
+      if (a < 0) continue;
+      touched = true;
+      for (const [kb, gb] of Object.entries(grad)) {
+        const b = names.indexOf(kb);
+        if (b >= 0) v += ga * gb * cov[a * n + b];
+      }
+    }
+    if (touched) combinations[name] = { value, sigma: Math.sqrt(Math.max(v, 0)) * sigmaW };
+  };
+  const up = model.upper;
+  const lo = model.lower;
+  combo("B'-B''", up.B - lo.B, { 'upper.B': 1, 'lower.B': -1 });
+  const u = shapeUniqueName(model.shape);
+  if (u) {
+    combo(`${u}'-${u}''`, up[u] - lo[u], { [`upper.${u}`]: 1, [`lower.${u}`]: -1 });
+    combo(`(${u}'-B')-(${u}''-B'')`, up[u] - up.B - lo[u] + lo.B, {
+      [`upper.${u}`]: 1,
+      'upper.B': -1,
+      [`lower.${u}`]: -1,
+      'lower.B': 1,
+    });
+    if (model.band === 'perpendicular') {
+      combo(`${u}'(1-zeta)`, up[u] * (1 - up.zeta), { [`upper.${u}`]: 1 - up.zeta, 'upper.zeta': -up[u] });
+      combo(`${u}'(1-zeta)-B'`, up[u] * (1 - up.zeta) - up.B, { [`upper.${u}`]: 1 - up.zeta, 'upper.zeta': -up[u], 'upper.B': -1 });
+    }
+  }
+
+  const correlations: { a: string; b: string; rho: number }[] = [];
+  for (let a = 0; a < names.length; a++) {
+    for (let b = a + 1; b < names.length; b++) {
+      const rho = cov[a * n + b] / Math.sqrt(cov[a * n + a] * cov[b * n + b]);
+      if (Math.abs(rho) >= 0.95) correlations.push({ a: names[a], b: names[b], rho });
+      if (Math.abs(rho) >= CONTOUR_CORRELATION_WARN) {
+        warnings.push(
+          `${names[a]} and ${names[b]} are ${rho > 0 ? '' : 'anti-'}correlated (ρ = ${rho.toFixed(4)}): the contour fixes a combination of them far better than either` +
+            correlationHint(names[a], names[b], model) +
+            '.',
+        );
+      }
+    }
+  }
+  if (solution.status === 'max-iterations')
+    warnings.push('The fit stopped at the iteration limit without converging; treat the values as rough.');
+  if (lorentz < 0.02 / opdCm && lc >= 0) {
+    warnings.push(
+      `The Lorentz width (${lorentz.toPrecision(3)} cm^-1) is far below the resolution 1/(2L) = ${(0.5 / opdCm).toPrecision(3)} cm^-1: the contour hardly constrains it.`,
+    );
+  }
+  const ilsFwhm = instrumentLineShapeFwhm(apodization, opdCm);
+  if (2 * model.lower.B < 1.5 * ilsFwhm) {
+    warnings.push(
+      `The rotational lines (spacing ~2B = ${(2 * model.lower.B).toPrecision(3)} cm^-1) are not resolved by the instrument line shape (FWHM ${ilsFwhm.toPrecision(3)} cm^-1): B″ rests on the band envelope and the fixed temperature ${model.temperatureK} K.`,
+    );
+  }
+  if (route === 'transmittance' && bandAt(model, lorentz, scale, 'transmittance').isUnderResolved) {
+    warnings.push('The internal grid could not resolve the line width over this region: saturation of strong lines is approximate.');
+  }
+  return {
+    parameters,
+    combinations,
+    rms,
+    nPoints: m,
+    scale,
+    scaleSigma: sc >= 0 ? scale * sd(sc) : 0,
+    baseline: Array.from(baseline),
+    baselineSigma,
+    correlations,
+    warnings,
+    status: solution.status,
+    iterations: solution.iterations,
+    route,
+    x,
+    simulation: sim,
+    residual,
+  };
+}
+
+/**
+ * Linear least squares of y ≈ a·u + Σ_k c_k t^k by normal equations (a handful of columns).
+ * Source: e.g. Press et al., Numerical Recipes 3rd ed. (2007) §15.4 (general linear least squares).
+ */
+function linearStart(u: Float64Array, t: Float64Array, y: Float64Array, nBaseline: number): { scale: number; baseline: number[] } {
+  const n = nBaseline + 1;
+  const col = (c: number, i: number) => (c === 0 ? u[i] : t[i] ** (c - 1));
+  const a = Array.from({ length: n }, () => new Float64Array(n + 1));
+  for (let i = 0; i < y.length; i++) {
+    for (let r = 0; r < n; r++) {
+      const vr = col(r, i);
+      for (let c = 0; c < n; c++) a[r][c] += vr * col(c, i);
+      a[r][n] += vr * y[i];
+    }
+  }
+  for (let p = 0; p < n; p++) {
+    let best = p;
+    for (let r = p + 1; r < n; r++) if (Math.abs(a[r][p]) > Math.abs(a[best][p])) best = r;
+    [a[p], a[best]] = [a[best], a[p]];
+    if (a[p][p] === 0) return { scale: 0, baseline: new Array(nBaseline).fill(0) };
+    for (let r = 0; r < n; r++) {
+      if (r === p) continue;
+      const f = a[r][p] / a[p][p];
+      for (let c = p; c <= n; c++) a[r][c] -= f * a[p][c];
+    }
+  }
+  const sol = a.map((row, r) => row[n] / row[r]);
+  return { scale: sol[0], baseline: sol.slice(1) };
+}
+
+/** Robust noise σ from second differences: 1.4826·MAD(y_{i−1} − 2y_i + y_{i+1})/√6 (Hampel 1974; white noise). */
+function secondDifferenceSigma(y: Float64Array): number {
+  const d: number[] = [];
+  for (let i = 1; i + 1 < y.length; i++) d.push(Math.abs(y[i - 1] - 2 * y[i] + y[i + 1]));
+  if (d.length === 0) return 0;
+  d.sort((a, b) => a - b);
+  return (1.482602218505602 * d[Math.floor(d.length / 2)]) / Math.sqrt(6);
+}
+
+function correlationHint(a: string, b: string, model: BandModel): string {
+  const u = shapeUniqueName(model.shape);
+  const pair = new Set([a, b]);
+  if (u && pair.has(`upper.${u}`) && pair.has('upper.zeta')) {
+    return ` (one perpendicular band fixes ${u}′(1 − ζ) and ${u}′ − ${u}″, given in "combinations"; ${u}′ and ζ apart rest on the held ${u}″)`;
+  }
+  if (pair.has('upper.B') && pair.has('lower.B')) return ' (B′ − B″ is in "combinations")';
+  return '';
+}
+
+/** Names of the model keys a fit can float, for messages. */
+export function contourFloatKeys(model: Pick<BandModel, 'shape'>): string[] {
+  return [...fitParameterKeys(model.shape), 'scale', 'lorentz'];
+}

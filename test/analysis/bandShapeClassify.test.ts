@@ -1,0 +1,134 @@
+import { describe, expect, it } from 'vitest';
+import { bandBFromPrSeparation, bandPrSeparation, bandShapeClassify } from '../../src/analysis/bandShapeClassify';
+import { gaussian, seededRandom, traceGenerate, type TraceSpec } from '../fit/contourTraces';
+
+/** Q-branch spacing 2[U′(1−ζ) − B′] of a perpendicular symmetric-top band (Herzberg II (1945) ch. IV). */
+function qSpacingTruth(c: ReturnType<typeof traceGenerate>): number {
+  const u = c.model.shape === 'prolate' ? c.model.upper.A : c.model.upper.C;
+  return 2 * (u * (1 - c.model.upper.zeta) - c.model.upper.B);
+}
+
+function classify(spec: TraceSpec) {
+  const c = traceGenerate(spec);
+  return { c, r: bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: spec.temperatureK }) };
+}
+
+describe('bandPrSeparation', () => {
+  it('is 2.358·√(BT)', () => {
+    // Herzberg II (1945) ch. IV: Δν = 2.358 √(BT) (B in cm^-1, T in K); 4 printed digits → tolerance 1e-3 relative.
+    for (const [B, T] of [
+      [0.39, 296],
+      [0.1, 200],
+      [2, 80],
+    ]) {
+      expect(Math.abs(bandPrSeparation(B, T) / (2.358 * Math.sqrt(B * T)) - 1)).toBeLessThan(1e-3);
+      expect(bandBFromPrSeparation(bandPrSeparation(B, T), T)).toBeCloseTo(B, 12);
+    }
+  });
+});
+
+describe('bandShapeClassify', () => {
+  it('refuses an inverted or empty region and a region with no band', () => {
+    const x = Float64Array.from({ length: 200 }, (_, i) => 1000 + i * 0.1);
+    const rand = seededRandom(9);
+    const flat = new Float64Array(200).map(() => 1e-3 * gaussian(rand));
+    expect(() => bandShapeClassify(x, flat, 1010, 1000)).toThrow(/to > from/);
+    expect(() => bandShapeClassify(x, flat, 2000, 2010)).toThrow(/holds 0 trace points/);
+    expect(() => bandShapeClassify(x, flat, 1000, 1019)).toThrow(/no band stands out of the noise/);
+  });
+
+  // Targets (issue 18): profile right, B within 10 %, Q spacing within 3 %.
+  const base = { temperatureK: 296, noiseRel: 0.01, seed: 4 } as const;
+
+  it('reads a heavy prolate perpendicular band as a Q-series with the Q spacing within 3 %', () => {
+    const { c, r } = classify({
+      ...base,
+      shape: 'prolate',
+      band: 'perpendicular',
+      B: 0.25,
+      unique: 5.1,
+      zeta: 0.25,
+      opdCm: 1,
+      apodization: 'triangular',
+      origin: 1250,
+    });
+    expect(r.profile).toBe('Q-series');
+    expect(r.type).toBe('symmetric-top-perpendicular');
+    expect(Math.abs(r.qSpacing! / qSpacingTruth(c) - 1)).toBeLessThan(0.03);
+    expect(r.B).toBeNull();
+  });
+
+  it('reads a light prolate perpendicular band at L = 4 cm as a Q-series', () => {
+    const { c, r } = classify({
+      ...base,
+      shape: 'prolate',
+      band: 'perpendicular',
+      B: 0.85,
+      unique: 5.1,
+      zeta: 0.3,
+      opdCm: 4,
+      apodization: 'boxcar',
+      origin: 1460,
+    });
+    expect(r.profile).toBe('Q-series');
+    expect(Math.abs(r.qSpacing! / qSpacingTruth(c) - 1)).toBeLessThan(0.03);
+  });
+
+  it('reads unresolved and resolved Σ–Σ bands of linear molecules as PR with B within 10 %', () => {
+    for (const [B, L] of [
+      [0.1, 1],
+      [0.39, 1],
+      [1.9, 1],
+    ]) {
+      const { r } = classify({ ...base, shape: 'linear', band: 'parallel', B, opdCm: L, apodization: 'boxcar', origin: 2300 });
+      expect(r.profile).toBe('PR');
+      expect(r.type).toBe('linear-parallel');
+      expect(Math.abs(r.B! / B - 1)).toBeLessThan(0.1);
+    }
+  });
+
+  it('reads a Π–Σ band as PQR of a linear molecule with B within 15 %', () => {
+    // B comes from the Σ–Σ branch relation; the Π–Σ Hönl–London factors ((J−1)/2, (J+2)/2) and the
+    // cut-out Q branch move it by up to ~10 % here (tolerance 15 %, outside the 10 % target: reported).
+    const { r } = classify({ ...base, shape: 'linear', band: 'perpendicular', B: 0.39, opdCm: 1, apodization: 'boxcar', origin: 667 });
+    expect(r.profile).toBe('PQR');
+    expect(r.type).toBe('linear-perpendicular');
+    expect(Math.abs(r.B! / 0.39 - 1)).toBeLessThan(0.15);
+  });
+
+  it('reads parallel bands of prolate and oblate tops as PQR and says how sure it is', () => {
+    const prolate = classify({
+      ...base,
+      shape: 'prolate',
+      band: 'parallel',
+      B: 0.25,
+      unique: 5.1,
+      opdCm: 1,
+      apodization: 'triangular',
+      origin: 1250,
+    }).r;
+    expect(prolate.profile).toBe('PQR');
+    expect(prolate.type).toBe('symmetric-top-parallel');
+    const oblate = classify({
+      ...base,
+      shape: 'oblate',
+      band: 'parallel',
+      B: 0.2,
+      unique: 0.1,
+      opdCm: 2,
+      apodization: 'boxcar',
+      origin: 1000,
+    }).r;
+    expect(oblate.profile).toBe('PQR');
+    // The Q share of an oblate parallel band lies near the linear Π–Σ value: never a confident type.
+    expect(oblate.confidence).not.toBe('high');
+  });
+
+  it('says when the temperature was assumed', () => {
+    const c = traceGenerate({ ...base, shape: 'linear', band: 'parallel', B: 0.1, opdCm: 1, apodization: 'boxcar', origin: 2300 });
+    const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1);
+    expect(r.temperatureAssumed).toBe(true);
+    expect(r.evidence).toMatch(/T = 296 K assumed/);
+    expect(r.confidence).not.toBe('high');
+  });
+});

@@ -1,0 +1,232 @@
+/**
+ * `npm run bench:contour` (tsx test/bench/contourBench.ts [speed|targets] [N]): figures for the
+ * unresolved-band tools, one JSON line each.
+ *
+ * speed: a perpendicular band of 20,000+ lines (invented heavy prolate top) seen through the
+ * instrument line shape onto 1e5 points (linear and transmittance routes), and a contour fit of it.
+ * targets: N seeded cases of traceSpecRandom (shape, band type, B 0.05–2 cm^-1, A/C, ζ, T, L 0.9–4 cm,
+ * apodization, noise; weak-absorption generator of test/fit/contourTraces.ts), each classified and
+ * contour-fitted from a perturbed start; prints each case and the rates against the targets.
+ */
+import { bandShapeClassify } from '../../src/analysis/bandShapeClassify';
+import { contourFit } from '../../src/fit/contourFit';
+import { bandLines } from '../../src/physics/bandLines';
+import { instrumentSpectrum } from '../../src/physics/instrumentSpectrum';
+import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
+import { seededRandom, traceGenerate, traceSpecRandom } from '../fit/contourTraces';
+
+const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
+
+function speed(): void {
+  const model: BandModel = {
+    shape: 'prolate',
+    band: 'perpendicular',
+    lower: stateConstantsFrom({ B: 0.25, A: 5.1, DJ: 2e-7, DJK: 3e-6, DK: 8e-5 }),
+    upper: stateConstantsFrom({ origin: 1250, B: 0.2493, A: 5.08, DJ: 2e-7, DJK: 3e-6, DK: 8e-5, zeta: 0.25 }),
+    temperatureK: 296,
+    jMax: 120,
+    kMax: 33,
+    spinWeights: [4, 2, 2],
+  };
+  const lines = bandLines(model);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < lines.count; i++) {
+    lo = Math.min(lo, lines.wavenumberCm1[i]);
+    hi = Math.max(hi, lines.wavenumberCm1[i]);
+  }
+  const n = 100_000;
+  const x = Float64Array.from({ length: n }, (_, i) => lo - 5 + ((hi - lo + 10) * i) / (n - 1));
+  for (const route of ['linear', 'transmittance'] as const) {
+    for (const opdCm of [1, 4]) {
+      const opts = {
+        opdCm,
+        apodization: 'norton-beer-medium' as const,
+        temperatureK: 296,
+        massAmu: 142,
+        opticalDepthScale: route === 'linear' ? 1e-4 : 10,
+        route,
+      };
+      for (let i = 0; i < 3; i++) instrumentSpectrum(lines, x, opts);
+      const t: number[] = [];
+      let fine = 0;
+      for (let i = 0; i < 7; i++) {
+        const t0 = performance.now();
+        fine = instrumentSpectrum(lines, x, opts).finePoints;
+        t.push(performance.now() - t0);
+      }
+      console.log(
+        JSON.stringify({
+          measure: 'evaluate',
+          lines: lines.count,
+          points: n,
+          route,
+          opdCm,
+          finePoints: fine,
+          median_ms: Number(median(t).toFixed(1)),
+        }),
+      );
+    }
+  }
+  // Contour fit of the same band: trace at L = 1 cm with 1 % noise, from a perturbed start; once
+  // optically thin at the Doppler width (linear route), once with the strongest lines saturating.
+  for (const depthScale of [1e-6, 1e-4]) {
+    const truth = instrumentSpectrum(lines, x, {
+      opdCm: 1,
+      apodization: 'triangular',
+      temperatureK: 296,
+      massAmu: 142,
+      opticalDepthScale: depthScale,
+    }).opticalDepth;
+    let peak = 0;
+    for (let i = 0; i < n; i++) peak = Math.max(peak, truth[i]);
+    const rand = seededRandom(7);
+    const noisy = truth.map(
+      (v) =>
+        v / Math.LN10 + 0.01 * (peak / Math.LN10) * Math.sqrt(-2 * Math.log(Math.max(rand(), 1e-300))) * Math.cos(2 * Math.PI * rand()),
+    );
+    const start = structuredClone(model);
+    start.upper.origin += 0.05;
+    start.upper.zeta += 0.002;
+    const t0 = performance.now();
+    const r = contourFit({
+      model: start,
+      wavenumberCm1: x,
+      absorbance: noisy,
+      fromCm1: x[0],
+      toCm1: x[n - 1],
+      opdCm: 1,
+      apodization: 'triangular',
+      massAmu: 142,
+      float: ['upper.origin', 'upper.B', 'lower.B', 'upper.A', 'upper.zeta', 'scale'],
+    });
+    console.log(
+      JSON.stringify({
+        measure: 'contour-fit',
+        lines: lines.count,
+        points: n,
+        floated: 6,
+        baseline: 2,
+        ms: Math.round(performance.now() - t0),
+        status: r.status,
+        iterations: r.iterations,
+        route: r.route,
+      }),
+    );
+  }
+}
+
+function targets(count: number): void {
+  const rows: Record<string, unknown>[] = [];
+  let profileOk = 0;
+  let bChecked = 0;
+  let bOk = 0;
+  let qChecked = 0;
+  let qOk = 0;
+  let fits = 0;
+  let simOk = 0;
+  let originOk = 0;
+  let comboChecked = 0;
+  let comboOk = 0;
+  for (let s = 0; s < count; s++) {
+    const spec = { ...traceSpecRandom(s), peakAbsorbance: 2e-6 };
+    let c;
+    try {
+      c = traceGenerate(spec);
+    } catch (err) {
+      rows.push({ case: s, skipped: String(err) });
+      continue;
+    }
+    const row: Record<string, unknown> = {
+      case: s,
+      shape: spec.shape,
+      band: spec.band,
+      B: Number(spec.B.toFixed(4)),
+      L: Number(spec.opdCm.toFixed(2)),
+      T: Math.round(spec.temperatureK),
+      apodization: spec.apodization,
+      expected: c.profile,
+    };
+    const u = c.model.shape === 'prolate' ? c.model.upper.A : c.model.upper.C;
+    const qTrue = 2 * (u * (1 - c.model.upper.zeta) - c.model.upper.B);
+    try {
+      const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: spec.temperatureK });
+      row.profile = r.profile;
+      row.confidence = r.confidence;
+      if (r.profile === c.profile) profileOk++;
+      if (r.B !== null && c.profile !== 'Q-series') {
+        bChecked++;
+        row.Berr = Number((r.B / spec.B - 1).toFixed(3));
+        if (Math.abs(r.B / spec.B - 1) <= 0.1) bOk++;
+      }
+      if (c.profile === 'Q-series' && r.qSpacing !== undefined) {
+        qChecked++;
+        row.qErr = Number((Math.abs(r.qSpacing) / Math.abs(qTrue) - 1).toFixed(4));
+        if (Math.abs(Math.abs(r.qSpacing) / Math.abs(qTrue) - 1) <= 0.03) qOk++;
+      }
+    } catch (err) {
+      row.classifyError = String(err);
+    }
+    try {
+      const start = structuredClone(c.model);
+      start.upper.origin += 0.2 / spec.opdCm;
+      start.upper.B *= 1.003;
+      start.lower.B *= 1.003;
+      const float = ['upper.origin', 'upper.B', 'lower.B', 'scale'];
+      if (c.model.shape !== 'linear' && c.model.band === 'perpendicular')
+        float.push(c.model.shape === 'prolate' ? 'upper.A' : 'upper.C', 'upper.zeta');
+      const t0 = performance.now();
+      const r = contourFit({
+        model: start,
+        wavenumberCm1: c.x,
+        absorbance: c.noisy,
+        fromCm1: c.fromCm1,
+        toCm1: c.toCm1,
+        opdCm: c.opdCm,
+        apodization: c.apodization,
+        massAmu: c.massAmu,
+        float,
+      });
+      fits++;
+      let s2 = 0;
+      for (let i = 0; i < r.x.length; i++) s2 += (r.simulation[i] - c.truth[i]) ** 2;
+      const simRatio = Math.sqrt(s2 / r.x.length) / c.noiseSigma;
+      row.simOverNoise = Number(simRatio.toFixed(3));
+      if (simRatio <= 1.5) simOk++;
+      const o = r.parameters['upper.origin'];
+      row.originZ = Number(((o.value - c.model.upper.origin) / o.sigma).toFixed(2));
+      if (Math.abs(o.value - c.model.upper.origin) <= 4 * o.sigma) originOk++;
+      const checks: [string, number][] = [["B'-B''", c.model.upper.B - c.model.lower.B]];
+      if (float.includes('upper.zeta')) checks.push([`${c.model.shape === 'prolate' ? 'A' : 'C'}'(1-zeta)-B'`, qTrue / 2]);
+      for (const [name, truth] of checks) {
+        const v = r.combinations[name];
+        if (!v) continue;
+        comboChecked++;
+        const z = (v.value - truth) / v.sigma;
+        row[`z[${name}]`] = Number(z.toFixed(2));
+        if (Math.abs(z) <= 4) comboOk++;
+      }
+      row.fitMs = Math.round(performance.now() - t0);
+    } catch (err) {
+      row.fitError = String(err);
+    }
+    rows.push(row);
+    console.log(JSON.stringify(row));
+  }
+  console.log(
+    JSON.stringify({
+      summary: 'targets',
+      cases: count,
+      profileRight: `${profileOk}/${count}`,
+      bWithin10pc: `${bOk}/${bChecked}`,
+      qSpacingWithin3pc: `${qOk}/${qChecked}`,
+      simWithin1p5Noise: `${simOk}/${fits}`,
+      originWithin4Sigma: `${originOk}/${fits}`,
+      combinationsWithin4Sigma: `${comboOk}/${comboChecked}`,
+    }),
+  );
+}
+
+const [what = 'speed', nArg] = process.argv.slice(2);
+if (what === 'speed') speed();
+else targets(Number(nArg ?? 30));

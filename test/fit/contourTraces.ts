@@ -1,0 +1,201 @@
+/**
+ * Seeded generator of low-resolution band traces for the contour-fit and classify tests and the
+ * bench. Written apart from the code under test: the instrument is the closed-form line shape
+ * summed line by line (boxcar 2L sinc(2πΔνL) or triangular L sinc²(πΔνL), Griffiths & de Haseth,
+ * Fourier Transform Infrared Spectrometry, 2nd ed. (2007) ch. 2) in the weak-absorption limit
+ * (absorbance = scale × Σ I_i ILS(x − ν_i); the Doppler width, < 2e-3 cm^-1, is neglected beside
+ * 1/(2L) ≥ 0.125 cm^-1), no FFT and no internal grid. Only the line list (positions and relative
+ * intensities) comes from the project's bandLines, itself tested against Herzberg's formulas.
+ */
+import { bandLines } from '../../src/physics/bandLines';
+import { stateConstantsFrom, type BandModel, type BandType, type TopShape } from '../../src/physics/model';
+
+/** Small seeded PRNG (mulberry32; T. Ettinger, public-domain snippet, from memory). */
+export function seededRandom(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** Standard normal deviate by Box–Muller (Box & Muller, Ann. Math. Stat. 29, 610 (1958)). */
+export function gaussian(rand: () => number): number {
+  const u = Math.max(rand(), 1e-300);
+  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rand());
+}
+
+/** What a generated case is made of. */
+export interface TraceCase {
+  name: string;
+  model: BandModel;
+  massAmu: number;
+  opdCm: number;
+  apodization: 'boxcar' | 'triangular';
+  /** Peak absorbance of the noise-free band (decadic) and the noise σ. */
+  peakAbsorbance: number;
+  noiseSigma: number;
+  /** Region of the trace, cm^-1. */
+  fromCm1: number;
+  toCm1: number;
+  x: Float64Array;
+  /** Noise-free and noisy absorbance. */
+  truth: Float64Array;
+  noisy: Float64Array;
+  /** Expected profile of the band. */
+  profile: 'PR' | 'PQR' | 'Q-series';
+}
+
+/** The closed-form instrument line shapes (see the module comment). */
+export function ilsClosedForm(apodization: 'boxcar' | 'triangular', opdCm: number, d: number): number {
+  if (apodization === 'boxcar') {
+    const z = 2 * Math.PI * d * opdCm;
+    return 2 * opdCm * (z === 0 ? 1 : Math.sin(z) / z);
+  }
+  const z = Math.PI * d * opdCm;
+  const s = z === 0 ? 1 : Math.sin(z) / z;
+  return opdCm * s * s;
+}
+
+/** Parameters of one case. */
+export interface TraceSpec {
+  name?: string;
+  shape: TopShape;
+  band: BandType;
+  /** Lower-state B, cm^-1. */
+  B: number;
+  /** Lower-state unique constant (A for prolate, C for oblate), cm^-1. */
+  unique?: number;
+  zeta?: number;
+  temperatureK: number;
+  opdCm: number;
+  apodization: 'boxcar' | 'triangular';
+  origin: number;
+  /** Relative change of B and of the unique constant in the upper state. */
+  deltaBRel?: number;
+  deltaURel?: number;
+  peakAbsorbance?: number;
+  /** Noise σ relative to the peak absorbance. */
+  noiseRel: number;
+  seed: number;
+  /** Points per 1/(2L). @default 2 */
+  pointsPerResolution?: number;
+}
+
+const C2 = 1.438776877; // second radiation constant hc/k, cm K (CODATA 2018)
+
+/** Build the band model of a spec (thermally sensible jMax and kMax). */
+export function traceModel(spec: TraceSpec): BandModel {
+  const { shape, band, B, temperatureK: T } = spec;
+  const jT = Math.sqrt(T / (C2 * B));
+  const jMax = Math.min(400, Math.ceil(3.2 * jT + 5));
+  const u = spec.unique ?? 0;
+  const kT = shape === 'linear' ? 0 : Math.sqrt(T / (C2 * Math.max(Math.abs(u - B), 0.02)));
+  const kMax = shape === 'linear' ? 0 : Math.min(jMax, Math.ceil(3.2 * kT + 3));
+  const dB = (spec.deltaBRel ?? -0.003) * B;
+  const dU = (spec.deltaURel ?? -0.004) * u;
+  const lower = stateConstantsFrom(shape === 'linear' ? { B } : shape === 'prolate' ? { B, A: u } : { B, C: u });
+  const upperBase = shape === 'linear' ? { B: B + dB } : shape === 'prolate' ? { B: B + dB, A: u + dU } : { B: B + dB, C: u + dU };
+  const upper = stateConstantsFrom({
+    ...upperBase,
+    origin: spec.origin,
+    zeta: shape !== 'linear' && band === 'perpendicular' ? (spec.zeta ?? 0) : 0,
+  });
+  return { shape, band, lower, upper, temperatureK: T, jMax, kMax, spinWeights: [1] };
+}
+
+/** Generate one case (deterministic for its seed). */
+export function traceGenerate(spec: TraceSpec): TraceCase {
+  const model = traceModel(spec);
+  const lines = bandLines(model, { minIntensity: 1e-4 });
+  // Region: where the lines hold all but 0.2 % of the intensity, plus 8/L.
+  const order = Array.from({ length: lines.count }, (_, i) => i).sort((a, b) => lines.wavenumberCm1[a] - lines.wavenumberCm1[b]);
+  let total = 0;
+  for (let i = 0; i < lines.count; i++) total += lines.intensity[i];
+  let acc = 0;
+  let lo = lines.wavenumberCm1[order[0]];
+  let hi = lines.wavenumberCm1[order[order.length - 1]];
+  for (const i of order) {
+    acc += lines.intensity[i];
+    if (acc < 0.001 * total) lo = lines.wavenumberCm1[i];
+    if (acc <= 0.999 * total) hi = lines.wavenumberCm1[i];
+  }
+  const L = spec.opdCm;
+  const fromCm1 = lo - 8 / L;
+  const toCm1 = hi + 8 / L;
+  const step = 1 / (2 * L) / (spec.pointsPerResolution ?? 2);
+  const n = Math.floor((toCm1 - fromCm1) / step) + 1;
+  const x = Float64Array.from({ length: n }, (_, i) => fromCm1 + i * step);
+  const raw = new Float64Array(n);
+  const sortedNu = Float64Array.from(order.map((i) => lines.wavenumberCm1[i]));
+  const sortedI = Float64Array.from(order.map((i) => lines.intensity[i]));
+  const reach = 40 / L;
+  let first = 0;
+  for (let k = 0; k < n; k++) {
+    while (first < sortedNu.length && sortedNu[first] < x[k] - reach) first++;
+    let s = 0;
+    for (let i = first; i < sortedNu.length && sortedNu[i] <= x[k] + reach; i++)
+      s += sortedI[i] * ilsClosedForm(spec.apodization, L, x[k] - sortedNu[i]);
+    raw[k] = s;
+  }
+  let peak = 0;
+  for (let k = 0; k < n; k++) peak = Math.max(peak, raw[k]);
+  const peakAbsorbance = spec.peakAbsorbance ?? 0.5;
+  const rand = seededRandom(spec.seed);
+  const noiseSigma = spec.noiseRel * peakAbsorbance;
+  const truth = new Float64Array(n);
+  const noisy = new Float64Array(n);
+  const base0 = 0.02 + 0.02 * rand();
+  const slope = 0.01 * (rand() - 0.5);
+  for (let k = 0; k < n; k++) {
+    const tt = (2 * x[k] - fromCm1 - toCm1) / (toCm1 - fromCm1);
+    truth[k] = (raw[k] / peak) * peakAbsorbance + base0 + slope * tt;
+    noisy[k] = truth[k] + noiseSigma * gaussian(rand);
+  }
+  const profile = spec.shape === 'linear' ? (spec.band === 'parallel' ? 'PR' : 'PQR') : spec.band === 'parallel' ? 'PQR' : 'Q-series';
+  return {
+    name: spec.name ?? `${spec.shape}-${spec.band}-B${spec.B}-L${L}`,
+    model,
+    massAmu: 50,
+    opdCm: L,
+    apodization: spec.apodization,
+    peakAbsorbance,
+    noiseSigma,
+    fromCm1,
+    toCm1,
+    x,
+    truth,
+    noisy,
+    profile,
+  };
+}
+
+/**
+ * A seeded spec drawn across the target space: shape, band type, B 0.05–2 cm^-1 (log-uniform), A/C,
+ * ζ, T 150–400 K, L 0.9–4 cm, apodization, noise 0.3–2 % of the peak.
+ */
+export function traceSpecRandom(seed: number): TraceSpec {
+  const r = seededRandom(seed * 7919 + 13);
+  const shapes: TopShape[] = ['prolate', 'oblate', 'linear'];
+  const shape = shapes[Math.floor(r() * 3)];
+  const band: BandType = r() < 0.5 ? 'parallel' : 'perpendicular';
+  const B = Math.exp(Math.log(0.05) + r() * Math.log(2 / 0.05));
+  const unique = shape === 'prolate' ? B * (3 + 12 * r()) : shape === 'oblate' ? B * (0.5 + 0.3 * r()) : undefined;
+  return {
+    name: `random-${seed}`,
+    shape,
+    band,
+    B,
+    unique,
+    zeta: shape === 'prolate' ? -0.3 + 0.9 * r() : shape === 'oblate' ? -0.6 + 0.8 * r() : 0,
+    temperatureK: 150 + 250 * r(),
+    opdCm: 0.9 + 3.1 * r(),
+    apodization: r() < 0.5 ? 'boxcar' : 'triangular',
+    origin: 700 + 2000 * r(),
+    noiseRel: 0.003 + 0.017 * r(),
+    seed: seed + 1,
+  };
+}
