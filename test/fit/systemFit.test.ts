@@ -68,8 +68,9 @@ describe('systemFit reproduces fitBand on single-band models', () => {
         expect(q.fixed, key).toBe(p.fixed);
         const scale = Math.max(Math.abs(p.value), p.sigma ?? 0);
         expect(Math.abs(q.value - p.value), key).toBeLessThanOrEqual(1e-9 * scale);
-        // σ: fitBand scales by σ_w always; this fit only when σ_w > 1 (never shrinks the stated errors).
-        if (!p.fixed) expect(q.sigma! * (old.result.sigmaW! < 1 ? old.result.sigmaW! : 1)).toBeCloseTo(p.sigma!, 12);
+        // σ: both fits scale the covariance by σ_w² only when σ_w > 1 (never shrink the stated errors).
+        if (!p.fixed) expect(Math.abs(q.sigma! - p.sigma!)).toBeLessThanOrEqual(1e-9 * p.sigma!);
+        expect(r.covarianceScale).toBeCloseTo(old.result.covarianceScale, 9);
       }
       expect(r.sigmaW!).toBeCloseTo(old.result.sigmaW!, 8);
       expect(r.rmsCm1).toBeCloseTo(old.result.rmsCm1, 12);

@@ -46,7 +46,8 @@ describe('import warnings on the page', () => {
   });
 
   it('posts a line table warning in the words the CLI prints', () => {
-    const table = 'J_up,K_up,J_lo,K_lo,wavenumber,id\n1,0,0,0,1000,a\n2,0,1,0,1001,a\n';
+    // Two R lines the default (perpendicular) model allows: ΔK = +1 from K'' = 0.
+    const table = 'J_up,K_up,J_lo,K_lo,wavenumber,id\n1,1,0,0,1000,a\n2,1,1,0,1001,a\n';
     expect(lineTableLoadText(table, 'L.csv')).toBe(true);
     expect(messages()).toContain("warning: L.csv: 1 row renamed, id used by an earlier row ('a' → 'a#3'), at line 3.");
   });
