@@ -273,7 +273,9 @@ function traceFile(
     return { name: 'trace.tsv', text: rows.join('\n') + '\n' };
   }
   if (kind === 2) {
-    const rows = [`# invented band, ${yLabel}`, `# wavenumber/cm-1   ${yLabel}`];
+    // A comment line, then a label line the importer reads (a label only in a comment is not
+    // recognised: such a transmittance file is read as absorbance, see the benchmark README note).
+    const rows = [`# invented band`, `wavenumber   ${yLabel}`];
     for (let i = 0; i < n; i++) rows.push(`  ${x[i].toFixed(6)}   ${y[i].toExponential(6)}`);
     return { name: 'trace.txt', text: rows.join('\r\n') + '\r\n' };
   }
@@ -433,8 +435,9 @@ export function benchBand(id: number, options: BenchBandOptions = {}): BenchBand
     lower: guess.lower,
     upper: guess.upper,
     temperature: Math.round(truth.temperatureK / 10) * 10,
-    jMax: jMaxSeen + 3,
-    kMax: truth.shape === 'linear' ? 0 : kMaxSeen + 2,
+    // A little beyond the last line seen, but not beyond the truth's own limits (no lines exist there).
+    jMax: Math.min(jMaxSeen + 3, jLimit),
+    kMax: truth.shape === 'linear' ? 0 : Math.min(kMaxSeen + 2, kLimit),
     spinWeights: truth.spinWeights,
     mass: Math.round(truth.massAmu),
   };

@@ -93,7 +93,9 @@ export function benchScore(band: BenchBand, stdout: string, exitCode: number, st
     nRecallable++;
     if (found.has(`${l.jUpper},${l.kUpper},${l.jLower},${l.kLower}`)) hit++;
   }
-  const detail = exitCode !== 0 ? stderr.split('\n')[0] : wrong.slice(0, 4).join('; ');
+  const audit = /assign: consistency: (.*)/.exec(stderr)?.[1] ?? '';
+  const held = /assign: (\d+ line\(s\) held for review)/.exec(stderr)?.[1] ?? '';
+  const detail = exitCode !== 0 ? stderr.split('\n')[0] : [audit, held, ...wrong.slice(0, 4)].filter(Boolean).join('; ');
   return {
     id: band.id,
     nSeeds: band.nSeeds,

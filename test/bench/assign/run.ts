@@ -1,5 +1,6 @@
 /**
- * `npm run bench:assign [-- FIRST COUNT]`: the assignment assistant's robustness benchmark.
+ * `npm run bench:assign [-- FIRST COUNT | subset]`: the assignment assistant's robustness benchmark
+ * (`subset`: the 24 smaller bands of the unit test, with their per-band lines).
  * Generates bands FIRST … FIRST+COUNT−1 (default 0 … 119; benchBand), runs the `assign` command on
  * each in process and prints one line per band, then the distribution overall and per seed count.
  * `LB_ASSIGN_JSON=1` adds one JSON line per band.
@@ -7,11 +8,13 @@
 import { benchBand } from './assignBenchBand';
 import { benchRunAndScore, benchSummary, type BenchScore } from './assignBenchScore';
 
-const first = Number(process.argv[2] ?? 0);
-const count = Number(process.argv[3] ?? 120);
+const isSubset = process.argv[2] === 'subset';
+const first = isSubset ? 600 : Number(process.argv[2] ?? 0);
+const count = isSubset ? 24 : Number(process.argv[3] ?? 120);
 const scores: BenchScore[] = [];
 for (let id = first; id < first + count; id++) {
-  const band = benchBand(id);
+  // `subset`: the bands of test/bench/assignBench.test.ts (same options).
+  const band = isSubset ? benchBand(id, { seeds: ([10, 3, 0] as const)[id % 3], jLimit: 45, kLimit: 12 }) : benchBand(id);
   const s = await benchRunAndScore(band);
   scores.push(s);
   const mark = s.precision < 0.99 || s.exitCode !== 0 || (s.nSeeds === 10 && s.recall < 0.85) ? ' <<' : '';
