@@ -5,6 +5,8 @@ import { assistantOverlapShift, assistantPairSigma, assistantRungOf, type Assist
 import type { AssistantAmbiguity, AssistantCandidatePeak, AssistantOptionsResolved } from './assistantTypes';
 import type { PeakList } from './peaksFind';
 
+/** A neighbour pulling a line's maximum by more than this fraction of the FWHM sends the pair to review. */
+const OVERLAP_REVIEW_FRACTION = 0.25;
 /** A neighbour pulling a line's maximum by more than this fraction of the FWHM makes it a possible blend. */
 const OVERLAP_BLEND_FRACTION = 0.05;
 
@@ -253,6 +255,17 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
     }
     const width = context.localFwhmCm1[p];
     const overlap = assistantOverlapShift(cat, i, width);
+    if (Math.abs(overlap.shiftCm1) > OVERLAP_REVIEW_FRACTION * width && overlap.neighbour >= 0) {
+      // The neighbours pull the maximum by a good part of a line width: the peak's centre is not
+      // this line's position, so the pair goes to review rather than into the table.
+      ambiguous.push({
+        kind: 'shape-mismatch',
+        rungs: [rung],
+        peaks: found,
+        reason: `${rung.label}: the only peak within ${k}σ (${hit.wavenumberCm1.toFixed(4)} cm^-1) is expected to be pulled by ${overlap.shiftCm1.toPrecision(2)} cm^-1 (${(Math.abs(overlap.shiftCm1) / width).toFixed(2)} line widths) by ${assistantRungOf(cat, overlap.neighbour, shape).label}`,
+      });
+      continue;
+    }
     if (Math.abs(overlap.shiftCm1) > OVERLAP_BLEND_FRACTION * width && overlap.neighbour >= 0) {
       why.push(
         `on the wing of ${assistantRungOf(cat, overlap.neighbour, shape).label} (expected pull ${overlap.shiftCm1 >= 0 ? '+' : ''}${overlap.shiftCm1.toPrecision(2)} cm^-1)`,
