@@ -76,8 +76,11 @@ function loadTrace(path: string, io: CliIo) {
  * stdout: CSV with header J_up,K_up,J_lo,K_lo,wavenumber,uncertainty,status,label,calc,
  * obs_minus_calc,distance_sigma,flags,note — one row per confident line: status 'seed' or
  * 'proposed' (lines the loop excluded as outliers and ambiguous cases are not rows; they are
- * counted on stderr). flags: 'blended' (weighted down), 'suspect' (the misassignment hunt
- * distrusts it). calc from the final fit, cm^-1. stderr: the final fit's summary.
+ * counted on stderr). Proposals the misassignment hunt distrusts, and every machine-made line of a
+ * run the consistency checks doubt, are not rows either: they are listed on stderr as "review:"
+ * lines with their status and reason. flags: 'blended' (weighted down), 'suspect' (a seed line
+ * the misassignment hunt distrusts). calc from the final fit, cm^-1. stderr: the final fit's
+ * summary, the consistency audit ("assign: consistency: …") and the review list.
  * Exit 0 on success; bad inputs give one stderr line naming the file, line and field, exit 1.
  */
 export const assignCommand: CliCommand = (args, io) => {
