@@ -3,6 +3,7 @@ import type { FitError, FitResult } from '../fit/fitTypes';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
+import { assistantLadderTest } from './assistantLadderTest';
 import { assistantMatch } from './assistantMatch';
 import { assistantMisassignments, assistantRobustScale } from './assistantMisassignment';
 import { assistantOptionsResolve } from './assistantOptions';
@@ -13,10 +14,13 @@ import {
   assistantPeaksRepairWarning,
   assistantPeaksUsable,
   assistantPeakUncertainty,
+  assistantPeaksInRange,
+  assistantWindowLimitCm1,
   type AssistantPeakContext,
 } from './assistantPeakContext';
-import { assistantCatalogue, assistantQuantaKey, type AssistantCatalogue } from './assistantPredict';
+import { assistantCatalogue, assistantQuantaKey, assistantRungOf, type AssistantCatalogue } from './assistantPredict';
 import { assistantRefit } from './assistantRefit';
+import { assistantPosteriorDetermined, assistantPosteriorFit, assistantPriorSigmas, type AssistantPosterior } from './assistantPosterior';
 import { assistantShiftSearch } from './assistantShiftSearch';
 import { assistantFitLines } from './assistantReview';
 import type {
@@ -25,6 +29,7 @@ import type {
   AssistantLine,
   AssistantOptions,
   AssistantOptionsResolved,
+  AssistantRunAudit,
   AssistantRunResult,
 } from './assistantTypes';
 import type { PeakList } from './peaksFind';
@@ -173,12 +178,20 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
   const iterations: AssistantIteration[] = [];
   const warnings: string[] = assistantPeaksRepairWarning(peaks, usable.repaired);
   // Held in one object because the refit closure updates it (TypeScript does not track closure writes).
-  const state: { fit: FitResult | null; fitError: FitError | null; floated: string[]; fitNotes: string[] } = {
+  const state: {
+    fit: FitResult | null;
+    fitError: FitError | null;
+    floated: string[];
+    fitNotes: string[];
+    posterior: AssistantPosterior | null;
+  } = {
     fit: null,
     fitError: null,
     floated: [],
     fitNotes: [],
+    posterior: null,
   };
+  const priors = assistantPriorSigmas(model, input.floatable);
   let ambiguous: AssistantAmbiguity[] = [];
   let heightScale = NaN;
   if (lines.filter((l) => l.status !== 'rejected').length === 0) {
@@ -188,12 +201,10 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
   // User lines the fit disagrees with are left out of the run's fits; the lines themselves stay as given.
   const heldOut = new Set<string>();
   const refit = (): void => {
-    const out = assistantRefit(
-      model,
-      input.floatable,
-      assistantFitLines(lines).filter((l) => !heldOut.has(l.id)),
-      state.fit,
-    );
+    const fitLines = assistantFitLines(lines).filter((l) => !heldOut.has(l.id));
+    state.posterior = assistantPosteriorFit(model, priors, fitLines, state.posterior?.model);
+    // The reported fit floats what the lines determine (posterior σ well below the prior σ).
+    const out = assistantRefit(model, input.floatable, fitLines, state.fit, assistantPosteriorDetermined(state.posterior, INFORMED_RATIO));
     state.fitNotes = out.notes;
     state.floated = out.floated;
     if (out.fit) {
@@ -206,15 +217,16 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
 
   let lastAdded = 0;
   let isFinished = false;
+  let inconsistency: string | null = null;
   // Reach step in J'': reachJStep while lines come in; doubled when an iteration adds nothing (to
   // jump a run of ambiguous rungs), until it spans the whole band.
   let step = options.reachJStep;
   for (let iteration = 1; iteration <= options.maxIterations; iteration++) {
     refit();
     let nExcluded = 0;
-    if (state.fit && state.fit.nLines <= DELETION_MAX_LINES) {
+    if (state.posterior && state.posterior.nLines <= DELETION_MAX_LINES) {
       const fitLines = assistantFitLines(lines).filter((l) => !heldOut.has(l.id));
-      const bad = deletionOutliers(model, input.floatable, fitLines, state.fit);
+      const bad = deletionOutliers(model, priors, fitLines, state.posterior);
       nExcluded += markOutliers(
         bad.map((b) => ({ l: b.line, z: b.z })),
         heldOut,
@@ -224,14 +236,25 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       );
       if (bad.length) refit();
     }
-    nExcluded += excludeOutliers(lines, state.fit, options, iteration, heldOut, warnings);
+    nExcluded += excludeOutliers(lines, state.posterior, options, iteration, heldOut, warnings, model.shape);
     if (nExcluded > 0) refit();
+    const post = state.posterior;
+    if (post && post.nLines >= SCATTER_MIN_LINES && post.scatterCm1 > SCATTER_MAX_FWHM * context.medianFwhmCm1) {
+      // The assigned lines scatter about their best fit by a good part of a line width: some are
+      // wrong (or the model cannot describe them). Adding more would build on them.
+      inconsistency =
+        `iteration ${iteration}: the ${post.nLines} lines in the fit scatter by ${post.scatterCm1.toPrecision(2)} cm^-1 about their best fit ` +
+        `(${(post.scatterCm1 / context.medianFwhmCm1).toFixed(1)} line widths): the set is not consistent, so the run stops and its proposals are for review only`;
+      isFinished = true;
+      break;
+    }
     const current = state.fit;
     const minIntensity =
       Number.isFinite(heightScale) && peaks.noiseSigma > 0 ? Math.min(1e-3, Math.max(1e-7, (0.5 * peaks.noiseSigma) / heightScale)) : 1e-4;
     const cat = assistantCatalogue({
-      model: current ? current.model : model,
+      model: state.posterior ? state.posterior.model : current ? current.model : model,
       fit: current,
+      posterior: state.posterior ?? undefined,
       peaks,
       context,
       minIntensity,
@@ -255,12 +278,12 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     // Sub-bands not yet pinned by the fit are opened only once their whole ladder lines up with
     // the peaks (the fit cannot yet tell how far the K structure of the model is off).
     const fitSubBands = new Set(assistantFitLines(lines).map((l) => assistantSubBandIndex(model, l.kUpper - l.kLower, l.kLower)));
-    const needsAlignment = model.shape !== 'linear' && fitSubBands.size < ALIGN_BELOW_SUB_BANDS;
+    const needsAlignment = ALIGN_USED && model.shape !== 'linear' && fitSubBands.size < ALIGN_BELOW_SUB_BANDS;
     const minHeight = peaks.noiseSigma > 0 ? options.minPredictedSnr * peaks.noiseSigma : 0.5 * minOf(peaks.height, peaks.count);
     const offered: number[] = [];
     for (let i = 0; i < cat.lines.count; i++) {
       if (isRungAssigned[i]) continue;
-      if (!isReached(model, reach, cat.lines.deltaK[i], cat.lines.kLower[i], cat.lines.jLower[i], step)) continue;
+      if (ISREACH_USED && !isReached(model, reach, cat.lines.deltaK[i], cat.lines.kLower[i], cat.lines.jLower[i], step)) continue;
       const strongEnough = Number.isFinite(heightScale)
         ? heightScale * cat.lines.intensity[i] >= minHeight
         : cat.lines.intensity[i] >= 0.02;
@@ -271,20 +294,31 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       : new Map<number, SubBandAlignment | null>();
     const candidates: number[] = [];
     const tolerances: number[] = [];
+    const tooWide: number[] = [];
     let nTooWide = 0;
     for (const i of offered) {
       const m = assistantSubBandIndex(model, cat.lines.deltaK[i], cat.lines.kLower[i]);
       if (alignment.has(m) && alignment.get(m) === null) continue;
-      const p = assistantNearestPeak(peaks, cat.predictedCm1[i]);
-      const width = p >= 0 ? context.localFwhmCm1[p] : context.medianFwhmCm1;
-      if (options.toleranceSigma * cat.toleranceSigmaCm1[i] > options.maxWindowFwhm * width) {
+      const limit = assistantWindowLimitCm1(peaks, context, cat.predictedCm1[i], options.maxWindowFwhm, CHANCE_PEAKS);
+      if (options.toleranceSigma * cat.toleranceSigmaCm1[i] > limit) {
         nTooWide++;
+        tooWide.push(i);
         continue;
       }
       candidates.push(i);
       tolerances.push(cat.toleranceSigmaCm1[i]);
     }
+    // Rungs predicted to within the window: the only ones that compete for a peak.
+    const isSharp = new Uint8Array(cat.lines.count);
+    const maxDistanceCm1 = new Float64Array(cat.lines.count);
+    for (let i = 0; i < cat.lines.count; i++) {
+      const limit = assistantWindowLimitCm1(peaks, context, cat.predictedCm1[i], options.maxWindowFwhm, CHANCE_PEAKS);
+      maxDistanceCm1[i] = limit;
+      if (options.toleranceSigma * cat.toleranceSigmaCm1[i] <= SHARP_WINDOW_FACTOR * limit) isSharp[i] = 1;
+    }
     const matched = assistantMatch({
+      isSharp,
+      maxDistanceCm1,
       cat,
       peaks,
       context,
@@ -338,7 +372,59 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       lines.push(line);
       addedIds.push(line.id);
     }
-    lastAdded = matched.matches.length;
+    let nLadder = 0;
+    // Hypotheses need at least one line to stand on (from the first guess alone every rung is a guess).
+    if (matched.matches.length === 0 && state.posterior && state.posterior.nLines > 0 && tooWide.length > 0) {
+      const picks = assistantLadderTest({
+        model,
+        cat,
+        post: state.posterior,
+        peaks,
+        context,
+        options,
+        isRungAssigned,
+        isSharp,
+        peakOwner,
+        candidates: tooWide,
+        heightScale,
+        minHeight,
+        chancePeaks: CHANCE_PEAKS,
+      });
+      for (const pick of picks) {
+        const i = pick.rung;
+        const p = pick.peak;
+        const sigma = Math.hypot(cat.toleranceSigmaCm1[i], peaks.centreSigmaCm1[p]);
+        const label = lineLabelAscii(cat.lines.deltaK[i], cat.lines.deltaJ[i], cat.lines.kLower[i], cat.lines.jLower[i], model.shape);
+        const reason =
+          `iteration ${iteration}: ${label} predicted at ${cat.predictedCm1[i].toFixed(4)} ± ${sigma.toPrecision(2)} cm^-1 (too uncertain for a direct match); ` +
+          `of the ${pick.tried} ${pick.withRung >= 0 ? `peak pairs tried with the next rung ${lineLabelAscii(cat.lines.deltaK[pick.withRung], cat.lines.deltaJ[pick.withRung], cat.lines.kLower[pick.withRung], cat.lines.jLower[pick.withRung], model.shape)} of its series` : 'peaks in its window'}, only ${peaks.wavenumberCm1[p].toFixed(4)} makes the lines it pins down fall on peaks: ` +
+          `${pick.confirmed} of ${pick.testable} on single peaks, ${pick.missing} strong ones on none (best rival peak scores ${pick.rivalScore})`;
+        const line: AssistantLine = {
+          id: newId(),
+          jUpper: cat.lines.jUpper[i],
+          kUpper: cat.lines.kUpper[i],
+          jLower: cat.lines.jLower[i],
+          kLower: cat.lines.kLower[i],
+          observedCm1: peaks.wavenumberCm1[p],
+          uncertaintyCm1: assistantPeakUncertainty(peaks, context, p, options.positionFloorFraction, options.blendUncertaintyFraction),
+          isBlended: context.isPossibleBlend[p] === 1,
+          isExcluded: false,
+          note: reason,
+          status: 'proposed',
+          source: 'auto-extend',
+          peakIndex: p,
+          predictedCm1: cat.predictedCm1[i],
+          matchSigmaCm1: sigma,
+          distanceSigma: Math.abs(peaks.wavenumberCm1[p] - cat.predictedCm1[i]) / sigma,
+          reason,
+          iteration,
+        };
+        lines.push(line);
+        addedIds.push(line.id);
+        nLadder++;
+      }
+    }
+    lastAdded = matched.matches.length + nLadder;
     iterations.push({
       iteration,
       nLinesInFit: current ? current.nLines : 0,
@@ -354,6 +440,10 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       isFinished = true;
       break;
     }
+    if (!ISREACH_USED && matched.matches.length === 0 && nLadder === 0 && nExcluded === 0) {
+      isFinished = true;
+      break;
+    }
     if (matched.matches.length > 0) step = options.reachJStep;
     else if (step <= model.jMax) step *= 2;
     else {
@@ -364,11 +454,20 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
   if (!isFinished) {
     if (lastAdded > 0) {
       refit();
-      if (excludeOutliers(lines, state.fit, options, iterations.length, heldOut, warnings) > 0) refit();
+      if (excludeOutliers(lines, state.posterior, options, iterations.length, heldOut, warnings, model.shape) > 0) refit();
     }
     warnings.push(`Stopped after maxIterations = ${options.maxIterations} with lines still being added; run again to continue.`);
   }
   const hunt = assistantMisassignments({ model, floatable: input.floatable, lines, peaks, context, options: input.options });
+  const audit = state.posterior ? auditMissing(model, state.posterior, peaks, context, options, heightScale) : null;
+  let doubt: string | null = inconsistency;
+  if (doubt) warnings.push(doubt);
+  else if (audit && audit.strong >= AUDIT_MIN_STRONG && audit.missing > AUDIT_MAX_MISSING * audit.strong) {
+    doubt =
+      `${audit.missing} of the ${audit.strong} strong lines the final constants predict to within a line width lie on no peak ` +
+      `(${audit.examples.join(', ')}): the assigned set is not consistent with the trace (a numbering or sub-band shift?), so its proposals are for review only`;
+    warnings.push(doubt);
+  }
   const { fit, fitError, floated, fitNotes } = state;
   if (fitError && !fit) warnings.push(`No fit could be made: ${fitError.message}`);
   return {
@@ -383,9 +482,75 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     iterations,
     undo: { previousLines, addedIds: [...addedIds] },
     warnings,
+    doubt,
+    audit,
   };
 }
 
+/** The run stops, doubtful, when ≥ SCATTER_MIN_LINES fitted lines scatter by more than SCATTER_MAX_FWHM median FWHM (robust). */
+const SCATTER_MIN_LINES = 8;
+const SCATTER_MAX_FWHM = 0.5;
+/** The consistency audit needs at least this many strong, sharply predicted lines… */
+const AUDIT_MIN_STRONG = 10;
+/** …and doubts the run when more than this fraction of them lie on no peak. */
+const AUDIT_MAX_MISSING = 0.25;
+
+/**
+ * Consistency audit of a finished run: the lines the final constants predict sharply (window within
+ * the matching limit) and strongly (≥ 5× the offer threshold) must show peaks. A set assigned with a
+ * wrong J numbering or sub-band shift fits itself but predicts strong lines where the trace is empty.
+ * Source: common practice (a correct assignment also explains the lines it did not use).
+ */
+function auditMissing(
+  model: BandModel,
+  post: AssistantPosterior,
+  peaks: PeakList,
+  context: AssistantPeakContext,
+  options: AssistantOptionsResolved,
+  heightScale: number,
+): AssistantRunAudit | null {
+  if (!Number.isFinite(heightScale) || !(peaks.noiseSigma > 0)) return null;
+  const cat = assistantCatalogue({
+    model: post.model,
+    fit: null,
+    posterior: post,
+    peaks,
+    context,
+    minIntensity: Math.min(1e-3, Math.max(1e-7, (0.5 * peaks.noiseSigma) / heightScale)),
+    widthFloorFraction: options.widthFloorFraction,
+    fallbackSigmaCm1: options.fallbackSigmaCm1,
+  });
+  const strongHeight = 5 * options.minPredictedSnr * peaks.noiseSigma;
+  let strong = 0;
+  let missing = 0;
+  const examples: string[] = [];
+  for (let i = 0; i < cat.lines.count; i++) {
+    if (heightScale * cat.lines.intensity[i] < strongHeight) continue;
+    const x = cat.predictedCm1[i];
+    const limit = assistantWindowLimitCm1(peaks, context, x, options.maxWindowFwhm, CHANCE_PEAKS);
+    const half = options.toleranceSigma * cat.toleranceSigmaCm1[i];
+    if (half > limit) continue;
+    if (x < peaks.wavenumberCm1[0] || x > peaks.wavenumberCm1[peaks.count - 1]) continue;
+    strong++;
+    const [a, b] = assistantPeaksInRange(peaks, x - Math.max(half, 0.5 * limit), x + Math.max(half, 0.5 * limit));
+    if (b < a) {
+      missing++;
+      if (examples.length < 3) examples.push(`${assistantRungOf(cat, i, model.shape).label} at ${x.toFixed(4)}`);
+    }
+  }
+  return { strong, missing, examples };
+}
+
+/** The reported fit floats the constants whose posterior σ the lines bring below this fraction of the prior σ. */
+const INFORMED_RATIO = 0.9;
+/** Expected number of unrelated peaks a matching window may hold where peaks are sparse (Poisson). */
+export const CHANCE_PEAKS = 0.2;
+/** A rung competes for peaks while its window is within this multiple of the offer limit (maxWindowFwhm). */
+const SHARP_WINDOW_FACTOR = 3;
+/** Whether new sub-bands are opened by aligning their whole ladder (else by their predictions' σ alone). */
+const ALIGN_USED = false;
+/** Whether rungs are offered only within a J'' step of the assigned ones (else by their σ alone). */
+const ISREACH_USED = false;
 /** Fewer sub-bands than this in the fit: new sub-bands are opened only by aligning their ladder. */
 const ALIGN_BELOW_SUB_BANDS = 3;
 /** A ladder needs at least this many offered rungs to be aligned. */
@@ -504,21 +669,23 @@ function alignNewSubBands(
  */
 function excludeOutliers(
   lines: AssistantLine[],
-  fit: FitResult | null,
+  post: AssistantPosterior | null,
   options: AssistantOptionsResolved,
   iteration: number,
   heldOut: Set<string>,
   warnings: string[],
+  shape: BandModel['shape'],
 ): number {
-  if (!fit || fit.nLines < 10 || fit.isExactlyDetermined) return 0;
-  const scale = assistantRobustScale(fit.lines.filter((l) => !l.isExcluded).map((l) => l.normalisedResidual));
-  const off = lines
-    .filter((l) => !l.isExcluded && l.status !== 'rejected' && !heldOut.has(l.id))
-    .map((l) => ({ l, z: (l.observedCm1 - calcOf(fit, l)) / l.uncertaintyCm1 / scale }))
+  if (!post || post.nLines < 10 || post.nLines - post.pEffective < 3) return 0;
+  const calc = (l: AssistantLine) => transitionWavenumber(post.model, l.jUpper, l.kUpper, l.jLower, l.kLower);
+  const fitted = lines.filter((l) => !l.isExcluded && l.status !== 'rejected' && !heldOut.has(l.id));
+  const scale = assistantRobustScale(fitted.map((l) => (l.observedCm1 - calc(l)) / l.uncertaintyCm1));
+  const off = fitted
+    .map((l) => ({ l, z: (l.observedCm1 - calc(l)) / l.uncertaintyCm1 / scale }))
     .filter((o) => Math.abs(o.z) > options.excludeSigma)
     .sort((a, b) => Math.abs(b.z) - Math.abs(a.z))
-    .slice(0, Math.floor(fit.nLines / 3));
-  return markOutliers(off, heldOut, warnings, iteration, fit.model.shape);
+    .slice(0, Math.floor(post.nLines / 3));
+  return markOutliers(off, heldOut, warnings, iteration, shape);
 }
 
 /** Exclude machine-made outliers (with the reason) and hold out the user's (with a warning). */
@@ -561,25 +728,25 @@ const DELETION_CHI2_SHARE = 0.5;
  */
 function deletionOutliers(
   model: BandModel,
-  floatable: readonly string[],
+  priors: Record<string, number>,
   fitLines: AssistantLine[],
-  fit: FitResult,
+  post: AssistantPosterior,
 ): { line: AssistantLine; z: number }[] {
   const out: { line: AssistantLine; z: number }[] = [];
   let current = fitLines;
-  let chi2 = fit.chi2;
-  let sigmaW = fit.sigmaW ?? 0;
+  let chi2 = post.chi2;
+  let sigmaW = Math.sqrt(post.scale2);
   while (out.length < Math.floor(fitLines.length / 3) && sigmaW > 3 && current.length > 3) {
     let best = -1;
     let bestChi2 = Infinity;
     let bestSigmaW = 0;
     for (let j = 0; j < current.length; j++) {
       const rest = current.filter((_, i) => i !== j);
-      const r = assistantRefit(model, floatable, rest, fit);
-      if (!r.fit || r.fit.chi2 >= bestChi2) continue;
+      const r = assistantPosteriorFit(model, priors, rest, post.model);
+      if (r.chi2 >= bestChi2) continue;
       best = j;
-      bestChi2 = r.fit.chi2;
-      bestSigmaW = r.fit.sigmaW ?? 0;
+      bestChi2 = r.chi2;
+      bestSigmaW = Math.sqrt(r.scale2);
     }
     if (best < 0 || chi2 - bestChi2 < DELETION_CHI2_SHARE * chi2) break;
     const line = current[best];
@@ -589,10 +756,6 @@ function deletionOutliers(
     sigmaW = bestSigmaW;
   }
   return out;
-}
-
-function calcOf(fit: FitResult, l: AssistantLine): number {
-  return transitionWavenumber(fit.model, l.jUpper, l.kUpper, l.jLower, l.kLower);
 }
 
 function labelOf(l: AssistantLine, model: BandModel): string {

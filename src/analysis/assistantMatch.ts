@@ -5,6 +5,8 @@ import { assistantOverlapShift, assistantPairSigma, assistantRungOf, type Assist
 import type { AssistantAmbiguity, AssistantCandidatePeak, AssistantOptionsResolved } from './assistantTypes';
 import type { PeakList } from './peaksFind';
 
+/** A neighbour pulling a line's maximum by more than this fraction of the FWHM sends the pair to review. */
+const OVERLAP_REVIEW_FRACTION = 0.25;
 /** A neighbour pulling a line's maximum by more than this fraction of the FWHM makes it a possible blend. */
 const OVERLAP_BLEND_FRACTION = 0.05;
 
@@ -46,6 +48,19 @@ export interface AssistantMatchInput {
   forbidden: ReadonlySet<string>;
   /** Peak height per unit relative intensity (absorbance); NaN when not yet known. */
   heightScale: number;
+  /**
+   * Optional: 1 for rungs predicted well enough to compete for a peak (their window is narrow).
+   * A rung whose position is still known only to many line widths lands on any one peak with a
+   * small chance; it is neither a rival nor a blend partner until it is predicted better (the peak's
+   * height and width are then what tell a blend). Absent: every rung competes.
+   */
+  isSharp?: Uint8Array;
+  /**
+   * Optional: the farthest a peak may lie from each rung's prediction, cm^-1 (the matching window
+   * limit where the rung was offered); a poorly centred peak (large centre σ) then cannot widen
+   * the pair's window beyond it.
+   */
+  maxDistanceCm1?: Float64Array;
   options: AssistantOptionsResolved;
 }
 
@@ -78,10 +93,13 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
   const pairPasses = (i: number, p: number): AssistantCandidatePeak | null => {
     const sigma = assistantPairSigma(cat.toleranceSigmaCm1[i], peaks.centreSigmaCm1[p]);
     const d = Math.abs(peaks.wavenumberCm1[p] - cat.predictedCm1[i]);
-    return d <= k * sigma ? { peakIndex: p, wavenumberCm1: peaks.wavenumberCm1[p], distanceSigma: d / sigma, sigmaCm1: sigma } : null;
+    const cap = input.maxDistanceCm1 ? input.maxDistanceCm1[i] : Infinity;
+    return d <= k * sigma && d <= cap
+      ? { peakIndex: p, wavenumberCm1: peaks.wavenumberCm1[p], distanceSigma: d / sigma, sigmaCm1: sigma }
+      : null;
   };
   /** Unassigned rungs j ≠ i whose pair with peak p passes. */
-  const rungsAtPeak = (p: number, except: number): number[] => {
+  const rungsAtPeak = (p: number, except: number, nearCm1 = 0): number[] => {
     const x = peaks.wavenumberCm1[p];
     const half = k * Math.hypot(maxTol, peaks.centreSigmaCm1[p]);
     let lo = 0;
@@ -95,6 +113,8 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
     for (let s = lo; s < sortedPred.length && sortedPred[s] <= x + half; s++) {
       const j = cat.order[s];
       if (j === except || input.isRungAssigned[j]) continue;
+      // A loosely predicted rung competes only when its prediction itself falls within the window.
+      if (input.isSharp && !input.isSharp[j] && !(Math.abs(sortedPred[s] - x) <= nearCm1)) continue;
       if (pairPasses(j, p)) out.push(j);
     }
     return out;
@@ -140,7 +160,7 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
     }
     if (matchedRungs.has(i)) continue;
     const intensity = cat.lines.intensity[i];
-    const others = rungsAtPeak(p, i);
+    const others = rungsAtPeak(p, i, k * hit.sigmaCm1);
     const competitors = others.filter((j) => cat.lines.intensity[j] * options.dominanceRatio >= intensity);
     // An unresolved K stack (same ΔK, ΔJ and J'', only K differs; the K structure of a parallel
     // band) is not a choice between candidates: all its members go to the peak, as a blend.
@@ -215,6 +235,17 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
       continue;
     }
     const partners = others.filter((j) => cat.lines.intensity[j] >= options.blendPartnerFraction * intensity);
+    if (partners.length === 0 && peaks.fwhmCm1[p] > options.blendWidthRatio * context.localFwhmCm1[p]) {
+      // Wider than a single line, and no sharply predicted line explains the extra width: the peak
+      // is a blend with a line not yet predicted well, and its maximum is nobody's position.
+      ambiguous.push({
+        kind: 'shape-mismatch',
+        rungs: [rung],
+        peaks: found,
+        reason: `${rung.label}: the only peak within ${k}σ (${hit.wavenumberCm1.toFixed(4)} cm^-1) is a ${context.blendReason[p]} that no predicted line explains`,
+      });
+      continue;
+    }
     const why: string[] = [];
     if (context.isPossibleBlend[p]) why.push(context.blendReason[p]);
     if (partners.length) {
@@ -224,6 +255,17 @@ export function assistantMatch(input: AssistantMatchInput): { matches: Assistant
     }
     const width = context.localFwhmCm1[p];
     const overlap = assistantOverlapShift(cat, i, width);
+    if (Math.abs(overlap.shiftCm1) > OVERLAP_REVIEW_FRACTION * width && overlap.neighbour >= 0) {
+      // The neighbours pull the maximum by a good part of a line width: the peak's centre is not
+      // this line's position, so the pair goes to review rather than into the table.
+      ambiguous.push({
+        kind: 'shape-mismatch',
+        rungs: [rung],
+        peaks: found,
+        reason: `${rung.label}: the only peak within ${k}σ (${hit.wavenumberCm1.toFixed(4)} cm^-1) is expected to be pulled by ${overlap.shiftCm1.toPrecision(2)} cm^-1 (${(Math.abs(overlap.shiftCm1) / width).toFixed(2)} line widths) by ${assistantRungOf(cat, overlap.neighbour, shape).label}`,
+      });
+      continue;
+    }
     if (Math.abs(overlap.shiftCm1) > OVERLAP_BLEND_FRACTION * width && overlap.neighbour >= 0) {
       why.push(
         `on the wing of ${assistantRungOf(cat, overlap.neighbour, shape).label} (expected pull ${overlap.shiftCm1 >= 0 ? '+' : ''}${overlap.shiftCm1.toPrecision(2)} cm^-1)`,

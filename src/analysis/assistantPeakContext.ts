@@ -174,3 +174,40 @@ export function assistantPeakUncertainty(
   const base = Math.hypot(peaks.centreSigmaCm1[k], positionFloorFraction * fwhm, overlapCm1);
   return context.isPossibleBlend[k] || isBlendExtra ? Math.hypot(base, blendUncertaintyFraction * fwhm) : base;
 }
+
+/** Peaks on each side counted for the local peak density. */
+const DENSITY_NEIGHBOURS = 5;
+
+/**
+ * Local density of peaks around a position, peaks per cm^-1: 2n over the span from the n-th peak
+ * below to the n-th peak above the nearest one (n = 5; fewer at the ends of the list).
+ * @returns peaks per cm^-1 (0 for a list of fewer than 2 peaks)
+ */
+export function assistantPeakDensity(peaks: PeakList, positionCm1: number): number {
+  const q = assistantNearestPeak(peaks, positionCm1);
+  if (q < 0) return 0;
+  const lo = Math.max(0, q - DENSITY_NEIGHBOURS);
+  const hi = Math.min(peaks.count - 1, q + DENSITY_NEIGHBOURS);
+  const span = peaks.wavenumberCm1[hi] - peaks.wavenumberCm1[lo];
+  return hi > lo && span > 0 ? (hi - lo) / span : 0;
+}
+
+/**
+ * Largest half window (cm^-1) in which a rung may be matched to a peak at a position: maxWindowFwhm
+ * local FWHMs, or wider where peaks are sparse, as long as the window is expected to hold at most
+ * `chancePeaks` peaks by chance (2·half·density ≤ chancePeaks).
+ * Source: Poisson count of unrelated peaks in a window (common practice for judging coincidences).
+ */
+export function assistantWindowLimitCm1(
+  peaks: PeakList,
+  context: AssistantPeakContext,
+  positionCm1: number,
+  maxWindowFwhm: number,
+  chancePeaks: number,
+): number {
+  const q = assistantNearestPeak(peaks, positionCm1);
+  const width = q >= 0 ? context.localFwhmCm1[q] : context.medianFwhmCm1;
+  const density = assistantPeakDensity(peaks, positionCm1);
+  const sparse = density > 0 ? chancePeaks / (2 * density) : 0;
+  return Math.max(maxWindowFwhm * width, sparse);
+}

@@ -5,6 +5,7 @@ import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel, LineList, TransitionQuanta } from '../physics/model';
 import { assistantNearestPeak, type AssistantPeakContext } from './assistantPeakContext';
 import type { AssistantRung } from './assistantTypes';
+import { assistantPosteriorPredict, type AssistantPosterior } from './assistantPosterior';
 import type { PeakList } from './peaksFind';
 
 /** Every line of the band with its predicted position and matching σ. */
@@ -21,6 +22,8 @@ export interface AssistantCatalogue {
   order: Int32Array;
   /** Index of a line by its quanta key (assistantQuantaKey). */
   indexOf: Map<string, number>;
+  /** With a posterior: ∂ν/∂θ of every line over posterior.keys, row-major count × keys.length. */
+  gradient?: Float64Array;
 }
 
 /** Stable key of a transition's quantum numbers, "J',K',J'',K''". */
@@ -72,6 +75,11 @@ export interface AssistantCatalogueInput {
   widthFloorFraction: number;
   /** σ of a prediction the fit cannot give (exactly determined, or no fit), cm^-1. */
   fallbackSigmaCm1: number;
+  /**
+   * Posterior of the constants (assistantPosteriorFit): when given, positions and σ come from it
+   * (every constant's uncertainty included), not from `fit`; `fit` then only gives the scatter.
+   */
+  posterior?: AssistantPosterior;
 }
 
 /**
@@ -94,7 +102,14 @@ export function assistantCatalogue(input: AssistantCatalogueInput): AssistantCat
   const toleranceSigmaCm1 = new Float64Array(n);
   let factor = 1;
   let scatter = 0;
-  if (fit) {
+  let gradient: Float64Array | undefined;
+  if (input.posterior) {
+    const p = assistantPosteriorPredict(input.posterior, lines);
+    gradient = p.gradient;
+    predictedCm1.set(p.wavenumberCm1);
+    predictionSigmaCm1.set(p.sigmaCm1);
+    scatter = input.posterior.scatterCm1;
+  } else if (fit) {
     const p = fitPredictLines(fit, lines);
     predictedCm1.set(p.wavenumberCm1);
     predictionSigmaCm1.set(p.sigmaCm1);
@@ -108,11 +123,11 @@ export function assistantCatalogue(input: AssistantCatalogueInput): AssistantCat
   const fallbackWidth = Number.isFinite(context.medianFwhmCm1) ? context.medianFwhmCm1 : 0;
   for (let i = 0; i < n; i++) {
     let s = predictionSigmaCm1[i];
-    const exact = !Number.isFinite(s) || (fit !== null && fit.isExactlyDetermined && fit.nParameters > 0);
+    const exact = !input.posterior && (!Number.isFinite(s) || (fit !== null && fit.isExactlyDetermined && fit.nParameters > 0));
     if (exact) {
       s = input.fallbackSigmaCm1;
       predictionSigmaCm1[i] = s;
-    } else {
+    } else if (!input.posterior) {
       s *= factor;
       predictionSigmaCm1[i] = s;
     }
@@ -126,7 +141,7 @@ export function assistantCatalogue(input: AssistantCatalogueInput): AssistantCat
   for (let i = 0; i < n; i++) {
     indexOf.set(`${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`, i);
   }
-  return { lines, predictedCm1, predictionSigmaCm1, toleranceSigmaCm1, order, indexOf };
+  return { lines, predictedCm1, predictionSigmaCm1, toleranceSigmaCm1, order, indexOf, gradient };
 }
 
 /** σ of a rung–peak pair, cm^-1: the rung's tolerance σ and the peak's centre σ in quadrature. */

@@ -66,6 +66,20 @@ function stagedKeys(model: BandModel, span: LineSpan): string[][] {
   return stages;
 }
 
+/** Every constant in the order of the staging (lowest order first), for a floated set chosen by the data. */
+function allKeysInOrder(model: BandModel): string[][] {
+  const both = (name: ParameterName) => [`upper.${name}`, `lower.${name}`];
+  const unique = shapeUniqueName(model.shape);
+  const stages: string[][] = [['upper.origin'], both('B')];
+  if (unique) stages.push([...both(unique), 'upper.zeta']);
+  if (model.shape === 'linear') stages.push(['upper.q']);
+  stages.push(both('DJ'));
+  if (unique) stages.push(both('DJK'), both('DK'));
+  stages.push(both('HJ'));
+  if (unique) stages.push([...both('HJK'), ...both('HKJ')], both('HK'));
+  return stages;
+}
+
 /**
  * Fit the band to the current lines, floating only what they can determine.
  *
@@ -77,23 +91,29 @@ function stagedKeys(model: BandModel, span: LineSpan): string[][] {
  * centrifugal constant (D, H) the fit leaves below 2σ is held at its model value and the fit
  * repeated (a t-test, common practice when building up a fit). Never
  * throws for an under-determined set; a set no constant can be fitted to gives fit null and the error.
+ * With `determined` (the keys a prior-regularised fit finds pinned down by the lines, see
+ * assistantPosteriorDetermined) the staging by counts is replaced by that set.
  * Source: weighted least squares and rank diagnosis of fit/fitBand.ts; staging is common practice
  * of bootstrapping a band analysis (low-order constants first).
  * @param model start model; constants not floated stay at these values (cm^-1)
  * @param floatable keys ("upper.B", …) the user allows to float
  * @param lines lines of the fit (cm^-1)
  * @param previous optional earlier fit: its values start the floated constants (faster, same answer)
+ * @param determined optional keys to float in place of the count-based staging
  */
 export function assistantRefit(
   model: BandModel,
   floatable: readonly string[],
   lines: readonly FitLineInput[],
   previous?: FitResult | null,
+  determined?: readonly string[],
 ): AssistantRefitOutcome {
   const allowed = new Set(floatable);
   const span = lineSpan(lines);
   const notes: string[] = [];
-  const staged = stagedKeys(model, span).map((keys) => keys.filter((k) => allowed.has(k)));
+  const staged = (determined ? allKeysInOrder(model) : stagedKeys(model, span)).map((keys) =>
+    keys.filter((k) => allowed.has(k) && (!determined || determined.includes(k))),
+  );
   let floated = staged.flat();
   // Two degrees of freedom once there are 5 lines (the Student factor is 6.5 at one, 2.2 at two).
   const cap = span.n >= 5 ? span.n - 2 : span.n >= 2 ? span.n - 1 : span.n;

@@ -37,6 +37,11 @@ export interface AssistantSeedOptions {
   isolationFraction?: number;
   /** Prefix of the seed ids. @default 'seed' */
   idPrefix?: string;
+  /**
+   * Seed from the runner-up shift of the search (the best one more than 2 FWHM from the best),
+   * to test it as a rival hypothesis when the two match about as many lines. @default false
+   */
+  useRunnerUp?: boolean;
   /** Passed on to the uncertainty model of the seeds (positionFloorFraction, blend options). */
   assistant?: AssistantOptions;
 }
@@ -48,6 +53,12 @@ const SEARCH_MAX_J = 25;
 const COARSE_MAX_J = 12;
 /** The coarse search uses at most this many lines. */
 const COARSE_LINES = 40;
+/**
+ * The best shift must match at least max(SHIFT_MARGIN_MIN, SHIFT_MARGIN_FRACTION × its count) more
+ * lines than any shift more than 2 FWHM away (rule of thumb: a few lines and 15 %).
+ */
+const SHIFT_MARGIN_MIN = 3;
+const SHIFT_MARGIN_FRACTION = 0.15;
 /** Each sub-band's own shift is searched within ± this, cm^-1. */
 const SUB_BAND_WINDOW_CM1 = 0.5;
 
@@ -65,6 +76,7 @@ export const ASSISTANT_SEED_DEFAULTS: Required<Omit<AssistantSeedOptions, 'assis
   windowFwhm: 3,
   isolationFraction: 0.1,
   idPrefix: 'seed',
+  useRunnerUp: false,
 };
 
 /** Outcome of assistantSeedFromModel. */
@@ -83,6 +95,12 @@ export interface AssistantSeedResult {
   matchedFraction: number;
   /** The same fraction at a typical (median) grid point: what chance coincidences give. */
   chanceFraction: number;
+  /**
+   * A shift more than 2 FWHM from the best matches nearly as many lines (the ladder can be laid on
+   * the peaks one rung or one sub-band apart): the seeds are one of two hypotheses; run the
+   * runner-up too (useRunnerUp) and keep the one the data support.
+   */
+  isAmbiguous?: boolean;
   warnings: string[];
 }
 
@@ -208,10 +226,24 @@ export function assistantSeedFromModel(
     diffCentre: coarse.diff,
     diffWindow: 2 * coarse.diffStep,
   });
-  const best = fine.count >= coarse.count ? fine : coarse;
+  const best = { ...(fine.count >= coarse.count ? fine : coarse) };
   const matchedFraction = best.count / best.n;
   const chance = best.chance;
   const shiftText = `origin ${best.delta >= 0 ? '+' : ''}${best.delta.toFixed(4)} cm^-1, B′ ${signed(best.sum + best.diff / 2)}, B″ ${signed(best.sum - best.diff / 2)} cm^-1`;
+  // A second shift (more than 2 FWHM away) that matches nearly as many lines means the ladder can
+  // be laid on the peaks in two ways (one rung or one sub-band apart): seeding would be a guess.
+  const margin = Math.max(SHIFT_MARGIN_MIN, SHIFT_MARGIN_FRACTION * coarse.count);
+  const isAmbiguous = coarse.secondCount > coarse.count - margin;
+  if (isAmbiguous && !coarse.second) {
+    return empty(
+      `The model's strongest lines fit the peaks about as well at two shifts more than 2 line widths apart ` +
+        `(${coarse.count} and ${coarse.secondCount} of ${coarse.n} lines on peaks): the numbering or sub-band is ambiguous from the model alone; give seed lines.`,
+    );
+  }
+  if (o.useRunnerUp) {
+    if (!coarse.second) return empty('There is no runner-up shift to seed from.');
+    Object.assign(best, coarse.second, { count: coarse.secondCount });
+  }
   if (matchedFraction < 2 * chance + 0.1) {
     warnings.push(
       `The best shift (${shiftText}) puts ${(100 * matchedFraction).toFixed(0)} % of the strongest lines of sub-band ${mainKey} on a peak, chance alone ${(100 * chance).toFixed(0)} %: the model may be too far off to seed from it; give seed lines.`,
@@ -309,6 +341,7 @@ export function assistantSeedFromModel(
   if (seeds.length < 3)
     warnings.push(`Only ${seeds.length} line(s) of the model have exactly one peak in their window; the loop may not get far.`);
   return {
+    isAmbiguous,
     lines: seeds,
     model: corrected,
     originShiftCm1: best.delta,

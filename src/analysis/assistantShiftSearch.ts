@@ -27,6 +27,8 @@ export interface AssistantShiftBest {
   chance: number;
   /** Best count at any δ more than 2τ from the best δ (any s, d): how clear the optimum is. */
   secondCount: number;
+  /** The shift (δ, s, d) of secondCount, when there is one. */
+  second?: { delta: number; sum: number; diff: number };
   /** Best count within ±τ of the window centre δ (any s, d): how well no shift does. */
   centreCount: number;
   sumStep: number;
@@ -76,6 +78,8 @@ export function assistantShiftSearch(
   // How often each score occurs over the grid (for the median: the chance level).
   const histogram = new Float64Array(n + 1);
   const bestPerBin = new Int32Array(bins);
+  const sumPerBin = new Float64Array(bins);
+  const diffPerBin = new Float64Array(bins);
   let best: AssistantShiftBest = {
     delta: w.deltaCentre,
     sum: w.sumCentre,
@@ -113,7 +117,11 @@ export function assistantShiftSearch(
       }
       for (let b = 0; b < bins; b++) {
         histogram[score[b]]++;
-        if (score[b] > bestPerBin[b]) bestPerBin[b] = score[b];
+        if (score[b] > bestPerBin[b]) {
+          bestPerBin[b] = score[b];
+          sumPerBin[b] = sum;
+          diffPerBin[b] = diff;
+        }
         if (score[b] < best.count) continue;
         const deltaRel = (b - nDelta) * tau;
         const cost =
@@ -140,7 +148,12 @@ export function assistantShiftSearch(
     }
   }
   best.chance = n > 0 ? median / n : 0;
-  for (let b = 0; b < bins; b++) if (Math.abs(b - bestBin) > 2 && bestPerBin[b] > best.secondCount) best.secondCount = bestPerBin[b];
+  for (let b = 0; b < bins; b++) {
+    if (Math.abs(b - bestBin) > 2 && bestPerBin[b] > best.secondCount) {
+      best.secondCount = bestPerBin[b];
+      best.second = { delta: w.deltaCentre + (b - nDelta) * tau, sum: sumPerBin[b], diff: diffPerBin[b] };
+    }
+  }
   for (let b = nDelta - 1; b <= nDelta + 1; b++) if (b >= 0 && b < bins) best.centreCount = Math.max(best.centreCount, bestPerBin[b]);
   if (best.count < 0) best.count = 0;
   return best;

@@ -67,9 +67,10 @@ export interface AssistantCandidatePeak {
  * - 'several-peaks': more than one peak lies within tolerance of the rung;
  * - 'several-rungs': more than one comparably strong rung lies within tolerance of the peak;
  * - 'peak-taken': the only peak within tolerance already carries another assignment (a possible blend);
- * - 'intensity-mismatch': the only peak is far stronger or weaker than the rung predicts.
+ * - 'intensity-mismatch': the only peak is far stronger or weaker than the rung predicts;
+ * - 'shape-mismatch': the only peak is wider than a single line and no predicted line explains it.
  */
-export type AssistantAmbiguityKind = 'several-peaks' | 'several-rungs' | 'peak-taken' | 'intensity-mismatch';
+export type AssistantAmbiguityKind = 'several-peaks' | 'several-rungs' | 'peak-taken' | 'intensity-mismatch' | 'shape-mismatch';
 
 /** A case the assistant refused to decide, listed for the user with every candidate. */
 export interface AssistantAmbiguity {
@@ -140,7 +141,7 @@ export interface AssistantOptions {
   blendPartnerFraction?: number;
   /** Only rungs predicted at least this SNR (from the intensity scale of the assigned peaks) are offered. @default 10 */
   minPredictedSnr?: number;
-  /** Observed/predicted peak height must lie within [1/f, f] (once ≥ 3 assigned peaks fix the scale). @default 5 */
+  /** Observed/predicted peak height must lie within [1/f, f] (once ≥ 3 assigned peaks fix the scale). @default 3 */
   intensityRatioMax?: number;
   /**
    * A rung is offered only while its k·σ half window is at most this many local FWHMs; a rung
@@ -180,7 +181,7 @@ export const ASSISTANT_DEFAULTS: Required<Omit<AssistantOptions, 'fallbackSigmaC
   dominanceRatio: 4,
   blendPartnerFraction: 0.1,
   minPredictedSnr: 10,
-  intensityRatioMax: 5,
+  intensityRatioMax: 3,
   maxWindowFwhm: 1,
   reachJStep: 4,
   maxIterations: 60,
@@ -241,4 +242,21 @@ export interface AssistantRunResult {
   iterations: AssistantIteration[];
   undo: AssistantUndoRecord;
   warnings: string[];
+  /**
+   * Why the run as a whole is doubtful (the final constants predict strong lines where the trace
+   * has none), or null. A doubtful run's proposals are for review only, never for the table.
+   */
+  doubt: string | null;
+  /** The consistency audit behind `doubt` (null when the intensity scale was unknown). */
+  audit: AssistantRunAudit | null;
+}
+
+/** Consistency audit of a finished run. */
+export interface AssistantRunAudit {
+  /** Strong lines predicted to within the matching window. */
+  strong: number;
+  /** Of those, lines with no peak in their window. */
+  missing: number;
+  /** A few of the missing ones, "label at position". */
+  examples: string[];
 }

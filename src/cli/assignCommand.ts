@@ -3,7 +3,9 @@ import { assistantPeakContext, assistantPeaksUsable } from '../analysis/assistan
 import { assistantLinesFromAssignments } from '../analysis/assistantReview';
 import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
 import type { AssistantLine, AssistantRunResult } from '../analysis/assistantTypes';
-import { peaksFind } from '../analysis/peaksFind';
+import { assistantPosteriorFit, assistantPosteriorSigmas, assistantPriorSigmas } from '../analysis/assistantPosterior';
+import { peaksFind, type PeakList } from '../analysis/peaksFind';
+import { bandLines } from '../physics/bandLines';
 import { assignmentCheck } from '../fit/assignment';
 import type { FitResult } from '../fit/fitTypes';
 import { lineLabelAscii } from '../physics/lineLabel';
@@ -75,8 +77,11 @@ function loadTrace(path: string, io: CliIo) {
  * stdout: CSV with header J_up,K_up,J_lo,K_lo,wavenumber,uncertainty,status,label,calc,
  * obs_minus_calc,distance_sigma,flags,note — one row per confident line: status 'seed' or
  * 'proposed' (lines the loop excluded as outliers and ambiguous cases are not rows; they are
- * counted on stderr). flags: 'blended' (weighted down), 'suspect' (the misassignment hunt
- * distrusts it). calc from the final fit, cm^-1. stderr: the final fit's summary.
+ * counted on stderr). Proposals the misassignment hunt distrusts, and every machine-made line of a
+ * run the consistency checks doubt, are not rows either: they are listed on stderr as "review:"
+ * lines with their status and reason. flags: 'blended' (weighted down), 'suspect' (a seed line
+ * the misassignment hunt distrusts). calc from the final fit, cm^-1. stderr: the final fit's
+ * summary, the consistency audit ("assign: consistency: …") and the review list.
  * Exit 0 on success; bad inputs give one stderr line naming the file, line and field, exit 1.
  */
 export const assignCommand: CliCommand = (args, io) => {
@@ -98,6 +103,7 @@ export const assignCommand: CliCommand = (args, io) => {
   let model: BandModel = file.model;
   let seeds: AssistantLine[];
   let seedText: string;
+  let rival: { model: BandModel; lines: AssistantLine[] } | null = null;
   if (typeof opts.lines === 'string') {
     const linesPath = opts.lines;
     const table = cliLoadLines(linesPath, io);
@@ -107,7 +113,13 @@ export const assignCommand: CliCommand = (args, io) => {
     });
     if (table.assignments.length === 0) throw new CliError(`${linesPath}: no lines (only a header); give at least one seed line`);
     seeds = assistantLinesFromAssignments(table.assignments, model, peaks, context);
+    const extra = seedsFromModelToo(model, floatable, peaks, context.medianFwhmCm1, seeds);
+    for (const w of extra.notes) io.stderr(`assign: ${w}\n`);
     seedText = `${seeds.length} seed line(s) from ${linesPath}`;
+    if (extra.lines.length) {
+      seeds = [...seeds, ...extra.lines];
+      seedText += ` and ${extra.lines.length} from the model`;
+    }
     const offPeak = seeds.filter((l) => l.peakIndex === null).length;
     if (offPeak > 0) {
       io.stderr(
@@ -120,6 +132,10 @@ export const assignCommand: CliCommand = (args, io) => {
     if (seeded.lines.length === 0) throw new CliError(`no seed lines could be picked from the model alone; give --lines SEED.csv`);
     model = seeded.model;
     seeds = seeded.lines;
+    if (seeded.isAmbiguous) {
+      const runnerUp = assistantSeedFromModel(file.model, peaks, floatable, { useRunnerUp: true });
+      if (runnerUp.lines.length) rival = { model: runnerUp.model, lines: runnerUp.lines };
+    }
     seedText =
       `${seeds.length} seed line(s) from the model alone (origin ${signed(seeded.originShiftCm1, 4)}, ` +
       `B' ${signed(seeded.upperBShiftCm1, 6)}, B'' ${signed(seeded.lowerBShiftCm1, 6)} cm^-1 applied first)`;
@@ -127,6 +143,31 @@ export const assignCommand: CliCommand = (args, io) => {
   let run: AssistantRunResult;
   try {
     run = assistantAutoExtend({ model, floatable, peaks, lines: seeds, options: { toleranceSigma: tolerance } });
+    if (rival) {
+      // Two shifts of the model's ladder match the peaks about equally well: run both and keep the
+      // one the trace supports clearly better (more lines, no doubt); if neither does, nothing is
+      // written as an assignment.
+      const other = assistantAutoExtend({
+        model: rival.model,
+        floatable,
+        peaks,
+        lines: rival.lines,
+        options: { toleranceSigma: tolerance },
+      });
+      const a = runSupport(run);
+      const b = runSupport(other);
+      if (b > RIVAL_FACTOR * a) {
+        run = other;
+        model = rival.model;
+        seeds = rival.lines;
+        seedText += ` (the runner-up shift of the search: the trace supports it with ${b} lines against ${a})`;
+      } else if (!(a > RIVAL_FACTOR * b)) {
+        run.doubt = `two shifts of the model's ladder fit the peaks about equally well and lead to ${a} and ${b} consistent lines: the numbering is not decided by the trace; give seed lines`;
+        run.warnings.push(run.doubt);
+      } else {
+        seedText += ` (preferred over the runner-up shift of the search: ${a} lines against ${b})`;
+      }
+    }
   } catch (err) {
     throw new CliError(err instanceof Error ? err.message : String(err));
   }
@@ -134,8 +175,13 @@ export const assignCommand: CliCommand = (args, io) => {
   const fit = run.fit;
   const suspect = new Set(run.suspects.map((s) => s.id));
   const rows = run.lines.filter((l) => l.status !== 'rejected' && !l.isExcluded);
-  const seedRows = rows.filter((l) => l.status === 'seed' || l.status === 'accepted');
-  const proposed = rows.filter((l) => l.status === 'proposed').sort((a, b) => a.observedCm1 - b.observedCm1);
+  // Only what the assistant is sure of becomes a row: proposals the misassignment hunt distrusts,
+  // and every machine-made line of a run the consistency audit doubts, go to the review list (stderr).
+  const isMachine = (l: AssistantLine) => l.status === 'proposed' || l.source === 'auto-seed';
+  const review = rows.filter((l) => isMachine(l) && (run.doubt !== null || suspect.has(l.id)));
+  const held = new Set(review.map((l) => l.id));
+  const seedRows = rows.filter((l) => (l.status === 'seed' || l.status === 'accepted') && !held.has(l.id));
+  const proposed = rows.filter((l) => l.status === 'proposed' && !held.has(l.id)).sort((a, b) => a.observedCm1 - b.observedCm1);
   const shape = model.shape;
   const out: string[] = [ASSIGN_COLUMNS.join(',')];
   for (const l of [...seedRows, ...proposed]) {
@@ -169,10 +215,68 @@ export const assignCommand: CliCommand = (args, io) => {
       nSeeds: seedRows.length,
       nProposed: proposed.length,
       shape,
+      review,
     }),
   );
   return 0;
 };
+
+/** A rival run is preferred only when the trace supports it with this many times the lines. */
+const RIVAL_FACTOR = 3;
+
+/** Lines a run would write (machine-made lines not distrusted), 0 for a doubtful run. */
+function runSupport(run: AssistantRunResult): number {
+  if (run.doubt) return 0;
+  const suspect = new Set(run.suspects.map((x) => x.id));
+  return run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected' && !suspect.has(l.id)).length;
+}
+
+/** Seeds leave the band open when its strongest lines are predicted no better than this many line widths (1σ). */
+const SEEDS_OPEN_FWHM = 3;
+
+/**
+ * Seeds that leave the band's strongest lines undetermined (median posterior σ, prior included, of
+ * the 20 strongest predicted lines above SEEDS_OPEN_FWHM median line widths: e.g. a few weak lines
+ * far out in J or K) are joined by seeds from the model alone (assistantSeedFromModel), but only
+ * when that search is unambiguous (no second shift nearly as good) and both sets fit together
+ * (σ_w ≤ 2 in the prior-regularised fit); otherwise the user's seeds stand alone.
+ */
+function seedsFromModelToo(
+  model: BandModel,
+  floatable: readonly string[],
+  peaks: PeakList,
+  fwhmCm1: number,
+  seeds: AssistantLine[],
+): { lines: AssistantLine[]; notes: string[] } {
+  const priors = assistantPriorSigmas(model, floatable);
+  const post = assistantPosteriorFit(model, priors, seeds);
+  const all = bandLines(model, { minIntensity: 0.05 });
+  const strongest = Array.from({ length: all.count }, (_, i) => i)
+    .sort((a, b) => all.intensity[b] - all.intensity[a])
+    .slice(0, 20)
+    .map((i) => ({ jUpper: all.jUpper[i], kUpper: all.kUpper[i], jLower: all.jLower[i], kLower: all.kLower[i] }));
+  const sigmas = assistantPosteriorSigmas(post, strongest).sort((a, b) => a - b);
+  const typical = sigmas.length ? sigmas[sigmas.length >> 1] : 0;
+  if (!(typical > SEEDS_OPEN_FWHM * fwhmCm1)) return { lines: [], notes: [] };
+  const open = `the seed lines leave the strongest lines of the band open (typical σ ${typical.toPrecision(2)} cm^-1)`;
+  const seeded = assistantSeedFromModel(model, peaks, floatable, { idPrefix: 'model-seed' });
+  if (seeded.isAmbiguous)
+    return { lines: [], notes: [`${open}, and the model alone cannot place the ladder unambiguously: no seeds added`] };
+  const taken = new Set(seeds.map((l) => `${l.jUpper},${l.kUpper},${l.jLower},${l.kLower}`));
+  const onPeak = new Set(seeds.map((l) => l.peakIndex));
+  const lines = seeded.lines.filter((l) => !taken.has(`${l.jUpper},${l.kUpper},${l.jLower},${l.kLower}`) && !onPeak.has(l.peakIndex));
+  if (lines.length === 0) return { lines: [], notes: seeded.warnings.map((w) => `seeds from the model as well: ${w}`) };
+  const joint = assistantPosteriorFit(model, priors, [...seeds, ...lines]);
+  if (joint.scale2 > 4) {
+    return {
+      lines: [],
+      notes: [
+        `${open}, but the ${lines.length} seeds the model alone suggests disagree with them (σ_w ${Math.sqrt(joint.scale2).toFixed(1)}): not used`,
+      ],
+    };
+  }
+  return { lines, notes: [`${open}: ${lines.length} seeds from the model alone added (they agree with the given ones)`] };
+}
 
 function signed(v: number, digits: number): string {
   return `${v >= 0 ? '+' : ''}${v.toFixed(digits)}`;
@@ -190,6 +294,7 @@ function summary(
     nSeeds: number;
     nProposed: number;
     shape: BandModel['shape'];
+    review: AssistantLine[];
   },
 ): string {
   const lines: string[] = [];
@@ -212,6 +317,22 @@ function summary(
   }
   for (const note of run.fitNotes) lines.push(`  note: ${note}`);
   for (const w of [...fit.warnings, ...run.warnings]) lines.push(`  warning: ${w}`);
+  if (run.audit) {
+    lines.push(
+      `assign: consistency: ${run.audit.missing} of ${run.audit.strong} strong lines predicted to within a line width lie on no peak`,
+    );
+  }
+  if (info.review.length) {
+    lines.push(
+      `assign: ${info.review.length} line(s) held for review, not written: ` +
+        (run.doubt ? 'the run as a whole is doubtful (see the warning above)' : 'the misassignment hunt distrusts them'),
+    );
+    for (const l of info.review.slice(0, 10)) {
+      const label = lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, info.shape);
+      lines.push(`  review: ${label} at ${l.observedCm1.toFixed(4)} (${l.status}): ${l.reason}`);
+    }
+    if (info.review.length > 10) lines.push(`  review: … and ${info.review.length - 10} more`);
+  }
   for (const a of run.ambiguous.slice(0, 10)) lines.push(`  ambiguous: ${a.reason}`);
   if (run.ambiguous.length > 10) lines.push(`  ambiguous: … and ${run.ambiguous.length - 10} more`);
   for (const s of run.suspects.slice(0, 10)) {

@@ -276,7 +276,7 @@ describe('assistantAutoExtend, hand-checkable cases', () => {
     expect(run.lines.filter((l) => !l.isExcluded)).toHaveLength(crowded.count - 2);
   });
 
-  it('weights a wide (possibly blended) peak down and says why', () => {
+  it('leaves a peak wider than one line that no predicted line explains for review, and says why', () => {
     const { model, peaks } = linearBand();
     const nuR7 = model.upper.origin + 1.48 * 8 * 9 - 1.5 * 7 * 8;
     const k = assistantNearestPeak(peaks, nuR7);
@@ -288,14 +288,13 @@ describe('assistantAutoExtend, hand-checkable cases', () => {
       [3, 4],
     ]);
     const run = assistantAutoExtend({ model, floatable, peaks, lines: seeds });
-    const r7 = run.lines.find((l) => l.jUpper === 8 && l.jLower === 7)!;
+    // The peak's width does not match the predicted line (issue 14): its maximum is nobody's
+    // position, so R(7) is not proposed but listed with the reason; R(6) on a normal peak is.
+    expect(run.lines.find((l) => l.jUpper === 8 && l.jLower === 7)).toBeUndefined();
+    const why = run.ambiguous.find((a) => a.kind === 'shape-mismatch' && a.rungs[0].jLower === 7);
+    expect(why?.reason).toMatch(/possible blend \(FWHM 0\.0500 cm\^-1 is 2\.50× the local median\) that no predicted line explains/);
     const r6 = run.lines.find((l) => l.jUpper === 7 && l.jLower === 6)!;
-    expect(r7.isBlended).toBe(true);
-    expect(r7.reason).toMatch(/possible blend \(FWHM 0\.0500 cm\^-1 is 2\.50× the local median\)/);
-    // σ = hypot(centre σ, 0.02·FWHM, 0.25·FWHM): 0.0125 cm^-1 against 4.1e-4 for a single line.
-    expect(r7.uncertaintyCm1).toBeCloseTo(Math.hypot(1e-4, 0.02 * 0.05, 0.25 * 0.05), 9);
     expect(r6.isBlended).toBe(false);
-    expect(r7.uncertaintyCm1).toBeGreaterThan(20 * r6.uncertaintyCm1);
   });
 
   it('does not propose again a pair the user rejected', () => {
@@ -327,7 +326,8 @@ describe('assistantAutoExtend, hand-checkable cases', () => {
     expect(none.warnings.join(' ')).toMatch(/no lines to start from/);
     const one = assistantAutoExtend({ model, floatable, peaks, lines: seedsOf(model, peaks, [[3, 2]]) });
     expect(one.fit).not.toBeNull();
-    expect(one.fit!.floated).toEqual(['upper.origin']);
+    // From one seed the origin is the first constant the lines pin down (more follow as lines come in).
+    expect(one.fit!.floated).toContain('upper.origin');
   });
 
   it('refuses invalid lines and peak lists with the field named', () => {

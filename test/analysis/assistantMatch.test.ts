@@ -140,6 +140,6 @@ describe('assistantMatch', () => {
     const r = assistantMatch(input(cat, peaks, { heightScale: 1 }));
     expect(r.matches.map((m) => m.rung)).toEqual([0]);
     expect(r.ambiguous[0].kind).toBe('intensity-mismatch');
-    expect(r.ambiguous[0].reason).toMatch(/0\.10× the predicted height \(allowed 1\/5…5\)/);
+    expect(r.ambiguous[0].reason).toMatch(/0\.10× the predicted height \(allowed 1\/3…3\)/);
   });
 });

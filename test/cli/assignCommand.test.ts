@@ -95,7 +95,10 @@ describe('assign (in process)', () => {
       /seed line\(s\) from the model alone \(origin [+-][\d.]+, B' [+-][\d.]+, B'' [+-][\d.]+ cm\^-1 applied first\)/,
     );
     const rows = rowsOf(r.stdout);
-    expect(rows.length).toBeGreaterThan(200);
+    // The loop opens a new sub-band only when the trace confirms its ladder (issue 14), so from the
+    // model alone it stops earlier on this band than the former count-staged loop did (> 200 rows;
+    // now ~60, every one right).
+    expect(rows.length).toBeGreaterThan(50);
     const right = rows.filter((x) => syntheticIsCorrect(oblateBand, x, x.observedCm1)).length;
     expect(right / rows.length).toBeGreaterThanOrEqual(0.99);
     const b = /lower\.B = ([\d.]+) ± ([\d.e+-]+) cm\^-1/.exec(r.stderr)!;
