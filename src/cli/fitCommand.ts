@@ -1,7 +1,9 @@
 import { assignmentCheck } from '../fit/assignment';
 import { fitBand } from '../fit/fitBand';
+import type { FitError, FitLineResult } from '../fit/fitTypes';
 import { lineTableParse, LineTableError, type LineTable } from '../io/lineTable';
 import { lineLabelAscii } from '../physics/lineLabel';
+import type { TopShape } from '../physics/model';
 import { systemFit } from '../fit/systemFit';
 import { systemFileFromModelFile, type SystemFile } from '../io/systemFile';
 import { cliLoadModelOrSystem, cliLoadSystemLines, cliResolveSystemLines } from './cliModel';
@@ -56,11 +58,7 @@ export const fitCommand: CliCommand = (args, io) => {
     if (why) throw new CliError(`${linesPath}: line ${table.lineNumbers[i]}: ${why}`);
   });
   const outcome = fitBand({ model: file.model, floated: file.floated, lines: table.assignments });
-  if (!outcome.ok) {
-    const e = outcome.error;
-    const params = e.parameters.length ? ` Parameters involved: ${e.parameters.join(', ')}.` : '';
-    throw new CliError(`${e.message}${params} ${e.suggestion}`.trim().replace(/\s*\n\s*/g, ' '));
-  }
+  if (!outcome.ok) throw fitRefusal(outcome.error);
   const r = outcome.result;
   const shape = file.model.shape;
   const out = {
@@ -70,20 +68,7 @@ export const fitCommand: CliCommand = (args, io) => {
     nLines: r.nLines,
     residuals: r.lines.map((l) => l.obsMinusCalc),
     warnings: r.warnings,
-    lines: r.lines.map((l) => ({
-      J_up: l.jUpper,
-      K_up: l.kUpper,
-      J_lo: l.jLower,
-      K_lo: l.kLower,
-      label: lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape),
-      obs: l.obs,
-      calc: l.calc,
-      obsMinusCalc: l.obsMinusCalc,
-      sigma: l.sigma,
-      normalisedResidual: l.normalisedResidual,
-      isOutlier: l.isOutlier,
-      isExcluded: l.isExcluded,
-    })),
+    lines: r.lines.map((l) => fitLineJson(l, shape)),
     iterations: r.iterations,
     convergence: r.convergenceMessage,
     conditionNumber: r.conditionNumber,
@@ -105,11 +90,7 @@ function fitSystem(system: SystemFile, linesPath: string, io: CliIo): number {
   const table = cliLoadSystemLines(linesPath, io);
   const lines = cliResolveSystemLines(system, table, linesPath);
   const outcome = systemFit({ model: system.model, parameters: system.parameters, lines });
-  if (!outcome.ok) {
-    const e = outcome.error;
-    const params = e.parameters.length ? ` Parameters involved: ${e.parameters.join(', ')}.` : '';
-    throw new CliError(`${e.message}${params} ${e.suggestion}`.trim().replace(/\s*\n\s*/g, ' '));
-  }
+  if (!outcome.ok) throw fitRefusal(outcome.error);
   const r = outcome.result;
   const signed = (l: number) => (l > 0 ? '+1' : l < 0 ? '-1' : '0');
   const out = {
@@ -120,18 +101,7 @@ function fitSystem(system: SystemFile, linesPath: string, io: CliIo): number {
     residuals: r.lines.map((l) => l.obsMinusCalc),
     warnings: r.warnings,
     lines: r.lines.map((l) => ({
-      J_up: l.jUpper,
-      K_up: l.kUpper,
-      J_lo: l.jLower,
-      K_lo: l.kLower,
-      label: lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, system.model.species[l.speciesIndex].shape),
-      obs: l.obs,
-      calc: l.calc,
-      obsMinusCalc: l.obsMinusCalc,
-      sigma: l.sigma,
-      normalisedResidual: l.normalisedResidual,
-      isOutlier: l.isOutlier,
-      isExcluded: l.isExcluded,
+      ...fitLineJson(l, system.model.species[l.speciesIndex].shape),
       band: l.band,
       species: l.species,
       l_up: signed(l.lUpper),
@@ -155,4 +125,28 @@ function fitSystem(system: SystemFile, linesPath: string, io: CliIo): number {
   };
   io.stdout(JSON.stringify(out, null, 2) + '\n');
   return 0;
+}
+
+/** A fit's refusal as one CliError line: message, the parameters involved, and the suggestion. */
+function fitRefusal(e: FitError): CliError {
+  const params = e.parameters.length ? ` Parameters involved: ${e.parameters.join(', ')}.` : '';
+  return new CliError(`${e.message}${params} ${e.suggestion}`.trim().replace(/\s*\n\s*/g, ' '));
+}
+
+/** One fitted line as the fit JSON prints it (both the single-band and the joint fit). */
+function fitLineJson(l: FitLineResult, shape: TopShape) {
+  return {
+    J_up: l.jUpper,
+    K_up: l.kUpper,
+    J_lo: l.jLower,
+    K_lo: l.kLower,
+    label: lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape),
+    obs: l.obs,
+    calc: l.calc,
+    obsMinusCalc: l.obsMinusCalc,
+    sigma: l.sigma,
+    normalisedResidual: l.normalisedResidual,
+    isOutlier: l.isOutlier,
+    isExcluded: l.isExcluded,
+  };
 }
