@@ -3,7 +3,8 @@ import type { BandModel } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
 import { fitKeyParse, fitParameterKeys } from './bandDesign';
 import type { FitConvergence, FitInput, FitLineResult, FitOptions, FitParameterResult, FitResult } from './fitTypes';
-import { lineariseCovariance, type Linearisation } from './leastSquaresLinearise';
+import { fitStatistics } from './fitStatistics';
+import type { Linearisation } from './leastSquaresLinearise';
 
 const CONVERGENCE_WORDS: Record<FitConvergence, string> = {
   'chi2-change': 'converged: the last step changed χ² by less than the tolerance',
@@ -95,25 +96,7 @@ export function fitResultBuild(
     };
   });
   const rmsCm1 = Math.sqrt(sumSq / nLines);
-  const sigmaW = dof > 0 ? Math.sqrt(chi2 / dof) : nParameters === 0 ? Math.sqrt(chi2 / nLines) : null;
-  const covarianceScale = sigmaW !== null && sigmaW > 1 ? sigmaW * sigmaW : 1;
-
-  let covariance: number[][] = [];
-  let correlation: number[][] = [];
-  const sigmas = new Float64Array(nParameters);
-  if (lin && !isExactlyDetermined && sigmaW !== null) {
-    const unit = lineariseCovariance(lin);
-    const s2 = covarianceScale;
-    for (let a = 0; a < nParameters; a++) sigmas[a] = Math.sqrt(unit[a * nParameters + a] * s2);
-    covariance = Array.from({ length: nParameters }, (_, a) =>
-      Array.from({ length: nParameters }, (_, b) => unit[a * nParameters + b] * s2),
-    );
-    correlation = Array.from({ length: nParameters }, (_, a) =>
-      Array.from({ length: nParameters }, (_, b) =>
-        a === b ? 1 : unit[a * nParameters + b] / Math.sqrt(unit[a * nParameters + a] * unit[b * nParameters + b]),
-      ),
-    );
-  }
+  const { sigmaW, covarianceScale, sigmas, covariance, correlation } = fitStatistics(chi2, nLines, nParameters, lin, isExactlyDetermined);
 
   const floatIndex = new Map(floated.map((k, j) => [k, j]));
   const parameters: Record<string, FitParameterResult> = {};

@@ -4,7 +4,8 @@ import type { SystemModel } from '../physics/system/systemModel';
 import { systemStateProvider } from '../physics/system/systemStateLevels';
 import { FIT_DEFAULTS, type FitConvergence, type FitError, type FitHooks, type FitOptions } from './fitTypes';
 import { leastSquaresSolve } from './leastSquares';
-import { lineariseCovariance, type Linearisation } from './leastSquaresLinearise';
+import { fitStatistics } from './fitStatistics';
+import type { Linearisation } from './leastSquaresLinearise';
 import { systemRankDiagnosis } from './systemRankDiagnosis';
 import type {
   SystemFitBandSummary,
@@ -317,23 +318,7 @@ function buildResult(
     return r;
   });
   const rmsCm1 = Math.sqrt(sumSq / nLines);
-  const sigmaW = dof > 0 ? Math.sqrt(chi2 / dof) : nParameters === 0 ? Math.sqrt(chi2 / nLines) : null;
-  const covarianceScale = sigmaW !== null && sigmaW > 1 ? sigmaW * sigmaW : 1;
-  let covariance: number[][] = [];
-  let correlation: number[][] = [];
-  const sigmas = new Float64Array(nParameters);
-  if (lin && !isExactlyDetermined) {
-    const unit = lineariseCovariance(lin);
-    for (let a = 0; a < nParameters; a++) sigmas[a] = Math.sqrt(unit[a * nParameters + a] * covarianceScale);
-    covariance = Array.from({ length: nParameters }, (_, a) =>
-      Array.from({ length: nParameters }, (_, b) => unit[a * nParameters + b] * covarianceScale),
-    );
-    correlation = Array.from({ length: nParameters }, (_, a) =>
-      Array.from({ length: nParameters }, (_, b) =>
-        a === b ? 1 : unit[a * nParameters + b] / Math.sqrt(unit[a * nParameters + a] * unit[b * nParameters + b]),
-      ),
-    );
-  }
+  const { sigmaW, covarianceScale, sigmas, covariance, correlation } = fitStatistics(chi2, nLines, nParameters, lin, isExactlyDetermined);
   const column = new Map(floated.map((k, j) => [k, j]));
   const valueOf = (key: string): SystemFitParameterResult => {
     const j = column.get(key);
