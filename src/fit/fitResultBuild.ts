@@ -3,7 +3,7 @@ import type { BandModel } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
 import { fitKeyParse, fitParameterKeys } from './bandDesign';
 import type { FitConvergence, FitInput, FitLineResult, FitOptions, FitParameterResult, FitResult } from './fitTypes';
-import { fitStatistics } from './fitStatistics';
+import { fitStatistics, fitStatisticsWarnings } from './fitStatistics';
 import type { Linearisation } from './leastSquaresLinearise';
 
 const CONVERGENCE_WORDS: Record<FitConvergence, string> = {
@@ -14,15 +14,7 @@ const CONVERGENCE_WORDS: Record<FitConvergence, string> = {
   'nothing-floated': 'nothing floated: positions calculated from the given constants',
 };
 
-/** σ_w outside [1/SIGMA_W_WARN, SIGMA_W_WARN] earns a warning (common practice). */
-const SIGMA_W_WARN = 3;
-/**
- * Fewer degrees of freedom than this earn a warning that σ_w (and so every σ) is itself poorly
- * known: its relative standard error is about 1/√(2ν) (> 22 % below ν = 10).
- * Source: Bevington & Robinson (2003) sec. 11.1 (χ² distribution, variance 2ν), from memory;
- * the threshold is common practice.
- */
-export const FIT_FEW_DOF = 10;
+export { FIT_FEW_DOF } from './fitStatistics';
 /** Condition numbers above this earn a "nearly undetermined" warning. */
 const CONDITION_WARN = 1e8;
 /** |correlation| above this earns a warning. */
@@ -123,7 +115,6 @@ export function fitResultBuild(
     convergence,
     iterations,
     nLines,
-    dof,
     options,
   });
   return {
@@ -162,39 +153,21 @@ interface WarningContext {
   convergence: FitConvergence;
   iterations: number;
   nLines: number;
-  dof: number;
   options: Required<FitOptions>;
 }
 
 function fitWarnings(c: WarningContext): string[] {
   const w: string[] = [];
-  if (c.convergence === 'max-iterations') {
-    w.push(`The fit stopped after ${c.iterations} iterations without converging; the constants may not be final.`);
-  }
-  if (c.isExactlyDetermined) {
-    w.push(
-      `Exactly determined: ${c.nLines} lines for ${c.floated.length} floated constants, so the constants reproduce the lines exactly and no uncertainties can be given. Assign more lines to obtain them.`,
-    );
-  } else if (c.sigmaW !== null && c.floated.length > 0) {
-    const s = c.sigmaW.toPrecision(3);
-    const notScaled =
-      c.sigmaW < 1 ? ' The uncertainties follow from the stated line uncertainties; they are not scaled down by σ_w below 1.' : '';
-    if (c.dof < FIT_FEW_DOF) {
-      const rel = Math.round(100 / Math.sqrt(2 * c.dof));
-      w.push(
-        `Only ${c.dof} degree${c.dof === 1 ? '' : 's'} of freedom (${c.nLines} lines − ${c.floated.length} floated constants): σ_w = ${s} is itself uncertain by about ${rel} %, so the uncertainties of the constants mean little.${notScaled} Assign more lines (or float fewer constants) before trusting them.`,
-      );
-    }
-    if (c.sigmaW > SIGMA_W_WARN) {
-      w.push(
-        `σ_w = ${s}: the lines scatter about ${s} times more than their stated uncertainties, and every uncertainty has been scaled up by σ_w. Check for misassignments (see the outliers), constants missing from the model, or uncertainties set too small.`,
-      );
-    } else if (c.sigmaW < 1 / SIGMA_W_WARN && c.dof >= FIT_FEW_DOF) {
-      w.push(
-        `σ_w = ${s}: over ${c.dof} degrees of freedom the residuals are much smaller than the stated uncertainties; the stated uncertainties may be set too large.${notScaled}`,
-      );
-    }
-  }
+  w.push(
+    ...fitStatisticsWarnings({
+      convergence: c.convergence,
+      iterations: c.iterations,
+      isExactlyDetermined: c.isExactlyDetermined,
+      sigmaW: c.sigmaW,
+      nLines: c.nLines,
+      nParameters: c.floated.length,
+    }),
+  );
   if (c.outliers.length > 0) {
     const labels = c.outliers
       .slice(0, 10)

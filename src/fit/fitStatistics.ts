@@ -1,4 +1,14 @@
+import type { FitConvergence } from './fitTypes';
 import { lineariseCovariance, type Linearisation } from './leastSquaresLinearise';
+
+/** σ_w outside [1/FIT_SIGMA_W_WARN, FIT_SIGMA_W_WARN] earns a warning (common practice). */
+const FIT_SIGMA_W_WARN = 3;
+
+/**
+ * Below this many degrees of freedom σ_w is itself too uncertain (relative standard error about
+ * 1/sqrt(2ν), i.e. > 22 %) for the constants' σ to mean much: warned in words. Common practice.
+ */
+export const FIT_FEW_DOF = 10;
 
 /** Uncertainty statistics of a converged weighted least-squares fit. */
 export interface FitStatistics {
@@ -49,4 +59,51 @@ export function fitStatistics(
     );
   }
   return { sigmaW, covarianceScale, sigmas, covariance, correlation };
+}
+
+/** What the statistics warnings of a fit are built from. */
+export interface FitStatisticsWarningInput {
+  convergence: FitConvergence;
+  iterations: number;
+  isExactlyDetermined: boolean;
+  sigmaW: number | null;
+  nLines: number;
+  nParameters: number;
+}
+
+/**
+ * Plain-language warnings about a fit's statistics, the same for the single-band and the joint
+ * fit: no convergence, exactly determined, too few degrees of freedom, σ_w far from 1.
+ */
+export function fitStatisticsWarnings(c: FitStatisticsWarningInput): string[] {
+  const w: string[] = [];
+  if (c.convergence === 'max-iterations') {
+    w.push(`The fit stopped after ${c.iterations} iterations without converging; the constants may not be final.`);
+  }
+  if (c.isExactlyDetermined) {
+    w.push(
+      `Exactly determined: ${c.nLines} lines for ${c.nParameters} floated constants, so the constants reproduce the lines exactly and no uncertainties can be given. Assign more lines to obtain them.`,
+    );
+  } else if (c.sigmaW !== null && c.nParameters > 0) {
+    const dof = c.nLines - c.nParameters;
+    const s = c.sigmaW.toPrecision(3);
+    const notScaled =
+      c.sigmaW < 1 ? ' The uncertainties follow from the stated line uncertainties; they are not scaled down by σ_w below 1.' : '';
+    if (dof < FIT_FEW_DOF) {
+      const rel = Math.round(100 / Math.sqrt(2 * dof));
+      w.push(
+        `Only ${dof} degree${dof === 1 ? '' : 's'} of freedom (${c.nLines} lines − ${c.nParameters} floated constants): σ_w = ${s} is itself uncertain by about ${rel} %, so the uncertainties of the constants mean little.${notScaled} Assign more lines (or float fewer constants) before trusting them.`,
+      );
+    }
+    if (c.sigmaW > FIT_SIGMA_W_WARN) {
+      w.push(
+        `σ_w = ${s}: the lines scatter about ${s} times more than their stated uncertainties, and every uncertainty has been scaled up by σ_w. Check for misassignments (see the outliers), constants missing from the model, or uncertainties set too small.`,
+      );
+    } else if (c.sigmaW < 1 / FIT_SIGMA_W_WARN && dof >= FIT_FEW_DOF) {
+      w.push(
+        `σ_w = ${s}: over ${dof} degrees of freedom the residuals are much smaller than the stated uncertainties; the stated uncertainties may be set too large.${notScaled}`,
+      );
+    }
+  }
+  return w;
 }

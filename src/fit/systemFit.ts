@@ -4,7 +4,7 @@ import type { SystemModel } from '../physics/system/systemModel';
 import { systemStateProvider } from '../physics/system/systemStateLevels';
 import { FIT_DEFAULTS, type FitConvergence, type FitError, type FitHooks, type FitOptions } from './fitTypes';
 import { leastSquaresSolve } from './leastSquares';
-import { fitStatistics } from './fitStatistics';
+import { fitStatistics, fitStatisticsWarnings } from './fitStatistics';
 import type { Linearisation } from './leastSquaresLinearise';
 import { systemRankDiagnosis } from './systemRankDiagnosis';
 import type {
@@ -35,8 +35,6 @@ const CONVERGENCE_WORDS: Record<FitConvergence, string> = {
   'nothing-floated': 'nothing floated: positions calculated from the given constants',
 };
 
-/** σ_w outside [1/3, 3] earns a warning (common practice). */
-const SIGMA_W_WARN = 3;
 /** Condition numbers above this earn a "nearly undetermined" warning. */
 const CONDITION_WARN = 1e8;
 /** |correlation| above this earns a warning. */
@@ -349,24 +347,7 @@ function buildResult(
   });
 
   const warnings: string[] = [];
-  if (convergence === 'max-iterations')
-    warnings.push(`The fit stopped after ${iterations} iterations without converging; the constants may not be final.`);
-  if (isExactlyDetermined) {
-    warnings.push(
-      `Exactly determined: ${nLines} lines for ${nParameters} floated constants, so the constants reproduce the lines exactly and no uncertainties can be given. Assign more lines to obtain them.`,
-    );
-  } else if (sigmaW !== null && nParameters > 0) {
-    const s = sigmaW.toPrecision(3);
-    if (sigmaW > SIGMA_W_WARN) {
-      warnings.push(
-        `σ_w = ${s}: the lines scatter about ${s} times more than their stated uncertainties. Check for misassignments (see the outliers), constants missing from the model, or uncertainties set too small.`,
-      );
-    } else if (sigmaW < 1 / SIGMA_W_WARN) {
-      warnings.push(
-        `σ_w = ${s}: the residuals are much smaller than the stated uncertainties; the uncertainties may be set too large (the constants' σ are not scaled down).`,
-      );
-    }
-  }
+  warnings.push(...fitStatisticsWarnings({ convergence, iterations, isExactlyDetermined, sigmaW, nLines, nParameters }));
   if (outliers.length > 0) {
     const labels = outliers
       .slice(0, 10)
