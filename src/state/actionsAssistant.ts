@@ -228,13 +228,14 @@ function seriesOfSelection(s: BenchState): AssistantSeries | null {
 }
 
 /**
- * Extend the sub-branch series of the selected rung (or table row) by up to EXTEND_RUNGS rungs at
- * each end and in its gaps; the matches join the review list as a batch of their own.
+ * Extend a sub-branch series by up to EXTEND_RUNGS rungs at each end and in its gaps; the matches
+ * join the review list as a batch of their own.
  * @param runner the job runner @default the worker client
+ * @param chosen the series (ΔK, K″, ΔJ) @default the series of the selected rung, else of the selected table row
  */
-export async function assistantExtendStart(runner: AssistantRunner = assistantJobStart): Promise<void> {
+export async function assistantExtendStart(runner: AssistantRunner = assistantJobStart, chosen?: AssistantSeries): Promise<void> {
   const s = benchStore.getState();
-  const series = seriesOfSelection(s);
+  const series = chosen ?? seriesOfSelection(s);
   if (!series) {
     messagePost('info', 'Select a rung of the series to extend (click it on the plot) or a row of the table first.');
     return;
@@ -371,7 +372,7 @@ export function assistantSetView(patch: { filter?: AssistantReviewFilter; sort?:
   benchStore.setState((s) => ({ assistantFilter: patch.filter ?? s.assistantFilter, assistantSort: patch.sort ?? s.assistantSort }));
 }
 
-/** Remove a suspect line from the table (one undo step) and from the hunt's list. */
+/** Remove a suspect line from the table (one undo step); the hunt's list shows it as removed while it is not in the table. */
 export function assistantSuspectRemove(id: string): void {
   const s = benchStore.getState();
   const a = s.assignments.find((x) => x.id === id);
@@ -384,8 +385,6 @@ export function assistantSuspectRemove(id: string): void {
     }),
     { history: true },
   );
-  const hunt = benchStore.getState().assistantHunt;
-  if (hunt) benchStore.setState({ assistantHunt: { ...hunt, suspects: hunt.suspects.filter((x) => x.id !== id) } });
 }
 
 /** Look at a suspect: select its table row (highlighted on the plot) and bring it into view. */

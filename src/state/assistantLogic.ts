@@ -6,6 +6,7 @@
  */
 import type { Assignment } from '../fit/assignment';
 import type { Trace } from '../io/trace';
+import { seriesLabelAscii } from '../physics/lineLabel';
 import type { TopShape } from '../physics/model';
 import type { AssistantProposal } from '../workers/assistantProtocol';
 import { assignmentsMarkBlends, peakIdAt } from './assignLogic';
@@ -212,4 +213,37 @@ export function assistantBatchNumber(from: number, assignments: readonly Assignm
   let n = from;
   while (assignments.some((a) => a.id.startsWith(`as${n}.`))) n++;
   return n;
+}
+
+/** A sub-branch series of the table that can be extended. */
+export interface AssistantSeriesChoice {
+  /** "ΔK:K″:ΔJ", e.g. "1:3:0". */
+  key: string;
+  deltaK: number;
+  kLower: number;
+  deltaJ: number;
+  /** ASCII series label, e.g. "rQ3". */
+  label: string;
+  /** Lines of the table in it. */
+  count: number;
+}
+
+/**
+ * The table's series with at least minLines lines (a series extension needs 3), in label order.
+ * @param minLines @default 3
+ */
+export function assistantSeriesChoices(assignments: readonly Assignment[], shape: TopShape, minLines = 3): AssistantSeriesChoice[] {
+  const m = new Map<string, AssistantSeriesChoice>();
+  for (const a of assignments) {
+    if (a.isExcluded) continue;
+    const deltaK = a.kUpper - a.kLower;
+    const deltaJ = a.jUpper - a.jLower;
+    const key = `${deltaK}:${a.kLower}:${deltaJ}`;
+    const c = m.get(key);
+    if (c) c.count++;
+    else m.set(key, { key, deltaK, kLower: a.kLower, deltaJ, label: seriesLabelAscii(deltaK, deltaJ, a.kLower, shape), count: 1 });
+  }
+  return [...m.values()]
+    .filter((c) => c.count >= minLines)
+    .sort((x, y) => x.deltaK - y.deltaK || x.kLower - y.kLower || x.deltaJ - y.deltaJ);
 }
