@@ -338,7 +338,7 @@ export function assistantAcceptAll(): { accepted: number; left: number } {
   messagePost(
     'info',
     take.length
-      ? `Accepted ${take.length} confident proposal(s) into the table (one undo step)${left ? `; ${left} left for a decision one by one` : ''}.`
+      ? `Accepted ${take.length} confident proposal(s) into the table (one undo step)${left ? `; ${left} left for a decision one by one` : ''}. Fit to bring the model's constants (and the ladders) to them.`
       : `No confident open proposal to accept${left ? `; ${left} wait for a decision one by one` : ''}.`,
   );
   return { accepted: take.length, left };
