@@ -10,6 +10,7 @@ import {
   assistantBatchNumber,
   assistantItemsOf,
   assistantReviewRows,
+  assistantSeriesChoices,
   assistantStatuses,
   type AssistantStatusContext,
 } from '../../src/state/assistantLogic';
@@ -165,5 +166,22 @@ describe('assistant review logic', () => {
     const out = assistantAssignmentsAdd(ctx.assignments, [items[5]], (n) => `run ${n}`);
     expect(out).toHaveLength(4);
     expect(out.filter((x) => x.isBlended).map((x) => x.id)).toEqual(['h2', 'as2.6']);
+  });
+
+  it('lists the table’s series with at least three lines (excluded rows not counted), in ΔK, K″, ΔJ order', () => {
+    const rows = [
+      row('a', 1, 1000),
+      row('b', 2, 1000.5),
+      row('c', 3, 1001),
+      row('d', 4, 1001.5, { isExcluded: true }),
+      // pP2(J''): ΔK = −1, ΔJ = −1, K'' = 2.
+      ...[5, 6, 7].map((j, n) => row(`p${n}`, j, 990 + n, { jUpper: j - 1, kUpper: 1, kLower: 2 })),
+      row('q', 5, 980, { jUpper: 5, kUpper: 1 }),
+    ];
+    expect(assistantSeriesChoices(rows, 'prolate')).toEqual([
+      { key: '-1:2:-1', deltaK: -1, kLower: 2, deltaJ: -1, label: 'pP2', count: 3 },
+      { key: '1:0:1', deltaK: 1, kLower: 0, deltaJ: 1, label: 'rR0', count: 3 },
+    ]);
+    expect(assistantSeriesChoices(rows, 'prolate', 4)).toEqual([]);
   });
 });
