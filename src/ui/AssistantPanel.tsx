@@ -3,7 +3,7 @@
  * review its proposals (accept, reject, accept all confident), check the table for misassignments
  * and extend the selected series. Reads a few selectors and calls actions; no decisions of its own.
  */
-import { useMemo, useState } from 'react';
+import { useDeferredValue, useMemo, useState } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import { formatFixed } from '../io/numberFormat';
 import { seriesLabelAscii } from '../physics/lineLabel';
@@ -233,7 +233,10 @@ function ReviewList() {
   const sort = useBench((s) => s.assistantSort);
   const selectedId = useBench((s) => s.assistantSelectedId);
   const batches = useBench((s) => s.assistantBatches);
-  const rows = useMemo(() => assistantReviewRows(items, ctx, filter, sort), [items, ctx, filter, sort]);
+  // Hundreds of rows render as a transition (sliced, interruptible), so a run's result or an accept
+  // never holds the page in one long task; the list catches up a frame or two later.
+  const deferred = useDeferredValue(useMemo(() => ({ items, ctx, filter, sort }), [items, ctx, filter, sort]));
+  const rows = useMemo(() => assistantReviewRows(deferred.items, deferred.ctx, deferred.filter, deferred.sort), [deferred]);
   const confidentOpen = useMemo(() => assistantReviewRows(items, ctx, 'confident', 'position').length, [items, ctx]);
   const selected = items.find((p) => p.id === selectedId);
   if (items.length === 0) return null;
