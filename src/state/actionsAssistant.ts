@@ -284,7 +284,7 @@ export async function assistantHuntStart(runner: AssistantRunner = assistantJobS
   );
   if (!done || done.output.kind !== 'hunt') return;
   const { suspects, notes, fitSummary } = done.output;
-  benchStore.setState({ assistantHunt: { suspects, notes, fitSummary, nChecked: n } });
+  benchStore.setState({ assistantHunt: { suspects, notes, fitSummary, nChecked: n, trace: done.trace } });
   messagePost(
     suspects.length ? 'warning' : 'info',
     suspects.length

@@ -53,6 +53,8 @@ export interface AssistantHuntState {
   fitSummary: string;
   /** Number of table lines checked. */
   nChecked: number;
+  /** The trace the check ran on (by identity). */
+  trace: Trace | null;
 }
 
 /** Which proposals the review list shows. */

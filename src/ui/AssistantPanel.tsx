@@ -123,7 +123,7 @@ function JobBar() {
             Cancel
           </button>{' '}
           Working: {job.what}
-          {job.round > 0 ? ` — round ${job.round} (${job.stage}); ${job.rowsSoFar} line(s) proposed so far` : ' — starting'}
+          {job.round > 0 ? ` — ${job.stage}; ${job.rowsSoFar} line(s) proposed so far` : ' — starting'}
         </span>
       ) : (
         <span className="muted small" data-testid="helper-start">
@@ -314,11 +314,14 @@ function ReviewList() {
 function HuntList() {
   const hunt = useBench((s) => s.assistantHunt);
   const assignments = useBench((s) => s.assignments);
+  const trace = useBench((s) => s.trace);
   const inTable = useMemo(() => new Set(assignments.map((a) => a.id)), [assignments]);
   if (!hunt) return null;
+  const isStale = hunt.trace !== trace;
   return (
     <div className="helper-hunt" data-testid="helper-hunt-list">
       <h3>Misassignment check of {hunt.nChecked} table lines</h3>
+      {isStale && <p className="bad small">Made on another trace: run the check again before acting on it.</p>}
       <p className="muted small">
         {hunt.fitSummary}. {hunt.suspects.length === 0 ? 'No line is suspect.' : `${hunt.suspects.length} suspect(s), worst first:`}
       </p>
@@ -360,7 +363,7 @@ function HuntList() {
                     .join(', ') || '—'}
                 </td>
                 <td className="helper-actions">
-                  {inTable.has(x.id) ? (
+                  {isStale ? null : inTable.has(x.id) ? (
                     <>
                       <button type="button" onClick={() => assistantSuspectReview(x.id)}>
                         Review

@@ -128,7 +128,9 @@ describe('the assistant on the page', () => {
     await page.locator('[data-testid=helper-run]').click();
     await page.locator('[data-testid=helper-row]').first().waitFor({ timeout: 60_000 });
     const progress = await page.evaluate(() => (window as unknown as { __progress: string[] }).__progress);
-    expect(progress.join('\n')).toMatch(/Working: run from the 6 lines of the table — round \d+ \(round \d+: \d+ proposed/);
+    expect(progress.join('\n')).toMatch(
+      /Working: run from the 6 lines of the table — round \d+: \d+ proposed, \d+ excluded; \d+ line\(s\) proposed so far/,
+    );
     expect(await assignedCount(page)).toBe(6);
     await page.screenshot({ path: `${SHOTS}/40-assistant-review.png` });
 
