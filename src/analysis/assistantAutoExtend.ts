@@ -47,6 +47,11 @@ export interface AssistantRunInput {
   options?: AssistantOptions;
   /** Prefix of the ids of new lines (a number is appended; existing ids are never reused). @default 'auto' */
   idPrefix?: string;
+  /**
+   * Called once per round of the loop, after the round's proposals: the round (1-based), what it
+   * did in words, and the lines added so far. For progress display only; it cannot change the run.
+   */
+  onProgress?: (round: number, stage: string, rowsSoFar: number) => void;
 }
 
 /**
@@ -425,6 +430,7 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       }
     }
     lastAdded = matched.matches.length + nLadder;
+    input.onProgress?.(iteration, `round ${iteration}: ${lastAdded} proposed, ${nExcluded} excluded`, addedIds.length);
     iterations.push({
       iteration,
       nLinesInFit: current ? current.nLines : 0,

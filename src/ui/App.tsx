@@ -7,6 +7,7 @@ import { viewSet, viewSetTab, viewSetTheme } from '../state/actionsView';
 import { benchStore, useBench } from '../state/store';
 import type { BenchTab } from '../state/viewSlice';
 import { AssignmentsTable } from './AssignmentsTable';
+import { AssistantPanel } from './AssistantPanel';
 import { CalibrationPanel } from './CalibrationPanel';
 import { CombinationPanel } from './CombinationPanel';
 import { ConfirmPrompt } from './ConfirmPrompt';
@@ -23,6 +24,7 @@ import { SpectrumPlot } from './SpectrumPlot';
 
 const TABS: { id: BenchTab; label: string }[] = [
   { id: 'assignments', label: 'Assignments' },
+  { id: 'assistant', label: 'Assistant' },
   { id: 'solve', label: 'Fit' },
   { id: 'combination', label: 'Combination differences' },
   { id: 'loomis', label: 'Loomis–Wood' },
@@ -128,6 +130,7 @@ function LowerPanel() {
       </div>
       <div role="tabpanel" id={`panel-${tab}`} aria-labelledby={`tab-${tab}`} className="tabpanel">
         {tab === 'assignments' && <AssignmentsTable />}
+        {tab === 'assistant' && <AssistantPanel />}
         {tab === 'solve' && <SolvePanel />}
         {tab === 'combination' && <CombinationPanel />}
         {tab === 'loomis' && <LoomisWoodPanel />}

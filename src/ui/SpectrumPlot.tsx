@@ -6,6 +6,7 @@ import type { Config, PlotRelayoutEvent } from 'plotly.js';
 import { useMemo, useRef, useState } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import { peakClick, rungClick, traceClickAt } from '../state/actionsAssign';
+import { selectProposalMarks } from '../state/actionsAssistant';
 import { viewSetXRange } from '../state/actionsView';
 import { peakIdAt, peakIdPosition } from '../state/assignLogic';
 import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated } from '../state/selectors';
@@ -92,6 +93,8 @@ export function SpectrumPlot() {
   );
   const isDark = useBench((s) => s.theme === 'dark');
   const sim = useBench((s) => (s.showSimulated || s.showObsMinusSim ? selectSimulated(s).sim : null));
+  const proposals = useBench(selectProposalMarks);
+  const selectedProposalCm1 = useBench((s) => s.assistantProposals.find((p) => p.id === s.assistantSelectedId)?.observedCm1 ?? null);
 
   const rows = useMemo(() => ladderRowsBuild(band.ladders, shape, new Set(hiddenRows)), [band.ladders, shape, hiddenRows]);
   const scene = useMemo(() => ladderSceneBuild(rows, band.lines, isDark), [rows, band.lines, isDark]);
@@ -126,6 +129,8 @@ export function SpectrumPlot() {
     showSimulated,
     showObsMinusSim,
     isDark,
+    proposals,
+    selectedProposalCm1,
   ];
   const figure = useMemo(
     () =>
@@ -141,6 +146,8 @@ export function SpectrumPlot() {
         selectedObservedCm1,
         candidatePeakCm1,
         sim,
+        proposals,
+        selectedProposalCm1,
         showSimulated,
         showObsMinusSim,
         isDark,

@@ -98,4 +98,31 @@ describe('spectrumFigure', () => {
       expect(inp.lines.wavenumberCm1[i]).toBeLessThan(hi);
     }
   });
+  it('marks the assistant’s open proposals inside the view on the trace (doubted ones in the flagged colour) and rings the selected one with a line', () => {
+    const inp = input();
+    const t = inp.trace!;
+    const k = Math.floor(t.wavenumberCm1.length / 2);
+    const [x0, x1] = [t.wavenumberCm1[k], t.wavenumberCm1[k + 10]];
+    const outside = t.wavenumberCm1[0] - 5;
+    const { data, layout } = spectrumFigure({
+      ...inp,
+      ordinate: 'transmittance',
+      proposals: { xCm1: [x0, x1, outside], isDoubtful: [false, true, false] },
+      selectedProposalCm1: x1,
+    });
+    const marks = data.find((d) => (d as { meta?: { kind?: string } }).meta?.kind === 'proposals') as unknown as {
+      x: number[];
+      y: number[];
+      marker: { line: { color: string[] } };
+    };
+    expect(marks.x).toEqual([x0, x1]);
+    // On the plotted ordinate: transmittance 10^−A of the sample at the proposal.
+    expect(marks.y[0]).toBeCloseTo(10 ** -t.absorbance[k], 14);
+    expect(marks.y[1]).toBeCloseTo(10 ** -t.absorbance[k + 10], 14);
+    expect(marks.marker.line.color[0]).not.toBe(marks.marker.line.color[1]);
+    const shapes = (layout.shapes ?? []) as { x0: number }[];
+    expect(shapes.some((sh) => sh.x0 === x1)).toBe(true);
+    // Without proposals, no such trace.
+    expect(kinds(spectrumFigure(inp).data)).not.toContain('proposals');
+  });
 });

@@ -31,6 +31,10 @@ export interface SpectrumFigureInput {
   /** Peak whose candidate list is open (cm^-1), or null. */
   candidatePeakCm1: number | null;
   sim: SimulatedSpectrum | null;
+  /** The assistant's proposals waiting for review: positions (cm^-1) and whether each is doubted. */
+  proposals?: { xCm1: readonly number[]; isDoubtful: readonly boolean[] } | null;
+  /** Position of the proposal selected in the review list (cm^-1), or null. */
+  selectedProposalCm1?: number | null;
   showSimulated: boolean;
   showObsMinusSim: boolean;
   isDark: boolean;
@@ -97,6 +101,24 @@ export function spectrumFigure(input: SpectrumFigureInput): { data: Data[]; layo
     } as Data);
   }
   const hasResidual = input.showObsMinusSim && input.sim?.obsMinusSim && input.trace;
+  const marks = input.proposals && input.trace ? proposalMarks(input.proposals, input.trace, range, transform) : null;
+  if (marks && marks.x.length > 0) {
+    data.push({
+      type: 'scatter',
+      mode: 'markers',
+      name: 'proposals',
+      x: marks.x,
+      y: marks.y,
+      marker: {
+        symbol: 'line-ns-open',
+        size: 11,
+        line: { width: 1.5, color: marks.isDoubtful.map((d) => (d ? theme.flagged : theme.cursor)) },
+      },
+      hoverinfo: 'skip',
+      meta: { kind: 'proposals' },
+      showlegend: false,
+    } as Data);
+  }
   if (hasResidual && input.sim?.obsMinusSim && input.trace) {
     const d = traceDecimate(input.trace.wavenumberCm1, input.sim.obsMinusSim, range[0], range[1], columns);
     data.push({
@@ -168,6 +190,18 @@ export function spectrumFigure(input: SpectrumFigureInput): { data: Data[]; layo
       line: { color: theme.assigned, width: 1.5, dash: 'dash' },
     });
   }
+  if (input.selectedProposalCm1 != null) {
+    shapes.push({
+      type: 'line',
+      xref: 'x',
+      yref: 'paper',
+      x0: input.selectedProposalCm1,
+      x1: input.selectedProposalCm1,
+      y0: 0,
+      y1: 1,
+      line: { color: theme.cursor, width: 2, dash: 'dashdot' },
+    });
+  }
   const axisCommon = { color: theme.text, gridcolor: theme.grid, zerolinecolor: theme.grid, linecolor: theme.grid };
   const layout: Partial<Layout> = {
     paper_bgcolor: theme.paper,
@@ -207,4 +241,37 @@ export function spectrumFigure(input: SpectrumFigureInput): { data: Data[]; layo
     layout.yaxis3 = { ...axisCommon, domain: [0, 0.15], title: { text: 'obs − sim' }, autorange: true };
   }
   return { data, layout };
+}
+
+/**
+ * The proposals inside the visible range, each placed on the trace at its position (nearest
+ * sample, in the ordinate shown).
+ */
+function proposalMarks(
+  p: { xCm1: readonly number[]; isDoubtful: readonly boolean[] },
+  trace: Trace,
+  range: [number, number],
+  transform: ((a: number) => number) | undefined,
+): { x: number[]; y: number[]; isDoubtful: boolean[] } {
+  const xs = trace.wavenumberCm1;
+  const lo = Math.min(range[0], range[1]);
+  const hi = Math.max(range[0], range[1]);
+  const out = { x: [] as number[], y: [] as number[], isDoubtful: [] as boolean[] };
+  for (let k = 0; k < p.xCm1.length; k++) {
+    const x = p.xCm1[k];
+    if (!(x >= lo && x <= hi)) continue;
+    let a = 0;
+    let b = xs.length - 1;
+    while (b - a > 1) {
+      const m = (a + b) >> 1;
+      if (xs[m] < x) a = m;
+      else b = m;
+    }
+    const i = Math.abs(xs[a] - x) <= Math.abs(xs[b] - x) ? a : b;
+    const y = trace.absorbance[i];
+    out.x.push(x);
+    out.y.push(transform ? transform(y) : y);
+    out.isDoubtful.push(p.isDoubtful[k]);
+  }
+  return out;
 }
