@@ -7,6 +7,7 @@ import { fitStatistics, fitStatisticsWarnings } from './fitStatistics';
 import type { Linearisation } from './leastSquaresLinearise';
 import { systemRankDiagnosis } from './systemRankDiagnosis';
 import { systemFitLevelTable, type SystemFitLevelRef, type SystemFitStatePlan } from './systemFitLevels';
+import { systemFitCompress, type SystemFitBlock } from './systemFitCompress';
 import type {
   SystemFitBandSummary,
   SystemFitLine,
@@ -190,12 +191,44 @@ export function systemFit(input: SystemFitInput, hooks: FitHooks = {}): SystemFi
     },
   };
 
+  // Lines of one band touch only their two states' columns: the solver works on each band's R
+  // factor instead of its rows (systemFitCompress; same χ², JᵀJ and Jᵀr, far fewer flops).
+  const blocks = systemFitBlocks(used, refs, nP);
+  const compressed = systemFitCompress(nP, blocks, {
+    evaluate: (p) => levels.evaluate(p),
+    fill(block, res, jac) {
+      const mb = block.rows.length;
+      const local = new Int32Array(nP).fill(-1);
+      block.columns.forEach((j, c) => (local[j] = c));
+      jac.fill(0, 0, mb * block.columns.length);
+      for (let b = 0; b < mb; b++) {
+        const r = block.rows[b];
+        const i = usedIndex[r];
+        res[b] = (observed[r] - (energy[upperSlot[i]] - energy[lowerSlot[i]])) / sigma[r];
+        const w = 1 / sigma[r];
+        for (let side = 0; side < 2; side++) {
+          const slot = side === 0 ? upperSlot[i] : lowerSlot[i];
+          const column = levels.planOfSlot[slot].column;
+          const row = slot * width;
+          const sign = side === 0 ? w : -w;
+          for (let c = 0; c < column.length; c++) {
+            const j = column[c];
+            if (j >= 0) jac[local[j] * mb + b] += sign * grad[row + c];
+          }
+        }
+      }
+    },
+  });
+  // Floated constants no line touches leave the compressed problem with fewer rows than columns;
+  // the full problem then reaches the rank test that names them.
+  const solved = compressed.nObservations >= nP ? compressed : problem;
+
   let values: Float64Array = start;
   let lin: Linearisation | null = null;
   let iterations = 0;
   let convergence: FitConvergence = 'nothing-floated';
   if (nP > 0) {
-    const solution = leastSquaresSolve(problem, start, {
+    const solution = leastSquaresSolve(solved, start, {
       maxIterations: options.maxIterations,
       chi2RelativeTolerance: options.chi2RelativeTolerance,
       stepToleranceSigma: options.stepToleranceSigma,
@@ -223,6 +256,32 @@ export function systemFit(input: SystemFitInput, hooks: FitHooks = {}): SystemFi
     }
   }
   return { ok: true, result: buildResult(input, floated, used, values, lin, iterations, convergence, calcAll(values), options) };
+}
+
+/**
+ * The fitted lines grouped by the pair of states they join (one band, or bands sharing both states),
+ * each with the floated columns those states' constants use.
+ */
+function systemFitBlocks(used: readonly number[], refs: readonly SystemFitLevelRef[], nP: number): SystemFitBlock[] {
+  const byPair = new Map<SystemFitStatePlan, Map<SystemFitStatePlan, number[]>>();
+  used.forEach((i, r) => {
+    const up = refs[2 * i].plan;
+    const lo = refs[2 * i + 1].plan;
+    let inner = byPair.get(up);
+    if (!inner) byPair.set(up, (inner = new Map()));
+    const list = inner.get(lo);
+    if (list) list.push(r);
+    else inner.set(lo, [r]);
+  });
+  const blocks: SystemFitBlock[] = [];
+  for (const [up, inner] of byPair) {
+    for (const [lo, rows] of inner) {
+      const cols = new Set<number>();
+      for (const plan of [up, lo]) for (const j of plan.column) if (j >= 0 && j < nP) cols.add(j);
+      blocks.push({ rows: Int32Array.from(rows), columns: Int32Array.from([...cols].sort((a, b) => a - b)) });
+    }
+  }
+  return blocks;
 }
 
 function buildResult(
