@@ -157,6 +157,8 @@ function systemSummary(
     );
   for (const n of result.notes) lines.push(`  note: ${n}`);
   const fit = result.fit;
+  if (result.rows.length === 0)
+    lines.push('assign: no line assigned in any band; give seed lines of the bands above in --lines (with a band column)');
   if (!fit) lines.push('assign: joint fit: not made (no lines)');
   else if (!fit.ok) lines.push(`assign: joint fit refused: ${fit.error.message} ${fit.error.suggestion}`.trim());
   else {
