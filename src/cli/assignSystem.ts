@@ -70,7 +70,7 @@ export function assignSystem(a: AssignSystemArgs, io: CliIo): number {
     throw new CliError(err instanceof Error ? err.message : String(err));
   }
   const shapeOf = (r: { speciesIndex: number }): TopShape => system.model.species[r.speciesIndex].shape;
-  const label = (r: SystemAssignRow) => {
+  const label = (r: Pick<SystemAssignRow, 'speciesIndex' | 'line'>) => {
     const l = r.line;
     return lineLabelAscii(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shapeOf(r));
   };
@@ -110,7 +110,7 @@ function systemSummary(
   a: AssignSystemArgs,
   nPeaks: number,
   repaired: number,
-  label: (r: SystemAssignRow) => string,
+  label: (r: Pick<SystemAssignRow, 'speciesIndex' | 'line'>) => string,
 ): string {
   const lines: string[] = [];
   const name = (b: { species: string; band: string }) => `${b.species}/${b.band}`;
@@ -133,10 +133,13 @@ function systemSummary(
           `band fit rms ${fit.rmsCm1.toExponential(3)} cm^-1, sigmaW ${fit.sigmaW === null ? 'n/a' : fit.sigmaW.toFixed(3)}`,
       );
       for (const w of run.warnings) lines.push(`  warning: [${name(b)}] ${w}`);
-      for (const r of b.review.slice(0, 10))
+      if (b.review.length)
         lines.push(
-          `  review: [${name(b)}] ${r.jUpper},${r.kUpper} ← ${r.jLower},${r.kLower} at ${r.observedCm1.toFixed(4)} (${r.status}): ${r.reason}`,
+          `assign: [${name(b)}] ${b.review.length} line(s) held for review, not written: ` +
+            (run.doubt ? 'the run as a whole is doubtful (see the warning above)' : 'the misassignment hunt distrusts them'),
         );
+      for (const r of b.review.slice(0, 10))
+        lines.push(`  review: [${name(b)}] ${label({ ...b, line: r })} at ${r.observedCm1.toFixed(4)} (${r.status}): ${r.reason}`);
       if (b.review.length > 10) lines.push(`  review: [${name(b)}] … and ${b.review.length - 10} more`);
       for (const x of run.ambiguous.slice(0, 10)) lines.push(`  ambiguous: [${name(b)}] ${x.reason}`);
       if (run.ambiguous.length > 10) lines.push(`  ambiguous: [${name(b)}] … and ${run.ambiguous.length - 10} more`);
