@@ -11,7 +11,8 @@ import type { FitResult } from '../fit/fitTypes';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
-import { cliLoadModel } from './cliModel';
+import { cliLoadModelOrSystem } from './cliModel';
+import { assignSystem } from './assignSystem';
 import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand, type CliIo } from './cliIo';
 import { cliLoadLines } from './fitCommand';
 import { cliPrintTraceWarnings, cliReadTrace } from './cliTrace';
@@ -83,6 +84,8 @@ function loadTrace(path: string, io: CliIo) {
  * the misassignment hunt distrusts). calc from the final fit, cm^-1. stderr: the final fit's
  * summary, the consistency audit ("assign: consistency: …") and the review list.
  * Exit 0 on success; bad inputs give one stderr line naming the file, line and field, exit 1.
+ * A system file (JSON with a "species" field) goes to assignSystem (cli/assignSystem.ts); a
+ * single-band model file runs exactly as before.
  */
 export const assignCommand: CliCommand = (args, io) => {
   const opts = cliParseArgs(args, ['model', 'trace', 'lines', 'tolerance']);
@@ -92,7 +95,16 @@ export const assignCommand: CliCommand = (args, io) => {
   const [tMin, tMax] = ASSIGN_TOLERANCE_RANGE;
   if (!(tolerance >= tMin && tolerance <= tMax))
     throw new CliError(`option --tolerance must be a number from ${tMin} to ${tMax} (σ), got ${tolerance}`);
-  const file = cliLoadModel(modelPath, io);
+  const loaded = cliLoadModelOrSystem(modelPath, io);
+  if (loaded.kind === 'system') {
+    const trace = loadTrace(tracePath, io);
+    const linesPath = typeof opts.lines === 'string' ? opts.lines : undefined;
+    return assignSystem(
+      { system: loaded.file, modelPath, tracePath, trace, linesPath, tolerance, minSnr: ASSIGN_MIN_SNR, columns: ASSIGN_COLUMNS },
+      io,
+    );
+  }
+  const file = loaded.file;
   const trace = loadTrace(tracePath, io);
   const found = peaksFind(trace, { minSnr: ASSIGN_MIN_SNR });
   const usable = assistantPeaksUsable(found);

@@ -156,7 +156,7 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
       {
         name: 'model',
         value: 'M.json',
-        text: 'model file (first guess); its plain-number constants are floated',
+        text: 'model file (first guess) or system file (every band it can run on, strongest first, then one joint fit); its plain-number constants are floated',
         unit: 'file path',
         default: 'required',
       },
@@ -164,9 +164,9 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
       {
         name: 'lines',
         value: 'SEED.csv',
-        text: 'seed lines, never changed',
+        text: 'seed lines, never changed; with a system file, a band (and species) column says which band each seeds',
         unit: 'file path; wavenumber in cm^-1',
-        default: 'seeds picked from the model alone',
+        default: 'seeds picked from the model alone (per band)',
       },
       {
         name: 'tolerance',
@@ -176,7 +176,7 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
         default: '3',
       },
     ],
-    output: `stdout: CSV of the confident lines (J_up,K_up,J_lo,K_lo,wavenumber,uncertainty,status,label,calc,obs_minus_calc,distance_sigma,flags,note); stderr: the final fit's summary. ${WARNINGS}`,
+    output: `stdout: CSV of the confident lines (J_up,K_up,J_lo,K_lo,wavenumber,uncertainty,status,label,calc,obs_minus_calc,distance_sigma,flags,note); stderr: the final fit's summary. With a system file, band and species columns follow, calc is from the joint fit, and stderr reports each band, the lines two bands' predictions share (review) and the joint fit. ${WARNINGS}`,
     example: 'npm run --silent cli -- assign --model public/demo/model.json --trace public/demo/trace.csv > lines.csv',
   },
   contour: {

@@ -12,6 +12,7 @@ import { delimitedFieldClean, delimitedIsCommentAt } from './delimitedField';
 import { delimitedSplitLine } from './delimitedSniff';
 import { jcampDetect, jcampParse, type JcampLabel } from './jcampParse';
 import { inputExcerpt } from './inputLimits';
+import { traceCommentHeader } from './traceCommentHeader';
 import { unitsOrdinateFromLabel, unitsOrdinateFromValues, unitsTransmittanceScale, unitsValueStats, unitsXFromLabel } from './unitsDetect';
 
 /** Raw columns from either reader, before units and ordering are handled. */
@@ -256,8 +257,9 @@ function readDelimited(
             ? '\t'
             : fast.delimiter;
         const headerNames = pre.header ? delimitedSplitLine(pre.header, delimiter).map(delimitedFieldClean) : undefined;
-        const columnNames = headerNames && headerNames.length >= 2 ? headerNames : undefined;
-        const labels = headerLabels(pre.header, columnNames, fast.columns, options.yColumn);
+        const comment = pre.header === undefined ? traceCommentHeader(text, pre.firstLine, delimiter, fast.columns) : undefined;
+        const columnNames = comment ? comment.names : headerNames && headerNames.length >= 2 ? headerNames : undefined;
+        const labels = headerLabels(comment ? comment.text : pre.header, columnNames, fast.columns, options.yColumn);
         return {
           x: fast.x,
           y: fast.y,
@@ -265,7 +267,7 @@ function readDelimited(
           skipped: new TraceSkipLog(),
           noun: 'row',
           nonFiniteReason: 'NaN/Infinity',
-          messages: [describeDelimited(delimiter, '.', columnNames)],
+          messages: [describeDelimited(delimiter, '.', columnNames), ...commentHeaderNote(comment)],
           ...labels,
           extra: { columnNames, yColumn: options.yColumn, delimiter, decimal: '.', usedFastPath: true },
         };
@@ -281,6 +283,8 @@ function readDelimited(
   });
   if (!r.ok) return { error: r.error };
   const c = r.columns;
+  const comment = c.columnNames === undefined ? traceCommentHeader(text, c.lines[0], c.delimiter, c.columns) : undefined;
+  const columnNames = comment ? comment.names : c.columnNames;
   return {
     x: c.x,
     y: c.y,
@@ -288,10 +292,17 @@ function readDelimited(
     skipped: c.skipped,
     noun: 'row',
     nonFiniteReason: 'NaN/Infinity',
-    messages: [describeDelimited(c.delimiter, c.decimal, c.columnNames)],
-    ...headerLabels(c.columnNames?.join(' '), c.columnNames, c.columns, options.yColumn),
-    extra: { columnNames: c.columnNames, yColumn: options.yColumn, delimiter: c.delimiter, decimal: c.decimal, usedFastPath: false },
+    messages: [describeDelimited(c.delimiter, c.decimal, columnNames), ...commentHeaderNote(comment)],
+    ...headerLabels(comment ? comment.text : c.columnNames?.join(' '), columnNames, c.columns, options.yColumn),
+    extra: { columnNames, yColumn: options.yColumn, delimiter: c.delimiter, decimal: c.decimal, usedFastPath: false },
   };
+}
+
+/** The report line saying the column names came from a comment. */
+function commentHeaderNote(comment: ReturnType<typeof traceCommentHeader>): string[] {
+  return comment
+    ? [`column names read from the comment on line ${comment.line} ('${inputExcerpt(comment.text, 80)}'); the file has no header row`]
+    : [];
 }
 
 /**

@@ -216,9 +216,14 @@ describe('combdiff with a system file', () => {
 });
 
 describe('commands that take a single-band model', () => {
-  it('assign refuses a system file with a clear message', async () => {
-    const r = await run(['assign', '--model', SYSTEM, '--trace', 'x.csv'], { 'x.csv': 'x,y\n1,0\n2,0\n' });
+  it('perturbations refuses a system file with a clear message', async () => {
+    const r = await run(['perturbations', '--model', SYSTEM, '--lines', 'l.csv'], { 'l.csv': 'J_up,K_up,J_lo,K_lo,wavenumber\n' });
     expect(r.code).toBe(1);
     expect(r.stderr).toMatch(/is a system file .*takes a single-band model file/);
+  });
+  it('assign takes a system file (test/cli/assignSystem.test.ts) and says when the trace has no peaks', async () => {
+    const r = await run(['assign', '--model', SYSTEM, '--trace', 'x.csv'], { 'x.csv': 'x,y\n1,0\n2,0\n' });
+    expect(r.code).toBe(1);
+    expect(r.stderr).toMatch(/x\.csv: no peaks found at SNR >= 5/);
   });
 });

@@ -183,6 +183,35 @@ describe('importTrace on delimited fixtures', () => {
     );
     expect(Object.is(trace.absorbance[4], 0)).toBe(true);
   });
+  // A strongly absorbing band: T values with median 0.3 would be guessed as absorbance from the values alone.
+  const deepBand = ['2000.0 0.35', '2000.5 0.20', '2001.0 0.05', '2001.5 0.30', '2002.0 0.90', '2002.5 0.25'].join('\n');
+  it('reads the column names of a leading # comment line as the header (fast and general readers)', () => {
+    for (const [text, fast] of [
+      [`# wavenumber transmittance\n${deepBand}\n`, true],
+      [`% sample: invented\n#wavenumber   transmittance\n\n${deepBand}\n`, true],
+      // A quoted field sends the file to the general reader.
+      [`# wavenumber,transmittance\n${deepBand.replace(/ /g, ',').replace('2000.0', '"2000.0"')}\n`, false],
+    ] as const) {
+      const { trace, report } = load(text, 'deep.txt');
+      expect(report).toMatchObject({ usedFastPath: fast, ordinate: 'transmittance', columnNames: ['wavenumber', 'transmittance'] });
+      expect(trace.absorbance[2]).toBeCloseTo(-Math.log10(0.05), 14);
+      expect(report.messages.some((m) => m.startsWith('column names read from the comment on line'))).toBe(true);
+    }
+  });
+  it('reads units from a comment header that splits into more fields than the data has columns', () => {
+    const { report } = load('# wavelength (um)   %T\n4.0 35\n4.5 20\n5.0 5\n5.5 30\n6.0 90\n', 'um.txt');
+    expect([report.xUnit, report.ordinate]).toEqual(['um', 'percent-transmittance']);
+  });
+  it('does not take a comment sentence or a comment with numbers for a header', () => {
+    for (const comment of ['# transmission cell at room temperature', '# path 10 cm', '# invented band']) {
+      const { report } = load(`${comment}\n${deepBand}\n`, 'deep.txt');
+      expect(report.ordinate).toBe('absorbance');
+      expect(report.columnNames).toBeUndefined();
+    }
+    // A header row that is not a comment still wins over a comment above it.
+    const { report } = load(`# wavenumber transmittance\nx absorbance\n${deepBand}\n`, 'deep.txt');
+    expect([report.ordinate, report.columnNames]).toEqual(['absorbance', ['x', 'absorbance']]);
+  });
   it('hints at µm when an unlabelled axis spans 2.5–25', () => {
     const { report } = load('2.5,0.1\n10,0.2\n25,0.3\n');
     expect(report.messages).toContain(
