@@ -236,7 +236,8 @@ function solveChain(
     out.push({
       J: ctx.J,
       K,
-      l: kl > 0 ? 1 : -1,
+      // K = 0 (kℓ = 0) is l = 0, the system engine's label (levelTypes.ts).
+      l: kl > 0 ? 1 : kl < 0 ? -1 : 0,
       tag: fixedTag ?? species,
       energyCm1: eig.values[j],
       species,

@@ -86,7 +86,7 @@ describe('degenerateStateLevels', () => {
   it('gives one E level at J = 0 and 2(2J+1) functions for every J', () => {
     const r = degenerateStateLevels(INVENTED_E, 0, { shape: 'prolate', pointGroup: 'C3v' });
     expect(r.levels).toHaveLength(1);
-    expect(r.levels[0]).toMatchObject({ J: 0, K: 0, l: -1, species: 'E', degeneracy: 2 });
+    expect(r.levels[0]).toMatchObject({ J: 0, K: 0, l: 0, species: 'E', degeneracy: 2 });
     for (const J of [1, 2, 3, 7, 20]) {
       const n = degenerateStateLevels(INVENTED_E, J, { shape: 'prolate', pointGroup: 'C3v' }).levels.reduce((s, l) => s + l.degeneracy, 0);
       expect(n).toBe(2 * (2 * J + 1));
