@@ -489,3 +489,68 @@ export function systemFileFromModelFile(file: ModelFile): SystemFile {
   }
   return { model, parameters, warnings: [...file.warnings], isSingleBand: true };
 }
+
+/** Top-level model-file keys that only the system engine can hold. */
+const MODEL_SYMMETRY_KEYS = ['pointGroup', 'spinWeightsBySymmetry'];
+
+/**
+ * Whether a parsed single-band model file (shape, band, lower, upper) needs the system engine: it
+ * declares a point group or spin weights by species, or a state carries a key the closed-form model
+ * cannot hold (etaJ, q22, inv…, qJ, …: anything modelAllowedParameters does not list).
+ */
+export function modelFileNeedsSystem(raw: unknown): boolean {
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw) || systemFileDetect(raw)) return false;
+  const r = raw as Record<string, unknown>;
+  if (MODEL_SYMMETRY_KEYS.some((k) => k in r)) return true;
+  const shape = r.shape;
+  if (shape !== 'prolate' && shape !== 'oblate' && shape !== 'linear') return false;
+  return (['lower', 'upper'] as const).some((side) => {
+    const st = r[side];
+    if (typeof st !== 'object' || st === null || Array.isArray(st)) return false;
+    const allowed: string[] = modelAllowedParameters(shape, side);
+    return Object.keys(st).some((k) => !allowed.includes(k) && (isHamiltonianOnlyKey(k) || k === 'qJ' || k === 'symmetry'));
+  });
+}
+
+/**
+ * A single-band model file with keys only the system engine holds, read as a one-band system:
+ * species 'molecule' (or the file's name), states `lower` (origin 0) and `upper` (degenerate for a
+ * perpendicular band), band `band` — the same keys (`upper.q22`, `lower.B`) as the model file.
+ * Messages name the model file's paths (`upper.q12`, `pointGroup`).
+ * @throws SystemFileError
+ */
+export function systemFileFromModelJson(raw: unknown): SystemFile {
+  const r = raw as Record<string, unknown>;
+  const { shape, band, lower, upper, temperature, jMax, kMax, spinWeights, mass, name, pointGroup, spinWeightsBySymmetry } = r;
+  const speciesName = typeof name === 'string' && /^[^./\s,"]{1,80}$/.test(name) ? name : 'molecule';
+  const upperState = typeof upper === 'object' && upper !== null && !Array.isArray(upper) ? upper : {};
+  const json = {
+    temperature,
+    jMax,
+    ...(kMax !== undefined ? { kMax } : {}),
+    species: [
+      {
+        name: speciesName,
+        shape,
+        ...(mass !== undefined ? { mass } : {}),
+        ...(spinWeights !== undefined ? { spinWeights } : {}),
+        ...(pointGroup !== undefined ? { pointGroup } : {}),
+        ...(spinWeightsBySymmetry !== undefined ? { spinWeightsBySymmetry } : {}),
+        states: { lower, upper: { ...upperState, ...(band === 'perpendicular' ? { degenerate: true } : {}) } },
+        bands: [{ name: 'band', upper: 'upper', lower: 'lower' }],
+      },
+    ],
+  };
+  try {
+    return { ...systemFileFromJson(json), isSingleBand: true };
+  } catch (err) {
+    if (!(err instanceof SystemFileError)) throw err;
+    throw new SystemFileError(
+      err.message
+        .replace(/^system file:/, 'model file:')
+        .replace(/species\[0\]\.states\./g, '')
+        .replace(/species\[0\]\./g, '')
+        .replace(/ to species\[0\]/g, ' to the model file'),
+    );
+  }
+}

@@ -51,7 +51,7 @@ describe('fit command: ¹⁴NH3 ν2 with inversion doubling (J″ ≤ 15, empiri
 
   for (const withDeltaK3 of [true, false]) {
     it(`fits every line through the system engine${withDeltaK3 ? ' with the ΔK = ±3 s ↔ a term' : ''} and beats the sub-band fits`, async () => {
-      const files = withDeltaK3 ? {} : { 'nh3.json': withoutDeltaK3() };
+      const files: Record<string, string> = withDeltaK3 ? {} : { 'nh3.json': withoutDeltaK3() };
       const r = await run(['fit', '--model', withDeltaK3 ? SYSTEM : 'nh3.json', '--lines', LINES], files);
       expect(r.stderr).toBe('');
       expect(r.code).toBe(0);
