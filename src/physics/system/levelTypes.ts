@@ -83,6 +83,21 @@ export interface LevelProvider {
    * @param withGradient fill `gradient` (a diagonalising provider may skip that work) @default true
    */
   levels(J: number, values: Float64Array, kTop: number, withGradient?: boolean): LevelSet;
+  /**
+   * Optional, for sums over every level of J (the partition function): energies (cm^-1), component
+   * counts and symmetry species of all levels, unlabelled and in no particular order. A provider
+   * that can skip eigenvectors and labels for this offers it; others are summed through levels().
+   */
+  levelEnergies?(J: number, values: Float64Array): LevelEnergies;
+}
+
+/** Unlabelled levels of one J (LevelProvider.levelEnergies). */
+export interface LevelEnergies {
+  count: number;
+  /** cm^-1, including the state's vibrational term value. */
+  energyCm1: ArrayLike<number>;
+  componentCount: ArrayLike<number>;
+  species: readonly string[];
 }
 
 /** Text form of a label, e.g. "J=3 K=2 l=+1 f" (for messages). */

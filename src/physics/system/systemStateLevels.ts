@@ -1,9 +1,9 @@
-import { degenerateStateLevels, degenerateStateParameterNames } from '../hamiltonian/degenerateStateLevels';
+import { degenerateStateEnergies, degenerateStateLevels, degenerateStateParameterNames } from '../hamiltonian/degenerateStateLevels';
 import type { HamiltonianLevelSet } from '../hamiltonian/hamiltonianLevel';
 import { inversionStateLevels, inversionStateParameterNames } from '../hamiltonian/inversionStateLevels';
 import { nondegenerateStateLevels, nondegenerateStateParameterNames } from '../hamiltonian/nondegenerateStateLevels';
 import type { TopShape } from '../model';
-import { levelSpinIndex, type LevelProvider, type LevelSet } from './levelTypes';
+import { levelSpinIndex, type LevelEnergies, type LevelProvider, type LevelSet } from './levelTypes';
 import type { SystemSpecies, SystemState, SystemStateSymmetry } from './systemModel';
 import { termLevelProvider } from './termLevels';
 
@@ -69,9 +69,25 @@ function hamiltonianLevelProvider(shape: 'prolate' | 'oblate', isDegenerate: boo
       return inversionStateLevels(constants, J, { shape, vibSpecies: symmetry.vibSpecies as 'A1' | 'A2', kMax: kTop });
     return nondegenerateStateLevels(constants, J, { shape, pointGroup: symmetry.pointGroup, vibSpecies: symmetry.vibSpecies, kMax: kTop });
   };
-  const levels = (J: number, values: Float64Array, kTop: number, withGradient = true): LevelSet => {
+  const constantsOf = (values: Float64Array): Record<string, number> => {
     const constants: Record<string, number> = {};
     for (let i = 0; i < nP; i++) if (values[i] !== 0) constants[parameterNames[i]] = values[i];
+    return constants;
+  };
+  const levelEnergies = (J: number, values: Float64Array): LevelEnergies => {
+    if (isDegenerate) {
+      const e = degenerateStateEnergies(constantsOf(values), J, {
+        shape,
+        pointGroup: symmetry.pointGroup,
+        vibSpecies: symmetry.vibSpecies,
+      });
+      return { count: e.energyCm1.length, energyCm1: e.energyCm1, componentCount: e.degeneracy, species: e.species };
+    }
+    const set = levels(J, values, J, false);
+    return { count: set.count, energyCm1: set.energyCm1, componentCount: set.componentCount, species: set.species! };
+  };
+  const levels = (J: number, values: Float64Array, kTop: number, withGradient = true): LevelSet => {
+    const constants = constantsOf(values);
     const result = solve(constants, J, Math.max(0, Math.min(J, kTop)), withGradient).levels;
     const n = result.length;
     const set: LevelSet = {
@@ -97,7 +113,7 @@ function hamiltonianLevelProvider(shape: 'prolate' | 'oblate', isDegenerate: boo
     }
     return set;
   };
-  return { parameterNames, isDegenerate, levels };
+  return { parameterNames, isDegenerate, levels, levelEnergies };
 }
 
 /**

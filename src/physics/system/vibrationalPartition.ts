@@ -69,7 +69,25 @@ export function speciesPartitionFunction(species: SystemSpecies, temperatureK: n
     const values = systemStateValues(provider, state);
     let qState = 0;
     let previousShellEnergy = -Infinity;
+    // Weights by species need no labels: the provider's unlabelled energies are enough (and faster).
+    const unlabelled = species.spinWeightsBySymmetry !== undefined && provider.levelEnergies !== undefined;
     for (let J = 0; J <= jLimit; J++) {
+      if (unlabelled) {
+        const e = provider.levelEnergies!(J, values);
+        const table = species.spinWeightsBySymmetry!;
+        let shell = 0;
+        let eMin = Infinity;
+        for (let i = 0; i < e.count; i++) {
+          shell += (table[e.species[i]] ?? 0) * e.componentCount[i] * Math.exp(-c2OverT * e.energyCm1[i]);
+          eMin = Math.min(eMin, e.energyCm1[i]);
+        }
+        shell *= 2 * J + 1;
+        if (e.count > 0 && eMin < previousShellEnergy) break;
+        if (e.count > 0) previousShellEnergy = eMin;
+        qState += shell;
+        if (J > 10 && shell < tol * qState) break;
+        continue;
+      }
       const set = provider.levels(J, values, J, false);
       let shell = 0;
       let eMin = Infinity;
