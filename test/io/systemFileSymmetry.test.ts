@@ -83,3 +83,29 @@ describe('system file: point group, spin weights by species and the Hamiltonian 
     expect(refusal(file({ pointGroup: 'C4v' }))).toMatch(/'species\[0\]\.pointGroup' is the string "C4v"; expected one of "C3v", "D3h"/);
   });
 });
+
+describe('modelFileParse (closed-form single-band model) and the system-only keys', () => {
+  it('refuses them in words, naming the commands that read such a file', async () => {
+    const { modelFileFromJson } = await import('../../src/io/modelFile');
+    const base = {
+      shape: 'prolate',
+      band: 'perpendicular',
+      lower: { B: 0.34, A: 2.8 },
+      upper: { origin: 1000, B: 0.34, A: 2.8, zeta: 0.2 },
+      temperature: 296,
+      jMax: 10,
+      kMax: 5,
+    };
+    const msg = (json: unknown) => {
+      try {
+        modelFileFromJson(json);
+      } catch (err) {
+        return (err as Error).message;
+      }
+      return 'accepted';
+    };
+    expect(msg({ ...base, pointGroup: 'C3v' })).toMatch(/field 'pointGroup' declares symmetry; .*simulate, spectrum, fit and combdiff/);
+    expect(msg({ ...base, upper: { ...base.upper, q22: 1e-4 } })).toMatch(/field 'upper\.q22' is a constant only the system engine holds/);
+    expect(msg(base)).toBe('accepted');
+  });
+});
