@@ -24,7 +24,7 @@ const TRUTH_GROUND: Record<string, number> = { B: 0.31, DJ: 3e-7, DJK: 4e-6 };
 const FIXED_GROUND = { A: { value: 5.2, fixed: true }, DK: { value: 8e-5, fixed: true } };
 const SIGMA_CM1 = 2e-4;
 
-function systemJson(upper: Record<string, number>, ground: Record<string, number>) {
+function systemJson(upper: Record<string, number>, ground: Record<string, number>, pointGroup: 'C3v' | 'D3h' = 'C3v') {
   return {
     temperature: 296,
     jMax: 30,
@@ -33,7 +33,8 @@ function systemJson(upper: Record<string, number>, ground: Record<string, number
       {
         name: 'X',
         shape: 'prolate',
-        pointGroup: 'C3v',
+        pointGroup,
+        // Per component function; in D3h the unprimed keys stand for both ′ and ″ (invented molecule).
         spinWeightsBySymmetry: { A1: 4, A2: 4, E: 2 },
         states: { ground: { ...ground, ...FIXED_GROUND }, v4: { degenerate: true, ...upper } },
         bands: [{ name: 'nu4', upper: 'v4', lower: 'ground' }],
@@ -94,6 +95,48 @@ describe('joint fit of a degenerate band through the wired Hamiltonian (C3v, eve
     );
     expect(r.floated.sort()).toEqual(Object.keys(want).sort());
     for (const [key, value] of Object.entries(want)) {
+      const p = r.parameters[key];
+      expect(Math.abs(p.value - value), `${key}: ${p.value} ± ${p.sigma} (truth ${value})`).toBeLessThan(3 * p.sigma!);
+    }
+  });
+
+  it('recovers the constants of an E′ state of a D3h top (no q12) through the same path', () => {
+    // As above for D3h(M) (q12 forbidden and absent; levels E′/E″ and A1′…A2″): seed 12, σ = 2e-4 cm⁻¹,
+    // start 1 % off (q22J, etaK 30 %); 3σ bound.
+    const upper = { ...TRUTH_UPPER };
+    delete upper.q12;
+    const truth = systemFileFromJson(systemJson(upper, TRUTH_GROUND, 'D3h'));
+    const sim = systemLines(truth.model);
+    const noise = seededGaussian(12);
+    const lines: SystemFitLine[] = Array.from({ length: sim.count }, (_, i) => ({
+      speciesIndex: 0,
+      band: 'nu4',
+      jUpper: sim.jUpper[i],
+      kUpper: sim.kUpper[i],
+      lUpper: sim.lUpper[i] as -1 | 0 | 1,
+      tagUpper: sim.tagUpper[i],
+      jLower: sim.jLower[i],
+      kLower: sim.kLower[i],
+      lLower: sim.lLower[i] as -1 | 0 | 1,
+      tagLower: sim.tagLower[i],
+      observedCm1: sim.wavenumberCm1[i] + SIGMA_CM1 * noise(),
+      uncertaintyCm1: SIGMA_CM1,
+      isExcluded: false,
+    }));
+    // Every line E′ ↔ E″ or A ↔ A with a prime change (Γ′ ⊗ Γ″ ⊇ A1″).
+    for (let i = 0; i < sim.count; i++) expect(sim.symUpper[i].endsWith("''")).not.toBe(sim.symLower[i].endsWith("''"));
+    const off = (v: Record<string, number>) =>
+      Object.fromEntries(Object.entries(v).map(([k, x]) => [k, x * (['q22J', 'etaK'].includes(k) ? 1.3 : 1.01)]));
+    const start = systemFileFromJson(systemJson(off(upper), off(TRUTH_GROUND), 'D3h'));
+    const outcome = systemFit({ model: start.model, parameters: start.parameters, lines });
+    expect(outcome.ok, outcome.ok ? '' : outcome.error.message).toBe(true);
+    if (!outcome.ok) return;
+    const r = outcome.result;
+    expect(Math.abs(r.sigmaW! - 1)).toBeLessThan(0.05);
+    for (const [key, value] of [
+      ...Object.entries(upper).map(([k, v]) => [`v4.${k}`, v] as const),
+      ...Object.entries(TRUTH_GROUND).map(([k, v]) => [`ground.${k}`, v] as const),
+    ]) {
       const p = r.parameters[key];
       expect(Math.abs(p.value - value), `${key}: ${p.value} ± ${p.sigma} (truth ${value})`).toBeLessThan(3 * p.sigma!);
     }
