@@ -32,7 +32,7 @@ interface FitJson {
   nParameters: number;
   convergence: string;
   parameters: Record<string, { value: number; sigma: number | null; fixed: boolean }>;
-  lines: { tag_up: string; tag_lo: string }[];
+  lines: { tag_up: string; tag_lo: string; sym_up: string; sym_lo: string }[];
 }
 
 /** The system file without the ΔK = ±3 s ↔ a terms (eps3 of both states removed). */
@@ -75,6 +75,12 @@ describe('fit command: ¹⁴NH3 ν2 with inversion doubling (J″ ≤ 15, empiri
       expect(Math.abs(f.parameters['ground.B'].value - 9.944)).toBeLessThan(0.01);
       // s ↔ a only (ν2: s←a and a←s), each row resolved to its one level of nonzero spin weight.
       for (const l of f.lines) expect(l.tag_up[0]).not.toBe(l.tag_lo[0]);
+      // Each line names its levels' D3h(M) species, as the fixture does (MARVEL labels, README).
+      const fixture = readFileSync(`${ROOT}/test/fixtures/real/nh3_marvel/nh3_nu2_levels_jlo15.tsv`, 'utf8').trim().split('\n').slice(1);
+      f.lines.forEach((l, i) => {
+        const c = fixture[i].split('\t');
+        expect(`${l.sym_up} ${l.sym_lo}`).toBe(`${c[5]} ${c[13]}`.replace(/"/g, "''"));
+      });
     }, 60_000);
   }
 
