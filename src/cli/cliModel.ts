@@ -3,7 +3,15 @@ import type { SystemFitLine } from '../fit/systemFitTypes';
 import { inputJsonParse, INPUT_LIMITS } from '../io/inputLimits';
 import { LineTableError } from '../io/lineTable';
 import { modelFileParse, ModelFileError, type ModelFile } from '../io/modelFile';
-import { systemFileDetect, systemFileFromJson, systemFileFromModelFile, SystemFileError, type SystemFile } from '../io/systemFile';
+import {
+  modelFileNeedsSystem,
+  systemFileDetect,
+  systemFileFromJson,
+  systemFileFromModelFile,
+  systemFileFromModelJson,
+  SystemFileError,
+  type SystemFile,
+} from '../io/systemFile';
 import { systemLineTableParse, type SystemLineTable } from '../io/systemLineTable';
 import { CliError, type CliIo } from './cliIo';
 
@@ -44,10 +52,14 @@ export type CliModelOrSystem = { kind: 'model'; file: ModelFile } | { kind: 'sys
  */
 export function cliLoadModelOrSystem(path: string, io: CliIo): CliModelOrSystem {
   const text = io.readFile(path);
-  if (!isSystemText(text)) return { kind: 'model', file: modelFromText(path, text, io) };
+  const parsed = inputJsonParse(text, INPUT_LIMITS.maxModelFileChars);
+  const needsSystem = parsed.ok && modelFileNeedsSystem(parsed.value);
+  if (!isSystemText(text) && !needsSystem) return { kind: 'model', file: modelFromText(path, text, io) };
   try {
-    const parsed = inputJsonParse(text, INPUT_LIMITS.maxModelFileChars);
-    const file = systemFileFromJson(parsed.ok ? parsed.value : null);
+    // A model file with keys the closed form cannot hold (pointGroup, q22, inv…, qJ, …) runs as a one-band system.
+    const file = needsSystem
+      ? systemFileFromModelJson(parsed.ok ? parsed.value : null)
+      : systemFileFromJson(parsed.ok ? parsed.value : null);
     for (const w of file.warnings) io.stderr(`${path}: ${w}\n`);
     return { kind: 'system', file };
   } catch (err) {

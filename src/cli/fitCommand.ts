@@ -6,6 +6,8 @@ import { lineLabelAscii } from '../physics/lineLabel';
 import type { TopShape } from '../physics/model';
 import { systemFit } from '../fit/systemFit';
 import { systemFileFromModelFile, type SystemFile } from '../io/systemFile';
+import type { LevelSet } from '../physics/system/levelTypes';
+import { systemStateProvider, systemStateValues } from '../physics/system/systemStateLevels';
 import { cliLoadModelOrSystem, cliLoadSystemLines, cliResolveSystemLines } from './cliModel';
 import { CliError, cliParseArgs, cliRequire, type CliCommand, type CliIo } from './cliIo';
 
@@ -37,7 +39,8 @@ export function cliLoadLines(path: string, io: CliIo): LineTable {
  * With a system file (JSON with "species"; or a line table with MHz rows) every band is fitted at
  * once (fit/systemFit.ts): the same JSON keys (parameters keyed "<state>.<constant>", a tied one
  * with "same"), plus degreesOfFreedom, covarianceScale, bands (per-band rms) and, per line, band,
- * species, l_up, l_lo, tag_up, tag_lo, unit and for MHz lines obsMHz, calcMHz, obsMinusCalcMHz, sigmaMHz.
+ * species, l_up, l_lo, tag_up, tag_lo, unit and for MHz lines obsMHz, calcMHz, obsMinusCalcMHz, sigmaMHz,
+ * and sym_up, sym_lo (the levels' symmetry species) when the line's species declares a point group.
  * σ of the constants are scaled by σ_w only when σ_w > 1.
  */
 export const fitCommand: CliCommand = (args, io) => {
@@ -93,6 +96,7 @@ function fitSystem(system: SystemFile, linesPath: string, io: CliIo): number {
   if (!outcome.ok) throw fitRefusal(outcome.error);
   const r = outcome.result;
   const signed = (l: number) => (l > 0 ? '+1' : l < 0 ? '-1' : '0');
+  const symmetryOf = levelSymmetryLookup(system);
   const out = {
     parameters: r.parameters,
     rms: r.rmsCm1,
@@ -110,6 +114,12 @@ function fitSystem(system: SystemFile, linesPath: string, io: CliIo): number {
       tag_lo: l.tagLower,
       unit: l.unit ?? 'cm-1',
       ...(l.unit === 'MHz' ? { obsMHz: l.obsMHz, calcMHz: l.calcMHz, obsMinusCalcMHz: l.obsMinusCalcMHz, sigmaMHz: l.sigmaMHz } : {}),
+      ...(system.model.species[l.speciesIndex].pointGroup
+        ? {
+            sym_up: symmetryOf(l.speciesIndex, l.band, 'upper', l.jUpper, l.kUpper, l.lUpper, l.tagUpper),
+            sym_lo: symmetryOf(l.speciesIndex, l.band, 'lower', l.jLower, l.kLower, l.lLower, l.tagLower),
+          }
+        : {}),
     })),
     iterations: r.iterations,
     convergence: r.convergenceMessage,
@@ -125,6 +135,29 @@ function fitSystem(system: SystemFile, linesPath: string, io: CliIo): number {
   };
   io.stdout(JSON.stringify(out, null, 2) + '\n');
   return 0;
+}
+
+/**
+ * The symmetry species of a labelled level of a band's upper or lower state ('' when unknown), from
+ * the file's constants (species do not depend on them); level sets cached per state and J.
+ */
+function levelSymmetryLookup(system: SystemFile) {
+  const cache = new Map<string, LevelSet>();
+  return (speciesIndex: number, bandName: string, side: 'upper' | 'lower', J: number, K: number, l: number, tag: string): string => {
+    const species = system.model.species[speciesIndex];
+    const band = species.bands.find((b) => b.name === bandName);
+    const state = band && species.states.find((st) => st.name === band[side]);
+    if (!state) return '';
+    const id = `${speciesIndex}/${state.name}/${J}`;
+    let set = cache.get(id);
+    if (!set) {
+      const provider = systemStateProvider(species.shape, state);
+      set = provider.levels(J, systemStateValues(provider, state), J, false);
+      cache.set(id, set);
+    }
+    for (let i = 0; i < set.count; i++) if (set.K[i] === K && set.l[i] === l && set.tag[i] === tag) return set.species?.[i] ?? '';
+    return '';
+  };
 }
 
 /** A fit's refusal as one CliError line: message, the parameters involved, and the suggestion. */

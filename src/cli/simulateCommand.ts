@@ -11,7 +11,9 @@ import { cliNumber, cliParseArgs, cliRequire, type CliCommand, type CliIo } from
  * relative (strongest = 1).
  * With a system file (JSON with "species"), every band of every species, on one intensity scale
  * (strongest line of all = 1), with the columns band, species, l_up, l_lo, tag_up, tag_lo after
- * the contract's; E_lo is then the lower level's energy above the species' lowest level.
+ * the contract's; E_lo is then the lower level's energy above the species' lowest level. When a
+ * species declares a point group, two more columns follow: sym_up, sym_lo (the levels' symmetry
+ * species, e.g. A1, E, A2'', empty for a species without one).
  */
 export const simulateCommand: CliCommand = (args, io) => {
   const opts = cliParseArgs(args, ['model', 'min-intensity']);
@@ -36,7 +38,10 @@ export const simulateCommand: CliCommand = (args, io) => {
 function simulateSystem(file: SystemFile, minIntensity: number, io: CliIo): number {
   const lines = systemLines(file.model, { minIntensity });
   const order = Array.from({ length: lines.count }, (_, i) => i).sort((a, b) => lines.wavenumberCm1[a] - lines.wavenumberCm1[b]);
-  const rows: string[] = ['J_up,K_up,J_lo,K_lo,wavenumber,intensity,E_lo,label,band,species,l_up,l_lo,tag_up,tag_lo'];
+  const withSymmetry = file.model.species.some((s) => s.pointGroup !== undefined);
+  const rows: string[] = [
+    'J_up,K_up,J_lo,K_lo,wavenumber,intensity,E_lo,label,band,species,l_up,l_lo,tag_up,tag_lo' + (withSymmetry ? ',sym_up,sym_lo' : ''),
+  ];
   const signed = (l: number) => (l > 0 ? '+1' : l < 0 ? '-1' : '0');
   for (const i of order) {
     const ref = lines.bandRefs[lines.bandIndex[i]];
@@ -45,7 +50,8 @@ function simulateSystem(file: SystemFile, minIntensity: number, io: CliIo): numb
       `${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]},` +
         `${lines.wavenumberCm1[i].toFixed(7)},${lines.intensity[i].toPrecision(6)},${lines.eLowerCm1[i].toFixed(6)},` +
         lineLabelAscii(lines.deltaK[i], lines.deltaJ[i], lines.kLower[i], lines.jLower[i], shape) +
-        `,${ref.band},${ref.species},${signed(lines.lUpper[i])},${signed(lines.lLower[i])},${lines.tagUpper[i]},${lines.tagLower[i]}`,
+        `,${ref.band},${ref.species},${signed(lines.lUpper[i])},${signed(lines.lLower[i])},${lines.tagUpper[i]},${lines.tagLower[i]}` +
+        (withSymmetry ? `,${lines.symUpper[i]},${lines.symLower[i]}` : ''),
     );
   }
   io.stdout(rows.join('\n') + '\n');

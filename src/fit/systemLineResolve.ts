@@ -3,7 +3,7 @@ import { bandTransitions } from '../physics/system/bandRules';
 import { levelLabelText, type LevelSet } from '../physics/system/levelTypes';
 import type { SystemModel } from '../physics/system/systemModel';
 import { systemStateFind } from '../physics/system/systemModel';
-import { systemStateProvider, systemStateValues } from '../physics/system/systemStateLevels';
+import { systemLevelSpinWeight, systemStateProvider, systemStateValues } from '../physics/system/systemStateLevels';
 import type { SystemFitLine } from './systemFitTypes';
 
 /** What a line table row says about a line (the labels it leaves out are null). */
@@ -25,7 +25,21 @@ export type SystemLineResolution =
   { ok: true; line: Omit<SystemFitLine, 'observedCm1' | 'uncertaintyCm1' | 'isExcluded' | 'unit'> } | { ok: false; message: string };
 
 function copy(s: LevelSet): LevelSet {
-  return { ...s, K: s.K.slice(0, s.count), l: s.l.slice(0, s.count), tag: s.tag.slice(0, s.count) };
+  return {
+    ...s,
+    K: s.K.slice(0, s.count),
+    l: s.l.slice(0, s.count),
+    tag: s.tag.slice(0, s.count),
+    ...(s.species ? { species: s.species.slice(0, s.count) } : {}),
+  };
+}
+
+/**
+ * Whether a level's tag answers the tag a row gives: equal, or the row gives the inversion
+ * component ('s' / 'a') of a level tagged with it and its species ("s:A2'").
+ */
+function tagMatches(levelTag: string, wanted: string): boolean {
+  return levelTag === wanted || levelTag.startsWith(`${wanted}:`);
 }
 
 /**
@@ -33,6 +47,9 @@ function copy(s: LevelSet): LevelSet {
  * only one when not named), its band (the species' only band when not named), and the upper and
  * lower levels with the given J, K and, where given, l and tag. Refuses, in words, when none
  * matches (naming the rule broken) or when several do (naming the labels that would decide).
+ * With a species that declares a point group the symmetry rule applies, levels of zero spin weight
+ * are not candidates (e.g. the missing member of each K = 0 inversion pair of ¹⁴NH3), and a row's
+ * tag 's' or 'a' names the inversion component whatever its species tag ("a:A2''").
  * Source: selection rules of physics/system/bandRules.ts.
  * @param model the system
  * @param q what the row says
@@ -80,15 +97,26 @@ export function systemLineResolve(model: SystemModel, q: SystemLineQuery): Syste
   const upSet = copy(up.levels(q.jUpper, systemStateValues(up, upper), q.kUpper));
   const matches: { i: number; j: number }[] = [];
   let sameKAllowed = 0;
-  bandTransitions(loSet, lower.isDegenerate, upSet, upper.isDegenerate, q.kLower, (i, j) => {
-    if (loSet.K[i] !== q.kLower || upSet.K[j] !== q.kUpper) return;
-    sameKAllowed++;
-    if (q.lLower !== null && loSet.l[i] !== q.lLower) return;
-    if (q.lUpper !== null && upSet.l[j] !== q.lUpper) return;
-    if (q.tagLower !== null && loSet.tag[i] !== q.tagLower) return;
-    if (q.tagUpper !== null && upSet.tag[j] !== q.tagUpper) return;
-    matches.push({ i, j });
-  });
+  const bySymmetry = species.pointGroup !== undefined;
+  bandTransitions(
+    loSet,
+    lower.isDegenerate,
+    upSet,
+    upper.isDegenerate,
+    q.kLower,
+    (i, j) => {
+      if (loSet.K[i] !== q.kLower || upSet.K[j] !== q.kUpper) return;
+      if (bySymmetry && systemLevelSpinWeight(species, loSet, i, lower.isDegenerate) === 0) return;
+      if (bySymmetry && systemLevelSpinWeight(species, upSet, j, upper.isDegenerate) === 0) return;
+      sameKAllowed++;
+      if (q.lLower !== null && loSet.l[i] !== q.lLower) return;
+      if (q.lUpper !== null && upSet.l[j] !== q.lUpper) return;
+      if (q.tagLower !== null && !(bySymmetry ? tagMatches(loSet.tag[i], q.tagLower) : loSet.tag[i] === q.tagLower)) return;
+      if (q.tagUpper !== null && !(bySymmetry ? tagMatches(upSet.tag[j], q.tagUpper) : upSet.tag[j] === q.tagUpper)) return;
+      matches.push({ i, j });
+    },
+    species.pointGroup,
+  );
   const where = `band '${band.name}' (${band.upper} ← ${band.lower})`;
   const qn = `J'=${q.jUpper} K'=${q.kUpper} ← J"=${q.jLower} K"=${q.kLower}`;
   if (matches.length === 0) {

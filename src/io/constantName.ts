@@ -30,6 +30,21 @@ const SYMBOLS: Record<string, [string, string]> = {
   HK: ['H', 'K'],
   zeta: ['ζ', ''],
   q: ['q', ''],
+  // Constants of the effective Hamiltonians (system files with a pointGroup) and of a linear Π state.
+  qJ: ['q', 'J'],
+  etaJ: ['η', 'J'],
+  etaK: ['η', 'K'],
+  q22: ['q', '22'],
+  q22J: ['q', '22J'],
+  q12: ['q', '12'],
+  LJ: ['L', 'J'],
+  LJJK: ['L', 'JJK'],
+  LJK: ['L', 'JK'],
+  LKKJ: ['L', 'KKJ'],
+  LK: ['L', 'K'],
+  inv: ['Δ', 'inv'],
+  eps3: ['ε', '3'],
+  eps3J: ['ε', '3J'],
 };
 
 /** Constants that belong to the upper state only (written without a prime, as is usual). */

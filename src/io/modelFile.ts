@@ -82,6 +82,21 @@ const KNOWN_TOP = new Set([
   'version',
 ]);
 
+/**
+ * Model-file keys that only the system engine holds (symmetry, the effective Hamiltonians' constants,
+ * qJ): the closed-form BandModel cannot, so modelFileParse refuses them in words; the CLI's simulate,
+ * spectrum and fit read such a file as a one-band system (io/systemFile.ts systemFileFromModelJson).
+ */
+const SYSTEM_ONLY_TOP = ['pointGroup', 'spinWeightsBySymmetry'];
+function isSystemOnlyStateKey(name: string): boolean {
+  return (
+    ['etaJ', 'etaK', 'q22', 'q22J', 'q12', 'qJ', 'LJ', 'LJJK', 'LJK', 'LKKJ', 'LK', 'eps3', 'eps3J', 'symmetry'].includes(name) ||
+    /^inv/.test(name)
+  );
+}
+const SYSTEM_ONLY_WORDS =
+  'the closed-form single-band model (this page, and the assign, contour and perturbations commands) cannot hold it; the simulate, spectrum, fit and combdiff commands read such a file through the system engine';
+
 /** A model file read into the physics model plus the fit's floated/fixed flags. */
 export interface ModelFile {
   model: BandModel;
@@ -162,6 +177,10 @@ export function modelFileFromJson(raw: unknown): ModelFile {
   }
   const f = parsed.data;
   const shape = f.shape as TopShape;
+  for (const key of SYSTEM_ONLY_TOP) {
+    if (key in (raw as Record<string, unknown>))
+      throw new ModelFileError(`model file: field '${key}' declares symmetry; ${SYSTEM_ONLY_WORDS}`);
+  }
   if (shape !== 'linear' && f.kMax === undefined) {
     throw new ModelFileError(`model file: field 'kMax' is missing; expected a whole number >= 0 for a ${shape} top`);
   }
@@ -171,6 +190,11 @@ export function modelFileFromJson(raw: unknown): ModelFile {
     const allowed = modelAllowedParameters(shape, side);
     for (const [name, value] of Object.entries(f[side])) {
       const path = `${side}.${name}`;
+      if (isSystemOnlyStateKey(name) && !allowed.includes(name as ParameterName)) {
+        throw new ModelFileError(
+          `model file: field '${inputExcerpt(path, 80)}' is a constant only the system engine holds (effective Hamiltonians, or qJ of a linear Π state); ${SYSTEM_ONLY_WORDS}`,
+        );
+      }
       if (!(PARAMETER_NAMES as readonly string[]).includes(name) || !allowed.includes(name as ParameterName)) {
         const hint =
           name === 'A' && shape === 'oblate'

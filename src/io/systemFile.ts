@@ -16,12 +16,24 @@
  * `origin` is a state's vibrational term value above the species' lowest state; at most one state
  * per species may leave it out (that state is at 0). A band whose upper and lower state are the same
  * is that state's pure rotational spectrum (ΔK = 0, e.g. microwave lines of the ground state).
+ *
+ * Symmetry (symmetric tops): a species may give "pointGroup": "C3v" | "D3h"; its states' levels then
+ * come from the effective Hamiltonians of physics/hamiltonian and carry symmetry species, and it may
+ * give "spinWeightsBySymmetry" (weights per species and component function, e.g. {"A1": 4, "A2": 4,
+ * "E": 2}) in place of "spinWeights". A state may then give "symmetry" (its vibrational species) and
+ * the keys only the Hamiltonians know: etaJ, etaK, q22, q22J, q12 (degenerate; q12 not in D3h), the
+ * octic LJ, LJJK, LJK, LKKJ, LK, and for an inversion-doubled state (pointGroup D3h) inv,
+ * inv<constant> (a − s differences of each constant), eps3, eps3J.
  */
 import { z } from 'zod';
 import { MHZ_PER_CM1 } from '../physics/constants';
 import type { TopShape } from '../physics/model';
 import { systemFromBandModel } from '../physics/system/systemFromBandModel';
-import type { SystemModel, SystemSpecies } from '../physics/system/systemModel';
+import type { SystemModel, SystemSpecies, SystemStateSymmetry } from '../physics/system/systemModel';
+import { hamiltonianStateParameterNames } from '../physics/system/systemStateLevels';
+import { hamiltonianTermsCheck } from '../physics/hamiltonian/hamiltonianTermsCheck';
+import { rovibSpeciesDimension, rovibSpeciesList, type RovibPointGroup } from '../physics/hamiltonian/rovibSymmetry';
+import { spinStatisticsSpeciesTable } from '../physics/hamiltonian/spinStatistics';
 import type { SystemParameter, SystemParameterStatus } from '../fit/systemFitTypes';
 import { INPUT_LIMITS, inputExcerpt, inputJsonParse } from './inputLimits';
 import { modelAllowedParameters, type ModelFile } from './modelFile';
@@ -81,6 +93,8 @@ const speciesSchema = z.strictObject({
     .min(1)
     .max(INPUT_LIMITS.maxSpinWeights)
     .optional(),
+  pointGroup: z.enum(['C3v', 'D3h']).optional(),
+  spinWeightsBySymmetry: z.record(z.string(), z.number()).optional(),
   states: z.record(z.string(), stateSchema),
   bands: z
     .array(
@@ -114,6 +128,35 @@ export function systemAllowedParameters(shape: TopShape, isDegenerate: boolean):
     shape === 'linear' ? ['B', 'DJ', 'HJ'] : ['B', shape === 'prolate' ? 'A' : 'C', 'DJ', 'DJK', 'DK', 'HJ', 'HJK', 'HKJ', 'HK'];
   const extra = isDegenerate ? (shape === 'linear' ? ['q', 'qJ'] : ['zeta']) : [];
   return ['origin', ...common, ...extra];
+}
+
+/** Keys only the effective Hamiltonians (a species with a pointGroup) understand. */
+function isHamiltonianOnlyKey(name: string): boolean {
+  return ['etaJ', 'etaK', 'q22', 'q22J', 'q12', 'LJ', 'LJJK', 'LJK', 'LKKJ', 'LK', 'eps3', 'eps3J'].includes(name) || /^inv/.test(name);
+}
+
+/** Keys that make a nondegenerate state inversion-doubled. */
+function isInversionKey(name: string): boolean {
+  return /^inv/.test(name) || name === 'eps3' || name === 'eps3J';
+}
+
+/**
+ * Constants a state of a species with a point group may carry (the Hamiltonian provider's names;
+ * q12 left out in D3h, where symmetry forbids it).
+ */
+export function systemSymmetryAllowedParameters(
+  shape: 'prolate' | 'oblate',
+  isDegenerate: boolean,
+  symmetry: Pick<SystemStateSymmetry, 'pointGroup' | 'isInversionDoubled'>,
+): string[] {
+  const names = hamiltonianStateParameterNames(shape, isDegenerate, symmetry);
+  return symmetry.pointGroup === 'D3h' ? names.filter((n) => n !== 'q12') : names;
+}
+
+/** Vibrational species a state may declare, and the default, by group and kind. */
+function vibSpeciesChoices(group: RovibPointGroup, isDegenerate: boolean, isInversionDoubled: boolean): string[] {
+  if (isInversionDoubled) return ['A1', 'A2'];
+  return rovibSpeciesList(group).filter((sp) => (rovibSpeciesDimension(group, sp) === 2) === isDegenerate);
 }
 
 function describe(v: unknown): string {
@@ -213,11 +256,52 @@ export function systemFileFromJson(raw: unknown): SystemFile {
     const shape = sp.shape as TopShape;
     if (shape !== 'linear' && f.kMax === undefined)
       fail('kMax', `is missing; expected a whole number >= 0 (species '${sp.name}' is a ${shape} top)`);
+    const pointGroup = sp.pointGroup as RovibPointGroup | undefined;
+    if (pointGroup && shape === 'linear')
+      fail(`${at}.pointGroup`, `is given for a linear species; a point group (C3v or D3h) applies to symmetric tops only`);
+    let spinWeightsBySymmetry: Record<string, number> | undefined;
+    if (sp.spinWeightsBySymmetry !== undefined) {
+      if (!pointGroup) fail(`${at}.spinWeightsBySymmetry`, `needs the species' "pointGroup" ("C3v" or "D3h") to name its species`);
+      if (sp.spinWeights !== undefined)
+        fail(`${at}.spinWeightsBySymmetry`, `is given beside "spinWeights"; give one of them (weights by species or by K mod n)`);
+      try {
+        spinWeightsBySymmetry = spinStatisticsSpeciesTable(pointGroup!, sp.spinWeightsBySymmetry);
+      } catch (err) {
+        fail(`${at}.spinWeightsBySymmetry`, `is not usable: ${(err as Error).message.replace(/^spinStatistics: /, '')}`);
+      }
+    }
     const stateNames = Object.keys(sp.states);
     if (stateNames.length === 0) fail(`${at}.states`, 'is empty; expected at least one state');
     if (stateNames.length > SYSTEM_FILE_LIMITS.maxStates)
       fail(`${at}.states`, `holds ${stateNames.length} states, more than ${SYSTEM_FILE_LIMITS.maxStates}`);
     let originless: string | null = null;
+    /** The state's symmetry (Hamiltonian provider) when the species has a point group, else undefined. */
+    const stateSymmetry = (sAt: string, body: Record<string, unknown>, isDegenerate: boolean): SystemStateSymmetry | undefined => {
+      if (!pointGroup) {
+        if (body.symmetry !== undefined && shape !== 'linear')
+          fail(`${sAt}.symmetry`, `needs the species' point group: add "pointGroup": "C3v" or "D3h" to ${at}`);
+        if (body.symmetry !== undefined)
+          fail(`${sAt}.symmetry`, 'is given for a linear species; symmetry species apply to symmetric tops here');
+        return undefined;
+      }
+      const inversionKey = Object.keys(body).find(isInversionKey);
+      const isInversionDoubled = inversionKey !== undefined && !isDegenerate;
+      if (isInversionDoubled && pointGroup !== 'D3h')
+        fail(
+          `${sAt}.${inversionKey}`,
+          `makes the state inversion-doubled, which needs "pointGroup": "D3h" (the molecular symmetry group of an inverting XY3 top is D3h(M)); ${at} gives ${pointGroup}`,
+        );
+      const choices = vibSpeciesChoices(pointGroup, isDegenerate, isInversionDoubled);
+      const given = body.symmetry;
+      if (given !== undefined && (typeof given !== 'string' || !choices.includes(given)))
+        fail(
+          `${sAt}.symmetry`,
+          `is ${describe(given)}; expected the species of a ${isDegenerate ? 'degenerate' : isInversionDoubled ? 'inversion-doubled (its C3v species)' : 'nondegenerate'} state of ${pointGroup}: one of ${choices.map((c) => JSON.stringify(c)).join(', ')}${
+            isDegenerate ? '' : ' (a degenerate species needs "degenerate": true)'
+          }`,
+        );
+      return { pointGroup, vibSpecies: (given as string | undefined) ?? choices[0], isInversionDoubled };
+    };
     const states = stateNames.map((stateName) => {
       const sAt = `${at}.states.${stateName}`;
       const okName = nameSchema.safeParse(stateName);
@@ -226,7 +310,10 @@ export function systemFileFromJson(raw: unknown): SystemFile {
       const deg = body.degenerate ?? false;
       if (typeof deg !== 'boolean') fail(`${sAt}.degenerate`, `is ${describe(deg)}; expected true or false`);
       const isDegenerate = deg as boolean;
-      const allowed = systemAllowedParameters(shape, isDegenerate);
+      const symmetry = stateSymmetry(sAt, body, isDegenerate);
+      const allowed = symmetry
+        ? systemSymmetryAllowedParameters(shape as 'prolate' | 'oblate', isDegenerate, symmetry)
+        : systemAllowedParameters(shape, isDegenerate);
       const constants: Record<string, number> = {};
       if (!('origin' in body)) {
         if (originless)
@@ -237,9 +324,21 @@ export function systemFileFromJson(raw: unknown): SystemFile {
         originless = stateName;
       }
       for (const [name, value] of Object.entries(body)) {
-        if (name === 'degenerate') continue;
+        if (name === 'degenerate' || name === 'symmetry') continue;
         const pAt = `${sAt}.${name}`;
         if (!allowed.includes(name)) {
+          if (!symmetry && shape !== 'linear' && isHamiltonianOnlyKey(name))
+            fail(
+              pAt,
+              `is a constant of the effective Hamiltonians, which need the species' point group: add "pointGroup": "C3v" or "D3h" to ${at}`,
+            );
+          if (symmetry?.pointGroup === 'D3h' && name === 'q12')
+            fail(pAt, `is not allowed in point group D3h: ${hamiltonianTermsCheck('D3h', { q12: 1 })[0]}`);
+          if (symmetry && isInversionKey(name) && isDegenerate)
+            fail(
+              pAt,
+              `is an inversion constant, which belongs to a nondegenerate state; give each inversion component of a degenerate state as its own E' or E'' state`,
+            );
           const hint =
             (name === 'zeta' || name === 'q' || name === 'qJ') && !isDegenerate
               ? ` (${name} acts only in a degenerate state: add "degenerate": true)`
@@ -291,7 +390,7 @@ export function systemFileFromJson(raw: unknown): SystemFile {
           status: 'fixed',
         });
       }
-      return { name: stateName, isDegenerate, constants };
+      return { name: stateName, isDegenerate, constants, ...(symmetry ? { symmetry } : {}) };
     });
     const seenBands = new Set<string>();
     const bands = sp.bands.map((b, i) => {
@@ -313,6 +412,8 @@ export function systemFileFromJson(raw: unknown): SystemFile {
       ...(sp.mass !== undefined ? { massAmu: sp.mass } : {}),
       abundance: sp.abundance ?? 1,
       spinWeights: sp.spinWeights ?? [1],
+      ...(pointGroup ? { pointGroup } : {}),
+      ...(spinWeightsBySymmetry ? { spinWeightsBySymmetry } : {}),
       states,
       bands,
     });
@@ -387,4 +488,69 @@ export function systemFileFromModelFile(file: ModelFile): SystemFile {
     }
   }
   return { model, parameters, warnings: [...file.warnings], isSingleBand: true };
+}
+
+/** Top-level model-file keys that only the system engine can hold. */
+const MODEL_SYMMETRY_KEYS = ['pointGroup', 'spinWeightsBySymmetry'];
+
+/**
+ * Whether a parsed single-band model file (shape, band, lower, upper) needs the system engine: it
+ * declares a point group or spin weights by species, or a state carries a key the closed-form model
+ * cannot hold (etaJ, q22, inv…, qJ, …: anything modelAllowedParameters does not list).
+ */
+export function modelFileNeedsSystem(raw: unknown): boolean {
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw) || systemFileDetect(raw)) return false;
+  const r = raw as Record<string, unknown>;
+  if (MODEL_SYMMETRY_KEYS.some((k) => k in r)) return true;
+  const shape = r.shape;
+  if (shape !== 'prolate' && shape !== 'oblate' && shape !== 'linear') return false;
+  return (['lower', 'upper'] as const).some((side) => {
+    const st = r[side];
+    if (typeof st !== 'object' || st === null || Array.isArray(st)) return false;
+    const allowed: string[] = modelAllowedParameters(shape, side);
+    return Object.keys(st).some((k) => !allowed.includes(k) && (isHamiltonianOnlyKey(k) || k === 'qJ' || k === 'symmetry'));
+  });
+}
+
+/**
+ * A single-band model file with keys only the system engine holds, read as a one-band system:
+ * species 'molecule' (or the file's name), states `lower` (origin 0) and `upper` (degenerate for a
+ * perpendicular band), band `band` — the same keys (`upper.q22`, `lower.B`) as the model file.
+ * Messages name the model file's paths (`upper.q12`, `pointGroup`).
+ * @throws SystemFileError
+ */
+export function systemFileFromModelJson(raw: unknown): SystemFile {
+  const r = raw as Record<string, unknown>;
+  const { shape, band, lower, upper, temperature, jMax, kMax, spinWeights, mass, name, pointGroup, spinWeightsBySymmetry } = r;
+  const speciesName = typeof name === 'string' && /^[^./\s,"]{1,80}$/.test(name) ? name : 'molecule';
+  const upperState = typeof upper === 'object' && upper !== null && !Array.isArray(upper) ? upper : {};
+  const json = {
+    temperature,
+    jMax,
+    ...(kMax !== undefined ? { kMax } : {}),
+    species: [
+      {
+        name: speciesName,
+        shape,
+        ...(mass !== undefined ? { mass } : {}),
+        ...(spinWeights !== undefined ? { spinWeights } : {}),
+        ...(pointGroup !== undefined ? { pointGroup } : {}),
+        ...(spinWeightsBySymmetry !== undefined ? { spinWeightsBySymmetry } : {}),
+        states: { lower, upper: { ...upperState, ...(band === 'perpendicular' ? { degenerate: true } : {}) } },
+        bands: [{ name: 'band', upper: 'upper', lower: 'lower' }],
+      },
+    ],
+  };
+  try {
+    return { ...systemFileFromJson(json), isSingleBand: true };
+  } catch (err) {
+    if (!(err instanceof SystemFileError)) throw err;
+    throw new SystemFileError(
+      err.message
+        .replace(/^system file:/, 'model file:')
+        .replace(/species\[0\]\.states\./g, '')
+        .replace(/species\[0\]\./g, '')
+        .replace(/ to species\[0\]/g, ' to the model file'),
+    );
+  }
 }

@@ -7,11 +7,13 @@
  * - `band`: the band's name in the system file (may be left out when the species has one band);
  *   a band whose upper and lower state are the same is that state's pure rotational spectrum.
  * - `species`: the species' name (may be left out when the system has one species).
- * - `l_up`, `l_lo`: l = sign(kℓ) of the upper and lower level: +1 ('+'), −1 ('-') or 0; needed only
- *   where the quantum numbers leave a choice (a ΔK = 0 band between two degenerate states has a
- *   (+l) and a (−l) line for each K > 0).
+ * - `l_up`, `l_lo`: l = sign(kℓ) of the upper and lower level: +1 ('+'), −1 ('-') or 0 (a
+ *   nondegenerate state, and K = 0 of a degenerate one); needed only where the quantum numbers leave
+ *   a choice (a ΔK = 0 band between two degenerate states has a (+l) and a (−l) line for each K > 0).
  * - `tag_up`, `tag_lo`: level tag, e.g. e or f for a linear molecule's Π levels; needed only where
- *   the branch does not decide it (Π–Π bands).
+ *   the branch does not decide it (Π–Π bands). With a species that declares a point group: the
+ *   species of a member of an A1/A2 pair (A1, A2'', …; the two lines of an unsplit pair need it) and
+ *   s or a for an inversion component.
  * - `unit`: cm-1 (default) or MHz. In an MHz row, `wavenumber` holds the frequency in MHz and
  *   `uncertainty` its 1σ in MHz (required); both are converted with c (CODATA, exact).
  */

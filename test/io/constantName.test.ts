@@ -22,6 +22,14 @@ describe('constantNameText', () => {
     expect(constantNameText('upper.q')).toBe('q');
     expect(constantNameText('DK')).toBe('D_K');
   });
+  it('names the constants of the effective Hamiltonians with their state primes', () => {
+    // Notation: η_J, η_K, q_22, q_12 as in Papoušek and Aliev (1982) (from memory); ε for the ΔK = ±3 term.
+    expect(constantNameText('upper.etaJ')).toBe('η_J′');
+    expect(constantNameText('upper.q22')).toBe('q_22′');
+    expect(constantNameText('lower.q12')).toBe('q_12″');
+    expect(constantNameHtml('upper.eps3')).toBe('ε<sub>3</sub>′');
+  });
+
   it('leaves an unknown key as it is', () => {
     expect(constantNameText('upper.X')).toBe('upper.X');
   });

@@ -9,7 +9,7 @@ import {
 import { hamiltonianTermsCheck } from './hamiltonianTermsCheck';
 import { rotorPolynomialBasis, rotorPolynomialNames, type RotorShape } from './rotorPolynomial';
 import { rovibGroupCheck, rovibSpeciesDegenerate, rovibSpeciesNondegenerate, type RovibPointGroup } from './rovibSymmetry';
-import { tridiagonalEigenFast } from './symmetricEigen';
+import { tridiagonalEigen, tridiagonalEigenFast } from './symmetricEigen';
 
 /** Options of degenerateStateLevels. */
 export interface DegenerateStateOptions {
@@ -101,25 +101,93 @@ export function degenerateStateLevels(constants: HamiltonianConstants, J: number
 
   const levels: HamiltonianLevel[] = [];
   // E levels: class (k − ℓ) ≡ 1 (mod 3).
+  solveChain(ctx, eChainOf(J), 0, (state) => rovibSpeciesDegenerate(group, parity(state.k) * vibSigmaH), 2, '', kMax, levels);
+  // A1/A2 levels: class 0, folded by σv.
+  const aChain = aChainOf(J);
+  for (const sigma of [1, -1]) {
+    solveChain(ctx, aChain, sigma, (state) => rovibSpeciesNondegenerate(group, sigma, parity(state.k) * vibSigmaH), 1, null, kMax, levels);
+  }
+  levels.sort((a, b) => a.K - b.K || b.l - a.l || (a.tag < b.tag ? -1 : a.tag > b.tag ? 1 : 0));
+  return { parameterNames: names, levels };
+}
+
+/** Energies of every level of one J with their species, without labels (degenerateStateEnergies). */
+export interface StateEnergies {
+  /** Energies, cm⁻¹ (unsorted). */
+  energyCm1: number[];
+  /** Symmetry species of each level. */
+  species: string[];
+  /** Basis functions each level stands for (1, or 2 for an E level). */
+  degeneracy: number[];
+}
+
+/**
+ * The energies and species of every level of one J of an E state — the same multiset as
+ * degenerateStateLevels gives, without eigenvectors, labels or derivatives: each chain is split where
+ * its coupling is exactly 0 (always between the ℓ(2,2) pairs in D3h, where q12 is forbidden) and each
+ * piece solved by QL without vectors. The species is constant on a piece (C3v: E, or A1/A2 by σv on
+ * the folded A chain; D3h: a piece keeps the parity of k). Meant for sums over all levels (partition
+ * functions), where it is several times faster.
+ * Source: as degenerateStateLevels.
+ * @param constants origin, rotor polynomial and DEGENERATE_STATE_TERMS, cm⁻¹ (ζ dimensionless)
+ * @param J rotational quantum number
+ */
+export function degenerateStateEnergies(constants: HamiltonianConstants, J: number, options: DegenerateStateOptions): StateEnergies {
+  const where = 'degenerateStateEnergies';
+  const group = rovibGroupCheck(options.pointGroup, where);
+  const names = degenerateStateParameterNames(options.shape);
+  hamiltonianConstantsCheck(where, constants, names);
+  hamiltonianJCheck(where, J);
+  const refusals = hamiltonianTermsCheck(group, constants);
+  if (refusals.length > 0) throw new Error(`${where}: ${refusals.join('; ')}`);
+  const vib = options.vibSpecies ?? (group === 'C3v' ? 'E' : "E'");
+  const vibSigmaH = vib === "E''" ? -1 : 1;
+  const p = names.map((n) => constants[n] ?? 0);
+  const ctx: BlockContext = { J, x: J * (J + 1), p, withDerivatives: false, basis: new Float64Array(N_POLY) };
+  const out: StateEnergies = { energyCm1: [], species: [], degeneracy: [] };
+  const solve = (chain: ChainState[], sigma: number, speciesOf: (first: ChainState) => string, degeneracy: number) => {
+    const n = chain.length;
+    if (n === 0) return;
+    const { diag, off } = chainMatrix(ctx, chain, sigma, null, null);
+    let start = 0;
+    for (let i = 0; i < n; i++) {
+      if (i < n - 1 && off[i] !== 0) continue;
+      const values = tridiagonalEigen(diag.subarray(start, i + 1), off.subarray(start, i), false).values;
+      const species = speciesOf(chain[start]);
+      for (const v of values) {
+        out.energyCm1.push(v);
+        out.species.push(species);
+        out.degeneracy.push(degeneracy);
+      }
+      start = i + 1;
+    }
+  };
+  solve(eChainOf(J), 0, (st) => rovibSpeciesDegenerate(group, parity(st.k) * vibSigmaH), 2);
+  const aChain = aChainOf(J);
+  for (const sigma of [1, -1]) solve(aChain, sigma, (st) => rovibSpeciesNondegenerate(group, sigma, parity(st.k) * vibSigmaH), 1);
+  return out;
+}
+
+/** The E chain of J: class (k − ℓ) ≡ 1 (mod 3), ordered by m = k − ℓ descending, ℓ = +1 first. */
+function eChainOf(J: number): ChainState[] {
   const eChain: ChainState[] = [];
   for (let m = J + 1; m >= -J - 1; m--) {
     if (mod3(m) !== 1) continue;
     if (Math.abs(m + 1) <= J) eChain.push({ k: m + 1, ell: 1 });
     if (Math.abs(m - 1) <= J) eChain.push({ k: m - 1, ell: -1 });
   }
-  solveChain(ctx, eChain, 0, (state) => rovibSpeciesDegenerate(group, parity(state.k) * vibSigmaH), 2, '', kMax, levels);
-  // A1/A2 levels: class 0, folded by σv.
+  return eChain;
+}
+
+/** The A chain of J (class 0, representatives with k >= 1, folded by σv): |1,+1⟩, |2,−1⟩, |4,+1⟩, |5,−1⟩, … */
+function aChainOf(J: number): ChainState[] {
   const aChain: ChainState[] = [];
   if (J >= 1) aChain.push({ k: 1, ell: 1 });
   for (let m = 3; m - 1 <= J; m += 3) {
     aChain.push({ k: m - 1, ell: -1 });
     if (m + 1 <= J) aChain.push({ k: m + 1, ell: 1 });
   }
-  for (const sigma of [1, -1]) {
-    solveChain(ctx, aChain, sigma, (state) => rovibSpeciesNondegenerate(group, sigma, parity(state.k) * vibSigmaH), 1, null, kMax, levels);
-  }
-  levels.sort((a, b) => a.K - b.K || b.l - a.l || (a.tag < b.tag ? -1 : a.tag > b.tag ? 1 : 0));
-  return { parameterNames: names, levels };
+  return aChain;
 }
 
 interface BlockContext {
@@ -192,28 +260,10 @@ function solveChain(
 ): void {
   const n = chain.length;
   if (n === 0) return;
-  const diag = new Float64Array(n);
-  const off = new Float64Array(Math.max(0, n - 1));
   const dDiag = ctx.withDerivatives ? new Float64Array(N_PARAMS * n) : null;
   const dOff = ctx.withDerivatives ? new Float64Array(N_PARAMS * Math.max(1, n - 1)) : null;
   const nOff = Math.max(1, n - 1);
-  for (let i = 0; i < n; i++) {
-    const s = chain[i];
-    diag[i] = diagonalElement(ctx, s.k, s.ell, dDiag, n, i);
-    if (i < n - 1) {
-      const t = chain[i + 1];
-      // Chain neighbours are linked by ℓ(2,2) (Δk = 2) or ℓ(2,−1) (Δk = 1); both orders occur.
-      if (s.ell === 1 && t.ell === -1 && t.k === s.k - 2) off[i] = q22Element(ctx, s.k, dOff, nOff, i);
-      else if (s.ell === -1 && t.ell === 1 && t.k === s.k + 2) off[i] = q22Element(ctx, t.k, dOff, nOff, i);
-      else if (s.ell === -1 && t.ell === 1 && t.k === s.k - 1) off[i] = q12Element(ctx, s.k, dOff, nOff, i);
-      else if (s.ell === 1 && t.ell === -1 && t.k === s.k + 1) off[i] = q12Element(ctx, t.k, dOff, nOff, i);
-    }
-  }
-  if (sigma !== 0) {
-    // ⟨φ|H|φ⟩ of (|1,+1⟩ + σ (−1)^{J+1} |−1,−1⟩)/√2 gains σ (−1)^{J+1} times the ℓ(2,2) element of the pair.
-    const phase = sigma * (ctx.J % 2 === 0 ? -1 : 1);
-    diag[0] += q22Element(ctx, 1, dDiag, n, 0, phase);
-  }
+  const { diag, off } = chainMatrix(ctx, chain, sigma, dDiag, dOff);
   const eig = tridiagonalEigenFast(diag, off);
   const labels = eigenLabelsAssign(eig.vectors, n);
   for (let j = 0; j < n; j++) {
@@ -236,7 +286,8 @@ function solveChain(
     out.push({
       J: ctx.J,
       K,
-      l: kl > 0 ? 1 : -1,
+      // K = 0 (kℓ = 0) is l = 0, the system engine's label (levelTypes.ts).
+      l: kl > 0 ? 1 : kl < 0 ? -1 : 0,
       tag: fixedTag ?? species,
       energyCm1: eig.values[j],
       species,
@@ -245,4 +296,36 @@ function solveChain(
       derivatives,
     });
   }
+}
+
+/** The tridiagonal matrix of a chain (sigma ±1: the folded A chain), with its derivatives into dDiag/dOff when given. */
+function chainMatrix(
+  ctx: BlockContext,
+  chain: ChainState[],
+  sigma: number,
+  dDiag: Float64Array | null,
+  dOff: Float64Array | null,
+): { diag: Float64Array; off: Float64Array } {
+  const n = chain.length;
+  const nOff = Math.max(1, n - 1);
+  const diag = new Float64Array(n);
+  const off = new Float64Array(Math.max(0, n - 1));
+  for (let i = 0; i < n; i++) {
+    const s = chain[i];
+    diag[i] = diagonalElement(ctx, s.k, s.ell, dDiag, n, i);
+    if (i < n - 1) {
+      const t = chain[i + 1];
+      // Chain neighbours are linked by ℓ(2,2) (Δk = 2) or ℓ(2,−1) (Δk = 1); both orders occur.
+      if (s.ell === 1 && t.ell === -1 && t.k === s.k - 2) off[i] = q22Element(ctx, s.k, dOff, nOff, i);
+      else if (s.ell === -1 && t.ell === 1 && t.k === s.k + 2) off[i] = q22Element(ctx, t.k, dOff, nOff, i);
+      else if (s.ell === -1 && t.ell === 1 && t.k === s.k - 1) off[i] = q12Element(ctx, s.k, dOff, nOff, i);
+      else if (s.ell === 1 && t.ell === -1 && t.k === s.k + 1) off[i] = q12Element(ctx, t.k, dOff, nOff, i);
+    }
+  }
+  if (sigma !== 0) {
+    // ⟨φ|H|φ⟩ of (|1,+1⟩ + σ (−1)^{J+1} |−1,−1⟩)/√2 gains σ (−1)^{J+1} times the ℓ(2,2) element of the pair.
+    const phase = sigma * (ctx.J % 2 === 0 ? -1 : 1);
+    diag[0] += q22Element(ctx, 1, dDiag, n, 0, phase);
+  }
+  return { diag, off };
 }

@@ -9,9 +9,9 @@ export interface HamiltonianLevel {
   /** K = |k| of the dominant basis function. */
   K: number;
   /**
-   * Signed ℓ label relative to k: 0 for a nondegenerate state, +1 for a (+l) level (kℓ > 0), −1 for
-   * a (−l) level (kℓ < 0). The K = 0 level of a degenerate state (kℓ = 0) is labelled −1: it
-   * continues the (−l) stack, the levels reached with ΔK = −1.
+   * Signed ℓ label relative to k, l = sign(kℓ): 0 for a nondegenerate state, +1 for a (+l) level
+   * (kℓ > 0), −1 for a (−l) level (kℓ < 0), and 0 for the K = 0 level of a degenerate state (kℓ = 0),
+   * as the system engine's LevelLabel (physics/system/levelTypes.ts) and the line table's l_up/l_lo.
    */
   l: -1 | 0 | 1;
   /**

@@ -162,12 +162,44 @@ export function rovibRotationalSpecies(group: RovibPointGroup, J: number, K: num
  * every species in Γv ⊗ Γrot(J, K), one per level.
  * @param vibSpecies species of the vibrational (vibronic) state, one-dimensional
  */
-export function rovibLevelSpecies(group: RovibPointGroup, vibSpecies: string, J: number, K: number): string[] {
+export function rovibLevelSpecies(group: RovibPointGroup, vibSpecies: string, J: number, K: number): readonly string[] {
+  // The answer depends on J and K only through the six cases of levelSpeciesCase: read from a table.
+  const known = LEVEL_SPECIES.get(`${group}|${vibSpecies}|${levelSpeciesCase(J, K)}`);
+  if (known) return known;
   if (rovibSpeciesDimension(group, vibSpecies) !== 1) {
     throw new Error(`rovibLevelSpecies: ${vibSpecies} is degenerate; use the degenerate-state levels for it`);
   }
+  return levelSpeciesCompute(group, vibSpecies, J, K);
+}
+
+function levelSpeciesCompute(group: RovibPointGroup, vibSpecies: string, J: number, K: number): string[] {
   return rovibRotationalSpecies(group, J, K).flatMap((rot) => rovibSpeciesProduct(group, vibSpecies, rot));
 }
+
+/** 0/1: K = 0 with J even/odd; 2/3: K = 3n > 0 even/odd; 4/5: other K even/odd (all rovibRotationalSpecies uses). */
+function levelSpeciesCase(J: number, K: number): number {
+  if (K === 0) return J % 2;
+  return (K % 3 === 0 ? 2 : 4) + (K % 2);
+}
+
+/** rovibLevelSpecies for every group, one-dimensional vibrational species and case, computed once at load. */
+const LEVEL_SPECIES: ReadonlyMap<string, readonly string[]> = new Map(
+  ROVIB_POINT_GROUPS.flatMap((g) =>
+    rovibSpeciesList(g)
+      .filter((v) => rovibSpeciesDimension(g, v) === 1)
+      .flatMap((v) =>
+        // Representative (J, K) of each case, in case order.
+        [
+          [0, 0],
+          [1, 0],
+          [6, 6],
+          [3, 3],
+          [2, 2],
+          [1, 1],
+        ].map(([J, K], c) => [`${g}|${v}|${c}`, levelSpeciesCompute(g, v, J, K)] as const),
+      ),
+  ),
+);
 
 /**
  * The D3h(M) species of the inversion components of a pyramidal XY3 vibrational state whose

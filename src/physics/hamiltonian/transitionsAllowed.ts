@@ -30,7 +30,8 @@ export interface AllowedTransition {
  *     from K = 0 of a parallel band;
  *   - band type: parallel ΔK = 0 with equal ℓ labels; perpendicular ΔK = ±1 where, between a
  *     nondegenerate and a degenerate state, the degenerate level must be the (+l) one when its K is
- *     the larger and the (−l) one when it is the smaller (Δk = Δℓ), K = 0 of a degenerate state counting as (−l).
+ *     the larger and the (−l) one when it is the smaller (Δk = Δℓ); K = 0 of a degenerate state (l = 0) is
+ *     reached only from K = 1 (ΔK = −1), which needs no l rule.
  * Source: Herzberg II (1945) ch. IV (ΔJ, ΔK, Δk = Δℓ rules); Bunker and Jensen (1998) ch. 14 (symmetry rule); from memory.
  * @returns the allowed pairs, ordered by upper then lower index
  */

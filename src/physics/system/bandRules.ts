@@ -1,3 +1,4 @@
+import { ROVIB_POINT_GROUPS, rovibDipoleAllowed, rovibSpeciesList, type RovibPointGroup } from '../hamiltonian/rovibSymmetry';
 import { honlLondonFactor } from '../honlLondon';
 import type { LevelSet } from './levelTypes';
 
@@ -71,8 +72,19 @@ export function levelTagsAllowed(tagLower: string, tagUpper: string, deltaJ: num
  * @param isLowerDegenerate lower state degenerate
  * @param upper levels of the upper state at J' (|J' − J''| <= 1)
  * @param isUpperDegenerate upper state degenerate
+ *
+ * With a point group, when both sets carry symmetry species (Hamiltonian providers), the tag rule
+ * gives way to the symmetry rule Γ' ⊗ Γ'' ⊇ Γ* (rovibDipoleAllowed: A2 in C3v(M), A1'' in D3h(M);
+ * it gives s ↔ a in a parallel band of an inverting XY3, A1 ↔ A2 between K = 3n pairs), and the
+ * summed factor of a (K, l) group is shared by function: per component function it is
+ * S/n (n = the group's signed components, levelComponents), a level of d functions (its
+ * componentCount) carries d·S/n, divided among its allowed partners in proportion to theirs.
+ * (A split pair reached from one level gets the whole d·S/n on the one member symmetry allows; an
+ * unsplit A1/A2 pair gives each member half of S, as the closed-form level did in one.)
+ * Source (symmetry rule): Bunker and Jensen (1998) ch. 14, from memory.
  * @param kMaxLower lower levels with K > kMaxLower give no lines
  * @param emit called once per allowed pair (indices into the sets, strength > 0)
+ * @param pointGroup the species' point group, when declared (see above)
  */
 export function bandTransitions(
   lower: LevelSet,
@@ -81,7 +93,9 @@ export function bandTransitions(
   isUpperDegenerate: boolean,
   kMaxLower: number,
   emit: (lowerIndex: number, upperIndex: number, strength: number) => void,
+  pointGroup?: RovibPointGroup,
 ): void {
+  const bySymmetry = pointGroup !== undefined && lower.species !== undefined && upper.species !== undefined;
   const deltaJ = upper.J - lower.J;
   if (deltaJ < -1 || deltaJ > 1) return;
   const upperL = isUpperDegenerate ? [1, -1] : [0];
@@ -128,6 +142,20 @@ export function bandTransitions(
     for (let t = 0; t < targetK.length; t++) {
       groupUpper.length = 0;
       for (let q = 0; q < upper.count; q++) if (upper.K[q] === targetK[t] && upper.l[q] === targetL[t]) groupUpper.push(q);
+      if (bySymmetry) {
+        const perFunction = targetS[t] / (comps.length / 2);
+        for (const a of groupLower) {
+          let partners = 0;
+          for (const b of groupUpper)
+            if (symmetryAllowed(pointGroup, upper.species![b], lower.species![a])) partners += upper.componentCount[b];
+          if (partners === 0) continue;
+          const levelTotal = perFunction * lower.componentCount[a];
+          for (const b of groupUpper)
+            if (symmetryAllowed(pointGroup, upper.species![b], lower.species![a]))
+              emit(a, b, (levelTotal * upper.componentCount[b]) / partners);
+        }
+        continue;
+      }
       let nPairs = 0;
       for (const a of groupLower) for (const b of groupUpper) if (levelTagsAllowed(lower.tag[a], upper.tag[b], deltaJ)) nPairs++;
       if (nPairs === 0) continue;
@@ -135,4 +163,16 @@ export function bandTransitions(
       for (const a of groupLower) for (const b of groupUpper) if (levelTagsAllowed(lower.tag[a], upper.tag[b], deltaJ)) emit(a, b, share);
     }
   }
+}
+
+/** Every allowed (group, Γ', Γ'') of rovibDipoleAllowed, computed once at load (a fixed table). */
+const DIPOLE_ALLOWED: ReadonlySet<string> = new Set(
+  ROVIB_POINT_GROUPS.flatMap((g) =>
+    rovibSpeciesList(g).flatMap((up) => rovibSpeciesList(g).flatMap((lo) => (rovibDipoleAllowed(g, up, lo) ? [`${g}|${up}|${lo}`] : []))),
+  ),
+);
+
+/** rovibDipoleAllowed by table lookup. */
+function symmetryAllowed(group: RovibPointGroup, speciesUpper: string, speciesLower: string): boolean {
+  return DIPOLE_ALLOWED.has(`${group}|${speciesUpper}|${speciesLower}`);
 }

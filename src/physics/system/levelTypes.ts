@@ -11,7 +11,12 @@
  *   state, and 0 for its K = 0 levels (kℓ = 0; the pair (k, ℓ) = (0, +1), (0, −1));
  * - tag, a short string that tells apart levels still equal in (J, K, l): 'e'/'f' parity of a
  *   linear molecule ('e' for every level of a Σ+ state), '' when nothing is left to tell apart.
- *   Later providers may use other tags (A1/A2 components, s/a inversion components).
+ *   The Hamiltonian providers (states of a species with a point group) use the species of the
+ *   member of an A1/A2 pair ('A1', "A2''") and 's' / 'a' for inversion components, with ':' and
+ *   the species appended for a member of a pair ("a:A2''").
+ *
+ * Convention for l: K = 0 of a degenerate state is l = 0 (kℓ = 0) everywhere — in these labels,
+ * in physics/hamiltonian and in the line table's l_up/l_lo columns.
  *
  * A LevelProvider gives, for one state and one J, every level with its energy and its
  * derivative with respect to each constant of that state. A closed-form provider differentiates
@@ -56,6 +61,11 @@ export interface LevelSet {
    * 2 for every (K, l) of a degenerate state; 1 for each e or f level of a linear molecule).
    */
   componentCount: Uint8Array;
+  /**
+   * Symmetry species of each level in the species' point group ('A1', "E''", …), when the state's
+   * levels come from a Hamiltonian provider; absent for closed-form levels.
+   */
+  species?: string[];
 }
 
 /** Computes the levels of one vibrational state. Plain functions, no hidden state between calls. */
@@ -70,8 +80,24 @@ export interface LevelProvider {
    * @param J total angular momentum >= 0
    * @param values the constants in parameterNames order (cm^-1; ζ dimensionless)
    * @param kTop largest K wanted
+   * @param withGradient fill `gradient` (a diagonalising provider may skip that work) @default true
    */
-  levels(J: number, values: Float64Array, kTop: number): LevelSet;
+  levels(J: number, values: Float64Array, kTop: number, withGradient?: boolean): LevelSet;
+  /**
+   * Optional, for sums over every level of J (the partition function): energies (cm^-1), component
+   * counts and symmetry species of all levels, unlabelled and in no particular order. A provider
+   * that can skip eigenvectors and labels for this offers it; others are summed through levels().
+   */
+  levelEnergies?(J: number, values: Float64Array): LevelEnergies;
+}
+
+/** Unlabelled levels of one J (LevelProvider.levelEnergies). */
+export interface LevelEnergies {
+  count: number;
+  /** cm^-1, including the state's vibrational term value. */
+  energyCm1: ArrayLike<number>;
+  componentCount: ArrayLike<number>;
+  species: readonly string[];
 }
 
 /** Text form of a label, e.g. "J=3 K=2 l=+1 f" (for messages). */

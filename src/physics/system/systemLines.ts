@@ -1,10 +1,10 @@
 import { SECOND_RADIATION_CM_K } from '../constants';
 import type { LineList } from '../model';
 import { bandTransitions, systemBandType } from './bandRules';
-import { levelSpinIndex, type LevelSet } from './levelTypes';
+import type { LevelSet } from './levelTypes';
 import type { SystemModel, SystemSpecies } from './systemModel';
 import { systemStateFind } from './systemModel';
-import { systemStateProvider, systemStateValues } from './systemStateLevels';
+import { systemLevelSpinWeight, systemStateProvider, systemStateValues } from './systemStateLevels';
 import { speciesPartitionFunction } from './vibrationalPartition';
 
 /** Columnar lines of every band of a system (a LineList plus band, species and level labels). */
@@ -17,6 +17,9 @@ export interface SystemLineList extends LineList {
   /** Tags of the upper and lower level ('' or 'e'/'f'). */
   tagUpper: string[];
   tagLower: string[];
+  /** Symmetry species of the upper and lower level ('' where the species declares no point group). */
+  symUpper: string[];
+  symLower: string[];
   /** Upper-level energy above the species' lowest level, cm^-1. */
   eUpperCm1: Float64Array;
   /**
@@ -47,6 +50,8 @@ interface Pending {
   kLower: number;
   lLower: number;
   tagLower: string;
+  symUpper: string;
+  symLower: string;
   nu: number;
   eLower: number;
   eUpper: number;
@@ -64,6 +69,7 @@ function copySet(s: LevelSet): LevelSet {
     energyCm1: s.energyCm1.slice(0, s.count),
     gradient: new Float64Array(0),
     componentCount: s.componentCount.slice(0, s.count),
+    ...(s.species ? { species: s.species.slice(0, s.count) } : {}),
   };
 }
 
@@ -111,7 +117,7 @@ export function systemLines(model: SystemModel, options: SystemLinesOptions = {}
         const eUpper = up.energyCm1[j];
         const nu = eUpper - eLower;
         if (!(nu > 0)) return;
-        const g = species.spinWeights[levelSpinIndex(lo.K[i], lo.l[i], lowerState.isDegenerate) % species.spinWeights.length];
+        const g = systemLevelSpinWeight(species, lo, i, lowerState.isDegenerate);
         if (g === 0) return;
         const x = c2OverT * nu;
         const popLower = Math.exp(-c2OverT * eLower);
@@ -127,6 +133,8 @@ export function systemLines(model: SystemModel, options: SystemLinesOptions = {}
           kLower: lo.K[i],
           lLower: lo.l[i],
           tagLower: lo.tag[i],
+          symUpper: up.species ? up.species[j] : '',
+          symLower: lo.species ? lo.species[i] : '',
           nu,
           eLower,
           eUpper,
@@ -162,6 +170,8 @@ export function systemLines(model: SystemModel, options: SystemLinesOptions = {}
     lLower: new Int8Array(n),
     tagUpper: new Array<string>(n),
     tagLower: new Array<string>(n),
+    symUpper: new Array<string>(n),
+    symLower: new Array<string>(n),
     eUpperCm1: new Float64Array(n),
     strength: new Float64Array(n),
     bandRefs,
@@ -183,6 +193,8 @@ export function systemLines(model: SystemModel, options: SystemLinesOptions = {}
     out.lLower[i] = p.lLower;
     out.tagUpper[i] = p.tagUpper;
     out.tagLower[i] = p.tagLower;
+    out.symUpper[i] = p.symUpper;
+    out.symLower[i] = p.symLower;
     out.eUpperCm1[i] = p.eUpper;
     out.strength[i] = p.strength;
   });
@@ -214,14 +226,22 @@ export function bandEnumerate(
   const isLinear = species.shape === 'linear';
   const kLower = isLinear ? 1 : kMax;
   const upperSets: LevelSet[] = [];
-  for (let J = 0; J <= jMax + 1; J++) upperSets.push(copySet(upperProvider.levels(J, upperValues, kLower + 1)));
+  for (let J = 0; J <= jMax + 1; J++) upperSets.push(copySet(upperProvider.levels(J, upperValues, kLower + 1, false)));
   for (let J = 0; J <= jMax; J++) {
-    const lower = copySet(lowerProvider.levels(J, lowerValues, kLower));
+    const lower = copySet(lowerProvider.levels(J, lowerValues, kLower, false));
     for (let deltaJ = -1; deltaJ <= 1; deltaJ++) {
       const jUp = J + deltaJ;
       if (jUp < 0) continue;
       const upper = upperSets[jUp];
-      bandTransitions(lower, lowerState.isDegenerate, upper, upperState.isDegenerate, kLower, (i, j, s) => visit(lower, i, upper, j, s));
+      bandTransitions(
+        lower,
+        lowerState.isDegenerate,
+        upper,
+        upperState.isDegenerate,
+        kLower,
+        (i, j, s) => visit(lower, i, upper, j, s),
+        species.pointGroup,
+      );
     }
   }
 }

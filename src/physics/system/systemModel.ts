@@ -8,6 +8,23 @@
  * follows from the states' degeneracy (bandRules.systemBandType).
  */
 import type { TopShape } from '../model';
+import type { RovibPointGroup } from '../hamiltonian/rovibSymmetry';
+
+/**
+ * How the levels of a state of a species with a declared point group are computed: by the
+ * effective Hamiltonians of physics/hamiltonian (each level then carries its symmetry species).
+ */
+export interface SystemStateSymmetry {
+  /** The species' molecular symmetry group (C3v(M) or D3h(M)). */
+  pointGroup: RovibPointGroup;
+  /**
+   * Species of the vibrational state: A1, A2 or E in C3v; A1', A2', A1'', A2'', E' or E'' in D3h;
+   * for an inversion-doubled state the C3v species of the s/a pair (A1 or A2).
+   */
+  vibSpecies: string;
+  /** Inversion-doubled state of a pyramidal XY3 top (s and a components; pointGroup D3h). */
+  isInversionDoubled: boolean;
+}
 
 /** One vibrational state of a species. */
 export interface SystemState {
@@ -16,6 +33,11 @@ export interface SystemState {
   isDegenerate: boolean;
   /** Constants by name (cm^-1; ζ dimensionless); an absent constant is 0. */
   constants: Record<string, number>;
+  /**
+   * Present when the species declares a point group: the levels then come from a diagonalised
+   * effective Hamiltonian with symmetry species (systemStateLevels.ts); absent: closed-form term values.
+   */
+  symmetry?: SystemStateSymmetry;
 }
 
 /** One band: a transition between two states of a species. */
@@ -39,6 +61,14 @@ export interface SystemSpecies {
   abundance: number;
   /** Nuclear-spin weights, g = spinWeights[|k − ℓ| mod n] (levelTypes.levelSpinIndex). */
   spinWeights: number[];
+  /** The molecular symmetry group, when declared (its states then carry `symmetry`). */
+  pointGroup?: RovibPointGroup;
+  /**
+   * Nuclear-spin weights per rovibrational species, per component function (an E level counts
+   * twice; hamiltonian/spinStatistics.ts), complete over the group's species. When present it
+   * replaces spinWeights; needs pointGroup.
+   */
+  spinWeightsBySymmetry?: Record<string, number>;
   states: SystemState[];
   bands: SystemBand[];
 }

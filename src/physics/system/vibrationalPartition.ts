@@ -1,7 +1,7 @@
 import { SECOND_RADIATION_CM_K } from '../constants';
-import { levelSpinIndex, type LevelProvider } from './levelTypes';
+import type { LevelProvider } from './levelTypes';
 import type { SystemSpecies, SystemState } from './systemModel';
-import { systemStateProvider, systemStateValues } from './systemStateLevels';
+import { systemLevelSpinWeight, systemStateProvider, systemStateValues } from './systemStateLevels';
 
 /**
  * Vibrational degeneracy of a state: 2 for a degenerate (ℓ = ±1) state, 1 otherwise.
@@ -63,19 +63,36 @@ export function speciesPartitionFunction(species: SystemSpecies, temperatureK: n
   const tol = options.tolerance ?? 1e-12;
   const jLimit = options.jLimit ?? 2000;
   const c2OverT = SECOND_RADIATION_CM_K / temperatureK;
-  const weights = species.spinWeights;
   let q = 0;
   for (const state of species.states) {
     const provider: LevelProvider = systemStateProvider(species.shape, state);
     const values = systemStateValues(provider, state);
     let qState = 0;
     let previousShellEnergy = -Infinity;
+    // Weights by species need no labels: the provider's unlabelled energies are enough (and faster).
+    const unlabelled = species.spinWeightsBySymmetry !== undefined && provider.levelEnergies !== undefined;
     for (let J = 0; J <= jLimit; J++) {
-      const set = provider.levels(J, values, J);
+      if (unlabelled) {
+        const e = provider.levelEnergies!(J, values);
+        const table = species.spinWeightsBySymmetry!;
+        let shell = 0;
+        let eMin = Infinity;
+        for (let i = 0; i < e.count; i++) {
+          shell += (table[e.species[i]] ?? 0) * e.componentCount[i] * Math.exp(-c2OverT * e.energyCm1[i]);
+          eMin = Math.min(eMin, e.energyCm1[i]);
+        }
+        shell *= 2 * J + 1;
+        if (e.count > 0 && eMin < previousShellEnergy) break;
+        if (e.count > 0) previousShellEnergy = eMin;
+        qState += shell;
+        if (J > 10 && shell < tol * qState) break;
+        continue;
+      }
+      const set = provider.levels(J, values, J, false);
       let shell = 0;
       let eMin = Infinity;
       for (let i = 0; i < set.count; i++) {
-        const g = weights[levelSpinIndex(set.K[i], set.l[i], provider.isDegenerate) % weights.length];
+        const g = systemLevelSpinWeight(species, set, i, provider.isDegenerate);
         shell += g * set.componentCount[i] * Math.exp(-c2OverT * set.energyCm1[i]);
         eMin = Math.min(eMin, set.energyCm1[i]);
       }

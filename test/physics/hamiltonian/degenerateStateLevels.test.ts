@@ -1,6 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
-import { degenerateStateLevels, degenerateStateParameterNames } from '../../../src/physics/hamiltonian/degenerateStateLevels';
+import {
+  degenerateStateEnergies,
+  degenerateStateLevels,
+  degenerateStateParameterNames,
+} from '../../../src/physics/hamiltonian/degenerateStateLevels';
 import type { HamiltonianConstants } from '../../../src/physics/hamiltonian/hamiltonianLevel';
 import { stateConstantsFrom } from '../../../src/physics/model';
 import { levelEnergy } from '../../../src/physics/termValues';
@@ -86,7 +90,7 @@ describe('degenerateStateLevels', () => {
   it('gives one E level at J = 0 and 2(2J+1) functions for every J', () => {
     const r = degenerateStateLevels(INVENTED_E, 0, { shape: 'prolate', pointGroup: 'C3v' });
     expect(r.levels).toHaveLength(1);
-    expect(r.levels[0]).toMatchObject({ J: 0, K: 0, l: -1, species: 'E', degeneracy: 2 });
+    expect(r.levels[0]).toMatchObject({ J: 0, K: 0, l: 0, species: 'E', degeneracy: 2 });
     for (const J of [1, 2, 3, 7, 20]) {
       const n = degenerateStateLevels(INVENTED_E, J, { shape: 'prolate', pointGroup: 'C3v' }).levels.reduce((s, l) => s + l.degeneracy, 0);
       expect(n).toBe(2 * (2 * J + 1));
@@ -236,6 +240,35 @@ describe('degenerateStateLevels', () => {
         // A species exactly when k − ℓ ≡ 0 (mod 3): (+l) K ≡ 1, (−l) K ≡ 2.
         const isA = lev.l === 1 ? lev.K % 3 === 1 : lev.K % 3 === 2;
         expect(lev.species.startsWith('A')).toBe(isA);
+      }
+    }
+  });
+});
+
+describe('degenerateStateEnergies', () => {
+  it('gives the same energies and species as degenerateStateLevels, without labels (C3v with q12, D3h without)', () => {
+    // Reference: degenerateStateLevels (eigenvectors, labels) on the same constants; the multiset of
+    // (energy, species, degeneracy) must agree to round-off (1e-9 cm⁻¹ on energies ~1e3 cm⁻¹).
+    const d3h = { ...INVENTED_E, q12: 0 };
+    for (const [group, c] of [
+      ['C3v', INVENTED_E],
+      ['D3h', d3h],
+    ] as const) {
+      for (const J of [0, 1, 2, 5, 17, 40]) {
+        const opts = { shape: 'prolate' as const, pointGroup: group };
+        const ref = degenerateStateLevels(c, J, opts)
+          .levels.map((l) => ({ e: l.energyCm1, s: l.species, d: l.degeneracy }))
+          .sort((a, b) => a.e - b.e);
+        const e = degenerateStateEnergies(c, J, opts);
+        const got = e.energyCm1.map((v, i) => ({ e: v, s: e.species[i], d: e.degeneracy[i] })).sort((a, b) => a.e - b.e);
+        expect(got.length).toBe(ref.length);
+        got.forEach((g, i) => {
+          expect(Math.abs(g.e - ref[i].e)).toBeLessThan(1e-9);
+          // Members of a near-degenerate A1/A2 pair may sort either way: compare species within 1e-9 cm⁻¹ only.
+          const same = ref.filter((r) => Math.abs(r.e - g.e) < 1e-9).map((r) => r.s);
+          expect(same).toContain(g.s);
+          expect(g.d).toBe(ref[i].d);
+        });
       }
     }
   });

@@ -49,7 +49,8 @@ describe('transitionsAllowed', () => {
           for (const dJ of [-1, 0, 1]) {
             const jUp = jLo + dJ;
             if (jUp < kUp || jUp < 0 || (jUp === 0 && jLo === 0)) continue;
-            want.add(`${jUp},${kUp},${dK},${jLo},${kLo}`);
+            // l = sign(kℓ): +1 for ΔK = +1, −1 for ΔK = −1, and 0 at K' = 0 (kℓ = 0).
+            want.add(`${jUp},${kUp},${kUp === 0 ? 0 : dK},${jLo},${kLo}`);
           }
         }
       }
