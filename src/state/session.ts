@@ -54,7 +54,7 @@ export function sessionOf(s: BenchState): ProjectSession {
   };
 }
 
-const TABS: BenchTab[] = ['assignments', 'solve', 'combination', 'loomis', 'levels', 'export', 'import', 'calibration'];
+const TABS: BenchTab[] = ['assignments', 'solve', 'combination', 'loomis', 'levels', 'export', 'import', 'calibration', 'contour'];
 
 /**
  * Store fields for a (possibly partial) session; absent fields take their initial values.

@@ -6,6 +6,7 @@
 import { create } from 'zustand';
 import { createAnalysisSlice, type AnalysisSlice } from './analysisSlice';
 import { createAssignmentsSlice, type AssignmentsSlice } from './assignmentsSlice';
+import { createContourSlice, type ContourSlice } from './contourSlice';
 import { createFitSlice, type FitSlice } from './fitSlice';
 import { createHistorySlice, type HistorySlice } from './history';
 import { createModelSlice, type ModelSlice } from './modelSlice';
@@ -13,7 +14,7 @@ import { createSpectrumSlice, type SpectrumSlice } from './spectrumSlice';
 import { createViewSlice, type ViewSlice } from './viewSlice';
 
 /** The whole workbench state. */
-export type BenchState = SpectrumSlice & ModelSlice & AssignmentsSlice & FitSlice & ViewSlice & HistorySlice & AnalysisSlice;
+export type BenchState = SpectrumSlice & ModelSlice & AssignmentsSlice & FitSlice & ViewSlice & HistorySlice & AnalysisSlice & ContourSlice;
 
 /** The store hook (`useBench(s => s.x)`) with getState/setState/subscribe/getInitialState. */
 export const useBench = create<BenchState>()((...a) => ({
@@ -24,6 +25,7 @@ export const useBench = create<BenchState>()((...a) => ({
   ...createViewSlice(...a),
   ...createHistorySlice(...a),
   ...createAnalysisSlice(...a),
+  ...createContourSlice(...a),
 }));
 
 /** The same store, for non-React callers. */

@@ -10,6 +10,7 @@ import { AssignmentsTable } from './AssignmentsTable';
 import { CalibrationPanel } from './CalibrationPanel';
 import { CombinationPanel } from './CombinationPanel';
 import { ConfirmPrompt } from './ConfirmPrompt';
+import { ContourPanel } from './ContourPanel';
 import { ExportPanel } from './ExportPanel';
 import { HelpOverlay } from './HelpOverlay';
 import { ImportPanel } from './ImportPanel';
@@ -29,6 +30,7 @@ const TABS: { id: BenchTab; label: string }[] = [
   { id: 'levels', label: 'Levels' },
   { id: 'import', label: 'Trace file' },
   { id: 'calibration', label: 'Calibration' },
+  { id: 'contour', label: 'Unresolved band' },
   { id: 'export', label: 'Export' },
 ];
 
@@ -135,6 +137,7 @@ function LowerPanel() {
         {tab === 'import' && <ImportPanel />}
         {tab === 'calibration' && <CalibrationPanel />}
         {tab === 'export' && <ExportPanel />}
+        {tab === 'contour' && <ContourPanel />}
       </div>
     </section>
   );
