@@ -49,11 +49,14 @@ function speed(): void {
       };
       for (let i = 0; i < 3; i++) instrumentSpectrum(lines, x, opts);
       const t: number[] = [];
+      const cpu: number[] = [];
       let fine = 0;
       for (let i = 0; i < 7; i++) {
+        const c0 = process.cpuUsage();
         const t0 = performance.now();
         fine = instrumentSpectrum(lines, x, opts).finePoints;
         t.push(performance.now() - t0);
+        cpu.push(process.cpuUsage(c0).user / 1000);
       }
       console.log(
         JSON.stringify({
@@ -64,6 +67,8 @@ function speed(): void {
           opdCm,
           finePoints: fine,
           median_ms: Number(median(t).toFixed(1)),
+          // CPU time of this thread: what the wall time would be on an otherwise idle core.
+          median_cpu_ms: Number(median(cpu).toFixed(1)),
         }),
       );
     }
@@ -88,6 +93,7 @@ function speed(): void {
     const start = structuredClone(model);
     start.upper.origin += 0.05;
     start.upper.zeta += 0.002;
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     const r = contourFit({
       model: start,
@@ -108,6 +114,7 @@ function speed(): void {
         floated: 6,
         baseline: 2,
         ms: Math.round(performance.now() - t0),
+        cpu_ms: Math.round(process.cpuUsage(c0).user / 1000),
         status: r.status,
         iterations: r.iterations,
         route: r.route,
