@@ -134,7 +134,7 @@ export async function contourFitStart(): Promise<void> {
       (stage, iteration, rms) => setFit({ stage, iteration, rms }),
     );
     if (fitAbort === ctrl) fitAbort = null;
-    setFit({ status: 'done', result, error: null });
+    setFit({ status: 'done', result, error: null, trace: s.trace });
   } catch (err) {
     if (fitAbort === ctrl) fitAbort = null;
     if ((err as Error).name === 'AbortError') setFit({ status: 'cancelled', error: null });

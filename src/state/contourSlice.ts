@@ -2,6 +2,7 @@ import type { StateCreator } from 'zustand';
 import type { BandShapeClassification } from '../analysis/bandShapeClassify';
 import type { ContourFitResult } from '../fit/contourFit';
 import type { QBranchFitResult } from '../fit/qBranchFit';
+import type { Trace } from '../io/trace';
 import type { ApodizationName } from '../physics/instrumentLineShape';
 import type { BenchState } from './store';
 
@@ -25,6 +26,8 @@ export interface ContourFitState {
   rms: number;
   result: ContourFitResult | null;
   error: string | null;
+  /** The trace the result was fitted to (the result is drawn only while it is the current trace). */
+  trace: Trace | null;
 }
 
 /** The unresolved-band tab: region, instrument, diagnosis, contour fit and Q-branch analysis. */
@@ -51,7 +54,7 @@ export function contourSliceInitial(): ContourSlice {
     contourApodization: 'boxcar',
     contourDiagnosis: null,
     contourDiagnosisError: null,
-    contourFit: { status: 'idle', stage: 0, iteration: 0, rms: NaN, result: null, error: null },
+    contourFit: { status: 'idle', stage: 0, iteration: 0, rms: NaN, result: null, error: null, trace: null },
     contourQMaxima: [],
     contourQFit: null,
     contourQFitError: null,

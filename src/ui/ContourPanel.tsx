@@ -29,7 +29,7 @@ import {
   contourSetRegion,
 } from '../state/actionsContour';
 import { useBench } from '../state/store';
-import { contourFigure } from './plot/contourFigure';
+import { contourFigure, contourRelayoutRegion } from './plot/contourFigure';
 import { PlotlyChart } from './PlotlyChart';
 
 const fmt = (v: number, s: number) => formatValueUncertainty(v, s > 0 ? s : null);
@@ -92,6 +92,7 @@ function RegionRow() {
           ))}
         </select>
       </label>
+      <span className="muted small">or zoom the plot below onto the band</span>
       <button type="button" onClick={() => void contourDemoLoad()} data-testid="contour-demo">
         Load the low-resolution demo
       </button>
@@ -136,6 +137,7 @@ function DiagnosisBox() {
 
 function FitBox() {
   const fit = useBench((s) => s.contourFit);
+  const trace = useBench((s) => s.trace);
   const model = useBench((s) => s.model);
   const r = fit.result;
   return (
@@ -163,13 +165,14 @@ function FitBox() {
         )}
         {fit.status === 'cancelled' && <span className="muted">Cancelled; nothing changed.</span>}
         {fit.status === 'error' && <span className="inline-error">{fit.error}</span>}
-        {r && fit.status !== 'running' && (
+        {r && fit.trace !== trace && <span className="muted">The last fit was made on another trace; fit again.</span>}
+        {r && fit.status !== 'running' && fit.trace === trace && (
           <button type="button" onClick={contourFitAccept} data-testid="contour-fit-accept">
             Put the fitted constants into the model
           </button>
         )}
       </div>
-      {r && (
+      {r && fit.trace === trace && (
         <>
           <p className="muted small">
             {r.nPoints} points, rms {r.rms.toExponential(3)} (absorbance),{' '}
@@ -399,7 +402,7 @@ function ActivityBox() {
 export function ContourPanel() {
   const trace = useBench((s) => s.trace);
   const regionSet = useBench((s) => s.contourRegion);
-  const fit = useBench((s) => s.contourFit.result);
+  const fit = useBench((s) => (s.contourFit.trace === s.trace ? s.contourFit.result : null));
   const qRows = useBench((s) => s.contourQMaxima);
   const isDark = useBench((s) => s.theme === 'dark');
   const region = useMemo<[number, number] | null>(() => {
@@ -420,7 +423,11 @@ export function ContourPanel() {
         <PlotlyChart
           data={figure.data}
           layout={figure.layout}
-          label="The region with the fitted contour and the residual"
+          label="The region with the fitted contour and the residual; zoom to select a region, double-click for the whole trace"
+          onRelayout={(e) => {
+            const r = contourRelayoutRegion(e);
+            if (r !== undefined) contourSetRegion(r);
+          }}
           testId="contour-plot"
           className="contour-plot"
         />

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { contourFigure } from '../../src/ui/plot/contourFigure';
+import { contourFigure, contourRelayoutRegion } from '../../src/ui/plot/contourFigure';
 
 const x = Float64Array.from({ length: 200 }, (_, i) => 1000 + i * 0.5);
 const y = x.map((v) => Math.exp(-(((v - 1050) / 5) ** 2)));
@@ -28,5 +28,15 @@ describe('contourFigure', () => {
     expect(after.data.map((d) => d.name)).toEqual(['trace', 'fitted contour', 'obs − fit', 'Q maxima']);
     expect((after.data[2] as { yaxis?: string }).yaxis).toBe('y2');
     expect(after.layout.xaxis?.range).toEqual([1010, 1090]);
+  });
+});
+
+describe('contourRelayoutRegion', () => {
+  it('reads a zoom as the region, a reset as the whole trace, and ignores y-only changes', () => {
+    expect(contourRelayoutRegion({ 'xaxis.range[0]': 1100, 'xaxis.range[1]': 1120 })).toEqual([1100, 1120]);
+    expect(contourRelayoutRegion({ 'xaxis.range': [1120, 1100] })).toEqual([1100, 1120]);
+    expect(contourRelayoutRegion({ 'xaxis.autorange': true })).toBeNull();
+    expect(contourRelayoutRegion({ 'yaxis.range[0]': 0, 'yaxis.range[1]': 1 })).toBeUndefined();
+    expect(contourRelayoutRegion({ 'xaxis.range[0]': 5, 'xaxis.range[1]': 5 })).toBeUndefined();
   });
 });

@@ -81,3 +81,20 @@ export function contourFigure(input: ContourFigureInput): { data: Data[]; layout
   if (hasResidual) layout.yaxis2 = { ...axisCommon, domain: [0, 0.25], title: { text: 'obs − fit' } };
   return { data, layout };
 }
+
+/**
+ * The region a zoom or pan of the figure selects: its new x range (ascending, cm^-1), null when it
+ * was reset to the whole trace (double click), undefined when the event does not touch the x axis.
+ */
+export function contourRelayoutRegion(event: object): [number, number] | null | undefined {
+  const r = event as Record<string, unknown>;
+  if (r['xaxis.autorange']) return null;
+  const pair =
+    r['xaxis.range[0]'] !== undefined && r['xaxis.range[1]'] !== undefined
+      ? [Number(r['xaxis.range[0]']), Number(r['xaxis.range[1]'])]
+      : Array.isArray(r['xaxis.range'])
+        ? [Number(r['xaxis.range'][0]), Number(r['xaxis.range'][1])]
+        : null;
+  if (!pair || !pair.every(Number.isFinite) || pair[0] === pair[1]) return undefined;
+  return [Math.min(pair[0], pair[1]), Math.max(pair[0], pair[1])];
+}
