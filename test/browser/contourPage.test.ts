@@ -73,6 +73,19 @@ describe('unresolved-band tab', () => {
     await page.locator('[data-testid=contour-q-fit]').click();
     const q = (await page.locator('[data-testid=contour-q-result]').textContent()) ?? '';
     expect(q).toMatch(/A′\(1 − ζ\) − B′ = 2\.1/);
+
+    // A starting model from the diagnosis replaces the model only after the in-page question, as
+    // one undo step.
+    await page.locator('[data-testid=contour-start-model]').click();
+    await page.locator('[data-testid=confirm-cancel]').click();
+    expect(await page.locator('[data-testid=undo]').getAttribute('title')).not.toMatch(/starting model/);
+    await page.locator('[data-testid=contour-start-model]').click();
+    await page.locator('[data-testid=confirm-replace]').click();
+    await expect
+      .poll(() => page.locator('[data-testid=undo]').getAttribute('title'), { timeout: 20_000 })
+      .toMatch(/starting model from the band shape/);
+    await page.locator('[data-testid=undo]').click();
+    await expect.poll(() => page.locator('[data-testid=undo]').getAttribute('title'), { timeout: 20_000 }).not.toMatch(/starting model/);
     expect(log.pageErrors).toEqual([]);
     await context.close();
   });
