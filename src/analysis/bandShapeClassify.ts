@@ -259,6 +259,28 @@ export function bandShapeClassify(
     }
   }
   const width = Math.max(w90 - w10, 10 * step);
+  let combFromPeriod = false;
+  if (!comb) {
+    // No comb among the picked peaks: look for one in the periodicity of the high-pass residual
+    // (trace minus its envelope) over the band's central 90 %, then pick the maxima of a trace
+    // smoothed to a sixth of that period, where Q branches too close for the peak test may show.
+    const env = smooth(y, Math.max(2, width / 12 / step));
+    const iLo = Math.max(0, Math.round((w10 - x[0]) / step));
+    const iHi = Math.min(n - 1, Math.round((w90 - x[0]) / step));
+    const hp = new Float64Array(iHi - iLo + 1);
+    for (let i = iLo; i <= iHi; i++) hp[i - iLo] = light[i] - env[i];
+    const period = residualPeriod(hp, 3, Math.floor(hp.length / 6));
+    if (period && period.strength >= 0.25) {
+      const d = period.lag * step;
+      const fine = smooth(y, Math.max(0.5, period.lag / 6));
+      const picked = refinedPeaks(x, fine, 3 * sigma).filter((p) => p.x >= w10 && p.x <= w90);
+      const found = combOf(picked);
+      if (found && Math.abs(found.spacing / d - 1) < 0.15) {
+        comb = found;
+        combFromPeriod = true;
+      }
+    }
+  }
 
   // A Q branch: the most prominent peak in the central part of the band, standing ≥ 2.5× above the
   // median prominence of its neighbours.
@@ -329,7 +351,27 @@ export function bandShapeClassify(
     combDip = near.length === 0 || (combCentralPeak ? restMean : nearMean) < 0.5 * hMax;
   }
   if (comb && !centralSpike && combCentralPeak) centralSpike = combCentralPeak;
-  const combIsQSeries = comb !== null && !twoLobes && !combDip && !combCentralPeak && !centralSpike;
+  // Is the comb the J lines of a band with one sub-band origin (spacing 2B)? Then B = spacing/2
+  // agrees with the B that the spread of the whole band gives at T (measured on the seeded bands of
+  // bench:contour classify: ratio 1.0–1.2 for linear and parallel bands with resolved lines, 1.75–3
+  // for Q-branch series of prolate tops, below 0.75 for oblate ones, whose Q-branch spacing is under 2B).
+  // With T assumed the ratio scales by T_assumed/T (150–350 K: ×0.85–2), so the window widens.
+  const bSpreadAll = bandBFromBranchSpread(x, y, centroid, T);
+  const jRatio = comb ? comb.spacing / 2 / bSpreadAll : NaN;
+  const [jLow, jHigh] = temperatureAssumed ? [0.4, 3.5] : [0.6, 1.6];
+  const combNotJLines = comb !== null && Number.isFinite(jRatio) && (jRatio > jHigh || jRatio < jLow);
+  // The strongest central feature of a Q-series is itself one of its Q branches, on the comb and not
+  // far above its neighbours; a parallel band's Q branch towers over the J lines.
+  const spikeOnComb = (() => {
+    if (!comb || !centralSpike) return true;
+    const spike = centralSpike;
+    const nearest = [...comb.members].sort((a, b) => Math.abs(a.x - spike.x) - Math.abs(b.x - spike.x));
+    if (Math.abs(nearest[0].x - spike.x) > 0.25 * comb.spacing) return false;
+    const neighbours = nearest.slice(1, 5).map((p) => p.prominence);
+    return spike.prominence < 5 * median(neighbours);
+  })();
+  const combIsQSeriesBySpacing = combNotJLines && comb!.regularity >= 0.85 && comb!.members.length >= 5 && !combCentralPeak && spikeOnComb;
+  const combIsQSeries = (comb !== null && !twoLobes && !combDip && !combCentralPeak && !centralSpike) || combIsQSeriesBySpacing;
   if (comb && combIsQSeries) {
     profile = 'Q-series';
     const fit = qSeriesFit(comb.members, centroid);
@@ -341,7 +383,12 @@ export function bandShapeClassify(
       'the origin is the band centroid (which Q branch is K = 0 needs the model or the intensity pattern)',
       'B is not read from a Q-branch series (the spacing gives A′(1−ζ) − B′, not B)',
     );
-    if (comb.regularity < 0.9 || comb.members.length < 8) confidence = 'medium';
+    if (combFromPeriod) evidence.push('the comb was found from the periodicity of the trace minus its envelope');
+    if (combNotJLines)
+      evidence.push(
+        `read as J lines the comb would give B = ${(comb.spacing / 2).toPrecision(3)} cm^-1, ${jRatio.toFixed(2)}× the B the band's spread gives at ${T} K (resolved J lines of one band give 1.0–1.2): the maxima are not J lines`,
+      );
+    if (comb.regularity < 0.9 || comb.members.length < 8 || combFromPeriod || temperatureAssumed) confidence = 'medium';
     // Resolved J lines of a parallel band also make a regular comb (spacing 2B). If two envelope
     // maxima sit where P and R maxima of B = spacing/2 would (2.358√(BT), within 25 %), say so.
     const below = plainLobes.filter((l) => l.x < centroid);
@@ -471,17 +518,24 @@ export function bandShapeClassify(
       '.';
   }
   if (bMethod === 'pr-separation' && type !== 'linear-parallel' && type !== 'linear-perpendicular') {
+    // Measured (bench:contour classify, 120 seeded bands): from the spread of unresolved parallel
+    // bands of oblate tops B came out 43–85 % too large, so it is not offered as B.
     evidence.push(
-      "B uses the linear molecule's branch relation; a symmetric top's K structure widens the branches, so it tends to come out too large",
+      `B is withheld: the linear molecule's branch relation would give ${B!.toPrecision(3)} cm^-1, but a symmetric top's K structure widens the branches, so that is likely too large (an upper bound)`,
     );
+    B = null;
+    bMethod = 'none';
     if (confidence === 'high') confidence = 'medium';
   }
-  if (confidence === 'high') {
-    // Measured on seeded bands of every shape and type, the profile came out right only 8 times in
-    // 20, once as a confident Q-series call on a prolate parallel band: no call is 'high' until that
-    // improves (a wrong answer given with confidence is the worst outcome).
+  if (confidence === 'high' && profile !== 'Q-series') {
+    // Measured on 120 seeded bands of every shape, type and apodization (bench:contour classify),
+    // PR calls were right about half the time and PQR calls about 85 %: neither is rated high (a wrong
+    // answer given with confidence is the worst outcome). Q-series calls on a regular comb of ≥ 8
+    // maxima with T given were all right, and stay high.
     confidence = 'medium';
-    evidence.push('no band-shape call is rated high yet: on test bands of every shape and type the profile was right 8 times in 20');
+    evidence.push(
+      `a ${profile} call is never rated high: on seeded test bands of every shape and type such calls were wrong too often (see bench:contour classify)`,
+    );
   }
   evidence.push(`confidence ${confidence}`);
   return {
@@ -498,6 +552,33 @@ export function bandShapeClassify(
     evidence: evidence.join('; ') + '.',
     implication,
   };
+}
+
+/**
+ * Strongest repeat of a residual: the lag (samples, parabola-refined) of the highest local maximum of
+ * its normalised autocorrelation beyond the first zero crossing (the features' own width), and that
+ * maximum (1 = a perfect repeat). Source: autocorrelation period estimate, common practice.
+ */
+function residualPeriod(r: Float64Array, minLag: number, maxLag: number): { lag: number; strength: number } | null {
+  const m = r.length;
+  let r0 = 0;
+  for (let i = 0; i < m; i++) r0 += r[i] * r[i];
+  if (!(r0 > 0) || maxLag <= minLag + 2) return null;
+  const ac = new Float64Array(maxLag + 2);
+  for (let k = 0; k <= maxLag + 1; k++) {
+    let s = 0;
+    for (let i = 0; i + k < m; i++) s += r[i] * r[i + k];
+    ac[k] = (s / r0) * (m / (m - k));
+  }
+  let k0 = 1;
+  while (k0 <= maxLag && ac[k0] > 0) k0++;
+  let best = -1;
+  for (let k = Math.max(k0, minLag); k <= maxLag; k++)
+    if (ac[k] > ac[k - 1] && ac[k] >= ac[k + 1] && (best < 0 || ac[k] > ac[best])) best = k;
+  if (best < 0) return null;
+  const den = ac[best - 1] - 2 * ac[best] + ac[best + 1];
+  const off = den < 0 ? (0.5 * (ac[best - 1] - ac[best + 1])) / den : 0;
+  return { lag: best + off, strength: ac[best] };
 }
 
 /** The two lobes farthest apart on either side of the centroid (P below, R above). */

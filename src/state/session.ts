@@ -54,7 +54,18 @@ export function sessionOf(s: BenchState): ProjectSession {
   };
 }
 
-const TABS: BenchTab[] = ['assignments', 'solve', 'combination', 'loomis', 'levels', 'export', 'import', 'calibration', 'assistant'];
+const TABS: BenchTab[] = [
+  'assignments',
+  'solve',
+  'combination',
+  'loomis',
+  'levels',
+  'export',
+  'import',
+  'calibration',
+  'assistant',
+  'contour',
+];
 
 /**
  * Store fields for a (possibly partial) session; absent fields take their initial values.

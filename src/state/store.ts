@@ -7,6 +7,7 @@ import { create } from 'zustand';
 import { createAnalysisSlice, type AnalysisSlice } from './analysisSlice';
 import { createAssignmentsSlice, type AssignmentsSlice } from './assignmentsSlice';
 import { createAssistantSlice, type AssistantSlice } from './assistantSlice';
+import { createContourSlice, type ContourSlice } from './contourSlice';
 import { createFitSlice, type FitSlice } from './fitSlice';
 import { createHistorySlice, type HistorySlice } from './history';
 import { createModelSlice, type ModelSlice } from './modelSlice';
@@ -21,7 +22,8 @@ export type BenchState = SpectrumSlice &
   ViewSlice &
   HistorySlice &
   AnalysisSlice &
-  AssistantSlice;
+  AssistantSlice &
+  ContourSlice;
 
 /** The store hook (`useBench(s => s.x)`) with getState/setState/subscribe/getInitialState. */
 export const useBench = create<BenchState>()((...a) => ({
@@ -33,6 +35,7 @@ export const useBench = create<BenchState>()((...a) => ({
   ...createHistorySlice(...a),
   ...createAnalysisSlice(...a),
   ...createAssistantSlice(...a),
+  ...createContourSlice(...a),
 }));
 
 /** The same store, for non-React callers. */

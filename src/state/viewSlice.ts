@@ -21,7 +21,8 @@ export interface ConfirmRequest {
 }
 
 /** Which tab of the lower panel is shown. */
-export type BenchTab = 'assignments' | 'solve' | 'combination' | 'loomis' | 'levels' | 'export' | 'import' | 'calibration' | 'assistant';
+export type BenchTab =
+  'assignments' | 'solve' | 'combination' | 'loomis' | 'levels' | 'export' | 'import' | 'calibration' | 'assistant' | 'contour';
 
 /** Sort and filter of the assignments table. */
 export interface TableQuery {

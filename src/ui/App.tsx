@@ -11,6 +11,7 @@ import { AssistantPanel } from './AssistantPanel';
 import { CalibrationPanel } from './CalibrationPanel';
 import { CombinationPanel } from './CombinationPanel';
 import { ConfirmPrompt } from './ConfirmPrompt';
+import { ContourPanel } from './ContourPanel';
 import { ExportPanel } from './ExportPanel';
 import { HelpOverlay } from './HelpOverlay';
 import { ImportPanel } from './ImportPanel';
@@ -31,6 +32,7 @@ const TABS: { id: BenchTab; label: string }[] = [
   { id: 'levels', label: 'Levels' },
   { id: 'import', label: 'Trace file' },
   { id: 'calibration', label: 'Calibration' },
+  { id: 'contour', label: 'Unresolved band' },
   { id: 'export', label: 'Export' },
 ];
 
@@ -138,6 +140,7 @@ function LowerPanel() {
         {tab === 'import' && <ImportPanel />}
         {tab === 'calibration' && <CalibrationPanel />}
         {tab === 'export' && <ExportPanel />}
+        {tab === 'contour' && <ContourPanel />}
       </div>
     </section>
   );

@@ -13,7 +13,7 @@ import { contourFit } from '../../src/fit/contourFit';
 import { bandLines } from '../../src/physics/bandLines';
 import { instrumentSpectrum } from '../../src/physics/instrumentSpectrum';
 import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
-import { seededRandom, traceGenerate, traceSpecRandom } from '../fit/contourTraces';
+import { classifySpecRandom, seededRandom, traceGenerate, traceSpecRandom, traceVisibleProfile } from '../fit/contourTraces';
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 
@@ -49,11 +49,14 @@ function speed(): void {
       };
       for (let i = 0; i < 3; i++) instrumentSpectrum(lines, x, opts);
       const t: number[] = [];
+      const cpu: number[] = [];
       let fine = 0;
       for (let i = 0; i < 7; i++) {
+        const c0 = process.cpuUsage();
         const t0 = performance.now();
         fine = instrumentSpectrum(lines, x, opts).finePoints;
         t.push(performance.now() - t0);
+        cpu.push(process.cpuUsage(c0).user / 1000);
       }
       console.log(
         JSON.stringify({
@@ -64,6 +67,8 @@ function speed(): void {
           opdCm,
           finePoints: fine,
           median_ms: Number(median(t).toFixed(1)),
+          // CPU time of this thread: what the wall time would be on an otherwise idle core.
+          median_cpu_ms: Number(median(cpu).toFixed(1)),
         }),
       );
     }
@@ -88,6 +93,7 @@ function speed(): void {
     const start = structuredClone(model);
     start.upper.origin += 0.05;
     start.upper.zeta += 0.002;
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     const r = contourFit({
       model: start,
@@ -108,6 +114,7 @@ function speed(): void {
         floated: 6,
         baseline: 2,
         ms: Math.round(performance.now() - t0),
+        cpu_ms: Math.round(process.cpuUsage(c0).user / 1000),
         status: r.status,
         iterations: r.iterations,
         route: r.route,
@@ -227,6 +234,89 @@ function targets(count: number): void {
   );
 }
 
-const [what = 'speed', nArg] = process.argv.slice(2);
+/** Quantiles of |v| (50 %, 90 %, max), rounded. */
+function spread(v: number[]): string {
+  if (!v.length) return 'none';
+  const a = v.map(Math.abs).sort((p, q) => p - q);
+  const q = (f: number) => a[Math.min(a.length - 1, Math.floor(f * a.length))];
+  return `median ${(100 * q(0.5)).toFixed(1)} %, 90th pct ${(100 * q(0.9)).toFixed(1)} %, max ${(100 * a[a.length - 1]).toFixed(1)} %`;
+}
+
+/**
+ * classify N [FIRST]: the band-shape diagnosis alone on N cases of classifySpecRandom (every
+ * apodization, curved baselines); per case and a summary by expected profile and by confidence.
+ */
+function classifyCases(count: number, first: number): void {
+  const byProfile: Record<string, { n: number; ok: number }> = {};
+  const byConfidence: Record<string, { n: number; ok: number }> = {};
+  const bErr: number[] = [];
+  const qErr: number[] = [];
+  let bMissing = 0;
+  let qMissing = 0;
+  let ms = 0;
+  for (let s = first; s < first + count; s++) {
+    const spec = classifySpecRandom(s);
+    const c = traceGenerate(spec);
+    const vis = traceVisibleProfile(c);
+    const row: Record<string, unknown> = {
+      case: s,
+      shape: spec.shape,
+      band: spec.band,
+      B: Number(spec.B.toPrecision(3)),
+      L: Number(spec.opdCm.toFixed(2)),
+      T: Math.round(spec.temperatureK),
+      apodization: spec.apodization,
+      expected: vis.profile,
+    };
+    const key = `${vis.profile}${c.profile === 'Q-series' && !vis.qResolved ? ' (Q-series unresolved)' : ''}`;
+    byProfile[key] ??= { n: 0, ok: 0 };
+    byProfile[key].n++;
+    try {
+      const t0 = performance.now();
+      const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: spec.temperatureK });
+      ms += performance.now() - t0;
+      const ok = r.profile === vis.profile;
+      row.profile = r.profile;
+      row.confidence = r.confidence;
+      row.ok = ok;
+      if (ok) byProfile[key].ok++;
+      byConfidence[r.confidence] ??= { n: 0, ok: 0 };
+      byConfidence[r.confidence].n++;
+      if (ok) byConfidence[r.confidence].ok++;
+      if (vis.profile !== 'Q-series') {
+        if (r.B !== null) {
+          row.Berr = Number((r.B / spec.B - 1).toFixed(3));
+          bErr.push(r.B / spec.B - 1);
+        } else bMissing++;
+      } else if (r.qSpacing !== undefined) {
+        row.qErr = Number((Math.abs(r.qSpacing) / Math.abs(vis.qSpacing) - 1).toFixed(4));
+        qErr.push(Math.abs(r.qSpacing) / Math.abs(vis.qSpacing) - 1);
+      } else qMissing++;
+    } catch (err) {
+      row.classifyError = String(err);
+    }
+    console.log(JSON.stringify(row));
+  }
+  const rate = (m: Record<string, { n: number; ok: number }>) =>
+    Object.fromEntries(Object.entries(m).map(([k, v]) => [k, `${v.ok}/${v.n}`]));
+  const okAll = Object.values(byProfile).reduce((a, v) => a + v.ok, 0);
+  console.log(
+    JSON.stringify({
+      summary: 'classify',
+      cases: count,
+      profileRight: `${okAll}/${count}`,
+      byExpectedProfile: rate(byProfile),
+      byConfidence: rate(byConfidence),
+      bWithin10pc: `${bErr.filter((e) => Math.abs(e) <= 0.1).length}/${bErr.length} given (${bMissing} withheld)`,
+      bError: spread(bErr),
+      qSpacingWithin3pc: `${qErr.filter((e) => Math.abs(e) <= 0.03).length}/${qErr.length} given (${qMissing} withheld)`,
+      qSpacingError: spread(qErr),
+      classifyMsPerCase: Number((ms / count).toFixed(1)),
+    }),
+  );
+}
+
+const [what = 'speed', nArg, firstArg] = process.argv.slice(2);
 if (what === 'speed') speed();
+else if (what === 'classify') classifyCases(Number(nArg ?? 60), Number(firstArg ?? 0));
 else targets(Number(nArg ?? 30));

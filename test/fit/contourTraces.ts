@@ -34,7 +34,7 @@ export interface TraceCase {
   model: BandModel;
   massAmu: number;
   opdCm: number;
-  apodization: 'boxcar' | 'triangular';
+  apodization: TraceApodization;
   /** Peak absorbance of the noise-free band (decadic) and the noise σ. */
   peakAbsorbance: number;
   noiseSigma: number;
@@ -47,6 +47,63 @@ export interface TraceCase {
   noisy: Float64Array;
   /** Expected profile of the band. */
   profile: 'PR' | 'PQR' | 'Q-series';
+}
+
+/** Apodizations the generator knows (closed form for boxcar and triangular, quadrature for the rest). */
+export type TraceApodization = 'boxcar' | 'triangular' | 'happ-genzel' | 'norton-beer-weak' | 'norton-beer-medium' | 'norton-beer-strong';
+
+/**
+ * Apodization weight at u = x/L ∈ [0, 1], written here apart from src/physics: Happ–Genzel
+ * 0.54 + 0.46 cos(πu) (Happ & Genzel, Infrared Phys. 1, 39 (1961)); Norton–Beer Σ c_i (1 − u²)^i with
+ * c = weak (0.384093, −0.087577, 0.703484), medium (0.152442, −0.136176, 0.983734), strong (0.045335,
+ * 0, 0.554883, 0, 0.399782) (Norton & Beer, JOSA 66, 259 (1976), as corrected in 1977; from memory).
+ */
+function traceApodizationWeight(apodization: TraceApodization, u: number): number {
+  const q = 1 - u * u;
+  switch (apodization) {
+    case 'boxcar':
+      return 1;
+    case 'triangular':
+      return 1 - u;
+    case 'happ-genzel':
+      return 0.54 + 0.46 * Math.cos(Math.PI * u);
+    case 'norton-beer-weak':
+      return 0.384093 - 0.087577 * q + 0.703484 * q * q;
+    case 'norton-beer-medium':
+      return 0.152442 - 0.136176 * q + 0.983734 * q * q;
+    case 'norton-beer-strong':
+      return 0.045335 + 0.554883 * q * q + 0.399782 * q ** 4;
+  }
+}
+
+/**
+ * The instrument line shape 2∫₀ᴸ A(x/L) cos(2πΔν x) dx as a function of Δν (cm^-1), for any
+ * apodization: boxcar and triangular in closed form, the others tabulated once by Simpson's rule
+ * (800 panels over [0, L]) at steps of 1/(64L) and interpolated linearly (error < 1e-4 of the peak).
+ */
+export function traceIls(apodization: TraceApodization, opdCm: number): (d: number) => number {
+  if (apodization === 'boxcar' || apodization === 'triangular') return (d) => ilsClosedForm(apodization, opdCm, d);
+  const reach = 41 / opdCm;
+  const h = 1 / (64 * opdCm);
+  const m = Math.ceil(reach / h) + 2;
+  const table = new Float64Array(m);
+  const panels = 800;
+  for (let k = 0; k < m; k++) {
+    const d = k * h;
+    let s = 0;
+    for (let j = 0; j <= panels; j++) {
+      const u = j / panels;
+      const w = j === 0 || j === panels ? 1 : j % 2 ? 4 : 2;
+      s += w * traceApodizationWeight(apodization, u) * Math.cos(2 * Math.PI * d * u * opdCm);
+    }
+    table[k] = (2 * opdCm * s) / (3 * panels);
+  }
+  return (d) => {
+    const t = Math.abs(d) / h;
+    const k = Math.floor(t);
+    if (k >= m - 1) return 0;
+    return table[k] + (t - k) * (table[k + 1] - table[k]);
+  };
 }
 
 /** The closed-form instrument line shapes (see the module comment). */
@@ -72,7 +129,7 @@ export interface TraceSpec {
   zeta?: number;
   temperatureK: number;
   opdCm: number;
-  apodization: 'boxcar' | 'triangular';
+  apodization: TraceApodization;
   origin: number;
   /** Relative change of B and of the unique constant in the upper state. */
   deltaBRel?: number;
@@ -83,6 +140,8 @@ export interface TraceSpec {
   seed: number;
   /** Points per 1/(2L). @default 2 */
   pointsPerResolution?: number;
+  /** Quadratic baseline term at the region's ends, absorbance (0 when absent). */
+  baselineCurvature?: number;
 }
 
 const C2 = 1.438776877; // second radiation constant hc/k, cm K (CODATA 2018)
@@ -133,12 +192,12 @@ export function traceGenerate(spec: TraceSpec): TraceCase {
   const sortedNu = Float64Array.from(order.map((i) => lines.wavenumberCm1[i]));
   const sortedI = Float64Array.from(order.map((i) => lines.intensity[i]));
   const reach = 40 / L;
+  const ils = traceIls(spec.apodization, L);
   let first = 0;
   for (let k = 0; k < n; k++) {
     while (first < sortedNu.length && sortedNu[first] < x[k] - reach) first++;
     let s = 0;
-    for (let i = first; i < sortedNu.length && sortedNu[i] <= x[k] + reach; i++)
-      s += sortedI[i] * ilsClosedForm(spec.apodization, L, x[k] - sortedNu[i]);
+    for (let i = first; i < sortedNu.length && sortedNu[i] <= x[k] + reach; i++) s += sortedI[i] * ils(x[k] - sortedNu[i]);
     raw[k] = s;
   }
   let peak = 0;
@@ -152,7 +211,7 @@ export function traceGenerate(spec: TraceSpec): TraceCase {
   const slope = 0.01 * (rand() - 0.5);
   for (let k = 0; k < n; k++) {
     const tt = (2 * x[k] - fromCm1 - toCm1) / (toCm1 - fromCm1);
-    truth[k] = (raw[k] / peak) * peakAbsorbance + base0 + slope * tt;
+    truth[k] = (raw[k] / peak) * peakAbsorbance + base0 + slope * tt + (spec.baselineCurvature ?? 0) * tt * tt;
     noisy[k] = truth[k] + noiseSigma * gaussian(rand);
   }
   const profile = spec.shape === 'linear' ? (spec.band === 'parallel' ? 'PR' : 'PQR') : spec.band === 'parallel' ? 'PQR' : 'Q-series';
@@ -198,4 +257,75 @@ export function traceSpecRandom(seed: number): TraceSpec {
     noiseRel: 0.003 + 0.017 * r(),
     seed: seed + 1,
   };
+}
+
+/** Full width at half maximum of the generator's instrument line shape, cm^-1 (bisection on traceIls). */
+export function traceIlsFwhm(apodization: TraceApodization, opdCm: number): number {
+  const ils = traceIls(apodization, opdCm);
+  const peak = ils(0);
+  let lo = 0;
+  let hi = 3 / opdCm;
+  for (let i = 0; i < 50; i++) {
+    const mid = 0.5 * (lo + hi);
+    if (ils(mid) > 0.5 * peak) lo = mid;
+    else hi = mid;
+  }
+  return lo + hi;
+}
+
+/** Apodizations drawn by classifySpecRandom. */
+const TRACE_APODIZATIONS: TraceApodization[] = [
+  'boxcar',
+  'triangular',
+  'happ-genzel',
+  'norton-beer-weak',
+  'norton-beer-medium',
+  'norton-beer-strong',
+];
+
+/**
+ * A seeded spec for the band-shape diagnosis across the target space: prolate, oblate and linear;
+ * parallel (Σ–Σ) and perpendicular (Π–Σ); heavy (B 0.03–0.2 cm^-1) or light (B 0.3–2.5 cm^-1),
+ * log-uniform; A/B 3–15 (prolate), C/B 0.5–0.8 (oblate); ζ; T 150–350 K; L 0.9–4 cm; every
+ * apodization; noise 0.3–3 % of the peak; a linear and a curved baseline.
+ */
+export function classifySpecRandom(seed: number): TraceSpec {
+  const r = seededRandom(seed * 104729 + 71);
+  const shapes: TopShape[] = ['prolate', 'oblate', 'linear'];
+  const shape = shapes[Math.floor(r() * 3)];
+  const band: BandType = r() < 0.5 ? 'parallel' : 'perpendicular';
+  const heavy = r() < 0.5;
+  const [bLo, bHi] = heavy ? [0.03, 0.2] : [0.3, 2.5];
+  const B = Math.exp(Math.log(bLo) + r() * Math.log(bHi / bLo));
+  const unique = shape === 'prolate' ? B * (3 + 12 * r()) : shape === 'oblate' ? B * (0.5 + 0.3 * r()) : undefined;
+  return {
+    name: `classify-${seed}`,
+    shape,
+    band,
+    B,
+    unique,
+    zeta: shape === 'prolate' ? -0.3 + 0.9 * r() : shape === 'oblate' ? -0.6 + 0.8 * r() : 0,
+    temperatureK: 150 + 200 * r(),
+    opdCm: 0.9 + 3.1 * r(),
+    apodization: TRACE_APODIZATIONS[Math.floor(r() * TRACE_APODIZATIONS.length)],
+    origin: 700 + 2000 * r(),
+    noiseRel: 0.003 + 0.027 * r(),
+    baselineCurvature: 0.03 * (r() - 0.5),
+    seed: seed + 1,
+  };
+}
+
+/**
+ * The profile a case can show: its band's own (PR, PQR, Q-series), except that a perpendicular band
+ * of a symmetric top whose Q branches lie closer than 1.2 instrument FWHM apart cannot show them as a
+ * series, and then shows a P, Q, R contour (rule of thumb, common practice: two features closer than
+ * about one FWHM merge).
+ */
+export function traceVisibleProfile(c: TraceCase): { profile: TraceCase['profile']; qSpacing: number; qResolved: boolean } {
+  const m = c.model;
+  const u = m.shape === 'prolate' ? m.upper.A : m.upper.C;
+  const qSpacing = 2 * (u * (1 - m.upper.zeta) - m.upper.B);
+  const qResolved = Math.abs(qSpacing) >= 1.2 * traceIlsFwhm(c.apodization, c.opdCm);
+  if (c.profile === 'Q-series' && !qResolved) return { profile: 'PQR', qSpacing, qResolved };
+  return { profile: c.profile, qSpacing, qResolved };
 }

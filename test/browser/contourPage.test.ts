@@ -1,0 +1,92 @@
+/**
+ * The unresolved-band tab on the low-resolution demo (public/demo/lowres-*): diagnosis, the contour
+ * fit in its worker (cancel, then a full run), the fitted contour and residual drawn over the trace,
+ * the fitted constants within their σ of the demo's truth, and the Q-branch analysis.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Browser } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { gotoApp, launch, openPage, SHOTS } from './browser';
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launch();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+const truth = JSON.parse(readFileSync(join(__dirname, '..', '..', 'public', 'demo', 'lowres-truth.json'), 'utf8'));
+
+describe('unresolved-band tab', () => {
+  it('diagnoses the low-resolution demo, cancels and runs a contour fit, and draws the fit over the trace', async () => {
+    const { context, page, log } = await openPage(browser);
+    await gotoApp(page);
+    await page.locator('[data-testid=tab-contour]').click();
+    await page.locator('[data-testid=contour-demo]').click();
+    await page.waitForFunction(() => document.querySelector('[data-testid=file-name]')?.textContent?.includes('lowres'), null, {
+      timeout: 60_000,
+    });
+    await expect.poll(() => page.locator('[data-testid=contour-from]').inputValue(), { timeout: 20_000 }).toBe('1085');
+
+    await page.locator('[data-testid=contour-diagnose]').click();
+    const profile = page.locator('[data-testid=contour-profile]');
+    await expect.poll(() => profile.getAttribute('data-profile'), { timeout: 20_000 }).toBe('Q-series');
+    expect(await profile.textContent()).toMatch(/symmetric top perpendicular/);
+
+    // Cancel: start, cancel at once; the worker is terminated and nothing changes.
+    await page.locator('[data-testid=contour-fit-start]').click();
+    await page.locator('[data-testid=contour-fit-cancel]').click();
+    const fitBox = page.locator('[data-testid=contour-fit]');
+    await expect.poll(() => fitBox.getAttribute('data-status'), { timeout: 20_000 }).toBe('cancelled');
+    expect(await page.locator('[data-testid=contour-parameters]').count()).toBe(0);
+
+    // The full fit.
+    await page.locator('[data-testid=contour-fit-start]').click();
+    await expect.poll(() => fitBox.getAttribute('data-status'), { timeout: 120_000, interval: 500 }).toBe('done');
+    // The fitted contour and the residual are drawn over the trace (three line traces).
+    await expect
+      .poll(() => page.locator('[data-testid=contour-plot] .scatterlayer .trace').count(), { timeout: 20_000 })
+      .toBeGreaterThanOrEqual(3);
+    // Each floated constant within 4σ of the truth (the contour-fit target of issue 18).
+    const rows = page.locator('[data-testid=contour-parameters] tr[data-key]');
+    const n = await rows.count();
+    let checked = 0;
+    for (let i = 0; i < n; i++) {
+      const key = (await rows.nth(i).getAttribute('data-key'))!;
+      if ((await rows.nth(i).getAttribute('data-fixed')) === 'true' || key === 'lorentz') continue;
+      const [side, name] = key.split('.');
+      const value = Number(await rows.nth(i).getAttribute('data-value'));
+      const sigma = Number(await rows.nth(i).getAttribute('data-sigma'));
+      expect(sigma, key).toBeGreaterThan(0);
+      expect(Math.abs(value - truth[side][name]) / sigma, key).toBeLessThan(4);
+      checked++;
+    }
+    expect(checked).toBe(5);
+    await page.screenshot({ path: `${SHOTS}/contour-fit.png`, fullPage: true });
+
+    // Q-branch analysis: maxima found, indices proposed as guesses, the quadratic fitted.
+    await page.locator('[data-testid=contour-q-find]').click();
+    await expect.poll(() => page.locator('[data-testid=contour-q-table] tbody tr').count(), { timeout: 20_000 }).toBeGreaterThan(5);
+    expect(await page.locator('[data-testid=contour-q-table]').textContent()).toMatch(/guess/);
+    await page.locator('[data-testid=contour-q-fit]').click();
+    const q = (await page.locator('[data-testid=contour-q-result]').textContent()) ?? '';
+    expect(q).toMatch(/A′\(1 − ζ\) − B′ = 2\.1/);
+
+    // A starting model from the diagnosis replaces the model only after the in-page question, as
+    // one undo step.
+    await page.locator('[data-testid=contour-start-model]').click();
+    await page.locator('[data-testid=confirm-cancel]').click();
+    expect(await page.locator('[data-testid=undo]').getAttribute('title')).not.toMatch(/starting model/);
+    await page.locator('[data-testid=contour-start-model]').click();
+    await page.locator('[data-testid=confirm-replace]').click();
+    await expect
+      .poll(() => page.locator('[data-testid=undo]').getAttribute('title'), { timeout: 20_000 })
+      .toMatch(/starting model from the band shape/);
+    await page.locator('[data-testid=undo]').click();
+    await expect.poll(() => page.locator('[data-testid=undo]').getAttribute('title'), { timeout: 20_000 }).not.toMatch(/starting model/);
+    expect(log.pageErrors).toEqual([]);
+    await context.close();
+  });
+});
