@@ -3,6 +3,7 @@ import type { FitError, FitResult } from '../fit/fitTypes';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
+import { assistantLabelCheck, type AssistantLabelCheck } from './assistantLabelCheck';
 import { assistantLadderTest } from './assistantLadderTest';
 import { assistantMatch } from './assistantMatch';
 import { assistantMisassignments, assistantRobustScale } from './assistantMisassignment';
@@ -468,6 +469,22 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       `(${audit.examples.join(', ')}): the assigned set is not consistent with the trace (a numbering or sub-band shift?), so its proposals are for review only`;
     warnings.push(doubt);
   }
+  // A run from the model alone has nothing but the trace to fix its labels: the rival labellings
+  // (one rung or one sub-band off) must fit clearly worse before its lines may be trusted.
+  let labelCheck: AssistantLabelCheck | null = null;
+  const isModelOnly = lines.every((l) => l.status === 'rejected' || (l.source !== 'user' && l.status !== 'accepted'));
+  if (!doubt && isModelOnly && state.posterior) {
+    labelCheck = assistantLabelCheck({
+      model,
+      priors,
+      lines: assistantFitLines(lines).filter((l) => !heldOut.has(l.id)),
+      auditOf: (post) => auditMissing(model, post, peaks, context, options, heightScale),
+    });
+    if (!labelCheck.isDecided) {
+      doubt = `the labels are not decided by the trace: ${labelCheck.text}; the proposals are for review only (give seed lines to decide)`;
+      warnings.push(doubt);
+    }
+  }
   const { fit, fitError, floated, fitNotes } = state;
   if (fitError && !fit) warnings.push(`No fit could be made: ${fitError.message}`);
   return {
@@ -484,6 +501,7 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     warnings,
     doubt,
     audit,
+    labelCheck,
   };
 }
 
