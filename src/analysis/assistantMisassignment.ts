@@ -51,6 +51,14 @@ export interface AssistantHuntResult {
   notes: string[];
 }
 
+/**
+ * A proposal more than this many median FWHM from where the fit puts it, with the prediction's own σ
+ * below PREDICTION_SHARP_FWHM FWHM, is suspect: two lines closer than about half a width are not
+ * resolved, so a centre that far off is not the line's (common practice: the resolution criterion).
+ */
+const OFF_LINE_FWHM = 0.5;
+const PREDICTION_SHARP_FWHM = 0.25;
+
 /** Normalised residuals below this many stated σ never make a line suspect (guards noise-free data). */
 const SCALE_MIN = 0.5;
 
@@ -179,6 +187,12 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
   const scatter = assistantFitScatterCm1(clean);
   const k = options.toleranceSigma;
 
+  // The band's line width: the median FWHM of the peaks the lines sit on (the median over all
+  // peaks can be set by baseline fringes where the band is sparse).
+  const onPeak = active
+    .map((i) => lines[i].peakIndex)
+    .filter((p): p is number => p !== null && p !== undefined && p >= 0 && p < peaks.count);
+  const lineWidthCm1 = onPeak.length >= 5 ? medianOf(onPeak.map((p) => peaks.fwhmCm1[p])) : context.medianFwhmCm1;
   const suspects: AssistantSuspect[] = [];
   for (const i of active) {
     const line = lines[i];
@@ -189,6 +203,19 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
     if (Math.abs(z) > thr) {
       reasons.push(
         `obs − calc = ${omc.toPrecision(3)} cm^-1 is ${z.toFixed(1)}σ (σ = ${e.sigma.toPrecision(2)} cm^-1) from the fit without the outliers`,
+      );
+    }
+    // A proposal well off the position a well-determined fit gives it is not measured at the line:
+    // the peak's centre belongs to a blend or to noise, whatever its stated uncertainty says.
+    const width = lineWidthCm1;
+    if (
+      line.status === 'proposed' &&
+      width > 0 &&
+      Math.abs(omc) > OFF_LINE_FWHM * width &&
+      e.predictionSigma < PREDICTION_SHARP_FWHM * width
+    ) {
+      reasons.push(
+        `obs − calc = ${omc.toPrecision(3)} cm^-1 is ${(Math.abs(omc) / width).toFixed(2)} line widths while the fit places the line to ±${e.predictionSigma.toPrecision(2)} cm^-1: the peak is not centred on the line (blend or noise)`,
       );
     }
     const cdReasons = cdBad.get(i);
@@ -260,4 +287,10 @@ function maxOf(a: Float64Array, n: number): number {
   let m = 0;
   for (let i = 0; i < n; i++) if (a[i] > m) m = a[i];
   return m;
+}
+
+function medianOf(values: number[]): number {
+  const a = [...values].sort((x, y) => x - y);
+  const m = a.length >> 1;
+  return a.length % 2 ? a[m] : 0.5 * (a[m - 1] + a[m]);
 }

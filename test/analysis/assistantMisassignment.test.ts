@@ -128,6 +128,26 @@ describe('assistantMisassignments', () => {
     expect(s.reasons.some((t) => /combination difference/.test(t))).toBe(true);
   });
 
+  it('distrusts a proposal measured 0.8 line widths off a well-predicted position even when its stated σ covers it', () => {
+    // A peak centre that far from the line is not the line's (half a width is the resolution
+    // limit, common practice); its inflated uncertainty (a blend's) must not hide that.
+    const moved = assignments.map((a) => ({ ...a }));
+    const r = moved.findIndex((l) => l.kLower === 1 && l.jUpper === l.jLower + 1 && l.jLower === 8);
+    moved[r].observedCm1 += 0.008; // 0.8 × the 0.01 cm^-1 FWHM
+    moved[r].uncertaintyCm1 = 0.01;
+    const lines = assistantLinesFromAssignments(moved, MODEL, peaks, context, 'proposed');
+    lines[r].uncertaintyCm1 = 0.01;
+    const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks });
+    const s = hunt.suspects.find((x) => x.id === moved[r].id)!;
+    expect(s).toBeDefined();
+    expect(s.reasons.join(' ')).toMatch(/0\.8\d line widths while the fit places the line/);
+    // The same line given by hand (accepted) is the user's call: not distrusted for this reason.
+    const own = assistantLinesFromAssignments(moved, MODEL, peaks, context, 'accepted');
+    own[r].uncertaintyCm1 = 0.01;
+    const huntOwn = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines: own, peaks });
+    expect(huntOwn.suspects.find((x) => x.id === moved[r].id)?.reasons.join(' ') ?? '').not.toMatch(/line widths while/);
+  });
+
   it('returns no suspects and the fit error when nothing can be fitted', () => {
     const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines: [], peaks });
     expect(hunt.suspects).toEqual([]);
