@@ -59,6 +59,13 @@ export interface AssistantHuntResult {
 const OFF_LINE_FWHM = 0.5;
 const PREDICTION_SHARP_FWHM = 0.25;
 
+/**
+ * Leverage (share of a line's own weight in its fitted value) above which a proposal counts as
+ * unchecked: the fit follows it whatever it is. Source: hat-matrix diagonal, Hoaglin & Welsch,
+ * Am. Stat. 32, 17 (1978) (from memory); 0.9 as "nearly alone" is common practice.
+ */
+const LEVERAGE_UNCHECKED = 0.9;
+
 /** Normalised residuals below this many stated σ never make a line suspect (guards noise-free data). */
 const SCALE_MIN = 0.5;
 
@@ -216,6 +223,15 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
     ) {
       reasons.push(
         `obs − calc = ${omc.toPrecision(3)} cm^-1 is ${(Math.abs(omc) / width).toFixed(2)} line widths while the fit places the line to ±${e.predictionSigma.toPrecision(2)} cm^-1: the peak is not centred on the line (blend or noise)`,
+      );
+    }
+    // A proposal the fit passes through by construction (it alone fixes some constant, e.g. the
+    // only Q line fixing q) has a residual near zero whether or not it is right: nothing checks it.
+    const covScale = Math.max(1, clean.covarianceScale);
+    const leverage = (e.predictionSigma / line.uncertaintyCm1) ** 2 / covScale;
+    if (line.status === 'proposed' && !line.isExcluded && leverage > LEVERAGE_UNCHECKED) {
+      reasons.push(
+        `the fit passes through it by construction (leverage ${Math.min(leverage, 1).toFixed(2)}: it alone fixes a combination of constants), so no other line checks it`,
       );
     }
     const cdReasons = cdBad.get(i);

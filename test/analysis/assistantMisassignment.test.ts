@@ -148,6 +148,58 @@ describe('assistantMisassignments', () => {
     expect(huntOwn.suspects.find((x) => x.id === moved[r].id)?.reasons.join(' ') ?? '').not.toMatch(/line widths while/);
   });
 
+  it('distrusts a proposal the fit passes through by construction (the only Q line of a Π–Σ band fixes q alone)', () => {
+    // Invented linear molecule, Π–Σ band: P and R lines fix B′ + q/2, only Q lines B′ − q/2, so a
+    // single Q line sets q and its residual is zero whether it is right or not (leverage 1).
+    const pi: BandModel = {
+      shape: 'linear',
+      band: 'perpendicular',
+      lower: stateConstantsFrom({ B: 0.4, DJ: 1e-7 }),
+      upper: stateConstantsFrom({ origin: 2100, B: 0.398, DJ: 1e-7, q: 0.002 }),
+      temperatureK: 296,
+      jMax: 25,
+      kMax: 0,
+      spinWeights: [1],
+    };
+    const l = bandLines(pi);
+    const rand = randomSeeded(9);
+    const set: Assignment[] = [];
+    for (let i = 0; i < l.count; i++) {
+      if (l.deltaJ[i] === 0 && l.jLower[i] !== 7) continue;
+      set.push({
+        id: `q${i}`,
+        jUpper: l.jUpper[i],
+        kUpper: l.kUpper[i],
+        jLower: l.jLower[i],
+        kLower: l.kLower[i],
+        observedCm1: l.wavenumberCm1[i] + 2e-4 * randomNormal(rand),
+        uncertaintyCm1: 2e-4,
+        isBlended: false,
+        isExcluded: false,
+        note: '',
+      });
+    }
+    const piPeaks: PeakList = {
+      count: set.length,
+      wavenumberCm1: Float64Array.from(set.map((a) => a.observedCm1)).sort(),
+      height: new Float64Array(set.length).fill(1),
+      fwhmCm1: new Float64Array(set.length).fill(0.01),
+      snr: new Float64Array(set.length).fill(100),
+      prominence: new Float64Array(set.length).fill(1),
+      isBlend: new Uint8Array(set.length),
+      centreSigmaCm1: new Float64Array(set.length).fill(2e-4),
+      noiseSigma: 0.01,
+    };
+    const lines = assistantLinesFromAssignments(set, pi, piPeaks, assistantPeakContext(piPeaks), 'proposed');
+    const floatable = ['upper.origin', 'upper.B', 'lower.B', 'upper.DJ', 'lower.DJ', 'upper.q'];
+    const hunt = assistantMisassignments({ model: pi, floatable, lines, peaks: piPeaks });
+    const q = lines.find((x) => x.jUpper === x.jLower)!;
+    const s = hunt.suspects.find((x) => x.id === q.id);
+    expect(s?.reasons.join(' ')).toMatch(/passes through it by construction \(leverage 1\.00/);
+    // The P and R lines check one another: none is distrusted for this reason.
+    expect(hunt.suspects.filter((x) => x.id !== q.id && /by construction/.test(x.reasons.join(' ')))).toEqual([]);
+  });
+
   it('returns no suspects and the fit error when nothing can be fitted', () => {
     const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines: [], peaks });
     expect(hunt.suspects).toEqual([]);
