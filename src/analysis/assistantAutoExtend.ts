@@ -3,6 +3,7 @@ import type { FitError, FitResult } from '../fit/fitTypes';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
+import { assistantLabelCheck, type AssistantLabelCheck } from './assistantLabelCheck';
 import { assistantLadderTest } from './assistantLadderTest';
 import { assistantMatch } from './assistantMatch';
 import { assistantMisassignments, assistantRobustScale } from './assistantMisassignment';
@@ -196,7 +197,10 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     fitNotes: [],
     posterior: null,
   };
-  const priors = assistantPriorSigmas(model, input.floatable);
+  let priors = assistantPriorSigmas(model, input.floatable);
+  // Centrifugal constants the model holds (absent or fixed) that the lines may yet demand.
+  const heldCentrifugal = centrifugalKeys(model).filter((k) => !input.floatable.includes(k));
+  let demanded: string[] = [];
   let ambiguous: AssistantAmbiguity[] = [];
   let heightScale = NaN;
   if (lines.filter((l) => l.status !== 'rejected').length === 0) {
@@ -208,6 +212,15 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
   const refit = (): void => {
     const fitLines = assistantFitLines(lines).filter((l) => !heldOut.has(l.id));
     state.posterior = assistantPosteriorFit(model, priors, fitLines, state.posterior?.model);
+    if (demanded.length === 0 && heldCentrifugal.length > 0) {
+      const extra = demandedConstants(model, priors, heldCentrifugal, fitLines, state.posterior);
+      if (extra) {
+        demanded = extra.keys;
+        priors = extra.priors;
+        state.posterior = extra.posterior;
+        warnings.push(extra.text);
+      }
+    }
     // The reported fit floats what the lines determine (posterior σ well below the prior σ).
     const out = assistantRefit(model, input.floatable, fitLines, state.fit, assistantPosteriorDetermined(state.posterior, INFORMED_RATIO));
     state.fitNotes = out.notes;
@@ -464,7 +477,15 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     }
     warnings.push(`Stopped after maxIterations = ${options.maxIterations} with lines still being added; run again to continue.`);
   }
-  const hunt = assistantMisassignments({ model, floatable: input.floatable, lines, peaks, context, options: input.options });
+  // The hunt judges the lines with the constants the predictions used (demanded ones included).
+  const hunt = assistantMisassignments({
+    model,
+    floatable: [...input.floatable, ...demanded],
+    lines,
+    peaks,
+    context,
+    options: input.options,
+  });
   const audit = state.posterior ? auditMissing(model, state.posterior, peaks, context, options, heightScale) : null;
   let doubt: string | null = inconsistency;
   if (doubt) warnings.push(doubt);
@@ -473,6 +494,22 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       `${audit.missing} of the ${audit.strong} strong lines the final constants predict to within a line width lie on no peak ` +
       `(${audit.examples.join(', ')}): the assigned set is not consistent with the trace (a numbering or sub-band shift?), so its proposals are for review only`;
     warnings.push(doubt);
+  }
+  // A run from the model alone has nothing but the trace to fix its labels: the rival labellings
+  // (one rung or one sub-band off) must fit clearly worse before its lines may be trusted.
+  let labelCheck: AssistantLabelCheck | null = null;
+  const isModelOnly = lines.every((l) => l.status === 'rejected' || (l.source !== 'user' && l.status !== 'accepted'));
+  if (!doubt && isModelOnly && state.posterior) {
+    labelCheck = assistantLabelCheck({
+      model,
+      priors,
+      lines: assistantFitLines(lines).filter((l) => !heldOut.has(l.id)),
+      auditOf: (post) => auditMissing(model, post, peaks, context, options, heightScale),
+    });
+    if (!labelCheck.isDecided) {
+      doubt = `the labels are not decided by the trace: ${labelCheck.text}; the proposals are for review only (give seed lines to decide)`;
+      warnings.push(doubt);
+    }
   }
   const { fit, fitError, floated, fitNotes } = state;
   if (fitError && !fit) warnings.push(`No fit could be made: ${fitError.message}`);
@@ -490,6 +527,7 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     warnings,
     doubt,
     audit,
+    labelCheck,
   };
 }
 
@@ -716,6 +754,48 @@ function markOutliers(
     l.note = l.reason;
   }
   return off.length;
+}
+
+/** Residuals demand held constants only from fits of at least this many lines… */
+const DEMAND_MIN_LINES = 30;
+/** …scattering by σ_w > 2 about the fit… */
+const DEMAND_MIN_SCALE2 = 4;
+/** …and only when freeing them takes away at least half of χ². */
+const DEMAND_CHI2_SHARE = 0.5;
+
+/** The model's centrifugal constants (quartic and sextic) of both states, as fit keys. */
+function centrifugalKeys(model: BandModel): string[] {
+  const names = model.shape === 'linear' ? ['DJ', 'HJ'] : ['DJ', 'DJK', 'DK', 'HJ', 'HJK', 'HKJ', 'HK'];
+  return names.flatMap((n) => [`upper.${n}`, `lower.${n}`]);
+}
+
+/**
+ * Whether the residuals demand centrifugal constants the model holds: when a fit of many lines
+ * scatters well beyond the stated uncertainties (σ_w > 2), the held constants are given priors
+ * (assistantPriorSigmas, centred on the held values) and kept when that removes at least half of
+ * χ². The reported fit still floats only what the model file floats; the assistant's predictions
+ * use the demanded constants, and a warning names them so the user can add them to the model.
+ * Source: common practice (add a higher-order constant when the residuals show a systematic trend
+ * the lower-order model cannot follow; the χ² drop is the F-test's numerator).
+ * @returns the demanded keys, the extended priors, the new posterior and the warning, or null
+ */
+function demandedConstants(
+  model: BandModel,
+  priors: Record<string, number>,
+  held: readonly string[],
+  fitLines: readonly AssistantLine[],
+  post: AssistantPosterior,
+): { keys: string[]; priors: Record<string, number>; posterior: AssistantPosterior; text: string } | null {
+  if (post.nLines < DEMAND_MIN_LINES || !(post.scale2 > DEMAND_MIN_SCALE2)) return null;
+  const extended = { ...priors, ...assistantPriorSigmas(model, held) };
+  const trial = assistantPosteriorFit(model, extended, fitLines, post.model);
+  if (!(trial.chi2 < (1 - DEMAND_CHI2_SHARE) * post.chi2)) return null;
+  const keys = held.filter((k) => extended[k] > 0);
+  const text =
+    `the ${post.nLines} lines scatter by σ_w ${Math.sqrt(post.scale2).toFixed(1)} with the constants the model floats; letting the held ` +
+    `centrifugal constants (${keys.join(', ')}) follow the lines lowers χ² from ${post.chi2.toPrecision(3)} to ${trial.chi2.toPrecision(3)}: ` +
+    `the assistant predicts with them (the reported fit does not float them; add them to the model to fit them)`;
+  return { keys, priors: extended, posterior: trial, text };
 }
 
 /** Deletion diagnostics run only on fits this small (cost: one refit per line per round). */

@@ -51,6 +51,21 @@ export interface AssistantHuntResult {
   notes: string[];
 }
 
+/**
+ * A proposal more than this many median FWHM from where the fit puts it, with the prediction's own σ
+ * below PREDICTION_SHARP_FWHM FWHM, is suspect: two lines closer than about half a width are not
+ * resolved, so a centre that far off is not the line's (common practice: the resolution criterion).
+ */
+const OFF_LINE_FWHM = 0.5;
+const PREDICTION_SHARP_FWHM = 0.25;
+
+/**
+ * Leverage (share of a line's own weight in its fitted value) above which a proposal counts as
+ * unchecked: the fit follows it whatever it is. Source: hat-matrix diagonal, Hoaglin & Welsch,
+ * Am. Stat. 32, 17 (1978) (from memory); 0.9 as "nearly alone" is common practice.
+ */
+const LEVERAGE_UNCHECKED = 0.9;
+
 /** Normalised residuals below this many stated σ never make a line suspect (guards noise-free data). */
 const SCALE_MIN = 0.5;
 
@@ -179,6 +194,12 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
   const scatter = assistantFitScatterCm1(clean);
   const k = options.toleranceSigma;
 
+  // The band's line width: the median FWHM of the peaks the lines sit on (the median over all
+  // peaks can be set by baseline fringes where the band is sparse).
+  const onPeak = active
+    .map((i) => lines[i].peakIndex)
+    .filter((p): p is number => p !== null && p !== undefined && p >= 0 && p < peaks.count);
+  const lineWidthCm1 = onPeak.length >= 5 ? medianOf(onPeak.map((p) => peaks.fwhmCm1[p])) : context.medianFwhmCm1;
   const suspects: AssistantSuspect[] = [];
   for (const i of active) {
     const line = lines[i];
@@ -189,6 +210,28 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
     if (Math.abs(z) > thr) {
       reasons.push(
         `obs − calc = ${omc.toPrecision(3)} cm^-1 is ${z.toFixed(1)}σ (σ = ${e.sigma.toPrecision(2)} cm^-1) from the fit without the outliers`,
+      );
+    }
+    // A proposal well off the position a well-determined fit gives it is not measured at the line:
+    // the peak's centre belongs to a blend or to noise, whatever its stated uncertainty says.
+    const width = lineWidthCm1;
+    if (
+      line.status === 'proposed' &&
+      width > 0 &&
+      Math.abs(omc) > OFF_LINE_FWHM * width &&
+      e.predictionSigma < PREDICTION_SHARP_FWHM * width
+    ) {
+      reasons.push(
+        `obs − calc = ${omc.toPrecision(3)} cm^-1 is ${(Math.abs(omc) / width).toFixed(2)} line widths while the fit places the line to ±${e.predictionSigma.toPrecision(2)} cm^-1: the peak is not centred on the line (blend or noise)`,
+      );
+    }
+    // A proposal the fit passes through by construction (it alone fixes some constant, e.g. the
+    // only Q line fixing q) has a residual near zero whether or not it is right: nothing checks it.
+    const covScale = Math.max(1, clean.covarianceScale);
+    const leverage = (e.predictionSigma / line.uncertaintyCm1) ** 2 / covScale;
+    if (line.status === 'proposed' && !line.isExcluded && leverage > LEVERAGE_UNCHECKED) {
+      reasons.push(
+        `the fit passes through it by construction (leverage ${Math.min(leverage, 1).toFixed(2)}: it alone fixes a combination of constants), so no other line checks it`,
       );
     }
     const cdReasons = cdBad.get(i);
@@ -260,4 +303,10 @@ function maxOf(a: Float64Array, n: number): number {
   let m = 0;
   for (let i = 0; i < n; i++) if (a[i] > m) m = a[i];
   return m;
+}
+
+function medianOf(values: number[]): number {
+  const a = [...values].sort((x, y) => x - y);
+  const m = a.length >> 1;
+  return a.length % 2 ? a[m] : 0.5 * (a[m - 1] + a[m]);
 }

@@ -139,6 +139,8 @@ export interface AssistantPosterior {
   covariance: Float64Array;
   /** Weighted χ² of the lines alone. */
   chi2: number;
+  /** The prior's share of the objective at the optimum, Σ ((θ − θ_guess)/σ_prior)² (with the pair correlations). */
+  priorChi2: number;
   /** Lines in the fit. */
   nLines: number;
   /** Effective number of constants the lines determine: trace of the data's share of the information. */
@@ -317,6 +319,10 @@ export function assistantPosteriorFit(
   let trace = 0;
   for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) trace += inverse[a * p + b] * precision[b * p + a];
   const pEffective = p - trace;
+  let priorChi2 = 0;
+  for (let a = 0; a < p; a++) {
+    for (let b = 0; b < p; b++) priorChi2 += ((theta[a] - theta0[a]) / sig[a]) * precision[a * p + b] * ((theta[b] - theta0[b]) / sig[b]);
+  }
   const dof = n - pEffective;
   const isScaleEstimated = dof >= 1;
   const scale2 = isScaleEstimated ? Math.max(1, chi2 / dof) : 1;
@@ -338,6 +344,7 @@ export function assistantPosteriorFit(
     sigma,
     covariance,
     chi2,
+    priorChi2,
     nLines: n,
     pEffective,
     scale2,

@@ -287,7 +287,10 @@ export function assistantSeedFromModel(
         diffWindow: 0,
       },
     );
-    if (r.n >= 3 && r.count / r.n >= 2 * r.chance + 0.1) subShift.set(key, r.delta);
+    // The main sub-band's window is a few bins around the shift already found, so the median
+    // over it measures the peak's own shoulders, not chance: its chance level is the search's.
+    const chanceLevel = key === mainKey ? Math.min(r.chance, chance) : r.chance;
+    if (r.n >= 3 && r.count / r.n >= 2 * chanceLevel + 0.1) subShift.set(key, r.delta);
   }
 
   // 2. Seeds: strongest isolated lines with exactly one peak in their window.

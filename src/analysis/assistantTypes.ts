@@ -1,3 +1,4 @@
+import type { AssistantLabelCheck } from './assistantLabelCheck';
 /**
  * Shared types and defaults of the assignment assistant (series extension, the auto-extend loop,
  * the misassignment hunt and the review helpers). Plain serialisable data, so the page, a worker
@@ -249,6 +250,12 @@ export interface AssistantRunResult {
   doubt: string | null;
   /** The consistency audit behind `doubt` (null when the intensity scale was unknown). */
   audit: AssistantRunAudit | null;
+  /**
+   * For a run with no user line (started from the model alone): the rival labellings (J numbering,
+   * sub-band) fitted in place of the labels found; when one fits nearly as well, `doubt` says so.
+   * Absent or null when not checked.
+   */
+  labelCheck?: AssistantLabelCheck | null;
 }
 
 /** Consistency audit of a finished run. */

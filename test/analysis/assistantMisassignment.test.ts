@@ -128,6 +128,78 @@ describe('assistantMisassignments', () => {
     expect(s.reasons.some((t) => /combination difference/.test(t))).toBe(true);
   });
 
+  it('distrusts a proposal measured 0.8 line widths off a well-predicted position even when its stated σ covers it', () => {
+    // A peak centre that far from the line is not the line's (half a width is the resolution
+    // limit, common practice); its inflated uncertainty (a blend's) must not hide that.
+    const moved = assignments.map((a) => ({ ...a }));
+    const r = moved.findIndex((l) => l.kLower === 1 && l.jUpper === l.jLower + 1 && l.jLower === 8);
+    moved[r].observedCm1 += 0.008; // 0.8 × the 0.01 cm^-1 FWHM
+    moved[r].uncertaintyCm1 = 0.01;
+    const lines = assistantLinesFromAssignments(moved, MODEL, peaks, context, 'proposed');
+    lines[r].uncertaintyCm1 = 0.01;
+    const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks });
+    const s = hunt.suspects.find((x) => x.id === moved[r].id)!;
+    expect(s).toBeDefined();
+    expect(s.reasons.join(' ')).toMatch(/0\.8\d line widths while the fit places the line/);
+    // The same line given by hand (accepted) is the user's call: not distrusted for this reason.
+    const own = assistantLinesFromAssignments(moved, MODEL, peaks, context, 'accepted');
+    own[r].uncertaintyCm1 = 0.01;
+    const huntOwn = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines: own, peaks });
+    expect(huntOwn.suspects.find((x) => x.id === moved[r].id)?.reasons.join(' ') ?? '').not.toMatch(/line widths while/);
+  });
+
+  it('distrusts a proposal the fit passes through by construction (the only Q line of a Π–Σ band fixes q alone)', () => {
+    // Invented linear molecule, Π–Σ band: P and R lines fix B′ + q/2, only Q lines B′ − q/2, so a
+    // single Q line sets q and its residual is zero whether it is right or not (leverage 1).
+    const pi: BandModel = {
+      shape: 'linear',
+      band: 'perpendicular',
+      lower: stateConstantsFrom({ B: 0.4, DJ: 1e-7 }),
+      upper: stateConstantsFrom({ origin: 2100, B: 0.398, DJ: 1e-7, q: 0.002 }),
+      temperatureK: 296,
+      jMax: 25,
+      kMax: 0,
+      spinWeights: [1],
+    };
+    const l = bandLines(pi);
+    const rand = randomSeeded(9);
+    const set: Assignment[] = [];
+    for (let i = 0; i < l.count; i++) {
+      if (l.deltaJ[i] === 0 && l.jLower[i] !== 7) continue;
+      set.push({
+        id: `q${i}`,
+        jUpper: l.jUpper[i],
+        kUpper: l.kUpper[i],
+        jLower: l.jLower[i],
+        kLower: l.kLower[i],
+        observedCm1: l.wavenumberCm1[i] + 2e-4 * randomNormal(rand),
+        uncertaintyCm1: 2e-4,
+        isBlended: false,
+        isExcluded: false,
+        note: '',
+      });
+    }
+    const piPeaks: PeakList = {
+      count: set.length,
+      wavenumberCm1: Float64Array.from(set.map((a) => a.observedCm1)).sort(),
+      height: new Float64Array(set.length).fill(1),
+      fwhmCm1: new Float64Array(set.length).fill(0.01),
+      snr: new Float64Array(set.length).fill(100),
+      prominence: new Float64Array(set.length).fill(1),
+      isBlend: new Uint8Array(set.length),
+      centreSigmaCm1: new Float64Array(set.length).fill(2e-4),
+      noiseSigma: 0.01,
+    };
+    const lines = assistantLinesFromAssignments(set, pi, piPeaks, assistantPeakContext(piPeaks), 'proposed');
+    const floatable = ['upper.origin', 'upper.B', 'lower.B', 'upper.DJ', 'lower.DJ', 'upper.q'];
+    const hunt = assistantMisassignments({ model: pi, floatable, lines, peaks: piPeaks });
+    const q = lines.find((x) => x.jUpper === x.jLower)!;
+    const s = hunt.suspects.find((x) => x.id === q.id);
+    expect(s?.reasons.join(' ')).toMatch(/passes through it by construction \(leverage 1\.00/);
+    // The P and R lines check one another: none is distrusted for this reason.
+    expect(hunt.suspects.filter((x) => x.id !== q.id && /by construction/.test(x.reasons.join(' ')))).toEqual([]);
+  });
+
   it('returns no suspects and the fit error when nothing can be fitted', () => {
     const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines: [], peaks });
     expect(hunt.suspects).toEqual([]);

@@ -1,0 +1,170 @@
+/**
+ * Are the labels of a model-only assignment decided by the trace? A ladder laid on the peaks one
+ * rung or one sub-band off can fit its own lines as well as the right one (an origin shift absorbs
+ * the offset), so before a run started from the model alone may write rows, every rival labelling a
+ * practitioner would worry about is fitted in its place and must lose clearly.
+ *
+ * Rivals: the J numbering of the P and R branches one rung up or down (m → m ± 1, Q lines kept), every
+ * J'' one up or down, and (symmetric tops) every line one sub-band up or down (K'' → K'' ± 1 in a
+ * parallel band, ΔK·K'' → ΔK·K'' ± 1 in a perpendicular band). Each is scored on the same footing as
+ * the labels found:
+ * - χ² of the relabelled lines in the prior-regularised fit (assistantPosteriorFit), divided by the
+ *   labels' own σ_w² (so stated uncertainties that are too small do not inflate the difference), plus
+ *   the prior's χ² (how far the constants must move from the first guess to make it fit: this is
+ *   what catches a sub-band shift the origin alone would absorb);
+ * - LINE_PENALTY for every line the rival cannot label at all (J < K: the first lines of a branch,
+ *   or the missing lines around the band gap, decide the numbering) and for every strong, sharply
+ *   predicted line of its fitted constants that lies on no peak (the same audit as the run's).
+ * The labels are decided when every rival scores at least DECISIVE_MARGIN worse.
+ * Source: combination differences and the first lines of the branches decide J and K numbering in
+ * rovibrational assignment (Herzberg II (1945) ch. IV; common practice); comparing the fits of the
+ * rival labellings is the same test done by least squares.
+ */
+import { assignmentCheck } from '../fit/assignment';
+import type { BandModel, TransitionQuanta } from '../physics/model';
+import { assistantPosteriorFit, type AssistantPosterior } from './assistantPosterior';
+import type { AssistantLine, AssistantRunAudit } from './assistantTypes';
+
+/** Score added for each line a rival cannot label and each strong predicted line it puts on no peak (χ² units). */
+const LABEL_LINE_PENALTY = 16;
+/** Every rival must score at least this much worse (χ² units: a likelihood ratio of e^12.5) for the labels to count as decided. */
+export const LABEL_DECISIVE_MARGIN = 25;
+
+/** One rival labelling and its score. */
+export interface AssistantLabelRival {
+  /** What the rival changes, in words. */
+  what: string;
+  /** Lines it labels (relabelled quanta allowed by the selection rules). */
+  nKept: number;
+  /** Lines it cannot label (relabelled quanta impossible). */
+  nDropped: number;
+  /** Strong, sharply predicted lines of its fitted constants on no peak (0 when unknown). */
+  missing: number;
+  /** χ²/σ_w² of its lines in the prior-regularised fit. */
+  chi2: number;
+  /** The prior's χ² at its optimum. */
+  priorChi2: number;
+  /** Total score (lower is better). */
+  score: number;
+}
+
+/** Outcome of assistantLabelCheck. */
+export interface AssistantLabelCheck {
+  /** Score of the labels found (lower is better), on the rivals' footing. */
+  score: number;
+  /** Missing strong lines of the labels found (0 when unknown). */
+  missing: number;
+  rivals: AssistantLabelRival[];
+  /** The rival with the lowest score, or null when there is none. */
+  closest: AssistantLabelRival | null;
+  /** closest.score − score (Infinity without a rival). */
+  margin: number;
+  /** Every rival scores at least LABEL_DECISIVE_MARGIN worse. */
+  isDecided: boolean;
+  /** Plain-language verdict. */
+  text: string;
+}
+
+/** Inputs of assistantLabelCheck. */
+export interface AssistantLabelCheckInput {
+  /** The first guess (the prior's centre), cm^-1. */
+  model: BandModel;
+  /** Prior 1σ per floatable key (assistantPriorSigmas). */
+  priors: Record<string, number>;
+  /** The lines of the final fit (excluded ones are skipped). */
+  lines: readonly AssistantLine[];
+  /** Audit of fitted constants: strong, sharply predicted lines on no peak (null when unknown). */
+  auditOf: (post: AssistantPosterior) => AssistantRunAudit | null;
+}
+
+type Relabel = (q: TransitionQuanta) => TransitionQuanta;
+
+function rivalsOf(model: Pick<BandModel, 'shape' | 'band'>): { what: string; relabel: Relabel }[] {
+  const out: { what: string; relabel: Relabel }[] = [];
+  for (const t of [1, -1]) {
+    const word = t > 0 ? 'one rung up' : 'one rung down';
+    out.push({
+      what: `the P and R branches numbered ${word} (m → m ${t > 0 ? '+' : '−'} 1)`,
+      relabel: (q) => {
+        const dJ = q.jUpper - q.jLower;
+        const jLower = q.jLower + t * dJ;
+        return { ...q, jLower, jUpper: jLower + dJ };
+      },
+    });
+    out.push({
+      what: `every J'' ${word}`,
+      relabel: (q) => ({ ...q, jLower: q.jLower + t, jUpper: q.jUpper + t }),
+    });
+    if (model.shape === 'linear') continue;
+    const sub = t > 0 ? 'one sub-band up' : 'one sub-band down';
+    if (model.band === 'perpendicular') {
+      out.push({
+        what: `every line ${sub} (ΔK·K'' → ΔK·K'' ${t > 0 ? '+' : '−'} 1)`,
+        relabel: (q) => {
+          const index = (q.kUpper - q.kLower) * q.kLower + t;
+          const deltaK = index >= 0 ? 1 : -1;
+          const kLower = Math.abs(index);
+          return { ...q, kLower, kUpper: kLower + deltaK };
+        },
+      });
+    } else {
+      out.push({
+        what: `every line ${sub} (K'' → K'' ${t > 0 ? '+' : '−'} 1)`,
+        relabel: (q) => ({ ...q, kLower: q.kLower + t, kUpper: q.kUpper + t }),
+      });
+    }
+  }
+  return out;
+}
+
+/**
+ * Fit every rival labelling of the lines and say whether the labels found win clearly (see the
+ * file comment for the rivals and the score).
+ * @returns the scores, the closest rival and a verdict in words
+ */
+export function assistantLabelCheck(input: AssistantLabelCheckInput): AssistantLabelCheck {
+  const { model, priors, auditOf } = input;
+  const used = input.lines.filter((l) => !l.isExcluded && l.status !== 'rejected');
+  const current = assistantPosteriorFit(model, priors, used);
+  const scale2 = Math.max(1, current.scale2);
+  const currentAudit = auditOf(current);
+  const missing = currentAudit?.missing ?? 0;
+  const score = current.chi2 / scale2 + current.priorChi2 + LABEL_LINE_PENALTY * missing;
+  const rivals: AssistantLabelRival[] = [];
+  for (const { what, relabel } of rivalsOf(model)) {
+    const kept: AssistantLine[] = [];
+    let nDropped = 0;
+    for (const l of used) {
+      const q = relabel(l);
+      if (q.jLower < 0 || q.jUpper < 0 || q.kLower < 0 || assignmentCheck(q, model) !== null) nDropped++;
+      else kept.push({ ...l, ...q });
+    }
+    if (kept.length === 0) continue;
+    const post = assistantPosteriorFit(model, priors, kept);
+    const rivalMissing = auditOf(post)?.missing ?? 0;
+    const chi2 = post.chi2 / scale2;
+    rivals.push({
+      what,
+      nKept: kept.length,
+      nDropped,
+      missing: rivalMissing,
+      chi2,
+      priorChi2: post.priorChi2,
+      score: chi2 + post.priorChi2 + LABEL_LINE_PENALTY * (nDropped + rivalMissing),
+    });
+  }
+  const closest = rivals.length ? rivals.reduce((a, b) => (b.score < a.score ? b : a)) : null;
+  const margin = closest ? closest.score - score : Infinity;
+  const isDecided = margin >= LABEL_DECISIVE_MARGIN;
+  const figures = (s: number, chi2: number, prior: number, dropped: number, miss: number) =>
+    `score ${s.toFixed(1)} (χ²/σ_w² ${chi2.toFixed(1)}, prior ${prior.toFixed(1)}, ${dropped} line(s) it cannot label, ${miss} strong line(s) on no peak)`;
+  const mine = figures(score, current.chi2 / scale2, current.priorChi2, 0, missing);
+  const text = !closest
+    ? `no rival labelling of the ${used.length} lines can be formed`
+    : isDecided
+      ? `the labels of the ${used.length} lines beat every rival by ≥ ${LABEL_DECISIVE_MARGIN} (closest: ${closest.what}, ${margin.toFixed(1)} worse)`
+      : margin < 0
+        ? `the ${used.length} lines fit better with ${closest.what}: ${figures(closest.score, closest.chi2, closest.priorChi2, closest.nDropped, closest.missing)} against ${mine}`
+        : `the ${used.length} lines fit almost as well with ${closest.what}: ${figures(closest.score, closest.chi2, closest.priorChi2, closest.nDropped, closest.missing)} against ${mine}; the difference ${margin.toFixed(1)} is below ${LABEL_DECISIVE_MARGIN}`;
+  return { score, missing, rivals, closest, margin, isDecided, text };
+}
