@@ -10,10 +10,11 @@ import { createFitSlice, type FitSlice } from './fitSlice';
 import { createHistorySlice, type HistorySlice } from './history';
 import { createModelSlice, type ModelSlice } from './modelSlice';
 import { createSpectrumSlice, type SpectrumSlice } from './spectrumSlice';
+import { createSystemSlice, type SystemSlice } from './systemSlice';
 import { createViewSlice, type ViewSlice } from './viewSlice';
 
 /** The whole workbench state. */
-export type BenchState = SpectrumSlice & ModelSlice & AssignmentsSlice & FitSlice & ViewSlice & HistorySlice & AnalysisSlice;
+export type BenchState = SpectrumSlice & ModelSlice & AssignmentsSlice & FitSlice & ViewSlice & HistorySlice & AnalysisSlice & SystemSlice;
 
 /** The store hook (`useBench(s => s.x)`) with getState/setState/subscribe/getInitialState. */
 export const useBench = create<BenchState>()((...a) => ({
@@ -24,6 +25,7 @@ export const useBench = create<BenchState>()((...a) => ({
   ...createViewSlice(...a),
   ...createHistorySlice(...a),
   ...createAnalysisSlice(...a),
+  ...createSystemSlice(...a),
 }));
 
 /** The same store, for non-React callers. */
