@@ -154,3 +154,15 @@ export function selectDrawnBands(s: BenchState): DrawnBands {
 export function assignmentBandKey(s: Pick<BenchState, 'activeBandKey'>, a: { band?: string; species?: string }): string | null {
   return bandKeyOfLine(a) ?? s.activeBandKey;
 }
+
+const activeAssignments = memoLast((assignments: BenchState['assignments'], activeBandKey: string | null) =>
+  assignments.filter((a) => assignmentBandKey({ activeBandKey }, a) === activeBandKey),
+);
+
+/**
+ * The assignments of the active band (all of them in a single-band session): what the one-band
+ * panels (combination differences) work on, so lines of two bands are never differenced together.
+ */
+export function selectActiveBandAssignments(s: BenchState): BenchState['assignments'] {
+  return s.system ? activeAssignments(s.assignments, s.activeBandKey) : s.assignments;
+}
