@@ -408,6 +408,9 @@ const walkContext = memoLast(
 
 /** The fit the walk predicts from: the last successful fit unless it was exactly determined. */
 function walkFit(s: BenchState): FitResult | null {
+  // A joint fit's keys name the system's states ("LB-7/v4.B"), which the one-band prediction cannot
+  // read: the walk then uses first-guess σ rather than σ from the wrong constants.
+  if (s.system) return null;
   const r = selectFitResult(s);
   return r && !r.isExactlyDetermined ? r : null;
 }
@@ -466,7 +469,11 @@ export function cursorAssignMatched(): boolean {
     return false;
   }
   if (!d) return false;
-  const basis = walkFit(s) ? 'σ from the current fit' : 'first-guess σ (no fit yet)';
+  const basis = walkFit(s)
+    ? 'σ from the current fit'
+    : s.system
+      ? 'first-guess σ (the joint fit gives no per-line σ to the walk yet)'
+      : 'first-guess σ (no fit yet)';
   if (d.kind === 'declined') {
     messagePost(
       'warning',
