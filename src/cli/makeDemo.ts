@@ -7,14 +7,19 @@
  *   truth.json  — the true model (model-file format) plus, under "notes", how the trace was made;
  *   model.json  — a first-guess model a user would start from (B within 0.3 %, origin within
  *                 0.2 cm^-1 of the truth, distortion constants rough);
- *   trace.csv   — the "measured" trace, header wavenumber_cm-1,transmittance.
+ *   trace.csv   — the "measured" trace, header wavenumber_cm-1,transmittance;
+ *   system.json, system-truth.json, system-trace.csv — the several-band demo (two isotopologues and
+ *                 a hot band, makeDemoSystem.ts) in the same way.
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { modelFileSerialize } from '../io/modelFile';
 import { bandLines } from '../physics/bandLines';
-import { stateConstantsFrom, type BandModel } from '../physics/model';
+import { stateConstantsFrom, type BandModel, type LineList } from '../physics/model';
+import { systemLines } from '../physics/system/systemLines';
+import { systemFileSerialize } from '../io/systemFileWrite';
+import { demoSystemFirstGuess, demoSystemTruth, DEMO_SYSTEM_FLOATED } from './makeDemoSystem';
 import { spectrumSynthesize } from '../physics/spectrum';
 
 /** Name written into both model files. */
@@ -137,8 +142,16 @@ export const DEMO_FLOATED = [
  * @returns columns and the facts written into truth.json
  */
 export function makeDemoTrace(truth: BandModel, random: () => number) {
+  return makeDemoTraceOf(bandLines(truth), truth.temperatureK, random);
+}
+
+/**
+ * The demo trace of any line list (makeDemoTrace's recipe: grid, Voigt sum, baseline, fringe, noise).
+ * @param lines lines with relative intensities (cm^-1)
+ * @param temperatureK for the Doppler width, K
+ */
+function makeDemoTraceOf(lines: LineList, temperatureK: number, random: () => number) {
   const t = DEMO_TRACE;
-  const lines = bandLines(truth);
   let lo = Infinity;
   let hi = -Infinity;
   for (let i = 0; i < lines.count; i++) {
@@ -150,7 +163,7 @@ export function makeDemoTrace(truth: BandModel, random: () => number) {
   const npoints = Math.floor((Math.ceil(hi + t.rangeMarginCm1) - fromCm1) / t.stepCm1) + 1;
   const grid = { fromCm1, stepCm1: t.stepCm1, npoints };
   const y = spectrumSynthesize(lines, grid, {
-    temperatureK: truth.temperatureK,
+    temperatureK,
     massAmu: t.massAmu,
     lorentzHwhmCm1: t.lorentzHwhmCm1,
   });
@@ -204,11 +217,34 @@ export function makeDemo(outDir: string): { points: number; lines: number; bytes
     modelFileSerialize({ model: guess, floated: DEMO_FLOATED, massAmu: DEMO_TRACE.massAmu, name: DEMO_NAME }),
   );
 
+  const csv = traceCsv(trace);
+  writeFileSync(join(outDir, 'trace.csv'), csv);
+  makeDemoSystemFiles(outDir);
+  return { points: trace.x.length, lines: trace.lines, bytes: csv.length };
+}
+
+function traceCsv(trace: { x: Float64Array; transmittance: Float64Array }): string {
   const rows: string[] = ['wavenumber_cm-1,transmittance'];
   for (let k = 0; k < trace.x.length; k++) rows.push(`${trace.x[k].toFixed(6)},${trace.transmittance[k].toFixed(5)}`);
-  const csv = rows.join('\n') + '\n';
-  writeFileSync(join(outDir, 'trace.csv'), csv);
-  return { points: trace.x.length, lines: trace.lines, bytes: csv.length };
+  return rows.join('\n') + '\n';
+}
+
+/** Seed of the several-band demo (its own stream, so the single-band files stay as they were). */
+const DEMO_SYSTEM_SEED = 0x4c42_0015;
+
+/**
+ * The several-band demo (src/cli/makeDemoSystem.ts): system.json (first guess, system-file format),
+ * system-truth.json and system-trace.csv (made as trace.csv, from every line of every band).
+ */
+function makeDemoSystemFiles(outDir: string): void {
+  const random = mulberry32(DEMO_SYSTEM_SEED);
+  const truth = demoSystemTruth();
+  const guess = demoSystemFirstGuess(truth, random);
+  const trace = makeDemoTraceOf(systemLines(truth), truth.temperatureK, random);
+  const name = 'LB-7 and LB-7-66 (fictitious prolate tops), nu4 and a hot band';
+  writeFileSync(join(outDir, 'system.json'), systemFileSerialize(guess, { floated: DEMO_SYSTEM_FLOATED, name }));
+  writeFileSync(join(outDir, 'system-truth.json'), systemFileSerialize(truth, { floated: DEMO_SYSTEM_FLOATED, name }));
+  writeFileSync(join(outDir, 'system-trace.csv'), traceCsv(trace));
 }
 
 const isEntry = process.argv[1] && /makeDemo\.ts$/.test(process.argv[1]);

@@ -21,6 +21,10 @@ export interface Assignment extends TransitionQuanta {
   note: string;
   /** Identifier of the observed peak this assignment belongs to, if any. */
   peakId?: string;
+  /** Band name within its species, in a several-band session (absent: the session's one band). */
+  band?: string;
+  /** Species (molecule or isotopologue) name, with `band`. */
+  species?: string;
 }
 
 /** Default 1σ uncertainty of a line position when none is given, cm^-1 (headless contract). */

@@ -23,10 +23,16 @@ export const SIMULATED_LINES_COLUMNS = [
  * full double precision (shortest round-trip form).
  * @param lines predicted lines (cm^-1, relative intensities)
  * @param shape rotor shape (for labels)
+ * @param bands several bands: each line's band (index into names) and the bands' names, written as
+ *   `band` and `species` columns (names are system-file names: no commas or quotes)
  */
-export function simulatedLinesCsv(lines: LineList, shape: TopShape): string {
+export function simulatedLinesCsv(
+  lines: LineList,
+  shape: TopShape,
+  bands?: { bandOfLine: ArrayLike<number>; names: readonly { band: string; species: string }[] },
+): string {
   const order = Array.from({ length: lines.count }, (_, i) => i).sort((a, b) => lines.wavenumberCm1[a] - lines.wavenumberCm1[b]);
-  const rows: string[] = [SIMULATED_LINES_COLUMNS.join(',')];
+  const rows: string[] = [[...SIMULATED_LINES_COLUMNS, ...(bands ? ['band', 'species'] : [])].join(',')];
   for (const i of order) {
     rows.push(
       [
@@ -39,6 +45,7 @@ export function simulatedLinesCsv(lines: LineList, shape: TopShape): string {
         lines.intensity[i],
         lines.eLowerCm1[i],
         lines.honlLondon[i],
+        ...(bands ? [bands.names[bands.bandOfLine[i]].band, bands.names[bands.bandOfLine[i]].species] : []),
       ].join(','),
     );
   }

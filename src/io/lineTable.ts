@@ -266,6 +266,11 @@ export interface LineTableSerializeOptions {
   calcCm1?: ArrayLike<number>;
   /** Outlier flags from a fit, parallel to the assignments. */
   isOutlier?: ArrayLike<boolean>;
+  /**
+   * Write the `band` and `species` columns (io/systemLineTable.ts reads them) after the usual ones,
+   * from each assignment's band and species (blank when it names none). @default false
+   */
+  hasBandColumns?: boolean;
 }
 
 /** Shortest text that reads back as the same double (String drops the sign of −0). */
@@ -316,7 +321,9 @@ export function lineTableSerialize(assignments: readonly Assignment[], options: 
       a.note,
       a.id,
       a.peakId ?? '',
+      ...(options.hasBandColumns ? [a.band ?? '', a.species ?? ''] : []),
     ];
   });
-  return Papa.unparse({ fields: [...LINE_TABLE_COLUMNS], data }, { newline: '\n', quotes: false }) + '\n';
+  const fields = options.hasBandColumns ? [...LINE_TABLE_COLUMNS, 'band', 'species'] : [...LINE_TABLE_COLUMNS];
+  return Papa.unparse({ fields, data }, { newline: '\n', quotes: false }) + '\n';
 }

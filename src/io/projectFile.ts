@@ -17,6 +17,7 @@ import { z } from 'zod';
 import type { Assignment } from '../fit/assignment';
 import type { FitOutcome } from '../fit/fitTypes';
 import { PARAMETER_NAMES, stateConstantsFrom, type BandModel } from '../physics/model';
+import type { SystemModel } from '../physics/system/systemModel';
 import { modelFileFromJson } from './modelFile';
 import { INPUT_LIMITS, inputExcerpt, inputJsonParse } from './inputLimits';
 import type { Trace, TraceImportReport } from './trace';
@@ -76,6 +77,17 @@ export interface ProjectSession {
   farToleranceCm1: number;
   fit: ProjectFit;
   view: ProjectView;
+  /** A several-band session's system (absent or null: a single-band session; added later). */
+  system?: ProjectSystem | null;
+}
+
+/** The several-band part of a session: the system, its floated keys and ties, the active band, the bands switched off. */
+export interface ProjectSystem {
+  model: SystemModel;
+  floated: string[];
+  ties: Record<string, string>;
+  activeBandKey: string | null;
+  hiddenBands: string[];
 }
 
 /** Result of reading a project file. */
@@ -219,6 +231,40 @@ const assignmentSchema = z.object({
   isExcluded: z.boolean(),
   note: z.string(),
   peakId: z.string().optional(),
+  band: z.string().max(200).optional(),
+  species: z.string().max(200).optional(),
+});
+const systemStateSchema = z.object({
+  name: z.string().min(1).max(200),
+  isDegenerate: z.boolean(),
+  constants: z.record(z.string().max(40), finite),
+});
+const systemSchema = z.object({
+  model: z.object({
+    temperatureK: z.number().refine((t) => Number.isFinite(t) && t > 0, 'a temperature > 0 K'),
+    jMax: z.number().int().min(0).max(INPUT_LIMITS.maxModelJ),
+    kMax: z.number().int().min(0).max(INPUT_LIMITS.maxModelK),
+    species: z
+      .array(
+        z.object({
+          name: z.string().min(1).max(200),
+          shape: z.enum(['prolate', 'oblate', 'linear']),
+          massAmu: z.number().positive().optional(),
+          abundance: z.number().min(0),
+          spinWeights: z.array(z.number().min(0)).min(1).max(INPUT_LIMITS.maxSpinWeights),
+          states: z.array(systemStateSchema).min(1).max(200),
+          bands: z
+            .array(z.object({ name: z.string().min(1).max(200), upper: z.string(), lower: z.string(), strength: z.number().min(0) }))
+            .max(500),
+        }),
+      )
+      .min(1)
+      .max(50),
+  }),
+  floated: z.array(z.string().max(500)),
+  ties: z.record(z.string(), z.string()),
+  activeBandKey: z.string().nullable(),
+  hiddenBands: z.array(z.string()),
 });
 const encodedTraceSchema = z.object({
   encoding: z.literal('float64-le-base64'),
@@ -287,12 +333,13 @@ const FIELD_SCHEMAS = {
   farToleranceCm1: z.number().positive(),
   fit: fitSchema,
   view: viewSchema,
+  system: systemSchema.nullable(),
 } as const;
 
 type FieldName = keyof typeof FIELD_SCHEMAS;
 
 /** Fields added after version 2 was first written: a file without them is complete, and says nothing. */
-const FIELDS_ADDED_LATER: ReadonlySet<FieldName> = new Set(['massSource']);
+const FIELDS_ADDED_LATER: ReadonlySet<FieldName> = new Set(['massSource', 'system']);
 
 function issueText(issue: z.core.$ZodIssue): string {
   const path = issue.path.map((p) => (typeof p === 'number' ? `[${p}]` : `.${String(p)}`)).join('');

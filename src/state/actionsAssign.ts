@@ -22,6 +22,20 @@ import { candidateHeightScaleGuess, candidatesRank, quantaKey, type Candidate } 
 import { memoLast } from './memo';
 import { quantaLabel, selectAssignedKeys, selectBand, selectFitResult, selectPeaks } from './selectors';
 import { benchStore, type BenchState } from './store';
+import { assignmentBandKey, selectDrawnBands, type DrawnBands } from './selectorsSystem';
+import { systemActiveEntry } from './systemSync';
+import { lineLabelAscii, lineLabelHtml } from '../physics/lineLabel';
+
+/** Band and species of the active band (several-band session), or null. */
+function activeRef(s: BenchState): { band: string; species: string } | null {
+  const e = systemActiveEntry(s);
+  return e ? { band: e.band, species: e.species } : null;
+}
+
+/** True when an assignment belongs to the active band (always, in a single-band session). */
+function isActiveBandLine(s: BenchState, a: { band?: string; species?: string }): boolean {
+  return !s.system || assignmentBandKey(s, a) === s.activeBandKey;
+}
 
 /** Ladder key ("r:3:Q") of a line's series. */
 export function ladderKeyOf(q: TransitionQuanta): string {
@@ -92,9 +106,67 @@ const candidates = memoLast(
   },
 );
 
+/**
+ * Candidates from every band switched on (several-band session): the same ranking over the drawn
+ * lines (intensities on one scale), each band's first-guess σ from its own B″ (the joint fit's
+ * prediction σ are not propagated per line yet, so the first-guess σ is used with a fit too).
+ */
+const candidatesSystem = memoLast(
+  (
+    target: CandidateTarget | null,
+    drawn: DrawnBands,
+    peaks: PeakList | null,
+    assignments: BenchState['assignments'],
+    activeBandKey: string | null,
+    hasFit: boolean,
+    minIntensity: number,
+  ): Candidate[] => {
+    if (!target || !drawn.entries || !drawn.bandOfLine) return NO_CANDIDATES;
+    const { lines, entries, bandOfLine } = drawn;
+    const bOf = entries.map((e) => Math.abs(e.view?.lower.B ?? 0));
+    const window = Math.max(...bOf.map((b) => Math.max(0.05, (hasFit ? 1.2 : 2.5) * b)), 0.05);
+    const p = peaks ? peakNearest(peaks, target.peakCm1, 1e-6) : -1;
+    const assigned = new Set(assignments.map((a) => `${assignmentBandKey({ activeBandKey }, a)}|${quantaKey(a)}`));
+    const ranked = candidatesRank(lines, target.peakCm1, {
+      windowCm1: window,
+      shape: entries[0].view?.shape ?? 'prolate',
+      peakSigmaCm1: Number.isFinite(target.peakSigmaCm1) ? target.peakSigmaCm1 : 0,
+      predictionSigmaCm1: (i) => Math.max(0.001, FIRST_GUESS_SIGMA_B * (hasFit ? 0.1 : 1) * bOf[bandOfLine[i]]),
+      ...(peaks && p >= 0
+        ? { peakHeight: peaks.height[p], heightScale: heightScaleGuess(peaks, { lines } as MatchSingleContext['cat']) }
+        : {}),
+      isOffered: (i) => lines.intensity[i] >= minIntensity,
+    });
+    return ranked.map((c) => {
+      const e = entries[bandOfLine[c.lineIndex]];
+      const shape = e.view?.shape ?? 'prolate';
+      const deltaK = c.kUpper - c.kLower;
+      const deltaJ = c.jUpper - c.jLower;
+      return {
+        ...c,
+        band: e.band,
+        species: e.species,
+        isAssigned: assigned.has(`${e.key}|${quantaKey(c)}`),
+        labelAscii: lineLabelAscii(deltaK, deltaJ, c.kLower, c.jLower, shape),
+        labelHtml: lineLabelHtml(deltaK, deltaJ, c.kLower, c.jLower, shape),
+      };
+    });
+  },
+);
+
 /** Ranked candidates for the peak whose list is open ([] when none is). */
 export function selectCandidates(s: BenchState): Candidate[] {
   if (!s.candidateTarget) return NO_CANDIDATES;
+  if (s.system)
+    return candidatesSystem(
+      s.candidateTarget,
+      selectDrawnBands(s),
+      selectPeaks(s).peaks,
+      s.assignments,
+      s.activeBandKey,
+      s.fitOutcome?.ok === true,
+      s.minIntensity,
+    );
   return candidates(
     s.candidateTarget,
     walkContextOf(s),
@@ -115,16 +187,23 @@ function peakTarget(peaks: PeakList, i: number): CandidateTarget {
  * Assign quantum numbers to an observed peak (one undo step). The new row is selected.
  * @returns the assignment id
  */
-export function assignToPeak(q: TransitionQuanta, target: CandidateTarget): string {
+export function assignToPeak(q: TransitionQuanta & { band?: string; species?: string }, target: CandidateTarget): string {
   const s = benchStore.getState();
-  const label = quantaLabel(q, s.model.shape);
+  // In a several-band session a line names its band: the candidate's, else the active band's (rung cursor).
+  const ref = s.system ? (q.band !== undefined && q.species !== undefined ? { band: q.band, species: q.species } : activeRef(s)) : null;
+  const label = quantaLabel(q, s.model.shape) + (ref ? ` (${ref.band}, ${ref.species})` : '');
   const newId = `a${s.nextAssignmentNumber}`;
   let id = newId;
   benchUpdate(
     `assign ${label}`,
     (st) => {
       const uncertaintyCm1 = Math.max(0.001, Number.isFinite(target.peakSigmaCm1) ? target.peakSigmaCm1 : 0);
-      const r = assignmentsAdd(st.assignments, { ...q, observedCm1: target.peakCm1, peakId: target.peakId, uncertaintyCm1 }, newId);
+      const quanta = { jUpper: q.jUpper, kUpper: q.kUpper, jLower: q.jLower, kLower: q.kLower };
+      const r = assignmentsAdd(
+        st.assignments,
+        { ...quanta, ...(ref ?? {}), observedCm1: target.peakCm1, peakId: target.peakId, uncertaintyCm1 },
+        newId,
+      );
       id = r.id;
       return {
         assignments: r.list,
@@ -200,7 +279,7 @@ export function traceClickAt(positionCm1: number, toleranceCm1: number): void {
  * A click on a rung: with a candidate list open, assign the rung to that peak; otherwise select
  * the rung (clicking the selected rung again deselects it).
  */
-export function rungClick(q: TransitionQuanta): void {
+export function rungClick(q: TransitionQuanta & { band?: string; species?: string }): void {
   const s = benchStore.getState();
   if (s.candidateTarget) {
     assignToPeak(q, s.candidateTarget);
@@ -329,6 +408,9 @@ const walkContext = memoLast(
 
 /** The fit the walk predicts from: the last successful fit unless it was exactly determined. */
 function walkFit(s: BenchState): FitResult | null {
+  // A joint fit's keys name the system's states ("LB-7/v4.B"), which the one-band prediction cannot
+  // read: the walk then uses first-guess σ rather than σ from the wrong constants.
+  if (s.system) return null;
   const r = selectFitResult(s);
   return r && !r.isExactlyDetermined ? r : null;
 }
@@ -387,7 +469,11 @@ export function cursorAssignMatched(): boolean {
     return false;
   }
   if (!d) return false;
-  const basis = walkFit(s) ? 'σ from the current fit' : 'first-guess σ (no fit yet)';
+  const basis = walkFit(s)
+    ? 'σ from the current fit'
+    : s.system
+      ? 'first-guess σ (the joint fit gives no per-line σ to the walk yet)'
+      : 'first-guess σ (no fit yet)';
   if (d.kind === 'declined') {
     messagePost(
       'warning',
@@ -395,7 +481,7 @@ export function cursorAssignMatched(): boolean {
     );
     return false;
   }
-  const existing = s.assignments.find((a) => quantaKey(a) === quantaKey(q));
+  const existing = s.assignments.find((a) => quantaKey(a) === quantaKey(q) && isActiveBandLine(s, a));
   if (existing && existing.observedCm1 === peaks.wavenumberCm1[d.peak]) {
     cursorStep(1);
     return false;

@@ -5,6 +5,7 @@
  */
 import { historyChanged, historyRecord, historyRedo, historyUndo } from './history';
 import { benchStore, type BenchState } from './store';
+import { systemSyncPatch } from './systemSync';
 import type { BenchMessage } from './viewSlice';
 
 /** How an action treats undo history. */
@@ -27,7 +28,7 @@ export interface UpdateOptions {
  */
 export function benchUpdate(label: string, recipe: (s: BenchState) => Partial<BenchState>, options: UpdateOptions): void {
   const before = benchStore.getState();
-  const patch = recipe(before);
+  const patch = systemSyncPatch(before, recipe(before));
   if (!options.history) {
     benchStore.setState(patch);
     return;

@@ -6,7 +6,8 @@ import { fitKeyParse } from '../fit/bandDesign';
 import type { FitInput, FitOutcome } from '../fit/fitTypes';
 import { constantKeysToNames } from '../io/constantName';
 import type { BandModel, ParameterName } from '../physics/model';
-import { solverFit } from '../workers/solverClient';
+import { solverFit, solverSystemFit } from '../workers/solverClient';
+import { systemFitAsFitResult, systemFitInputOf, systemViewFields, systemWithFitted } from './systemFitInput';
 import { benchUpdate, messagePost } from './actionsCore';
 import { benchStore, type BenchState } from './store';
 
@@ -46,17 +47,37 @@ export function fitOutcomeSummary(outcome: FitOutcome): string {
  * Start a fit of the current assignments in the worker; a running fit is cancelled first.
  * @param runner the solver (tests pass fitBand wrapped in a promise) @default solverFit
  */
-export async function fitStart(runner: typeof solverFit = solverFit): Promise<void> {
+export async function fitStart(
+  runner: typeof solverFit = solverFit,
+  systemRunner: typeof solverSystemFit = solverSystemFit,
+): Promise<void> {
   fitAbort?.abort();
   const ctrl = new AbortController();
   fitAbort = ctrl;
   const s = benchStore.getState();
-  const input = fitInputOf(s);
   const ids = s.assignments.map((a) => a.id);
+  let run: (signal: AbortSignal, onProgress: (iteration: number, chi2: number) => void) => Promise<FitOutcome>;
+  if (s.system) {
+    // Several bands: the joint fit, every band at once (shared states are one set of constants).
+    const built = systemFitInputOf(s);
+    if (!built.ok) {
+      fitAbort = null;
+      messagePost('error', `The joint fit was not started: ${built.message}`);
+      return;
+    }
+    const model = s.model;
+    run = async (signal, onProgress) => {
+      const out = await systemRunner(built.input, signal, onProgress);
+      return out.ok ? { ok: true, result: systemFitAsFitResult(out.result, model) } : out;
+    };
+  } else {
+    const input = fitInputOf(s);
+    run = (signal, onProgress) => runner(input, signal, onProgress);
+  }
   benchUpdate('fit start', () => ({ isFitRunning: true, fitProgress: null }), { history: false });
   let outcome: FitOutcome;
   try {
-    outcome = await runner(input, ctrl.signal, (iteration, chi2) => {
+    outcome = await run(ctrl.signal, (iteration, chi2) => {
       if (fitAbort === ctrl) benchStore.setState({ fitProgress: { iteration, chi2 } });
     });
   } catch (err) {
@@ -110,6 +131,15 @@ export function fitAccept(): void {
   const s = benchStore.getState();
   if (!s.fitOutcome?.ok) return;
   const params = s.fitOutcome.result.parameters;
+  if (s.system) {
+    const system = systemWithFitted(s.system, s.systemFloated, s.systemTies, params);
+    benchUpdate(
+      'accept fitted constants',
+      (st) => ({ ...systemViewFields({ ...st, system }), system, systemBeforeAccept: st.system, isFitAccepted: true }),
+      { history: true, extraKeys: ['systemBeforeAccept', 'isFitAccepted'] },
+    );
+    return;
+  }
   benchUpdate(
     'accept fitted constants',
     (st) => ({ model: modelWithFitted(st.model, params), modelBeforeAccept: st.model, isFitAccepted: true }),
@@ -122,6 +152,15 @@ export function fitAccept(): void {
 /** Go back to the model in force before the fitted constants were accepted; one undo step. */
 export function fitRevert(): void {
   const s = benchStore.getState();
+  if (s.system && s.systemBeforeAccept) {
+    const system = s.systemBeforeAccept;
+    benchUpdate(
+      'keep previous constants',
+      (st) => ({ ...systemViewFields({ ...st, system }), system, systemBeforeAccept: null, isFitAccepted: false }),
+      { history: true, extraKeys: ['systemBeforeAccept', 'isFitAccepted'] },
+    );
+    return;
+  }
   if (!s.modelBeforeAccept) return;
   benchUpdate(
     'keep previous constants',
@@ -136,11 +175,24 @@ export function fitRevert(): void {
  * Apply a refused fit's suggestion: fix the keys it names (one undo step), then fit again.
  * @param runner as for fitStart
  */
-export async function fitApplySuggestion(runner: typeof solverFit = solverFit): Promise<void> {
+export async function fitApplySuggestion(
+  runner: typeof solverFit = solverFit,
+  systemRunner: typeof solverSystemFit = solverSystemFit,
+): Promise<void> {
   const s = benchStore.getState();
   if (!s.fitOutcome || s.fitOutcome.ok) return;
   const fix = new Set(s.fitOutcome.error.fixSuggested);
   if (fix.size === 0) return;
-  benchUpdate(`fix ${[...fix].join(', ')}`, (st) => ({ floated: st.floated.filter((k) => !fix.has(k)) }), { history: true });
-  await fitStart(runner);
+  if (s.system) {
+    // Several bands: the suggestion names system keys ("LB-7/v3.B").
+    benchUpdate(
+      `fix ${[...fix].join(', ')}`,
+      (st) => {
+        const systemFloated = st.systemFloated.filter((k) => !fix.has(k));
+        return { systemFloated, floated: systemViewFields({ ...st, systemFloated }).floated };
+      },
+      { history: true },
+    );
+  } else benchUpdate(`fix ${[...fix].join(', ')}`, (st) => ({ floated: st.floated.filter((k) => !fix.has(k)) }), { history: true });
+  await fitStart(runner, systemRunner);
 }

@@ -5,6 +5,7 @@
  */
 import type { Assignment } from '../fit/assignment';
 import { lineTableParse } from '../io/lineTable';
+import { systemLineTableParse, type SystemLineTable } from '../io/systemLineTable';
 import { modelFileParse } from '../io/modelFile';
 import type { Trace, TraceImportOutcome, TraceImportReport } from '../io/trace';
 import type { TraceImportOptions } from '../io/traceImportOptions';
@@ -18,6 +19,8 @@ import { projectImport } from './actionsProject';
 import { confirmAsk } from './actionsSession';
 import { demoFallbackTrace } from './demoFallback';
 import { benchStore } from './store';
+import { systemTableAssignments } from './systemLineRows';
+import { systemActiveEntry } from './systemSync';
 import type { TraceSource } from './spectrumSlice';
 
 /** The file the current trace came from (kept for re-import with other choices; not persisted). */
@@ -267,8 +270,10 @@ export function lineTableLoadText(text: string, fileName: string): boolean {
   let rows: Assignment[];
   let warnings: string[];
   let lineNumbers: number[];
+  let systemTable: SystemLineTable | null = null;
   try {
     const table = lineTableParse(text, { fileName });
+    if (benchStore.getState().system) systemTable = systemLineTableParse(text, { fileName });
     rows = table.assignments;
     warnings = table.warnings;
     lineNumbers = table.lineNumbers;
@@ -277,15 +282,20 @@ export function lineTableLoadText(text: string, fileName: string): boolean {
     return false;
   }
   const s = benchStore.getState();
-  // Transitions the band cannot have (ΔK = ±2 in a perpendicular band, …) never enter the list.
-  const { kept, refused } = assignmentsSplitAllowed(rows, lineNumbers, s.model);
+  const active = systemActiveEntry(s);
+  // Transitions the band cannot have (ΔK = ±2 in a perpendicular band, …) never enter the list; with
+  // several bands each row is checked in its own band (band and species columns, else the active band).
+  const { kept, refused } =
+    s.system && active && systemTable
+      ? systemTableAssignments(systemTable, s.system, active)
+      : assignmentsSplitAllowed(rows, lineNumbers, s.model);
   rows = kept;
   let n = s.nextAssignmentNumber;
   if (rows.length > 0) {
     benchUpdate(
       `load line table ${fileName}`,
       (st) => {
-        const key = (a: Assignment) => `${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`;
+        const key = (a: Assignment) => `${a.species ?? ''}/${a.band ?? ''}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`;
         const incoming = new Map(rows.map((r) => [key(r), r]));
         const kept = st.assignments.filter((a) => !incoming.has(key(a)));
         const ids = new Set(kept.map((a) => a.id));
@@ -303,7 +313,7 @@ export function lineTableLoadText(text: string, fileName: string): boolean {
       .join('; ');
     messagePost(
       'warning',
-      `Read ${rows.length} assigned line${rows.length === 1 ? '' : 's'} from ${fileName}; refused ${refused.length} row${refused.length === 1 ? '' : 's'} whose transition cannot exist in this ${s.model.band} band (${shown}${refused.length > 5 ? '; …' : ''}).`,
+      `Read ${rows.length} assigned line${rows.length === 1 ? '' : 's'} from ${fileName}; refused ${refused.length} row${refused.length === 1 ? '' : 's'} whose transition cannot exist in ${s.system ? 'its' : `this ${s.model.band}`} band (${shown}${refused.length > 5 ? '; …' : ''}).`,
     );
     return rows.length > 0;
   }

@@ -5,6 +5,9 @@ import { modelAllowedParameters, modelFileParse, type ModelFile } from '../io/mo
 import { bandTypeFromSymmetry } from '../physics/bandSymmetry';
 import { wavenumberToMhz } from '../physics/constants';
 import type { BandModel, BandType, ParameterName, TopShape } from '../physics/model';
+import { systemFileDetect, systemFileParse, type SystemFile } from '../io/systemFile';
+import { systemLoad } from './actionsSystem';
+import { systemSliceInitial } from './systemSlice';
 import { benchUpdate, messagePost } from './actionsCore';
 import { MASS_DEFAULT_AMU, type ModelSymmetry } from './modelSlice';
 
@@ -173,9 +176,11 @@ export function modelReplace(file: Pick<ModelFile, 'model' | 'floated' | 'name' 
         symmetry: null,
         isFitAccepted: false,
         modelBeforeAccept: null,
+        // A single-band model ends a several-band session (its lines' band names are kept).
+        ...systemSliceInitial(),
       };
     },
-    { history: true, extraKeys: ['modelName', 'massAmu', 'massSource', 'isFitAccepted', 'modelBeforeAccept'] },
+    { history: true, extraKeys: ['modelName', 'massAmu', 'massSource', 'isFitAccepted', 'modelBeforeAccept', 'systemTies', 'hiddenBands'] },
   );
 }
 
@@ -184,6 +189,7 @@ export function modelReplace(file: Pick<ModelFile, 'model' | 'floated' | 'name' 
  * @returns true when loaded; on failure a message is posted and nothing changes
  */
 export function modelLoadText(text: string, fileName: string): boolean {
+  if (isSystemFileText(text)) return systemLoadText(text, fileName);
   let file: ModelFile;
   try {
     file = modelFileParse(text);
@@ -194,6 +200,37 @@ export function modelLoadText(text: string, fileName: string): boolean {
   modelReplace({ ...file, name: file.name ?? fileName }, `load model ${fileName}`);
   for (const w of file.warnings) messagePost('warning', `${fileName}: ${w}`);
   messagePost('info', `Model loaded from ${fileName}.`);
+  return true;
+}
+
+/** True when a model file's text is a system file (a JSON object with a `species` field). */
+function isSystemFileText(text: string): boolean {
+  try {
+    return systemFileDetect(JSON.parse(text));
+  } catch {
+    return false;
+  }
+}
+
+/**
+ * Read a system file (several bands, species) and make it the session's model.
+ * @returns true when loaded; on failure a message names the field and nothing changes
+ */
+function systemLoadText(text: string, fileName: string): boolean {
+  let file: SystemFile;
+  try {
+    file = systemFileParse(text);
+  } catch (err) {
+    messagePost('error', `Could not read the system file ${fileName}: ${(err as Error).message}. The current model is unchanged.`);
+    return false;
+  }
+  const floated = file.parameters.filter((p) => p.status === 'floated').map((p) => p.key);
+  const ties: Record<string, string> = {};
+  for (const p of file.parameters) if (p.status === 'tied' && p.same) ties[p.key] = p.same;
+  if (!systemLoad({ system: file.model, floated, ties, name: fileName }, `load system ${fileName}`)) return false;
+  for (const w of file.warnings) messagePost('warning', `${fileName}: ${w}`);
+  const nBands = file.model.species.reduce((n, sp) => n + sp.bands.length, 0);
+  messagePost('info', `System loaded from ${fileName}: ${file.model.species.length} species, ${nBands} bands.`);
   return true;
 }
 

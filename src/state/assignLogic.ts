@@ -12,6 +12,9 @@ export interface AssignmentDraft extends TransitionQuanta {
   peakId?: string;
   /** 1σ of the position, cm^-1. @default ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1 */
   uncertaintyCm1?: number;
+  /** Band and species in a several-band session (the same quanta in two bands are two lines). */
+  band?: string;
+  species?: string;
 }
 
 /** Identifier of a peak at a position: its centre to 1e-5 cm^-1. */
@@ -37,7 +40,13 @@ export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDra
   if (!Number.isFinite(draft.observedCm1)) throw new Error(`assignmentsAdd: observedCm1 must be finite, got ${draft.observedCm1}`);
   // Numbers compared directly: no key string per row on every click.
   const existing = list.find(
-    (a) => a.jUpper === draft.jUpper && a.kUpper === draft.kUpper && a.jLower === draft.jLower && a.kLower === draft.kLower,
+    (a) =>
+      a.jUpper === draft.jUpper &&
+      a.kUpper === draft.kUpper &&
+      a.jLower === draft.jLower &&
+      a.kLower === draft.kLower &&
+      a.band === draft.band &&
+      a.species === draft.species,
   );
   let out: Assignment[];
   let resultId: string;
@@ -70,6 +79,7 @@ export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDra
         isExcluded: false,
         note: '',
         ...(draft.peakId !== undefined ? { peakId: draft.peakId } : {}),
+        ...(draft.band !== undefined && draft.species !== undefined ? { band: draft.band, species: draft.species } : {}),
       },
     ];
   }

@@ -25,6 +25,9 @@ export interface Candidate extends TransitionQuanta {
   isAssigned: boolean;
   /** Much weaker (< 1 %) than the strongest line in the window. */
   isWeak: boolean;
+  /** Band and species of the line in a several-band session. */
+  band?: string;
+  species?: string;
 }
 
 /** Options of candidatesRank. */

@@ -6,6 +6,7 @@
 import type { StateCreator } from 'zustand';
 import type { Assignment } from '../fit/assignment';
 import type { BandModel } from '../physics/model';
+import type { SystemModel } from '../physics/system/systemModel';
 import type { ModelSymmetry } from './modelSlice';
 import type { BenchState } from './store';
 
@@ -16,6 +17,10 @@ export interface HistorySnapshot {
   symmetry: ModelSymmetry | null;
   minIntensity: number;
   assignments: Assignment[];
+  /** The several-band model, its floated keys and the active band (absent in snapshots taken before systems). */
+  system?: SystemModel | null;
+  systemFloated?: string[];
+  activeBandKey?: string | null;
   /** Short description of the change that followed this snapshot ("assign rQ3(12)"). */
   label: string;
   /**
@@ -58,6 +63,11 @@ export function historySnapshot(s: HistoryTracked, label: string, extraKeys?: re
     assignments: s.assignments,
     label,
   };
+  if (s.system !== undefined) {
+    snap.system = s.system;
+    snap.systemFloated = s.systemFloated;
+    snap.activeBandKey = s.activeBandKey;
+  }
   if (extraKeys && extraKeys.length > 0) {
     const extra: Record<string, unknown> = {};
     for (const k of extraKeys) extra[k] = (s as unknown as Record<string, unknown>)[k];
@@ -73,7 +83,10 @@ export function historyChanged(a: HistoryTracked, b: HistoryTracked): boolean {
     a.floated !== b.floated ||
     a.symmetry !== b.symmetry ||
     a.minIntensity !== b.minIntensity ||
-    a.assignments !== b.assignments
+    a.assignments !== b.assignments ||
+    a.system !== b.system ||
+    a.systemFloated !== b.systemFloated ||
+    a.activeBandKey !== b.activeBandKey
   );
 }
 

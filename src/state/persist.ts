@@ -102,6 +102,10 @@ function saveRelevant(a: BenchState, b: BenchState): boolean {
   return (
     a.model !== b.model ||
     a.floated !== b.floated ||
+    a.system !== b.system ||
+    a.systemFloated !== b.systemFloated ||
+    a.activeBandKey !== b.activeBandKey ||
+    a.hiddenBands !== b.hiddenBands ||
     a.assignments !== b.assignments ||
     a.trace !== b.trace ||
     a.fitOutcome !== b.fitOutcome ||

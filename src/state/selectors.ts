@@ -16,6 +16,8 @@ import { quantaKey } from './candidateRank';
 import { memoLast } from './memo';
 import { simulationBuild, type SimulatedSpectrum } from './simulation';
 import type { BenchState } from './store';
+import { selectSystemPrediction } from './systemPredict';
+import { systemEntriesOf } from './systemSync';
 
 /** Predicted lines and their ladders, or the reason the model gives none. */
 export interface PredictedBand {
@@ -131,6 +133,12 @@ export interface AssignmentRowsInput {
   fitLineIds: readonly string[];
   /** Far-from-prediction tolerance without a fit, cm^-1. */
   farToleranceCm1: number;
+  /**
+   * Several bands: each band's single-band model by key "species/band" (an assignment is calculated
+   * with its own band's model), and the band of assignments that name none. Absent: one band, `model`.
+   */
+  bandModels?: ReadonlyMap<string, BandModel> | null;
+  activeBandKey?: string | null;
 }
 
 /** A row with the prediction 1σ it was judged with (cm^-1, null without a fit). */
@@ -160,7 +168,14 @@ function rowsOutlierIds(outcome: FitOutcome | null, fitLineIds: readonly string[
 }
 
 function isSameQuanta(a: Assignment, b: Assignment): boolean {
-  return a.jUpper === b.jUpper && a.kUpper === b.kUpper && a.jLower === b.jLower && a.kLower === b.kLower;
+  return (
+    a.jUpper === b.jUpper &&
+    a.kUpper === b.kUpper &&
+    a.jLower === b.jLower &&
+    a.kLower === b.kLower &&
+    a.band === b.band &&
+    a.species === b.species
+  );
 }
 
 function isSameRow(x: AssignmentRow, y: AssignmentRow): boolean {
@@ -197,16 +212,24 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
     p.model === input.model &&
     p.fitOutcome === input.fitOutcome &&
     p.fitLineIds === input.fitLineIds &&
-    p.farToleranceCm1 === input.farToleranceCm1
+    p.farToleranceCm1 === input.farToleranceCm1 &&
+    p.bandModels === input.bandModels &&
+    p.activeBandKey === input.activeBandKey
   ) {
     return prev;
   }
   const { assignments, model, fitOutcome, fitLineIds, farToleranceCm1 } = input;
-  const isSameModel = p?.model === model;
-  const isSameShape = p?.model.shape === model.shape;
+  const bandModels = input.bandModels ?? null;
+  const isSameModel = p?.model === model && p?.bandModels === input.bandModels && p?.activeBandKey === input.activeBandKey;
+  const isSameShape = p?.model.shape === model.shape && isSameModel;
+  // The joint fit's keys are the system's, which the one-band prediction σ cannot read.
+  const modelOf = (a: Assignment): BandModel | null =>
+    bandModels
+      ? (bandModels.get(a.band !== undefined && a.species !== undefined ? `${a.species}/${a.band}` : (input.activeBandKey ?? '')) ?? null)
+      : model;
   const isSameFit = p?.fitOutcome === fitOutcome && p?.fitLineIds === fitLineIds;
   const isSameContext = isSameModel && isSameFit && p?.farToleranceCm1 === farToleranceCm1;
-  const result = rowsFitResult(fitOutcome);
+  const result = bandModels ? null : rowsFitResult(fitOutcome);
   const outlierIds = rowsOutlierIds(fitOutcome, fitLineIds);
   const old = prev?.entryOf;
   const n = assignments.length;
@@ -247,14 +270,14 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
       const hasSameQuanta = e !== undefined && isSameQuanta(e.row.a, a);
       let sigmaPredCm1: number | null = null;
       if (result) sigmaPredCm1 = e && e.row.a === a && isSameFit ? e.sigmaPredCm1 : sigmas![k++];
+      const m = modelOf(a);
       const calcCm1 =
-        e && hasSameQuanta && isSameModel ? e.row.calcCm1 : transitionWavenumber(model, a.jUpper, a.kUpper, a.jLower, a.kLower);
+        e && hasSameQuanta && isSameModel ? e.row.calcCm1 : m ? transitionWavenumber(m, a.jUpper, a.kUpper, a.jLower, a.kLower) : NaN;
+      const shape = m?.shape ?? model.shape;
       const deltaK = a.kUpper - a.kLower;
       const deltaJ = a.jUpper - a.jLower;
-      const labelAscii =
-        e && hasSameQuanta && isSameShape ? e.row.labelAscii : lineLabelAscii(deltaK, deltaJ, a.kLower, a.jLower, model.shape);
-      const labelHtml =
-        e && hasSameQuanta && isSameShape ? e.row.labelHtml : lineLabelHtml(deltaK, deltaJ, a.kLower, a.jLower, model.shape);
+      const labelAscii = e && hasSameQuanta && isSameShape ? e.row.labelAscii : lineLabelAscii(deltaK, deltaJ, a.kLower, a.jLower, shape);
+      const labelHtml = e && hasSameQuanta && isSameShape ? e.row.labelHtml : lineLabelHtml(deltaK, deltaJ, a.kLower, a.jLower, shape);
       const dev = assignmentDeviation(a.observedCm1, calcCm1, a.uncertaintyCm1, sigmaPredCm1, farToleranceCm1);
       const row: AssignmentRow = {
         a,
@@ -279,6 +302,12 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
 
 let assignmentRowsLast: AssignmentRowsState | null = null;
 
+const bandModelsOf = memoLast((system: NonNullable<BenchState['system']>): Map<string, BandModel> => {
+  const m = new Map<string, BandModel>();
+  for (const e of systemEntriesOf(system)) if (e.view) m.set(e.key, e.view);
+  return m;
+});
+
 /** Assignments with labels, calculated positions and flags (incremental; see assignmentRowsUpdate). */
 export function selectAssignmentRows(s: BenchState): AssignmentRow[] {
   assignmentRowsLast = assignmentRowsUpdate(assignmentRowsLast, {
@@ -287,6 +316,8 @@ export function selectAssignmentRows(s: BenchState): AssignmentRow[] {
     fitOutcome: s.fitOutcome,
     fitLineIds: s.fitLineIds,
     farToleranceCm1: s.farToleranceCm1,
+    bandModels: s.system ? bandModelsOf(s.system) : null,
+    activeBandKey: s.activeBandKey,
   });
   return assignmentRowsLast.rows;
 }
@@ -316,6 +347,10 @@ const simulated = memoLast(
 
 /** Simulated spectrum of the current model (computed only when asked for). */
 export function selectSimulated(s: BenchState): { sim: SimulatedSpectrum | null; error: string | null } {
+  // Several bands: the sum of every band (switched-off ones too: the switch hides ladders, not molecules).
+  const pred = selectSystemPrediction(s);
+  if (pred)
+    return pred.all ? simulated(pred.all, s.trace, s.model.temperatureK, s.massAmu, s.lorentzHwhmCm1) : { sim: null, error: pred.error };
   return simulated(selectBand(s).lines, s.trace, s.model.temperatureK, s.massAmu, s.lorentzHwhmCm1);
 }
 

@@ -8,6 +8,8 @@ import { fitSliceInitial } from './fitSlice';
 import { modelSliceInitial } from './modelSlice';
 import { spectrumSliceInitial, type TraceSource } from './spectrumSlice';
 import type { BenchState } from './store';
+import { systemBandEntries, systemFloatedToView } from './systemBands';
+import { systemSliceInitial } from './systemSlice';
 import { viewSliceInitial, type BenchTab, type TableQuery } from './viewSlice';
 
 /** Everything worth saving from the store. */
@@ -51,6 +53,9 @@ export function sessionOf(s: BenchState): ProjectSession {
       combinationState: s.combinationState,
       tableQuery: s.tableQuery as unknown as Record<string, unknown>,
     },
+    system: s.system
+      ? { model: s.system, floated: s.systemFloated, ties: s.systemTies, activeBandKey: s.activeBandKey, hiddenBands: s.hiddenBands }
+      : null,
   };
 }
 
@@ -124,7 +129,30 @@ export function stateFromSession(p: Partial<ProjectSession> & { model: ProjectSe
     loomisHalfWidthCm1: pv.loomisHalfWidthCm1 ?? v.loomisHalfWidthCm1,
     combinationState: pv.combinationState ?? v.combinationState,
     tableQuery: { ...v.tableQuery, ...(pv.tableQuery as Partial<TableQuery> | undefined) },
+    ...systemFieldsOf(p),
     past: [],
     future: [],
+  };
+}
+
+/**
+ * The several-band fields of a session: its system when it has one whose active band has a
+ * single-band view (the active band's view then becomes `model`), else a single-band session.
+ */
+function systemFieldsOf(p: Partial<ProjectSession> & { model: ProjectSession['model'] }): Partial<BenchState> {
+  const ps = p.system;
+  if (!ps) return systemSliceInitial();
+  const entries = systemBandEntries(ps.model);
+  const active = entries.find((e) => e.key === ps.activeBandKey && e.view) ?? entries.find((e) => e.view);
+  if (!active?.view) return systemSliceInitial();
+  return {
+    system: ps.model,
+    systemFloated: ps.floated,
+    systemTies: ps.ties,
+    activeBandKey: active.key,
+    hiddenBands: ps.hiddenBands.filter((k) => entries.some((e) => e.key === k)),
+    systemBeforeAccept: null,
+    model: active.view,
+    floated: systemFloatedToView(ps.model, ps.floated, active),
   };
 }

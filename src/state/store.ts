@@ -12,6 +12,7 @@ import { createFitSlice, type FitSlice } from './fitSlice';
 import { createHistorySlice, type HistorySlice } from './history';
 import { createModelSlice, type ModelSlice } from './modelSlice';
 import { createSpectrumSlice, type SpectrumSlice } from './spectrumSlice';
+import { createSystemSlice, type SystemSlice } from './systemSlice';
 import { createViewSlice, type ViewSlice } from './viewSlice';
 
 /** The whole workbench state. */
@@ -23,7 +24,8 @@ export type BenchState = SpectrumSlice &
   HistorySlice &
   AnalysisSlice &
   AssistantSlice &
-  ContourSlice;
+  ContourSlice &
+  SystemSlice;
 
 /** The store hook (`useBench(s => s.x)`) with getState/setState/subscribe/getInitialState. */
 export const useBench = create<BenchState>()((...a) => ({
@@ -36,6 +38,7 @@ export const useBench = create<BenchState>()((...a) => ({
   ...createAnalysisSlice(...a),
   ...createAssistantSlice(...a),
   ...createContourSlice(...a),
+  ...createSystemSlice(...a),
 }));
 
 /** The same store, for non-React callers. */

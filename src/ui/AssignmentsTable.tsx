@@ -99,6 +99,12 @@ const Row = memo(function Row({
       </span>
       <span role="cell" className="c-label">
         <LineLabel q={quanta(r)} shape={shape} />
+        {a.band !== undefined && (
+          <span className="band-tag" title={`band ${a.band} of ${a.species ?? ''}`} data-testid="row-band">
+            {a.band}
+            {a.species ? `·${a.species}` : ''}
+          </span>
+        )}
         {flags && (
           <span className="flag" title={flags} aria-label={flags}>
             ⚑

@@ -69,13 +69,16 @@ export function CandidateList() {
           </thead>
           <tbody>
             {cands.map((c, n) => (
-              <tr key={c.lineIndex} className={`${c.isAssigned ? 'is-assigned' : ''} ${c.isWeak ? 'is-weak' : ''}`}>
+              <tr
+                key={`${c.band ?? ''}|${c.species ?? ''}|${c.lineIndex}`}
+                className={`${c.isAssigned ? 'is-assigned' : ''} ${c.isWeak ? 'is-weak' : ''}`}
+              >
                 <td>
                   <button
                     type="button"
                     className="assign-btn"
                     onClick={() => candidateAssign(n)}
-                    aria-label={`Assign ${c.labelAscii} (key ${n + 1})`}
+                    aria-label={`Assign ${c.labelAscii}${c.band !== undefined ? ` of ${c.band} (${c.species})` : ''} (key ${n + 1})`}
                     data-testid={`candidate-${n}`}
                   >
                     {n + 1}
@@ -83,6 +86,11 @@ export function CandidateList() {
                 </td>
                 <td>
                   <LineLabel q={c} shape={shape} />
+                  {c.band !== undefined && (
+                    <span className="band-tag" data-testid={`candidate-band-${n}`}>
+                      {c.band}·{c.species}
+                    </span>
+                  )}
                   {c.isAssigned && (
                     <span className="badge" title="Already assigned">
                       assigned

@@ -1,4 +1,5 @@
 /** Combination differences of the assigned lines: B, D_J, D_JK of one state and the diagnostic plot Δ2F/(J+½) vs (J+½)². */
+import { selectActiveBandAssignments } from '../state/selectorsSystem';
 import { useMemo } from 'react';
 import { combinationDifferences } from '../fit/combinationDifferences';
 import { formatNumber, formatValueUncertainty } from '../io/numberFormat';
@@ -12,7 +13,8 @@ import { ConstantName } from './ConstantName';
 import { PlotlyChart } from './PlotlyChart';
 
 export function CombinationPanel() {
-  const assignments = useBench((s) => s.assignments);
+  // Several bands: the active band's lines only (its lower and upper state).
+  const assignments = useBench(selectActiveBandAssignments);
   const state = useBench((s) => s.combinationState);
   const shape = useBench((s) => s.model.shape);
   const model = useBench((s) => s.model);

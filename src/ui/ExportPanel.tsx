@@ -3,6 +3,9 @@ import { lineTableSerialize } from '../io/lineTable';
 import { simulatedLinesCsv, spectrumCsv } from '../io/exportCsv';
 import { exportStem } from '../io/exportName';
 import { fitReportMarkdown } from '../io/fitReport';
+import { systemFileSerialize } from '../io/systemFileWrite';
+import { systemFitReportBands, type SystemFitReportInput } from '../io/systemFitReport';
+import { selectSystemPrediction } from '../state/systemPredict';
 import { modelFileSerialize } from '../io/modelFile';
 import { messagePost } from '../state/actionsCore';
 import { projectExportTextAsync } from '../state/actionsProject';
@@ -33,6 +36,8 @@ export function exportLineTable(): void {
       shape: s.model.shape,
       calcCm1: rows.map((r) => r.calcCm1),
       isOutlier: rows.map((r) => r.isOutlier),
+      // Several bands: every row names its band and species (io/systemLineTable.ts reads them back).
+      hasBandColumns: s.system !== null,
     });
     downloadText(`${stem()}-assignments.csv`, text, 'text/csv');
   });
@@ -46,12 +51,15 @@ export function exportFitReport(): void {
       messagePost('info', 'Run a fit first; the report describes its result.');
       return;
     }
-    const text = fitReportMarkdown(result, s.model.shape, {
+    let text = fitReportMarkdown(result, s.model.shape, {
       modelName: s.modelName,
       appVersion: APP_VERSION,
       dateIso: new Date().toISOString(),
       fitFinishedAt: s.fitFinishedAt,
     });
+    const bands = (result as { bands?: SystemFitReportInput['bands'] }).bands;
+    if (s.system && bands)
+      text += '\n' + systemFitReportBands({ bands, lines: result.lines, outliers: result.outliers }, s.model.shape) + '\n';
     downloadText(`${stem()}-fit-report.md`, text, 'text/markdown');
   });
 }
@@ -59,7 +67,11 @@ export function exportFitReport(): void {
 export function exportSimulatedLines(): void {
   guard('simulated line list', () => {
     const s = benchStore.getState();
-    downloadText(`${stem()}-lines.csv`, simulatedLinesCsv(selectBand(s).lines, s.model.shape), 'text/csv');
+    const pred = selectSystemPrediction(s);
+    const text = pred?.all
+      ? simulatedLinesCsv(pred.all, s.model.shape, { bandOfLine: pred.all.bandIndex, names: pred.entries })
+      : simulatedLinesCsv(selectBand(s).lines, s.model.shape);
+    downloadText(`${stem()}-lines.csv`, text, 'text/csv');
   });
 }
 
@@ -74,6 +86,12 @@ export function exportSimulatedSpectrum(): void {
 export function exportModel(): void {
   guard('model file', () => {
     const s = benchStore.getState();
+    // Several bands: the whole system as a system file (the CLI and this page read it back).
+    if (s.system) {
+      const text = systemFileSerialize(s.system, { floated: s.systemFloated, ties: s.systemTies, name: s.modelName });
+      downloadText(`${stem()}-system.json`, text, 'application/json');
+      return;
+    }
     downloadText(
       `${stem()}-model.json`,
       // A mass nobody set (the simulation's default) is not the molecule's: it stays out of the file.

@@ -22,6 +22,7 @@ import {
 import { useBench } from '../state/store';
 import { ConstantName } from './ConstantName';
 import { NumberField } from './NumberField';
+import { SystemTree } from './SystemTree';
 
 /**
  * A constant as typed into its field: 12 significant digits in JavaScript's own notation, so the text
@@ -110,6 +111,7 @@ export function ModelPanel() {
       <p className="model-name" title={modelName}>
         {modelName}
       </p>
+      <SystemTree />
       <div className="form-grid">
         <label>
           Shape

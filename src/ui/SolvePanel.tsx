@@ -8,6 +8,7 @@ import { fitAccept, fitApplySuggestion, fitCancel, fitRevert, fitStart } from '.
 import { modelParameterNames, modelSetFloated } from '../state/actionsModel';
 import { selectFitResult } from '../state/selectors';
 import { benchStore, useBench } from '../state/store';
+import { systemValueOf } from '../state/systemBands';
 import { correlationFigure, residualFigure } from './plot/solveTraces';
 import { PlotlyChart } from './PlotlyChart';
 import { ConstantName } from './ConstantName';
@@ -39,6 +40,7 @@ function FloatChooser() {
 
 function ResultTable({ result }: { result: FitResult }) {
   const model = useBench((s) => s.model);
+  const system = useBench((s) => s.system);
   const unit = useBench((s) => s.constantUnit);
   const unitText = unit === 'cm-1' ? 'cm⁻¹' : 'MHz';
   const rows = Object.entries(result.parameters).filter(([, p]) => !p.fixed || p.value !== 0);
@@ -56,7 +58,8 @@ function ResultTable({ result }: { result: FitResult }) {
       <tbody>
         {rows.map(([key, p]) => {
           const [side, name] = key.split('.') as ['lower' | 'upper', string];
-          const current = (model[side] as Record<string, number>)[name];
+          // Several bands: keys name the system's states ("LB-7/v4.B").
+          const current = system ? systemValueOf(system, key) : (model[side] as Record<string, number>)[name];
           const shownUnit = constantDisplayUnit(key, unit);
           const inUnit = (v: number) => constantToDisplayUnit(key, v, unit);
           return (
@@ -201,7 +204,7 @@ export function SolvePanel() {
           </p>
           {outcome.error.suggestion && <p>Suggestion: {constantKeysToNames(outcome.error.suggestion)}</p>}
           {outcome.error.fixSuggested.length > 0 && (
-            <button type="button" onClick={() => void fitApplySuggestion()}>
+            <button type="button" onClick={() => void fitApplySuggestion()} data-testid="fit-apply-suggestion">
               Fix {outcome.error.fixSuggested.map((k) => constantKeysToNames(k)).join(', ')} and fit again
             </button>
           )}

@@ -9,10 +9,15 @@ import { peakClick, rungClick, traceClickAt } from '../state/actionsAssign';
 import { selectProposalMarks } from '../state/actionsAssistant';
 import { viewSetXRange } from '../state/actionsView';
 import { peakIdAt, peakIdPosition } from '../state/assignLogic';
+import { messagePost } from '../state/actionsCore';
+import { bandActivate } from '../state/actionsSystem';
 import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated } from '../state/selectors';
+import { assignmentBandKey, selectDrawnBands, type DrawnBands } from '../state/selectorsSystem';
 import { benchStore, useBench } from '../state/store';
 import { CandidateList } from './CandidateList';
-import { ladderRowsBuild } from './plot/ladderGeometry';
+import { BandSwitches } from './BandSwitches';
+import { bandRowsBuild } from './plot/bandRows';
+import { ladderRowsBuild, type LadderRow } from './plot/ladderGeometry';
 import { ladderMarkersBuild, ladderSceneBuild } from './plot/ladderScene';
 import { peakLayerBase, peakLayerBuild } from './plot/peakLayer';
 import { spectrumFigure } from './plot/toTraces';
@@ -63,14 +68,37 @@ const SPECTRUM_CONFIG: Partial<Config> = {
 };
 
 function onRungLine(lineIndex: number): void {
-  const lines = selectBand(benchStore.getState()).lines;
+  const drawn = selectDrawnBands(benchStore.getState());
+  const lines = drawn.lines;
   if (lineIndex < 0 || lineIndex >= lines.count) return;
-  rungClick({
+  const q = {
     jUpper: lines.jUpper[lineIndex],
     kUpper: lines.kUpper[lineIndex],
     jLower: lines.jLower[lineIndex],
     kLower: lines.kLower[lineIndex],
-  });
+  };
+  const e = drawn.entries && drawn.bandOfLine ? drawn.entries[drawn.bandOfLine[lineIndex]] : null;
+  if (!e) return rungClick(q);
+  // A rung of another band makes that band the active one (its series for the keyboard walk).
+  if (!benchStore.getState().candidateTarget) {
+    const why = bandActivate(e.key);
+    if (why) {
+      messagePost('info', `${why}. Click a peak to assign this band's lines from the candidate list.`);
+      return;
+    }
+  }
+  rungClick({ ...q, band: e.band, species: e.species });
+}
+
+/** The ladder rows of the drawn bands (several-band session), or null for one band. */
+function drawnRows(drawn: DrawnBands, hiddenRows: string[], isDark: boolean): LadderRow[] | null {
+  if (!drawn.entries || !drawn.bandLadders) return null;
+  const entries = drawn.entries;
+  const ladders = drawn.bandLadders;
+  const bands = entries
+    .map((e, index) => ({ key: e.key, name: e.band, index, shape: e.view?.shape ?? ('prolate' as const), ladders: ladders[index] }))
+    .filter((b) => b.ladders.length > 0);
+  return bandRowsBuild(bands, hiddenRows, isDark);
 }
 
 export function SpectrumPlot() {
@@ -79,6 +107,8 @@ export function SpectrumPlot() {
   const xRange = useBench((s) => s.xRange);
   const ordinate = useBench((s) => s.ordinate);
   const band = useBench(selectBand);
+  const drawn = useBench(selectDrawnBands);
+  const activeBandKey = useBench((s) => s.activeBandKey);
   const peaks = useBench((s) => selectPeaks(s).peaks);
   const hiddenRows = useBench((s) => s.hiddenRows);
   const shape = useBench((s) => s.model.shape);
@@ -96,10 +126,19 @@ export function SpectrumPlot() {
   const proposals = useBench(selectProposalMarks);
   const selectedProposalCm1 = useBench((s) => s.assistantProposals.find((p) => p.id === s.assistantSelectedId)?.observedCm1 ?? null);
 
-  const rows = useMemo(() => ladderRowsBuild(band.ladders, shape, new Set(hiddenRows)), [band.ladders, shape, hiddenRows]);
-  const scene = useMemo(() => ladderSceneBuild(rows, band.lines, isDark), [rows, band.lines, isDark]);
-  const markers = useMemo(() => ladderMarkersBuild(rowsA, scene), [rowsA, scene]);
-  const cursorLine = cursor ? (band.indexOf.get(`${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}`) ?? -1) : -1;
+  const rows = useMemo(
+    () => drawnRows(drawn, hiddenRows, isDark) ?? ladderRowsBuild(drawn.ladders, shape, new Set(hiddenRows)),
+    [drawn, shape, hiddenRows, isDark],
+  );
+  const scene = useMemo(() => ladderSceneBuild(rows, drawn.lines, isDark, drawn.bandOfLine ?? undefined), [rows, drawn, isDark]);
+  const markers = useMemo(() => {
+    const entries = drawn.entries;
+    if (!entries) return ladderMarkersBuild(rowsA, scene);
+    const indexOfKey = new Map(entries.map((e, i) => [e.key, i]));
+    return ladderMarkersBuild(rowsA, scene, (r) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1);
+  }, [rowsA, scene, drawn, activeBandKey]);
+  const cursorKey = cursor ? `${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}` : '';
+  const cursorLine = cursor ? (drawn.indexOf.get(drawn.entries ? `${activeBandKey}|${cursorKey}` : cursorKey) ?? -1) : -1;
   const overlayRef = useRef<PlotOverlayHandle>(null);
   const assignedPeaks = useMemo(() => {
     const m = new Map<string, string>();
@@ -121,7 +160,7 @@ export function SpectrumPlot() {
     size,
     ordinate,
     rows,
-    band.lines,
+    drawn.lines,
     cursorLine,
     selectedObservedCm1,
     candidatePeakCm1,
@@ -141,8 +180,8 @@ export function SpectrumPlot() {
         heightPx: size.height,
         ordinate,
         rows,
-        lines: band.lines,
-        cursorCm1: cursorLine >= 0 ? band.lines.wavenumberCm1[cursorLine] : null,
+        lines: drawn.lines,
+        cursorCm1: cursorLine >= 0 ? drawn.lines.wavenumberCm1[cursorLine] : null,
         selectedObservedCm1,
         candidatePeakCm1,
         sim,
@@ -169,6 +208,7 @@ export function SpectrumPlot() {
   return (
     <section className="spectrum-panel" aria-label="Spectrum and ladders">
       <PlotToolbar rows={band.ladders} />
+      {drawn.entries && <BandSwitches />}
       <div className="spectrum-plot-wrap">
         <PlotlyChart
           data={figure.data}
@@ -191,7 +231,7 @@ export function SpectrumPlot() {
           scene={scene}
           markers={markers}
           cursorLine={cursorLine}
-          lines={band.lines}
+          lines={drawn.lines}
           shape={shape}
           peaks={peakLayer}
           isDark={isDark}

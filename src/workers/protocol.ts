@@ -3,12 +3,21 @@
  * (structured clone), discriminated by `type`, matched by `id`.
  */
 import type { FitInput, FitOutcome } from '../fit/fitTypes';
+import type { SystemFitInput } from '../fit/systemFit';
+import type { SystemFitOutcome } from '../fit/systemFitTypes';
 
 /** Client → worker: run a fit. */
 export interface FitRequest {
   type: 'fit';
   id: number;
   input: FitInput;
+}
+
+/** Client → worker: run a joint fit of several bands. */
+export interface SystemFitRequest {
+  type: 'systemFit';
+  id: number;
+  input: SystemFitInput;
 }
 
 /** Worker → client: one iteration done. */
@@ -25,7 +34,7 @@ export interface FitProgress {
 export interface FitResultMessage {
   type: 'result';
   id: number;
-  output: FitOutcome;
+  output: FitOutcome | SystemFitOutcome;
 }
 
 /** Worker → client: the fit threw (a bug, not a refusal). */
@@ -36,7 +45,7 @@ export interface FitErrorMessage {
 }
 
 /** Every message the worker receives. */
-export type SolverRequest = FitRequest;
+export type SolverRequest = FitRequest | SystemFitRequest;
 
 /** Every message the worker sends. */
 export type SolverResponse = FitProgress | FitResultMessage | FitErrorMessage;

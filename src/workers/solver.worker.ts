@@ -1,19 +1,22 @@
 /**
- * Worker entry: unpack a fit request, run fitBand, post progress and the outcome back.
- * No logic of its own; fitBand is the same function vitest and the CLI call directly.
+ * Worker entry: unpack a fit request, run fitBand (one band) or systemFit (several bands), post
+ * progress and the outcome back. No logic of its own; both are the functions vitest and the CLI call directly.
  */
 import { fitBand } from '../fit/fitBand';
+import { systemFit } from '../fit/systemFit';
 import type { SolverRequest, SolverResponse } from './protocol';
 
 /** Handle one request, posting every response through `post` (exported for plumbing tests). */
 export function solverHandle(request: SolverRequest, post: (message: SolverResponse) => void): void {
-  if (request?.type !== 'fit') {
-    post({ type: 'error', id: request?.id ?? -1, message: `solver.worker: unknown request type '${String(request?.type)}'` });
+  if (request?.type !== 'fit' && request?.type !== 'systemFit') {
+    const bad = request as { id?: number; type?: unknown } | undefined;
+    post({ type: 'error', id: bad?.id ?? -1, message: `solver.worker: unknown request type '${String(bad?.type)}'` });
     return;
   }
-  const { id, input } = request;
+  const { id } = request;
   try {
-    const output = fitBand(input, { onProgress: (iteration, chi2) => post({ type: 'progress', id, iteration, chi2 }) });
+    const hooks = { onProgress: (iteration: number, chi2: number) => post({ type: 'progress', id, iteration, chi2 }) };
+    const output = request.type === 'fit' ? fitBand(request.input, hooks) : systemFit(request.input, hooks);
     post({ type: 'result', id, output });
   } catch (err) {
     post({ type: 'error', id, message: err instanceof Error ? err.message : String(err) });

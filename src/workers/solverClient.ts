@@ -4,6 +4,8 @@
  * never blocks the next one.
  */
 import type { FitInput, FitOutcome } from '../fit/fitTypes';
+import type { SystemFitInput } from '../fit/systemFit';
+import type { SystemFitOutcome } from '../fit/systemFitTypes';
 import type { SolverRequest, SolverResponse } from './protocol';
 
 interface Running {
@@ -46,12 +48,32 @@ export function solverFit(
   signal?: AbortSignal,
   onProgress?: (iteration: number, chi2: number) => void,
 ): Promise<FitOutcome> {
+  return solverRun<FitOutcome>((id) => ({ type: 'fit', id, input }), signal, onProgress);
+}
+
+/**
+ * The joint fit of several bands (fit/systemFit) in the worker; same contract as solverFit.
+ * @param input system, parameters and labelled lines (plain data; copied to the worker)
+ */
+export function solverSystemFit(
+  input: SystemFitInput,
+  signal?: AbortSignal,
+  onProgress?: (iteration: number, chi2: number) => void,
+): Promise<SystemFitOutcome> {
+  return solverRun<SystemFitOutcome>((id) => ({ type: 'systemFit', id, input }), signal, onProgress);
+}
+
+function solverRun<O>(
+  requestOf: (id: number) => SolverRequest,
+  signal: AbortSignal | undefined,
+  onProgress: ((iteration: number, chi2: number) => void) | undefined,
+): Promise<O> {
   stopRunning();
   if (signal?.aborted) return Promise.reject(abortError());
   const worker = idle ?? new Worker(new URL('./solver.worker.ts', import.meta.url), { type: 'module' });
   idle = null;
   const id = nextId++;
-  return new Promise<FitOutcome>((resolve, reject) => {
+  return new Promise<O>((resolve, reject) => {
     const finish = (isHealthy: boolean) => {
       if (running?.id === id) running = null;
       cleanup();
@@ -64,7 +86,7 @@ export function solverFit(
       if (msg.type === 'progress') onProgress?.(msg.iteration, msg.chi2);
       else if (msg.type === 'result') {
         finish(true);
-        resolve(msg.output);
+        resolve(msg.output as O);
       } else if (msg.type === 'error') {
         finish(false);
         reject(new Error(`solverFit: ${msg.message}`));
@@ -86,7 +108,6 @@ export function solverFit(
     worker.addEventListener('error', onError);
     signal?.addEventListener('abort', onAbort);
     running = { id, worker, reject, cleanup };
-    const request: SolverRequest = { type: 'fit', id, input };
-    worker.postMessage(request);
+    worker.postMessage(requestOf(id));
   });
 }

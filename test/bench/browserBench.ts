@@ -13,6 +13,8 @@
  *  7. JavaScript shipped, gzipped (first paint vs lazily)                              ≤ 1.5 MB
  *  8. reload with the autosaved 1e6 trace and 5,000 lines → restored and painted (diagnostic),
  *     longest main-thread block during the restore                                    ≤ 100 ms
+ *  9. several bands: a 4-band system (~20,000 lines drawn), a 1e6-point trace and 10,000 assigned
+ *     lines with band columns: zoom/pan redraw p95, click-to-assign, joint fit click → result
  * Measure 4 (and 5) also report the long tasks in the 1.5 s after a zoom step with 5,000 assigned
  * lines (redraw and the autosave that follows it).
  *
@@ -48,6 +50,7 @@ import {
   type PageProbe,
 } from './browserBenchUtil';
 import { workloadsRead } from './workloads';
+import { bandsBenchInputsWrite } from './browserBenchBands';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const DIST = resolve(ROOT, process.env.LB_BENCH_DIST ?? 'dist');
@@ -69,7 +72,12 @@ const LAUNCH_ARGS = [
 
 type Json = Record<string, unknown>;
 
+/** Prefix added to measure names (the several-band measure repeats measures 3 and 4). */
+let emitPrefix = '';
+
 function emit(line: Json): void {
+  if (emitPrefix && typeof line.measure === 'string' && !line.measure.startsWith(emitPrefix))
+    line = { ...line, measure: emitPrefix + line.measure };
   console.log(JSON.stringify({ ...line, loadavg: loadavg().map((v) => Number(v.toFixed(2))) }));
 }
 
@@ -928,6 +936,76 @@ function measureBundle(): void {
 
 // ---------------------------------------------------------------- main
 
+/**
+ * Measure 9: a session of four bands (~20,000 drawn lines), a 1e6-point trace and 10,000 assigned
+ * lines: the same redraw and click-to-assign measures as 3 and 4, and the joint fit in the worker.
+ */
+async function measureBands(browser: Browser, baseUrl: string, dir: string): Promise<void> {
+  const t = Date.now();
+  const b = bandsBenchInputsWrite(dir);
+  note(`several-band inputs in ${Date.now() - t} ms: ${b.nLines} lines drawn, ${b.nAssigned} assigned, ${b.tracePoints} points`);
+  const { context, page, errors } = await contextOpen(browser, baseUrl);
+  try {
+    await gotoDemo(page, baseUrl);
+    await chooseFile(page, b.systemJson);
+    await page.waitForSelector('[data-testid=band-switches]', { timeout: 60_000 });
+    await pause(800);
+    await watchArm(page, 'traceRange', b.traceRangeCm1, 120_000);
+    await chooseFile(page, b.traceCsv);
+    await watchResult(page, 'waiting for the several-band 1e6 trace', 120_000);
+    await pause(1500);
+    await watchArm(page, 'projectOpen', b.nAssigned, 120_000);
+    await chooseFile(page, b.lineTableCsv);
+    await watchResult(page, 'waiting for the 10,000-line table', 120_000);
+    await pause(1500);
+    const loaded = { context, page, errors } as LoadedTrace;
+    emitPrefix = 'four_bands_';
+    await measureRedraw(loaded, 30);
+    await measureAssign(loaded, 'four_bands_10000_assigned', Math.max(RUNS, 6), [
+      [0.8, 0.85],
+      [0.15, 0.2],
+      [0.85, 0.9],
+      [0.1, 0.15],
+    ]);
+    emitPrefix = '';
+    await page.locator('[data-testid=tab-solve]').click();
+    await pause(500);
+    const shown: number[] = [];
+    const worker: number[] = [];
+    const during: number[] = [];
+    let summary = '';
+    for (let run = 0; run < RUNS; run++) {
+      await watchArm(page, 'fitShown', null, 120_000);
+      const a = await page.evaluate(() => performance.now());
+      await page.locator('[data-testid=fit-run]').click();
+      const w = await watchResult(page, 'waiting for the joint fit', 120_000);
+      await pause(1500);
+      const p = await probe(page);
+      const click = inputAfter(p, 'click', a);
+      shown.push(w.paint - click);
+      const post = p.workerMessages.find((m) => /solver/.test(m.url) && m.direction === 'post' && m.t >= click);
+      const res = p.workerMessages.find((m) => /solver/.test(m.url) && m.direction === 'receive' && m.type === 'result' && m.t >= click);
+      worker.push(post && res ? res.t - post.t : NaN);
+      during.push(longestTask(p, click, w.paint));
+      summary = (await page.locator('[data-testid=fit-summary]').textContent()) ?? '';
+    }
+    emit({
+      measure: 'four_bands_joint_fit_10000_lines_click_to_result',
+      median_ms: round1(statMedian(shown)),
+      runs: shown.length,
+      target: null,
+      worker_post_to_result_median_ms: round1(statMedian(worker)),
+      longest_longtask_median_ms: round1(statMedian(during)),
+      lines_drawn: b.nLines,
+      summary: summary.replace(/\s+/g, ' ').trim().slice(0, 160),
+    });
+    if (errors.length) note(`several-band page errors: ${errors.join(' | ')}`);
+  } finally {
+    emitPrefix = '';
+    await context.close();
+  }
+}
+
 async function main(): Promise<void> {
   let server: PreviewServer | null = null;
   let browser: Browser | null = null;
@@ -993,6 +1071,7 @@ async function main(): Promise<void> {
       }
     }
     if (inputs && want(8)) await measureRestore(browser, started.url, inputs);
+    if (want(9)) await measureBands(browser, started.url, dir);
   } finally {
     clearTimeout(kill);
     await browser?.close().catch(() => undefined);

@@ -15,7 +15,8 @@ describe('makeDemo', () => {
 
   it('rebuilds the committed public/demo files byte for byte (deterministic, seeded)', () => {
     makeDemo(dir);
-    for (const name of ['model.json', 'truth.json', 'trace.csv']) expect(read(dir, name) === read(DEMO, name), name).toBe(true);
+    for (const name of ['model.json', 'truth.json', 'trace.csv', 'system.json', 'system-truth.json', 'system-trace.csv'])
+      expect(read(dir, name) === read(DEMO, name), name).toBe(true);
   });
 
   it('writes a first guess within 0.3 % in B and 0.2 cm^-1 in the origin of the truth', () => {

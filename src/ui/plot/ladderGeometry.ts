@@ -20,6 +20,8 @@ export interface LadderRow {
   /** Row centre on the ladder axis (rows 0, 1, 2 … from the bottom). */
   y: number;
   ladders: Ladder[];
+  /** Rung colour when the row belongs to one of several bands (the band's colour family); absent: by ΔK and K''. */
+  colour?: string;
 }
 
 /** Row key of a ladder (ladder key without the branch letter). */

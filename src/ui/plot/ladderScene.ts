@@ -50,6 +50,9 @@ export function quantaNumber(jUpper: number, kUpper: number, jLower: number, kLo
   return ((jUpper * 4096 + kUpper) * 4096 + jLower) * 4096 + kLower;
 }
 
+/** Step between line tags in a rung key: above every quantaNumber (4096^4 = 2^48), 32 tags stay below 2^53. */
+const QUANTA_TAG_STEP = 2 ** 48;
+
 /** Assigned-line markers (the green dots and red crosses on rungs). */
 export interface LadderMarkers {
   nuCm1: Float64Array;
@@ -178,8 +181,10 @@ const BAR_HALF = 0.09;
  * @param rows ladder rows (ladderRowsBuild)
  * @param lines the line list the ladders index
  * @param isDark dark theme colours
+ * @param lineTag per line, a small number (0…31) told apart in `rungOf` beside the quanta: the band
+ *   of each line when several bands share the panel (absent: 0 for every line)
  */
-export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, isDark: boolean): LadderScene {
+export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, isDark: boolean, lineTag?: Int32Array): LadderScene {
   let n = 0;
   for (const row of rows) for (const l of row.ladders) n += l.lineIndex.length;
   const nuCm1 = new Float64Array(n);
@@ -191,7 +196,7 @@ export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, is
   const perRow: number[][] = rows.map(() => []);
   let k = 0;
   rows.forEach((row, r) => {
-    const colour = ladderColour(row.deltaK, row.kLower, isDark);
+    const colour = row.colour ?? ladderColour(row.deltaK, row.kLower, isDark);
     for (const ladder of row.ladders) {
       if (ladder.lineIndex.length === 0) continue;
       const widthPx = ladder.deltaJ === 0 ? 2.2 : 1.6;
@@ -218,7 +223,10 @@ export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, is
   const rungOf = new Map<number, number>();
   for (let q = 0; q < n; q++) {
     const i = lineIndex[q];
-    rungOf.set(quantaNumber(lines.jUpper[i], lines.kUpper[i], lines.jLower[i], lines.kLower[i]), q);
+    rungOf.set(
+      quantaNumber(lines.jUpper[i], lines.kUpper[i], lines.jLower[i], lines.kLower[i]) + (lineTag ? lineTag[i] * QUANTA_TAG_STEP : 0),
+      q,
+    );
   }
   return { rowLabels, nuCm1, yBottom, yTop, lineIndex, rowIndex, groups: [...groups.values()], rowOrder, rowNuCm1, rungOf, rows };
 }
@@ -233,8 +241,13 @@ function rungTipAt(scene: LadderScene, q: number): number {
  * model does not predict have none), at the rung's tip.
  * @param assignments rows of the assignments table
  * @param scene from ladderSceneBuild
+ * @param tagOf the line tag of an assignment (its band; see ladderSceneBuild), or -1 when its band is not drawn
  */
-export function ladderMarkersBuild(assignments: readonly AssignmentRow[], scene: LadderScene): LadderMarkers {
+export function ladderMarkersBuild(
+  assignments: readonly AssignmentRow[],
+  scene: LadderScene,
+  tagOf?: (row: AssignmentRow) => number,
+): LadderMarkers {
   const n = assignments.length;
   const nu = new Float64Array(n);
   const y = new Float64Array(n);
@@ -243,7 +256,9 @@ export function ladderMarkersBuild(assignments: readonly AssignmentRow[], scene:
   const kept: AssignmentRow[] = [];
   for (const r of assignments) {
     const a = r.a;
-    const q = scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower));
+    const tag = tagOf ? tagOf(r) : 0;
+    if (tag < 0) continue;
+    const q = scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower) + tag * QUANTA_TAG_STEP);
     if (q === undefined) continue;
     const k = kept.length;
     nu[k] = scene.nuCm1[q];

@@ -20,6 +20,30 @@ export function ladderColour(deltaK: number, kLower: number, isDark: boolean): s
   return `hsl(${hue}, 70%, ${light}%)`;
 }
 
+/** Base hues (degrees) of the colour families of several bands, in band order (cycling). */
+const BAND_FAMILY_HUES = [212, 16, 132, 282, 44, 330, 176, 96];
+
+/**
+ * Colour of a ladder row of band number `bandIndex` when several bands are drawn: one hue family
+ * per band (hue within ±16° of the band's base hue, stepping with K''), shade by ΔK as ladderColour.
+ * @param bandIndex band number in the system's order
+ * @param deltaK −1, 0, +1
+ * @param kLower K''
+ * @param isDark dark theme
+ * @returns a CSS hsl() colour
+ */
+export function bandLadderColour(bandIndex: number, deltaK: number, kLower: number, isDark: boolean): string {
+  const base = BAND_FAMILY_HUES[((bandIndex % BAND_FAMILY_HUES.length) + BAND_FAMILY_HUES.length) % BAND_FAMILY_HUES.length];
+  const hue = base + ((kLower % 3) - 1) * 16;
+  const light = (isDark ? 64 : 40) + (deltaK < 0 ? -10 : deltaK > 0 ? 6 : 0) + (kLower % 2) * 6;
+  return `hsl(${(hue + 360) % 360}, 72%, ${light}%)`;
+}
+
+/** A band's colour for lists and legends (its family's base tone). */
+export function bandColour(bandIndex: number, isDark: boolean): string {
+  return bandLadderColour(bandIndex, 0, 1, isDark);
+}
+
 /**
  * Colour for a K'' value in residual and Loomis–Wood plots (same hues as the ladders).
  * @param kLower K''

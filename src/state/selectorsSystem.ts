@@ -1,0 +1,168 @@
+/**
+ * Derived data of a several-band session: every band's lines on one intensity scale
+ * (physics/system/systemLines), each band's ladders, and the drawn set (the bands switched on)
+ * as one line list for the ladder panel and the candidate list. In a single-band session the
+ * drawn set is the one band of selectBand, unchanged.
+ */
+import { bandLadders, type Ladder } from '../physics/bandLadders';
+import type { LineList } from '../physics/model';
+import type { SystemModel } from '../physics/system/systemModel';
+import { memoLast } from './memo';
+import { selectBand, type PredictedBand } from './selectors';
+import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
+import { bandKeyOfLine, type SystemBandEntry } from './systemBands';
+import type { BenchState } from './store';
+
+/** The lines the ladder panel draws and the candidate list offers. */
+export interface DrawnBands extends PredictedBand {
+  /** Band (index into entries) of each line; null in a single-band session. */
+  bandOfLine: Int32Array | null;
+  entries: SystemBandEntry[] | null;
+  /** First line of each band in `lines` and its count (bands switched off: count 0). */
+  bandStart: Int32Array | null;
+  bandCount: Int32Array | null;
+  /** Each band's own ladders (indices into `lines`), by band index; [] for bands switched off. */
+  bandLadders: Ladder[][] | null;
+}
+
+function lineListSubset(all: LineList, idx: Int32Array): LineList {
+  const pick = <T extends Int32Array | Int8Array | Float64Array>(a: T): T => {
+    const out = new (a.constructor as new (n: number) => T)(idx.length);
+    for (let k = 0; k < idx.length; k++) out[k] = a[idx[k]];
+    return out;
+  };
+  return {
+    count: idx.length,
+    jUpper: pick(all.jUpper),
+    kUpper: pick(all.kUpper),
+    jLower: pick(all.jLower),
+    kLower: pick(all.kLower),
+    deltaK: pick(all.deltaK),
+    deltaJ: pick(all.deltaJ),
+    wavenumberCm1: pick(all.wavenumberCm1),
+    intensity: pick(all.intensity),
+    eLowerCm1: pick(all.eLowerCm1),
+    honlLondon: pick(all.honlLondon),
+  };
+}
+
+const drawnOf = memoLast((pred: SystemPrediction, hiddenBands: readonly string[], system: SystemModel): DrawnBands => {
+  const { all, entries } = pred;
+  const nBands = entries.length;
+  const empty = (error: string | null): DrawnBands => ({
+    lines: lineListSubset(all ?? EMPTY_FOR_SUBSET, new Int32Array(0)),
+    ladders: [],
+    indexOf: new Map(),
+    ladderByKey: new Map(),
+    error,
+    bandOfLine: new Int32Array(0),
+    entries,
+    bandStart: new Int32Array(nBands),
+    bandCount: new Int32Array(nBands),
+    bandLadders: entries.map(() => []),
+  });
+  if (!all) return empty(pred.error);
+  const hidden = new Set(hiddenBands);
+  // Lines grouped by band (bands in order), switched-off bands left out.
+  const counts = new Int32Array(nBands);
+  for (let i = 0; i < all.count; i++) if (!hidden.has(entries[all.bandIndex[i]].key)) counts[all.bandIndex[i]]++;
+  const bandStart = new Int32Array(nBands);
+  let n = 0;
+  for (let b = 0; b < nBands; b++) {
+    bandStart[b] = n;
+    n += counts[b];
+  }
+  const idx = new Int32Array(n);
+  const fill = bandStart.slice();
+  for (let i = 0; i < all.count; i++) {
+    const b = all.bandIndex[i];
+    if (!hidden.has(entries[b].key)) idx[fill[b]++] = i;
+  }
+  const lines = lineListSubset(all, idx);
+  const bandOfLine = new Int32Array(n);
+  const indexOf = new Map<string, number>();
+  const ladders: Ladder[] = [];
+  const perBand: Ladder[][] = [];
+  for (let b = 0; b < nBands; b++) {
+    const start = bandStart[b];
+    const count = counts[b];
+    if (count === 0) {
+      perBand.push([]);
+      continue;
+    }
+    const sub = lineListSubset(
+      lines,
+      Int32Array.from({ length: count }, (_, k) => start + k),
+    );
+    const own = bandLadders(sub, system.species[entries[b].speciesIndex].shape).map((l) => ({
+      ...l,
+      key: `${entries[b].key}|${l.key}`,
+      lineIndex: l.lineIndex.map((k) => k + start),
+    }));
+    perBand.push(own);
+    ladders.push(...own);
+    for (let k = start; k < start + count; k++) {
+      bandOfLine[k] = b;
+      indexOf.set(`${entries[b].key}|${lines.jUpper[k]},${lines.kUpper[k]},${lines.jLower[k]},${lines.kLower[k]}`, k);
+    }
+  }
+  return {
+    lines,
+    ladders,
+    indexOf,
+    ladderByKey: new Map(ladders.map((l) => [l.key, l])),
+    error: pred.error,
+    bandOfLine,
+    entries,
+    bandStart,
+    bandCount: counts,
+    bandLadders: perBand,
+  };
+});
+
+const EMPTY_FOR_SUBSET: LineList = {
+  count: 0,
+  jUpper: new Int32Array(0),
+  kUpper: new Int32Array(0),
+  jLower: new Int32Array(0),
+  kLower: new Int32Array(0),
+  deltaK: new Int8Array(0),
+  deltaJ: new Int8Array(0),
+  wavenumberCm1: new Float64Array(0),
+  intensity: new Float64Array(0),
+  eLowerCm1: new Float64Array(0),
+  honlLondon: new Float64Array(0),
+};
+
+const singleDrawn = memoLast((band: PredictedBand): DrawnBands => ({
+  ...band,
+  bandOfLine: null,
+  entries: null,
+  bandStart: null,
+  bandCount: null,
+  bandLadders: null,
+}));
+
+/** The drawn lines: every band switched on (several-band session) or the one band. */
+export function selectDrawnBands(s: BenchState): DrawnBands {
+  const pred = selectSystemPrediction(s);
+  if (!pred || !s.system) return singleDrawn(selectBand(s));
+  return drawnOf(pred, s.hiddenBands, s.system);
+}
+
+/** The band key an assignment belongs to in the current session (its own, or the active band's when it names none). */
+export function assignmentBandKey(s: Pick<BenchState, 'activeBandKey'>, a: { band?: string; species?: string }): string | null {
+  return bandKeyOfLine(a) ?? s.activeBandKey;
+}
+
+const activeAssignments = memoLast((assignments: BenchState['assignments'], activeBandKey: string | null) =>
+  assignments.filter((a) => assignmentBandKey({ activeBandKey }, a) === activeBandKey),
+);
+
+/**
+ * The assignments of the active band (all of them in a single-band session): what the one-band
+ * panels (combination differences) work on, so lines of two bands are never differenced together.
+ */
+export function selectActiveBandAssignments(s: BenchState): BenchState['assignments'] {
+  return s.system ? activeAssignments(s.assignments, s.activeBandKey) : s.assignments;
+}

@@ -1,0 +1,104 @@
+/**
+ * The joint fit from the page: assignments → labelled lines of the system (fit/systemLineResolve),
+ * the system's constants with their status, and the result read back (into the store's fit slot
+ * and, on accept, into the system).
+ */
+import type { FitResult } from '../fit/fitTypes';
+import type { SystemFitInput } from '../fit/systemFit';
+import type { SystemFitLine, SystemFitResult } from '../fit/systemFitTypes';
+import { systemLineResolve } from '../fit/systemLineResolve';
+import { lineLabelAscii } from '../physics/lineLabel';
+import type { BandModel } from '../physics/model';
+import type { SystemModel } from '../physics/system/systemModel';
+import type { BenchState } from './store';
+import { systemFloatedToView, systemParameters, systemTiesApply } from './systemBands';
+import { systemActiveEntry, systemEntriesOf } from './systemSync';
+
+/** Most refused rows named in a message. */
+const NAMED_MAX = 5;
+
+/**
+ * The joint fit's input for the current session, or why it cannot run (rows naming no single line
+ * of their band, by label).
+ */
+export function systemFitInputOf(
+  s: Pick<BenchState, 'system' | 'systemFloated' | 'systemTies' | 'assignments' | 'activeBandKey'>,
+): { ok: true; input: SystemFitInput } | { ok: false; message: string } {
+  const system = s.system;
+  if (!system) return { ok: false, message: 'the session has one band' };
+  const entries = systemEntriesOf(system);
+  const byKey = new Map(entries.map((e) => [e.key, e]));
+  const lines: SystemFitLine[] = [];
+  const bad: string[] = [];
+  for (const a of s.assignments) {
+    const key = a.band !== undefined && a.species !== undefined ? `${a.species}/${a.band}` : s.activeBandKey;
+    const e = key ? byKey.get(key) : undefined;
+    const label = lineLabelAscii(a.kUpper - a.kLower, a.jUpper - a.jLower, a.kLower, a.jLower, system.species[e?.speciesIndex ?? 0].shape);
+    if (!e) {
+      bad.push(`${label}: band '${key ?? '(none)'}' is not in the model`);
+      continue;
+    }
+    const r = systemLineResolve(system, {
+      band: e.band,
+      species: e.species,
+      jUpper: a.jUpper,
+      kUpper: a.kUpper,
+      jLower: a.jLower,
+      kLower: a.kLower,
+      lUpper: null,
+      lLower: null,
+      tagUpper: null,
+      tagLower: null,
+    });
+    if (!r.ok) {
+      bad.push(`${label} of ${e.band} (${e.species}): ${r.message}`);
+      continue;
+    }
+    lines.push({ ...r.line, observedCm1: a.observedCm1, uncertaintyCm1: a.uncertaintyCm1, isExcluded: a.isExcluded });
+  }
+  if (bad.length > 0)
+    return {
+      ok: false,
+      message: `${bad.length} assignment${bad.length === 1 ? '' : 's'} name no single line of their band: ${bad.slice(0, NAMED_MAX).join('; ')}${bad.length > NAMED_MAX ? '; …' : ''}.`,
+    };
+  return { ok: true, input: { model: system, parameters: systemParameters(system, s.systemFloated, s.systemTies), lines } };
+}
+
+/**
+ * A joint-fit result in the store's fit slot: the same fields (parameters by system fit key, lines
+ * in assignment order with their band), `model` the active band's view, and the per-band
+ * statistics kept in `bands`.
+ */
+export function systemFitAsFitResult(r: SystemFitResult, model: BandModel): FitResult & { bands: SystemFitResult['bands'] } {
+  return { ...r, model };
+}
+
+/**
+ * The system with a fit's values in place of its constants (fixed ones unchanged; ties follow).
+ * @param parameters fit result parameters by system fit key
+ */
+export function systemWithFitted(
+  system: SystemModel,
+  floated: readonly string[],
+  ties: Readonly<Record<string, string>>,
+  parameters: Record<string, { value: number; fixed: boolean }>,
+): SystemModel {
+  const where = new Map(systemParameters(system, floated, ties).map((p) => [p.key, p]));
+  const species = system.species.map((sp) => ({ ...sp, states: sp.states.map((st) => ({ ...st, constants: { ...st.constants } })) }));
+  for (const [key, p] of Object.entries(parameters)) {
+    const w = where.get(key);
+    if (!w || p.fixed || !Number.isFinite(p.value)) continue;
+    const st = species[w.speciesIndex].states.find((x) => x.name === w.state);
+    if (st) st.constants[w.name] = p.value;
+  }
+  return systemTiesApply({ ...system, species }, ties);
+}
+
+/** The active band's view (`model`, `floated`) of a session's system. */
+export function systemViewFields(
+  s: Pick<BenchState, 'system' | 'activeBandKey' | 'systemFloated' | 'model' | 'floated'>,
+): Pick<BenchState, 'model' | 'floated'> {
+  const e = systemActiveEntry(s);
+  if (!s.system || !e?.view) return { model: s.model, floated: s.floated };
+  return { model: e.view, floated: systemFloatedToView(s.system, s.systemFloated, e) };
+}
