@@ -25,6 +25,8 @@ import { quantaKey } from './candidateRank';
 import { memoLast } from './memo';
 import { quantaLabel, selectFitResult, selectPeaks } from './selectors';
 import { benchStore, type BenchState } from './store';
+import { assignmentBandKey } from './selectorsSystem';
+import { systemActiveEntry } from './systemSync';
 
 /** The job runner (the worker client; tests pass assistantJobRun wrapped in a promise). */
 export type AssistantRunner = typeof assistantJobStart;
@@ -179,7 +181,8 @@ function batchAdd(
     fitSummary: output.fitSummary,
     trace,
   };
-  const items = assistantItemsOf(number, output.proposals);
+  const ref = systemActiveEntry(s);
+  const items = assistantItemsOf(number, output.proposals).map((it) => (ref ? { ...it, band: ref.band, species: ref.species } : it));
   const newKeys = new Set(items.map((it) => quantaKey(it)));
   const rejected = new Set(s.assistantRejectedIds);
   const kept = s.assistantProposals.filter((p) => (replace ? rejected.has(p.id) : rejected.has(p.id) || !newKeys.has(quantaKey(p))));
@@ -194,6 +197,14 @@ function batchAdd(
 }
 
 /**
+ * The table lines the assistant works from: every line in a single-band session, the active band's
+ * lines in a several-band one (the run, the check and the extension use the active band's model).
+ */
+function activeBandRows(s: BenchState): BenchState['assignments'] {
+  return s.system ? s.assignments.filter((a) => assignmentBandKey(s, a) === s.activeBandKey) : s.assignments;
+}
+
+/**
  * Run the auto-extend loop: from the table's lines as seeds, or from the model alone when the table
  * is empty; on the page's found peaks. Its proposals replace the review list (rejected ones stay,
  * and are not proposed again); the table is not touched.
@@ -203,10 +214,11 @@ export async function assistantRunStart(runner: AssistantRunner = assistantJobSt
   const s = benchStore.getState();
   const peaks = peaksOrSay(s);
   if (!peaks) return;
-  const n = s.assignments.length;
+  const rows = activeBandRows(s);
+  const n = rows.length;
   const what = n > 0 ? `run from the ${n} line${n === 1 ? '' : 's'} of the table` : 'run from the model alone';
   const done = await jobRun(
-    { kind: 'run', model: s.model, floatable: [...s.floated], peaks, assignments: s.assignments, rejected: rejectedPairs(s) },
+    { kind: 'run', model: s.model, floatable: [...s.floated], peaks, assignments: rows, rejected: rejectedPairs(s) },
     what,
     runner,
   );
@@ -250,7 +262,7 @@ export async function assistantExtendStart(runner: AssistantRunner = assistantJo
       model: s.model,
       floatable: [...s.floated],
       peaks,
-      assignments: s.assignments,
+      assignments: activeBandRows(s),
       series,
       fit: fit && !fit.isExactlyDetermined ? fit : null,
       rungs: EXTEND_RUNGS,
@@ -270,15 +282,16 @@ export async function assistantExtendStart(runner: AssistantRunner = assistantJo
  */
 export async function assistantHuntStart(runner: AssistantRunner = assistantJobStart): Promise<void> {
   const s = benchStore.getState();
-  if (s.assignments.length === 0) {
-    messagePost('info', 'The table has no lines to check yet.');
+  const rows = activeBandRows(s);
+  if (rows.length === 0) {
+    messagePost('info', s.system ? 'The table has no lines of the active band to check yet.' : 'The table has no lines to check yet.');
     return;
   }
   const peaks = peaksOrSay(s);
   if (!peaks) return;
-  const n = s.assignments.length;
+  const n = rows.length;
   const done = await jobRun(
-    { kind: 'hunt', model: s.model, floatable: [...s.floated], peaks, assignments: s.assignments },
+    { kind: 'hunt', model: s.model, floatable: [...s.floated], peaks, assignments: rows },
     `check of the ${n} table line${n === 1 ? '' : 's'}`,
     runner,
   );

@@ -174,7 +174,7 @@ export function assistantAcceptable(
 }
 
 /** An accepted proposal as a table row: its id, quanta, position, σ; a short note saying where it came from. */
-export function assistantAssignmentOf(item: AssistantProposal, batchTitle: string): Assignment {
+export function assistantAssignmentOf(item: AssistantProposal & { band?: string; species?: string }, batchTitle: string): Assignment {
   const dist = Number.isFinite(item.distanceSigma) ? `, ${item.distanceSigma.toFixed(1)}σ from its prediction` : '';
   return {
     id: item.id,
@@ -188,6 +188,7 @@ export function assistantAssignmentOf(item: AssistantProposal, batchTitle: strin
     isExcluded: false,
     note: `assistant ${batchTitle}${dist}${item.isBlended ? ', possible blend' : ''}`,
     peakId: peakIdAt(item.observedCm1),
+    ...(item.band !== undefined && item.species !== undefined ? { band: item.band, species: item.species } : {}),
   };
 }
 

@@ -44,6 +44,9 @@ export interface AssistantBatch {
 export interface AssistantReviewItem extends AssistantProposal {
   /** Number of the batch it came from. */
   batch: number;
+  /** Band and species it was proposed for (a several-band session: the band active at run time). */
+  band?: string;
+  species?: string;
 }
 
 /** The hunt's findings on the table. */

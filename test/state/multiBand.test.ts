@@ -23,6 +23,8 @@ import { selectDrawnBands } from '../../src/state/selectorsSystem';
 import { sessionOf, stateFromSession } from '../../src/state/session';
 import { benchStore } from '../../src/state/store';
 import { smallModel } from './fixtures';
+import { assistantAcceptAll, assistantRunStart, type AssistantRunner } from '../../src/state/actionsAssistant';
+import { assistantBandTrace } from './assistantBand';
 
 const runOne = (input: Parameters<typeof fitBand>[0]) => Promise.resolve(fitBand(input));
 const runSystem = (input: Parameters<typeof systemFit>[0]) => Promise.resolve(systemFit(input));
@@ -195,5 +197,65 @@ describe('a session of several bands', () => {
     await fitStart(runOne, () => Promise.reject(new Error('the joint fit must not run for one band')));
     const direct = fitBand({ model, floated: ['upper.origin', 'upper.B', 'lower.B'], lines: assignments });
     expect(benchStore.getState().fitOutcome).toEqual(direct);
+  });
+});
+
+describe('the assistant in a several-band session', () => {
+  it('starts from the active band’s lines only and files what is accepted under the band it ran for', async () => {
+    const truth = demoSystemTruth();
+    systemLoad({ system: truth, floated: DEMO_SYSTEM_FLOATED, name: 'demo' }, 'load');
+    const base = {
+      kUpper: 1,
+      kLower: 0,
+      uncertaintyCm1: 0.0005,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+    };
+    benchStore.setState({
+      trace: assistantBandTrace().trace,
+      assignments: [
+        { ...base, id: 'p1', jUpper: 5, jLower: 4, observedCm1: 1150, band: 'nu4', species: 'LB-7' },
+        { ...base, id: 'i1', jUpper: 5, jLower: 4, observedCm1: 1149.5, band: 'nu4', species: 'LB-7-66' },
+      ],
+    });
+    let seen: readonly { id: string }[] = [];
+    const runner: AssistantRunner = (job) => {
+      seen = job.kind === 'hunt' ? [] : job.assignments;
+      return Promise.resolve({
+        kind: 'run',
+        proposals: [
+          {
+            id: 'x',
+            jUpper: 6,
+            kUpper: 1,
+            jLower: 5,
+            kLower: 0,
+            observedCm1: 1151.25,
+            uncertaintyCm1: 0.0005,
+            predictedCm1: 1151.2501,
+            calcCm1: 1151.2501,
+            distanceSigma: 0.2,
+            isBlended: false,
+            verdict: 'confident',
+            reason: 'test',
+            doubt: '',
+          },
+        ],
+        summary: '',
+        doubt: null,
+        warnings: [],
+        ambiguous: [],
+        fitSummary: null,
+      });
+    };
+    await assistantRunStart(runner);
+    // The active band is the parent's ν4: the isotopologue's row is not a seed of its model.
+    expect(seen.map((a) => a.id)).toEqual(['p1']);
+    // Switching the panels to another band before accepting does not move the proposal to it.
+    expect(bandActivate('LB-7-66/nu4')).toBeNull();
+    expect(assistantAcceptAll().accepted).toBe(1);
+    const added = benchStore.getState().assignments.find((a) => a.jUpper === 6);
+    expect(added).toMatchObject({ band: 'nu4', species: 'LB-7' });
   });
 });
