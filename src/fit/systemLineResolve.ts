@@ -5,6 +5,8 @@ import type { SystemModel } from '../physics/system/systemModel';
 import { systemStateFind } from '../physics/system/systemModel';
 import { systemStateProvider, systemStateValues } from '../physics/system/systemStateLevels';
 import type { SystemFitLine } from './systemFitTypes';
+import { coupledLineAllowed, coupledMoments } from '../physics/interaction/coupledLines';
+import { speciesLevelSources, type StateLevelSource } from '../physics/interaction/speciesLevelSources';
 
 /** What a line table row says about a line (the labels it leaves out are null). */
 export interface SystemLineQuery {
@@ -77,10 +79,17 @@ export function systemLineResolve(model: SystemModel, q: SystemLineQuery): Syste
   const lp = systemStateProvider(species.shape, lower);
   const up = systemStateProvider(species.shape, upper);
   const loSet = copy(lp.levels(q.jLower, systemStateValues(lp, lower), q.kLower));
-  const upSet = copy(up.levels(q.jUpper, systemStateValues(up, upper), q.kUpper));
+  const sources = species.interactions?.length ? speciesLevelSources(species) : null;
+  const coupled = sources?.get(band.upper);
+  const upSet = coupled?.coupled
+    ? copy(coupled.provider.levels(q.jUpper, coupled.values, q.kUpper))
+    : copy(up.levels(q.jUpper, systemStateValues(up, upper), q.kUpper));
   const matches: { i: number; j: number }[] = [];
   let sameKAllowed = 0;
-  bandTransitions(loSet, lower.isDegenerate, upSet, upper.isDegenerate, q.kLower, (i, j) => {
+  const transitions = coupled?.coupled
+    ? coupledTransitions(coupled, species, band.lower, loSet, lower.isDegenerate, upSet, q.kLower)
+    : (emit: (i: number, j: number) => void) => bandTransitions(loSet, lower.isDegenerate, upSet, upper.isDegenerate, q.kLower, emit);
+  transitions((i, j) => {
     if (loSet.K[i] !== q.kLower || upSet.K[j] !== q.kUpper) return;
     sameKAllowed++;
     if (q.lLower !== null && loSet.l[i] !== q.lLower) return;
@@ -96,6 +105,10 @@ export function systemLineResolve(model: SystemModel, q: SystemLineQuery): Syste
     if (species.shape === 'linear' && (q.kUpper !== (upper.isDegenerate ? 1 : 0) || q.kLower !== (lower.isDegenerate ? 1 : 0))) {
       return bad(`${qn} is not a line of ${where}: a linear molecule has K = 0 in a Σ state and K = 1 in a Π state`);
     }
+    if (coupled?.coupled)
+      return bad(
+        `${qn} is not a line of ${where}: no mixture of the coupled states reaches that level from that lower level (symmetry or ΔJ)`,
+      );
     return bad(
       `${qn} is not an allowed line of ${where} (ΔK must be ${lower.isDegenerate === upper.isDegenerate ? '0' : '±1'}, K <= J, and no Q line where its Hönl–London factor is 0)`,
     );
@@ -122,5 +135,35 @@ export function systemLineResolve(model: SystemModel, q: SystemLineQuery): Syste
       lLower: loSet.l[i] as -1 | 0 | 1,
       tagLower: loSet.tag[i],
     },
+  };
+}
+
+/**
+ * The transitions a coupled upper state allows from a lower level set: every pair the dipole can
+ * reach through some mixture (coupledLineAllowed), perturbation-allowed lines included.
+ */
+function coupledTransitions(
+  source: StateLevelSource,
+  species: SystemModel['species'][number],
+  lowerName: string,
+  loSet: LevelSet,
+  isLowerDegenerate: boolean,
+  upSet: LevelSet,
+  kMaxLower: number,
+) {
+  return (emit: (i: number, j: number) => void) => {
+    const cs = source.coupled!;
+    const all = cs.groupLevels(upSet.J, source.values);
+    const moments = coupledMoments(species, lowerName, source);
+    for (let i = 0; i < loSet.count; i++) {
+      if (loSet.K[i] > kMaxLower) continue;
+      for (let j = 0; j < upSet.count; j++) {
+        let index = -1;
+        for (let a = 0; a < all.count && index < 0; a++)
+          if (all.state[a] === cs.stateIndex && all.K[a] === upSet.K[j] && all.l[a] === upSet.l[j] && all.tag[a] === upSet.tag[j])
+            index = a;
+        if (index >= 0 && coupledLineAllowed(all, index, loSet.J, loSet.K[i], loSet.l[i], isLowerDegenerate, moments)) emit(i, j);
+      }
+    }
   };
 }

@@ -25,6 +25,7 @@ import type { SystemModel, SystemSpecies } from '../physics/system/systemModel';
 import type { SystemParameter, SystemParameterStatus } from '../fit/systemFitTypes';
 import { INPUT_LIMITS, inputExcerpt, inputJsonParse } from './inputLimits';
 import { modelAllowedParameters, type ModelFile } from './modelFile';
+import { interactionStateAllowed, interactionStateNames, systemInteractionsParse } from './systemInteractions';
 
 export type { SystemParameter, SystemParameterStatus };
 
@@ -92,9 +93,12 @@ const speciesSchema = z.strictObject({
           .number()
           .refine((s) => Number.isFinite(s) && s >= 0, 'a band strength >= 0')
           .optional(),
+        momentSign: z.union([z.literal(1), z.literal(-1)]).optional(),
       }),
     )
     .max(SYSTEM_FILE_LIMITS.maxBands),
+  // Checked field by field in io/systemInteractions.ts.
+  interactions: z.array(z.unknown()).max(SYSTEM_FILE_LIMITS.maxBands).optional(),
   notes: z.string().optional(),
 });
 
@@ -218,6 +222,7 @@ export function systemFileFromJson(raw: unknown): SystemFile {
     if (stateNames.length > SYSTEM_FILE_LIMITS.maxStates)
       fail(`${at}.states`, `holds ${stateNames.length} states, more than ${SYSTEM_FILE_LIMITS.maxStates}`);
     let originless: string | null = null;
+    const coupledNames = interactionStateNames(sp.interactions);
     const states = stateNames.map((stateName) => {
       const sAt = `${at}.states.${stateName}`;
       const okName = nameSchema.safeParse(stateName);
@@ -226,7 +231,10 @@ export function systemFileFromJson(raw: unknown): SystemFile {
       const deg = body.degenerate ?? false;
       if (typeof deg !== 'boolean') fail(`${sAt}.degenerate`, `is ${describe(deg)}; expected true or false`);
       const isDegenerate = deg as boolean;
-      const allowed = systemAllowedParameters(shape, isDegenerate);
+      const allowed =
+        coupledNames.has(stateName) && shape !== 'linear'
+          ? interactionStateAllowed(shape, isDegenerate)
+          : systemAllowedParameters(shape, isDegenerate);
       const constants: Record<string, number> = {};
       if (!('origin' in body)) {
         if (originless)
@@ -305,8 +313,28 @@ export function systemFileFromJson(raw: unknown): SystemFile {
             `names the state ${describe(b[side])}, which species '${sp.name}' does not have; expected one of ${stateNames.join(', ')}`,
           );
       }
-      return { name: b.name, upper: b.upper, lower: b.lower, strength: b.strength ?? 1 };
+      return {
+        name: b.name,
+        upper: b.upper,
+        lower: b.lower,
+        strength: b.strength ?? 1,
+        ...(b.momentSign ? { momentSign: b.momentSign } : {}),
+      };
     });
+    const interactions =
+      sp.interactions === undefined ? [] : systemInteractionsParse(sp.interactions, `${at}.interactions`, shape, states, fail);
+    for (const { interaction, parameters } of interactions)
+      for (const p of parameters)
+        raws.push({
+          key: keyOf(sp.name, interaction.name, p.name),
+          speciesIndex: s,
+          state: interaction.name,
+          name: p.name,
+          path: p.path,
+          value: p.value,
+          status: p.status,
+          ...(p.sameText !== undefined ? { sameText: p.sameText } : {}),
+        });
     species.push({
       name: sp.name,
       shape,
@@ -315,6 +343,7 @@ export function systemFileFromJson(raw: unknown): SystemFile {
       spinWeights: sp.spinWeights ?? [1],
       states,
       bands,
+      ...(interactions.length ? { interactions: interactions.map((x) => x.interaction) } : {}),
     });
   });
 
@@ -353,7 +382,10 @@ export function systemFileFromJson(raw: unknown): SystemFile {
     return { key: r.key, speciesIndex: r.speciesIndex, state: r.state, name: r.name, value: cur.value, status: 'tied', same: cur.key };
   });
   for (const p of parameters) {
-    if (p.status === 'tied') species[p.speciesIndex].states.find((s) => s.name === p.state)!.constants[p.name] = p.value;
+    if (p.status !== 'tied') continue;
+    const sp = species[p.speciesIndex];
+    const owner = sp.states.find((s) => s.name === p.state) ?? sp.interactions!.find((it) => it.name === p.state)!;
+    owner.constants[p.name] = p.value;
   }
   return {
     model: { temperatureK: f.temperature, jMax: f.jMax, kMax: f.kMax ?? 0, species },
