@@ -78,8 +78,11 @@ export function systemLineResolve(model: SystemModel, q: SystemLineQuery): Syste
   const upper = systemStateFind(species, band.upper);
   const lp = systemStateProvider(species.shape, lower);
   const up = systemStateProvider(species.shape, upper);
-  const loSet = copy(lp.levels(q.jLower, systemStateValues(lp, lower), q.kLower));
-  const sources = species.interactions?.length ? speciesLevelSources(species) : null;
+  const sources = species.interactions?.length || species.states.some((s) => 'h3' in s.constants) ? speciesLevelSources(species) : null;
+  const coupledLower = sources?.get(band.lower);
+  const loSet = coupledLower?.coupled
+    ? copy(coupledLower.provider.levels(q.jLower, coupledLower.values, q.kLower))
+    : copy(lp.levels(q.jLower, systemStateValues(lp, lower), q.kLower));
   const coupled = sources?.get(band.upper);
   const upSet = coupled?.coupled
     ? copy(coupled.provider.levels(q.jUpper, coupled.values, q.kUpper))
@@ -87,7 +90,7 @@ export function systemLineResolve(model: SystemModel, q: SystemLineQuery): Syste
   const matches: { i: number; j: number }[] = [];
   let sameKAllowed = 0;
   const transitions = coupled?.coupled
-    ? coupledTransitions(coupled, species, band.lower, loSet, lower.isDegenerate, upSet, q.kLower)
+    ? coupledTransitions(coupled, species, band.lower, loSet, upSet, q.kLower)
     : (emit: (i: number, j: number) => void) => bandTransitions(loSet, lower.isDegenerate, upSet, upper.isDegenerate, q.kLower, emit);
   transitions((i, j) => {
     if (loSet.K[i] !== q.kLower || upSet.K[j] !== q.kUpper) return;
@@ -147,7 +150,6 @@ function coupledTransitions(
   species: SystemModel['species'][number],
   lowerName: string,
   loSet: LevelSet,
-  isLowerDegenerate: boolean,
   upSet: LevelSet,
   kMaxLower: number,
 ) {
@@ -162,7 +164,10 @@ function coupledTransitions(
         for (let a = 0; a < all.count && index < 0; a++)
           if (all.state[a] === cs.stateIndex && all.K[a] === upSet.K[j] && all.l[a] === upSet.l[j] && all.tag[a] === upSet.tag[j])
             index = a;
-        if (index >= 0 && coupledLineAllowed(all, index, loSet.J, loSet.K[i], loSet.l[i], isLowerDegenerate, moments)) emit(i, j);
+        // σv of the lower level: an A1/A2 member by its tag, a single K'' = 0 level (−1)^J'' (A1 state).
+        const tag = loSet.tag[i];
+        const sigmaLower = tag === 'A1' ? 1 : tag === 'A2' ? -1 : loSet.K[i] === 0 ? (loSet.J % 2 === 0 ? 1 : -1) : 0;
+        if (index >= 0 && coupledLineAllowed(all, index, loSet.J, loSet.K[i], sigmaLower, moments)) emit(i, j);
       }
     }
   };

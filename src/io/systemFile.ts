@@ -231,8 +231,9 @@ export function systemFileFromJson(raw: unknown): SystemFile {
       const deg = body.degenerate ?? false;
       if (typeof deg !== 'boolean') fail(`${sAt}.degenerate`, `is ${describe(deg)}; expected true or false`);
       const isDegenerate = deg as boolean;
+      // A state named in an interaction, or a nondegenerate one that gives h3, is diagonalised (physics/interaction).
       const allowed =
-        coupledNames.has(stateName) && shape !== 'linear'
+        (coupledNames.has(stateName) || (!isDegenerate && 'h3' in body)) && shape !== 'linear'
           ? interactionStateAllowed(shape, isDegenerate)
           : systemAllowedParameters(shape, isDegenerate);
       const constants: Record<string, number> = {};

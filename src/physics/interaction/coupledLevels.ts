@@ -5,7 +5,8 @@
  * Basis: |s; J, k⟩ (k = −J … J) for every nondegenerate state s and |d; J, k, ℓ⟩ (ℓ = ±1) for every
  * degenerate state d. Matrix elements (x = J(J+1); every √ is a ladder factor ⟨J,k±1|J±|J,k⟩):
  *
- * Diagonal — nondegenerate: origin + F(J,k) (rotor polynomial to octic order, rotorPolynomial.ts);
+ * Diagonal — nondegenerate: origin + F(J,k) (rotor polynomial to octic order, rotorPolynomial.ts),
+ *   with the Δk = ±6 term ⟨s; k+6|H|s; k⟩ = h3 Π_{i=0…5} √[x − (k+i)(k+i+1)] (splits K = 3 into A1/A2);
  *   degenerate: origin + F(J,k) − 2Uζkℓ + ηJ x kℓ + ηK k³ℓ (U = A or C), with the ℓ(2,2) and ℓ(2,−1)
  *   elements q22(J)·ellQ22Factor and q12·ellQ12Factor of hamiltonian/degenerateStateLevels.ts.
  * Coriolis, nondegenerate s ↔ degenerate d (x–y term, Δk = ±1, Δℓ = ±1 in the convention where the
@@ -328,7 +329,8 @@ export function coupledLevels(
 /**
  * Labels of one block: by largest component (eigenLabelsAssign); with a memory, by following the
  * eigenvectors of the first call at this J (the reference, never overwritten, so a rejected trial
- * step of a fit cannot disturb it) to the new ones they overlap most (coupledLabelFollow). When the
+ * step of a fit cannot disturb it) to the new ones they overlap most (coupledLabelFollow), unless
+ * every label of the block is clear (largest |c|² > 0.75, where both rules agree). When the
  * overlaps are poor (mean matched |⟨ref|new⟩|² below ½: the constants moved too far for "the same
  * level" to mean anything) the largest-component labels are used.
  */
@@ -340,6 +342,10 @@ function labelBlock(vectors: Float64Array, n: number, key: string, memory: Coupl
     memory.blocks.set(key, { vectors: vectors.slice(), labels: byComponent.basisIndex.slice(), n });
     return byComponent;
   }
+  // Where every label is clear (largest |c|² above 0.75) both rules agree; following is then skipped (O(n³)).
+  let clear = true;
+  for (let j = 0; j < n && clear; j++) clear = byComponent.weight[j] > 0.75;
+  if (clear) return byComponent;
   const followed = coupledLabelFollow(ref.vectors, ref.labels, vectors, n);
   if (followed.meanOverlap < 0.5) return byComponent;
   const weight = Float64Array.from(followed.labels, (b, j) => vectors[j * n + b] * vectors[j * n + b]);
@@ -436,6 +442,10 @@ function blockElements(group: CoupledGroup, J: number, x: number, p: ArrayLike<n
       }
     } else {
       push(i, i, e, d);
+      const iH3 = o + 15;
+      let f = 1;
+      for (let t = 0; t < 6 && f !== 0; t++) f *= Math.sqrt(Math.max(0, x - (b.k + t) * (b.k + t + 1)));
+      if (f !== 0) push(i, index.get(code(b.state, b.k + 6, 0)), p[iH3] * f, [iH3, f]);
     }
   });
   group.interactions.forEach((it, n) => {

@@ -18,7 +18,7 @@
  * The Theory of Atomic Spectra (1935), Table 2³ (from memory; checked in the tests against the
  * Racah formula).
  */
-import { honlLondonSigned, levelComponents } from '../system/bandRules';
+import { honlLondonSigned } from '../system/bandRules';
 import type { LevelSet } from '../system/levelTypes';
 import type { SystemSpecies } from '../system/systemModel';
 import type { CoupledLevels } from './coupledLevels';
@@ -38,7 +38,7 @@ export function clebschOneSign(jLower: number, kLower: number, q: number, jUpper
   return q === 0 ? -1 : 1;
 }
 
-/** Transition moments of the group's states from one lower state. */
+/** Transition moment μ_s (momentSign·√strength) of the band lowerName → each group state s. */
 function groupMoments(species: SystemSpecies, lowerName: string, source: StateLevelSource): Float64Array {
   const group = source.coupled!.group;
   return Float64Array.from(group.states, (s) => {
@@ -47,54 +47,88 @@ function groupMoments(species: SystemSpecies, lowerName: string, source: StateLe
   });
 }
 
-/**
- * Σ over the lower level's components of |a|² into one coupled level (× 2 for an E level), in
- * units of band strength × Hönl–London factor.
- */
-function coupledStrength(
-  levels: CoupledLevels,
-  index: number,
-  jLower: number,
-  kLower: number,
-  lowerComps: number[],
-  moments: Float64Array,
-  isStructural: boolean,
-): number {
-  const block = levels.block[index];
+/** A vector over signed lower basis functions k'' (nondegenerate lower state), pruned of tiny entries. */
+interface LowerRep {
+  k: Int32Array;
+  c: Float64Array;
+}
+
+/** The representatives of a coupled level: its vector and, for an E level, its σv mirror image. */
+function upperReps(levels: CoupledLevels, index: number): { k: Int32Array; ell: Int8Array; state: Int32Array; c: Float64Array }[] {
+  const b = levels.block[index];
   const u = levels.vector[index];
+  const rep = { k: b.basisK, ell: b.basisEll, state: b.basisState, c: u };
+  if (!b.isMirrored) return [rep];
   const J = levels.J;
-  const deltaJ = J - jLower;
-  let total = 0;
-  for (let c = 0; c < lowerComps.length; c += 2) {
-    const k2 = lowerComps[c];
-    let amp = 0;
-    let reach = 0;
-    for (let i = 0; i < u.length; i++) {
-      const mu = moments[block.basisState[i]];
-      if (mu === 0) continue;
-      const q = block.basisK[i] - k2;
-      const ell = block.basisEll[i];
-      if (q !== ell) continue;
-      const hl = honlLondonSigned(jLower, k2, deltaJ, q);
-      if (!(hl > 0)) continue;
-      reach++;
-      amp += u[i] * (ell === -1 ? -mu : mu) * clebschOneSign(jLower, k2, q, J) * Math.sqrt(hl);
-    }
-    total += isStructural ? reach : amp * amp;
+  const mirror = {
+    k: Int32Array.from(b.basisK, (k) => -k),
+    ell: Int8Array.from(b.basisEll, (l) => -l),
+    state: b.basisState,
+    c: Float64Array.from(u, (c, i) => ((J + b.basisK[i]) % 2 === 0 ? c : -c)),
+  };
+  return [rep, mirror];
+}
+
+/** The lower representatives of a lower level: unit components, or a coupled level's vector(s). */
+function lowerReps(lower: LevelSet, index: number, coupledLower: CoupledLevels | null, lowerIndex: Int32Array | null): LowerRep[] {
+  if (!coupledLower) {
+    const K = lower.K[index];
+    return K === 0
+      ? [{ k: Int32Array.of(0), c: Float64Array.of(1) }]
+      : [
+          { k: Int32Array.of(K), c: Float64Array.of(1) },
+          { k: Int32Array.of(-K), c: Float64Array.of(1) },
+        ];
   }
-  return block.isMirrored ? 2 * total : total;
+  return upperReps(coupledLower, lowerIndex![index]).map((r) => {
+    const keep: number[] = [];
+    for (let i = 0; i < r.c.length; i++) if (Math.abs(r.c[i]) > 1e-7) keep.push(i);
+    return { k: Int32Array.from(keep, (i) => r.k[i]), c: Float64Array.from(keep, (i) => r.c[i]) };
+  });
 }
 
 /**
- * Visit every line of one band whose upper state belongs to a coupled group (the lower state
- * uncoupled): every level of the band's upper state at J' = J'' − 1 … J'' + 1 reached from a lower
- * level with non-zero strength. The callback gets the lower set and index, the upper set (that
- * state's levels, gradients omitted) and index, and the line's strength divided by the band's own
- * strength (so band strength × that = |a|²; the Hönl–London factor of an unmixed line).
- * A line is kept when its strength exceeds 1e-12 of the band strength times the largest HL.
+ * Σ over the lower and upper representatives of |a|² (in units of band strength × Hönl–London
+ * factor): the line strength between two levels, each summed over the sublevels it stands for.
+ */
+function coupledStrength(levels: CoupledLevels, index: number, jLower: number, lows: LowerRep[], moments: Float64Array): number {
+  const J = levels.J;
+  const deltaJ = J - jLower;
+  let total = 0;
+  for (const up of upperReps(levels, index)) {
+    // Position of each upper k in the rep, per state and ℓ, for the ≤ 3 partners of a lower k''.
+    for (const low of lows) {
+      let amp = 0;
+      for (let a = 0; a < low.k.length; a++) {
+        const k2 = low.k[a];
+        for (let i = 0; i < up.c.length; i++) {
+          const q = up.k[i] - k2;
+          if (q < -1 || q > 1 || q !== up.ell[i]) continue;
+          const mu = moments[up.state[i]];
+          if (mu === 0 || up.c[i] === 0) continue;
+          const hl = honlLondonSigned(jLower, k2, deltaJ, q);
+          if (!(hl > 0)) continue;
+          amp += low.c[a] * up.c[i] * (q === -1 ? -mu : mu) * clebschOneSign(jLower, k2, q, J) * Math.sqrt(hl);
+        }
+      }
+      total += amp * amp;
+    }
+  }
+  return total;
+}
+
+/**
+ * Visit every line of one band whose upper state belongs to a coupled group: every level of the
+ * band's upper state at J' = J'' − 1 … J'' + 1 reached from a lower level with non-zero strength.
+ * The lower state is nondegenerate; it may itself be diagonalised (a ground state with h3), its
+ * levels then entering with their eigenvectors. The callback gets the lower set and index, the
+ * upper set (that state's levels, gradients omitted) and index, and the line's strength divided by
+ * the band's own strength (so band strength × that = |a|²; the Hönl–London factor of an unmixed line).
+ * A line is kept when its strength exceeds 1e-12 of the band strength.
  * @param species the species
- * @param lowerName the band's lower state (not coupled)
+ * @param lowerName the band's lower state (nondegenerate)
  * @param upperName the band's upper state (coupled)
+ * @param bandStrength the band's strength (μ²)
  * @param sources the species' level sources (speciesLevelSources)
  */
 export function coupledBandEnumerate(
@@ -109,69 +143,80 @@ export function coupledBandEnumerate(
 ): void {
   const lowerSource = sources.get(lowerName)!;
   const upperSource = sources.get(upperName)!;
-  if (lowerSource.coupled)
-    throw new Error(`coupledBandEnumerate: lower state '${lowerName}' is itself coupled; hot bands between coupled groups are not handled`);
+  if (lowerSource.provider.isDegenerate)
+    throw new Error(
+      `coupledBandEnumerate: lower state '${lowerName}' is degenerate; bands into a coupled group are handled from a nondegenerate lower state only`,
+    );
+  if (lowerSource.coupled && lowerSource.coupled.group === upperSource.coupled!.group)
+    throw new Error(
+      `coupledBandEnumerate: '${lowerName}' and '${upperName}' are in one coupled group; transitions within a group are not handled`,
+    );
   if (!(bandStrength > 0)) return;
   const cs = upperSource.coupled!;
   const moments = groupMoments(species, lowerName, upperSource);
-  const lowerIsDegenerate = lowerSource.provider.isDegenerate;
-  const upperSets: { set: LevelSet; levels: CoupledLevels; index: Int32Array }[] = [];
-  for (let J = 0; J <= jMax + 1; J++) {
-    const levels = cs.groupLevels(J, upperSource.values);
-    const pick: number[] = [];
-    for (let i = 0; i < levels.count; i++) if (levels.state[i] === cs.stateIndex) pick.push(i);
-    upperSets.push({
-      levels,
-      index: Int32Array.from(pick),
-      set: {
-        J,
-        count: pick.length,
-        K: Int32Array.from(pick, (i) => levels.K[i]),
-        l: Int8Array.from(pick, (i) => levels.l[i]),
-        tag: pick.map((i) => levels.tag[i]),
-        energyCm1: Float64Array.from(pick, (i) => levels.energyCm1[i]),
-        gradient: new Float64Array(0),
-        componentCount: Uint8Array.from(pick, (i) => levels.componentCount[i]),
-      },
-    });
-  }
+  const upperSets = Array.from({ length: jMax + 2 }, (_, J) => stateView(cs.groupLevels(J, upperSource.values), cs.stateIndex));
   const cut = 1e-12 * bandStrength;
   for (let J = 0; J <= jMax; J++) {
-    const raw = lowerSource.provider.levels(J, lowerSource.values, kMax);
-    const lower: LevelSet = {
-      ...raw,
-      K: raw.K.slice(0, raw.count),
-      l: raw.l.slice(0, raw.count),
-      tag: raw.tag.slice(0, raw.count),
-      energyCm1: raw.energyCm1.slice(0, raw.count),
-      gradient: new Float64Array(0),
-      componentCount: raw.componentCount.slice(0, raw.count),
-    };
-    for (let i = 0; i < lower.count; i++) {
-      if (lower.K[i] > kMax) continue;
-      const comps = levelComponents(lower.K[i], lower.l[i], lowerIsDegenerate);
+    const lc = lowerSource.coupled;
+    const low = lc
+      ? stateView(lc.groupLevels(J, lowerSource.values), lc.stateIndex)
+      : { set: copyLevelSet(lowerSource.provider.levels(J, lowerSource.values, kMax)), levels: null, index: null };
+    for (let i = 0; i < low.set.count; i++) {
+      if (low.set.K[i] > kMax) continue;
+      const lows = lowerReps(low.set, i, low.levels, low.index);
       for (let jUp = Math.max(0, J - 1); jUp <= J + 1; jUp++) {
         const up = upperSets[jUp];
         for (let j = 0; j < up.set.count; j++) {
-          const s = coupledStrength(up.levels, up.index[j], J, lower.K[i], comps, moments, false);
-          if (s > cut) visit(lower, i, up.set, j, s / bandStrength);
+          const s = coupledStrength(up.levels, up.index[j], J, lows, moments);
+          if (s > cut) visit(low.set, i, up.set, j, s / bandStrength);
         }
       }
     }
   }
 }
 
+function copyLevelSet(raw: LevelSet): LevelSet {
+  return {
+    ...raw,
+    K: raw.K.slice(0, raw.count),
+    l: raw.l.slice(0, raw.count),
+    tag: raw.tag.slice(0, raw.count),
+    energyCm1: raw.energyCm1.slice(0, raw.count),
+    gradient: new Float64Array(0),
+    componentCount: raw.componentCount.slice(0, raw.count),
+  };
+}
+
+/** One state's levels out of a group's, as a LevelSet (gradients omitted) with their indices in the group's. */
+function stateView(levels: CoupledLevels, stateIndex: number): { set: LevelSet; levels: CoupledLevels; index: Int32Array } {
+  const pick: number[] = [];
+  for (let i = 0; i < levels.count; i++) if (levels.state[i] === stateIndex) pick.push(i);
+  return {
+    levels,
+    index: Int32Array.from(pick),
+    set: {
+      J: levels.J,
+      count: pick.length,
+      K: Int32Array.from(pick, (i) => levels.K[i]),
+      l: Int8Array.from(pick, (i) => levels.l[i]),
+      tag: pick.map((i) => levels.tag[i]),
+      energyCm1: Float64Array.from(pick, (i) => levels.energyCm1[i]),
+      gradient: new Float64Array(0),
+      componentCount: Uint8Array.from(pick, (i) => levels.componentCount[i]),
+    },
+  };
+}
+
 /**
  * Whether the dipole can reach a coupled level from a lower level at all, whatever the constants:
- * some basis function of the level's block is reachable (Δk = ℓ, allowed ΔJ, a band from the lower
- * state to its state) and, for an A1/A2 member reached from a single lower level (K'' = 0), σv
- * changes sign (Γ' ⊗ Γ'' ⊇ A2). This is the rule that decides what a line-table row may name.
+ * some basis function of the level's block is reachable from a signed component of the lower level
+ * (Δk = ℓ', allowed ΔJ, a band from the lower state to its state) and, between two A1/A2 members,
+ * σv changes sign (Γ' ⊗ Γ'' ⊇ A2). This decides what a line-table row may name.
  * @param levels the group's levels at J'
  * @param index the level
  * @param jLower J''
  * @param kLower K''
- * @param lLower l'' (0 for a nondegenerate lower state)
- * @param isLowerDegenerate whether the lower state is degenerate
+ * @param sigmaLower σv of the lower level: ±1 for an A1/A2 member or a single K'' = 0 level, 0 for an E level or an unsplit pair
  * @param moments transition moment of each group state from the lower state (only ≠ 0 matters)
  */
 export function coupledLineAllowed(
@@ -179,16 +224,28 @@ export function coupledLineAllowed(
   index: number,
   jLower: number,
   kLower: number,
-  lLower: number,
-  isLowerDegenerate: boolean,
+  sigmaLower: number,
   moments: Float64Array,
 ): boolean {
-  const comps = levelComponents(kLower, lLower, isLowerDegenerate);
   const block = levels.block[index];
-  if (coupledStrength(levels, index, jLower, kLower, comps, moments, true) === 0) return false;
-  if (block.isMirrored || isLowerDegenerate || kLower !== 0) return true;
-  // Lower K'' = 0 of a nondegenerate (A1) state has σv = (−1)^J''; the dipole changes the sign.
-  const sigmaLower = jLower % 2 === 0 ? 1 : -1;
+  const J = levels.J;
+  let reach = 0;
+  for (const k2 of kLower === 0 ? [0] : [kLower, -kLower])
+    for (let i = 0; i < block.basisK.length; i++) {
+      const q = block.basisK[i] - k2;
+      if (q !== block.basisEll[i] || moments[block.basisState[i]] === 0) continue;
+      if (honlLondonSigned(jLower, k2, J - jLower, q) > 0) reach++;
+    }
+  if (block.isMirrored) {
+    for (const k2 of kLower === 0 ? [0] : [kLower, -kLower])
+      for (let i = 0; i < block.basisK.length; i++) {
+        const q = -block.basisK[i] - k2;
+        if (q !== -block.basisEll[i] || moments[block.basisState[i]] === 0) continue;
+        if (honlLondonSigned(jLower, k2, J - jLower, q) > 0) reach++;
+      }
+  }
+  if (reach === 0) return false;
+  if (block.isMirrored || sigmaLower === 0) return true;
   return levels.sigma[index] === -sigmaLower;
 }
 

@@ -41,8 +41,9 @@ export function interactionParameterNames(type: InteractionType, isDegenerateA: 
 
 /**
  * Constants of a state inside a coupled group: the diagonalising providers' sets (origin, the rotor
- * polynomial to octic order, and for a degenerate state ζ, ηJ, ηK, q22, q22J, q12).
+ * polynomial to octic order, and for a degenerate state ζ, ηJ, ηK, q22, q22J, q12), and for a
+ * nondegenerate state h3, the Δk = ±6 term that splits its K = 3 levels into A1 and A2.
  */
 export function coupledStateParameterNames(shape: RotorShape, isDegenerate: boolean): string[] {
-  return isDegenerate ? degenerateStateParameterNames(shape) : ['origin', ...rotorPolynomialNames(shape)];
+  return isDegenerate ? degenerateStateParameterNames(shape) : ['origin', ...rotorPolynomialNames(shape), 'h3'];
 }

@@ -33,8 +33,9 @@ export interface SpeciesLevelSourcesOptions {
 
 /**
  * The level source of every state of a species: states joined by interactions (directly or through
- * others) form a coupled group whose levels come from one Hamiltonian (coupledLevels); every other
- * state keeps its own provider (systemStateProvider). The coupled states of one group share one
+ * others) form a coupled group whose levels come from one Hamiltonian (coupledLevels), and so does a
+ * state alone that carries h3 (its K = 3 A1/A2 splitting); every other state keeps its own provider
+ * (systemStateProvider). The coupled states of one group share one
  * computation per J and set of constants.
  * @param species the species (its `interactions`, if any, define the groups)
  * @throws Error for an interaction naming an unknown state, or on a linear molecule
@@ -70,6 +71,12 @@ export function speciesLevelSources(species: SystemSpecies, options: SpeciesLeve
       members[gb!] = [];
     }
   }
+  // A state that carries a term only the coupled Hamiltonian knows (h3) is diagonalised on its own.
+  for (const st of species.states)
+    if (!groupOf.has(st.name) && 'h3' in st.constants) {
+      members.push([st.name]);
+      groupOf.set(st.name, members.length - 1);
+    }
   if (members.length > 0 && species.shape === 'linear')
     throw new Error(`speciesLevelSources: species '${species.name}' is linear; interactions are handled for symmetric tops only`);
   members.forEach((names) => {

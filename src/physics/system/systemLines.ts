@@ -209,7 +209,7 @@ export function bandEnumerate(
 ): void {
   const lowerState = systemStateFind(species, lowerName);
   const upperState = systemStateFind(species, upperName);
-  if (species.interactions?.length) {
+  if (species.interactions?.length || species.states.some((s) => 'h3' in s.constants)) {
     // Coupled upper states: lines and intensities from the mixed levels (physics/interaction).
     const sources = speciesLevelSources(species);
     if (sources.get(upperName)!.coupled) {
