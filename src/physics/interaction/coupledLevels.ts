@@ -119,6 +119,9 @@ export interface CoupledBlock {
   basisEll: Int8Array;
   /** True for the class-1 block, whose levels stand also for their class-2 mirror images. */
   isMirrored: boolean;
+  /** The basis functions with k = K − J … are byKIndex[byKStart[k + J] … byKStart[k + J + 1]) (lookup by k). */
+  byKStart: Int32Array;
+  byKIndex: Int32Array;
 }
 
 /** The levels of one J of a coupled group, as columns. */
@@ -209,11 +212,19 @@ export function coupledLevels(
     });
     const n = basis.length;
     if (n === 0) continue;
+    const byKStart = new Int32Array(2 * J + 2);
+    for (const b of basis) byKStart[b.k + J + 1]++;
+    for (let i = 1; i < byKStart.length; i++) byKStart[i] += byKStart[i - 1];
+    const fill = byKStart.slice(0, 2 * J + 1);
+    const byKIndex = new Int32Array(n);
+    basis.forEach((b, i) => (byKIndex[fill[b.k + J]++] = i));
     const block: CoupledBlock = {
       basisState: Int32Array.from(basis, (b) => b.state),
       basisK: Int32Array.from(basis, (b) => b.k),
       basisEll: Int8Array.from(basis, (b) => b.ell),
       isMirrored: cls === 1,
+      byKStart,
+      byKIndex,
     };
     const el = blockElements(group, J, x, values, basis);
     const h = new Float64Array(n * n);

@@ -90,25 +90,33 @@ function lowerReps(lower: LevelSet, index: number, coupledLower: CoupledLevels |
 /**
  * Σ over the lower and upper representatives of |a|² (in units of band strength × Hönl–London
  * factor): the line strength between two levels, each summed over the sublevels it stands for.
+ * The mirror image of an E level is read through the block's k lookup (k → −k, ℓ → −ℓ, phase (−1)^{J+k}).
  */
 function coupledStrength(levels: CoupledLevels, index: number, jLower: number, lows: LowerRep[], moments: Float64Array): number {
   const J = levels.J;
   const deltaJ = J - jLower;
+  const block = levels.block[index];
+  const u = levels.vector[index];
   let total = 0;
-  for (const up of upperReps(levels, index)) {
-    // Position of each upper k in the rep, per state and ℓ, for the ≤ 3 partners of a lower k''.
+  for (let mirror = 0; mirror <= (block.isMirrored ? 1 : 0); mirror++) {
     for (const low of lows) {
       let amp = 0;
       for (let a = 0; a < low.k.length; a++) {
         const k2 = low.k[a];
-        for (let i = 0; i < up.c.length; i++) {
-          const q = up.k[i] - k2;
-          if (q < -1 || q > 1 || q !== up.ell[i]) continue;
-          const mu = moments[up.state[i]];
-          if (mu === 0 || up.c[i] === 0) continue;
-          const hl = honlLondonSigned(jLower, k2, deltaJ, q);
-          if (!(hl > 0)) continue;
-          amp += low.c[a] * up.c[i] * (q === -1 ? -mu : mu) * clebschOneSign(jLower, k2, q, J) * Math.sqrt(hl);
+        for (let q = -1; q <= 1; q++) {
+          const kOrig = mirror ? -(k2 + q) : k2 + q;
+          if (kOrig < -J || kOrig > J) continue;
+          for (let t = block.byKStart[kOrig + J]; t < block.byKStart[kOrig + J + 1]; t++) {
+            const i = block.byKIndex[t];
+            const ell = mirror ? -block.basisEll[i] : block.basisEll[i];
+            if (ell !== q) continue;
+            const mu = moments[block.basisState[i]];
+            if (mu === 0 || u[i] === 0) continue;
+            const hl = honlLondonSigned(jLower, k2, deltaJ, q);
+            if (!(hl > 0)) continue;
+            const c = mirror && (J + kOrig) % 2 !== 0 ? -u[i] : u[i];
+            amp += low.c[a] * c * (q === -1 ? -mu : mu) * clebschOneSign(jLower, k2, q, J) * Math.sqrt(hl);
+          }
         }
       }
       total += amp * amp;
@@ -167,6 +175,8 @@ export function coupledBandEnumerate(
       for (let jUp = Math.max(0, J - 1); jUp <= J + 1; jUp++) {
         const up = upperSets[jUp];
         for (let j = 0; j < up.set.count; j++) {
+          // k − ℓ is conserved: K'' ≡ 0 (mod 3) reaches only class-0 (A1/A2) levels, other K'' only E levels.
+          if (up.levels.block[up.index[j]].isMirrored === (low.set.K[i] % 3 === 0)) continue;
           const s = coupledStrength(up.levels, up.index[j], J, lows, moments);
           if (s > cut) visit(low.set, i, up.set, j, s / bandStrength);
         }

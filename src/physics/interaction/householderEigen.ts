@@ -58,7 +58,10 @@ export function householderEigen(a: ArrayLike<number>, n: number): SymmetricEige
     let vp = 0;
     for (let i = c + 1; i < n; i++) {
       let s = 0;
-      for (let j = c + 1; j < n; j++) s += w[j * n + i] * refl[c * n + j];
+      // w is kept symmetric, so row i is read as column i (contiguous).
+      const row = i * n;
+      const v = c * n;
+      for (let j = c + 1; j < n; j++) s += w[row + j] * refl[v + j];
       p[i] = b * s;
       vp += refl[c * n + i] * p[i];
     }
