@@ -46,9 +46,9 @@ describe('PH3 ν2/ν4 dyad from HITRAN 2012', () => {
     expect(pairs).toBeGreaterThan(1000);
   });
 
-  it('fits ν2 and ν4 together with the Coriolis coupling to rms < 0.03 cm⁻¹ (single-band fits: 0.28 cm⁻¹)', () => {
-    // Measured 0.0283 cm⁻¹ on this list; the bound leaves room for solver round-off only.
-    expect(result.rmsCm1).toBeLessThan(0.03);
+  it('fits ν2 and ν4 together with the Coriolis coupling to rms < 0.025 cm⁻¹ (single-band fits: 0.28 cm⁻¹)', () => {
+    // Measured 0.0237 cm⁻¹ on this list; the bound leaves room for solver round-off only.
+    expect(result.rmsCm1).toBeLessThan(0.025);
     expect(result.nLines).toBeGreaterThan(4000);
     // The interaction constants are fitted and determined (σ small against the value).
     const c1 = result.parameters['v2v4.C1'];
@@ -68,7 +68,7 @@ describe('PH3 ν2/ν4 dyad from HITRAN 2012', () => {
     console.log(
       `PH3 dyad, J' <= 17: ${out.result.nLines} lines, rms ${out.result.rmsCm1.toFixed(4)} cm⁻¹, σ_w ${out.result.sigmaW?.toFixed(2)}`,
     );
-    // Measured 0.0037 cm⁻¹ (3280 lines).
+    // Measured 0.0035 cm⁻¹ (3280 lines).
     expect(out.result.rmsCm1).toBeLessThanOrEqual(0.005);
     expect(out.result.nLines).toBeGreaterThan(3000);
   }, 300_000);
@@ -153,7 +153,7 @@ describe('PH3 ν2/ν4 dyad from HITRAN 2012', () => {
     // Every stronger forbidden line of the list is produced by the simulation.
     expect(minus.missing).toBe(0);
     // With the ν4 moment of opposite sign to ν2's (in this basis's phases) the borrowed intensities
-    // follow the database's: measured 98 of 110 within a factor 1.5, median ratio 0.965. The bounds
+    // follow the database's: measured 101 of 110 within a factor 1.5, median ratio 0.981. The bounds
     // (80 %, median 0.8–1.25) leave room for the fit's residual mixing errors; the other sign fails
     // them (13 of 110), so the comparison is a test of the interference, not of the scale alone.
     expect(minus.within / minus.n).toBeGreaterThan(0.8);

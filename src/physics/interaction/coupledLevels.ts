@@ -11,9 +11,9 @@
  *   elements q22(J)·ellQ22Factor and q12·ellQ12Factor of hamiltonian/degenerateStateLevels.ts.
  * Coriolis, nondegenerate s ↔ degenerate d (x–y term, Δk = ±1, Δℓ = ±1 in the convention where the
  * dipole has Δk = Δℓ):
- *   ⟨d; k±1, ±1|H|s; k⟩ = ±(C1 + C1J x + C1K (k ± ½)²) √[x − k(k±1)]
+ *   ⟨d; k±1, ±1|H|s; k⟩ = ±(C1 + C1J x + C1K (k ± ½)² + C1JJ x²) √[x − k(k±1)]
  * and its ΔK = ±2 companion (Δk = ∓2, Δℓ = ±1, same (k − ℓ) mod 3 class):
- *   ⟨d; k∓2, ±1|H|s; k⟩ = (C2 + C2J x) √[x − k(k∓1)] √[x − (k∓1)(k∓2)]
+ *   ⟨d; k∓2, ±1|H|s; k⟩ = (C2 + C2J x + C2K (k ∓ 1)²) √[x − k(k∓1)] √[x − (k∓1)(k∓2)]
  * Coriolis, degenerate d1 ↔ degenerate d2:
  *   ⟨d2; k, ℓ|H|d1; k, ℓ⟩ = (Cz + CzJ x) kℓ,   ⟨d2; k±1, ∓1|H|d1; k, ±1⟩ = ±(C1 + C1J x) √[x − k(k±1)]
  * Fermi, two states of the same degeneracy: ⟨b; k, ℓ|H|a; k, ℓ⟩ = W + WJ x + WK k².
@@ -482,12 +482,30 @@ function blockElements(group: CoupledGroup, J: number, x: number, p: ArrayLike<n
           const r = Math.sqrt(Math.max(0, x - k * (k + sign)));
           if (r > 0) {
             const kAvg2 = (k + sign / 2) ** 2;
-            const c = p[o] + p[o + 1] * x + p[o + 2] * kAvg2;
-            push(i, index.get(code(dg, k + sign, sign)), sign * c * r, [o, sign * r, o + 1, sign * r * x, o + 2, sign * r * kAvg2]);
+            const c = p[o] + p[o + 1] * x + p[o + 2] * kAvg2 + p[o + 5] * x * x;
+            push(i, index.get(code(dg, k + sign, sign)), sign * c * r, [
+              o,
+              sign * r,
+              o + 1,
+              sign * r * x,
+              o + 2,
+              sign * r * kAvg2,
+              o + 5,
+              sign * r * x * x,
+            ]);
           }
-          // Δk = ∓2, Δℓ = ±1.
+          // Δk = ∓2, Δℓ = ±1; (k ∓ 1)² is the mean k of the pair, squared (σv-symmetric).
           const r2 = Math.sqrt(Math.max(0, x - k * (k - sign))) * Math.sqrt(Math.max(0, x - (k - sign) * (k - 2 * sign)));
-          if (r2 > 0) push(i, index.get(code(dg, k - 2 * sign, sign)), (p[o + 3] + p[o + 4] * x) * r2, [o + 3, r2, o + 4, r2 * x]);
+          const kMid2 = (k - sign) ** 2;
+          if (r2 > 0)
+            push(i, index.get(code(dg, k - 2 * sign, sign)), (p[o + 3] + p[o + 4] * x + p[o + 6] * kMid2) * r2, [
+              o + 3,
+              r2,
+              o + 4,
+              r2 * x,
+              o + 6,
+              r2 * kMid2,
+            ]);
         }
       });
       return;

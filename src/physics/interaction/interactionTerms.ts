@@ -23,7 +23,7 @@ export const INTERACTION_TYPES: readonly InteractionType[] = ['coriolis', 'fermi
  *
  * - coriolis, nondegenerate A ↔ degenerate B (an A1 ↔ E dyad such as PH3 ν2/ν4):
  *   C1, C1J, C1K — Δk = ±1, Δℓ = ±1 (the x–y Coriolis term); C2, C2J — Δk = ∓2, Δℓ = ±1 (the ΔK = ±2
- *   term of the same (k − ℓ) class).
+ *   term of the same (k − ℓ) class); C1JJ and C2K, their next J and k dependences (x² and (k ∓ 1)²).
  * - coriolis, degenerate ↔ degenerate: Cz, CzJ — Δk = 0, Δℓ = 0 (z Coriolis, ∝ kℓ); C1, C1J — Δk = ±1, Δℓ = ∓2.
  * - fermi, two states of the same degeneracy: W, WJ, WK — Δk = 0, Δℓ = 0.
  * @returns the constant names, or an error sentence
@@ -35,7 +35,7 @@ export function interactionParameterNames(type: InteractionType, isDegenerateA: 
     return ['W', 'WJ', 'WK'];
   }
   if (isDegenerateA && isDegenerateB) return ['Cz', 'CzJ', 'C1', 'C1J'];
-  if (isDegenerateA !== isDegenerateB) return ['C1', 'C1J', 'C1K', 'C2', 'C2J'];
+  if (isDegenerateA !== isDegenerateB) return ['C1', 'C1J', 'C1K', 'C2', 'C2J', 'C1JJ', 'C2K'];
   return 'Coriolis coupling between two nondegenerate states (A1 ↔ A2, Δk = 0) is not handled; couple a nondegenerate and a degenerate state, or two degenerate states';
 }
 
