@@ -1,6 +1,7 @@
 import { MHZ_PER_CM1 } from '../physics/constants';
 import type { SystemModel } from '../physics/system/systemModel';
 import { systemStateProvider } from '../physics/system/systemStateLevels';
+import { speciesLevelSources, type StateLevelSource } from '../physics/interaction/speciesLevelSources';
 import { FIT_DEFAULTS, type FitConvergence, type FitError, type FitHooks, type FitOptions } from './fitTypes';
 import { leastSquaresSolve } from './leastSquares';
 import { fitStatistics, fitStatisticsWarnings } from './fitStatistics';
@@ -79,17 +80,25 @@ export function systemFit(input: SystemFitInput, hooks: FitHooks = {}): SystemFi
   }
   const columnOf = (p: SystemParameter): number => columnOfKey.get(p.status === 'tied' ? p.same! : p.key) ?? -1;
   const plans = new Map<string, SystemFitStatePlan>();
+  // States joined by interactions share one coupled provider per group (physics/interaction).
+  const coupledSources = new Map<number, Map<string, StateLevelSource>>();
   const planOf = (speciesIndex: number, state: string): SystemFitStatePlan => {
     const id = `${speciesIndex}/${state}`;
     let plan = plans.get(id);
     if (!plan) {
       const species = model.species[speciesIndex];
       const st = species.states.find((s) => s.name === state)!;
-      const provider = systemStateProvider(species.shape, st);
-      const values = Float64Array.from(provider.parameterNames, (n) => st.constants[n] ?? 0);
+      let sources = coupledSources.get(speciesIndex);
+      if (!sources && species.interactions?.length)
+        coupledSources.set(speciesIndex, (sources = speciesLevelSources(species, { isLabelFollowing: true })));
+      const source = sources?.get(state);
+      const provider = source ? source.provider : systemStateProvider(species.shape, st);
+      const values = source ? source.values.slice() : Float64Array.from(provider.parameterNames, (n) => st.constants[n] ?? 0);
       const column = new Int32Array(provider.parameterNames.length).fill(-1);
-      provider.parameterNames.forEach((name, c) => {
-        const p = parameters.find((q) => q.speciesIndex === speciesIndex && q.state === state && q.name === name);
+      provider.parameterNames.forEach((providerName, c) => {
+        const owner = source ? source.owners[c].owner : state;
+        const name = source ? source.owners[c].name : providerName;
+        const p = parameters.find((q) => q.speciesIndex === speciesIndex && q.state === owner && q.name === name);
         if (p) {
           values[c] = p.status === 'tied' ? byKey.get(p.same!)!.value : p.value;
           column[c] = columnOf(p);

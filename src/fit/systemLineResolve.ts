@@ -5,6 +5,8 @@ import type { SystemModel } from '../physics/system/systemModel';
 import { systemStateFind } from '../physics/system/systemModel';
 import { systemLevelSpinWeight, systemStateProvider, systemStateValues } from '../physics/system/systemStateLevels';
 import type { SystemFitLine } from './systemFitTypes';
+import { coupledLineAllowed, coupledMoments } from '../physics/interaction/coupledLines';
+import { speciesLevelSources, type StateLevelSource } from '../physics/interaction/speciesLevelSources';
 
 /** What a line table row says about a line (the labels it leaves out are null). */
 export interface SystemLineQuery {
@@ -93,30 +95,33 @@ export function systemLineResolve(model: SystemModel, q: SystemLineQuery): Syste
   const upper = systemStateFind(species, band.upper);
   const lp = systemStateProvider(species.shape, lower);
   const up = systemStateProvider(species.shape, upper);
-  const loSet = copy(lp.levels(q.jLower, systemStateValues(lp, lower), q.kLower));
-  const upSet = copy(up.levels(q.jUpper, systemStateValues(up, upper), q.kUpper));
+  const sources = species.interactions?.length || species.states.some((s) => 'h3' in s.constants) ? speciesLevelSources(species) : null;
+  const coupledLower = sources?.get(band.lower);
+  const loSet = coupledLower?.coupled
+    ? copy(coupledLower.provider.levels(q.jLower, coupledLower.values, q.kLower))
+    : copy(lp.levels(q.jLower, systemStateValues(lp, lower), q.kLower));
+  const coupled = sources?.get(band.upper);
+  const upSet = coupled?.coupled
+    ? copy(coupled.provider.levels(q.jUpper, coupled.values, q.kUpper))
+    : copy(up.levels(q.jUpper, systemStateValues(up, upper), q.kUpper));
   const matches: { i: number; j: number }[] = [];
   let sameKAllowed = 0;
   const bySymmetry = species.pointGroup !== undefined;
-  bandTransitions(
-    loSet,
-    lower.isDegenerate,
-    upSet,
-    upper.isDegenerate,
-    q.kLower,
-    (i, j) => {
-      if (loSet.K[i] !== q.kLower || upSet.K[j] !== q.kUpper) return;
-      if (bySymmetry && systemLevelSpinWeight(species, loSet, i, lower.isDegenerate) === 0) return;
-      if (bySymmetry && systemLevelSpinWeight(species, upSet, j, upper.isDegenerate) === 0) return;
-      sameKAllowed++;
-      if (q.lLower !== null && loSet.l[i] !== q.lLower) return;
-      if (q.lUpper !== null && upSet.l[j] !== q.lUpper) return;
-      if (q.tagLower !== null && !(bySymmetry ? tagMatches(loSet.tag[i], q.tagLower) : loSet.tag[i] === q.tagLower)) return;
-      if (q.tagUpper !== null && !(bySymmetry ? tagMatches(upSet.tag[j], q.tagUpper) : upSet.tag[j] === q.tagUpper)) return;
-      matches.push({ i, j });
-    },
-    species.pointGroup,
-  );
+  const transitions = coupled?.coupled
+    ? coupledTransitions(coupled, species, band.lower, loSet, upSet, q.kLower)
+    : (emit: (i: number, j: number) => void) =>
+        bandTransitions(loSet, lower.isDegenerate, upSet, upper.isDegenerate, q.kLower, emit, species.pointGroup);
+  transitions((i, j) => {
+    if (loSet.K[i] !== q.kLower || upSet.K[j] !== q.kUpper) return;
+    if (bySymmetry && systemLevelSpinWeight(species, loSet, i, lower.isDegenerate) === 0) return;
+    if (bySymmetry && systemLevelSpinWeight(species, upSet, j, upper.isDegenerate) === 0) return;
+    sameKAllowed++;
+    if (q.lLower !== null && loSet.l[i] !== q.lLower) return;
+    if (q.lUpper !== null && upSet.l[j] !== q.lUpper) return;
+    if (q.tagLower !== null && !(bySymmetry ? tagMatches(loSet.tag[i], q.tagLower) : loSet.tag[i] === q.tagLower)) return;
+    if (q.tagUpper !== null && !(bySymmetry ? tagMatches(upSet.tag[j], q.tagUpper) : upSet.tag[j] === q.tagUpper)) return;
+    matches.push({ i, j });
+  });
   const where = `band '${band.name}' (${band.upper} ← ${band.lower})`;
   const qn = `J'=${q.jUpper} K'=${q.kUpper} ← J"=${q.jLower} K"=${q.kLower}`;
   if (matches.length === 0) {
@@ -124,6 +129,10 @@ export function systemLineResolve(model: SystemModel, q: SystemLineQuery): Syste
     if (species.shape === 'linear' && (q.kUpper !== (upper.isDegenerate ? 1 : 0) || q.kLower !== (lower.isDegenerate ? 1 : 0))) {
       return bad(`${qn} is not a line of ${where}: a linear molecule has K = 0 in a Σ state and K = 1 in a Π state`);
     }
+    if (coupled?.coupled)
+      return bad(
+        `${qn} is not a line of ${where}: no mixture of the coupled states reaches that level from that lower level (symmetry or ΔJ)`,
+      );
     return bad(
       `${qn} is not an allowed line of ${where} (ΔK must be ${lower.isDegenerate === upper.isDegenerate ? '0' : '±1'}, K <= J, and no Q line where its Hönl–London factor is 0)`,
     );
@@ -150,5 +159,37 @@ export function systemLineResolve(model: SystemModel, q: SystemLineQuery): Syste
       lLower: loSet.l[i] as -1 | 0 | 1,
       tagLower: loSet.tag[i],
     },
+  };
+}
+
+/**
+ * The transitions a coupled upper state allows from a lower level set: every pair the dipole can
+ * reach through some mixture (coupledLineAllowed), perturbation-allowed lines included.
+ */
+function coupledTransitions(
+  source: StateLevelSource,
+  species: SystemModel['species'][number],
+  lowerName: string,
+  loSet: LevelSet,
+  upSet: LevelSet,
+  kMaxLower: number,
+) {
+  return (emit: (i: number, j: number) => void) => {
+    const cs = source.coupled!;
+    const all = cs.groupLevels(upSet.J, source.values);
+    const moments = coupledMoments(species, lowerName, source);
+    for (let i = 0; i < loSet.count; i++) {
+      if (loSet.K[i] > kMaxLower) continue;
+      for (let j = 0; j < upSet.count; j++) {
+        let index = -1;
+        for (let a = 0; a < all.count && index < 0; a++)
+          if (all.state[a] === cs.stateIndex && all.K[a] === upSet.K[j] && all.l[a] === upSet.l[j] && all.tag[a] === upSet.tag[j])
+            index = a;
+        // σv of the lower level: an A1/A2 member by its tag, a single K'' = 0 level (−1)^J'' (A1 state).
+        const tag = loSet.tag[i];
+        const sigmaLower = tag === 'A1' ? 1 : tag === 'A2' ? -1 : loSet.K[i] === 0 ? (loSet.J % 2 === 0 ? 1 : -1) : 0;
+        if (index >= 0 && coupledLineAllowed(all, index, loSet.J, loSet.K[i], sigmaLower, moments)) emit(i, j);
+      }
+    }
   };
 }

@@ -54,6 +54,9 @@ export function systemRankDiagnosis(
   const whyUnused = (key: string): string => {
     const p = spec.get(key);
     if (!p) return 'no fitted line depends on it';
+    const interaction = input.model.species[p.speciesIndex]?.interactions?.find((it) => it.name === p.state);
+    if (interaction)
+      return `the ${interaction.type} interaction '${interaction.name}' (${interaction.states.join(' ↔ ')}) changes no fitted level through ${p.name}: no fitted line reaches a level its matrix elements join, or the levels it joins are not mixed at these values (a coupling whose levels are otherwise unmixed has zero slope at 0: start it at a small non-zero value)`;
     const levels = touching(p);
     const tied = input.parameters.filter((q) => q.same === key).map((q) => q.key);
     const also = tied.length ? ` (nor ${tied.join(', ')}, tied to it)` : '';

@@ -37,6 +37,7 @@ import { spinStatisticsSpeciesTable } from '../physics/hamiltonian/spinStatistic
 import type { SystemParameter, SystemParameterStatus } from '../fit/systemFitTypes';
 import { INPUT_LIMITS, inputExcerpt, inputJsonParse } from './inputLimits';
 import { modelAllowedParameters, type ModelFile } from './modelFile';
+import { interactionStateAllowed, interactionStateNames, systemInteractionsParse } from './systemInteractions';
 
 export type { SystemParameter, SystemParameterStatus };
 
@@ -106,9 +107,12 @@ const speciesSchema = z.strictObject({
           .number()
           .refine((s) => Number.isFinite(s) && s >= 0, 'a band strength >= 0')
           .optional(),
+        momentSign: z.union([z.literal(1), z.literal(-1)]).optional(),
       }),
     )
     .max(SYSTEM_FILE_LIMITS.maxBands),
+  // Checked field by field in io/systemInteractions.ts.
+  interactions: z.array(z.unknown()).max(SYSTEM_FILE_LIMITS.maxBands).optional(),
   notes: z.string().optional(),
 });
 
@@ -302,6 +306,7 @@ export function systemFileFromJson(raw: unknown): SystemFile {
         );
       return { pointGroup, vibSpecies: (given as string | undefined) ?? choices[0], isInversionDoubled };
     };
+    const coupledNames = interactionStateNames(sp.interactions);
     const states = stateNames.map((stateName) => {
       const sAt = `${at}.states.${stateName}`;
       const okName = nameSchema.safeParse(stateName);
@@ -311,9 +316,13 @@ export function systemFileFromJson(raw: unknown): SystemFile {
       if (typeof deg !== 'boolean') fail(`${sAt}.degenerate`, `is ${describe(deg)}; expected true or false`);
       const isDegenerate = deg as boolean;
       const symmetry = stateSymmetry(sAt, body, isDegenerate);
-      const allowed = symmetry
-        ? systemSymmetryAllowedParameters(shape as 'prolate' | 'oblate', isDegenerate, symmetry)
-        : systemAllowedParameters(shape, isDegenerate);
+      // A state named in an interaction, or a nondegenerate one that gives h3, is diagonalised (physics/interaction).
+      const allowed =
+        (coupledNames.has(stateName) || (!isDegenerate && 'h3' in body)) && shape !== 'linear'
+          ? interactionStateAllowed(shape, isDegenerate)
+          : symmetry
+            ? systemSymmetryAllowedParameters(shape as 'prolate' | 'oblate', isDegenerate, symmetry)
+            : systemAllowedParameters(shape, isDegenerate);
       const constants: Record<string, number> = {};
       if (!('origin' in body)) {
         if (originless)
@@ -404,8 +413,28 @@ export function systemFileFromJson(raw: unknown): SystemFile {
             `names the state ${describe(b[side])}, which species '${sp.name}' does not have; expected one of ${stateNames.join(', ')}`,
           );
       }
-      return { name: b.name, upper: b.upper, lower: b.lower, strength: b.strength ?? 1 };
+      return {
+        name: b.name,
+        upper: b.upper,
+        lower: b.lower,
+        strength: b.strength ?? 1,
+        ...(b.momentSign ? { momentSign: b.momentSign } : {}),
+      };
     });
+    const interactions =
+      sp.interactions === undefined ? [] : systemInteractionsParse(sp.interactions, `${at}.interactions`, shape, states, fail);
+    for (const { interaction, parameters } of interactions)
+      for (const p of parameters)
+        raws.push({
+          key: keyOf(sp.name, interaction.name, p.name),
+          speciesIndex: s,
+          state: interaction.name,
+          name: p.name,
+          path: p.path,
+          value: p.value,
+          status: p.status,
+          ...(p.sameText !== undefined ? { sameText: p.sameText } : {}),
+        });
     species.push({
       name: sp.name,
       shape,
@@ -416,6 +445,7 @@ export function systemFileFromJson(raw: unknown): SystemFile {
       ...(spinWeightsBySymmetry ? { spinWeightsBySymmetry } : {}),
       states,
       bands,
+      ...(interactions.length ? { interactions: interactions.map((x) => x.interaction) } : {}),
     });
   });
 
@@ -454,7 +484,10 @@ export function systemFileFromJson(raw: unknown): SystemFile {
     return { key: r.key, speciesIndex: r.speciesIndex, state: r.state, name: r.name, value: cur.value, status: 'tied', same: cur.key };
   });
   for (const p of parameters) {
-    if (p.status === 'tied') species[p.speciesIndex].states.find((s) => s.name === p.state)!.constants[p.name] = p.value;
+    if (p.status !== 'tied') continue;
+    const sp = species[p.speciesIndex];
+    const owner = sp.states.find((s) => s.name === p.state) ?? sp.interactions!.find((it) => it.name === p.state)!;
+    owner.constants[p.name] = p.value;
   }
   return {
     model: { temperatureK: f.temperature, jMax: f.jMax, kMax: f.kMax ?? 0, species },

@@ -226,10 +226,28 @@ function diagonalElement(ctx: BlockContext, k: number, ell: number, d: Float64Ar
   return e;
 }
 
+/**
+ * The (J, k) factor of the ℓ(2,2) element ⟨k−2, ℓ=−1|H|k, ℓ=+1⟩ = q22(J) × this (see degenerateStateLevels).
+ * @param x J(J+1)
+ * @param k signed k of the |k, +1⟩ function
+ */
+export function ellQ22Factor(x: number, k: number): number {
+  return -0.5 * Math.sqrt(Math.max(0, x - k * (k - 1))) * Math.sqrt(Math.max(0, x - (k - 1) * (k - 2)));
+}
+
+/**
+ * The (J, k) factor of the ℓ(2,−1) element ⟨k−1, ℓ=+1|H|k, ℓ=−1⟩ = q12 × this (see degenerateStateLevels).
+ * @param x J(J+1)
+ * @param k signed k of the |k, −1⟩ function
+ */
+export function ellQ12Factor(x: number, k: number): number {
+  return (2 * k - 1) * Math.sqrt(Math.max(0, x - k * (k - 1)));
+}
+
 /** ℓ(2,2) element between |k, +1⟩ and |k−2, −1⟩, with derivatives. */
 function q22Element(ctx: BlockContext, k: number, d: Float64Array | null, n: number, row: number, scale = 1): number {
   const { x, p } = ctx;
-  const f = -0.5 * scale * Math.sqrt(Math.max(0, x - k * (k - 1))) * Math.sqrt(Math.max(0, x - (k - 1) * (k - 2)));
+  const f = scale * ellQ22Factor(x, k);
   if (d) {
     d[I_Q22 * n + row] += f;
     d[I_Q22J * n + row] += f * x;
@@ -239,7 +257,7 @@ function q22Element(ctx: BlockContext, k: number, d: Float64Array | null, n: num
 
 /** ℓ(2,−1) element between |k, −1⟩ and |k−1, +1⟩, with derivative. */
 function q12Element(ctx: BlockContext, k: number, d: Float64Array | null, n: number, row: number): number {
-  const f = (2 * k - 1) * Math.sqrt(Math.max(0, ctx.x - k * (k - 1)));
+  const f = ellQ12Factor(ctx.x, k);
   if (d) d[I_Q12 * n + row] += f;
   return f * ctx.p[I_Q12];
 }

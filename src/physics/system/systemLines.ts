@@ -5,6 +5,8 @@ import type { LevelSet } from './levelTypes';
 import type { SystemModel, SystemSpecies } from './systemModel';
 import { systemStateFind } from './systemModel';
 import { systemLevelSpinWeight, systemStateProvider, systemStateValues } from './systemStateLevels';
+import { coupledBandEnumerate } from '../interaction/coupledLines';
+import { speciesLevelSources } from '../interaction/speciesLevelSources';
 import { speciesPartitionFunction } from './vibrationalPartition';
 
 /** Columnar lines of every band of a system (a LineList plus band, species and level labels). */
@@ -219,6 +221,15 @@ export function bandEnumerate(
 ): void {
   const lowerState = systemStateFind(species, lowerName);
   const upperState = systemStateFind(species, upperName);
+  if (species.interactions?.length || species.states.some((s) => 'h3' in s.constants)) {
+    // Coupled upper states: lines and intensities from the mixed levels (physics/interaction).
+    const sources = speciesLevelSources(species);
+    if (sources.get(upperName)!.coupled) {
+      const band = species.bands.find((b) => b.lower === lowerName && b.upper === upperName);
+      coupledBandEnumerate(species, lowerName, upperName, band?.strength ?? 1, jMax, kMax, sources, visit);
+      return;
+    }
+  }
   const lowerProvider = systemStateProvider(species.shape, lowerState);
   const upperProvider = systemStateProvider(species.shape, upperState);
   const lowerValues = systemStateValues(lowerProvider, lowerState);

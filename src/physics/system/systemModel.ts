@@ -49,6 +49,23 @@ export interface SystemBand {
   lower: string;
   /** Relative band strength (square of the vibrational transition moment, arbitrary units shared by the species' bands). */
   strength: number;
+  /**
+   * Sign of the band's vibrational transition moment relative to the other bands from the same
+   * lower state (+1 when absent); matters only where coupled upper states mix (intensity borrowing,
+   * physics/interaction).
+   */
+  momentSign?: 1 | -1;
+}
+
+/** An interaction between two states of a species (physics/interaction, DEVELOPERS.md "Interacting states"). */
+export interface SystemInteraction {
+  /** Name, unique among the species' states and interactions; its constants' keys are `<name>.<constant>`. */
+  name: string;
+  type: 'coriolis' | 'fermi';
+  /** The two states it joins. */
+  states: [string, string];
+  /** Constants by name (cm^-1); an absent constant is 0. */
+  constants: Record<string, number>;
 }
 
 /** A molecule or isotopologue. */
@@ -71,6 +88,8 @@ export interface SystemSpecies {
   spinWeightsBySymmetry?: Record<string, number>;
   states: SystemState[];
   bands: SystemBand[];
+  /** Interactions between states; the states they join are diagonalised together per J. */
+  interactions?: SystemInteraction[];
 }
 
 /** The whole model of a session or system file. */
