@@ -4,6 +4,7 @@
  * spacing; and how sure the reading is.
  */
 import { SECOND_RADIATION_CM_K } from '../physics/constants';
+import { bandCentreTemplate } from './bandCentreTemplate';
 import { noiseSigmaEstimate } from './noiseSigmaEstimate';
 import { peakProminence } from './peakProminence';
 
@@ -480,6 +481,30 @@ export function bandShapeClassify(
     confidence = 'low';
   }
 
+  // A PR reading from a minimum between two maxima or a central gap in a comb cannot tell a true
+  // Σ–Σ band from a weak or instrument-smeared Q branch (a symmetric top's parallel band, or unresolved
+  // Q branches of a perpendicular one) filling the centre. Compare the envelope against a blurred
+  // two-lobe template with and without a central Q component: on the seeded bands of bench:contour
+  // classify (seeds 0–59) true Σ–Σ bands gave improvement ≤ 0.02 and Q share ≤ 0.005, PQR bands read as
+  // PR gave 0.40–0.92 and 0.04–0.31 (two gave 0); the thresholds sit between.
+  let templateQShare = NaN;
+  if (profile === 'PR') {
+    const sGuess = twoLobes ? 0.5 * (outerLobes(lobes, centre0)[1].x - outerLobes(lobes, centre0)[0].x) : width / 4.3;
+    const t = bandCentreTemplate(x, env, origin, sGuess);
+    if (t.improvement >= 0.3 && t.qShare >= 0.03) {
+      profile = 'PQR';
+      origin = t.origin;
+      templateQShare = t.qShare;
+      confidence = t.improvement >= 0.5 && t.qShare >= 0.1 ? 'medium' : 'low';
+      evidence.push(
+        `but a central Q component takes up ${Math.round(100 * t.improvement)} % of a blurred two-lobe P/R template's misfit and holds ${Math.round(100 * t.qShare)} % of the band: the centre is filled by a weak or smeared Q branch, so PQR`,
+      );
+    } else {
+      evidence.push(
+        `a blurred two-lobe P/R template leaves no room for a central Q branch (a Q component takes up ${Math.round(100 * t.improvement)} % of its misfit, ${Math.round(100 * t.qShare)} % of the band)`,
+      );
+    }
+  }
   let type: BandShapeType;
   let alternativeType: BandShapeType | undefined;
   let implication: string;
@@ -498,7 +523,7 @@ export function bandShapeClassify(
     if (confidence === 'low') alternativeType = 'symmetric-top-parallel';
     implication = 'A series of Q branches: a perpendicular (ΔK = ±1) band of a symmetric top; their spacing is ≈ 2[A′(1−ζ) − B′].';
   } else {
-    const qShare = centralSpike ? qBranchShare(x, y, centralSpike, area, comb?.spacing ?? width / 20) : NaN;
+    const qShare = centralSpike ? qBranchShare(x, y, centralSpike, area, comb?.spacing ?? width / 20) : templateQShare;
     const share = Number.isFinite(qShare) ? `${Math.round(qShare * 100)} %` : 'unknown';
     if (qShare >= 0.4) {
       type = 'linear-perpendicular';

@@ -253,12 +253,15 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     const f0 = new Float64Array(m);
     const f1 = new Float64Array(m);
     const f2 = new Float64Array(m);
+    // Parameters of the model in f0 (the last residual evaluation), for the scale's one-sided difference.
+    let lastP: Float64Array | null = null;
     const solution = leastSquaresSolve(
       {
         nObservations: m,
         nParameters: n,
         residuals(p, out) {
           evaluate(layout, p, f0);
+          lastP = Float64Array.from(p);
           for (let i = 0; i < m; i++) out[i] = (y[i] - f0[i]) * weight;
         },
         jacobian(p, out) {
@@ -271,6 +274,17 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
                 : c === layout.modelKeys.length && layout.hasScale
                   ? 1e-5
                   : Math.max(Math.abs(p[c]) * 1e-5, 1e-5);
+            const isScale = c === layout.modelKeys.length && layout.hasScale;
+            if (isScale && lastP && lastP.every((v, k) => v === p[k])) {
+              // The band is linear in the scale on the weak-limit route and nearly so on the
+              // saturating one (ln-scale step 1e-5): a one-sided difference from the residual's own
+              // evaluation saves one band evaluation per iteration.
+              q[c] = p[c] + h;
+              evaluate(layout, q, f1);
+              q[c] = p[c];
+              for (let i = 0; i < m; i++) out[c * m + i] = ((f1[i] - f0[i]) / h) * weight;
+              continue;
+            }
             // Central differences: the valleys of a contour fit (B against ζ and the origin) are long
             // and shallow, and a forward difference's O(h) error is enough to bend the step off them.
             q[c] = p[c] + h;
@@ -288,9 +302,13 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
       },
       start,
       {
-        maxIterations: 40,
-        chi2RelativeTolerance: 1e-9,
-        stepToleranceSigma: 1e-4,
+        // Stage 1 only places and sizes the band for stage 2 (which floats origin and scale again):
+        // it stops after 3 iterations or once χ² falls by less than 0.1 % in one. On the 20,000-line
+        // saturating band of bench:contour speed it took 10 iterations (half the fit's time) to the full
+        // tolerance; stage 2 then reached the same rms (to 1e-5 relative).
+        maxIterations: stage === 1 ? 3 : 40,
+        chi2RelativeTolerance: stage === 1 ? 1e-3 : 1e-9,
+        stepToleranceSigma: stage === 1 ? 1e-2 : 1e-4,
         rankRelativeTolerance: CONTOUR_RANK_TOLERANCE,
         onIteration: (it, chi2) => input.onProgress?.(stage, it, Math.sqrt(chi2 / m) / weight),
         shouldCancel: input.shouldCancel,
