@@ -505,6 +505,7 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
       priors,
       lines: assistantFitLines(lines).filter((l) => !heldOut.has(l.id)),
       auditOf: (post) => auditMissing(model, post, peaks, context, options, heightScale),
+      peakHeights: peaks.height,
     });
     if (!labelCheck.isDecided) {
       doubt = `the labels are not decided by the trace: ${labelCheck.text}; the proposals are for review only (give seed lines to decide)`;

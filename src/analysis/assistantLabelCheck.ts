@@ -15,12 +15,21 @@
  * - LINE_PENALTY for every line the rival cannot label at all (J < K: the first lines of a branch,
  *   or the missing lines around the band gap, decide the numbering) and for every strong, sharply
  *   predicted line of its fitted constants that lies on no peak (the same audit as the run's).
+ * - when the peak heights are given, the intensity pattern: ln(height) of the lines on unblended
+ *   peaks against ln(predicted intensity) of their labels (first-guess model: Hönl–London factors,
+ *   Boltzmann factors and spin weights), a scale and a slope in E'' free (a wrong temperature only
+ *   tilts it); the likelihood ratio n·ln(RSS_rival / RSS) of the two labellings over the lines both
+ *   can label (Gaussian scatter of unknown σ; residuals clipped at 3 robust σ of the labels found,
+ *   so a blend the peak finder missed counts as one outlier, not as proof). This is what tells a
+ *   numbering one rung off (the first lines of a branch, P(1) against P(2)) and a sub-band shift
+ *   (the spin-weight alternation along K) apart where the positions alone cannot.
  * The labels are decided when every rival scores at least DECISIVE_MARGIN worse.
  * Source: combination differences and the first lines of the branches decide J and K numbering in
  * rovibrational assignment (Herzberg II (1945) ch. IV; common practice); comparing the fits of the
  * rival labellings is the same test done by least squares.
  */
 import { assignmentCheck } from '../fit/assignment';
+import { bandLines } from '../physics/bandLines';
 import type { BandModel, TransitionQuanta } from '../physics/model';
 import { assistantPosteriorFit, type AssistantPosterior } from './assistantPosterior';
 import type { AssistantLine, AssistantRunAudit } from './assistantTypes';
@@ -44,6 +53,8 @@ export interface AssistantLabelRival {
   chi2: number;
   /** The prior's χ² at its optimum. */
   priorChi2: number;
+  /** Intensity evidence against it: n·ln(RSS_rival / RSS) of ln(height) (0 without heights; negative when its intensities fit better). */
+  intensity: number;
   /** Total score (lower is better). */
   score: number;
 }
@@ -75,6 +86,8 @@ export interface AssistantLabelCheckInput {
   lines: readonly AssistantLine[];
   /** Audit of fitted constants: strong, sharply predicted lines on no peak (null when unknown). */
   auditOf: (post: AssistantPosterior) => AssistantRunAudit | null;
+  /** Peak heights of the trace's peak list (indexed by the lines' peakIndex); without them intensities are not used. */
+  peakHeights?: Float64Array;
 }
 
 type Relabel = (q: TransitionQuanta) => TransitionQuanta;
@@ -131,6 +144,7 @@ export function assistantLabelCheck(input: AssistantLabelCheckInput): AssistantL
   const missing = currentAudit?.missing ?? 0;
   const score = current.chi2 / scale2 + current.priorChi2 + LABEL_LINE_PENALTY * missing;
   const rivals: AssistantLabelRival[] = [];
+  const intensityOf = input.peakHeights ? predictedIntensities(model) : null;
   for (const { what, relabel } of rivalsOf(model)) {
     const kept: AssistantLine[] = [];
     let nDropped = 0;
@@ -143,6 +157,7 @@ export function assistantLabelCheck(input: AssistantLabelCheckInput): AssistantL
     const post = assistantPosteriorFit(model, priors, kept);
     const rivalMissing = auditOf(post)?.missing ?? 0;
     const chi2 = post.chi2 / scale2;
+    const intensity = intensityOf && input.peakHeights ? intensityEvidence(used, relabel, intensityOf, input.peakHeights) : 0;
     rivals.push({
       what,
       nKept: kept.length,
@@ -150,21 +165,105 @@ export function assistantLabelCheck(input: AssistantLabelCheckInput): AssistantL
       missing: rivalMissing,
       chi2,
       priorChi2: post.priorChi2,
-      score: chi2 + post.priorChi2 + LABEL_LINE_PENALTY * (nDropped + rivalMissing),
+      intensity,
+      score: chi2 + post.priorChi2 + LABEL_LINE_PENALTY * (nDropped + rivalMissing) + intensity,
     });
   }
   const closest = rivals.length ? rivals.reduce((a, b) => (b.score < a.score ? b : a)) : null;
   const margin = closest ? closest.score - score : Infinity;
   const isDecided = margin >= LABEL_DECISIVE_MARGIN;
-  const figures = (s: number, chi2: number, prior: number, dropped: number, miss: number) =>
-    `score ${s.toFixed(1)} (χ²/σ_w² ${chi2.toFixed(1)}, prior ${prior.toFixed(1)}, ${dropped} line(s) it cannot label, ${miss} strong line(s) on no peak)`;
+  const figures = (s: number, chi2: number, prior: number, dropped: number, miss: number, inten?: number) =>
+    `score ${s.toFixed(1)} (χ²/σ_w² ${chi2.toFixed(1)}, prior ${prior.toFixed(1)}, ${dropped} line(s) it cannot label, ${miss} strong line(s) on no peak` +
+    (inten === undefined ? ')' : `, intensities ${inten >= 0 ? '+' : ''}${inten.toFixed(1)} against it)`);
   const mine = figures(score, current.chi2 / scale2, current.priorChi2, 0, missing);
   const text = !closest
     ? `no rival labelling of the ${used.length} lines can be formed`
     : isDecided
       ? `the labels of the ${used.length} lines beat every rival by ≥ ${LABEL_DECISIVE_MARGIN} (closest: ${closest.what}, ${margin.toFixed(1)} worse)`
       : margin < 0
-        ? `the ${used.length} lines fit better with ${closest.what}: ${figures(closest.score, closest.chi2, closest.priorChi2, closest.nDropped, closest.missing)} against ${mine}`
-        : `the ${used.length} lines fit almost as well with ${closest.what}: ${figures(closest.score, closest.chi2, closest.priorChi2, closest.nDropped, closest.missing)} against ${mine}; the difference ${margin.toFixed(1)} is below ${LABEL_DECISIVE_MARGIN}`;
+        ? `the ${used.length} lines fit better with ${closest.what}: ${figures(closest.score, closest.chi2, closest.priorChi2, closest.nDropped, closest.missing, closest.intensity)} against ${mine}`
+        : `the ${used.length} lines fit almost as well with ${closest.what}: ${figures(closest.score, closest.chi2, closest.priorChi2, closest.nDropped, closest.missing, closest.intensity)} against ${mine}; the difference ${margin.toFixed(1)} is below ${LABEL_DECISIVE_MARGIN}`;
   return { score, missing, rivals, closest, margin, isDecided, text };
+}
+
+/** Predicted intensity and E'' (cm^-1) of every line of the model, by quanta. */
+type IntensityTable = Map<string, { intensity: number; eLowerCm1: number }>;
+
+const quantaKey = (q: TransitionQuanta) => `${q.jUpper}:${q.kUpper}:${q.jLower}:${q.kLower}`;
+
+function predictedIntensities(model: BandModel): IntensityTable {
+  const lines = bandLines(model, { minIntensity: 1e-6 });
+  const out: IntensityTable = new Map();
+  for (let i = 0; i < lines.count; i++) {
+    const key = quantaKey({ jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i] });
+    // Two lines with the same quanta (a degenerate ±l pair) add.
+    const prev = out.get(key);
+    out.set(key, { intensity: (prev?.intensity ?? 0) + lines.intensity[i], eLowerCm1: lines.eLowerCm1[i] });
+  }
+  return out;
+}
+
+/** Fewest lines (on unblended peaks, labelled by both) for the intensity comparison. */
+const INTENSITY_MIN_LINES = 8;
+/** Residuals are clipped at this many robust σ of the labels found. */
+const INTENSITY_CLIP_SIGMA = 3;
+/** Floor of the robust σ of ln(height), so near-perfect heights do not make tiny ratios decisive. */
+const INTENSITY_SIGMA_FLOOR = 0.05;
+
+/** Residual sum of squares of y = a + b·x (least squares), or the residuals when asked. */
+function lineResiduals(x: number[], y: number[]): number[] {
+  const n = x.length;
+  let sx = 0;
+  let sy = 0;
+  for (let i = 0; i < n; i++) {
+    sx += x[i];
+    sy += y[i];
+  }
+  const mx = sx / n;
+  const my = sy / n;
+  let sxx = 0;
+  let sxy = 0;
+  for (let i = 0; i < n; i++) {
+    sxx += (x[i] - mx) ** 2;
+    sxy += (x[i] - mx) * (y[i] - my);
+  }
+  const b = sxx > 0 ? sxy / sxx : 0;
+  return y.map((v, i) => v - my - b * (x[i] - mx));
+}
+
+function robustSigma(r: number[]): number {
+  const a = r.map(Math.abs).sort((u, v) => u - v);
+  return Math.max(INTENSITY_SIGMA_FLOOR, 1.4826 * a[Math.floor(a.length / 2)]);
+}
+
+/**
+ * n·ln(RSS_rival / RSS) of ln(peak height) against ln(predicted intensity) + a + b·E'' over the
+ * lines on unblended peaks that both labellings can label (0 when fewer than INTENSITY_MIN_LINES).
+ */
+function intensityEvidence(used: readonly AssistantLine[], relabel: Relabel, table: IntensityTable, heights: Float64Array): number {
+  const mine: { y: number; e: number }[] = [];
+  const theirs: { y: number; e: number }[] = [];
+  for (const l of used) {
+    if (l.isBlended || l.peakIndex === null) continue;
+    const h = heights[l.peakIndex];
+    if (!(h > 0)) continue;
+    const a = table.get(quantaKey(l));
+    const b = table.get(quantaKey(relabel(l)));
+    if (!a || !b || !(a.intensity > 0) || !(b.intensity > 0)) continue;
+    mine.push({ y: Math.log(h) - Math.log(a.intensity), e: a.eLowerCm1 });
+    theirs.push({ y: Math.log(h) - Math.log(b.intensity), e: b.eLowerCm1 });
+  }
+  const n = mine.length;
+  if (n < INTENSITY_MIN_LINES) return 0;
+  const rMine = lineResiduals(
+    mine.map((p) => p.e),
+    mine.map((p) => p.y),
+  );
+  const rTheirs = lineResiduals(
+    theirs.map((p) => p.e),
+    theirs.map((p) => p.y),
+  );
+  const clip = INTENSITY_CLIP_SIGMA * robustSigma(rMine);
+  const rss = (r: number[]) => r.reduce((s, v) => s + Math.min(v * v, clip * clip), 0) + n * INTENSITY_SIGMA_FLOOR ** 2;
+  return n * Math.log(rss(rTheirs) / rss(rMine));
 }

@@ -164,4 +164,29 @@ describe('assistantLabelCheck', () => {
     expect(r.margin).toBeLessThan(0);
     expect(r.text).toMatch(/fit better with the P and R branches numbered one rung up/);
   });
+
+  it('lets the intensities along J decide a numbering the positions leave open, and only the right way', () => {
+    const guess = guessOf(LINEAR);
+    const priors = assistantPriorSigmas(guess, FLOAT_LINEAR);
+    const truthLines = bandLines(LINEAR);
+    const rand = randomSeeded(6);
+    // Peak heights: the true intensities with 5 % scatter (line i on peak i).
+    const heights = Float64Array.from(truthLines.intensity, (v) => v * Math.exp(0.05 * randomNormal(rand)));
+    const onPeaks = (ls: AssistantLine[]) => ls.map((l) => ({ ...l, peakIndex: Number(l.id.slice(1)) }));
+    const far = onPeaks(observed(LINEAR, (i, l) => l.jLower[i] >= 3 && l.jLower[i] <= 35, 5));
+    const blind = assistantLabelCheck({ model: guess, priors, lines: far, auditOf: () => null });
+    expect(blind.isDecided, blind.text).toBe(false);
+    const seen = assistantLabelCheck({ model: guess, priors, lines: far, auditOf: () => null, peakHeights: heights });
+    expect(seen.isDecided, seen.text).toBe(true);
+    expect(Math.min(...seen.rivals.map((r) => r.intensity))).toBeGreaterThan(0);
+    // The same peaks labelled one rung low: the intensities now speak for the rival, never for the labels.
+    const shifted = far.map((l) => {
+      const dJ = l.jUpper - l.jLower;
+      const jLower = l.jLower - dJ;
+      return { ...l, jLower, jUpper: jLower + dJ };
+    });
+    const wrong = assistantLabelCheck({ model: guess, priors, lines: shifted, auditOf: () => null, peakHeights: heights });
+    expect(wrong.isDecided, wrong.text).toBe(false);
+    expect(wrong.rivals.find((r) => /numbered one rung up/.test(r.what))!.intensity).toBeLessThan(0);
+  });
 });
