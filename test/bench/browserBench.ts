@@ -279,7 +279,8 @@ async function contextOpen(browser: Browser, baseUrl: string): Promise<{ context
 }
 
 async function gotoDemo(page: Page, baseUrl: string): Promise<WatchResult> {
-  await page.goto(baseUrl, { waitUntil: 'commit', timeout: 30_000 });
+  // The single-band demo: the page starts on the several-band one, measure 9 loads its own system.
+  await page.goto(`${baseUrl}?demo=single`, { waitUntil: 'commit', timeout: 30_000 });
   await page.waitForFunction(() => (window as unknown as { __lb?: { watch?: unknown } }).__lb?.watch !== undefined, null, {
     timeout: 30_000,
   });

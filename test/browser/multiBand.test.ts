@@ -135,6 +135,22 @@ describe('several bands on the page', () => {
     await context.close();
   });
 
+  it('starts on the two-isotopologue demo, and the model panel opens the single-band demo and back', async () => {
+    const { context, page, log } = await openPage(browser);
+    await gotoApp(page, 'bands');
+    await expect.poll(() => page.locator('[data-testid=file-name]').textContent(), { timeout: 30_000 }).toBe('demo/system-trace.csv');
+    await expect.poll(() => page.locator('[data-testid=band-switches] .band-switch').count(), { timeout: 20_000 }).toBe(3);
+    // Nothing to undo back out of: the demo is the starting point.
+    expect(await page.locator('[data-testid=undo]').isDisabled()).toBe(true);
+    await page.locator('[data-testid=demo-choice]').getByRole('button', { name: 'single band' }).click();
+    await expect.poll(() => page.locator('[data-testid=file-name]').textContent(), { timeout: 30_000 }).toBe('demo/trace.csv');
+    await expect.poll(() => page.locator('[data-testid=band-switches]').count(), { timeout: 20_000 }).toBe(0);
+    await page.locator('[data-testid=demo-choice]').getByRole('button', { name: 'two isotopologues + hot band' }).click();
+    await expect.poll(() => page.locator('[data-testid=band-switches] .band-switch').count(), { timeout: 30_000 }).toBe(3);
+    expect(log.pageErrors).toEqual([]);
+    await context.close();
+  });
+
   it('still fits a single-band session exactly as the one-band fit does', async () => {
     const { context, page, log } = await openPage(browser);
     await gotoApp(page);
