@@ -120,6 +120,17 @@ describe('several bands on the page', () => {
     expect(Math.abs((await valueOf('LB-7-66/v4.origin')) - 1139.2876)).toBeLessThan(2e-3);
     await page.screenshot({ path: `${SHOTS}/42-joint-fit.png` });
 
+    // Combination differences of the panels' band (LB-7 nu4): its ground state, from every LB-7
+    // band that reaches it (only nu4 in the demo), each pair naming its band; never LB-7-66's lines.
+    await page.locator('[data-testid=tab-combination]').click();
+    await expect
+      .poll(() => page.locator('[data-testid=cd-state-bands]').textContent(), { timeout: 20_000 })
+      .toMatch(/State ground of LB-7, from the band nu4/);
+    const pairBands = await page.locator('[data-testid=cd-pairs] tbody tr td:first-child').allTextContents();
+    expect(pairBands.length).toBeGreaterThan(10);
+    expect(new Set(pairBands)).toEqual(new Set(['nu4']));
+    await page.screenshot({ path: `${SHOTS}/43-combination-several-bands.png` });
+
     await page.locator('[data-testid=tab-export]').click();
     const lines = await downloadOf(page, 'export-lines');
     expect(lines.text.split('\n')[0]).toBe(
