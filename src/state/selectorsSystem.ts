@@ -188,27 +188,40 @@ const loomisBandOf = memoLast((view: BandModel, minIntensity: number) => predict
  * single-band view), else the panels' band; a single-band session's one band.
  */
 export function selectLoomisBand(s: BenchState): LoomisBand {
-  if (!s.system) return { band: selectBand(s), key: null, ref: null, isFollowing: true, whyNot: null };
-  const entries = selectSystemPrediction(s)?.entries ?? [];
-  const chosen = s.loomisBandKey !== null ? entries.find((e) => e.key === s.loomisBandKey) : undefined;
-  const active = entries.find((e) => e.key === s.activeBandKey);
-  if (!chosen || chosen.key === s.activeBandKey) {
-    return {
-      band: selectBand(s),
-      key: active?.key ?? null,
-      ref: active ? { band: active.band, species: active.species } : null,
-      isFollowing: !chosen,
-      whyNot: active ? active.viewWhyNot : 'no band is on the panels',
-    };
-  }
-  const ref = { band: chosen.band, species: chosen.species };
-  if (!chosen.view)
-    return {
-      band: { ...selectBand(s), ladders: [], ladderByKey: new Map() },
-      key: chosen.key,
-      ref,
-      isFollowing: false,
-      whyNot: chosen.viewWhyNot,
-    };
-  return { band: loomisBandOf(chosen.view, s.minIntensity), key: chosen.key, ref, isFollowing: false, whyNot: null };
+  // Memoised on its inputs: components select it with useBench, which needs the same object back.
+  return loomisBandSelect(s.system ? selectSystemPrediction(s) : null, selectBand(s), s.loomisBandKey, s.activeBandKey, s.minIntensity);
 }
+
+const loomisBandSelect = memoLast(
+  (
+    pred: SystemPrediction | null,
+    activeBand: PredictedBand,
+    chosenKey: string | null,
+    activeKey: string | null,
+    minIntensity: number,
+  ): LoomisBand => {
+    if (!pred) return { band: activeBand, key: null, ref: null, isFollowing: true, whyNot: null };
+    const entries = pred.entries;
+    const chosen = chosenKey !== null ? entries.find((e) => e.key === chosenKey) : undefined;
+    const active = entries.find((e) => e.key === activeKey);
+    if (!chosen || chosen.key === activeKey) {
+      return {
+        band: activeBand,
+        key: active?.key ?? null,
+        ref: active ? { band: active.band, species: active.species } : null,
+        isFollowing: !chosen,
+        whyNot: active ? active.viewWhyNot : 'no band is on the panels',
+      };
+    }
+    const ref = { band: chosen.band, species: chosen.species };
+    if (!chosen.view)
+      return {
+        band: { ...activeBand, ladders: [], ladderByKey: new Map() },
+        key: chosen.key,
+        ref,
+        isFollowing: false,
+        whyNot: chosen.viewWhyNot,
+      };
+    return { band: loomisBandOf(chosen.view, minIntensity), key: chosen.key, ref, isFollowing: false, whyNot: null };
+  },
+);

@@ -24,6 +24,8 @@ describe('the Loomis–Wood band', () => {
     const l = selectLoomisBand(benchStore.getState());
     expect(l.ref).toBeNull();
     expect(l.band).toBe(selectBand(benchStore.getState()));
+    // The same object for the same state: useBench re-renders without end otherwise.
+    expect(selectLoomisBand(benchStore.getState())).toBe(l);
   });
 
   it('follows the panels’ band until another is chosen, then shows that band’s lines and ladders', () => {
