@@ -18,4 +18,5 @@ startTransition(() =>
     </StrictMode>,
   ),
 );
-void bootstrap();
+// `?demo=single` starts on the single-band demo (the browser tests use it); else the several-band one.
+void bootstrap(new URLSearchParams(window.location.search).get('demo') === 'single' ? 'single' : 'bands');

@@ -511,7 +511,11 @@ export function cursorAssignMatched(): boolean {
  * @param positionCm1 cm^-1
  * @param toleranceCm1 how far to look for a peak, cm^-1
  */
-export function assignNearPosition(q: TransitionQuanta, positionCm1: number, toleranceCm1: number): boolean {
+export function assignNearPosition(
+  q: TransitionQuanta & { band?: string; species?: string },
+  positionCm1: number,
+  toleranceCm1: number,
+): boolean {
   const { peaks } = selectPeaks(benchStore.getState());
   if (!peaks) return false;
   const p = peakNearest(peaks, positionCm1, toleranceCm1);

@@ -87,11 +87,15 @@ export function viewSetTableQuery(patch: Partial<TableQuery>): void {
   benchUpdate('table query', (s) => ({ tableQuery: { ...s.tableQuery, ...patch } }), { history: false });
 }
 
-/** Choose the Loomis–Wood series (ladder key) and/or strip half width (cm^-1, > 0). */
-export function viewSetLoomis(patch: { seriesKey?: string | null; halfWidthCm1?: number }): void {
+/**
+ * Choose the Loomis–Wood series (ladder key), strip half width (cm^-1, > 0) and/or, with several
+ * bands, the band shown ("species/band"; null follows the panels' band).
+ */
+export function viewSetLoomis(patch: { seriesKey?: string | null; halfWidthCm1?: number; bandKey?: string | null }): void {
   benchUpdate(
     'loomis-wood',
     (s) => ({
+      loomisBandKey: patch.bandKey !== undefined ? patch.bandKey : s.loomisBandKey,
       loomisSeriesKey: patch.seriesKey !== undefined ? patch.seriesKey : s.loomisSeriesKey,
       loomisHalfWidthCm1: patch.halfWidthCm1 !== undefined && patch.halfWidthCm1 > 0 ? patch.halfWidthCm1 : s.loomisHalfWidthCm1,
     }),

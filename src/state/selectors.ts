@@ -45,7 +45,11 @@ const EMPTY_LINES: LineList = {
   honlLondon: new Float64Array(0),
 };
 
-const predictedBand = memoLast((model: BandModel, minIntensity: number): PredictedBand => {
+/**
+ * Lines and ladders of one single-band model (not memoised; selectBand and the Loomis–Wood band
+ * memoise it each on their own).
+ */
+export function predictedBandCompute(model: BandModel, minIntensity: number): PredictedBand {
   let lines: LineList;
   try {
     lines = bandLines(model, { minIntensity });
@@ -58,7 +62,9 @@ const predictedBand = memoLast((model: BandModel, minIntensity: number): Predict
     indexOf.set(`${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`, i);
   }
   return { lines, ladders, indexOf, ladderByKey: new Map(ladders.map((l) => [l.key, l])), error: null };
-});
+}
+
+const predictedBand = memoLast(predictedBandCompute);
 
 /** Predicted lines and ladders of the current model. */
 export function selectBand(s: BenchState): PredictedBand {

@@ -8,7 +8,8 @@ import { bandLadders, type Ladder } from '../physics/bandLadders';
 import type { LineList } from '../physics/model';
 import type { SystemModel } from '../physics/system/systemModel';
 import { memoLast } from './memo';
-import { selectBand, type PredictedBand } from './selectors';
+import type { BandModel } from '../physics/model';
+import { predictedBandCompute, selectBand, type PredictedBand } from './selectors';
 import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
 import { bandKeyOfLine, type SystemBandEntry } from './systemBands';
 import type { BenchState } from './store';
@@ -166,3 +167,61 @@ const activeAssignments = memoLast((assignments: BenchState['assignments'], acti
 export function selectActiveBandAssignments(s: BenchState): BenchState['assignments'] {
   return s.system ? activeAssignments(s.assignments, s.activeBandKey) : s.assignments;
 }
+
+/** The band the Loomis–Wood view shows. */
+export interface LoomisBand {
+  /** Its lines and ladders (empty with `whyNot` when the band has no single-band view). */
+  band: PredictedBand;
+  /** "species/band" in a several-band session, else null. */
+  key: string | null;
+  /** Band and species an assignment made from the view carries (null: the session's one band). */
+  ref: { band: string; species: string } | null;
+  /** The view follows the panels' band (no band chosen, or the chosen one is gone). */
+  isFollowing: boolean;
+  whyNot: string | null;
+}
+
+const loomisBandOf = memoLast((view: BandModel, minIntensity: number) => predictedBandCompute(view, minIntensity));
+
+/**
+ * The band of the Loomis–Wood view: the one chosen (`loomisBandKey`, any band of the system with a
+ * single-band view), else the panels' band; a single-band session's one band.
+ */
+export function selectLoomisBand(s: BenchState): LoomisBand {
+  // Memoised on its inputs: components select it with useBench, which needs the same object back.
+  return loomisBandSelect(s.system ? selectSystemPrediction(s) : null, selectBand(s), s.loomisBandKey, s.activeBandKey, s.minIntensity);
+}
+
+const loomisBandSelect = memoLast(
+  (
+    pred: SystemPrediction | null,
+    activeBand: PredictedBand,
+    chosenKey: string | null,
+    activeKey: string | null,
+    minIntensity: number,
+  ): LoomisBand => {
+    if (!pred) return { band: activeBand, key: null, ref: null, isFollowing: true, whyNot: null };
+    const entries = pred.entries;
+    const chosen = chosenKey !== null ? entries.find((e) => e.key === chosenKey) : undefined;
+    const active = entries.find((e) => e.key === activeKey);
+    if (!chosen || chosen.key === activeKey) {
+      return {
+        band: activeBand,
+        key: active?.key ?? null,
+        ref: active ? { band: active.band, species: active.species } : null,
+        isFollowing: !chosen,
+        whyNot: active ? active.viewWhyNot : 'no band is on the panels',
+      };
+    }
+    const ref = { band: chosen.band, species: chosen.species };
+    if (!chosen.view)
+      return {
+        band: { ...activeBand, ladders: [], ladderByKey: new Map() },
+        key: chosen.key,
+        ref,
+        isFollowing: false,
+        whyNot: chosen.viewWhyNot,
+      };
+    return { band: loomisBandOf(chosen.view, minIntensity), key: chosen.key, ref, isFollowing: false, whyNot: null };
+  },
+);

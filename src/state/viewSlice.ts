@@ -55,6 +55,8 @@ export interface ViewSlice {
   tab: BenchTab;
   /** Ladder key of the Loomis–Wood series, e.g. "r:2:R". */
   loomisSeriesKey: string | null;
+  /** Several bands: the band ("species/band") the Loomis–Wood view shows; null follows the panels' band. */
+  loomisBandKey: string | null;
   /** Half width of each Loomis–Wood strip, cm^-1. */
   loomisHalfWidthCm1: number;
   /** State whose combination differences are shown. */
@@ -81,6 +83,7 @@ export function viewSliceInitial(): ViewSlice {
     isHelpOpen: false,
     tab: 'assignments',
     loomisSeriesKey: null,
+    loomisBandKey: null,
     loomisHalfWidthCm1: 0.6,
     combinationState: 'lower',
     tableQuery: { sortKey: 'label', sortDescending: false, branch: '', kLower: null, jMin: null, jMax: null, minAbsOmcCm1: 0 },

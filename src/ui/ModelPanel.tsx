@@ -19,6 +19,7 @@ import {
   modelSetSymmetry,
   type ModelSide,
 } from '../state/actionsModel';
+import { demoSingleOpen, demoSystemOpen } from '../state/actionsDemoSystem';
 import { useBench } from '../state/store';
 import { ConstantName } from './ConstantName';
 import { NumberField } from './NumberField';
@@ -110,6 +111,15 @@ export function ModelPanel() {
       </div>
       <p className="model-name" title={modelName}>
         {modelName}
+      </p>
+      <p className="demo-choice" data-testid="demo-choice">
+        Demo:{' '}
+        <button type="button" onClick={() => void demoSingleOpen()}>
+          single band
+        </button>{' '}
+        <button type="button" onClick={() => void demoSystemOpen()}>
+          two isotopologues + hot band
+        </button>
       </p>
       <SystemTree />
       <div className="form-grid">

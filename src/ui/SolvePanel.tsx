@@ -9,7 +9,9 @@ import { modelParameterNames, modelSetFloated } from '../state/actionsModel';
 import { selectFitResult } from '../state/selectors';
 import { benchStore, useBench } from '../state/store';
 import { systemValueOf } from '../state/systemBands';
-import { correlationFigure, residualFigure } from './plot/solveTraces';
+import { correlationFigure, residualFigure, residualFigureBands } from './plot/solveTraces';
+import { selectSystemPrediction } from '../state/systemPredict';
+import { useShallow } from 'zustand/react/shallow';
 import { PlotlyChart } from './PlotlyChart';
 import { ConstantName } from './ConstantName';
 import { LineLabel } from './LineLabel';
@@ -116,14 +118,28 @@ function ResidualPlot({ result, lineIds }: { result: FitResult; lineIds: string[
   useEffect(() => {
     if (shouldDraw) setDrawn({ result, lineIds });
   }, [shouldDraw, result, lineIds]);
-  const fig = useMemo(() => (drawn ? residualFigure(drawn.result, drawn.lineIds, shape, isDark) : null), [drawn, shape, isDark]);
+  // Several bands: coloured by band (the band switches' colours), one legend entry per band.
+  const bandKeys = useBench(useShallow((s) => selectSystemPrediction(s)?.entries.map((e) => e.key) ?? null));
+  const fig = useMemo(
+    () =>
+      drawn
+        ? bandKeys
+          ? residualFigureBands(drawn.result, drawn.lineIds, bandKeys, shape, isDark)
+          : residualFigure(drawn.result, drawn.lineIds, shape, isDark)
+        : null,
+    [drawn, shape, isDark, bandKeys],
+  );
   return (
     <div ref={box}>
       {fig ? (
         <PlotlyChart
           data={fig.data}
           layout={fig.layout}
-          label="Residuals obs − calc against J″, one series per sub-branch: colour by K″ and ΔK, marker by branch (P ◀, Q ●, R ▶); click a point to select its line"
+          label={
+            bandKeys
+              ? 'Residuals obs − calc against J″, coloured by band (one legend entry per band), marker by branch (P ◀, Q ●, R ▶); click a point to select its line'
+              : 'Residuals obs − calc against J″, one series per sub-branch: colour by K″ and ΔK, marker by branch (P ◀, Q ●, R ▶); click a point to select its line'
+          }
           className="residual-plot"
           testId="residual-plot"
           onClick={(e) => {

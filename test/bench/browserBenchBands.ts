@@ -1,7 +1,9 @@
 /**
- * Inputs of the several-band page measure (browserBench measure 9): a system of four bands (the
- * demo's two isotopologues, the parent's hot band and one of the isotopologue), its 1,000,000-point
- * trace and a line table of 10,000 of its lines with band columns (seeded noise).
+ * Inputs of the several-band page measure (browserBench measure 9): a system of five bands (the
+ * demo's two isotopologues, the parent's hot band and one of the isotopologue, and ν4 of a third
+ * invented isotopologue LB-7-65), drawn at an intensity cut of 0.0015 (20,518 lines; the four
+ * bands alone give 14,719 at the page's default cut 0.002 and 15,729 at 0.0015), its
+ * 1,000,000-point trace and a line table of 10,000 of its lines with band columns (seeded noise).
  */
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -17,15 +19,15 @@ export interface BandsBenchInputs {
   systemJson: string;
   traceCsv: string;
   lineTableCsv: string;
-  /** Lines the page draws (intensity ≥ its default cut 0.002). */
+  /** Lines the page draws (intensity ≥ BANDS_BENCH_MIN_INTENSITY). */
   nLines: number;
   nAssigned: number;
   tracePoints: number;
   traceRangeCm1: [number, number];
 }
 
-/** Page's default intensity cut (modelSlice.minIntensity). */
-const PAGE_MIN_INTENSITY = 0.002;
+/** Intensity cut the measure sets on the page (its default, modelSlice.minIntensity, is 0.002). */
+export const BANDS_BENCH_MIN_INTENSITY = 0.0015;
 
 /**
  * Write the inputs into dir.
@@ -40,9 +42,24 @@ export function bandsBenchInputsWrite(dir: string, nAssigned = 10_000, tracePoin
     constants: { origin: 531.8, B: 0.28357, A: 3.4089, DJ: 2.5e-7, DJK: 2e-6 },
   });
   system = systemAddHotBand(system, [], { speciesIndex: 1, lower: 'v3', fundamental: 'nu4', name: 'hot' }).system;
-  system = { ...system, jMax: 80, kMax: 24 };
-  const lines = systemLines(system, { minIntensity: PAGE_MIN_INTENSITY });
-  const floated = [...DEMO_SYSTEM_FLOATED.filter((k) => !k.endsWith('v3.B')), 'LB-7-66/v3+v4.origin', 'LB-7-66/v3+v4.B'];
+  // A third isotopologue (invented): LB-7-66's ground state and ν4 with B and A scaled by 65/66 and
+  // the origin 4.6 cm^-1 up, abundance 0.25.
+  const third = structuredClone(demoSystemTruth().species[1]);
+  third.name = 'LB-7-65';
+  third.massAmu = 65;
+  third.abundance = 0.25;
+  for (const st of third.states) {
+    for (const k of ['B', 'A']) if (st.constants[k] !== undefined) st.constants[k] *= 65 / 66;
+    if (st.constants.origin !== undefined) st.constants.origin += 4.6;
+  }
+  system = { ...system, species: [...system.species, third], jMax: 80, kMax: 24 };
+  const lines = systemLines(system, { minIntensity: BANDS_BENCH_MIN_INTENSITY });
+  const floated = [
+    ...DEMO_SYSTEM_FLOATED.filter((k) => !k.endsWith('v3.B')),
+    'LB-7-66/v3+v4.origin',
+    'LB-7-66/v3+v4.B',
+    ...DEMO_SYSTEM_FLOATED.filter((k) => k.startsWith('LB-7-66/')).map((k) => k.replace('LB-7-66/', 'LB-7-65/')),
+  ];
   const systemJson = join(dir, 'bench-bands-system.json');
   writeFileSync(systemJson, systemFileSerialize(system, { floated, name: 'bench four bands' }));
   // Trace: the Voigt sum of every line on 1e6 points as absorbance.

@@ -13,7 +13,7 @@ import { lineTableParse, lineTableSerialize } from '../../src/io/lineTable';
 import { modelFileSerialize } from '../../src/io/modelFile';
 import { lineLabelAscii } from '../../src/physics/lineLabel';
 import { assistantBandGuess, assistantBandStrongest, assistantBandTrace } from '../state/assistantBand';
-import { baseUrl, launch, openPage, SHOTS, waitForPlot } from './browser';
+import { appUrl, launch, openPage, SHOTS, waitForPlot } from './browser';
 
 let browser: Browser;
 beforeAll(async () => {
@@ -92,7 +92,7 @@ function isTrue(a: { jUpper: number; kUpper: number; jLower: number; kLower: num
 describe('the assistant on the page', () => {
   it('runs in the background with progress, cancels, proposes for review, accepts confident lines that are right, and undoes the run in one step', async () => {
     const { context, page, log } = await openPage(browser);
-    await page.goto(baseUrl());
+    await page.goto(appUrl());
     await waitForPlot(page);
     await openText(page, 'guess.json', modelFileSerialize({ model: assistantBandGuess(), floated: FLOATED, name: 'invented test band' }));
     await expect.poll(() => messages(page), { timeout: 20_000 }).toMatch(/Model loaded from guess\.json/);
@@ -202,7 +202,7 @@ describe('the assistant on the page', () => {
 
   it('checks the table for misassignments and extends the selected series from the same panel', async () => {
     const { context, page, log } = await openPage(browser);
-    await page.goto(baseUrl());
+    await page.goto(appUrl());
     await waitForPlot(page);
     await openText(page, 'guess.json', modelFileSerialize({ model: assistantBandGuess(), floated: FLOATED, name: 'invented test band' }));
     await expect.poll(() => messages(page), { timeout: 20_000 }).toMatch(/Model loaded from guess\.json/);

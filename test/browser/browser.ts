@@ -62,9 +62,17 @@ export async function openPage(browser: Browser): Promise<{ context: BrowserCont
   return { context, page, log };
 }
 
-/** Go to the app and wait until the plot has drawn its trace and ladders. */
-export async function gotoApp(page: Page): Promise<void> {
-  await page.goto(baseUrl());
+/**
+ * The app's address. The page starts on the several-band demo; `single` (the default here, which
+ * the tests written for one band rely on) asks for the single-band demo with `?demo=single`.
+ */
+export function appUrl(demo: 'single' | 'bands' = 'single'): string {
+  return demo === 'single' ? `${baseUrl()}?demo=single` : baseUrl();
+}
+
+/** Go to the app (on the single-band demo unless told) and wait until the plot has drawn its trace and ladders. */
+export async function gotoApp(page: Page, demo: 'single' | 'bands' = 'single'): Promise<void> {
+  await page.goto(appUrl(demo));
   await waitForPlot(page);
 }
 

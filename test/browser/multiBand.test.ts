@@ -120,6 +120,17 @@ describe('several bands on the page', () => {
     expect(Math.abs((await valueOf('LB-7-66/v4.origin')) - 1139.2876)).toBeLessThan(2e-3);
     await page.screenshot({ path: `${SHOTS}/42-joint-fit.png` });
 
+    // Combination differences of the panels' band (LB-7 nu4): its ground state, from every LB-7
+    // band that reaches it (only nu4 in the demo), each pair naming its band; never LB-7-66's lines.
+    await page.locator('[data-testid=tab-combination]').click();
+    await expect
+      .poll(() => page.locator('[data-testid=cd-state-bands]').textContent(), { timeout: 20_000 })
+      .toMatch(/State ground of LB-7, from the band nu4/);
+    const pairBands = await page.locator('[data-testid=cd-pairs] tbody tr td:first-child').allTextContents();
+    expect(pairBands.length).toBeGreaterThan(10);
+    expect(new Set(pairBands)).toEqual(new Set(['nu4']));
+    await page.screenshot({ path: `${SHOTS}/43-combination-several-bands.png` });
+
     await page.locator('[data-testid=tab-export]').click();
     const lines = await downloadOf(page, 'export-lines');
     expect(lines.text.split('\n')[0]).toBe(
@@ -131,6 +142,22 @@ describe('several bands on the page', () => {
     expect(report.text).toContain('## Bands');
     const model = await downloadOf(page, 'export-model');
     expect(systemFileParse(model.text).model.species.map((s) => s.name)).toEqual(['LB-7', 'LB-7-66']);
+    expect(log.pageErrors).toEqual([]);
+    await context.close();
+  });
+
+  it('starts on the two-isotopologue demo, and the model panel opens the single-band demo and back', async () => {
+    const { context, page, log } = await openPage(browser);
+    await gotoApp(page, 'bands');
+    await expect.poll(() => page.locator('[data-testid=file-name]').textContent(), { timeout: 30_000 }).toBe('demo/system-trace.csv');
+    await expect.poll(() => page.locator('[data-testid=band-switches] .band-switch').count(), { timeout: 20_000 }).toBe(3);
+    // Nothing to undo back out of: the demo is the starting point.
+    expect(await page.locator('[data-testid=undo]').isDisabled()).toBe(true);
+    await page.locator('[data-testid=demo-choice]').getByRole('button', { name: 'single band' }).click();
+    await expect.poll(() => page.locator('[data-testid=file-name]').textContent(), { timeout: 30_000 }).toBe('demo/trace.csv');
+    await expect.poll(() => page.locator('[data-testid=band-switches]').count(), { timeout: 20_000 }).toBe(0);
+    await page.locator('[data-testid=demo-choice]').getByRole('button', { name: 'two isotopologues + hot band' }).click();
+    await expect.poll(() => page.locator('[data-testid=band-switches] .band-switch').count(), { timeout: 30_000 }).toBe(3);
     expect(log.pageErrors).toEqual([]);
     await context.close();
   });

@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { combinationDifferences } from '../../src/fit/combinationDifferences';
 import { fitBand } from '../../src/fit/fitBand';
 import { bandLines } from '../../src/physics/bandLines';
-import { combinationFigure, correlationFigure, residualFigure } from '../../src/ui/plot/solveTraces';
+import { combinationFigure, correlationFigure, residualFigure, residualFigureBands } from '../../src/ui/plot/solveTraces';
+import { bandColour } from '../../src/ui/plot/plotColours';
 import { smallModel } from '../state/fixtures';
 
 const model = smallModel();
@@ -74,6 +75,26 @@ describe('residualFigure', () => {
     const legend = (data as unknown as { showlegend: boolean; name: string }[]).filter((d) => d.showlegend);
     expect(legend.length).toBe(new Set(obs.map((o) => `${o.kUpper - o.kLower}:${o.kLower}:${o.jUpper - o.jLower}`)).size);
     for (const d of legend) expect(d.name).toMatch(/^[pqr]?[PQR]\d*$/);
+  });
+});
+
+describe('residualFigureBands', () => {
+  it('colours each band in its family, with one legend entry per band, and draws every line once', () => {
+    const r = fitBand({ model, floated: ['upper.origin', 'upper.B', 'lower.B'], lines: obs });
+    if (!r.ok) throw new Error(r.error.message);
+    // The same lines split over two bands of a system (alternate lines), as a joint fit labels them.
+    const result = { ...r.result, lines: r.result.lines.map((l, i) => ({ ...l, band: i % 2 ? 'hot' : 'nu4', species: 'X' })) };
+    const ids = obs.map((_, i) => `a${i}`);
+    const keys = ['X/nu4', 'X/hot'];
+    const { data } = residualFigureBands(result, ids, keys, 'prolate', false);
+    const traces = data as unknown as { name: string; showlegend: boolean; x: number[]; customdata: string[]; marker: { color: string } }[];
+    expect(traces.filter((d) => d.showlegend).map((d) => d.name)).toEqual(['nu4 (X)', 'hot (X)']);
+    for (const d of traces) {
+      const band = d.name.startsWith('nu4') ? 0 : 1;
+      expect(d.marker.color).toBe(bandColour(band, false));
+      for (const id of d.customdata) expect(Number(id.slice(1)) % 2).toBe(band);
+    }
+    expect(traces.reduce((n, d) => n + d.x.length, 0)).toBe(obs.length);
   });
 });
 

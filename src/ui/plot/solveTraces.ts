@@ -10,7 +10,7 @@ import { constantNameHtml } from '../../io/constantName';
 import { lineLabelHtml, seriesLabelAscii } from '../../physics/lineLabel';
 import type { TopShape } from '../../physics/model';
 import type { LoomisGrid } from './loomisWood';
-import { kColour, ladderColour, plotTheme } from './plotColours';
+import { bandLadderColour, kColour, ladderColour, plotTheme } from './plotColours';
 
 function baseLayout(isDark: boolean): Partial<Layout> {
   const t = plotTheme(isDark);
@@ -114,6 +114,86 @@ export function residualFigure(
     layout: {
       ...baseLayout(isDark),
       legend: { orientation: 'v', font: { size: 10 }, title: { text: 'sub-branch<br>◀ P ● Q ▶ R' } },
+      xaxis: axis(isDark, 'J″'),
+      yaxis: { ...axis(isDark, 'obs − calc / cm⁻¹'), exponentformat: 'e' },
+    },
+  };
+}
+
+/**
+ * Residual plot of a joint fit: obs − calc (cm^-1) against J'', one legend entry per band, each
+ * band in its colour family (the ladders' and band switches' colours: index in `bandKeys`), marker
+ * by branch (P ◀, Q ●, R ▶); excluded lines as open markers, outliers as crosses. Lines whose band
+ * is not in `bandKeys` are drawn under "other". customdata carries the assignment id for clicks.
+ * @param result the fit (its lines carry `band` and `species`)
+ * @param lineIds assignment id of each result line (same order)
+ * @param bandKeys "species/band" of every band, in the system's order
+ */
+export function residualFigureBands(
+  result: FitResult,
+  lineIds: readonly string[],
+  bandKeys: readonly string[],
+  shape: TopShape,
+  isDark: boolean,
+): { data: Data[]; layout: Partial<Layout> } {
+  const lines = result.lines as (FitResult['lines'][number] & { band?: string; species?: string })[];
+  const bandIndexOf = new Map(bandKeys.map((k, i) => [k, i]));
+  // Lines by band, branch and class.
+  const groups = new Map<string, { bandIndex: number; name: string; deltaJ: number; idx: number[][] }>();
+  for (let i = 0; i < lines.length; i++) {
+    const l = lines[i];
+    const key = l.band !== undefined && l.species !== undefined ? `${l.species}/${l.band}` : '';
+    const b = bandIndexOf.get(key) ?? -1;
+    const deltaJ = l.jUpper - l.jLower;
+    const g0 = `${b}:${deltaJ}`;
+    let g = groups.get(g0);
+    if (!g) groups.set(g0, (g = { bandIndex: b, name: b >= 0 ? `${l.band} (${l.species})` : 'other', deltaJ, idx: [[], [], []] }));
+    g.idx[l.isOutlier ? 2 : l.isExcluded ? 1 : 0].push(i);
+  }
+  const series = [...groups.values()].sort((a, b) => a.bandIndex - b.bandIndex || a.deltaJ - b.deltaJ);
+  const data: Data[] = [];
+  const shown = new Set<number>();
+  for (const g of series) {
+    const colour = g.bandIndex >= 0 ? bandLadderColour(g.bandIndex, 0, 1, isDark) : plotTheme(isDark).text;
+    const base = BRANCH_SYMBOLS[g.deltaJ] ?? 'circle';
+    g.idx.forEach((idx, c) => {
+      if (idx.length === 0) return;
+      const n = idx.length;
+      const x = new Array<number>(n);
+      const y = new Array<number>(n);
+      const ids = new Array<string>(n);
+      const text = new Array<string>(n);
+      for (let m = 0; m < n; m++) {
+        const i = idx[m];
+        const l = lines[i];
+        x[m] = l.jLower;
+        y[m] = l.obsMinusCalc;
+        ids[m] = lineIds[i];
+        text[m] =
+          `${g.name}: ${lineLabelHtml(l.kUpper - l.kLower, l.jUpper - l.jLower, l.kLower, l.jLower, shape)}<br>obs − calc ${l.obsMinusCalc.toExponential(2)} cm⁻¹<br>${l.normalisedResidual.toFixed(2)} σ${l.isExcluded ? '<br>excluded' : ''}${l.isOutlier ? '<br>outlier' : ''}`;
+      }
+      const isFirst = !shown.has(g.bandIndex);
+      shown.add(g.bandIndex);
+      data.push({
+        type: 'scatter',
+        mode: 'markers',
+        name: g.name,
+        legendgroup: `b${g.bandIndex}`,
+        showlegend: isFirst,
+        x,
+        y,
+        customdata: ids,
+        hovertext: text,
+        hovertemplate: '%{hovertext}<extra></extra>',
+        marker: { color: colour, size: 7, symbol: RESIDUAL_CLASSES[c].symbol(base) },
+      } as Data);
+    });
+  }
+  return {
+    data,
+    layout: {
+      ...baseLayout(isDark),
+      legend: { orientation: 'v', font: { size: 10 }, title: { text: 'band<br>◀ P ● Q ▶ R' } },
       xaxis: axis(isDark, 'J″'),
       yaxis: { ...axis(isDark, 'obs − calc / cm⁻¹'), exponentformat: 'e' },
     },
