@@ -8,6 +8,7 @@ import { bandLadders, type Ladder } from '../physics/bandLadders';
 import type { LineList } from '../physics/model';
 import type { SystemModel } from '../physics/system/systemModel';
 import { memoLast } from './memo';
+import { lineLevelLabel, lineLevelLabelsSubset, type LineLevelLabel, type LineLevelLabels } from './systemLevelLabels';
 import { selectBand, type PredictedBand } from './selectors';
 import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
 import { bandKeyOfLine, type SystemBandEntry } from './systemBands';
@@ -23,6 +24,8 @@ export interface DrawnBands extends PredictedBand {
   bandCount: Int32Array | null;
   /** Each band's own ladders (indices into `lines`), by band index; [] for bands switched off. */
   bandLadders: Ladder[][] | null;
+  /** Level labels of each line (l, tag, symmetry species); null in a single-band session. */
+  levels: LineLevelLabels | null;
 }
 
 function lineListSubset(all: LineList, idx: Int32Array): LineList {
@@ -60,6 +63,7 @@ const drawnOf = memoLast((pred: SystemPrediction, hiddenBands: readonly string[]
     bandStart: new Int32Array(nBands),
     bandCount: new Int32Array(nBands),
     bandLadders: entries.map(() => []),
+    levels: null,
   });
   if (!all) return empty(pred.error);
   const hidden = new Set(hiddenBands);
@@ -117,6 +121,7 @@ const drawnOf = memoLast((pred: SystemPrediction, hiddenBands: readonly string[]
     bandStart,
     bandCount: counts,
     bandLadders: perBand,
+    levels: lineLevelLabelsSubset(all, idx),
   };
 });
 
@@ -141,6 +146,7 @@ const singleDrawn = memoLast((band: PredictedBand): DrawnBands => ({
   bandStart: null,
   bandCount: null,
   bandLadders: null,
+  levels: null,
 }));
 
 /** The drawn lines: every band switched on (several-band session) or the one band. */
@@ -165,4 +171,40 @@ const activeAssignments = memoLast((assignments: BenchState['assignments'], acti
  */
 export function selectActiveBandAssignments(s: BenchState): BenchState['assignments'] {
   return s.system ? activeAssignments(s.assignments, s.activeBandKey) : s.assignments;
+}
+
+const assignmentLevels = memoLast(
+  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): (LineLevelLabel | null)[] => {
+    const { levels, entries, bandOfLine, lines } = drawn;
+    if (!levels || !entries || !bandOfLine) return assignments.map(() => null);
+    const byKey = new Map<string, number[]>();
+    for (let i = 0; i < lines.count; i++) {
+      const key = `${entries[bandOfLine[i]].key}|${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`;
+      const list = byKey.get(key);
+      if (list) list.push(i);
+      else byKey.set(key, [i]);
+    }
+    return assignments.map((a) => {
+      const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
+      if (!list) return null;
+      const fits = list.filter(
+        (i) =>
+          (a.tagUpper === undefined || levels.tagUpper[i] === a.tagUpper) &&
+          (a.tagLower === undefined || levels.tagLower[i] === a.tagLower) &&
+          (a.lUpper === undefined || levels.lUpper[i] === a.lUpper) &&
+          (a.lLower === undefined || levels.lLower[i] === a.lLower),
+      );
+      // Only a line the row names alone: a row J and K leave open (an untagged row of a split pair) shows no symmetry.
+      return fits.length === 1 ? lineLevelLabel(levels, fits[0]) : null;
+    });
+  },
+);
+
+/**
+ * The level labels (tags, symmetry species) of the drawn line each assignment names, parallel to
+ * the assignments; null where the row's band is switched off, the line is not drawn or J and K
+ * leave a choice the row does not settle (and in a single-band session).
+ */
+export function selectAssignmentLevels(s: BenchState): (LineLevelLabel | null)[] {
+  return assignmentLevels(s.assignments, selectDrawnBands(s), s.activeBandKey);
 }
