@@ -19,7 +19,7 @@ import {
   isotopologueFactorDefault,
 } from '../state/systemEdit';
 import { systemEntriesOf } from '../state/systemSync';
-import { systemInteractionConstantNames, systemStateConstantNames } from '../state/systemBands';
+import { systemInteractionConstantNames, systemParamKey, systemStateConstantNames } from '../state/systemBands';
 import { constantNameText } from '../io/constantName';
 import type { SystemInteraction, SystemSpecies, SystemState } from '../physics/system/systemModel';
 import { NumberField } from './NumberField';
@@ -43,8 +43,15 @@ function fieldUnit(name: string): string {
  * the rest of what its Hamiltonian takes under "more", at 0.
  */
 function StateConstants({ speciesIndex, species, state }: { speciesIndex: number; species: SystemSpecies; state: SystemState }) {
+  const system = useBench((s) => s.system)!;
+  const floated = useBench((s) => s.systemFloated);
   const names = systemStateConstantNames(species, state);
-  const shown = names.filter((n) => (TREE_CONSTANTS.includes(n) && n !== 'origin') || n in state.constants);
+  const isFloated = new Set(floated);
+  // A constant the file leaves at 0 and fixed plays no part; it waits under "more".
+  const shown = names.filter(
+    (n) =>
+      TREE_CONSTANTS.includes(n) || (state.constants[n] ?? 0) !== 0 || isFloated.has(systemParamKey(system, speciesIndex, state.name, n)),
+  );
   const rest = names.filter((n) => !shown.includes(n));
   const field = (n: string) => (
     <NumberField
@@ -78,7 +85,7 @@ function StateConstants({ speciesIndex, species, state }: { speciesIndex: number
   );
 }
 
-/** An interaction of a species with its constants (every one its type takes, 0 where the model gives none). */
+/** An interaction of a species with the constants it uses (the others its type takes under "more", at 0). */
 function InteractionRow({
   speciesIndex,
   species,
@@ -88,31 +95,43 @@ function InteractionRow({
   species: SystemSpecies;
   interaction: SystemInteraction;
 }) {
-  const names = systemInteractionConstantNames(species, interaction);
+  const system = useBench((s) => s.system)!;
+  const floated = useBench((s) => s.systemFloated);
+  const isFloated = new Set(floated);
+  const all = systemInteractionConstantNames(species, interaction);
+  const isUsed = (n: string) =>
+    (interaction.constants[n] ?? 0) !== 0 || isFloated.has(systemParamKey(system, speciesIndex, interaction.name, n));
+  const names = all.filter(isUsed);
+  const rest = all.filter((n) => !isUsed(n));
+  const field = (n: string) => (
+    <NumberField
+      key={n}
+      label={fieldLabel(n, interaction.name)}
+      className="narrow"
+      unit="cm⁻¹"
+      value={interaction.constants[n] ?? 0}
+      testId={`const-${species.name}-${interaction.name}-${n}`}
+      onCommit={(v) =>
+        systemEdit(
+          `edit ${species.name} ${interaction.name}.${n}`,
+          (s) => ({ system: systemSetInteractionConstant(s.system!, speciesIndex, interaction.name, n, v) }),
+          { coalesce: true },
+        )
+      }
+    />
+  );
   return (
     <li data-interaction={interaction.name}>
       <span className="tree-state">
         {interaction.name}: {interaction.type === 'coriolis' ? 'Coriolis' : 'Fermi'} {interaction.states[0]} ↔ {interaction.states[1]}
       </span>
-      <span className="tree-fields">
-        {names.map((n) => (
-          <NumberField
-            key={n}
-            label={fieldLabel(n, interaction.name)}
-            className="narrow"
-            unit="cm⁻¹"
-            value={interaction.constants[n] ?? 0}
-            testId={`const-${species.name}-${interaction.name}-${n}`}
-            onCommit={(v) =>
-              systemEdit(
-                `edit ${species.name} ${interaction.name}.${n}`,
-                (s) => ({ system: systemSetInteractionConstant(s.system!, speciesIndex, interaction.name, n, v) }),
-                { coalesce: true },
-              )
-            }
-          />
-        ))}
-      </span>
+      <span className="tree-fields">{names.map(field)}</span>
+      {rest.length > 0 && (
+        <details className="sub tree-more">
+          <summary>more constants of {interaction.name}</summary>
+          <span className="tree-fields">{rest.map(field)}</span>
+        </details>
+      )}
     </li>
   );
 }
