@@ -25,6 +25,16 @@ export interface Assignment extends TransitionQuanta {
   band?: string;
   /** Species (molecule or isotopologue) name, with `band`. */
   species?: string;
+  /**
+   * Level tags of a several-band line where the band leaves a choice (io/systemLineTable tag_up,
+   * tag_lo): A1/A2 members of a split K = 3n pair, s/a inversion components ("a:A2''"), e/f.
+   * Absent or "" when J and K alone name the level.
+   */
+  tagUpper?: string;
+  tagLower?: string;
+  /** l = sign(kℓ) of a degenerate level (+1, −1; 0 nondegenerate), where the band leaves a choice (l_up, l_lo). */
+  lUpper?: -1 | 0 | 1;
+  lLower?: -1 | 0 | 1;
 }
 
 /** Default 1σ uncertainty of a line position when none is given, cm^-1 (headless contract). */

@@ -14,6 +14,11 @@ export interface ConstantNameParts {
   subscript: string;
   /** "′" for the upper state, "″" for the lower, "" for a constant of one state only (ν₀, ζ, q) or a bare name. */
   prime: '′' | '″' | '';
+  /**
+   * The state or interaction a system fit key names ("v4", "v2v4", "X/v4"), shown beside the
+   * symbol; "" for the single-band keys (upper., lower.) and bare names.
+   */
+  owner: string;
 }
 
 const SYMBOLS: Record<string, [string, string]> = {
@@ -45,7 +50,32 @@ const SYMBOLS: Record<string, [string, string]> = {
   inv: ['Δ', 'inv'],
   eps3: ['ε', '3'],
   eps3J: ['ε', '3J'],
+  h3: ['h', '3'],
+  // Interaction constants (keys "<interaction>.<constant>"; physics/interaction/interactionTerms.ts).
+  C1: ['C', '1'],
+  C1J: ['C', '1J'],
+  C1K: ['C', '1K'],
+  C1JJ: ['C', '1JJ'],
+  C2: ['C', '2'],
+  C2J: ['C', '2J'],
+  C2K: ['C', '2K'],
+  Cz: ['C', 'z'],
+  CzJ: ['C', 'zJ'],
+  W: ['W', ''],
+  WJ: ['W', 'J'],
+  WK: ['W', 'K'],
 };
+
+/**
+ * The J, K dependence of the inversion splitting ("invB", "invDJ": the a − s difference of B, D_J)
+ * is named by the constant it modifies with "inv" in its subscript: Δ B_inv, Δ D_J,inv.
+ */
+function inversionParts(name: string): [string, string] | null {
+  if (!name.startsWith('inv') || name === 'inv') return null;
+  const base = SYMBOLS[name.slice(3)];
+  if (!base) return null;
+  return [`Δ${base[0]}`, base[1] ? `${base[1]},inv` : 'inv'];
+}
 
 /** Constants that belong to the upper state only (written without a prime, as is usual). */
 const UPPER_ONLY = new Set(['origin', 'zeta', 'q']);
@@ -60,21 +90,22 @@ export function constantNameParts(key: string): ConstantNameParts {
   const dot = key.indexOf('.');
   const side = dot >= 0 ? key.slice(0, dot) : '';
   const name = dot >= 0 ? key.slice(dot + 1) : key;
-  const sym = SYMBOLS[name];
-  if (!sym) return { symbol: key, subscript: '', prime: '' };
+  const sym = SYMBOLS[name] ?? inversionParts(name);
+  if (!sym) return { symbol: key, subscript: '', prime: '', owner: '' };
   const prime = UPPER_ONLY.has(name) ? '' : side === 'upper' ? '′' : side === 'lower' ? '″' : '';
-  return { symbol: sym[0], subscript: sym[1], prime };
+  const owner = side === 'upper' || side === 'lower' ? '' : side;
+  return { symbol: sym[0], subscript: sym[1], prime, owner };
 }
 
 /**
  * A constant's name as plain text: "ν₀", "B′", "D_JK″" (the subscript after "_" where Unicode has
- * no subscript letter).
+ * no subscript letter); a system key names its state or interaction: "q_22 (v4)", "C_1 (v2v4)".
  * @param key "side.name" or "name"
  */
 export function constantNameText(key: string): string {
   const p = constantNameParts(key);
   const sub = p.subscript === '' ? '' : p.subscript === '0' ? '₀' : `_${p.subscript}`;
-  return `${p.symbol}${sub}${p.prime}`;
+  return `${p.symbol}${sub}${p.prime}${p.owner ? ` (${p.owner})` : ''}`;
 }
 
 /**
@@ -85,7 +116,8 @@ export function constantNameText(key: string): string {
 export function constantNameHtml(key: string): string {
   const p = constantNameParts(key);
   const symbol = p.symbol.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
-  return `${symbol}${p.subscript ? `<sub>${p.subscript}</sub>` : ''}${p.prime}`;
+  const owner = p.owner.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
+  return `${symbol}${p.subscript ? `<sub>${p.subscript}</sub>` : ''}${p.prime}${owner ? ` (${owner})` : ''}`;
 }
 
 const KEY_PATTERN = new RegExp(`\\b(upper|lower)\\.(${[...PARAMETER_NAMES].sort((a, b) => b.length - a.length).join('|')})\\b`, 'g');

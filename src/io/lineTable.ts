@@ -271,11 +271,30 @@ export interface LineTableSerializeOptions {
    * from each assignment's band and species (blank when it names none). @default false
    */
   hasBandColumns?: boolean;
+  /**
+   * With hasBandColumns: also write `l_up`, `l_lo`, `tag_up`, `tag_lo` (io/systemLineTable.ts reads
+   * them back; blank where the assignment carries none). @default false
+   */
+  hasLevelColumns?: boolean;
+  /**
+   * With hasLevelColumns: the symmetry species of each row's upper and lower level (`sym_up`,
+   * `sym_lo`, as `simulate` writes them; read back as notes only), parallel to the assignments;
+   * null for a row whose species are not known.
+   */
+  symmetryOf?: (index: number) => { symUpper: string; symLower: string } | null;
 }
 
 /** Shortest text that reads back as the same double (String drops the sign of −0). */
 function numberText(v: number): string {
   return Object.is(v, -0) ? '-0' : String(v);
+}
+
+function lText(l: -1 | 0 | 1 | undefined): string {
+  return l === undefined ? '' : l > 0 ? '+1' : l < 0 ? '-1' : '0';
+}
+
+function symCells(sym: { symUpper: string; symLower: string } | null): string[] {
+  return sym ? [sym.symUpper, sym.symLower] : ['', ''];
 }
 
 /** Column order of a written line table. */
@@ -303,6 +322,7 @@ export const LINE_TABLE_COLUMNS = [
  * @returns CSV text with a header line, LF line ends, trailing newline
  */
 export function lineTableSerialize(assignments: readonly Assignment[], options: LineTableSerializeOptions): string {
+  const levels = options.hasBandColumns === true && options.hasLevelColumns === true;
   const data = assignments.map((a, i) => {
     const calc = options.calcCm1?.[i];
     const hasCalc = calc !== undefined && Number.isFinite(calc);
@@ -322,8 +342,12 @@ export function lineTableSerialize(assignments: readonly Assignment[], options: 
       a.id,
       a.peakId ?? '',
       ...(options.hasBandColumns ? [a.band ?? '', a.species ?? ''] : []),
+      ...(levels ? [lText(a.lUpper), lText(a.lLower), a.tagUpper ?? '', a.tagLower ?? ''] : []),
+      ...(levels && options.symmetryOf ? symCells(options.symmetryOf(i)) : []),
     ];
   });
   const fields = options.hasBandColumns ? [...LINE_TABLE_COLUMNS, 'band', 'species'] : [...LINE_TABLE_COLUMNS];
+  if (levels) fields.push('l_up', 'l_lo', 'tag_up', 'tag_lo');
+  if (levels && options.symmetryOf) fields.push('sym_up', 'sym_lo');
   return Papa.unparse({ fields, data }, { newline: '\n', quotes: false }) + '\n';
 }

@@ -233,10 +233,22 @@ const assignmentSchema = z.object({
   peakId: z.string().optional(),
   band: z.string().max(200).optional(),
   species: z.string().max(200).optional(),
+  // Level labels of a several-band line (A1/A2, s/a, e/f; ±l) where J and K leave a choice.
+  tagUpper: z.string().max(40).optional(),
+  tagLower: z.string().max(40).optional(),
+  lUpper: z.union([z.literal(-1), z.literal(0), z.literal(1)]).optional(),
+  lLower: z.union([z.literal(-1), z.literal(0), z.literal(1)]).optional(),
 });
 const systemStateSchema = z.object({
   name: z.string().min(1).max(200),
   isDegenerate: z.boolean(),
+  constants: z.record(z.string().max(40), finite),
+  symmetry: z.object({ pointGroup: z.enum(['C3v', 'D3h']), vibSpecies: z.string().max(10), isInversionDoubled: z.boolean() }).optional(),
+});
+const systemInteractionSchema = z.object({
+  name: z.string().min(1).max(200),
+  type: z.enum(['coriolis', 'fermi']),
+  states: z.tuple([z.string().max(200), z.string().max(200)]),
   constants: z.record(z.string().max(40), finite),
 });
 const systemSchema = z.object({
@@ -254,8 +266,20 @@ const systemSchema = z.object({
           spinWeights: z.array(z.number().min(0)).min(1).max(INPUT_LIMITS.maxSpinWeights),
           states: z.array(systemStateSchema).min(1).max(200),
           bands: z
-            .array(z.object({ name: z.string().min(1).max(200), upper: z.string(), lower: z.string(), strength: z.number().min(0) }))
+            .array(
+              z.object({
+                name: z.string().min(1).max(200),
+                upper: z.string(),
+                lower: z.string(),
+                strength: z.number().min(0),
+                momentSign: z.union([z.literal(1), z.literal(-1)]).optional(),
+              }),
+            )
             .max(500),
+          // Symmetry and interacting states (system files with a pointGroup or interactions).
+          pointGroup: z.enum(['C3v', 'D3h']).optional(),
+          spinWeightsBySymmetry: z.record(z.string().max(10), z.number().min(0)).optional(),
+          interactions: z.array(systemInteractionSchema).max(500).optional(),
         }),
       )
       .min(1)

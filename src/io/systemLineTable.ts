@@ -24,7 +24,7 @@ import { inputExcerpt } from './inputLimits';
 import { lineTableParse, LineTableError, type LineTable, type LineTableParseOptions } from './lineTable';
 
 /** One row of a system line table: an Assignment (cm^-1) plus its band and level labels. */
-export interface SystemLineRow extends Omit<Assignment, 'band' | 'species'> {
+export interface SystemLineRow extends Omit<Assignment, 'band' | 'species' | 'lUpper' | 'lLower' | 'tagUpper' | 'tagLower'> {
   /** Band name, or null when the column is absent or the cell blank. */
   band: string | null;
   /** Species name, or null. */

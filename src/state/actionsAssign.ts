@@ -11,6 +11,7 @@ import {
   type MatchSingleOutcome,
 } from '../analysis/matchSingle';
 import type { PeakList } from '../analysis/peaksFind';
+import type { Assignment } from '../fit/assignment';
 import type { FitResult } from '../fit/fitTypes';
 import type { TransitionQuanta } from '../physics/model';
 import { sortedLowerBound } from './sortedSearch';
@@ -24,7 +25,11 @@ import { quantaLabel, selectAssignedKeys, selectBand, selectFitResult, selectPea
 import { benchStore, type BenchState } from './store';
 import { assignmentBandKey, selectDrawnBands, type DrawnBands } from './selectorsSystem';
 import { systemActiveEntry } from './systemSync';
+import { assignmentLevelLabels, lineLevelLabel, transitionSymmetryText } from './systemLevelLabels';
 import { lineLabelAscii, lineLabelHtml } from '../physics/lineLabel';
+
+/** What names a line of a several-band session beyond its quanta: band, species and level labels. */
+type AssignmentLineRef = { band?: string; species?: string } & Pick<Assignment, 'lUpper' | 'lLower' | 'tagUpper' | 'tagLower'>;
 
 /** Band and species of the active band (several-band session), or null. */
 function activeRef(s: BenchState): { band: string; species: string } | null {
@@ -126,7 +131,9 @@ const candidatesSystem = memoLast(
     const bOf = entries.map((e) => Math.abs(e.view?.lower.B ?? 0));
     const window = Math.max(...bOf.map((b) => Math.max(0.05, (hasFit ? 1.2 : 2.5) * b)), 0.05);
     const p = peaks ? peakNearest(peaks, target.peakCm1, 1e-6) : -1;
-    const assigned = new Set(assignments.map((a) => `${assignmentBandKey({ activeBandKey }, a)}|${quantaKey(a)}`));
+    const assigned = new Set(
+      assignments.map((a) => `${assignmentBandKey({ activeBandKey }, a)}|${quantaKey(a)}|${a.tagUpper ?? ''}|${a.tagLower ?? ''}`),
+    );
     const ranked = candidatesRank(lines, target.peakCm1, {
       windowCm1: window,
       shape: entries[0].view?.shape ?? 'prolate',
@@ -142,11 +149,13 @@ const candidatesSystem = memoLast(
       const shape = e.view?.shape ?? 'prolate';
       const deltaK = c.kUpper - c.kLower;
       const deltaJ = c.jUpper - c.jLower;
+      const lv = drawn.levels ? lineLevelLabel(drawn.levels, c.lineIndex) : null;
       return {
         ...c,
         band: e.band,
         species: e.species,
-        isAssigned: assigned.has(`${e.key}|${quantaKey(c)}`),
+        ...(lv ? { ...assignmentLevelLabels(lv), symmetryText: transitionSymmetryText(lv) } : {}),
+        isAssigned: assigned.has(`${e.key}|${quantaKey(c)}|${lv?.tagUpper ?? ''}|${lv?.tagLower ?? ''}`),
         labelAscii: lineLabelAscii(deltaK, deltaJ, c.kLower, c.jLower, shape),
         labelHtml: lineLabelHtml(deltaK, deltaJ, c.kLower, c.jLower, shape),
       };
@@ -187,11 +196,16 @@ function peakTarget(peaks: PeakList, i: number): CandidateTarget {
  * Assign quantum numbers to an observed peak (one undo step). The new row is selected.
  * @returns the assignment id
  */
-export function assignToPeak(q: TransitionQuanta & { band?: string; species?: string }, target: CandidateTarget): string {
+export function assignToPeak(q: TransitionQuanta & AssignmentLineRef, target: CandidateTarget): string {
   const s = benchStore.getState();
   // In a several-band session a line names its band: the candidate's, else the active band's (rung cursor).
   const ref = s.system ? (q.band !== undefined && q.species !== undefined ? { band: q.band, species: q.species } : activeRef(s)) : null;
-  const label = quantaLabel(q, s.model.shape) + (ref ? ` (${ref.band}, ${ref.species})` : '');
+  // The line's level labels (A1/A2, s/a, ±l) go with it, so the joint fit can tell a split pair apart.
+  const levels = ref
+    ? assignmentLevelLabels({ lUpper: q.lUpper ?? 0, lLower: q.lLower ?? 0, tagUpper: q.tagUpper ?? '', tagLower: q.tagLower ?? '' })
+    : {};
+  const sym = transitionSymmetryText(levels);
+  const label = quantaLabel(q, s.model.shape) + (sym ? ` ${sym}` : '') + (ref ? ` (${ref.band}, ${ref.species})` : '');
   const newId = `a${s.nextAssignmentNumber}`;
   let id = newId;
   benchUpdate(
@@ -201,7 +215,7 @@ export function assignToPeak(q: TransitionQuanta & { band?: string; species?: st
       const quanta = { jUpper: q.jUpper, kUpper: q.kUpper, jLower: q.jLower, kLower: q.kLower };
       const r = assignmentsAdd(
         st.assignments,
-        { ...quanta, ...(ref ?? {}), observedCm1: target.peakCm1, peakId: target.peakId, uncertaintyCm1 },
+        { ...quanta, ...(ref ?? {}), ...levels, observedCm1: target.peakCm1, peakId: target.peakId, uncertaintyCm1 },
         newId,
       );
       id = r.id;
@@ -279,13 +293,17 @@ export function traceClickAt(positionCm1: number, toleranceCm1: number): void {
  * A click on a rung: with a candidate list open, assign the rung to that peak; otherwise select
  * the rung (clicking the selected rung again deselects it).
  */
-export function rungClick(q: TransitionQuanta & { band?: string; species?: string }): void {
+export function rungClick(q: TransitionQuanta & AssignmentLineRef): void {
   const s = benchStore.getState();
   if (s.candidateTarget) {
     assignToPeak(q, s.candidateTarget);
     return;
   }
-  const same = s.cursor && quantaKey(s.cursor) === quantaKey(q);
+  const same =
+    s.cursor &&
+    quantaKey(s.cursor) === quantaKey(q) &&
+    (s.cursor as AssignmentLineRef).tagUpper === q.tagUpper &&
+    (s.cursor as AssignmentLineRef).tagLower === q.tagLower;
   benchUpdate('select rung', () => ({ cursor: same ? null : { ...q } }), { history: false });
 }
 

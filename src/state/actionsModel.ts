@@ -1,11 +1,12 @@
 /**
  * Model edits (all enter undo history; typing in one field is one step).
  */
+import { inputJsonParse, INPUT_LIMITS } from '../io/inputLimits';
 import { modelAllowedParameters, modelFileParse, type ModelFile } from '../io/modelFile';
 import { bandTypeFromSymmetry } from '../physics/bandSymmetry';
 import { wavenumberToMhz } from '../physics/constants';
 import type { BandModel, BandType, ParameterName, TopShape } from '../physics/model';
-import { systemFileDetect, systemFileParse, type SystemFile } from '../io/systemFile';
+import { modelFileNeedsSystem, systemFileDetect, systemFileFromModelJson, systemFileParse, type SystemFile } from '../io/systemFile';
 import { systemLoad } from './actionsSystem';
 import { systemSliceInitial } from './systemSlice';
 import { benchUpdate, messagePost } from './actionsCore';
@@ -190,6 +191,9 @@ export function modelReplace(file: Pick<ModelFile, 'model' | 'floated' | 'name' 
  */
 export function modelLoadText(text: string, fileName: string): boolean {
   if (isSystemFileText(text)) return systemLoadText(text, fileName);
+  // A model file with keys only the system engine holds (pointGroup, q22, inv…, qJ) opens as a
+  // one-band system, as the command line reads it, rather than being refused.
+  if (isModelNeedingSystem(text)) return systemLoadText(text, fileName, true);
   let file: ModelFile;
   try {
     file = modelFileParse(text);
@@ -212,16 +216,29 @@ function isSystemFileText(text: string): boolean {
   }
 }
 
+/** True when a model file's text is a single-band model file that needs the system engine (io/systemFile modelFileNeedsSystem). */
+function isModelNeedingSystem(text: string): boolean {
+  const parsed = inputJsonParse(text, INPUT_LIMITS.maxModelFileChars);
+  return parsed.ok && modelFileNeedsSystem(parsed.value);
+}
+
 /**
  * Read a system file (several bands, species) and make it the session's model.
+ * @param isModelFile a single-band model file read as a one-band system (keys upper.*, lower.*)
  * @returns true when loaded; on failure a message names the field and nothing changes
  */
-function systemLoadText(text: string, fileName: string): boolean {
+function systemLoadText(text: string, fileName: string, isModelFile = false): boolean {
   let file: SystemFile;
   try {
-    file = systemFileParse(text);
+    if (isModelFile) {
+      const parsed = inputJsonParse(text, INPUT_LIMITS.maxModelFileChars);
+      file = systemFileFromModelJson(parsed.ok ? parsed.value : null);
+    } else file = systemFileParse(text);
   } catch (err) {
-    messagePost('error', `Could not read the system file ${fileName}: ${(err as Error).message}. The current model is unchanged.`);
+    messagePost(
+      'error',
+      `Could not read the ${isModelFile ? 'model' : 'system'} file ${fileName}: ${(err as Error).message}. The current model is unchanged.`,
+    );
     return false;
   }
   const floated = file.parameters.filter((p) => p.status === 'floated').map((p) => p.key);
@@ -230,7 +247,12 @@ function systemLoadText(text: string, fileName: string): boolean {
   if (!systemLoad({ system: file.model, floated, ties, name: fileName }, `load system ${fileName}`)) return false;
   for (const w of file.warnings) messagePost('warning', `${fileName}: ${w}`);
   const nBands = file.model.species.reduce((n, sp) => n + sp.bands.length, 0);
-  messagePost('info', `System loaded from ${fileName}: ${file.model.species.length} species, ${nBands} bands.`);
+  messagePost(
+    'info',
+    isModelFile
+      ? `Model loaded from ${fileName} as a one-band system (its symmetry or Hamiltonian constants need the system engine).`
+      : `System loaded from ${fileName}: ${file.model.species.length} species, ${nBands} bands.`,
+  );
   return true;
 }
 

@@ -15,6 +15,11 @@ export interface AssignmentDraft extends TransitionQuanta {
   /** Band and species in a several-band session (the same quanta in two bands are two lines). */
   band?: string;
   species?: string;
+  /** Level labels of a several-band line (A1/A2, s/a tags; ±l) where J and K leave a choice. */
+  lUpper?: -1 | 0 | 1;
+  lLower?: -1 | 0 | 1;
+  tagUpper?: string;
+  tagLower?: string;
 }
 
 /** Identifier of a peak at a position: its centre to 1e-5 cm^-1. */
@@ -46,7 +51,11 @@ export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDra
       a.jLower === draft.jLower &&
       a.kLower === draft.kLower &&
       a.band === draft.band &&
-      a.species === draft.species,
+      a.species === draft.species &&
+      a.tagUpper === draft.tagUpper &&
+      a.tagLower === draft.tagLower &&
+      a.lUpper === draft.lUpper &&
+      a.lLower === draft.lLower,
   );
   let out: Assignment[];
   let resultId: string;
@@ -80,6 +89,10 @@ export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDra
         note: '',
         ...(draft.peakId !== undefined ? { peakId: draft.peakId } : {}),
         ...(draft.band !== undefined && draft.species !== undefined ? { band: draft.band, species: draft.species } : {}),
+        ...(draft.lUpper !== undefined ? { lUpper: draft.lUpper } : {}),
+        ...(draft.lLower !== undefined ? { lLower: draft.lLower } : {}),
+        ...(draft.tagUpper !== undefined ? { tagUpper: draft.tagUpper } : {}),
+        ...(draft.tagLower !== undefined ? { tagLower: draft.tagLower } : {}),
       },
     ];
   }

@@ -28,6 +28,13 @@ export interface Candidate extends TransitionQuanta {
   /** Band and species of the line in a several-band session. */
   band?: string;
   species?: string;
+  /** Level labels in a several-band session (state/systemLevelLabels.ts), where the band leaves a choice or a point group is declared. */
+  lUpper?: -1 | 0 | 1;
+  lLower?: -1 | 0 | 1;
+  tagUpper?: string;
+  tagLower?: string;
+  /** The levels' symmetry as shown ("A2 ← A1"), '' or absent when unknown. */
+  symmetryText?: string;
 }
 
 /** Options of candidatesRank. */

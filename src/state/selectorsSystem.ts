@@ -9,6 +9,7 @@ import type { LineList } from '../physics/model';
 import type { SystemModel } from '../physics/system/systemModel';
 import { memoLast } from './memo';
 import type { BandModel } from '../physics/model';
+import { lineLevelLabel, lineLevelLabelsSubset, type LineLevelLabel, type LineLevelLabels } from './systemLevelLabels';
 import { predictedBandCompute, selectBand, type PredictedBand } from './selectors';
 import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
 import { bandKeyOfLine, type SystemBandEntry } from './systemBands';
@@ -24,6 +25,8 @@ export interface DrawnBands extends PredictedBand {
   bandCount: Int32Array | null;
   /** Each band's own ladders (indices into `lines`), by band index; [] for bands switched off. */
   bandLadders: Ladder[][] | null;
+  /** Level labels of each line (l, tag, symmetry species); null in a single-band session. */
+  levels: LineLevelLabels | null;
 }
 
 function lineListSubset(all: LineList, idx: Int32Array): LineList {
@@ -61,6 +64,7 @@ const drawnOf = memoLast((pred: SystemPrediction, hiddenBands: readonly string[]
     bandStart: new Int32Array(nBands),
     bandCount: new Int32Array(nBands),
     bandLadders: entries.map(() => []),
+    levels: null,
   });
   if (!all) return empty(pred.error);
   const hidden = new Set(hiddenBands);
@@ -118,6 +122,7 @@ const drawnOf = memoLast((pred: SystemPrediction, hiddenBands: readonly string[]
     bandStart,
     bandCount: counts,
     bandLadders: perBand,
+    levels: lineLevelLabelsSubset(all, idx),
   };
 });
 
@@ -142,6 +147,7 @@ const singleDrawn = memoLast((band: PredictedBand): DrawnBands => ({
   bandStart: null,
   bandCount: null,
   bandLadders: null,
+  levels: null,
 }));
 
 /** The drawn lines: every band switched on (several-band session) or the one band. */
@@ -225,3 +231,39 @@ const loomisBandSelect = memoLast(
     return { band: loomisBandOf(chosen.view, minIntensity), key: chosen.key, ref, isFollowing: false, whyNot: null };
   },
 );
+
+const assignmentLevels = memoLast(
+  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): (LineLevelLabel | null)[] => {
+    const { levels, entries, bandOfLine, lines } = drawn;
+    if (!levels || !entries || !bandOfLine) return assignments.map(() => null);
+    const byKey = new Map<string, number[]>();
+    for (let i = 0; i < lines.count; i++) {
+      const key = `${entries[bandOfLine[i]].key}|${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`;
+      const list = byKey.get(key);
+      if (list) list.push(i);
+      else byKey.set(key, [i]);
+    }
+    return assignments.map((a) => {
+      const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
+      if (!list) return null;
+      const fits = list.filter(
+        (i) =>
+          (a.tagUpper === undefined || levels.tagUpper[i] === a.tagUpper) &&
+          (a.tagLower === undefined || levels.tagLower[i] === a.tagLower) &&
+          (a.lUpper === undefined || levels.lUpper[i] === a.lUpper) &&
+          (a.lLower === undefined || levels.lLower[i] === a.lLower),
+      );
+      // Only a line the row names alone: a row J and K leave open (an untagged row of a split pair) shows no symmetry.
+      return fits.length === 1 ? lineLevelLabel(levels, fits[0]) : null;
+    });
+  },
+);
+
+/**
+ * The level labels (tags, symmetry species) of the drawn line each assignment names, parallel to
+ * the assignments; null where the row's band is switched off, the line is not drawn or J and K
+ * leave a choice the row does not settle (and in a single-band session).
+ */
+export function selectAssignmentLevels(s: BenchState): (LineLevelLabel | null)[] {
+  return assignmentLevels(s.assignments, selectDrawnBands(s), s.activeBandKey);
+}

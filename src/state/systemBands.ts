@@ -4,9 +4,11 @@
  * back into the system. No store, no React.
  */
 import type { SystemParameter } from '../fit/systemFitTypes';
-import { systemAllowedParameters } from '../io/systemFile';
+import { systemAllowedParameters, systemSymmetryAllowedParameters } from '../io/systemFile';
+import { interactionStateAllowed } from '../io/systemInteractions';
+import { interactionParameterNames } from '../physics/interaction/interactionTerms';
 import { PARAMETER_NAMES, stateConstantsFrom, type BandModel, type StateConstants } from '../physics/model';
-import type { SystemModel, SystemSpecies, SystemState } from '../physics/system/systemModel';
+import type { SystemInteraction, SystemModel, SystemSpecies, SystemState } from '../physics/system/systemModel';
 
 /** One band of a system as the page lists it. */
 export interface SystemBandEntry {
@@ -112,10 +114,30 @@ export function systemBandEntries(system: SystemModel): SystemBandEntry[] {
   return out;
 }
 
-/** Constants a state carries in a fit (systemAllowedParameters less the species' zero origin). */
-function stateParamNames(sp: SystemSpecies, st: SystemState): string[] {
+/**
+ * Constants a state uses, as the system file allows them (io/systemFile.ts): a state joined by an
+ * interaction or a nondegenerate one giving h3 takes the diagonalising providers' set, a state of a
+ * species with a point group the effective Hamiltonian's, else the closed form's; less the
+ * species' zero origin.
+ */
+export function systemStateConstantNames(sp: SystemSpecies, st: SystemState): string[] {
   const lowest = sp.states.reduce((a, b) => (originOf(b) < originOf(a) ? b : a), sp.states[0]);
-  return systemAllowedParameters(sp.shape, st.isDegenerate).filter((n) => n !== 'origin' || st !== lowest);
+  const isCoupled = (sp.interactions ?? []).some((it) => it.states.includes(st.name)) || (!st.isDegenerate && 'h3' in st.constants);
+  const allowed =
+    isCoupled && sp.shape !== 'linear'
+      ? interactionStateAllowed(sp.shape, st.isDegenerate)
+      : st.symmetry && sp.shape !== 'linear'
+        ? systemSymmetryAllowedParameters(sp.shape, st.isDegenerate, st.symmetry)
+        : systemAllowedParameters(sp.shape, st.isDegenerate);
+  return allowed.filter((n) => n !== 'origin' || st !== lowest);
+}
+
+/** Constants an interaction of a species carries (physics/interaction/interactionTerms.ts), [] when its states are not found. */
+export function systemInteractionConstantNames(sp: SystemSpecies, it: SystemInteraction): string[] {
+  const [a, b] = it.states.map((n) => sp.states.find((st) => st.name === n));
+  if (!a || !b) return [];
+  const names = interactionParameterNames(it.type, a.isDegenerate, b.isDegenerate);
+  return typeof names === 'string' ? [] : names;
 }
 
 /**
@@ -131,8 +153,13 @@ export function systemParameters(
   const isFloated = new Set(floated);
   const out: SystemParameter[] = [];
   system.species.forEach((sp, speciesIndex) => {
-    for (const st of sp.states) {
-      for (const name of stateParamNames(sp, st)) {
+    const owners: { name: string; constants: Record<string, number>; names: string[] }[] = [
+      ...sp.states.map((st) => ({ name: st.name, constants: st.constants, names: systemStateConstantNames(sp, st) })),
+      // Interaction constants have keys "<interaction>.<constant>", like a state's.
+      ...(sp.interactions ?? []).map((it) => ({ name: it.name, constants: it.constants, names: systemInteractionConstantNames(sp, it) })),
+    ];
+    for (const st of owners) {
+      for (const name of st.names) {
         const key = systemParamKey(system, speciesIndex, st.name, name);
         const same = ties[key];
         const p: SystemParameter = {
@@ -217,7 +244,7 @@ export function systemApplyView(
   const floatedSet = new Set(floated);
   const write = (st: SystemState, side: 'upper' | 'lower'): SystemState => {
     const constants: Record<string, number> = { ...st.constants };
-    for (const name of stateParamNames(sp, st)) {
+    for (const name of systemStateConstantNames(sp, st)) {
       if (!(PARAMETER_NAMES as readonly string[]).includes(name)) continue;
       if (side === 'lower' && name === 'origin') continue;
       const key = systemParamKey(system, entry.speciesIndex, st.name, name);
@@ -249,10 +276,15 @@ export function systemFloatedDefault(system: SystemModel): string[] {
   const out: string[] = [];
   system.species.forEach((sp, i) => {
     const lowest = sp.states.reduce((a, b) => (originOf(b) < originOf(a) ? b : a), sp.states[0]);
-    for (const st of sp.states) {
-      for (const name of stateParamNames(sp, st)) {
+    const owners: { name: string; constants: Record<string, number>; names: string[] }[] = [
+      ...sp.states.map((st) => ({ name: st.name, constants: st.constants, names: systemStateConstantNames(sp, st) })),
+      // Interaction constants have keys "<interaction>.<constant>", like a state's.
+      ...(sp.interactions ?? []).map((it) => ({ name: it.name, constants: it.constants, names: systemInteractionConstantNames(sp, it) })),
+    ];
+    for (const st of owners) {
+      for (const name of st.names) {
         if ((st.constants[name] ?? 0) === 0) continue;
-        if (st === lowest && (name === 'A' || name === 'C')) continue;
+        if (st.name === lowest.name && (name === 'A' || name === 'C')) continue;
         if (name.startsWith('H') || name === 'DK') continue;
         out.push(systemParamKey(system, i, st.name, name));
       }
@@ -263,13 +295,14 @@ export function systemFloatedDefault(system: SystemModel): string[] {
 
 /**
  * The current value of a constant named by its fit key ("state.B" or "species/state.B"), NaN when
- * the system has no such state (cm^-1; ζ dimensionless; an absent constant is 0).
+ * the system has no such state or interaction (cm^-1; ζ dimensionless; an absent constant is 0).
  */
 export function systemValueOf(system: SystemModel, key: string): number {
   const slash = key.indexOf('/');
   const sp = slash >= 0 ? system.species.find((x) => x.name === key.slice(0, slash)) : system.species[0];
   const rest = key.slice(slash + 1);
   const dot = rest.lastIndexOf('.');
-  const st = sp?.states.find((x) => x.name === rest.slice(0, dot));
+  const owner = rest.slice(0, dot);
+  const st = sp?.states.find((x) => x.name === owner) ?? sp?.interactions?.find((x) => x.name === owner);
   return st ? (st.constants[rest.slice(dot + 1)] ?? 0) : NaN;
 }

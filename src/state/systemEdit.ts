@@ -26,6 +26,30 @@ export function systemSetConstant(system: SystemModel, speciesIndex: number, sta
   };
 }
 
+/** Set a constant (cm^-1) of an interaction of a species (the system is not changed in place). */
+export function systemSetInteractionConstant(
+  system: SystemModel,
+  speciesIndex: number,
+  interaction: string,
+  name: string,
+  value: number,
+): SystemModel {
+  if (!Number.isFinite(value)) throw new Error(`${name} of ${interaction} must be a finite number, got ${value}`);
+  return {
+    ...system,
+    species: system.species.map((sp, i) =>
+      i !== speciesIndex || !sp.interactions
+        ? sp
+        : {
+            ...sp,
+            interactions: sp.interactions.map((it) =>
+              it.name === interaction ? { ...it, constants: { ...it.constants, [name]: value } } : it,
+            ),
+          },
+    ),
+  };
+}
+
 /** Set a species' relative abundance (>= 0) or mass (amu, > 0). */
 export function systemSetSpecies(system: SystemModel, speciesIndex: number, field: 'abundance' | 'massAmu', value: number): SystemModel {
   if (field === 'abundance' && !(Number.isFinite(value) && value >= 0))

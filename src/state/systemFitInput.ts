@@ -67,10 +67,11 @@ export function systemFitInputOf(
       kUpper: a.kUpper,
       jLower: a.jLower,
       kLower: a.kLower,
-      lUpper: null,
-      lLower: null,
-      tagUpper: null,
-      tagLower: null,
+      // The labels an assignment kept (A1/A2, s/a, ±l) decide between the lines J and K leave open.
+      lUpper: a.lUpper ?? null,
+      lLower: a.lLower ?? null,
+      tagUpper: a.tagUpper ?? null,
+      tagLower: a.tagLower ?? null,
     });
     if (!r.ok) {
       bad.push(`${label} of ${e.band} (${e.species}): ${r.message}`);
@@ -107,12 +108,19 @@ export function systemWithFitted(
   parameters: Record<string, { value: number; fixed: boolean }>,
 ): SystemModel {
   const where = new Map(systemParameters(system, floated, ties).map((p) => [p.key, p]));
-  const species = system.species.map((sp) => ({ ...sp, states: sp.states.map((st) => ({ ...st, constants: { ...st.constants } })) }));
+  const species = system.species.map((sp) => ({
+    ...sp,
+    states: sp.states.map((st) => ({ ...st, constants: { ...st.constants } })),
+    ...(sp.interactions ? { interactions: sp.interactions.map((it) => ({ ...it, constants: { ...it.constants } })) } : {}),
+  }));
   for (const [key, p] of Object.entries(parameters)) {
     const w = where.get(key);
     if (!w || p.fixed || !Number.isFinite(p.value)) continue;
-    const st = species[w.speciesIndex].states.find((x) => x.name === w.state);
-    if (st) st.constants[w.name] = p.value;
+    // The owner is a state or an interaction (keys "<interaction>.<constant>").
+    const owner =
+      species[w.speciesIndex].states.find((x) => x.name === w.state) ??
+      species[w.speciesIndex].interactions?.find((x) => x.name === w.state);
+    if (owner) owner.constants[w.name] = p.value;
   }
   return systemTiesApply({ ...system, species }, ties);
 }

@@ -4,6 +4,7 @@
  * checked against the system's selection rules (fit/systemLineResolve), refused by line number.
  */
 import type { Assignment } from '../fit/assignment';
+import { assignmentLevelLabels } from './systemLevelLabels';
 import { systemLineResolve } from '../fit/systemLineResolve';
 import type { SystemLineTable } from '../io/systemLineTable';
 import type { SystemModel } from '../physics/system/systemModel';
@@ -32,7 +33,8 @@ export function systemTableAssignments(
       return;
     }
     const { band: _b, species: _s, lUpper: _lu, lLower: _ll, tagUpper: _tu, tagLower: _tl, unit: _u, ...a } = row;
-    kept.push({ ...a, band: r.line.band, species: system.species[r.line.speciesIndex].name });
+    // The resolved levels' labels are kept, so a split A1/A2 pair or an s/a pair stays told apart in the joint fit.
+    kept.push({ ...a, band: r.line.band, species: system.species[r.line.speciesIndex].name, ...assignmentLevelLabels(r.line) });
   });
   return { kept, refused };
 }

@@ -8,6 +8,8 @@ import { benchUpdate } from '../state/actionsCore';
 import { viewSetTableQuery } from '../state/actionsView';
 import { quantaLabel, selectAssignmentRows, type AssignmentRow } from '../state/selectors';
 import { useBench } from '../state/store';
+import { selectAssignmentLevels } from '../state/selectorsSystem';
+import { transitionSymmetryText } from '../state/systemLevelLabels';
 import { tableRowsQueryMemo } from '../state/tableQuery';
 import type { TableQuery } from '../state/viewSlice';
 import { LineLabel } from './LineLabel';
@@ -63,8 +65,11 @@ const Row = memo(function Row({
   onCheck,
   shape,
   top,
+  symmetry,
 }: {
   r: AssignmentRow;
+  /** The levels' symmetry ("A2 ← A1"), '' when unknown. */
+  symmetry: string;
   isSelected: boolean;
   /** Ticked for "delete selected". */
   isChecked: boolean;
@@ -99,6 +104,11 @@ const Row = memo(function Row({
       </span>
       <span role="cell" className="c-label">
         <LineLabel q={quanta(r)} shape={shape} />
+        {symmetry && (
+          <span className="sym-tag" title="level symmetry, upper ← lower" data-testid="row-sym">
+            {symmetry}
+          </span>
+        )}
         {a.band !== undefined && (
           <span className="band-tag" title={`band ${a.band} of ${a.species ?? ''}`} data-testid="row-band">
             {a.band}
@@ -241,6 +251,13 @@ function Filters() {
 
 export function AssignmentsTable() {
   const rows = useBench(selectAssignmentRows);
+  const assignments = useBench((s) => s.assignments);
+  const levels = useBench(selectAssignmentLevels);
+  // Tags the row was assigned with (A1/A2, s/a), else the species of the one line it names.
+  const symmetryById = useMemo(
+    () => new Map(assignments.map((a, i) => [a.id, transitionSymmetryText({ ...levels[i], tagUpper: a.tagUpper, tagLower: a.tagLower })])),
+    [assignments, levels],
+  );
   const q = useBench((s) => s.tableQuery);
   const selectedId = useBench((s) => s.selectedAssignmentId);
   const shape = useBench((s) => s.model.shape);
@@ -372,6 +389,7 @@ export function AssignmentsTable() {
                   onCheck={onCheck}
                   shape={shape}
                   top={v.start}
+                  symmetry={symmetryById.get(shown[v.index].a.id) ?? ''}
                 />
               ))}
             </div>

@@ -78,7 +78,7 @@ export function CandidateList() {
                     type="button"
                     className="assign-btn"
                     onClick={() => candidateAssign(n)}
-                    aria-label={`Assign ${c.labelAscii}${c.band !== undefined ? ` of ${c.band} (${c.species})` : ''} (key ${n + 1})`}
+                    aria-label={`Assign ${c.labelAscii}${c.symmetryText ? ` ${c.symmetryText}` : ''}${c.band !== undefined ? ` of ${c.band} (${c.species})` : ''} (key ${n + 1})`}
                     data-testid={`candidate-${n}`}
                   >
                     {n + 1}
@@ -86,6 +86,11 @@ export function CandidateList() {
                 </td>
                 <td>
                   <LineLabel q={c} shape={shape} />
+                  {c.symmetryText && (
+                    <span className="sym-tag" title="level symmetry, upper ← lower" data-testid={`candidate-sym-${n}`}>
+                      {c.symmetryText}
+                    </span>
+                  )}
                   {c.band !== undefined && (
                     <span className="band-tag" data-testid={`candidate-band-${n}`}>
                       {c.band}·{c.species}

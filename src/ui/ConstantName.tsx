@@ -8,6 +8,7 @@ export function ConstantName({ constantKey }: { constantKey: string }) {
       {p.symbol}
       {p.subscript && <sub>{p.subscript}</sub>}
       {p.prime}
+      {p.owner && <span className="muted"> ({p.owner})</span>}
     </span>
   );
 }

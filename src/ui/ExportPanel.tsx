@@ -1,4 +1,5 @@
 /** Downloads: assigned line table, fit report, simulated lines and spectrum, model file, whole project. */
+import { selectAssignmentLevels } from '../state/selectorsSystem';
 import { lineTableSerialize } from '../io/lineTable';
 import { simulatedLinesCsv, spectrumCsv } from '../io/exportCsv';
 import { exportStem } from '../io/exportName';
@@ -32,12 +33,18 @@ export function exportLineTable(): void {
   guard('line table', () => {
     const s = benchStore.getState();
     const rows = selectAssignmentRows(s);
+    const levels = selectAssignmentLevels(s);
+    const hasSymmetry = s.system?.species.some((sp) => sp.pointGroup) ?? false;
     const text = lineTableSerialize(s.assignments, {
       shape: s.model.shape,
       calcCm1: rows.map((r) => r.calcCm1),
       isOutlier: rows.map((r) => r.isOutlier),
       // Several bands: every row names its band and species (io/systemLineTable.ts reads them back).
       hasBandColumns: s.system !== null,
+      // Level labels (A1/A2, s/a, ±l) so a split pair reads back as the same lines; species where a point group is declared.
+      // (only where some row or species has them, so a plain several-band table keeps its columns).
+      hasLevelColumns: hasSymmetry || s.assignments.some((a) => a.tagUpper || a.tagLower || a.lUpper || a.lLower),
+      ...(hasSymmetry ? { symmetryOf: (i: number) => levels[i] } : {}),
     });
     downloadText(`${stem()}-assignments.csv`, text, 'text/csv');
   });

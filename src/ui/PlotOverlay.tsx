@@ -4,6 +4,7 @@
  * shows a tooltip for what is under the pointer; turns clicks into rung, peak and trace clicks,
  * and a double-click into one zoom-out gesture. No decisions of its own.
  */
+import type { LineLevelLabel } from '../state/systemLevelLabels';
 import { useEffect, useImperativeHandle, useRef, type Ref } from 'react';
 import { lineLabelAscii } from '../physics/lineLabel';
 import { plotClickBegin, plotClickTakeBack } from '../state/actionsAssign';
@@ -42,6 +43,8 @@ export interface PlotOverlayProps {
   peaks: PeakLayer | null;
   isDark: boolean;
   onRungClick: (lineIndex: number) => void;
+  /** A line's level labels (tags, symmetry species) for the tooltip; absent in a single-band session. */
+  levelsOf?: (lineIndex: number) => LineLevelLabel | null;
   onPeakClick: (peakIndex: number) => void;
   /** A click in the trace panel away from any marker: position (cm^-1) and visible width (cm^-1). */
   onTraceClick: (positionCm1: number, visibleWidthCm1: number) => void;
@@ -194,7 +197,7 @@ export function PlotOverlay(props: PlotOverlayProps) {
         const hit = ladderHitTest(p.scene, p.markers, views.ladder, x, y);
         if (hit)
           return {
-            html: ladderTipHtml(hit, p.markers, p.lines, p.shape, hit.lineIndex === p.cursorLine),
+            html: ladderTipHtml(hit, p.markers, p.lines, p.shape, hit.lineIndex === p.cursorLine, p.levelsOf),
             xPx: hit.xPx,
             yPx: hit.yPx,
             act: () => p.onRungClick(hit.lineIndex),

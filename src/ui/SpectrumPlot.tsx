@@ -23,6 +23,7 @@ import { peakLayerBase, peakLayerBuild } from './plot/peakLayer';
 import { spectrumFigure } from './plot/toTraces';
 import { PlotlyChart } from './PlotlyChart';
 import { PlotOverlay, type PlotOverlayHandle } from './PlotOverlay';
+import { assignmentLevelLabels, lineLevelLabel } from '../state/systemLevelLabels';
 import { PlotToolbar } from './PlotToolbar';
 
 let relayoutFrame = 0;
@@ -87,7 +88,8 @@ function onRungLine(lineIndex: number): void {
       return;
     }
   }
-  rungClick({ ...q, band: e.band, species: e.species });
+  const levels = drawn.levels ? assignmentLevelLabels(lineLevelLabel(drawn.levels, lineIndex)) : {};
+  rungClick({ ...q, band: e.band, species: e.species, ...levels });
 }
 
 /** The ladder rows of the drawn bands (several-band session), or null for one band. */
@@ -139,6 +141,11 @@ export function SpectrumPlot() {
   }, [rowsA, scene, drawn, activeBandKey]);
   const cursorKey = cursor ? `${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}` : '';
   const cursorLine = cursor ? (drawn.indexOf.get(drawn.entries ? `${activeBandKey}|${cursorKey}` : cursorKey) ?? -1) : -1;
+  const levels = drawn.levels;
+  const levelsOf = useMemo(
+    () => (levels ? (i: number) => (i >= 0 && i < levels.tagUpper.length ? lineLevelLabel(levels, i) : null) : undefined),
+    [levels],
+  );
   const overlayRef = useRef<PlotOverlayHandle>(null);
   const assignedPeaks = useMemo(() => {
     const m = new Map<string, string>();
@@ -236,6 +243,7 @@ export function SpectrumPlot() {
           peaks={peakLayer}
           isDark={isDark}
           onRungClick={onRungLine}
+          levelsOf={levelsOf}
           onPeakClick={peakClick}
           // Look for a peak within 1 % of the visible width (at least 0.01 cm^-1) of the click.
           onTraceClick={(nu, widthCm1) => traceClickAt(nu, Math.max(0.01, 0.01 * widthCm1))}

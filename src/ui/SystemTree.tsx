@@ -14,15 +14,127 @@ import {
   systemAddIsotopologue,
   systemKeyWithSpecies,
   systemSetConstant,
+  systemSetInteractionConstant,
   systemSetSpecies,
   isotopologueFactorDefault,
 } from '../state/systemEdit';
 import { systemEntriesOf } from '../state/systemSync';
+import { systemInteractionConstantNames, systemParamKey, systemStateConstantNames } from '../state/systemBands';
+import { constantNameText } from '../io/constantName';
+import type { SystemInteraction, SystemSpecies, SystemState } from '../physics/system/systemModel';
 import { NumberField } from './NumberField';
 import { bandColour } from './plot/plotColours';
 
-/** Constants shown per state in the tree (the rest are edited in the table below, for the active band). */
-const TREE_CONSTANTS = ['origin', 'B', 'A', 'C', 'zeta'] as const;
+/** Constants shown per state whether given or not; every other constant the state uses is shown when the model gives it. */
+const TREE_CONSTANTS: readonly string[] = ['origin', 'B', 'A', 'C', 'zeta'];
+
+/** A constant's field label: its name and state ("q_22 of v4"); the origin is the state's term value G. */
+function fieldLabel(name: string, owner: string): string {
+  return `${name === 'origin' ? 'G' : constantNameText(name)} of ${owner}`;
+}
+
+/** A constant's unit in the tree (cm⁻¹ throughout; ζ has none). */
+function fieldUnit(name: string): string {
+  return name === 'zeta' ? '' : 'cm⁻¹';
+}
+
+/**
+ * The constants of a state: the main ones and every other one the model gives it (q22, ηJ, h3, …);
+ * the rest of what its Hamiltonian takes under "more", at 0.
+ */
+function StateConstants({ speciesIndex, species, state }: { speciesIndex: number; species: SystemSpecies; state: SystemState }) {
+  const system = useBench((s) => s.system)!;
+  const floated = useBench((s) => s.systemFloated);
+  const names = systemStateConstantNames(species, state);
+  const isFloated = new Set(floated);
+  // A constant the file leaves at 0 and fixed plays no part; it waits under "more".
+  const shown = names.filter(
+    (n) =>
+      TREE_CONSTANTS.includes(n) || (state.constants[n] ?? 0) !== 0 || isFloated.has(systemParamKey(system, speciesIndex, state.name, n)),
+  );
+  const rest = names.filter((n) => !shown.includes(n));
+  const field = (n: string) => (
+    <NumberField
+      key={n}
+      label={fieldLabel(n, state.name)}
+      className="narrow"
+      unit={fieldUnit(n)}
+      value={state.constants[n] ?? 0}
+      testId={`const-${species.name}-${state.name}-${n}`}
+      onCommit={(v) =>
+        systemEdit(
+          `edit ${species.name} ${state.name}.${n}`,
+          (s) => ({ system: systemSetConstant(s.system!, speciesIndex, state.name, n, v) }),
+          {
+            coalesce: true,
+          },
+        )
+      }
+    />
+  );
+  return (
+    <>
+      <span className="tree-fields">{shown.map(field)}</span>
+      {rest.length > 0 && (
+        <details className="sub tree-more">
+          <summary>more constants of {state.name}</summary>
+          <span className="tree-fields">{rest.map(field)}</span>
+        </details>
+      )}
+    </>
+  );
+}
+
+/** An interaction of a species with the constants it uses (the others its type takes under "more", at 0). */
+function InteractionRow({
+  speciesIndex,
+  species,
+  interaction,
+}: {
+  speciesIndex: number;
+  species: SystemSpecies;
+  interaction: SystemInteraction;
+}) {
+  const system = useBench((s) => s.system)!;
+  const floated = useBench((s) => s.systemFloated);
+  const isFloated = new Set(floated);
+  const all = systemInteractionConstantNames(species, interaction);
+  const isUsed = (n: string) =>
+    (interaction.constants[n] ?? 0) !== 0 || isFloated.has(systemParamKey(system, speciesIndex, interaction.name, n));
+  const names = all.filter(isUsed);
+  const rest = all.filter((n) => !isUsed(n));
+  const field = (n: string) => (
+    <NumberField
+      key={n}
+      label={fieldLabel(n, interaction.name)}
+      className="narrow"
+      unit="cm⁻¹"
+      value={interaction.constants[n] ?? 0}
+      testId={`const-${species.name}-${interaction.name}-${n}`}
+      onCommit={(v) =>
+        systemEdit(
+          `edit ${species.name} ${interaction.name}.${n}`,
+          (s) => ({ system: systemSetInteractionConstant(s.system!, speciesIndex, interaction.name, n, v) }),
+          { coalesce: true },
+        )
+      }
+    />
+  );
+  return (
+    <li data-interaction={interaction.name}>
+      <span className="tree-state">
+        {interaction.name}: {interaction.type === 'coriolis' ? 'Coriolis' : 'Fermi'} {interaction.states[0]} ↔ {interaction.states[1]}
+      </span>
+      <span className="tree-fields">{names.map(field)}</span>
+      {rest.length > 0 && (
+        <details className="sub tree-more">
+          <summary>more constants of {interaction.name}</summary>
+          <span className="tree-fields">{rest.map(field)}</span>
+        </details>
+      )}
+    </li>
+  );
+}
 
 function AddIsotopologue() {
   const system = useBench((s) => s.system)!;
@@ -222,28 +334,24 @@ export function SystemTree() {
                     {st.name}
                     {st.isDegenerate ? ' (degenerate)' : ''}
                   </span>
-                  <span className="tree-fields">
-                    {TREE_CONSTANTS.filter((n) => n in st.constants && (n !== 'origin' || (st.constants.origin ?? 0) !== 0)).map((n) => (
-                      <NumberField
-                        key={n}
-                        label={`${n === 'zeta' ? 'ζ' : n === 'origin' ? 'G' : n} of ${st.name}`}
-                        className="narrow"
-                        value={st.constants[n]}
-                        onCommit={(v) =>
-                          systemEdit(
-                            `edit ${sp.name} ${st.name}.${n}`,
-                            (s) => ({ system: systemSetConstant(s.system!, si, st.name, n, v) }),
-                            {
-                              coalesce: true,
-                            },
-                          )
-                        }
-                      />
-                    ))}
-                  </span>
+                  {st.symmetry && (
+                    <span className="muted" data-testid="state-symmetry">
+                      {' '}
+                      {st.symmetry.vibSpecies}
+                      {st.symmetry.isInversionDoubled ? ', s/a pairs' : ''}
+                    </span>
+                  )}
+                  <StateConstants speciesIndex={si} species={sp} state={st} />
                 </li>
               ))}
             </ul>
+            {(sp.interactions ?? []).length > 0 && (
+              <ul>
+                {sp.interactions!.map((it) => (
+                  <InteractionRow key={it.name} speciesIndex={si} species={sp} interaction={it} />
+                ))}
+              </ul>
+            )}
             <ul>
               {sp.bands.map((b) => {
                 const key = `${sp.name}/${b.name}`;

@@ -39,7 +39,26 @@ describe('constantNameHtml and constantNameParts', () => {
   it('gives sub-scripted HTML and the parts', () => {
     expect(constantNameHtml('upper.DJK')).toBe('D<sub>JK</sub>′');
     expect(constantNameHtml('<b>')).toBe('&lt;b&gt;');
-    expect(constantNameParts('lower.HKJ')).toEqual({ symbol: 'H', subscript: 'KJ', prime: '″' });
+    expect(constantNameParts('lower.HKJ')).toEqual({ symbol: 'H', subscript: 'KJ', prime: '″', owner: '' });
+  });
+});
+
+describe('names of the interaction, h3 and inversion constants and of system keys', () => {
+  it('names the Coriolis and Fermi constants, h3 and the inversion expansion, with the state or interaction of a system key', () => {
+    // Notation: C_1, C_2 for the Δk = ±1 and ∓2 Coriolis terms and W for Fermi, as physics/interaction/interactionTerms.ts names them.
+    expect(constantNameText('v2v4.C1')).toBe('C_1 (v2v4)');
+    expect(constantNameText('C1JJ')).toBe('C_1JJ');
+    expect(constantNameText('LB-7/v2v4.C2K')).toBe('C_2K (LB-7/v2v4)');
+    expect(constantNameText('dyad.Cz')).toBe('C_z (dyad)');
+    expect(constantNameText('f.WK')).toBe('W_K (f)');
+    expect(constantNameText('ground.h3')).toBe('h_3 (ground)');
+    expect(constantNameText('upper.invB')).toBe('ΔB_inv′');
+    expect(constantNameText('upper.invDJ')).toBe('ΔD_J,inv′');
+    expect(constantNameText('upper.inv')).toBe('Δ_inv′');
+    // A key that only looks like an inversion constant stays as it is.
+    expect(constantNameText('upper.invX')).toBe('upper.invX');
+    expect(constantNameParts('v4.q22')).toEqual({ symbol: 'q', subscript: '22', prime: '', owner: 'v4' });
+    expect(constantNameHtml('a<b.C1')).toBe('C<sub>1</sub> (a&lt;b)');
   });
 });
 

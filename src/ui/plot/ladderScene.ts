@@ -5,6 +5,7 @@
  * painter takes any object with the CanvasRenderingContext2D calls it uses, and hit testing maps a
  * pointer position back to a line of the line list.
  */
+import { transitionSymmetryText, type LineLevelLabel } from '../../state/systemLevelLabels';
 import type { LineList, TopShape } from '../../physics/model';
 import type { AssignmentRow } from '../../state/selectors';
 import { ladderLabelTemplate, rungExtent, type LadderRow } from './ladderGeometry';
@@ -486,6 +487,7 @@ export function ladderHitTest(
  * @param lines line list
  * @param shape rotor shape (labels)
  * @param isSelected the rung is the selected one (adds how to assign it)
+ * @param levelsOf a line's level labels (several-band session; tags and species shown as "A2 ← A1"), null when unknown
  */
 export function ladderTipHtml(
   hit: LadderHit,
@@ -493,18 +495,26 @@ export function ladderTipHtml(
   lines: LineList,
   shape: TopShape,
   isSelected: boolean,
+  levelsOf?: (lineIndex: number) => LineLevelLabel | null,
 ): string {
+  const symText = (i: number, own?: { tagUpper?: string; tagLower?: string }): string => {
+    const lv = levelsOf?.(i);
+    if (!lv) return '';
+    // An assigned line shows the tags it was assigned with (the marker may sit on either member of an unsplit pair).
+    const t = transitionSymmetryText(own?.tagUpper || own?.tagLower ? { ...lv, tagUpper: own.tagUpper, tagLower: own.tagLower } : lv);
+    return t ? ` ${htmlEscape(t)}` : '';
+  };
   if (hit.kind === 'marker' && markers) {
     const r = markers.rows[hit.marker];
     const sig = r.omcSigma !== null ? ` (${r.omcSigma.toFixed(1)} σ)` : '';
-    return `${r.labelHtml} assigned<br>obs ${r.a.observedCm1.toFixed(4)} cm⁻¹<br>obs − calc ${r.omcCm1.toExponential(2)} cm⁻¹${sig}${r.isFar ? '<br>far from prediction' : ''}`;
+    return `${r.labelHtml}${symText(hit.lineIndex, r.a)} assigned<br>obs ${r.a.observedCm1.toFixed(4)} cm⁻¹<br>obs − calc ${r.omcCm1.toExponential(2)} cm⁻¹${sig}${r.isFar ? '<br>far from prediction' : ''}`;
   }
   const i = hit.lineIndex;
   const dk = lines.kUpper[i] - lines.kLower[i];
   const dj = lines.jUpper[i] - lines.jLower[i];
   const label = ladderLabelTemplate({ deltaK: dk, deltaJ: dj, kLower: lines.kLower[i] }, shape).replace('%{text}', String(lines.jLower[i]));
   const inten = Number(lines.intensity[i].toPrecision(3));
-  const base = `${label}<br>${lines.wavenumberCm1[i].toFixed(4)} cm⁻¹<br>rel. intensity ${inten}`;
+  const base = `${label}${symText(i)}<br>${lines.wavenumberCm1[i].toFixed(4)} cm⁻¹<br>rel. intensity ${inten}`;
   return isSelected ? `${base}<br>selected: click a peak to assign` : base;
 }
 
@@ -525,4 +535,8 @@ export function ladderStrongestInView(
   }
   if (best < 0) return null;
   return { lineIndex: scene.lineIndex[best], xPx: px(scene.nuCm1[best]), yPx: py((scene.yBottom[best] + scene.yTop[best]) / 2) };
+}
+
+function htmlEscape(text: string): string {
+  return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
 }
