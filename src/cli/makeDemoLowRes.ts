@@ -19,19 +19,11 @@ import { fileURLToPath } from 'node:url';
 import { bandLines } from '../physics/bandLines';
 import { instrumentSpectrum } from '../physics/instrumentSpectrum';
 import { stateConstantsFrom, type BandModel } from '../physics/model';
+import { makeDemoTruth } from './makeDemo';
 
-/** The invented true constants of LB-7 (cm^-1; ζ dimensionless), 296 K (same values as makeDemo.ts). */
+/** The invented true constants of LB-7 (cm^-1; ζ dimensionless), 296 K: the high-resolution demo's own. */
 export function makeDemoLowResTruth(): BandModel {
-  return {
-    shape: 'prolate',
-    band: 'perpendicular',
-    lower: stateConstantsFrom({ B: 0.29183, A: 3.4127, DJ: 2.61e-7, DJK: 2.07e-6, DK: 3.3e-5 }),
-    upper: stateConstantsFrom({ origin: 1148.6431, B: 0.29068, A: 3.3951, DJ: 2.58e-7, DJK: 2.21e-6, DK: 3.1e-5, zeta: 0.2873 }),
-    temperatureK: 296,
-    jMax: 75,
-    kMax: 22,
-    spinWeights: [4, 2, 2],
-  };
+  return makeDemoTruth();
 }
 
 /** How the low-resolution trace is made (written into lowres-truth.json under "notes"). */
