@@ -38,6 +38,7 @@
 import { ellQ12Factor, ellQ22Factor } from '../hamiltonian/degenerateStateLevels';
 import { eigenLabelsAssign } from '../hamiltonian/eigenLabels';
 import { rotorPolynomialBasis, type RotorShape } from '../hamiltonian/rotorPolynomial';
+import { coupledHigherTermElements } from './coupledHigherTerms';
 import { householderEigen } from './householderEigen';
 import { coupledStateParameterNames, interactionParameterNames, type InteractionType } from './interactionTerms';
 
@@ -523,5 +524,6 @@ function blockElements(group: CoupledGroup, J: number, x: number, p: ArrayLike<n
       }
     });
   });
+  coupledHigherTermElements(group, x, p, basis, (s, k, ell) => index.get(code(s, k, ell)), push);
   return el;
 }
