@@ -63,8 +63,10 @@ export function coupledHigherTermElements(
   push: (i: number, j: number | undefined, value: number, derivs: number[]) => void,
 ): void {
   const iEps = coupledStateParameterNames(group.shape, false).indexOf('eps');
+  // |k| <= J bounds every partner; x = J(J+1) gives J back.
+  const J = Math.round((Math.sqrt(4 * x + 1) - 1) / 2);
   basis.forEach((b, i) => {
-    if (group.states[b.state].isDegenerate) return;
+    if (group.states[b.state].isDegenerate || b.k + 3 > J) return;
     const o = group.stateOffset[b.state] + iEps;
     const f = ladder(x, b.k, 3) * (2 * b.k + 3);
     if (f !== 0) push(i, find(b.state, b.k + 3, 0), p[o] * f, [o, f]);
@@ -92,11 +94,15 @@ export function coupledHigherTermElements(
           ]);
         }
         // Δk = ±4, Δℓ = ±1 (even Δk: the same sign both ways).
-        const r4 = ladder(x, sign > 0 ? k : k - 4, 4);
-        if (r4 !== 0) push(i, find(dg, k + 4 * sign, sign), r4 * p[o + I_C4], [o + I_C4, r4]);
+        if (Math.abs(k + 4 * sign) <= J) {
+          const r4 = ladder(x, sign > 0 ? k : k - 4, 4);
+          if (r4 !== 0) push(i, find(dg, k + 4 * sign, sign), r4 * p[o + I_C4], [o + I_C4, r4]);
+        }
         // Δk = ∓5, Δℓ = ±1 (odd Δk: the sign of ℓ).
-        const r5 = sign * ladder(x, sign > 0 ? k - 5 : k, 5);
-        if (r5 !== 0) push(i, find(dg, k - 5 * sign, sign), r5 * p[o + I_C5], [o + I_C5, r5]);
+        if (Math.abs(k - 5 * sign) <= J) {
+          const r5 = sign * ladder(x, sign > 0 ? k - 5 : k, 5);
+          if (r5 !== 0) push(i, find(dg, k - 5 * sign, sign), r5 * p[o + I_C5], [o + I_C5, r5]);
+        }
       }
     });
   });
