@@ -51,6 +51,7 @@ const SYMBOLS: Record<string, [string, string]> = {
   eps3: ['ε', '3'],
   eps3J: ['ε', '3J'],
   h3: ['h', '3'],
+  eps: ['ε', ''],
   // Interaction constants (keys "<interaction>.<constant>"; physics/interaction/interactionTerms.ts).
   C1: ['C', '1'],
   C1J: ['C', '1J'],
@@ -59,6 +60,10 @@ const SYMBOLS: Record<string, [string, string]> = {
   C2: ['C', '2'],
   C2J: ['C', '2J'],
   C2K: ['C', '2K'],
+  C2JJ: ['C', '2JJ'],
+  C2JK: ['C', '2JK'],
+  C4: ['C', '4'],
+  C5: ['C', '5'],
   Cz: ['C', 'z'],
   CzJ: ['C', 'zJ'],
   W: ['W', ''],

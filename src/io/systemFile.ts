@@ -351,11 +351,13 @@ export function systemFileFromJson(raw: unknown): SystemFile {
           const hint =
             (name === 'zeta' || name === 'q' || name === 'qJ') && !isDegenerate
               ? ` (${name} acts only in a degenerate state: add "degenerate": true)`
-              : name === 'A' && shape === 'oblate'
-                ? ' (an oblate top gives "C" in place of "A")'
-                : name === 'C' && shape === 'prolate'
-                  ? ' (a prolate top gives "A" in place of "C")'
-                  : '';
+              : name === 'eps' && !isDegenerate && shape !== 'linear'
+                ? ' (eps, the Δk = ±3 term, acts only in a state that is diagonalised: name the state in one of the species\' "interactions", or give it h3)'
+                : name === 'A' && shape === 'oblate'
+                  ? ' (an oblate top gives "C" in place of "A")'
+                  : name === 'C' && shape === 'prolate'
+                    ? ' (a prolate top gives "A" in place of "C")'
+                    : '';
           fail(
             pAt,
             `is not a constant of ${isDegenerate ? 'a degenerate' : 'a nondegenerate'} state of a ${shape} species${hint}; expected one of ${allowed.join(', ')}`,

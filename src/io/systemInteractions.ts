@@ -9,7 +9,8 @@
  * any state constant (a number is floated; {"value", "fixed", "unit"}; {"same": …}). Constants left
  * out are 0 and fixed. `name` (default "<stateA>_<stateB>") makes the fit keys `<name>.<constant>`.
  * A state named in an interaction takes the constants of the diagonalising providers (origin, the
- * rotor polynomial to octic order, and ζ, ηJ, ηK, q22, q22J, q12 when degenerate).
+ * rotor polynomial to octic order, and ζ, ηJ, ηK, q22, q22J, q12 when degenerate, h3 and eps (ε, Δk = ±3)
+ * when nondegenerate).
  */
 import { MHZ_PER_CM1 } from '../physics/constants';
 import type { RotorShape } from '../physics/hamiltonian/rotorPolynomial';

@@ -46,9 +46,11 @@ describe('PH3 ν2/ν4 dyad from HITRAN 2012', () => {
     expect(pairs).toBeGreaterThan(1000);
   });
 
-  it('fits ν2 and ν4 together with the Coriolis coupling to rms < 0.025 cm⁻¹ (single-band fits: 0.28 cm⁻¹)', () => {
-    // Measured 0.0237 cm⁻¹ on this list; the bound leaves room for solver round-off only.
-    expect(result.rmsCm1).toBeLessThan(0.025);
+  it('fits ν2 and ν4 together with the Coriolis coupling to rms <= 0.005 cm⁻¹ on the whole list (issue 17 target; single-band fits: 0.28 cm⁻¹)', () => {
+    // Measured 0.0041 cm⁻¹ on all 4105 lines, nothing excluded (0.024 before the higher-order terms).
+    expect(result.rmsCm1).toBeLessThanOrEqual(0.005);
+    expect(result.nLines).toBe(lines.length);
+    expect(result.lines.filter((l) => l.isExcluded)).toHaveLength(0);
     expect(result.nLines).toBeGreaterThan(4000);
     // The interaction constants are fitted and determined (σ small against the value).
     const c1 = result.parameters['v2v4.C1'];
@@ -61,21 +63,60 @@ describe('PH3 ν2/ν4 dyad from HITRAN 2012', () => {
     expect(result.parameters['v4.origin'].value).toBeCloseTo(1118.31, 1);
   });
 
-  it("reaches rms <= 0.005 cm⁻¹ on the lines with J' <= 17 (the same terms; the misfit grows above J' = 17)", () => {
+  it('determines each higher-order term it needed (value beyond 3σ) and each lowers the rms by more than 5 %', () => {
+    // The terms added for the high-J, high-K tail (physics/interaction/coupledHigherTerms.ts, and h3 of ν2).
+    const added = ['v2.h3', 'v2.eps', 'v2v4.C2JJ', 'v2v4.C2JK', 'v2v4.C4', 'v2v4.C5'];
+    for (const key of added) {
+      const p = result.parameters[key];
+      expect(p.fixed, key).toBe(false);
+      // 3σ: common practice for calling a constant determined. Measured |value|/σ 4.7 (C2JK) … 58 (C5).
+      expect(p.sigma!, key).toBeLessThan(Math.abs(p.value) / 3);
+    }
+    // Each one held at 0 (the others floated) leaves a larger rms: measured 0.0045 (C2JK) … 0.0081 (C5).
+    const without: string[] = [];
+    for (const key of added) {
+      const file = systemFileParse(systemText);
+      const parameters = file.parameters.map((p) => (p.key === key ? { ...p, value: 0, status: 'fixed' as const } : p));
+      const out = systemFit({ model: file.model, parameters, lines });
+      if (!out.ok) throw new Error(out.error.message);
+      without.push(`${key} ${out.result.rmsCm1.toFixed(4)}`);
+      expect(out.result.rmsCm1, key).toBeGreaterThan(1.05 * result.rmsCm1);
+    }
+    console.log(`PH3 dyad, rms with each added term held at 0: ${without.join(', ')} cm⁻¹ (all floated: ${result.rmsCm1.toFixed(4)})`);
+  }, 300_000);
+
+  it('reports the lines beyond 3σ (σ scaled by σ_w) after convergence, and the rms without them, beside the whole-list rms', () => {
+    // Common practice: a published fit sets aside lines with |o − c| > 3σ after convergence. Here they
+    // are listed and the rms is given both ways; the target above is on the whole list.
+    const scale = Math.max(1, result.sigmaW ?? 1);
+    const beyond = result.lines.filter((l) => Math.abs(l.obsMinusCalc) > 3 * l.uncertaintyCm1 * scale);
+    const file = systemFileParse(systemText);
+    const marked = lines.map((l, i) => (beyond.some((b) => result.lines.indexOf(b) === i) ? { ...l, isExcluded: true } : l));
+    const out = systemFit({ model: file.model, parameters: file.parameters, lines: marked });
+    if (!out.ok) throw new Error(out.error.message);
+    const describe = (l: (typeof result.lines)[number]) =>
+      `${l.band} ${l.jUpper} ${l.kUpper}${l.tagUpper ? ' ' + l.tagUpper : ''} ← ${l.jLower} ${l.kLower} at ${l.obs.toFixed(4)} (o − c ${l.obsMinusCalc.toFixed(4)})`;
+    console.log(
+      `PH3 dyad: ${beyond.length} of ${lines.length} lines beyond 3σ·σ_w: ${beyond.slice(0, 5).map(describe).join('; ')}. ` +
+        `rms on the whole list ${result.rmsCm1.toFixed(4)} cm⁻¹; refitted without them ${out.result.rmsCm1.toFixed(4)} cm⁻¹ on ${out.result.nLines} lines`,
+    );
+    // Measured 3 lines (two HITRAN rows share 1092.1807 cm⁻¹, one allowed and one ΔK = +3 line), 0.0036 cm⁻¹ without them.
+    expect(beyond.length).toBeLessThan(0.01 * lines.length);
+    expect(out.result.nLines).toBe(lines.length - beyond.length);
+    expect(out.result.rmsCm1).toBeLessThanOrEqual(result.rmsCm1);
+  }, 300_000);
+
+  it("reaches rms <= 0.005 cm⁻¹ on the lines with J' <= 17 alone (the same terms)", () => {
     const file = systemFileParse(systemText);
     const out = systemFit({ model: file.model, parameters: file.parameters, lines: lines.filter((l) => l.jUpper <= 17) });
     if (!out.ok) throw new Error(out.error.message);
     console.log(
       `PH3 dyad, J' <= 17: ${out.result.nLines} lines, rms ${out.result.rmsCm1.toFixed(4)} cm⁻¹, σ_w ${out.result.sigmaW?.toFixed(2)}`,
     );
-    // Measured 0.0035 cm⁻¹ (3280 lines).
+    // Measured 0.0022 cm⁻¹ (3280 lines; 0.0035 before the higher-order terms).
     expect(out.result.rmsCm1).toBeLessThanOrEqual(0.005);
     expect(out.result.nLines).toBeGreaterThan(3000);
   }, 300_000);
-
-  it.fails('reaches the issue-17 target rms <= 0.005 cm⁻¹ (not yet: the high-J tail needs terms the model lacks)', () => {
-    expect(result.rmsCm1).toBeLessThanOrEqual(0.005);
-  });
 
   it('simulates the perturbation-allowed lines with intensities near the database’s, relative to an allowed line from the same lower level', () => {
     const file = systemFileParse(systemText);
@@ -153,9 +194,9 @@ describe('PH3 ν2/ν4 dyad from HITRAN 2012', () => {
     // Every stronger forbidden line of the list is produced by the simulation.
     expect(minus.missing).toBe(0);
     // With the ν4 moment of opposite sign to ν2's (in this basis's phases) the borrowed intensities
-    // follow the database's: measured 101 of 110 within a factor 1.5, median ratio 0.981. The bounds
+    // follow the database's: measured 102 of 110 within a factor 1.5, median ratio 0.989. The bounds
     // (80 %, median 0.8–1.25) leave room for the fit's residual mixing errors; the other sign fails
-    // them (13 of 110), so the comparison is a test of the interference, not of the scale alone.
+    // them (15 of 110), so the comparison is a test of the interference, not of the scale alone.
     expect(minus.within / minus.n).toBeGreaterThan(0.8);
     expect(minus.median).toBeGreaterThan(0.8);
     expect(minus.median).toBeLessThan(1.25);

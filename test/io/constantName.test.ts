@@ -52,6 +52,9 @@ describe('names of the interaction, h3 and inversion constants and of system key
     expect(constantNameText('dyad.Cz')).toBe('C_z (dyad)');
     expect(constantNameText('f.WK')).toBe('W_K (f)');
     expect(constantNameText('ground.h3')).toBe('h_3 (ground)');
+    expect(constantNameText('v2v4.C4')).toBe('C_4 (v2v4)');
+    expect(constantNameText('v2v4.C2JK')).toBe('C_2JK (v2v4)');
+    expect(constantNameText('v2.eps')).toBe('ε (v2)');
     expect(constantNameText('upper.invB')).toBe('ΔB_inv′');
     expect(constantNameText('upper.invDJ')).toBe('ΔD_J,inv′');
     expect(constantNameText('upper.inv')).toBe('Δ_inv′');

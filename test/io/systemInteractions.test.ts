@@ -42,7 +42,12 @@ describe('system file interactions', () => {
     );
     const sp = f.model.species[0];
     expect(sp.interactions).toEqual([
-      { name: 'cor', type: 'coriolis', states: ['v2', 'v4'], constants: { C1: 3.4, C2: 0.02, C1J: 0, C1K: 0, C2J: 0, C1JJ: 0, C2K: 0 } },
+      {
+        name: 'cor',
+        type: 'coriolis',
+        states: ['v2', 'v4'],
+        constants: { C1: 3.4, C2: 0.02, C1J: 0, C1K: 0, C2J: 0, C1JJ: 0, C2K: 0, C2JJ: 0, C2JK: 0, C4: 0, C5: 0 },
+      },
     ]);
     const byKey = new Map(f.parameters.map((p) => [p.key, p]));
     expect(byKey.get('cor.C1')).toMatchObject({ value: 3.4, status: 'floated', state: 'cor', name: 'C1' });

@@ -68,7 +68,19 @@ describe('systemParameters with symmetry keys and interactions', () => {
         sp.states.find((s) => s.name === 'ground')!,
       ),
     ).not.toContain('origin');
-    expect(systemInteractionConstantNames(sp, sp.interactions![0])).toEqual(['C1', 'C1J', 'C1K', 'C2', 'C2J', 'C1JJ', 'C2K']);
+    expect(systemInteractionConstantNames(sp, sp.interactions![0])).toEqual([
+      'C1',
+      'C1J',
+      'C1K',
+      'C2',
+      'C2J',
+      'C1JJ',
+      'C2K',
+      'C2JJ',
+      'C2JK',
+      'C4',
+      'C5',
+    ]);
     expect(systemValueOf(file.model, 'v3v4.C1')).toBe(0.12);
   });
 

@@ -17,6 +17,7 @@
  * Coriolis, degenerate d1 ↔ degenerate d2:
  *   ⟨d2; k, ℓ|H|d1; k, ℓ⟩ = (Cz + CzJ x) kℓ,   ⟨d2; k±1, ∓1|H|d1; k, ±1⟩ = ±(C1 + C1J x) √[x − k(k±1)]
  * Fermi, two states of the same degeneracy: ⟨b; k, ℓ|H|a; k, ℓ⟩ = W + WJ x + WK k².
+ * Higher-order terms (ε, Δk = ±3 in a nondegenerate state; C2JJ, C2JK, C4, C5): coupledHigherTerms.ts.
  *
  * The relative signs (± above) are fixed by requiring every term to commute with σv, which acts as
  * |s; k⟩ → (−1)^{J+k}|s; −k⟩ (an A1 vibrational state) and |d; k, ℓ⟩ → (−1)^{J+k}|d; −k, −ℓ⟩, the
@@ -38,6 +39,7 @@
 import { ellQ12Factor, ellQ22Factor } from '../hamiltonian/degenerateStateLevels';
 import { eigenLabelsAssign } from '../hamiltonian/eigenLabels';
 import { rotorPolynomialBasis, type RotorShape } from '../hamiltonian/rotorPolynomial';
+import { coupledHigherTermElements } from './coupledHigherTerms';
 import { householderEigen } from './householderEigen';
 import { coupledStateParameterNames, interactionParameterNames, type InteractionType } from './interactionTerms';
 
@@ -523,5 +525,6 @@ function blockElements(group: CoupledGroup, J: number, x: number, p: ArrayLike<n
       }
     });
   });
+  coupledHigherTermElements(group, x, p, basis, (s, k, ell) => index.get(code(s, k, ell)), push);
   return el;
 }
