@@ -19,6 +19,7 @@ import { BandSwitches } from './BandSwitches';
 import { bandRowsBuild } from './plot/bandRows';
 import { ladderRowsBuild, type LadderRow } from './plot/ladderGeometry';
 import { ladderMarkersBuild, ladderSceneBuild } from './plot/ladderScene';
+import { rungSymmetryTexts } from './plot/rungSymmetryLabels';
 import { peakLayerBase, peakLayerBuild } from './plot/peakLayer';
 import { spectrumFigure } from './plot/toTraces';
 import { PlotlyChart } from './PlotlyChart';
@@ -146,6 +147,7 @@ export function SpectrumPlot() {
     () => (levels ? (i: number) => (i >= 0 && i < levels.tagUpper.length ? lineLevelLabel(levels, i) : null) : undefined),
     [levels],
   );
+  const rungLabels = useMemo(() => rungSymmetryTexts(levels, drawn.lines.count), [levels, drawn.lines.count]);
   const overlayRef = useRef<PlotOverlayHandle>(null);
   const assignedPeaks = useMemo(() => {
     const m = new Map<string, string>();
@@ -244,6 +246,7 @@ export function SpectrumPlot() {
           isDark={isDark}
           onRungClick={onRungLine}
           levelsOf={levelsOf}
+          rungLabels={rungLabels}
           onPeakClick={peakClick}
           // Look for a peak within 1 % of the visible width (at least 0.01 cm^-1) of the click.
           onTraceClick={(nu, widthCm1) => traceClickAt(nu, Math.max(0.01, 0.01 * widthCm1))}
