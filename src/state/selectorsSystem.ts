@@ -269,3 +269,40 @@ const assignmentLevels = memoLast(
 export function selectAssignmentLevels(s: BenchState): (LineLevelLabel | null)[] {
   return assignmentLevels(s.assignments, selectSystemPrediction(s), s.activeBandKey);
 }
+
+const assignmentDrawnLines = memoLast(
+  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): Int32Array | null => {
+    const { levels, entries, bandOfLine, lines } = drawn;
+    if (!levels || !entries || !bandOfLine) return null;
+    const byKey = new Map<string, number[]>();
+    for (let i = 0; i < lines.count; i++) {
+      const key = `${entries[bandOfLine[i]].key}|${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`;
+      const list = byKey.get(key);
+      if (list) list.push(i);
+      else byKey.set(key, [i]);
+    }
+    return Int32Array.from(assignments, (a) => {
+      const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
+      let best = -1;
+      for (const i of list ?? []) {
+        if (a.tagUpper !== undefined && !levelTagMatches(levels.tagUpper[i], a.tagUpper)) continue;
+        if (a.tagLower !== undefined && !levelTagMatches(levels.tagLower[i], a.tagLower)) continue;
+        if (a.lUpper !== undefined && levels.lUpper[i] !== a.lUpper) continue;
+        if (a.lLower !== undefined && levels.lLower[i] !== a.lLower) continue;
+        // Of lines the row leaves open (an untagged row of a split pair), the one nearest its observation.
+        if (best < 0 || Math.abs(lines.wavenumberCm1[i] - a.observedCm1) < Math.abs(lines.wavenumberCm1[best] - a.observedCm1)) best = i;
+      }
+      return best;
+    });
+  },
+);
+
+/**
+ * The drawn line each assignment names (index into selectDrawnBands' lines, −1 where its band is
+ * switched off or its line is not drawn), parallel to the assignments; null in a single-band
+ * session. Picks the same line as the row's calc (state/systemRowCalc): band, J, K, then the l and
+ * tags it keeps, so each member of a split pair gets its own rung.
+ */
+export function selectAssignmentDrawnLines(s: BenchState): Int32Array | null {
+  return assignmentDrawnLines(s.assignments, selectDrawnBands(s), s.activeBandKey);
+}

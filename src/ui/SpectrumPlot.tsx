@@ -12,7 +12,7 @@ import { peakIdAt, peakIdPosition } from '../state/assignLogic';
 import { messagePost } from '../state/actionsCore';
 import { bandActivate } from '../state/actionsSystem';
 import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated } from '../state/selectors';
-import { assignmentBandKey, selectDrawnBands, type DrawnBands } from '../state/selectorsSystem';
+import { assignmentBandKey, selectAssignmentDrawnLines, selectDrawnBands, type DrawnBands } from '../state/selectorsSystem';
 import { benchStore, useBench } from '../state/store';
 import { CandidateList } from './CandidateList';
 import { BandSwitches } from './BandSwitches';
@@ -116,6 +116,7 @@ export function SpectrumPlot() {
   const hiddenRows = useBench((s) => s.hiddenRows);
   const shape = useBench((s) => s.model.shape);
   const rowsA = useBench(selectAssignmentRows);
+  const drawnLineOf = useBench(selectAssignmentDrawnLines);
   const selectedObservedCm1 = useBench((s) =>
     s.selectedAssignmentId ? (s.assignments.find((a) => a.id === s.selectedAssignmentId)?.observedCm1 ?? null) : null,
   );
@@ -138,8 +139,10 @@ export function SpectrumPlot() {
     const entries = drawn.entries;
     if (!entries) return ladderMarkersBuild(rowsA, scene);
     const indexOfKey = new Map(entries.map((e, i) => [e.key, i]));
-    return ladderMarkersBuild(rowsA, scene, (r) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1);
-  }, [rowsA, scene, drawn, activeBandKey]);
+    // Rows and drawn lines are both parallel to the assignments (until the next render brings both anew).
+    const lineOf = drawnLineOf && drawnLineOf.length === rowsA.length ? drawnLineOf : null;
+    return ladderMarkersBuild(rowsA, scene, (r) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1, lineOf);
+  }, [rowsA, scene, drawn, activeBandKey, drawnLineOf]);
   const cursorKey = cursor ? `${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}` : '';
   const cursorLine = cursor ? (drawn.indexOf.get(drawn.entries ? `${activeBandKey}|${cursorKey}` : cursorKey) ?? -1) : -1;
   const levels = drawn.levels;

@@ -11,7 +11,7 @@ import { systemLines, type SystemLineList } from '../../src/physics/system/syste
 import { transitionWavenumber } from '../../src/physics/termValues';
 import { bandToggle, systemLoad } from '../../src/state/actionsSystem';
 import { selectAssignmentRows } from '../../src/state/selectors';
-import { selectAssignmentLevels } from '../../src/state/selectorsSystem';
+import { selectAssignmentDrawnLines, selectAssignmentLevels, selectDrawnBands } from '../../src/state/selectorsSystem';
 import { benchStore } from '../../src/state/store';
 import { systemBandEntries } from '../../src/state/systemBands';
 import { transitionSymmetryText } from '../../src/state/systemLevelLabels';
@@ -145,6 +145,12 @@ describe('calc and o − c of a several-band session come from the system lines'
     // Their level labels are those of the same lines.
     const levels = selectAssignmentLevels(s);
     expect(transitionSymmetryText({ ...levels[0]! })).toBe(`${lines.tagUpper[i1]} ← ${lines.tagLower[i1]}`);
+    // And the ladder markers go to each member's own drawn line (same J and K, other rung).
+    const drawn = selectDrawnBands(s);
+    const at = selectAssignmentDrawnLines(s)!;
+    expect(at[0]).not.toBe(at[1]);
+    expect(drawn.lines.wavenumberCm1[at[0]]).toBeCloseTo(lines.wavenumberCm1[i1], 9);
+    expect(drawn.lines.wavenumberCm1[at[1]]).toBeCloseTo(lines.wavenumberCm1[i2], 9);
   });
 
   it('keeps calc for a band switched off, a line under the intensity cut and a band with no single-band view', () => {
