@@ -253,6 +253,13 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
       result,
       needSigma.map((i) => assignments[i]),
     );
+  // Several bands: the positions of the rows not kept whole, in one pass (rows whose line is under
+  // the intensity cut share one level calculation).
+  const todo: number[] = [];
+  if (systemCalc) for (let i = 0; i < n; i++) if (!entries[i]) todo.push(i);
+  const systemCalcs = systemCalc && todo.length > 0 ? systemCalc.calcMany(todo.map((i) => assignments[i])) : null;
+  const systemCalcAt = new Map<number, number>();
+  todo.forEach((i, t) => systemCalcAt.set(i, systemCalcs![t]));
   let k = 0;
   // Old rows by id: an edited assignment (a new object for the same id) keeps its labels and
   // calculated position when its quanta are unchanged.
@@ -280,7 +287,7 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
         e && hasSameQuanta && isSameModel && (!systemCalc || isSameLevels(e.row.a, a))
           ? e.row.calcCm1
           : systemCalc
-            ? systemCalc.calcCm1(a)
+            ? (systemCalcAt.get(i) ?? systemCalc.calcCm1(a))
             : transitionWavenumber(model, a.jUpper, a.kUpper, a.jLower, a.kLower);
       const shape = systemCalc ? systemCalc.shape(a) : model.shape;
       const deltaK = a.kUpper - a.kLower;

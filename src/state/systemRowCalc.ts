@@ -5,6 +5,7 @@
  */
 import type { Assignment } from '../fit/assignment';
 import { systemFit } from '../fit/systemFit';
+import type { SystemFitLine } from '../fit/systemFitTypes';
 import { systemLineResolve } from '../fit/systemLineResolve';
 import type { TopShape } from '../physics/model';
 import type { SystemLineList } from '../physics/system/systemLines';
@@ -19,6 +20,8 @@ export interface SystemRowCalc {
    * the row keeps them) l and tags; NaN when the row names no line of its band (or its band is gone).
    */
   calcCm1(a: Assignment): number;
+  /** calcCm1 of several rows at once (the rows whose line is not among the lines are calculated in one pass). */
+  calcMany(list: readonly Assignment[]): Float64Array;
   /** Rotor shape of the row's species (for its label). */
   shape(a: Assignment): TopShape;
 }
@@ -33,8 +36,8 @@ const SAME_POSITION_CM1 = 1e-9;
  * (as selectAssignmentLevels does). When several lines remain (a row without tags naming a split
  * A1/A2 or s/a pair), the member nearest the observation is the one it can mean. A row whose
  * line is not in `all` (below the intensity cut) is resolved like a fit row (fit/systemLineResolve)
- * and its position computed from the same Hamiltonians (fit/systemFit with nothing floated), once
- * per assignment object.
+ * and its position computed from the same Hamiltonians (fit/systemFit with nothing floated, one
+ * pass for all such rows of a calcMany call: ~10 ms of set-up each, shared), once per assignment object.
  * @param system the session's system
  * @param all every line of the system at the page's intensity cut (null when none could be computed)
  * @param entries the system's bands (state/systemBands)
@@ -67,51 +70,71 @@ export function systemRowCalcCreate(
     const key = bandKeyOfLine(a) ?? activeBandKey;
     return key !== null ? entryOf.get(key) : undefined;
   };
-  const fromLevels = (a: Assignment, e: SystemBandEntry): number => {
-    const hit = resolved.get(a);
-    if (hit !== undefined) return hit;
-    const r = systemLineResolve(system, {
-      band: e.band,
-      species: e.species,
-      jUpper: a.jUpper,
-      kUpper: a.kUpper,
-      jLower: a.jLower,
-      kLower: a.kLower,
-      lUpper: a.lUpper ?? null,
-      lLower: a.lLower ?? null,
-      tagUpper: a.tagUpper ?? null,
-      tagLower: a.tagLower ?? null,
-    });
-    let calc = NaN;
-    if (r.ok) {
-      const out = systemFit({
-        model: system,
-        parameters: systemParameters(system, []),
-        lines: [{ ...r.line, observedCm1: a.observedCm1, uncertaintyCm1: 1, isExcluded: false }],
-      });
-      if (out.ok) calc = out.result.lines[0].calc;
+  /** The row's line among `all` (NaN when it is not there). */
+  const fromLines = (a: Assignment, e: SystemBandEntry): number => {
+    const list = lookup(`${e.key}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
+    let best = NaN;
+    if (list && all) {
+      for (const i of list) {
+        if (a.tagUpper !== undefined && !levelTagMatches(all.tagUpper[i], a.tagUpper)) continue;
+        if (a.tagLower !== undefined && !levelTagMatches(all.tagLower[i], a.tagLower)) continue;
+        if (a.lUpper !== undefined && all.lUpper[i] !== a.lUpper) continue;
+        if (a.lLower !== undefined && all.lLower[i] !== a.lLower) continue;
+        const nu = all.wavenumberCm1[i];
+        if (Number.isNaN(best) || Math.abs(nu - a.observedCm1) < Math.abs(best - a.observedCm1) - SAME_POSITION_CM1) best = nu;
+      }
     }
-    resolved.set(a, calc);
-    return calc;
+    return best;
+  };
+  /** Rows not among the lines: resolved one by one, calculated in one fit pass (levels shared per J), cached. */
+  const fromLevels = (rows: readonly { a: Assignment; e: SystemBandEntry }[]): void => {
+    const lines: SystemFitLine[] = [];
+    const owners: Assignment[] = [];
+    for (const { a, e } of rows) {
+      const r = systemLineResolve(system, {
+        band: e.band,
+        species: e.species,
+        jUpper: a.jUpper,
+        kUpper: a.kUpper,
+        jLower: a.jLower,
+        kLower: a.kLower,
+        lUpper: a.lUpper ?? null,
+        lLower: a.lLower ?? null,
+        tagUpper: a.tagUpper ?? null,
+        tagLower: a.tagLower ?? null,
+      });
+      resolved.set(a, NaN);
+      if (!r.ok) continue;
+      lines.push({ ...r.line, observedCm1: a.observedCm1, uncertaintyCm1: 1, isExcluded: false });
+      owners.push(a);
+    }
+    if (lines.length === 0) return;
+    const out = systemFit({ model: system, parameters: systemParameters(system, []), lines });
+    if (out.ok) out.result.lines.forEach((l, k) => resolved.set(owners[k], l.calc));
+  };
+  const calcMany = (list: readonly Assignment[]): Float64Array => {
+    const out = new Float64Array(list.length);
+    const missing: { a: Assignment; e: SystemBandEntry }[] = [];
+    const missingAt: number[] = [];
+    list.forEach((a, k) => {
+      const e = bandOf(a);
+      if (!e) return void (out[k] = NaN);
+      const nu = fromLines(a, e);
+      if (!Number.isNaN(nu)) return void (out[k] = nu);
+      const hit = resolved.get(a);
+      if (hit !== undefined) return void (out[k] = hit);
+      missing.push({ a, e });
+      missingAt.push(k);
+    });
+    if (missing.length > 0) {
+      fromLevels(missing);
+      missingAt.forEach((k, m) => (out[k] = resolved.get(missing[m].a) ?? NaN));
+    }
+    return out;
   };
   return {
-    calcCm1(a) {
-      const e = bandOf(a);
-      if (!e) return NaN;
-      const list = lookup(`${e.key}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
-      let best = NaN;
-      if (list && all) {
-        for (const i of list) {
-          if (a.tagUpper !== undefined && !levelTagMatches(all.tagUpper[i], a.tagUpper)) continue;
-          if (a.tagLower !== undefined && !levelTagMatches(all.tagLower[i], a.tagLower)) continue;
-          if (a.lUpper !== undefined && all.lUpper[i] !== a.lUpper) continue;
-          if (a.lLower !== undefined && all.lLower[i] !== a.lLower) continue;
-          const nu = all.wavenumberCm1[i];
-          if (Number.isNaN(best) || Math.abs(nu - a.observedCm1) < Math.abs(best - a.observedCm1) - SAME_POSITION_CM1) best = nu;
-        }
-      }
-      return Number.isNaN(best) ? fromLevels(a, e) : best;
-    },
+    calcCm1: (a) => calcMany([a])[0],
+    calcMany,
     shape(a) {
       const e = bandOf(a);
       return system.species[e?.speciesIndex ?? 0].shape;
