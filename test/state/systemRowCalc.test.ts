@@ -6,7 +6,9 @@
  */
 import { beforeEach, describe, expect, it } from 'vitest';
 import type { Assignment } from '../../src/fit/assignment';
-import { systemFileFromJson } from '../../src/io/systemFile';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { systemFileFromJson, systemFileParse } from '../../src/io/systemFile';
 import { systemLines, type SystemLineList } from '../../src/physics/system/systemLines';
 import { transitionWavenumber } from '../../src/physics/termValues';
 import { bandToggle, systemLoad } from '../../src/state/actionsSystem';
@@ -177,6 +179,26 @@ describe('calc and o − c of a several-band session come from the system lines'
     bandToggle('LB-3v/nu3');
     rows = selectAssignmentRows(benchStore.getState());
     expect(rows[2].calcCm1).toBeCloseTo(lines.wavenumberCm1[strong], 9);
+  });
+
+  it('calculates inversion components of an NH3-like D3h system from rows naming only s or a', () => {
+    // The NH3 ν2 start model of the fixtures (constants near 14NH3 from memory; see its "notes").
+    const file = systemFileParse(readFileSync(join(__dirname, '../fixtures/systems/nh3-nu2-inversion.json'), 'utf8'));
+    benchStore.setState({ ...benchStore.getInitialState(), minIntensity: MIN_INTENSITY });
+    expect(systemLoad({ system: file.model, name: 'nh3' }, 'load')).toBe(true);
+    const lines = systemLines(file.model, { minIntensity: MIN_INTENSITY });
+    const picks: number[] = [];
+    for (let i = 0; i < lines.count && picks.length < 60; i += 3) if (lines.tagUpper[i] && lines.tagLower[i]) picks.push(i);
+    expect(picks.length).toBe(60);
+    // A line-table row gives just the component ("a" for "a:A2''"), as fit/systemLineResolve reads it.
+    const assignments = picks.map((i, n) => {
+      const a = assignmentOf(lines, i, `a${n + 1}`);
+      return { ...a, tagUpper: lines.tagUpper[i].split(':')[0], tagLower: lines.tagLower[i].split(':')[0] };
+    });
+    expect(assignments.some((a) => a.tagUpper === 's') && assignments.some((a) => a.tagUpper === 'a')).toBe(true);
+    benchStore.setState({ assignments });
+    const rows = selectAssignmentRows(benchStore.getState());
+    picks.forEach((i, n) => expect(Math.abs(rows[n].calcCm1 - lines.wavenumberCm1[i])).toBeLessThan(1e-9));
   });
 
   it('gives NaN (not a wrong number) for a row naming no line of its band', () => {
