@@ -103,7 +103,16 @@ export function systemRankDiagnosis(
   const nullity = n - lin.rank;
   const notes: string[] = [];
   const uniqueKeys = involvedKeys.filter((k) => ['A', 'C'].includes(spec.get(k)?.name ?? ''));
-  if (uniqueKeys.length >= 2) {
+  const zetaKeys = involvedKeys.filter((k) => spec.get(k)?.name === 'zeta');
+  const isPerpendicular = used.some((i) => input.lines[i].kUpper !== input.lines[i].kLower);
+  if (uniqueKeys.length >= 2 && zetaKeys.length > 0 && isPerpendicular) {
+    // Sub-band origins of a perpendicular band: ν0 + A′(1 − 2ζ) − B′ ± 2[A′(1 − ζ) − B′]K + [(A′ − B′) − (A″ − B″)]K²,
+    // so with the origin floated the K structure gives A′(1 − ζ) and A′ − A″ only.
+    // Source: Herzberg II (1945) ch. IV, perpendicular bands of symmetric tops (from memory).
+    notes.push(
+      `the ΔK = ±1 lines of a perpendicular band fix only A′(1 − ζ) and A′ − A″ (A for C in an oblate top; the origin takes up A′(1 − 2ζ)), so ${uniqueKeys.join(', ')} and ${zetaKeys.join(', ')} cannot all be found from it`,
+    );
+  } else if (uniqueKeys.length >= 2) {
     notes.push(
       `lines with ΔK = 0 depend only on differences of A (or C) between their two states, so a chain of such bands fixes ${uniqueKeys.join(', ')} only relative to one another`,
     );

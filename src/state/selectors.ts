@@ -16,8 +16,8 @@ import { quantaKey } from './candidateRank';
 import { memoLast } from './memo';
 import { simulationBuild, type SimulatedSpectrum } from './simulation';
 import type { BenchState } from './store';
-import { selectSystemPrediction } from './systemPredict';
-import { systemEntriesOf } from './systemSync';
+import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
+import { systemRowCalcCreate, type SystemRowCalc } from './systemRowCalc';
 
 /** Predicted lines and their ladders, or the reason the model gives none. */
 export interface PredictedBand {
@@ -140,11 +140,11 @@ export interface AssignmentRowsInput {
   /** Far-from-prediction tolerance without a fit, cm^-1. */
   farToleranceCm1: number;
   /**
-   * Several bands: each band's single-band model by key "species/band" (an assignment is calculated
-   * with its own band's model), and the band of assignments that name none. Absent: one band, `model`.
+   * Several bands: each row's calculated position and shape from the system's own lines (the ones
+   * the ladders draw, state/systemRowCalc), for the row's band (or the active band when it names
+   * none). Absent: one band, `model`.
    */
-  bandModels?: ReadonlyMap<string, BandModel> | null;
-  activeBandKey?: string | null;
+  systemCalc?: SystemRowCalc | null;
 }
 
 /** A row with the prediction 1σ it was judged with (cm^-1, null without a fit). */
@@ -184,6 +184,10 @@ function isSameQuanta(a: Assignment, b: Assignment): boolean {
   );
 }
 
+function isSameLevels(a: Assignment, b: Assignment): boolean {
+  return a.tagUpper === b.tagUpper && a.tagLower === b.tagLower && a.lUpper === b.lUpper && a.lLower === b.lLower;
+}
+
 function isSameRow(x: AssignmentRow, y: AssignmentRow): boolean {
   return (
     x.a === y.a &&
@@ -219,23 +223,18 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
     p.fitOutcome === input.fitOutcome &&
     p.fitLineIds === input.fitLineIds &&
     p.farToleranceCm1 === input.farToleranceCm1 &&
-    p.bandModels === input.bandModels &&
-    p.activeBandKey === input.activeBandKey
+    p.systemCalc === input.systemCalc
   ) {
     return prev;
   }
   const { assignments, model, fitOutcome, fitLineIds, farToleranceCm1 } = input;
-  const bandModels = input.bandModels ?? null;
-  const isSameModel = p?.model === model && p?.bandModels === input.bandModels && p?.activeBandKey === input.activeBandKey;
+  const systemCalc = input.systemCalc ?? null;
+  const isSameModel = p?.model === model && p?.systemCalc === input.systemCalc;
   const isSameShape = p?.model.shape === model.shape && isSameModel;
-  // The joint fit's keys are the system's, which the one-band prediction σ cannot read.
-  const modelOf = (a: Assignment): BandModel | null =>
-    bandModels
-      ? (bandModels.get(a.band !== undefined && a.species !== undefined ? `${a.species}/${a.band}` : (input.activeBandKey ?? '')) ?? null)
-      : model;
   const isSameFit = p?.fitOutcome === fitOutcome && p?.fitLineIds === fitLineIds;
   const isSameContext = isSameModel && isSameFit && p?.farToleranceCm1 === farToleranceCm1;
-  const result = bandModels ? null : rowsFitResult(fitOutcome);
+  // The joint fit's keys are the system's, which the one-band prediction σ cannot read.
+  const result = systemCalc ? null : rowsFitResult(fitOutcome);
   const outlierIds = rowsOutlierIds(fitOutcome, fitLineIds);
   const old = prev?.entryOf;
   const n = assignments.length;
@@ -254,6 +253,13 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
       result,
       needSigma.map((i) => assignments[i]),
     );
+  // Several bands: the positions of the rows not kept whole, in one pass (rows whose line is under
+  // the intensity cut share one level calculation).
+  const todo: number[] = [];
+  if (systemCalc) for (let i = 0; i < n; i++) if (!entries[i]) todo.push(i);
+  const systemCalcs = systemCalc && todo.length > 0 ? systemCalc.calcMany(todo.map((i) => assignments[i])) : null;
+  const systemCalcAt = new Map<number, number>();
+  todo.forEach((i, t) => systemCalcAt.set(i, systemCalcs![t]));
   let k = 0;
   // Old rows by id: an edited assignment (a new object for the same id) keeps its labels and
   // calculated position when its quanta are unchanged.
@@ -276,10 +282,14 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
       const hasSameQuanta = e !== undefined && isSameQuanta(e.row.a, a);
       let sigmaPredCm1: number | null = null;
       if (result) sigmaPredCm1 = e && e.row.a === a && isSameFit ? e.sigmaPredCm1 : sigmas![k++];
-      const m = modelOf(a);
+      // A row of a system keeps its calc only for the same labels (its tags and l pick the line).
       const calcCm1 =
-        e && hasSameQuanta && isSameModel ? e.row.calcCm1 : m ? transitionWavenumber(m, a.jUpper, a.kUpper, a.jLower, a.kLower) : NaN;
-      const shape = m?.shape ?? model.shape;
+        e && hasSameQuanta && isSameModel && (!systemCalc || isSameLevels(e.row.a, a))
+          ? e.row.calcCm1
+          : systemCalc
+            ? (systemCalcAt.get(i) ?? systemCalc.calcCm1(a))
+            : transitionWavenumber(model, a.jUpper, a.kUpper, a.jLower, a.kLower);
+      const shape = systemCalc ? systemCalc.shape(a) : model.shape;
       const deltaK = a.kUpper - a.kLower;
       const deltaJ = a.jUpper - a.jLower;
       const labelAscii = e && hasSameQuanta && isSameShape ? e.row.labelAscii : lineLabelAscii(deltaK, deltaJ, a.kLower, a.jLower, shape);
@@ -308,11 +318,16 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
 
 let assignmentRowsLast: AssignmentRowsState | null = null;
 
-const bandModelsOf = memoLast((system: NonNullable<BenchState['system']>): Map<string, BandModel> => {
-  const m = new Map<string, BandModel>();
-  for (const e of systemEntriesOf(system)) if (e.view) m.set(e.key, e.view);
-  return m;
-});
+const systemCalcOf = memoLast(
+  (system: NonNullable<BenchState['system']>, pred: SystemPrediction, activeBandKey: string | null): SystemRowCalc =>
+    systemRowCalcCreate(system, pred.all, pred.entries, activeBandKey),
+);
+
+/** The several-band rows' calculator (null in a single-band session). */
+function selectSystemRowCalc(s: BenchState): SystemRowCalc | null {
+  const pred = selectSystemPrediction(s);
+  return s.system && pred ? systemCalcOf(s.system, pred, s.activeBandKey) : null;
+}
 
 /** Assignments with labels, calculated positions and flags (incremental; see assignmentRowsUpdate). */
 export function selectAssignmentRows(s: BenchState): AssignmentRow[] {
@@ -322,8 +337,7 @@ export function selectAssignmentRows(s: BenchState): AssignmentRow[] {
     fitOutcome: s.fitOutcome,
     fitLineIds: s.fitLineIds,
     farToleranceCm1: s.farToleranceCm1,
-    bandModels: s.system ? bandModelsOf(s.system) : null,
-    activeBandKey: s.activeBandKey,
+    systemCalc: selectSystemRowCalc(s),
   });
   return assignmentRowsLast.rows;
 }

@@ -9,7 +9,7 @@ import type { LineList } from '../physics/model';
 import type { SystemModel } from '../physics/system/systemModel';
 import { memoLast } from './memo';
 import type { BandModel } from '../physics/model';
-import { lineLevelLabel, lineLevelLabelsSubset, type LineLevelLabel, type LineLevelLabels } from './systemLevelLabels';
+import { levelTagMatches, lineLevelLabel, lineLevelLabelsSubset, type LineLevelLabel, type LineLevelLabels } from './systemLevelLabels';
 import { predictedBandCompute, selectBand, type PredictedBand } from './selectors';
 import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
 import { bandKeyOfLine, type SystemBandEntry } from './systemBands';
@@ -233,12 +233,13 @@ const loomisBandSelect = memoLast(
 );
 
 const assignmentLevels = memoLast(
-  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): (LineLevelLabel | null)[] => {
-    const { levels, entries, bandOfLine, lines } = drawn;
-    if (!levels || !entries || !bandOfLine) return assignments.map(() => null);
+  (assignments: BenchState['assignments'], pred: SystemPrediction | null, activeBandKey: string | null): (LineLevelLabel | null)[] => {
+    const all = pred?.all;
+    if (!all) return assignments.map(() => null);
     const byKey = new Map<string, number[]>();
-    for (let i = 0; i < lines.count; i++) {
-      const key = `${entries[bandOfLine[i]].key}|${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`;
+    for (let i = 0; i < all.count; i++) {
+      const ref = all.bandRefs[all.bandIndex[i]];
+      const key = `${ref.species}/${ref.band}|${all.jUpper[i]},${all.kUpper[i]},${all.jLower[i]},${all.kLower[i]}`;
       const list = byKey.get(key);
       if (list) list.push(i);
       else byKey.set(key, [i]);
@@ -248,22 +249,60 @@ const assignmentLevels = memoLast(
       if (!list) return null;
       const fits = list.filter(
         (i) =>
-          (a.tagUpper === undefined || levels.tagUpper[i] === a.tagUpper) &&
-          (a.tagLower === undefined || levels.tagLower[i] === a.tagLower) &&
-          (a.lUpper === undefined || levels.lUpper[i] === a.lUpper) &&
-          (a.lLower === undefined || levels.lLower[i] === a.lLower),
+          (a.tagUpper === undefined || levelTagMatches(all.tagUpper[i], a.tagUpper)) &&
+          (a.tagLower === undefined || levelTagMatches(all.tagLower[i], a.tagLower)) &&
+          (a.lUpper === undefined || all.lUpper[i] === a.lUpper) &&
+          (a.lLower === undefined || all.lLower[i] === a.lLower),
       );
       // Only a line the row names alone: a row J and K leave open (an untagged row of a split pair) shows no symmetry.
-      return fits.length === 1 ? lineLevelLabel(levels, fits[0]) : null;
+      return fits.length === 1 ? lineLevelLabel(all, fits[0]) : null;
     });
   },
 );
 
 /**
- * The level labels (tags, symmetry species) of the drawn line each assignment names, parallel to
- * the assignments; null where the row's band is switched off, the line is not drawn or J and K
- * leave a choice the row does not settle (and in a single-band session).
+ * The level labels (tags, symmetry species) of the system line each assignment names (the line
+ * its calc comes from, state/systemRowCalc), parallel to the assignments; null where the line is
+ * not among the lines at the intensity cut, J and K leave a choice the row does not settle, and in
+ * a single-band session. A band switched off keeps its rows' labels.
  */
 export function selectAssignmentLevels(s: BenchState): (LineLevelLabel | null)[] {
-  return assignmentLevels(s.assignments, selectDrawnBands(s), s.activeBandKey);
+  return assignmentLevels(s.assignments, selectSystemPrediction(s), s.activeBandKey);
+}
+
+const assignmentDrawnLines = memoLast(
+  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): Int32Array | null => {
+    const { levels, entries, bandOfLine, lines } = drawn;
+    if (!levels || !entries || !bandOfLine) return null;
+    const byKey = new Map<string, number[]>();
+    for (let i = 0; i < lines.count; i++) {
+      const key = `${entries[bandOfLine[i]].key}|${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`;
+      const list = byKey.get(key);
+      if (list) list.push(i);
+      else byKey.set(key, [i]);
+    }
+    return Int32Array.from(assignments, (a) => {
+      const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
+      let best = -1;
+      for (const i of list ?? []) {
+        if (a.tagUpper !== undefined && !levelTagMatches(levels.tagUpper[i], a.tagUpper)) continue;
+        if (a.tagLower !== undefined && !levelTagMatches(levels.tagLower[i], a.tagLower)) continue;
+        if (a.lUpper !== undefined && levels.lUpper[i] !== a.lUpper) continue;
+        if (a.lLower !== undefined && levels.lLower[i] !== a.lLower) continue;
+        // Of lines the row leaves open (an untagged row of a split pair), the one nearest its observation.
+        if (best < 0 || Math.abs(lines.wavenumberCm1[i] - a.observedCm1) < Math.abs(lines.wavenumberCm1[best] - a.observedCm1)) best = i;
+      }
+      return best;
+    });
+  },
+);
+
+/**
+ * The drawn line each assignment names (index into selectDrawnBands' lines, −1 where its band is
+ * switched off or its line is not drawn), parallel to the assignments; null in a single-band
+ * session. Picks the same line as the row's calc (state/systemRowCalc): band, J, K, then the l and
+ * tags it keeps, so each member of a split pair gets its own rung.
+ */
+export function selectAssignmentDrawnLines(s: BenchState): Int32Array | null {
+  return assignmentDrawnLines(s.assignments, selectDrawnBands(s), s.activeBandKey);
 }

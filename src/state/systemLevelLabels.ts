@@ -75,6 +75,16 @@ export function assignmentLevelLabels(line: {
   };
 }
 
+/**
+ * Whether a level's tag answers the tag a row keeps: equal, or the row names the inversion component
+ * of a level tagged with it and its species ("s" for "s:A2''"), as fit/systemLineResolve reads rows.
+ * @param levelTag the line's level tag
+ * @param wanted the row's tag
+ */
+export function levelTagMatches(levelTag: string, wanted: string): boolean {
+  return levelTag === wanted || levelTag.startsWith(`${wanted}:`);
+}
+
 /** A species or tag written with typographic primes: "A2''" → "A2″", "a:A1'" → "a A1′". */
 function primesPretty(text: string): string {
   return text.replace(/''/g, '″').replace(/'/g, '′').replace(':', ' ');

@@ -21,7 +21,8 @@ function rowMatches(r: AssignmentRow, q: TableQuery): boolean {
     (q.kLower === null || r.a.kLower === q.kLower) &&
     (q.jMin === null || r.a.jLower >= q.jMin) &&
     (q.jMax === null || r.a.jLower <= q.jMax) &&
-    Math.abs(r.omcCm1) >= q.minAbsOmcCm1
+    // A row with no calculated position (o − c NaN) stays in view unless an |o − c| bound is set.
+    (q.minAbsOmcCm1 <= 0 || Math.abs(r.omcCm1) >= q.minAbsOmcCm1)
   );
 }
 

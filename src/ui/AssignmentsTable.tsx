@@ -17,9 +17,10 @@ import { NumberField } from './NumberField';
 
 const ROW_HEIGHT = 30;
 
-const COLUMNS: { key: TableQuery['sortKey'] | null; label: string; className?: string }[] = [
+const COLUMNS: { key: TableQuery['sortKey'] | null; label: string; className?: string; title?: string }[] = [
   { key: null, label: '' },
   { key: 'label', label: 'Line' },
+  { key: null, label: 'Γ′ ← Γ″', className: 'c-sym', title: 'symmetry of the upper ← lower level (species, or the A1/A2, s/a member)' },
   { key: 'jLower', label: 'J′ K′ ← J″ K″' },
   { key: 'obs', label: 'obs / cm⁻¹', className: 'num' },
   { key: 'calc', label: 'calc / cm⁻¹', className: 'num' },
@@ -66,10 +67,13 @@ const Row = memo(function Row({
   shape,
   top,
   symmetry,
+  hasSymmetry,
 }: {
   r: AssignmentRow;
   /** The levels' symmetry ("A2 ← A1"), '' when unknown. */
   symmetry: string;
+  /** The table has the symmetry column (some row has a symmetry). */
+  hasSymmetry: boolean;
   isSelected: boolean;
   /** Ticked for "delete selected". */
   isChecked: boolean;
@@ -104,11 +108,6 @@ const Row = memo(function Row({
       </span>
       <span role="cell" className="c-label">
         <LineLabel q={quanta(r)} shape={shape} />
-        {symmetry && (
-          <span className="sym-tag" title="level symmetry, upper ← lower" data-testid="row-sym">
-            {symmetry}
-          </span>
-        )}
         {a.band !== undefined && (
           <span className="band-tag" title={`band ${a.band} of ${a.species ?? ''}`} data-testid="row-band">
             {a.band}
@@ -121,6 +120,11 @@ const Row = memo(function Row({
           </span>
         )}
       </span>
+      {hasSymmetry && (
+        <span role="cell" className="c-sym" title="level symmetry, upper ← lower" data-testid="row-sym">
+          {symmetry}
+        </span>
+      )}
       <span role="cell" className="c-q">
         {a.jUpper} {a.kUpper} ← {a.jLower} {a.kLower}
       </span>
@@ -130,7 +134,12 @@ const Row = memo(function Row({
       <span role="cell" className="num">
         {formatFixed(r.calcCm1, 5)}
       </span>
-      <span role="cell" className={`num ${r.isFar ? 'bad' : ''}`} title={r.omcSigma !== null ? `${r.omcSigma.toFixed(1)} σ` : undefined}>
+      <span
+        role="cell"
+        className={`num ${r.isFar ? 'bad' : ''}`}
+        title={r.omcSigma !== null ? `${r.omcSigma.toFixed(1)} σ` : undefined}
+        data-testid="row-omc"
+      >
         {formatFixed(r.omcCm1, 5)}
       </span>
       <span role="cell" onClick={(e) => e.stopPropagation()}>
@@ -258,6 +267,7 @@ export function AssignmentsTable() {
     () => new Map(assignments.map((a, i) => [a.id, transitionSymmetryText({ ...levels[i], tagUpper: a.tagUpper, tagLower: a.tagLower })])),
     [assignments, levels],
   );
+  const hasSymmetry = useMemo(() => [...symmetryById.values()].some((t) => t !== ''), [symmetryById]);
   const q = useBench((s) => s.tableQuery);
   const selectedId = useBench((s) => s.selectedAssignmentId);
   const shape = useBench((s) => s.model.shape);
@@ -321,9 +331,9 @@ export function AssignmentsTable() {
         </button>
         <Filters />
       </div>
-      <div className="vtable" role="table" aria-label="Assigned lines" aria-rowcount={shown.length + 1}>
+      <div className={`vtable ${hasSymmetry ? 'with-sym' : ''}`} role="table" aria-label="Assigned lines" aria-rowcount={shown.length + 1}>
         <div role="row" className="thead">
-          {COLUMNS.map((c, i) =>
+          {COLUMNS.filter((c) => hasSymmetry || c.className !== 'c-sym').map((c, i) =>
             i === 0 ? (
               <span role="columnheader" key={i}>
                 <input
@@ -353,6 +363,7 @@ export function AssignmentsTable() {
                 role="columnheader"
                 key={i}
                 className={c.className}
+                title={c.title}
                 aria-sort={c.key && q.sortKey === c.key ? (q.sortDescending ? 'descending' : 'ascending') : undefined}
               >
                 {c.key ? (
@@ -390,6 +401,7 @@ export function AssignmentsTable() {
                   shape={shape}
                   top={v.start}
                   symmetry={symmetryById.get(shown[v.index].a.id) ?? ''}
+                  hasSymmetry={hasSymmetry}
                 />
               ))}
             </div>

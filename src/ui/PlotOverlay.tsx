@@ -20,6 +20,7 @@ import {
 } from './plot/ladderScene';
 import { peakLayerHitTest, peakLayerPaint, peakLayerPixel, peakLayerTipHtml, peakLayerVisible, type PeakLayer } from './plot/peakLayer';
 import { plotTheme } from './plot/plotColours';
+import { rungSymmetryLabelsPaint } from './plot/rungSymmetryLabels';
 
 /** What the chart hands over after each draw: the plot element, and the x range while panning. */
 export interface PlotOverlayHandle {
@@ -45,6 +46,8 @@ export interface PlotOverlayProps {
   onRungClick: (lineIndex: number) => void;
   /** A line's level labels (tags, symmetry species) for the tooltip; absent in a single-band session. */
   levelsOf?: (lineIndex: number) => LineLevelLabel | null;
+  /** Per line, the compact symmetry text drawn beside its rung where there is room (rungSymmetryTexts); null for none. */
+  rungLabels?: readonly string[] | null;
   onPeakClick: (peakIndex: number) => void;
   /** A click in the trace panel away from any marker: position (cm^-1) and visible width (cm^-1). */
   onTraceClick: (positionCm1: number, visibleWidthCm1: number) => void;
@@ -64,6 +67,8 @@ const DOUBLE_CLICK_PX = 6;
 
 /** Peak read-out for tests: up to this many free markers' positions. */
 const FREE_PEAKS_LISTED = 40;
+/** Rung-label read-out for tests: up to this many texts. */
+const RUNG_LABELS_LISTED = 40;
 
 export function PlotOverlay(props: PlotOverlayProps) {
   const canvasRef = useRef<HTMLCanvasElement>(null);
@@ -120,6 +125,9 @@ export function PlotOverlay(props: PlotOverlayProps) {
     const data = canvas.dataset;
     if (views.ladder) {
       data.rungsDrawn = String(ladderScenePaint(ctx, p.scene, p.markers, p.cursorLine, views.ladder, theme));
+      const labels = rungSymmetryLabelsPaint(ctx, p.scene, p.rungLabels ?? null, p.cursorLine, views.ladder, theme);
+      data.rungLabelsDrawn = String(labels.count);
+      data.rungLabels = labels.texts.slice(0, RUNG_LABELS_LISTED).join('|');
       const strongest = ladderStrongestInView(p.scene, p.lines, views.ladder);
       data.strongestRung = strongest ? `${strongest.xPx.toFixed(1)},${strongest.yPx.toFixed(1)}` : '';
     }
@@ -180,7 +188,7 @@ export function PlotOverlay(props: PlotOverlayProps) {
     paintSoon();
     // The listed props are what the canvas shows; paintSoon is a fresh closure each render on purpose.
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [props.scene, props.markers, props.cursorLine, props.peaks, props.isDark]);
+  }, [props.scene, props.markers, props.cursorLine, props.peaks, props.isDark, props.rungLabels]);
 
   useEffect(() => {
     const canvas = canvasRef.current;

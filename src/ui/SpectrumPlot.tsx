@@ -12,13 +12,14 @@ import { peakIdAt, peakIdPosition } from '../state/assignLogic';
 import { messagePost } from '../state/actionsCore';
 import { bandActivate } from '../state/actionsSystem';
 import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated } from '../state/selectors';
-import { assignmentBandKey, selectDrawnBands, type DrawnBands } from '../state/selectorsSystem';
+import { assignmentBandKey, selectAssignmentDrawnLines, selectDrawnBands, type DrawnBands } from '../state/selectorsSystem';
 import { benchStore, useBench } from '../state/store';
 import { CandidateList } from './CandidateList';
 import { BandSwitches } from './BandSwitches';
 import { bandRowsBuild } from './plot/bandRows';
 import { ladderRowsBuild, type LadderRow } from './plot/ladderGeometry';
 import { ladderMarkersBuild, ladderSceneBuild } from './plot/ladderScene';
+import { rungSymmetryTexts } from './plot/rungSymmetryLabels';
 import { peakLayerBase, peakLayerBuild } from './plot/peakLayer';
 import { spectrumFigure } from './plot/toTraces';
 import { PlotlyChart } from './PlotlyChart';
@@ -115,6 +116,7 @@ export function SpectrumPlot() {
   const hiddenRows = useBench((s) => s.hiddenRows);
   const shape = useBench((s) => s.model.shape);
   const rowsA = useBench(selectAssignmentRows);
+  const drawnLineOf = useBench(selectAssignmentDrawnLines);
   const selectedObservedCm1 = useBench((s) =>
     s.selectedAssignmentId ? (s.assignments.find((a) => a.id === s.selectedAssignmentId)?.observedCm1 ?? null) : null,
   );
@@ -137,8 +139,10 @@ export function SpectrumPlot() {
     const entries = drawn.entries;
     if (!entries) return ladderMarkersBuild(rowsA, scene);
     const indexOfKey = new Map(entries.map((e, i) => [e.key, i]));
-    return ladderMarkersBuild(rowsA, scene, (r) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1);
-  }, [rowsA, scene, drawn, activeBandKey]);
+    // Rows and drawn lines are both parallel to the assignments (until the next render brings both anew).
+    const lineOf = drawnLineOf && drawnLineOf.length === rowsA.length ? drawnLineOf : null;
+    return ladderMarkersBuild(rowsA, scene, (r) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1, lineOf);
+  }, [rowsA, scene, drawn, activeBandKey, drawnLineOf]);
   const cursorKey = cursor ? `${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}` : '';
   const cursorLine = cursor ? (drawn.indexOf.get(drawn.entries ? `${activeBandKey}|${cursorKey}` : cursorKey) ?? -1) : -1;
   const levels = drawn.levels;
@@ -146,6 +150,7 @@ export function SpectrumPlot() {
     () => (levels ? (i: number) => (i >= 0 && i < levels.tagUpper.length ? lineLevelLabel(levels, i) : null) : undefined),
     [levels],
   );
+  const rungLabels = useMemo(() => rungSymmetryTexts(levels, drawn.lines.count), [levels, drawn.lines.count]);
   const overlayRef = useRef<PlotOverlayHandle>(null);
   const assignedPeaks = useMemo(() => {
     const m = new Map<string, string>();
@@ -244,6 +249,7 @@ export function SpectrumPlot() {
           isDark={isDark}
           onRungClick={onRungLine}
           levelsOf={levelsOf}
+          rungLabels={rungLabels}
           onPeakClick={peakClick}
           // Look for a peak within 1 % of the visible width (at least 0.01 cm^-1) of the click.
           onTraceClick={(nu, widthCm1) => traceClickAt(nu, Math.max(0.01, 0.01 * widthCm1))}

@@ -165,6 +165,91 @@ describe('symmetry labels and interaction constants on the page', () => {
     await context.close();
   });
 
+  it('shows o − c near 0 and no far flag for lines assigned at their drawn positions, and labels rungs with their symmetry', async () => {
+    // Peaks at the drawn positions of every nu4 and nu3 line in a 0.8 cm^-1 window around the
+    // K'' = 3 pair above (E lines, both members of the A1/A2 pair, coupled-state lines): assigned one
+    // by one from the candidate list (the candidate at distance 0), each row's calc must be its peak.
+    const { context, page, log } = await openPage(browser);
+    await gotoApp(page);
+    const dir = inject('fixtureDir');
+    const systemPath = join(dir, 'lb3v-system-2.json');
+    writeFileSync(systemPath, JSON.stringify(SYSTEM));
+    const all = systemLines(systemFileParse(JSON.stringify(SYSTEM)).model, { minIntensity: 0.002 });
+    const centre = files().lineCm1;
+    const picks: number[] = [];
+    for (let i = 0; i < all.count; i++) if (Math.abs(all.wavenumberCm1[i] - centre) < 0.4) picks.push(i);
+    const near = [...new Set(picks.map((i) => all.wavenumberCm1[i].toFixed(5)))].map(Number).sort((a, b) => a - b);
+    // A peak for each line position with no other within 0.02 cm^-1 (5 HWHM: no blends; an unsplit
+    // pair's two lines are one position); at least the K'' = 3 pair member of the test above.
+    // Peak heights follow the lines' intensities (the candidate list weighs height agreement); lines
+    // under a third of the strongest get no peak.
+    const isolated = near.filter((p, k) => (k === 0 || p - near[k - 1] > 0.02) && (k === near.length - 1 || near[k + 1] - p > 0.02));
+    const strength = new Map(isolated.map((p) => [p, 0]));
+    for (const i of picks) {
+      const p = Number(all.wavenumberCm1[i].toFixed(5));
+      if (strength.has(p)) strength.set(p, strength.get(p)! + all.intensity[i]);
+    }
+    const strongest = Math.max(...strength.values());
+    const positions = isolated.filter((p) => strength.get(p)! >= strongest / 3);
+    expect(positions.length).toBeGreaterThanOrEqual(3);
+    expect(positions.some((p) => Math.abs(p - centre) < 1e-5)).toBe(true);
+    const rows = ['wavenumber,absorbance'];
+    for (let k = 0; k <= 1000; k++) {
+      const nu = centre - 0.5 + k * 0.001;
+      let a = 0.02;
+      for (const p of positions) a += ((0.8 * strength.get(p)!) / strongest) * Math.exp(-Math.LN2 * ((nu - p) / 0.004) ** 2);
+      rows.push(`${nu.toFixed(5)},${a.toFixed(6)}`);
+    }
+    const tracePath = join(dir, 'lb3v-trace-2.csv');
+    writeFileSync(tracePath, rows.join('\n') + '\n');
+    await page.locator('[data-testid=file-input]').setInputFiles(systemPath);
+    await page.waitForSelector('[data-testid=system-tree] [data-interaction=v3v4]', { timeout: 30_000 });
+    await page.locator('[data-testid=file-input]').setInputFiles(tracePath);
+    await expect.poll(() => page.locator('[data-testid=file-name]').textContent(), { timeout: 30_000 }).toBe('lb3v-trace-2.csv');
+    const overlay = page.locator('[data-testid=plot-overlay]');
+    for (let n = 0; n < positions.length; n++) {
+      await expect.poll(() => overlay.evaluate((el) => (el as HTMLElement).dataset.freePeaks ?? ''), { timeout: 30_000 }).not.toBe('');
+      const box = (await overlay.boundingBox())!;
+      const free = ((await overlay.getAttribute('data-free-peaks')) ?? '').split(';').filter(Boolean)[0].split(',').map(Number);
+      await page.mouse.click(box.x + free[0], box.y + free[1]);
+      await page.waitForSelector('[data-testid=candidates]', { timeout: 20_000 });
+      // The candidate at distance 0 (|distance| < 5e-4 cm^-1, the peak's fitted centre against the line).
+      const texts = await page.locator('[data-testid=candidates] tbody tr').allTextContents();
+      const dist = await page.locator('[data-testid=candidates] tbody tr td:nth-child(4)').allTextContents();
+      const at = dist.findIndex((d) => Math.abs(Number(d.replace('−', '-'))) < 5e-4);
+      expect(at, `no candidate at the peak: ${texts.join(' | ')}`).toBeGreaterThanOrEqual(0);
+      await page.locator(`[data-testid=candidate-${at}]`).click();
+      await expect.poll(() => assignedCount(page), { timeout: 20_000 }).toBe(n + 1);
+    }
+    // Every row: |o − c| below 5e-4 cm^-1 (before: ~0.5 on the E-state and pair lines), no flag.
+    const omc = await page.locator('[data-testid=row-omc]').allTextContents();
+    expect(omc).toHaveLength(positions.length);
+    for (const t of omc) expect(Math.abs(Number(t))).toBeLessThan(5e-4);
+    expect(await page.locator('[data-testid=assignment-row].flagged').count()).toBe(0);
+    expect(await page.locator('[data-testid=assignment-count]').textContent()).not.toContain('far');
+    await page.screenshot({ path: `${SHOTS}/63-symmetry-table-omc.png` });
+
+    // Rung labels: with nu3 switched off and only the ΔK = −1, K'' = 2…4 rows of nu4 chosen, rows are
+    // tall enough for them (neighbouring pQ3 rungs are ≥ 0.03 cm^-1 apart, ≥ 30 px at this zoom).
+    await page.getByRole('checkbox', { name: 'Show the ladders of band nu3 (LB-3v)' }).uncheck();
+    await page.getByRole('button', { name: /^Ladders \(/ }).click();
+    await page.locator('#ladder-rows').getByRole('button', { name: 'None' }).click();
+    const rowChecks = page.locator('#ladder-rows .row-check');
+    const names = await rowChecks.allTextContents();
+    for (let k = 0; k < names.length; k++) if (/ΔK=-1, K''=[234](?!\d)/.test(names[k])) await rowChecks.nth(k).locator('input').check();
+    await page.locator('#ladder-rows').getByRole('button', { name: 'Close ladder list' }).click();
+    await expect
+      .poll(() => overlay.evaluate((el) => Number((el as HTMLElement).dataset.rungLabelsDrawn ?? 0)), { timeout: 20_000 })
+      .toBeGreaterThan(0);
+    const labels = ((await overlay.getAttribute('data-rung-labels')) ?? '').split('|');
+    expect(labels).toContain('A1←A2');
+    expect(labels).toContain('A2←A1');
+    expect(labels.some((t) => t.startsWith('E←'))).toBe(true);
+    await page.screenshot({ path: `${SHOTS}/64-symmetry-rung-labels.png` });
+    expect(log.pageErrors).toEqual([]);
+    await context.close();
+  });
+
   it('opens a single-band model file with q22 and a point group as a one-band system', async () => {
     const { context, page, log } = await openPage(browser);
     await gotoApp(page);

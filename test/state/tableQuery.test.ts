@@ -50,6 +50,11 @@ describe('tableRowsQuery', () => {
     expect(tableRowsQuery(rows, { ...base, jMin: 4, jMax: 7 }).map((r) => r.a.id)).toEqual(['c', 'a']);
     expect(tableRowsQuery(rows, { ...base, minAbsOmcCm1: 0.005 }).map((r) => r.a.id)).toEqual(['a', 'b']);
   });
+  it('keeps a row without a calculated position (o − c NaN) in view unless an |o − c| bound is set', () => {
+    const noCalc = rows.map((r) => (r.a.id === 'c' ? { ...r, calcCm1: NaN, omcCm1: NaN } : r));
+    expect(tableRowsQuery(noCalc, base).map((r) => r.a.id)).toContain('c');
+    expect(tableRowsQuery(noCalc, { ...base, minAbsOmcCm1: 0.005 }).map((r) => r.a.id)).not.toContain('c');
+  });
 });
 
 /** The query as first written (per-row key arrays, sort of row objects): the definition to match. */
@@ -60,7 +65,7 @@ function queryReference(rs: readonly AssignmentRow[], q: TableQuery): Assignment
       (q.kLower === null || r.a.kLower === q.kLower) &&
       (q.jMin === null || r.a.jLower >= q.jMin) &&
       (q.jMax === null || r.a.jLower <= q.jMax) &&
-      Math.abs(r.omcCm1) >= q.minAbsOmcCm1,
+      (q.minAbsOmcCm1 <= 0 || Math.abs(r.omcCm1) >= q.minAbsOmcCm1),
   );
   const key: Record<TableQuery['sortKey'], (r: AssignmentRow) => number[]> = {
     label: (r) => [-r.deltaK, r.a.kLower, r.deltaJ, r.a.jLower],

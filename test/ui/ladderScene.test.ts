@@ -68,6 +68,34 @@ function rowOf(a: Assignment, lines: LineList, i: number, over: Partial<Assignme
   };
 }
 
+describe('ladderMarkersBuild with the drawn line of each row', () => {
+  it('places a marker on the rung of the line given, not the first with its quanta (split pairs share J and K)', () => {
+    const { lines, scene } = setUp();
+    const i = lineOf(lines, 3, 1, 2, 0);
+    const j = lineOf(lines, 4, 1, 3, 0);
+    expect(i).toBeGreaterThanOrEqual(0);
+    expect(j).toBeGreaterThanOrEqual(0);
+    const a: Assignment = {
+      id: 'a1',
+      jUpper: 3,
+      kUpper: 1,
+      jLower: 2,
+      kLower: 0,
+      observedCm1: lines.wavenumberCm1[i],
+      uncertaintyCm1: 0.001,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+    };
+    // The row says line i by its quanta; the drawn-line map says j: the map wins.
+    const m = ladderMarkersBuild([rowOf(a, lines, i)], scene, undefined, Int32Array.of(j));
+    expect(m.lineIndex[0]).toBe(j);
+    expect(m.nuCm1[0]).toBe(lines.wavenumberCm1[j]);
+    // A row whose line is not drawn (−1) gets no marker.
+    expect(ladderMarkersBuild([rowOf(a, lines, i)], scene, undefined, Int32Array.of(-1)).nuCm1.length).toBe(0);
+  });
+});
+
 describe('ladderSceneBuild', () => {
   it('holds one rung per line of the ladders, at the line position, with the rung extent of its branch and intensity', () => {
     const { lines, rows, scene } = setUp();

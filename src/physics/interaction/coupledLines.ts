@@ -22,7 +22,7 @@ import { honlLondonSigned } from '../system/bandRules';
 import type { LevelSet } from '../system/levelTypes';
 import type { SystemSpecies } from '../system/systemModel';
 import type { CoupledLevels } from './coupledLevels';
-import type { StateLevelSource } from './speciesLevelSources';
+import { coupledLevelSpecies, type StateLevelSource } from './speciesLevelSources';
 
 /**
  * Sign of the Clebsch–Gordan coefficient ⟨J'' k'' 1 q | J' k''+q⟩ (+1, −1, or 0 where it vanishes
@@ -162,12 +162,14 @@ export function coupledBandEnumerate(
   if (!(bandStrength > 0)) return;
   const cs = upperSource.coupled!;
   const moments = groupMoments(species, lowerName, upperSource);
-  const upperSets = Array.from({ length: jMax + 2 }, (_, J) => stateView(cs.groupLevels(J, upperSource.values), cs.stateIndex));
+  const upperSets = Array.from({ length: jMax + 2 }, (_, J) =>
+    stateView(cs.groupLevels(J, upperSource.values), cs.stateIndex, cs.hasSpecies),
+  );
   const cut = 1e-12 * bandStrength;
   for (let J = 0; J <= jMax; J++) {
     const lc = lowerSource.coupled;
     const low = lc
-      ? stateView(lc.groupLevels(J, lowerSource.values), lc.stateIndex)
+      ? stateView(lc.groupLevels(J, lowerSource.values), lc.stateIndex, lc.hasSpecies)
       : { set: copyLevelSet(lowerSource.provider.levels(J, lowerSource.values, kMax)), levels: null, index: null };
     for (let i = 0; i < low.set.count; i++) {
       if (low.set.K[i] > kMax) continue;
@@ -198,7 +200,11 @@ function copyLevelSet(raw: LevelSet): LevelSet {
 }
 
 /** One state's levels out of a group's, as a LevelSet (gradients omitted) with their indices in the group's. */
-function stateView(levels: CoupledLevels, stateIndex: number): { set: LevelSet; levels: CoupledLevels; index: Int32Array } {
+function stateView(
+  levels: CoupledLevels,
+  stateIndex: number,
+  hasSpecies: boolean,
+): { set: LevelSet; levels: CoupledLevels; index: Int32Array } {
   const pick: number[] = [];
   for (let i = 0; i < levels.count; i++) if (levels.state[i] === stateIndex) pick.push(i);
   return {
@@ -213,6 +219,7 @@ function stateView(levels: CoupledLevels, stateIndex: number): { set: LevelSet; 
       energyCm1: Float64Array.from(pick, (i) => levels.energyCm1[i]),
       gradient: new Float64Array(0),
       componentCount: Uint8Array.from(pick, (i) => levels.componentCount[i]),
+      ...(hasSpecies ? { species: pick.map((i) => coupledLevelSpecies(levels.sigma[i])) } : {}),
     },
   };
 }

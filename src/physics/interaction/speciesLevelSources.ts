@@ -20,6 +20,33 @@ export interface CoupledStateSource {
   stateIndex: number;
   /** The whole group's levels at J (every state, every K; cached per J and constants). */
   groupLevels(J: number, values: Float64Array): CoupledLevels;
+  /** The group's levels carry their symmetry species (coupledLevelSpecies); false where it is not known. */
+  hasSpecies: boolean;
+}
+
+/**
+ * Symmetry species in C3v(M) of a coupled level, from its block: the class-1 block (k − ℓ ≢ 0 mod 3)
+ * gives E levels, the σv = +1 and −1 halves of class 0 give A1 and A2 levels; every eigenstate of a
+ * block, whatever its largest component, shares it. Valid under coupledLevels' σv phases, which take
+ * the nondegenerate states as A1 and the degenerate ones as E (so K = 0, even J of an A1 state is A1).
+ * Source: Bunker and Jensen, Molecular Symmetry and Spectroscopy (1998), the C3v(M) species of
+ * symmetric-top functions (from memory); the block rule follows from H commuting with σv.
+ * @param sigma the level's σv eigenvalue (CoupledLevels.sigma: ±1, or 0 for an E level)
+ */
+export function coupledLevelSpecies(sigma: number): string {
+  return sigma > 0 ? 'A1' : sigma < 0 ? 'A2' : 'E';
+}
+
+/**
+ * Whether the coupled levels of these states can be named by C3v(M) species: the species declares
+ * C3v and each state is of the species coupledLevels' phases assume (A1 nondegenerate, E degenerate).
+ * Otherwise (no point group, D3h, an A2 state) their species stay unknown ('').
+ */
+function coupledHasSpecies(species: SystemSpecies, states: readonly SystemSpecies['states'][number][]): boolean {
+  return (
+    species.pointGroup === 'C3v' &&
+    states.every((st) => st.symmetry !== undefined && st.symmetry.vibSpecies === (st.isDegenerate ? 'E' : 'A1'))
+  );
 }
 
 /** Options of speciesLevelSources. */
@@ -113,12 +140,13 @@ export function speciesLevelSources(species: SystemSpecies, options: SpeciesLeve
       cache.set(J, { values: v.slice(), levels });
       return levels;
     };
+    const hasSpecies = coupledHasSpecies(species, states);
     states.forEach((st, stateIndex) => {
       out.set(st.name, {
-        provider: coupledStateProvider(group, stateIndex, groupLevels),
+        provider: coupledStateProvider(group, stateIndex, groupLevels, hasSpecies),
         values: values.slice(),
         owners: group.parameters.map((p) => ({ ...p })),
-        coupled: { group, stateIndex, groupLevels },
+        coupled: { group, stateIndex, groupLevels, hasSpecies },
       });
     });
   });
@@ -146,6 +174,7 @@ function coupledStateProvider(
   group: CoupledGroup,
   stateIndex: number,
   groupLevels: (J: number, v: Float64Array) => CoupledLevels,
+  hasSpecies: boolean,
 ): LevelProvider {
   const nP = group.parameters.length;
   const parameterNames = group.parameters.map((p) => `${p.owner}.${p.name}`);
@@ -164,6 +193,7 @@ function coupledStateProvider(
       energyCm1: Float64Array.from(pick, (i) => all.energyCm1[i]),
       gradient,
       componentCount: Uint8Array.from(pick, (i) => all.componentCount[i]),
+      ...(hasSpecies ? { species: pick.map((i) => coupledLevelSpecies(all.sigma[i])) } : {}),
     };
   };
   return { parameterNames, isDegenerate: group.states[stateIndex].isDegenerate, levels };

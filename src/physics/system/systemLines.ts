@@ -221,6 +221,8 @@ export function bandEnumerate(
 ): void {
   const lowerState = systemStateFind(species, lowerName);
   const upperState = systemStateFind(species, upperName);
+  let lowerProvider = systemStateProvider(species.shape, lowerState);
+  let lowerValues = systemStateValues(lowerProvider, lowerState);
   if (species.interactions?.length || species.states.some((s) => 'h3' in s.constants)) {
     // Coupled upper states: lines and intensities from the mixed levels (physics/interaction).
     const sources = speciesLevelSources(species);
@@ -229,10 +231,15 @@ export function bandEnumerate(
       coupledBandEnumerate(species, lowerName, upperName, band?.strength ?? 1, jMax, kMax, sources, visit);
       return;
     }
+    // A coupled lower state (a hot band from it, or a ground state with h3) below a state of its
+    // own: its levels are the mixed ones, as in the fit (fit/systemFit) and the line resolution.
+    const lower = sources.get(lowerName)!;
+    if (lower.coupled) {
+      lowerProvider = lower.provider;
+      lowerValues = lower.values;
+    }
   }
-  const lowerProvider = systemStateProvider(species.shape, lowerState);
   const upperProvider = systemStateProvider(species.shape, upperState);
-  const lowerValues = systemStateValues(lowerProvider, lowerState);
   const upperValues = systemStateValues(upperProvider, upperState);
   const isLinear = species.shape === 'linear';
   const kLower = isLinear ? 1 : kMax;

@@ -40,6 +40,8 @@ export interface LadderScene {
   rowNuCm1: Float64Array[];
   /** Rung index of a line by its quanta (quantaNumber), for placing assigned markers. */
   rungOf: Map<number, number>;
+  /** Rung index of each line of the line list (−1 for a line in no shown row). */
+  rungOfLine: Int32Array;
   rows: readonly LadderRow[];
 }
 
@@ -222,14 +224,29 @@ export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, is
   const rowNuCm1 = rowOrder.map((order) => Float64Array.from(order, (q) => nuCm1[q]));
   const rowLabels = rows.map((r) => markupRuns(r.tickHtml));
   const rungOf = new Map<number, number>();
+  const rungOfLine = new Int32Array(lines.count).fill(-1);
   for (let q = 0; q < n; q++) {
+    rungOfLine[lineIndex[q]] = q;
     const i = lineIndex[q];
     rungOf.set(
       quantaNumber(lines.jUpper[i], lines.kUpper[i], lines.jLower[i], lines.kLower[i]) + (lineTag ? lineTag[i] * QUANTA_TAG_STEP : 0),
       q,
     );
   }
-  return { rowLabels, nuCm1, yBottom, yTop, lineIndex, rowIndex, groups: [...groups.values()], rowOrder, rowNuCm1, rungOf, rows };
+  return {
+    rowLabels,
+    nuCm1,
+    yBottom,
+    yTop,
+    lineIndex,
+    rowIndex,
+    groups: [...groups.values()],
+    rowOrder,
+    rowNuCm1,
+    rungOf,
+    rungOfLine,
+    rows,
+  };
 }
 
 /** The tip of rung q on the ladder axis: the lower end of a P rung (it hangs from its row line), else the upper (as rungTip). */
@@ -243,11 +260,15 @@ function rungTipAt(scene: LadderScene, q: number): number {
  * @param assignments rows of the assignments table
  * @param scene from ladderSceneBuild
  * @param tagOf the line tag of an assignment (its band; see ladderSceneBuild), or -1 when its band is not drawn
+ * @param lineOf per assignment (parallel to `assignments`), the index of the line it names in the
+ *   scene's line list, or −1 when that line is not drawn: where given it places the marker (the two
+ *   members of a split A1/A2 or s/a pair share J and K, so the quanta alone cannot tell their rungs apart)
  */
 export function ladderMarkersBuild(
   assignments: readonly AssignmentRow[],
   scene: LadderScene,
   tagOf?: (row: AssignmentRow) => number,
+  lineOf?: Int32Array | null,
 ): LadderMarkers {
   const n = assignments.length;
   const nu = new Float64Array(n);
@@ -255,11 +276,18 @@ export function ladderMarkersBuild(
   const flag = new Uint8Array(n);
   const line = new Int32Array(n);
   const kept: AssignmentRow[] = [];
-  for (const r of assignments) {
+  for (let m = 0; m < n; m++) {
+    const r = assignments[m];
     const a = r.a;
-    const tag = tagOf ? tagOf(r) : 0;
-    if (tag < 0) continue;
-    const q = scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower) + tag * QUANTA_TAG_STEP);
+    let q: number | undefined;
+    if (lineOf) {
+      const line = lineOf[m];
+      q = line >= 0 && line < scene.rungOfLine.length && scene.rungOfLine[line] >= 0 ? scene.rungOfLine[line] : undefined;
+    } else {
+      const tag = tagOf ? tagOf(r) : 0;
+      if (tag < 0) continue;
+      q = scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower) + tag * QUANTA_TAG_STEP);
+    }
     if (q === undefined) continue;
     const k = kept.length;
     nu[k] = scene.nuCm1[q];
