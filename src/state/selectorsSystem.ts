@@ -9,6 +9,7 @@ import type { LineList } from '../physics/model';
 import type { SystemModel } from '../physics/system/systemModel';
 import { memoLast } from './memo';
 import type { BandModel } from '../physics/model';
+import type { Assignment } from '../fit/assignment';
 import { lineLevelLabel, lineLevelLabelsSubset, type LineLevelLabel, type LineLevelLabels } from './systemLevelLabels';
 import { predictedBandCompute, selectBand, type PredictedBand } from './selectors';
 import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
@@ -232,18 +233,30 @@ const loomisBandSelect = memoLast(
   },
 );
 
-const assignmentLevels = memoLast(
-  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): (LineLevelLabel | null)[] => {
-    const { levels, entries, bandOfLine, lines } = drawn;
-    if (!levels || !entries || !bandOfLine) return assignments.map(() => null);
-    const byKey = new Map<string, number[]>();
+/**
+ * The drawn lines by band key and quanta, and each assignment's level labels once found: built once
+ * per drawn set and active band, so a new row costs one lookup, not a pass over 20,000 lines and
+ * every row (assignments are immutable, so an object keeps its answer).
+ */
+const assignmentLevelIndex = memoLast((drawn: DrawnBands, _activeBandKey: string | null) => {
+  const { entries, bandOfLine, lines } = drawn;
+  const byKey = new Map<string, number[]>();
+  if (entries && bandOfLine)
     for (let i = 0; i < lines.count; i++) {
       const key = `${entries[bandOfLine[i]].key}|${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`;
       const list = byKey.get(key);
       if (list) list.push(i);
       else byKey.set(key, [i]);
     }
-    return assignments.map((a) => {
+  return { byKey, done: new WeakMap<Assignment, LineLevelLabel | null>() };
+});
+
+const assignmentLevels = memoLast(
+  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): (LineLevelLabel | null)[] => {
+    const { levels, entries, bandOfLine } = drawn;
+    if (!levels || !entries || !bandOfLine) return assignments.map(() => null);
+    const { byKey, done } = assignmentLevelIndex(drawn, activeBandKey);
+    const rowLevel = (a: Assignment): LineLevelLabel | null => {
       const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
       if (!list) return null;
       const fits = list.filter(
@@ -255,6 +268,13 @@ const assignmentLevels = memoLast(
       );
       // Only a line the row names alone: a row J and K leave open (an untagged row of a split pair) shows no symmetry.
       return fits.length === 1 ? lineLevelLabel(levels, fits[0]) : null;
+    };
+    return assignments.map((a) => {
+      const known = done.get(a);
+      if (known !== undefined) return known;
+      const found = rowLevel(a);
+      done.set(a, found);
+      return found;
     });
   },
 );

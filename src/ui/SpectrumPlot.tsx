@@ -11,7 +11,7 @@ import { viewSetXRange } from '../state/actionsView';
 import { peakIdAt, peakIdPosition } from '../state/assignLogic';
 import { messagePost } from '../state/actionsCore';
 import { bandActivate } from '../state/actionsSystem';
-import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated } from '../state/selectors';
+import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated, type AssignmentRow } from '../state/selectors';
 import { assignmentBandKey, selectDrawnBands, type DrawnBands } from '../state/selectorsSystem';
 import { benchStore, useBench } from '../state/store';
 import { CandidateList } from './CandidateList';
@@ -133,12 +133,20 @@ export function SpectrumPlot() {
     [drawn, shape, hiddenRows, isDark],
   );
   const scene = useMemo(() => ladderSceneBuild(rows, drawn.lines, isDark, drawn.bandOfLine ?? undefined), [rows, drawn, isDark]);
-  const markers = useMemo(() => {
+  // Each assignment's band index, kept per assignment object while the bands and the active band
+  // stay: a new row then costs one lookup instead of a band key string for every row.
+  const tagOf = useMemo(() => {
     const entries = drawn.entries;
-    if (!entries) return ladderMarkersBuild(rowsA, scene);
+    if (!entries) return undefined;
     const indexOfKey = new Map(entries.map((e, i) => [e.key, i]));
-    return ladderMarkersBuild(rowsA, scene, (r) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1);
-  }, [rowsA, scene, drawn, activeBandKey]);
+    const known = new WeakMap<AssignmentRow['a'], number>();
+    return (r: AssignmentRow) => {
+      let tag = known.get(r.a);
+      if (tag === undefined) known.set(r.a, (tag = indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1));
+      return tag;
+    };
+  }, [drawn.entries, activeBandKey]);
+  const markers = useMemo(() => ladderMarkersBuild(rowsA, scene, tagOf), [rowsA, scene, tagOf]);
   const cursorKey = cursor ? `${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}` : '';
   const cursorLine = cursor ? (drawn.indexOf.get(drawn.entries ? `${activeBandKey}|${cursorKey}` : cursorKey) ?? -1) : -1;
   const levels = drawn.levels;

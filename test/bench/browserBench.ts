@@ -700,6 +700,9 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
       continue;
     }
     const n = await assignedCount(page);
+    // The list scrolls (at most 45 % of the plot's height): a candidate below its fold must be
+    // scrolled into view first, else the click lands on the plot under the list.
+    await free.first().scrollIntoViewIfNeeded();
     const box = await free.first().boundingBox();
     if (!box) continue;
     await watchArm(page, 'rowCount', n + 1, 10_000);

@@ -127,6 +127,34 @@ describe('ladderScenePaint', () => {
     expect(rec.texts.every((t) => t.x < view.leftPx)).toBe(true);
   });
 
+  it('keeps each series sorted by position, so a view finds its rungs by bisection', () => {
+    const { scene } = setUp();
+    for (const g of scene.groups)
+      for (const s of g.series) for (let k = s.start + 1; k < s.end; k++) expect(scene.nuCm1[k]).toBeGreaterThanOrEqual(scene.nuCm1[k - 1]);
+  });
+
+  it('measures each row name once however often the panel is painted, and paints it at the same place', () => {
+    const { lines, rows, scene } = setUp();
+    const view = fullView(lines, rows.length);
+    const first = paintRecorder();
+    let measured = 0;
+    const measure = first.ctx.measureText.bind(first.ctx);
+    first.ctx.measureText = (t: string) => {
+      measured++;
+      return measure(t);
+    };
+    ladderScenePaint(first.ctx, scene, null, -1, view, theme);
+    const once = measured;
+    expect(once).toBeGreaterThan(0);
+    ladderScenePaint(first.ctx, scene, null, -1, { ...view, x0Cm1: view.x0Cm1 + 1 }, theme);
+    expect(measured).toBe(once);
+    // The second paint's names (widths from the cache) sit where a fresh scene puts them.
+    const fresh = paintRecorder();
+    ladderScenePaint(fresh.ctx, setUp().scene, null, -1, view, theme);
+    const n = fresh.texts.length;
+    expect(first.texts.slice(n)).toEqual(fresh.texts);
+  });
+
   it('leaves out rungs outside the visible range', () => {
     const { lines, rows, scene } = setUp();
     const view = { ...fullView(lines, rows.length), x0Cm1: 999, x1Cm1: 1001 };

@@ -16,7 +16,7 @@ import { sortedLowerBound } from './traceDecimate';
 export interface LadderStyleGroup {
   colour: string;
   widthPx: number;
-  /** Series of the group: index ranges [start, end) into the scene's rung arrays. */
+  /** Series of the group: index ranges [start, end) into the scene's rung arrays, each sorted by position. */
   series: { start: number; end: number; rowY: number }[];
 }
 
@@ -41,6 +41,11 @@ export interface LadderScene {
   /** Rung index of a line by its quanta (quantaNumber), for placing assigned markers. */
   rungOf: Map<number, number>;
   rows: readonly LadderRow[];
+  /**
+   * Widths of the row names' runs by font and text, CSS px, filled by the first paint: measuring
+   * text is the costly canvas call, and a view change does not change a name.
+   */
+  labelWidthsPx: Map<string, number>;
 }
 
 /**
@@ -148,18 +153,31 @@ export function markupPaint(
   yMiddle: number,
   sizePx: number,
   family: string,
+  widthsPx?: Map<string, number>,
 ): number {
   const small = Math.round(sizePx * 0.75 * 10) / 10;
   const fontOf = (r: MarkupRun) => `${r.kind === 'plain' ? sizePx : small}px ${family}`;
+  // Setting a font parses it: set it only when a run needs another one.
+  let font = '';
+  const use = (f: string) => {
+    if (f !== font) ctx.font = font = f;
+  };
   const widths = runs.map((r) => {
-    ctx.font = fontOf(r);
-    return ctx.measureText(r.text).width;
+    const f = fontOf(r);
+    const key = `${f}|${r.text}`;
+    let w = widthsPx?.get(key);
+    if (w === undefined) {
+      use(f);
+      w = ctx.measureText(r.text).width;
+      widthsPx?.set(key, w);
+    }
+    return w;
   });
   const total = widths.reduce((a, b) => a + b, 0);
   let x = xRight - total;
   ctx.textBaseline = 'middle';
   runs.forEach((r, i) => {
-    ctx.font = fontOf(r);
+    use(fontOf(r));
     const dy = r.kind === 'sup' ? -0.35 * sizePx : r.kind === 'sub' ? 0.3 * sizePx : 0;
     ctx.fillText(r.text, x, yMiddle + dy);
     x += widths[i];
@@ -205,7 +223,9 @@ export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, is
       let g = groups.get(key);
       if (!g) groups.set(key, (g = { colour, widthPx, series: [] }));
       const start = k;
-      for (const i of ladder.lineIndex) {
+      // By position within the series, so a paint finds the rungs in view by bisection.
+      const byPosition = Array.from(ladder.lineIndex).sort((a, b) => lines.wavenumberCm1[a] - lines.wavenumberCm1[b]);
+      for (const i of byPosition) {
         const [b, t] = rungExtent(ladder.deltaJ, lines.intensity[i]);
         nuCm1[k] = lines.wavenumberCm1[i];
         yBottom[k] = row.y + b;
@@ -229,7 +249,20 @@ export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, is
       q,
     );
   }
-  return { rowLabels, nuCm1, yBottom, yTop, lineIndex, rowIndex, groups: [...groups.values()], rowOrder, rowNuCm1, rungOf, rows };
+  return {
+    rowLabels,
+    nuCm1,
+    yBottom,
+    yTop,
+    lineIndex,
+    rowIndex,
+    groups: [...groups.values()],
+    rowOrder,
+    rowNuCm1,
+    rungOf,
+    rows,
+    labelWidthsPx: new Map(),
+  };
 }
 
 /** The tip of rung q on the ladder axis: the lower end of a P rung (it hangs from its row line), else the upper (as rungTip). */
@@ -312,7 +345,7 @@ export function ladderScenePaint(
   scene.rows.forEach((row, r) => {
     const y = py(row.y);
     if (y >= view.topPx - 1 && y <= view.topPx + view.heightPx + 1)
-      markupPaint(ctx, scene.rowLabels[r], view.leftPx - 6, y, sizePx, LABEL_FONT);
+      markupPaint(ctx, scene.rowLabels[r], view.leftPx - 6, y, sizePx, LABEL_FONT, scene.labelWidthsPx);
   });
   ctx.save();
   ctx.beginPath();
@@ -326,9 +359,9 @@ export function ladderScenePaint(
     for (const s of g.series) {
       let first = Infinity;
       let last = -Infinity;
-      for (let k = s.start; k < s.end; k++) {
+      for (let k = lowerBoundIn(scene.nuCm1, s.start, s.end, lo - pad); k < s.end; k++) {
         const nu = scene.nuCm1[k];
-        if (nu < lo - pad || nu > hi + pad) continue;
+        if (nu > hi + pad) break;
         // Centre of a device pixel column keeps thin rungs crisp.
         const x = Math.round(px(nu)) + 0.5;
         ctx.moveTo(x, py(scene.yBottom[k]));
@@ -359,6 +392,18 @@ export function ladderScenePaint(
   }
   ctx.restore();
   return drawn;
+}
+
+/** First index in [start, end) of an ascending array whose value is >= x (end when none). */
+function lowerBoundIn(sorted: Float64Array, start: number, end: number, x: number): number {
+  let a = start;
+  let b = end;
+  while (a < b) {
+    const m = (a + b) >>> 1;
+    if (sorted[m] < x) a = m + 1;
+    else b = m;
+  }
+  return a;
 }
 
 /** Fill the current path of circles as assigned dots with a thin paper-coloured ring (ladders and peaks alike). */
