@@ -81,10 +81,20 @@ const heightScaleOf = memoLast((peaks: PeakList, intensity: Float64Array) =>
  * Keys (band key | quanta | tags) of the assigned lines of a several-band session: built once per
  * change of the table, not once per peak clicked.
  */
-const assignedSystemKeys = memoLast(
-  (assignments: BenchState['assignments'], activeBandKey: string | null) =>
-    new Set(assignments.map((a) => `${assignmentBandKey({ activeBandKey }, a)}|${quantaKey(a)}|${a.tagUpper ?? ''}|${a.tagLower ?? ''}`)),
-);
+const assignedSystemKeys = memoLast((assignments: BenchState['assignments'], activeBandKey: string | null) => {
+  const known = assignedKeyCache(activeBandKey);
+  const keys = new Set<string>();
+  for (const a of assignments) {
+    let key = known.get(a);
+    if (key === undefined)
+      known.set(a, (key = `${assignmentBandKey({ activeBandKey }, a)}|${quantaKey(a)}|${a.tagUpper ?? ''}|${a.tagLower ?? ''}`));
+    keys.add(key);
+  }
+  return keys;
+});
+
+/** Each assignment object's key while the active band stays (assignments are immutable). */
+const assignedKeyCache = memoLast((_activeBandKey: string | null) => new WeakMap<Assignment, string>());
 
 /** Height scale from the assignments (≥ 3 single peaks), else the rough rank-matched guess. */
 function candidateHeightScale(ctx: MatchSingleContext, assignments: BenchState['assignments']): number {

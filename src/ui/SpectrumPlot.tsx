@@ -133,20 +133,20 @@ export function SpectrumPlot() {
     [drawn, shape, hiddenRows, isDark],
   );
   const scene = useMemo(() => ladderSceneBuild(rows, drawn.lines, isDark, drawn.bandOfLine ?? undefined), [rows, drawn, isDark]);
-  // Each assignment's band index, kept per assignment object while the bands and the active band
-  // stay: a new row then costs one lookup instead of a band key string for every row.
+  // Each assignment's band index (its line tag in the scene), −1 when its band is not drawn.
   const tagOf = useMemo(() => {
     const entries = drawn.entries;
     if (!entries) return undefined;
     const indexOfKey = new Map(entries.map((e, i) => [e.key, i]));
-    const known = new WeakMap<AssignmentRow['a'], number>();
-    return (r: AssignmentRow) => {
-      let tag = known.get(r.a);
-      if (tag === undefined) known.set(r.a, (tag = indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1));
-      return tag;
-    };
+    return (r: AssignmentRow) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1;
   }, [drawn.entries, activeBandKey]);
-  const markers = useMemo(() => ladderMarkersBuild(rowsA, scene, tagOf), [rowsA, scene, tagOf]);
+  // Markers of the table's rows, with the rung of each assignment object kept while the scene and
+  // the band index stay (a new row then costs one lookup).
+  const markersOf = useMemo(() => {
+    const rungOfAssignment = new WeakMap<AssignmentRow['a'], number>();
+    return (rows: readonly AssignmentRow[]) => ladderMarkersBuild(rows, scene, tagOf, rungOfAssignment);
+  }, [scene, tagOf]);
+  const markers = useMemo(() => markersOf(rowsA), [markersOf, rowsA]);
   const cursorKey = cursor ? `${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}` : '';
   const cursorLine = cursor ? (drawn.indexOf.get(drawn.entries ? `${activeBandKey}|${cursorKey}` : cursorKey) ?? -1) : -1;
   const levels = drawn.levels;

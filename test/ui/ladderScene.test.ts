@@ -191,6 +191,18 @@ describe('ladderScenePaint', () => {
     const partial = ladderSceneBuild(ladderRowsBuild(bandLadders(lines, 'prolate'), 'prolate', new Set([hiddenKey])), lines, false);
     expect(Array.from(ladderMarkersBuild(few, partial).lineIndex)).not.toContain(1);
     expect(Array.from(markers.isFlagged)).toEqual([0, 0, 1]);
+    // With a rung cache the markers are the same, and a second build (one row added, one row's flag
+    // changed) looks up only the new assignment; the flag is read from the row each time.
+    const cache = new WeakMap<Assignment, number>();
+    let looked = 0;
+    const counted = () => (looked++, 0);
+    expect(ladderMarkersBuild([...few, unpredicted], scene, counted, cache)).toEqual(markers);
+    expect(looked).toBe(4);
+    const more = [rowOf(few[0].a, lines, 0, { isFar: true }), ...few.slice(1), unpredicted, rowOf(mk(3), lines, 3)];
+    const again = ladderMarkersBuild(more, scene, counted, cache);
+    expect(looked).toBe(5);
+    expect(again).toEqual(ladderMarkersBuild(more, scene));
+    expect(Array.from(again.isFlagged)).toEqual([1, 0, 1, 0]);
     for (let k = 0; k < 3; k++) {
       const i = markers.lineIndex[k];
       const row = rows.find((r) => r.deltaK === lines.kUpper[i] - lines.kLower[i] && r.kLower === lines.kLower[i])!;

@@ -276,11 +276,15 @@ function rungTipAt(scene: LadderScene, q: number): number {
  * @param assignments rows of the assignments table
  * @param scene from ladderSceneBuild
  * @param tagOf the line tag of an assignment (its band; see ladderSceneBuild), or -1 when its band is not drawn
+ * @param rungOfAssignment the rung (or -1) each assignment object was found at, kept between calls
+ *   for the same scene and tagOf: assignments are immutable, so a new row costs one lookup, not one
+ *   per row (the caller makes a new map when the scene or tagOf changes)
  */
 export function ladderMarkersBuild(
   assignments: readonly AssignmentRow[],
   scene: LadderScene,
   tagOf?: (row: AssignmentRow) => number,
+  rungOfAssignment?: WeakMap<AssignmentRow['a'], number>,
 ): LadderMarkers {
   const n = assignments.length;
   const nu = new Float64Array(n);
@@ -290,10 +294,13 @@ export function ladderMarkersBuild(
   const kept: AssignmentRow[] = [];
   for (const r of assignments) {
     const a = r.a;
-    const tag = tagOf ? tagOf(r) : 0;
-    if (tag < 0) continue;
-    const q = scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower) + tag * QUANTA_TAG_STEP);
-    if (q === undefined) continue;
+    let q = rungOfAssignment?.get(a);
+    if (q === undefined) {
+      const tag = tagOf ? tagOf(r) : 0;
+      q = tag < 0 ? -1 : (scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower) + tag * QUANTA_TAG_STEP) ?? -1);
+      rungOfAssignment?.set(a, q);
+    }
+    if (q < 0) continue;
     const k = kept.length;
     nu[k] = scene.nuCm1[q];
     y[k] = rungTipAt(scene, q);
