@@ -153,6 +153,17 @@ describe('ladderScenePaint', () => {
     ladderScenePaint(fresh.ctx, setUp().scene, null, -1, view, theme);
     const n = fresh.texts.length;
     expect(first.texts.slice(n)).toEqual(fresh.texts);
+    // Each name ends 6 px left of the panel: its runs (widths by the recorder's 0.6 em per character)
+    // follow one another up to that edge.
+    const rowYs = rows.map((r) => py(view, r.y));
+    const ends = new Map<number, number>();
+    for (const t of fresh.texts) {
+      const size = Number(/([\d.]+)px/.exec(t.font)![1]);
+      const row = rowYs.reduce((best, y, r) => (Math.abs(y - t.y) < Math.abs(rowYs[best] - t.y) ? r : best), 0);
+      ends.set(row, Math.max(ends.get(row) ?? -Infinity, t.x + t.text.length * 0.6 * size));
+    }
+    expect(ends.size).toBe(rows.length);
+    for (const end of ends.values()) expect(end).toBeCloseTo(view.leftPx - 6, 9);
   });
 
   it('leaves out rungs outside the visible range', () => {

@@ -143,46 +143,47 @@ export function markupRuns(html: string): MarkupRun[] {
 }
 
 /**
- * Paint a label right-aligned at (xRight, yMiddle): sub- and superscripts at 75 % size, shifted.
- * @returns the label's width, px
+ * Paint labels, each right-aligned at (xRight, yMiddle): sub- and superscripts at 75 % size,
+ * shifted. The runs are painted grouped by font, so the context's font (parsed on every set) is set
+ * once per size, not once per run.
+ * @param labels each label's runs and anchor, CSS px
+ * @param sizePx size of plain text, px
+ * @param family font family
+ * @param widthsPx run widths by font and text, filled here and reused by later calls
  */
-export function markupPaint(
+export function markupPaintRight(
   ctx: LadderPaintContext,
-  runs: readonly MarkupRun[],
-  xRight: number,
-  yMiddle: number,
+  labels: readonly { runs: readonly MarkupRun[]; xRight: number; yMiddle: number }[],
   sizePx: number,
   family: string,
-  widthsPx?: Map<string, number>,
-): number {
+  widthsPx: Map<string, number>,
+): void {
   const small = Math.round(sizePx * 0.75 * 10) / 10;
-  const fontOf = (r: MarkupRun) => `${r.kind === 'plain' ? sizePx : small}px ${family}`;
-  // Setting a font parses it: set it only when a run needs another one.
-  let font = '';
-  const use = (f: string) => {
-    if (f !== font) ctx.font = font = f;
-  };
-  const widths = runs.map((r) => {
-    const f = fontOf(r);
-    const key = `${f}|${r.text}`;
-    let w = widthsPx?.get(key);
-    if (w === undefined) {
-      use(f);
-      w = ctx.measureText(r.text).width;
-      widthsPx?.set(key, w);
-    }
-    return w;
-  });
-  const total = widths.reduce((a, b) => a + b, 0);
-  let x = xRight - total;
+  const fontOf = (kind: MarkupRun['kind']) => `${kind === 'plain' ? sizePx : small}px ${family}`;
+  const placed: { text: string; x: number; y: number; font: string }[] = [];
+  for (const label of labels) {
+    const widths = label.runs.map((r) => {
+      const font = fontOf(r.kind);
+      const key = `${font}|${r.text}`;
+      let w = widthsPx.get(key);
+      if (w === undefined) {
+        ctx.font = font;
+        widthsPx.set(key, (w = ctx.measureText(r.text).width));
+      }
+      return w;
+    });
+    let x = label.xRight - widths.reduce((a, b) => a + b, 0);
+    label.runs.forEach((r, i) => {
+      const dy = r.kind === 'sup' ? -0.35 * sizePx : r.kind === 'sub' ? 0.3 * sizePx : 0;
+      placed.push({ text: r.text, x, y: label.yMiddle + dy, font: fontOf(r.kind) });
+      x += widths[i];
+    });
+  }
   ctx.textBaseline = 'middle';
-  runs.forEach((r, i) => {
-    use(fontOf(r));
-    const dy = r.kind === 'sup' ? -0.35 * sizePx : r.kind === 'sub' ? 0.3 * sizePx : 0;
-    ctx.fillText(r.text, x, yMiddle + dy);
-    x += widths[i];
-  });
-  return total;
+  for (const font of new Set(placed.map((p) => p.font))) {
+    ctx.font = font;
+    for (const p of placed) if (p.font === font) ctx.fillText(p.text, p.x, p.y);
+  }
 }
 
 /** Font family of the row names (the plots' font). */
@@ -349,11 +350,13 @@ export function ladderScenePaint(
   // Row names left of the panel, right-aligned 6 px from its edge.
   const sizePx = scene.rows.length > 24 ? 8 : scene.rows.length > 14 ? 9 : 10;
   ctx.fillStyle = theme.text;
+  const labels: { runs: readonly MarkupRun[]; xRight: number; yMiddle: number }[] = [];
   scene.rows.forEach((row, r) => {
     const y = py(row.y);
     if (y >= view.topPx - 1 && y <= view.topPx + view.heightPx + 1)
-      markupPaint(ctx, scene.rowLabels[r], view.leftPx - 6, y, sizePx, LABEL_FONT, scene.labelWidthsPx);
+      labels.push({ runs: scene.rowLabels[r], xRight: view.leftPx - 6, yMiddle: y });
   });
+  markupPaintRight(ctx, labels, sizePx, LABEL_FONT, scene.labelWidthsPx);
   ctx.save();
   ctx.beginPath();
   ctx.rect(view.leftPx, view.topPx, view.widthPx, view.heightPx);
