@@ -32,13 +32,49 @@ interface ResolvedRow {
  */
 let resolvedFor: { system: SystemModel; rows: WeakMap<Assignment, ResolvedRow> } | null = null;
 
+/** What the joint fit's input is built from. */
+type SystemFitInputSource = Pick<BenchState, 'system' | 'systemFloated' | 'systemTies' | 'assignments' | 'activeBandKey'>;
+
+/** The joint fit's input, or why it cannot run. */
+type SystemFitInputBuilt = { ok: true; input: SystemFitInput } | { ok: false; message: string };
+
 /**
  * The joint fit's input for the current session, or why it cannot run (rows naming no single line
  * of their band, by label).
  */
-export function systemFitInputOf(
-  s: Pick<BenchState, 'system' | 'systemFloated' | 'systemTies' | 'assignments' | 'activeBandKey'>,
-): { ok: true; input: SystemFitInput } | { ok: false; message: string } {
+export function systemFitInputOf(s: SystemFitInputSource): SystemFitInputBuilt {
+  const steps = systemFitInputSteps(s);
+  for (let step = steps.next(); ; step = steps.next()) if (step.done) return step.value;
+}
+
+/** Longest main-thread slice of row resolving before the page gets a turn, ms. */
+const RESOLVE_SLICE_MS = 12;
+
+/**
+ * systemFitInputOf in slices of about RESOLVE_SLICE_MS: the first Fit after a change of the model
+ * resolves every row again (~0.2–0.3 s for 10,000 rows), which as one task would freeze the page.
+ * The input is the one of `s` (assignments are immutable), whatever changes meanwhile.
+ * @param isStale checked after each pause: true stops the work (resolves to null)
+ * @param sliceMs work between pauses, ms @default RESOLVE_SLICE_MS
+ */
+export async function systemFitInputSliced(
+  s: SystemFitInputSource,
+  isStale: () => boolean,
+  sliceMs = RESOLVE_SLICE_MS,
+): Promise<SystemFitInputBuilt | null> {
+  const steps = systemFitInputSteps(s);
+  let sliceStart = performance.now();
+  for (let step = steps.next(); ; step = steps.next()) {
+    if (step.done) return step.value;
+    if (performance.now() - sliceStart < sliceMs) continue;
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    if (isStale()) return null;
+    sliceStart = performance.now();
+  }
+}
+
+/** The work of systemFitInputOf, yielding after each row it had to resolve (not after cached ones). */
+function* systemFitInputSteps(s: SystemFitInputSource): Generator<void, SystemFitInputBuilt, void> {
   const system = s.system;
   if (!system) return { ok: false, message: 'the session has one band' };
   const entries = systemEntriesOf(system);
@@ -75,10 +111,12 @@ export function systemFitInputOf(
     });
     if (!r.ok) {
       bad.push(`${label} of ${e.band} (${e.species}): ${r.message}`);
+      yield;
       continue;
     }
     cache.set(a, { key: e.key, line: r.line });
     lines.push({ ...r.line, observedCm1: a.observedCm1, uncertaintyCm1: a.uncertaintyCm1, isExcluded: a.isExcluded });
+    yield;
   }
   if (bad.length > 0)
     return {

@@ -16,6 +16,7 @@ import { systemLines } from '../../src/physics/system/systemLines';
 import { demoSystemTruth, DEMO_SYSTEM_FLOATED } from '../../src/cli/makeDemoSystem';
 import { assignToPeak, selectCandidates } from '../../src/state/actionsAssign';
 import { fitAccept, fitStart } from '../../src/state/actionsFit';
+import { systemFitInputOf, systemFitInputSliced } from '../../src/state/systemFitInput';
 import { modelSetConstant } from '../../src/state/actionsModel';
 import { bandActivate, bandToggle, systemLoad } from '../../src/state/actionsSystem';
 import { selectAssignmentRows, selectFitResult, selectSimulated } from '../../src/state/selectors';
@@ -197,6 +198,49 @@ describe('a session of several bands', () => {
     const s = benchStore.getState();
     expect(s.system!.species[0].states[2].constants.B).toBeCloseTo(r!.parameters['LB-7/v4.B'].value, 12);
     expect(s.model.upper.B).toBeCloseTo(r!.parameters['LB-7/v4.B'].value, 12);
+  });
+
+  it('resolves the rows for the joint fit in slices to the same input, refuses a bad row with the same words, and stops when told', async () => {
+    const truth = demoSystemTruth();
+    systemLoad({ system: truth, floated: DEMO_SYSTEM_FLOATED, name: 'demo' }, 'load');
+    const lines = systemLines(truth, { minIntensity: 0.002 });
+    const assignments = Array.from({ length: 40 }, (_, n) => {
+      const i = n * 7;
+      const ref = lines.bandRefs[lines.bandIndex[i]];
+      return {
+        id: `r${n}`,
+        jUpper: lines.jUpper[i],
+        kUpper: lines.kUpper[i],
+        jLower: lines.jLower[i],
+        kLower: lines.kLower[i],
+        observedCm1: lines.wavenumberCm1[i],
+        uncertaintyCm1: 0.001,
+        isBlended: false,
+        isExcluded: false,
+        note: '',
+        band: ref.band,
+        species: ref.species,
+      };
+    });
+    const s = benchStore.getState();
+    // A copy of the system for each run: the resolved rows are kept per system object.
+    const source = (list: typeof assignments) => ({ ...s, system: structuredClone(s.system), assignments: list });
+    let checks = 0;
+    const sliced = await systemFitInputSliced(source(assignments), () => (checks++, false), 0);
+    // With no time between pauses, one pause per row resolved.
+    expect(checks).toBe(assignments.length);
+    const whole = systemFitInputOf(source(assignments));
+    expect(sliced).toEqual(whole);
+    expect(whole.ok).toBe(true);
+    // A row naming a line its band does not have: the same refusal either way.
+    const bad = [...assignments, { ...assignments[0], id: 'bad', kUpper: assignments[0].kLower + 5 }];
+    const refusedSliced = await systemFitInputSliced(source(bad), () => false, 0);
+    expect(refusedSliced).toEqual(systemFitInputOf(source(bad)));
+    expect(refusedSliced!.ok).toBe(false);
+    // Stale after the third pause: the work stops there.
+    let pauses = 0;
+    expect(await systemFitInputSliced(source(assignments), () => ++pauses >= 3, 0)).toBeNull();
+    expect(pauses).toBe(3);
   });
 
   it('keeps the bands in the line table, the system file and the project file', () => {
