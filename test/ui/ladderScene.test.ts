@@ -8,6 +8,7 @@ import { ladderLabelTemplate, ladderRowsBuild, rungExtent, rungTip } from '../..
 import {
   LADDER_DOTS_MAX,
   ladderHitTest,
+  ladderLabelsPaint,
   ladderMarkersBuild,
   ladderSceneBuild,
   ladderScenePaint,
@@ -164,6 +165,22 @@ describe('ladderScenePaint', () => {
     }
     expect(ends.size).toBe(rows.length);
     for (const end of ends.values()) expect(end).toBeCloseTo(view.leftPx - 6, 9);
+  });
+
+  it('paints the row names alone (for a kept image) exactly as with the rungs, and leaves them out when told', () => {
+    const { lines, rows, scene } = setUp();
+    const view = fullView(lines, rows.length);
+    const whole = paintRecorder();
+    ladderScenePaint(whole.ctx, scene, null, -1, view, theme);
+    const names = paintRecorder();
+    ladderLabelsPaint(names.ctx, scene, { ...view, x0Cm1: 0, x1Cm1: 1 }, theme);
+    expect(names.texts.length).toBeGreaterThan(0);
+    expect(names.texts).toEqual(whole.texts);
+    expect(names.segments).toEqual([]);
+    const bare = paintRecorder();
+    expect(ladderScenePaint(bare.ctx, scene, null, -1, view, theme, false)).toBe(scene.nuCm1.length);
+    expect(bare.texts).toEqual([]);
+    expect(bare.segments).toEqual(whole.segments);
   });
 
   it('leaves out rungs outside the visible range', () => {

@@ -324,30 +324,15 @@ export function viewMaps(view: LadderView): { px: (nu: number) => number; py: (y
 }
 
 /**
- * Paint the ladder panel: rungs and series lines, then the assigned markers, then the cursor ring.
- * Only what lies inside the view (plus one pixel) is drawn; the panel box is clipped.
+ * Paint the row names left of the ladder panel, right-aligned 6 px from its edge. They depend on
+ * the panel's vertical placement only, not on the visible wavenumber range (a caller may keep the
+ * result as an image between zooms).
  * @param ctx a 2D context already scaled to CSS px
- * @param scene from ladderSceneBuild
- * @param markers from ladderMarkersBuild (or null)
- * @param cursorLine line index of the selected rung, or -1
- * @param view visible window
- * @param theme colours
- * @returns the number of rungs drawn
+ * @param view the panel's window (its x range is not used)
  */
-export function ladderScenePaint(
-  ctx: LadderPaintContext,
-  scene: LadderScene,
-  markers: LadderMarkers | null,
-  cursorLine: number,
-  view: LadderView,
-  theme: PlotTheme,
-): number {
-  if (!(view.widthPx > 0 && view.heightPx > 0) || view.x1Cm1 === view.x0Cm1) return 0;
-  const { px, py } = viewMaps(view);
-  const lo = Math.min(view.x0Cm1, view.x1Cm1);
-  const hi = Math.max(view.x0Cm1, view.x1Cm1);
-  const pad = (hi - lo) / view.widthPx;
-  // Row names left of the panel, right-aligned 6 px from its edge.
+export function ladderLabelsPaint(ctx: LadderPaintContext, scene: LadderScene, view: LadderView, theme: PlotTheme): void {
+  if (!(view.heightPx > 0) || view.y1 === view.y0) return;
+  const { py } = viewMaps(view);
   const sizePx = scene.rows.length > 24 ? 8 : scene.rows.length > 14 ? 9 : 10;
   ctx.fillStyle = theme.text;
   const labels: { runs: readonly MarkupRun[]; xRight: number; yMiddle: number }[] = [];
@@ -357,6 +342,35 @@ export function ladderScenePaint(
       labels.push({ runs: scene.rowLabels[r], xRight: view.leftPx - 6, yMiddle: y });
   });
   markupPaintRight(ctx, labels, sizePx, LABEL_FONT, scene.labelWidthsPx);
+}
+
+/**
+ * Paint the ladder panel: rungs and series lines, then the assigned markers, then the cursor ring.
+ * Only what lies inside the view (plus one pixel) is drawn; the panel box is clipped.
+ * @param ctx a 2D context already scaled to CSS px
+ * @param scene from ladderSceneBuild
+ * @param markers from ladderMarkersBuild (or null)
+ * @param cursorLine line index of the selected rung, or -1
+ * @param view visible window
+ * @param theme colours
+ * @param isLabelled also paint the row names (ladderLabelsPaint) @default true
+ * @returns the number of rungs drawn
+ */
+export function ladderScenePaint(
+  ctx: LadderPaintContext,
+  scene: LadderScene,
+  markers: LadderMarkers | null,
+  cursorLine: number,
+  view: LadderView,
+  theme: PlotTheme,
+  isLabelled = true,
+): number {
+  if (!(view.widthPx > 0 && view.heightPx > 0) || view.x1Cm1 === view.x0Cm1) return 0;
+  const { px, py } = viewMaps(view);
+  const lo = Math.min(view.x0Cm1, view.x1Cm1);
+  const hi = Math.max(view.x0Cm1, view.x1Cm1);
+  const pad = (hi - lo) / view.widthPx;
+  if (isLabelled) ladderLabelsPaint(ctx, scene, view, theme);
   ctx.save();
   ctx.beginPath();
   ctx.rect(view.leftPx, view.topPx, view.widthPx, view.heightPx);
