@@ -70,9 +70,31 @@ const NO_CANDIDATES: Candidate[] = [];
  */
 const FIRST_GUESS_SIGMA_B = 2;
 
-const heightScaleGuess = memoLast((peaks: PeakList, cat: MatchSingleContext['cat']) =>
-  candidateHeightScaleGuess(peaks.height.subarray(0, peaks.count), cat.lines.intensity),
+const heightScaleGuess = memoLast((peaks: PeakList, cat: MatchSingleContext['cat']) => heightScaleOf(peaks, cat.lines.intensity));
+
+/** The rough height scale of a peak list against line intensities, memoised on both (several-band candidates). */
+const heightScaleOf = memoLast((peaks: PeakList, intensity: Float64Array) =>
+  candidateHeightScaleGuess(peaks.height.subarray(0, peaks.count), intensity),
 );
+
+/**
+ * Keys (band key | quanta | tags) of the assigned lines of a several-band session: built once per
+ * change of the table, not once per peak clicked.
+ */
+const assignedSystemKeys = memoLast((assignments: BenchState['assignments'], activeBandKey: string | null) => {
+  const known = assignedKeyCache(activeBandKey);
+  const keys = new Set<string>();
+  for (const a of assignments) {
+    let key = known.get(a);
+    if (key === undefined)
+      known.set(a, (key = `${assignmentBandKey({ activeBandKey }, a)}|${quantaKey(a)}|${a.tagUpper ?? ''}|${a.tagLower ?? ''}`));
+    keys.add(key);
+  }
+  return keys;
+});
+
+/** Each assignment object's key while the active band stays (assignments are immutable). */
+const assignedKeyCache = memoLast((_activeBandKey: string | null) => new WeakMap<Assignment, string>());
 
 /** Height scale from the assignments (≥ 3 single peaks), else the rough rank-matched guess. */
 function candidateHeightScale(ctx: MatchSingleContext, assignments: BenchState['assignments']): number {
@@ -131,17 +153,13 @@ const candidatesSystem = memoLast(
     const bOf = entries.map((e) => Math.abs(e.view?.lower.B ?? 0));
     const window = Math.max(...bOf.map((b) => Math.max(0.05, (hasFit ? 1.2 : 2.5) * b)), 0.05);
     const p = peaks ? peakNearest(peaks, target.peakCm1, 1e-6) : -1;
-    const assigned = new Set(
-      assignments.map((a) => `${assignmentBandKey({ activeBandKey }, a)}|${quantaKey(a)}|${a.tagUpper ?? ''}|${a.tagLower ?? ''}`),
-    );
+    const assigned = assignedSystemKeys(assignments, activeBandKey);
     const ranked = candidatesRank(lines, target.peakCm1, {
       windowCm1: window,
       shape: entries[0].view?.shape ?? 'prolate',
       peakSigmaCm1: Number.isFinite(target.peakSigmaCm1) ? target.peakSigmaCm1 : 0,
       predictionSigmaCm1: (i) => Math.max(0.001, FIRST_GUESS_SIGMA_B * (hasFit ? 0.1 : 1) * bOf[bandOfLine[i]]),
-      ...(peaks && p >= 0
-        ? { peakHeight: peaks.height[p], heightScale: heightScaleGuess(peaks, { lines } as MatchSingleContext['cat']) }
-        : {}),
+      ...(peaks && p >= 0 ? { peakHeight: peaks.height[p], heightScale: heightScaleOf(peaks, lines.intensity) } : {}),
       isOffered: (i) => lines.intensity[i] >= minIntensity,
     });
     return ranked.map((c) => {

@@ -7,7 +7,7 @@ import type { FitInput, FitOutcome } from '../fit/fitTypes';
 import { constantKeysToNames } from '../io/constantName';
 import type { BandModel, ParameterName } from '../physics/model';
 import { solverFit, solverSystemFit } from '../workers/solverClient';
-import { systemFitAsFitResult, systemFitInputOf, systemViewFields, systemWithFitted } from './systemFitInput';
+import { systemFitAsFitResult, systemFitInputSliced, systemViewFields, systemWithFitted } from './systemFitInput';
 import { benchUpdate, messagePost } from './actionsCore';
 import { benchStore, type BenchState } from './store';
 
@@ -59,10 +59,15 @@ export async function fitStart(
   let run: (signal: AbortSignal, onProgress: (iteration: number, chi2: number) => void) => Promise<FitOutcome>;
   if (s.system) {
     // Several bands: the joint fit, every band at once (shared states are one set of constants).
-    const built = systemFitInputOf(s);
-    if (!built.ok) {
+    // Rows are resolved to lines in slices (the first fit after a model change resolves them all).
+    benchUpdate('fit start', () => ({ isFitRunning: true, fitProgress: null }), { history: false });
+    const built = await systemFitInputSliced(s, () => fitAbort !== ctrl || ctrl.signal.aborted);
+    if (fitAbort !== ctrl) return;
+    if (!built || !built.ok) {
       fitAbort = null;
-      messagePost('error', `The joint fit was not started: ${built.message}`);
+      benchUpdate('fit not started', () => ({ isFitRunning: false, fitProgress: null }), { history: false });
+      if (built) messagePost('error', `The joint fit was not started: ${built.message}`);
+      else messagePost('info', 'The fit was cancelled.');
       return;
     }
     const model = s.model;

@@ -9,6 +9,7 @@ import type { LineList } from '../physics/model';
 import type { SystemModel } from '../physics/system/systemModel';
 import { memoLast } from './memo';
 import type { BandModel } from '../physics/model';
+import type { Assignment } from '../fit/assignment';
 import { levelTagMatches, lineLevelLabel, lineLevelLabelsSubset, type LineLevelLabel, type LineLevelLabels } from './systemLevelLabels';
 import { predictedBandCompute, selectBand, type PredictedBand } from './selectors';
 import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
@@ -232,11 +233,15 @@ const loomisBandSelect = memoLast(
   },
 );
 
-const assignmentLevels = memoLast(
-  (assignments: BenchState['assignments'], pred: SystemPrediction | null, activeBandKey: string | null): (LineLevelLabel | null)[] => {
-    const all = pred?.all;
-    if (!all) return assignments.map(() => null);
-    const byKey = new Map<string, number[]>();
+/**
+ * The system lines by band key and quanta, and each assignment's level labels once found: built
+ * once per prediction and active band, so a new row costs one lookup, not a pass over every line
+ * and every row (assignments are immutable, so an object keeps its answer).
+ */
+const assignmentLevelIndex = memoLast((pred: SystemPrediction | null, _activeBandKey: string | null) => {
+  const all = pred?.all;
+  const byKey = new Map<string, number[]>();
+  if (all)
     for (let i = 0; i < all.count; i++) {
       const ref = all.bandRefs[all.bandIndex[i]];
       const key = `${ref.species}/${ref.band}|${all.jUpper[i]},${all.kUpper[i]},${all.jLower[i]},${all.kLower[i]}`;
@@ -244,7 +249,15 @@ const assignmentLevels = memoLast(
       if (list) list.push(i);
       else byKey.set(key, [i]);
     }
-    return assignments.map((a) => {
+  return { byKey, done: new WeakMap<Assignment, LineLevelLabel | null>() };
+});
+
+const assignmentLevels = memoLast(
+  (assignments: BenchState['assignments'], pred: SystemPrediction | null, activeBandKey: string | null): (LineLevelLabel | null)[] => {
+    const all = pred?.all;
+    if (!all) return assignments.map(() => null);
+    const { byKey, done } = assignmentLevelIndex(pred, activeBandKey);
+    const rowLevel = (a: Assignment): LineLevelLabel | null => {
       const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
       if (!list) return null;
       const fits = list.filter(
@@ -256,6 +269,13 @@ const assignmentLevels = memoLast(
       );
       // Only a line the row names alone: a row J and K leave open (an untagged row of a split pair) shows no symmetry.
       return fits.length === 1 ? lineLevelLabel(all, fits[0]) : null;
+    };
+    return assignments.map((a) => {
+      const known = done.get(a);
+      if (known !== undefined) return known;
+      const found = rowLevel(a);
+      done.set(a, found);
+      return found;
     });
   },
 );
@@ -270,18 +290,26 @@ export function selectAssignmentLevels(s: BenchState): (LineLevelLabel | null)[]
   return assignmentLevels(s.assignments, selectSystemPrediction(s), s.activeBandKey);
 }
 
-const assignmentDrawnLines = memoLast(
-  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): Int32Array | null => {
-    const { levels, entries, bandOfLine, lines } = drawn;
-    if (!levels || !entries || !bandOfLine) return null;
-    const byKey = new Map<string, number[]>();
+/** The drawn lines by band key and quanta, with each assignment's line once found (see assignmentLevelIndex). */
+const assignmentDrawnIndex = memoLast((drawn: DrawnBands, _activeBandKey: string | null) => {
+  const { entries, bandOfLine, lines } = drawn;
+  const byKey = new Map<string, number[]>();
+  if (entries && bandOfLine)
     for (let i = 0; i < lines.count; i++) {
       const key = `${entries[bandOfLine[i]].key}|${lines.jUpper[i]},${lines.kUpper[i]},${lines.jLower[i]},${lines.kLower[i]}`;
       const list = byKey.get(key);
       if (list) list.push(i);
       else byKey.set(key, [i]);
     }
-    return Int32Array.from(assignments, (a) => {
+  return { byKey, done: new WeakMap<Assignment, number>() };
+});
+
+const assignmentDrawnLines = memoLast(
+  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): Int32Array | null => {
+    const { levels, entries, bandOfLine, lines } = drawn;
+    if (!levels || !entries || !bandOfLine) return null;
+    const { byKey, done } = assignmentDrawnIndex(drawn, activeBandKey);
+    const rowLine = (a: Assignment): number => {
       const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
       let best = -1;
       for (const i of list ?? []) {
@@ -293,6 +321,13 @@ const assignmentDrawnLines = memoLast(
         if (best < 0 || Math.abs(lines.wavenumberCm1[i] - a.observedCm1) < Math.abs(lines.wavenumberCm1[best] - a.observedCm1)) best = i;
       }
       return best;
+    };
+    return Int32Array.from(assignments, (a) => {
+      const known = done.get(a);
+      if (known !== undefined) return known;
+      const found = rowLine(a);
+      done.set(a, found);
+      return found;
     });
   },
 );

@@ -32,13 +32,69 @@ interface ResolvedRow {
  */
 let resolvedFor: { system: SystemModel; rows: WeakMap<Assignment, ResolvedRow> } | null = null;
 
+/** What the joint fit's input is built from. */
+type SystemFitInputSource = Pick<BenchState, 'system' | 'systemFloated' | 'systemTies' | 'assignments' | 'activeBandKey'>;
+
+/** The joint fit's input, or why it cannot run. */
+type SystemFitInputBuilt = { ok: true; input: SystemFitInput } | { ok: false; message: string };
+
 /**
  * The joint fit's input for the current session, or why it cannot run (rows naming no single line
  * of their band, by label).
  */
-export function systemFitInputOf(
-  s: Pick<BenchState, 'system' | 'systemFloated' | 'systemTies' | 'assignments' | 'activeBandKey'>,
-): { ok: true; input: SystemFitInput } | { ok: false; message: string } {
+export function systemFitInputOf(s: SystemFitInputSource): SystemFitInputBuilt {
+  const steps = systemFitInputSteps(s);
+  for (let step = steps.next(); ; step = steps.next()) if (step.done) return step.value;
+}
+
+/**
+ * Longest main-thread slice of row resolving before the page gets a turn, ms: under the 50 ms of a
+ * long task, and long enough that the pauses add little (with 12 ms slices and setTimeout pauses
+ * the first fit of 10,000 rows waited 1.4 s for its input on the bench machine at load 14).
+ */
+const RESOLVE_SLICE_MS = 35;
+
+/**
+ * A turn for the page: a message-channel task (setTimeout(0) is clamped to 4 ms once nested), or a
+ * timeout where there is no MessageChannel.
+ */
+function pageTurn(): Promise<void> {
+  if (typeof MessageChannel === 'undefined') return new Promise((resolve) => setTimeout(resolve, 0));
+  return new Promise((resolve) => {
+    const channel = new MessageChannel();
+    channel.port1.onmessage = () => {
+      channel.port1.close();
+      resolve();
+    };
+    channel.port2.postMessage(null);
+  });
+}
+
+/**
+ * systemFitInputOf in slices of about RESOLVE_SLICE_MS: the first Fit after a change of the model
+ * resolves every row again (~0.2–0.3 s for 10,000 rows at idle), which as one task would freeze the page.
+ * The input is the one of `s` (assignments are immutable), whatever changes meanwhile.
+ * @param isStale checked after each pause: true stops the work (resolves to null)
+ * @param sliceMs work between pauses, ms @default RESOLVE_SLICE_MS
+ */
+export async function systemFitInputSliced(
+  s: SystemFitInputSource,
+  isStale: () => boolean,
+  sliceMs = RESOLVE_SLICE_MS,
+): Promise<SystemFitInputBuilt | null> {
+  const steps = systemFitInputSteps(s);
+  let sliceStart = performance.now();
+  for (let step = steps.next(); ; step = steps.next()) {
+    if (step.done) return step.value;
+    if (performance.now() - sliceStart < sliceMs) continue;
+    await pageTurn();
+    if (isStale()) return null;
+    sliceStart = performance.now();
+  }
+}
+
+/** The work of systemFitInputOf, yielding after each row it had to resolve (not after cached ones). */
+function* systemFitInputSteps(s: SystemFitInputSource): Generator<void, SystemFitInputBuilt, void> {
   const system = s.system;
   if (!system) return { ok: false, message: 'the session has one band' };
   const entries = systemEntriesOf(system);
@@ -75,10 +131,12 @@ export function systemFitInputOf(
     });
     if (!r.ok) {
       bad.push(`${label} of ${e.band} (${e.species}): ${r.message}`);
+      yield;
       continue;
     }
     cache.set(a, { key: e.key, line: r.line });
     lines.push({ ...r.line, observedCm1: a.observedCm1, uncertaintyCm1: a.uncertaintyCm1, isExcluded: a.isExcluded });
+    yield;
   }
   if (bad.length > 0)
     return {

@@ -11,6 +11,7 @@ import { plotClickBegin, plotClickTakeBack } from '../state/actionsAssign';
 import type { LineList, TopShape } from '../physics/model';
 import {
   ladderHitTest,
+  ladderLabelsPaint,
   ladderScenePaint,
   ladderStrongestInView,
   ladderTipHtml,
@@ -78,6 +79,7 @@ export function PlotOverlay(props: PlotOverlayProps) {
   const viewsRef = useRef<Views>({ ladder: null, trace: null });
   const drawnPeaksRef = useRef<Int32Array>(new Int32Array(0));
   const plotRef = useRef<{ el: HTMLElement; override?: [number, number] } | null>(null);
+  const labelsRef = useRef<{ scene: LadderScene; key: string; image: HTMLCanvasElement } | null>(null);
 
   const paint = () => {
     const canvas = canvasRef.current;
@@ -124,8 +126,28 @@ export function PlotOverlay(props: PlotOverlayProps) {
     // and some free peaks sit (canvas CSS px).
     const data = canvas.dataset;
     if (views.ladder) {
-      data.rungsDrawn = String(ladderScenePaint(ctx, p.scene, p.markers, p.cursorLine, views.ladder, theme));
-      const labels = rungSymmetryLabelsPaint(ctx, p.scene, p.rungLabels ?? null, p.cursorLine, views.ladder, theme);
+      // Row names come from an image kept while the scene and the panel's vertical placement stay:
+      // a zoom or pan then copies one bitmap instead of painting a hundred names (fillText is the
+      // costly canvas call; five bands have many rows).
+      const lv = views.ladder;
+      const key = `${canvas.width}x${canvas.height}|${dpr}|${lv.leftPx}|${lv.topPx}|${lv.heightPx}|${lv.y0}|${lv.y1}|${p.isDark}`;
+      const cached = labelsRef.current;
+      let image = cached && cached.scene === p.scene && cached.key === key ? cached.image : null;
+      if (!image) {
+        image = cached?.image ?? document.createElement('canvas');
+        image.width = canvas.width;
+        image.height = canvas.height;
+        const lctx = image.getContext('2d');
+        if (lctx) {
+          lctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+          lctx.clearRect(0, 0, cssW, cssH);
+          ladderLabelsPaint(lctx, p.scene, lv, theme);
+        }
+        labelsRef.current = { scene: p.scene, key, image };
+      }
+      ctx.drawImage(image, 0, 0, cssW, cssH);
+      data.rungsDrawn = String(ladderScenePaint(ctx, p.scene, p.markers, p.cursorLine, lv, theme, false));
+      const labels = rungSymmetryLabelsPaint(ctx, p.scene, p.rungLabels ?? null, p.cursorLine, lv, theme);
       data.rungLabelsDrawn = String(labels.count);
       data.rungLabels = labels.texts.slice(0, RUNG_LABELS_LISTED).join('|');
       const strongest = ladderStrongestInView(p.scene, p.lines, views.ladder);

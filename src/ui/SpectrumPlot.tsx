@@ -11,7 +11,7 @@ import { viewSetXRange } from '../state/actionsView';
 import { peakIdAt, peakIdPosition } from '../state/assignLogic';
 import { messagePost } from '../state/actionsCore';
 import { bandActivate } from '../state/actionsSystem';
-import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated } from '../state/selectors';
+import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated, type AssignmentRow } from '../state/selectors';
 import { assignmentBandKey, selectAssignmentDrawnLines, selectDrawnBands, type DrawnBands } from '../state/selectorsSystem';
 import { benchStore, useBench } from '../state/store';
 import { CandidateList } from './CandidateList';
@@ -135,14 +135,25 @@ export function SpectrumPlot() {
     [drawn, shape, hiddenRows, isDark],
   );
   const scene = useMemo(() => ladderSceneBuild(rows, drawn.lines, isDark, drawn.bandOfLine ?? undefined), [rows, drawn, isDark]);
-  const markers = useMemo(() => {
+  // Each assignment's band index (its line tag in the scene), −1 when its band is not drawn.
+  const tagOf = useMemo(() => {
     const entries = drawn.entries;
-    if (!entries) return ladderMarkersBuild(rowsA, scene);
+    if (!entries) return undefined;
     const indexOfKey = new Map(entries.map((e, i) => [e.key, i]));
-    // Rows and drawn lines are both parallel to the assignments (until the next render brings both anew).
-    const lineOf = drawnLineOf && drawnLineOf.length === rowsA.length ? drawnLineOf : null;
-    return ladderMarkersBuild(rowsA, scene, (r) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1, lineOf);
-  }, [rowsA, scene, drawn, activeBandKey, drawnLineOf]);
+    return (r: AssignmentRow) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1;
+  }, [drawn.entries, activeBandKey]);
+  // Markers of the table's rows, with the rung of each assignment object kept while the scene and
+  // the band index stay (a new row then costs one lookup). In a several-band session each row's
+  // drawn line places its marker instead (the members of a split A1/A2 or s/a pair share J and K).
+  const markersOf = useMemo(() => {
+    const rungOfAssignment = new WeakMap<AssignmentRow['a'], number>();
+    return (rows: readonly AssignmentRow[], lineOf: Int32Array | null) => ladderMarkersBuild(rows, scene, tagOf, lineOf, rungOfAssignment);
+  }, [scene, tagOf]);
+  // Rows and drawn lines are both parallel to the assignments (until the next render brings both anew).
+  const markers = useMemo(
+    () => markersOf(rowsA, drawnLineOf && drawnLineOf.length === rowsA.length ? drawnLineOf : null),
+    [markersOf, rowsA, drawnLineOf],
+  );
   const cursorKey = cursor ? `${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}` : '';
   const cursorLine = cursor ? (drawn.indexOf.get(drawn.entries ? `${activeBandKey}|${cursorKey}` : cursorKey) ?? -1) : -1;
   const levels = drawn.levels;

@@ -16,10 +16,12 @@ import { systemLines } from '../../src/physics/system/systemLines';
 import { demoSystemTruth, DEMO_SYSTEM_FLOATED } from '../../src/cli/makeDemoSystem';
 import { assignToPeak, selectCandidates } from '../../src/state/actionsAssign';
 import { fitAccept, fitStart } from '../../src/state/actionsFit';
+import { systemFitInputOf, systemFitInputSliced } from '../../src/state/systemFitInput';
 import { modelSetConstant } from '../../src/state/actionsModel';
 import { bandActivate, bandToggle, systemLoad } from '../../src/state/actionsSystem';
 import { selectAssignmentRows, selectFitResult, selectSimulated } from '../../src/state/selectors';
-import { selectDrawnBands } from '../../src/state/selectorsSystem';
+import { selectAssignmentLevels, selectDrawnBands } from '../../src/state/selectorsSystem';
+import { lineLevelLabel } from '../../src/state/systemLevelLabels';
 import { sessionOf, stateFromSession } from '../../src/state/session';
 import { benchStore } from '../../src/state/store';
 import { smallModel } from './fixtures';
@@ -93,6 +95,68 @@ describe('a session of several bands', () => {
     expect(rows[0].calcCm1).toBeCloseTo(peakCm1, 8);
   });
 
+  it('marks a candidate assigned once its row exists, and keeps each row’s level labels as rows are added or the active band changes', () => {
+    const truth = demoSystemTruth();
+    systemLoad({ system: truth, floated: DEMO_SYSTEM_FLOATED, name: 'demo' }, 'load');
+    const drawn = selectDrawnBands(benchStore.getState());
+    // The strongest drawn line of the isotopologue's ν4 (a degenerate upper state: l' = ±1).
+    let best = -1;
+    for (let i = 0; i < drawn.lines.count; i++)
+      if (
+        drawn.entries![drawn.bandOfLine![i]].key === 'LB-7-66/nu4' &&
+        (best < 0 || drawn.lines.intensity[i] > drawn.lines.intensity[best])
+      )
+        best = i;
+    const target = { peakCm1: drawn.lines.wavenumberCm1[best], peakId: 'p1', peakSigmaCm1: 0.0005 };
+    benchStore.setState({ candidateTarget: target });
+    const top = selectCandidates(benchStore.getState()).find((c) => c.species === 'LB-7-66' && Math.abs(c.distanceCm1) < 1e-9)!;
+    expect(top.isAssigned).toBe(false);
+    assignToPeak(top, target);
+    benchStore.setState({ candidateTarget: target });
+    const again = selectCandidates(benchStore.getState()).find((c) => c.lineIndex === top.lineIndex && c.species === 'LB-7-66')!;
+    expect(again.isAssigned).toBe(true);
+    // The row names the line's l' (the drawn line's own label, from the level sets).
+    const first = selectAssignmentLevels(benchStore.getState());
+    expect(first[0]?.lUpper).toBe(top.lUpper);
+    expect(first[0]?.lUpper).not.toBe(0);
+    // A row with no band column belongs to the active band: its labels follow the active band. Its
+    // quanta: a drawn line of LB-7/nu4 (the stronger parent) that LB-7-66/nu4 does not draw.
+    const keyOf = (i: number) => `${drawn.lines.jUpper[i]},${drawn.lines.kUpper[i]},${drawn.lines.jLower[i]},${drawn.lines.kLower[i]}`;
+    const bandOf = (i: number) => drawn.entries![drawn.bandOfLine![i]].key;
+    const isotopologue = new Set<string>();
+    for (let i = 0; i < drawn.lines.count; i++) if (bandOf(i) === 'LB-7-66/nu4') isotopologue.add(keyOf(i));
+    let only = -1;
+    for (let i = 0; i < drawn.lines.count && only < 0; i++) if (bandOf(i) === 'LB-7/nu4' && !isotopologue.has(keyOf(i))) only = i;
+    expect(only).toBeGreaterThanOrEqual(0);
+    benchStore.setState((st) => ({
+      assignments: [
+        ...st.assignments,
+        {
+          ...st.assignments[0],
+          id: 'x1',
+          jUpper: drawn.lines.jUpper[only],
+          kUpper: drawn.lines.kUpper[only],
+          jLower: drawn.lines.jLower[only],
+          kLower: drawn.lines.kLower[only],
+          band: undefined,
+          species: undefined,
+          lUpper: undefined,
+          lLower: undefined,
+          tagUpper: undefined,
+          tagLower: undefined,
+        },
+      ],
+    }));
+    const withOrphan = selectAssignmentLevels(benchStore.getState());
+    expect(withOrphan[0]).toBe(first[0]);
+    expect(benchStore.getState().activeBandKey).toBe('LB-7/nu4');
+    expect(withOrphan[1]).toEqual(lineLevelLabel(drawn.levels!, only));
+    bandActivate('LB-7-66/nu4');
+    expect(selectAssignmentLevels(benchStore.getState())[1]).toBeNull();
+    bandActivate('LB-7/nu4');
+    expect(selectAssignmentLevels(benchStore.getState())[1]).toEqual(lineLevelLabel(drawn.levels!, only));
+  });
+
   it('fits every band at once from the page and gets the true constants back within the reported σ', async () => {
     const truth = demoSystemTruth();
     systemLoad({ system: truth, floated: DEMO_SYSTEM_FLOATED, name: 'demo' }, 'load');
@@ -134,6 +198,49 @@ describe('a session of several bands', () => {
     const s = benchStore.getState();
     expect(s.system!.species[0].states[2].constants.B).toBeCloseTo(r!.parameters['LB-7/v4.B'].value, 12);
     expect(s.model.upper.B).toBeCloseTo(r!.parameters['LB-7/v4.B'].value, 12);
+  });
+
+  it('resolves the rows for the joint fit in slices to the same input, refuses a bad row with the same words, and stops when told', async () => {
+    const truth = demoSystemTruth();
+    systemLoad({ system: truth, floated: DEMO_SYSTEM_FLOATED, name: 'demo' }, 'load');
+    const lines = systemLines(truth, { minIntensity: 0.002 });
+    const assignments = Array.from({ length: 40 }, (_, n) => {
+      const i = n * 7;
+      const ref = lines.bandRefs[lines.bandIndex[i]];
+      return {
+        id: `r${n}`,
+        jUpper: lines.jUpper[i],
+        kUpper: lines.kUpper[i],
+        jLower: lines.jLower[i],
+        kLower: lines.kLower[i],
+        observedCm1: lines.wavenumberCm1[i],
+        uncertaintyCm1: 0.001,
+        isBlended: false,
+        isExcluded: false,
+        note: '',
+        band: ref.band,
+        species: ref.species,
+      };
+    });
+    const s = benchStore.getState();
+    // A copy of the system for each run: the resolved rows are kept per system object.
+    const source = (list: typeof assignments) => ({ ...s, system: structuredClone(s.system), assignments: list });
+    let checks = 0;
+    const sliced = await systemFitInputSliced(source(assignments), () => (checks++, false), 0);
+    // With no time between pauses, one pause per row resolved.
+    expect(checks).toBe(assignments.length);
+    const whole = systemFitInputOf(source(assignments));
+    expect(sliced).toEqual(whole);
+    expect(whole.ok).toBe(true);
+    // A row naming a line its band does not have: the same refusal either way.
+    const bad = [...assignments, { ...assignments[0], id: 'bad', kUpper: assignments[0].kLower + 5 }];
+    const refusedSliced = await systemFitInputSliced(source(bad), () => false, 0);
+    expect(refusedSliced).toEqual(systemFitInputOf(source(bad)));
+    expect(refusedSliced!.ok).toBe(false);
+    // Stale after the third pause: the work stops there.
+    let pauses = 0;
+    expect(await systemFitInputSliced(source(assignments), () => ++pauses >= 3, 0)).toBeNull();
+    expect(pauses).toBe(3);
   });
 
   it('keeps the bands in the line table, the system file and the project file', () => {

@@ -8,6 +8,7 @@ import { ladderLabelTemplate, ladderRowsBuild, rungExtent, rungTip } from '../..
 import {
   LADDER_DOTS_MAX,
   ladderHitTest,
+  ladderLabelsPaint,
   ladderMarkersBuild,
   ladderSceneBuild,
   ladderScenePaint,
@@ -155,6 +156,61 @@ describe('ladderScenePaint', () => {
     expect(rec.texts.every((t) => t.x < view.leftPx)).toBe(true);
   });
 
+  it('keeps each series sorted by position, so a view finds its rungs by bisection', () => {
+    const { scene } = setUp();
+    for (const g of scene.groups)
+      for (const s of g.series) for (let k = s.start + 1; k < s.end; k++) expect(scene.nuCm1[k]).toBeGreaterThanOrEqual(scene.nuCm1[k - 1]);
+  });
+
+  it('measures each row name once however often the panel is painted, and paints it at the same place', () => {
+    const { lines, rows, scene } = setUp();
+    const view = fullView(lines, rows.length);
+    const first = paintRecorder();
+    let measured = 0;
+    const measure = first.ctx.measureText.bind(first.ctx);
+    first.ctx.measureText = (t: string) => {
+      measured++;
+      return measure(t);
+    };
+    ladderScenePaint(first.ctx, scene, null, -1, view, theme);
+    const once = measured;
+    expect(once).toBeGreaterThan(0);
+    ladderScenePaint(first.ctx, scene, null, -1, { ...view, x0Cm1: view.x0Cm1 + 1 }, theme);
+    expect(measured).toBe(once);
+    // The second paint's names (widths from the cache) sit where a fresh scene puts them.
+    const fresh = paintRecorder();
+    ladderScenePaint(fresh.ctx, setUp().scene, null, -1, view, theme);
+    const n = fresh.texts.length;
+    expect(first.texts.slice(n)).toEqual(fresh.texts);
+    // Each name ends 6 px left of the panel: its runs (widths by the recorder's 0.6 em per character)
+    // follow one another up to that edge.
+    const rowYs = rows.map((r) => py(view, r.y));
+    const ends = new Map<number, number>();
+    for (const t of fresh.texts) {
+      const size = Number(/([\d.]+)px/.exec(t.font)![1]);
+      const row = rowYs.reduce((best, y, r) => (Math.abs(y - t.y) < Math.abs(rowYs[best] - t.y) ? r : best), 0);
+      ends.set(row, Math.max(ends.get(row) ?? -Infinity, t.x + t.text.length * 0.6 * size));
+    }
+    expect(ends.size).toBe(rows.length);
+    for (const end of ends.values()) expect(end).toBeCloseTo(view.leftPx - 6, 9);
+  });
+
+  it('paints the row names alone (for a kept image) exactly as with the rungs, and leaves them out when told', () => {
+    const { lines, rows, scene } = setUp();
+    const view = fullView(lines, rows.length);
+    const whole = paintRecorder();
+    ladderScenePaint(whole.ctx, scene, null, -1, view, theme);
+    const names = paintRecorder();
+    ladderLabelsPaint(names.ctx, scene, { ...view, x0Cm1: 0, x1Cm1: 1 }, theme);
+    expect(names.texts.length).toBeGreaterThan(0);
+    expect(names.texts).toEqual(whole.texts);
+    expect(names.segments).toEqual([]);
+    const bare = paintRecorder();
+    expect(ladderScenePaint(bare.ctx, scene, null, -1, view, theme, false)).toBe(scene.nuCm1.length);
+    expect(bare.texts).toEqual([]);
+    expect(bare.segments).toEqual(whole.segments);
+  });
+
   it('leaves out rungs outside the visible range', () => {
     const { lines, rows, scene } = setUp();
     const view = { ...fullView(lines, rows.length), x0Cm1: 999, x1Cm1: 1001 };
@@ -191,6 +247,18 @@ describe('ladderScenePaint', () => {
     const partial = ladderSceneBuild(ladderRowsBuild(bandLadders(lines, 'prolate'), 'prolate', new Set([hiddenKey])), lines, false);
     expect(Array.from(ladderMarkersBuild(few, partial).lineIndex)).not.toContain(1);
     expect(Array.from(markers.isFlagged)).toEqual([0, 0, 1]);
+    // With a rung cache the markers are the same, and a second build (one row added, one row's flag
+    // changed) looks up only the new assignment; the flag is read from the row each time.
+    const cache = new WeakMap<Assignment, number>();
+    let looked = 0;
+    const counted = () => (looked++, 0);
+    expect(ladderMarkersBuild([...few, unpredicted], scene, counted, undefined, cache)).toEqual(markers);
+    expect(looked).toBe(4);
+    const more = [rowOf(few[0].a, lines, 0, { isFar: true }), ...few.slice(1), unpredicted, rowOf(mk(3), lines, 3)];
+    const again = ladderMarkersBuild(more, scene, counted, undefined, cache);
+    expect(looked).toBe(5);
+    expect(again).toEqual(ladderMarkersBuild(more, scene));
+    expect(Array.from(again.isFlagged)).toEqual([1, 0, 1, 0]);
     for (let k = 0; k < 3; k++) {
       const i = markers.lineIndex[k];
       const row = rows.find((r) => r.deltaK === lines.kUpper[i] - lines.kLower[i] && r.kLower === lines.kLower[i])!;

@@ -95,6 +95,31 @@ describe('peakLayer', () => {
     for (let k = 1; k < kept.length; k++) expect(kept[k]).toBeGreaterThan(kept[k - 1]);
   });
 
+  it('picks the same strongest peaks from the precomputed SNR order as by sorting each view (ties by position, ∞ first, NaN last)', () => {
+    const n = 4 * PEAK_MARKERS_MAX;
+    const x = Float64Array.from({ length: n }, (_, i) => 1000 + 0.01 * i);
+    // Many equal SNR values (ties), one infinite and one NaN among them.
+    const snr = Float64Array.from({ length: n }, (_, i) => (i * 7919) % 37);
+    snr[613] = Infinity;
+    snr[17] = NaN;
+    const many: PeakList = { ...setUp().peaks, count: n, wavenumberCm1: x, snr };
+    const base = peakLayerBase(many, { wavenumberCm1: x, absorbance: new Float64Array(n) }, 'absorbance');
+    expect(base.snrOrder?.length).toBe(n);
+    const unordered = { peaks: many, nuCm1: base.nuCm1, y: base.y };
+    for (const [lo, hi] of [
+      [0, 2000],
+      [1001, 1007.5],
+      [1005.9, 1009.99],
+      [1002.345, 1002.3],
+    ]) {
+      const fast = Array.from(peakLayerVisible(base, lo, hi));
+      expect(fast).toEqual(Array.from(peakLayerVisible(unordered, lo, hi)));
+      expect(fast.length).toBe(Math.min(PEAK_MARKERS_MAX, x.filter((v) => v >= Math.min(lo, hi) && v < Math.max(lo, hi)).length));
+    }
+    expect(Array.from(peakLayerVisible(base, 0, 2000))).toContain(613);
+    expect(Array.from(peakLayerVisible(base, 0, 2000))).not.toContain(17);
+  });
+
   it('paints free peaks open and assigned ones filled, and hit-tests the marker under the pointer', () => {
     const { trace, peaks } = setUp();
     const layer = peakLayerBuild(

@@ -16,7 +16,7 @@ import { sortedLowerBound } from './traceDecimate';
 export interface LadderStyleGroup {
   colour: string;
   widthPx: number;
-  /** Series of the group: index ranges [start, end) into the scene's rung arrays. */
+  /** Series of the group: index ranges [start, end) into the scene's rung arrays, each sorted by position. */
   series: { start: number; end: number; rowY: number }[];
 }
 
@@ -43,6 +43,11 @@ export interface LadderScene {
   /** Rung index of each line of the line list (−1 for a line in no shown row). */
   rungOfLine: Int32Array;
   rows: readonly LadderRow[];
+  /**
+   * Widths of the row names' runs by font and text, CSS px, filled by the first paint: measuring
+   * text is the costly canvas call, and a view change does not change a name.
+   */
+  labelWidthsPx: Map<string, number>;
 }
 
 /**
@@ -140,33 +145,47 @@ export function markupRuns(html: string): MarkupRun[] {
 }
 
 /**
- * Paint a label right-aligned at (xRight, yMiddle): sub- and superscripts at 75 % size, shifted.
- * @returns the label's width, px
+ * Paint labels, each right-aligned at (xRight, yMiddle): sub- and superscripts at 75 % size,
+ * shifted. The runs are painted grouped by font, so the context's font (parsed on every set) is set
+ * once per size, not once per run.
+ * @param labels each label's runs and anchor, CSS px
+ * @param sizePx size of plain text, px
+ * @param family font family
+ * @param widthsPx run widths by font and text, filled here and reused by later calls
  */
-export function markupPaint(
+export function markupPaintRight(
   ctx: LadderPaintContext,
-  runs: readonly MarkupRun[],
-  xRight: number,
-  yMiddle: number,
+  labels: readonly { runs: readonly MarkupRun[]; xRight: number; yMiddle: number }[],
   sizePx: number,
   family: string,
-): number {
+  widthsPx: Map<string, number>,
+): void {
   const small = Math.round(sizePx * 0.75 * 10) / 10;
-  const fontOf = (r: MarkupRun) => `${r.kind === 'plain' ? sizePx : small}px ${family}`;
-  const widths = runs.map((r) => {
-    ctx.font = fontOf(r);
-    return ctx.measureText(r.text).width;
-  });
-  const total = widths.reduce((a, b) => a + b, 0);
-  let x = xRight - total;
+  const fontOf = (kind: MarkupRun['kind']) => `${kind === 'plain' ? sizePx : small}px ${family}`;
+  const placed: { text: string; x: number; y: number; font: string }[] = [];
+  for (const label of labels) {
+    const widths = label.runs.map((r) => {
+      const font = fontOf(r.kind);
+      const key = `${font}|${r.text}`;
+      let w = widthsPx.get(key);
+      if (w === undefined) {
+        ctx.font = font;
+        widthsPx.set(key, (w = ctx.measureText(r.text).width));
+      }
+      return w;
+    });
+    let x = label.xRight - widths.reduce((a, b) => a + b, 0);
+    label.runs.forEach((r, i) => {
+      const dy = r.kind === 'sup' ? -0.35 * sizePx : r.kind === 'sub' ? 0.3 * sizePx : 0;
+      placed.push({ text: r.text, x, y: label.yMiddle + dy, font: fontOf(r.kind) });
+      x += widths[i];
+    });
+  }
   ctx.textBaseline = 'middle';
-  runs.forEach((r, i) => {
-    ctx.font = fontOf(r);
-    const dy = r.kind === 'sup' ? -0.35 * sizePx : r.kind === 'sub' ? 0.3 * sizePx : 0;
-    ctx.fillText(r.text, x, yMiddle + dy);
-    x += widths[i];
-  });
-  return total;
+  for (const font of new Set(placed.map((p) => p.font))) {
+    ctx.font = font;
+    for (const p of placed) if (p.font === font) ctx.fillText(p.text, p.x, p.y);
+  }
 }
 
 /** Font family of the row names (the plots' font). */
@@ -207,7 +226,9 @@ export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, is
       let g = groups.get(key);
       if (!g) groups.set(key, (g = { colour, widthPx, series: [] }));
       const start = k;
-      for (const i of ladder.lineIndex) {
+      // By position within the series, so a paint finds the rungs in view by bisection.
+      const byPosition = Array.from(ladder.lineIndex).sort((a, b) => lines.wavenumberCm1[a] - lines.wavenumberCm1[b]);
+      for (const i of byPosition) {
         const [b, t] = rungExtent(ladder.deltaJ, lines.intensity[i]);
         nuCm1[k] = lines.wavenumberCm1[i];
         yBottom[k] = row.y + b;
@@ -246,6 +267,7 @@ export function ladderSceneBuild(rows: readonly LadderRow[], lines: LineList, is
     rungOf,
     rungOfLine,
     rows,
+    labelWidthsPx: new Map(),
   };
 }
 
@@ -263,12 +285,16 @@ function rungTipAt(scene: LadderScene, q: number): number {
  * @param lineOf per assignment (parallel to `assignments`), the index of the line it names in the
  *   scene's line list, or −1 when that line is not drawn: where given it places the marker (the two
  *   members of a split A1/A2 or s/a pair share J and K, so the quanta alone cannot tell their rungs apart)
+ * @param rungOfAssignment the rung (or -1) each assignment object was found at, kept between calls
+ *   for the same scene and tagOf: assignments are immutable, so a new row costs one lookup, not one
+ *   per row (the caller makes a new map when the scene or tagOf changes); not used with `lineOf`
  */
 export function ladderMarkersBuild(
   assignments: readonly AssignmentRow[],
   scene: LadderScene,
   tagOf?: (row: AssignmentRow) => number,
   lineOf?: Int32Array | null,
+  rungOfAssignment?: WeakMap<AssignmentRow['a'], number>,
 ): LadderMarkers {
   const n = assignments.length;
   const nu = new Float64Array(n);
@@ -282,13 +308,16 @@ export function ladderMarkersBuild(
     let q: number | undefined;
     if (lineOf) {
       const line = lineOf[m];
-      q = line >= 0 && line < scene.rungOfLine.length && scene.rungOfLine[line] >= 0 ? scene.rungOfLine[line] : undefined;
+      q = line >= 0 && line < scene.rungOfLine.length ? scene.rungOfLine[line] : -1;
     } else {
-      const tag = tagOf ? tagOf(r) : 0;
-      if (tag < 0) continue;
-      q = scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower) + tag * QUANTA_TAG_STEP);
+      q = rungOfAssignment?.get(a);
+      if (q === undefined) {
+        const tag = tagOf ? tagOf(r) : 0;
+        q = tag < 0 ? -1 : (scene.rungOf.get(quantaNumber(a.jUpper, a.kUpper, a.jLower, a.kLower) + tag * QUANTA_TAG_STEP) ?? -1);
+        rungOfAssignment?.set(a, q);
+      }
     }
-    if (q === undefined) continue;
+    if (q < 0) continue;
     const k = kept.length;
     nu[k] = scene.nuCm1[q];
     y[k] = rungTipAt(scene, q);
@@ -311,6 +340,27 @@ export function viewMaps(view: LadderView): { px: (nu: number) => number; py: (y
 }
 
 /**
+ * Paint the row names left of the ladder panel, right-aligned 6 px from its edge. They depend on
+ * the panel's vertical placement only, not on the visible wavenumber range (a caller may keep the
+ * result as an image between zooms).
+ * @param ctx a 2D context already scaled to CSS px
+ * @param view the panel's window (its x range is not used)
+ */
+export function ladderLabelsPaint(ctx: LadderPaintContext, scene: LadderScene, view: LadderView, theme: PlotTheme): void {
+  if (!(view.heightPx > 0) || view.y1 === view.y0) return;
+  const { py } = viewMaps(view);
+  const sizePx = scene.rows.length > 24 ? 8 : scene.rows.length > 14 ? 9 : 10;
+  ctx.fillStyle = theme.text;
+  const labels: { runs: readonly MarkupRun[]; xRight: number; yMiddle: number }[] = [];
+  scene.rows.forEach((row, r) => {
+    const y = py(row.y);
+    if (y >= view.topPx - 1 && y <= view.topPx + view.heightPx + 1)
+      labels.push({ runs: scene.rowLabels[r], xRight: view.leftPx - 6, yMiddle: y });
+  });
+  markupPaintRight(ctx, labels, sizePx, LABEL_FONT, scene.labelWidthsPx);
+}
+
+/**
  * Paint the ladder panel: rungs and series lines, then the assigned markers, then the cursor ring.
  * Only what lies inside the view (plus one pixel) is drawn; the panel box is clipped.
  * @param ctx a 2D context already scaled to CSS px
@@ -319,6 +369,7 @@ export function viewMaps(view: LadderView): { px: (nu: number) => number; py: (y
  * @param cursorLine line index of the selected rung, or -1
  * @param view visible window
  * @param theme colours
+ * @param isLabelled also paint the row names (ladderLabelsPaint) @default true
  * @returns the number of rungs drawn
  */
 export function ladderScenePaint(
@@ -328,20 +379,14 @@ export function ladderScenePaint(
   cursorLine: number,
   view: LadderView,
   theme: PlotTheme,
+  isLabelled = true,
 ): number {
   if (!(view.widthPx > 0 && view.heightPx > 0) || view.x1Cm1 === view.x0Cm1) return 0;
   const { px, py } = viewMaps(view);
   const lo = Math.min(view.x0Cm1, view.x1Cm1);
   const hi = Math.max(view.x0Cm1, view.x1Cm1);
   const pad = (hi - lo) / view.widthPx;
-  // Row names left of the panel, right-aligned 6 px from its edge.
-  const sizePx = scene.rows.length > 24 ? 8 : scene.rows.length > 14 ? 9 : 10;
-  ctx.fillStyle = theme.text;
-  scene.rows.forEach((row, r) => {
-    const y = py(row.y);
-    if (y >= view.topPx - 1 && y <= view.topPx + view.heightPx + 1)
-      markupPaint(ctx, scene.rowLabels[r], view.leftPx - 6, y, sizePx, LABEL_FONT);
-  });
+  if (isLabelled) ladderLabelsPaint(ctx, scene, view, theme);
   ctx.save();
   ctx.beginPath();
   ctx.rect(view.leftPx, view.topPx, view.widthPx, view.heightPx);
@@ -354,9 +399,9 @@ export function ladderScenePaint(
     for (const s of g.series) {
       let first = Infinity;
       let last = -Infinity;
-      for (let k = s.start; k < s.end; k++) {
+      for (let k = lowerBoundIn(scene.nuCm1, s.start, s.end, lo - pad); k < s.end; k++) {
         const nu = scene.nuCm1[k];
-        if (nu < lo - pad || nu > hi + pad) continue;
+        if (nu > hi + pad) break;
         // Centre of a device pixel column keeps thin rungs crisp.
         const x = Math.round(px(nu)) + 0.5;
         ctx.moveTo(x, py(scene.yBottom[k]));
@@ -387,6 +432,18 @@ export function ladderScenePaint(
   }
   ctx.restore();
   return drawn;
+}
+
+/** First index in [start, end) of an ascending array whose value is >= x (end when none). */
+function lowerBoundIn(sorted: Float64Array, start: number, end: number, x: number): number {
+  let a = start;
+  let b = end;
+  while (a < b) {
+    const m = (a + b) >>> 1;
+    if (sorted[m] < x) a = m + 1;
+    else b = m;
+  }
+  return a;
 }
 
 /** Fill the current path of circles as assigned dots with a thin paper-coloured ring (ladders and peaks alike). */

@@ -39,7 +39,18 @@ function traceValueAt(trace: Trace, positionCm1: number): number {
 }
 
 /** The parts of a peak layer that do not depend on the assignments. */
-export type PeakLayerBase = Pick<PeakLayer, 'peaks' | 'nuCm1' | 'y'>;
+export type PeakLayerBase = Pick<PeakLayer, 'peaks' | 'nuCm1' | 'y'> & {
+  /**
+   * Every peak index, strongest SNR first (ties by position), so a view with more peaks than
+   * PEAK_MARKERS_MAX takes its strongest without sorting on every paint (absent: sorted per view).
+   */
+  snrOrder?: Int32Array;
+};
+
+/** Strongest first; an infinite SNR (noise-free trace) sorts first, NaN last; ties by index. */
+function bySnrDescending(snr: Float64Array): (a: number, b: number) => number {
+  return (a, b) => (snr[b] || 0) - (snr[a] || 0) || a - b;
+}
 
 /**
  * Positions and heights of the markers (once per peak list, trace and ordinate).
@@ -54,7 +65,8 @@ export function peakLayerBase(peaks: PeakList, trace: Trace, ordinate: 'absorban
     const a = traceValueAt(trace, peaks.wavenumberCm1[i]);
     y[i] = ordinate === 'transmittance' ? 10 ** -a : a;
   }
-  return { peaks, nuCm1: peaks.wavenumberCm1.subarray(0, n), y };
+  const snrOrder = Int32Array.from({ length: n }, (_, i) => i).sort(bySnrDescending(peaks.snr));
+  return { peaks, nuCm1: peaks.wavenumberCm1.subarray(0, n), y, snrOrder };
 }
 
 /**
@@ -101,11 +113,17 @@ export function peakLayerVisible(layer: PeakLayerBase, x0Cm1: number, x1Cm1: num
   const lo = sortedLowerBound(layer.nuCm1, Math.min(x0Cm1, x1Cm1));
   const hi = sortedLowerBound(layer.nuCm1, Math.max(x0Cm1, x1Cm1));
   const n = Math.max(hi - lo, 0);
-  const idx = Int32Array.from({ length: n }, (_, k) => lo + k);
-  if (n <= PEAK_MARKERS_MAX) return idx;
-  // Strongest first; an infinite SNR (noise-free trace) sorts first, NaN last.
-  const snr = layer.peaks.snr;
-  const bySnr = Array.from(idx).sort((a, b) => (snr[b] || 0) - (snr[a] || 0) || a - b);
+  if (n <= PEAK_MARKERS_MAX) return Int32Array.from({ length: n }, (_, k) => lo + k);
+  const order = layer.snrOrder;
+  if (order) {
+    // The first PEAK_MARKERS_MAX of the whole list's order that lie in view: the same peaks as
+    // sorting the view's own, since a sub-list keeps the order.
+    const kept = new Int32Array(PEAK_MARKERS_MAX);
+    let m = 0;
+    for (let k = 0; k < order.length && m < PEAK_MARKERS_MAX; k++) if (order[k] >= lo && order[k] < hi) kept[m++] = order[k];
+    return kept.sort();
+  }
+  const bySnr = Array.from({ length: n }, (_, k) => lo + k).sort(bySnrDescending(layer.peaks.snr));
   return Int32Array.from(bySnr.slice(0, PEAK_MARKERS_MAX)).sort();
 }
 
