@@ -36,6 +36,9 @@ export interface BandShapeClassification {
   alternativeType?: BandShapeType;
   /** How B was obtained. */
   bMethod: 'line-spacing' | 'pr-separation' | 'none';
+  /** Range B is good to, cm^-1 (when B is given). */
+  bLow?: number;
+  bHigh?: number;
   /** Temperature used for B, K, and whether it was assumed. */
   temperatureK: number;
   temperatureAssumed: boolean;
@@ -330,7 +333,7 @@ export function bandShapeClassify(
   let confidence: 'high' | 'medium' | 'low' = 'high' as 'high' | 'medium' | 'low';
   let origin = centroid;
   let B: number | null = null;
-  let bMethod: 'line-spacing' | 'pr-separation' | 'none' = 'none';
+  let bMethod: BandShapeClassification['bMethod'] = 'none';
   let qSpacing: number | undefined;
 
   const centre0 = tallest ? tallest.x : centroid;
@@ -371,7 +374,15 @@ export function bandShapeClassify(
     const neighbours = nearest.slice(1, 5).map((p) => p.prominence);
     return spike.prominence < 5 * median(neighbours);
   })();
-  const combIsQSeriesBySpacing = combNotJLines && comb!.regularity >= 0.85 && comb!.members.length >= 5 && !combCentralPeak && spikeOnComb;
+  // A comb too coarse for J lines (B = spacing/2 above what the band's spread allows; a symmetric
+  // top's K structure only widens the spread, so it never lowers that bound) is Q branches even when
+  // the central ones tower over the rest (the K = 0 and 1 sub-bands of a prolate top's band).
+  // A Q-dominated band (an oblate top's parallel band) has a small spread about its centre, so this
+  // bound only holds while no central Q branch holds more than a tenth of the band.
+  const spikeShare = centralSpike ? qBranchShare(x, y, centralSpike, area, comb?.spacing ?? width / 20) : 0;
+  const combTooCoarse = comb !== null && jRatio > jHigh && spikeShare < 0.1;
+  const combIsQSeriesBySpacing =
+    combNotJLines && comb!.regularity >= 0.85 && comb!.members.length >= 5 && (combTooCoarse || (!combCentralPeak && spikeOnComb));
   const combIsQSeries = (comb !== null && !twoLobes && !combDip && !combCentralPeak && !centralSpike) || combIsQSeriesBySpacing;
   if (comb && combIsQSeries) {
     profile = 'Q-series';
@@ -411,7 +422,9 @@ export function bandShapeClassify(
     B = comb.spacing / 2;
     bMethod = 'line-spacing';
     const gap = centralGap(allPeaks, comb.spacing, centroid);
-    if (centralSpike && (!gap || Math.abs(centralSpike.x - gap.centre) < comb.spacing)) {
+    // The Q branch may sit in the central gap or bound it (a Q branch shaded to one side, with the
+    // weak low-J lines beside it lost in the noise).
+    if (centralSpike && (!gap || Math.abs(centralSpike.x - gap.centre) <= 0.5 * gap.width + 0.25 * comb.spacing)) {
       profile = 'PQR';
       origin = centralSpike.x;
       evidence.push(
@@ -481,6 +494,24 @@ export function bandShapeClassify(
     confidence = 'low';
   }
 
+  // Second look at a PR reading: the envelope's highest maximum with a lower maximum (a P or R lobe)
+  // beyond a dip on each side is a Q branch between P and R, whatever the peak tests above said
+  // (a weak P or R lobe beside a strong Q branch fails their height cuts).
+  if (profile === 'PR') {
+    const q = envelopeCentralMaximum(x, y, Math.max(2, Math.max(width / 60, comb ? 1.2 * comb.spacing : 0) / step), area);
+    if (q) {
+      profile = 'PQR';
+      origin = q.x;
+      confidence = 'medium';
+      evidence.push(
+        `but the band's envelope has its highest maximum at ${q.x.toFixed(3)} cm^-1 with a lower maximum beyond a dip on each side (P at ${q.left.toFixed(2)}, R at ${q.right.toFixed(2)} cm^-1): a Q branch between P and R, so PQR`,
+      );
+    }
+  }
+  // Second look at a PQR reading: a central feature made of several maxima on a regular comb with
+  // no curvature to speak of is a cluster of Q branches (a perpendicular band whose Q-branch spacing
+  // 2[C′(1−ζ) − B′] is small, as an oblate top's often is), not one Q branch: a parallel band's
+  // Q-branch structure (ΔB·J(J+1), Δ(A−B)·K²) grows quadratically from the origin.
   // A PR reading from a minimum between two maxima or a central gap in a comb cannot tell a true
   // Σ–Σ band from a weak or instrument-smeared Q branch (a symmetric top's parallel band, or unresolved
   // Q branches of a perpendicular one) filling the centre. Compare the envelope against a blurred
@@ -502,6 +533,49 @@ export function bandShapeClassify(
     } else {
       evidence.push(
         `a blurred two-lobe P/R template leaves no room for a central Q branch (a Q component takes up ${Math.round(100 * t.improvement)} % of its misfit, ${Math.round(100 * t.qShare)} % of the band)`,
+      );
+    }
+  }
+  // Second look at a PQR reading on a regular comb of strong maxima: when the weaker maxima between
+  // them make a finer comb of their own, the fine one is the J lines (spacing ≈ 2B) and the strong
+  // one a series of Q branches (a light top's perpendicular band with resolved lines).
+  if (profile === 'PQR' && comb && comb.members.length >= 5 && comb.regularity >= 0.85 && !combFromPeriod) {
+    const strong = comb.members;
+    const rest = allPeaks.filter((p) => strong.every((q) => Math.abs(q.x - p.x) > 0.2 * comb!.spacing));
+    const restMax = rest.reduce((m, p) => Math.max(m, p.prominence), 0);
+    let fine: ReturnType<typeof combOf> = null;
+    for (const level of [0.5, 0.3, 0.15]) {
+      const picked = rest.filter((p) => p.prominence >= level * restMax);
+      fine = picked.length >= 8 ? combOf(picked) : null;
+      if (fine) break;
+    }
+    if (fine && fine.spacing < 0.7 * comb.spacing && fine.spacing > 3 * step) {
+      const fit = qSeriesFit(strong, centroid);
+      profile = 'Q-series';
+      qSpacing = fit.spacing;
+      origin = centroid;
+      B = fine.spacing / 2;
+      bMethod = 'line-spacing';
+      confidence = 'medium';
+      evidence.push(
+        `but between the ${strong.length} strong maxima (${comb.spacing.toPrecision(4)} cm^-1 apart) the weaker ones make a finer comb ${fine.spacing.toPrecision(4)} cm^-1 apart: the fine comb is J lines (B ≈ ${B.toPrecision(3)} cm^-1) and the strong maxima a series of Q branches ${fit.spacing.toPrecision(4)} cm^-1 apart`,
+      );
+    }
+  }
+  const qPeak =
+    centralSpike ??
+    allPeaks.filter((p) => Math.abs(p.x - origin) < width / 10).reduce<Peak | null>((b, p) => (!b || p.height > b.height ? p : b), null);
+  if (profile === 'PQR' && qPeak) {
+    const cluster = centralQCluster(x, light, qPeak, sigma, step);
+    if (cluster) {
+      profile = 'Q-series';
+      qSpacing = cluster.spacing;
+      origin = qPeak.x;
+      B = null;
+      bMethod = 'none';
+      confidence = cluster.members >= 7 ? 'medium' : 'low';
+      evidence.push(
+        `but the central feature holds ${cluster.members} maxima on a regular comb ${cluster.spacing.toPrecision(4)} cm^-1 apart (curvature ${cluster.curvature.toPrecision(2)} cm^-1 per index²): a cluster of Q branches with a small spacing, so a series of Q branches`,
       );
     }
   }
@@ -543,14 +617,37 @@ export function bandShapeClassify(
       '.';
   }
   if (bMethod === 'pr-separation' && type !== 'linear-parallel' && type !== 'linear-perpendicular') {
-    // Measured (bench:contour classify, 120 seeded bands): from the spread of unresolved parallel
-    // bands of oblate tops B came out 43–85 % too large, so it is not offered as B.
+    // Measured (bench:contour classify): from the spread of unresolved parallel bands of symmetric
+    // tops B came out 3–85 % too large, and with a strong Q branch at the centre far too small, so
+    // it is not offered as B.
     evidence.push(
-      `B is withheld: the linear molecule's branch relation would give ${B!.toPrecision(3)} cm^-1, but a symmetric top's K structure widens the branches, so that is likely too large (an upper bound)`,
+      `B is withheld: the linear molecule's branch relation would give ${B!.toPrecision(3)} cm^-1, but a symmetric top's K structure widens the branches and its Q branch narrows their spread, so that is not B to 10 %`,
     );
     B = null;
     bMethod = 'none';
     if (confidence === 'high') confidence = 'medium';
+  }
+  // The range B is good to: from resolved J lines within 5 % on the seeded bands (±8 % given), from
+  // a linear molecule's P–R spread within 6 % (±10 %), a Π–Σ band's within ~10 % (±15 %); from the
+  // finer comb under a Q-branch series one check gave +15 % (sub-band combs interleave), ±25 % given.
+  let bLow: number | undefined;
+  let bHigh: number | undefined;
+  if (B !== null && confidence === 'low') {
+    // A B read off a profile that may be wrong (e.g. a comb of Q branches taken for J lines) is no
+    // better than the reading: not given.
+    evidence.push(`B is withheld: ${B.toPrecision(3)} cm^-1 would rest on a profile read with low confidence`);
+    B = null;
+    bMethod = 'none';
+  }
+  if (B !== null) {
+    const rel = bMethod === 'line-spacing' ? (profile === 'Q-series' ? 0.25 : 0.08) : type === 'linear-parallel' ? 0.1 : 0.15;
+    bLow = B * (1 - rel);
+    bHigh = B * (1 + rel);
+    evidence.push(
+      `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (±${Math.round(rel * 100)} %, measured on seeded bands)`,
+    );
+  } else {
+    evidence.push('B is not given: this profile does not show it to 10 %');
   }
   if (confidence === 'high' && profile !== 'Q-series') {
     // Measured on 120 seeded bands of every shape, type and apodization (bench:contour classify),
@@ -572,6 +669,8 @@ export function bandShapeClassify(
     confidence,
     ...(alternativeType ? { alternativeType } : {}),
     bMethod,
+    ...(bLow !== undefined ? { bLow } : {}),
+    ...(bHigh !== undefined ? { bHigh } : {}),
     temperatureK: T,
     temperatureAssumed: bMethod === 'pr-separation' ? temperatureAssumed : false,
     evidence: evidence.join('; ') + '.',
@@ -581,7 +680,7 @@ export function bandShapeClassify(
 
 /**
  * Strongest repeat of a residual: the lag (samples, parabola-refined) of the highest local maximum of
- * its normalised autocorrelation beyond the first zero crossing (the features' own width), and that
+ * its normalised autocorrelation beyond the first zero crossing or first minimum (the features' own width), and that
  * maximum (1 = a perfect repeat). Source: autocorrelation period estimate, common practice.
  */
 function residualPeriod(r: Float64Array, minLag: number, maxLag: number): { lag: number; strength: number } | null {
@@ -595,8 +694,9 @@ function residualPeriod(r: Float64Array, minLag: number, maxLag: number): { lag:
     for (let i = 0; i + k < m; i++) s += r[i] * r[i + k];
     ac[k] = (s / r0) * (m / (m - k));
   }
+  // Beyond the first zero crossing, or the first local minimum when a slow residual keeps it positive.
   let k0 = 1;
-  while (k0 <= maxLag && ac[k0] > 0) k0++;
+  while (k0 <= maxLag && ac[k0] > 0 && !(ac[k0] < ac[k0 - 1] && ac[k0] <= ac[k0 + 1])) k0++;
   let best = -1;
   for (let k = Math.max(k0, minLag); k <= maxLag; k++)
     if (ac[k] > ac[k - 1] && ac[k] >= ac[k + 1] && (best < 0 || ac[k] > ac[best])) best = k;
@@ -681,4 +781,75 @@ function qBranchShare(x: Float64Array, y: Float64Array, spike: Peak, area: numbe
     a += Math.max(0, y[i] - chord) * (i > 0 ? x[i] - x[i - 1] : 0);
   }
   return a / area;
+}
+
+/**
+ * The envelope's highest maximum when it lies between two lower maxima (each beyond a dip to ≤ 85 %
+ * of the lower of the two heights, ≥ 8 % of the highest, with ≥ 10 % of the band's area outside it):
+ * a Q branch between P and R. Thresholds: common practice, chosen here.
+ */
+function envelopeCentralMaximum(
+  x: Float64Array,
+  y: Float64Array,
+  sigmaSamples: number,
+  area: number,
+): { x: number; left: number; right: number } | null {
+  const env = smooth(y, sigmaSamples);
+  const n = env.length;
+  let im = 0;
+  for (let i = 1; i < n; i++) if (env[i] > env[im]) im = i;
+  const top = env[im];
+  const side = (dir: 1 | -1): { x: number; h: number } | null => {
+    let lowest = top;
+    let best: { x: number; h: number } | null = null;
+    for (let i = im + dir; i > 0 && i < n - 1; i += dir) {
+      lowest = Math.min(lowest, env[i]);
+      if (env[i] >= env[i - 1] && env[i] >= env[i + 1] && env[i] >= 0.08 * top && lowest <= 0.85 * env[i]) {
+        if (!best || env[i] > best.h) best = { x: x[i], h: env[i] };
+      }
+    }
+    return best;
+  };
+  const l = side(-1);
+  const r = side(1);
+  if (!l || !r || l.h >= top || r.h >= top) return null;
+  // Each side must hold a real branch, not a ripple in the wing.
+  let aLeft = 0;
+  let aRight = 0;
+  for (let i = 1; i < n; i++) {
+    const a = Math.max(0, y[i]) * (x[i] - x[i - 1]);
+    if (x[i] < l.x) aLeft += a;
+    else if (x[i] > r.x) aRight += a;
+  }
+  if (aLeft < 0.1 * area || aRight < 0.1 * area) return null;
+  return { x: x[im], left: l.x, right: r.x };
+}
+
+/**
+ * Regular comb of maxima inside the central feature around the spike (where the trace stays above
+ * 30 % of the spike's height): ≥ 5 maxima ≥ 3σ prominent and ≥ 10 % of the spike, ≥ 80 % of gaps
+ * whole multiples of the median gap, spacing ≥ 3 samples, and a quadratic in the index whose
+ * curvature moves the outermost member by < 25 % of a spacing. Thresholds: chosen here.
+ */
+function centralQCluster(
+  x: Float64Array,
+  light: Float64Array,
+  spike: Peak,
+  sigma: number,
+  step: number,
+): { spacing: number; members: number; curvature: number } | null {
+  const n = x.length;
+  const floor = 0.3 * spike.height;
+  let lo = spike.index;
+  while (lo > 0 && light[lo] > floor) lo--;
+  let hi = spike.index;
+  while (hi < n - 1 && light[hi] > floor) hi++;
+  const inside = refinedPeaks(x, light, 3 * sigma).filter((p) => p.index > lo && p.index < hi && p.height >= 0.1 * spike.height);
+  if (inside.length < 5) return null;
+  const comb = combOf(inside);
+  if (!comb || comb.regularity < 0.8 || comb.spacing < 3 * step) return null;
+  const fit = qSeriesFit(inside, spike.x);
+  const half = (inside[inside.length - 1].x - inside[0].x) / Math.abs(fit.spacing) / 2;
+  if (!(Math.abs(fit.curvature) * half * half < 0.25 * Math.abs(fit.spacing))) return null;
+  return { spacing: fit.spacing, members: inside.length, curvature: fit.curvature };
 }

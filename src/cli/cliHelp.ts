@@ -230,7 +230,7 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
         default: '296, and the output says it was assumed',
       },
     ],
-    output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, temperature, temperatureAssumed, implication}; cm^-1. ${WARNINGS}`,
+    output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, bLow, bHigh, temperature, temperatureAssumed, implication}; cm^-1. ${WARNINGS}`,
     example: 'npm run --silent cli -- classify --trace lowres.csv --from 1100 --to 1200 --temperature 296',
   },
   perturbations: {
