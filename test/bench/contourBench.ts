@@ -160,6 +160,7 @@ function targets(count: number): void {
       const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: spec.temperatureK });
       row.profile = r.profile;
       row.confidence = r.confidence;
+      row.bMethod = r.bMethod;
       if (r.profile === c.profile) profileOk++;
       if (r.B !== null && c.profile !== 'Q-series') {
         bChecked++;
@@ -279,6 +280,7 @@ function classifyCases(count: number, first: number): void {
       const ok = r.profile === vis.profile || (vis.ambiguous && r.confidence !== 'high' && r.profile !== 'PR');
       row.profile = r.profile;
       row.confidence = r.confidence;
+      row.bMethod = r.bMethod;
       row.ok = ok;
       if (ok) byProfile[key].ok++;
       byConfidence[r.confidence] ??= { n: 0, ok: 0 };
