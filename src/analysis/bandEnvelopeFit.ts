@@ -55,9 +55,22 @@ function variantsFor(type: EnvelopeBandType, qSpacing: number | undefined): Vari
     // A′ = A″ and B′ = B″: the P and R lines of every K coincide, and A only sets how the Q
     // branch's intensity spreads over K; two ends of the range stand for the rest.
     return [
-      { type, shape: 'prolate', band: 'parallel', unique: (B) => 4 * B, zeta: 0, label: 'prolate parallel, A = 4B' },
-      { type, shape: 'prolate', band: 'parallel', unique: (B) => 12 * B, zeta: 0, label: 'prolate parallel, A = 12B' },
-      { type, shape: 'oblate', band: 'parallel', unique: (B) => 0.7 * B, zeta: 0, label: 'oblate parallel, C = 0.7B' },
+      ...[2.5, 5, 12].map((r) => ({
+        type,
+        shape: 'prolate' as const,
+        band: 'parallel' as const,
+        unique: (B: number) => r * B,
+        zeta: 0,
+        label: `prolate parallel, A = ${r}B`,
+      })),
+      ...[0.55, 0.8].map((r) => ({
+        type,
+        shape: 'oblate' as const,
+        band: 'parallel' as const,
+        unique: (B: number) => r * B,
+        zeta: 0,
+        label: `oblate parallel, C = ${r}B`,
+      })),
     ];
   }
   const q = Math.abs(qSpacing ?? 0);
@@ -167,11 +180,12 @@ function envelopeSticks(
 }
 
 /** Least squares of y ≈ a·s + b + c·t: the residual sum of squares and a (3×3 normal equations). */
-function scaleBaselineFit(s: Float64Array, y: Float64Array, t: Float64Array): { ss: number; a: number } {
+function scaleBaselineFit(s: Float64Array, y: Float64Array, t: Float64Array, keep: Uint8Array): { ss: number; a: number } {
   const n = y.length;
   const m = [0, 0, 0, 0, 0, 0, 0, 0, 0];
   const r = [0, 0, 0];
   for (let i = 0; i < n; i++) {
+    if (!keep[i]) continue;
     const c = [s[i], 1, t[i]];
     for (let p = 0; p < 3; p++) {
       r[p] += c[p] * y[i];
@@ -196,6 +210,7 @@ function scaleBaselineFit(s: Float64Array, y: Float64Array, t: Float64Array): { 
   if (!(sol[0] > 0)) return { ss: Infinity, a: sol[0] };
   let ss = 0;
   for (let i = 0; i < n; i++) {
+    if (!keep[i]) continue;
     const d = y[i] - sol[0] * s[i] - sol[1] - sol[2] * t[i];
     ss += d * d;
   }
@@ -216,6 +231,10 @@ export interface BandEnvelopeFitInput {
   qSpacing?: number;
   /** White-noise σ of y, absorbance. */
   noiseSigma: number;
+  /** Band origin, cm^-1: held there. Absent: the synthetic's first moment is put on the trace's. */
+  originCm1?: number;
+  /** Half-width about the origin left out of the comparison (a Q branch), cm^-1; needs originCm1. */
+  maskHalfWidthCm1?: number;
 }
 
 /** What bandEnvelopeFit found for one band type. */
@@ -291,15 +310,25 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
     const u = v.unique(B);
     if (u === null) return null;
     evaluations++;
-    const first = envelopeSticks(v, B, u, 0, T, x[0] - centroid, step, n, blurCm1);
-    // Origin 0 put the band's first moment at first.mean; move it onto the trace's.
-    const origin = centroid - first.mean;
+    // Origin 0 put the band's first moment at first.mean; move it onto the trace's (unless given).
+    const origin = input.originCm1 ?? centroid - envelopeSticks(v, B, u, 0, T, x[0] - centroid, step, n, blurCm1).mean;
     const shifted = envelopeSticks(v, B, u, origin, T, x[0], step, n, blurCm1);
     return { sticks: shifted.hist, origin };
   };
 
+  // Points compared: all but those within maskHalfWidthCm1 (plus the smoothing's reach) of the origin.
+  const keepFor = (sigmaSamples: number): Uint8Array => {
+    const keep = new Uint8Array(n).fill(1);
+    const half = input.maskHalfWidthCm1;
+    if (half && input.originCm1 !== undefined) {
+      const reach = half + 1.5 * sigmaSamples * step;
+      for (let i = 0; i < n; i++) if (Math.abs(x[i] - input.originCm1) < reach) keep[i] = 0;
+    }
+    return keep;
+  };
   // Pass 1: heavy smoothing.
   const sHeavy = Math.max(2, width / 30 / step);
+  const keepHeavy = keepFor(sHeavy);
   const yHeavy = smoothBoxes(y, sHeavy);
   const coarse: { v: Variant; B: number; ss: number }[] = [];
   for (const v of variants) {
@@ -307,13 +336,14 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
       const B = 10 ** e;
       const mdl = model(v, B, sHeavy * step * 2.355);
       if (!mdl) continue;
-      const fit = scaleBaselineFit(smoothBoxes(mdl.sticks, sHeavy), yHeavy, t);
+      const fit = scaleBaselineFit(smoothBoxes(mdl.sticks, sHeavy), yHeavy, t, keepHeavy);
       coarse.push({ v, B, ss: fit.ss });
     }
   }
   // Pass 2: lighter smoothing, the synthetic's width chosen, ±25 % around the best coarse B of each variant.
   const sLight = Math.max(2.5, width / 80 / step);
   const yLight = smoothBoxes(y, sLight);
+  const keepLight = keepFor(sLight);
   const widths = [0, 1.5, 3, 5].map((w) => Math.hypot(sLight, w));
   const fine: { v: Variant; B: number; ss: number; origin: number }[] = [];
   for (const v of variants) {
@@ -325,7 +355,7 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
       const mdl = model(v, B, sLight * step * 2.355);
       if (!mdl) continue;
       let bestSs = Infinity;
-      for (const w of widths) bestSs = Math.min(bestSs, scaleBaselineFit(smoothBoxes(mdl.sticks, w), yLight, t).ss);
+      for (const w of widths) bestSs = Math.min(bestSs, scaleBaselineFit(smoothBoxes(mdl.sticks, w), yLight, t, keepLight).ss);
       fine.push({ v, B, ss: bestSs, origin: mdl.origin });
     }
   }

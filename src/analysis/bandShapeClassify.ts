@@ -40,6 +40,8 @@ export interface BandShapeClassification {
   /** Range B is good to, cm^-1 (when B is given). */
   bLow?: number;
   bHigh?: number;
+  /** Whether that range is narrow enough (within ±15 % of B) to call B determined (when B is given). */
+  bDetermined?: boolean;
   /** Temperature used for B, K, and whether it was assumed. */
   temperatureK: number;
   temperatureAssumed: boolean;
@@ -604,26 +606,35 @@ export function bandShapeClassify(
     bMethod = 'none';
     if (confidence === 'high') confidence = 'medium';
   }
-  // B of a Σ–Σ band from its whole envelope (bandEnvelopeFit) where no resolved lines gave it:
-  // measured on the seeded bands of bench:contour classify, within 3 % for Σ–Σ bands read right.
-  // Not used for other types: for a Π–Σ band the rigid model's single-position Q branch (the trace's
-  // spreads by ΔB·J(J+1)) pulled B off by 60 % on one test band, and for symmetric tops the unique
-  // constant and ζ, which the profile does not give, moved the fitted B by tens of per cent (within
-  // 10 % on 14 of the first 40 seeded bands).
+  // B from the band's whole envelope (bandEnvelopeFit) where no resolved lines gave it. Σ–Σ bands:
+  // the whole envelope, within 3 % on the seeded bands of bench:contour classify read right.
+  // Parallel bands of symmetric tops: held at the Q branch, the central 24 % of the band (the Q
+  // branch, whose shape rests on ΔB and A, C that the profile does not give) left out, five values of
+  // A/B or C/B competing; on the tuning seeds within 10 % on 19 of 23, the truth inside the range on
+  // 23 of 23. Not used for Π–Σ bands (the rigid model's single-position Q branch pulled B off by 60 %
+  // on a test band) or Q-branch series (the unique constant and ζ left B open by tens of per cent).
   let envelopeRange: [number, number] | null = null;
-  if (type === 'linear-parallel' && bMethod !== 'line-spacing' && confidence !== 'low') {
-    const fit = bandEnvelopeFit({ x, y, temperatureK: T, types: [type], noiseSigma: sigma }).byType[0];
-    if (fit && fit.bHigh / fit.bLow <= 1.3) {
+  let envelopeHeld = false;
+  const envelopeType = type === 'linear-parallel' || (type === 'symmetric-top-parallel' && profile === 'PQR');
+  if (envelopeType && bMethod !== 'line-spacing' && confidence !== 'low') {
+    const held = type === 'symmetric-top-parallel';
+    const fit = bandEnvelopeFit({
+      x,
+      y,
+      temperatureK: T,
+      types: [type],
+      noiseSigma: sigma,
+      ...(held ? { originCm1: origin, maskHalfWidthCm1: 0.12 * width } : {}),
+    }).byType[0];
+    if (fit) {
       if (B !== null) evidence.push(`the branch spread gave B = ${B.toPrecision(3)} cm^-1`);
       B = fit.B;
       bMethod = 'envelope-fit';
       envelopeRange = [fit.bLow, fit.bHigh];
+      envelopeHeld = held;
       evidence.push(
-        `B = ${fit.B.toPrecision(4)} cm^-1 from fitting the band's envelope (${fit.variant}, ${tNote}; B from ${fit.bLow.toPrecision(3)} to ${fit.bHigh.toPrecision(3)} cm^-1 fits about as well)`,
-      );
-    } else if (fit) {
-      evidence.push(
-        `an envelope fit gives B from ${fit.bLow.toPrecision(3)} to ${fit.bHigh.toPrecision(3)} cm^-1, too wide a range to refine B`,
+        `B = ${fit.B.toPrecision(4)} cm^-1 from fitting the band's envelope${held ? ' outside the Q branch' : ''} (best: ${fit.variant}; ${tNote}); B from ${fit.bLow.toPrecision(3)} to ${fit.bHigh.toPrecision(3)} cm^-1 fits about as well` +
+          (held ? '; if the band is an unresolved perpendicular one instead, this is not its B' : ''),
       );
     }
   }
@@ -632,6 +643,7 @@ export function bandShapeClassify(
   // finer comb under a Q-branch series one check gave +15 % (sub-band combs interleave), ±25 % given.
   let bLow: number | undefined;
   let bHigh: number | undefined;
+  let bDetermined: boolean | undefined;
   if (B !== null && confidence === 'low') {
     // A B read off a profile that may be wrong (e.g. a comb of Q branches taken for J lines) is no
     // better than the reading: not given.
@@ -652,6 +664,12 @@ export function bandShapeClassify(
             : 0.15;
     bLow = Math.min(B * (1 - rel), envelopeRange?.[0] ?? Infinity);
     bHigh = Math.max(B * (1 + rel), envelopeRange?.[1] ?? 0);
+    // A symmetric top's PQR envelope may as well be an unresolved perpendicular band, whose P/R
+    // wings give another B (bench:contour classify: −35 % with a narrow range on tuning seed 59), so
+    // B from it is never called determined.
+    bDetermined = bLow >= 0.85 * B && bHigh <= 1.15 * B && !envelopeHeld;
+    if (envelopeHeld) evidence.push('B is not determined: the profile does not rule out an unresolved perpendicular band');
+    else if (!bDetermined) evidence.push('B is not determined: the range is wider than ±15 %');
     evidence.push(
       `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round(rel * 100)} %, measured on seeded bands)`,
     );
@@ -680,6 +698,7 @@ export function bandShapeClassify(
     bMethod,
     ...(bLow !== undefined ? { bLow } : {}),
     ...(bHigh !== undefined ? { bHigh } : {}),
+    ...(bDetermined !== undefined ? { bDetermined } : {}),
     temperatureK: T,
     temperatureAssumed: bMethod === 'pr-separation' || bMethod === 'envelope-fit' ? temperatureAssumed : false,
     evidence: evidence.join('; ') + '.',

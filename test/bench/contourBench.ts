@@ -253,6 +253,7 @@ function classifyCases(count: number, first: number): void {
   const bErr: number[] = [];
   const qErr: number[] = [];
   let bMissing = 0;
+  const bGiven: { err: number; inRange: boolean; determined: boolean }[] = [];
   let qMissing = 0;
   let ms = 0;
   for (let s = first; s < first + count; s++) {
@@ -289,7 +290,11 @@ function classifyCases(count: number, first: number): void {
       if (vis.profile !== 'Q-series') {
         if (r.B !== null) {
           row.Berr = Number((r.B / spec.B - 1).toFixed(3));
+          row.bRange = [Number(r.bLow!.toPrecision(3)), Number(r.bHigh!.toPrecision(3))];
+          row.bInRange = spec.B >= r.bLow! && spec.B <= r.bHigh!;
+          row.bDetermined = r.bDetermined;
           bErr.push(r.B / spec.B - 1);
+          bGiven.push({ err: r.B / spec.B - 1, inRange: spec.B >= r.bLow! && spec.B <= r.bHigh!, determined: r.bDetermined === true });
         } else bMissing++;
       } else if (r.qSpacing !== undefined) {
         row.qErr = Number((Math.abs(r.qSpacing) / Math.abs(vis.qSpacing) - 1).toFixed(4));
@@ -312,6 +317,8 @@ function classifyCases(count: number, first: number): void {
       byConfidence: rate(byConfidence),
       bWithin10pc: `${bErr.filter((e) => Math.abs(e) <= 0.1).length}/${bErr.length} given (${bMissing} withheld)`,
       bError: spread(bErr),
+      bInsideRange: `${bGiven.filter((g) => g.inRange).length}/${bGiven.length}`,
+      bDeterminedWithin10pc: `${bGiven.filter((g) => g.determined && Math.abs(g.err) <= 0.1).length}/${bGiven.filter((g) => g.determined).length}`,
       qSpacingWithin3pc: `${qErr.filter((e) => Math.abs(e) <= 0.03).length}/${qErr.length} given (${qMissing} withheld)`,
       qSpacingError: spread(qErr),
       classifyMsPerCase: Number((ms / count).toFixed(1)),
