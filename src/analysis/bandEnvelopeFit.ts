@@ -265,11 +265,13 @@ export const ENVELOPE_SS_TOLERANCE = 0.1;
 /**
  * Fit the band's envelope for B: for each type and variant, B on a log grid (10 per decade,
  * 0.005–10 cm^-1) against the trace smoothed to a 30th of its width (the instrument's line shape
- * and J structure washed out alike), then around the best few a finer grid (±25 %, 2 % steps)
- * against the trace smoothed by ~2.4 samples, the synthetic smoothed with a width chosen from six
- * (the instrument's unknown width). The origin follows from matching the first moments. The range
- * is every B whose residual sum of squares lies within ENVELOPE_SS_TOLERANCE (relative) plus
- * 2·n·σ²/ν of the minimum across variants and widths (ν the smoothing's effective sample count).
+ * and J structure washed out alike), then around each variant's best a finer grid (±25 %, 2 % steps)
+ * against the trace smoothed to an 80th of its width (at least 2.5 samples), the synthetic smoothed
+ * with that width combined with one of four extra widths (0–5 samples: the instrument's unknown
+ * width). The origin is the one given, or else follows from matching the first moments; points
+ * within maskHalfWidthCm1 of a given origin are left out. The range is every B whose residual sum of
+ * squares lies within ENVELOPE_SS_TOLERANCE (relative) plus 2·n·σ²/ν of the minimum across variants
+ * and widths (ν the smoothing's effective sample count, 2√π σ_s).
  * Source: envelope comparison with a free scale and baseline, common practice; term values and
  * Hönl–London factors as bandLines (Herzberg II (1945) ch. IV).
  * @param input region, temperature, types, Q spacing and noise
