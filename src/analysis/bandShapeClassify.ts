@@ -5,6 +5,7 @@
  */
 import { SECOND_RADIATION_CM_K } from '../physics/constants';
 import { bandCentreTemplate } from './bandCentreTemplate';
+import { bandEnvelopeFit, smoothBoxes } from './bandEnvelopeFit';
 import { noiseSigmaEstimate } from './noiseSigmaEstimate';
 import { peakProminence } from './peakProminence';
 
@@ -35,7 +36,12 @@ export interface BandShapeClassification {
   /** The other band type that would fit the profile, when there is one. */
   alternativeType?: BandShapeType;
   /** How B was obtained. */
-  bMethod: 'line-spacing' | 'pr-separation' | 'none';
+  bMethod: 'line-spacing' | 'pr-separation' | 'envelope-fit' | 'none';
+  /** Range B is good to, cm^-1 (when B is given). */
+  bLow?: number;
+  bHigh?: number;
+  /** Whether that range is narrow enough (within ±15 % of B) to call B determined (when B is given). */
+  bDetermined?: boolean;
   /** Temperature used for B, K, and whether it was assumed. */
   temperatureK: number;
   temperatureAssumed: boolean;
@@ -97,30 +103,6 @@ function median(values: number[]): number {
   const s = [...values].sort((a, b) => a - b);
   const n = s.length;
   return n === 0 ? NaN : n % 2 ? s[(n - 1) / 2] : 0.5 * (s[n / 2 - 1] + s[n / 2]);
-}
-
-/**
- * Near-Gaussian smoothing with σ in samples: three passes of a moving average of radius r with
- * (2r+1)² = 4σ² + 1 (variance of three boxes = σ²); edges use the part of the window inside.
- * Source: W. M. Wells, IEEE Trans. PAMI 8, 234 (1986) (repeated box filters approach a Gaussian).
- */
-function smooth(y: Float64Array, sigmaSamples: number): Float64Array {
-  const n = y.length;
-  const r = Math.round((Math.sqrt(4 * sigmaSamples * sigmaSamples + 1) - 1) / 2);
-  let cur = Float64Array.from(y);
-  if (r < 1) return cur;
-  const prefix = new Float64Array(n + 1);
-  for (let pass = 0; pass < 3; pass++) {
-    for (let i = 0; i < n; i++) prefix[i + 1] = prefix[i] + cur[i];
-    const next = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      const lo = Math.max(0, i - r);
-      const hi = Math.min(n - 1, i + r);
-      next[i] = (prefix[hi + 1] - prefix[lo]) / (hi - lo + 1);
-    }
-    cur = next;
-  }
-  return cur;
 }
 
 function refinedPeaks(x: Float64Array, y: Float64Array, minProminence: number): Peak[] {
@@ -233,7 +215,7 @@ export function bandShapeClassify(
   const tNote = temperatureAssumed ? `T = ${T} K assumed (none given)` : `T = ${T} K as given`;
 
   // Peaks on a lightly smoothed trace (about one sample of smoothing).
-  const light = smooth(y, 1);
+  const light = smoothBoxes(y, 1);
   const allPeaks = refinedPeaks(x, light, 6 * sigma);
   const maxProm = allPeaks.reduce((m, p) => Math.max(m, p.prominence), 0);
   // A comb among the strongest peaks first (Q branches stand above resolved J lines), then weaker ones.
@@ -265,7 +247,7 @@ export function bandShapeClassify(
     // No comb among the picked peaks: look for one in the periodicity of the high-pass residual
     // (trace minus its envelope) over the band's central 90 %, then pick the maxima of a trace
     // smoothed to a sixth of that period, where Q branches too close for the peak test may show.
-    const env = smooth(y, Math.max(2, width / 12 / step));
+    const env = smoothBoxes(y, Math.max(2, width / 12 / step));
     const iLo = Math.max(0, Math.round((w10 - x[0]) / step));
     const iHi = Math.min(n - 1, Math.round((w90 - x[0]) / step));
     const hp = new Float64Array(iHi - iLo + 1);
@@ -273,7 +255,7 @@ export function bandShapeClassify(
     const period = residualPeriod(hp, 3, Math.floor(hp.length / 6));
     if (period && period.strength >= 0.25) {
       const d = period.lag * step;
-      const fine = smooth(y, Math.max(0.5, period.lag / 6));
+      const fine = smoothBoxes(y, Math.max(0.5, period.lag / 6));
       const picked = refinedPeaks(x, fine, 3 * sigma).filter((p) => p.x >= w10 && p.x <= w90);
       const found = combOf(picked);
       if (found && Math.abs(found.spacing / d - 1) < 0.15) {
@@ -288,7 +270,7 @@ export function bandShapeClassify(
   const local = comb ? 3 * comb.spacing : width / 6;
   const central = allPeaks.filter((p) => Math.abs(p.x - centroid) < 0.3 * width);
   let centralSpike: Peak | null = null as Peak | null;
-  const envPlain = smooth(y, Math.max(2, (comb ? 1.2 * comb.spacing : width / 40) / step));
+  const envPlain = smoothBoxes(y, Math.max(2, (comb ? 1.2 * comb.spacing : width / 40) / step));
   const plainMax = Math.max(...envPlain);
   const plainLobes = refinedPeaks(x, envPlain, 0.05 * plainMax).filter((p) => p.height > 0.3 * plainMax);
   // With P and R lobes on both sides, a Q branch lies between them, not on one of their maxima.
@@ -321,7 +303,7 @@ export function bandShapeClassify(
     for (let i = lo; i <= hi; i++) bridged[i] = y[lo] + ((y[hi] - y[lo]) * (x[i] - x[lo])) / Math.max(x[hi] - x[lo], 1e-12);
   }
   const envSigma = Math.max(2, (comb ? 1.2 * comb.spacing : width / 40) / step);
-  const env = smooth(bridged, envSigma);
+  const env = smoothBoxes(bridged, envSigma);
   const envMax = Math.max(...env);
   const lobes = refinedPeaks(x, env, 0.05 * envMax).filter((p) => p.height > 0.3 * envMax);
   const tallest = centralSpike;
@@ -330,7 +312,7 @@ export function bandShapeClassify(
   let confidence: 'high' | 'medium' | 'low' = 'high' as 'high' | 'medium' | 'low';
   let origin = centroid;
   let B: number | null = null;
-  let bMethod: 'line-spacing' | 'pr-separation' | 'none' = 'none';
+  let bMethod: BandShapeClassification['bMethod'] = 'none';
   let qSpacing: number | undefined;
 
   const centre0 = tallest ? tallest.x : centroid;
@@ -371,7 +353,15 @@ export function bandShapeClassify(
     const neighbours = nearest.slice(1, 5).map((p) => p.prominence);
     return spike.prominence < 5 * median(neighbours);
   })();
-  const combIsQSeriesBySpacing = combNotJLines && comb!.regularity >= 0.85 && comb!.members.length >= 5 && !combCentralPeak && spikeOnComb;
+  // A comb too coarse for J lines (B = spacing/2 above what the band's spread allows; a symmetric
+  // top's K structure only widens the spread, so it never lowers that bound) is Q branches even when
+  // the central ones tower over the rest (the K = 0 and 1 sub-bands of a prolate top's band).
+  // A Q-dominated band (an oblate top's parallel band) has a small spread about its centre, so this
+  // bound only holds while no central Q branch holds more than a tenth of the band.
+  const spikeShare = centralSpike ? qBranchShare(x, y, centralSpike, area, comb?.spacing ?? width / 20) : 0;
+  const combTooCoarse = comb !== null && jRatio > jHigh && spikeShare < 0.1;
+  const combIsQSeriesBySpacing =
+    combNotJLines && comb!.regularity >= 0.85 && comb!.members.length >= 5 && (combTooCoarse || (!combCentralPeak && spikeOnComb));
   const combIsQSeries = (comb !== null && !twoLobes && !combDip && !combCentralPeak && !centralSpike) || combIsQSeriesBySpacing;
   if (comb && combIsQSeries) {
     profile = 'Q-series';
@@ -411,7 +401,9 @@ export function bandShapeClassify(
     B = comb.spacing / 2;
     bMethod = 'line-spacing';
     const gap = centralGap(allPeaks, comb.spacing, centroid);
-    if (centralSpike && (!gap || Math.abs(centralSpike.x - gap.centre) < comb.spacing)) {
+    // The Q branch may sit in the central gap or bound it (a Q branch shaded to one side, with the
+    // weak low-J lines beside it lost in the noise).
+    if (centralSpike && (!gap || Math.abs(centralSpike.x - gap.centre) <= 0.5 * gap.width + 0.25 * comb.spacing)) {
       profile = 'PQR';
       origin = centralSpike.x;
       evidence.push(
@@ -481,6 +473,24 @@ export function bandShapeClassify(
     confidence = 'low';
   }
 
+  // Second look at a PR reading: the envelope's highest maximum with a lower maximum (a P or R lobe)
+  // beyond a dip on each side is a Q branch between P and R, whatever the peak tests above said
+  // (a weak P or R lobe beside a strong Q branch fails their height cuts).
+  if (profile === 'PR') {
+    const q = envelopeCentralMaximum(x, y, Math.max(2, Math.max(width / 60, comb ? 1.2 * comb.spacing : 0) / step), area);
+    if (q) {
+      profile = 'PQR';
+      origin = q.x;
+      confidence = 'medium';
+      evidence.push(
+        `but the band's envelope has its highest maximum at ${q.x.toFixed(3)} cm^-1 with a lower maximum beyond a dip on each side (P at ${q.left.toFixed(2)}, R at ${q.right.toFixed(2)} cm^-1): a Q branch between P and R, so PQR`,
+      );
+    }
+  }
+  // Second look at a PQR reading: a central feature made of several maxima on a regular comb with
+  // no curvature to speak of is a cluster of Q branches (a perpendicular band whose Q-branch spacing
+  // 2[C′(1−ζ) − B′] is small, as an oblate top's often is), not one Q branch: a parallel band's
+  // Q-branch structure (ΔB·J(J+1), Δ(A−B)·K²) grows quadratically from the origin.
   // A PR reading from a minimum between two maxima or a central gap in a comb cannot tell a true
   // Σ–Σ band from a weak or instrument-smeared Q branch (a symmetric top's parallel band, or unresolved
   // Q branches of a perpendicular one) filling the centre. Compare the envelope against a blurred
@@ -502,6 +512,49 @@ export function bandShapeClassify(
     } else {
       evidence.push(
         `a blurred two-lobe P/R template leaves no room for a central Q branch (a Q component takes up ${Math.round(100 * t.improvement)} % of its misfit, ${Math.round(100 * t.qShare)} % of the band)`,
+      );
+    }
+  }
+  // Second look at a PQR reading on a regular comb of strong maxima: when the weaker maxima between
+  // them make a finer comb of their own, the fine one is the J lines (spacing ≈ 2B) and the strong
+  // one a series of Q branches (a light top's perpendicular band with resolved lines).
+  if (profile === 'PQR' && comb && comb.members.length >= 5 && comb.regularity >= 0.85 && !combFromPeriod) {
+    const strong = comb.members;
+    const rest = allPeaks.filter((p) => strong.every((q) => Math.abs(q.x - p.x) > 0.2 * comb!.spacing));
+    const restMax = rest.reduce((m, p) => Math.max(m, p.prominence), 0);
+    let fine: ReturnType<typeof combOf> = null;
+    for (const level of [0.5, 0.3, 0.15]) {
+      const picked = rest.filter((p) => p.prominence >= level * restMax);
+      fine = picked.length >= 8 ? combOf(picked) : null;
+      if (fine) break;
+    }
+    if (fine && fine.spacing < 0.7 * comb.spacing && fine.spacing > 3 * step) {
+      const fit = qSeriesFit(strong, centroid);
+      profile = 'Q-series';
+      qSpacing = fit.spacing;
+      origin = centroid;
+      B = fine.spacing / 2;
+      bMethod = 'line-spacing';
+      confidence = 'medium';
+      evidence.push(
+        `but between the ${strong.length} strong maxima (${comb.spacing.toPrecision(4)} cm^-1 apart) the weaker ones make a finer comb ${fine.spacing.toPrecision(4)} cm^-1 apart: the fine comb is J lines (B ≈ ${B.toPrecision(3)} cm^-1) and the strong maxima a series of Q branches ${fit.spacing.toPrecision(4)} cm^-1 apart`,
+      );
+    }
+  }
+  const qPeak =
+    centralSpike ??
+    allPeaks.filter((p) => Math.abs(p.x - origin) < width / 10).reduce<Peak | null>((b, p) => (!b || p.height > b.height ? p : b), null);
+  if (profile === 'PQR' && qPeak) {
+    const cluster = centralQCluster(x, light, qPeak, sigma, step);
+    if (cluster) {
+      profile = 'Q-series';
+      qSpacing = cluster.spacing;
+      origin = qPeak.x;
+      B = null;
+      bMethod = 'none';
+      confidence = cluster.members >= 7 ? 'medium' : 'low';
+      evidence.push(
+        `but the central feature holds ${cluster.members} maxima on a regular comb ${cluster.spacing.toPrecision(4)} cm^-1 apart (curvature ${cluster.curvature.toPrecision(2)} cm^-1 per index²): a cluster of Q branches with a small spacing, so a series of Q branches`,
       );
     }
   }
@@ -543,14 +596,85 @@ export function bandShapeClassify(
       '.';
   }
   if (bMethod === 'pr-separation' && type !== 'linear-parallel' && type !== 'linear-perpendicular') {
-    // Measured (bench:contour classify, 120 seeded bands): from the spread of unresolved parallel
-    // bands of oblate tops B came out 43–85 % too large, so it is not offered as B.
+    // Measured (bench:contour classify): from the spread of unresolved parallel bands of symmetric
+    // tops B came out 3–85 % too large, and with a strong Q branch at the centre far too small, so
+    // it is not offered as B.
     evidence.push(
-      `B is withheld: the linear molecule's branch relation would give ${B!.toPrecision(3)} cm^-1, but a symmetric top's K structure widens the branches, so that is likely too large (an upper bound)`,
+      `B is withheld: the linear molecule's branch relation would give ${B!.toPrecision(3)} cm^-1, but a symmetric top's K structure widens the branches and its Q branch narrows their spread, so that is not B to 10 %`,
     );
     B = null;
     bMethod = 'none';
     if (confidence === 'high') confidence = 'medium';
+  }
+  // B from the band's whole envelope (bandEnvelopeFit) where no resolved lines gave it. Σ–Σ bands:
+  // the whole envelope, within 3 % on the seeded bands of bench:contour classify read right.
+  // Parallel bands of symmetric tops: held at the Q branch, the central 24 % of the band (the Q
+  // branch, whose shape rests on ΔB and A, C that the profile does not give) left out, five values of
+  // A/B or C/B competing; on the tuning seeds within 10 % on 19 of 23, the truth inside the range on
+  // 23 of 23. Not used for Π–Σ bands (the rigid model's single-position Q branch pulled B off by 60 %
+  // on a test band) or Q-branch series (the unique constant and ζ left B open by tens of per cent).
+  let envelopeRange: [number, number] | null = null;
+  let envelopeHeld = false;
+  const envelopeType = type === 'linear-parallel' || (type === 'symmetric-top-parallel' && profile === 'PQR');
+  if (envelopeType && bMethod !== 'line-spacing' && confidence !== 'low') {
+    const held = type === 'symmetric-top-parallel';
+    const fit = bandEnvelopeFit({
+      x,
+      y,
+      temperatureK: T,
+      types: [type],
+      noiseSigma: sigma,
+      ...(held ? { originCm1: origin, maskHalfWidthCm1: 0.12 * width } : {}),
+    }).byType[0];
+    if (fit) {
+      if (B !== null) evidence.push(`the branch spread gave B = ${B.toPrecision(3)} cm^-1`);
+      B = fit.B;
+      bMethod = 'envelope-fit';
+      envelopeRange = [fit.bLow, fit.bHigh];
+      envelopeHeld = held;
+      evidence.push(
+        `B = ${fit.B.toPrecision(4)} cm^-1 from fitting the band's envelope${held ? ' outside the Q branch' : ''} (best: ${fit.variant}; ${tNote}); B from ${fit.bLow.toPrecision(3)} to ${fit.bHigh.toPrecision(3)} cm^-1 fits about as well` +
+          (held ? '; if the band is an unresolved perpendicular one instead, this is not its B' : ''),
+      );
+    }
+  }
+  // The range B is good to: from resolved J lines within 5 % on the seeded bands (±8 % given), from
+  // a linear molecule's P–R spread within 6 % (±10 %), a Π–Σ band's within ~10 % (±15 %); from the
+  // finer comb under a Q-branch series one check gave +15 % (sub-band combs interleave), ±25 % given.
+  let bLow: number | undefined;
+  let bHigh: number | undefined;
+  let bDetermined: boolean | undefined;
+  if (B !== null && confidence === 'low') {
+    // A B read off a profile that may be wrong (e.g. a comb of Q branches taken for J lines) is no
+    // better than the reading: not given.
+    evidence.push(`B is withheld: ${B.toPrecision(3)} cm^-1 would rest on a profile read with low confidence`);
+    B = null;
+    bMethod = 'none';
+  }
+  if (B !== null) {
+    const rel =
+      bMethod === 'line-spacing'
+        ? profile === 'Q-series'
+          ? 0.25
+          : 0.08
+        : bMethod === 'envelope-fit'
+          ? 0.1
+          : type === 'linear-parallel'
+            ? 0.1
+            : 0.15;
+    bLow = Math.min(B * (1 - rel), envelopeRange?.[0] ?? Infinity);
+    bHigh = Math.max(B * (1 + rel), envelopeRange?.[1] ?? 0);
+    // A symmetric top's PQR envelope may as well be an unresolved perpendicular band, whose P/R
+    // wings give another B (bench:contour classify: −35 % with a narrow range on tuning seed 59), so
+    // B from it is never called determined.
+    bDetermined = bLow >= 0.85 * B && bHigh <= 1.15 * B && !envelopeHeld;
+    if (envelopeHeld) evidence.push('B is not determined: the profile does not rule out an unresolved perpendicular band');
+    else if (!bDetermined) evidence.push('B is not determined: the range is wider than ±15 %');
+    evidence.push(
+      `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round(rel * 100)} %, measured on seeded bands)`,
+    );
+  } else {
+    evidence.push('B is not given: this profile does not show it to 10 %');
   }
   if (confidence === 'high' && profile !== 'Q-series') {
     // Measured on 120 seeded bands of every shape, type and apodization (bench:contour classify),
@@ -572,8 +696,11 @@ export function bandShapeClassify(
     confidence,
     ...(alternativeType ? { alternativeType } : {}),
     bMethod,
+    ...(bLow !== undefined ? { bLow } : {}),
+    ...(bHigh !== undefined ? { bHigh } : {}),
+    ...(bDetermined !== undefined ? { bDetermined } : {}),
     temperatureK: T,
-    temperatureAssumed: bMethod === 'pr-separation' ? temperatureAssumed : false,
+    temperatureAssumed: bMethod === 'pr-separation' || bMethod === 'envelope-fit' ? temperatureAssumed : false,
     evidence: evidence.join('; ') + '.',
     implication,
   };
@@ -581,7 +708,7 @@ export function bandShapeClassify(
 
 /**
  * Strongest repeat of a residual: the lag (samples, parabola-refined) of the highest local maximum of
- * its normalised autocorrelation beyond the first zero crossing (the features' own width), and that
+ * its normalised autocorrelation beyond the first zero crossing or first minimum (the features' own width), and that
  * maximum (1 = a perfect repeat). Source: autocorrelation period estimate, common practice.
  */
 function residualPeriod(r: Float64Array, minLag: number, maxLag: number): { lag: number; strength: number } | null {
@@ -595,8 +722,9 @@ function residualPeriod(r: Float64Array, minLag: number, maxLag: number): { lag:
     for (let i = 0; i + k < m; i++) s += r[i] * r[i + k];
     ac[k] = (s / r0) * (m / (m - k));
   }
+  // Beyond the first zero crossing, or the first local minimum when a slow residual keeps it positive.
   let k0 = 1;
-  while (k0 <= maxLag && ac[k0] > 0) k0++;
+  while (k0 <= maxLag && ac[k0] > 0 && !(ac[k0] < ac[k0 - 1] && ac[k0] <= ac[k0 + 1])) k0++;
   let best = -1;
   for (let k = Math.max(k0, minLag); k <= maxLag; k++)
     if (ac[k] > ac[k - 1] && ac[k] >= ac[k + 1] && (best < 0 || ac[k] > ac[best])) best = k;
@@ -681,4 +809,75 @@ function qBranchShare(x: Float64Array, y: Float64Array, spike: Peak, area: numbe
     a += Math.max(0, y[i] - chord) * (i > 0 ? x[i] - x[i - 1] : 0);
   }
   return a / area;
+}
+
+/**
+ * The envelope's highest maximum when it lies between two lower maxima (each beyond a dip to ≤ 85 %
+ * of the lower of the two heights, ≥ 8 % of the highest, with ≥ 10 % of the band's area outside it):
+ * a Q branch between P and R. Thresholds: common practice, chosen here.
+ */
+function envelopeCentralMaximum(
+  x: Float64Array,
+  y: Float64Array,
+  sigmaSamples: number,
+  area: number,
+): { x: number; left: number; right: number } | null {
+  const env = smoothBoxes(y, sigmaSamples);
+  const n = env.length;
+  let im = 0;
+  for (let i = 1; i < n; i++) if (env[i] > env[im]) im = i;
+  const top = env[im];
+  const side = (dir: 1 | -1): { x: number; h: number } | null => {
+    let lowest = top;
+    let best: { x: number; h: number } | null = null;
+    for (let i = im + dir; i > 0 && i < n - 1; i += dir) {
+      lowest = Math.min(lowest, env[i]);
+      if (env[i] >= env[i - 1] && env[i] >= env[i + 1] && env[i] >= 0.08 * top && lowest <= 0.85 * env[i]) {
+        if (!best || env[i] > best.h) best = { x: x[i], h: env[i] };
+      }
+    }
+    return best;
+  };
+  const l = side(-1);
+  const r = side(1);
+  if (!l || !r || l.h >= top || r.h >= top) return null;
+  // Each side must hold a real branch, not a ripple in the wing.
+  let aLeft = 0;
+  let aRight = 0;
+  for (let i = 1; i < n; i++) {
+    const a = Math.max(0, y[i]) * (x[i] - x[i - 1]);
+    if (x[i] < l.x) aLeft += a;
+    else if (x[i] > r.x) aRight += a;
+  }
+  if (aLeft < 0.1 * area || aRight < 0.1 * area) return null;
+  return { x: x[im], left: l.x, right: r.x };
+}
+
+/**
+ * Regular comb of maxima inside the central feature around the spike (where the trace stays above
+ * 30 % of the spike's height): ≥ 5 maxima ≥ 3σ prominent and ≥ 10 % of the spike, ≥ 80 % of gaps
+ * whole multiples of the median gap, spacing ≥ 3 samples, and a quadratic in the index whose
+ * curvature moves the outermost member by < 25 % of a spacing. Thresholds: chosen here.
+ */
+function centralQCluster(
+  x: Float64Array,
+  light: Float64Array,
+  spike: Peak,
+  sigma: number,
+  step: number,
+): { spacing: number; members: number; curvature: number } | null {
+  const n = x.length;
+  const floor = 0.3 * spike.height;
+  let lo = spike.index;
+  while (lo > 0 && light[lo] > floor) lo--;
+  let hi = spike.index;
+  while (hi < n - 1 && light[hi] > floor) hi++;
+  const inside = refinedPeaks(x, light, 3 * sigma).filter((p) => p.index > lo && p.index < hi && p.height >= 0.1 * spike.height);
+  if (inside.length < 5) return null;
+  const comb = combOf(inside);
+  if (!comb || comb.regularity < 0.8 || comb.spacing < 3 * step) return null;
+  const fit = qSeriesFit(inside, spike.x);
+  const half = (inside[inside.length - 1].x - inside[0].x) / Math.abs(fit.spacing) / 2;
+  if (!(Math.abs(fit.curvature) * half * half < 0.25 * Math.abs(fit.spacing))) return null;
+  return { spacing: fit.spacing, members: inside.length, curvature: fit.curvature };
 }

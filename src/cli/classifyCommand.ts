@@ -6,9 +6,9 @@ import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand } from '
  * `classify --trace FILE --from X1 --to X2 [--temperature K]`: say what the band between X1 and X2
  * (cm^-1) looks like. Prints JSON {"profile": "PR" | "PQR" | "Q-series", "type", "origin", "B",
  * "qSpacing" (Q-series only), "evidence"} plus "confidence" (high, medium, low), "alternativeType"
- * (when another type fits too), "bMethod", "temperature", "temperatureAssumed" and "implication".
+ * (when another type fits too), "bMethod", "bLow" and "bHigh" (the range B is good to, when B is given), "bDetermined" (that range within ±15 %), "temperature", "temperatureAssumed" and "implication".
  * origin, B and qSpacing in cm^-1; B is null when the trace does not show it. Without
- * --temperature, B from an unresolved P–R contour assumes 296 K and says so.
+ * --temperature, B from an unresolved contour assumes 296 K and says so.
  */
 export const classifyCommand: CliCommand = (args, io) => {
   const opts = cliParseArgs(args, ['trace', 'from', 'to', 'temperature']);
@@ -35,6 +35,9 @@ export const classifyCommand: CliCommand = (args, io) => {
     confidence: r.confidence,
     ...(r.alternativeType ? { alternativeType: r.alternativeType } : {}),
     bMethod: r.bMethod,
+    ...(r.bLow !== undefined ? { bLow: r.bLow } : {}),
+    ...(r.bHigh !== undefined ? { bHigh: r.bHigh } : {}),
+    ...(r.bDetermined !== undefined ? { bDetermined: r.bDetermined } : {}),
     temperature: r.temperatureK,
     temperatureAssumed: r.temperatureAssumed,
     implication: r.implication,

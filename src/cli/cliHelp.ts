@@ -225,12 +225,12 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
       {
         name: 'temperature',
         value: 'K',
-        text: 'temperature of the gas, for B from the P–R separation',
+        text: 'temperature of the gas, for B from the P–R separation or the envelope fit',
         unit: 'K',
         default: '296, and the output says it was assumed',
       },
     ],
-    output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, temperature, temperatureAssumed, implication}; cm^-1. ${WARNINGS}`,
+    output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, bLow, bHigh, bDetermined, temperature, temperatureAssumed, implication}; cm^-1. ${WARNINGS}`,
     example: 'npm run --silent cli -- classify --trace lowres.csv --from 1100 --to 1200 --temperature 296',
   },
   perturbations: {

@@ -133,50 +133,92 @@ describe('bandShapeClassify', () => {
   });
 });
 
-describe('bandShapeClassify on a fixed subset of the seeded bench bands', () => {
-  // classifySpecRandom seeds 0–19 (prolate, oblate, linear; parallel, perpendicular; B 0.03–2.5 cm^-1;
-  // L 0.9–4 cm; every apodization; T 150–350 K given; 0.3–3 % noise; curved baselines). Targets of
-  // issue 18: profile right, B within 10 %, Q spacing within 3 %. The full distribution is printed by
-  // `npm run bench:contour -- classify 60` (README).
-  const rows = Array.from({ length: 20 }, (_, seed) => {
+/** Is a reading right? A faint Q-branch series (traceVisibleProfile's ambiguous band) may be read either way, not rated high. */
+function readingRight(r: ReturnType<typeof bandShapeClassify>, visible: ReturnType<typeof traceVisibleProfile>): boolean {
+  if (r.profile === visible.profile) return true;
+  return visible.ambiguous && r.confidence !== 'high' && (r.profile === 'PQR' || r.profile === 'Q-series');
+}
+
+function seededRows(first: number, count: number) {
+  return Array.from({ length: count }, (_, i) => {
+    const seed = first + i;
     const spec = classifySpecRandom(seed);
     const c = traceGenerate(spec);
     const visible = traceVisibleProfile(c);
     const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: spec.temperatureK });
-    return { seed, spec, visible, r };
+    return { seed, spec, visible, r, right: readingRight(r, visible) };
+  });
+}
+
+describe('bandShapeClassify on seeded bands (training seeds 0–19, held-out seeds 1000–1019)', () => {
+  // classifySpecRandom: prolate, oblate, linear; parallel, perpendicular; heavy (B 0.02–0.3 cm^-1) and
+  // light (0.3–3 cm^-1); L 0.9–4 cm; every apodization; T 100–400 K given; 0.2–3 % noise; curved
+  // baselines. Seeds 0–79 were used while tuning, seeds 1000–1079 never (read once at the end).
+  // Targets of issue 18: profile right, B within 10 %, Q spacing within 3 %. The full distribution is
+  // printed by `npm run bench:contour -- classify 80 [FIRST]` (README).
+  const train = seededRows(0, 20);
+  const heldOut = seededRows(1000, 20);
+
+  it('names at least 17 of 20 training profiles right (measured 17/20; 75/80 on seeds 0–79)', () => {
+    expect(train.filter((w) => w.right).length).toBeGreaterThanOrEqual(17);
   });
 
-  it('names at least 16 of the 20 profiles right (measured 16/20; 51/60 on seeds 0–59, 49/60 on held-out 60–119)', () => {
-    expect(rows.filter((w) => w.r.profile === w.visible.profile).length).toBeGreaterThanOrEqual(16);
+  it('names at least 15 of 20 held-out profiles right (measured 15/20; 73/80 on seeds 1000–1079)', () => {
+    expect(heldOut.filter((w) => w.right).length).toBeGreaterThanOrEqual(15);
   });
 
-  it('is never wrong when it says high, and every Q-series call is right', () => {
-    for (const w of rows) {
-      if (w.r.confidence === 'high' || w.r.profile === 'Q-series') expect(w.r.profile, `seed ${w.seed}`).toBe(w.visible.profile);
-    }
-    expect(rows.some((w) => w.r.confidence === 'high')).toBe(true);
+  it('is never wrong when it says high', () => {
+    for (const w of [...train, ...heldOut]) if (w.r.confidence === 'high') expect(w.right, `seed ${w.seed}`).toBe(true);
+    expect([...train, ...heldOut].some((w) => w.r.confidence === 'high')).toBe(true);
   });
 
-  it('gives B within 10 % whenever it gives B, and Q spacings within 3 %', () => {
+  it('gives B within 10 % wherever it calls B determined on a band read right, inside its range on all but the measured few, and Q spacings within 3 %', () => {
     let bGiven = 0;
+    let bDetermined = 0;
+    let bOutside = 0;
     let qGiven = 0;
-    for (const w of rows) {
-      if (w.r.B !== null && w.visible.profile !== 'Q-series') {
+    for (const w of [...train, ...heldOut]) {
+      if (!w.right) continue;
+      if (w.r.B !== null) {
         bGiven++;
-        expect(Math.abs(w.r.B / w.spec.B - 1), `seed ${w.seed}`).toBeLessThan(0.1);
+        if (!(w.spec.B >= w.r.bLow! && w.spec.B <= w.r.bHigh!)) bOutside++;
+        if (w.r.bDetermined) {
+          bDetermined++;
+          expect(Math.abs(w.r.B / w.spec.B - 1), `seed ${w.seed}`).toBeLessThan(0.1);
+          expect(w.spec.B, `seed ${w.seed}`).toBeGreaterThanOrEqual(w.r.bLow!);
+          expect(w.spec.B, `seed ${w.seed}`).toBeLessThanOrEqual(w.r.bHigh!);
+        }
       }
       if (w.r.qSpacing !== undefined && w.visible.profile === 'Q-series') {
         qGiven++;
         expect(Math.abs(Math.abs(w.r.qSpacing) / Math.abs(w.visible.qSpacing) - 1), `seed ${w.seed}`).toBeLessThan(0.03);
       }
     }
-    expect(bGiven).toBeGreaterThanOrEqual(3);
+    // Measured (seeds 0–19 and 1000–1019): B given on 16 bands read right, 10 of them determined, all
+    // within 10 %; the truth outside the range on 2 (1008, an unresolved oblate perpendicular band, and
+    // 1012, a Π–Σ band, both fitted as a symmetric top's parallel band and not called determined).
+    expect(bGiven).toBeGreaterThanOrEqual(16);
+    expect(bDetermined).toBeGreaterThanOrEqual(10);
+    expect(bOutside).toBeLessThanOrEqual(2);
     expect(qGiven).toBeGreaterThanOrEqual(3);
   });
 
-  // Target not met yet: resolved Q-branch series of oblate perpendicular bands (Q spacing under 2B,
-  // seeds 7, 9, 18) read as PR and one of a light prolate top at L = 3.7 cm (seed 1) as PQR.
+  it('fits the envelope for B of a parallel band of a symmetric top, not calling it determined', () => {
+    // Tuning seed 60 of classifySpecRandom: an oblate parallel band (B 0.101 cm^-1, L 3.37 cm); B from the envelope
+    // within 10 % (measured −3.7 %), its range 0.075–0.195 cm^-1 wider than ±15 %.
+    const w = seededRows(60, 1)[0];
+    expect(w.r.profile).toBe('PQR');
+    expect(w.r.bMethod).toBe('envelope-fit');
+    expect(Math.abs(w.r.B! / w.spec.B - 1)).toBeLessThan(0.1);
+    expect(w.r.bDetermined).toBe(false);
+    expect(w.r.evidence).toMatch(/unresolved perpendicular band/);
+  });
+
+  // Target not met yet: oblate perpendicular bands whose Q branches cluster at the centre (Q spacing
+  // under 2B; training seeds 7, 8, 9) read as PQR; on the held-out seeds a heavy prolate parallel band
+  // (1007) and an unresolved oblate perpendicular one (1017) as PR, a light prolate perpendicular band
+  // (1011) as PQR and a linear Σ–Σ band with resolved lines (1015) as PQR.
   it.fails('names every profile right', () => {
-    for (const w of rows) expect(w.r.profile, `seed ${w.seed}`).toBe(w.visible.profile);
+    for (const w of [...train, ...heldOut]) expect(w.right, `seed ${w.seed}`).toBe(true);
   });
 });

@@ -259,20 +259,6 @@ export function traceSpecRandom(seed: number): TraceSpec {
   };
 }
 
-/** Full width at half maximum of the generator's instrument line shape, cm^-1 (bisection on traceIls). */
-export function traceIlsFwhm(apodization: TraceApodization, opdCm: number): number {
-  const ils = traceIls(apodization, opdCm);
-  const peak = ils(0);
-  let lo = 0;
-  let hi = 3 / opdCm;
-  for (let i = 0; i < 50; i++) {
-    const mid = 0.5 * (lo + hi);
-    if (ils(mid) > 0.5 * peak) lo = mid;
-    else hi = mid;
-  }
-  return lo + hi;
-}
-
 /** Apodizations drawn by classifySpecRandom. */
 const TRACE_APODIZATIONS: TraceApodization[] = [
   'boxcar',
@@ -285,9 +271,10 @@ const TRACE_APODIZATIONS: TraceApodization[] = [
 
 /**
  * A seeded spec for the band-shape diagnosis across the target space: prolate, oblate and linear;
- * parallel (Σ–Σ) and perpendicular (Π–Σ); heavy (B 0.03–0.2 cm^-1) or light (B 0.3–2.5 cm^-1),
- * log-uniform; A/B 3–15 (prolate), C/B 0.5–0.8 (oblate); ζ; T 150–350 K; L 0.9–4 cm; every
- * apodization; noise 0.3–3 % of the peak; a linear and a curved baseline.
+ * parallel (Σ–Σ) and perpendicular (Π–Σ); heavy (B 0.02–0.3 cm^-1) or light (B 0.3–3 cm^-1),
+ * log-uniform; A/B 2–20 (prolate), C/B 0.5–0.9 (oblate); ζ −0.4…0.7 (prolate), −0.7…0.3 (oblate);
+ * T 100–400 K; L 0.9–4 cm; every apodization; noise 0.2–3 % of the peak; a linear and a curved
+ * baseline.
  */
 export function classifySpecRandom(seed: number): TraceSpec {
   const r = seededRandom(seed * 104729 + 71);
@@ -295,37 +282,63 @@ export function classifySpecRandom(seed: number): TraceSpec {
   const shape = shapes[Math.floor(r() * 3)];
   const band: BandType = r() < 0.5 ? 'parallel' : 'perpendicular';
   const heavy = r() < 0.5;
-  const [bLo, bHi] = heavy ? [0.03, 0.2] : [0.3, 2.5];
+  const [bLo, bHi] = heavy ? [0.02, 0.3] : [0.3, 3];
   const B = Math.exp(Math.log(bLo) + r() * Math.log(bHi / bLo));
-  const unique = shape === 'prolate' ? B * (3 + 12 * r()) : shape === 'oblate' ? B * (0.5 + 0.3 * r()) : undefined;
+  const unique = shape === 'prolate' ? B * (2 + 18 * r()) : shape === 'oblate' ? B * (0.5 + 0.4 * r()) : undefined;
   return {
     name: `classify-${seed}`,
     shape,
     band,
     B,
     unique,
-    zeta: shape === 'prolate' ? -0.3 + 0.9 * r() : shape === 'oblate' ? -0.6 + 0.8 * r() : 0,
-    temperatureK: 150 + 200 * r(),
+    zeta: shape === 'prolate' ? -0.4 + 1.1 * r() : shape === 'oblate' ? -0.7 + 1.0 * r() : 0,
+    temperatureK: 100 + 300 * r(),
     opdCm: 0.9 + 3.1 * r(),
     apodization: TRACE_APODIZATIONS[Math.floor(r() * TRACE_APODIZATIONS.length)],
     origin: 700 + 2000 * r(),
-    noiseRel: 0.003 + 0.027 * r(),
+    noiseRel: 0.002 + 0.028 * r(),
     baselineCurvature: 0.03 * (r() - 0.5),
     seed: seed + 1,
   };
 }
 
 /**
- * The profile a case can show: its band's own (PR, PQR, Q-series), except that a perpendicular band
- * of a symmetric top whose Q branches lie closer than 1.2 instrument FWHM apart cannot show them as a
- * series, and then shows a P, Q, R contour (rule of thumb, common practice: two features closer than
- * about one FWHM merge).
+ * How well the instrument passes a comb of period d (cm^-1): a comb's fundamental lives at optical
+ * path difference 1/d in the interferogram, which the instrument records only up to L and weights by
+ * its apodization A(x/L); the comb's modulation in the spectrum is scaled by A(1/(d·L)), and is 0 when
+ * 1/d > L (the Fourier pair of the instrument line shape, Griffiths & de Haseth (2007) ch. 2).
  */
-export function traceVisibleProfile(c: TraceCase): { profile: TraceCase['profile']; qSpacing: number; qResolved: boolean } {
+export function traceCombTransfer(apodization: TraceApodization, opdCm: number, periodCm1: number): number {
+  const u = 1 / (Math.abs(periodCm1) * opdCm);
+  return u >= 1 ? 0 : traceApodizationWeight(apodization, u);
+}
+
+/** Comb transfer above which a series of Q branches counts as shown, and below which as merged. */
+export const TRACE_Q_SHOWN_TRANSFER = 0.3;
+export const TRACE_Q_MERGED_TRANSFER = 0.1;
+
+/**
+ * The profile a case shows: its band's own (PR, PQR, Q-series), except that a perpendicular band of
+ * a symmetric top whose Q-branch comb the instrument passes with a modulation transfer below
+ * TRACE_Q_MERGED_TRANSFER (traceCombTransfer) shows its Q branches merged into one central maximum, a
+ * P, Q, R contour. Between TRACE_Q_MERGED_TRANSFER and TRACE_Q_SHOWN_TRANSFER the series is faint
+ * and either reading is accepted (`ambiguous`), as long as it is not rated high.
+ * Thresholds: rule of thumb (common practice: a modulation of a few tenths of the comb's mean stands out
+ * of a few per cent noise; one of a few hundredths does not).
+ */
+export function traceVisibleProfile(c: TraceCase): {
+  profile: TraceCase['profile'];
+  qSpacing: number;
+  qResolved: boolean;
+  ambiguous: boolean;
+  transfer: number;
+} {
   const m = c.model;
   const u = m.shape === 'prolate' ? m.upper.A : m.upper.C;
   const qSpacing = 2 * (u * (1 - m.upper.zeta) - m.upper.B);
-  const qResolved = Math.abs(qSpacing) >= 1.2 * traceIlsFwhm(c.apodization, c.opdCm);
-  if (c.profile === 'Q-series' && !qResolved) return { profile: 'PQR', qSpacing, qResolved };
-  return { profile: c.profile, qSpacing, qResolved };
+  const transfer = c.profile === 'Q-series' ? traceCombTransfer(c.apodization, c.opdCm, qSpacing) : 1;
+  const qResolved = transfer >= TRACE_Q_MERGED_TRANSFER;
+  const ambiguous = c.profile === 'Q-series' && transfer >= TRACE_Q_MERGED_TRANSFER && transfer < TRACE_Q_SHOWN_TRANSFER;
+  if (c.profile === 'Q-series' && !qResolved) return { profile: 'PQR', qSpacing, qResolved, ambiguous, transfer };
+  return { profile: c.profile, qSpacing, qResolved, ambiguous, transfer };
 }
