@@ -2,6 +2,7 @@ import { assistantAutoExtend } from '../analysis/assistantAutoExtend';
 import { assistantPeakContext, assistantPeaksUsable } from '../analysis/assistantPeakContext';
 import { assistantLinesFromAssignments } from '../analysis/assistantReview';
 import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
+import { assistantLabelShift, LABEL_DECISIVE_MARGIN } from '../analysis/assistantLabelCheck';
 import type { AssistantLine, AssistantRunResult } from '../analysis/assistantTypes';
 import { assistantPosteriorFit, assistantPosteriorSigmas, assistantPriorSigmas } from '../analysis/assistantPosterior';
 import { peaksFind, type PeakList } from '../analysis/peaksFind';
@@ -154,27 +155,40 @@ export const assignCommand: CliCommand = (args, io) => {
   }
   let run: AssistantRunResult;
   try {
-    run = assistantAutoExtend({ model, floatable, peaks, lines: seeds, options: { toleranceSigma: tolerance } });
+    const isModelOnly = typeof opts.lines !== 'string';
+    const first = isModelOnly
+      ? runFromModel(model, floatable, peaks, seeds, tolerance)
+      : { run: assistantAutoExtend({ model, floatable, peaks, lines: seeds, options: { toleranceSigma: tolerance } }), seeds, note: '' };
+    run = first.run;
+    seeds = first.seeds;
+    seedText += first.note;
     if (rival) {
       // Two shifts of the model's ladder match the peaks about equally well: run both and keep the
-      // one the trace supports clearly better (more lines, no doubt); if neither does, nothing is
-      // written as an assignment.
-      const other = assistantAutoExtend({
-        model: rival.model,
-        floatable,
-        peaks,
-        lines: rival.lines,
-        options: { toleranceSigma: tolerance },
-      });
+      // one the trace supports clearly better (more lines, no doubt), or either when both reach the
+      // same labels; if neither, nothing is written as an assignment.
+      const second = runFromModel(rival.model, floatable, peaks, rival.lines, tolerance);
+      const other = second.run;
       const a = runSupport(run);
       const b = runSupport(other);
-      if (b > RIVAL_FACTOR * a) {
+      const agreement = a > 0 && b > 0 ? runsAgreement(run, other) : null;
+      if (agreement && agreement.conflicts === 0 && agreement.shared >= RUNS_SHARED_FRACTION * Math.min(a, b)) {
+        if (b > a) {
+          run = other;
+          model = rival.model;
+          seeds = second.seeds;
+          seedText += second.note;
+        }
+        seedText += ` (the runner-up shift of the search leads to the same labels: ${agreement.shared} lines in common, none labelled otherwise; ${Math.max(a, b)} lines kept)`;
+      } else if (b > RIVAL_FACTOR * a) {
         run = other;
         model = rival.model;
-        seeds = rival.lines;
-        seedText += ` (the runner-up shift of the search: the trace supports it with ${b} lines against ${a})`;
+        seeds = second.seeds;
+        seedText += `${second.note} (the runner-up shift of the search: the trace supports it with ${b} lines against ${a})`;
       } else if (!(a > RIVAL_FACTOR * b)) {
-        run.doubt = `two shifts of the model's ladder fit the peaks about equally well and lead to ${a} and ${b} consistent lines: the numbering is not decided by the trace; give seed lines`;
+        run.doubt =
+          `two shifts of the model's ladder fit the peaks about equally well and lead to ${a} and ${b} consistent lines` +
+          (agreement ? ` (${agreement.conflicts} peak(s) or line(s) labelled differently)` : '') +
+          `: the numbering is not decided by the trace; give seed lines`;
         run.warnings.push(run.doubt);
       } else {
         seedText += ` (preferred over the runner-up shift of the search: ${a} lines against ${b})`;
@@ -241,6 +255,76 @@ function runSupport(run: AssistantRunResult): number {
   if (run.doubt) return 0;
   const suspect = new Set(run.suspects.map((x) => x.id));
   return run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected' && !suspect.has(l.id)).length;
+}
+
+/**
+ * Two runs reach the same labels when they share at least this fraction of the smaller run's lines
+ * (and label no shared peak or line differently): then the two shifts of the search were two
+ * starts to one answer, not two answers.
+ */
+const RUNS_SHARED_FRACTION = 0.5;
+
+/**
+ * How far two runs' written lines agree: lines on the same peak with the same quanta (shared), and
+ * conflicts (a peak both label differently, or one line both put on different peaks).
+ */
+function runsAgreement(a: AssistantRunResult, b: AssistantRunResult): { shared: number; conflicts: number } {
+  const written = (run: AssistantRunResult) => {
+    const suspect = new Set(run.suspects.map((x) => x.id));
+    return run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected' && !suspect.has(l.id) && l.peakIndex !== null);
+  };
+  const key = (l: AssistantLine) => `${l.jUpper},${l.kUpper},${l.jLower},${l.kLower}`;
+  const byPeak = new Map<number, string>();
+  const byLine = new Map<string, number>();
+  for (const l of written(a)) {
+    byPeak.set(l.peakIndex!, key(l));
+    byLine.set(key(l), l.peakIndex!);
+  }
+  let shared = 0;
+  let conflicts = 0;
+  for (const l of written(b)) {
+    const onPeak = byPeak.get(l.peakIndex!);
+    const peakOf = byLine.get(key(l));
+    if (onPeak === key(l)) shared++;
+    else if (onPeak !== undefined || peakOf !== undefined) conflicts++;
+  }
+  return { shared, conflicts };
+}
+
+/**
+ * Run the loop from model-only seeds. When its rival-labelling check finds a rival labelling that
+ * the trace favours decisively (by at least LABEL_DECISIVE_MARGIN), the run is repeated once from
+ * the seeds relabelled that way (the start had the ladder one rung or sub-band off), and the
+ * repeat is kept only when its own check decides its labels (it then beats the first labelling
+ * too, which is one of its rivals); otherwise the first run stands, doubtful as it is.
+ */
+function runFromModel(
+  model: BandModel,
+  floatable: readonly string[],
+  peaks: PeakList,
+  seeds: AssistantLine[],
+  tolerance: number,
+): { run: AssistantRunResult; seeds: AssistantLine[]; note: string } {
+  const options = { toleranceSigma: tolerance };
+  const run = assistantAutoExtend({ model, floatable, peaks, lines: seeds, options });
+  const check = run.labelCheck;
+  if (!check?.closest || !(check.margin <= -LABEL_DECISIVE_MARGIN)) return { run, seeds, note: '' };
+  const rival = check.closest;
+  const relabelled: AssistantLine[] = [];
+  for (const l of seeds) {
+    const q = assistantLabelShift(model, rival.shift, l);
+    if (q.jLower < 0 || q.kLower < 0 || assignmentCheck(q, model) !== null) continue;
+    const reason = `${l.reason}; relabelled as ${lineLabelAscii(q.kUpper - q.kLower, q.jUpper - q.jLower, q.kLower, q.jLower, model.shape)}: the run from the first labels fitted better with ${rival.what} (by ${(-check.margin).toFixed(1)})`;
+    relabelled.push({ ...l, ...q, reason, note: reason });
+  }
+  if (relabelled.length < 2) return { run, seeds, note: '' };
+  const again = assistantAutoExtend({ model, floatable, peaks, lines: relabelled, options });
+  if (again.doubt !== null) return { run, seeds, note: '' };
+  return {
+    run: again,
+    seeds: relabelled,
+    note: `, relabelled (${rival.what}: the first run fitted better so by ${(-check.margin).toFixed(1)})`,
+  };
 }
 
 /** Seeds leave the band open when its strongest lines are predicted no better than this many line widths (1σ). */
