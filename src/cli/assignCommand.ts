@@ -3,6 +3,7 @@ import { assistantPeakContext, assistantPeaksUsable } from '../analysis/assistan
 import { assistantLinesFromAssignments } from '../analysis/assistantReview';
 import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
 import { assistantLabelShift, LABEL_DECISIVE_MARGIN } from '../analysis/assistantLabelCheck';
+import { assistantQBranchSearch } from '../analysis/assistantQBranchSearch';
 import type { AssistantLine, AssistantRunResult } from '../analysis/assistantTypes';
 import { assistantPosteriorFit, assistantPosteriorSigmas, assistantPriorSigmas } from '../analysis/assistantPosterior';
 import { peaksFind, type PeakList } from '../analysis/peaksFind';
@@ -299,6 +300,52 @@ function runsAgreement(a: AssistantRunResult, b: AssistantRunResult): { shared: 
  * too, which is one of its rivals); otherwise the first run stands, doubtful as it is.
  */
 function runFromModel(
+  model: BandModel,
+  floatable: readonly string[],
+  peaks: PeakList,
+  seeds: AssistantLine[],
+  tolerance: number,
+): { run: AssistantRunResult; seeds: AssistantLine[]; note: string } {
+  const options = { toleranceSigma: tolerance };
+  const first = relabelledRun(model, floatable, peaks, seeds, tolerance);
+  return withQBranch(model, floatable, peaks, first, options);
+}
+
+/** A Π–Σ run with at most this many Q lines has not placed its Q branch. */
+const Q_LINES_FEW = 2;
+
+/**
+ * A decided run of a Π–Σ band that reached no Q line (q unknown: the Q ladder lies tens of line
+ * widths from its guess) is extended by the Q-branch search (assistantQBranchSearch) and run again
+ * with its lines and the Q seeds; the repeat is kept only when it is decided too and writes more lines.
+ */
+function withQBranch(
+  model: BandModel,
+  floatable: readonly string[],
+  peaks: PeakList,
+  first: { run: AssistantRunResult; seeds: AssistantLine[]; note: string },
+  options: { toleranceSigma: number },
+): { run: AssistantRunResult; seeds: AssistantLine[]; note: string } {
+  const { run } = first;
+  if (model.shape !== 'linear' || model.band !== 'perpendicular' || !floatable.includes('upper.q') || run.doubt !== null || !run.fit)
+    return first;
+  const live = run.lines.filter((l) => l.status !== 'rejected');
+  // A few Q lines at the pile-up near the origin do not fix q; the search decides whether the ladder is placed.
+  if (live.filter((l) => l.jUpper === l.jLower && !l.isExcluded).length > Q_LINES_FEW) return first;
+  const taken = new Set(live.flatMap((l) => (l.peakIndex === null ? [] : [l.peakIndex])));
+  const qSigma = assistantPriorSigmas(model, floatable)['upper.q'];
+  const found = assistantQBranchSearch(run.fit.model, qSigma, peaks, taken);
+  if (found.lines.length === 0) return { ...first, note: `${first.note}; ${found.text}` };
+  const ids = new Set(live.map((l) => l.id));
+  const qSeeds = found.lines.filter((l) => !ids.has(l.id));
+  const again = assistantAutoExtend({ model, floatable, peaks, lines: [...live, ...qSeeds], options });
+  if (again.doubt !== null || runSupport(again) <= runSupport(run))
+    return { ...first, note: `${first.note}; ${found.text}, but the run with them was not kept` };
+  return { run: again, seeds: [...first.seeds, ...qSeeds], note: `${first.note}; ${found.text}` };
+}
+
+/** The loop from the seeds, repeated once from them relabelled when a rival labelling wins decisively (see runFromModel). */
+function relabelledRun(
   model: BandModel,
   floatable: readonly string[],
   peaks: PeakList,
