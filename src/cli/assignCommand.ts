@@ -366,7 +366,24 @@ function relabelledRun(
   }
   if (relabelled.length < 2) return { run, seeds, note: '' };
   const again = assistantAutoExtend({ model, floatable, peaks, lines: relabelled, options });
-  if (again.doubt !== null) return { run, seeds, note: '' };
+    console.error(
+      'RELABEL',
+      run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected').length,
+      check.margin,
+      run.audit?.missing,
+      run.audit?.strong,
+      '->',
+      runSupport(again),
+      again.labelCheck?.margin,
+      again.audit?.missing,
+      again.audit?.strong,
+      again.doubt,
+    );
+  // The relabelled run must explain at least as many lines as the first, with no more strong lines
+  // on no peak (a labelling that is right accounts for more of the trace, not less).
+  const nFirst = run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected').length;
+  const missingShare = (r: AssistantRunResult) => (r.audit && r.audit.strong > 0 ? r.audit.missing / r.audit.strong : 0);
+  if (again.doubt !== null || runSupport(again) < nFirst || missingShare(again) > missingShare(run)) return { run, seeds, note: '' };
   return {
     run: again,
     seeds: relabelled,
