@@ -366,19 +366,6 @@ function relabelledRun(
   }
   if (relabelled.length < 2) return { run, seeds, note: '' };
   const again = assistantAutoExtend({ model, floatable, peaks, lines: relabelled, options });
-    console.error(
-      'RELABEL',
-      run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected').length,
-      check.margin,
-      run.audit?.missing,
-      run.audit?.strong,
-      '->',
-      runSupport(again),
-      again.labelCheck?.margin,
-      again.audit?.missing,
-      again.audit?.strong,
-      again.doubt,
-    );
   // The relabelled run must explain at least as many lines as the first, with no more strong lines
   // on no peak (a labelling that is right accounts for more of the trace, not less).
   const nFirst = run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected').length;
