@@ -73,7 +73,12 @@ function loadTrace(path: string, io: CliIo) {
  * default 0.001 cm^-1), never changed by the loop. Without --lines, from the model alone
  * (assistantSeedFromModel): the origin and both B are first shifted to put the strongest
  * low-K, low-J lines on peaks, then the strongest predicted lines with exactly one peak within
- * ±3 median FWHM and no comparable predicted line there become seeds (status 'seed').
+ * ±3 median FWHM and no comparable predicted line there become seeds (status 'seed'). A model-only
+ * run whose labels a rival labelling (one rung, J'' or sub-band off) beats decisively is repeated
+ * once from its seeds relabelled that way, and the repeat kept only when it decides its own labels
+ * and explains at least as many lines; a Π–Σ band's Q branch, which its P and R lines leave at the
+ * guessed q, is placed by sliding the Q ladder along q (assistantQBranchSearch) and the run repeated
+ * with those seeds. Both steps are said on the first stderr line.
  * The fits float the model file's floated constants (plain numbers) that the lines can determine;
  * the model's jMax and kMax bound the lines sought. --tolerance is k of the k·σ window (default 3).
  *
