@@ -4,7 +4,7 @@ import { assistantLinesFromAssignments } from '../analysis/assistantReview';
 import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
 import { assistantLabelShift, LABEL_DECISIVE_MARGIN } from '../analysis/assistantLabelCheck';
 import { assistantQBranchSearch } from '../analysis/assistantQBranchSearch';
-import type { AssistantLine, AssistantRunResult } from '../analysis/assistantTypes';
+import type { AssistantLine, AssistantRunResult, AssistantSuspect } from '../analysis/assistantTypes';
 import { assistantPosteriorFit, assistantPosteriorSigmas, assistantPriorSigmas } from '../analysis/assistantPosterior';
 import { peaksFind, type PeakList } from '../analysis/peaksFind';
 import { bandLines } from '../physics/bandLines';
@@ -87,8 +87,10 @@ function loadTrace(path: string, io: CliIo) {
  * 'proposed' (lines the loop excluded as outliers and ambiguous cases are not rows; they are
  * counted on stderr). Proposals the misassignment hunt distrusts, and every machine-made line of a
  * run the consistency checks doubt, are not rows either: they are listed on stderr as "review:"
- * lines with their status and reason. flags: 'blended' (weighted down), 'suspect' (a seed line
- * the misassignment hunt distrusts). calc from the final fit, cm^-1. stderr: the final fit's
+ * lines with their status and reason, except proposals distrusted only for a residual of at most
+ * a quarter line width with no other rung on offer (see isPulledOnly): those are rows flagged
+ * 'pulled'. flags: 'blended' (weighted down), 'suspect' (a seed line the misassignment hunt
+ * distrusts), 'pulled' (see above). calc from the final fit, cm^-1. stderr: the final fit's
  * summary, the consistency audit ("assign: consistency: …") and the review list.
  * Exit 0 on success; bad inputs give one stderr line naming the file, line and field, exit 1.
  * A system file (JSON with a "species" field) goes to assignSystem (cli/assignSystem.ts); a
@@ -206,11 +208,14 @@ export const assignCommand: CliCommand = (args, io) => {
   if (!run.fit) throw new CliError(`no fit could be made from the lines: ${run.fitError?.message ?? 'unknown reason'}`);
   const fit = run.fit;
   const suspect = new Set(run.suspects.map((s) => s.id));
+  const pulled = new Set(run.suspects.filter(isPulledOnly).map((s) => s.id));
   const rows = run.lines.filter((l) => l.status !== 'rejected' && !l.isExcluded);
   // Only what the assistant is sure of becomes a row: proposals the misassignment hunt distrusts,
   // and every machine-made line of a run the consistency audit doubts, go to the review list (stderr).
   const isMachine = (l: AssistantLine) => l.status === 'proposed' || l.source === 'auto-seed';
-  const review = rows.filter((l) => isMachine(l) && (run.doubt !== null || suspect.has(l.id)));
+  const review = rows.filter(
+    (l) => isMachine(l) && (run.doubt !== null || (suspect.has(l.id) && !(l.status === 'proposed' && pulled.has(l.id)))),
+  );
   const held = new Set(review.map((l) => l.id));
   const seedRows = rows.filter((l) => (l.status === 'seed' || l.status === 'accepted') && !held.has(l.id));
   const proposed = rows.filter((l) => l.status === 'proposed' && !held.has(l.id)).sort((a, b) => a.observedCm1 - b.observedCm1);
@@ -218,7 +223,8 @@ export const assignCommand: CliCommand = (args, io) => {
   const out: string[] = [ASSIGN_COLUMNS.join(',')];
   for (const l of [...seedRows, ...proposed]) {
     const calc = transitionWavenumber(fit.model, l.jUpper, l.kUpper, l.jLower, l.kLower);
-    const flags = [l.isBlended && 'blended', suspect.has(l.id) && 'suspect'].filter(Boolean).join(';');
+    const isPulled = l.status === 'proposed' && pulled.has(l.id);
+    const flags = [l.isBlended && 'blended', suspect.has(l.id) && !isPulled && 'suspect', isPulled && 'pulled'].filter(Boolean).join(';');
     out.push(
       [
         l.jUpper,
@@ -255,6 +261,29 @@ export const assignCommand: CliCommand = (args, io) => {
 
 /** A rival run is preferred only when the trace supports it with this many times the lines. */
 const RIVAL_FACTOR = 3;
+
+/**
+ * A proposal off the clean fit by at most this many line widths is on its line: two lines closer
+ * than about half a width are not resolved (the hunt's own criterion, OFF_LINE_FWHM 0.5), and a
+ * quarter width leaves the other half of that margin for the fit's own error.
+ */
+const PULLED_MAX_FWHM = 0.25;
+
+/**
+ * A suspect the hunt distrusts only for its residual against its own σ (no combination difference,
+ * off-line or leverage test failed), no more than PULLED_MAX_FWHM line widths from where the clean
+ * fit puts it and with no other rung predicted within the matching tolerance of its peak: its peak's
+ * centre is pulled a little (an unresolved weak neighbour, noise), but no other label is on offer.
+ * Such proposals are written, flagged 'pulled', instead of held for review.
+ */
+function isPulledOnly(s: AssistantSuspect): boolean {
+  return (
+    s.isResidualOnly &&
+    s.lineWidthCm1 > 0 &&
+    Math.abs(s.obsMinusCalcCm1) <= PULLED_MAX_FWHM * s.lineWidthCm1 &&
+    s.alternativeRungs.length === 0
+  );
+}
 
 /** Lines a run would write (machine-made lines not distrusted), 0 for a doubtful run. */
 function runSupport(run: AssistantRunResult): number {
