@@ -43,6 +43,8 @@ export const LABEL_DECISIVE_MARGIN = 25;
 export interface AssistantLabelRival {
   /** What the rival changes, in words. */
   what: string;
+  /** The same as data (assistantLabelShift relabels a line). */
+  shift: AssistantLabelShift;
   /** Lines it labels (relabelled quanta allowed by the selection rules). */
   nKept: number;
   /** Lines it cannot label (relabelled quanta impossible). */
@@ -92,40 +94,50 @@ export interface AssistantLabelCheckInput {
 
 type Relabel = (q: TransitionQuanta) => TransitionQuanta;
 
-function rivalsOf(model: Pick<BandModel, 'shape' | 'band'>): { what: string; relabel: Relabel }[] {
-  const out: { what: string; relabel: Relabel }[] = [];
-  for (const t of [1, -1]) {
+/** Which numbering a rival changes: the P/R rung m, every J'', or the sub-band index; by one up (+1) or down (−1). */
+export interface AssistantLabelShift {
+  kind: 'rung' | 'j' | 'subBand';
+  step: 1 | -1;
+}
+
+/**
+ * The quanta of a line under a rival labelling (see AssistantLabelShift). The result may be
+ * impossible (J < K, negative J): check it with assignmentCheck before use.
+ */
+export function assistantLabelShift(
+  model: Pick<BandModel, 'shape' | 'band'>,
+  shift: AssistantLabelShift,
+  q: TransitionQuanta,
+): TransitionQuanta {
+  const t = shift.step;
+  const quanta = { jUpper: q.jUpper, kUpper: q.kUpper, jLower: q.jLower, kLower: q.kLower };
+  if (shift.kind === 'rung') {
+    const dJ = q.jUpper - q.jLower;
+    const jLower = q.jLower + t * dJ;
+    return { ...quanta, jLower, jUpper: jLower + dJ };
+  }
+  if (shift.kind === 'j') return { ...quanta, jLower: q.jLower + t, jUpper: q.jUpper + t };
+  if (model.band === 'perpendicular') {
+    const index = (q.kUpper - q.kLower) * q.kLower + t;
+    const deltaK = index >= 0 ? 1 : -1;
+    const kLower = Math.abs(index);
+    return { ...quanta, kLower, kUpper: kLower + deltaK };
+  }
+  return { ...quanta, kLower: q.kLower + t, kUpper: q.kUpper + t };
+}
+
+function rivalsOf(model: Pick<BandModel, 'shape' | 'band'>): { what: string; shift: AssistantLabelShift; relabel: Relabel }[] {
+  const out: { what: string; shift: AssistantLabelShift; relabel: Relabel }[] = [];
+  const add = (what: string, shift: AssistantLabelShift) =>
+    out.push({ what, shift, relabel: (q) => ({ ...q, ...assistantLabelShift(model, shift, q) }) });
+  for (const t of [1, -1] as const) {
     const word = t > 0 ? 'one rung up' : 'one rung down';
-    out.push({
-      what: `the P and R branches numbered ${word} (m → m ${t > 0 ? '+' : '−'} 1)`,
-      relabel: (q) => {
-        const dJ = q.jUpper - q.jLower;
-        const jLower = q.jLower + t * dJ;
-        return { ...q, jLower, jUpper: jLower + dJ };
-      },
-    });
-    out.push({
-      what: `every J'' ${word}`,
-      relabel: (q) => ({ ...q, jLower: q.jLower + t, jUpper: q.jUpper + t }),
-    });
+    add(`the P and R branches numbered ${word} (m → m ${t > 0 ? '+' : '−'} 1)`, { kind: 'rung', step: t });
+    add(`every J'' ${word}`, { kind: 'j', step: t });
     if (model.shape === 'linear') continue;
     const sub = t > 0 ? 'one sub-band up' : 'one sub-band down';
-    if (model.band === 'perpendicular') {
-      out.push({
-        what: `every line ${sub} (ΔK·K'' → ΔK·K'' ${t > 0 ? '+' : '−'} 1)`,
-        relabel: (q) => {
-          const index = (q.kUpper - q.kLower) * q.kLower + t;
-          const deltaK = index >= 0 ? 1 : -1;
-          const kLower = Math.abs(index);
-          return { ...q, kLower, kUpper: kLower + deltaK };
-        },
-      });
-    } else {
-      out.push({
-        what: `every line ${sub} (K'' → K'' ${t > 0 ? '+' : '−'} 1)`,
-        relabel: (q) => ({ ...q, kLower: q.kLower + t, kUpper: q.kUpper + t }),
-      });
-    }
+    if (model.band === 'perpendicular') add(`every line ${sub} (ΔK·K'' → ΔK·K'' ${t > 0 ? '+' : '−'} 1)`, { kind: 'subBand', step: t });
+    else add(`every line ${sub} (K'' → K'' ${t > 0 ? '+' : '−'} 1)`, { kind: 'subBand', step: t });
   }
   return out;
 }
@@ -145,7 +157,7 @@ export function assistantLabelCheck(input: AssistantLabelCheckInput): AssistantL
   const score = current.chi2 / scale2 + current.priorChi2 + LABEL_LINE_PENALTY * missing;
   const rivals: AssistantLabelRival[] = [];
   const intensityOf = input.peakHeights ? predictedIntensities(model) : null;
-  for (const { what, relabel } of rivalsOf(model)) {
+  for (const { what, shift, relabel } of rivalsOf(model)) {
     const kept: AssistantLine[] = [];
     let nDropped = 0;
     for (const l of used) {
@@ -160,6 +172,7 @@ export function assistantLabelCheck(input: AssistantLabelCheckInput): AssistantL
     const intensity = intensityOf && input.peakHeights ? intensityEvidence(used, relabel, intensityOf, input.peakHeights) : 0;
     rivals.push({
       what,
+      shift,
       nKept: kept.length,
       nDropped,
       missing: rivalMissing,

@@ -207,7 +207,8 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
     const omc = line.observedCm1 - e.calc;
     const z = omc / e.sigma;
     const reasons: string[] = [];
-    if (Math.abs(z) > thr) {
+    const isResidualOutlier = Math.abs(z) > thr;
+    if (isResidualOutlier) {
       reasons.push(
         `obs − calc = ${omc.toPrecision(3)} cm^-1 is ${z.toFixed(1)}σ (σ = ${e.sigma.toPrecision(2)} cm^-1) from the fit without the outliers`,
       );
@@ -289,6 +290,8 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
       reasons,
       alternativeRungs: alternativeRungs.slice(0, 8),
       alternativePeaks: alternativePeaks.slice(0, 8),
+      isResidualOnly: isResidualOutlier && reasons.length === 1,
+      lineWidthCm1,
     });
   }
   suspects.sort((a, b) => Math.abs(b.normalisedResidual) - Math.abs(a.normalisedResidual));

@@ -117,6 +117,13 @@ export interface AssistantSuspect {
   alternativeRungs: AssistantAlternative[];
   /** Other peaks within tolerance of this line's own predicted position, best first. */
   alternativePeaks: AssistantCandidatePeak[];
+  /**
+   * The only test failed is obs − calc against the clean fit (no combination difference, no
+   * off-line or leverage test): the residual is large against the line's own σ only.
+   */
+  isResidualOnly: boolean;
+  /** The band's line width the tests used (median FWHM of the peaks the lines sit on), cm^-1. */
+  lineWidthCm1: number;
 }
 
 /** Tuning of the assistant; every field optional, ASSISTANT_DEFAULTS holds the defaults. */

@@ -2,7 +2,9 @@ import { assistantAutoExtend } from '../analysis/assistantAutoExtend';
 import { assistantPeakContext, assistantPeaksUsable } from '../analysis/assistantPeakContext';
 import { assistantLinesFromAssignments } from '../analysis/assistantReview';
 import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
-import type { AssistantLine, AssistantRunResult } from '../analysis/assistantTypes';
+import { assistantLabelShift, LABEL_DECISIVE_MARGIN } from '../analysis/assistantLabelCheck';
+import { assistantQBranchSearch } from '../analysis/assistantQBranchSearch';
+import type { AssistantLine, AssistantRunResult, AssistantSuspect } from '../analysis/assistantTypes';
 import { assistantPosteriorFit, assistantPosteriorSigmas, assistantPriorSigmas } from '../analysis/assistantPosterior';
 import { peaksFind, type PeakList } from '../analysis/peaksFind';
 import { bandLines } from '../physics/bandLines';
@@ -71,7 +73,12 @@ function loadTrace(path: string, io: CliIo) {
  * default 0.001 cm^-1), never changed by the loop. Without --lines, from the model alone
  * (assistantSeedFromModel): the origin and both B are first shifted to put the strongest
  * low-K, low-J lines on peaks, then the strongest predicted lines with exactly one peak within
- * ±3 median FWHM and no comparable predicted line there become seeds (status 'seed').
+ * ±3 median FWHM and no comparable predicted line there become seeds (status 'seed'). A model-only
+ * run whose labels a rival labelling (one rung, J'' or sub-band off) beats decisively is repeated
+ * once from its seeds relabelled that way, and the repeat kept only when it decides its own labels
+ * and explains at least as many lines; a Π–Σ band's Q branch, which its P and R lines leave at the
+ * guessed q, is placed by sliding the Q ladder along q (assistantQBranchSearch) and the run repeated
+ * with those seeds. Both steps are said on the first stderr line.
  * The fits float the model file's floated constants (plain numbers) that the lines can determine;
  * the model's jMax and kMax bound the lines sought. --tolerance is k of the k·σ window (default 3).
  *
@@ -80,8 +87,10 @@ function loadTrace(path: string, io: CliIo) {
  * 'proposed' (lines the loop excluded as outliers and ambiguous cases are not rows; they are
  * counted on stderr). Proposals the misassignment hunt distrusts, and every machine-made line of a
  * run the consistency checks doubt, are not rows either: they are listed on stderr as "review:"
- * lines with their status and reason. flags: 'blended' (weighted down), 'suspect' (a seed line
- * the misassignment hunt distrusts). calc from the final fit, cm^-1. stderr: the final fit's
+ * lines with their status and reason, except proposals distrusted only for a residual of at most
+ * a quarter line width with no other rung on offer (see isPulledOnly): those are rows flagged
+ * 'pulled'. flags: 'blended' (weighted down), 'suspect' (a seed line the misassignment hunt
+ * distrusts), 'pulled' (see above). calc from the final fit, cm^-1. stderr: the final fit's
  * summary, the consistency audit ("assign: consistency: …") and the review list.
  * Exit 0 on success; bad inputs give one stderr line naming the file, line and field, exit 1.
  * A system file (JSON with a "species" field) goes to assignSystem (cli/assignSystem.ts); a
@@ -154,27 +163,40 @@ export const assignCommand: CliCommand = (args, io) => {
   }
   let run: AssistantRunResult;
   try {
-    run = assistantAutoExtend({ model, floatable, peaks, lines: seeds, options: { toleranceSigma: tolerance } });
+    const isModelOnly = typeof opts.lines !== 'string';
+    const first = isModelOnly
+      ? runFromModel(model, floatable, peaks, seeds, tolerance)
+      : { run: assistantAutoExtend({ model, floatable, peaks, lines: seeds, options: { toleranceSigma: tolerance } }), seeds, note: '' };
+    run = first.run;
+    seeds = first.seeds;
+    seedText += first.note;
     if (rival) {
       // Two shifts of the model's ladder match the peaks about equally well: run both and keep the
-      // one the trace supports clearly better (more lines, no doubt); if neither does, nothing is
-      // written as an assignment.
-      const other = assistantAutoExtend({
-        model: rival.model,
-        floatable,
-        peaks,
-        lines: rival.lines,
-        options: { toleranceSigma: tolerance },
-      });
+      // one the trace supports clearly better (more lines, no doubt), or either when both reach the
+      // same labels; if neither, nothing is written as an assignment.
+      const second = runFromModel(rival.model, floatable, peaks, rival.lines, tolerance);
+      const other = second.run;
       const a = runSupport(run);
       const b = runSupport(other);
-      if (b > RIVAL_FACTOR * a) {
+      const agreement = a > 0 && b > 0 ? runsAgreement(run, other) : null;
+      if (agreement && agreement.conflicts === 0 && agreement.shared >= RUNS_SHARED_FRACTION * Math.min(a, b)) {
+        if (b > a) {
+          run = other;
+          model = rival.model;
+          seeds = second.seeds;
+          seedText += second.note;
+        }
+        seedText += ` (the runner-up shift of the search leads to the same labels: ${agreement.shared} lines in common, none labelled otherwise; ${Math.max(a, b)} lines kept)`;
+      } else if (b > RIVAL_FACTOR * a) {
         run = other;
         model = rival.model;
-        seeds = rival.lines;
-        seedText += ` (the runner-up shift of the search: the trace supports it with ${b} lines against ${a})`;
+        seeds = second.seeds;
+        seedText += `${second.note} (the runner-up shift of the search: the trace supports it with ${b} lines against ${a})`;
       } else if (!(a > RIVAL_FACTOR * b)) {
-        run.doubt = `two shifts of the model's ladder fit the peaks about equally well and lead to ${a} and ${b} consistent lines: the numbering is not decided by the trace; give seed lines`;
+        run.doubt =
+          `two shifts of the model's ladder fit the peaks about equally well and lead to ${a} and ${b} consistent lines` +
+          (agreement ? ` (${agreement.conflicts} peak(s) or line(s) labelled differently)` : '') +
+          `: the numbering is not decided by the trace; give seed lines`;
         run.warnings.push(run.doubt);
       } else {
         seedText += ` (preferred over the runner-up shift of the search: ${a} lines against ${b})`;
@@ -186,11 +208,14 @@ export const assignCommand: CliCommand = (args, io) => {
   if (!run.fit) throw new CliError(`no fit could be made from the lines: ${run.fitError?.message ?? 'unknown reason'}`);
   const fit = run.fit;
   const suspect = new Set(run.suspects.map((s) => s.id));
+  const pulled = new Set(run.suspects.filter(isPulledOnly).map((s) => s.id));
   const rows = run.lines.filter((l) => l.status !== 'rejected' && !l.isExcluded);
   // Only what the assistant is sure of becomes a row: proposals the misassignment hunt distrusts,
   // and every machine-made line of a run the consistency audit doubts, go to the review list (stderr).
   const isMachine = (l: AssistantLine) => l.status === 'proposed' || l.source === 'auto-seed';
-  const review = rows.filter((l) => isMachine(l) && (run.doubt !== null || suspect.has(l.id)));
+  const review = rows.filter(
+    (l) => isMachine(l) && (run.doubt !== null || (suspect.has(l.id) && !(l.status === 'proposed' && pulled.has(l.id)))),
+  );
   const held = new Set(review.map((l) => l.id));
   const seedRows = rows.filter((l) => (l.status === 'seed' || l.status === 'accepted') && !held.has(l.id));
   const proposed = rows.filter((l) => l.status === 'proposed' && !held.has(l.id)).sort((a, b) => a.observedCm1 - b.observedCm1);
@@ -198,7 +223,8 @@ export const assignCommand: CliCommand = (args, io) => {
   const out: string[] = [ASSIGN_COLUMNS.join(',')];
   for (const l of [...seedRows, ...proposed]) {
     const calc = transitionWavenumber(fit.model, l.jUpper, l.kUpper, l.jLower, l.kLower);
-    const flags = [l.isBlended && 'blended', suspect.has(l.id) && 'suspect'].filter(Boolean).join(';');
+    const isPulled = l.status === 'proposed' && pulled.has(l.id);
+    const flags = [l.isBlended && 'blended', suspect.has(l.id) && !isPulled && 'suspect', isPulled && 'pulled'].filter(Boolean).join(';');
     out.push(
       [
         l.jUpper,
@@ -236,11 +262,154 @@ export const assignCommand: CliCommand = (args, io) => {
 /** A rival run is preferred only when the trace supports it with this many times the lines. */
 const RIVAL_FACTOR = 3;
 
+/**
+ * A proposal off the clean fit by at most this many line widths is on its line: two lines closer
+ * than about half a width are not resolved (the hunt's own criterion, OFF_LINE_FWHM 0.5), and a
+ * quarter width leaves the other half of that margin for the fit's own error.
+ */
+const PULLED_MAX_FWHM = 0.25;
+
+/**
+ * A suspect the hunt distrusts only for its residual against its own σ (no combination difference,
+ * off-line or leverage test failed), no more than PULLED_MAX_FWHM line widths from where the clean
+ * fit puts it and with no other rung predicted within the matching tolerance of its peak: its peak's
+ * centre is pulled a little (an unresolved weak neighbour, noise), but no other label is on offer.
+ * Such proposals are written, flagged 'pulled', instead of held for review.
+ */
+function isPulledOnly(s: AssistantSuspect): boolean {
+  return (
+    s.isResidualOnly &&
+    s.lineWidthCm1 > 0 &&
+    Math.abs(s.obsMinusCalcCm1) <= PULLED_MAX_FWHM * s.lineWidthCm1 &&
+    s.alternativeRungs.length === 0
+  );
+}
+
 /** Lines a run would write (machine-made lines not distrusted), 0 for a doubtful run. */
 function runSupport(run: AssistantRunResult): number {
   if (run.doubt) return 0;
   const suspect = new Set(run.suspects.map((x) => x.id));
   return run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected' && !suspect.has(l.id)).length;
+}
+
+/**
+ * Two runs reach the same labels when they share at least this fraction of the smaller run's lines
+ * (and label no shared peak or line differently): then the two shifts of the search were two
+ * starts to one answer, not two answers.
+ */
+const RUNS_SHARED_FRACTION = 0.5;
+
+/**
+ * How far two runs' written lines agree: lines on the same peak with the same quanta (shared), and
+ * conflicts (a peak both label differently, or one line both put on different peaks).
+ */
+function runsAgreement(a: AssistantRunResult, b: AssistantRunResult): { shared: number; conflicts: number } {
+  const written = (run: AssistantRunResult) => {
+    const suspect = new Set(run.suspects.map((x) => x.id));
+    return run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected' && !suspect.has(l.id) && l.peakIndex !== null);
+  };
+  const key = (l: AssistantLine) => `${l.jUpper},${l.kUpper},${l.jLower},${l.kLower}`;
+  const byPeak = new Map<number, string>();
+  const byLine = new Map<string, number>();
+  for (const l of written(a)) {
+    byPeak.set(l.peakIndex!, key(l));
+    byLine.set(key(l), l.peakIndex!);
+  }
+  let shared = 0;
+  let conflicts = 0;
+  for (const l of written(b)) {
+    const onPeak = byPeak.get(l.peakIndex!);
+    const peakOf = byLine.get(key(l));
+    if (onPeak === key(l)) shared++;
+    else if (onPeak !== undefined || peakOf !== undefined) conflicts++;
+  }
+  return { shared, conflicts };
+}
+
+/**
+ * Run the loop from model-only seeds. When its rival-labelling check finds a rival labelling that
+ * the trace favours decisively (by at least LABEL_DECISIVE_MARGIN), the run is repeated once from
+ * the seeds relabelled that way (the start had the ladder one rung or sub-band off), and the
+ * repeat is kept only when its own check decides its labels (it then beats the first labelling
+ * too, which is one of its rivals); otherwise the first run stands, doubtful as it is.
+ */
+function runFromModel(
+  model: BandModel,
+  floatable: readonly string[],
+  peaks: PeakList,
+  seeds: AssistantLine[],
+  tolerance: number,
+): { run: AssistantRunResult; seeds: AssistantLine[]; note: string } {
+  const options = { toleranceSigma: tolerance };
+  const first = relabelledRun(model, floatable, peaks, seeds, tolerance);
+  return withQBranch(model, floatable, peaks, first, options);
+}
+
+/** A Π–Σ run with at most this many Q lines has not placed its Q branch. */
+const Q_LINES_FEW = 2;
+
+/**
+ * A decided run of a Π–Σ band that reached no Q line (q unknown: the Q ladder lies tens of line
+ * widths from its guess) is extended by the Q-branch search (assistantQBranchSearch) and run again
+ * with its lines and the Q seeds; the repeat is kept only when it is decided too and writes more lines.
+ */
+function withQBranch(
+  model: BandModel,
+  floatable: readonly string[],
+  peaks: PeakList,
+  first: { run: AssistantRunResult; seeds: AssistantLine[]; note: string },
+  options: { toleranceSigma: number },
+): { run: AssistantRunResult; seeds: AssistantLine[]; note: string } {
+  const { run } = first;
+  if (model.shape !== 'linear' || model.band !== 'perpendicular' || !floatable.includes('upper.q') || run.doubt !== null || !run.fit)
+    return first;
+  const live = run.lines.filter((l) => l.status !== 'rejected');
+  // A few Q lines at the pile-up near the origin do not fix q; the search decides whether the ladder is placed.
+  if (live.filter((l) => l.jUpper === l.jLower && !l.isExcluded).length > Q_LINES_FEW) return first;
+  const taken = new Set(live.flatMap((l) => (l.peakIndex === null ? [] : [l.peakIndex])));
+  const qSigma = assistantPriorSigmas(model, floatable)['upper.q'];
+  const found = assistantQBranchSearch(run.fit.model, qSigma, peaks, taken);
+  if (found.lines.length === 0) return { ...first, note: `${first.note}; ${found.text}` };
+  const ids = new Set(live.map((l) => l.id));
+  const qSeeds = found.lines.filter((l) => !ids.has(l.id));
+  const again = assistantAutoExtend({ model, floatable, peaks, lines: [...live, ...qSeeds], options });
+  if (again.doubt !== null || runSupport(again) <= runSupport(run))
+    return { ...first, note: `${first.note}; ${found.text}, but the run with them was not kept` };
+  return { run: again, seeds: [...first.seeds, ...qSeeds], note: `${first.note}; ${found.text}` };
+}
+
+/** The loop from the seeds, repeated once from them relabelled when a rival labelling wins decisively (see runFromModel). */
+function relabelledRun(
+  model: BandModel,
+  floatable: readonly string[],
+  peaks: PeakList,
+  seeds: AssistantLine[],
+  tolerance: number,
+): { run: AssistantRunResult; seeds: AssistantLine[]; note: string } {
+  const options = { toleranceSigma: tolerance };
+  const run = assistantAutoExtend({ model, floatable, peaks, lines: seeds, options });
+  const check = run.labelCheck;
+  if (!check?.closest || !(check.margin <= -LABEL_DECISIVE_MARGIN)) return { run, seeds, note: '' };
+  const rival = check.closest;
+  const relabelled: AssistantLine[] = [];
+  for (const l of seeds) {
+    const q = assistantLabelShift(model, rival.shift, l);
+    if (q.jLower < 0 || q.kLower < 0 || assignmentCheck(q, model) !== null) continue;
+    const reason = `${l.reason}; relabelled as ${lineLabelAscii(q.kUpper - q.kLower, q.jUpper - q.jLower, q.kLower, q.jLower, model.shape)}: the run from the first labels fitted better with ${rival.what} (by ${(-check.margin).toFixed(1)})`;
+    relabelled.push({ ...l, ...q, reason, note: reason });
+  }
+  if (relabelled.length < 2) return { run, seeds, note: '' };
+  const again = assistantAutoExtend({ model, floatable, peaks, lines: relabelled, options });
+  // The relabelled run must explain at least as many lines as the first, with no more strong lines
+  // on no peak (a labelling that is right accounts for more of the trace, not less).
+  const nFirst = run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected').length;
+  const missingShare = (r: AssistantRunResult) => (r.audit && r.audit.strong > 0 ? r.audit.missing / r.audit.strong : 0);
+  if (again.doubt !== null || runSupport(again) < nFirst || missingShare(again) > missingShare(run)) return { run, seeds, note: '' };
+  return {
+    run: again,
+    seeds: relabelled,
+    note: `, relabelled (${rival.what}: the first run fitted better so by ${(-check.margin).toFixed(1)})`,
+  };
 }
 
 /** Seeds leave the band open when its strongest lines are predicted no better than this many line widths (1σ). */

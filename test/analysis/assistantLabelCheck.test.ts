@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { assistantLabelCheck, LABEL_DECISIVE_MARGIN } from '../../src/analysis/assistantLabelCheck';
+import { assistantLabelCheck, assistantLabelShift, LABEL_DECISIVE_MARGIN } from '../../src/analysis/assistantLabelCheck';
 import { assistantPriorSigmas, type AssistantPosterior } from '../../src/analysis/assistantPosterior';
 import type { AssistantLine, AssistantRunAudit } from '../../src/analysis/assistantTypes';
 import { bandLines } from '../../src/physics/bandLines';
@@ -188,5 +188,30 @@ describe('assistantLabelCheck', () => {
     const wrong = assistantLabelCheck({ model: guess, priors, lines: shifted, auditOf: () => null, peakHeights: heights });
     expect(wrong.isDecided, wrong.text).toBe(false);
     expect(wrong.rivals.find((r) => /numbered one rung up/.test(r.what))!.intensity).toBeLessThan(0);
+  });
+});
+
+describe('assistantLabelShift', () => {
+  // Running number m = −J'' for P lines, J'' + 1 for R lines (Herzberg II (1945) ch. IV, from memory);
+  // sub-band index ΔK·K'' of a perpendicular band (… pQ1 = −1, rQ0 = 0, rQ1 = 1 …).
+  const p5 = { jUpper: 4, kUpper: 1, jLower: 5, kLower: 0 };
+  const r5 = { jUpper: 6, kUpper: 1, jLower: 5, kLower: 0 };
+  it('moves P(5) (m = −5) to P(4) and R(5) (m = 6) to R(6) one rung up', () => {
+    expect(assistantLabelShift(TOP, { kind: 'rung', step: 1 }, p5)).toEqual({ jUpper: 3, kUpper: 1, jLower: 4, kLower: 0 });
+    expect(assistantLabelShift(TOP, { kind: 'rung', step: 1 }, r5)).toEqual({ jUpper: 7, kUpper: 1, jLower: 6, kLower: 0 });
+  });
+  it("moves every J'' by one and keeps ΔJ", () => {
+    expect(assistantLabelShift(TOP, { kind: 'j', step: -1 }, r5)).toEqual({ jUpper: 5, kUpper: 1, jLower: 4, kLower: 0 });
+  });
+  it('moves rR0 one sub-band down to pR1 and one up to rR1 in a perpendicular band, K″ by one in a parallel band', () => {
+    expect(assistantLabelShift(TOP, { kind: 'subBand', step: -1 }, r5)).toEqual({ jUpper: 6, kUpper: 0, jLower: 5, kLower: 1 });
+    expect(assistantLabelShift(TOP, { kind: 'subBand', step: 1 }, r5)).toEqual({ jUpper: 6, kUpper: 2, jLower: 5, kLower: 1 });
+    const parallel = { ...TOP, band: 'parallel' as const };
+    expect(assistantLabelShift(parallel, { kind: 'subBand', step: 1 }, { jUpper: 6, kUpper: 2, jLower: 5, kLower: 2 })).toEqual({
+      jUpper: 6,
+      kUpper: 3,
+      jLower: 5,
+      kLower: 3,
+    });
   });
 });

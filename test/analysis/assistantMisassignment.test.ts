@@ -126,6 +126,23 @@ describe('assistantMisassignments', () => {
     expect(s).toBeDefined();
     expect(s.obsMinusCalcCm1).toBeCloseTo(0.004, 3);
     expect(s.reasons.some((t) => /combination difference/.test(t))).toBe(true);
+    expect(s.isResidualOnly).toBe(false);
+  });
+
+  it('marks a Q line moved a sixth of a width (many σ) as failing the residual test alone, with the width it used', () => {
+    // Q lines have no P/R partner in a combination difference, so only obs − calc can catch them.
+    const moved = assignments.map((a) => ({ ...a }));
+    const r = moved.findIndex((l) => l.kLower === 1 && l.jUpper === l.jLower && l.jLower === 6);
+    expect(r).toBeGreaterThanOrEqual(0);
+    moved[r].observedCm1 += 0.0016; // 8σ of the stated 2e-4, 0.16 of the 0.01 cm^-1 FWHM
+    const lines = assistantLinesFromAssignments(moved, MODEL, peaks, context, 'proposed');
+    const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks });
+    const s = hunt.suspects.find((x) => x.id === moved[r].id)!;
+    expect(s).toBeDefined();
+    expect(s.isResidualOnly).toBe(true);
+    expect(s.lineWidthCm1).toBeCloseTo(0.01, 12);
+    expect(Math.abs(s.obsMinusCalcCm1)).toBeGreaterThan(0.001);
+    expect(Math.abs(s.obsMinusCalcCm1)).toBeLessThan(0.0025);
   });
 
   it('distrusts a proposal measured 0.8 line widths off a well-predicted position even when its stated σ covers it', () => {
@@ -141,6 +158,7 @@ describe('assistantMisassignments', () => {
     const s = hunt.suspects.find((x) => x.id === moved[r].id)!;
     expect(s).toBeDefined();
     expect(s.reasons.join(' ')).toMatch(/0\.8\d line widths while the fit places the line/);
+    expect(s.isResidualOnly).toBe(false);
     // The same line given by hand (accepted) is the user's call: not distrusted for this reason.
     const own = assistantLinesFromAssignments(moved, MODEL, peaks, context, 'accepted');
     own[r].uncertaintyCm1 = 0.01;

@@ -1,0 +1,58 @@
+import { describe, expect, it } from 'vitest';
+import { assistantQBranchSearch } from '../../src/analysis/assistantQBranchSearch';
+import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
+import { syntheticBand } from './assistantSyntheticBand';
+
+/**
+ * An invented linear molecule's Π–Σ band (cm^-1): l-type doubling q = 1 % of B'' moves the Q lines
+ * against the P and R lines by q·J(J+1)/2 each way (Herzberg I (1950) ch. V, from memory), i.e.
+ * 1.7 cm^-1 apart at J = 20: far outside any matching window.
+ */
+const Q_TRUE = 0.004;
+function piSigma(band: 'perpendicular' | 'parallel'): BandModel {
+  return {
+    shape: 'linear',
+    band,
+    lower: stateConstantsFrom({ B: 0.4 }),
+    upper: stateConstantsFrom({ origin: 2100, B: 0.398, q: band === 'perpendicular' ? Q_TRUE : 0 }),
+    temperatureK: 250,
+    jMax: 40,
+    kMax: 0,
+    spinWeights: [1],
+  };
+}
+
+describe('assistantQBranchSearch', () => {
+  it('places the Q branch of a Π–Σ band whose q the P and R lines left at 0, with the true labels', () => {
+    const truth = piSigma('perpendicular');
+    const band = syntheticBand(truth, 0.002, 11);
+    // What the P and R fit gives: their levels right (B' + q/2 absorbs q), the Q branch 2q·J(J+1)/2 off.
+    const fitted: BandModel = { ...truth, upper: { ...truth.upper, B: truth.upper.B + Q_TRUE / 2, q: 0 } };
+    const found = assistantQBranchSearch(fitted, 0.02 * 0.4, band.peaks, new Set());
+    expect(found.lines.length, found.text).toBeGreaterThanOrEqual(3);
+    for (const l of found.lines) {
+      expect(l.jUpper).toBe(l.jLower);
+      // The true Q line of that J (truth model, bandLines) lies under the seed's peak.
+      let nearest = Infinity;
+      for (let i = 0; i < band.lines.count; i++) {
+        if (band.lines.jLower[i] !== l.jLower || band.lines.deltaJ[i] !== 0) continue;
+        nearest = Math.min(nearest, Math.abs(band.lines.wavenumberCm1[i] - l.observedCm1));
+      }
+      expect(nearest, `Q(${l.jLower})`).toBeLessThan(0.25 * band.fwhmCm1);
+    }
+  });
+
+  it('invents no Q branch in a trace that has none (a Σ–Σ band with the same P and R lines)', () => {
+    const band = syntheticBand(piSigma('parallel'), 0.002, 12);
+    const fitted = piSigma('perpendicular');
+    const found = assistantQBranchSearch({ ...fitted, upper: { ...fitted.upper, q: 0 } }, 0.02 * 0.4, band.peaks, new Set());
+    expect(found.lines, found.text).toHaveLength(0);
+  });
+
+  it('says why it does nothing for a band that is not Π–Σ', () => {
+    const band = syntheticBand(piSigma('parallel'), 0.002, 13);
+    const found = assistantQBranchSearch(piSigma('parallel'), 0.008, band.peaks, new Set());
+    expect(found.lines).toHaveLength(0);
+    expect(found.text).toMatch(/not a Π–Σ band/);
+  });
+});
