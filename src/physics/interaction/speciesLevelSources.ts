@@ -149,12 +149,13 @@ function coupledStateProvider(
 ): LevelProvider {
   const nP = group.parameters.length;
   const parameterNames = group.parameters.map((p) => `${p.owner}.${p.name}`);
-  const levels = (J: number, values: Float64Array, kTop: number): LevelSet => {
+  const levels = (J: number, values: Float64Array, kTop: number, withGradient = true): LevelSet => {
     const all = groupLevels(J, values);
     const pick: number[] = [];
     for (let i = 0; i < all.count; i++) if (all.state[i] === stateIndex && all.K[i] <= kTop) pick.push(i);
-    const gradient = new Float64Array(pick.length * nP);
-    pick.forEach((i, r) => gradient.set(all.gradient.subarray(i * nP, (i + 1) * nP), r * nP));
+    // Only the picked levels' gradients are worked out (coupledLevels computes a row on request).
+    const gradient = new Float64Array(withGradient ? pick.length * nP : 0);
+    if (withGradient) pick.forEach((i, r) => gradient.set(all.levelGradient(i), r * nP));
     return {
       J,
       count: pick.length,
