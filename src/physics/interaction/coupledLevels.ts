@@ -694,20 +694,29 @@ export function coupledLabelFollow(
       overlap[a * n + b] = s * s;
     }
   }
-  const pairs = Array.from({ length: n * n }, (_, i) => i).sort((p, q) => overlap[q] - overlap[p]);
+  // Pairs by descending overlap (ties: lower pair index first), fixed greedily. The pairs of overlap
+  // at least 1/(2n) are sorted and visited first, the rest only if some label is still open: the
+  // order of one full sort, at the cost of a few pairs per vector.
   const labels = new Int32Array(n).fill(-1);
   const oldDone = new Uint8Array(n);
   let left = n;
   let sum = 0;
-  for (const p of pairs) {
+  const threshold = 0.5 / n;
+  for (const isAbove of [true, false]) {
     if (left === 0) break;
-    const a = Math.floor(p / n);
-    const b = p - a * n;
-    if (oldDone[a] || labels[b] >= 0) continue;
-    oldDone[a] = 1;
-    labels[b] = oldLabels[a];
-    sum += overlap[p];
-    left--;
+    const pairs: number[] = [];
+    for (let p = 0; p < n * n; p++) if (overlap[p] >= threshold === isAbove) pairs.push(p);
+    pairs.sort((p, q) => overlap[q] - overlap[p] || p - q);
+    for (const p of pairs) {
+      if (left === 0) break;
+      const a = Math.floor(p / n);
+      const b = p - a * n;
+      if (oldDone[a] || labels[b] >= 0) continue;
+      oldDone[a] = 1;
+      labels[b] = oldLabels[a];
+      sum += overlap[p];
+      left--;
+    }
   }
   return { labels, meanOverlap: n > 0 ? sum / n : 1 };
 }
