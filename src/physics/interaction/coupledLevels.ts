@@ -156,6 +156,9 @@ export interface CoupledLevels {
   vector: Float64Array[];
 }
 
+/** 2²⁰: the factor that packs an element number below a pair key (sort keys stay below 2⁵³ for blocks of up to ~90,000 functions). */
+const PACK = 1048576;
+
 function mod3(m: number): number {
   return ((m % 3) + 3) % 3;
 }
@@ -248,6 +251,9 @@ export function coupledLevels(
       byKIndex,
     };
     const el = blockElements(group, J, x, values, basis);
+    // The pair orderings below pack an element number into the low 20 bits of a sort key.
+    if (el.row.length >= PACK)
+      throw new Error(`coupledLevels: J = ${J} gives ${el.row.length} matrix elements in one block, more than ${PACK - 1} handled`);
     // σv partner of each basis function: |s; k, ℓ⟩ → |s; −k, −ℓ⟩.
     const lookup = new Int32Array(group.states.length * span * 3).fill(-1);
     basis.forEach((b, i) => (lookup[(b.state * span + b.k + J) * 3 + b.ell + 1] = i));
@@ -264,12 +270,14 @@ export function coupledLevels(
         const key = isDense ? `${cls}:${sigma}` : `${cls}:${sigma}:${part.first}`;
         const labels = labelBlock(eig.vectors, mc, key, options.follow);
         const terms = partTermsLazy(part, fold, el, nP);
+        // The levels' eigenvectors over the unfolded basis, one buffer per part (views into it).
+        const partVectors = new Float64Array(mc * n);
         for (let v = 0; v < mc; v++) {
           const a = part.members[labels.basisIndex[v]];
           const dom = basis[fold.colI[a]];
           const st = group.states[dom.state];
           const K = Math.abs(dom.k);
-          const u = new Float64Array(n);
+          const u = partVectors.subarray(v * n, (v + 1) * n);
           for (let t = 0; t < mc; t++) {
             const c = eig.vectors[v * mc + t];
             if (c === 0) continue;
@@ -380,7 +388,7 @@ function partTerms(part: FoldPart, fold: Fold, el: Elements, nP: number): PartTe
   const mc = part.members.length;
   const local = new Int32Array(fold.m).fill(-1);
   part.members.forEach((a, t) => (local[a] = t));
-  // Elements ordered by their (a ≤ b) pair (packed key·2²⁰ + element number, a plain numeric sort);
+  // Elements ordered by their (a ≤ b) pair (packed key·PACK + element number, a plain numeric sort);
   // each pair's terms are summed per parameter.
   const ne = part.elements.length;
   const packed = new Float64Array(ne);
@@ -389,7 +397,7 @@ function partTerms(part: FoldPart, fold: Fold, el: Elements, nP: number): PartTe
     const e = part.elements[q];
     const a = local[fold.foldCol[el.row[e]]];
     const b = local[fold.foldCol[el.col[e]]];
-    packed[q] = (Math.min(a, b) * mc + Math.max(a, b)) * 1048576 + q;
+    packed[q] = (Math.min(a, b) * mc + Math.max(a, b)) * PACK + q;
     termBound += el.dStart[e + 1] - el.dStart[e];
   }
   packed.sort();
@@ -404,10 +412,10 @@ function partTerms(part: FoldPart, fold: Fold, el: Elements, nP: number): PartTe
   let nPairs = 0;
   let nTerms = 0;
   for (let q = 0; q < ne;) {
-    const key = Math.floor(packed[q] / 1048576);
+    const key = Math.floor(packed[q] / PACK);
     let nTouched = 0;
-    for (; q < ne && Math.floor(packed[q] / 1048576) === key; q++) {
-      const e = part.elements[packed[q] % 1048576];
+    for (; q < ne && Math.floor(packed[q] / PACK) === key; q++) {
+      const e = part.elements[packed[q] % PACK];
       const i = el.row[e];
       const j = el.col[e];
       const g = i === j ? fold.foldCoef[i] * fold.foldCoef[i] : 2 * fold.foldCoef[i] * fold.foldCoef[j];
@@ -505,13 +513,13 @@ interface FoldedElements {
 
 function foldedElements(fold: Fold, el: Elements): FoldedElements {
   const m = fold.m;
-  // Elements ordered by their folded pair (packed pair·2²⁰ + element number, a plain numeric sort);
+  // Elements ordered by their folded pair (packed pair·PACK + element number, a plain numeric sort);
   // the two σv images of an element fall on the same pair and are summed.
   const keys: number[] = [];
   for (let e = 0; e < el.row.length; e++) {
     const a = fold.foldCol[el.row[e]];
     const b = fold.foldCol[el.col[e]];
-    if (a >= 0 && b >= 0) keys.push((Math.min(a, b) * m + Math.max(a, b)) * 1048576 + e);
+    if (a >= 0 && b >= 0) keys.push((Math.min(a, b) * m + Math.max(a, b)) * PACK + e);
   }
   const packed = Float64Array.from(keys).sort();
   const pairA = new Int32Array(packed.length);
@@ -519,10 +527,10 @@ function foldedElements(fold: Fold, el: Elements): FoldedElements {
   const value = new Float64Array(packed.length);
   let count = 0;
   for (let q = 0; q < packed.length;) {
-    const key = Math.floor(packed[q] / 1048576);
+    const key = Math.floor(packed[q] / PACK);
     let sum = 0;
-    for (; q < packed.length && Math.floor(packed[q] / 1048576) === key; q++) {
-      const e = packed[q] % 1048576;
+    for (; q < packed.length && Math.floor(packed[q] / PACK) === key; q++) {
+      const e = packed[q] % PACK;
       const i = el.row[e];
       const j = el.col[e];
       const a = fold.foldCol[i];
