@@ -2,11 +2,16 @@
  * `npx tsx test/bench/dyadBench.ts`: times the PH3 ν2/ν4 dyad (test/fixtures/systems/ph3-dyad.json,
  * Coriolis-coupled, diagonalised per J) in three cases and prints one JSON line each:
  * {"case", "median_ms", "median_cpu_ms", "runs", "count", "loadavg"}.
- * - "levels J<=60": every level of the dyad (and of the h3-split ground state) for J = 0…61, with derivatives;
+ * - "levels J<=60": every level of the dyad (and of the h3-split ground state) for J = 0…61, with every
+ *   derivative (coupledLevels works a level's ∂E/∂p out on request; reading `gradient` asks for all);
+ * - "levels J<=60 no derivatives": the same levels (energies, labels, eigenvectors), as a simulation
+ *   uses them;
  * - "lines J''<=60": systemLines of both bands, J'' <= 60, K'' <= 20 (intensity borrowing included);
  * - "fit 3000 lines": systemFit of the first 3000 HITRAN 2012 lines (by wavenumber) from start values
  *   with C1 and ζ 1 % off (the function the solver worker runs).
  * Targets (issue 17): enumeration of a dyad with J <= 60 in < 0.2 s; a 3,000-line dyad fit in < 2 s.
+ * The fit's time also depends on how many evaluations its last Levenberg–Marquardt step needs, which
+ * round-off decides once χ² stops falling (10 or 13 evaluations of the same 7 iterations).
  * Not a unit test: timing is measured, never asserted. On a shared machine the wall time grows with
  * the load; the CPU time less so, so both are printed.
  */
@@ -50,18 +55,25 @@ function measure(name: string, run: () => number): void {
   );
 }
 
-measure('levels J<=60', () => {
-  const sp = systemFileParse(text).model.species[0];
-  const sources = speciesLevelSources(sp);
-  const v4 = sources.get('v4')!.coupled!;
-  const ground = sources.get('ground')!.coupled!;
+function levelsEnumerate(withDerivatives: boolean): number {
+  const sources = speciesLevelSources(systemFileParse(text).model.species[0]);
   let n = 0;
-  for (let J = 0; J <= 61; J++) {
-    n += v4.groupLevels(J, sources.get('v4')!.values).count;
-    n += ground.groupLevels(J, sources.get('ground')!.values).count;
+  for (const name of ['v4', 'ground']) {
+    const source = sources.get(name)!;
+    const coupled = source.coupled!;
+    for (let J = 0; J <= 61; J++) {
+      const levels = coupled.groupLevels(J, source.values);
+      n += levels.count;
+      if (withDerivatives && levels.gradient.length !== levels.count * coupled.group.parameters.length)
+        throw new Error(`dyadBench: J = ${J} of '${name}' has a gradient of the wrong size`);
+    }
   }
   return n;
-});
+}
+
+measure('levels J<=60', () => levelsEnumerate(true));
+
+measure('levels J<=60 no derivatives', () => levelsEnumerate(false));
 
 measure("lines J''<=60", () => {
   const model = systemFileParse(text).model;

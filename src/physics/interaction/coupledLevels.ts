@@ -33,12 +33,15 @@
  * Structure: k − ℓ is conserved mod 3, so the basis falls into three classes. Class 1 and class 2
  * are mirror images under σv (their levels are the E levels, each standing for two components);
  * only class 1 is diagonalised. Class 0 holds the A1/A2 pairs and is folded by σv into its +1 and −1
- * halves. Each block is dense and solved by householderEigen; derivatives by Hellmann–Feynman,
+ * halves. Each (folded) block is split into the connected components of its non-zero pattern, each
+ * ordered by k and solved as a band matrix (bandEigen: O(n² b²) against householderEigen's O(n³) on
+ * the whole block, which the 'dense' option keeps as the reference); derivatives by Hellmann–Feynman,
  * ∂E/∂p = uᵀ(∂H/∂p)u with u the eigenvector in the unfolded basis.
  */
 import { ellQ12Factor, ellQ22Factor } from '../hamiltonian/degenerateStateLevels';
 import { eigenLabelsAssign } from '../hamiltonian/eigenLabels';
 import { rotorPolynomialBasis, type RotorShape } from '../hamiltonian/rotorPolynomial';
+import { bandEigen } from './bandEigen';
 import { coupledHigherTermElements } from './coupledHigherTerms';
 import { householderEigen } from './householderEigen';
 import { coupledStateParameterNames, interactionParameterNames, type InteractionType } from './interactionTerms';
@@ -138,8 +141,13 @@ export interface CoupledLevels {
   tag: string[];
   /** Energy, cm⁻¹ (on the origins' zero). */
   energyCm1: Float64Array;
-  /** ∂E/∂p, row-major by level over the group's parameter vector. */
-  gradient: Float64Array;
+  /**
+   * ∂E/∂p, row-major by level over the group's parameter vector; empty when computed without
+   * derivatives. Worked out on first read (a caller that wants a few levels asks levelGradient).
+   */
+  readonly gradient: Float64Array;
+  /** ∂E/∂p of one level over the group's parameter vector (a view into `gradient`; only that row is worked out). */
+  levelGradient(index: number): Float64Array;
   componentCount: Uint8Array;
   /** |c|² of the labelling basis function (folded basis for class 0). */
   labelWeight: Float64Array;
@@ -149,6 +157,9 @@ export interface CoupledLevels {
   block: CoupledBlock[];
   vector: Float64Array[];
 }
+
+/** 2²⁰: the factor that packs an element number below a pair key (sort keys stay below 2⁵³ for blocks of up to ~90,000 functions). */
+const PACK = 1048576;
 
 function mod3(m: number): number {
   return ((m % 3) + 3) % 3;
@@ -163,11 +174,34 @@ export interface CoupledLevelsOptions {
    * re-derived from the largest component (see coupledLabelFollow). Keyed by block.
    */
   follow?: CoupledLabelMemory;
+  /**
+   * 'factored': each (folded) class block split into the connected components of its non-zero
+   * pattern, each solved as a band matrix (bandEigen); 'dense': each class block solved whole by
+   * householderEigen (the reference the factored solver is checked against; O(n³)). The levels,
+   * labels and eigenvectors agree to round-off. @default 'factored'
+   */
+  solver?: 'factored' | 'dense';
 }
 
 /** What coupledLevels remembers between calls to keep labels continuous (opaque to callers). */
 export interface CoupledLabelMemory {
   blocks: Map<string, { vectors: Float64Array; labels: Int32Array; n: number }>;
+}
+
+/** One level before sorting. */
+interface LevelOut {
+  state: number;
+  K: number;
+  l: number;
+  tag: string;
+  e: number;
+  /** Where ∂E/∂p comes from: the part's derivative terms and the level's eigenvector in it. */
+  source: GradientSource;
+  count: number;
+  weight: number;
+  sigma: number;
+  block: CoupledBlock;
+  vector: Float64Array;
 }
 
 /**
@@ -176,7 +210,7 @@ export interface CoupledLabelMemory {
  * @param group structure from coupledGroupCreate
  * @param J total angular momentum (whole number >= 0)
  * @param values the group's parameter vector (cm⁻¹; ζ dimensionless)
- * @param options derivatives and label following
+ * @param options derivatives, label following and solver
  */
 export function coupledLevels(
   group: CoupledGroup,
@@ -188,21 +222,11 @@ export function coupledLevels(
   if (values.length !== group.parameters.length)
     throw new Error(`coupledLevels: expected ${group.parameters.length} constants, got ${values.length}`);
   const withDerivatives = options.withDerivatives ?? true;
+  const isDense = options.solver === 'dense';
   const nP = group.parameters.length;
   const x = J * (J + 1);
-  const out: {
-    state: number;
-    K: number;
-    l: number;
-    tag: string;
-    e: number;
-    grad: Float64Array | null;
-    count: number;
-    weight: number;
-    sigma: number;
-    block: CoupledBlock;
-    vector: Float64Array;
-  }[] = [];
+  const out: LevelOut[] = [];
+  const span = 2 * J + 1;
   for (const cls of [0, 1]) {
     const basis: BasisFn[] = [];
     group.states.forEach((s, si) => {
@@ -229,98 +253,76 @@ export function coupledLevels(
       byKIndex,
     };
     const el = blockElements(group, J, x, values, basis);
-    const h = new Float64Array(n * n);
-    for (let e = 0; e < el.row.length; e++) {
-      h[el.col[e] * n + el.row[e]] += el.value[e];
-      if (el.row[e] !== el.col[e]) h[el.row[e] * n + el.col[e]] += el.value[e];
-    }
-    // Folding: the symmetrised functions of σ = ±1 as sparse columns over the unfolded basis.
-    const folds: { sigma: number; cols: { i: number; j: number; cj: number; orbit: number }[] }[] = [];
-    const indexOf = new Map<string, number>();
-    basis.forEach((b, i) => indexOf.set(`${b.state},${b.k},${b.ell}`, i));
-    if (cls === 0) {
-      for (const sigma of [1, -1]) {
-        const cols: { i: number; j: number; cj: number; orbit: number }[] = [];
-        basis.forEach((b, i) => {
-          const j = indexOf.get(`${b.state},${-b.k},${-b.ell}`)!;
-          const phase = (J + b.k) % 2 === 0 ? 1 : -1;
-          if (j === i) {
-            if (phase === sigma) cols.push({ i, j: -1, cj: 0, orbit: i });
-          } else if (i < j || (b.k === 0 && b.ell > 0)) {
-            cols.push({ i, j, cj: sigma * phase, orbit: i });
-          }
-        });
-        folds.push({ sigma, cols });
-      }
-    } else {
-      folds.push({ sigma: 0, cols: basis.map((_, i) => ({ i, j: -1, cj: 0, orbit: i })) });
-    }
-    for (const fold of folds) {
-      const m = fold.cols.length;
+    // The pair orderings below pack an element number into the low 20 bits of a sort key.
+    if (el.row.length >= PACK)
+      throw new Error(`coupledLevels: J = ${J} gives ${el.row.length} matrix elements in one block, more than ${PACK - 1} handled`);
+    // σv partner of each basis function: |s; k, ℓ⟩ → |s; −k, −ℓ⟩.
+    const lookup = new Int32Array(group.states.length * span * 3).fill(-1);
+    basis.forEach((b, i) => (lookup[(b.state * span + b.k + J) * 3 + b.ell + 1] = i));
+    const partner = Int32Array.from(basis, (b) => lookup[(b.state * span - b.k + J) * 3 - b.ell + 1]);
+    for (const sigma of cls === 0 ? [1, -1] : [0]) {
+      const fold = foldCreate(basis, J, sigma, partner);
+      const m = fold.m;
       if (m === 0) continue;
-      const hf = new Float64Array(m * m);
-      const inv = Math.SQRT1_2;
-      for (let a = 0; a < m; a++) {
-        const ca = fold.cols[a];
-        for (let b = 0; b <= a; b++) {
-          const cb = fold.cols[b];
-          let s = 0;
-          const wa = ca.j >= 0 ? inv : 1;
-          const wb = cb.j >= 0 ? inv : 1;
-          s += wa * wb * h[cb.i * n + ca.i];
-          if (ca.j >= 0) s += wa * ca.cj * wb * h[cb.i * n + ca.j];
-          if (cb.j >= 0) s += wa * wb * cb.cj * h[cb.j * n + ca.i];
-          if (ca.j >= 0 && cb.j >= 0) s += wa * ca.cj * wb * cb.cj * h[cb.j * n + ca.j];
-          hf[b * m + a] = s;
-          hf[a * m + b] = s;
-        }
-      }
-      const eig = householderEigen(hf, m);
-      const key = `${cls}:${fold.sigma}`;
-      const labels = labelBlock(eig.vectors, m, key, options.follow);
-      for (let v = 0; v < m; v++) {
-        const col = fold.cols[labels.basisIndex[v]];
-        const dom = basis[col.i];
-        const st = group.states[dom.state];
-        const K = Math.abs(dom.k);
-        const u = new Float64Array(n);
-        for (let a = 0; a < m; a++) {
-          const c = eig.vectors[v * m + a];
-          const ca = fold.cols[a];
-          if (ca.j >= 0) {
-            u[ca.i] += c * inv;
-            u[ca.j] += c * inv * ca.cj;
-          } else u[ca.i] += c;
-        }
-        let grad: Float64Array | null = null;
-        if (withDerivatives) {
-          grad = new Float64Array(nP);
-          for (let e = 0; e < el.row.length; e++) {
-            const w = el.row[e] === el.col[e] ? u[el.row[e]] * u[el.row[e]] : 2 * u[el.row[e]] * u[el.col[e]];
-            if (w === 0) continue;
-            for (let d = el.dStart[e]; d < el.dStart[e + 1]; d++) grad[el.dParam[d]] += w * el.dCoef[d];
+      const folded = foldedElements(fold, el);
+      const parts = isDense ? foldWhole(fold, el) : foldComponents(fold, el, folded, basis);
+      for (const part of parts) {
+        const mc = part.members.length;
+        const eig = isDense ? householderEigen(foldedDense(folded, m), m) : bandEigen(partRows(part, folded), mc, part.bandwidth);
+        const key = isDense ? `${cls}:${sigma}` : `${cls}:${sigma}:${part.first}`;
+        const labels = labelBlock(eig.vectors, mc, key, options.follow);
+        const terms = partTermsLazy(part, fold, el, nP);
+        // The levels' eigenvectors over the unfolded basis, one buffer per part (views into it).
+        const partVectors = new Float64Array(mc * n);
+        for (let v = 0; v < mc; v++) {
+          const a = part.members[labels.basisIndex[v]];
+          const dom = basis[fold.colI[a]];
+          const st = group.states[dom.state];
+          const K = Math.abs(dom.k);
+          const u = partVectors.subarray(v * n, (v + 1) * n);
+          for (let t = 0; t < mc; t++) {
+            const c = eig.vectors[v * mc + t];
+            if (c === 0) continue;
+            const at = part.members[t];
+            const j = fold.colJ[at];
+            if (j >= 0) {
+              u[fold.colI[at]] += c * Math.SQRT1_2;
+              u[j] += c * Math.SQRT1_2 * fold.colC[at];
+            } else u[fold.colI[at]] += c;
           }
+          out.push({
+            state: dom.state,
+            K,
+            l: st.isDegenerate && K > 0 ? (dom.k * dom.ell > 0 ? 1 : -1) : 0,
+            tag: fold.colJ[a] >= 0 ? (sigma > 0 ? 'A1' : 'A2') : '',
+            e: eig.values[v],
+            source: { terms, vectors: eig.vectors, column: v, order: mc },
+            count: cls === 1 ? 2 : 1,
+            weight: labels.weight[v],
+            sigma,
+            block,
+            vector: u,
+          });
         }
-        const isPair = col.j >= 0;
-        out.push({
-          state: dom.state,
-          K,
-          l: st.isDegenerate && K > 0 ? (dom.k * dom.ell > 0 ? 1 : -1) : 0,
-          tag: isPair ? (fold.sigma > 0 ? 'A1' : 'A2') : '',
-          e: eig.values[v],
-          grad,
-          count: cls === 1 ? 2 : 1,
-          weight: labels.weight[v],
-          sigma: fold.sigma,
-          block,
-          vector: u,
-        });
       }
     }
   }
   out.sort((a, b) => a.state - b.state || a.K - b.K || b.l - a.l || (a.tag < b.tag ? -1 : a.tag > b.tag ? 1 : 0));
   const count = out.length;
-  const res: CoupledLevels = {
+  const gradient = new Float64Array(withDerivatives ? count * nP : 0);
+  const isRowDone = new Uint8Array(count);
+  const levelGradient = (index: number): Float64Array => {
+    if (!withDerivatives) throw new Error('coupledLevels: levels computed without derivatives (withDerivatives: false)');
+    if (!(Number.isInteger(index) && index >= 0 && index < count))
+      throw new Error(`coupledLevels: level index must be a whole number from 0 to ${count - 1}, got ${index}`);
+    const row = gradient.subarray(index * nP, (index + 1) * nP);
+    if (!isRowDone[index]) {
+      gradientRow(out[index].source, row);
+      isRowDone[index] = 1;
+    }
+    return row;
+  };
+  return {
     J,
     count,
     state: Int32Array.from(out, (o) => o.state),
@@ -328,15 +330,325 @@ export function coupledLevels(
     l: Int8Array.from(out, (o) => o.l),
     tag: out.map((o) => o.tag),
     energyCm1: Float64Array.from(out, (o) => o.e),
-    gradient: new Float64Array(withDerivatives ? count * nP : 0),
+    get gradient() {
+      if (withDerivatives) for (let i = 0; i < count; i++) if (!isRowDone[i]) levelGradient(i);
+      return gradient;
+    },
+    levelGradient,
     componentCount: Uint8Array.from(out, (o) => o.count),
     labelWeight: Float64Array.from(out, (o) => o.weight),
     sigma: Int8Array.from(out, (o) => o.sigma),
     block: out.map((o) => o.block),
     vector: out.map((o) => o.vector),
   };
-  if (withDerivatives) out.forEach((o, i) => res.gradient.set(o.grad!, i * nP));
-  return res;
+}
+
+/**
+ * The derivative terms of one part in its own basis: E = Σ over pairs (a, b) of c_a c_b H'_ab, so
+ * ∂E/∂p = Σ_pairs c_a c_b Σ_t coef_t [param_t = p], each pair once (a ≤ b, local positions), the
+ * factor 2 of an off-diagonal pair and the folding coefficients included; the two members of a σv
+ * pair share their folded terms.
+ */
+interface PartTerms {
+  pairA: Int32Array;
+  pairB: Int32Array;
+  /** Terms of pair q: param[start[q] … start[q + 1]) with coef. */
+  start: Int32Array;
+  param: Int32Array;
+  coef: Float64Array;
+}
+
+/** What one level's gradient row is computed from. */
+interface GradientSource {
+  terms: () => PartTerms;
+  /** The part's eigenvectors (column-major, local basis) and the level's column. */
+  vectors: Float64Array;
+  column: number;
+  order: number;
+}
+
+/** ∂E/∂p of one level into row (zeroed first). */
+function gradientRow(source: GradientSource, row: Float64Array): void {
+  const t = source.terms();
+  const mc = source.order;
+  const c = source.vectors.subarray(source.column * mc, (source.column + 1) * mc);
+  row.fill(0);
+  for (let q = 0; q < t.pairA.length; q++) {
+    const w = c[t.pairA[q]] * c[t.pairB[q]];
+    if (w === 0) continue;
+    for (let d = t.start[q]; d < t.start[q + 1]; d++) row[t.param[d]] += w * t.coef[d];
+  }
+}
+
+/** The derivative terms of a part, built on first use (levels asked without gradients never build them). */
+function partTermsLazy(part: FoldPart, fold: Fold, el: Elements, nP: number): () => PartTerms {
+  let terms: PartTerms | null = null;
+  return () => (terms ??= partTerms(part, fold, el, nP));
+}
+
+function partTerms(part: FoldPart, fold: Fold, el: Elements, nP: number): PartTerms {
+  const mc = part.members.length;
+  const local = new Int32Array(fold.m).fill(-1);
+  part.members.forEach((a, t) => (local[a] = t));
+  // Elements ordered by their (a ≤ b) pair (packed key·PACK + element number, a plain numeric sort);
+  // each pair's terms are summed per parameter.
+  const ne = part.elements.length;
+  const packed = new Float64Array(ne);
+  let termBound = 0;
+  for (let q = 0; q < ne; q++) {
+    const e = part.elements[q];
+    const a = local[fold.foldCol[el.row[e]]];
+    const b = local[fold.foldCol[el.col[e]]];
+    packed[q] = (Math.min(a, b) * mc + Math.max(a, b)) * PACK + q;
+    termBound += el.dStart[e + 1] - el.dStart[e];
+  }
+  packed.sort();
+  const sum = new Float64Array(nP);
+  const isTouched = new Uint8Array(nP);
+  const touched = new Int32Array(nP);
+  const pairA = new Int32Array(ne);
+  const pairB = new Int32Array(ne);
+  const start = new Int32Array(ne + 1);
+  const param = new Int32Array(termBound);
+  const coef = new Float64Array(termBound);
+  let nPairs = 0;
+  let nTerms = 0;
+  for (let q = 0; q < ne;) {
+    const key = Math.floor(packed[q] / PACK);
+    let nTouched = 0;
+    for (; q < ne && Math.floor(packed[q] / PACK) === key; q++) {
+      const e = part.elements[packed[q] % PACK];
+      const i = el.row[e];
+      const j = el.col[e];
+      const g = i === j ? fold.foldCoef[i] * fold.foldCoef[i] : 2 * fold.foldCoef[i] * fold.foldCoef[j];
+      for (let d = el.dStart[e]; d < el.dStart[e + 1]; d++) {
+        const p = el.dParam[d];
+        if (!isTouched[p]) {
+          isTouched[p] = 1;
+          touched[nTouched++] = p;
+        }
+        sum[p] += g * el.dCoef[d];
+      }
+    }
+    pairA[nPairs] = Math.floor(key / mc);
+    pairB[nPairs] = key % mc;
+    for (let t = 0; t < nTouched; t++) {
+      const p = touched[t];
+      if (sum[p] !== 0) {
+        param[nTerms] = p;
+        coef[nTerms++] = sum[p];
+      }
+      sum[p] = 0;
+      isTouched[p] = 0;
+    }
+    start[++nPairs] = nTerms;
+  }
+  return {
+    pairA: pairA.slice(0, nPairs),
+    pairB: pairB.slice(0, nPairs),
+    start: start.slice(0, nPairs + 1),
+    param: param.slice(0, nTerms),
+    coef: coef.slice(0, nTerms),
+  };
+}
+
+/**
+ * The functions of one σv half of a class block as columns over its unfolded basis: a function that
+ * is its own mirror image (phase σ) alone, a pair (|i⟩ + σ·phase|j⟩)/√2 with i < j its partner; σ = 0
+ * (a mirrored class, not folded) keeps every function as it is.
+ */
+interface Fold {
+  m: number;
+  /** Column a: its first unfolded function, its partner (−1 for none) and the partner's sign σ·phase. */
+  colI: Int32Array;
+  colJ: Int32Array;
+  colC: Float64Array;
+  /** Per unfolded function: its column (−1 when not in this half) and its coefficient there. */
+  foldCol: Int32Array;
+  foldCoef: Float64Array;
+}
+
+function foldCreate(basis: BasisFn[], J: number, sigma: number, partner: Int32Array): Fold {
+  const n = basis.length;
+  const colI = new Int32Array(n);
+  const colJ = new Int32Array(n).fill(-1);
+  const colC = new Float64Array(n);
+  const foldCol = new Int32Array(n).fill(-1);
+  const foldCoef = new Float64Array(n);
+  let m = 0;
+  for (let i = 0; i < n; i++) {
+    if (sigma === 0) {
+      colI[m] = i;
+      foldCol[i] = m;
+      foldCoef[i] = 1;
+      m++;
+      continue;
+    }
+    const j = partner[i];
+    const phase = (J + basis[i].k) % 2 === 0 ? 1 : -1;
+    if (j === i) {
+      if (phase !== sigma) continue;
+      colI[m] = i;
+      foldCol[i] = m;
+      foldCoef[i] = 1;
+      m++;
+    } else if (i < j) {
+      colI[m] = i;
+      colJ[m] = j;
+      colC[m] = sigma * phase;
+      foldCol[i] = m;
+      foldCoef[i] = Math.SQRT1_2;
+      foldCol[j] = m;
+      foldCoef[j] = Math.SQRT1_2 * sigma * phase;
+      m++;
+    }
+  }
+  return { m, colI, colJ, colC, foldCol, foldCoef };
+}
+
+/** The folded block Sᵀ H S (S: the symmetrised functions as columns) as its non-zero pairs a ≤ b, each once. */
+interface FoldedElements {
+  pairA: Int32Array;
+  pairB: Int32Array;
+  value: Float64Array;
+}
+
+function foldedElements(fold: Fold, el: Elements): FoldedElements {
+  const m = fold.m;
+  // Elements ordered by their folded pair (packed pair·PACK + element number, a plain numeric sort);
+  // the two σv images of an element fall on the same pair and are summed.
+  const keys: number[] = [];
+  for (let e = 0; e < el.row.length; e++) {
+    const a = fold.foldCol[el.row[e]];
+    const b = fold.foldCol[el.col[e]];
+    if (a >= 0 && b >= 0) keys.push((Math.min(a, b) * m + Math.max(a, b)) * PACK + e);
+  }
+  const packed = Float64Array.from(keys).sort();
+  const pairA = new Int32Array(packed.length);
+  const pairB = new Int32Array(packed.length);
+  const value = new Float64Array(packed.length);
+  let count = 0;
+  for (let q = 0; q < packed.length;) {
+    const key = Math.floor(packed[q] / PACK);
+    let sum = 0;
+    for (; q < packed.length && Math.floor(packed[q] / PACK) === key; q++) {
+      const e = packed[q] % PACK;
+      const i = el.row[e];
+      const j = el.col[e];
+      const a = fold.foldCol[i];
+      const v = fold.foldCoef[i] * fold.foldCoef[j] * el.value[e];
+      sum += i !== j && a === fold.foldCol[j] ? 2 * v : v;
+    }
+    if (sum === 0) continue;
+    pairA[count] = Math.floor(key / m);
+    pairB[count] = key % m;
+    value[count++] = sum;
+  }
+  return { pairA: pairA.slice(0, count), pairB: pairB.slice(0, count), value: value.slice(0, count) };
+}
+
+/** The folded block as a dense column-major matrix (the dense reference). */
+function foldedDense(folded: FoldedElements, m: number): Float64Array {
+  const h = new Float64Array(m * m);
+  for (let q = 0; q < folded.value.length; q++) {
+    h[folded.pairA[q] * m + folded.pairB[q]] = folded.value[q];
+    h[folded.pairB[q] * m + folded.pairA[q]] = folded.value[q];
+  }
+  return h;
+}
+
+/** An independent sub-block of a folded block: its columns in solving order, band width, and its elements. */
+interface FoldPart {
+  members: Int32Array;
+  /** Smallest column index (names the part in the label memory). */
+  first: number;
+  bandwidth: number;
+  /** Indices of the unfolded elements inside the part (for ∂E/∂p). */
+  elements: Int32Array;
+  /** Indices of the folded pairs inside the part, and every folded column's position in its part. */
+  pairs: Int32Array;
+  position: Int32Array;
+}
+
+/** The whole folded block as one part (the dense reference). */
+function foldWhole(fold: Fold, el: Elements): FoldPart[] {
+  const members = Int32Array.from({ length: fold.m }, (_, a) => a);
+  const inside: number[] = [];
+  for (let e = 0; e < el.row.length; e++) if (fold.foldCol[el.row[e]] >= 0 && fold.foldCol[el.col[e]] >= 0) inside.push(e);
+  const elements = Int32Array.from(inside);
+  return [{ members, first: 0, bandwidth: Math.max(0, fold.m - 1), elements, pairs: new Int32Array(0), position: members }];
+}
+
+/**
+ * The connected components of a folded block's non-zero pattern (union–find over its off-diagonal
+ * pairs, whatever term made them): independent sub-blocks with the same eigenvalues and, padded
+ * with zeros, the same eigenvectors. Nothing here knows a symmetry rule; a term that conserves a
+ * quantum number (k − ℓ for the Δk = ±1 Coriolis term alone, k mod 6 for h3 alone) shows up as
+ * separate components by itself. Each component's columns are ordered by k of their first function
+ * (every term has a bounded Δk, so the sub-block is a band matrix) and its half bandwidth measured.
+ */
+function foldComponents(fold: Fold, el: Elements, folded: FoldedElements, basis: BasisFn[]): FoldPart[] {
+  const m = fold.m;
+  const parent = Int32Array.from({ length: m }, (_, a) => a);
+  const root = (a: number): number => {
+    while (parent[a] !== a) {
+      parent[a] = parent[parent[a]];
+      a = parent[a];
+    }
+    return a;
+  };
+  for (let q = 0; q < folded.value.length; q++) {
+    const ra = root(folded.pairA[q]);
+    const rb = root(folded.pairB[q]);
+    if (ra !== rb) parent[Math.max(ra, rb)] = Math.min(ra, rb);
+  }
+  // Components by root (the smallest column, since unions keep the smaller root), in column order.
+  const compOf = new Int32Array(m);
+  const compIndex = new Int32Array(m).fill(-1);
+  const firsts: number[] = [];
+  for (let a = 0; a < m; a++) {
+    const r = root(a);
+    if (compIndex[r] < 0) {
+      compIndex[r] = firsts.length;
+      firsts.push(r);
+    }
+    compOf[a] = compIndex[r];
+  }
+  const lists: number[][] = firsts.map(() => []);
+  for (let a = 0; a < m; a++) lists[compOf[a]].push(a);
+  const position = new Int32Array(m);
+  const parts = lists.map((list, c) => {
+    list.sort((p, q) => basis[fold.colI[p]].k - basis[fold.colI[q]].k || p - q);
+    list.forEach((a, t) => (position[a] = t));
+    return { members: Int32Array.from(list), first: firsts[c], bandwidth: 0, elements: [] as number[], pairs: [] as number[] };
+  });
+  for (let q = 0; q < folded.value.length; q++) {
+    const a = folded.pairA[q];
+    const b = folded.pairB[q];
+    const part = parts[compOf[a]];
+    part.pairs.push(q);
+    part.bandwidth = Math.max(part.bandwidth, Math.abs(position[a] - position[b]));
+  }
+  for (let e = 0; e < el.row.length; e++) {
+    const a = fold.foldCol[el.row[e]];
+    const b = fold.foldCol[el.col[e]];
+    if (a >= 0 && b >= 0 && compOf[a] === compOf[b]) parts[compOf[a]].elements.push(e);
+  }
+  return parts.map((p) => ({ ...p, elements: Int32Array.from(p.elements), pairs: Int32Array.from(p.pairs), position }));
+}
+
+/** A part's sub-block as band rows (bandEigen's layout, lower half filled). */
+function partRows(part: FoldPart, folded: FoldedElements): Float64Array {
+  const b = part.bandwidth;
+  const width = 2 * b + 1;
+  const rows = new Float64Array(part.members.length * width);
+  for (const q of part.pairs) {
+    const la = part.position[folded.pairA[q]];
+    const lb = part.position[folded.pairB[q]];
+    const hi = Math.max(la, lb);
+    rows[hi * width + Math.min(la, lb) - hi + b] = folded.value[q];
+  }
+  return rows;
 }
 
 /**
@@ -392,20 +704,29 @@ export function coupledLabelFollow(
       overlap[a * n + b] = s * s;
     }
   }
-  const pairs = Array.from({ length: n * n }, (_, i) => i).sort((p, q) => overlap[q] - overlap[p]);
+  // Pairs by descending overlap (ties: lower pair index first), fixed greedily. The pairs of overlap
+  // at least 1/(2n) are sorted and visited first, the rest only if some label is still open: the
+  // order of one full sort, at the cost of a few pairs per vector.
   const labels = new Int32Array(n).fill(-1);
   const oldDone = new Uint8Array(n);
   let left = n;
   let sum = 0;
-  for (const p of pairs) {
+  const threshold = 0.5 / n;
+  for (const isAbove of [true, false]) {
     if (left === 0) break;
-    const a = Math.floor(p / n);
-    const b = p - a * n;
-    if (oldDone[a] || labels[b] >= 0) continue;
-    oldDone[a] = 1;
-    labels[b] = oldLabels[a];
-    sum += overlap[p];
-    left--;
+    const pairs: number[] = [];
+    for (let p = 0; p < n * n; p++) if (overlap[p] >= threshold === isAbove) pairs.push(p);
+    pairs.sort((p, q) => overlap[q] - overlap[p] || p - q);
+    for (const p of pairs) {
+      if (left === 0) break;
+      const a = Math.floor(p / n);
+      const b = p - a * n;
+      if (oldDone[a] || labels[b] >= 0) continue;
+      oldDone[a] = 1;
+      labels[b] = oldLabels[a];
+      sum += overlap[p];
+      left--;
+    }
   }
   return { labels, meanOverlap: n > 0 ? sum / n : 1 };
 }

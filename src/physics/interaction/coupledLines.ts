@@ -21,7 +21,7 @@
 import { honlLondonSigned } from '../system/bandRules';
 import type { LevelSet } from '../system/levelTypes';
 import type { SystemSpecies } from '../system/systemModel';
-import type { CoupledLevels } from './coupledLevels';
+import type { CoupledBlock, CoupledLevels } from './coupledLevels';
 import { coupledLevelSpecies, type StateLevelSource } from './speciesLevelSources';
 
 /**
@@ -88,19 +88,28 @@ function lowerReps(lower: LevelSet, index: number, coupledLower: CoupledLevels |
 }
 
 /**
- * Σ over the lower and upper representatives of |a|² (in units of band strength × Hönl–London
- * factor): the line strength between two levels, each summed over the sublevels it stands for.
- * The mirror image of an E level is read through the block's k lookup (k → −k, ℓ → −ℓ, phase (−1)^{J+k}).
+ * A lower level's reach into one upper block: for each mirror image (of an E block) and lower
+ * representative, in that order, the basis functions the dipole meets and their coefficients, so
+ * that an upper level's amplitude is a = Σ u_i·coef_i and its line strength Σ |a|² (in units of band
+ * strength × Hönl–London factor; projectedStrength): coef_i = c''·(phase)·μ_{s_i,q}·sgn CG·√HL of the
+ * sum in the file comment. The mirror image of an E level is read through the block's k lookup
+ * (k → −k, ℓ → −ℓ, phase (−1)^{J+k}). Built once per lower level and upper block, then shared by
+ * every upper level of the block.
  */
-function coupledStrength(levels: CoupledLevels, index: number, jLower: number, lows: LowerRep[], moments: Float64Array): number {
-  const J = levels.J;
+interface StrengthProjection {
+  index: Int32Array;
+  coef: Float64Array;
+  /** Entries of group g (one mirror image × lower representative): start[g] … start[g + 1]. */
+  start: Int32Array;
+}
+
+function strengthProjection(block: CoupledBlock, J: number, jLower: number, lows: LowerRep[], moments: Float64Array): StrengthProjection {
   const deltaJ = J - jLower;
-  const block = levels.block[index];
-  const u = levels.vector[index];
-  let total = 0;
+  const index: number[] = [];
+  const coef: number[] = [];
+  const start: number[] = [0];
   for (let mirror = 0; mirror <= (block.isMirrored ? 1 : 0); mirror++) {
     for (const low of lows) {
-      let amp = 0;
       for (let a = 0; a < low.k.length; a++) {
         const k2 = low.k[a];
         for (let q = -1; q <= 1; q++) {
@@ -111,16 +120,28 @@ function coupledStrength(levels: CoupledLevels, index: number, jLower: number, l
             const ell = mirror ? -block.basisEll[i] : block.basisEll[i];
             if (ell !== q) continue;
             const mu = moments[block.basisState[i]];
-            if (mu === 0 || u[i] === 0) continue;
+            if (mu === 0) continue;
             const hl = honlLondonSigned(jLower, k2, deltaJ, q);
             if (!(hl > 0)) continue;
-            const c = mirror && (J + kOrig) % 2 !== 0 ? -u[i] : u[i];
-            amp += low.c[a] * c * (q === -1 ? -mu : mu) * clebschOneSign(jLower, k2, q, J) * Math.sqrt(hl);
+            const phase = mirror && (J + kOrig) % 2 !== 0 ? -1 : 1;
+            index.push(i);
+            coef.push(low.c[a] * phase * (q === -1 ? -mu : mu) * clebschOneSign(jLower, k2, q, J) * Math.sqrt(hl));
           }
         }
       }
-      total += amp * amp;
+      start.push(index.length);
     }
+  }
+  return { index: Int32Array.from(index), coef: Float64Array.from(coef), start: Int32Array.from(start) };
+}
+
+/** Σ over the projection's groups of |Σ u_i·coef_i|²: the line strength into the upper level of eigenvector u. */
+function projectedStrength(p: StrengthProjection, u: Float64Array): number {
+  let total = 0;
+  for (let g = 0; g + 1 < p.start.length; g++) {
+    let amp = 0;
+    for (let t = p.start[g]; t < p.start[g + 1]; t++) amp += u[p.index[t]] * p.coef[t];
+    total += amp * amp;
   }
   return total;
 }
@@ -176,10 +197,17 @@ export function coupledBandEnumerate(
       const lows = lowerReps(low.set, i, low.levels, low.index);
       for (let jUp = Math.max(0, J - 1); jUp <= J + 1; jUp++) {
         const up = upperSets[jUp];
+        let projectionBlock: CoupledBlock | null = null;
+        let projection: StrengthProjection | null = null;
         for (let j = 0; j < up.set.count; j++) {
           // k − ℓ is conserved: K'' ≡ 0 (mod 3) reaches only class-0 (A1/A2) levels, other K'' only E levels.
-          if (up.levels.block[up.index[j]].isMirrored === (low.set.K[i] % 3 === 0)) continue;
-          const s = coupledStrength(up.levels, up.index[j], J, lows, moments);
+          const block = up.levels.block[up.index[j]];
+          if (block.isMirrored === (low.set.K[i] % 3 === 0)) continue;
+          if (block !== projectionBlock) {
+            projection = strengthProjection(block, jUp, J, lows, moments);
+            projectionBlock = block;
+          }
+          const s = projectedStrength(projection!, up.levels.vector[up.index[j]]);
           if (s > cut) visit(low.set, i, up.set, j, s / bandStrength);
         }
       }

@@ -178,23 +178,34 @@ function coupledStateProvider(
 ): LevelProvider {
   const nP = group.parameters.length;
   const parameterNames = group.parameters.map((p) => `${p.owner}.${p.name}`);
-  const levels = (J: number, values: Float64Array, kTop: number): LevelSet => {
+  const levels = (J: number, values: Float64Array, kTop: number, withGradient = true): LevelSet => {
     const all = groupLevels(J, values);
-    const pick: number[] = [];
-    for (let i = 0; i < all.count; i++) if (all.state[i] === stateIndex && all.K[i] <= kTop) pick.push(i);
-    const gradient = new Float64Array(pick.length * nP);
-    pick.forEach((i, r) => gradient.set(all.gradient.subarray(i * nP, (i + 1) * nP), r * nP));
-    return {
+    let count = 0;
+    for (let i = 0; i < all.count; i++) if (all.state[i] === stateIndex && all.K[i] <= kTop) count++;
+    const set: LevelSet = {
       J,
-      count: pick.length,
-      K: Int32Array.from(pick, (i) => all.K[i]),
-      l: Int8Array.from(pick, (i) => all.l[i]),
-      tag: pick.map((i) => all.tag[i]),
-      energyCm1: Float64Array.from(pick, (i) => all.energyCm1[i]),
-      gradient,
-      componentCount: Uint8Array.from(pick, (i) => all.componentCount[i]),
-      ...(hasSpecies ? { species: pick.map((i) => coupledLevelSpecies(all.sigma[i])) } : {}),
+      count,
+      K: new Int32Array(count),
+      l: new Int8Array(count),
+      tag: new Array<string>(count),
+      energyCm1: new Float64Array(count),
+      // Only the picked levels' gradients are worked out (coupledLevels computes a row on request).
+      gradient: new Float64Array(withGradient ? count * nP : 0),
+      componentCount: new Uint8Array(count),
+      ...(hasSpecies ? { species: new Array<string>(count) } : {}),
     };
+    for (let i = 0, r = 0; i < all.count; i++) {
+      if (all.state[i] !== stateIndex || all.K[i] > kTop) continue;
+      set.K[r] = all.K[i];
+      set.l[r] = all.l[i];
+      set.tag[r] = all.tag[i];
+      set.energyCm1[r] = all.energyCm1[i];
+      set.componentCount[r] = all.componentCount[i];
+      if (set.species) set.species[r] = coupledLevelSpecies(all.sigma[i]);
+      if (withGradient) set.gradient.set(all.levelGradient(i), r * nP);
+      r++;
+    }
+    return set;
   };
   return { parameterNames, isDegenerate: group.states[stateIndex].isDegenerate, levels };
 }

@@ -19,6 +19,34 @@ describe('eigenLabelsAssign', () => {
     expect(r.weight[1]).toBeCloseTo(0.09, 12);
   });
 
+  it('gives the labels of the plain greedy rule (one full sort of all pairs by weight) on crowded random columns', () => {
+    // Reference: the rule as stated in eigenLabels.ts, written out with one stable sort of all n²
+    // pairs (ties in pair order). Columns share their largest component (basis 0) so the greedy
+    // branch runs, and small weights below 1/(2n) are needed to finish.
+    let seed = 12345;
+    const random = () => {
+      seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0;
+      return seed / 2 ** 32;
+    };
+    for (const n of [3, 8, 30]) {
+      const v = Float64Array.from({ length: n * n }, (_, idx) => (idx % n === 0 ? 0.9 + 0.05 * random() : 0.3 * random() ** 3));
+      const pairs = Array.from({ length: n * n }, (_, idx) => idx).sort((x, y) => v[y] * v[y] - v[x] * v[x]);
+      const refIndex = new Int32Array(n);
+      const vectorDone = new Uint8Array(n);
+      const basisDone = new Uint8Array(n);
+      for (const idx of pairs) {
+        const j = Math.floor(idx / n);
+        const i = idx % n;
+        if (vectorDone[j] || basisDone[i]) continue;
+        vectorDone[j] = basisDone[i] = 1;
+        refIndex[j] = i;
+      }
+      const r = eigenLabelsAssign(v, n);
+      expect([...r.basisIndex], `n=${n}`).toEqual([...refIndex]);
+      r.basisIndex.forEach((i, j) => expect(r.weight[j]).toBe(v[j * n + i] ** 2));
+    }
+  });
+
   it('refuses a too-short coefficient array', () => {
     expect(() => eigenLabelsAssign([1, 0], 2)).toThrow(/need 4 coefficients/);
   });

@@ -154,3 +154,36 @@ describe('coupledLevels', () => {
     expect(r.meanOverlap).toBe(1);
   });
 });
+
+describe('coupledLabelFollow against the plain greedy rule', () => {
+  it('carries the labels one full sort of all overlaps would (random near-identity rotations)', () => {
+    // Reference: the rule as its comment states it, with one stable sort of all n² overlaps.
+    let seed = 987;
+    const random = () => {
+      seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0;
+      return seed / 2 ** 32 - 0.5;
+    };
+    for (const n of [2, 9, 40]) {
+      const oldV = Float64Array.from({ length: n * n }, (_, i) => (i % (n + 1) === 0 ? 1 : 0) + 0.6 * random());
+      const newV = Float64Array.from(oldV, (v) => v + 0.4 * random());
+      const oldLabels = Int32Array.from({ length: n }, (_, i) => (i * 7) % n);
+      const overlap = new Float64Array(n * n);
+      for (let a = 0; a < n; a++)
+        for (let b = 0; b < n; b++) {
+          let s = 0;
+          for (let i = 0; i < n; i++) s += oldV[a * n + i] * newV[b * n + i];
+          overlap[a * n + b] = s * s;
+        }
+      const ref = new Int32Array(n).fill(-1);
+      const oldDone = new Uint8Array(n);
+      for (const p of Array.from({ length: n * n }, (_, i) => i).sort((p, q) => overlap[q] - overlap[p])) {
+        const a = Math.floor(p / n);
+        const b = p % n;
+        if (oldDone[a] || ref[b] >= 0) continue;
+        oldDone[a] = 1;
+        ref[b] = oldLabels[a];
+      }
+      expect([...coupledLabelFollow(oldV, oldLabels, newV, n).labels], `n=${n}`).toEqual([...ref]);
+    }
+  });
+});
