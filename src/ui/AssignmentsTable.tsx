@@ -1,6 +1,6 @@
 /** The assignments table: virtualised rows, sort and filter, inline edits; a row click zooms the plot to the line. */
 import { useVirtualizer } from '@tanstack/react-virtual';
-import { memo, useCallback, useMemo, useRef, useState } from 'react';
+import { memo, useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { formatFixed } from '../io/numberFormat';
 import type { TransitionQuanta } from '../physics/model';
 import { assignmentDelete, assignmentEdit, assignmentSelect } from '../state/actionsAssign';
@@ -291,6 +291,20 @@ export function AssignmentsTable() {
   // new assignment does not re-render every memoised row for a new callback.
   const shownRef = useRef(shown);
   shownRef.current = shown;
+  // A newly selected row (a click-to-assign, a ladder marker, the keyboard walk) is scrolled into view
+  // when it is outside the shown window; only a change of selection scrolls, never a new sort or filter.
+  useEffect(() => {
+    // After the next paint (two animation frames): the click's own feedback (marker, row count) is
+    // painted first and the table's new window in the frame after, so the scroll never delays it.
+    if (!selectedId) return;
+    let frame = requestAnimationFrame(() => {
+      frame = requestAnimationFrame(() => {
+        const i = shownRef.current.findIndex((r) => r.a.id === selectedId);
+        if (i >= 0) virtualizer.scrollToIndex(i, { align: 'auto' });
+      });
+    });
+    return () => cancelAnimationFrame(frame);
+  }, [selectedId, virtualizer]);
   const onCheck = useCallback((id: string, isOn: boolean, isRange: boolean) => {
     const shown = shownRef.current;
     setChecked((prev) => {
