@@ -51,35 +51,38 @@ export function eigenLabelsAssign(vectors: ArrayLike<number>, n: number): EigenL
   }
   if (distinct) return { basisIndex, weight };
 
-  // Greedy on all pairs by descending weight (ties: lower pair index first). The pairs of weight at
-  // least 1/(2n) are sorted and visited first, the rest only if some eigenvector is still unlabelled:
-  // the visiting order is that of one full sort, at a fraction of its cost (a few pairs per vector
-  // instead of n²).
+  // Greedy on all pairs by descending weight (ties: lower pair index j·n + i first). The next pair
+  // fixed is the largest among the free rows and columns; each free eigenvector keeps its best free
+  // basis function, recomputed only when that one is taken, so the visiting order is that of one
+  // full sort of the n² pairs at O(n²) cost when few best components coincide.
   const vectorDone = new Uint8Array(n);
   const basisDone = new Uint8Array(n);
-  let left = n;
-  const threshold = 0.5 / n;
-  for (const above of [true, false]) {
-    const pairs: number[] = [];
-    for (let idx = 0; idx < n * n; idx++) {
-      const w = vectors[idx] * vectors[idx];
-      if (w >= threshold === above) pairs.push(idx);
+  const bestIndex = new Int32Array(n);
+  const bestWeight = new Float64Array(n);
+  const bestFree = (j: number): void => {
+    let best = -1;
+    let bestW = -1;
+    for (let i = 0; i < n; i++) {
+      if (basisDone[i]) continue;
+      const w = vectors[j * n + i] * vectors[j * n + i];
+      if (w > bestW) {
+        bestW = w;
+        best = i;
+      }
     }
-    const w = Float64Array.from(pairs, (idx) => vectors[idx] * vectors[idx]);
-    const order = Array.from(pairs, (_, t) => t).sort((x, y) => w[y] - w[x] || pairs[x] - pairs[y]);
-    for (const t of order) {
-      if (left === 0) break;
-      const idx = pairs[t];
-      const j = Math.floor(idx / n);
-      const i = idx - j * n;
-      if (vectorDone[j] || basisDone[i]) continue;
-      vectorDone[j] = 1;
-      basisDone[i] = 1;
-      basisIndex[j] = i;
-      weight[j] = w[t];
-      left--;
-    }
-    if (left === 0) break;
+    bestIndex[j] = best;
+    bestWeight[j] = bestW;
+  };
+  for (let j = 0; j < n; j++) bestFree(j);
+  for (let left = n; left > 0; left--) {
+    let next = -1;
+    for (let j = 0; j < n; j++) if (!vectorDone[j] && (next < 0 || bestWeight[j] > bestWeight[next])) next = j;
+    const i = bestIndex[next];
+    vectorDone[next] = 1;
+    basisDone[i] = 1;
+    basisIndex[next] = i;
+    weight[next] = bestWeight[next];
+    for (let j = 0; j < n; j++) if (!vectorDone[j] && bestIndex[j] === i) bestFree(j);
   }
   return { basisIndex, weight };
 }

@@ -252,8 +252,14 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
   // (row swaps of partial pivoting widen U to 2b above the diagonal).
   const W = 3 * b + 1;
   const lu = new Float64Array(n * W);
+  // A in the same window, zeros past its band: copied into lu for each λ.
+  const padded = new Float64Array(n * W);
+  for (let r = 0; r < n; r++) padded.set(ab.subarray(r * B2, (r + 1) * B2), r * W);
   const mult = new Float64Array(n * b);
   const pivot = new Int32Array(n);
+  // last[r]: the last column of row r of the factors that can be non-zero (r + b, up to r + 2b
+  // after row swaps); the updates skip the columns past it, which hold exact zeros.
+  const last = new Int32Array(n);
   const z = new Float64Array(n * n);
   const x = new Float64Array(n);
   const start = new Float64Array(n);
@@ -264,17 +270,14 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
     let lambda = values[j];
     if (lambda - previousShift < 10 * tiny) lambda = previousShift + 10 * tiny;
     previousShift = lambda;
-    for (let r = 0; r < n; r++) {
-      const o = r * W;
-      for (let t = 0; t < B2; t++) lu[o + t] = ab[r * B2 + t];
-      for (let t = B2; t < W; t++) lu[o + t] = 0;
-      lu[o + b] -= lambda;
-    }
+    lu.set(padded);
+    for (let r = 0; r < n; r++) lu[r * W + b] -= lambda;
+    for (let r = 0; r < n; r++) last[r] = Math.min(n - 1, r + b);
     for (let k = 0; k < n; k++) {
-      const last = Math.min(n - 1, k + b);
+      const lastRow = Math.min(n - 1, k + b);
       let p = k;
       let best = Math.abs(lu[k * W + b]);
-      for (let r = k + 1; r <= last; r++) {
+      for (let r = k + 1; r <= lastRow; r++) {
         const v = Math.abs(lu[r * W + k - r + b]);
         if (v > best) {
           best = v;
@@ -282,26 +285,31 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
         }
       }
       pivot[k] = p;
-      const cEnd = Math.min(n - 1, k + 2 * b);
       const rowK = k * W - k + b;
       if (p !== k) {
         const rowP = p * W - p + b;
-        for (let c = k; c <= cEnd; c++) {
+        const swapEnd = Math.max(last[k], last[p]);
+        for (let c = k; c <= swapEnd; c++) {
           const t = lu[rowK + c];
           lu[rowK + c] = lu[rowP + c];
           lu[rowP + c] = t;
         }
+        const t = last[k];
+        last[k] = last[p];
+        last[p] = t;
       }
+      const cEnd = last[k];
       let piv = lu[rowK + k];
       // A singular pivot (λ exact to round-off) is replaced by ±ε‖A‖, as inverse iteration wants.
       if (Math.abs(piv) < tiny) lu[rowK + k] = piv = piv < 0 ? -tiny : tiny;
-      for (let r = k + 1; r <= last; r++) {
+      for (let r = k + 1; r <= lastRow; r++) {
         const rowR = r * W - r + b;
         const m = lu[rowR + k] / piv;
         mult[k * b + (r - k - 1)] = m;
         lu[rowR + k] = 0;
         if (m === 0) continue;
         for (let c = k + 1; c <= cEnd; c++) lu[rowR + c] -= m * lu[rowK + c];
+        if (last[r] < cEnd) last[r] = cEnd;
       }
     }
     // Start vector with no special structure; with λ accurate to round-off, each solve amplifies its
@@ -318,12 +326,14 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
           x[p] = t;
         }
         const xk = x[k];
-        if (xk !== 0) for (let r = k + 1; r <= Math.min(n - 1, k + b); r++) x[r] -= mult[k * b + (r - k - 1)] * xk;
+        const lastRow = Math.min(n - 1, k + b);
+        if (xk !== 0) for (let r = k + 1; r <= lastRow; r++) x[r] -= mult[k * b + (r - k - 1)] * xk;
       }
       for (let k = n - 1; k >= 0; k--) {
         const rowK = k * W - k + b;
+        const cEnd = last[k];
         let s = x[k];
-        for (let c = k + 1; c <= Math.min(n - 1, k + 2 * b); c++) s -= lu[rowK + c] * x[c];
+        for (let c = k + 1; c <= cEnd; c++) s -= lu[rowK + c] * x[c];
         x[k] = s / lu[rowK + k];
       }
       let before = 0;
@@ -368,7 +378,8 @@ function residual(ab: Float64Array, n: number, b: number, lambda: number, x: Flo
   for (let i = 0; i < n; i++) {
     const row = i * B2 - i + b;
     let t = -lambda * x[i];
-    for (let j = Math.max(0, i - b); j <= Math.min(n - 1, i + b); j++) t += ab[row + j] * x[j];
+    const hi = Math.min(n - 1, i + b);
+    for (let j = Math.max(0, i - b); j <= hi; j++) t += ab[row + j] * x[j];
     r2 += t * t;
   }
   return Math.sqrt(r2);
