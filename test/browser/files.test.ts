@@ -7,7 +7,7 @@
 import { readFileSync } from 'node:fs';
 import type { Browser, Download, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { assignedCount, fixture, gotoApp, launch, openPage, SHOTS, waitForPlot } from './browser';
+import { assignedCount, clickAPeak, fixture, gotoApp, launch, openPage, SHOTS, waitForPlot, zoomPlot } from './browser';
 
 let browser: Browser;
 beforeAll(async () => {
@@ -73,6 +73,31 @@ describe('files', () => {
     await page.screenshot({ path: `${SHOTS}/12-hostile-title.png` });
     expect(log.pageErrors).toEqual([]);
     expect(log.foreignRequests).toEqual([]);
+    await context.close();
+  });
+
+  it('scrolls the table to a row assigned outside its window', async () => {
+    const { context, page } = await openPage(browser);
+    await gotoApp(page);
+    await page.locator('[data-testid=file-input]').setInputFiles(fixture('truth-lines.csv'));
+    const n = readFileSync(fixture('truth-lines.csv'), 'utf8').trim().split('\n').length - 1;
+    await expect.poll(() => assignedCount(page)).toBe(n);
+    // Sorted by obs and scrolled to the end, the table shows the highest wavenumbers only.
+    await page.getByRole('button', { name: /^obs/ }).click();
+    const body = page.locator('.tbody[role=rowgroup]').first();
+    await body.evaluate((el) => (el.scrollTop = el.scrollHeight));
+    await page.waitForTimeout(300);
+    // A new line low in the band sorts far above that window.
+    await zoomPlot(page, 0.2, 0.23);
+    await clickAPeak(page);
+    await page.waitForSelector('[data-testid=candidates]');
+    await page.locator('[data-testid=candidates] tbody tr:not(.is-assigned) [data-testid^=candidate-]').first().click();
+    await expect.poll(() => assignedCount(page)).toBe(n + 1);
+    const selected = page.locator('[data-testid=assignment-row][aria-selected=true]');
+    await expect.poll(() => selected.count(), { timeout: 10_000 }).toBe(1);
+    const [rowBox, bodyBox] = [(await selected.boundingBox())!, (await body.boundingBox())!];
+    expect(rowBox.y).toBeGreaterThanOrEqual(bodyBox.y - 1);
+    expect(rowBox.y + rowBox.height).toBeLessThanOrEqual(bodyBox.y + bodyBox.height + 1);
     await context.close();
   });
 
