@@ -7,6 +7,7 @@ import type { SystemFitLine } from '../fit/systemFitTypes';
 import { systemCombinationDifferences, type SystemCombDiffOutcome } from '../fit/systemCombinationDifferences';
 import { systemLineResolve } from '../fit/systemLineResolve';
 import type { BenchState } from './store';
+import { assignmentResolveQuery } from './systemFitInput';
 import { systemEntriesOf } from './systemSync';
 import { systemParameters } from './systemBands';
 
@@ -48,18 +49,7 @@ export function systemCombinationOf(
     const key = a.band !== undefined && a.species !== undefined ? `${a.species}/${a.band}` : s.activeBandKey;
     const e = key ? byKey.get(key) : undefined;
     if (!e || (e.upper !== state && e.lower !== state)) continue;
-    const r = systemLineResolve(system, {
-      band: e.band,
-      species: e.species,
-      jUpper: a.jUpper,
-      kUpper: a.kUpper,
-      jLower: a.jLower,
-      kLower: a.kLower,
-      lUpper: null,
-      lLower: null,
-      tagUpper: null,
-      tagLower: null,
-    });
+    const r = systemLineResolve(system, assignmentResolveQuery(a, e, false));
     if (!r.ok) {
       skipped++;
       continue;

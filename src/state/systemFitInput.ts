@@ -15,6 +15,30 @@ import type { BenchState } from './store';
 import { systemFloatedToView, systemParameters, systemTiesApply } from './systemBands';
 import { systemActiveEntry, systemEntriesOf } from './systemSync';
 
+/**
+ * What systemLineResolve needs to find an assignment's line in its band: the band, J and K, and
+ * (with `withLabels`) the labels the assignment kept (±l, A1/A2, s/a), which decide between the
+ * lines J and K leave open.
+ */
+export function assignmentResolveQuery(
+  a: Assignment,
+  e: { band: string; species: string },
+  withLabels = true,
+): Parameters<typeof systemLineResolve>[1] {
+  return {
+    band: e.band,
+    species: e.species,
+    jUpper: a.jUpper,
+    kUpper: a.kUpper,
+    jLower: a.jLower,
+    kLower: a.kLower,
+    lUpper: withLabels ? (a.lUpper ?? null) : null,
+    lLower: withLabels ? (a.lLower ?? null) : null,
+    tagUpper: withLabels ? (a.tagUpper ?? null) : null,
+    tagLower: withLabels ? (a.tagLower ?? null) : null,
+  };
+}
+
 /** Most refused rows named in a message. */
 const NAMED_MAX = 5;
 
@@ -116,19 +140,7 @@ function* systemFitInputSteps(s: SystemFitInputSource): Generator<void, SystemFi
       lines.push({ ...cached.line, observedCm1: a.observedCm1, uncertaintyCm1: a.uncertaintyCm1, isExcluded: a.isExcluded });
       continue;
     }
-    const r = systemLineResolve(system, {
-      band: e.band,
-      species: e.species,
-      jUpper: a.jUpper,
-      kUpper: a.kUpper,
-      jLower: a.jLower,
-      kLower: a.kLower,
-      // The labels an assignment kept (A1/A2, s/a, ±l) decide between the lines J and K leave open.
-      lUpper: a.lUpper ?? null,
-      lLower: a.lLower ?? null,
-      tagUpper: a.tagUpper ?? null,
-      tagLower: a.tagLower ?? null,
-    });
+    const r = systemLineResolve(system, assignmentResolveQuery(a, e));
     if (!r.ok) {
       bad.push(`${label} of ${e.band} (${e.species}): ${r.message}`);
       yield;

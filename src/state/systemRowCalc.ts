@@ -11,6 +11,7 @@ import type { TopShape } from '../physics/model';
 import type { SystemLineList } from '../physics/system/systemLines';
 import type { SystemModel } from '../physics/system/systemModel';
 import { bandKeyOfLine, systemParameters, type SystemBandEntry } from './systemBands';
+import { assignmentResolveQuery } from './systemFitInput';
 import { levelTagMatches } from './systemLevelLabels';
 
 /** Calculated position and rotor shape of a several-band session's assignments. */
@@ -91,18 +92,7 @@ export function systemRowCalcCreate(
     const lines: SystemFitLine[] = [];
     const owners: Assignment[] = [];
     for (const { a, e } of rows) {
-      const r = systemLineResolve(system, {
-        band: e.band,
-        species: e.species,
-        jUpper: a.jUpper,
-        kUpper: a.kUpper,
-        jLower: a.jLower,
-        kLower: a.kLower,
-        lUpper: a.lUpper ?? null,
-        lLower: a.lLower ?? null,
-        tagUpper: a.tagUpper ?? null,
-        tagLower: a.tagLower ?? null,
-      });
+      const r = systemLineResolve(system, assignmentResolveQuery(a, e));
       resolved.set(a, NaN);
       if (!r.ok) continue;
       lines.push({ ...r.line, observedCm1: a.observedCm1, uncertaintyCm1: 1, isExcluded: false });
