@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { ASSIGN_COLUMNS } from '../../src/cli/assignCommand';
-import { CliError, type CliIo } from '../../src/cli/cliIo';
+import type { CliIo } from '../../src/cli/cliIo';
 import { cliMain } from '../../src/cli/main';
 import { systemLineTableParse } from '../../src/io/systemLineTable';
 import { ASSIGN_SYSTEM_LORENTZ_CM1, ASSIGN_SYSTEM_TRUTH, assignSystemGuess, assignSystemTrace } from './assignSystemData';
+import { cliRunMemory } from './cliRunMemory';
 
 const { truth, csv: TRACE } = assignSystemTrace();
 const GUESS = JSON.stringify(assignSystemGuess());
@@ -31,19 +32,7 @@ function seedTable(withBand = true): string {
   return rows.join('\n') + '\n';
 }
 
-async function run(args: string[], files: Record<string, string>) {
-  const out = { stdout: '', stderr: '' };
-  const io: CliIo = {
-    stdout: (t) => void (out.stdout += t),
-    stderr: (t) => void (out.stderr += t),
-    readFile: (p) => {
-      if (p in files) return files[p];
-      throw new CliError(`cannot read '${p}': no such file`);
-    },
-  };
-  const code = await cliMain(['assign', ...args], io);
-  return { code, ...out };
-}
+const run = (args: string[], files: Record<string, string>) => cliRunMemory(['assign', ...args], files);
 
 /** The true line of a band with these quanta, or undefined. */
 function truthLine(species: string, band: string, jUp: number, kUp: number, jLo: number, kLo: number): number | undefined {

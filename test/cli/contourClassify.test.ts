@@ -1,23 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { CliError, type CliIo } from '../../src/cli/cliIo';
-import { cliMain } from '../../src/cli/main';
 import { traceGenerate } from '../fit/contourTraces';
+import { cliRunMemory } from './cliRunMemory';
 
 /** An in-memory CliIo over the given files. */
-async function run(args: string[], files: Record<string, string>) {
-  const out: string[] = [];
-  const err: string[] = [];
-  const io: CliIo = {
-    stdout: (t) => void out.push(t),
-    stderr: (t) => void err.push(t),
-    readFile: (path) => {
-      if (path in files) return files[path];
-      throw new CliError(`cannot read '${path}': no such file`);
-    },
-  };
-  const code = await cliMain(args, io);
-  return { code, stdout: out.join(''), stderr: err.join('') };
-}
+const run = (args: string[], files: Record<string, string>) => cliRunMemory(args, files);
 
 // A heavy prolate perpendicular band (invented constants), weak limit, 1 % noise, L = 1 cm.
 const spec = {

@@ -13,23 +13,10 @@
  *   state and ν4 (E′, ~530 cm⁻¹): B0 ≈ 0.3485, C0 ≈ B0/2 (planar), ζ4 ≈ −0.79.
  */
 import { describe, expect, it } from 'vitest';
-import { CliError, type CliIo } from '../../src/cli/cliIo';
-import { cliMain } from '../../src/cli/main';
 import { seededGaussian } from '../fit/fitTestData';
+import { cliRunMemory } from './cliRunMemory';
 
-async function run(args: string[], files: Record<string, string>) {
-  const out = { stdout: '', stderr: '' };
-  const io: CliIo = {
-    stdout: (t) => void (out.stdout += t),
-    stderr: (t) => void (out.stderr += t),
-    readFile: (p) => {
-      if (p in files) return files[p];
-      throw new CliError(`cannot read '${p}': no such file`);
-    },
-  };
-  const code = await cliMain(args, io);
-  return { code, ...out };
-}
+const run = (args: string[], files: Record<string, string>) => cliRunMemory(args, files);
 
 type Constants = Record<string, number | { value: number; fixed: true }>;
 

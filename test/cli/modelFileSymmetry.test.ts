@@ -1,20 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { CliError, type CliIo } from '../../src/cli/cliIo';
-import { cliMain } from '../../src/cli/main';
+import { cliRunMemory } from './cliRunMemory';
 
-async function run(args: string[], files: Record<string, string>) {
-  const out = { stdout: '', stderr: '' };
-  const io: CliIo = {
-    stdout: (t) => void (out.stdout += t),
-    stderr: (t) => void (out.stderr += t),
-    readFile: (p) => {
-      if (p in files) return files[p];
-      throw new CliError(`cannot read '${p}': no such file`);
-    },
-  };
-  const code = await cliMain(args, io);
-  return { code, ...out };
-}
+const run = (args: string[], files: Record<string, string>) => cliRunMemory(args, files);
 
 /** An invented perpendicular band of a prolate top (fictitious constants), with extra model-file fields. */
 function model(top: Record<string, unknown>, upper: Record<string, unknown> = {}) {
