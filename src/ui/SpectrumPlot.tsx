@@ -134,6 +134,12 @@ export function SpectrumPlot() {
     () => drawnRows(drawn, hiddenRows, isDark) ?? ladderRowsBuild(drawn.ladders, shape, new Set(hiddenRows)),
     [drawn, shape, hiddenRows, isDark],
   );
+  // The row chooser lists every row of every drawn band (rows are hidden by ΔK and K″ in all bands at
+  // once), not only the active band's: else "None" would leave rows of the other bands drawn.
+  const chooserLadders = useMemo(
+    () => (drawn.entries ? drawn.ladders.map((l) => ({ ...l, key: l.key.slice(l.key.lastIndexOf('|') + 1) })) : band.ladders),
+    [drawn, band.ladders],
+  );
   const scene = useMemo(() => ladderSceneBuild(rows, drawn.lines, isDark, drawn.bandOfLine ?? undefined), [rows, drawn, isDark]);
   // Each assignment's band index (its line tag in the scene), −1 when its band is not drawn.
   const tagOf = useMemo(() => {
@@ -230,7 +236,7 @@ export function SpectrumPlot() {
 
   return (
     <section className="spectrum-panel" aria-label="Spectrum and ladders">
-      <PlotToolbar rows={band.ladders} />
+      <PlotToolbar rows={chooserLadders} />
       {drawn.entries && <BandSwitches />}
       <div className="spectrum-plot-wrap">
         <PlotlyChart

@@ -231,6 +231,12 @@ describe('symmetry labels and interaction constants on the page', () => {
 
     // Rung labels: with nu3 switched off and only the ΔK = −1, K'' = 2…4 rows of nu4 chosen, rows are
     // tall enough for them (neighbouring pQ3 rungs are ≥ 0.03 cm^-1 apart, ≥ 30 px at this zoom).
+    // "None" hides the rows of every band drawn (here a parallel and a perpendicular one), not only
+    // the rows the active band has.
+    await page.getByRole('button', { name: /^Ladders \(/ }).click();
+    await page.locator('#ladder-rows').getByRole('button', { name: 'None' }).click();
+    await page.locator('#ladder-rows').getByRole('button', { name: 'Close ladder list' }).click();
+    await expect.poll(() => overlay.getAttribute('data-rungs-drawn'), { timeout: 20_000 }).toBe('0');
     await page.getByRole('checkbox', { name: 'Show the ladders of band nu3 (LB-3v)' }).uncheck();
     await page.getByRole('button', { name: /^Ladders \(/ }).click();
     await page.locator('#ladder-rows').getByRole('button', { name: 'None' }).click();
