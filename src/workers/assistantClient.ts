@@ -5,26 +5,12 @@
  */
 import { assistantJobRun, type AssistantJobProgress } from './assistantJob';
 import type { AssistantJob, AssistantJobOutput, AssistantWorkerRequest, AssistantWorkerResponse } from './assistantProtocol';
+import { workerJobsCreate } from './workerJobs';
 
-let running: { id: number; worker: Worker; reject: (reason: unknown) => void; cleanup: () => void } | null = null;
-/** A worker that finished its last job normally is kept for the next one (saves start-up). */
-let idle: Worker | null = null;
-let nextId = 1;
-
-function abortError(): Error {
-  return typeof DOMException === 'function'
-    ? new DOMException('The assistant was cancelled.', 'AbortError')
-    : Object.assign(new Error('The assistant was cancelled.'), { name: 'AbortError' });
-}
-
-function stopRunning(): void {
-  if (!running) return;
-  const r = running;
-  running = null;
-  r.cleanup();
-  r.worker.terminate();
-  r.reject(abortError());
-}
+const jobs = workerJobsCreate(
+  () => new Worker(new URL('./assistant.worker.ts', import.meta.url), { type: 'module' }),
+  'The assistant was cancelled.',
+);
 
 /**
  * Run an assistant job in the worker (on the calling thread where there is no Worker: Node, tests).
@@ -34,8 +20,8 @@ function stopRunning(): void {
  * @returns the job's output; rejects with the assistant's message on bad input
  */
 export function assistantJobStart(job: AssistantJob, signal?: AbortSignal, onProgress?: AssistantJobProgress): Promise<AssistantJobOutput> {
-  stopRunning();
-  if (signal?.aborted) return Promise.reject(abortError());
+  jobs.stop();
+  if (signal?.aborted) return Promise.reject(jobs.abortError());
   if (typeof Worker === 'undefined') {
     try {
       return Promise.resolve(assistantJobRun(job, onProgress));
@@ -43,45 +29,17 @@ export function assistantJobStart(job: AssistantJob, signal?: AbortSignal, onPro
       return Promise.reject(err);
     }
   }
-  const worker = idle ?? new Worker(new URL('./assistant.worker.ts', import.meta.url), { type: 'module' });
-  idle = null;
-  const id = nextId++;
-  return new Promise<AssistantJobOutput>((resolve, reject) => {
-    const finish = (isHealthy: boolean) => {
-      if (running?.id === id) running = null;
-      cleanup();
-      if (isHealthy && !idle) idle = worker;
-      else worker.terminate();
-    };
-    const onMessage = (event: MessageEvent<AssistantWorkerResponse>) => {
-      const msg = event.data;
-      if (!msg || msg.id !== id) return;
+  return jobs.run<AssistantJobOutput>(
+    (id): AssistantWorkerRequest => ({ type: 'job', id, job }),
+    (message) => {
+      const msg = message as AssistantWorkerResponse;
       if (msg.type === 'progress') onProgress?.(msg.round, msg.stage, msg.rowsSoFar);
-      else if (msg.type === 'result') {
-        finish(true);
-        resolve(msg.output);
-      } else {
-        finish(true);
-        reject(new Error(msg.message));
-      }
-    };
-    const onError = (event: ErrorEvent) => {
-      finish(false);
-      reject(new Error(`the assistant's worker failed: ${event.message || 'unknown error'}`));
-    };
-    const onAbort = () => {
-      if (running?.id === id) stopRunning();
-    };
-    const cleanup = () => {
-      worker.removeEventListener('message', onMessage);
-      worker.removeEventListener('error', onError);
-      signal?.removeEventListener('abort', onAbort);
-    };
-    worker.addEventListener('message', onMessage);
-    worker.addEventListener('error', onError);
-    signal?.addEventListener('abort', onAbort);
-    running = { id, worker, reject, cleanup };
-    const request: AssistantWorkerRequest = { type: 'job', id, job };
-    worker.postMessage(request);
-  });
+      else if (msg.type === 'result') return { output: msg.output };
+      // A refusal in words: the worker itself is sound and is kept for the next job.
+      else return { error: new Error(msg.message), isWorkerHealthy: true };
+      return null;
+    },
+    (message) => new Error(`the assistant's worker failed: ${message || 'unknown error'}`),
+    signal,
+  );
 }

@@ -7,34 +7,9 @@ import type { FitInput, FitOutcome } from '../fit/fitTypes';
 import type { SystemFitInput } from '../fit/systemFit';
 import type { SystemFitOutcome } from '../fit/systemFitTypes';
 import type { SolverRequest, SolverResponse } from './protocol';
+import { workerJobsCreate } from './workerJobs';
 
-interface Running {
-  id: number;
-  worker: Worker;
-  reject: (reason: unknown) => void;
-  cleanup: () => void;
-}
-
-let running: Running | null = null;
-/** A worker that finished its last fit normally is kept for the next one (saves start-up). */
-let idle: Worker | null = null;
-let nextId = 1;
-
-function abortError(): Error {
-  // DOMException is what fetch and friends reject with; fall back where it does not exist.
-  return typeof DOMException === 'function'
-    ? new DOMException('The fit was aborted.', 'AbortError')
-    : Object.assign(new Error('The fit was aborted.'), { name: 'AbortError' });
-}
-
-function stopRunning(): void {
-  if (!running) return;
-  const r = running;
-  running = null;
-  r.cleanup();
-  r.worker.terminate();
-  r.reject(abortError());
-}
+const jobs = workerJobsCreate(() => new Worker(new URL('./solver.worker.ts', import.meta.url), { type: 'module' }), 'The fit was aborted.');
 
 /**
  * Fit a band in the worker.
@@ -68,46 +43,16 @@ function solverRun<O>(
   signal: AbortSignal | undefined,
   onProgress: ((iteration: number, chi2: number) => void) | undefined,
 ): Promise<O> {
-  stopRunning();
-  if (signal?.aborted) return Promise.reject(abortError());
-  const worker = idle ?? new Worker(new URL('./solver.worker.ts', import.meta.url), { type: 'module' });
-  idle = null;
-  const id = nextId++;
-  return new Promise<O>((resolve, reject) => {
-    const finish = (isHealthy: boolean) => {
-      if (running?.id === id) running = null;
-      cleanup();
-      if (isHealthy && !idle) idle = worker;
-      else worker.terminate();
-    };
-    const onMessage = (event: MessageEvent<SolverResponse>) => {
-      const msg = event.data;
-      if (msg.id !== id) return;
+  return jobs.run<O>(
+    requestOf,
+    (message) => {
+      const msg = message as SolverResponse;
       if (msg.type === 'progress') onProgress?.(msg.iteration, msg.chi2);
-      else if (msg.type === 'result') {
-        finish(true);
-        resolve(msg.output as O);
-      } else if (msg.type === 'error') {
-        finish(false);
-        reject(new Error(`solverFit: ${msg.message}`));
-      }
-    };
-    const onError = (event: ErrorEvent) => {
-      finish(false);
-      reject(new Error(`solverFit: worker failed: ${event.message}`));
-    };
-    const onAbort = () => {
-      if (running?.id === id) stopRunning();
-    };
-    const cleanup = () => {
-      worker.removeEventListener('message', onMessage);
-      worker.removeEventListener('error', onError);
-      signal?.removeEventListener('abort', onAbort);
-    };
-    worker.addEventListener('message', onMessage);
-    worker.addEventListener('error', onError);
-    signal?.addEventListener('abort', onAbort);
-    running = { id, worker, reject, cleanup };
-    worker.postMessage(requestOf(id));
-  });
+      else if (msg.type === 'result') return { output: msg.output };
+      else if (msg.type === 'error') return { error: new Error(`solverFit: ${msg.message}`), isWorkerHealthy: false };
+      return null;
+    },
+    (message) => new Error(`solverFit: worker failed: ${message}`),
+    signal,
+  );
 }
