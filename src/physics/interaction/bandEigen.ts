@@ -257,6 +257,8 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
   for (let r = 0; r < n; r++) padded.set(ab.subarray(r * B2, (r + 1) * B2), r * W);
   const mult = new Float64Array(n * b);
   const pivot = new Int32Array(n);
+  // 1 / U[k, k]: one division per column instead of one per entry.
+  const inverse = new Float64Array(n);
   // last[r]: the last column of row r of the factors that can be non-zero (r + b, up to r + 2b
   // after row swaps); the updates skip the columns past it, which hold exact zeros.
   const last = new Int32Array(n);
@@ -302,11 +304,12 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
       let piv = lu[rowK + k];
       // A singular pivot (λ exact to round-off) is replaced by ±ε‖A‖, as inverse iteration wants.
       if (Math.abs(piv) < tiny) lu[rowK + k] = piv = piv < 0 ? -tiny : tiny;
+      const inv = 1 / piv;
+      inverse[k] = inv;
       for (let r = k + 1; r <= lastRow; r++) {
         const rowR = r * W - r + b;
-        const m = lu[rowR + k] / piv;
+        const m = lu[rowR + k] * inv;
         mult[k * b + (r - k - 1)] = m;
-        lu[rowR + k] = 0;
         if (m === 0) continue;
         for (let c = k + 1; c <= cEnd; c++) lu[rowR + c] -= m * lu[rowK + c];
         if (last[r] < cEnd) last[r] = cEnd;
@@ -334,7 +337,7 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
         const cEnd = last[k];
         let s = x[k];
         for (let c = k + 1; c <= cEnd; c++) s -= lu[rowK + c] * x[c];
-        x[k] = s / lu[rowK + k];
+        x[k] = s * inverse[k];
       }
       let before = 0;
       for (let i = 0; i < n; i++) before += x[i] * x[i];
