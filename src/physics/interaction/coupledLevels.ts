@@ -236,14 +236,19 @@ export function coupledLevels(
     const fill = byKStart.slice(0, 2 * J + 1);
     const byKIndex = new Int32Array(n);
     basis.forEach((b, i) => (byKIndex[fill[b.k + J]++] = i));
-    const block: CoupledBlock = {
-      basisState: Int32Array.from(basis, (b) => b.state),
-      basisK: Int32Array.from(basis, (b) => b.k),
-      basisEll: Int8Array.from(basis, (b) => b.ell),
-      isMirrored: cls === 1,
-      byKStart,
-      byKIndex,
-    };
+    const basisState = new Int32Array(n);
+    const basisK = new Int32Array(n);
+    const basisEll = new Int8Array(n);
+    for (let i = 0; i < n; i++) {
+      basisState[i] = basis[i].state;
+      basisK[i] = basis[i].k;
+      basisEll[i] = basis[i].ell;
+    }
+    const block: CoupledBlock = { basisState, basisK, basisEll, isMirrored: cls === 1, byKStart, byKIndex };
+    // The levels' eigenvectors over the unfolded basis (views into one buffer per class block: the
+    // σv halves and their parts together have n levels).
+    const classVectors = new Float64Array(n * n);
+    let nextVector = 0;
     // Values only here; the ∂H/∂p terms are made again (same elements, same order) on the first gradient asked.
     const el = blockElements(group, J, x, values, basis, false);
     let elWithDerivatives: ElementList | null = null;
@@ -269,16 +274,18 @@ export function coupledLevels(
         const key = isDense ? `${cls}:${sigma}` : `${cls}:${sigma}:${part.first}`;
         const labels = labelBlock(eig.vectors, mc, key, options.follow);
         const terms = partTermsLazy(part, fold, derivativeParts, nP);
-        // The levels' eigenvectors over the unfolded basis, one buffer per part (views into it).
-        const partVectors = new Float64Array(mc * n);
         for (let v = 0; v < mc; v++) {
           const a = part.members[labels.basisIndex[v]];
           const dom = basis[fold.colI[a]];
           const st = group.states[dom.state];
           const K = Math.abs(dom.k);
-          const u = partVectors.subarray(v * n, (v + 1) * n);
+          const u = classVectors.subarray(nextVector * n, (nextVector + 1) * n);
+          nextVector++;
+          // Sign convention: the labelling component is positive (so a level's vector does not change
+          // sign from one J, solver or call to the next; nothing else depends on the sign).
+          const sign = eig.vectors[v * mc + labels.basisIndex[v]] < 0 ? -1 : 1;
           for (let t = 0; t < mc; t++) {
-            const c = eig.vectors[v * mc + t];
+            const c = sign * eig.vectors[v * mc + t];
             if (c === 0) continue;
             const at = part.members[t];
             const j = fold.colJ[at];
@@ -293,7 +300,7 @@ export function coupledLevels(
             l: st.isDegenerate && K > 0 ? (dom.k * dom.ell > 0 ? 1 : -1) : 0,
             tag: fold.colJ[a] >= 0 ? (sigma > 0 ? 'A1' : 'A2') : '',
             e: eig.values[v],
-            source: { terms, vectors: eig.vectors, column: v, order: mc },
+            source: { terms, vector: u, members: part.members, fold },
             count: cls === 1 ? 2 : 1,
             weight: labels.weight[v],
             sigma,
@@ -384,17 +391,24 @@ interface PartTerms {
 /** What one level's gradient row is computed from. */
 interface GradientSource {
   terms: () => PartTerms;
-  /** The part's eigenvectors (column-major, local basis) and the level's column. */
-  vectors: Float64Array;
-  column: number;
-  order: number;
+  /** The level's eigenvector over the unfolded basis, and the part's folded columns (in its local order). */
+  vector: Float64Array;
+  members: Int32Array;
+  fold: Fold;
 }
 
 /** ∂E/∂p of one level into row (zeroed first). */
 function gradientRow(source: GradientSource, row: Float64Array): void {
   const t = source.terms();
-  const mc = source.order;
-  const c = source.vectors.subarray(source.column * mc, (source.column + 1) * mc);
+  const { members, fold, vector } = source;
+  // The level's coefficients over the part's folded columns, back from the unfolded vector: a
+  // σv pair (|i⟩ ± |j⟩)/√2 has c·√½ on |i⟩.
+  const mc = members.length;
+  const c = new Float64Array(mc);
+  for (let q = 0; q < mc; q++) {
+    const a = members[q];
+    c[q] = fold.colJ[a] >= 0 ? vector[fold.colI[a]] * Math.SQRT2 : vector[fold.colI[a]];
+  }
   row.fill(0);
   for (let q = 0; q < t.pairA.length; q++) {
     const w = c[t.pairA[q]] * c[t.pairB[q]];
