@@ -359,7 +359,13 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
         const m = lu[rowR + k] * inv;
         mult[k * b + (r - k - 1)] = m;
         if (m === 0) continue;
-        for (let c = k + 1; c <= cEnd; c++) lu[rowR + c] -= m * lu[rowK + c];
+        // Two entries a step (the rows are short, b to 2b entries: the loop's own cost counts).
+        let c = k + 1;
+        for (; c < cEnd; c += 2) {
+          lu[rowR + c] -= m * lu[rowK + c];
+          lu[rowR + c + 1] -= m * lu[rowK + c + 1];
+        }
+        if (c === cEnd) lu[rowR + c] -= m * lu[rowK + c];
         if (last[r] < cEnd) last[r] = cEnd;
         x[r] -= m * xk;
       }
