@@ -12,6 +12,45 @@ const BAND_MIN_ORDER = 12;
 const RESIDUAL_STOP = 2;
 
 /**
+ * Work space for the temporaries of one call (band copies, the factors, the start vector), taken
+ * from one buffer reused from call to call: a call allocates only what it returns. Calls never
+ * overlap (JavaScript runs one at a time and nothing here calls out), so `workReset` at the start of
+ * bandEigen frees the previous call's. When the buffer is too small a larger one is made; views
+ * taken before keep the old one.
+ */
+let workFloat = new Float64Array(1 << 12);
+let workInt = new Int32Array(1 << 10);
+let workFloatTop = 0;
+let workIntTop = 0;
+
+function workReset(): void {
+  workFloatTop = 0;
+  workIntTop = 0;
+}
+
+/** A zero-filled Float64Array of `size` from the work space. */
+function workFloats(size: number): Float64Array {
+  if (workFloatTop + size > workFloat.length) {
+    workFloat = new Float64Array(Math.max(2 * workFloat.length, 2 * size));
+    workFloatTop = 0;
+  }
+  const view = workFloat.subarray(workFloatTop, workFloatTop + size);
+  workFloatTop += size;
+  return view.fill(0);
+}
+
+/** A zero-filled Int32Array of `size` from the work space. */
+function workInts(size: number): Int32Array {
+  if (workIntTop + size > workInt.length) {
+    workInt = new Int32Array(Math.max(2 * workInt.length, 2 * size));
+    workIntTop = 0;
+  }
+  const view = workInt.subarray(workIntTop, workIntTop + size);
+  workIntTop += size;
+  return view.fill(0);
+}
+
+/**
  * Eigenvalues and unit eigenvectors of a real symmetric band matrix (every entry farther than
  * `halfBandwidth` from the diagonal is zero), given by its band rows, in O(n² b²) instead of the
  * dense solver's O(n³):
@@ -58,7 +97,8 @@ export function bandEigen(rows: ArrayLike<number>, n: number, halfBandwidth: num
   const b = Math.min(halfBandwidth, Math.max(0, n - 1));
   // A as band rows of width 2b + 1, both halves from the lower one (b may be smaller than asked).
   const B2 = 2 * b + 1;
-  const ab = new Float64Array(n * B2);
+  workReset();
+  const ab = workFloats(n * B2);
   for (let i = 0; i < n; i++)
     for (let j = Math.max(0, i - b); j <= i; j++) {
       const v = rows[i * width + j - i + halfBandwidth];
@@ -128,7 +168,7 @@ function bandValues(ab: Float64Array, n: number, b: number): Float64Array {
   // 0 <= r − c <= b + 1, at w[c·(b + 2) + r − c].
   const B1 = b + 2;
   const B2 = 2 * b + 1;
-  const w = new Float64Array(n * B1);
+  const w = workFloats(n * B1);
   for (let r = 0; r < n; r++) for (let c = Math.max(0, r - b); c <= r; c++) w[c * B1 + r - c] = ab[r * B2 + c - r + b];
   for (let d = b; d >= 2; d--) {
     // Bandwidth d → d − 1: zero A[j + d, j] for each column j, then chase the bulge it makes.
@@ -173,7 +213,7 @@ function bandValues(ab: Float64Array, n: number, b: number): Float64Array {
     }
   }
   const diagonal = new Float64Array(n);
-  const off = new Float64Array(n - 1);
+  const off = workFloats(n - 1);
   for (let i = 0; i < n; i++) diagonal[i] = w[i * B1];
   for (let i = 0; i < n - 1; i++) off[i] = w[i * B1 + 1];
   return tridiagonalValues(diagonal, off);
@@ -191,7 +231,7 @@ function bandValues(ab: Float64Array, n: number, b: number): Float64Array {
  */
 function tridiagonalValues(d: Float64Array, e: Float64Array): Float64Array {
   const n = d.length;
-  const off = new Float64Array(n);
+  const off = workFloats(n);
   off.set(e);
   for (let i = 0; i < n; i++)
     if (!(Math.abs(d[i]) < 1e150 && Math.abs(off[i]) < 1e150))
@@ -251,18 +291,20 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
   // LU of A − λI in a window of 3b + 1 entries per row: entry (r, c) at r·W + (c − r + b), c − r ∈ [−b, 2b]
   // (row swaps of partial pivoting widen U to 2b above the diagonal).
   const W = 3 * b + 1;
-  const lu = new Float64Array(n * W);
+  const lu = workFloats(n * W);
   // A in the same window, zeros past its band: copied into lu for each λ.
-  const padded = new Float64Array(n * W);
+  const padded = workFloats(n * W);
   for (let r = 0; r < n; r++) padded.set(ab.subarray(r * B2, (r + 1) * B2), r * W);
-  const mult = new Float64Array(n * b);
-  const pivot = new Int32Array(n);
+  const mult = workFloats(n * b);
+  const pivot = workInts(n);
+  // 1 / U[k, k]: one division per column instead of one per entry.
+  const inverse = workFloats(n);
   // last[r]: the last column of row r of the factors that can be non-zero (r + b, up to r + 2b
   // after row swaps); the updates skip the columns past it, which hold exact zeros.
-  const last = new Int32Array(n);
+  const last = workInts(n);
   const z = new Float64Array(n * n);
-  const x = new Float64Array(n);
-  const start = new Float64Array(n);
+  const x = workFloats(n);
+  const start = workFloats(n);
   for (let i = 0; i < n; i++) start[i] = 0.5 + ((i * 0.6180339887498949) % 1);
   let previousShift = -Infinity;
   for (let j = 0; j < n; j++) {
@@ -270,9 +312,13 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
     let lambda = values[j];
     if (lambda - previousShift < 10 * tiny) lambda = previousShift + 10 * tiny;
     previousShift = lambda;
+    for (let r = 0; r < n; r++) last[r] = Math.min(n - 1, r + b);
     lu.set(padded);
     for (let r = 0; r < n; r++) lu[r * W + b] -= lambda;
-    for (let r = 0; r < n; r++) last[r] = Math.min(n - 1, r + b);
+    // Start vector with no special structure; with λ accurate to round-off, each solve amplifies its
+    // direction by ~‖A‖/(ε‖A‖), so one or two solves settle it (Wilkinson 1965, ch. 9 §54). The
+    // first solve's forward substitution (L⁻¹P x) is done alongside the factorisation.
+    x.set(start);
     for (let k = 0; k < n; k++) {
       const lastRow = Math.min(n - 1, k + b);
       let p = k;
@@ -297,44 +343,54 @@ function bandVectors(ab: Float64Array, n: number, b: number, values: Float64Arra
         const t = last[k];
         last[k] = last[p];
         last[p] = t;
+        const xt = x[k];
+        x[k] = x[p];
+        x[p] = xt;
       }
       const cEnd = last[k];
       let piv = lu[rowK + k];
       // A singular pivot (λ exact to round-off) is replaced by ±ε‖A‖, as inverse iteration wants.
       if (Math.abs(piv) < tiny) lu[rowK + k] = piv = piv < 0 ? -tiny : tiny;
+      const inv = 1 / piv;
+      inverse[k] = inv;
+      const xk = x[k];
       for (let r = k + 1; r <= lastRow; r++) {
         const rowR = r * W - r + b;
-        const m = lu[rowR + k] / piv;
+        const m = lu[rowR + k] * inv;
         mult[k * b + (r - k - 1)] = m;
-        lu[rowR + k] = 0;
         if (m === 0) continue;
-        for (let c = k + 1; c <= cEnd; c++) lu[rowR + c] -= m * lu[rowK + c];
+        // Two entries a step (the rows are short, b to 2b entries: the loop's own cost counts).
+        let c = k + 1;
+        for (; c < cEnd; c += 2) {
+          lu[rowR + c] -= m * lu[rowK + c];
+          lu[rowR + c + 1] -= m * lu[rowK + c + 1];
+        }
+        if (c === cEnd) lu[rowR + c] -= m * lu[rowK + c];
         if (last[r] < cEnd) last[r] = cEnd;
+        x[r] -= m * xk;
       }
     }
-    // Start vector with no special structure; with λ accurate to round-off, each solve amplifies its
-    // direction by ~‖A‖/(ε‖A‖), so one or two solves settle it (Wilkinson 1965, ch. 9 §54).
-    x.set(start);
     let ok = false;
     let res = Infinity;
     for (let iteration = 0; iteration < INVERSE_ITERATION_MAX && !ok; iteration++) {
-      for (let k = 0; k < n; k++) {
-        const p = pivot[k];
-        if (p !== k) {
-          const t = x[k];
-          x[k] = x[p];
-          x[p] = t;
+      if (iteration > 0)
+        for (let k = 0; k < n; k++) {
+          const p = pivot[k];
+          if (p !== k) {
+            const t = x[k];
+            x[k] = x[p];
+            x[p] = t;
+          }
+          const xk = x[k];
+          const lastRow = Math.min(n - 1, k + b);
+          if (xk !== 0) for (let r = k + 1; r <= lastRow; r++) x[r] -= mult[k * b + (r - k - 1)] * xk;
         }
-        const xk = x[k];
-        const lastRow = Math.min(n - 1, k + b);
-        if (xk !== 0) for (let r = k + 1; r <= lastRow; r++) x[r] -= mult[k * b + (r - k - 1)] * xk;
-      }
       for (let k = n - 1; k >= 0; k--) {
         const rowK = k * W - k + b;
         const cEnd = last[k];
         let s = x[k];
         for (let c = k + 1; c <= cEnd; c++) s -= lu[rowK + c] * x[c];
-        x[k] = s / lu[rowK + k];
+        x[k] = s * inverse[k];
       }
       let before = 0;
       for (let i = 0; i < n; i++) before += x[i] * x[i];

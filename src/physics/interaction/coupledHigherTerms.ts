@@ -39,14 +39,21 @@ const I_C2JK = CORIOLIS_AE_NAMES.indexOf('C2JK');
 const I_C4 = CORIOLIS_AE_NAMES.indexOf('C4');
 const I_C5 = CORIOLIS_AE_NAMES.indexOf('C5');
 
+/** Where the elements go: add (i, j) with its value (false, and nothing added, when j < 0: the partner is not in the block); then its ∂H_ij/∂p terms, only when withDerivatives. */
+export interface ElementSink {
+  readonly withDerivatives: boolean;
+  add(i: number, j: number, value: number): boolean;
+  term(param: number, coef: number): void;
+}
+
 /**
  * Push every nonzero element of the higher-order terms of one class block (each pair once).
  * @param group states (degeneracy), interactions and parameter offsets of the group (coupledGroupCreate)
  * @param x J(J+1)
  * @param p the group's parameter vector (cm⁻¹)
  * @param basis the block's basis functions
- * @param find index of a basis function in the block, or undefined when it is not there
- * @param push adds element (i, j) with value (cm⁻¹) and derivatives [parameter index, ∂H_ij/∂p, …]
+ * @param find index of a basis function in the block, or −1 when it is not there
+ * @param sink receives element (i, j) with its value (cm⁻¹) and, when asked, its terms (parameter index, ∂H_ij/∂p)
  */
 export function coupledHigherTermElements(
   group: {
@@ -59,9 +66,10 @@ export function coupledHigherTermElements(
   x: number,
   p: ArrayLike<number>,
   basis: readonly { state: number; k: number; ell: number }[],
-  find: (state: number, k: number, ell: number) => number | undefined,
-  push: (i: number, j: number | undefined, value: number, derivs: number[]) => void,
+  find: (state: number, k: number, ell: number) => number,
+  sink: ElementSink,
 ): void {
+  const withDerivatives = sink.withDerivatives;
   const iEps = coupledStateParameterNames(group.shape, false).indexOf('eps');
   // |k| <= J bounds every partner; x = J(J+1) gives J back.
   const J = Math.round((Math.sqrt(4 * x + 1) - 1) / 2);
@@ -69,7 +77,7 @@ export function coupledHigherTermElements(
     if (group.states[b.state].isDegenerate || b.k + 3 > J) return;
     const o = group.stateOffset[b.state] + iEps;
     const f = ladder(x, b.k, 3) * (2 * b.k + 3);
-    if (f !== 0) push(i, find(b.state, b.k + 3, 0), p[o] * f, [o, f]);
+    if (f !== 0 && sink.add(i, find(b.state, b.k + 3, 0), p[o] * f) && withDerivatives) sink.term(o, f);
   });
   group.interactions.forEach((it, n) => {
     const a = group.states[it.stateA];
@@ -81,27 +89,25 @@ export function coupledHigherTermElements(
     basis.forEach((b, i) => {
       if (b.state !== s) return;
       const k = b.k;
-      for (const sign of [1, -1]) {
+      for (let sign = 1; sign >= -1; sign -= 2) {
         // Δk = ∓2, Δℓ = ±1: x² and x·(k ∓ 1)² on C2 (the pair's mean k squared, σv-symmetric).
         const r2 = ladder(x, sign > 0 ? k - 2 : k, 2);
         if (r2 !== 0) {
           const kMid2 = (k - sign) ** 2;
-          push(i, find(dg, k - 2 * sign, sign), r2 * (p[o + I_C2JJ] * x * x + p[o + I_C2JK] * x * kMid2), [
-            o + I_C2JJ,
-            r2 * x * x,
-            o + I_C2JK,
-            r2 * x * kMid2,
-          ]);
+          if (sink.add(i, find(dg, k - 2 * sign, sign), r2 * (p[o + I_C2JJ] * x * x + p[o + I_C2JK] * x * kMid2)) && withDerivatives) {
+            sink.term(o + I_C2JJ, r2 * x * x);
+            sink.term(o + I_C2JK, r2 * x * kMid2);
+          }
         }
         // Δk = ±4, Δℓ = ±1 (even Δk: the same sign both ways).
         if (Math.abs(k + 4 * sign) <= J) {
           const r4 = ladder(x, sign > 0 ? k : k - 4, 4);
-          if (r4 !== 0) push(i, find(dg, k + 4 * sign, sign), r4 * p[o + I_C4], [o + I_C4, r4]);
+          if (r4 !== 0 && sink.add(i, find(dg, k + 4 * sign, sign), r4 * p[o + I_C4]) && withDerivatives) sink.term(o + I_C4, r4);
         }
         // Δk = ∓5, Δℓ = ±1 (odd Δk: the sign of ℓ).
         if (Math.abs(k - 5 * sign) <= J) {
           const r5 = sign * ladder(x, sign > 0 ? k - 5 : k, 5);
-          if (r5 !== 0) push(i, find(dg, k - 5 * sign, sign), r5 * p[o + I_C5], [o + I_C5, r5]);
+          if (r5 !== 0 && sink.add(i, find(dg, k - 5 * sign, sign), r5 * p[o + I_C5]) && withDerivatives) sink.term(o + I_C5, r5);
         }
       }
     });

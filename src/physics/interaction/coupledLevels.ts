@@ -42,7 +42,7 @@ import { ellQ12Factor, ellQ22Factor } from '../hamiltonian/degenerateStateLevels
 import { eigenLabelsAssign } from '../hamiltonian/eigenLabels';
 import { rotorPolynomialBasis, type RotorShape } from '../hamiltonian/rotorPolynomial';
 import { bandEigen } from './bandEigen';
-import { coupledHigherTermElements } from './coupledHigherTerms';
+import { coupledHigherTermElements, type ElementSink } from './coupledHigherTerms';
 import { householderEigen } from './householderEigen';
 import { coupledStateParameterNames, interactionParameterNames, type InteractionType } from './interactionTerms';
 
@@ -107,16 +107,6 @@ interface BasisFn {
   ell: number;
 }
 
-/** Matrix elements of a block in the unfolded basis, with sparse derivatives (∂H_ij/∂p). */
-interface Elements {
-  row: number[];
-  col: number[];
-  value: number[];
-  dStart: number[];
-  dParam: number[];
-  dCoef: number[];
-}
-
 /** One class block after diagonalisation: basis and, per eigenvector, its unfolded coefficients. */
 export interface CoupledBlock {
   basisState: Int32Array;
@@ -160,6 +150,9 @@ export interface CoupledLevels {
 
 /** 2²⁰: the factor that packs an element number below a pair key (sort keys stay below 2⁵³ for blocks of up to ~90,000 functions). */
 const PACK = 1048576;
+
+/** The gradient of levels computed without derivatives (empty). */
+const NO_GRADIENT = new Float64Array(0);
 
 function mod3(m: number): number {
   return ((m % 3) + 3) % 3;
@@ -226,7 +219,6 @@ export function coupledLevels(
   const nP = group.parameters.length;
   const x = J * (J + 1);
   const out: LevelOut[] = [];
-  const span = 2 * J + 1;
   for (const cls of [0, 1]) {
     const basis: BasisFn[] = [];
     group.states.forEach((s, si) => {
@@ -244,44 +236,56 @@ export function coupledLevels(
     const fill = byKStart.slice(0, 2 * J + 1);
     const byKIndex = new Int32Array(n);
     basis.forEach((b, i) => (byKIndex[fill[b.k + J]++] = i));
-    const block: CoupledBlock = {
-      basisState: Int32Array.from(basis, (b) => b.state),
-      basisK: Int32Array.from(basis, (b) => b.k),
-      basisEll: Int8Array.from(basis, (b) => b.ell),
-      isMirrored: cls === 1,
-      byKStart,
-      byKIndex,
-    };
-    const el = blockElements(group, J, x, values, basis);
+    const basisState = new Int32Array(n);
+    const basisK = new Int32Array(n);
+    const basisEll = new Int8Array(n);
+    for (let i = 0; i < n; i++) {
+      basisState[i] = basis[i].state;
+      basisK[i] = basis[i].k;
+      basisEll[i] = basis[i].ell;
+    }
+    const block: CoupledBlock = { basisState, basisK, basisEll, isMirrored: cls === 1, byKStart, byKIndex };
+    // The levels' eigenvectors over the unfolded basis (views into one buffer per class block: the
+    // σv halves and their parts together have n levels).
+    const classVectors = new Float64Array(n * n);
+    let nextVector = 0;
+    // Values only here; the ∂H/∂p terms are made again (same elements, same order) on the first gradient asked.
+    const el = blockElements(group, J, x, values, basis, false);
+    let elWithDerivatives: ElementList | null = null;
+    const derivativeElements = () => (elWithDerivatives ??= blockElements(group, J, x, values, basis, true));
     // The pair orderings below pack an element number into the low 20 bits of a sort key.
     if (el.row.length >= PACK)
       throw new Error(`coupledLevels: J = ${J} gives ${el.row.length} matrix elements in one block, more than ${PACK - 1} handled`);
     // σv partner of each basis function: |s; k, ℓ⟩ → |s; −k, −ℓ⟩.
-    const lookup = new Int32Array(group.states.length * span * 3).fill(-1);
-    basis.forEach((b, i) => (lookup[(b.state * span + b.k + J) * 3 + b.ell + 1] = i));
-    const partner = Int32Array.from(basis, (b) => lookup[(b.state * span - b.k + J) * 3 - b.ell + 1]);
+    const find = basisFinder(group.states.length, J, basis);
+    const partner = new Int32Array(n);
+    for (let i = 0; i < n; i++) partner[i] = find(basis[i].state, -basis[i].k, -basis[i].ell);
     for (const sigma of cls === 0 ? [1, -1] : [0]) {
       const fold = foldCreate(basis, J, sigma, partner);
       const m = fold.m;
       if (m === 0) continue;
       const folded = foldedElements(fold, el);
-      const parts = isDense ? foldWhole(fold, el) : foldComponents(fold, el, folded, basis);
+      const parts = isDense ? foldWhole(fold) : foldComponents(fold, folded, basis);
+      let partElements: { el: ElementList; inside: Int32Array[] } | null = null;
+      const derivativeParts = () => (partElements ??= elementsByPart(fold, parts, derivativeElements()));
       for (const part of parts) {
         const mc = part.members.length;
         const eig = isDense ? householderEigen(foldedDense(folded, m), m) : bandEigen(partRows(part, folded), mc, part.bandwidth);
         const key = isDense ? `${cls}:${sigma}` : `${cls}:${sigma}:${part.first}`;
         const labels = labelBlock(eig.vectors, mc, key, options.follow);
-        const terms = partTermsLazy(part, fold, el, nP);
-        // The levels' eigenvectors over the unfolded basis, one buffer per part (views into it).
-        const partVectors = new Float64Array(mc * n);
+        const terms = partTermsLazy(part, fold, derivativeParts, nP);
         for (let v = 0; v < mc; v++) {
           const a = part.members[labels.basisIndex[v]];
           const dom = basis[fold.colI[a]];
           const st = group.states[dom.state];
           const K = Math.abs(dom.k);
-          const u = partVectors.subarray(v * n, (v + 1) * n);
+          const u = classVectors.subarray(nextVector * n, (nextVector + 1) * n);
+          nextVector++;
+          // Sign convention: the labelling component is positive (so a level's vector does not change
+          // sign from one J, solver or call to the next; nothing else depends on the sign).
+          const sign = eig.vectors[v * mc + labels.basisIndex[v]] < 0 ? -1 : 1;
           for (let t = 0; t < mc; t++) {
-            const c = eig.vectors[v * mc + t];
+            const c = sign * eig.vectors[v * mc + t];
             if (c === 0) continue;
             const at = part.members[t];
             const j = fold.colJ[at];
@@ -296,7 +300,7 @@ export function coupledLevels(
             l: st.isDegenerate && K > 0 ? (dom.k * dom.ell > 0 ? 1 : -1) : 0,
             tag: fold.colJ[a] >= 0 ? (sigma > 0 ? 'A1' : 'A2') : '',
             e: eig.values[v],
-            source: { terms, vectors: eig.vectors, column: v, order: mc },
+            source: { terms, vector: u, members: part.members, fold },
             count: cls === 1 ? 2 : 1,
             weight: labels.weight[v],
             sigma,
@@ -309,12 +313,14 @@ export function coupledLevels(
   }
   out.sort((a, b) => a.state - b.state || a.K - b.K || b.l - a.l || (a.tag < b.tag ? -1 : a.tag > b.tag ? 1 : 0));
   const count = out.length;
-  const gradient = new Float64Array(withDerivatives ? count * nP : 0);
+  // Allocated on the first gradient asked.
+  let gradient: Float64Array | null = null;
   const isRowDone = new Uint8Array(count);
   const levelGradient = (index: number): Float64Array => {
     if (!withDerivatives) throw new Error('coupledLevels: levels computed without derivatives (withDerivatives: false)');
     if (!(Number.isInteger(index) && index >= 0 && index < count))
       throw new Error(`coupledLevels: level index must be a whole number from 0 to ${count - 1}, got ${index}`);
+    gradient ??= new Float64Array(count * nP);
     const row = gradient.subarray(index * nP, (index + 1) * nP);
     if (!isRowDone[index]) {
       gradientRow(out[index].source, row);
@@ -322,24 +328,48 @@ export function coupledLevels(
     }
     return row;
   };
+  const state = new Int32Array(count);
+  const K = new Int32Array(count);
+  const l = new Int8Array(count);
+  const tag = new Array<string>(count);
+  const energyCm1 = new Float64Array(count);
+  const componentCount = new Uint8Array(count);
+  const labelWeight = new Float64Array(count);
+  const sigma = new Int8Array(count);
+  const block = new Array<CoupledBlock>(count);
+  const vector = new Array<Float64Array>(count);
+  for (let i = 0; i < count; i++) {
+    const o = out[i];
+    state[i] = o.state;
+    K[i] = o.K;
+    l[i] = o.l;
+    tag[i] = o.tag;
+    energyCm1[i] = o.e;
+    componentCount[i] = o.count;
+    labelWeight[i] = o.weight;
+    sigma[i] = o.sigma;
+    block[i] = o.block;
+    vector[i] = o.vector;
+  }
   return {
     J,
     count,
-    state: Int32Array.from(out, (o) => o.state),
-    K: Int32Array.from(out, (o) => o.K),
-    l: Int8Array.from(out, (o) => o.l),
-    tag: out.map((o) => o.tag),
-    energyCm1: Float64Array.from(out, (o) => o.e),
+    state,
+    K,
+    l,
+    tag,
+    energyCm1,
     get gradient() {
-      if (withDerivatives) for (let i = 0; i < count; i++) if (!isRowDone[i]) levelGradient(i);
-      return gradient;
+      if (!withDerivatives) return NO_GRADIENT;
+      for (let i = 0; i < count; i++) if (!isRowDone[i]) levelGradient(i);
+      return (gradient ??= new Float64Array(count * nP));
     },
     levelGradient,
-    componentCount: Uint8Array.from(out, (o) => o.count),
-    labelWeight: Float64Array.from(out, (o) => o.weight),
-    sigma: Int8Array.from(out, (o) => o.sigma),
-    block: out.map((o) => o.block),
-    vector: out.map((o) => o.vector),
+    componentCount,
+    labelWeight,
+    sigma,
+    block,
+    vector,
   };
 }
 
@@ -361,17 +391,24 @@ interface PartTerms {
 /** What one level's gradient row is computed from. */
 interface GradientSource {
   terms: () => PartTerms;
-  /** The part's eigenvectors (column-major, local basis) and the level's column. */
-  vectors: Float64Array;
-  column: number;
-  order: number;
+  /** The level's eigenvector over the unfolded basis, and the part's folded columns (in its local order). */
+  vector: Float64Array;
+  members: Int32Array;
+  fold: Fold;
 }
 
 /** ∂E/∂p of one level into row (zeroed first). */
 function gradientRow(source: GradientSource, row: Float64Array): void {
   const t = source.terms();
-  const mc = source.order;
-  const c = source.vectors.subarray(source.column * mc, (source.column + 1) * mc);
+  const { members, fold, vector } = source;
+  // The level's coefficients over the part's folded columns, back from the unfolded vector: a
+  // σv pair (|i⟩ ± |j⟩)/√2 has c·√½ on |i⟩.
+  const mc = members.length;
+  const c = new Float64Array(mc);
+  for (let q = 0; q < mc; q++) {
+    const a = members[q];
+    c[q] = fold.colJ[a] >= 0 ? vector[fold.colI[a]] * Math.SQRT2 : vector[fold.colI[a]];
+  }
   row.fill(0);
   for (let q = 0; q < t.pairA.length; q++) {
     const w = c[t.pairA[q]] * c[t.pairB[q]];
@@ -380,23 +417,42 @@ function gradientRow(source: GradientSource, row: Float64Array): void {
   }
 }
 
-/** The derivative terms of a part, built on first use (levels asked without gradients never build them). */
-function partTermsLazy(part: FoldPart, fold: Fold, el: Elements, nP: number): () => PartTerms {
+/**
+ * The derivative terms of a part, built on first use from the block's elements with their ∂H/∂p
+ * terms (made then): levels asked without gradients never build either.
+ */
+function partTermsLazy(part: FoldPart, fold: Fold, elements: () => { el: ElementList; inside: Int32Array[] }, nP: number): () => PartTerms {
   let terms: PartTerms | null = null;
-  return () => (terms ??= partTerms(part, fold, el, nP));
+  return () => {
+    if (!terms) {
+      const { el, inside } = elements();
+      terms = partTerms(part, fold, el, inside[part.component], nP);
+    }
+    return terms;
+  };
 }
 
-function partTerms(part: FoldPart, fold: Fold, el: Elements, nP: number): PartTerms {
+/** The unfolded elements inside each part of a folded block (both ends in the part), by part. */
+function elementsByPart(fold: Fold, parts: FoldPart[], el: ElementList): { el: ElementList; inside: Int32Array[] } {
+  const lists: number[][] = parts.map(() => []);
+  const componentOf = parts[0].componentOf;
+  for (let e = 0; e < el.row.length; e++) {
+    const a = fold.foldCol[el.row[e]];
+    const b = fold.foldCol[el.col[e]];
+    if (a >= 0 && b >= 0 && componentOf[a] === componentOf[b]) lists[componentOf[a]].push(e);
+  }
+  return { el, inside: lists.map((list) => Int32Array.from(list)) };
+}
+
+function partTerms(part: FoldPart, fold: Fold, el: ElementList, elements: Int32Array, nP: number): PartTerms {
   const mc = part.members.length;
   const local = new Int32Array(fold.m).fill(-1);
   part.members.forEach((a, t) => (local[a] = t));
-  // Elements ordered by their (a ≤ b) pair (packed key·PACK + element number, a plain numeric sort);
-  // each pair's terms are summed per parameter.
-  const ne = part.elements.length;
+  const ne = elements.length;
   const packed = new Float64Array(ne);
   let termBound = 0;
   for (let q = 0; q < ne; q++) {
-    const e = part.elements[q];
+    const e = elements[q];
     const a = local[fold.foldCol[el.row[e]]];
     const b = local[fold.foldCol[el.col[e]]];
     packed[q] = (Math.min(a, b) * mc + Math.max(a, b)) * PACK + q;
@@ -417,7 +473,7 @@ function partTerms(part: FoldPart, fold: Fold, el: Elements, nP: number): PartTe
     const key = Math.floor(packed[q] / PACK);
     let nTouched = 0;
     for (; q < ne && Math.floor(packed[q] / PACK) === key; q++) {
-      const e = part.elements[packed[q] % PACK];
+      const e = elements[packed[q] % PACK];
       const i = el.row[e];
       const j = el.col[e];
       const g = i === j ? fold.foldCoef[i] * fold.foldCoef[i] : 2 * fold.foldCoef[i] * fold.foldCoef[j];
@@ -513,36 +569,69 @@ interface FoldedElements {
   value: Float64Array;
 }
 
-function foldedElements(fold: Fold, el: Elements): FoldedElements {
+function foldedElements(fold: Fold, el: ElementList): FoldedElements {
   const m = fold.m;
-  // Elements ordered by their folded pair (packed pair·PACK + element number, a plain numeric sort);
-  // the two σv images of an element fall on the same pair and are summed.
-  const keys: number[] = [];
-  for (let e = 0; e < el.row.length; e++) {
+  const ne = el.row.length;
+  // The elements by the smaller folded column of their pair (a counting sort, element order kept);
+  // then, column by column, the two σv images of an element (and any element on the same pair) are
+  // summed per partner column in element order, and the pairs given by ascending partner.
+  const low = new Int32Array(ne);
+  const high = new Int32Array(ne);
+  const start = new Int32Array(m + 1);
+  for (let e = 0; e < ne; e++) {
     const a = fold.foldCol[el.row[e]];
     const b = fold.foldCol[el.col[e]];
-    if (a >= 0 && b >= 0) keys.push((Math.min(a, b) * m + Math.max(a, b)) * PACK + e);
+    if (a < 0 || b < 0) {
+      low[e] = -1;
+      continue;
+    }
+    low[e] = a < b ? a : b;
+    high[e] = a < b ? b : a;
+    start[low[e] + 1]++;
   }
-  const packed = Float64Array.from(keys).sort();
-  const pairA = new Int32Array(packed.length);
-  const pairB = new Int32Array(packed.length);
-  const value = new Float64Array(packed.length);
+  for (let a = 0; a < m; a++) start[a + 1] += start[a];
+  const total = start[m];
+  const order = new Int32Array(total);
+  const fill = start.slice(0, m);
+  for (let e = 0; e < ne; e++) if (low[e] >= 0) order[fill[low[e]]++] = e;
+  const pairA = new Int32Array(total);
+  const pairB = new Int32Array(total);
+  const value = new Float64Array(total);
+  const sum = new Float64Array(m);
+  const isTouched = new Uint8Array(m);
+  const touched = new Int32Array(m);
   let count = 0;
-  for (let q = 0; q < packed.length;) {
-    const key = Math.floor(packed[q] / PACK);
-    let sum = 0;
-    for (; q < packed.length && Math.floor(packed[q] / PACK) === key; q++) {
-      const e = packed[q] % PACK;
+  for (let a = 0; a < m; a++) {
+    let nTouched = 0;
+    for (let q = start[a]; q < start[a + 1]; q++) {
+      const e = order[q];
       const i = el.row[e];
       const j = el.col[e];
-      const a = fold.foldCol[i];
+      const b = high[e];
       const v = fold.foldCoef[i] * fold.foldCoef[j] * el.value[e];
-      sum += i !== j && a === fold.foldCol[j] ? 2 * v : v;
+      if (!isTouched[b]) {
+        isTouched[b] = 1;
+        touched[nTouched++] = b;
+      }
+      sum[b] += i !== j && a === b ? 2 * v : v;
     }
-    if (sum === 0) continue;
-    pairA[count] = Math.floor(key / m);
-    pairB[count] = key % m;
-    value[count++] = sum;
+    // Few partners per column (one per term and direction): an insertion sort.
+    for (let t = 1; t < nTouched; t++) {
+      const b = touched[t];
+      let u = t - 1;
+      for (; u >= 0 && touched[u] > b; u--) touched[u + 1] = touched[u];
+      touched[u + 1] = b;
+    }
+    for (let t = 0; t < nTouched; t++) {
+      const b = touched[t];
+      if (sum[b] !== 0) {
+        pairA[count] = a;
+        pairB[count] = b;
+        value[count++] = sum[b];
+      }
+      sum[b] = 0;
+      isTouched[b] = 0;
+    }
   }
   return { pairA: pairA.slice(0, count), pairB: pairB.slice(0, count), value: value.slice(0, count) };
 }
@@ -563,20 +652,28 @@ interface FoldPart {
   /** Smallest column index (names the part in the label memory). */
   first: number;
   bandwidth: number;
-  /** Indices of the unfolded elements inside the part (for ∂E/∂p). */
-  elements: Int32Array;
   /** Indices of the folded pairs inside the part, and every folded column's position in its part. */
   pairs: Int32Array;
   position: Int32Array;
+  /** The part's number and every folded column's part (which unfolded elements belong to it, for ∂E/∂p). */
+  component: number;
+  componentOf: Int32Array;
 }
 
 /** The whole folded block as one part (the dense reference). */
-function foldWhole(fold: Fold, el: Elements): FoldPart[] {
+function foldWhole(fold: Fold): FoldPart[] {
   const members = Int32Array.from({ length: fold.m }, (_, a) => a);
-  const inside: number[] = [];
-  for (let e = 0; e < el.row.length; e++) if (fold.foldCol[el.row[e]] >= 0 && fold.foldCol[el.col[e]] >= 0) inside.push(e);
-  const elements = Int32Array.from(inside);
-  return [{ members, first: 0, bandwidth: Math.max(0, fold.m - 1), elements, pairs: new Int32Array(0), position: members }];
+  return [
+    {
+      members,
+      first: 0,
+      bandwidth: Math.max(0, fold.m - 1),
+      pairs: new Int32Array(0),
+      position: members,
+      component: 0,
+      componentOf: new Int32Array(fold.m),
+    },
+  ];
 }
 
 /**
@@ -587,7 +684,7 @@ function foldWhole(fold: Fold, el: Elements): FoldPart[] {
  * separate components by itself. Each component's columns are ordered by k of their first function
  * (every term has a bounded Δk, so the sub-block is a band matrix) and its half bandwidth measured.
  */
-function foldComponents(fold: Fold, el: Elements, folded: FoldedElements, basis: BasisFn[]): FoldPart[] {
+function foldComponents(fold: Fold, folded: FoldedElements, basis: BasisFn[]): FoldPart[] {
   const m = fold.m;
   const parent = Int32Array.from({ length: m }, (_, a) => a);
   const root = (a: number): number => {
@@ -620,7 +717,7 @@ function foldComponents(fold: Fold, el: Elements, folded: FoldedElements, basis:
   const parts = lists.map((list, c) => {
     list.sort((p, q) => basis[fold.colI[p]].k - basis[fold.colI[q]].k || p - q);
     list.forEach((a, t) => (position[a] = t));
-    return { members: Int32Array.from(list), first: firsts[c], bandwidth: 0, elements: [] as number[], pairs: [] as number[] };
+    return { members: Int32Array.from(list), first: firsts[c], bandwidth: 0, pairs: [] as number[] };
   });
   for (let q = 0; q < folded.value.length; q++) {
     const a = folded.pairA[q];
@@ -629,12 +726,7 @@ function foldComponents(fold: Fold, el: Elements, folded: FoldedElements, basis:
     part.pairs.push(q);
     part.bandwidth = Math.max(part.bandwidth, Math.abs(position[a] - position[b]));
   }
-  for (let e = 0; e < el.row.length; e++) {
-    const a = fold.foldCol[el.row[e]];
-    const b = fold.foldCol[el.col[e]];
-    if (a >= 0 && b >= 0 && compOf[a] === compOf[b]) parts[compOf[a]].elements.push(e);
-  }
-  return parts.map((p) => ({ ...p, elements: Int32Array.from(p.elements), pairs: Int32Array.from(p.pairs), position }));
+  return parts.map((p, c) => ({ ...p, pairs: Int32Array.from(p.pairs), position, component: c, componentOf: compOf }));
 }
 
 /** A part's sub-block as band rows (bandEigen's layout, lower half filled). */
@@ -731,55 +823,96 @@ export function coupledLabelFollow(
   return { labels, meanOverlap: n > 0 ? sum / n : 1 };
 }
 
-/** Every nonzero matrix element of a class block (each pair once), with ∂/∂p. */
-function blockElements(group: CoupledGroup, J: number, x: number, p: ArrayLike<number>, basis: BasisFn[]): Elements {
-  const el: Elements = { row: [], col: [], value: [], dStart: [0], dParam: [], dCoef: [] };
-  const index = new Map<number, number>();
-  const code = (state: number, k: number, ell: number) => (state * 4096 + (k + 2048)) * 4 + (ell + 1);
-  basis.forEach((b, i) => index.set(code(b.state, b.k, b.ell), i));
+/**
+ * The matrix elements of a class block, each pair once, in the order they are made; the ∂H_ij/∂p
+ * terms only when asked (`withDerivatives`), so a call without them allocates nothing per element.
+ * Two calls over the same block make the same elements in the same order (their indices agree).
+ */
+class ElementList implements ElementSink {
+  row: number[] = [];
+  col: number[] = [];
+  value: number[] = [];
+  /** Element e's terms are dParam/dCoef[dStart[e] … dStart[e + 1]) (with derivatives only). */
+  dStart: number[] = [];
+  dParam: number[] = [];
+  dCoef: number[] = [];
+  constructor(readonly withDerivatives: boolean) {}
+  add(i: number, j: number, value: number): boolean {
+    if (j < 0) return false;
+    this.row.push(i);
+    this.col.push(j);
+    this.value.push(value);
+    if (this.withDerivatives) this.dStart.push(this.dParam.length);
+    return true;
+  }
+  term(param: number, coef: number): void {
+    this.dParam.push(param);
+    this.dCoef.push(coef);
+  }
+  /** Close the last element's terms (dStart gets its final entry). */
+  close(): this {
+    if (this.withDerivatives) this.dStart.push(this.dParam.length);
+    return this;
+  }
+}
+
+/** A class block's basis functions by (state, k, ℓ): the index of a function, or −1 when it is not in the block. */
+function basisFinder(states: number, J: number, basis: BasisFn[]): (state: number, k: number, ell: number) => number {
+  const span = 2 * J + 1;
+  const lookup = new Int32Array(states * span * 3).fill(-1);
+  basis.forEach((b, i) => (lookup[(b.state * span + b.k + J) * 3 + b.ell + 1] = i));
+  return (state, k, ell) => (k < -J || k > J ? -1 : lookup[(state * span + k + J) * 3 + ell + 1]);
+}
+
+/** Every nonzero matrix element of a class block (each pair once), with ∂/∂p when asked. */
+function blockElements(
+  group: CoupledGroup,
+  J: number,
+  x: number,
+  p: ArrayLike<number>,
+  basis: BasisFn[],
+  withDerivatives: boolean,
+): ElementList {
+  const el = new ElementList(withDerivatives);
+  const find = basisFinder(group.states.length, J, basis);
   const poly = new Float64Array(14);
-  const push = (i: number, j: number | undefined, value: number, derivs: number[]) => {
-    if (j === undefined) return;
-    el.row.push(i);
-    el.col.push(j);
-    el.value.push(value);
-    for (let d = 0; d < derivs.length; d += 2) {
-      el.dParam.push(derivs[d]);
-      el.dCoef.push(derivs[d + 1]);
-    }
-    el.dStart.push(el.dParam.length);
-  };
   basis.forEach((b, i) => {
     const st = group.states[b.state];
     const o = group.stateOffset[b.state];
     rotorPolynomialBasis(J, b.k, poly);
     let e = p[o];
-    const d: number[] = [o, 1];
-    for (let t = 0; t < 14; t++) {
-      e += p[o + 1 + t] * poly[t];
-      d.push(o + 1 + t, poly[t]);
-    }
+    for (let t = 0; t < 14; t++) e += p[o + 1 + t] * poly[t];
     if (st.isDegenerate) {
       // origin, B, U, …(14 polynomial)…, zeta, etaJ, etaK, q22, q22J, q12
       const kl = b.k * b.ell;
       const iU = o + 2;
       const iZ = o + 15;
       e += -2 * p[iU] * p[iZ] * kl + p[o + 16] * x * kl + p[o + 17] * b.k * b.k * kl;
-      d.push(iU, -2 * p[iZ] * kl, iZ, -2 * p[iU] * kl, o + 16, x * kl, o + 17, b.k * b.k * kl);
-      push(i, i, e, d);
+      el.add(i, i, e);
+      if (withDerivatives) {
+        diagonalTerms(el, o, poly);
+        el.term(iU, -2 * p[iZ] * kl);
+        el.term(iZ, -2 * p[iU] * kl);
+        el.term(o + 16, x * kl);
+        el.term(o + 17, b.k * b.k * kl);
+      }
       if (b.ell === 1) {
         const f = ellQ22Factor(x, b.k);
-        if (f !== 0) push(i, index.get(code(b.state, b.k - 2, -1)), f * (p[o + 18] + p[o + 19] * x), [o + 18, f, o + 19, f * x]);
+        if (f !== 0 && el.add(i, find(b.state, b.k - 2, -1), f * (p[o + 18] + p[o + 19] * x)) && withDerivatives) {
+          el.term(o + 18, f);
+          el.term(o + 19, f * x);
+        }
       } else {
         const f = ellQ12Factor(x, b.k);
-        if (f !== 0) push(i, index.get(code(b.state, b.k - 1, 1)), f * p[o + 20], [o + 20, f]);
+        if (f !== 0 && el.add(i, find(b.state, b.k - 1, 1), f * p[o + 20]) && withDerivatives) el.term(o + 20, f);
       }
     } else {
-      push(i, i, e, d);
+      el.add(i, i, e);
+      if (withDerivatives) diagonalTerms(el, o, poly);
       const iH3 = o + 15;
       let f = 1;
       for (let t = 0; t < 6 && f !== 0; t++) f *= Math.sqrt(Math.max(0, x - (b.k + t) * (b.k + t + 1)));
-      if (f !== 0) push(i, index.get(code(b.state, b.k + 6, 0)), p[iH3] * f, [iH3, f]);
+      if (f !== 0 && el.add(i, find(b.state, b.k + 6, 0), p[iH3] * f) && withDerivatives) el.term(iH3, f);
     }
   });
   group.interactions.forEach((it, n) => {
@@ -790,7 +923,11 @@ function blockElements(group: CoupledGroup, J: number, x: number, p: ArrayLike<n
       basis.forEach((b, i) => {
         if (b.state !== it.stateA) return;
         const k2 = b.k * b.k;
-        push(i, index.get(code(it.stateB, b.k, b.ell)), p[o] + p[o + 1] * x + p[o + 2] * k2, [o, 1, o + 1, x, o + 2, k2]);
+        if (el.add(i, find(it.stateB, b.k, b.ell), p[o] + p[o + 1] * x + p[o + 2] * k2) && withDerivatives) {
+          el.term(o, 1);
+          el.term(o + 1, x);
+          el.term(o + 2, k2);
+        }
       });
       return;
     }
@@ -800,35 +937,27 @@ function blockElements(group: CoupledGroup, J: number, x: number, p: ArrayLike<n
       basis.forEach((b, i) => {
         if (b.state !== s) return;
         const k = b.k;
-        for (const sign of [1, -1]) {
+        for (let sign = 1; sign >= -1; sign -= 2) {
           // Δk = ±1, Δℓ = ±1.
           const r = Math.sqrt(Math.max(0, x - k * (k + sign)));
           if (r > 0) {
             const kAvg2 = (k + sign / 2) ** 2;
             const c = p[o] + p[o + 1] * x + p[o + 2] * kAvg2 + p[o + 5] * x * x;
-            push(i, index.get(code(dg, k + sign, sign)), sign * c * r, [
-              o,
-              sign * r,
-              o + 1,
-              sign * r * x,
-              o + 2,
-              sign * r * kAvg2,
-              o + 5,
-              sign * r * x * x,
-            ]);
+            if (el.add(i, find(dg, k + sign, sign), sign * c * r) && withDerivatives) {
+              el.term(o, sign * r);
+              el.term(o + 1, sign * r * x);
+              el.term(o + 2, sign * r * kAvg2);
+              el.term(o + 5, sign * r * x * x);
+            }
           }
           // Δk = ∓2, Δℓ = ±1; (k ∓ 1)² is the mean k of the pair, squared (σv-symmetric).
           const r2 = Math.sqrt(Math.max(0, x - k * (k - sign))) * Math.sqrt(Math.max(0, x - (k - sign) * (k - 2 * sign)));
           const kMid2 = (k - sign) ** 2;
-          if (r2 > 0)
-            push(i, index.get(code(dg, k - 2 * sign, sign)), (p[o + 3] + p[o + 4] * x + p[o + 6] * kMid2) * r2, [
-              o + 3,
-              r2,
-              o + 4,
-              r2 * x,
-              o + 6,
-              r2 * kMid2,
-            ]);
+          if (r2 > 0 && el.add(i, find(dg, k - 2 * sign, sign), (p[o + 3] + p[o + 4] * x + p[o + 6] * kMid2) * r2) && withDerivatives) {
+            el.term(o + 3, r2);
+            el.term(o + 4, r2 * x);
+            el.term(o + 6, r2 * kMid2);
+          }
         }
       });
       return;
@@ -837,15 +966,27 @@ function blockElements(group: CoupledGroup, J: number, x: number, p: ArrayLike<n
     basis.forEach((b, i) => {
       if (b.state !== it.stateA) return;
       const kl = b.k * b.ell;
-      if (kl !== 0) push(i, index.get(code(it.stateB, b.k, b.ell)), (p[o] + p[o + 1] * x) * kl, [o, kl, o + 1, x * kl]);
+      if (kl !== 0 && el.add(i, find(it.stateB, b.k, b.ell), (p[o] + p[o + 1] * x) * kl) && withDerivatives) {
+        el.term(o, kl);
+        el.term(o + 1, x * kl);
+      }
       const sign = b.ell;
       const r = Math.sqrt(Math.max(0, x - b.k * (b.k + sign)));
       if (r > 0) {
         const c = p[o + 2] + p[o + 3] * x;
-        push(i, index.get(code(it.stateB, b.k + sign, -sign)), sign * c * r, [o + 2, sign * r, o + 3, sign * r * x]);
+        if (el.add(i, find(it.stateB, b.k + sign, -sign), sign * c * r) && withDerivatives) {
+          el.term(o + 2, sign * r);
+          el.term(o + 3, sign * r * x);
+        }
       }
     });
   });
-  coupledHigherTermElements(group, x, p, basis, (s, k, ell) => index.get(code(s, k, ell)), push);
-  return el;
+  coupledHigherTermElements(group, x, p, basis, find, el);
+  return el.close();
+}
+
+/** The ∂/∂p terms of a diagonal element common to every state: origin and the 14 rotor-polynomial constants. */
+function diagonalTerms(el: ElementList, o: number, poly: Float64Array): void {
+  el.term(o, 1);
+  for (let t = 0; t < 14; t++) el.term(o + 1 + t, poly[t]);
 }
