@@ -159,8 +159,11 @@ export function assistantQHeadStart(
   const bu = Math.abs(model.upper.B);
   const bl = Math.abs(model.lower.B) || bu;
   const z = model.upper.zeta;
-  const half1 = WINDOW_MARGIN * 2 * (o.uniqueFraction * au * Math.abs(1 - z) + o.zeta * au + 0.005 * bu);
   const half2 = WINDOW_MARGIN * (o.uniqueDifferenceFraction * au + o.bDifferenceFraction * bl);
+  // The reference may itself be one sub-band off (its lines fit any sub-band's pattern in J): the
+  // others then sit at c(m ± 1) − c(m_ref ± 1), a spacing 2·c2 different, which the window covers.
+  const c2Guess = Math.abs(combOf(model, unique)[2]);
+  const half1 = WINDOW_MARGIN * 2 * (o.uniqueFraction * au * Math.abs(1 - z) + o.zeta * au + 0.005 * bu) + 2 * (c2Guess + half2);
   const half0 = tauCm1;
 
   // Lines of each sub-band (m ≠ m_ref, |m| ≤ maxSignedK), strongest first.
