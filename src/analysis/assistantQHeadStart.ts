@@ -10,7 +10,7 @@ import type { PeakList } from './peaksFind';
 export interface AssistantQHeadOptions {
   /** Sub-bands with |ΔK·K″| up to this enter the comb. @default 3 */
   maxSignedK?: number;
-  /** Lines per sub-band (strongest first, J″ ≤ 25). @default 40 */
+  /** Lines per sub-band (strongest first, J″ ≤ 12). @default 40 */
   linesPerSubBand?: number;
   /** First-guess error of A (C), fraction. @default 0.01 */
   uniqueFraction?: number;
@@ -100,7 +100,7 @@ function modelWithComb(model: BandModel, unique: 'A' | 'C', c: [number, number, 
  *
  * The sub-band origins lie on ν_sub(m) = c0 + c1 m + c2 m², m = ΔK·K″, with c0 = ν0 + A′(1 − 2ζ) − B′,
  * c1 = 2[A′(1 − ζ) − B′] (the spacing of the Q heads), c2 = (A′ − B′) − (A″ − B″) (C for an oblate top).
- * Every line of sub-band m moves with its origin, so the comb is placed jointly: the lines (J″ ≤ 25,
+ * Every line of sub-band m moves with its origin, so the comb is placed jointly: the lines (J″ ≤ 12,
  * the strongest linesPerSubBand) of all sub-bands with |m| ≤ maxSignedK other than the reference are
  * moved by δ0 + δ1 (m − m_ref) + δ2 (m² − m_ref²), δ1 and δ2 within the first guess's errors, δ0
  * within ± one line width τ (the reference is placed to that), and the (δ0, δ1, δ2) that puts the most
@@ -115,7 +115,12 @@ function modelWithComb(model: BandModel, unique: 'A' | 'C', c: [number, number, 
  * histogram voting as in assistantShiftSearch.
  * Limits: needs upper.origin, the upper unique constant and upper.zeta floatable; the comb's higher
  * orders (DK, DJK differences) are not searched, hence the small |m|.
- * @param model the first guess with the reference sub-band's origin and B shift applied (cm^-1)
+ * The reference may itself be one sub-band off (its lines fit any sub-band's pattern in J; the
+ * spacing window covers that case): the comb is then right relative to it and every label one off,
+ * which the caller must settle (the assign command runs the relabellings and keeps one only when it
+ * alone is decided).
+ * @param model constants fitted to the reference sub-band's lines (cm^-1): B′ and B″ must be good to
+ *   a fraction of a line width at J″ = 12, which a start's shifted B is not
  * @param peaks peaks of the trace (ascending, cm^-1)
  * @param floatable keys the fit may float
  * @param tauCm1 matching width τ: the median peak FWHM, cm^-1
