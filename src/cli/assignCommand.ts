@@ -2,8 +2,9 @@ import { assistantAutoExtend } from '../analysis/assistantAutoExtend';
 import { assistantPeakContext, assistantPeaksUsable } from '../analysis/assistantPeakContext';
 import { assistantLinesFromAssignments } from '../analysis/assistantReview';
 import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
-import { assistantLabelShift, LABEL_DECISIVE_MARGIN } from '../analysis/assistantLabelCheck';
+import { assistantLabelShift, LABEL_DECISIVE_MARGIN, type AssistantLabelShift } from '../analysis/assistantLabelCheck';
 import { assistantQBranchSearch } from '../analysis/assistantQBranchSearch';
+import { assistantQHeadStart } from '../analysis/assistantQHeadStart';
 import type { AssistantLine, AssistantRunResult, AssistantSuspect } from '../analysis/assistantTypes';
 import { assistantPosteriorFit, assistantPosteriorSigmas, assistantPriorSigmas } from '../analysis/assistantPosterior';
 import { peaksFind, type PeakList } from '../analysis/peaksFind';
@@ -78,7 +79,11 @@ function loadTrace(path: string, io: CliIo) {
  * once from its seeds relabelled that way, and the repeat kept only when it decides its own labels
  * and explains at least as many lines; a Π–Σ band's Q branch, which its P and R lines leave at the
  * guessed q, is placed by sliding the Q ladder along q (assistantQBranchSearch) and the run repeated
- * with those seeds. Both steps are said on the first stderr line.
+ * with those seeds. A perpendicular top's run that reached only the one sub-band the start placed
+ * places the comb of the other sub-bands (assistantQHeadStart) against its fitted constants and is
+ * run again with the comb's seeds; when that run is doubtful, each relabelling of the whole set
+ * (sub-band, P/R rung or J'' one up or down) is run and one kept only when it alone is decided.
+ * These steps are said on the first stderr line.
  * The fits float the model file's floated constants (plain numbers) that the lines can determine;
  * the model's jMax and kMax bound the lines sought. --tolerance is k of the k·σ window (default 3).
  *
@@ -342,7 +347,7 @@ function runFromModel(
 ): { run: AssistantRunResult; seeds: AssistantLine[]; note: string } {
   const options = { toleranceSigma: tolerance };
   const first = relabelledRun(model, floatable, peaks, seeds, tolerance);
-  return withQBranch(model, floatable, peaks, first, options);
+  return withQBranch(model, floatable, peaks, withSubBandComb(floatable, peaks, first, tolerance), options);
 }
 
 /** A Π–Σ run with at most this many Q lines has not placed its Q branch. */
@@ -377,6 +382,74 @@ function withQBranch(
     return { ...first, note: `${first.note}; ${found.text}, but the run with them was not kept` };
   return { run: again, seeds: [...first.seeds, ...qSeeds], note: `${first.note}; ${found.text}` };
 }
+
+/**
+ * A run of a perpendicular top's band that reached only one sub-band (the one the model-only search
+ * placed; the first guess's errors of A, ζ and A′ − A″ leave the others too far off to seed) places
+ * the comb of the other sub-bands against its fitted constants (assistantQHeadStart) and is run
+ * again with its lines and the comb's seeds; the repeat is kept only when it is decided and keeps
+ * at least as many lines.
+ */
+function withSubBandComb(
+  floatable: readonly string[],
+  peaks: PeakList,
+  first: { run: AssistantRunResult; seeds: AssistantLine[]; note: string },
+  tolerance: number,
+): { run: AssistantRunResult; seeds: AssistantLine[]; note: string } {
+  const { run } = first;
+  if (!run.fit || run.fit.model.shape === 'linear' || run.fit.model.band !== 'perpendicular') return first;
+  const live = run.lines.filter((l) => l.status !== 'rejected');
+  const subBands = new Set(live.filter((l) => !l.isExcluded).map((l) => `${l.kUpper - l.kLower}:${l.kLower}`));
+  if (subBands.size !== 1) return first;
+  const [deltaK, kLower] = [...subBands][0].split(':').map(Number);
+  const taken = new Set(live.flatMap((l) => (l.peakIndex === null ? [] : [l.peakIndex])));
+  const tau = assistantPeakContext(peaks).medianFwhmCm1;
+  const comb = assistantQHeadStart(run.fit.model, peaks, floatable, tau, { deltaK, kLower }, taken);
+  if (!comb.model || comb.lines.length === 0) return { ...first, note: `${first.note}; ${comb.text}` };
+  const seeds = [...live, ...comb.lines];
+  const nFirst = live.filter((l) => !l.isExcluded).length;
+  const isKept = (r: AssistantRunResult) => r.doubt === null && runSupport(r) >= nFirst;
+  const again = relabelledRun(comb.model, floatable, peaks, seeds, tolerance);
+  if (isKept(again.run))
+    return { run: again.run, seeds: [...first.seeds, ...comb.lines], note: `${first.note}; ${comb.text}${again.note}` };
+  // The comb is placed relative to the one sub-band the start found; if that sub-band (or its J
+  // numbering) was itself one off, so is every line: each relabelling of the whole set is run, and
+  // one is kept only when it alone is decided.
+  const decided: { run: AssistantRunResult; seeds: AssistantLine[]; what: string }[] = [];
+  for (const shift of COMB_RELABELLINGS) {
+    const what = `${shift.kind === 'subBand' ? 'sub-band' : shift.kind === 'rung' ? 'P/R rung' : "J''"} ${shift.step > 0 ? '+1' : '−1'}`;
+    const relabelled: AssistantLine[] = [];
+    for (const l of seeds.filter((x) => !x.isExcluded)) {
+      const q = assistantLabelShift(comb.model, shift, l);
+      if (q.jLower < 0 || q.kLower < 0 || assignmentCheck(q, comb.model) !== null) continue;
+      const reason = `${l.reason}; relabelled (${what}): the run with the sub-band comb in the first labels was doubtful`;
+      relabelled.push({ ...l, ...q, reason, note: reason });
+    }
+    const run = assistantAutoExtend({ model: comb.model, floatable, peaks, lines: relabelled, options: { toleranceSigma: tolerance } });
+    if (isKept(run)) decided.push({ run, seeds: relabelled, what });
+  }
+  if (decided.length === 1)
+    return {
+      run: decided[0].run,
+      seeds: decided[0].seeds,
+      note: `${first.note}; ${comb.text}, every line relabelled (${decided[0].what}: the only labelling the trace decides)`,
+    };
+  const why =
+    decided.length > 1
+      ? `${decided.length} relabellings are decided`
+      : (again.run.doubt ?? `${runSupport(again.run)} lines against ${nFirst}`);
+  return { ...first, note: `${first.note}; ${comb.text}, but the run with them was not kept (${why})` };
+}
+
+/** The relabellings of a whole run tried when the run with the sub-band comb is doubtful. */
+const COMB_RELABELLINGS: AssistantLabelShift[] = [
+  { kind: 'subBand', step: 1 },
+  { kind: 'subBand', step: -1 },
+  { kind: 'rung', step: 1 },
+  { kind: 'rung', step: -1 },
+  { kind: 'j', step: 1 },
+  { kind: 'j', step: -1 },
+];
 
 /** The loop from the seeds, repeated once from them relabelled when a rival labelling wins decisively (see runFromModel). */
 function relabelledRun(
