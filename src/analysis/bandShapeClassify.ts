@@ -46,7 +46,7 @@ export interface BandShapeClassification {
   /** Range B is good to, cm^-1 (when B is given). */
   bLow?: number;
   bHigh?: number;
-  /** Whether that range is narrow enough (within ±15 % of B) to call B determined (when B is given). */
+  /** Whether that range is narrow enough (within ±15 % of B; ±10 % from a Π–Σ or Q-series envelope) to call B determined (when B is given). */
   bDetermined?: boolean;
   /**
    * What the envelope fit of a Q-branch series found (when it ran): the best shape and those that fit
@@ -688,8 +688,8 @@ export function bandShapeClassify(
   // Parallel bands of symmetric tops: held at the Q branch, the central 24 % of the band (the Q
   // branch, whose shape rests on ΔB and A, C that the profile does not give) left out, five values of
   // A/B or C/B competing; on the tuning seeds within 10 % on 19 of 23, the truth inside the range on
-  // 23 of 23. Not used for Π–Σ bands (the rigid model's single-position Q branch pulled B off by 60 %
-  // on a test band) or Q-branch series (the unique constant and ζ left B open by tens of per cent).
+  // 23 of 23. Π–Σ bands and Q-branch series have their own fits below (the Σ–Σ route's free origin
+  // pulled a Π–Σ band's B off by 10–99 %; one ζ per variant left a Q-series' B open by tens of per cent).
   let envelopeRange: [number, number] | null = null;
   let envelopeHeld = false;
   const envelopeType = type === 'linear-parallel' || (type === 'symmetric-top-parallel' && profile === 'PQR');
@@ -717,10 +717,17 @@ export function bandShapeClassify(
   }
   // Π–Σ bands of linear molecules: the whole envelope with the Q branch in the model (its lines at
   // ν0 − B), the origin held so that the Q branch sits on the trace's, the Q branch's own core (where
-  // ΔB shades it, which the rigid model leaves out) left out of the comparison.
-  // Perpendicular bands of symmetric tops with a resolved Q-branch comb: B and A − B (C − B) fitted
-  // together to the whole envelope with the comb's spacing, phase and curvature held
-  // (bandEnvelopeQSeriesFit).
+  // ΔB shades it, which the rigid model leaves out) left out of the comparison. On generated Π–Σ
+  // bands (test/analysis/bandEnvelopeFit.test.ts, B 0.03–2.5 cm^-1, T 120–296 K, L 1–3 cm) within
+  // 10 %; on the seeded bands of bench:contour classify most Π–Σ readings are rated low (Q share
+  // between 30 and 50 %), so B is withheld there.
+  // Perpendicular bands of symmetric tops with a resolved Q-branch comb (option qSeriesEnvelope): B and
+  // A − B (C − B) fitted together to the whole envelope with the comb's spacing, phase and curvature
+  // held (bandEnvelopeQSeriesFit). Within 5 % on rigid generated bands; on the seeded bands (B′ =
+  // 0.997 B″, A′ = 0.996 A″, which the rigid model lacks) the fit often leaves several times the
+  // noise and its B is then off by tens of per cent, so B is given only when the fit leaves at most
+  // 1.5× the noise and its range spans at most a factor 1.5 (bench:contour classify --q-envelope:
+  // 2 of 25 tuning and 1 of 9 held-out Q-series, each with the truth inside the range).
   let newRange: { low: number; high: number; open: boolean } | null = null;
   if (type === 'linear-perpendicular' && profile === 'PQR' && centralSpike && bMethod !== 'line-spacing' && confidence !== 'low') {
     const spike = centralSpike;
