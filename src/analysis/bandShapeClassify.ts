@@ -21,7 +21,7 @@ export interface BandShapeClassifyOptions {
   /** Rotational temperature, K, for B from the P–R separation. Absent: ASSUMED_TEMPERATURE_K, said so. */
   temperatureK?: number;
   /**
-   * Also fit the envelope of a Q-branch series for B and A − B (bandEnvelopeQSeriesFit; 0.2–2 s per
+   * Also fit the envelope of a Q-branch series for B and A − B (bandEnvelopeQSeriesFit; about 1–4 s of CPU per
    * band), reported as `qSeriesEnvelope`. @default false
    */
   qSeriesEnvelope?: boolean;

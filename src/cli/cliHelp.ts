@@ -231,7 +231,7 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
       },
       {
         name: 'q-envelope',
-        text: 'also fit the envelope of a series of Q branches for B and A − B (C − B); takes 0.2–2 s',
+        text: 'also fit the envelope of a series of Q branches for B and A − B (C − B); about 1–4 s more per band',
         unit: 'flag',
         default: 'off',
       },
