@@ -88,6 +88,9 @@ const Q_SERIES_B_RATIO_GIVEN = 1.5;
  */
 const Q_SERIES_RMS_OVER_NOISE_GIVEN = 1.5;
 
+/** A PQR band whose Π–Σ envelope leaves less than this fraction of a parallel band's rms is read as Π–Σ (measured, see bandShapeClassify). */
+const PI_SIGMA_ENVELOPE_RMS_RATIO = 0.9;
+
 /** Temperature assumed for B from the P–R separation when none is given, K (room temperature). */
 export const ASSUMED_TEMPERATURE_K = 296;
 
@@ -666,6 +669,40 @@ export function bandShapeClassify(
     evidence.push(
       `the Q branch holds ${share} of the band's area (a Π–Σ band of a linear molecule puts ≈ 1/2 there, a parallel band of a prolate top much less)`,
     );
+    // Second opinion from the envelopes outside the Q branch: a Π–Σ band's P and R wings (its Q lines
+    // at ν0 − B, Hönl–London (J−1)/2, (J+2)/2) against a symmetric top's parallel band held at the Q
+    // branch. On the seeded bands of bench:contour classify (tuning seeds 0–79) the Π–Σ envelope left
+    // 0.80–0.93 of the parallel one's rms on 4 of 7 Π–Σ bands (0.99–1.06 on the rest) and ≥ 1.00 on
+    // every parallel band: below 0.9 the band is read as Π–Σ.
+    if (centralSpike && qShare >= 0.2 && !(confidence === 'medium' && type === 'linear-perpendicular')) {
+      const core = qBranchCore(x, y, centralSpike, step);
+      const pi = bandEnvelopeFit({
+        x,
+        y,
+        temperatureK: T,
+        types: ['linear-perpendicular'],
+        noiseSigma: sigma,
+        qBranchCm1: centralSpike.x,
+        maskHalfWidthCm1: core,
+      }).byType[0];
+      const par = bandEnvelopeFit({
+        x,
+        y,
+        temperatureK: T,
+        types: ['symmetric-top-parallel'],
+        noiseSigma: sigma,
+        originCm1: centralSpike.x,
+        maskHalfWidthCm1: core,
+      }).byType[0];
+      if (pi && par && pi.rms < PI_SIGMA_ENVELOPE_RMS_RATIO * par.rms) {
+        type = 'linear-perpendicular';
+        alternativeType = 'symmetric-top-parallel';
+        if (confidence === 'low') confidence = 'medium';
+        evidence.push(
+          `but outside the Q branch a Π–Σ band's envelope fits with ${(pi.rms / par.rms).toFixed(2)}× the residual of a symmetric top's parallel band (below ${PI_SIGMA_ENVELOPE_RMS_RATIO} on the seeded Π–Σ bands only): read as Π–Σ`,
+        );
+      }
+    }
     implication =
       'P, Q and R with one Q branch: a parallel band of a symmetric top or a Π–Σ (perpendicular) band of a linear molecule; ' +
       `the Q-branch share points to ${type === 'linear-perpendicular' ? 'the linear Π–Σ case' : 'the symmetric top'}` +
@@ -731,12 +768,7 @@ export function bandShapeClassify(
   let newRange: { low: number; high: number; open: boolean } | null = null;
   if (type === 'linear-perpendicular' && profile === 'PQR' && centralSpike && bMethod !== 'line-spacing' && confidence !== 'low') {
     const spike = centralSpike;
-    const floor = spike.height - 0.9 * spike.prominence;
-    let lo = spike.index;
-    while (lo > 0 && y[lo] > floor) lo--;
-    let hi = spike.index;
-    while (hi < n - 1 && y[hi] > floor) hi++;
-    const core = Math.max(spike.x - x[lo], x[hi] - spike.x, 3 * step);
+    const core = qBranchCore(x, y, spike, step);
     const fit = bandEnvelopeFit({
       x,
       y,
@@ -910,6 +942,16 @@ function residualPeriod(r: Float64Array, minLag: number, maxLag: number): { lag:
   const den = ac[best - 1] - 2 * ac[best] + ac[best + 1];
   const off = den < 0 ? (0.5 * (ac[best - 1] - ac[best + 1])) / den : 0;
   return { lag: best + off, strength: ac[best] };
+}
+
+/** Half-width of a Q branch's core, cm^-1: where the trace falls to its base + 10 % of its prominence (at least 3 samples). */
+function qBranchCore(x: Float64Array, y: Float64Array, spike: Peak, step: number): number {
+  const floor = spike.height - 0.9 * spike.prominence;
+  let lo = spike.index;
+  while (lo > 0 && y[lo] > floor) lo--;
+  let hi = spike.index;
+  while (hi < y.length - 1 && y[hi] > floor) hi++;
+  return Math.max(spike.x - x[lo], x[hi] - spike.x, 3 * step);
 }
 
 /** The two lobes farthest apart on either side of the centroid (P below, R above). */
