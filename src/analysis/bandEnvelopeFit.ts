@@ -37,7 +37,7 @@ export function smoothBoxes(y: Float64Array, sigmaSamples: number): Float64Array
 }
 
 /** One set of the constants the profile leaves open. */
-interface Variant {
+interface EnvelopeVariant {
   type: EnvelopeBandType;
   shape: TopShape;
   band: BandType;
@@ -45,9 +45,11 @@ interface Variant {
   unique: (B: number) => number | null;
   zeta: number;
   label: string;
+  /** Upper minus lower (U − B) (U = A or C), cm^-1: curves a perpendicular band's Q-branch comb. @default 0 */
+  deltaUniqueMinusB?: number;
 }
 
-function variantsFor(type: EnvelopeBandType, qSpacing: number | undefined): Variant[] {
+function variantsFor(type: EnvelopeBandType, qSpacing: number | undefined): EnvelopeVariant[] {
   if (type === 'linear-parallel') return [{ type, shape: 'linear', band: 'parallel', unique: () => 0, zeta: 0, label: 'linear Σ–Σ' }];
   if (type === 'linear-perpendicular')
     return [{ type, shape: 'linear', band: 'perpendicular', unique: () => 0, zeta: 0, label: 'linear Π–Σ' }];
@@ -74,7 +76,7 @@ function variantsFor(type: EnvelopeBandType, qSpacing: number | undefined): Vari
     ];
   }
   const q = Math.abs(qSpacing ?? 0);
-  const out: Variant[] = [];
+  const out: EnvelopeVariant[] = [];
   // Prolate: A(1 − ζ) − B = q/2 with A > B.
   for (const zeta of [-0.3, 0, 0.3, 0.6]) {
     out.push({
@@ -113,27 +115,22 @@ function variantsFor(type: EnvelopeBandType, qSpacing: number | undefined): Vari
   return out;
 }
 
+/** Sticks of a rigid band at origin 0: positions (cm^-1), weights and the weighted mean position (cm^-1). */
+interface EnvelopeStickList {
+  nu: Float64Array;
+  w: Float64Array;
+  count: number;
+  mean: number;
+}
+
 /**
- * Stick envelope of a rigid band (B′ = B″, unique constant the same in both states) deposited on a
- * uniform grid (linear split between the two nearest points), J and K sampled with strides that
- * keep the sampled lines closer than a quarter of `blurCm1` (each sampled line weighted by its
- * stride). Intensity g(K) · HL · exp(−c2 F″/T) (the ν and stimulated-emission factors, nearly
- * constant over a band, are left out). Term values and selection rules as bandLines (Herzberg II
- * (1945) ch. IV).
- * @returns the deposited envelope and the sticks' intensity-weighted mean position, cm^-1
+ * Sticks of a rigid band (B′ = B″, unique constant the same in both states) at origin 0, J and K
+ * sampled with strides that keep the sampled lines closer than a quarter of `blurCm1` (each sampled
+ * line weighted by its stride). Intensity g(K) · HL · exp(−c2 F″/T) (the ν and stimulated-emission
+ * factors, nearly constant over a band, are left out). Term values and selection rules as bandLines
+ * (Herzberg II (1945) ch. IV).
  */
-function envelopeSticks(
-  v: Variant,
-  B: number,
-  unique: number,
-  origin: number,
-  temperatureK: number,
-  x0: number,
-  step: number,
-  n: number,
-  blurCm1: number,
-): { hist: Float64Array; mean: number } {
-  const hist = new Float64Array(n);
+function envelopeStickList(v: EnvelopeVariant, B: number, unique: number, temperatureK: number, blurCm1: number): EnvelopeStickList {
   const c2T = SECOND_RADIATION_CM_K / temperatureK;
   const jMax = Math.ceil(Math.sqrt(10 / (c2T * B))) + 2;
   const linear = v.shape === 'linear';
@@ -142,17 +139,23 @@ function envelopeSticks(
   const sJ = Math.max(1, Math.floor((0.25 * blurCm1) / (2 * B)));
   const qAbs = linear || v.band === 'parallel' ? Infinity : Math.abs(2 * (unique * (1 - v.zeta) - B));
   const sK = Math.max(1, Math.floor((0.25 * blurCm1) / Math.max(qAbs === Infinity ? 2 * Math.abs(uMinusB) + 1e-9 : qAbs, 1e-9)));
-  let wSum = 0;
-  let wx = 0;
   const deltaKs = v.band === 'parallel' ? [0] : [1, -1];
   const kList: [number, number][] = [[0, 1]];
   for (let k = 1; k <= kMax; k += sK) kList.push([Math.min(kMax, k + Math.floor((sK - 1) / 2)), Math.min(sK, kMax - k + 1)]);
+  const cap = deltaKs.length * kList.length * 3 * (Math.floor(jMax / sJ) + 2);
+  const nu = new Float64Array(cap);
+  const wt = new Float64Array(cap);
+  let m = 0;
+  let wSum = 0;
+  let wx = 0;
   for (const deltaK of deltaKs) {
     for (const [K, kWeight] of kList) {
       if (deltaK === -1 && K === 0) continue;
       const kUp = linear ? (v.band === 'perpendicular' ? 1 : 0) : K + deltaK;
       const fK = linear ? 0 : uMinusB * K * K;
-      const fKUp = linear ? 0 : uMinusB * kUp * kUp - (v.band === 'perpendicular' ? 2 * unique * v.zeta * kUp * deltaK : 0);
+      const fKUp = linear
+        ? 0
+        : (uMinusB + (v.deltaUniqueMinusB ?? 0)) * kUp * kUp - (v.band === 'perpendicular' ? 2 * unique * v.zeta * kUp * deltaK : 0);
       const lPerp = linear && v.band === 'perpendicular';
       const pre = lineDegeneracy(v.band, K) * kWeight * sJ;
       for (let dJ = -1; dJ <= 1; dJ++) {
@@ -162,25 +165,55 @@ function envelopeSticks(
           if (hl <= 0) continue;
           const jUp = J + dJ;
           const eLow = B * J * (J + 1) + fK;
-          const nu = origin + B * (jUp * (jUp + 1) - (lPerp ? 1 : 0)) + fKUp - eLow;
+          const x = B * (jUp * (jUp + 1) - (lPerp ? 1 : 0)) + fKUp - eLow;
           const w = pre * hl * Math.exp(-c2T * eLow);
           wSum += w;
-          wx += w * nu;
-          const pos = (nu - x0) / step;
-          const i = Math.floor(pos);
-          if (i < 0 || i >= n - 1) continue;
-          const f = pos - i;
-          hist[i] += w * (1 - f);
-          hist[i + 1] += w * f;
+          wx += w * x;
+          nu[m] = x;
+          wt[m] = w;
+          m++;
         }
       }
     }
   }
-  return { hist, mean: wSum > 0 ? wx / wSum : origin };
+  return { nu, w: wt, count: m, mean: wSum > 0 ? wx / wSum : 0 };
+}
+
+/** Deposit sticks (shifted by originCm1) on a uniform grid x0 + i·step, i < n, each split between its two nearest points. */
+function envelopeSticksDeposit(list: EnvelopeStickList, originCm1: number, x0: number, step: number, n: number): Float64Array {
+  const hist = new Float64Array(n);
+  for (let k = 0; k < list.count; k++) {
+    const pos = (list.nu[k] + originCm1 - x0) / step;
+    const i = Math.floor(pos);
+    if (i < 0 || i >= n - 1) continue;
+    const f = pos - i;
+    hist[i] += list.w[k] * (1 - f);
+    hist[i + 1] += list.w[k] * f;
+  }
+  return hist;
+}
+
+/**
+ * Stick envelope of a rigid band deposited on a uniform grid (envelopeStickList, envelopeSticksDeposit).
+ * @returns the deposited envelope and the sticks' intensity-weighted mean position, cm^-1
+ */
+function envelopeSticks(
+  v: EnvelopeVariant,
+  B: number,
+  unique: number,
+  origin: number,
+  temperatureK: number,
+  x0: number,
+  step: number,
+  n: number,
+  blurCm1: number,
+): { hist: Float64Array; mean: number } {
+  const list = envelopeStickList(v, B, unique, temperatureK, blurCm1);
+  return { hist: envelopeSticksDeposit(list, origin, x0, step, n), mean: list.mean + origin };
 }
 
 /** Least squares of y ≈ a·s + b + c·t: the residual sum of squares and a (3×3 normal equations). */
-function scaleBaselineFit(s: Float64Array, y: Float64Array, t: Float64Array, keep: Uint8Array): { ss: number; a: number } {
+export function scaleBaselineFit(s: Float64Array, y: Float64Array, t: Float64Array, keep: Uint8Array): { ss: number; a: number } {
   const n = y.length;
   const m = [0, 0, 0, 0, 0, 0, 0, 0, 0];
   const r = [0, 0, 0];
@@ -233,8 +266,19 @@ export interface BandEnvelopeFitInput {
   noiseSigma: number;
   /** Band origin, cm^-1: held there. Absent: the synthetic's first moment is put on the trace's. */
   originCm1?: number;
-  /** Half-width about the origin left out of the comparison (a Q branch), cm^-1; needs originCm1. */
+  /** Half-width about the origin left out of the comparison (a Q branch), cm^-1; needs originCm1 or qBranchCm1. */
   maskHalfWidthCm1?: number;
+  /**
+   * Position of a Π–Σ band's unresolved Q branch, cm^-1: the origin is held at qBranchCm1 + B for
+   * each B tried (the Q lines of a rigid Π–Σ band lie at ν0 − B), and the mask is centred here.
+   */
+  qBranchCm1?: number;
+  /**
+   * Which residual rise counts as "fits about as well": `wide` adds 2·n·σ²/ν (ν the smoothing's
+   * effective sample count) to the 10 % tolerance, `two-sigma` adds 4σ² (Δχ² = 4 on the smoothing's
+   * effective independent points). @default 'wide'
+   */
+  rangeRule?: 'wide' | 'two-sigma';
 }
 
 /** What bandEnvelopeFit found for one band type. */
@@ -250,6 +294,8 @@ export interface BandEnvelopeTypeResult {
   rms: number;
   /** Which variant fitted best, in words. */
   variant: string;
+  /** Whether the range reaches the end of the B values tried (then the true range may be wider). */
+  bRangeOpen: boolean;
 }
 
 /** Result of bandEnvelopeFit: per type, best first. */
@@ -308,12 +354,15 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
   let evaluations = 0;
   const variants = input.types.flatMap((ty) => variantsFor(ty, input.qSpacing));
 
-  const model = (v: Variant, B: number, blurCm1: number): { sticks: Float64Array; origin: number } | null => {
+  const model = (v: EnvelopeVariant, B: number, blurCm1: number): { sticks: Float64Array; origin: number } | null => {
     const u = v.unique(B);
     if (u === null) return null;
     evaluations++;
     // Origin 0 put the band's first moment at first.mean; move it onto the trace's (unless given).
-    const origin = input.originCm1 ?? centroid - envelopeSticks(v, B, u, 0, T, x[0] - centroid, step, n, blurCm1).mean;
+    const origin =
+      input.qBranchCm1 !== undefined
+        ? input.qBranchCm1 + (v.shape === 'linear' && v.band === 'perpendicular' ? B : 0)
+        : (input.originCm1 ?? centroid - envelopeSticks(v, B, u, 0, T, x[0] - centroid, step, n, blurCm1).mean);
     const shifted = envelopeSticks(v, B, u, origin, T, x[0], step, n, blurCm1);
     return { sticks: shifted.hist, origin };
   };
@@ -322,9 +371,10 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
   const keepFor = (sigmaSamples: number): Uint8Array => {
     const keep = new Uint8Array(n).fill(1);
     const half = input.maskHalfWidthCm1;
-    if (half && input.originCm1 !== undefined) {
+    const maskCentre = input.qBranchCm1 ?? input.originCm1;
+    if (half && maskCentre !== undefined) {
       const reach = half + 1.5 * sigmaSamples * step;
-      for (let i = 0; i < n; i++) if (Math.abs(x[i] - input.originCm1) < reach) keep[i] = 0;
+      for (let i = 0; i < n; i++) if (Math.abs(x[i] - maskCentre) < reach) keep[i] = 0;
     }
     return keep;
   };
@@ -332,7 +382,7 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
   const sHeavy = Math.max(2, width / 30 / step);
   const keepHeavy = keepFor(sHeavy);
   const yHeavy = smoothBoxes(y, sHeavy);
-  const coarse: { v: Variant; B: number; ss: number }[] = [];
+  const coarse: { v: EnvelopeVariant; B: number; ss: number }[] = [];
   for (const v of variants) {
     for (let e = Math.log10(0.005); e <= 1 + 1e-9; e += 0.1) {
       const B = 10 ** e;
@@ -347,7 +397,7 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
   const yLight = smoothBoxes(y, sLight);
   const keepLight = keepFor(sLight);
   const widths = [0, 1.5, 3, 5].map((w) => Math.hypot(sLight, w));
-  const fine: { v: Variant; B: number; ss: number; origin: number }[] = [];
+  const fine: { v: EnvelopeVariant; B: number; ss: number; origin: number }[] = [];
   for (const v of variants) {
     const mine = coarse.filter((c) => c.v === v && Number.isFinite(c.ss));
     if (!mine.length) continue;
@@ -362,7 +412,8 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
     }
   }
   // Noise allowance: the light smoothing averages ~ 2√π σ samples, leaving σ²/(2√π σ_s) per point.
-  const noiseSs = (2 * n * input.noiseSigma ** 2) / (2 * Math.sqrt(Math.PI) * sLight);
+  const noiseSs =
+    input.rangeRule === 'two-sigma' ? 4 * input.noiseSigma ** 2 : (2 * n * input.noiseSigma ** 2) / (2 * Math.sqrt(Math.PI) * sLight);
   const byType: BandEnvelopeTypeResult[] = [];
   for (const type of input.types) {
     const rows = fine.filter((r) => r.v.type === type && Number.isFinite(r.ss));
@@ -370,6 +421,7 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
     const best = rows.reduce((a, r) => (r.ss < a.ss ? r : a));
     const cut = best.ss * (1 + ENVELOPE_SS_TOLERANCE) + noiseSs;
     const inside = rows.filter((r) => r.ss <= cut).map((r) => r.B);
+    const tried = rows.map((r) => r.B);
     byType.push({
       type,
       B: best.B,
@@ -378,6 +430,7 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
       origin: best.origin,
       rms: Math.sqrt(best.ss / n),
       variant: best.v.label,
+      bRangeOpen: Math.min(...inside) <= Math.min(...tried) * 1.0001 || Math.max(...inside) >= Math.max(...tried) * 0.9999,
     });
   }
   byType.sort((a, b) => a.rms - b.rms);

@@ -6,6 +6,7 @@
 import { SECOND_RADIATION_CM_K } from '../physics/constants';
 import { bandCentreTemplate } from './bandCentreTemplate';
 import { bandEnvelopeFit, smoothBoxes } from './bandEnvelopeFit';
+import { bandEnvelopeQSeriesFit } from './bandEnvelopeQSeriesFit';
 import { noiseSigmaEstimate } from './noiseSigmaEstimate';
 import { peakProminence } from './peakProminence';
 
@@ -19,6 +20,11 @@ export type BandShapeType = 'linear-parallel' | 'linear-perpendicular' | 'symmet
 export interface BandShapeClassifyOptions {
   /** Rotational temperature, K, for B from the P–R separation. Absent: ASSUMED_TEMPERATURE_K, said so. */
   temperatureK?: number;
+  /**
+   * Also fit the envelope of a Q-branch series for B and A − B (bandEnvelopeQSeriesFit; about 1–4 s of CPU per
+   * band), reported as `qSeriesEnvelope`. @default false
+   */
+  qSeriesEnvelope?: boolean;
 }
 
 /** Result of bandShapeClassify. */
@@ -40,8 +46,27 @@ export interface BandShapeClassification {
   /** Range B is good to, cm^-1 (when B is given). */
   bLow?: number;
   bHigh?: number;
-  /** Whether that range is narrow enough (within ±15 % of B) to call B determined (when B is given). */
+  /** Whether that range is narrow enough (within ±15 % of B; ±10 % from a Π–Σ or Q-series envelope) to call B determined (when B is given). */
   bDetermined?: boolean;
+  /**
+   * What the envelope fit of a Q-branch series found (when it ran): the best shape and those that fit
+   * about as well, U − B (U = A prolate, C oblate, cm^-1) with its range, ζ, and the range of B in
+   * cm^-1 (also when B is not given because that range is too wide).
+   */
+  qSeriesEnvelope?: {
+    shape: 'prolate' | 'oblate';
+    shapesFitting: ('prolate' | 'oblate')[];
+    uniqueMinusB: number;
+    uniqueMinusBLow: number;
+    uniqueMinusBHigh: number;
+    zeta: number;
+    /** Best B, cm^-1, and the range of B that fits about as well. */
+    B: number;
+    bLow: number;
+    bHigh: number;
+    /** rms residual of the best envelope over what the noise alone leaves (≈ 1 when the model fits to the noise). */
+    rmsOverNoise: number;
+  };
   /** Temperature used for B, K, and whether it was assumed. */
   temperatureK: number;
   temperatureAssumed: boolean;
@@ -50,6 +75,21 @@ export interface BandShapeClassification {
   /** What the profile implies. */
   implication: string;
 }
+
+/** Smallest half-range of B given from a Π–Σ or Q-series envelope fit, relative (the rigid model's own error, chosen here). */
+const ENVELOPE_B_FLOOR = 0.05;
+
+/** A Q-series envelope fit whose B range spans more than this factor gives no B (chosen here). */
+const Q_SERIES_B_RATIO_GIVEN = 1.5;
+
+/**
+ * A Q-series envelope fit whose residual exceeds this multiple of what the noise alone leaves gives no
+ * B: a model that does not fit to the noise can have its minimum anywhere (chosen here).
+ */
+const Q_SERIES_RMS_OVER_NOISE_GIVEN = 1.5;
+
+/** A PQR band whose Π–Σ envelope leaves less than this fraction of a parallel band's rms is read as Π–Σ (measured, see bandShapeClassify). */
+const PI_SIGMA_ENVELOPE_RMS_RATIO = 0.9;
 
 /** Temperature assumed for B from the P–R separation when none is given, K (room temperature). */
 export const ASSUMED_TEMPERATURE_K = 296;
@@ -314,6 +354,11 @@ export function bandShapeClassify(
   let B: number | null = null;
   let bMethod: BandShapeClassification['bMethod'] = 'none';
   let qSpacing: number | undefined;
+  // A Q-branch maximum near the centre and the comb's curvature (cm^-1 per index²), for B from the envelope.
+  let qAnchor: number | undefined;
+  // Set when resolved "J lines" disagree with the envelope's P–R maxima: the reading stays low.
+  let combDoubt = false;
+  let qCurvature = 0;
 
   const centre0 = tallest ? tallest.x : centroid;
   const twoLobes = lobes.some((l) => l.x < centre0) && lobes.some((l) => l.x > centre0);
@@ -360,13 +405,27 @@ export function bandShapeClassify(
   // bound only holds while no central Q branch holds more than a tenth of the band.
   const spikeShare = centralSpike ? qBranchShare(x, y, centralSpike, area, comb?.spacing ?? width / 20) : 0;
   const combTooCoarse = comb !== null && jRatio > jHigh && spikeShare < 0.1;
+  // A comb too fine for J lines (B = spacing/2 under jLow× what the band's spread gives; J-line combs
+  // gave 1.0–1.2) with no dominant central member is a cluster of Q branches (an oblate top's
+  // perpendicular band, Q spacing under 2B) even when less regular than the 85 % asked above.
+  const combTooFine =
+    comb !== null && jRatio < jLow && comb.regularity >= 0.75 && comb.members.length >= 8 && !combCentralPeak && spikeOnComb;
   const combIsQSeriesBySpacing =
-    combNotJLines && comb!.regularity >= 0.85 && comb!.members.length >= 5 && (combTooCoarse || (!combCentralPeak && spikeOnComb));
+    combNotJLines &&
+    comb!.members.length >= 5 &&
+    ((comb!.regularity >= 0.85 && (combTooCoarse || (!combCentralPeak && spikeOnComb))) || combTooFine);
   const combIsQSeries = (comb !== null && !twoLobes && !combDip && !combCentralPeak && !centralSpike) || combIsQSeriesBySpacing;
   if (comb && combIsQSeries) {
     profile = 'Q-series';
     const fit = qSeriesFit(comb.members, centroid);
     qSpacing = fit.spacing;
+    if (combTooFine && !(comb.regularity >= 0.85)) {
+      // A less regular comb (J lines among the Q branches) pulls the quadratic's linear term: the
+      // median gap is the spacing given (seeded band 7 of bench:contour classify: −4.9 % → −1.7 %).
+      qSpacing = Math.sign(fit.spacing || 1) * comb.spacing;
+    }
+    qAnchor = comb.members.reduce((a, p) => (Math.abs(p.x - centroid) < Math.abs(a.x - centroid) ? p : a)).x;
+    qCurvature = fit.curvature;
     origin = centroid;
     evidence.push(
       `${comb.members.length} sharp maxima on a regular comb (${Math.round(comb.regularity * 100)} % of gaps whole multiples of ${comb.spacing.toPrecision(4)} cm^-1) under one envelope, no dominant central peak: a series of Q branches`,
@@ -374,6 +433,10 @@ export function bandShapeClassify(
       'the origin is the band centroid (which Q branch is K = 0 needs the model or the intensity pattern)',
       'B is not read from a Q-branch series (the spacing gives A′(1−ζ) − B′, not B)',
     );
+    if (qSpacing !== fit.spacing)
+      evidence.push(
+        `the comb is less regular than 85 % (J lines among the Q branches pull the quadratic), so its median gap ${comb.spacing.toPrecision(4)} cm^-1 is given as the spacing`,
+      );
     if (combFromPeriod) evidence.push('the comb was found from the periodicity of the trace minus its envelope');
     if (combNotJLines)
       evidence.push(
@@ -429,6 +492,20 @@ export function bandShapeClassify(
       if (!gap) confidence = 'medium';
     }
     if (!twoLobes && !combDip) confidence = confidence === 'high' ? 'medium' : 'low';
+    // J lines of spacing 2B put the P and R envelope maxima 2.358√(BT) apart (Herzberg II ch. IV;
+    // a symmetric top's K structure only widens them): maxima much farther apart mean the comb is not
+    // this band's J lines (e.g. Q branches of an oblate top's perpendicular band, spacing near B).
+    if (twoLobes && profile !== 'PQR') {
+      const [pLobe, rLobe] = outerLobes(lobes, centre0);
+      const ratio = (rLobe.x - pLobe.x) / bandPrSeparation(B, T);
+      if (ratio > 1.3 || ratio < 0.75) {
+        confidence = 'low';
+        combDoubt = true;
+        evidence.push(
+          `but the envelope's P and R maxima lie ${(rLobe.x - pLobe.x).toPrecision(3)} cm^-1 apart, ${ratio.toFixed(2)}× what lines ${comb.spacing.toPrecision(3)} cm^-1 apart give at ${Math.round(T)} K (0.75–1.3 expected): the comb may not be this band's J lines`,
+        );
+      }
+    }
   } else if (twoLobes) {
     const [p, r] = outerLobes(lobes, centre0);
     const separation = r.x - p.x;
@@ -549,6 +626,8 @@ export function bandShapeClassify(
     if (cluster) {
       profile = 'Q-series';
       qSpacing = cluster.spacing;
+      qAnchor = qPeak.x;
+      qCurvature = cluster.curvature;
       origin = qPeak.x;
       B = null;
       bMethod = 'none';
@@ -558,6 +637,7 @@ export function bandShapeClassify(
       );
     }
   }
+  if (combDoubt) confidence = 'low';
   let type: BandShapeType;
   let alternativeType: BandShapeType | undefined;
   let implication: string;
@@ -589,6 +669,40 @@ export function bandShapeClassify(
     evidence.push(
       `the Q branch holds ${share} of the band's area (a Π–Σ band of a linear molecule puts ≈ 1/2 there, a parallel band of a prolate top much less)`,
     );
+    // Second opinion from the envelopes outside the Q branch: a Π–Σ band's P and R wings (its Q lines
+    // at ν0 − B, Hönl–London (J−1)/2, (J+2)/2) against a symmetric top's parallel band held at the Q
+    // branch. On the seeded bands of bench:contour classify (tuning seeds 0–79) the Π–Σ envelope left
+    // 0.80–0.93 of the parallel one's rms on 4 of 7 Π–Σ bands (0.99–1.06 on the rest) and ≥ 1.00 on
+    // every parallel band: below 0.9 the band is read as Π–Σ.
+    if (centralSpike && qShare >= 0.2 && !(confidence === 'medium' && type === 'linear-perpendicular')) {
+      const core = qBranchCore(x, y, centralSpike, step);
+      const pi = bandEnvelopeFit({
+        x,
+        y,
+        temperatureK: T,
+        types: ['linear-perpendicular'],
+        noiseSigma: sigma,
+        qBranchCm1: centralSpike.x,
+        maskHalfWidthCm1: core,
+      }).byType[0];
+      const par = bandEnvelopeFit({
+        x,
+        y,
+        temperatureK: T,
+        types: ['symmetric-top-parallel'],
+        noiseSigma: sigma,
+        originCm1: centralSpike.x,
+        maskHalfWidthCm1: core,
+      }).byType[0];
+      if (pi && par && pi.rms < PI_SIGMA_ENVELOPE_RMS_RATIO * par.rms) {
+        type = 'linear-perpendicular';
+        alternativeType = 'symmetric-top-parallel';
+        if (confidence === 'low') confidence = 'medium';
+        evidence.push(
+          `but outside the Q branch a Π–Σ band's envelope fits with ${(pi.rms / par.rms).toFixed(2)}× the residual of a symmetric top's parallel band (below ${PI_SIGMA_ENVELOPE_RMS_RATIO} on the seeded Π–Σ bands only): read as Π–Σ`,
+        );
+      }
+    }
     implication =
       'P, Q and R with one Q branch: a parallel band of a symmetric top or a Π–Σ (perpendicular) band of a linear molecule; ' +
       `the Q-branch share points to ${type === 'linear-perpendicular' ? 'the linear Π–Σ case' : 'the symmetric top'}` +
@@ -611,8 +725,8 @@ export function bandShapeClassify(
   // Parallel bands of symmetric tops: held at the Q branch, the central 24 % of the band (the Q
   // branch, whose shape rests on ΔB and A, C that the profile does not give) left out, five values of
   // A/B or C/B competing; on the tuning seeds within 10 % on 19 of 23, the truth inside the range on
-  // 23 of 23. Not used for Π–Σ bands (the rigid model's single-position Q branch pulled B off by 60 %
-  // on a test band) or Q-branch series (the unique constant and ζ left B open by tens of per cent).
+  // 23 of 23. Π–Σ bands and Q-branch series have their own fits below (the Σ–Σ route's free origin
+  // pulled a Π–Σ band's B off by 10–99 %; one ζ per variant left a Q-series' B open by tens of per cent).
   let envelopeRange: [number, number] | null = null;
   let envelopeHeld = false;
   const envelopeType = type === 'linear-parallel' || (type === 'symmetric-top-parallel' && profile === 'PQR');
@@ -636,6 +750,93 @@ export function bandShapeClassify(
         `B = ${fit.B.toPrecision(4)} cm^-1 from fitting the band's envelope${held ? ' outside the Q branch' : ''} (best: ${fit.variant}; ${tNote}); B from ${fit.bLow.toPrecision(3)} to ${fit.bHigh.toPrecision(3)} cm^-1 fits about as well` +
           (held ? '; if the band is an unresolved perpendicular one instead, this is not its B' : ''),
       );
+    }
+  }
+  // Π–Σ bands of linear molecules: the whole envelope with the Q branch in the model (its lines at
+  // ν0 − B), the origin held so that the Q branch sits on the trace's, the Q branch's own core (where
+  // ΔB shades it, which the rigid model leaves out) left out of the comparison. On generated Π–Σ
+  // bands (test/analysis/bandEnvelopeFit.test.ts, B 0.03–2.5 cm^-1, T 120–296 K, L 1–3 cm) within
+  // 10 %; on the seeded bands of bench:contour classify most Π–Σ readings are rated low (Q share
+  // between 30 and 50 %), so B is withheld there.
+  // Perpendicular bands of symmetric tops with a resolved Q-branch comb (option qSeriesEnvelope): B and
+  // A − B (C − B) fitted together to the whole envelope with the comb's spacing, phase and curvature
+  // held (bandEnvelopeQSeriesFit). Within 5 % on rigid generated bands; on the seeded bands (B′ =
+  // 0.997 B″, A′ = 0.996 A″, which the rigid model lacks) the fit often leaves several times the
+  // noise and its B is then off by tens of per cent, so B is given only when the fit leaves at most
+  // 1.5× the noise and its range spans at most a factor 1.5 (bench:contour classify --q-envelope:
+  // 2 of 25 tuning and 1 of 9 held-out Q-series, each with the truth inside the range).
+  let newRange: { low: number; high: number; open: boolean } | null = null;
+  if (type === 'linear-perpendicular' && profile === 'PQR' && centralSpike && bMethod !== 'line-spacing' && confidence !== 'low') {
+    const spike = centralSpike;
+    const core = qBranchCore(x, y, spike, step);
+    const fit = bandEnvelopeFit({
+      x,
+      y,
+      temperatureK: T,
+      types: ['linear-perpendicular'],
+      noiseSigma: sigma,
+      qBranchCm1: spike.x,
+      maskHalfWidthCm1: core,
+      rangeRule: 'two-sigma',
+    }).byType[0];
+    if (fit) {
+      if (B !== null) evidence.push(`the branch spread gave B = ${B.toPrecision(3)} cm^-1`);
+      B = fit.B;
+      bMethod = 'envelope-fit';
+      origin = fit.origin;
+      newRange = { low: fit.bLow, high: fit.bHigh, open: fit.bRangeOpen };
+      evidence.push(
+        `B = ${fit.B.toPrecision(4)} cm^-1 from fitting the Π–Σ band's envelope with its Q branch at ${spike.x.toFixed(3)} cm^-1 (the origin ν0 = Q + B, ${tNote}; the Q branch's core, ±${core.toPrecision(2)} cm^-1, left out); B from ${fit.bLow.toPrecision(3)} to ${fit.bHigh.toPrecision(3)} cm^-1 fits about as well${fit.bRangeOpen ? ' (and perhaps beyond: the range reaches the end of the values tried)' : ''}`,
+      );
+    }
+  }
+  let qSeriesEnvelope: BandShapeClassification['qSeriesEnvelope'];
+  if (
+    options.qSeriesEnvelope &&
+    profile === 'Q-series' &&
+    bMethod === 'none' &&
+    qSpacing !== undefined &&
+    qAnchor !== undefined &&
+    confidence !== 'low'
+  ) {
+    const fit = bandEnvelopeQSeriesFit({
+      x,
+      y,
+      temperatureK: T,
+      qSpacingCm1: qSpacing,
+      combAnchorCm1: qAnchor,
+      combCurvatureCm1: qCurvature,
+      noiseSigma: sigma,
+    });
+    if (fit) {
+      const wide = fit.bHigh / fit.bLow > Q_SERIES_B_RATIO_GIVEN;
+      const poor = fit.rmsOverNoise > Q_SERIES_RMS_OVER_NOISE_GIVEN;
+      qSeriesEnvelope = {
+        shape: fit.shape,
+        shapesFitting: fit.shapesFitting,
+        uniqueMinusB: fit.uniqueMinusB,
+        uniqueMinusBLow: fit.uniqueMinusBLow,
+        uniqueMinusBHigh: fit.uniqueMinusBHigh,
+        zeta: fit.zeta,
+        B: fit.B,
+        bLow: fit.bLow,
+        bHigh: fit.bHigh,
+        rmsOverNoise: fit.rmsOverNoise,
+      };
+      const u = fit.shape === 'prolate' ? 'A' : 'C';
+      const words = `the envelope of the whole band with the comb held (${Math.abs(qSpacing).toPrecision(4)} cm^-1 apart, curvature ${qCurvature.toPrecision(2)} cm^-1 per index²), B and ${u} − B fitted together (${tNote}): best B = ${fit.B.toPrecision(3)} cm^-1, ${fit.shape} with ${u} − B = ${fit.uniqueMinusB.toPrecision(3)} cm^-1 and ζ = ${fit.zeta.toFixed(2)}; B from ${fit.bLow.toPrecision(3)} to ${fit.bHigh.toPrecision(3)} cm^-1${fit.bRangeOpen ? ' or beyond' : ''} and ${fit.shapesFitting.join(' or ')} shapes fit about as well`;
+      if (poor) {
+        evidence.push(
+          `${words}; but the best envelope leaves a residual ${fit.rmsOverNoise.toFixed(1)}× what the noise alone would (the rigid model does not describe this band well enough), so B is not given`,
+        );
+      } else if (wide) {
+        evidence.push(`${words}; that range is wider than a factor ${Q_SERIES_B_RATIO_GIVEN}, so B is not given`);
+      } else {
+        B = fit.B;
+        bMethod = 'envelope-fit';
+        newRange = { low: fit.bLow, high: fit.bHigh, open: fit.bRangeOpen };
+        evidence.push(words);
+      }
     }
   }
   // The range B is good to: from resolved J lines within 5 % on the seeded bands (±8 % given), from
@@ -668,10 +869,18 @@ export function bandShapeClassify(
     // wings give another B (bench:contour classify: −35 % with a narrow range on tuning seed 59), so
     // B from it is never called determined.
     bDetermined = bLow >= 0.85 * B && bHigh <= 1.15 * B && !envelopeHeld;
-    if (envelopeHeld) evidence.push('B is not determined: the profile does not rule out an unresolved perpendicular band');
+    if (newRange) {
+      // Π–Σ and Q-series envelopes: the range that fits, at least ±ENVELOPE_B_FLOOR (the rigid model's
+      // own error), determined only within ±10 % and not reaching the end of the values tried.
+      bLow = Math.min(B * (1 - ENVELOPE_B_FLOOR), newRange.low);
+      bHigh = Math.max(B * (1 + ENVELOPE_B_FLOOR), newRange.high);
+      bDetermined = bLow >= 0.9 * B && bHigh <= 1.1 * B && !newRange.open;
+      if (newRange.open) evidence.push('B is not determined: the values that fit reach the end of those tried');
+      else if (!bDetermined) evidence.push('B is not determined: the range that fits is wider than ±10 %');
+    } else if (envelopeHeld) evidence.push('B is not determined: the profile does not rule out an unresolved perpendicular band');
     else if (!bDetermined) evidence.push('B is not determined: the range is wider than ±15 %');
     evidence.push(
-      `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round(rel * 100)} %, measured on seeded bands)`,
+      `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round((newRange ? ENVELOPE_B_FLOOR : rel) * 100)} %, measured on seeded bands)`,
     );
   } else {
     evidence.push('B is not given: this profile does not show it to 10 %');
@@ -699,6 +908,7 @@ export function bandShapeClassify(
     ...(bLow !== undefined ? { bLow } : {}),
     ...(bHigh !== undefined ? { bHigh } : {}),
     ...(bDetermined !== undefined ? { bDetermined } : {}),
+    ...(qSeriesEnvelope ? { qSeriesEnvelope } : {}),
     temperatureK: T,
     temperatureAssumed: bMethod === 'pr-separation' || bMethod === 'envelope-fit' ? temperatureAssumed : false,
     evidence: evidence.join('; ') + '.',
@@ -732,6 +942,16 @@ function residualPeriod(r: Float64Array, minLag: number, maxLag: number): { lag:
   const den = ac[best - 1] - 2 * ac[best] + ac[best + 1];
   const off = den < 0 ? (0.5 * (ac[best - 1] - ac[best + 1])) / den : 0;
   return { lag: best + off, strength: ac[best] };
+}
+
+/** Half-width of a Q branch's core, cm^-1: where the trace falls to its base + 10 % of its prominence (at least 3 samples). */
+function qBranchCore(x: Float64Array, y: Float64Array, spike: Peak, step: number): number {
+  const floor = spike.height - 0.9 * spike.prominence;
+  let lo = spike.index;
+  while (lo > 0 && y[lo] > floor) lo--;
+  let hi = spike.index;
+  while (hi < y.length - 1 && y[hi] > floor) hi++;
+  return Math.max(spike.x - x[lo], x[hi] - spike.x, 3 * step);
 }
 
 /** The two lobes farthest apart on either side of the centroid (P below, R above). */

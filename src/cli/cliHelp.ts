@@ -229,8 +229,14 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
         unit: 'K',
         default: '296, and the output says it was assumed',
       },
+      {
+        name: 'q-envelope',
+        text: 'also fit the envelope of a series of Q branches for B and A − B (C − B); about 1–4 s more per band',
+        unit: 'flag',
+        default: 'off',
+      },
     ],
-    output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, bLow, bHigh, bDetermined, temperature, temperatureAssumed, implication}; cm^-1. ${WARNINGS}`,
+    output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, bLow, bHigh, bDetermined, temperature, temperatureAssumed, implication, qSeriesEnvelope (with --q-envelope)}; cm^-1. ${WARNINGS}`,
     example: 'npm run --silent cli -- classify --trace lowres.csv --from 1100 --to 1200 --temperature 296',
   },
   perturbations: {

@@ -243,11 +243,21 @@ function spread(v: number[]): string {
   return `median ${(100 * q(0.5)).toFixed(1)} %, 90th pct ${(100 * q(0.9)).toFixed(1)} %, max ${(100 * a[a.length - 1]).toFixed(1)} %`;
 }
 
+/** B figures of one group of bands: within 10 % where given, truth inside the range, within 10 % where called determined. */
+function scoreB(group: string, given: { err: number; inRange: boolean; determined: boolean }[], missing: number): Record<string, string> {
+  return {
+    [`bWithin10pc${group}`]: `${given.filter((g) => Math.abs(g.err) <= 0.1).length}/${given.length} given (${missing} withheld)`,
+    [`bError${group}`]: spread(given.map((g) => g.err)),
+    [`bInsideRange${group}`]: `${given.filter((g) => g.inRange).length}/${given.length}`,
+    [`bDeterminedWithin10pc${group}`]: `${given.filter((g) => g.determined && Math.abs(g.err) <= 0.1).length}/${given.filter((g) => g.determined).length}`,
+  };
+}
+
 /**
- * classify N [FIRST]: the band-shape diagnosis alone on N cases of classifySpecRandom (every
+ * classify N [FIRST] [--q-envelope]: the band-shape diagnosis alone (with --q-envelope, also the Q-series envelope fit) on N cases of classifySpecRandom (every
  * apodization, curved baselines); per case and a summary by expected profile and by confidence.
  */
-function classifyCases(count: number, first: number): void {
+function classifyCases(count: number, first: number, withQEnvelope: boolean): void {
   const byProfile: Record<string, { n: number; ok: number }> = {};
   const byConfidence: Record<string, { n: number; ok: number }> = {};
   const bErr: number[] = [];
@@ -255,6 +265,11 @@ function classifyCases(count: number, first: number): void {
   let bMissing = 0;
   const bGiven: { err: number; inRange: boolean; determined: boolean }[] = [];
   let qMissing = 0;
+  // B of Q-branch series (visible as such) and of Π–Σ bands, scored apart (given since the 2-D envelope fit).
+  const bQSeries: { err: number; inRange: boolean; determined: boolean }[] = [];
+  let bQSeriesMissing = 0;
+  const bPiSigma: { err: number; inRange: boolean; determined: boolean }[] = [];
+  let bPiSigmaMissing = 0;
   let ms = 0;
   for (let s = first; s < first + count; s++) {
     const spec = classifySpecRandom(s);
@@ -275,7 +290,7 @@ function classifyCases(count: number, first: number): void {
     byProfile[key].n++;
     try {
       const t0 = performance.now();
-      const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: spec.temperatureK });
+      const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: spec.temperatureK, qSeriesEnvelope: withQEnvelope });
       ms += performance.now() - t0;
       // A faint Q-branch series may be read either way, not rated high (traceVisibleProfile).
       const ok = r.profile === vis.profile || (vis.ambiguous && r.confidence !== 'high' && r.profile !== 'PR');
@@ -287,6 +302,30 @@ function classifyCases(count: number, first: number): void {
       byConfidence[r.confidence] ??= { n: 0, ok: 0 };
       byConfidence[r.confidence].n++;
       if (ok) byConfidence[r.confidence].ok++;
+      const given =
+        r.B !== null
+          ? { err: r.B / spec.B - 1, inRange: spec.B >= r.bLow! && spec.B <= r.bHigh!, determined: r.bDetermined === true }
+          : null;
+      if (vis.profile === 'Q-series') {
+        if (given) bQSeries.push(given);
+        else bQSeriesMissing++;
+        if (r.qSeriesEnvelope)
+          row.qEnvelope = {
+            shape: r.qSeriesEnvelope.shape,
+            uMinusB: Number(r.qSeriesEnvelope.uniqueMinusB.toPrecision(3)),
+            bRange: [Number(r.qSeriesEnvelope.bLow.toPrecision(3)), Number(r.qSeriesEnvelope.bHigh.toPrecision(3))],
+          };
+      }
+      if (spec.shape === 'linear' && spec.band === 'perpendicular') {
+        if (given) bPiSigma.push(given);
+        else bPiSigmaMissing++;
+      }
+      if (r.B !== null && vis.profile === 'Q-series') {
+        row.Berr = Number((r.B / spec.B - 1).toFixed(3));
+        row.bRange = [Number(r.bLow!.toPrecision(3)), Number(r.bHigh!.toPrecision(3))];
+        row.bInRange = spec.B >= r.bLow! && spec.B <= r.bHigh!;
+        row.bDetermined = r.bDetermined;
+      }
       if (vis.profile !== 'Q-series') {
         if (r.B !== null) {
           row.Berr = Number((r.B / spec.B - 1).toFixed(3));
@@ -320,6 +359,8 @@ function classifyCases(count: number, first: number): void {
       bInsideRange: `${bGiven.filter((g) => g.inRange).length}/${bGiven.length}`,
       bDeterminedWithin10pc: `${bGiven.filter((g) => g.determined && Math.abs(g.err) <= 0.1).length}/${bGiven.filter((g) => g.determined).length}`,
       qSpacingWithin3pc: `${qErr.filter((e) => Math.abs(e) <= 0.03).length}/${qErr.length} given (${qMissing} withheld)`,
+      ...scoreB('QSeries', bQSeries, bQSeriesMissing),
+      ...scoreB('PiSigma', bPiSigma, bPiSigmaMissing),
       qSpacingError: spread(qErr),
       classifyMsPerCase: Number((ms / count).toFixed(1)),
     }),
@@ -328,5 +369,5 @@ function classifyCases(count: number, first: number): void {
 
 const [what = 'speed', nArg, firstArg] = process.argv.slice(2);
 if (what === 'speed') speed();
-else if (what === 'classify') classifyCases(Number(nArg ?? 60), Number(firstArg ?? 0));
+else if (what === 'classify') classifyCases(Number(nArg ?? 60), Number(firstArg ?? 0), process.argv.includes('--q-envelope'));
 else targets(Number(nArg ?? 30));

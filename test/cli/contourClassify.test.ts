@@ -89,6 +89,27 @@ describe('classify command', () => {
     expect(j).toHaveProperty('B');
   });
 
+  it('adds qSeriesEnvelope with --q-envelope and keeps every other field as without it', async () => {
+    const plain = JSON.parse((await run(['classify', '--trace', 't.csv', ...region, '--temperature', '296'], files)).stdout);
+    const r = await run(['classify', '--trace', 't.csv', ...region, '--temperature', '296', '--q-envelope'], files);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(plain).not.toHaveProperty('qSeriesEnvelope');
+    for (const key of Object.keys(plain)) expect(j, key).toHaveProperty(key);
+    expect(j.profile).toBe(plain.profile);
+    expect(j.qSpacing).toBe(plain.qSpacing);
+    const e = j.qSeriesEnvelope;
+    expect(['prolate', 'oblate']).toContain(e.shape);
+    // The band's B = 0.25 cm^-1 (B′ = 0.997 B″ here, unlike the fit's rigid model) inside the range
+    // of B that fits, and A − B = 4.85 cm^-1 inside its range.
+    expect(e.bLow).toBeLessThanOrEqual(0.25);
+    expect(e.bHigh).toBeGreaterThanOrEqual(0.25);
+    expect(e.uniqueMinusBLow).toBeLessThanOrEqual(4.85);
+    expect(e.uniqueMinusBHigh).toBeGreaterThanOrEqual(4.85);
+    // B is given from it only with a range within a factor 1.5, then never called determined beyond ±10 %.
+    if (j.bMethod === 'envelope-fit') expect(j.bHigh / j.bLow).toBeLessThanOrEqual(1.5 * 1.11);
+  }, 60_000);
+
   it('refuses an inverted region and a bad temperature', async () => {
     const a = await run(['classify', '--trace', 't.csv', '--from', '1300', '--to', '1200'], files);
     expect(a.code).toBe(1);
