@@ -2,6 +2,7 @@ import { assistantAutoExtend } from '../analysis/assistantAutoExtend';
 import { assistantPeakContext, assistantPeaksUsable } from '../analysis/assistantPeakContext';
 import { assistantLinesFromAssignments } from '../analysis/assistantReview';
 import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
+import { assistantParallelStart } from '../analysis/assistantParallelStart';
 import { assistantLabelShift, LABEL_DECISIVE_MARGIN } from '../analysis/assistantLabelCheck';
 import { assistantQBranchSearch } from '../analysis/assistantQBranchSearch';
 import type { AssistantLine, AssistantRunResult, AssistantSuspect } from '../analysis/assistantTypes';
@@ -148,8 +149,26 @@ export const assignCommand: CliCommand = (args, io) => {
       );
     }
   } else {
-    const seeded = assistantSeedFromModel(model, peaks, floatable);
+    let seeded = assistantSeedFromModel(model, peaks, floatable);
     for (const w of seeded.warnings) io.stderr(`assign: ${w}\n`);
+    // Parallel band of a symmetric top with no clear shared shift: the staged start (assistantParallelStart).
+    let parallelText = '';
+    if (model.band === 'parallel' && model.shape !== 'linear' && (seeded.lines.length < 3 || seeded.isAmbiguous)) {
+      const par = assistantParallelStart(file.model, peaks, floatable);
+      parallelText = `; ${par.text}`;
+      if (par.lines.length) {
+        const shift = (s: 'upper' | 'lower', k: 'origin' | 'B') => par.model[s][k] - file.model[s][k];
+        seeded = {
+          ...seeded,
+          lines: par.lines,
+          model: par.model,
+          isAmbiguous: false,
+          originShiftCm1: shift('upper', 'origin'),
+          upperBShiftCm1: shift('upper', 'B'),
+          lowerBShiftCm1: shift('lower', 'B'),
+        };
+      }
+    }
     if (seeded.lines.length === 0) throw new CliError(`no seed lines could be picked from the model alone; give --lines SEED.csv`);
     model = seeded.model;
     seeds = seeded.lines;
@@ -159,7 +178,8 @@ export const assignCommand: CliCommand = (args, io) => {
     }
     seedText =
       `${seeds.length} seed line(s) from the model alone (origin ${signed(seeded.originShiftCm1, 4)}, ` +
-      `B' ${signed(seeded.upperBShiftCm1, 6)}, B'' ${signed(seeded.lowerBShiftCm1, 6)} cm^-1 applied first)`;
+      `B' ${signed(seeded.upperBShiftCm1, 6)}, B'' ${signed(seeded.lowerBShiftCm1, 6)} cm^-1 applied first)` +
+      parallelText;
   }
   let run: AssistantRunResult;
   try {
