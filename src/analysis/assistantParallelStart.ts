@@ -54,10 +54,14 @@ const SEED_PER_K = 2;
 const MARGIN_MIN = 3;
 /** …and at least this many binomial σ above the count chance gives (the median over the grid). */
 const CHANCE_Z = 5;
-/** …and put at least this fraction of the lines used on a peak (rule of thumb: a right ladder explains most of its visible lines). */
-const MIN_MATCHED_FRACTION = 0.5;
 /** Lines used must be predicted at least this many times the weakest peak's relative height. */
 const VISIBLE_FACTOR = 3;
+/**
+ * Stages 2 and 3 must put at least this fraction of their lines on a peak (rule of thumb: out to
+ * |m| = 25 a right ladder explains most of its visible lines; stage 1 is exempt, since the
+ * unresolved clusters next to the gap give fewer peaks than lines).
+ */
+const MIN_MATCHED_FRACTION = 0.5;
 const MARGIN_FRACTION = 0.15;
 
 /** Outcome of assistantParallelStart. */
@@ -68,6 +72,11 @@ export interface AssistantParallelStart {
   model: BandModel;
   /** What each stage found, or why the start refused. */
   text: string;
+  /**
+   * A start a rung away that fits the clusters next to the band gap about as well (seeds and
+   * model), to be run as a rival hypothesis; absent when the numbering was clear.
+   */
+  runnerUp?: { lines: AssistantLine[]; model: BandModel };
 }
 
 type Stage = { name: string; result: GridBest };
@@ -109,8 +118,7 @@ function mOf(lines: LineList, i: number): number {
  * @returns seeds, the corrected model and what was found (or why nothing was)
  */
 export function assistantParallelStart(model: BandModel, peaks: PeakList, floatable: readonly string[]): AssistantParallelStart {
-  let current: BandModel = model;
-  const refuse = (why: string): AssistantParallelStart => ({ lines: [], model: current, text: `parallel start refused: ${why}` });
+  const refuse = (why: string): AssistantParallelStart => ({ lines: [], model, text: `parallel start refused: ${why}` });
   if (model.band !== 'parallel' || model.shape === 'linear') return refuse('not a parallel band of a symmetric top');
   const unique = model.shape === 'prolate' ? 'A' : 'C';
   const floats = new Set(floatable);
@@ -141,12 +149,12 @@ export function assistantParallelStart(model: BandModel, peaks: PeakList, floata
   const djkWindow = 1e-4 * bRef;
   const djWindow = 1e-5 * bRef;
 
-  const stages: Stage[] = [];
-  const apply = (m: BandModel, changes: [Dim, number][]): BandModel => {
+  const apply = (m: BandModel, delta: number, dims: readonly Dim[], values: readonly number[]): BandModel => {
     const next: BandModel = { ...m, lower: { ...m.lower }, upper: { ...m.upper } };
-    for (const [dim, v] of changes) {
-      if (dim === 'delta') next.upper.origin += v;
-      else if (dim === 'sum') {
+    next.upper.origin += delta;
+    dims.forEach((dim, k) => {
+      const v = values[k];
+      if (dim === 'sum') {
         next.upper.B += v;
         next.lower.B += v;
       } else if (dim === 'diff') {
@@ -160,80 +168,97 @@ export function assistantParallelStart(model: BandModel, peaks: PeakList, floata
         next.upper.DJK += v;
         next.lower.DJK += v;
       }
-    }
+    });
     return next;
   };
-  /**
-   * One stage: the grid search of assistantShiftSearch over δ and two constants, repeated for each
-   * value of an optional third (steps that move its farthest line by τ); the best count wins, the
-   * smallest change of the third among equals.
-   */
-  const run = (
+  /** One stage's grid search (gridSearch) on the lines `keep` selects, predicted by model `from`. */
+  const search = (
+    from: BandModel,
     name: string,
     keep: (lines: LineList, i: number) => boolean,
     dims: [Dim, Dim, Dim],
     windows: [number, number, number, number],
-  ): string | null => {
-    const lines = bandLines(current, { minIntensity: 1e-4 });
+  ): { stage: Stage; best: BandModel; rival: BandModel | null } | string => {
+    const lines = bandLines(from, { minIntensity: 1e-4 });
     const idx: number[] = [];
     for (let i = 0; i < lines.count; i++) if (keep(lines, i)) idx.push(i);
     idx.sort((x, y) => lines.intensity[y] - lines.intensity[x]);
     const use = idx.slice(0, STAGE_LINES).filter((i) => lines.intensity[i] >= visible);
-    if (use.length < 6) return `${name}: only ${use.length} predicted lines`;
+    if (use.length < 6) return `${name}: only ${use.length} predicted lines expected above the noise`;
     const at = new Map(use.map((i) => [i, derivatives(lines, i)]));
     const pick = (dim: Dim) => (i: number) => (dim === 'none' || dim === 'delta' ? 0 : at.get(i)![dim]);
     const r = gridSearch(peaks, tau, use, lines.wavenumberCm1, [pick(dims[0]), pick(dims[1]), pick(dims[2])], windows, bRef);
-    const rival = r.rivalCount;
-    stages.push({ name, result: r });
-    const margin = Math.max(MARGIN_MIN, MARGIN_FRACTION * r.count);
     const chanceCount = r.chance * r.n;
     if (r.count < chanceCount + CHANCE_Z * Math.sqrt(Math.max(chanceCount * (1 - r.chance), 1)))
       return `${name}: the best setting puts ${r.count} of ${r.n} lines on a peak, hardly more than chance (${(100 * r.chance).toFixed(0)} %)`;
-    if (r.count < MIN_MATCHED_FRACTION * r.n)
-      return `${name}: the best setting puts only ${r.count} of ${r.n} lines expected above the noise on a peak`;
-    if (rival > r.count - margin)
-      return `${name}: settings a rung apart put ${r.count} and ${rival} of ${r.n} lines on a peak: the numbering is not decided`;
-    current = apply(current, [
-      ['delta', r.delta],
-      [dims[0], r.values[0]],
-      [dims[1], r.values[1]],
-      [dims[2], r.values[2]],
-    ]);
-    return null;
+    const margin = Math.max(MARGIN_MIN, MARGIN_FRACTION * r.count);
+    const isClose = r.rival !== null && r.rival.count > r.count - margin;
+    return {
+      stage: { name, result: r },
+      best: apply(from, r.delta, dims, r.values),
+      rival: isClose ? apply(from, r.rival!.delta, dims, r.rival!.values) : null,
+    };
+  };
+  const describe = (stages: Stage[]) =>
+    stages
+      .map(
+        (s) =>
+          `${s.name}: ${s.result.count} of ${s.result.n} lines on a peak (chance ${(100 * s.result.chance).toFixed(0)} %, a rung away ${s.result.rival?.count ?? 0})`,
+      )
+      .join('; ');
+  /** Stages 2 and 3 and the seeds from the model stage 1 left. */
+  const finish = (from: BandModel, stages: Stage[]): { lines: AssistantLine[]; model: BandModel; text: string } => {
+    let at = from;
+    const steps: [string, (l: LineList, i: number) => boolean, [Dim, Dim, Dim], [number, number, number, number]][] = [
+      [
+        'the J comb',
+        (l, i) => Math.abs(mOf(l, i)) <= COMB_MAX_M && l.deltaJ[i] !== 0 && l.kLower[i] <= COMB_MAX_K,
+        ['sum', 'diff', hasDj ? 'dj' : 'none'],
+        [2 * tau, sumWindow / 3, diffWindow / 3, hasDj ? djWindow : 0],
+      ],
+      [
+        'the K structure',
+        (l, i) => Math.abs(mOf(l, i)) <= COMB_MAX_M && l.kLower[i] > COMB_MAX_K,
+        ['unique', hasDjk ? 'djk' : 'none', 'none'],
+        [2 * tau, uniqueWindow / 4, hasDjk ? djkWindow : 0, 0],
+      ],
+    ];
+    for (const [name, keep, dims, windows] of steps) {
+      const r = search(at, name, keep, dims, windows);
+      if (typeof r === 'string') return { lines: [], model: at, text: `parallel start refused: ${describe(stages)}; ${r}` };
+      const { count, n } = r.stage.result;
+      if (count < MIN_MATCHED_FRACTION * n) {
+        const why = `${name}: the best setting puts only ${count} of ${n} lines expected above the noise on a peak`;
+        return { lines: [], model: at, text: `parallel start refused: ${describe(stages)}; ${why}` };
+      }
+      stages.push(r.stage);
+      at = r.best;
+    }
+    const options = assistantOptionsResolve(at);
+    const seeds = pickSeeds(at, peaks, context, tau, options.positionFloorFraction, options.blendUncertaintyFraction);
+    if (seeds.length < 3)
+      return { lines: [], model: at, text: `parallel start refused: ${describe(stages)}; only ${seeds.length} isolated lines` };
+    return { lines: seeds, model: at, text: `parallel start: ${describe(stages)}; ${seeds.length} seeds` };
   };
 
-  const gap = run(
+  const gap = search(
+    model,
     'clusters next to the band gap',
     (l, i) => Math.abs(mOf(l, i)) <= GAP_MAX_M && l.deltaJ[i] !== 0,
     ['sum', 'unique', 'diff'],
     [originWindow, sumWindow, uniqueWindow, diffWindow],
   );
-  if (gap) return refuse(gap);
-  const comb = run(
-    'the J comb',
-    (l, i) => Math.abs(mOf(l, i)) <= COMB_MAX_M && l.deltaJ[i] !== 0 && l.kLower[i] <= COMB_MAX_K,
-    ['sum', 'diff', hasDj ? 'dj' : 'none'],
-    [2 * tau, sumWindow / 3, diffWindow / 3, hasDj ? djWindow : 0],
-  );
-  if (comb) return refuse(comb);
-  const kStructure = run(
-    'the K structure',
-    (l, i) => Math.abs(mOf(l, i)) <= COMB_MAX_M && l.kLower[i] > COMB_MAX_K,
-    ['unique', hasDjk ? 'djk' : 'none', 'diff'],
-    [2 * tau, uniqueWindow / 4, hasDjk ? djkWindow : 0, 0],
-  );
-  if (kStructure) return refuse(kStructure);
-
-  const options = assistantOptionsResolve(current);
-  const seeds = pickSeeds(current, peaks, context, tau, options.positionFloorFraction, options.blendUncertaintyFraction);
-  const text = stages
-    .map(
-      (s) =>
-        `${s.name}: ${s.result.count} of ${s.result.n} lines on a peak (chance ${(100 * s.result.chance).toFixed(0)} %, a rung away ${s.result.rivalCount})`,
-    )
-    .join('; ');
-  if (seeds.length < 3) return { lines: [], model: current, text: `parallel start refused: ${text}; only ${seeds.length} isolated lines` };
-  return { lines: seeds, model: current, text: `parallel start: ${text}; ${seeds.length} seeds` };
+  if (typeof gap === 'string') return refuse(gap);
+  const main = finish(gap.best, [gap.stage]);
+  if (!gap.rival) return main;
+  // Two numberings a rung apart fit the clusters next to the gap about equally well (their positions
+  // alone cannot tell: the P/R ladder relabelled by one rung is the same parabola with the gap
+  // moved): both starts go on, for the run's own checks (counts, the label check) to decide.
+  const other = finish(gap.rival, [{ ...gap.stage }]);
+  const note = `; a setting a rung away fits the clusters next to the band gap about as well (${gap.stage.result.rival!.count} against ${gap.stage.result.count} lines): both are tried`;
+  if (main.lines.length === 0 && other.lines.length === 0) return { ...main, text: main.text + note };
+  if (main.lines.length === 0) return { ...other, text: other.text + note };
+  return { ...main, text: main.text + note, runnerUp: other.lines.length ? { lines: other.lines, model: other.model } : undefined };
 }
 
 function pickSeeds(
@@ -315,8 +340,8 @@ interface GridBest {
   n: number;
   /** Median count over the grid / n (what chance coincidences give). */
   chance: number;
-  /** Best count at any setting whose origin shift differs from the best by more than B (another numbering). */
-  rivalCount: number;
+  /** The best setting whose origin shift differs from the best by more than B (another numbering), or null. */
+  rival: { delta: number; values: [number, number, number]; count: number } | null;
 }
 
 /** Most grid steps on each side per constant. */
@@ -362,7 +387,7 @@ function gridSearch(
   const histogram = new Float64Array(n + 1);
   const bestPerBin = new Int32Array(bins);
   const valuesPerBin: [number, number, number][] = Array.from({ length: bins }, () => [0, 0, 0]);
-  let best: GridBest = { delta: 0, values: [0, 0, 0], count: -1, n, chance: 0, rivalCount: 0 };
+  let best: GridBest = { delta: 0, values: [0, 0, 0], count: -1, n, chance: 0, rival: null };
   let bestCost = Infinity;
   for (const a of grid[0]) {
     for (const b of grid[1]) {
@@ -415,7 +440,9 @@ function gridSearch(
     }
   }
   for (let bin = 0; bin < bins; bin++) {
-    if (Math.abs((bin - nDelta) * binWidth - best.delta) > rungCm1) best.rivalCount = Math.max(best.rivalCount, bestPerBin[bin]);
+    const delta = (bin - nDelta) * binWidth;
+    if (Math.abs(delta - best.delta) > rungCm1 && bestPerBin[bin] > (best.rival?.count ?? 0))
+      best.rival = { delta, values: valuesPerBin[bin], count: bestPerBin[bin] };
   }
   if (best.count < 0) best.count = 0;
   return best;

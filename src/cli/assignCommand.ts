@@ -153,6 +153,7 @@ export const assignCommand: CliCommand = (args, io) => {
     for (const w of seeded.warnings) io.stderr(`assign: ${w}\n`);
     // Parallel band of a symmetric top with no clear shared shift: the staged start (assistantParallelStart).
     let parallelText = '';
+    let parallelRival: { model: BandModel; lines: AssistantLine[] } | null = null;
     if (model.band === 'parallel' && model.shape !== 'linear' && (seeded.lines.length < 3 || seeded.isAmbiguous)) {
       const par = assistantParallelStart(file.model, peaks, floatable);
       parallelText = `; ${par.text}`;
@@ -167,6 +168,7 @@ export const assignCommand: CliCommand = (args, io) => {
           upperBShiftCm1: shift('upper', 'B'),
           lowerBShiftCm1: shift('lower', 'B'),
         };
+        parallelRival = par.runnerUp ?? null;
       }
     }
     if (seeded.lines.length === 0) throw new CliError(`no seed lines could be picked from the model alone; give --lines SEED.csv`);
@@ -176,6 +178,7 @@ export const assignCommand: CliCommand = (args, io) => {
       const runnerUp = assistantSeedFromModel(file.model, peaks, floatable, { useRunnerUp: true });
       if (runnerUp.lines.length) rival = { model: runnerUp.model, lines: runnerUp.lines };
     }
+    if (parallelRival) rival = parallelRival;
     seedText =
       `${seeds.length} seed line(s) from the model alone (origin ${signed(seeded.originShiftCm1, 4)}, ` +
       `B' ${signed(seeded.upperBShiftCm1, 6)}, B'' ${signed(seeded.lowerBShiftCm1, 6)} cm^-1 applied first)` +
