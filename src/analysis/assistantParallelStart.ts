@@ -178,7 +178,7 @@ export function assistantParallelStart(model: BandModel, peaks: PeakList, floata
     keep: (lines: LineList, i: number) => boolean,
     dims: [Dim, Dim, Dim],
     windows: [number, number, number, number],
-  ): { stage: Stage; best: BandModel; rival: BandModel | null } | string => {
+  ): { stage: Stage; best: BandModel; others: { model: BandModel; count: number }[] } | string => {
     const lines = bandLines(from, { minIntensity: 1e-4 });
     const idx: number[] = [];
     for (let i = 0; i < lines.count; i++) if (keep(lines, i)) idx.push(i);
@@ -191,12 +191,11 @@ export function assistantParallelStart(model: BandModel, peaks: PeakList, floata
     const chanceCount = r.chance * r.n;
     if (r.count < chanceCount + CHANCE_Z * Math.sqrt(Math.max(chanceCount * (1 - r.chance), 1)))
       return `${name}: the best setting puts ${r.count} of ${r.n} lines on a peak, hardly more than chance (${(100 * r.chance).toFixed(0)} %)`;
-    const margin = Math.max(MARGIN_MIN, MARGIN_FRACTION * r.count);
-    const isClose = r.rival !== null && r.rival.count > r.count - margin;
+    const passes = (count: number) => count >= chanceCount + CHANCE_Z * Math.sqrt(Math.max(chanceCount * (1 - r.chance), 1));
     return {
       stage: { name, result: r },
       best: apply(from, r.delta, dims, r.values),
-      rival: isClose ? apply(from, r.rival!.delta, dims, r.rival!.values) : null,
+      others: r.others.filter((o) => passes(o.count)).map((o) => ({ model: apply(from, o.delta, dims, o.values), count: o.count })),
     };
   };
   const describe = (stages: Stage[]) =>
@@ -207,7 +206,7 @@ export function assistantParallelStart(model: BandModel, peaks: PeakList, floata
       )
       .join('; ');
   /** Stages 2 and 3 and the seeds from the model stage 1 left. */
-  const finish = (from: BandModel, stages: Stage[]): { lines: AssistantLine[]; model: BandModel; text: string } => {
+  const finish = (from: BandModel, stages: Stage[]): { lines: AssistantLine[]; model: BandModel; text: string; score: number } => {
     let at = from;
     const steps: [string, (l: LineList, i: number) => boolean, [Dim, Dim, Dim], [number, number, number, number]][] = [
       [
@@ -225,20 +224,21 @@ export function assistantParallelStart(model: BandModel, peaks: PeakList, floata
     ];
     for (const [name, keep, dims, windows] of steps) {
       const r = search(at, name, keep, dims, windows);
-      if (typeof r === 'string') return { lines: [], model: at, text: `parallel start refused: ${describe(stages)}; ${r}` };
+      if (typeof r === 'string') return { lines: [], model: at, text: `parallel start refused: ${describe(stages)}; ${r}`, score: 0 };
       const { count, n } = r.stage.result;
       if (count < MIN_MATCHED_FRACTION * n) {
         const why = `${name}: the best setting puts only ${count} of ${n} lines expected above the noise on a peak`;
-        return { lines: [], model: at, text: `parallel start refused: ${describe(stages)}; ${why}` };
+        return { lines: [], model: at, text: `parallel start refused: ${describe(stages)}; ${why}`, score: 0 };
       }
       stages.push(r.stage);
       at = r.best;
     }
     const options = assistantOptionsResolve(at);
     const seeds = pickSeeds(at, peaks, context, tau, options.positionFloorFraction, options.blendUncertaintyFraction);
+    const score = stages.slice(1).reduce((sum, st) => sum + st.result.count, 0);
     if (seeds.length < 3)
-      return { lines: [], model: at, text: `parallel start refused: ${describe(stages)}; only ${seeds.length} isolated lines` };
-    return { lines: seeds, model: at, text: `parallel start: ${describe(stages)}; ${seeds.length} seeds` };
+      return { lines: [], model: at, text: `parallel start refused: ${describe(stages)}; only ${seeds.length} isolated lines`, score: 0 };
+    return { lines: seeds, model: at, text: `parallel start: ${describe(stages)}; ${seeds.length} seeds`, score };
   };
 
   const gap = search(
@@ -249,16 +249,26 @@ export function assistantParallelStart(model: BandModel, peaks: PeakList, floata
     [originWindow, sumWindow, uniqueWindow, diffWindow],
   );
   if (typeof gap === 'string') return refuse(gap);
-  const main = finish(gap.best, [gap.stage]);
-  if (!gap.rival) return main;
-  // Two numberings a rung apart fit the clusters next to the gap about equally well (their positions
-  // alone cannot tell: the P/R ladder relabelled by one rung is the same parabola with the gap
-  // moved): both starts go on, for the run's own checks (counts, the label check) to decide.
-  const other = finish(gap.rival, [{ ...gap.stage }]);
-  const note = `; a setting a rung away fits the clusters next to the band gap about as well (${gap.stage.result.rival!.count} against ${gap.stage.result.count} lines): both are tried`;
-  if (main.lines.length === 0 && other.lines.length === 0) return { ...main, text: main.text + note };
-  if (main.lines.length === 0) return { ...other, text: other.text + note };
-  return { ...main, text: main.text + note, runnerUp: other.lines.length ? { lines: other.lines, model: other.model } : undefined };
+  // The P/R ladder relabelled by one rung is the same parabola with the gap moved, so the clusters
+  // next to the gap may fit other numberings nearly as well: each numbering that beats chance there
+  // goes through stages 2 and 3, and the one whose J comb and K structure put the most lines on
+  // peaks is the start; a second within the margin is its runner-up (run as a rival hypothesis).
+  const chains = [gap.best, ...gap.others.map((o) => o.model)].map((m) => finish(m, [gap.stage]));
+  const passed = chains.filter((c) => c.lines.length > 0).sort((x, y) => y.score - x.score);
+  const tried = chains.length > 1 ? ` (${chains.length} numberings tried, ${passed.length} passed every stage)` : '';
+  if (passed.length === 0) return { lines: [], model, text: chains[0].text + tried };
+  const [main, second] = passed;
+  const margin = Math.max(MARGIN_MIN, MARGIN_FRACTION * main.score);
+  const isClose = second !== undefined && second.score > main.score - margin;
+  return {
+    lines: main.lines,
+    model: main.model,
+    text:
+      main.text +
+      tried +
+      (isClose ? `; a numbering a rung away fits nearly as well (${second.score} against ${main.score} lines): both are run` : ''),
+    runnerUp: isClose ? { lines: second.lines, model: second.model } : undefined,
+  };
 }
 
 function pickSeeds(
@@ -328,6 +338,16 @@ function pickSeeds(
   return seeds;
 }
 
+/** One setting of gridSearch: origin shift (cm^-1), the three constants' changes (cm^-1), distinct peaks matched. */
+interface GridSetting {
+  delta: number;
+  values: [number, number, number];
+  count: number;
+}
+
+/** Other numberings gridSearch reports. */
+const GRID_OTHERS = 4;
+
 /** Best setting of gridSearch. */
 interface GridBest {
   /** Origin shift, cm^-1. */
@@ -341,7 +361,9 @@ interface GridBest {
   /** Median count over the grid / n (what chance coincidences give). */
   chance: number;
   /** The best setting whose origin shift differs from the best by more than B (another numbering), or null. */
-  rival: { delta: number; values: [number, number, number]; count: number } | null;
+  rival: GridSetting | null;
+  /** The best settings of other numberings (origin shifts more than B from the best and from each other), best first, at most GRID_OTHERS. */
+  others: GridSetting[];
 }
 
 /** Most grid steps on each side per constant. */
@@ -387,7 +409,7 @@ function gridSearch(
   const histogram = new Float64Array(n + 1);
   const bestPerBin = new Int32Array(bins);
   const valuesPerBin: [number, number, number][] = Array.from({ length: bins }, () => [0, 0, 0]);
-  let best: GridBest = { delta: 0, values: [0, 0, 0], count: -1, n, chance: 0, rival: null };
+  let best: GridBest = { delta: 0, values: [0, 0, 0], count: -1, n, chance: 0, rival: null, others: [] };
   let bestCost = Infinity;
   for (const a of grid[0]) {
     for (const b of grid[1]) {
@@ -439,11 +461,14 @@ function gridSearch(
       break;
     }
   }
-  for (let bin = 0; bin < bins; bin++) {
+  const order = Array.from({ length: bins }, (_, bin) => bin).sort((x, y) => bestPerBin[y] - bestPerBin[x]);
+  for (const bin of order) {
+    if (best.others.length >= GRID_OTHERS) break;
     const delta = (bin - nDelta) * binWidth;
-    if (Math.abs(delta - best.delta) > rungCm1 && bestPerBin[bin] > (best.rival?.count ?? 0))
-      best.rival = { delta, values: valuesPerBin[bin], count: bestPerBin[bin] };
+    if ([best, ...best.others].some((o) => Math.abs(delta - o.delta) <= rungCm1)) continue;
+    best.others.push({ delta, values: valuesPerBin[bin], count: bestPerBin[bin] });
   }
+  best.rival = best.others[0] ?? null;
   if (best.count < 0) best.count = 0;
   return best;
 }
