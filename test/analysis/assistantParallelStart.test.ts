@@ -3,27 +3,9 @@ import { assistantPeaksUsable } from '../../src/analysis/assistantPeakContext';
 import { assistantParallelStart } from '../../src/analysis/assistantParallelStart';
 import { assistantSeedFromModel } from '../../src/analysis/assistantSeedFromModel';
 import type { PeakList } from '../../src/analysis/peaksFind';
-import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
+import type { BandModel } from '../../src/physics/model';
 import { transitionWavenumber } from '../../src/physics/termValues';
-import { syntheticBand, syntheticIsCorrect } from './assistantSyntheticBand';
-
-/**
- * Invented prolate top, parallel band (no real molecule; cm^-1). A′ − A″ = −0.012 and B′ − B″ =
- * −0.003 put K = 3 about 0.08 cm^-1 (≈ 9 line widths) from K = 0 in every cluster, so the K
- * components are resolved but lie within a few widths of each other.
- */
-function truthModel(): BandModel {
-  return {
-    shape: 'prolate',
-    band: 'parallel',
-    lower: stateConstantsFrom({ B: 0.352, A: 2.81, DJ: 3e-7, DJK: 2e-6 }),
-    upper: stateConstantsFrom({ origin: 1043.27, B: 0.349, A: 2.798, DJ: 3e-7, DJK: 2e-6 }),
-    temperatureK: 120,
-    jMax: 30,
-    kMax: 8,
-    spinWeights: [1],
-  };
-}
+import { syntheticBand, syntheticIsCorrect, syntheticParallelTruthModel } from './assistantSyntheticBand';
 
 const FLOATABLE = ['upper.origin', 'upper.B', 'lower.B', 'upper.A', 'upper.DJ', 'lower.DJ', 'upper.DJK', 'lower.DJK'];
 
@@ -41,7 +23,7 @@ function guessOf(truth: BandModel): BandModel {
 }
 
 describe('assistantParallelStart', () => {
-  const truth = truthModel();
+  const truth = syntheticParallelTruthModel();
   const band = syntheticBand(truth, 1 / 300, 7);
   const peaks = assistantPeaksUsable(band.peaks).peaks;
   const guess = guessOf(truth);
