@@ -187,7 +187,14 @@ export function assistantParallelStart(model: BandModel, peaks: PeakList, floata
     if (use.length < 6) return `${name}: only ${use.length} predicted lines expected above the noise`;
     const at = new Map(use.map((i) => [i, derivatives(lines, i)]));
     const pick = (dim: Dim) => (i: number) => (dim === 'none' || dim === 'delta' ? 0 : at.get(i)![dim]);
-    const r = gridSearch(peaks, tau, use, lines.wavenumberCm1, [pick(dims[0]), pick(dims[1]), pick(dims[2])], windows, bRef);
+    const derivs: [(i: number) => number, (i: number) => number, (i: number) => number] = [pick(dims[0]), pick(dims[1]), pick(dims[2])];
+    const r = gridSearch(peaks, tau, use, lines.wavenumberCm1, derivs, windows, bRef);
+    if (r.isCoarse) {
+      // Refine around the best of the coarse pass (its rivals and chance level stand).
+      const shifted = Float64Array.from(lines.wavenumberCm1, (v) => v + r.delta);
+      const fine = gridSearch(peaks, tau, use, shifted, derivs, [2 * tau, 2 * r.steps[0], 2 * r.steps[1], 2 * r.steps[2]], bRef, r.values);
+      if (fine.count >= r.count) Object.assign(r, { delta: r.delta + fine.delta, values: fine.values, count: fine.count });
+    }
     const chanceCount = r.chance * r.n;
     if (r.count < chanceCount + CHANCE_Z * Math.sqrt(Math.max(chanceCount * (1 - r.chance), 1)))
       return `${name}: the best setting puts ${r.count} of ${r.n} lines on a peak, hardly more than chance (${(100 * r.chance).toFixed(0)} %)`;
@@ -362,12 +369,18 @@ interface GridBest {
   chance: number;
   /** The best setting whose origin shift differs from the best by more than B (another numbering), or null. */
   rival: GridSetting | null;
+  /** Grid steps of the three constants (cm^-1; 0 where not searched). */
+  steps: [number, number, number];
+  /** The steps are coarser than τ at the farthest line (GRID_MAX_POINTS): refine around the best. */
+  isCoarse: boolean;
   /** The best settings of other numberings (origin shifts more than B from the best and from each other), best first, at most GRID_OTHERS. */
   others: GridSetting[];
 }
 
 /** Most grid steps on each side per constant. */
 const GRID_MAX_STEPS = 120;
+/** Most grid points of the three constants in one pass (bounds the time: a pass costs points × lines × peaks in the δ window). */
+const GRID_MAX_POINTS = 20_000;
 
 /**
  * Grid search of an origin shift δ and three constants (a, b, c) for the setting that puts the most
@@ -387,18 +400,23 @@ function gridSearch(
   derivs: [(i: number) => number, (i: number) => number, (i: number) => number],
   windows: [number, number, number, number],
   rungCm1: number,
+  centres: [number, number, number] = [0, 0, 0],
 ): GridBest {
   const n = idx.length;
   const nu = Float64Array.from(idx, (i) => position[i]);
   const d = derivs.map((f) => Float64Array.from(idx, f));
-  const grid = d.map((col, k) => {
+  const wanted = d.map((col, k) => {
     let max = 0;
     for (const v of col) max = Math.max(max, Math.abs(v));
     const w = windows[k + 1];
-    if (!(max > 0) || !(w > 0)) return [0];
-    const count = Math.min(GRID_MAX_STEPS, Math.ceil((w * max) / tau));
-    return Array.from({ length: 2 * count + 1 }, (_, s) => ((s - count) * w) / count);
+    return !(max > 0) || !(w > 0) ? 0 : Math.min(GRID_MAX_STEPS, Math.ceil((w * max) / tau));
   });
+  // Too many grid points: fewer, coarser steps (the caller refines around the best).
+  const points = wanted.reduce((p, c) => p * (2 * c + 1), 1);
+  const shrink = points > GRID_MAX_POINTS ? (points / GRID_MAX_POINTS) ** (1 / wanted.filter((c) => c > 0).length) : 1;
+  const counts = wanted.map((c) => (c > 0 ? Math.max(1, Math.floor(c / shrink)) : 0));
+  const steps = counts.map((c, k) => (c > 0 ? windows[k + 1] / c : 0)) as [number, number, number];
+  const grid = counts.map((c, k) => Array.from({ length: 2 * c + 1 }, (_, s) => centres[k] + (s - c) * steps[k]));
   const binWidth = tau / 2;
   const nDelta = Math.max(1, Math.ceil(windows[0] / binWidth));
   const bins = 2 * nDelta + 1;
@@ -409,7 +427,7 @@ function gridSearch(
   const histogram = new Float64Array(n + 1);
   const bestPerBin = new Int32Array(bins);
   const valuesPerBin: [number, number, number][] = Array.from({ length: bins }, () => [0, 0, 0]);
-  let best: GridBest = { delta: 0, values: [0, 0, 0], count: -1, n, chance: 0, rival: null, others: [] };
+  let best: GridBest = { delta: 0, values: [...centres], count: -1, n, chance: 0, rival: null, others: [], steps, isCoarse: shrink > 1 };
   let bestCost = Infinity;
   for (const a of grid[0]) {
     for (const b of grid[1]) {
@@ -442,7 +460,7 @@ function gridSearch(
           if (v < best.count) continue;
           const cost =
             Math.abs(bin - nDelta) / nDelta +
-            grid.reduce((sum, g, k) => sum + (g.length > 1 ? Math.abs([a, b, c][k]) / g[g.length - 1] : 0), 0);
+            grid.reduce((sum, g, k) => sum + (counts[k] > 0 ? Math.abs([a, b, c][k] - centres[k]) / windows[k + 1] : 0), 0);
           if (v > best.count || cost < bestCost) {
             best = { ...best, delta: (bin - nDelta) * binWidth, values: [a, b, c], count: v };
             bestCost = cost;
