@@ -4,19 +4,24 @@
  * widths, and a first-guess error of Δ(A − B) (or Δ(C − B)) and of DJK moves K = 1, 2, … by several
  * widths, each by its own amount (∝ K² and ∝ m K²), so no predicted line is alone in its window.
  *
- * The start fixes the ladder in stages, each a grid search of the constants that matter at that
- * stage (assistantShiftSearch: the count of predicted lines with a peak within τ/2, τ the median
- * peak FWHM), each accepted only when it beats every clearly different setting (a rung or a
- * sub-band away) by a margin and beats chance:
- * 1. the clusters nearest the band gap (|m| ≤ GAP_MAX_M, every K ≤ J): origin δ, B′ + B″ and
- *    Δ(A − B); there every cluster has few components and the missing m = 0 cluster fixes the
- *    numbering;
- * 2. the low-K lines of every J up to COMB_MAX_M: origin, B′ + B″ and B′ − B″ (the J comb);
- * 3. every K up to the model's kMax for the same J: Δ(A − B) and a common change of DJK′ = DJK″
- *    (which moves a line by −2 m K² per unit, at fixed origin).
- * Seeds are then the strongest predicted lines, over several K and both branches, that have exactly
- * one peak within SEED_WINDOW_FWHM widths, that peak within τ/2, and no other predicted line of
- * ≥ 10 % of their intensity in that window.
+ * The start fixes the ladder in stages, each a grid search (gridSearch) of an origin shift and up
+ * to three constants, scored by the number of distinct peaks within τ/2 of a predicted line (τ the
+ * median peak FWHM; each peak counts once, so piling K components onto one peak cannot win), and
+ * accepted only when it beats chance by CHANCE_Z binomial σ:
+ * 1. the P/R clusters next to the band gap (|m| ≤ GAP_MAX_M, every K ≤ J): origin, B′ + B″, B′ − B″
+ *    and the upper unique constant (A′ or C′: a parallel band fixes only A′ − A″);
+ * 2. the K'' ≤ COMB_MAX_K lines out to |m| = COMB_MAX_M (the J comb): B′ + B″, B′ − B″ and
+ *    DJ′ = DJ″;
+ * 3. the K'' > COMB_MAX_K lines there: the unique constant and DJK′ = DJK″ (−2 m K² per unit).
+ * Stages 2 and 3 must also put MIN_MATCHED_FRACTION of their lines on a peak. The P/R ladder
+ * relabelled by one rung is the same parabola with the gap moved, so positions next to the gap
+ * hardly tell numberings a rung apart: every numbering (origin more than B from the best) that
+ * beats chance in stage 1 goes through stages 2 and 3; the one with most lines on peaks there is
+ * the start, a second within the margin (MARGIN_MIN, MARGIN_FRACTION) its runner-up, for the
+ * caller to run as a rival hypothesis.
+ * Seeds are then the strongest predicted P/R lines with |m| ≤ SEED_MAX_M, at most SEED_PER_K per
+ * K'', that have exactly one peak within SEED_WINDOW_FWHM widths, that peak within τ/3, and no other
+ * predicted line of ≥ SEED_ISOLATION of their intensity in that window.
  * Source: the J structure of a parallel band, ν = ν0 + (B′ + B″)m + (B′ − B″)m² + [Δ(A − B)]K² − …,
  * Herzberg II (1945) ch. IV §2; the search is the cross-correlation of a predicted stick spectrum
  * with the peaks (common practice), applied stage by stage.
@@ -47,22 +52,22 @@ const SEED_ISOLATION = 0.3;
 const SEED_COUNT = 16;
 const SEED_PER_K = 2;
 /**
- * A stage's best setting must match at least max(MARGIN_MIN, MARGIN_FRACTION × its count) more
- * lines than any setting more than 2 widths away, and at least twice the chance fraction + 0.1
- * (the rules of assistantSeedFromModel: rule of thumb).
+ * A runner-up numbering is kept when its stages 2 and 3 put at least the best's count minus
+ * max(MARGIN_MIN, MARGIN_FRACTION × that count) lines on peaks (the margin of
+ * assistantSeedFromModel: rule of thumb).
  */
 const MARGIN_MIN = 3;
-/** …and at least this many binomial σ above the count chance gives (the median over the grid). */
+const MARGIN_FRACTION = 0.15;
+/** A stage's best count must lie at least this many binomial σ above what chance gives (the median count over the grid). */
 const CHANCE_Z = 5;
 /** Lines used must be predicted at least this many times the weakest peak's relative height. */
 const VISIBLE_FACTOR = 3;
 /**
  * Stages 2 and 3 must put at least this fraction of their lines on a peak (rule of thumb: out to
- * |m| = 25 a right ladder explains most of its visible lines; stage 1 is exempt, since the
+ * |m| = COMB_MAX_M a right ladder explains most of its visible lines; stage 1 is exempt, since the
  * unresolved clusters next to the gap give fewer peaks than lines).
  */
 const MIN_MATCHED_FRACTION = 0.5;
-const MARGIN_FRACTION = 0.15;
 
 /** Outcome of assistantParallelStart. */
 export interface AssistantParallelStart {

@@ -79,7 +79,10 @@ function loadTrace(path: string, io: CliIo) {
  * once from its seeds relabelled that way, and the repeat kept only when it decides its own labels
  * and explains at least as many lines; a Π–Σ band's Q branch, which its P and R lines leave at the
  * guessed q, is placed by sliding the Q ladder along q (assistantQBranchSearch) and the run repeated
- * with those seeds. Both steps are said on the first stderr line.
+ * with those seeds. Both steps are said on the first stderr line. A parallel band of a symmetric
+ * top that the shared shift gives no seeds, or a run that writes nothing, is started again by the
+ * staged search of assistantParallelStart (the J numbering next to the band gap, the J comb, the K
+ * structure), whose run replaces the first only when it is decided; this too is said there.
  * The fits float the model file's floated constants (plain numbers) that the lines can determine;
  * the model's jMax and kMax bound the lines sought. --tolerance is k of the k·σ window (default 3).
  *
