@@ -357,6 +357,9 @@ interface GridSetting {
   count: number;
 }
 
+/** Most (δ bin, peak) cells gridSearch keeps track of (an Int32Array of this length: 20 MB). */
+const STAMP_MAX = 5_000_000;
+
 /** Other numberings gridSearch reports. */
 const GRID_OTHERS = 4;
 
@@ -422,8 +425,11 @@ function gridSearch(
   const counts = wanted.map((c) => (c > 0 ? Math.max(1, Math.floor(c / shrink)) : 0));
   const steps = counts.map((c, k) => (c > 0 ? windows[k + 1] / c : 0)) as [number, number, number];
   const grid = counts.map((c, k) => Array.from({ length: 2 * c + 1 }, (_, s) => centres[k] + (s - c) * steps[k]));
-  const binWidth = tau / 2;
+  // Bins of τ/2, wider when bins × peaks would exceed STAMP_MAX (memory of the stamp array).
+  const binWidth = Math.max(tau / 2, (2 * windows[0] * peaks.count) / STAMP_MAX);
   const nDelta = Math.max(1, Math.ceil(windows[0] / binWidth));
+  // A line matches a bin when its peak lies within τ/2 of the bin's shift (half a bin where bins are wider).
+  const reach = Math.max(tau, binWidth) / 2;
   const bins = 2 * nDelta + 1;
   const score = new Int32Array(bins);
   // stamp[b * peaks.count + p] === generation: peak p already counted in bin b at this grid point.
@@ -445,8 +451,8 @@ function gridSearch(
           for (let p = first; p <= last; p++) {
             const shift = peaks.wavenumberCm1[p] - x;
             // Bins whose centre lies within τ/2 of the shift.
-            const lo = Math.max(0, Math.ceil((shift - 0.5 * tau) / binWidth + nDelta));
-            const hi = Math.min(bins - 1, Math.floor((shift + 0.5 * tau) / binWidth + nDelta));
+            const lo = Math.max(0, Math.ceil((shift - reach) / binWidth + nDelta));
+            const hi = Math.min(bins - 1, Math.floor((shift + reach) / binWidth + nDelta));
             for (let bin = lo; bin <= hi; bin++) {
               const at = bin * peaks.count + p;
               if (stamp[at] === generation) continue;
