@@ -2,6 +2,7 @@ import { assistantAutoExtend } from '../analysis/assistantAutoExtend';
 import { assistantPeakContext, assistantPeaksUsable } from '../analysis/assistantPeakContext';
 import { assistantLinesFromAssignments } from '../analysis/assistantReview';
 import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
+import { assistantParallelStart } from '../analysis/assistantParallelStart';
 import { assistantLabelShift, LABEL_DECISIVE_MARGIN, type AssistantLabelShift } from '../analysis/assistantLabelCheck';
 import { assistantQBranchSearch } from '../analysis/assistantQBranchSearch';
 import { assistantQHeadStart } from '../analysis/assistantQHeadStart';
@@ -83,7 +84,10 @@ function loadTrace(path: string, io: CliIo) {
  * places the comb of the other sub-bands (assistantQHeadStart) against its fitted constants and is
  * run again with the comb's seeds; when that run is doubtful, each relabelling of the whole set
  * (sub-band, P/R rung or J'' one up or down) is run and one kept only when it alone is decided.
- * These steps are said on the first stderr line.
+ * A parallel band of a symmetric top that the shared shift gives no seeds, or a run that writes
+ * nothing, is started again by the staged search of assistantParallelStart (the J numbering next
+ * to the band gap, the J comb, the K structure), whose run replaces the first only when it is
+ * decided. These steps are said on the first stderr line.
  * The fits float the model file's floated constants (plain numbers) that the lines can determine;
  * the model's jMax and kMax bound the lines sought. --tolerance is k of the k·σ window (default 3).
  *
@@ -130,6 +134,7 @@ export const assignCommand: CliCommand = (args, io) => {
   let seeds: AssistantLine[];
   let seedText: string;
   let rival: { model: BandModel; lines: AssistantLine[] } | null = null;
+  let stagedNote = '';
   if (typeof opts.lines === 'string') {
     const linesPath = opts.lines;
     const table = cliLoadLines(linesPath, io);
@@ -153,9 +158,19 @@ export const assignCommand: CliCommand = (args, io) => {
       );
     }
   } else {
-    const seeded = assistantSeedFromModel(model, peaks, floatable);
+    let seeded = assistantSeedFromModel(model, peaks, floatable);
     for (const w of seeded.warnings) io.stderr(`assign: ${w}\n`);
-    if (seeded.lines.length === 0) throw new CliError(`no seed lines could be picked from the model alone; give --lines SEED.csv`);
+    // A parallel band of a symmetric top the shared shift cannot seed: the staged start (assistantParallelStart).
+    if (seeded.lines.length === 0 && isParallelTop(model)) {
+      const par = assistantParallelStart(model, peaks, floatable);
+      stagedNote = `; ${par.text}`;
+      if (par.lines.length) seeded = { ...seeded, lines: par.lines, model: par.model, isAmbiguous: false, ...shiftsOf(par.model, model) };
+      if (par.runnerUp) rival = par.runnerUp;
+    }
+    if (seeded.lines.length === 0) {
+      if (stagedNote) io.stderr(`assign: ${stagedNote.slice(2)}\n`);
+      throw new CliError(`no seed lines could be picked from the model alone; give --lines SEED.csv`);
+    }
     model = seeded.model;
     seeds = seeded.lines;
     if (seeded.isAmbiguous) {
@@ -164,7 +179,7 @@ export const assignCommand: CliCommand = (args, io) => {
     }
     seedText =
       `${seeds.length} seed line(s) from the model alone (origin ${signed(seeded.originShiftCm1, 4)}, ` +
-      `B' ${signed(seeded.upperBShiftCm1, 6)}, B'' ${signed(seeded.lowerBShiftCm1, 6)} cm^-1 applied first)`;
+      `B' ${signed(seeded.upperBShiftCm1, 6)}, B'' ${signed(seeded.lowerBShiftCm1, 6)} cm^-1 applied first)${stagedNote}`;
   }
   let run: AssistantRunResult;
   try {
@@ -209,6 +224,13 @@ export const assignCommand: CliCommand = (args, io) => {
     }
   } catch (err) {
     throw new CliError(err instanceof Error ? err.message : String(err));
+  }
+  // A parallel symmetric-top band whose shared-shift start led to a run that writes nothing: the
+  // staged start (assistantParallelStart) and its run, kept only when decided.
+  if (typeof opts.lines !== 'string' && isParallelTop(model) && !stagedNote && runSupport(run) === 0) {
+    const staged = parallelStartRun(file.model, floatable, peaks, tolerance);
+    seedText += staged.note;
+    if (staged.kept) ({ run, model } = staged.kept);
   }
   if (!run.fit) throw new CliError(`no fit could be made from the lines: ${run.fitError?.message ?? 'unknown reason'}`);
   const fit = run.fit;
@@ -263,6 +285,51 @@ export const assignCommand: CliCommand = (args, io) => {
   );
   return 0;
 };
+
+/** A parallel band of a prolate or oblate top (the bands assistantParallelStart is for). */
+function isParallelTop(model: BandModel): boolean {
+  return model.band === 'parallel' && model.shape !== 'linear';
+}
+
+/** The origin and B changes from `from` to `to`, cm^-1, as assistantSeedFromModel reports them. */
+function shiftsOf(to: BandModel, from: BandModel) {
+  return {
+    originShiftCm1: to.upper.origin - from.upper.origin,
+    upperBShiftCm1: to.upper.B - from.upper.B,
+    lowerBShiftCm1: to.lower.B - from.lower.B,
+  };
+}
+
+/**
+ * The staged start of a parallel symmetric-top band (assistantParallelStart) and the run from it,
+ * for a model-only run from the shared shift that writes nothing. With a runner-up numbering both
+ * are run, and one is kept only when it has RIVAL_FACTOR times the other's lines or both reach the
+ * same labels (the rule for the search's runner-up shift); the run kept must be decided (no doubt).
+ * `note` says what was done, for the first stderr line.
+ */
+function parallelStartRun(
+  model: BandModel,
+  floatable: readonly string[],
+  peaks: PeakList,
+  tolerance: number,
+): { note: string; kept: { run: AssistantRunResult; model: BandModel } | null } {
+  const par = assistantParallelStart(model, peaks, floatable);
+  const text = `; the run from the shared shift writes nothing, so the staged start for a parallel band was tried: ${par.text}`;
+  if (par.lines.length === 0) return { note: text, kept: null };
+  const first = { ...runFromModel(par.model, floatable, peaks, par.lines, tolerance), model: par.model };
+  let best: typeof first | null = first;
+  if (par.runnerUp) {
+    const second = { ...runFromModel(par.runnerUp.model, floatable, peaks, par.runnerUp.lines, tolerance), model: par.runnerUp.model };
+    const a = runSupport(first.run);
+    const b = runSupport(second.run);
+    const agreement = a > 0 && b > 0 ? runsAgreement(first.run, second.run) : null;
+    const isSame = agreement !== null && agreement.conflicts === 0 && agreement.shared >= RUNS_SHARED_FRACTION * Math.min(a, b);
+    best = isSame ? (b > a ? second : first) : b > RIVAL_FACTOR * a ? second : a > RIVAL_FACTOR * b ? first : null;
+    if (!best) return { note: `${text}; its two numberings lead to ${a} and ${b} lines: not decided, not kept`, kept: null };
+  }
+  if (best.run.doubt !== null || !best.run.fit) return { note: `${text}; its run is doubtful: not kept`, kept: null };
+  return { note: `${text}${best.note} (kept)`, kept: { run: best.run, model: best.model } };
+}
 
 /** A rival run is preferred only when the trace supports it with this many times the lines. */
 const RIVAL_FACTOR = 3;

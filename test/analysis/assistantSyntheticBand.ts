@@ -25,6 +25,24 @@ export function syntheticTruthModel(): BandModel {
   };
 }
 
+/**
+ * Invented prolate top, parallel band (no real molecule; cm^-1). A′ − A″ = −0.012 and B′ − B″ =
+ * −0.003 put K = 3 about 0.08 cm^-1 (≈ 9 line widths of the synthetic trace) from K = 0 in every
+ * cluster, so the K components are resolved but lie within a few widths of each other.
+ */
+export function syntheticParallelTruthModel(): BandModel {
+  return {
+    shape: 'prolate',
+    band: 'parallel',
+    lower: stateConstantsFrom({ B: 0.352, A: 2.81, DJ: 3e-7, DJK: 2e-6 }),
+    upper: stateConstantsFrom({ origin: 1043.27, B: 0.349, A: 2.798, DJ: 3e-7, DJK: 2e-6 }),
+    temperatureK: 120,
+    jMax: 30,
+    kMax: 8,
+    spinWeights: [1],
+  };
+}
+
 /** The band's trace, peaks and truth. */
 export interface SyntheticBand {
   truth: BandModel;

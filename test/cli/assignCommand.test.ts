@@ -9,7 +9,7 @@ import type { CliIo } from '../../src/cli/cliIo';
 import { cliMain, nodeIo } from '../../src/cli/main';
 import { lineTableParse } from '../../src/io/lineTable';
 import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
-import { syntheticBand, syntheticIsCorrect, type SyntheticBand } from '../analysis/assistantSyntheticBand';
+import { syntheticBand, syntheticIsCorrect, syntheticParallelTruthModel, type SyntheticBand } from '../analysis/assistantSyntheticBand';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const FIX = join(ROOT, 'test/fixtures/assign');
@@ -104,6 +104,44 @@ describe('assign (in process)', () => {
     const b = /lower\.B = ([\d.]+) ± ([\d.e+-]+) cm\^-1/.exec(r.stderr)!;
     expect(Math.abs(Number(b[1]) - 0.2451)).toBeLessThanOrEqual(3 * Number(b[2]));
   });
+
+  it('starts a parallel band whose K components the shared shift cannot follow from the model alone (staged start)', async () => {
+    // Invented prolate top, parallel band (syntheticParallelTruthModel); first guess within the
+    // issue's error ranges: origin +0.3 cm^-1, B″ +0.4 %, B′ +0.5 %, A″ +0.8 %, A′ +1.0 % (A′ − A″ off
+    // by +0.0056 cm^-1, K = 3 moved by ~5 line widths against K = 0), DJ and DJK 0 and floated.
+    const truth = syntheticParallelTruthModel();
+    const band = syntheticBand(truth, 1 / 300, 7);
+    const trace = join(dir, 'parallel.csv');
+    writeFileSync(trace, traceCsv(band));
+    const guess = {
+      name: 'invented prolate top, parallel band, first guess',
+      shape: 'prolate',
+      band: 'parallel',
+      lower: { B: truth.lower.B * 1.004, A: truth.lower.A * 1.008, DJ: 0, DJK: 0 },
+      upper: { origin: truth.upper.origin + 0.3, B: truth.upper.B * 1.005, A: truth.upper.A * 1.01, DJ: 0, DJK: 0 },
+      temperature: 120,
+      jMax: 30,
+      kMax: 8,
+      mass: 46,
+    };
+    const modelPath = join(dir, 'parallel-guess.json');
+    writeFileSync(modelPath, JSON.stringify(guess));
+    const r = await run(['--model', modelPath, '--trace', trace]);
+    expect(r.code).toBe(0);
+    expect(r.stderr).toMatch(/parallel start: clusters next to the band gap: \d+ of \d+ lines on a peak/);
+    const rows = rowsOf(r.stdout);
+    expect(rows.length).toBeGreaterThan(300);
+    expect(new Set(rows.map((x) => x.kLower)).size).toBeGreaterThanOrEqual(8);
+    const right = rows.filter((x) => syntheticIsCorrect(band, x, x.observedCm1)).length;
+    expect(right / rows.length).toBeGreaterThanOrEqual(0.99);
+    // Origin within 3σ of the truth; A′ − A″ (lower.A stays at its guess: a parallel band fixes
+    // only the difference) within 3σ of the truth's −0.012 cm^-1.
+    const origin = /upper\.origin = ([\d.]+) ± ([\d.e+-]+) cm\^-1/.exec(r.stderr)!;
+    expect(Math.abs(Number(origin[1]) - truth.upper.origin)).toBeLessThanOrEqual(3 * Number(origin[2]));
+    const a = /upper\.A = ([\d.]+) ± ([\d.e+-]+) cm\^-1/.exec(r.stderr)!;
+    const deltaA = Number(a[1]) - guess.lower.A;
+    expect(Math.abs(deltaA - (truth.upper.A - truth.lower.A))).toBeLessThanOrEqual(3 * Number(a[2]));
+  }, 120_000);
 
   it('takes --tolerance as k of the k·σ window', async () => {
     const wide = await run([
