@@ -398,7 +398,7 @@ export function ladderScenePaint(
   // Rungs and series lines are filled bars whose left (and top, bottom) edges sit on whole pixels:
   // the browser fills such rectangles several times faster than it strokes the same number of
   // anti-aliased lines (stroking 20,000 rungs cost 60–150 ms of rasterisation per redraw in headless
-  // Chromium, bars 10–20 ms), and they look the same.
+  // Chromium, bars 10–30 ms), and they look the same.
   for (const g of scene.groups) {
     const w = g.widthPx;
     ctx.fillStyle = g.colour;
