@@ -122,9 +122,10 @@ export function PlotOverlay(props: PlotOverlayProps) {
     viewsRef.current = views;
     const p = latest.current;
     const theme = plotTheme(p.isDark);
-    // Read-outs for tests and checks: what is drawn, the selected rung, and where the strongest rung
-    // and some free peaks sit (canvas CSS px).
+    // Read-outs for tests and checks: the range painted (cm^-1), what is drawn, the selected rung, and
+    // where the strongest rung and some free peaks sit (canvas CSS px).
     const data = canvas.dataset;
+    data.xRange = `${x0},${x1}`;
     if (views.ladder) {
       // Row names come from an image kept while the scene and the panel's vertical placement stay:
       // a zoom or pan then copies one bitmap instead of painting a hundred names (fillText is the

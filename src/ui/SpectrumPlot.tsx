@@ -40,6 +40,17 @@ function relayoutRangeOf(e: PlotRelayoutEvent): [number, number] | null | undefi
   return undefined;
 }
 
+/**
+ * plotly has moved the x axis itself to this range (a pan or a wheel zoom in progress): the overlay
+ * follows. During a box-zoom drag plotly reports the box's prospective range while the plot still
+ * shows the old one, so the overlay stays with the plot (it followed the box before, ladders
+ * against the wrong trace, and repainted on every pointer move of the drag).
+ */
+function isAxisMovedTo(el: HTMLElement, range: [number, number]): boolean {
+  const live = (el as unknown as { _fullLayout?: { xaxis?: { range?: unknown[] } } })._fullLayout?.xaxis?.range;
+  return Array.isArray(live) && Number(live[0]) === range[0] && Number(live[1]) === range[1];
+}
+
 // A finished zoom or pan is applied at once (its redraw should not wait a frame); a burst of
 // relayouts (scroll zoom) is then applied at most once per animation frame, the last range winning.
 function onRelayout(e: PlotRelayoutEvent): void {
@@ -248,7 +259,7 @@ export function SpectrumPlot() {
           onAfterPlot={(el) => overlayRef.current?.paint(el)}
           onRelayouting={(el, e) => {
             const r = relayoutRangeOf(e);
-            if (r) overlayRef.current?.paint(el, r);
+            if (r && isAxisMovedTo(el, r)) overlayRef.current?.paint(el, r);
           }}
           onSize={(width, height) => setSize((o) => (o.width === width && o.height === height ? o : { width, height }))}
           label="Trace with predicted sub-branch ladders. Click a peak to see candidate assignments, or a rung and then a peak to assign it."

@@ -27,13 +27,14 @@
  * LB_BENCH_ONLY (comma list of measure numbers, e.g. "1,7"), LB_BENCH_PROFILE=1 (also record main-thread
  * CPU profiles of the first run of each measure and print time per function to stderr; LB_BENCH_PROFILE_DIR
  * also writes them there as .cpuprofile files; build with
- * `vite build --minify false` for readable names).
+ * `vite build --minify false` for readable names); LB_BENCH_TRACE_DIR (write a Chromium performance trace of the
+ * first zoom/pan steps of each redraw measure there, for DevTools' Performance panel).
  */
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type CDPSession, type Page } from 'playwright-core';
 import type { PreviewServer } from 'vite';
 import {
   assetSizes,
@@ -60,6 +61,10 @@ const want = (n: number) => ONLY.size === 0 || ONLY.has(n);
 const PROFILE = process.env.LB_BENCH_PROFILE === '1';
 /** Folder to also write the raw CPU profiles to (.cpuprofile, for DevTools), when set. */
 const PROFILE_DIR = process.env.LB_BENCH_PROFILE_DIR ?? '';
+/** Folder to write a Chromium performance trace of the first zoom/pan steps of each redraw measure to, when set. */
+const TRACE_DIR = process.env.LB_BENCH_TRACE_DIR ?? '';
+/** Zoom/pan steps covered by that trace. */
+const TRACE_STEPS = 8;
 const LAUNCH_ARGS = [
   '--headless',
   '--no-sandbox',
@@ -257,6 +262,52 @@ async function profileStart(page: Page, what: string): Promise<{ stop: () => Pro
       }
     },
   };
+}
+
+/** Main-thread CPU totals of Chromium's Performance domain, ms (cumulative since the page opened). */
+interface CpuMetrics {
+  task: number;
+  script: number;
+  layout: number;
+  style: number;
+}
+
+/**
+ * Read the page's main-thread CPU totals (Performance.getMetrics: TaskDuration, ScriptDuration,
+ * LayoutDuration, RecalcStyleDuration). They count busy time only, so they swell less with the
+ * machine's load than wall times; the bench's own probes add the same small amount to every measure.
+ */
+async function cpuMetricsRead(page: Page): Promise<CpuMetrics> {
+  // One session per page, kept: the domain counts from the moment it is enabled.
+  let session = cpuSessions.get(page);
+  if (!session) {
+    session = page
+      .context()
+      .newCDPSession(page)
+      .then(async (cdp) => {
+        await cdp.send('Performance.enable');
+        return cdp;
+      });
+    cpuSessions.set(page, session);
+  }
+  const { metrics } = await (await session).send('Performance.getMetrics');
+  const get = (name: string) => 1000 * (metrics.find((m) => m.name === name)?.value ?? NaN);
+  return { task: get('TaskDuration'), script: get('ScriptDuration'), layout: get('LayoutDuration'), style: get('RecalcStyleDuration') };
+}
+
+const cpuSessions = new WeakMap<Page, Promise<CDPSession>>();
+
+/** Median of each CPU figure over runs, ms. */
+function cpuMedians(rows: readonly Record<keyof CpuMetrics, number>[]): Record<keyof CpuMetrics, number> | null {
+  if (rows.length === 0) return null;
+  const m = (k: keyof CpuMetrics) => round1(statMedian(rows.map((r) => r[k])));
+  return { task: m('task'), script: m('script'), layout: m('layout'), style: m('style') };
+}
+
+/** CPU per step between two reads, ms, rounded to 0.1. */
+function cpuPerStep(from: CpuMetrics, to: CpuMetrics, steps: number): Record<keyof CpuMetrics, number> {
+  const per = (k: keyof CpuMetrics) => round1((to[k] - from[k]) / Math.max(1, steps));
+  return { task: per('task'), script: per('script'), layout: per('layout'), style: per('style') };
 }
 
 // ---------------------------------------------------------------- page set-up
@@ -520,8 +571,24 @@ async function measureRedraw(loaded: LoadedTrace, nSteps: number): Promise<void>
   const byKind: Record<string, number[]> = { zoom: [], pan: [], reset: [] };
   const failed: string[] = [];
   const t0 = await page.evaluate(() => performance.now());
+  const cpu0 = await cpuMetricsRead(page);
   const prof = await profileStart(page, `redraw: ${plan.length} zoom/pan steps (includes the 400 ms pauses)`);
+  let isTracing = false;
+  if (TRACE_DIR) {
+    const browser = page.context().browser();
+    if (browser) {
+      await browser.startTracing(page, {
+        path: join(TRACE_DIR, `${emitPrefix || 'one_band_'}redraw.json`),
+        categories: ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'blink', 'cc', 'v8.execute', 'toplevel'],
+      });
+      isTracing = true;
+    }
+  }
   for (let k = 0; k < plan.length; k++) {
+    if (isTracing && k === TRACE_STEPS) {
+      await page.context().browser()?.stopTracing();
+      isTracing = false;
+    }
     try {
       const ms = await redrawStep(page, plan[k], k);
       times.push(ms);
@@ -532,6 +599,7 @@ async function measureRedraw(loaded: LoadedTrace, nSteps: number): Promise<void>
     await pause(400); // past plotly's double-click window
   }
   await prof?.stop();
+  const cpu1 = await cpuMetricsRead(page);
   const p1 = await probe(page);
   const t1 = await page.evaluate(() => performance.now());
   if (failed.length) note(`redraw steps that did not redraw: ${failed.join(' | ')}`);
@@ -554,6 +622,7 @@ async function measureRedraw(loaded: LoadedTrace, nSteps: number): Promise<void>
     plot_nodes_full_range: censusFull,
     plot_nodes_last_step: censusEnd,
     longest_longtask_ms: round1(longestTask(p1, t0, t1)),
+    main_thread_cpu_per_step_ms: cpuPerStep(cpu0, cpu1, plan.length),
     note: 'mouseup of a box zoom / x-axis pan (or click on Zoom out) → paint of the first frame drawing the re-decimated trace',
   });
 }
@@ -645,6 +714,8 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
   const toCandidates: number[] = [];
   const toRow: number[] = [];
   const eventDurations: number[] = [];
+  const cpuToRow: Record<keyof CpuMetrics, number>[] = [];
+  const cpuAfterRow: Record<keyof CpuMetrics, number>[] = [];
   let rowRendered = 0;
   const problems: string[] = [];
   let tries = 0;
@@ -708,9 +779,12 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
     await watchArm(page, 'rowCount', n + 1, 10_000);
     armed = await page.evaluate(() => performance.now());
     const profRow = toRow.length === 0 ? await profileStart(page, `assign (${label}): one candidate click to row painted`) : null;
+    const cpuBefore = await cpuMetricsRead(page);
     await page.mouse.click(box.x + box.width / 2, box.y + box.height / 2);
+    let cpuPainted: CpuMetrics;
     try {
       w = await watchResult(page, 'waiting for the new table row', 10_000);
+      cpuPainted = await cpuMetricsRead(page);
       await profRow?.stop();
     } catch (err) {
       problems.push(`candidate click: ${(err as Error).message}`);
@@ -723,6 +797,9 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
     if (ev.length) eventDurations.push(Math.max(...ev.map((e) => e.duration)));
     if (await page.locator('[data-testid=assignment-row][aria-selected=true]').count()) rowRendered++;
     await pause(700); // the autosave runs 300 ms after a change; keep it out of the next click
+    const cpuAfter = await cpuMetricsRead(page);
+    cpuToRow.push(cpuPerStep(cpuBefore, cpuPainted, 1));
+    cpuAfterRow.push(cpuPerStep(cpuPainted, cpuAfter, 1));
   }
   if (problems.length) note(`assign (${label}): ${problems.join(' | ')}`);
   emit({
@@ -733,6 +810,8 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
     max_ms: toRow.length ? round1(Math.max(...toRow)) : null,
     peak_click_to_candidates_median_ms: toCandidates.length ? round1(statMedian(toCandidates)) : null,
     event_timing_durations_ms: eventDurations,
+    main_thread_cpu_click_to_row_median_ms: cpuMedians(cpuToRow),
+    main_thread_cpu_700ms_after_row_median_ms: cpuMedians(cpuAfterRow),
     new_row_rendered_in_table: `${rowRendered}/${toRow.length}`,
     peaks_with_every_candidate_assigned: allAssigned,
     view_moved_after_assign: viewMoved,
@@ -980,6 +1059,7 @@ async function measureBands(browser: Browser, baseUrl: string, dir: string): Pro
     const worker: number[] = [];
     const during: number[] = [];
     const after: number[] = [];
+    const cpuAfterFit: Record<keyof CpuMetrics, number>[] = [];
     let summary = '';
     for (let run = 0; run < RUNS; run++) {
       await watchArm(page, 'fitShown', null, 120_000);
@@ -989,7 +1069,9 @@ async function measureBands(browser: Browser, baseUrl: string, dir: string): Pro
       const a = await page.evaluate(() => performance.now());
       await page.locator('[data-testid=fit-run]').click();
       const w = await watchResult(page, 'waiting for the joint fit', 120_000);
+      const cpuShown = await cpuMetricsRead(page);
       await pause(1500);
+      cpuAfterFit.push(cpuPerStep(cpuShown, await cpuMetricsRead(page), 1));
       await prof?.stop();
       const p = await probe(page);
       const click = inputAfter(p, 'click', a);
@@ -1013,6 +1095,7 @@ async function measureBands(browser: Browser, baseUrl: string, dir: string): Pro
       worker_post_to_result_median_ms: round1(statMedian(worker)),
       longest_longtask_median_ms: round1(statMedian(during)),
       longest_longtask_1500ms_after_median_ms: round1(statMedian(after)),
+      main_thread_cpu_1500ms_after_median_ms: cpuMedians(cpuAfterFit),
       lines_drawn: b.nLines,
       summary: summary.replace(/\s+/g, ' ').trim().slice(0, 160),
     });

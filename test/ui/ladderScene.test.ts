@@ -134,22 +134,27 @@ describe('ladderSceneBuild', () => {
 });
 
 describe('ladderScenePaint', () => {
-  it('paints every rung in view as a vertical segment at its pixel column, in its row colour', () => {
+  it('paints every rung in view as a bar from its pixel column, spanning the rung to the nearest pixel, in its row colour', () => {
     const { lines, rows, scene } = setUp();
     const view = fullView(lines, rows.length);
     const rec = paintRecorder();
     const drawn = ladderScenePaint(rec.ctx, scene, null, -1, view, theme);
     expect(drawn).toBe(scene.nuCm1.length);
-    const vertical = rec.segments.filter((s) => s.x0 === s.x1);
-    expect(vertical.length).toBe(drawn);
+    // Series base lines are the bars as thick as a rung is wide (1.6 or 2.2 px); the rest are rungs.
+    const bars = rec.rects.filter((r) => !scene.groups.some((g) => g.widthPx === r.h));
+    expect(bars.length).toBe(drawn);
+    expect(rec.segments).toEqual([]);
     for (let k = 0; k < scene.nuCm1.length; k++) {
-      const x = Math.round(px(view, scene.nuCm1[k])) + 0.5;
+      const x = Math.round(px(view, scene.nuCm1[k]));
       const row = rows[scene.rowIndex[k]];
-      const seg = vertical.find(
-        (s) => s.x0 === x && Math.abs(s.y0 - py(view, scene.yBottom[k])) < 1e-9 && Math.abs(s.y1 - py(view, scene.yTop[k])) < 1e-9,
-      );
-      expect(seg).toBeDefined();
-      expect(seg!.colour).toBe(ladderColour(row.deltaK, row.kLower, false));
+      const top = py(view, scene.yTop[k]);
+      const bottom = py(view, scene.yBottom[k]);
+      const bar = bars.find((r) => r.x === x && Math.abs(r.y - top) <= 0.5 && Math.abs(r.y + r.h - bottom) <= 0.5 + 1e-9);
+      expect(bar).toBeDefined();
+      // Whole-pixel edges (the fast fill) and the rung's width from its group.
+      expect(Number.isInteger(bar!.y) && Number.isInteger(bar!.h) && bar!.h >= 1).toBe(true);
+      expect(bar!.colour).toBe(ladderColour(row.deltaK, row.kLower, false));
+      expect(bar!.w).toBe(scene.groups.find((g) => g.series.some((s) => k >= s.start && k < s.end))!.widthPx);
     }
     // The row names are painted left of the panel, one per row.
     expect(rec.texts.map((t) => t.text).join('|')).toContain('K″=0');
@@ -205,10 +210,11 @@ describe('ladderScenePaint', () => {
     expect(names.texts.length).toBeGreaterThan(0);
     expect(names.texts).toEqual(whole.texts);
     expect(names.segments).toEqual([]);
+    expect(names.rects).toEqual([]);
     const bare = paintRecorder();
     expect(ladderScenePaint(bare.ctx, scene, null, -1, view, theme, false)).toBe(scene.nuCm1.length);
     expect(bare.texts).toEqual([]);
-    expect(bare.segments).toEqual(whole.segments);
+    expect(bare.rects).toEqual(whole.rects);
   });
 
   it('leaves out rungs outside the visible range', () => {
@@ -277,7 +283,15 @@ describe('ladderScenePaint', () => {
     const rec2 = paintRecorder();
     ladderScenePaint(rec2.ctx, scene, ladderMarkersBuild(all, scene), -1, view, theme);
     expect(rec2.arcs.filter((a) => a.how === 'fill').length).toBe(0);
-    expect(rec2.segments.filter((s) => s.colour === theme.assigned && s.widthPx === 4).length).toBe(lines.count);
+    const assignedBars = rec2.rects.filter((r) => r.colour === theme.assigned && r.w === 4);
+    expect(assignedBars.length).toBe(lines.count);
+    // Each bar is centred (to a pixel) on its rung's bar and spans the marker's ±0.09 row units.
+    const dense = ladderMarkersBuild(all, scene);
+    for (let k = 0; k < dense.nuCm1.length; k++) {
+      const bar = assignedBars[k];
+      expect(bar.x).toBe(Math.round(px(view, dense.nuCm1[k])) - 1);
+      expect(Math.abs(bar.y + bar.h / 2 - py(view, dense.y[k]))).toBeLessThanOrEqual(1);
+    }
   });
 
   it('rings the selected rung at its tip', () => {

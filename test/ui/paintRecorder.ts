@@ -1,4 +1,4 @@
-/** A stand-in 2D context for the overlay painters: records every segment, arc and text it is given. */
+/** A stand-in 2D context for the overlay painters: records every segment, filled rectangle, arc and text it is given. */
 import type { LadderPaintContext } from '../../src/ui/plot/ladderScene';
 
 export interface Segment {
@@ -14,15 +14,18 @@ export interface PaintRecord {
   ctx: LadderPaintContext;
   /** Stroked straight segments (moveTo → lineTo), with the style they were stroked in. */
   segments: Segment[];
+  /** Filled rectangles (rect → fill), with the colour they were filled in; CSS px, h > 0 downwards. */
+  rects: { x: number; y: number; w: number; h: number; colour: string }[];
   /** Arcs: centre, radius, and whether stroked or filled (both recorded when both). */
   arcs: { x: number; y: number; r: number; colour: string; how: 'stroke' | 'fill' }[];
   texts: { text: string; x: number; y: number; font: string }[];
 }
 
 export function paintRecorder(): PaintRecord {
-  const rec: PaintRecord = { ctx: undefined as unknown as LadderPaintContext, segments: [], arcs: [], texts: [] };
+  const rec: PaintRecord = { ctx: undefined as unknown as LadderPaintContext, segments: [], rects: [], arcs: [], texts: [] };
   let path: { kind: 'seg'; x0: number; y0: number; x1: number; y1: number }[] = [];
   let arcs: { x: number; y: number; r: number }[] = [];
+  let rects: { x: number; y: number; w: number; h: number }[] = [];
   let at = { x: NaN, y: NaN };
   const ctx = {
     strokeStyle: '#000',
@@ -33,6 +36,7 @@ export function paintRecorder(): PaintRecord {
     beginPath() {
       path = [];
       arcs = [];
+      rects = [];
     },
     moveTo(x: number, y: number) {
       at = { x, y };
@@ -52,10 +56,13 @@ export function paintRecorder(): PaintRecord {
     },
     fill() {
       for (const a of arcs) rec.arcs.push({ ...a, colour: String(ctx.fillStyle), how: 'fill' });
+      for (const r of rects) rec.rects.push({ ...r, colour: String(ctx.fillStyle) });
     },
     save() {},
     restore() {},
-    rect() {},
+    rect(x: number, y: number, w: number, h: number) {
+      rects.push({ x, y, w, h });
+    },
     clip() {},
     fillText(text: string, x: number, y: number) {
       rec.texts.push({ text, x, y, font: ctx.font });

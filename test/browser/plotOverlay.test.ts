@@ -1,0 +1,81 @@
+/**
+ * The canvas overlay (ladders, peak markers) stays on the plot's axis while the pointer drags: a
+ * box-zoom drag leaves both where they are until the button is released, a pan of the x axis moves
+ * both together.
+ */
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { gotoApp, launch, openPage, SHOTS } from './browser';
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launch();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+/** The x range plotly has laid out and the one the overlay last painted, cm^-1. */
+async function ranges(page: Page): Promise<{ axis: number[]; painted: number[] }> {
+  return page.evaluate(() => {
+    const gd = document.querySelector('[data-testid=spectrum-plot]') as unknown as { _fullLayout?: { xaxis?: { range?: unknown[] } } };
+    const painted = (document.querySelector('[data-testid=plot-overlay]') as HTMLElement | null)?.dataset.xRange ?? '';
+    return { axis: (gd._fullLayout?.xaxis?.range ?? []).map(Number), painted: painted.split(',').map(Number) };
+  });
+}
+
+/** Two animation frames: the overlay paints once per frame. */
+async function frames(page: Page): Promise<void> {
+  await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
+}
+
+describe('plot overlay while dragging', () => {
+  it('keeps the ladders on the drawn range during a box-zoom drag and moves them with a pan of the axis', async () => {
+    const { context, page, log } = await openPage(browser);
+    await gotoApp(page);
+    await expect
+      .poll(async () => JSON.stringify((await ranges(page)).painted), { timeout: 30_000 })
+      .toBe(JSON.stringify((await ranges(page)).axis));
+    const before = await ranges(page);
+
+    // Box zoom: button down, dragged across 30 % of the plot, not yet released.
+    const area = (await page.locator('[data-testid=spectrum-plot] .nsewdrag').first().boundingBox())!;
+    const y = area.y + area.height * 0.85;
+    await page.mouse.move(area.x + area.width * 0.3, y);
+    await page.mouse.down();
+    await page.mouse.move(area.x + area.width * 0.6, y, { steps: 6 });
+    await frames(page);
+    await page.waitForTimeout(200);
+    const during = await ranges(page);
+    await page.screenshot({ path: `${SHOTS}/70-box-zoom-drag.png` });
+    // plotly has not moved the axis, and the overlay is still painted for it (it used to follow the box).
+    expect(during.axis).toEqual(before.axis);
+    expect(during.painted).toEqual(before.axis);
+    await page.mouse.up();
+    await expect
+      .poll(async () => (await ranges(page)).axis[1] - (await ranges(page)).axis[0], { timeout: 15_000 })
+      .toBeLessThan(0.5 * (before.axis[1] - before.axis[0]));
+    await expect
+      .poll(async () => JSON.stringify((await ranges(page)).painted), { timeout: 15_000 })
+      .toBe(JSON.stringify((await ranges(page)).axis));
+    const zoomed = await ranges(page);
+
+    // Pan: drag the middle of the x axis 120 px, button still down: plotly moves the axis and the
+    // overlay follows it in the same frames.
+    const axis = (await page.locator('[data-testid=spectrum-plot] .draglayer .ewdrag').first().boundingBox())!;
+    const cx = axis.x + axis.width / 2;
+    const cy = axis.y + axis.height / 2;
+    await page.mouse.move(cx, cy);
+    await page.mouse.down();
+    await page.mouse.move(cx + 120, cy, { steps: 6 });
+    await frames(page);
+    await page.waitForTimeout(200);
+    const panning = await ranges(page);
+    expect(panning.axis[0]).toBeLessThan(zoomed.axis[0]);
+    expect(panning.painted[0]).toBeCloseTo(panning.axis[0], 9);
+    expect(panning.painted[1]).toBeCloseTo(panning.axis[1], 9);
+    await page.mouse.up();
+    expect(log.pageErrors).toEqual([]);
+    await context.close();
+  });
+});
