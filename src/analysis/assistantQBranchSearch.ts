@@ -8,7 +8,12 @@
  * along q until its lines fall on peaks; this does the same as a one-dimensional search over q
  * (∂ν_Q/∂q = −J(J+1)/2), accepted only when its best count stands clearly above chance and above
  * every q far from it (same rule of thumb as the model-only shift search: a margin of 3 lines
- * and 15 %).
+ * and 15 %). Where the Q branch fills its own stretch of the trace with peaks, a far q can land
+ * nearly as many lines within half a width of some peak; the P and R fit predicts the Q lines at
+ * the right q to a small fraction of a width, a far q only at random within the window, so the
+ * same counts are then taken again with a tight window (TIGHT_FRACTION of a width) and the tight
+ * count decides, with the same margin, and only when most of the loose matches at the best q are
+ * tight ones.
  * Source: the Π–Σ band structure (Herzberg I (1950) ch. V, l-type doubling; Q lines reach the
  * other Λ component, from memory); a discrete cross-correlation of the predicted Q ladder with the
  * observed peaks (common practice).
@@ -30,6 +35,10 @@ const Q_MIN_MATCHED = 6;
 /** The best q must match max(Q_MARGIN_MIN, Q_MARGIN_FRACTION × its count) more lines than any far q (rule of thumb). */
 const Q_MARGIN_MIN = 3;
 const Q_MARGIN_FRACTION = 0.15;
+/** Half-width of the tight window, as a fraction of the median FWHM (rule of thumb: a peak at SNR > 20 is placed to a few hundredths of its width). */
+const TIGHT_FRACTION = 0.15;
+/** Least share of the best q's loose matches that must also be tight ones. */
+const TIGHT_SHARE_MIN = 0.6;
 /** Most Q lines returned as seeds. */
 const Q_SEEDS = 8;
 
@@ -70,35 +79,61 @@ export function assistantQBranchSearch(
     .slice(0, Q_SEARCH_LINES);
   if (use.length < Q_MIN_MATCHED) return none(`only ${use.length} Q lines that q moves by more than two line widths`);
   const maxSlope = Math.max(...use.map((i) => slope(lines.jLower[i])));
-  const step = (0.5 * tau) / maxSlope;
-  const nSteps = Math.min(4000, Math.ceil(range / step));
   const counts: number[] = [];
   const free = (p: number) => !taken.has(p);
-  const onPeak = (x: number): number => {
-    const [first, last] = assistantPeaksInRange(peaks, x - 0.5 * tau, x + 0.5 * tau);
+  const onPeak = (x: number, halfWidth: number): number => {
+    const [first, last] = assistantPeaksInRange(peaks, x - halfWidth, x + halfWidth);
     for (let p = first; p <= last; p++) if (free(p)) return p;
     return -1;
   };
-  // Moving q by dq moves line i by −dq·J(J+1)/2.
+  // Moving q by dq moves line i by −dq·J(J+1)/2; the grid is fine enough for the tight window.
+  const tight = TIGHT_FRACTION * tau;
+  const step = tight / maxSlope;
+  const nSteps = Math.min(12000, Math.ceil(range / step));
+  const tightCounts: number[] = [];
   for (let s = -nSteps; s <= nSteps; s++) {
     const dq = (s * range) / nSteps;
     let c = 0;
-    for (const i of use) if (onPeak(lines.wavenumberCm1[i] - dq * slope(lines.jLower[i])) >= 0) c++;
+    let t = 0;
+    for (const i of use) {
+      const x = lines.wavenumberCm1[i] - dq * slope(lines.jLower[i]);
+      if (onPeak(x, 0.5 * tau) >= 0) {
+        c++;
+        if (onPeak(x, tight) >= 0) t++;
+      }
+    }
     counts.push(c);
+    tightCounts.push(t);
   }
-  let best = 0;
-  for (let s = 1; s < counts.length; s++) if (counts[s] > counts[best]) best = s;
   const dqOf = (s: number) => ((s - nSteps) * range) / nSteps;
-  const median = [...counts].sort((a, b) => a - b)[counts.length >> 1];
   const medianSlope = [...use.map((i) => slope(lines.jLower[i]))].sort((a, b) => a - b)[use.length >> 1];
-  // A far q moves the median line by more than a line width: it cannot reuse the same peaks.
-  let second = 0;
-  for (let s = 0; s < counts.length; s++) if (Math.abs(dqOf(s) - dqOf(best)) * medianSlope > tau) second = Math.max(second, counts[s]);
-  const count = counts[best];
   const n = use.length;
-  const figures = `${count} of ${n} Q lines on free peaks at q ${fitted.upper.q + dqOf(best) >= 0 ? '+' : ''}${(fitted.upper.q + dqOf(best)).toExponential(3)} cm^-1, at most ${second} at any q far from it, ${median} typically`;
-  if (count < Q_MIN_MATCHED || count / n < (2 * median) / n + 0.1 || count - second < Math.max(Q_MARGIN_MIN, Q_MARGIN_FRACTION * count))
-    return none(`the Q branch is not placed: ${figures}`);
+  const fmtQ = (s: number) => `${fitted.upper.q + dqOf(s) >= 0 ? '+' : ''}${(fitted.upper.q + dqOf(s)).toExponential(3)}`;
+  /** Best grid point of `c`, the most any q far from it reaches (a far q moves the median line by more than a line width: it cannot reuse the same peaks), and the median. */
+  const rank = (c: number[]) => {
+    let best = 0;
+    for (let s = 1; s < c.length; s++) if (c[s] > c[best]) best = s;
+    let second = 0;
+    for (let s = 0; s < c.length; s++) if (Math.abs(dqOf(s) - dqOf(best)) * medianSlope > tau) second = Math.max(second, c[s]);
+    return { best, count: c[best], second, median: [...c].sort((a, b) => a - b)[c.length >> 1] };
+  };
+  const stands = (r: ReturnType<typeof rank>) =>
+    r.count >= Q_MIN_MATCHED &&
+    r.count / n >= (2 * r.median) / n + 0.1 &&
+    r.count - r.second >= Math.max(Q_MARGIN_MIN, Q_MARGIN_FRACTION * r.count);
+  const loose = rank(counts);
+  let figures = `${loose.count} of ${n} Q lines on free peaks at q ${fmtQ(loose.best)} cm^-1, at most ${loose.second} at any q far from it, ${loose.median} typically`;
+  let best = loose.best;
+  if (!stands(loose)) {
+    // The loose window cannot tell: the tight one may (see the header).
+    const close = rank(tightCounts);
+    const looseThere = counts[close.best];
+    figures +=
+      `; within ${TIGHT_FRACTION} of a line width: ${close.count} at q ${fmtQ(close.best)} cm^-1 (of its ${looseThere} loose matches), ` +
+      `at most ${close.second} at any q far from it, ${close.median} typically`;
+    if (!stands(close) || close.count < TIGHT_SHARE_MIN * looseThere) return none(`the Q branch is not placed: ${figures}`);
+    best = close.best;
+  }
   const dq = dqOf(best);
   const options = assistantOptionsResolve(fitted);
   const out: AssistantLine[] = [];

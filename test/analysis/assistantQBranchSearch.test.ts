@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { assistantPriorSigmas } from '../../src/analysis/assistantPosterior';
 import { assistantQBranchSearch } from '../../src/analysis/assistantQBranchSearch';
 import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
 import { syntheticBand } from './assistantSyntheticBand';
@@ -33,6 +34,36 @@ describe('assistantQBranchSearch', () => {
     for (const l of found.lines) {
       expect(l.jUpper).toBe(l.jLower);
       // The true Q line of that J (truth model, bandLines) lies under the seed's peak.
+      let nearest = Infinity;
+      for (let i = 0; i < band.lines.count; i++) {
+        if (band.lines.jLower[i] !== l.jLower || band.lines.deltaJ[i] !== 0) continue;
+        nearest = Math.min(nearest, Math.abs(band.lines.wavenumberCm1[i] - l.observedCm1));
+      }
+      expect(nearest, `Q(${l.jLower})`).toBeLessThan(0.25 * band.fwhmCm1);
+    }
+  });
+
+  it('places a dense Q branch that a far q fills nearly as well within half a width, by the tight window', () => {
+    // An invented heavier Π–Σ band (cm^-1): B' − B'' = −1.5e-4 packs the Q lines about a width apart
+    // at J ≈ 30, so sliding the ladder along q lands most of them on some other Q line's peak.
+    const truth: BandModel = {
+      shape: 'linear',
+      band: 'perpendicular',
+      lower: stateConstantsFrom({ B: 0.1 }),
+      upper: stateConstantsFrom({ origin: 2295.7, B: 0.09985, q: 4e-4 }),
+      temperatureK: 320,
+      jMax: 60,
+      kMax: 0,
+      spinWeights: [1],
+    };
+    const band = syntheticBand(truth, 0.002, 21);
+    const fitted: BandModel = { ...truth, upper: { ...truth.upper, B: truth.upper.B + 2e-4, q: 0 } };
+    const qSigma = assistantPriorSigmas(truth, ['upper.origin', 'upper.B', 'lower.B', 'upper.q'])['upper.q'];
+    const found = assistantQBranchSearch(fitted, qSigma, band.peaks, new Set());
+    // The loose count alone does not stand out here (that is what the tight window is for).
+    expect(found.text).toMatch(/within 0\.15 of a line width/);
+    expect(found.lines.length, found.text).toBeGreaterThanOrEqual(3);
+    for (const l of found.lines) {
       let nearest = Infinity;
       for (let i = 0; i < band.lines.count; i++) {
         if (band.lines.jLower[i] !== l.jLower || band.lines.deltaJ[i] !== 0) continue;
