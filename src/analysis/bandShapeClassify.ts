@@ -868,7 +868,13 @@ export function bandShapeClassify(
     // A symmetric top's PQR envelope may as well be an unresolved perpendicular band, whose P/R
     // wings give another B (bench:contour classify: −35 % with a narrow range on tuning seed 59), so
     // B from it is never called determined.
-    bDetermined = bLow >= 0.85 * B && bHigh <= 1.15 * B && !envelopeHeld;
+    // The same holds for a PR envelope read without resolved lines: an oblate top's unresolved
+    // perpendicular band, whose Q branches spread over the whole band instead of piling at its centre,
+    // shows P and R maxima with no central Q branch, and its envelope fitted as a Σ–Σ band's gives
+    // another B (bench:contour classify: −49 % with a ±12 % range on held-out seed 1017). So B from a PR
+    // envelope is given with its range but not called determined.
+    const envelopePr = bMethod === 'envelope-fit' && profile === 'PR';
+    bDetermined = bLow >= 0.85 * B && bHigh <= 1.15 * B && !envelopeHeld && !envelopePr;
     if (newRange) {
       // Π–Σ and Q-series envelopes: the range that fits, at least ±ENVELOPE_B_FLOOR (the rigid model's
       // own error), determined only within ±10 % and not reaching the end of the values tried.
@@ -878,6 +884,10 @@ export function bandShapeClassify(
       if (newRange.open) evidence.push('B is not determined: the values that fit reach the end of those tried');
       else if (!bDetermined) evidence.push('B is not determined: the range that fits is wider than ±10 %');
     } else if (envelopeHeld) evidence.push('B is not determined: the profile does not rule out an unresolved perpendicular band');
+    else if (envelopePr)
+      evidence.push(
+        "B is not determined: without resolved lines a PR envelope does not rule out an oblate top's unresolved perpendicular band, whose envelope gives another B",
+      );
     else if (!bDetermined) evidence.push('B is not determined: the range is wider than ±15 %');
     evidence.push(
       `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round((newRange ? ENVELOPE_B_FLOOR : rel) * 100)} %, measured on seeded bands)`,
