@@ -25,10 +25,11 @@
  *
  * Environment: LB_BENCH_DIST (built app folder, default dist), LB_BENCH_RUNS (repeats, default 5),
  * LB_BENCH_ONLY (comma list of measure numbers, e.g. "1,7"), LB_BENCH_PROFILE=1 (also record main-thread
- * CPU profiles of the first run of each measure and print time per function to stderr; LB_BENCH_PROFILE_DIR
+ * CPU profiles of the first run of each measure (the first three candidate clicks of click-to-assign) and print time per function to stderr; LB_BENCH_PROFILE_DIR
  * also writes them there as .cpuprofile files; build with
  * `vite build --minify false` for readable names); LB_BENCH_TRACE_DIR (write a Chromium performance trace of the
- * first zoom/pan steps of each redraw measure there, for DevTools' Performance panel).
+ * first zoom/pan steps of each redraw measure there, and of the first candidate clicks of each click-to-assign
+ * measure, for DevTools' Performance panel).
  */
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
@@ -65,6 +66,13 @@ const PROFILE_DIR = process.env.LB_BENCH_PROFILE_DIR ?? '';
 const TRACE_DIR = process.env.LB_BENCH_TRACE_DIR ?? '';
 /** Zoom/pan steps covered by that trace. */
 const TRACE_STEPS = 8;
+/**
+ * Candidate clicks (click-to-assign) traced (LB_BENCH_TRACE_DIR, one file each) or profiled (LB_BENCH_PROFILE):
+ * the first is often JIT-cold, so a few. Recording slows those clicks; their times stay in the medians.
+ */
+const ASSIGN_RECORDED_CLICKS = 3;
+/** Trace categories: the main thread's tasks, script, layout and frames, for DevTools' Performance panel. */
+const TRACE_CATEGORIES = ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'blink', 'cc', 'v8.execute', 'toplevel'];
 const LAUNCH_ARGS = [
   '--headless',
   '--no-sandbox',
@@ -262,6 +270,14 @@ async function profileStart(page: Page, what: string): Promise<{ stop: () => Pro
       }
     },
   };
+}
+
+/** Start a Chromium performance trace of the page into TRACE_DIR/<name>.json; false when no browser handle. */
+async function traceStart(page: Page, name: string): Promise<boolean> {
+  const browser = page.context().browser();
+  if (!browser) return false;
+  await browser.startTracing(page, { path: join(TRACE_DIR, `${name.replace(/[^a-z0-9]+/gi, '_')}.json`), categories: TRACE_CATEGORIES });
+  return true;
 }
 
 /** Main-thread CPU totals of Chromium's Performance domain, ms (cumulative since the page opened). */
@@ -579,7 +595,7 @@ async function measureRedraw(loaded: LoadedTrace, nSteps: number): Promise<void>
     if (browser) {
       await browser.startTracing(page, {
         path: join(TRACE_DIR, `${emitPrefix || 'one_band_'}redraw.json`),
-        categories: ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'blink', 'cc', 'v8.execute', 'toplevel'],
+        categories: TRACE_CATEGORIES,
       });
       isTracing = true;
     }
@@ -778,7 +794,12 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
     if (!box) continue;
     await watchArm(page, 'rowCount', n + 1, 10_000);
     armed = await page.evaluate(() => performance.now());
-    const profRow = toRow.length === 0 ? await profileStart(page, `assign (${label}): one candidate click to row painted`) : null;
+    const profRow =
+      toRow.length < ASSIGN_RECORDED_CLICKS
+        ? await profileStart(page, `assign (${label}): candidate click ${toRow.length} to row painted`)
+        : null;
+    const isTracing =
+      toRow.length < ASSIGN_RECORDED_CLICKS && TRACE_DIR !== '' && (await traceStart(page, `${label}_assign_${toRow.length}`));
     const cpuBefore = await cpuMetricsRead(page);
     await page.mouse.click(box.x + box.width / 2, box.y + box.height / 2);
     let cpuPainted: CpuMetrics;
@@ -789,6 +810,8 @@ async function measureAssign(loaded: LoadedTrace, label: string, nRuns: number, 
     } catch (err) {
       problems.push(`candidate click: ${(err as Error).message}`);
       continue;
+    } finally {
+      if (isTracing) await page.context().browser()?.stopTracing();
     }
     p = await probe(page);
     const clickT = inputAfter(p, 'click', armed);
