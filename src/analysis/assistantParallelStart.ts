@@ -30,7 +30,8 @@ import { bandLines } from '../physics/bandLines';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel, LineList } from '../physics/model';
 import { assistantOptionsResolve } from './assistantOptions';
-import { assistantPeakContext, assistantPeaksInRange, assistantPeakUncertainty } from './assistantPeakContext';
+import { assistantPeakContext, assistantPeaksInRange, assistantSeedOnPeak } from './assistantPeakContext';
+import { assistantLineIsolated } from './assistantSeedFromModel';
 import type { AssistantLine } from './assistantTypes';
 import type { PeakList } from './peaksFind';
 
@@ -309,43 +310,14 @@ function pickSeeds(
     const [first, last] = assistantPeaksInRange(peaks, x - half, x + half);
     if (last !== first || used.has(first)) continue;
     if (Math.abs(peaks.wavenumberCm1[first] - x) > tau / 3) continue;
-    let isAlone = true;
-    let lo = 0;
-    let hi = sortedNu.length;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (sortedNu[mid] < x - half) lo = mid + 1;
-      else hi = mid;
-    }
-    for (let s = lo; s < sortedNu.length && sortedNu[s] <= x + half; s++) {
-      const j = order[s];
-      if (j !== i && lines.intensity[j] >= SEED_ISOLATION * lines.intensity[i]) isAlone = false;
-    }
-    if (!isAlone) continue;
+    if (!assistantLineIsolated(lines, order, sortedNu, i, half, SEED_ISOLATION)) continue;
     used.add(first);
     perK.set(k, (perK.get(k) ?? 0) + 1);
     const label = lineLabelAscii(0, lines.deltaJ[i], k, lines.jLower[i], model.shape);
     const reason = `model-only seed (parallel start): the only peak within ±${half.toPrecision(2)} cm^-1 of ${label} predicted at ${x.toFixed(4)} cm^-1, no comparable line predicted nearby`;
-    seeds.push({
-      id: `pseed${seeds.length + 1}`,
-      jUpper: lines.jUpper[i],
-      kUpper: lines.kUpper[i],
-      jLower: lines.jLower[i],
-      kLower: k,
-      observedCm1: peaks.wavenumberCm1[first],
-      uncertaintyCm1: assistantPeakUncertainty(peaks, context, first, floor, blend),
-      isBlended: context.isPossibleBlend[first] === 1,
-      isExcluded: false,
-      note: reason,
-      status: 'seed',
-      source: 'auto-seed',
-      peakIndex: first,
-      predictedCm1: x,
-      matchSigmaCm1: half / 3,
-      distanceSigma: Math.abs(peaks.wavenumberCm1[first] - x) / (half / 3),
-      reason,
-      iteration: 0,
-    });
+    const quanta = { jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: k };
+    const place = { id: `pseed${seeds.length + 1}`, quanta, peak: first, predictedCm1: x, matchSigmaCm1: half / 3, reason };
+    seeds.push(assistantSeedOnPeak(peaks, context, place, floor, blend));
   }
   return seeds;
 }

@@ -1,4 +1,5 @@
 import type { PeakList } from './peaksFind';
+import type { AssistantLine } from './assistantTypes';
 import { arrayMedianInPlace } from './arrayMedian';
 
 /** What the assistant derives once from a peak list: local line width and possible blends. */
@@ -210,4 +211,50 @@ export function assistantWindowLimitCm1(
   const density = assistantPeakDensity(peaks, positionCm1);
   const sparse = density > 0 ? chancePeaks / (2 * density) : 0;
   return Math.max(maxWindowFwhm * width, sparse);
+}
+
+/** Where a machine-made seed sits: the predicted line's quanta, its peak and the matching window. */
+export interface AssistantSeedPlace {
+  id: string;
+  quanta: { jUpper: number; kUpper: number; jLower: number; kLower: number };
+  /** Index of the peak the seed takes. */
+  peak: number;
+  /** Predicted position, cm^-1. */
+  predictedCm1: number;
+  /** 1σ of the match, cm^-1 (the distance is counted in it). */
+  matchSigmaCm1: number;
+  /** Why the line is a seed, in words (also its note). */
+  reason: string;
+}
+
+/**
+ * A seed line made from the model (status 'seed', source 'auto-seed', iteration 0) on its peak, with
+ * the peak's uncertainty (assistantPeakUncertainty) and blend flag.
+ * @param positionFloorFraction, blendUncertaintyFraction as assistantPeakUncertainty
+ */
+export function assistantSeedOnPeak(
+  peaks: PeakList,
+  context: AssistantPeakContext,
+  place: AssistantSeedPlace,
+  positionFloorFraction: number,
+  blendUncertaintyFraction: number,
+): AssistantLine {
+  const { peak, predictedCm1, matchSigmaCm1, reason } = place;
+  return {
+    id: place.id,
+    ...place.quanta,
+    observedCm1: peaks.wavenumberCm1[peak],
+    uncertaintyCm1: assistantPeakUncertainty(peaks, context, peak, positionFloorFraction, blendUncertaintyFraction),
+    isBlended: context.isPossibleBlend[peak] === 1,
+    isExcluded: false,
+    note: reason,
+    status: 'seed',
+    source: 'auto-seed',
+    peakIndex: peak,
+    predictedCm1,
+    matchSigmaCm1,
+    distanceSigma: Math.abs(peaks.wavenumberCm1[peak] - predictedCm1) / matchSigmaCm1,
+    reason,
+    iteration: 0,
+  };
 }

@@ -22,7 +22,7 @@ import { bandLines } from '../physics/bandLines';
 import { lineLabelAscii } from '../physics/lineLabel';
 import type { BandModel } from '../physics/model';
 import { assistantOptionsResolve } from './assistantOptions';
-import { assistantPeakContext, assistantPeaksInRange, assistantPeakUncertainty } from './assistantPeakContext';
+import { assistantPeakContext, assistantPeaksInRange, assistantSeedOnPeak } from './assistantPeakContext';
 import type { AssistantLine } from './assistantTypes';
 import type { PeakList } from './peaksFind';
 
@@ -147,26 +147,9 @@ export function assistantQBranchSearch(
     used.add(first);
     const label = lineLabelAscii(lines.deltaK[i], 0, lines.kLower[i], lines.jLower[i], fitted.shape);
     const reason = `Q-branch search: ${label} predicted at ${x.toFixed(4)} cm^-1 with the q the Q ladder fits best (${figures}); the only peak within a line width`;
-    out.push({
-      id: `${idPrefix}${out.length + 1}`,
-      jUpper: lines.jUpper[i],
-      kUpper: lines.kUpper[i],
-      jLower: lines.jLower[i],
-      kLower: lines.kLower[i],
-      observedCm1: peaks.wavenumberCm1[first],
-      uncertaintyCm1: assistantPeakUncertainty(peaks, context, first, options.positionFloorFraction, options.blendUncertaintyFraction),
-      isBlended: context.isPossibleBlend[first] === 1,
-      isExcluded: false,
-      note: reason,
-      status: 'seed',
-      source: 'auto-seed',
-      peakIndex: first,
-      predictedCm1: x,
-      matchSigmaCm1: tau / 2,
-      distanceSigma: Math.abs(peaks.wavenumberCm1[first] - x) / (tau / 2),
-      reason,
-      iteration: 0,
-    });
+    const quanta = { jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i] };
+    const place = { id: `${idPrefix}${out.length + 1}`, quanta, peak: first, predictedCm1: x, matchSigmaCm1: tau / 2, reason };
+    out.push(assistantSeedOnPeak(peaks, context, place, options.positionFloorFraction, options.blendUncertaintyFraction));
   }
   if (out.length < 3) return none(`the Q branch is placed (${figures}) but only ${out.length} of its lines sit alone on a peak`);
   return { lines: out, text: `the Q branch placed by q: ${figures}; ${out.length} of its lines seeded` };

@@ -2,7 +2,7 @@ import { bandLines } from '../physics/bandLines';
 import { lineLabelAscii } from '../physics/lineLabel';
 import { shapeUniqueName, type BandModel } from '../physics/model';
 import { assistantOptionsResolve } from './assistantOptions';
-import { assistantPeakContext, assistantPeaksInRange, assistantPeakUncertainty } from './assistantPeakContext';
+import { assistantPeakContext, assistantPeaksInRange, assistantSeedOnPeak } from './assistantPeakContext';
 import type { AssistantLine } from './assistantTypes';
 import type { PeakList } from './peaksFind';
 
@@ -347,26 +347,9 @@ function combSeeds(
     perSub.set(m, (perSub.get(m) ?? 0) + 1);
     const label = lineLabelAscii(lines.deltaK[i], lines.deltaJ[i], lines.kLower[i], lines.jLower[i], model.shape);
     const reason = `model-only seed from the sub-band comb: the only peak within ±${tau.toPrecision(2)} cm^-1 of ${label} predicted at ${x.toFixed(4)} cm^-1 (${why})`;
-    seeds.push({
-      id: `comb-seed${seeds.length + 1}`,
-      jUpper: lines.jUpper[i],
-      kUpper: lines.kUpper[i],
-      jLower: lines.jLower[i],
-      kLower: lines.kLower[i],
-      observedCm1: peaks.wavenumberCm1[first],
-      uncertaintyCm1: assistantPeakUncertainty(peaks, context, first, assistant.positionFloorFraction, assistant.blendUncertaintyFraction),
-      isBlended: context.isPossibleBlend[first] === 1,
-      isExcluded: false,
-      note: reason,
-      status: 'seed',
-      source: 'auto-seed',
-      peakIndex: first,
-      predictedCm1: x,
-      matchSigmaCm1: tau / 3,
-      distanceSigma: Math.abs(peaks.wavenumberCm1[first] - x) / (tau / 3),
-      reason,
-      iteration: 0,
-    });
+    const quanta = { jUpper: lines.jUpper[i], kUpper: lines.kUpper[i], jLower: lines.jLower[i], kLower: lines.kLower[i] };
+    const place = { id: `comb-seed${seeds.length + 1}`, quanta, peak: first, predictedCm1: x, matchSigmaCm1: tau / 3, reason };
+    seeds.push(assistantSeedOnPeak(peaks, context, place, assistant.positionFloorFraction, assistant.blendUncertaintyFraction));
   }
   return seeds;
 }

@@ -6,7 +6,7 @@ import {
   assistantPeaksCheck,
   assistantPeaksInRange,
   assistantPeaksUsable,
-  assistantPeakUncertainty,
+  assistantSeedOnPeak,
 } from './assistantPeakContext';
 import { assistantOptionsResolve } from './assistantOptions';
 import type { AssistantLine, AssistantOptions } from './assistantTypes';
@@ -314,32 +314,15 @@ export function assistantSeedFromModel(
     const [first, last] = assistantPeaksInRange(peaks, x - half, x + half);
     if (last !== first) continue;
     if (usedPeaks.has(first)) continue;
-    if (!isIsolated(predicted, order, sortedNu, i, half + Math.abs(subDelta), o.isolationFraction)) continue;
+    if (!assistantLineIsolated(predicted, order, sortedNu, i, half + Math.abs(subDelta), o.isolationFraction)) continue;
     const p = first;
     usedPeaks.add(p);
     perSeries.set(series, (perSeries.get(series) ?? 0) + 1);
     const label = lineLabelAscii(predicted.deltaK[i], predicted.deltaJ[i], predicted.kLower[i], predicted.jLower[i], model.shape);
     const reason = `model-only seed: the only peak within ±${half.toPrecision(2)} cm^-1 of ${label} predicted at ${x.toFixed(4)} cm^-1 (after the shift ${shiftText} and ${subDelta >= 0 ? '+' : ''}${subDelta.toFixed(4)} cm^-1 for its sub-band), no comparable line predicted nearby`;
-    seeds.push({
-      id: `${o.idPrefix}${seeds.length + 1}`,
-      jUpper: predicted.jUpper[i],
-      kUpper: predicted.kUpper[i],
-      jLower: predicted.jLower[i],
-      kLower: predicted.kLower[i],
-      observedCm1: peaks.wavenumberCm1[p],
-      uncertaintyCm1: assistantPeakUncertainty(peaks, context, p, assistant.positionFloorFraction, assistant.blendUncertaintyFraction),
-      isBlended: context.isPossibleBlend[p] === 1,
-      isExcluded: false,
-      note: reason,
-      status: 'seed',
-      source: 'auto-seed',
-      peakIndex: p,
-      predictedCm1: x,
-      matchSigmaCm1: half / 3,
-      distanceSigma: Math.abs(peaks.wavenumberCm1[p] - x) / (half / 3),
-      reason,
-      iteration: 0,
-    });
+    const quanta = { jUpper: predicted.jUpper[i], kUpper: predicted.kUpper[i], jLower: predicted.jLower[i], kLower: predicted.kLower[i] };
+    const place = { id: `${o.idPrefix}${seeds.length + 1}`, quanta, peak: p, predictedCm1: x, matchSigmaCm1: half / 3, reason };
+    seeds.push(assistantSeedOnPeak(peaks, context, place, assistant.positionFloorFraction, assistant.blendUncertaintyFraction));
   }
   if (seeds.length < 3)
     warnings.push(`Only ${seeds.length} line(s) of the model have exactly one peak in their window; the loop may not get far.`);
@@ -356,8 +339,11 @@ export function assistantSeedFromModel(
   };
 }
 
-/** No other predicted line of ≥ fraction × line i's intensity within ±half of it. */
-function isIsolated(
+/**
+ * No other predicted line of ≥ fraction × line i's intensity within ±half (cm^-1) of it.
+ * @param order line indices sorted by wavenumber; sortedNu their wavenumbers (cm^-1)
+ */
+export function assistantLineIsolated(
   lines: ReturnType<typeof bandLines>,
   order: Int32Array,
   sortedNu: Float64Array,
