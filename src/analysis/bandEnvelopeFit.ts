@@ -305,6 +305,37 @@ export interface BandEnvelopeFitResult {
   evaluations: number;
 }
 
+/**
+ * The trace's axis mapped to −1…1 (t, for the baseline), its first moment (cm^-1) and the band's width:
+ * the span of the central 90 % of its positive area (cm^-1), at least 20 samples.
+ * @param step sample spacing, cm^-1
+ */
+export function envelopeMeasures(x: Float64Array, y: Float64Array, step: number): { t: Float64Array; centroid: number; width: number } {
+  const n = x.length;
+  const t = new Float64Array(n);
+  for (let i = 0; i < n; i++) t[i] = (2 * (x[i] - x[0])) / (x[n - 1] - x[0]) - 1;
+  let area = 0;
+  let mom = 0;
+  for (let i = 0; i < n; i++) {
+    const v = Math.max(0, y[i]);
+    area += v;
+    mom += v * x[i];
+  }
+  let acc = 0;
+  let w5 = x[0];
+  let w95 = x[n - 1];
+  let got = false;
+  for (let i = 0; i < n; i++) {
+    acc += Math.max(0, y[i]);
+    if (!got && acc >= 0.05 * area) {
+      w5 = x[i];
+      got = true;
+    }
+    if (acc <= 0.95 * area) w95 = x[i];
+  }
+  return { t, centroid: mom / area, width: Math.max(w95 - w5, 20 * step) };
+}
+
 /** Relative rise of the residual sum of squares (over its minimum) still counted as "fits about as well". */
 export const ENVELOPE_SS_TOLERANCE = 0.1;
 
@@ -327,30 +358,7 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
   const { x, y, temperatureK: T } = input;
   const n = x.length;
   const step = (x[n - 1] - x[0]) / (n - 1);
-  const t = new Float64Array(n);
-  for (let i = 0; i < n; i++) t[i] = (2 * (x[i] - x[0])) / (x[n - 1] - x[0]) - 1;
-  // Band width (central 90 % of the positive area) and first moment of the trace.
-  let area = 0;
-  let mom = 0;
-  for (let i = 0; i < n; i++) {
-    const v = Math.max(0, y[i]);
-    area += v;
-    mom += v * x[i];
-  }
-  const centroid = mom / area;
-  let acc = 0;
-  let w5 = x[0];
-  let w95 = x[n - 1];
-  let got = false;
-  for (let i = 0; i < n; i++) {
-    acc += Math.max(0, y[i]);
-    if (!got && acc >= 0.05 * area) {
-      w5 = x[i];
-      got = true;
-    }
-    if (acc <= 0.95 * area) w95 = x[i];
-  }
-  const width = Math.max(w95 - w5, 20 * step);
+  const { t, centroid, width } = envelopeMeasures(x, y, step);
   let evaluations = 0;
   const variants = input.types.flatMap((ty) => variantsFor(ty, input.qSpacing));
 

@@ -6,7 +6,7 @@
  */
 import { SECOND_RADIATION_CM_K } from '../physics/constants';
 import { honlLondonFactor } from '../physics/honlLondon';
-import { scaleBaselineFit } from './bandEnvelopeFit';
+import { envelopeMeasures, scaleBaselineFit } from './bandEnvelopeFit';
 
 /** Input of bandEnvelopeQSeriesFit. */
 export interface BandEnvelopeQSeriesFitInput {
@@ -198,29 +198,7 @@ export function bandEnvelopeQSeriesFit(input: BandEnvelopeQSeriesFitInput): Band
   }
   const noiseSigma = input.noiseSigma / Math.sqrt(D);
   const step = (x[n - 1] - x[0]) / (n - 1);
-  const t = new Float64Array(n);
-  for (let i = 0; i < n; i++) t[i] = (2 * (x[i] - x[0])) / (x[n - 1] - x[0]) - 1;
-  let area = 0;
-  let mom = 0;
-  for (let i = 0; i < n; i++) {
-    const v = Math.max(0, y[i]);
-    area += v;
-    mom += v * x[i];
-  }
-  const centroid = mom / area;
-  let acc = 0;
-  let w5 = x[0];
-  let w95 = x[n - 1];
-  let got = false;
-  for (let i = 0; i < n; i++) {
-    acc += Math.max(0, y[i]);
-    if (!got && acc >= 0.05 * area) {
-      w5 = x[i];
-      got = true;
-    }
-    if (acc <= 0.95 * area) w95 = x[i];
-  }
-  const width = Math.max(w95 - w5, 20 * step);
+  const { t, centroid, width } = envelopeMeasures(x, y, step);
   const sTrace = Math.max(1, (0.2 * q) / step);
   const ySmooth = smoothExtendedBoxes(y, sTrace);
   const widths = Array.from({ length: 16 }, (_, k) => Math.hypot(sTrace, (0.03 * k * q) / step));
