@@ -6,7 +6,7 @@
 import { SECOND_RADIATION_CM_K } from '../physics/constants';
 import { bandCentreTemplate } from './bandCentreTemplate';
 import { bandEnvelopeFit, smoothBoxes } from './bandEnvelopeFit';
-import { bandEnvelopeQSeriesFit } from './bandEnvelopeQSeriesFit';
+import { bandEnvelopeQSeriesFit, type BandEnvelopeQSeriesFitResult } from './bandEnvelopeQSeriesFit';
 import { noiseSigmaEstimate } from './noiseSigmaEstimate';
 import { peakProminence } from './peakProminence';
 
@@ -53,20 +53,10 @@ export interface BandShapeClassification {
    * about as well, U − B (U = A prolate, C oblate, cm^-1) with its range, ζ, and the range of B in
    * cm^-1 (also when B is not given because that range is too wide).
    */
-  qSeriesEnvelope?: {
-    shape: 'prolate' | 'oblate';
-    shapesFitting: ('prolate' | 'oblate')[];
-    uniqueMinusB: number;
-    uniqueMinusBLow: number;
-    uniqueMinusBHigh: number;
-    zeta: number;
-    /** Best B, cm^-1, and the range of B that fits about as well. */
-    B: number;
-    bLow: number;
-    bHigh: number;
-    /** rms residual of the best envelope over what the noise alone leaves (≈ 1 when the model fits to the noise). */
-    rmsOverNoise: number;
-  };
+  qSeriesEnvelope?: Pick<
+    BandEnvelopeQSeriesFitResult,
+    'shape' | 'shapesFitting' | 'uniqueMinusB' | 'uniqueMinusBLow' | 'uniqueMinusBHigh' | 'zeta' | 'B' | 'bLow' | 'bHigh' | 'rmsOverNoise'
+  >;
   /** Temperature used for B, K, and whether it was assumed. */
   temperatureK: number;
   temperatureAssumed: boolean;
