@@ -23,6 +23,16 @@ function piSigma(band: 'perpendicular' | 'parallel'): BandModel {
   };
 }
 
+/** Distance (cm^-1) from a seed's peak to the true Q line of its J (truth model, bandLines). */
+function trueQDistance(band: ReturnType<typeof syntheticBand>, l: { jLower: number; observedCm1: number }): number {
+  let nearest = Infinity;
+  for (let i = 0; i < band.lines.count; i++) {
+    if (band.lines.jLower[i] !== l.jLower || band.lines.deltaJ[i] !== 0) continue;
+    nearest = Math.min(nearest, Math.abs(band.lines.wavenumberCm1[i] - l.observedCm1));
+  }
+  return nearest;
+}
+
 describe('assistantQBranchSearch', () => {
   it('places the Q branch of a Π–Σ band whose q the P and R lines left at 0, with the true labels', () => {
     const truth = piSigma('perpendicular');
@@ -34,12 +44,7 @@ describe('assistantQBranchSearch', () => {
     for (const l of found.lines) {
       expect(l.jUpper).toBe(l.jLower);
       // The true Q line of that J (truth model, bandLines) lies under the seed's peak.
-      let nearest = Infinity;
-      for (let i = 0; i < band.lines.count; i++) {
-        if (band.lines.jLower[i] !== l.jLower || band.lines.deltaJ[i] !== 0) continue;
-        nearest = Math.min(nearest, Math.abs(band.lines.wavenumberCm1[i] - l.observedCm1));
-      }
-      expect(nearest, `Q(${l.jLower})`).toBeLessThan(0.25 * band.fwhmCm1);
+      expect(trueQDistance(band, l), `Q(${l.jLower})`).toBeLessThan(0.25 * band.fwhmCm1);
     }
   });
 
@@ -64,12 +69,7 @@ describe('assistantQBranchSearch', () => {
     expect(found.text).toMatch(/within 0\.15 of a line width/);
     expect(found.lines.length, found.text).toBeGreaterThanOrEqual(3);
     for (const l of found.lines) {
-      let nearest = Infinity;
-      for (let i = 0; i < band.lines.count; i++) {
-        if (band.lines.jLower[i] !== l.jLower || band.lines.deltaJ[i] !== 0) continue;
-        nearest = Math.min(nearest, Math.abs(band.lines.wavenumberCm1[i] - l.observedCm1));
-      }
-      expect(nearest, `Q(${l.jLower})`).toBeLessThan(0.25 * band.fwhmCm1);
+      expect(trueQDistance(band, l), `Q(${l.jLower})`).toBeLessThan(0.25 * band.fwhmCm1);
     }
   });
 
