@@ -340,6 +340,155 @@ export function benchBand(id: number, options: BenchBandOptions = {}): BenchBand
     step = (hi - lo) / maxPoints;
     perFwhm = fwhm / step;
   }
+  const { n, noiseAbsAt, areaScale, snrTop, isTransmittance, file } = benchTrace(raw, shape, lo, hi, step, rand);
+
+  const lines: BenchLine[] = benchLineFacts(raw, shape, { n, noiseAbsAt, areaScale }, lo, step);
+
+  // First guess, as a user makes it.
+  const guess = firstGuess(truth, rand);
+  const seen = lines.filter((l) => l.snr > 20);
+  const jMaxSeen = Math.max(...seen.map((l) => l.jLower));
+  const kMaxSeen = Math.max(...seen.map((l) => l.kLower));
+  const modelJson = {
+    shape: truth.shape,
+    band: truth.band,
+    lower: guess.lower,
+    upper: guess.upper,
+    temperature: Math.round(truth.temperatureK / 10) * 10,
+    // A little beyond the last line seen, but not beyond the truth's own limits (no lines exist there).
+    jMax: Math.min(jMaxSeen + 3, jLimit),
+    kMax: truth.shape === 'linear' ? 0 : Math.min(kMaxSeen + 2, kLimit),
+    spinWeights: truth.spinWeights,
+    mass: Math.round(truth.massAmu),
+  };
+  let nSeeds: number = options.seeds ?? pick(rand, [0, 3, 10] as const);
+  let seedsText: string | null = null;
+  // A user picks seeds among clear lines: resolvable, SNR > 30 (> 20 when there are too few).
+  let pool = seen.filter((l) => l.isResolvable && l.snr > 30);
+  if (pool.length < 2 * nSeeds) pool = seen.filter((l) => l.isResolvable);
+  if (nSeeds > 0 && pool.length >= nSeeds) {
+    const table = benchSeedTable(pool, nSeeds, fwhm, rand);
+    seedsText = table.text;
+    nSeeds = table.count;
+  } else nSeeds = 0;
+  const summary =
+    `${truth.shape} ${truth.band} B''=${truth.lower.B.toFixed(3)} ` +
+    (truth.shape === 'prolate' ? `A''=${truth.lower.A.toFixed(3)} ` : truth.shape === 'oblate' ? `C''=${truth.lower.C.toFixed(3)} ` : '') +
+    (truth.upper.zeta !== undefined ? `zeta=${truth.upper.zeta.toFixed(2)} ` : '') +
+    `T=${truth.temperatureK.toFixed(0)}K FWHM=${fwhm.toExponential(2)} ${perFwhm.toFixed(1)}pt/FWHM SNR=${snrTop.toFixed(0)} ` +
+    `${isTransmittance ? 'T' : 'A'} ${file.name} ${n}pts ${raw.length} lines ${nSeeds} seeds${truth.lower.HJ ? ' sextic' : ''}`;
+  return {
+    id,
+    truth,
+    lines,
+    fwhmCm1: fwhm,
+    traceName: file.name,
+    traceText: file.text,
+    nPoints: n,
+    modelText: JSON.stringify(modelJson, null, 1),
+    seedsText,
+    nSeeds,
+    summary,
+  };
+}
+
+/**
+ * A user's first guess: origin off by up to 0.4 cm^-1, B'' by up to 0.5 % (B' by the same plus up to
+ * 0.2 % more, within 0.5 %), A or C by up to 1 % (A' likewise with 0.3 %), ζ by up to 0.025; quartic
+ * constants 0 or borrowed from a related molecule (× 0.3…2) and floated; sextic constants 0, held
+ * fixed or floated.
+ */
+function firstGuess(t: BenchTruth, rand: () => number): { lower: Record<string, unknown>; upper: Record<string, unknown> } {
+  const lower: Record<string, unknown> = {};
+  const upper: Record<string, unknown> = {};
+  const eB = uniform(rand, -0.005, 0.005);
+  const eBu = Math.max(-0.005, Math.min(0.005, eB + uniform(rand, -0.002, 0.002)));
+  lower.B = t.lower.B * (1 + eB);
+  upper.B = t.upper.B * (1 + eBu);
+  upper.origin = t.upper.origin + uniform(rand, -0.4, 0.4);
+  if (t.shape !== 'linear') {
+    const u = t.shape === 'prolate' ? 'A' : 'C';
+    const eA = uniform(rand, -0.01, 0.01);
+    lower[u] = t.lower[u] * (1 + eA);
+    upper[u] = t.upper[u] * (1 + Math.max(-0.01, Math.min(0.01, eA + uniform(rand, -0.003, 0.003))));
+    if (t.band === 'perpendicular') upper.zeta = t.upper.zeta + uniform(rand, -0.025, 0.025);
+  } else if (t.band === 'perpendicular') upper.q = 0;
+  const borrowed = rand() < 0.5;
+  for (const k of t.shape === 'linear' ? ['DJ'] : ['DJ', 'DJK', 'DK']) {
+    const f = uniform(rand, 0.3, 2);
+    lower[k] = borrowed ? t.lower[k] * f : 0;
+    upper[k] = borrowed ? t.upper[k] * f : 0;
+  }
+  if (t.lower.HJ !== undefined && rand() < 0.5) {
+    for (const k of t.shape === 'linear' ? ['HJ'] : ['HJ', 'HJK', 'HKJ']) {
+      lower[k] = 0;
+      upper[k] = 0;
+    }
+  }
+  return { lower, upper };
+}
+
+/** Seeds on 3–4 random sub-branches, J'' anywhere in each (its top end among them), as a line table. */
+export function benchSeedTable(pool: BenchLine[], count: number, fwhm: number, rand: () => number): { text: string; count: number } {
+  const bySeries = new Map<string, BenchLine[]>();
+  for (const l of pool) {
+    const key = `${l.kUpper - l.kLower}:${l.kLower}:${l.jUpper - l.jLower}`;
+    if (!bySeries.has(key)) bySeries.set(key, []);
+    bySeries.get(key)!.push(l);
+  }
+  let series = [...bySeries.values()].filter((s) => s.length >= 2);
+  if (series.length === 0) series = [...bySeries.values()];
+  const chosen: BenchLine[] = [];
+  const nSeries = Math.min(series.length, count === 3 ? 3 : 3 + Math.floor(rand() * 2));
+  const order = series.map((s) => ({ s, r: rand() })).sort((a, b) => a.r - b.r);
+  for (let k = 0; chosen.length < count && k < 50; k++) {
+    const s = order[k % Math.max(nSeries, 1)]?.s;
+    if (!s) break;
+    const free = s.filter((l) => !chosen.includes(l));
+    if (free.length === 0) continue;
+    // The first seed of a series is its highest observed J'' half the time.
+    const top = free.reduce((a, b) => (b.jLower > a.jLower ? b : a));
+    const l = k < nSeries && rand() < 0.5 ? top : pick(rand, free);
+    chosen.push(l);
+  }
+  const rows = ['J_up,K_up,J_lo,K_lo,wavenumber,uncertainty'];
+  for (const l of chosen) {
+    const obs = l.nuCm1 + 0.02 * fwhm * normal(rand);
+    rows.push(`${l.jUpper},${l.kUpper},${l.jLower},${l.kLower},${obs.toFixed(6)},${Math.max(1e-4, fwhm / 20).toPrecision(3)}`);
+  }
+  return { text: rows.join('\n') + '\n', count: chosen.length };
+}
+
+/** A measured-looking trace of the lines (see benchTrace). */
+export interface BenchTrace {
+  n: number;
+  /** Absorbance noise (1σ) at point i. */
+  noiseAbsAt: (i: number) => number;
+  /** Peak absorbance of a line = area × areaScale × peakPerArea. */
+  areaScale: number;
+  /** Peak SNR of the strongest line. */
+  snrTop: number;
+  isTransmittance: boolean;
+  /** The trace file (name and text). */
+  file: { name: string; text: string };
+}
+
+/**
+ * The trace of `raw` lines on the grid lo + i·step (cm^-1): pseudo-Voigt lines of the given shape summed
+ * over the whole trace, the strongest line scaled to a peak absorbance of 0.3…1.5, a baseline with
+ * slope, curvature and fringes, noise for a peak SNR of 50…1000, absorbance or transmittance, written
+ * in one of four file formats (all drawn from `rand`).
+ */
+export function benchTrace(
+  raw: readonly Pick<BenchLine, 'nuCm1' | 'area'>[],
+  shape: ReturnType<typeof benchPseudoVoigt>,
+  lo: number,
+  hi: number,
+  step: number,
+  rand: () => number,
+): BenchTrace {
+  const fwhm = shape.fwhm;
+  const maxArea = Math.max(...raw.map((l) => l.area));
   const n = Math.floor((hi - lo) / step) + 1;
   const x = new Float64Array(n);
   for (let i = 0; i < n; i++) x[i] = lo + i * step;
@@ -411,10 +560,25 @@ export function benchBand(id: number, options: BenchBandOptions = {}): BenchBand
     noiseAbsAt = () => sigmaA;
   }
   const file = traceFile(Math.floor(rand() * 4), x, y, isTransmittance, rand);
+  return { n, noiseAbsAt, areaScale, snrTop, isTransmittance, file };
+}
 
-  // Scoring facts per line.
+/**
+ * Scoring facts of each line on a trace of all of them (benchTrace), sorted by wavenumber: its peak
+ * absorbance alone, its peak SNR, and whether it is resolvable (no other line above 10 % of its
+ * intensity within 1.5 FWHM).
+ */
+export function benchLineFacts<T extends Pick<BenchLine, 'nuCm1' | 'area'>>(
+  raw: readonly T[],
+  shape: ReturnType<typeof benchPseudoVoigt>,
+  trace: Pick<BenchTrace, 'n' | 'noiseAbsAt' | 'areaScale'>,
+  lo: number,
+  step: number,
+): (T & Pick<BenchLine, 'peakAbs' | 'snr' | 'isResolvable'>)[] {
+  const fwhm = shape.fwhm;
+  const { n, noiseAbsAt, areaScale } = trace;
   const sorted = [...raw].sort((a, b) => a.nuCm1 - b.nuCm1);
-  const lines: BenchLine[] = sorted.map((l, idx) => {
+  return sorted.map((l, idx) => {
     const peakAbs = l.area * areaScale * shape.peakPerArea;
     const i = Math.min(n - 1, Math.max(0, Math.round((l.nuCm1 - lo) / step)));
     let isResolvable = true;
@@ -423,118 +587,4 @@ export function benchBand(id: number, options: BenchBandOptions = {}): BenchBand
       if (sorted[k].area > 0.1 * l.area) isResolvable = false;
     return { ...l, peakAbs, snr: peakAbs / noiseAbsAt(i), isResolvable };
   });
-
-  // First guess, as a user makes it.
-  const guess = firstGuess(truth, rand);
-  const seen = lines.filter((l) => l.snr > 20);
-  const jMaxSeen = Math.max(...seen.map((l) => l.jLower));
-  const kMaxSeen = Math.max(...seen.map((l) => l.kLower));
-  const modelJson = {
-    shape: truth.shape,
-    band: truth.band,
-    lower: guess.lower,
-    upper: guess.upper,
-    temperature: Math.round(truth.temperatureK / 10) * 10,
-    // A little beyond the last line seen, but not beyond the truth's own limits (no lines exist there).
-    jMax: Math.min(jMaxSeen + 3, jLimit),
-    kMax: truth.shape === 'linear' ? 0 : Math.min(kMaxSeen + 2, kLimit),
-    spinWeights: truth.spinWeights,
-    mass: Math.round(truth.massAmu),
-  };
-  let nSeeds: number = options.seeds ?? pick(rand, [0, 3, 10] as const);
-  let seedsText: string | null = null;
-  // A user picks seeds among clear lines: resolvable, SNR > 30 (> 20 when there are too few).
-  let pool = seen.filter((l) => l.isResolvable && l.snr > 30);
-  if (pool.length < 2 * nSeeds) pool = seen.filter((l) => l.isResolvable);
-  if (nSeeds > 0 && pool.length >= nSeeds) {
-    const table = seedTable(pool, nSeeds, fwhm, rand);
-    seedsText = table.text;
-    nSeeds = table.count;
-  } else nSeeds = 0;
-  const summary =
-    `${truth.shape} ${truth.band} B''=${truth.lower.B.toFixed(3)} ` +
-    (truth.shape === 'prolate' ? `A''=${truth.lower.A.toFixed(3)} ` : truth.shape === 'oblate' ? `C''=${truth.lower.C.toFixed(3)} ` : '') +
-    (truth.upper.zeta !== undefined ? `zeta=${truth.upper.zeta.toFixed(2)} ` : '') +
-    `T=${truth.temperatureK.toFixed(0)}K FWHM=${fwhm.toExponential(2)} ${perFwhm.toFixed(1)}pt/FWHM SNR=${snrTop.toFixed(0)} ` +
-    `${isTransmittance ? 'T' : 'A'} ${file.name} ${n}pts ${raw.length} lines ${nSeeds} seeds${truth.lower.HJ ? ' sextic' : ''}`;
-  return {
-    id,
-    truth,
-    lines,
-    fwhmCm1: fwhm,
-    traceName: file.name,
-    traceText: file.text,
-    nPoints: n,
-    modelText: JSON.stringify(modelJson, null, 1),
-    seedsText,
-    nSeeds,
-    summary,
-  };
-}
-
-/**
- * A user's first guess: origin off by up to 0.4 cm^-1, B'' by up to 0.5 % (B' by the same plus up to
- * 0.2 % more, within 0.5 %), A or C by up to 1 % (A' likewise with 0.3 %), ζ by up to 0.025; quartic
- * constants 0 or borrowed from a related molecule (× 0.3…2) and floated; sextic constants 0, held
- * fixed or floated.
- */
-function firstGuess(t: BenchTruth, rand: () => number): { lower: Record<string, unknown>; upper: Record<string, unknown> } {
-  const lower: Record<string, unknown> = {};
-  const upper: Record<string, unknown> = {};
-  const eB = uniform(rand, -0.005, 0.005);
-  const eBu = Math.max(-0.005, Math.min(0.005, eB + uniform(rand, -0.002, 0.002)));
-  lower.B = t.lower.B * (1 + eB);
-  upper.B = t.upper.B * (1 + eBu);
-  upper.origin = t.upper.origin + uniform(rand, -0.4, 0.4);
-  if (t.shape !== 'linear') {
-    const u = t.shape === 'prolate' ? 'A' : 'C';
-    const eA = uniform(rand, -0.01, 0.01);
-    lower[u] = t.lower[u] * (1 + eA);
-    upper[u] = t.upper[u] * (1 + Math.max(-0.01, Math.min(0.01, eA + uniform(rand, -0.003, 0.003))));
-    if (t.band === 'perpendicular') upper.zeta = t.upper.zeta + uniform(rand, -0.025, 0.025);
-  } else if (t.band === 'perpendicular') upper.q = 0;
-  const borrowed = rand() < 0.5;
-  for (const k of t.shape === 'linear' ? ['DJ'] : ['DJ', 'DJK', 'DK']) {
-    const f = uniform(rand, 0.3, 2);
-    lower[k] = borrowed ? t.lower[k] * f : 0;
-    upper[k] = borrowed ? t.upper[k] * f : 0;
-  }
-  if (t.lower.HJ !== undefined && rand() < 0.5) {
-    for (const k of t.shape === 'linear' ? ['HJ'] : ['HJ', 'HJK', 'HKJ']) {
-      lower[k] = 0;
-      upper[k] = 0;
-    }
-  }
-  return { lower, upper };
-}
-
-/** Seeds on 3–4 random sub-branches, J'' anywhere in each (its top end among them), as a line table. */
-function seedTable(pool: BenchLine[], count: number, fwhm: number, rand: () => number): { text: string; count: number } {
-  const bySeries = new Map<string, BenchLine[]>();
-  for (const l of pool) {
-    const key = `${l.kUpper - l.kLower}:${l.kLower}:${l.jUpper - l.jLower}`;
-    if (!bySeries.has(key)) bySeries.set(key, []);
-    bySeries.get(key)!.push(l);
-  }
-  let series = [...bySeries.values()].filter((s) => s.length >= 2);
-  if (series.length === 0) series = [...bySeries.values()];
-  const chosen: BenchLine[] = [];
-  const nSeries = Math.min(series.length, count === 3 ? 3 : 3 + Math.floor(rand() * 2));
-  const order = series.map((s) => ({ s, r: rand() })).sort((a, b) => a.r - b.r);
-  for (let k = 0; chosen.length < count && k < 50; k++) {
-    const s = order[k % Math.max(nSeries, 1)]?.s;
-    if (!s) break;
-    const free = s.filter((l) => !chosen.includes(l));
-    if (free.length === 0) continue;
-    // The first seed of a series is its highest observed J'' half the time.
-    const top = free.reduce((a, b) => (b.jLower > a.jLower ? b : a));
-    const l = k < nSeries && rand() < 0.5 ? top : pick(rand, free);
-    chosen.push(l);
-  }
-  const rows = ['J_up,K_up,J_lo,K_lo,wavenumber,uncertainty'];
-  for (const l of chosen) {
-    const obs = l.nuCm1 + 0.02 * fwhm * normal(rand);
-    rows.push(`${l.jUpper},${l.kUpper},${l.jLower},${l.kLower},${obs.toFixed(6)},${Math.max(1e-4, fwhm / 20).toPrecision(3)}`);
-  }
-  return { text: rows.join('\n') + '\n', count: chosen.length };
 }
