@@ -485,6 +485,7 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
     peaks,
     context,
     options: input.options,
+    reportedFit: state.fit,
   });
   const audit = state.posterior ? auditMissing(model, state.posterior, peaks, context, options, heightScale) : null;
   let doubt: string | null = inconsistency;

@@ -3,8 +3,10 @@ import { combinationDifferences } from '../fit/combinationDifferences';
 import { fitPredict } from '../fit/fitPredict';
 import type { FitError, FitResult } from '../fit/fitTypes';
 import { lineLabelAscii } from '../physics/lineLabel';
+import { transitionWavenumber } from '../physics/termValues';
 import type { BandModel } from '../physics/model';
 import {
+  assistantNearestPeak,
   assistantPeakContext,
   assistantPeaksCheck,
   assistantPeaksInRange,
@@ -36,6 +38,11 @@ export interface AssistantHuntInput {
   /** Its assistantPeakContext (computed when absent). */
   context?: AssistantPeakContext;
   options?: AssistantOptions;
+  /**
+   * The fit whose calc the user is shown for these lines (e.g. the loop's reported fit, which may
+   * float fewer constants than the hunt's own); a proposal far from its calc there is suspect too.
+   */
+  reportedFit?: FitResult | null;
 }
 
 /** Outcome of assistantMisassignments. */
@@ -58,6 +65,22 @@ export interface AssistantHuntResult {
  */
 const OFF_LINE_FWHM = 0.5;
 const PREDICTION_SHARP_FWHM = 0.25;
+
+/**
+ * A proposal more than OFF_LINE_FWHM widths from where the fit puts it is suspect, however wide its
+ * prediction, when another peak lies closer to that position by at least this many line widths: the
+ * match took a farther peak over a nearer one, which only the fit's broad σ allowed (a perturbed
+ * stack or a crowded Q branch), so the choice between them is not the trace's.
+ */
+const NEARER_PEAK_FWHM = 0.5;
+
+/**
+ * A proposal more than this many line widths from where the fit puts it is suspect whatever σ the
+ * fit gives it: the model does not describe that line (a perturbed level, a constant missing), so
+ * which peak is its own is for the user to judge (common practice: a line far off its prediction is
+ * checked by hand before it is kept).
+ */
+const FAR_FROM_FIT_FWHM = 3;
 
 /**
  * Leverage (share of a line's own weight in its fitted value) above which a proposal counts as
@@ -225,6 +248,24 @@ export function assistantMisassignments(input: AssistantHuntInput): AssistantHun
       reasons.push(
         `obs − calc = ${omc.toPrecision(3)} cm^-1 is ${(Math.abs(omc) / width).toFixed(2)} line widths while the fit places the line to ±${e.predictionSigma.toPrecision(2)} cm^-1: the peak is not centred on the line (blend or noise)`,
       );
+    }
+    const reportedOmc = input.reportedFit
+      ? line.observedCm1 - transitionWavenumber(input.reportedFit.model, line.jUpper, line.kUpper, line.jLower, line.kLower)
+      : omc;
+    const farOmc = Math.abs(reportedOmc) > Math.abs(omc) ? reportedOmc : omc;
+    if (line.status === 'proposed' && width > 0 && Math.abs(farOmc) > FAR_FROM_FIT_FWHM * width) {
+      reasons.push(
+        `obs − calc = ${farOmc.toPrecision(3)} cm^-1 is ${(Math.abs(farOmc) / width).toFixed(1)} line widths${farOmc === omc ? '' : ' in the reported fit'}: the fit does not describe this line (a perturbed level or a missing constant?), so its peak is not checked by the model`,
+      );
+    } else if (line.status === 'proposed' && width > 0 && Math.abs(omc) > OFF_LINE_FWHM * width) {
+      // A proposal on a farther peak than the nearest one to its prediction: the trace did not choose it.
+      const q = assistantNearestPeak(peaks, e.calc);
+      const dNear = q >= 0 && q !== line.peakIndex ? Math.abs(peaks.wavenumberCm1[q] - e.calc) : Infinity;
+      if (dNear < Math.abs(omc) - NEARER_PEAK_FWHM * width) {
+        reasons.push(
+          `obs − calc = ${omc.toPrecision(3)} cm^-1 is ${(Math.abs(omc) / width).toFixed(1)} line widths, and another peak lies ${(dNear / width).toFixed(1)} line widths from where the fit puts the line: the fit's broad σ let the farther peak in, so the trace does not decide between them`,
+        );
+      }
     }
     // A proposal the fit passes through by construction (it alone fixes some constant, e.g. the
     // only Q line fixing q) has a residual near zero whether or not it is right: nothing checks it.

@@ -166,6 +166,39 @@ describe('assistantMisassignments', () => {
     expect(huntOwn.suspects.find((x) => x.id === moved[r].id)?.reasons.join(' ') ?? '').not.toMatch(/line widths while/);
   });
 
+  it('distrusts every proposal 4 line widths from where the reported fit puts it, whatever the hunt’s own fit says', () => {
+    // The fit the user is shown (the loop's reported fit, which may float fewer constants) is the
+    // one whose obs − calc the table prints: a proposal that far from it is checked by hand first
+    // (common practice). Here the reported fit is the clean fit with its origin moved 0.04 cm^-1.
+    const lines = assistantLinesFromAssignments(assignments, MODEL, peaks, context, 'proposed');
+    const plain = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks });
+    expect(plain.fit).not.toBeNull();
+    const fit = plain.fit!;
+    const same = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks, reportedFit: fit });
+    expect(same.suspects.length).toBeLessThanOrEqual(2);
+    const moved = { ...fit, model: { ...fit.model, upper: { ...fit.model.upper, origin: fit.model.upper.origin + 0.04 } } };
+    const far = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks, reportedFit: moved });
+    expect(far.suspects.length).toBe(lines.length);
+    for (const s of far.suspects) expect(s.reasons.join(' ')).toMatch(/is [34]\.\d line widths in the reported fit/);
+    // Lines given by hand are the user's call: not distrusted for this.
+    const own = assistantLinesFromAssignments(assignments, MODEL, peaks, context, 'accepted');
+    const ownHunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines: own, peaks, reportedFit: moved });
+    expect(ownHunt.suspects.length).toBeLessThanOrEqual(2);
+  });
+
+  it('distrusts a proposal placed on a peak 2 widths away while another peak sits where the fit puts it', () => {
+    // Its line's own peak stays in the list; the proposal names a spot 0.02 cm^-1 (2 FWHM) off it.
+    const moved = assignments.map((a) => ({ ...a }));
+    const r = moved.findIndex((l) => l.kLower === 2 && l.jUpper === l.jLower - 1 && l.jLower === 9);
+    expect(r).toBeGreaterThanOrEqual(0);
+    moved[r].observedCm1 += 0.02;
+    const lines = assistantLinesFromAssignments(moved, MODEL, peaks, context, 'proposed');
+    const hunt = assistantMisassignments({ model: MODEL, floatable: FLOATABLE, lines, peaks });
+    const s = hunt.suspects.find((x) => x.id === moved[r].id)!;
+    expect(s).toBeDefined();
+    expect(s.reasons.join(' ')).toMatch(/another peak lies 0\.\d line widths from where the fit puts the line/);
+  });
+
   it('distrusts a proposal the fit passes through by construction (the only Q line of a Π–Σ band fixes q alone)', () => {
     // Invented linear molecule, Π–Σ band: P and R lines fix B′ + q/2, only Q lines B′ − q/2, so a
     // single Q line sets q and its residual is zero whether it is right or not (leverage 1).
