@@ -103,7 +103,13 @@ describe('the assistant on the page', () => {
     expect(await page.locator('[data-testid=helper-start]').textContent()).toMatch(/the model alone \(the table is empty\)/);
 
     // Cancel: a run from the model alone (the longer one), stopped while it works. Nothing is written.
+    // Before it is stopped, the progress line says which step of the start runs.
     await page.locator('[data-testid=helper-run]').click();
+    await expect
+      .poll(() => page.locator('[data-testid=helper-progress]').textContent(), { timeout: 30_000, interval: 20 })
+      .toMatch(
+        /Working: run from the model alone — (searching for the shift of the model's ladder|first run, round \d+: \d+ proposed, \d+ excluded; \d+ line\(s\) proposed so far)/,
+      );
     await page.locator('[data-testid=helper-cancel]').click({ timeout: 20_000 });
     await expect.poll(() => messages(page), { timeout: 20_000 }).toMatch(/was cancelled; nothing was changed/);
     expect(await page.locator('[data-testid=helper-row]').count()).toBe(0);
@@ -112,6 +118,29 @@ describe('the assistant on the page', () => {
     // The page stays usable: the tabs answer.
     await page.locator('[data-testid=tab-assignments]').click();
     await page.locator('[data-testid=tab-assistant]').click();
+
+    // The same run to its end: the start the assign command makes (assistantStartRun), its steps
+    // named in the progress line, its start said in the batch's summary; the table stays empty.
+    await page.evaluate(() => {
+      const seen: string[] = [];
+      (window as unknown as { __progress: string[] }).__progress = seen;
+      new MutationObserver(() => {
+        const t = document.querySelector('[data-testid=helper-progress]')?.textContent;
+        if (t && seen[seen.length - 1] !== t) seen.push(t);
+      }).observe(document.body, { subtree: true, childList: true, characterData: true });
+    });
+    await page.locator('[data-testid=helper-run]').click();
+    await page.locator('[data-testid=helper-row]').first().waitFor({ timeout: 90_000 });
+    const modelOnly = await page.evaluate(() => (window as unknown as { __progress: string[] }).__progress);
+    expect(modelOnly.join('\n')).toMatch(
+      /Working: run from the model alone — first run, round 1: \d+ proposed, \d+ excluded; \d+ line\(s\) proposed so far/,
+    );
+    expect(await page.locator('[data-testid=helper-batch]').textContent()).toMatch(
+      /Run from the model alone: \d+ seed\(s\) after shifting the origin by [+−]\d\.\d{4} cm⁻¹, .*: \d+ round\(s\), \d+ proposal\(s\), \d+ confident\./,
+    );
+    expect(await page.locator('[data-testid=helper-row][data-verdict=confident]').count()).toBeGreaterThan(100);
+    expect(await assignedCount(page)).toBe(0);
+    await page.screenshot({ path: `${SHOTS}/39-assistant-model-only.png` });
 
     // Six true lines as seeds (a line table), then a run with its progress recorded as it shows.
     await openText(page, 'seeds.csv', seedCsv(6));
@@ -126,7 +155,10 @@ describe('the assistant on the page', () => {
       }).observe(document.body, { subtree: true, childList: true, characterData: true });
     });
     await page.locator('[data-testid=helper-run]').click();
-    await page.locator('[data-testid=helper-row]').first().waitFor({ timeout: 60_000 });
+    // The model-only run's rows are on the list until this run's replace them: wait for its summary.
+    await expect
+      .poll(() => page.locator('[data-testid=helper-batch]').last().textContent(), { timeout: 90_000 })
+      .toMatch(/^run \d+\. Run from the 6 line\(s\) of the table/);
     const progress = await page.evaluate(() => (window as unknown as { __progress: string[] }).__progress);
     expect(progress.join('\n')).toMatch(
       /Working: run from the 6 lines of the table — round \d+: \d+ proposed, \d+ excluded; \d+ line\(s\) proposed so far/,
