@@ -73,6 +73,21 @@ async function assignedCount(page: Page): Promise<number> {
 
 const messages = async (page: Page) => (await page.locator('[data-testid=messages]').textContent()) ?? '';
 
+/** Record every text the progress line shows from now on (a fresh record each call). */
+async function progressRecord(page: Page): Promise<void> {
+  await page.evaluate(() => {
+    const seen: string[] = [];
+    (window as unknown as { __progress: string[] }).__progress = seen;
+    new MutationObserver(() => {
+      const t = document.querySelector('[data-testid=helper-progress]')?.textContent;
+      if (t && seen[seen.length - 1] !== t) seen.push(t);
+    }).observe(document.body, { subtree: true, childList: true, characterData: true });
+  });
+}
+
+/** The progress texts recorded since the last progressRecord. */
+const progressSeen = (page: Page) => page.evaluate(() => (window as unknown as { __progress: string[] }).__progress);
+
 /** The x positions of the proposal marks plotly draws. */
 const markCount = (page: Page) =>
   page.evaluate(() => {
@@ -121,17 +136,10 @@ describe('the assistant on the page', () => {
 
     // The same run to its end: the start the assign command makes (assistantStartRun), its steps
     // named in the progress line, its start said in the batch's summary; the table stays empty.
-    await page.evaluate(() => {
-      const seen: string[] = [];
-      (window as unknown as { __progress: string[] }).__progress = seen;
-      new MutationObserver(() => {
-        const t = document.querySelector('[data-testid=helper-progress]')?.textContent;
-        if (t && seen[seen.length - 1] !== t) seen.push(t);
-      }).observe(document.body, { subtree: true, childList: true, characterData: true });
-    });
+    await progressRecord(page);
     await page.locator('[data-testid=helper-run]').click();
     await page.locator('[data-testid=helper-row]').first().waitFor({ timeout: 90_000 });
-    const modelOnly = await page.evaluate(() => (window as unknown as { __progress: string[] }).__progress);
+    const modelOnly = await progressSeen(page);
     expect(modelOnly.join('\n')).toMatch(
       /Working: run from the model alone — first run, round 1: \d+ proposed, \d+ excluded; \d+ line\(s\) proposed so far/,
     );
@@ -146,20 +154,13 @@ describe('the assistant on the page', () => {
     await openText(page, 'seeds.csv', seedCsv(6));
     await expect.poll(() => assignedCount(page), { timeout: 20_000 }).toBe(6);
     await page.locator('[data-testid=tab-assistant]').click();
-    await page.evaluate(() => {
-      const seen: string[] = [];
-      (window as unknown as { __progress: string[] }).__progress = seen;
-      new MutationObserver(() => {
-        const t = document.querySelector('[data-testid=helper-progress]')?.textContent;
-        if (t && seen[seen.length - 1] !== t) seen.push(t);
-      }).observe(document.body, { subtree: true, childList: true, characterData: true });
-    });
+    await progressRecord(page);
     await page.locator('[data-testid=helper-run]').click();
     // The model-only run's rows are on the list until this run's replace them: wait for its summary.
     await expect
       .poll(() => page.locator('[data-testid=helper-batch]').last().textContent(), { timeout: 90_000 })
       .toMatch(/^run \d+\. Run from the 6 line\(s\) of the table/);
-    const progress = await page.evaluate(() => (window as unknown as { __progress: string[] }).__progress);
+    const progress = await progressSeen(page);
     expect(progress.join('\n')).toMatch(
       /Working: run from the 6 lines of the table — round \d+: \d+ proposed, \d+ excluded; \d+ line\(s\) proposed so far/,
     );
