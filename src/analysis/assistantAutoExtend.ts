@@ -53,6 +53,19 @@ export interface AssistantRunInput {
    * did in words, and the lines added so far. For progress display only; it cannot change the run.
    */
   onProgress?: (round: number, stage: string, rowsSoFar: number) => void;
+  /** Polled once at the start of each round: true stops the run with an AssistantCancelledError. */
+  isCancelled?: () => boolean;
+}
+
+/**
+ * Thrown when a run is cancelled through its isCancelled check. Its name is 'AbortError', the name
+ * an aborted fetch or worker job carries, so callers treat both alike.
+ */
+export class AssistantCancelledError extends Error {
+  constructor() {
+    super('the assistant was cancelled');
+    this.name = 'AbortError';
+  }
 }
 
 /**
@@ -157,7 +170,7 @@ function checkLines(model: BandModel, lines: readonly AssistantLine[]): void {
  * Source: the assign–fit–predict loop of rovibrational analysis (common practice; e.g. Papoušek &
  * Aliev, Molecular Vibrational-Rotational Spectra (1982), ch. on assignment, from memory).
  * @returns the new set, what was added, ambiguities, suspects, the final fit and the undo record
- * @throws Error for an invalid peak list, option, or line (naming it)
+ * @throws Error for an invalid peak list, option, or line (naming it); AssistantCancelledError when isCancelled says so
  */
 export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResult {
   const usable = assistantPeaksUsable(input.peaks);
@@ -240,6 +253,7 @@ export function assistantAutoExtend(input: AssistantRunInput): AssistantRunResul
   // jump a run of ambiguous rungs), until it spans the whole band.
   let step = options.reachJStep;
   for (let iteration = 1; iteration <= options.maxIterations; iteration++) {
+    if (input.isCancelled?.()) throw new AssistantCancelledError();
     refit();
     let nExcluded = 0;
     if (state.posterior && state.posterior.nLines <= DELETION_MAX_LINES) {

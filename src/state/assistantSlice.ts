@@ -16,7 +16,7 @@ export interface AssistantJobState {
   what: string;
   /** Loop round reached (0 before the first). */
   round: number;
-  /** What the last round did. */
+  /** What runs: the attempt of the start and what its last round did, or the search under way (round 0). */
   stage: string;
   /** Lines proposed so far. */
   rowsSoFar: number;

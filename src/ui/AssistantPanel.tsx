@@ -123,7 +123,7 @@ function JobBar() {
             Cancel
           </button>{' '}
           Working: {job.what}
-          {job.round > 0 ? ` — ${job.stage}; ${job.rowsSoFar} line(s) proposed so far` : ' — starting'}
+          {job.round > 0 ? ` — ${job.stage}; ${job.rowsSoFar} line(s) proposed so far` : ` — ${job.stage}`}
         </span>
       ) : (
         <span className="muted small" data-testid="helper-start">

@@ -16,7 +16,7 @@ const jobs = workerJobsCreate(
  * Run an assistant job in the worker (on the calling thread where there is no Worker: Node, tests).
  * @param job the job (plain data; copied to the worker)
  * @param signal aborting it terminates the worker and rejects with an AbortError
- * @param onProgress called once per round of the loop
+ * @param onProgress called once per round of each run of the loop and before each search between runs (round 0)
  * @returns the job's output; rejects with the assistant's message on bad input
  */
 export function assistantJobStart(job: AssistantJob, signal?: AbortSignal, onProgress?: AssistantJobProgress): Promise<AssistantJobOutput> {
@@ -24,7 +24,8 @@ export function assistantJobStart(job: AssistantJob, signal?: AbortSignal, onPro
   if (signal?.aborted) return Promise.reject(jobs.abortError());
   if (typeof Worker === 'undefined') {
     try {
-      return Promise.resolve(assistantJobRun(job, onProgress));
+      // On this thread the run stops at its next check once the signal is aborted (e.g. from onProgress).
+      return Promise.resolve(assistantJobRun(job, onProgress, () => signal?.aborted === true));
     } catch (err) {
       return Promise.reject(err);
     }

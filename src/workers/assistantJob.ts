@@ -1,16 +1,16 @@
 /**
  * The assistant's jobs for the page, as plain functions (the worker only unpacks, calls
  * assistantJobRun and posts back; tests call it directly). A run starts from the assignment table
- * as seeds, or from the model alone when the table is empty, as the `assign` command does; its
- * machine-made lines come back as proposals with a verdict, never as assignments.
+ * as seeds, or from the model alone when the table is empty, through the same assistantStartRun as
+ * the `assign` command (every attempt it makes); its machine-made lines come back as proposals with
+ * a verdict, never as assignments: 'confident' exactly for the lines the command writes as rows.
  */
-import { assistantAutoExtend } from '../analysis/assistantAutoExtend';
 import { assistantMisassignments } from '../analysis/assistantMisassignment';
 import { assistantNearestPeak, assistantPeakContext, assistantPeaksUsable } from '../analysis/assistantPeakContext';
 import { assistantLinesFromAssignments } from '../analysis/assistantReview';
-import { assistantSeedFromModel } from '../analysis/assistantSeedFromModel';
 import { assistantSeriesExtend } from '../analysis/assistantSeriesExtend';
-import type { AssistantLine, AssistantRunResult } from '../analysis/assistantTypes';
+import { assistantStartRun } from '../analysis/assistantStartRun';
+import type { AssistantLine } from '../analysis/assistantTypes';
 import type { PeakList } from '../analysis/peaksFind';
 import { assignmentCheck, type Assignment } from '../fit/assignment';
 import type { FitResult } from '../fit/fitTypes';
@@ -35,12 +35,15 @@ export type AssistantJobProgress = (round: number, stage: string, rowsSoFar: num
 /**
  * Run one assistant job.
  * @param job the job and its inputs (model, peaks, assignment table)
- * @param onProgress called once per round of the auto-extend loop
+ * @param onProgress called once per round of each run of the auto-extend loop (its stage says which
+ *   attempt: first run, runner-up shift, sub-band comb, …) and once before each search between runs (round 0)
+ * @param isCancelled polled between attempts and once per round; true stops a run with an
+ *   AssistantCancelledError (name 'AbortError'), and nothing is returned
  * @returns proposals for review (run, extend) or suspects (hunt)
  * @throws Error in plain words when there are no peaks, nothing to start from, or an input is invalid
  */
-export function assistantJobRun(job: AssistantJob, onProgress?: AssistantJobProgress): AssistantJobOutput {
-  if (job.kind === 'run') return jobRun(job, onProgress);
+export function assistantJobRun(job: AssistantJob, onProgress?: AssistantJobProgress, isCancelled?: () => boolean): AssistantJobOutput {
+  if (job.kind === 'run') return jobRun(job, onProgress, isCancelled);
   if (job.kind === 'hunt') return jobHunt(job);
   return jobExtend(job);
 }
@@ -106,79 +109,49 @@ function rejectedLines(model: BandModel, pairs: readonly AssistantRejectedPair[]
 /** A rejected pair names its peak by position; peak ids carry 1e-5 cm^-1, so this is generous. */
 const REJECTED_MATCH_CM1 = 1e-4;
 
-/** A rival run is preferred only when the trace supports it with this many times the lines (as the assign command). */
-const RIVAL_FACTOR = 3;
-
-/** Lines a run would keep (machine-made ones not distrusted), 0 for a doubtful run. */
-function runSupport(run: AssistantRunResult): number {
-  if (run.doubt) return 0;
-  const suspect = new Set(run.suspects.map((x) => x.id));
-  return run.lines.filter((l) => !l.isExcluded && l.status !== 'rejected' && !suspect.has(l.id)).length;
-}
-
 function fitLine(fit: FitResult): string {
   const sw = fit.sigmaW === null ? 'exactly determined' : `σ_w ${fit.sigmaW.toFixed(2)}`;
   return `${fit.nLines} lines, ${fit.nParameters} constants, rms ${fit.rmsCm1.toExponential(2)} cm⁻¹, ${sw}`;
 }
 
-function jobRun(job: AssistantRunJob, onProgress?: AssistantJobProgress): AssistantProposalsOutput {
+function jobRun(job: AssistantRunJob, onProgress?: AssistantJobProgress, isCancelled?: () => boolean): AssistantProposalsOutput {
   const peaks = usablePeaks(job.peaks);
   const context = assistantPeakContext(peaks);
   const { rows, warnings } = allowedRows(job.model, job.assignments);
-  let model = job.model;
-  let lines: AssistantLine[];
-  let start: string;
-  let rival: { model: BandModel; lines: AssistantLine[] } | null = null;
+  let seeds: AssistantLine[] = [];
   if (rows.length > 0) {
-    lines = assistantLinesFromAssignments(rows, model, peaks, context, 'seed', 'user');
-    const offPeak = lines.filter((l) => l.peakIndex === null).length;
-    start = `from the ${rows.length} line(s) of the table`;
+    seeds = assistantLinesFromAssignments(rows, job.model, peaks, context, 'seed', 'user');
+    const offPeak = seeds.filter((l) => l.peakIndex === null).length;
     if (offPeak > 0) warnings.push(`${offPeak} of the ${rows.length} table lines lie on no found peak (within half a line width)`);
-  } else {
-    const seeded = assistantSeedFromModel(model, peaks, job.floatable);
-    warnings.push(...seeded.warnings);
-    if (seeded.lines.length === 0)
-      throw new Error('no seed lines could be picked from the model alone; assign a few lines by hand first, then run again');
-    model = seeded.model;
-    lines = seeded.lines;
-    start =
-      `from the model alone: ${lines.length} seed(s) after shifting the origin by ${signed(seeded.originShiftCm1, 4)} cm⁻¹, ` +
-      `B′ by ${signed(seeded.upperBShiftCm1, 6)}, B″ by ${signed(seeded.lowerBShiftCm1, 6)} cm⁻¹`;
-    if (seeded.isAmbiguous) {
-      const runnerUp = assistantSeedFromModel(job.model, peaks, job.floatable, { useRunnerUp: true });
-      if (runnerUp.lines.length) rival = { model: runnerUp.model, lines: runnerUp.lines };
-    }
   }
-  const rejected = rejectedLines(model, job.rejected, peaks);
-  const progress = rival ? (r: number, s: string, n: number) => onProgress?.(r, `first ladder shift, ${s}`, n) : onProgress;
-  let run = assistantAutoExtend({
-    model,
+  // The same start and attempts as the assign command; rejected pairs ride along in every run.
+  const started = assistantStartRun({
+    model: job.model,
     floatable: job.floatable,
     peaks,
-    lines: [...lines, ...rejected],
+    seeds,
+    fixedLines: rejectedLines(job.model, job.rejected, peaks),
     options: job.options,
-    onProgress: progress,
+    onProgress,
+    isCancelled,
   });
-  if (rival) {
-    // Two shifts of the model's ladder match the peaks about equally well: run both and keep the one
-    // the trace supports clearly better; if neither is, the batch is doubtful as a whole.
-    const other = assistantAutoExtend({
-      model: rival.model,
-      floatable: job.floatable,
-      peaks,
-      lines: [...rival.lines, ...rejectedLines(rival.model, job.rejected, peaks)],
-      options: job.options,
-      onProgress: (r, s, n) => onProgress?.(r, `second ladder shift, ${s}`, n),
-    });
-    const a = runSupport(run);
-    const b = runSupport(other);
-    if (b > RIVAL_FACTOR * a) {
-      run = other;
-      start += ` (then the runner-up shift, which the trace supports with ${b} lines against ${a})`;
-    } else if (!(a > RIVAL_FACTOR * b)) {
-      run.doubt = `two shifts of the model's ladder fit the peaks about equally well and lead to ${a} and ${b} consistent lines: the trace does not decide the numbering; assign a few lines by hand and run again`;
-    }
+  warnings.push(...started.notes.map(unicodeUnits));
+  const { run, review } = started;
+  if (!run || !review) {
+    const why = started.note ? ` (${unicodeUnits(started.note.slice(2))})` : '';
+    throw new Error(`no seed lines could be picked from the model alone${why}; assign a few lines by hand first, then run again`);
   }
+  let start: string;
+  if (started.shifts) {
+    const { originShiftCm1, upperBShiftCm1, lowerBShiftCm1 } = started.shifts;
+    start =
+      `from the model alone: ${started.startSeeds.length} seed(s) after shifting the origin by ${signed(originShiftCm1, 4)} cm⁻¹, ` +
+      `B′ by ${signed(upperBShiftCm1, 6)}, B″ by ${signed(lowerBShiftCm1, 6)} cm⁻¹`;
+  } else {
+    start = `from the ${rows.length} line(s) of the table`;
+    if (started.nModelSeeds > 0) start += ` and ${started.nModelSeeds} seed(s) from the model alone`;
+  }
+  start += unicodeUnits(started.note);
   const suspects = new Map(run.suspects.map((s) => [s.id, s]));
   const fit = run.fit;
   const proposals: AssistantProposal[] = [];
@@ -187,18 +160,25 @@ function jobRun(job: AssistantRunJob, onProgress?: AssistantJobProgress): Assist
     const s = suspects.get(l.id);
     let verdict: AssistantProposal['verdict'] = 'confident';
     let doubt = '';
+    let note = '';
     if (l.isExcluded) {
       verdict = 'excluded';
       doubt = excludedWhy(l.reason);
-    } else if (s) {
+    } else if (review.held.has(l.id)) {
+      // What the assign command holds for review (not a row): the whole run in doubt, or a suspect.
       verdict = 'doubtful';
-      const alt = s.alternativeRungs.slice(0, 3).map((x) => x.label);
-      doubt = `${s.reasons.join('; ')}${alt.length ? `; the peak would also fit ${alt.join(', ')}` : ''}`;
-    } else if (run.doubt) {
-      verdict = 'doubtful';
-      doubt = `the run as a whole is in doubt: ${run.doubt}`;
+      if (run.doubt) doubt = `the run as a whole is in doubt: ${run.doubt}`;
+      else if (s) {
+        const alt = s.alternativeRungs.slice(0, 3).map((x) => x.label);
+        doubt = `${s.reasons.join('; ')}${alt.length ? `; the peak would also fit ${alt.join(', ')}` : ''}`;
+      }
+    } else if (s && review.pulled.has(l.id)) {
+      // Written by the assign command, flagged 'pulled': its label is the only one on offer.
+      note = `; its peak is pulled a little off the fit (${s.reasons.join('; ')}), but no other rung is on offer`;
     }
-    proposals.push(proposalOf(l, fit ? transitionWavenumber(fit.model, l.jUpper, l.kUpper, l.jLower, l.kLower) : NaN, verdict, doubt));
+    const calc = fit ? transitionWavenumber(fit.model, l.jUpper, l.kUpper, l.jLower, l.kLower) : NaN;
+    const proposal = proposalOf(l, calc, verdict, doubt);
+    proposals.push(note ? { ...proposal, reason: proposal.reason + note } : proposal);
   }
   proposals.sort((x, y) => x.observedCm1 - y.observedCm1);
   const nConfident = proposals.filter((p) => p.verdict === 'confident').length;
@@ -211,6 +191,11 @@ function jobRun(job: AssistantRunJob, onProgress?: AssistantJobProgress): Assist
     ambiguous: run.ambiguous.map((a) => a.reason),
     fitSummary: fit ? fitLine(fit) : run.fitError ? `no fit: ${run.fitError.message}` : null,
   };
+}
+
+/** The start's words as the page writes units (cm⁻¹ for the command line's cm^-1). */
+function unicodeUnits(text: string): string {
+  return text.replace(/cm\^-1/g, 'cm⁻¹');
 }
 
 /** The part of a loop reason that says why the line was kept out of the fit. */

@@ -73,6 +73,21 @@ async function assignedCount(page: Page): Promise<number> {
 
 const messages = async (page: Page) => (await page.locator('[data-testid=messages]').textContent()) ?? '';
 
+/** Record every text the progress line shows from now on (a fresh record each call). */
+async function progressRecord(page: Page): Promise<void> {
+  await page.evaluate(() => {
+    const seen: string[] = [];
+    (window as unknown as { __progress: string[] }).__progress = seen;
+    new MutationObserver(() => {
+      const t = document.querySelector('[data-testid=helper-progress]')?.textContent;
+      if (t && seen[seen.length - 1] !== t) seen.push(t);
+    }).observe(document.body, { subtree: true, childList: true, characterData: true });
+  });
+}
+
+/** The progress texts recorded since the last progressRecord. */
+const progressSeen = (page: Page) => page.evaluate(() => (window as unknown as { __progress: string[] }).__progress);
+
 /** The x positions of the proposal marks plotly draws. */
 const markCount = (page: Page) =>
   page.evaluate(() => {
@@ -103,7 +118,13 @@ describe('the assistant on the page', () => {
     expect(await page.locator('[data-testid=helper-start]').textContent()).toMatch(/the model alone \(the table is empty\)/);
 
     // Cancel: a run from the model alone (the longer one), stopped while it works. Nothing is written.
+    // Before it is stopped, the progress line says which step of the start runs.
     await page.locator('[data-testid=helper-run]').click();
+    await expect
+      .poll(() => page.locator('[data-testid=helper-progress]').textContent(), { timeout: 30_000, interval: 20 })
+      .toMatch(
+        /Working: run from the model alone — (searching for the shift of the model's ladder|first run, round \d+: \d+ proposed, \d+ excluded; \d+ line\(s\) proposed so far)/,
+      );
     await page.locator('[data-testid=helper-cancel]').click({ timeout: 20_000 });
     await expect.poll(() => messages(page), { timeout: 20_000 }).toMatch(/was cancelled; nothing was changed/);
     expect(await page.locator('[data-testid=helper-row]').count()).toBe(0);
@@ -113,21 +134,33 @@ describe('the assistant on the page', () => {
     await page.locator('[data-testid=tab-assignments]').click();
     await page.locator('[data-testid=tab-assistant]').click();
 
+    // The same run to its end: the start the assign command makes (assistantStartRun), its steps
+    // named in the progress line, its start said in the batch's summary; the table stays empty.
+    await progressRecord(page);
+    await page.locator('[data-testid=helper-run]').click();
+    await page.locator('[data-testid=helper-row]').first().waitFor({ timeout: 90_000 });
+    const modelOnly = await progressSeen(page);
+    expect(modelOnly.join('\n')).toMatch(
+      /Working: run from the model alone — first run, round 1: \d+ proposed, \d+ excluded; \d+ line\(s\) proposed so far/,
+    );
+    expect(await page.locator('[data-testid=helper-batch]').textContent()).toMatch(
+      /Run from the model alone: \d+ seed\(s\) after shifting the origin by [+−]\d\.\d{4} cm⁻¹, .*: \d+ round\(s\), \d+ proposal\(s\), \d+ confident\./,
+    );
+    expect(await page.locator('[data-testid=helper-row][data-verdict=confident]').count()).toBeGreaterThan(100);
+    expect(await assignedCount(page)).toBe(0);
+    await page.screenshot({ path: `${SHOTS}/39-assistant-model-only.png` });
+
     // Six true lines as seeds (a line table), then a run with its progress recorded as it shows.
     await openText(page, 'seeds.csv', seedCsv(6));
     await expect.poll(() => assignedCount(page), { timeout: 20_000 }).toBe(6);
     await page.locator('[data-testid=tab-assistant]').click();
-    await page.evaluate(() => {
-      const seen: string[] = [];
-      (window as unknown as { __progress: string[] }).__progress = seen;
-      new MutationObserver(() => {
-        const t = document.querySelector('[data-testid=helper-progress]')?.textContent;
-        if (t && seen[seen.length - 1] !== t) seen.push(t);
-      }).observe(document.body, { subtree: true, childList: true, characterData: true });
-    });
+    await progressRecord(page);
     await page.locator('[data-testid=helper-run]').click();
-    await page.locator('[data-testid=helper-row]').first().waitFor({ timeout: 60_000 });
-    const progress = await page.evaluate(() => (window as unknown as { __progress: string[] }).__progress);
+    // The model-only run's rows are on the list until this run's replace them: wait for its summary.
+    await expect
+      .poll(() => page.locator('[data-testid=helper-batch]').last().textContent(), { timeout: 90_000 })
+      .toMatch(/^run \d+\. Run from the 6 line\(s\) of the table/);
+    const progress = await progressSeen(page);
     expect(progress.join('\n')).toMatch(
       /Working: run from the 6 lines of the table — round \d+: \d+ proposed, \d+ excluded; \d+ line\(s\) proposed so far/,
     );

@@ -46,16 +46,20 @@ describe('assistant worker plumbing', () => {
     expect(out).toEqual([{ type: 'error', id: 4, message: "assistant.worker: unknown request type 'nonsense'" }]);
   });
 
-  it('a run posts one progress message per round (rounds 1, 2, …; lines so far never fall), then one result', () => {
+  it('a run posts what it is checking (round 0), then one progress message per round (rounds 1, 2, …; lines so far never fall), then one result', () => {
     const out = handle({
       type: 'job',
       id: 7,
       job: { kind: 'run', model: assistantBandGuess(), floatable: FLOATED, peaks, assignments: seedRows(6), rejected: [] },
     });
-    const progress = out.filter((m) => m.type === 'progress');
+    const all = out.filter((m) => m.type === 'progress');
+    all.forEach((m) => expect(m.id).toBe(7));
+    // Before the loop: the check whether the table's lines pin the band down (a search, no round yet).
+    expect(all[0]).toMatchObject({ round: 0, stage: 'checking whether the lines given pin the band down', rowsSoFar: 0 });
+    const progress = all.filter((m) => m.type === 'progress' && m.round > 0);
     expect(progress.length).toBeGreaterThan(1);
+    expect(all.length).toBe(progress.length + 1);
     progress.forEach((m, i) => {
-      expect(m.id).toBe(7);
       if (m.type === 'progress') {
         expect(m.round).toBe(i + 1);
         expect(m.stage).toMatch(/^round \d+: \d+ proposed, \d+ excluded$/);
