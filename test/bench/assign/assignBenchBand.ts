@@ -13,7 +13,7 @@
 /** c2 = hc/k, cm K. Source: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93, 025010 (2021)). */
 const C2_CM_K = 1.438776877;
 /** Doppler HWHM / ν = sqrt(2 ln2 k T / (m c²)) = 3.5812e-7 sqrt(T/K / (m/amu)). Source: Hollas, High Resolution Spectroscopy (1998) eq. 2.15 (constant from CODATA 2018). */
-const DOPPLER_HWHM_PER_NU = 3.581163e-7;
+export const BENCH_DOPPLER_HWHM_PER_NU = 3.581163e-7;
 /** Half width, in FWHM, of the exact pseudo-Voigt around each line (its Lorentz wing there is 7e-7 of the peak). */
 const NEAR_FWHM = 300;
 
@@ -321,7 +321,7 @@ export function benchBand(id: number, options: BenchBandOptions = {}): BenchBand
   const maxPoints = options.maxPoints ?? 400_000;
   const raw = benchLines(truth, jLimit, kLimit);
   const nuMid = raw.reduce((s, l) => s + l.nuCm1 * l.area, 0) / raw.reduce((s, l) => s + l.area, 0);
-  const gaussFwhm = 2 * DOPPLER_HWHM_PER_NU * nuMid * Math.sqrt(truth.temperatureK / truth.massAmu);
+  const gaussFwhm = 2 * BENCH_DOPPLER_HWHM_PER_NU * nuMid * Math.sqrt(truth.temperatureK / truth.massAmu);
   const shape = benchPseudoVoigt(gaussFwhm, 2 * truth.lorentzHwhmCm1);
   const fwhm = shape.fwhm;
   let lo = Infinity;

@@ -18,24 +18,16 @@ import {
   benchRandom,
   benchSeedTable,
   benchTrace,
+  BENCH_DOPPLER_HWHM_PER_NU,
   type BenchBand,
   type BenchLine,
 } from './assignBenchBand';
 
-/** Doppler HWHM / ν = 3.5812e-7 sqrt(T/K / (m/amu)). Source: Hollas, High Resolution Spectroscopy (1998) eq. 2.15. */
-const DOPPLER_HWHM_PER_NU = 3.581163e-7;
-
-/** One published line: quanta, vacuum wavenumber (cm^-1), 296 K intensity (cm/molecule). */
-interface RealLine {
-  jUpper: number;
-  kUpper: number;
-  jLower: number;
-  kLower: number;
-  nuCm1: number;
-  area: number;
+/** One published line: quanta, vacuum wavenumber (cm^-1), 296 K intensity (cm/molecule) as its area. */
+type RealLine = Pick<BenchLine, 'jUpper' | 'kUpper' | 'jLower' | 'kLower' | 'nuCm1' | 'area'> & {
   /** This line belongs to the band the first guess describes (not a neighbouring band's line). */
   isTarget: boolean;
-}
+};
 
 /** A real band's recipe: its line files, the first guess (from memory) and the trace's conditions. */
 interface RealRecipe {
@@ -219,7 +211,7 @@ export function realBand(recipe: RealRecipe, id: number, seeds: 0 | 3 | 10): Omi
   const rand = benchRandom(5000 + id);
   const all = realLines(recipe);
   const nuMid = all.reduce((s, l) => s + l.nuCm1 * l.area, 0) / all.reduce((s, l) => s + l.area, 0);
-  const gaussFwhm = 2 * DOPPLER_HWHM_PER_NU * nuMid * Math.sqrt(296 / recipe.massAmu);
+  const gaussFwhm = 2 * BENCH_DOPPLER_HWHM_PER_NU * nuMid * Math.sqrt(296 / recipe.massAmu);
   const shape = benchPseudoVoigt(gaussFwhm, 2 * recipe.lorentzHwhmCm1);
   const step = shape.fwhm / 4;
   const trace = benchTrace(all, shape, recipe.fromCm1, recipe.toCm1, step, rand);
