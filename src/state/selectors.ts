@@ -204,10 +204,11 @@ function isSameRow(x: AssignmentRow, y: AssignmentRow): boolean {
 
 /**
  * The previous entry of each new assignment: the one at the aligned position (the unchanged head
- * and tail of the list, or the same object at the same index between them; memo/listAlign), else
- * the one of the same object elsewhere, else the one of the same id (an edited assignment, a new
- * object), else undefined. The maps by object and by id are built only when an assignment is not
- * where it was (a deletion, an edit, a reorder), so a click that appends one row looks nothing up.
+ * and tail of the list, or the same object or id at the same index between them; memo/listAlign),
+ * else the one of the same object elsewhere in the old list's changed part, else the one of the same
+ * id (an edited assignment, a new object), else undefined; rows past the old list's end are new. The
+ * maps by object and by id are built only when an assignment is not where it was (rows shifted
+ * between two deletions), so a click that appends or edits one row looks nothing up.
  */
 function rowsPreviousEntries(prev: AssignmentRowsState | null, assignments: readonly Assignment[]): (i: number) => RowEntry | undefined {
   if (!prev) return () => undefined;
@@ -221,8 +222,11 @@ function rowsPreviousEntries(prev: AssignmentRowsState | null, assignments: read
   return (i) => {
     if (i < prefix) return oldEntries[i];
     if (i >= n - suffix) return oldEntries[i - n + n0];
+    // Past the old list's changed part: a new row (an assignment is appended, never moved there).
+    if (i >= n0 - suffix) return undefined;
     const a = assignments[i];
-    if (i < n0 - suffix && old[i] === a) return oldEntries[i];
+    // The same object, or the same id edited in place, at its old index.
+    if (old[i] === a || old[i].id === a.id) return oldEntries[i];
     if (!byObject) {
       byObject = new Map();
       byId = new Map();
