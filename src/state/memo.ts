@@ -72,3 +72,55 @@ export function listMapReuse<T, R>(
   if (n === n0 && prefix === n) return prevOut as R[];
   return out;
 }
+
+/** The keys of a list's items with how many items carry each, kept per version of the list (listKeysUpdate). */
+export interface ListKeys<T> {
+  items: readonly T[];
+  keyOf: (item: T) => string;
+  /** Key → number of items with it; keys no item carries are absent, so `has` tells membership. */
+  counts: ReadonlyMap<string, number>;
+}
+
+/** Counts handed on to a later version (see listKeysUpdate), so an old state is never read again. */
+const keysSpent = new WeakSet<object>();
+
+/**
+ * The key counts of `items`, from those of the previous version where the lists differ in a few
+ * items (memo/listAlign: the items between the unchanged head and tail are taken out and put in):
+ * the previous counts are updated in place and handed on, so an append costs one key. The previous
+ * state must not be used again (a second update from it counts afresh).
+ * @param prev the previous state, or null
+ * @param items the list
+ * @param keyOf an item's key (a new function counts afresh)
+ */
+export function listKeysUpdate<T>(prev: ListKeys<T> | null, items: readonly T[], keyOf: (item: T) => string): ListKeys<T> {
+  if (prev && prev.items === items && prev.keyOf === keyOf && !keysSpent.has(prev)) return prev;
+  const n = items.length;
+  if (prev && prev.keyOf === keyOf && !keysSpent.has(prev)) {
+    const old = prev.items;
+    const n0 = old.length;
+    const { prefix, suffix } = listAlign(old, items);
+    const changed = n0 - prefix - suffix + (n - prefix - suffix);
+    if (changed <= Math.max(16, n >> 3)) {
+      const counts = prev.counts as Map<string, number>;
+      for (let i = prefix; i < n0 - suffix; i++) {
+        const key = keyOf(old[i]);
+        const c = (counts.get(key) ?? 0) - 1;
+        if (c > 0) counts.set(key, c);
+        else counts.delete(key);
+      }
+      for (let i = prefix; i < n - suffix; i++) {
+        const key = keyOf(items[i]);
+        counts.set(key, (counts.get(key) ?? 0) + 1);
+      }
+      keysSpent.add(prev);
+      return { items, keyOf, counts };
+    }
+  }
+  const counts = new Map<string, number>();
+  for (const item of items) {
+    const key = keyOf(item);
+    counts.set(key, (counts.get(key) ?? 0) + 1);
+  }
+  return { items, keyOf, counts };
+}

@@ -13,7 +13,7 @@ import type { BandModel, LineList, TopShape } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
 import { assignmentDeviation } from './assignLogic';
 import { quantaKey } from './candidateRank';
-import { listAlign, memoLast } from './memo';
+import { listAlign, listKeysUpdate, memoLast, type ListKeys } from './memo';
 import { simulationBuild, type SimulatedSpectrum } from './simulation';
 import type { BenchState } from './store';
 import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
@@ -375,11 +375,12 @@ export function selectAssignmentRows(s: BenchState): AssignmentRow[] {
   return assignmentRowsLast.rows;
 }
 
-const assignedKeys = memoLast((assignments: Assignment[]): Set<string> => new Set(assignments.map(quantaKey)));
+let assignedKeysLast: ListKeys<Assignment> | null = null;
 
-/** Quanta keys of every assigned line. */
-export function selectAssignedKeys(s: BenchState): Set<string> {
-  return assignedKeys(s.assignments);
+/** Quanta keys of every assigned line (a key → count map), updated per new row (memo/listKeysUpdate). */
+export function selectAssignedKeys(s: BenchState): ReadonlyMap<string, number> {
+  assignedKeysLast = listKeysUpdate(assignedKeysLast, s.assignments, quantaKey);
+  return assignedKeysLast.counts;
 }
 
 const simulated = memoLast(

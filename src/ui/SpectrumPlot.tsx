@@ -13,7 +13,7 @@ import { messagePost } from '../state/actionsCore';
 import { bandActivate } from '../state/actionsSystem';
 import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated, type AssignmentRow } from '../state/selectors';
 import { assignmentBandKey, selectAssignmentDrawnLines, selectDrawnBands, type DrawnBands } from '../state/selectorsSystem';
-import { benchStore, useBench } from '../state/store';
+import { benchStore, useBench, type BenchState } from '../state/store';
 import { CandidateList } from './CandidateList';
 import { BandSwitches } from './BandSwitches';
 import { bandRowsBuild } from './plot/bandRows';
@@ -104,6 +104,18 @@ function onRungLine(lineIndex: number): void {
   rungClick({ ...q, band: e.band, species: e.species, ...levels });
 }
 
+/**
+ * Observed position of the selected row, cm^-1 (null when none). Run on every store change: the
+ * search starts at the end, where a new row (the usual selection) is.
+ */
+function selectSelectedObservedCm1(s: BenchState): number | null {
+  const id = s.selectedAssignmentId;
+  if (!id) return null;
+  const list = s.assignments;
+  for (let i = list.length - 1; i >= 0; i--) if (list[i].id === id) return list[i].observedCm1;
+  return null;
+}
+
 /** The ladder rows of the drawn bands (several-band session), or null for one band. */
 function drawnRows(drawn: DrawnBands, hiddenRows: string[], isDark: boolean): LadderRow[] | null {
   if (!drawn.entries || !drawn.bandLadders) return null;
@@ -128,9 +140,7 @@ export function SpectrumPlot() {
   const shape = useBench((s) => s.model.shape);
   const rowsA = useBench(selectAssignmentRows);
   const drawnLineOf = useBench(selectAssignmentDrawnLines);
-  const selectedObservedCm1 = useBench((s) =>
-    s.selectedAssignmentId ? (s.assignments.find((a) => a.id === s.selectedAssignmentId)?.observedCm1 ?? null) : null,
-  );
+  const selectedObservedCm1 = useBench(selectSelectedObservedCm1);
   const cursor = useBench((s) => s.cursor);
   const candidatePeakCm1 = useBench((s) => s.candidateTarget?.peakCm1 ?? null);
   const { showSimulated, showObsMinusSim, showPeaks } = useBench(

@@ -4,7 +4,7 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { listAlign, listMapReuse } from '../../src/state/memo';
+import { listAlign, listKeysUpdate, listMapReuse, type ListKeys } from '../../src/state/memo';
 
 interface Item {
   id: number;
@@ -119,5 +119,42 @@ describe('listMapReuse', () => {
     expect(calls).toBe(1);
     expect(out2[1000]).toBe(14);
     expect(listMapReuse(more, out2, [...more], () => NaN)).toBe(out2);
+  });
+});
+
+describe('listKeysUpdate', () => {
+  const keyOf = (x: Item) => `k${x.value % 5}`;
+  const fresh = (list: readonly Item[]) => {
+    const m = new Map<string, number>();
+    for (const x of list) m.set(keyOf(x), (m.get(keyOf(x)) ?? 0) + 1);
+    return m;
+  };
+
+  it('equals a fresh count after any sequence of appends, deletions, edits, undo/redo and reorders', () => {
+    fc.assert(
+      fc.property(fc.array(listOpArb, { minLength: 1, maxLength: 40 }), (ops) => {
+        let state: ListKeys<Item> | null = null;
+        run(ops, (list) => {
+          state = listKeysUpdate(state, list, keyOf);
+          expect(new Map(state.counts)).toEqual(fresh(list));
+          // Membership: a key no item carries is absent (never kept with a count of 0).
+          for (const c of state.counts.values()) expect(c).toBeGreaterThan(0);
+        });
+      }),
+      { numRuns: 300, seed: 20261205 },
+    );
+  });
+
+  it('counts afresh from a state already handed on, and for another key function', () => {
+    const list = Array.from({ length: 40 }, (_, id) => ({ id, value: id }));
+    const s1 = listKeysUpdate(null, list, keyOf);
+    const more = [...list, { id: 40, value: 3 }];
+    const s2 = listKeysUpdate(s1, more, keyOf);
+    expect(s2.counts.get('k3')).toBe(9);
+    // s1's counts now describe `more`; an update from s1 must not trust them.
+    const other = [...list, { id: 41, value: 4 }];
+    expect(new Map(listKeysUpdate(s1, other, keyOf).counts)).toEqual(fresh(other));
+    const byId = (x: Item) => `id${x.id}`;
+    expect(listKeysUpdate(s2, more, byId).counts.size).toBe(41);
   });
 });

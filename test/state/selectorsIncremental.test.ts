@@ -1,6 +1,6 @@
 /**
  * The several-band selectors that update per new row (level labels, drawn line, symmetry text of
- * each assignment, and the table rows) must equal a from-scratch computation after any sequence of
+ * each assignment, the table rows and the candidate list's assigned marks) must equal a from-scratch computation after any sequence of
  * page actions: assigning (with blends), deleting, editing, undo/redo, switching bands off and on and
  * changing the active band. The from-scratch definitions are written out here by brute force over
  * the system's lines (no index, no cache), so an incremental path that went stale fails.
@@ -12,7 +12,8 @@ import { beforeEach, describe, expect, it } from 'vitest';
 import type { Assignment } from '../../src/fit/assignment';
 import { systemFileFromJson } from '../../src/io/systemFile';
 import { systemLines, type SystemLineList } from '../../src/physics/system/systemLines';
-import { assignmentDelete, assignmentEdit, assignToPeak } from '../../src/state/actionsAssign';
+import { assignmentDelete, assignmentEdit, assignToPeak, selectCandidates } from '../../src/state/actionsAssign';
+import { quantaKey, type Candidate } from '../../src/state/candidateRank';
 import { benchUpdate, redo, undo } from '../../src/state/actionsCore';
 import { bandActivate, bandToggle, systemLoad } from '../../src/state/actionsSystem';
 import { peakIdAt } from '../../src/state/assignLogic';
@@ -26,7 +27,7 @@ import {
   selectHasAssignmentSymmetry,
 } from '../../src/state/selectorsSystem';
 import { benchStore, type BenchState } from '../../src/state/store';
-import { systemBandEntries } from '../../src/state/systemBands';
+import { bandKeyOfLine, systemBandEntries } from '../../src/state/systemBands';
 import { systemRowCalcCreate } from '../../src/state/systemRowCalc';
 import { levelTagMatches, lineLevelLabel, transitionSymmetryText, type LineLevelLabel } from '../../src/state/systemLevelLabels';
 import { selectSystemPrediction } from '../../src/state/systemPredict';
@@ -227,6 +228,7 @@ describe('incremental several-band selectors', () => {
     const start = { ...benchStore.getState(), past: [], future: [] };
     let nChecked = 0;
     let nSymmetry = 0;
+    let nAssignedCandidates = 0;
     fc.assert(
       fc.property(fc.array(opArb, { minLength: 1, maxLength: 30 }), (ops) => {
         benchStore.setState(start, true);
@@ -240,6 +242,16 @@ describe('incremental several-band selectors', () => {
           const symmetryOf = selectAssignmentSymmetryOf(s);
           expect(s.assignments.map(symmetryOf)).toEqual(texts);
           expect(selectHasAssignmentSymmetry(s)).toBe(texts.some((t) => t !== ''));
+          // The candidate list of a peak marks the lines already assigned (kept per change of the table).
+          const at = lines.wavenumberCm1[(nChecked * 131) % lines.count];
+          benchStore.setState({ candidateTarget: { peakCm1: at, peakId: peakIdAt(at), peakSigmaCm1: 0.001 } });
+          const candidates = selectCandidates(benchStore.getState());
+          const keyOf = (q: Assignment | Candidate) =>
+            `${bandKeyOfLine(q) ?? s.activeBandKey}|${quantaKey(q)}|${q.tagUpper ?? ''}|${q.tagLower ?? ''}`;
+          const assignedKeys = new Set(s.assignments.map(keyOf));
+          expect(candidates.map((c) => c.isAssigned)).toEqual(candidates.map((c) => assignedKeys.has(keyOf(c))));
+          nAssignedCandidates += candidates.filter((c) => c.isAssigned).length;
+          benchStore.setState({ candidateTarget: null });
           const rows = selectAssignmentRows(s);
           expect(rows).toEqual(assignmentRowsUpdate(null, rowsInputOf(s)).rows);
           nChecked++;
@@ -251,6 +263,7 @@ describe('incremental several-band selectors', () => {
     // The sequences did reach rows with and without symmetry.
     expect(nChecked).toBeGreaterThan(400);
     expect(nSymmetry).toBeGreaterThan(100);
+    expect(nAssignedCandidates).toBeGreaterThan(20);
   });
 });
 
