@@ -20,7 +20,7 @@ import { benchUpdate, messagePost } from './actionsCore';
 import { viewEnsureVisible, viewZoomTo } from './actionsView';
 import type { CandidateTarget } from './assignmentsSlice';
 import { candidateHeightScaleGuess, candidatesRank, quantaKey, type Candidate } from './candidateRank';
-import { memoLast } from './memo';
+import { listKeysUpdate, memoLast, type ListKeys } from './memo';
 import { quantaLabel, selectAssignedKeys, selectBand, selectFitResult, selectPeaks } from './selectors';
 import { benchStore, type BenchState } from './store';
 import { assignmentBandKey, selectDrawnBands, type DrawnBands } from './selectorsSystem';
@@ -77,24 +77,27 @@ const heightScaleOf = memoLast((peaks: PeakList, intensity: Float64Array) =>
   candidateHeightScaleGuess(peaks.height.subarray(0, peaks.count), intensity),
 );
 
-/**
- * Keys (band key | quanta | tags) of the assigned lines of a several-band session: built once per
- * change of the table, not once per peak clicked.
- */
-const assignedSystemKeys = memoLast((assignments: BenchState['assignments'], activeBandKey: string | null) => {
-  const known = assignedKeyCache(activeBandKey);
-  const keys = new Set<string>();
-  for (const a of assignments) {
+/** An assignment's key (band key | quanta | tags), kept per assignment object while the active band stays. */
+const assignedSystemKeyOf = memoLast((activeBandKey: string | null) => {
+  const known = new WeakMap<Assignment, string>();
+  return (a: Assignment): string => {
     let key = known.get(a);
     if (key === undefined)
       known.set(a, (key = `${assignmentBandKey({ activeBandKey }, a)}|${quantaKey(a)}|${a.tagUpper ?? ''}|${a.tagLower ?? ''}`));
-    keys.add(key);
-  }
-  return keys;
+    return key;
+  };
 });
 
-/** Each assignment object's key while the active band stays (assignments are immutable). */
-const assignedKeyCache = memoLast((_activeBandKey: string | null) => new WeakMap<Assignment, string>());
+let assignedSystemKeysLast: ListKeys<Assignment> | null = null;
+
+/**
+ * Keys of the assigned lines of a several-band session (key → count): updated per change of the
+ * table by the rows that changed (memo/listKeysUpdate), not rebuilt per change or per peak clicked.
+ */
+function assignedSystemKeys(assignments: BenchState['assignments'], activeBandKey: string | null): ReadonlyMap<string, number> {
+  assignedSystemKeysLast = listKeysUpdate(assignedSystemKeysLast, assignments, assignedSystemKeyOf(activeBandKey));
+  return assignedSystemKeysLast.counts;
+}
 
 /** Height scale from the assignments (≥ 3 single peaks), else the rough rank-matched guess. */
 function candidateHeightScale(ctx: MatchSingleContext, assignments: BenchState['assignments']): number {
@@ -107,7 +110,7 @@ const candidates = memoLast(
     target: CandidateTarget | null,
     ctx: MatchSingleContext | null,
     hasFit: boolean,
-    assigned: Set<string>,
+    assigned: ReadonlyMap<string, number>,
     assignments: BenchState['assignments'],
     model: BenchState['model'],
     minIntensity: number,

@@ -59,6 +59,10 @@ export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDra
   );
   let out: Assignment[];
   let resultId: string;
+  if (!existing) {
+    const appended = blendsAppend(list, assignmentNew(draft, id));
+    if (appended) return { list: appended, id };
+  }
   if (existing) {
     resultId = existing.id;
     out = list.map((a) =>
@@ -74,29 +78,60 @@ export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDra
     );
   } else {
     resultId = id;
-    out = [
-      ...list,
-      {
-        id,
-        jUpper: draft.jUpper,
-        kUpper: draft.kUpper,
-        jLower: draft.jLower,
-        kLower: draft.kLower,
-        observedCm1: draft.observedCm1,
-        uncertaintyCm1: draft.uncertaintyCm1 ?? ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1,
-        isBlended: false,
-        isExcluded: false,
-        note: '',
-        ...(draft.peakId !== undefined ? { peakId: draft.peakId } : {}),
-        ...(draft.band !== undefined && draft.species !== undefined ? { band: draft.band, species: draft.species } : {}),
-        ...(draft.lUpper !== undefined ? { lUpper: draft.lUpper } : {}),
-        ...(draft.lLower !== undefined ? { lLower: draft.lLower } : {}),
-        ...(draft.tagUpper !== undefined ? { tagUpper: draft.tagUpper } : {}),
-        ...(draft.tagLower !== undefined ? { tagLower: draft.tagLower } : {}),
-      },
-    ];
+    out = [...list, assignmentNew(draft, id)];
   }
-  return { list: assignmentsMarkBlends(out, existing?.peakId), id: resultId };
+  const marked = blendsMark(out, existing?.peakId);
+  blendCounts.set(marked.list, marked.count);
+  return { list: marked.list, id: resultId };
+}
+
+/** A new assignment from a draft. */
+function assignmentNew(draft: AssignmentDraft, id: string): Assignment {
+  return {
+    id,
+    jUpper: draft.jUpper,
+    kUpper: draft.kUpper,
+    jLower: draft.jLower,
+    kLower: draft.kLower,
+    observedCm1: draft.observedCm1,
+    uncertaintyCm1: draft.uncertaintyCm1 ?? ASSIGNMENT_DEFAULT_UNCERTAINTY_CM1,
+    isBlended: false,
+    isExcluded: false,
+    note: '',
+    ...(draft.peakId !== undefined ? { peakId: draft.peakId } : {}),
+    ...(draft.band !== undefined && draft.species !== undefined ? { band: draft.band, species: draft.species } : {}),
+    ...(draft.lUpper !== undefined ? { lUpper: draft.lUpper } : {}),
+    ...(draft.lLower !== undefined ? { lLower: draft.lLower } : {}),
+    ...(draft.tagUpper !== undefined ? { tagUpper: draft.tagUpper } : {}),
+    ...(draft.tagLower !== undefined ? { tagLower: draft.tagLower } : {}),
+  };
+}
+
+/**
+ * Rows per peak id of lists that assignmentsAdd returned (each such list has every row on a shared
+ * peak flagged blended): the next assignmentsAdd on that list need not count every row again. The
+ * counts move to the new list (they are updated in place), so an old list is counted afresh.
+ */
+const blendCounts = new WeakMap<readonly Assignment[], Map<string, number>>();
+
+/**
+ * assignmentsMarkBlends([...list, added]) for a list assignmentsAdd returned, without a pass that
+ * hashes every row: only the rows on the added row's peak can change (every other shared peak is
+ * already flagged). Null when the list's counts are not known (assignmentsAdd then counts them).
+ */
+function blendsAppend(list: readonly Assignment[], added: Assignment): Assignment[] | null {
+  const count = blendCounts.get(list);
+  if (!count) return null;
+  blendCounts.delete(list);
+  const out = [...list, added];
+  const p = added.peakId;
+  if (p !== undefined) {
+    const n = (count.get(p) ?? 0) + 1;
+    count.set(p, n);
+    if (n > 1) for (let i = 0; i < out.length; i++) if (out[i].peakId === p && !out[i].isBlended) out[i] = { ...out[i], isBlended: true };
+  }
+  blendCounts.set(out, count);
+  return out;
 }
 
 /**
@@ -104,15 +139,21 @@ export function assignmentsAdd(list: readonly Assignment[], draft: AssignmentDra
  * alone on `releasedPeakId` (the peak an entry just moved away from) is un-flagged.
  */
 export function assignmentsMarkBlends(list: Assignment[], releasedPeakId?: string): Assignment[] {
+  return blendsMark(list, releasedPeakId).list;
+}
+
+/** assignmentsMarkBlends, with the rows per peak id it counted. */
+function blendsMark(list: Assignment[], releasedPeakId?: string): { list: Assignment[]; count: Map<string, number> } {
   const count = new Map<string, number>();
   for (const a of list) if (a.peakId !== undefined) count.set(a.peakId, (count.get(a.peakId) ?? 0) + 1);
-  return list.map((a) => {
+  const out = list.map((a) => {
     if (a.peakId === undefined) return a;
     const n = count.get(a.peakId) ?? 0;
     if (n > 1 && !a.isBlended) return { ...a, isBlended: true };
     if (n === 1 && a.peakId === releasedPeakId && a.isBlended) return { ...a, isBlended: false };
     return a;
   });
+  return { list: out, count };
 }
 
 /** Editable fields of an assignment. */

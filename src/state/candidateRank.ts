@@ -62,8 +62,8 @@ export interface CandidatesRankOptions {
   intensityRatioMax?: number;
   /** Lines for which this returns false are never offered (e.g. below the drawn intensity cut). */
   isOffered?: (lineIndex: number) => boolean;
-  /** Quanta keys (see quantaKey) of assigned lines. */
-  assignedKeys?: ReadonlySet<string>;
+  /** Quanta keys (see quantaKey) of assigned lines (a set, or a key → count map). */
+  assignedKeys?: Pick<ReadonlySet<string>, 'has'>;
   shape: TopShape;
 }
 

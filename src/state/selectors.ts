@@ -13,7 +13,7 @@ import type { BandModel, LineList, TopShape } from '../physics/model';
 import { transitionWavenumber } from '../physics/termValues';
 import { assignmentDeviation } from './assignLogic';
 import { quantaKey } from './candidateRank';
-import { memoLast } from './memo';
+import { listAlign, listKeysUpdate, memoLast, type ListKeys } from './memo';
 import { simulationBuild, type SimulatedSpectrum } from './simulation';
 import type { BenchState } from './store';
 import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
@@ -160,7 +160,8 @@ interface RowEntry {
 export interface AssignmentRowsState {
   input: AssignmentRowsInput;
   rows: AssignmentRow[];
-  entryOf: Map<Assignment, RowEntry>;
+  /** The row of each assignment with the σ it was judged with, parallel to input.assignments. */
+  entries: RowEntry[];
 }
 
 function rowsFitResult(outcome: FitOutcome | null): FitResult | null {
@@ -202,12 +203,51 @@ function isSameRow(x: AssignmentRow, y: AssignmentRow): boolean {
 }
 
 /**
+ * The previous entry of each new assignment: the one at the aligned position (the unchanged head
+ * and tail of the list, or the same object or id at the same index between them; memo/listAlign),
+ * else the one of the same object elsewhere in the old list's changed part, else the one of the same
+ * id (an edited assignment, a new object), else undefined; rows past the old list's end are new. The
+ * maps by object and by id are built only when an assignment is not where it was (rows shifted
+ * between two deletions), so a click that appends or edits one row looks nothing up.
+ */
+function rowsPreviousEntries(prev: AssignmentRowsState | null, assignments: readonly Assignment[]): (i: number) => RowEntry | undefined {
+  if (!prev) return () => undefined;
+  const old = prev.input.assignments;
+  const oldEntries = prev.entries;
+  const n0 = old.length;
+  const n = assignments.length;
+  const { prefix, suffix } = listAlign(old, assignments);
+  let byObject: Map<Assignment, RowEntry> | null = null;
+  let byId: Map<string, RowEntry> | null = null;
+  return (i) => {
+    if (i < prefix) return oldEntries[i];
+    if (i >= n - suffix) return oldEntries[i - n + n0];
+    // Past the old list's changed part: a new row (an assignment is appended, never moved there).
+    if (i >= n0 - suffix) return undefined;
+    const a = assignments[i];
+    // The same object, or the same id edited in place, at its old index.
+    if (old[i] === a || old[i].id === a.id) return oldEntries[i];
+    if (!byObject) {
+      byObject = new Map();
+      byId = new Map();
+      for (let k = 0; k < n0; k++) {
+        byObject.set(old[k], oldEntries[k]);
+        byId.set(old[k].id, oldEntries[k]);
+      }
+    }
+    return byObject.get(a) ?? byId!.get(a.id);
+  };
+}
+
+/**
  * Assignment rows for new inputs, reusing what the previous inputs computed: with only the list
  * changed, unchanged assignments keep their row objects and only new ones are computed (one
  * prediction each); with a new fit, model or tolerance, labels and positions are carried over where
  * their inputs are unchanged, the prediction σ of every row comes from one batched pass
  * (fitPredictSigmas), and a row whose values come out the same keeps its old object. When every row
  * is unchanged the previous array itself is returned, so memoised consumers skip their work.
+ * The previous rows are found by position first (memo/listAlign): appending a row to 10,000 costs
+ * one pass of reference comparisons and copies, no map of the old rows.
  * The rows equal those of a fresh computation (checked in test/state/selectors.test.ts).
  * WARNING: relies on assignments never being mutated in place (the store replaces them).
  * @param prev the state returned by the previous call, or null
@@ -236,16 +276,25 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
   // The joint fit's keys are the system's, which the one-band prediction σ cannot read.
   const result = systemCalc ? null : rowsFitResult(fitOutcome);
   const outlierIds = rowsOutlierIds(fitOutcome, fitLineIds);
-  const old = prev?.entryOf;
+  const previousOf = rowsPreviousEntries(prev, assignments);
   const n = assignments.length;
-  const entries: (RowEntry | undefined)[] = new Array(n);
+  const entries: RowEntry[] = new Array(n);
+  // The previous entry of each row not kept whole (looked up once).
+  const olds: (RowEntry | undefined)[] = new Array(n);
   // Which rows need a new prediction σ (batched below).
   const needSigma: number[] = [];
+  // The rows not kept whole.
+  const todo: number[] = [];
   for (let i = 0; i < n; i++) {
     const a = assignments[i];
-    const e = old?.get(a);
-    if (e && isSameContext) entries[i] = e;
-    else if (!(e && isSameFit) && result) needSigma.push(i);
+    const e = previousOf(i);
+    if (e && e.row.a === a && isSameContext) {
+      entries[i] = e;
+      continue;
+    }
+    olds[i] = e;
+    todo.push(i);
+    if (!(e && e.row.a === a && isSameFit) && result) needSigma.push(i);
   }
   let sigmas: Float64Array | null = null;
   if (result && needSigma.length > 0)
@@ -255,65 +304,49 @@ export function assignmentRowsUpdate(prev: AssignmentRowsState | null, input: As
     );
   // Several bands: the positions of the rows not kept whole, in one pass (rows whose line is under
   // the intensity cut share one level calculation).
-  const todo: number[] = [];
-  if (systemCalc) for (let i = 0; i < n; i++) if (!entries[i]) todo.push(i);
   const systemCalcs = systemCalc && todo.length > 0 ? systemCalc.calcMany(todo.map((i) => assignments[i])) : null;
-  const systemCalcAt = new Map<number, number>();
-  todo.forEach((i, t) => systemCalcAt.set(i, systemCalcs![t]));
   let k = 0;
-  // Old rows by id: an edited assignment (a new object for the same id) keeps its labels and
-  // calculated position when its quanta are unchanged.
-  let oldById: Map<string, RowEntry> | null = null;
-  const entryOf = new Map<Assignment, RowEntry>();
-  let isAllSame = prev !== null && prev.rows.length === n;
-  const rows: AssignmentRow[] = new Array(n);
-  for (let i = 0; i < n; i++) {
+  todo.forEach((i, t) => {
     const a = assignments[i];
-    let entry = entries[i];
-    if (!entry) {
-      let e = old?.get(a);
-      if (!e && old) {
-        if (!oldById) {
-          oldById = new Map();
-          for (const x of old.values()) oldById.set(x.row.a.id, x);
-        }
-        e = oldById.get(a.id);
-      }
-      const hasSameQuanta = e !== undefined && isSameQuanta(e.row.a, a);
-      let sigmaPredCm1: number | null = null;
-      if (result) sigmaPredCm1 = e && e.row.a === a && isSameFit ? e.sigmaPredCm1 : sigmas![k++];
-      // A row of a system keeps its calc only for the same labels (its tags and l pick the line).
-      const calcCm1 =
-        e && hasSameQuanta && isSameModel && (!systemCalc || isSameLevels(e.row.a, a))
-          ? e.row.calcCm1
-          : systemCalc
-            ? (systemCalcAt.get(i) ?? systemCalc.calcCm1(a))
-            : transitionWavenumber(model, a.jUpper, a.kUpper, a.jLower, a.kLower);
-      const shape = systemCalc ? systemCalc.shape(a) : model.shape;
-      const deltaK = a.kUpper - a.kLower;
-      const deltaJ = a.jUpper - a.jLower;
-      const labelAscii = e && hasSameQuanta && isSameShape ? e.row.labelAscii : lineLabelAscii(deltaK, deltaJ, a.kLower, a.jLower, shape);
-      const labelHtml = e && hasSameQuanta && isSameShape ? e.row.labelHtml : lineLabelHtml(deltaK, deltaJ, a.kLower, a.jLower, shape);
-      const dev = assignmentDeviation(a.observedCm1, calcCm1, a.uncertaintyCm1, sigmaPredCm1, farToleranceCm1);
-      const row: AssignmentRow = {
-        a,
-        labelAscii,
-        labelHtml,
-        deltaJ,
-        deltaK,
-        calcCm1,
-        omcCm1: dev.omcCm1,
-        omcSigma: dev.omcSigma,
-        isFar: dev.isFar,
-        isOutlier: outlierIds.has(a.id),
-      };
-      entry = e && isSameRow(e.row, row) ? { row: e.row, sigmaPredCm1 } : { row, sigmaPredCm1 };
-    }
-    rows[i] = entry.row;
-    entryOf.set(a, entry);
-    if (isAllSame && prev!.rows[i] !== entry.row) isAllSame = false;
+    const e = olds[i];
+    const isSameObject = e !== undefined && e.row.a === a;
+    const hasSameQuanta = e !== undefined && isSameQuanta(e.row.a, a);
+    let sigmaPredCm1: number | null = null;
+    if (result) sigmaPredCm1 = isSameObject && isSameFit ? e.sigmaPredCm1 : sigmas![k++];
+    // A row of a system keeps its calc only for the same labels (its tags and l pick the line).
+    const calcCm1 =
+      e && hasSameQuanta && isSameModel && (!systemCalc || isSameLevels(e.row.a, a))
+        ? e.row.calcCm1
+        : systemCalcs
+          ? systemCalcs[t]
+          : transitionWavenumber(model, a.jUpper, a.kUpper, a.jLower, a.kLower);
+    const shape = systemCalc ? systemCalc.shape(a) : model.shape;
+    const deltaK = a.kUpper - a.kLower;
+    const deltaJ = a.jUpper - a.jLower;
+    const labelAscii = e && hasSameQuanta && isSameShape ? e.row.labelAscii : lineLabelAscii(deltaK, deltaJ, a.kLower, a.jLower, shape);
+    const labelHtml = e && hasSameQuanta && isSameShape ? e.row.labelHtml : lineLabelHtml(deltaK, deltaJ, a.kLower, a.jLower, shape);
+    const dev = assignmentDeviation(a.observedCm1, calcCm1, a.uncertaintyCm1, sigmaPredCm1, farToleranceCm1);
+    const row: AssignmentRow = {
+      a,
+      labelAscii,
+      labelHtml,
+      deltaJ,
+      deltaK,
+      calcCm1,
+      omcCm1: dev.omcCm1,
+      omcSigma: dev.omcSigma,
+      isFar: dev.isFar,
+      isOutlier: outlierIds.has(a.id),
+    };
+    entries[i] = e && isSameRow(e.row, row) ? (e.sigmaPredCm1 === sigmaPredCm1 ? e : { row: e.row, sigmaPredCm1 }) : { row, sigmaPredCm1 };
+  });
+  const rows: AssignmentRow[] = new Array(n);
+  let isAllSame = prev !== null && prev.rows.length === n;
+  for (let i = 0; i < n; i++) {
+    rows[i] = entries[i].row;
+    if (isAllSame && prev!.rows[i] !== rows[i]) isAllSame = false;
   }
-  return { input, rows: isAllSame ? prev!.rows : rows, entryOf };
+  return { input, rows: isAllSame ? prev!.rows : rows, entries };
 }
 
 let assignmentRowsLast: AssignmentRowsState | null = null;
@@ -342,11 +375,12 @@ export function selectAssignmentRows(s: BenchState): AssignmentRow[] {
   return assignmentRowsLast.rows;
 }
 
-const assignedKeys = memoLast((assignments: Assignment[]): Set<string> => new Set(assignments.map(quantaKey)));
+let assignedKeysLast: ListKeys<Assignment> | null = null;
 
-/** Quanta keys of every assigned line. */
-export function selectAssignedKeys(s: BenchState): Set<string> {
-  return assignedKeys(s.assignments);
+/** Quanta keys of every assigned line (a key → count map), updated per new row (memo/listKeysUpdate). */
+export function selectAssignedKeys(s: BenchState): ReadonlyMap<string, number> {
+  assignedKeysLast = listKeysUpdate(assignedKeysLast, s.assignments, quantaKey);
+  return assignedKeysLast.counts;
 }
 
 const simulated = memoLast(

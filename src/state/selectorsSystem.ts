@@ -7,10 +7,17 @@
 import { bandLadders, type Ladder } from '../physics/bandLadders';
 import type { LineList } from '../physics/model';
 import type { SystemModel } from '../physics/system/systemModel';
-import { memoLast } from './memo';
+import { listMapReuse, memoLast } from './memo';
 import type { BandModel } from '../physics/model';
 import type { Assignment } from '../fit/assignment';
-import { levelTagMatches, lineLevelLabel, lineLevelLabelsSubset, type LineLevelLabel, type LineLevelLabels } from './systemLevelLabels';
+import {
+  levelTagMatches,
+  lineLevelLabel,
+  lineLevelLabelsSubset,
+  transitionSymmetryText,
+  type LineLevelLabel,
+  type LineLevelLabels,
+} from './systemLevelLabels';
 import { predictedBandCompute, selectBand, type PredictedBand } from './selectors';
 import { selectSystemPrediction, type SystemPrediction } from './systemPredict';
 import { bandKeyOfLine, type SystemBandEntry } from './systemBands';
@@ -234,11 +241,11 @@ const loomisBandSelect = memoLast(
 );
 
 /**
- * The system lines by band key and quanta, and each assignment's level labels once found: built
- * once per prediction and active band, so a new row costs one lookup, not a pass over every line
- * and every row (assignments are immutable, so an object keeps its answer).
+ * The level labels of an assignment's system line, found once per assignment object: the system
+ * lines by band key and quanta are indexed once per prediction and active band, so a new row costs
+ * one lookup, not a pass over every line (assignments are immutable, so an object keeps its answer).
  */
-const assignmentLevelIndex = memoLast((pred: SystemPrediction | null, _activeBandKey: string | null) => {
+const assignmentLevelIndex = memoLast((pred: SystemPrediction | null, activeBandKey: string | null) => {
   const all = pred?.all;
   const byKey = new Map<string, number[]>();
   if (all)
@@ -249,50 +256,89 @@ const assignmentLevelIndex = memoLast((pred: SystemPrediction | null, _activeBan
       if (list) list.push(i);
       else byKey.set(key, [i]);
     }
-  return { byKey, done: new WeakMap<Assignment, LineLevelLabel | null>() };
+  const done = new WeakMap<Assignment, LineLevelLabel | null>();
+  const symmetryDone = new WeakMap<Assignment, string>();
+  const rowLevel = (a: Assignment): LineLevelLabel | null => {
+    if (!all) return null;
+    const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
+    if (!list) return null;
+    const fits = list.filter(
+      (i) =>
+        (a.tagUpper === undefined || levelTagMatches(all.tagUpper[i], a.tagUpper)) &&
+        (a.tagLower === undefined || levelTagMatches(all.tagLower[i], a.tagLower)) &&
+        (a.lUpper === undefined || all.lUpper[i] === a.lUpper) &&
+        (a.lLower === undefined || all.lLower[i] === a.lLower),
+    );
+    // Only a line the row names alone: a row J and K leave open (an untagged row of a split pair) shows no symmetry.
+    return fits.length === 1 ? lineLevelLabel(all, fits[0]) : null;
+  };
+  const levelOf = (a: Assignment): LineLevelLabel | null => {
+    const known = done.get(a);
+    if (known !== undefined) return known;
+    const found = rowLevel(a);
+    done.set(a, found);
+    return found;
+  };
+  // Tags the row was assigned with (A1/A2, s/a), else the species of the one line it names.
+  const symmetryOf = (a: Assignment): string => {
+    const known = symmetryDone.get(a);
+    if (known !== undefined) return known;
+    const text = transitionSymmetryText({ ...levelOf(a), tagUpper: a.tagUpper, tagLower: a.tagLower });
+    symmetryDone.set(a, text);
+    return text;
+  };
+  return { levelOf, symmetryOf };
 });
 
-const assignmentLevels = memoLast(
-  (assignments: BenchState['assignments'], pred: SystemPrediction | null, activeBandKey: string | null): (LineLevelLabel | null)[] => {
-    const all = pred?.all;
-    if (!all) return assignments.map(() => null);
-    const { byKey, done } = assignmentLevelIndex(pred, activeBandKey);
-    const rowLevel = (a: Assignment): LineLevelLabel | null => {
-      const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
-      if (!list) return null;
-      const fits = list.filter(
-        (i) =>
-          (a.tagUpper === undefined || levelTagMatches(all.tagUpper[i], a.tagUpper)) &&
-          (a.tagLower === undefined || levelTagMatches(all.tagLower[i], a.tagLower)) &&
-          (a.lUpper === undefined || all.lUpper[i] === a.lUpper) &&
-          (a.lLower === undefined || all.lLower[i] === a.lLower),
-      );
-      // Only a line the row names alone: a row J and K leave open (an untagged row of a split pair) shows no symmetry.
-      return fits.length === 1 ? lineLevelLabel(all, fits[0]) : null;
-    };
-    return assignments.map((a) => {
-      const known = done.get(a);
-      if (known !== undefined) return known;
-      const found = rowLevel(a);
-      done.set(a, found);
-      return found;
-    });
-  },
-);
+/** A per-assignment list kept with the inputs it was made from (see listMapReuse). */
+interface PerAssignment<C, R> {
+  assignments: BenchState['assignments'];
+  context: C;
+  out: R;
+}
+
+let levelsLast: PerAssignment<ReturnType<typeof assignmentLevelIndex>, (LineLevelLabel | null)[]> | null = null;
 
 /**
  * The level labels (tags, symmetry species) of the system line each assignment names (the line
  * its calc comes from, state/systemRowCalc), parallel to the assignments; null where the line is
  * not among the lines at the intensity cut, J and K leave a choice the row does not settle, and in
- * a single-band session. A band switched off keeps its rows' labels.
+ * a single-band session. A band switched off keeps its rows' labels. Incremental: with the same
+ * prediction and active band, only the assignments not where they were are looked up (memo/listMapReuse).
  */
 export function selectAssignmentLevels(s: BenchState): (LineLevelLabel | null)[] {
-  return assignmentLevels(s.assignments, selectSystemPrediction(s), s.activeBandKey);
+  const index = assignmentLevelIndex(selectSystemPrediction(s), s.activeBandKey);
+  const last = levelsLast;
+  if (last && last.assignments === s.assignments && last.context === index) return last.out;
+  const out = listMapReuse(last?.context === index ? last.assignments : null, last?.out ?? null, s.assignments, index.levelOf);
+  levelsLast = { assignments: s.assignments, context: index, out };
+  return out;
 }
 
-/** The drawn lines by band key and quanta, with each assignment's line once found (see assignmentLevelIndex). */
-const assignmentDrawnIndex = memoLast((drawn: DrawnBands, _activeBandKey: string | null) => {
-  const { entries, bandOfLine, lines } = drawn;
+/**
+ * The symmetry text of an assignment's row ("A2 ← A1": the tags it was assigned with, else the
+ * species of the one line it names; '' when none), by assignment object. The function stays the
+ * same while the prediction and active band do, so a table can call it for its visible rows only.
+ */
+export function selectAssignmentSymmetryOf(s: BenchState): (a: Assignment) => string {
+  return assignmentLevelIndex(selectSystemPrediction(s), s.activeBandKey).symmetryOf;
+}
+
+let symmetryLast: PerAssignment<(a: Assignment) => string, { texts: string[]; hasAny: boolean }> | null = null;
+
+/** Some assignment has a symmetry text (the table then shows the column); incremental as selectAssignmentLevels. */
+export function selectHasAssignmentSymmetry(s: BenchState): boolean {
+  const symmetryOf = selectAssignmentSymmetryOf(s);
+  const last = symmetryLast;
+  if (last && last.assignments === s.assignments && last.context === symmetryOf) return last.out.hasAny;
+  const texts = listMapReuse(last?.context === symmetryOf ? last.assignments : null, last?.out.texts ?? null, s.assignments, symmetryOf);
+  symmetryLast = { assignments: s.assignments, context: symmetryOf, out: { texts, hasAny: texts.some((t) => t !== '') } };
+  return symmetryLast.out.hasAny;
+}
+
+/** The drawn lines by band key and quanta, and the drawn line of an assignment once found (by object). */
+const assignmentDrawnIndex = memoLast((drawn: DrawnBands, activeBandKey: string | null) => {
+  const { entries, bandOfLine, lines, levels } = drawn;
   const byKey = new Map<string, number[]>();
   if (entries && bandOfLine)
     for (let i = 0; i < lines.count; i++) {
@@ -301,43 +347,47 @@ const assignmentDrawnIndex = memoLast((drawn: DrawnBands, _activeBandKey: string
       if (list) list.push(i);
       else byKey.set(key, [i]);
     }
-  return { byKey, done: new WeakMap<Assignment, number>() };
+  const done = new WeakMap<Assignment, number>();
+  const rowLine = (a: Assignment): number => {
+    if (!levels) return -1;
+    const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
+    let best = -1;
+    for (const i of list ?? []) {
+      if (a.tagUpper !== undefined && !levelTagMatches(levels.tagUpper[i], a.tagUpper)) continue;
+      if (a.tagLower !== undefined && !levelTagMatches(levels.tagLower[i], a.tagLower)) continue;
+      if (a.lUpper !== undefined && levels.lUpper[i] !== a.lUpper) continue;
+      if (a.lLower !== undefined && levels.lLower[i] !== a.lLower) continue;
+      // Of lines the row leaves open (an untagged row of a split pair), the one nearest its observation.
+      if (best < 0 || Math.abs(lines.wavenumberCm1[i] - a.observedCm1) < Math.abs(lines.wavenumberCm1[best] - a.observedCm1)) best = i;
+    }
+    return best;
+  };
+  return (a: Assignment): number => {
+    const known = done.get(a);
+    if (known !== undefined) return known;
+    const found = rowLine(a);
+    done.set(a, found);
+    return found;
+  };
 });
 
-const assignmentDrawnLines = memoLast(
-  (assignments: BenchState['assignments'], drawn: DrawnBands, activeBandKey: string | null): Int32Array | null => {
-    const { levels, entries, bandOfLine, lines } = drawn;
-    if (!levels || !entries || !bandOfLine) return null;
-    const { byKey, done } = assignmentDrawnIndex(drawn, activeBandKey);
-    const rowLine = (a: Assignment): number => {
-      const list = byKey.get(`${assignmentBandKey({ activeBandKey }, a)}|${a.jUpper},${a.kUpper},${a.jLower},${a.kLower}`);
-      let best = -1;
-      for (const i of list ?? []) {
-        if (a.tagUpper !== undefined && !levelTagMatches(levels.tagUpper[i], a.tagUpper)) continue;
-        if (a.tagLower !== undefined && !levelTagMatches(levels.tagLower[i], a.tagLower)) continue;
-        if (a.lUpper !== undefined && levels.lUpper[i] !== a.lUpper) continue;
-        if (a.lLower !== undefined && levels.lLower[i] !== a.lLower) continue;
-        // Of lines the row leaves open (an untagged row of a split pair), the one nearest its observation.
-        if (best < 0 || Math.abs(lines.wavenumberCm1[i] - a.observedCm1) < Math.abs(lines.wavenumberCm1[best] - a.observedCm1)) best = i;
-      }
-      return best;
-    };
-    return Int32Array.from(assignments, (a) => {
-      const known = done.get(a);
-      if (known !== undefined) return known;
-      const found = rowLine(a);
-      done.set(a, found);
-      return found;
-    });
-  },
-);
+let drawnLinesLast: PerAssignment<(a: Assignment) => number, number[]> | null = null;
+let drawnLinesOut: Int32Array | null = null;
 
 /**
  * The drawn line each assignment names (index into selectDrawnBands' lines, −1 where its band is
  * switched off or its line is not drawn), parallel to the assignments; null in a single-band
  * session. Picks the same line as the row's calc (state/systemRowCalc): band, J, K, then the l and
- * tags it keeps, so each member of a split pair gets its own rung.
+ * tags it keeps, so each member of a split pair gets its own rung. Incremental as selectAssignmentLevels.
  */
 export function selectAssignmentDrawnLines(s: BenchState): Int32Array | null {
-  return assignmentDrawnLines(s.assignments, selectDrawnBands(s), s.activeBandKey);
+  const drawn = selectDrawnBands(s);
+  if (!drawn.levels || !drawn.entries || !drawn.bandOfLine) return null;
+  const lineOf = assignmentDrawnIndex(drawn, s.activeBandKey);
+  const last = drawnLinesLast;
+  if (last && drawnLinesOut && last.assignments === s.assignments && last.context === lineOf) return drawnLinesOut;
+  const out = listMapReuse(last?.context === lineOf ? last.assignments : null, last?.out ?? null, s.assignments, lineOf);
+  if (!(last && out === last.out && drawnLinesOut)) drawnLinesOut = Int32Array.from(out);
+  drawnLinesLast = { assignments: s.assignments, context: lineOf, out };
+  return drawnLinesOut;
 }

@@ -64,9 +64,10 @@ function queryFull(rows: readonly AssignmentRow[], q: TableQuery): { out: Assign
 
 /**
  * A memoised tableRowsQuery for one table: the same rows and query give the same array; rows that
- * only grew at the end (a new assignment) are placed into the previous result by binary search
- * instead of filtering and sorting every row again. Equal to tableRowsQuery (checked in
- * test/state/tableQuery.test.ts).
+ * only grew at the end (a new assignment), possibly with a few rows replaced in place by rows that
+ * sort the same (a blend flag set by the new row, an edited note), are placed into the previous
+ * result by binary search instead of filtering and sorting every row again. Equal to tableRowsQuery
+ * (checked in test/state/tableQuery.test.ts).
  * @returns the query function (keep one per table)
  */
 export function tableRowsQueryMemo(): (rows: readonly AssignmentRow[], q: TableQuery) => AssignmentRow[] {
@@ -86,12 +87,19 @@ export function tableRowsQueryMemo(): (rows: readonly AssignmentRow[], q: TableQ
   };
 }
 
-/** At most this many appended rows are inserted one by one; more are sorted afresh. */
+/** At most this many appended or replaced rows are placed one by one; more are sorted afresh. */
 const APPEND_MAX = 16;
+
+function sameKeys(cols: readonly ((r: AssignmentRow) => number)[], x: AssignmentRow, y: AssignmentRow): boolean {
+  for (const f of cols) if (!Object.is(f(x), f(y))) return false;
+  return true;
+}
 
 /**
  * The previous result with the rows appended since placed in it, or null when rows is not the
- * previous rows plus a few at the end.
+ * previous rows plus a few at the end, apart from a few rows replaced at their own index by rows
+ * with the same filter result and sort keys (they take the old row's place: same keys, same input
+ * index, so the same place in the order).
  */
 function appended(
   prevRows: readonly AssignmentRow[],
@@ -101,10 +109,26 @@ function appended(
 ): AssignmentRow[] | null {
   const n0 = prevRows.length;
   if (rows.length < n0 || rows.length - n0 > APPEND_MAX) return null;
-  for (let i = 0; i < n0; i++) if (rows[i] !== prevRows[i]) return null;
   const cols = KEY_COLUMNS[q.sortKey];
+  let out: AssignmentRow[] | null = null;
+  let nReplaced = 0;
+  for (let i = 0; i < n0; i++) {
+    const was = prevRows[i];
+    const r = rows[i];
+    if (r === was) continue;
+    if (++nReplaced > APPEND_MAX) return null;
+    const isShown = rowMatches(was, q);
+    if (isShown !== rowMatches(r, q)) return null;
+    if (!isShown) continue;
+    if (!sameKeys(cols, was, r)) return null;
+    out ??= prevOut.slice();
+    const at = out.indexOf(was);
+    // The same row object twice (never from the store): which copy is which is not known.
+    if (at < 0 || out.indexOf(was, at + 1) >= 0) return null;
+    out[at] = r;
+  }
+  out ??= prevOut.slice();
   const sign = q.sortDescending ? -1 : 1;
-  const out = prevOut.slice();
   for (let i = n0; i < rows.length; i++) {
     const r = rows[i];
     if (!rowMatches(r, q)) continue;

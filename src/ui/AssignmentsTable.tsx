@@ -8,14 +8,15 @@ import { benchUpdate } from '../state/actionsCore';
 import { viewSetTableQuery } from '../state/actionsView';
 import { quantaLabel, selectAssignmentRows, type AssignmentRow } from '../state/selectors';
 import { useBench } from '../state/store';
-import { selectAssignmentLevels } from '../state/selectorsSystem';
-import { transitionSymmetryText } from '../state/systemLevelLabels';
+import { selectAssignmentSymmetryOf, selectHasAssignmentSymmetry } from '../state/selectorsSystem';
 import { tableRowsQueryMemo } from '../state/tableQuery';
 import type { TableQuery } from '../state/viewSlice';
 import { LineLabel } from './LineLabel';
 import { NumberField } from './NumberField';
 
 const ROW_HEIGHT = 30;
+
+const NOTHING_TICKED: string[] = [];
 
 const COLUMNS: { key: TableQuery['sortKey'] | null; label: string; className?: string; title?: string }[] = [
   { key: null, label: '' },
@@ -260,14 +261,10 @@ function Filters() {
 
 export function AssignmentsTable() {
   const rows = useBench(selectAssignmentRows);
-  const assignments = useBench((s) => s.assignments);
-  const levels = useBench(selectAssignmentLevels);
-  // Tags the row was assigned with (A1/A2, s/a), else the species of the one line it names.
-  const symmetryById = useMemo(
-    () => new Map(assignments.map((a, i) => [a.id, transitionSymmetryText({ ...levels[i], tagUpper: a.tagUpper, tagLower: a.tagLower })])),
-    [assignments, levels],
-  );
-  const hasSymmetry = useMemo(() => [...symmetryById.values()].some((t) => t !== ''), [symmetryById]);
+  // The symmetry text of a row by its assignment (computed for the rows shown only), and whether any
+  // row has one: neither is a pass over every row when one is added.
+  const symmetryOf = useBench(selectAssignmentSymmetryOf);
+  const hasSymmetry = useBench(selectHasAssignmentSymmetry);
   const q = useBench((s) => s.tableQuery);
   const selectedId = useBench((s) => s.selectedAssignmentId);
   const shape = useBench((s) => s.model.shape);
@@ -283,10 +280,17 @@ export function AssignmentsTable() {
   const nFar = useMemo(() => rows.reduce((n, r) => n + (r.isFar ? 1 : 0), 0), [rows]);
   const [checked, setChecked] = useState<ReadonlySet<string>>(() => new Set());
   const anchor = useRef<string | null>(null);
-  // Ticks of rows that no longer exist (deleted, undone, a new session) are forgotten.
-  const present = useMemo(() => new Set(rows.map((r) => r.a.id)), [rows]);
-  const live = useMemo(() => [...checked].filter((id) => present.has(id)), [checked, present]);
-  const shownChecked = useMemo(() => shown.reduce((n, r) => n + (checked.has(r.a.id) ? 1 : 0), 0), [shown, checked]);
+  // Ticks of rows that no longer exist (deleted, undone, a new session) are forgotten (no pass over
+  // the rows while nothing is ticked).
+  const live = useMemo(() => {
+    if (checked.size === 0) return NOTHING_TICKED;
+    const present = new Set(rows.map((r) => r.a.id));
+    return [...checked].filter((id) => present.has(id));
+  }, [checked, rows]);
+  const shownChecked = useMemo(
+    () => (checked.size === 0 ? 0 : shown.reduce((n, r) => n + (checked.has(r.a.id) ? 1 : 0), 0)),
+    [shown, checked],
+  );
   // The rows in their shown order, read when a box is ticked: onCheck stays the same function, so a
   // new assignment does not re-render every memoised row for a new callback.
   const shownRef = useRef(shown);
@@ -414,7 +418,7 @@ export function AssignmentsTable() {
                   onCheck={onCheck}
                   shape={shape}
                   top={v.start}
-                  symmetry={symmetryById.get(shown[v.index].a.id) ?? ''}
+                  symmetry={hasSymmetry ? symmetryOf(shown[v.index].a) : ''}
                   hasSymmetry={hasSymmetry}
                 />
               ))}

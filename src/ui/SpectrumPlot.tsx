@@ -13,14 +13,14 @@ import { messagePost } from '../state/actionsCore';
 import { bandActivate } from '../state/actionsSystem';
 import { selectAssignmentRows, selectBand, selectPeaks, selectSimulated, type AssignmentRow } from '../state/selectors';
 import { assignmentBandKey, selectAssignmentDrawnLines, selectDrawnBands, type DrawnBands } from '../state/selectorsSystem';
-import { benchStore, useBench } from '../state/store';
+import { benchStore, useBench, type BenchState } from '../state/store';
 import { CandidateList } from './CandidateList';
 import { BandSwitches } from './BandSwitches';
 import { bandRowsBuild } from './plot/bandRows';
 import { ladderRowsBuild, type LadderRow } from './plot/ladderGeometry';
-import { ladderMarkersBuild, ladderSceneBuild } from './plot/ladderScene';
+import { ladderMarkersUpdate, ladderSceneBuild, type LadderMarkersState } from './plot/ladderScene';
 import { rungSymmetryTexts } from './plot/rungSymmetryLabels';
-import { peakLayerBase, peakLayerBuild } from './plot/peakLayer';
+import { peakLayerBase, peakLayerUpdate, type PeakLayerState } from './plot/peakLayer';
 import { spectrumFigure } from './plot/toTraces';
 import { PlotlyChart } from './PlotlyChart';
 import { PlotOverlay, type PlotOverlayHandle } from './PlotOverlay';
@@ -104,6 +104,18 @@ function onRungLine(lineIndex: number): void {
   rungClick({ ...q, band: e.band, species: e.species, ...levels });
 }
 
+/**
+ * Observed position of the selected row, cm^-1 (null when none). Run on every store change: the
+ * search starts at the end, where a new row (the usual selection) is.
+ */
+function selectSelectedObservedCm1(s: BenchState): number | null {
+  const id = s.selectedAssignmentId;
+  if (!id) return null;
+  const list = s.assignments;
+  for (let i = list.length - 1; i >= 0; i--) if (list[i].id === id) return list[i].observedCm1;
+  return null;
+}
+
 /** The ladder rows of the drawn bands (several-band session), or null for one band. */
 function drawnRows(drawn: DrawnBands, hiddenRows: string[], isDark: boolean): LadderRow[] | null {
   if (!drawn.entries || !drawn.bandLadders) return null;
@@ -128,9 +140,7 @@ export function SpectrumPlot() {
   const shape = useBench((s) => s.model.shape);
   const rowsA = useBench(selectAssignmentRows);
   const drawnLineOf = useBench(selectAssignmentDrawnLines);
-  const selectedObservedCm1 = useBench((s) =>
-    s.selectedAssignmentId ? (s.assignments.find((a) => a.id === s.selectedAssignmentId)?.observedCm1 ?? null) : null,
-  );
+  const selectedObservedCm1 = useBench(selectSelectedObservedCm1);
   const cursor = useBench((s) => s.cursor);
   const candidatePeakCm1 = useBench((s) => s.candidateTarget?.peakCm1 ?? null);
   const { showSimulated, showObsMinusSim, showPeaks } = useBench(
@@ -159,18 +169,20 @@ export function SpectrumPlot() {
     const indexOfKey = new Map(entries.map((e, i) => [e.key, i]));
     return (r: AssignmentRow) => indexOfKey.get(assignmentBandKey({ activeBandKey }, r.a) ?? '') ?? -1;
   }, [drawn.entries, activeBandKey]);
-  // Markers of the table's rows, with the rung of each assignment object kept while the scene and
-  // the band index stay (a new row then costs one lookup). In a several-band session each row's
-  // drawn line places its marker instead (the members of a split A1/A2 or s/a pair share J and K).
-  const markersOf = useMemo(() => {
-    const rungOfAssignment = new WeakMap<AssignmentRow['a'], number>();
-    return (rows: readonly AssignmentRow[], lineOf: Int32Array | null) => ladderMarkersBuild(rows, scene, tagOf, lineOf, rungOfAssignment);
-  }, [scene, tagOf]);
+  // Markers of the table's rows, updated from the previous ones (ladderMarkersUpdate: a new row is
+  // placed alone, the others' markers copied as blocks), with the rung of each assignment object kept
+  // while the scene and the band index stay. In a several-band session each row's drawn line places
+  // its marker instead (the members of a split A1/A2 or s/a pair share J and K).
+  const markersLast = useRef<LadderMarkersState | null>(null);
+  const rungOfAssignment = useRef(new WeakMap<AssignmentRow['a'], number>());
   // Rows and drawn lines are both parallel to the assignments (until the next render brings both anew).
-  const markers = useMemo(
-    () => markersOf(rowsA, drawnLineOf && drawnLineOf.length === rowsA.length ? drawnLineOf : null),
-    [markersOf, rowsA, drawnLineOf],
-  );
+  const markers = useMemo(() => {
+    const lineOf = drawnLineOf && drawnLineOf.length === rowsA.length ? drawnLineOf : null;
+    const last = markersLast.current;
+    if (last && (last.scene !== scene || last.tagOf !== tagOf)) rungOfAssignment.current = new WeakMap();
+    markersLast.current = ladderMarkersUpdate(last, rowsA, scene, tagOf, lineOf, rungOfAssignment.current);
+    return markersLast.current.markers;
+  }, [rowsA, drawnLineOf, scene, tagOf]);
   const cursorKey = cursor ? `${cursor.jUpper},${cursor.kUpper},${cursor.jLower},${cursor.kLower}` : '';
   const cursorLine = cursor ? (drawn.indexOf.get(drawn.entries ? `${activeBandKey}|${cursorKey}` : cursorKey) ?? -1) : -1;
   const levels = drawn.levels;
@@ -180,19 +192,17 @@ export function SpectrumPlot() {
   );
   const rungLabels = useMemo(() => rungSymmetryTexts(levels, drawn.lines.count), [levels, drawn.lines.count]);
   const overlayRef = useRef<PlotOverlayHandle>(null);
-  const assignedPeaks = useMemo(() => {
-    const m = new Map<string, string>();
-    for (const r of rowsA) if (r.a.peakId && !m.has(r.a.peakId)) m.set(r.a.peakId, r.labelHtml);
-    return m;
-  }, [rowsA]);
   const peakBase = useMemo(
     () => (showPeaks && peaks && trace ? peakLayerBase(peaks, trace, ordinate) : null),
     [showPeaks, peaks, trace, ordinate],
   );
-  const peakLayer = useMemo(
-    () => (peakBase ? peakLayerBuild(peakBase, assignedPeaks, peakIdAt, peakIdPosition) : null),
-    [peakBase, assignedPeaks],
-  );
+  // Updated from the previous layer: a new row marks its own peak only (peakLayerUpdate).
+  const peakLayerLast = useRef<PeakLayerState | null>(null);
+  const peakLayer = useMemo(() => {
+    if (!peakBase) return null;
+    peakLayerLast.current = peakLayerUpdate(peakLayerLast.current, peakBase, rowsA, peakIdAt, peakIdPosition);
+    return peakLayerLast.current.layer;
+  }, [peakBase, rowsA]);
   // What the plotly figure depends on; the visible range first (see isRangeOnly).
   const inputs: unknown[] = [
     xRange,

@@ -1,7 +1,10 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import type { Assignment } from '../../src/fit/assignment';
 import {
   assignmentDeviation,
   assignmentsAdd,
+  assignmentsMarkBlends,
   assignmentsRemove,
   assignmentsSplitAllowed,
   assignmentsUpdate,
@@ -44,6 +47,97 @@ describe('assignmentsAdd', () => {
     const frozen = Object.freeze([...list]);
     assignmentsAdd(frozen, { ...q2, observedCm1: 1000.2 }, 'a2');
     expect(frozen.length).toBe(1);
+  });
+});
+
+describe('assignmentsAdd on a long session (blend flags kept per peak between adds)', () => {
+  type Draft = Parameters<typeof assignmentsAdd>[1];
+  /** The definition: find the same quanta, replace or append, then flag every shared peak (one full pass). */
+  function addReference(list: readonly Assignment[], draft: Draft, id: string): { list: Assignment[]; id: string } {
+    const existing = list.find(
+      (a) => a.jUpper === draft.jUpper && a.kUpper === draft.kUpper && a.jLower === draft.jLower && a.kLower === draft.kLower,
+    );
+    if (existing) {
+      const out = list.map((a) =>
+        a === existing
+          ? {
+              ...a,
+              observedCm1: draft.observedCm1,
+              peakId: draft.peakId,
+              isBlended: false,
+              uncertaintyCm1: draft.uncertaintyCm1 ?? a.uncertaintyCm1,
+            }
+          : a,
+      );
+      return { list: assignmentsMarkBlends(out, existing.peakId), id: existing.id };
+    }
+    const added: Assignment = {
+      id,
+      jUpper: draft.jUpper,
+      kUpper: draft.kUpper,
+      jLower: draft.jLower,
+      kLower: draft.kLower,
+      observedCm1: draft.observedCm1,
+      uncertaintyCm1: draft.uncertaintyCm1 ?? 0.001,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+      ...(draft.peakId !== undefined ? { peakId: draft.peakId } : {}),
+    };
+    return { list: assignmentsMarkBlends([...list, added]), id };
+  }
+
+  type Op =
+    | { kind: 'add'; j: number; peak: number | null }
+    | { kind: 'untick'; at: number }
+    | { kind: 'remove'; at: number }
+    | { kind: 'undo'; back: number };
+  const opArb: fc.Arbitrary<Op> = fc.oneof(
+    // Few quanta and peaks: re-assignments and shared peaks are common.
+    { weight: 6, arbitrary: fc.record({ kind: fc.constant('add' as const), j: fc.nat(25), peak: fc.option(fc.nat(8), { nil: null }) }) },
+    // The user unticks "blend" on a shared peak: the next add flags it again, as a full pass does.
+    fc.record({ kind: fc.constant('untick' as const), at: fc.nat(100) }),
+    fc.record({ kind: fc.constant('remove' as const), at: fc.nat(100) }),
+    fc.record({ kind: fc.constant('undo' as const), back: fc.integer({ min: -2, max: 3 }) }),
+  );
+
+  it('equals the full pass after any sequence of adds, re-assigns, unticked blends, removals and undo/redo', () => {
+    let nBlended = 0;
+    fc.assert(
+      fc.property(fc.array(opArb, { minLength: 1, maxLength: 40 }), (ops) => {
+        const versions: Assignment[][] = [[]];
+        let at = 0;
+        let next = 0;
+        for (const op of ops) {
+          let list = versions[at];
+          if (op.kind === 'add') {
+            const draft: Draft = {
+              jUpper: op.j + 1,
+              kUpper: 1,
+              jLower: op.j,
+              kLower: 1,
+              observedCm1: 1000 + op.j,
+              ...(op.peak !== null ? { peakId: `p${op.peak}` } : {}),
+            };
+            const r = assignmentsAdd(list, draft, `a${next}`);
+            expect(r).toEqual(addReference(list, draft, `a${next++}`));
+            list = r.list;
+            nBlended += list.filter((a) => a.isBlended).length;
+          } else if (op.kind === 'untick' && list.length) {
+            const a = list[op.at % list.length];
+            if (a.isBlended) list = assignmentsUpdate(list, a.id, { isBlended: false });
+          } else if (op.kind === 'remove' && list.length) list = assignmentsRemove(list, [list[op.at % list.length].id]);
+          if (op.kind === 'undo') at = Math.min(Math.max(at - op.back, 0), versions.length - 1);
+          else {
+            versions.splice(at + 1, versions.length, list);
+            at = versions.length - 1;
+          }
+        }
+      }),
+      { numRuns: 300, seed: 20261203 },
+    );
+    // The sequences did make blends.
+    expect(nBlended).toBeGreaterThan(500);
   });
 });
 

@@ -185,6 +185,49 @@ describe('assignmentRowsUpdate', () => {
     );
   });
 
+  it('equals the row-by-row computation with undo and redo between the changes (earlier lists come back)', () => {
+    const undoArb = fc.oneof(
+      { weight: 3, arbitrary: opArb.map((op) => ({ op, back: 0 })) },
+      fc.record({ op: fc.constant({ kind: 'same' as const }), back: fc.integer({ min: -2, max: 3 }).filter((b) => b !== 0) }),
+    );
+    fc.assert(
+      fc.property(fc.array(undoArb, { minLength: 1, maxLength: 40 }), (steps) => {
+        const versions: AssignmentRowsInput[] = [start];
+        let at = 0;
+        let state: AssignmentRowsState | null = null;
+        const next = { n: 0 };
+        for (const { op, back } of steps) {
+          let input: AssignmentRowsInput;
+          if (back !== 0) {
+            // Undo (back > 0) or redo: an earlier or later version of the assignments, with the
+            // model, fit and tolerance as they are now (undo restores the list, not the fit).
+            at = Math.min(Math.max(at - back, 0), versions.length - 1);
+            input = { ...versions[versions.length - 1], assignments: versions[at].assignments };
+          } else {
+            input = applyOp(versions[versions.length - 1], op, next);
+            versions.splice(at + 1, versions.length, input);
+            at = versions.length - 1;
+          }
+          state = assignmentRowsUpdate(state, input);
+          expect(state.rows).toEqual(rowsFresh(input));
+        }
+      }),
+      { numRuns: 150, seed: 20261203 },
+    );
+  });
+
+  it('computes only the new row when one is appended to many (no prediction for the others)', () => {
+    const list = Array.from({ length: 400 }, (_, i) => assignmentOf(i % lines.count, `a${i}`, 1e-5 * i));
+    const s1 = assignmentRowsUpdate(null, { ...start, assignments: list });
+    const added = [...list, assignmentOf(3, 'a400', 0)];
+    const s2 = assignmentRowsUpdate(s1, { ...s1.input, assignments: added });
+    for (let i = 0; i < 400; i++) expect(s2.entries[i]).toBe(s1.entries[i]);
+    expect(s2.rows).toEqual(rowsFresh(s2.input));
+    // Undo: the shorter list again keeps every row object.
+    const s3 = assignmentRowsUpdate(s2, { ...s2.input, assignments: list });
+    for (let i = 0; i < 400; i++) expect(s3.rows[i]).toBe(s1.rows[i]);
+  });
+
   it('keeps the row objects of unchanged assignments when one is added, and the whole array when nothing changed', () => {
     const list = Array.from({ length: 30 }, (_, i) => assignmentOf(i, `a${i}`, 1e-4 * i));
     const fit = fits[0];

@@ -114,6 +114,7 @@ type TableOp =
   | { kind: 'append'; rows: AssignmentRow[] }
   | { kind: 'replace'; at: number; r: AssignmentRow }
   | { kind: 'remove'; at: number }
+  | { kind: 'touch'; at: number[]; rows: AssignmentRow[] }
   | { kind: 'query'; q: TableQuery }
   | { kind: 'same' };
 
@@ -121,6 +122,16 @@ const tableOpArb: fc.Arbitrary<TableOp> = fc.oneof(
   { weight: 4, arbitrary: fc.record({ kind: fc.constant('append' as const), rows: fc.array(rowArb, { minLength: 1, maxLength: 20 }) }) },
   fc.record({ kind: fc.constant('replace' as const), at: fc.nat(100), r: rowArb }),
   fc.record({ kind: fc.constant('remove' as const), at: fc.nat(100) }),
+  // Rows replaced in place by copies that sort the same (as a new row sets the blend flag of the
+  // rows on its peak), with rows appended in the same step.
+  {
+    weight: 2,
+    arbitrary: fc.record({
+      kind: fc.constant('touch' as const),
+      at: fc.array(fc.nat(100), { minLength: 1, maxLength: 3 }),
+      rows: fc.array(rowArb, { maxLength: 2 }),
+    }),
+  },
   fc.record({ kind: fc.constant('query' as const), q: queryArb }),
   fc.constant({ kind: 'same' as const }),
 );
@@ -143,7 +154,7 @@ describe('tableRowsQueryMemo', () => {
     expect(query(rows, base)).toBe(first);
   });
 
-  it('equals tableRowsQuery after any sequence of appends, replacements, removals and query changes', () => {
+  it('equals tableRowsQuery after any sequence of appends, replacements (with other sort keys or the same), removals and query changes', () => {
     fc.assert(
       fc.property(queryArb, fc.array(tableOpArb, { minLength: 1, maxLength: 30 }), (q0, ops) => {
         const query = tableRowsQueryMemo();
@@ -153,7 +164,10 @@ describe('tableRowsQueryMemo', () => {
           if (op.kind === 'append') rs = [...rs, ...op.rows];
           else if (op.kind === 'replace' && rs.length) rs = rs.map((r, i) => (i === op.at % rs.length ? op.r : r));
           else if (op.kind === 'remove' && rs.length) rs = rs.filter((_, i) => i !== op.at % rs.length);
-          else if (op.kind === 'query') q = op.q;
+          else if (op.kind === 'touch' && rs.length) {
+            const at = new Set(op.at.map((k) => k % rs.length));
+            rs = [...rs.map((r, i) => (at.has(i) ? { ...r, a: { ...r.a, isBlended: !r.a.isBlended }, isFar: !r.isFar } : r)), ...op.rows];
+          } else if (op.kind === 'query') q = op.q;
           else rs = [...rs];
           expect(query(rs, q)).toEqual(queryReference(rs, q));
         }

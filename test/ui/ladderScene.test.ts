@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { Assignment } from '../../src/fit/assignment';
 import { bandLadders } from '../../src/physics/bandLadders';
@@ -10,6 +11,8 @@ import {
   ladderHitTest,
   ladderLabelsPaint,
   ladderMarkersBuild,
+  ladderMarkersUpdate,
+  type LadderMarkersState,
   ladderSceneBuild,
   ladderScenePaint,
   ladderStrongestInView,
@@ -94,6 +97,145 @@ describe('ladderMarkersBuild with the drawn line of each row', () => {
     expect(m.nuCm1[0]).toBe(lines.wavenumberCm1[j]);
     // A row whose line is not drawn (−1) gets no marker.
     expect(ladderMarkersBuild([rowOf(a, lines, i)], scene, undefined, Int32Array.of(-1)).nuCm1.length).toBe(0);
+  });
+});
+
+describe('ladderMarkersUpdate', () => {
+  type MarkerOp =
+    | { kind: 'append'; lines: number[] }
+    | { kind: 'remove'; at: number }
+    | { kind: 'flag'; at: number }
+    | { kind: 'relink'; at: number; to: number; removeAt: number | null }
+    | { kind: 'undo'; back: number }
+    | { kind: 'scene'; hidden: boolean }
+    | { kind: 'lineOf'; on: boolean }
+    | { kind: 'tagOf' };
+  const opArb: fc.Arbitrary<MarkerOp> = fc.oneof(
+    {
+      weight: 5,
+      arbitrary: fc.record({ kind: fc.constant('append' as const), lines: fc.array(fc.nat(10_000), { minLength: 1, maxLength: 3 }) }),
+    },
+    fc.record({ kind: fc.constant('remove' as const), at: fc.nat(200) }),
+    fc.record({ kind: fc.constant('flag' as const), at: fc.nat(200) }),
+    // The same row object on another drawn line (a band switched off and on moves line indices).
+    // With a deletion in the same step, the moved row may sit in the list's unchanged tail.
+    fc.record({
+      kind: fc.constant('relink' as const),
+      at: fc.nat(200),
+      to: fc.integer({ min: -1, max: 10_000 }),
+      removeAt: fc.option(fc.nat(200), { nil: null }),
+    }),
+    fc.record({ kind: fc.constant('undo' as const), back: fc.integer({ min: -2, max: 3 }) }),
+    fc.record({ kind: fc.constant('scene' as const), hidden: fc.boolean() }),
+    fc.record({ kind: fc.constant('lineOf' as const), on: fc.boolean() }),
+    fc.constant({ kind: 'tagOf' as const }),
+  );
+
+  it('equals ladderMarkersBuild after any sequence of appends, deletions, flag changes, moved lines, undo/redo, hidden rows and line maps', () => {
+    const { lines, rows: ladderRows, scene } = setUp();
+    // The same lines with one row of rungs hidden (another scene).
+    const hiddenScene = ladderSceneBuild(
+      ladderRowsBuild(bandLadders(lines, model.shape), model.shape, new Set([ladderRows[1].key])),
+      lines,
+      false,
+    );
+    const assignmentAt = (i: number, id: string): Assignment => ({
+      id,
+      jUpper: lines.jUpper[i],
+      kUpper: lines.kUpper[i],
+      jLower: lines.jLower[i],
+      kLower: lines.kLower[i],
+      observedCm1: lines.wavenumberCm1[i],
+      uncertaintyCm1: 0.001,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+    });
+    let nMarkers = 0;
+    fc.assert(
+      fc.property(fc.array(opArb, { minLength: 1, maxLength: 30 }), (ops) => {
+        let state: LadderMarkersState | null = null;
+        let current = scene;
+        let withLineOf = false;
+        let tagOf: ((r: AssignmentRow) => number) | undefined = undefined;
+        // Each row's line index (the drawn-line map), kept beside the rows.
+        const versions: { rows: AssignmentRow[]; line: number[] }[] = [{ rows: [], line: [] }];
+        let at = 0;
+        let next = 0;
+        for (const op of ops) {
+          let { rows, line } = versions[at];
+          const isListChange = op.kind === 'append' || op.kind === 'remove' || op.kind === 'flag' || op.kind === 'relink';
+          if (op.kind === 'append') {
+            // Some rows name a line past the end (not predicted: no rung), some a line not drawn (−1).
+            const picked = op.lines.map((k) => k % (lines.count + 3));
+            rows = [
+              ...rows,
+              ...picked.map((i) => rowOf(assignmentAt(Math.min(i, lines.count - 1), `a${next++}`), lines, Math.min(i, lines.count - 1))),
+            ];
+            line = [...line, ...picked.map((i) => (i < lines.count ? i : -1))];
+          } else if (op.kind === 'remove' && rows.length) {
+            const k = op.at % rows.length;
+            rows = rows.filter((_, i) => i !== k);
+            line = line.filter((_, i) => i !== k);
+          } else if (op.kind === 'flag' && rows.length) {
+            const k = op.at % rows.length;
+            rows = rows.map((r, i) => (i === k ? { ...r, isFar: !r.isFar } : r));
+          } else if (op.kind === 'relink' && rows.length) {
+            const k = op.at % rows.length;
+            line = line.map((x, i) => (i === k ? (op.to < 0 ? -1 : op.to % lines.count) : x));
+            if (op.removeAt !== null) {
+              const r = op.removeAt % rows.length;
+              rows = rows.filter((_, i) => i !== r);
+              line = line.filter((_, i) => i !== r);
+            }
+          } else if (op.kind === 'undo') at = Math.min(Math.max(at - op.back, 0), versions.length - 1);
+          else if (op.kind === 'scene') current = op.hidden ? hiddenScene : scene;
+          else if (op.kind === 'lineOf') withLineOf = op.on;
+          else if (op.kind === 'tagOf') tagOf = tagOf ? undefined : () => 0;
+          if (isListChange) {
+            versions.splice(at + 1, versions.length, { rows, line });
+            at = versions.length - 1;
+          } else ({ rows, line } = versions[at]);
+          const lineOf = withLineOf ? Int32Array.from(line) : null;
+          state = ladderMarkersUpdate(state, rows, current, tagOf, lineOf);
+          expect(state.markers).toEqual(ladderMarkersBuild(rows, current, tagOf, lineOf));
+          nMarkers += state.markers.rows.length;
+        }
+      }),
+      { numRuns: 200, seed: 20261203 },
+    );
+    expect(nMarkers).toBeGreaterThan(1000);
+  });
+
+  it('places only the new row when one is appended (the others are copied)', () => {
+    const { lines, scene } = setUp();
+    const mk = (i: number): AssignmentRow =>
+      rowOf(
+        {
+          id: `a${i}`,
+          jUpper: lines.jUpper[i],
+          kUpper: lines.kUpper[i],
+          jLower: lines.jLower[i],
+          kLower: lines.kLower[i],
+          observedCm1: lines.wavenumberCm1[i],
+          uncertaintyCm1: 0.001,
+          isBlended: false,
+          isExcluded: false,
+          note: '',
+        },
+        lines,
+        i,
+      );
+    const rows = Array.from({ length: 50 }, (_, i) => mk(i));
+    let looked = 0;
+    const tagOf = () => (looked++, 0);
+    const s1 = ladderMarkersUpdate(null, rows, scene, tagOf);
+    expect(looked).toBe(50);
+    const s2 = ladderMarkersUpdate(s1, [...rows, mk(60)], scene, tagOf);
+    expect(looked).toBe(51);
+    expect(s2.markers).toEqual(ladderMarkersBuild([...rows, mk(60)], scene));
+    // The same inputs again: the same state.
+    expect(ladderMarkersUpdate(s2, s2.rows, scene, tagOf)).toBe(s2);
   });
 });
 

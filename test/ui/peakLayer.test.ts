@@ -1,15 +1,21 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { peaksFind, type PeakList } from '../../src/analysis/peaksFind';
+import type { Assignment } from '../../src/fit/assignment';
 import { peakIdAt, peakIdPosition } from '../../src/state/assignLogic';
+import type { AssignmentRow } from '../../src/state/selectors';
 import type { LadderView } from '../../src/ui/plot/ladderScene';
 import {
   PEAK_MARKERS_MAX,
   peakLayerBase,
+  peakLayerAssignedOf,
   peakLayerBuild,
   peakLayerHitTest,
   peakLayerPaint,
   peakLayerPixel,
   peakLayerTipHtml,
+  peakLayerUpdate,
+  type PeakLayerState,
   peakLayerVisible,
 } from '../../src/ui/plot/peakLayer';
 import { plotTheme } from '../../src/ui/plot/plotColours';
@@ -145,5 +151,112 @@ describe('peakLayer', () => {
     expect(peakLayerHitTest(layer, drawn, view, q.xPx, q.yPx + 40)).toBe(-1);
     // A peak that is not drawn is not hit.
     expect(peakLayerHitTest(layer, Int32Array.from([1]), view, q.xPx, q.yPx)).toBe(-1);
+  });
+});
+
+describe('peakLayerUpdate', () => {
+  /** A table row on peak `peak` (an index into the peaks, or −1: no peak, −2: an id that is no peak). */
+  function rowOn(peaks: PeakList, peak: number, id: string, label: string): AssignmentRow {
+    const a: Assignment = {
+      id,
+      jUpper: 1,
+      kUpper: 0,
+      jLower: 0,
+      kLower: 0,
+      observedCm1: 1000,
+      uncertaintyCm1: 0.001,
+      isBlended: false,
+      isExcluded: false,
+      note: '',
+      ...(peak >= 0 ? { peakId: peakIdAt(peaks.wavenumberCm1[peak]) } : peak === -2 ? { peakId: 'pk-none' } : {}),
+    };
+    return {
+      a,
+      labelAscii: label,
+      labelHtml: label,
+      deltaJ: 1,
+      deltaK: 0,
+      calcCm1: 1000,
+      omcCm1: 0,
+      omcSigma: null,
+      isFar: false,
+      isOutlier: false,
+    };
+  }
+
+  type PeakOp =
+    | { kind: 'append'; peaks: number[] }
+    | { kind: 'remove'; at: number }
+    | { kind: 'move'; at: number; peak: number }
+    | { kind: 'flag'; at: number }
+    | { kind: 'undo'; back: number }
+    | { kind: 'base' };
+
+  it('equals peakLayerBuild (marks and tooltip labels) after any sequence of assigns, blends, deletions, moves, undo/redo and new peak lists', () => {
+    const { trace, peaks } = setUp();
+    const bases = [peakLayerBase(peaks, trace, 'absorbance'), peakLayerBase(peaks, trace, 'transmittance')];
+    // Few peaks so rows share them (blends); now and then a row with no peak or an id of no peak.
+    const peakArb = fc.integer({ min: -2, max: Math.min(12, peaks.count - 1) });
+    const opArb: fc.Arbitrary<PeakOp> = fc.oneof(
+      {
+        weight: 5,
+        arbitrary: fc.record({ kind: fc.constant('append' as const), peaks: fc.array(peakArb, { minLength: 1, maxLength: 3 }) }),
+      },
+      fc.record({ kind: fc.constant('remove' as const), at: fc.nat(100) }),
+      fc.record({ kind: fc.constant('move' as const), at: fc.nat(100), peak: peakArb }),
+      fc.record({ kind: fc.constant('flag' as const), at: fc.nat(100) }),
+      fc.record({ kind: fc.constant('undo' as const), back: fc.integer({ min: -2, max: 3 }) }),
+      fc.constant({ kind: 'base' as const }),
+    );
+    fc.assert(
+      fc.property(fc.array(opArb, { minLength: 1, maxLength: 30 }), (ops) => {
+        let state: PeakLayerState | null = null;
+        let base = 0;
+        const versions: AssignmentRow[][] = [[]];
+        let at = 0;
+        let next = 0;
+        for (const op of ops) {
+          let rows = versions[at];
+          if (op.kind === 'append') rows = [...rows, ...op.peaks.map((p) => rowOn(peaks, p, `a${next}`, `label ${next++}`))];
+          else if (op.kind === 'remove' && rows.length) rows = rows.filter((_, i) => i !== op.at % rows.length);
+          else if (op.kind === 'move' && rows.length) {
+            const k = op.at % rows.length;
+            rows = rows.map((r, i) => (i === k ? rowOn(peaks, op.peak, r.a.id, r.labelHtml) : r));
+          } else if (op.kind === 'flag' && rows.length) {
+            // A blend flag set on a row (a new object on the same peak).
+            const k = op.at % rows.length;
+            rows = rows.map((r, i) => (i === k ? { ...r, a: { ...r.a, isBlended: !r.a.isBlended } } : r));
+          } else if (op.kind === 'undo') at = Math.min(Math.max(at - op.back, 0), versions.length - 1);
+          else if (op.kind === 'base') base = 1 - base;
+          if (op.kind === 'undo') rows = versions[at];
+          else if (op.kind !== 'base') {
+            versions.splice(at + 1, versions.length, rows);
+            at = versions.length - 1;
+          }
+          state = peakLayerUpdate(state, bases[base], rows, peakIdAt, peakIdPosition);
+          const full = peakLayerBuild(bases[base], peakLayerAssignedOf(rows), peakIdAt, peakIdPosition);
+          expect(state.layer.isAssigned).toEqual(full.isAssigned);
+          expect(state.layer.y).toBe(full.y);
+          for (let i = 0; i < 14 && i < peaks.count; i++)
+            expect(state.layer.assignedLabel(peaks.wavenumberCm1[i])).toBe(full.assignedLabel(peaks.wavenumberCm1[i]));
+        }
+      }),
+      { numRuns: 200, seed: 20261203 },
+    );
+  });
+
+  it('marks only the peak of a row appended', () => {
+    const { trace, peaks } = setUp();
+    const base = peakLayerBase(peaks, trace, 'absorbance');
+    const rows = Array.from({ length: 8 }, (_, i) => rowOn(peaks, i, `a${i}`, `l${i}`));
+    let formatted = 0;
+    const counting = (nu: number) => (formatted++, peakIdAt(nu));
+    const s1 = peakLayerUpdate(null, base, rows, counting, peakIdPosition);
+    const before = formatted;
+    const s2 = peakLayerUpdate(s1, base, [...rows, rowOn(peaks, 9, 'a9', 'l9')], counting, peakIdPosition);
+    // Three neighbours of one peak looked at, not of all nine.
+    expect(formatted - before).toBeLessThanOrEqual(3);
+    expect(s2.layer.isAssigned[9]).toBe(1);
+    expect(s2.layer.isAssigned[8]).toBe(0);
   });
 });

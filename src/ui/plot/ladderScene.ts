@@ -11,6 +11,7 @@ import type { AssignmentRow } from '../../state/selectors';
 import { ladderLabelTemplate, rungExtent, type LadderRow } from './ladderGeometry';
 import { ladderColour, type PlotTheme } from './plotColours';
 import { sortedLowerBound } from './traceDecimate';
+import { listAlign } from '../../state/memo';
 
 /** Rungs of one colour and line width, drawn as one canvas path. */
 export interface LadderStyleGroup {
@@ -330,6 +331,144 @@ export function ladderMarkersBuild(
   }
   const m = kept.length;
   return { nuCm1: nu.slice(0, m), y: y.slice(0, m), isFlagged: flag.slice(0, m), lineIndex: line.slice(0, m), rows: kept };
+}
+
+/** Markers and what the next ladderMarkersUpdate may reuse. */
+export interface LadderMarkersState {
+  markers: LadderMarkers;
+  /** The inputs they were built from. */
+  rows: readonly AssignmentRow[];
+  scene: LadderScene;
+  tagOf: ((row: AssignmentRow) => number) | undefined;
+  lineOf: Int32Array | null;
+  /** Rung of each row (−1: none), parallel to rows. */
+  rungAt: Int32Array;
+  /** Number of markers of the rows before each row (n + 1 entries). */
+  keptBefore: Int32Array;
+}
+
+/** The rung of one row (see ladderMarkersBuild). */
+function markerRung(
+  r: AssignmentRow,
+  i: number,
+  scene: LadderScene,
+  tagOf: ((row: AssignmentRow) => number) | undefined,
+  lineOf: Int32Array | null,
+  rungOfAssignment: WeakMap<AssignmentRow['a'], number> | undefined,
+): number {
+  if (lineOf) {
+    const line = lineOf[i];
+    return line >= 0 && line < scene.rungOfLine.length ? scene.rungOfLine[line] : -1;
+  }
+  let q = rungOfAssignment?.get(r.a);
+  if (q === undefined) {
+    const tag = tagOf ? tagOf(r) : 0;
+    q = tag < 0 ? -1 : (scene.rungOf.get(quantaNumber(r.a.jUpper, r.a.kUpper, r.a.jLower, r.a.kLower) + tag * QUANTA_TAG_STEP) ?? -1);
+    rungOfAssignment?.set(r.a, q);
+  }
+  return q;
+}
+
+/**
+ * ladderMarkersBuild for new rows, reusing the previous markers: with the same scene, tagOf and
+ * kind of lineOf, the rows in the unchanged head and tail of the list (by identity, memo/listAlign,
+ * and with the same drawn line) keep their markers, copied as blocks; only the rows between them are
+ * placed (one lookup each). Appending a row to 10,000 so costs a few block copies, no lookup per
+ * row. Equal to ladderMarkersBuild (checked in test/ui/ladderScene.test.ts).
+ * @param prev the state of the previous call, or null
+ * @param rowOfAssignment see ladderMarkersBuild's rungOfAssignment (used for the rows placed anew)
+ */
+export function ladderMarkersUpdate(
+  prev: LadderMarkersState | null,
+  rows: readonly AssignmentRow[],
+  scene: LadderScene,
+  tagOf?: (row: AssignmentRow) => number,
+  lineOf?: Int32Array | null,
+  rungOfAssignment?: WeakMap<AssignmentRow['a'], number>,
+): LadderMarkersState {
+  const lines = lineOf ?? null;
+  const n = rows.length;
+  let prefix = 0;
+  let suffix = 0;
+  const old = prev && prev.scene === scene && prev.tagOf === tagOf && (prev.lineOf === null) === (lines === null) ? prev : null;
+  if (old) {
+    if (old.rows === rows && old.lineOf === lines) return old;
+    ({ prefix, suffix } = listAlign(old.rows, rows));
+    const n0 = old.rows.length;
+    if (lines && old.lineOf) {
+      // A row keeps its marker only with the same drawn line.
+      let k = 0;
+      while (k < prefix && lines[k] === old.lineOf[k]) k++;
+      prefix = k;
+      k = 0;
+      while (k < suffix && lines[n - 1 - k] === old.lineOf[n0 - 1 - k]) k++;
+      suffix = k;
+    }
+  }
+  const n0 = old ? old.rows.length : 0;
+  const rungAt = new Int32Array(n);
+  const keptBefore = new Int32Array(n + 1);
+  if (old) {
+    rungAt.set(old.rungAt.subarray(0, prefix));
+    keptBefore.set(old.keptBefore.subarray(0, prefix + 1));
+  }
+  for (let i = prefix; i < n - suffix; i++) {
+    // Between head and tail, a row at its old index with the same object (and line) keeps its rung.
+    const isKept = old !== null && i < n0 - suffix && old.rows[i] === rows[i] && (!lines || lines[i] === old.lineOf![i]);
+    const q = isKept ? old.rungAt[i] : markerRung(rows[i], i, scene, tagOf, lines, rungOfAssignment);
+    rungAt[i] = q;
+    keptBefore[i + 1] = keptBefore[i] + (q >= 0 ? 1 : 0);
+  }
+  for (let i = n - suffix; i < n; i++) {
+    rungAt[i] = old!.rungAt[i - n + n0];
+    keptBefore[i + 1] = keptBefore[i] + (rungAt[i] >= 0 ? 1 : 0);
+  }
+  const m = keptBefore[n];
+  const nu = new Float64Array(m);
+  const y = new Float64Array(m);
+  const flag = new Uint8Array(m);
+  const line = new Int32Array(m);
+  const kept: AssignmentRow[] = new Array(m);
+  const head = keptBefore[prefix];
+  if (old && head > 0) {
+    const pm = old.markers;
+    nu.set(pm.nuCm1.subarray(0, head));
+    y.set(pm.y.subarray(0, head));
+    flag.set(pm.isFlagged.subarray(0, head));
+    line.set(pm.lineIndex.subarray(0, head));
+    for (let k = 0; k < head; k++) kept[k] = pm.rows[k];
+  }
+  for (let i = prefix; i < n - suffix; i++) {
+    const q = rungAt[i];
+    if (q < 0) continue;
+    const k = keptBefore[i];
+    const r = rows[i];
+    nu[k] = scene.nuCm1[q];
+    y[k] = rungTipAt(scene, q);
+    flag[k] = r.isFar || r.isOutlier ? 1 : 0;
+    line[k] = scene.lineIndex[q];
+    kept[k] = r;
+  }
+  const tail = m - keptBefore[n - suffix];
+  if (old && tail > 0) {
+    const pm = old.markers;
+    const from = pm.nuCm1.length - tail;
+    const to = m - tail;
+    nu.set(pm.nuCm1.subarray(from), to);
+    y.set(pm.y.subarray(from), to);
+    flag.set(pm.isFlagged.subarray(from), to);
+    line.set(pm.lineIndex.subarray(from), to);
+    for (let k = 0; k < tail; k++) kept[to + k] = pm.rows[from + k];
+  }
+  return {
+    markers: { nuCm1: nu, y, isFlagged: flag, lineIndex: line, rows: kept },
+    rows,
+    scene,
+    tagOf,
+    lineOf: lines,
+    rungAt,
+    keptBefore,
+  };
 }
 
 /** Data → CSS px maps of a view. */

@@ -5,6 +5,8 @@
  */
 import type { PeakList } from '../../analysis/peaksFind';
 import type { Trace } from '../../io/trace';
+import { listAlign } from '../../state/memo';
+import type { AssignmentRow } from '../../state/selectors';
 import { sortedLowerBound } from '../../state/sortedSearch';
 import { assignedDotsFinish, viewMaps, type LadderPaintContext, type LadderView } from './ladderScene';
 import type { PlotTheme } from './plotColours';
@@ -92,6 +94,94 @@ export function peakLayerBuild(
     for (const j of [k - 1, k, k + 1]) if (j >= 0 && j < nu.length && peakId(nu[j]) === id) isAssigned[j] = 1;
   }
   return { ...base, isAssigned, assignedLabel: (positionCm1) => assigned.get(peakId(positionCm1)) };
+}
+
+/** A peak layer and what the next peakLayerUpdate may reuse. */
+export interface PeakLayerState {
+  layer: PeakLayer;
+  base: PeakLayerBase;
+  /** The assignment rows it marks. */
+  rows: readonly AssignmentRow[];
+}
+
+/** Peak id → label markup of the first row on that peak (what peakLayerBuild takes). */
+export function peakLayerAssignedOf(rows: readonly AssignmentRow[]): Map<string, string> {
+  const m = new Map<string, string>();
+  for (const r of rows) if (r.a.peakId && !m.has(r.a.peakId)) m.set(r.a.peakId, r.labelHtml);
+  return m;
+}
+
+/** Mark the peak of `id` in isAssigned (see peakLayerBuild). */
+function peakMark(
+  isAssigned: Uint8Array,
+  nu: Float64Array,
+  id: string,
+  peakId: (positionCm1: number) => string,
+  idPositionCm1: (id: string) => number,
+): void {
+  const at = idPositionCm1(id);
+  if (!Number.isFinite(at)) return;
+  const k = sortedLowerBound(nu, at);
+  for (const j of [k - 1, k, k + 1]) if (j >= 0 && j < nu.length && peakId(nu[j]) === id) isAssigned[j] = 1;
+}
+
+/**
+ * The layer of peakLayerBuild(base, peakLayerAssignedOf(rows)) made from the previous one where it
+ * can: with the same base, rows appended or replaced by rows on the same peak (memo/listAlign) only
+ * mark their own peaks; a row that left its peak (deleted, moved, undone) rebuilds the layer. The
+ * tooltip's labels are looked up in a map built on the first hover, not on every change. Equal to
+ * peakLayerBuild (checked in test/ui/peakLayer.test.ts).
+ * @param prev the state of the previous call, or null
+ */
+export function peakLayerUpdate(
+  prev: PeakLayerState | null,
+  base: PeakLayerBase,
+  rows: readonly AssignmentRow[],
+  peakId: (positionCm1: number) => string,
+  idPositionCm1: (id: string) => number,
+): PeakLayerState {
+  if (prev && prev.base === base && prev.rows === rows) return prev;
+  const nu = base.nuCm1;
+  let isAssigned: Uint8Array | null = null;
+  if (prev && prev.base === base) {
+    const old = prev.rows;
+    const n0 = old.length;
+    const n = rows.length;
+    const { prefix, suffix } = listAlign(old, rows);
+    const added: string[] = [];
+    let isLeft = false;
+    for (let i = prefix; i < Math.max(n0, n) - suffix && !isLeft; i++) {
+      const was = i < n0 - suffix ? old[i].a.peakId : undefined;
+      const now = i < n - suffix ? rows[i].a.peakId : undefined;
+      if (was === now) continue;
+      if (was) isLeft = true;
+      else if (now) added.push(now);
+    }
+    if (!isLeft) {
+      isAssigned = prev.layer.isAssigned;
+      if (added.length > 0) {
+        isAssigned = isAssigned.slice();
+        for (const id of added) peakMark(isAssigned, nu, id, peakId, idPositionCm1);
+      }
+    }
+  }
+  if (!isAssigned) {
+    isAssigned = new Uint8Array(nu.length);
+    const seen = new Set<string>();
+    for (const r of rows) {
+      const id = r.a.peakId;
+      if (!id || seen.has(id)) continue;
+      seen.add(id);
+      peakMark(isAssigned, nu, id, peakId, idPositionCm1);
+    }
+  }
+  let labels: Map<string, string> | null = null;
+  const layer: PeakLayer = {
+    ...base,
+    isAssigned,
+    assignedLabel: (positionCm1) => (labels ??= peakLayerAssignedOf(rows)).get(peakId(positionCm1)),
+  };
+  return { layer, base, rows };
 }
 
 /** Tooltip markup of a peak: position, height, SNR, width, blend flag and its assignment. */
