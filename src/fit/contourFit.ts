@@ -45,6 +45,12 @@ export interface ContourFitInput {
    * from the residuals). @default a robust estimate from second differences of the region
    */
   noiseSigma?: number;
+  /**
+   * How the instrument is applied: 'auto' chooses the transmittance route when the lines are optically
+   * thick at their own width; 'linear' holds the weak-absorption limit (absorbance convolved with the
+   * instrument line shape), for a trace whose absolute line strengths are unknown. @default 'auto'
+   */
+  route?: InstrumentRoute | 'auto';
   /** Called after each iteration of each stage. */
   onProgress?: (stage: number, iteration: number, rms: number) => void;
   /** Polled once per iteration. */
@@ -226,7 +232,8 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   } else {
     baseline.set(linear.baseline);
   }
-  route = bandAt(model, lorentz, scale, 'auto').route;
+  const routeAsked = input.route ?? 'auto';
+  route = routeAsked === 'auto' ? bandAt(model, lorentz, scale, 'auto').route : routeAsked;
 
   const evaluate = (layout: Layout, p: Float64Array, out: Float64Array): void => {
     const mdl: BandModel = { ...model, lower: { ...model.lower }, upper: { ...model.upper } };
@@ -354,7 +361,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   }
   // The route was chosen from the start scale; if the fitted scale makes the lines optically thick
   // (or thin), fit once more the right way.
-  const finalRoute = bandAt(model, lorentz, scale, 'auto').route;
+  const finalRoute = routeAsked === 'auto' ? bandAt(model, lorentz, scale, 'auto').route : routeAsked;
   if (finalRoute !== route) {
     route = finalRoute;
     solution = runStage(3, layout);
