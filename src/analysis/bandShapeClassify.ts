@@ -607,6 +607,8 @@ export function bandShapeClassify(
   // classify (seeds 0–59) true Σ–Σ bands gave improvement ≤ 0.02 and Q share ≤ 0.005, PQR bands read as
   // PR gave 0.40–0.92 and 0.04–0.31 (two gave 0); the thresholds sit between.
   let templateQShare = NaN;
+  // Set when the only doubt is whether a weak Q branch is there (PR or PQR), which leaves B alone.
+  let lowOnlyForWeakQ = false;
   if (profile === 'PR') {
     const sGuess = twoLobes ? 0.5 * (outerLobes(lobes, centre0)[1].x - outerLobes(lobes, centre0)[0].x) : width / 4.3;
     const t = bandCentreTemplate(x, env, origin, sGuess);
@@ -617,6 +619,14 @@ export function bandShapeClassify(
       confidence = t.improvement >= 0.5 && t.qShare >= 0.1 ? 'medium' : 'low';
       evidence.push(
         `but a central Q component takes up ${Math.round(100 * t.improvement)} % of a blurred two-lobe P/R template's misfit and holds ${Math.round(100 * t.qShare)} % of the band: the centre is filled by a weak or smeared Q branch, so PQR`,
+      );
+    } else if (t.improvement >= 0.1 && t.qShare >= 0.02) {
+      // Between what true Σ–Σ bands gave (≤ 0.02 and ≤ 0.005) and the PQR thresholds: undecided.
+      // B does not depend on it (J lines or the P/R wings are the same either way), so it is kept.
+      if (confidence !== 'low') lowOnlyForWeakQ = true;
+      confidence = 'low';
+      evidence.push(
+        `a central Q component takes up ${Math.round(100 * t.improvement)} % of a blurred two-lobe P/R template's misfit and holds ${Math.round(100 * t.qShare)} % of the band: short of a clear Q branch, but more than Σ–Σ bands leave (≤ 2 % and ≤ 0.5 % on the seeded bands), so PR or PQR is undecided`,
       );
     } else {
       evidence.push(
@@ -762,7 +772,7 @@ export function bandShapeClassify(
   let envelopeRange: [number, number] | null = null;
   let envelopeHeld = false;
   const envelopeType = type === 'linear-parallel' || (type === 'symmetric-top-parallel' && profile === 'PQR');
-  if (envelopeType && bMethod !== 'line-spacing' && confidence !== 'low') {
+  if (envelopeType && bMethod !== 'line-spacing' && (confidence !== 'low' || lowOnlyForWeakQ)) {
     const held = type === 'symmetric-top-parallel';
     const fit = bandEnvelopeFit({
       x,
@@ -929,7 +939,7 @@ export function bandShapeClassify(
   let bLow: number | undefined;
   let bHigh: number | undefined;
   let bDetermined: boolean | undefined;
-  if (B !== null && confidence === 'low') {
+  if (B !== null && confidence === 'low' && !lowOnlyForWeakQ) {
     // A B read off a profile that may be wrong (e.g. a comb of Q branches taken for J lines) is no
     // better than the reading: not given.
     evidence.push(`B is withheld: ${B.toPrecision(3)} cm^-1 would rest on a profile read with low confidence`);

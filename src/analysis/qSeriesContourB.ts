@@ -71,10 +71,13 @@ const Q_SERIES_CONTOUR_B_RELATIVE = 0.1;
  * whose comb fixes U′(1−ζ) − B′ (the Q-branch spacing) and the comb's phase, so the fit refines them
  * near there; B″ and U″ then follow from the sub-bands' P/R wings and the Q-branch heights over K,
  * and B′ − B″, U′ − U″ from the shading of each Q branch (which the rigid envelope lacks).
+ * Two routes from the envelope's start, everything floated and U″ held at the envelope's value
+ * (then refined with it floated when that route reached the lower residual); the lower residual wins.
  * σ from the residuals (contourFit). B is called determined only when the fit converged, leaves at
- * most Q_SERIES_CONTOUR_RMS_OVER_NOISE × the noise (a fit caught in a false minimum — the rigid start
- * on the wrong side — leaves more: 1.5–10× on the seeded bands of bench:contour classify, against
- * 0.95–1.05 where it found the band) and B ± 2σ lies within ±10 %.
+ * most Q_SERIES_CONTOUR_RMS_OVER_NOISE × the noise (a fit caught in a false minimum, the rigid start
+ * on the wrong side, left 1.35–4.7× on the tuning seeds of bench:contour classify against 0.6–1.2
+ * where it found the band), no other route reaches a B outside B ± 2σ with a residual about as
+ * small, and B ± 2σ lies within ±10 %.
  * Source: contourFit (Levenberg–Marquardt, instrument line shape per Griffiths & de Haseth (2007)
  * ch. 2); perpendicular-band structure, Herzberg II (1945) ch. IV.
  * @returns the fit, or null when the contour fit fails (the reason is then not B's)
@@ -89,8 +92,15 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
   const c2T = SECOND_RADIATION_CM_K / T;
   const constants: Record<string, number> = { B, [u]: U };
   const upperStart = { ...constants, origin: start.origin, zeta: start.zeta };
+  const floatAll = ['upper.origin', 'upper.B', 'lower.B', `upper.${u}`, `lower.${u}`, 'upper.zeta', 'scale'];
+  const floatHeldU = floatAll.filter((k) => k !== `lower.${u}`);
+  interface Run {
+    fit: ContourFitResult;
+    /** Lower-state B the model's J range was sized for, cm^-1. */
+    bSized: number;
+  }
   // One contour fit from the given constants, with the model's J and K range sized for them.
-  const fitFrom = (lower: Record<string, number>, upper: Record<string, number>): ContourFitResult | null => {
+  const fitFrom = (lower: Record<string, number>, upper: Record<string, number>, float: string[]): Run | null => {
     const bSized = lower.B;
     const uMinusB = Math.abs(lower[u] - lower.B);
     // Thermal reach: populations exp(−c2 B J²/T) and exp(−c2 (U − B) K²/T) down to ~e^−10 with B
@@ -108,7 +118,7 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
       spinWeights: [1],
     };
     try {
-      return contourFit({
+      const fit = contourFit({
         model,
         wavenumberCm1: x,
         absorbance: y,
@@ -117,34 +127,50 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
         opdCm: input.opdCm,
         apodization: input.apodization,
         massAmu: input.massAmu ?? 50,
-        float: ['upper.origin', 'upper.B', 'lower.B', `upper.${u}`, `lower.${u}`, 'upper.zeta', 'scale'],
+        float,
         baselineDegree: 2,
         noiseSigma: input.noiseSigma,
         route: 'linear',
       });
+      const b = fit.parameters['lower.B'];
+      return b && b.value > 0 ? { fit, bSized } : null;
     } catch {
       return null;
     }
   };
-  let fit = fitFrom(constants, upperStart);
-  let bSized = B;
-  // A B that moved far from the start (the rigid envelope's B can be off by a factor 2) is fitted
-  // once more with the J and K range sized for it.
-  const moved = (f: ContourFitResult | null) => {
-    const v = f?.parameters['lower.B']?.value ?? NaN;
-    return v > 0 && !(v >= 0.7 * bSized && v <= 1.5 * bSized);
+  const constantsOf = (f: ContourFitResult) => {
+    const value = (key: string) => f.parameters[key]?.value ?? 0;
+    return {
+      lower: { B: value('lower.B'), [u]: value(`lower.${u}`) },
+      upper: { B: value('upper.B'), [u]: value(`upper.${u}`), origin: value('upper.origin'), zeta: value('upper.zeta') },
+    };
   };
-  if (fit && moved(fit)) {
-    const p = fit.parameters;
-    const value = (key: string) => p[key]?.value ?? 0;
-    const lower = { B: value('lower.B'), [u]: value(`lower.${u}`) };
-    const upper = { B: value('upper.B'), [u]: value(`upper.${u}`), origin: value('upper.origin'), zeta: value('upper.zeta') };
-    bSized = lower.B;
-    fit = fitFrom(lower, upper) ?? fit;
+  // A B that moved far from where the model was sized (the rigid envelope's B can be off by a factor
+  // 2) is fitted once more with the J and K range sized for it.
+  const settle = (run: Run | null, float: string[]): Run | null => {
+    if (!run) return null;
+    const v = run.fit.parameters['lower.B'].value;
+    if (v >= 0.7 * run.bSized && v <= 1.5 * run.bSized) return run;
+    const c = constantsOf(run.fit);
+    return fitFrom(c.lower, c.upper, float) ?? run;
+  };
+  // Two routes from the envelope's start: everything floated, and U″ held at the envelope's value
+  // (U′ − U″ still free). On the seeded bands each route alone ended in a false minimum on some band
+  // that the other avoided, with a residual a few per cent above the other's; so both run, the
+  // held route is refined with U″ floated when it reached the lower residual, and the lowest wins.
+  const full = settle(fitFrom(constants, upperStart, floatAll), floatAll);
+  let held = settle(fitFrom(constants, upperStart, floatHeldU), floatHeldU);
+  if (held && (!full || held.fit.rms < full.fit.rms)) {
+    const c = constantsOf(held.fit);
+    held = settle(fitFrom(c.lower, c.upper, floatAll), floatAll) ?? held;
   }
-  if (!fit) return null;
+  const runs = [full, held].filter((r): r is Run => r !== null);
+  if (!runs.length) return null;
+  const best = runs.reduce((a, r) => (r.fit.rms < a.fit.rms ? r : a));
+  const fit = best.fit;
+  const bSized = best.bSized;
   const b = fit.parameters['lower.B'];
-  if (!b || b.fixed || !(b.value > 0)) return null;
+  if (b.fixed) return null;
   const combo = fit.combinations[`${u}'(1-zeta)-B'`];
   const rmsOverNoise = fit.rms / input.noiseSigma;
   const bLow = b.value - 2 * b.sigma;
@@ -155,6 +181,18 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
     reasons.push(
       `B fell to ${b.value.toPrecision(3)} cm^-1, under 0.6× the ${bSized.toPrecision(3)} cm^-1 the model's J range was sized for`,
     );
+  // The other route: if it fits about as well (Δχ² ≤ 25 in units of the best fit's residual
+  // variance, chosen here) with a B outside B ± 2σ, the contour has two answers.
+  for (const other of runs) {
+    if (other === best) continue;
+    const m = fit.nPoints;
+    const dChi2 = m * ((other.fit.rms / fit.rms) ** 2 - 1);
+    const bOther = other.fit.parameters['lower.B'].value;
+    if (dChi2 <= 25 && Math.abs(bOther - b.value) > 2 * b.sigma)
+      reasons.push(
+        `a fit from another route reaches B = ${bOther.toPrecision(3)} cm^-1 with a residual about as small (Δχ² ${dChi2.toFixed(1)})`,
+      );
+  }
   if (fit.status === 'max-iterations') reasons.push('the contour fit stopped at its iteration limit without converging');
   if (!(rmsOverNoise <= Q_SERIES_CONTOUR_RMS_OVER_NOISE))
     reasons.push(
