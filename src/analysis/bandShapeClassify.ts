@@ -91,6 +91,7 @@ export interface BandShapeClassification {
     | 'fitsBand'
     | 'whyNot'
     | 'rmsOverNoise'
+    | 'residualLag1'
     | 'uniqueZetaMinusB'
     | 'uniqueZetaMinusBSigma'
     | 'unique'
@@ -892,6 +893,7 @@ export function bandShapeClassify(
           fitsBand: contour.fitsBand,
           whyNot: contour.whyNot,
           rmsOverNoise: contour.rmsOverNoise,
+          residualLag1: contour.residualLag1,
           uniqueZetaMinusB: contour.uniqueZetaMinusB,
           uniqueZetaMinusBSigma: contour.uniqueZetaMinusBSigma,
           unique: contour.unique,

@@ -46,6 +46,8 @@ export interface QSeriesContourBResult {
   whyNot: string;
   /** rms residual over the noise σ (≈ 1 when the model fits to the noise). */
   rmsOverNoise: number;
+  /** Lag-1 autocorrelation of the residuals (≈ 0 for white noise left alone; structure left raises it). */
+  residualLag1: number;
   /** A′(1−ζ) − B′ (C′ for oblate) with its σ, cm^-1: half the Q-branch spacing. */
   uniqueZetaMinusB: number;
   uniqueZetaMinusBSigma: number;
@@ -57,6 +59,14 @@ export interface QSeriesContourBResult {
 
 /** A fit whose rms exceeds this multiple of the noise σ has not found the band's minimum (chosen here, see below). */
 const Q_SERIES_CONTOUR_RMS_OVER_NOISE = 1.2;
+
+/**
+ * Residuals whose lag-1 autocorrelation exceeds this keep structure the model misses (a false minimum
+ * fitting near the noise: 0.12–0.30 on the tuning seeds of bench:contour classify where B ± 2σ missed
+ * the truth, |ρ1| ≤ 0.03 where the fit found the band); chosen here. Correlated noise (an interpolated
+ * or smoothed trace) also raises it, and then B is withheld too: the safe side.
+ */
+const Q_SERIES_CONTOUR_LAG1_MAX = 0.1;
 
 /** Half-width of B ± 2σ, relative, under which B is called determined (issue's target: B within 10 %). */
 const Q_SERIES_CONTOUR_B_RELATIVE = 0.1;
@@ -77,7 +87,8 @@ const Q_SERIES_CONTOUR_B_RELATIVE = 0.1;
  * most Q_SERIES_CONTOUR_RMS_OVER_NOISE × the noise (a fit caught in a false minimum, the rigid start
  * on the wrong side, left 1.35–4.7× on the tuning seeds of bench:contour classify against 0.6–1.2
  * where it found the band), no other route reaches a B outside B ± 2σ with a residual about as
- * small, and B ± 2σ lies within ±10 %.
+ * small, its residuals look like white noise (lag-1 autocorrelation ≤ Q_SERIES_CONTOUR_LAG1_MAX) and
+ * B ± 2σ lies within ±10 %.
  * Source: contourFit (Levenberg–Marquardt, instrument line shape per Griffiths & de Haseth (2007)
  * ch. 2); perpendicular-band structure, Herzberg II (1945) ch. IV.
  * @returns the fit, or null when the contour fit fails (the reason is then not B's)
@@ -171,6 +182,13 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
   const bSized = best.bSized;
   const b = fit.parameters['lower.B'];
   if (b.fixed) return null;
+  let r0 = 0;
+  let r1 = 0;
+  for (let i = 0; i < fit.residual.length; i++) {
+    r0 += fit.residual[i] ** 2;
+    if (i > 0) r1 += fit.residual[i] * fit.residual[i - 1];
+  }
+  const residualLag1 = r0 > 0 ? r1 / r0 : 0;
   const combo = fit.combinations[`${u}'(1-zeta)-B'`];
   const rmsOverNoise = fit.rms / input.noiseSigma;
   const bLow = b.value - 2 * b.sigma;
@@ -193,6 +211,10 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
         `a fit from another route reaches B = ${bOther.toPrecision(3)} cm^-1 with a residual about as small (Δχ² ${dChi2.toFixed(1)})`,
       );
   }
+  if (residualLag1 > Q_SERIES_CONTOUR_LAG1_MAX)
+    reasons.push(
+      `the residuals keep structure (lag-1 autocorrelation ${residualLag1.toFixed(2)}, over ${Q_SERIES_CONTOUR_LAG1_MAX}: the model misses part of the band, or the noise is correlated), so σ cannot be trusted`,
+    );
   if (fit.status === 'max-iterations') reasons.push('the contour fit stopped at its iteration limit without converging');
   if (!(rmsOverNoise <= Q_SERIES_CONTOUR_RMS_OVER_NOISE))
     reasons.push(
@@ -210,6 +232,7 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
     fitsBand,
     whyNot: reasons.join('; '),
     rmsOverNoise,
+    residualLag1,
     uniqueZetaMinusB: combo?.value ?? NaN,
     uniqueZetaMinusBSigma: combo?.sigma ?? NaN,
     unique: fit.parameters[`lower.${u}`]?.value ?? NaN,

@@ -332,6 +332,7 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean, wit
             Berr: Number((r.qSeriesContour.B / spec.B - 1).toFixed(3)),
             relSigma: Number((r.qSeriesContour.bSigma / r.qSeriesContour.B).toFixed(4)),
             rmsOverNoise: Number(r.qSeriesContour.rmsOverNoise.toFixed(2)),
+            lag1: Number(r.qSeriesContour.residualLag1.toFixed(3)),
             status: r.qSeriesContour.status,
             determined: r.qSeriesContour.determined,
           };
