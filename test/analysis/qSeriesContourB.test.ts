@@ -76,6 +76,27 @@ describe('bandShapeClassify with the instrument (Q-series contour fit, qSeriesCo
     }
   }, 600_000);
 
+  it('does not call B determined when the residuals are not white (noise smoothed over 5 points: correlated), saying why', () => {
+    const c = traceGenerate({ ...cases[0], noiseRel: 0.02 });
+    // The same noise passed through a 5-point moving average (×√5 to keep its σ): neighbours correlate.
+    const noise = c.noisy.map((v, i) => v - c.truth[i]);
+    const smoothed = c.truth.map((v, i) => {
+      let s = 0;
+      let k = 0;
+      for (let j = Math.max(0, i - 2); j <= Math.min(noise.length - 1, i + 2); j++, k++) s += noise[j];
+      return v + (s / k) * Math.sqrt(5);
+    });
+    const r = bandShapeClassify(c.x, smoothed, c.fromCm1, c.toCm1, {
+      temperatureK: cases[0].temperatureK,
+      opdCm: cases[0].opdCm,
+      apodization: cases[0].apodization,
+    });
+    expect(r.qSeriesContour).toBeDefined();
+    expect(r.qSeriesContour!.determined).toBe(false);
+    expect(r.qSeriesContour!.whyNot).toMatch(/residuals keep structure/);
+    expect(r.bDetermined === true).toBe(false);
+  }, 600_000);
+
   it('without opd runs no contour fit and gives the same reading as before', () => {
     const c = traceGenerate(cases[0]);
     const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: cases[0].temperatureK });
