@@ -56,7 +56,10 @@ export interface BandShapeClassification {
   /** Range B is good to, cm^-1 (when B is given). */
   bLow?: number;
   bHigh?: number;
-  /** Whether that range is narrow enough (within ±15 % of B; ±10 % from a Π–Σ or Q-series envelope) to call B determined (when B is given). */
+  /**
+   * Whether that range is narrow enough (within ±15 % of B; ±10 % from a Π–Σ or Q-series envelope) to call
+   * B determined (when B is given); from a Q-series contour fit, as qSeriesContour.determined says.
+   */
   bDetermined?: boolean;
   /**
    * What the envelope fit of a Q-branch series found (when it ran): the best shape and those that fit
