@@ -142,6 +142,8 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
         baselineDegree: 2,
         noiseSigma: input.noiseSigma,
         route: 'linear',
+        // The long, shallow valleys of B against U and ζ (chosen here; tuning seed 63 stopped at 40 with B exact).
+        maxIterations: 100,
       });
       const b = fit.parameters['lower.B'];
       return b && b.value > 0 ? { fit, bSized } : null;
