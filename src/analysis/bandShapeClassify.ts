@@ -9,6 +9,8 @@ import { bandEnvelopeFit, smoothBoxes } from './bandEnvelopeFit';
 import { bandEnvelopeQSeriesFit, type BandEnvelopeQSeriesFitResult } from './bandEnvelopeQSeriesFit';
 import { noiseSigmaEstimate } from './noiseSigmaEstimate';
 import { peakProminence } from './peakProminence';
+import { qSeriesContourB, type QSeriesContourBResult } from './qSeriesContourB';
+import type { ApodizationName } from '../physics/instrumentLineShape';
 
 /** Profile of a band region. */
 export type BandProfile = 'PR' | 'PQR' | 'Q-series';
@@ -25,6 +27,14 @@ export interface BandShapeClassifyOptions {
    * band), reported as `qSeriesEnvelope`. @default false
    */
   qSeriesEnvelope?: boolean;
+  /**
+   * Maximum optical path difference L of the spectrometer, cm. Given, a Q-branch series' B comes from a
+   * contour fit of the band seen through the instrument (qSeriesContourB, after the envelope fit that
+   * starts it; several seconds of CPU per band), reported as `qSeriesContour`. Absent: no contour fit.
+   */
+  opdCm?: number;
+  /** Apodization of the spectrometer (with opdCm). @default 'boxcar' */
+  apodization?: ApodizationName;
 }
 
 /** Result of bandShapeClassify. */
@@ -46,7 +56,10 @@ export interface BandShapeClassification {
   /** Range B is good to, cm^-1 (when B is given). */
   bLow?: number;
   bHigh?: number;
-  /** Whether that range is narrow enough (within ±15 % of B; ±10 % from a Π–Σ or Q-series envelope) to call B determined (when B is given). */
+  /**
+   * Whether that range is narrow enough (within ±15 % of B; ±10 % from a Π–Σ or Q-series envelope) to call
+   * B determined (when B is given); from a Q-series contour fit, as qSeriesContour.determined says.
+   */
   bDetermined?: boolean;
   /**
    * What the envelope fit of a Q-branch series found (when it ran): the best shape and those that fit
@@ -55,7 +68,38 @@ export interface BandShapeClassification {
    */
   qSeriesEnvelope?: Pick<
     BandEnvelopeQSeriesFitResult,
-    'shape' | 'shapesFitting' | 'uniqueMinusB' | 'uniqueMinusBLow' | 'uniqueMinusBHigh' | 'zeta' | 'B' | 'bLow' | 'bHigh' | 'rmsOverNoise'
+    | 'shape'
+    | 'shapesFitting'
+    | 'uniqueMinusB'
+    | 'uniqueMinusBLow'
+    | 'uniqueMinusBHigh'
+    | 'zeta'
+    | 'B'
+    | 'bLow'
+    | 'bHigh'
+    | 'rmsOverNoise'
+    | 'origin'
+  >;
+  /**
+   * What the contour fit of a Q-branch series found (when opdCm was given and it ran): B with σ and
+   * B ± 2σ, whether determined and why not, rms over the noise, U′(1−ζ) − B′ with σ, U″ (cm^-1).
+   */
+  qSeriesContour?: Pick<
+    QSeriesContourBResult,
+    | 'B'
+    | 'bSigma'
+    | 'bLow'
+    | 'bHigh'
+    | 'determined'
+    | 'fitsBand'
+    | 'whyNot'
+    | 'rmsOverNoise'
+    | 'residualLag1'
+    | 'uniqueZetaMinusB'
+    | 'uniqueZetaMinusBSigma'
+    | 'unique'
+    | 'shape'
+    | 'status'
   >;
   /** Temperature used for B, K, and whether it was assumed. */
   temperatureK: number;
@@ -205,6 +249,8 @@ export function bandShapeClassify(
   const temperatureAssumed = options.temperatureK === undefined;
   const T = options.temperatureK ?? ASSUMED_TEMPERATURE_K;
   if (!(T > 0) || !Number.isFinite(T)) throw new Error(`${fn}: temperature must be > 0 K, got ${T}`);
+  if (options.opdCm !== undefined && !(options.opdCm > 0 && Number.isFinite(options.opdCm)))
+    throw new Error(`${fn}: opd must be > 0 cm, got ${options.opdCm}`);
   let i0 = 0;
   while (i0 < wavenumberCm1.length && wavenumberCm1[i0] < fromCm1) i0++;
   let i1 = i0;
@@ -565,6 +611,8 @@ export function bandShapeClassify(
   // classify (seeds 0–59) true Σ–Σ bands gave improvement ≤ 0.02 and Q share ≤ 0.005, PQR bands read as
   // PR gave 0.40–0.92 and 0.04–0.31 (two gave 0); the thresholds sit between.
   let templateQShare = NaN;
+  // Set when the only doubt is whether a weak Q branch is there (PR or PQR), which leaves B alone.
+  let lowOnlyForWeakQ = false;
   if (profile === 'PR') {
     const sGuess = twoLobes ? 0.5 * (outerLobes(lobes, centre0)[1].x - outerLobes(lobes, centre0)[0].x) : width / 4.3;
     const t = bandCentreTemplate(x, env, origin, sGuess);
@@ -575,6 +623,14 @@ export function bandShapeClassify(
       confidence = t.improvement >= 0.5 && t.qShare >= 0.1 ? 'medium' : 'low';
       evidence.push(
         `but a central Q component takes up ${Math.round(100 * t.improvement)} % of a blurred two-lobe P/R template's misfit and holds ${Math.round(100 * t.qShare)} % of the band: the centre is filled by a weak or smeared Q branch, so PQR`,
+      );
+    } else if (t.improvement >= 0.1 && t.qShare >= 0.02) {
+      // Between what true Σ–Σ bands gave (≤ 0.02 and ≤ 0.005) and the PQR thresholds: undecided.
+      // B does not depend on it (J lines or the P/R wings are the same either way), so it is kept.
+      if (confidence !== 'low') lowOnlyForWeakQ = true;
+      confidence = 'low';
+      evidence.push(
+        `a central Q component takes up ${Math.round(100 * t.improvement)} % of a blurred two-lobe P/R template's misfit and holds ${Math.round(100 * t.qShare)} % of the band: short of a clear Q branch, but more than Σ–Σ bands leave (≤ 2 % and ≤ 0.5 % on the seeded bands), so PR or PQR is undecided`,
       );
     } else {
       evidence.push(
@@ -720,7 +776,7 @@ export function bandShapeClassify(
   let envelopeRange: [number, number] | null = null;
   let envelopeHeld = false;
   const envelopeType = type === 'linear-parallel' || (type === 'symmetric-top-parallel' && profile === 'PQR');
-  if (envelopeType && bMethod !== 'line-spacing' && confidence !== 'low') {
+  if (envelopeType && bMethod !== 'line-spacing' && (confidence !== 'low' || lowOnlyForWeakQ)) {
     const held = type === 'symmetric-top-parallel';
     const fit = bandEnvelopeFit({
       x,
@@ -756,6 +812,8 @@ export function bandShapeClassify(
   // 1.5× the noise and its range spans at most a factor 1.5 (bench:contour classify --q-envelope:
   // 2 of 25 tuning and 1 of 9 held-out Q-series, each with the truth inside the range).
   let newRange: { low: number; high: number; open: boolean } | null = null;
+  // B ± 2σ of a Q-series' contour fit, and whether the fit calls it determined.
+  let contourRange: { low: number; high: number; determined: boolean } | null = null;
   if (type === 'linear-perpendicular' && profile === 'PQR' && centralSpike && bMethod !== 'line-spacing' && confidence !== 'low') {
     const spike = centralSpike;
     const core = qBranchCore(x, y, spike, step);
@@ -781,8 +839,9 @@ export function bandShapeClassify(
     }
   }
   let qSeriesEnvelope: BandShapeClassification['qSeriesEnvelope'];
+  let qSeriesContour: BandShapeClassification['qSeriesContour'];
   if (
-    options.qSeriesEnvelope &&
+    (options.qSeriesEnvelope || options.opdCm !== undefined) &&
     profile === 'Q-series' &&
     bMethod === 'none' &&
     qSpacing !== undefined &&
@@ -812,10 +871,60 @@ export function bandShapeClassify(
         bLow: fit.bLow,
         bHigh: fit.bHigh,
         rmsOverNoise: fit.rmsOverNoise,
+        origin: fit.origin,
       };
       const u = fit.shape === 'prolate' ? 'A' : 'C';
+      const contour =
+        options.opdCm !== undefined
+          ? qSeriesContourB({
+              x,
+              y: raw,
+              temperatureK: T,
+              opdCm: options.opdCm,
+              apodization: options.apodization ?? 'boxcar',
+              noiseSigma: sigma,
+              start: fit,
+            })
+          : null;
+      if (contour) {
+        qSeriesContour = {
+          B: contour.B,
+          bSigma: contour.bSigma,
+          bLow: contour.bLow,
+          bHigh: contour.bHigh,
+          determined: contour.determined,
+          fitsBand: contour.fitsBand,
+          whyNot: contour.whyNot,
+          rmsOverNoise: contour.rmsOverNoise,
+          residualLag1: contour.residualLag1,
+          uniqueZetaMinusB: contour.uniqueZetaMinusB,
+          uniqueZetaMinusBSigma: contour.uniqueZetaMinusBSigma,
+          unique: contour.unique,
+          shape: contour.shape,
+          status: contour.status,
+        };
+      }
       const words = `the envelope of the whole band with the comb held (${Math.abs(qSpacing).toPrecision(4)} cm^-1 apart, curvature ${qCurvature.toPrecision(2)} cm^-1 per index²), B and ${u} − B fitted together (${tNote}): best B = ${fit.B.toPrecision(3)} cm^-1, ${fit.shape} with ${u} − B = ${fit.uniqueMinusB.toPrecision(3)} cm^-1 and ζ = ${fit.zeta.toFixed(2)}; B from ${fit.bLow.toPrecision(3)} to ${fit.bHigh.toPrecision(3)} cm^-1${fit.bRangeOpen ? ' or beyond' : ''} and ${fit.shapesFitting.join(' or ')} shapes fit about as well`;
-      if (poor) {
+      if (contour && contour.determined) {
+        B = contour.B;
+        bMethod = 'envelope-fit';
+        contourRange = { low: contour.bLow, high: contour.bHigh, determined: true };
+        evidence.push(
+          `${words}; then a contour fit of the band through the instrument (L = ${options.opdCm} cm, ${options.apodization ?? 'boxcar'}; B′, B″, ${u}′, ${u}″, ζ and the origin floated from there, weak-absorption limit): B = ${contour.B.toPrecision(4)} ± ${contour.bSigma.toPrecision(2)} cm^-1, residual ${contour.rmsOverNoise.toFixed(2)}× the noise`,
+        );
+      } else if (contour && contour.fitsBand) {
+        // Converged to the noise but B ± 2σ wider than ±10 %: given with that range, not determined.
+        B = contour.B;
+        bMethod = 'envelope-fit';
+        contourRange = { low: contour.bLow, high: contour.bHigh, determined: false };
+        evidence.push(
+          `${words}; then a contour fit of the band through the instrument (L = ${options.opdCm} cm): B = ${contour.B.toPrecision(4)} ± ${contour.bSigma.toPrecision(2)} cm^-1, but B is not determined: ${contour.whyNot}`,
+        );
+      } else if (options.opdCm !== undefined && !contour) {
+        evidence.push(`${words}; the contour fit through the instrument failed, so B is not given from it`);
+      } else if (contour) {
+        evidence.push(`${words}; the contour fit through the instrument gives no B: ${contour.whyNot}`);
+      } else if (poor) {
         evidence.push(
           `${words}; but the best envelope leaves a residual ${fit.rmsOverNoise.toFixed(1)}× what the noise alone would (the rigid model does not describe this band well enough), so B is not given`,
         );
@@ -835,7 +944,7 @@ export function bandShapeClassify(
   let bLow: number | undefined;
   let bHigh: number | undefined;
   let bDetermined: boolean | undefined;
-  if (B !== null && confidence === 'low') {
+  if (B !== null && confidence === 'low' && !lowOnlyForWeakQ) {
     // A B read off a profile that may be wrong (e.g. a comb of Q branches taken for J lines) is no
     // better than the reading: not given.
     evidence.push(`B is withheld: ${B.toPrecision(3)} cm^-1 would rest on a profile read with low confidence`);
@@ -865,7 +974,12 @@ export function bandShapeClassify(
     // envelope is given with its range but not called determined.
     const envelopePr = bMethod === 'envelope-fit' && profile === 'PR';
     bDetermined = bLow >= 0.85 * B && bHigh <= 1.15 * B && !envelopeHeld && !envelopePr;
-    if (newRange) {
+    if (contourRange) {
+      // A Q-series' contour fit through the instrument: B ± 2σ, determined as qSeriesContourB says.
+      bLow = contourRange.low;
+      bHigh = contourRange.high;
+      bDetermined = contourRange.determined;
+    } else if (newRange) {
       // Π–Σ and Q-series envelopes: the range that fits, at least ±ENVELOPE_B_FLOOR (the rigid model's
       // own error), determined only within ±10 % and not reaching the end of the values tried.
       bLow = Math.min(B * (1 - ENVELOPE_B_FLOOR), newRange.low);
@@ -880,10 +994,25 @@ export function bandShapeClassify(
       );
     else if (!bDetermined) evidence.push('B is not determined: the range is wider than ±15 %');
     evidence.push(
-      `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round((newRange ? ENVELOPE_B_FLOOR : rel) * 100)} %, measured on seeded bands)`,
+      contourRange
+        ? `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (±2σ of the contour fit)`
+        : `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round((newRange ? ENVELOPE_B_FLOOR : rel) * 100)} %, measured on seeded bands)`,
     );
   } else {
     evidence.push('B is not given: this profile does not show it to 10 %');
+  }
+  if (profile === 'PR' && bMethod !== 'line-spacing' && confidence !== 'low') {
+    // Without resolved lines "no Q branch" only means none above what the template test above can see
+    // (a few per cent of the band): a symmetric top's parallel band whose K structure puts little in
+    // its Q branch, or an oblate top's unresolved perpendicular band (Q branches spread over the whole
+    // band), shows the same two lobes. On the seeded bands of bench:contour classify every PR call
+    // that was wrong came from such an envelope (tuning seeds 22 and 61, both already low), so an
+    // envelope-only PR is rated low; B, when given, is a Σ–Σ band's and is not called determined.
+    confidence = 'low';
+    evidence.push(
+      "PR is rated low: without resolved lines the envelope cannot rule out a weak or smeared Q branch (a symmetric top's parallel band with little intensity in its Q branch, or an oblate top's unresolved perpendicular band)" +
+        (B !== null ? `; B = ${B.toPrecision(3)} cm^-1 holds if the band is a Σ–Σ band` : ''),
+    );
   }
   if (confidence === 'high' && profile !== 'Q-series') {
     // Measured on 120 seeded bands of every shape, type and apodization (bench:contour classify),
@@ -909,6 +1038,7 @@ export function bandShapeClassify(
     ...(bHigh !== undefined ? { bHigh } : {}),
     ...(bDetermined !== undefined ? { bDetermined } : {}),
     ...(qSeriesEnvelope ? { qSeriesEnvelope } : {}),
+    ...(qSeriesContour ? { qSeriesContour } : {}),
     temperatureK: T,
     temperatureAssumed: bMethod === 'pr-separation' || bMethod === 'envelope-fit' ? temperatureAssumed : false,
     evidence: evidence.join('; ') + '.',

@@ -1,9 +1,10 @@
 import { bandShapeClassify } from '../analysis/bandShapeClassify';
+import { cliApodization } from './contourCommand';
 import { cliLoadTrace } from './cliTrace';
 import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand } from './cliIo';
 
 /**
- * `classify --trace FILE --from X1 --to X2 [--temperature K] [--q-envelope]`: say what the band between X1 and X2
+ * `classify --trace FILE --from X1 --to X2 [--temperature K] [--q-envelope] [--opd L [--apodization NAME]]`: say what the band between X1 and X2
  * (cm^-1) looks like. Prints JSON {"profile": "PR" | "PQR" | "Q-series", "type", "origin", "B",
  * "qSpacing" (Q-series only), "evidence"} plus "confidence" (high, medium, low), "alternativeType"
  * (when another type fits too), "bMethod", "bLow" and "bHigh" (the range B is good to, when B is given), "bDetermined" (that range within ±15 %; ±10 % for a Π–Σ or Q-series envelope), "temperature", "temperatureAssumed" and "implication".
@@ -11,22 +12,31 @@ import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand } from '
  * --temperature, B from an unresolved contour assumes 296 K and says so. With --q-envelope a
  * Q-branch series' envelope is also fitted for B and A − B (C − B), reported as "qSeriesEnvelope"
  * {shape, shapesFitting, uniqueMinusB, uniqueMinusBLow, uniqueMinusBHigh, zeta, B, bLow, bHigh,
- * rmsOverNoise} (cm^-1; B from it only when that fit is good enough, see bandShapeClassify).
+ * rmsOverNoise, origin} (cm^-1; B from it only when that fit is good enough, see bandShapeClassify).
+ * With --opd (maximum optical path difference, cm) and --apodization (default boxcar) a Q-branch
+ * series is also fitted as a contour through that instrument (the envelope fit above starts it), and
+ * B comes from that fit; reported as "qSeriesContour" {B, bSigma, bLow, bHigh, determined, fitsBand,
+ * whyNot, rmsOverNoise, uniqueZetaMinusB, uniqueZetaMinusBSigma, unique, shape, status} (cm^-1).
  */
 export const classifyCommand: CliCommand = (args, io) => {
-  const opts = cliParseArgs(args, ['trace', 'from', 'to', 'temperature'], ['q-envelope']);
+  const opts = cliParseArgs(args, ['trace', 'from', 'to', 'temperature', 'opd', 'apodization'], ['q-envelope']);
   const tracePath = cliRequire(opts, 'trace');
   const fromCm1 = cliNumber(opts, 'from');
   const toCm1 = cliNumber(opts, 'to');
   if (!(toCm1 > fromCm1)) throw new CliError(`--to must be greater than --from, got --from ${fromCm1} --to ${toCm1}`);
   const temperatureK = opts.temperature === undefined ? undefined : cliNumber(opts, 'temperature');
   if (temperatureK !== undefined && !(temperatureK > 0)) throw new CliError(`--temperature must be > 0 K, got ${temperatureK}`);
+  const opdCm = opts.opd === undefined ? undefined : cliNumber(opts, 'opd');
+  if (opdCm !== undefined && !(opdCm > 0)) throw new CliError(`--opd must be a maximum optical path difference > 0 cm, got ${opdCm}`);
+  if (opts.apodization !== undefined && opdCm === undefined) throw new CliError('--apodization needs --opd (the instrument it describes)');
+  const apodization = cliApodization(opts);
   const trace = cliLoadTrace(tracePath, io);
   let r;
   try {
     r = bandShapeClassify(trace.wavenumberCm1, trace.absorbance, fromCm1, toCm1, {
       temperatureK,
       qSeriesEnvelope: opts['q-envelope'] === true,
+      ...(opdCm !== undefined ? { opdCm, apodization } : {}),
     });
   } catch (err) {
     throw new CliError((err instanceof Error ? err.message : String(err)).replace(/^bandShapeClassify: /, ''));
@@ -48,6 +58,7 @@ export const classifyCommand: CliCommand = (args, io) => {
     temperatureAssumed: r.temperatureAssumed,
     implication: r.implication,
     ...(r.qSeriesEnvelope ? { qSeriesEnvelope: r.qSeriesEnvelope } : {}),
+    ...(r.qSeriesContour ? { qSeriesContour: r.qSeriesContour } : {}),
   };
   io.stdout(JSON.stringify(out, null, 2) + '\n');
   return 0;

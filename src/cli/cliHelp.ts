@@ -235,8 +235,22 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
         unit: 'flag',
         default: 'off',
       },
+      {
+        name: 'opd',
+        value: 'L',
+        text: "the spectrometer's maximum optical path difference: a series of Q branches then gets B from a contour fit through the instrument (several seconds to a minute more per band)",
+        unit: 'cm',
+        default: 'none (no contour fit)',
+      },
+      {
+        name: 'apodization',
+        value: 'NAME',
+        text: 'with --opd: boxcar, triangular, happ-genzel, norton-beer-weak, norton-beer-medium or norton-beer-strong',
+        unit: 'word',
+        default: 'boxcar',
+      },
     ],
-    output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, bLow, bHigh, bDetermined, temperature, temperatureAssumed, implication, qSeriesEnvelope (with --q-envelope)}; cm^-1. ${WARNINGS}`,
+    output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, bLow, bHigh, bDetermined, temperature, temperatureAssumed, implication, qSeriesEnvelope (with --q-envelope or --opd), qSeriesContour (with --opd)}; cm^-1. ${WARNINGS}`,
     example: 'npm run --silent cli -- classify --trace lowres.csv --from 1100 --to 1200 --temperature 296',
   },
   perturbations: {

@@ -45,6 +45,14 @@ export interface ContourFitInput {
    * from the residuals). @default a robust estimate from second differences of the region
    */
   noiseSigma?: number;
+  /**
+   * How the instrument is applied: 'auto' chooses the transmittance route when the lines are optically
+   * thick at their own width; 'linear' holds the weak-absorption limit (absorbance convolved with the
+   * instrument line shape), for a trace whose absolute line strengths are unknown. @default 'auto'
+   */
+  route?: InstrumentRoute | 'auto';
+  /** Iteration limit of the main stage. @default 40 */
+  maxIterations?: number;
   /** Called after each iteration of each stage. */
   onProgress?: (stage: number, iteration: number, rms: number) => void;
   /** Polled once per iteration. */
@@ -226,7 +234,8 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   } else {
     baseline.set(linear.baseline);
   }
-  route = bandAt(model, lorentz, scale, 'auto').route;
+  const routeAsked = input.route ?? 'auto';
+  route = routeAsked === 'auto' ? bandAt(model, lorentz, scale, 'auto').route : routeAsked;
 
   const evaluate = (layout: Layout, p: Float64Array, out: Float64Array): void => {
     const mdl: BandModel = { ...model, lower: { ...model.lower }, upper: { ...model.upper } };
@@ -306,7 +315,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
         // it stops after 3 iterations or once χ² falls by less than 0.1 % in one. On the 20,000-line
         // saturating band of bench:contour speed it took 10 iterations (half the fit's time) to the full
         // tolerance; stage 2 then reached the same rms (to 1e-5 relative).
-        maxIterations: stage === 1 ? 3 : 40,
+        maxIterations: stage === 1 ? 3 : (input.maxIterations ?? 40),
         chi2RelativeTolerance: stage === 1 ? 1e-3 : 1e-9,
         stepToleranceSigma: stage === 1 ? 1e-2 : 1e-4,
         rankRelativeTolerance: CONTOUR_RANK_TOLERANCE,
@@ -354,7 +363,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   }
   // The route was chosen from the start scale; if the fitted scale makes the lines optically thick
   // (or thin), fit once more the right way.
-  const finalRoute = bandAt(model, lorentz, scale, 'auto').route;
+  const finalRoute = routeAsked === 'auto' ? bandAt(model, lorentz, scale, 'auto').route : routeAsked;
   if (finalRoute !== route) {
     route = finalRoute;
     solution = runStage(3, layout);

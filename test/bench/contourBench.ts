@@ -254,10 +254,11 @@ function scoreB(group: string, given: { err: number; inRange: boolean; determine
 }
 
 /**
- * classify N [FIRST] [--q-envelope]: the band-shape diagnosis alone (with --q-envelope, also the Q-series envelope fit) on N cases of classifySpecRandom (every
+ * classify N [FIRST] [--q-envelope] [--opd]: the band-shape diagnosis alone (with --q-envelope, also the Q-series envelope fit;
+ * with --opd, each case's L and apodization given, so Q-series also get the contour fit) on N cases of classifySpecRandom (every
  * apodization, curved baselines); per case and a summary by expected profile and by confidence.
  */
-function classifyCases(count: number, first: number, withQEnvelope: boolean): void {
+function classifyCases(count: number, first: number, withQEnvelope: boolean, withOpd: boolean): void {
   const byProfile: Record<string, { n: number; ok: number }> = {};
   const byConfidence: Record<string, { n: number; ok: number }> = {};
   const bErr: number[] = [];
@@ -271,6 +272,10 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean): vo
   const bPiSigma: { err: number; inRange: boolean; determined: boolean }[] = [];
   let bPiSigmaMissing = 0;
   let ms = 0;
+  // Misreads split by how they were rated: medium or high is a wrong answer given with confidence,
+  // low is wrong but flagged uncertain.
+  const wrongConfident: number[] = [];
+  const wrongFlagged: number[] = [];
   for (let s = first; s < first + count; s++) {
     const spec = classifySpecRandom(s);
     const c = traceGenerate(spec);
@@ -290,7 +295,11 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean): vo
     byProfile[key].n++;
     try {
       const t0 = performance.now();
-      const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: spec.temperatureK, qSeriesEnvelope: withQEnvelope });
+      const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, {
+        temperatureK: spec.temperatureK,
+        qSeriesEnvelope: withQEnvelope,
+        ...(withOpd ? { opdCm: spec.opdCm, apodization: spec.apodization } : {}),
+      });
       ms += performance.now() - t0;
       // A faint Q-branch series may be read either way, not rated high (traceVisibleProfile).
       const ok = r.profile === vis.profile || (vis.ambiguous && r.confidence !== 'high' && r.profile !== 'PR');
@@ -299,6 +308,7 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean): vo
       row.bMethod = r.bMethod;
       row.ok = ok;
       if (ok) byProfile[key].ok++;
+      else (r.confidence === 'low' ? wrongFlagged : wrongConfident).push(s);
       byConfidence[r.confidence] ??= { n: 0, ok: 0 };
       byConfidence[r.confidence].n++;
       if (ok) byConfidence[r.confidence].ok++;
@@ -314,6 +324,17 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean): vo
             shape: r.qSeriesEnvelope.shape,
             uMinusB: Number(r.qSeriesEnvelope.uniqueMinusB.toPrecision(3)),
             bRange: [Number(r.qSeriesEnvelope.bLow.toPrecision(3)), Number(r.qSeriesEnvelope.bHigh.toPrecision(3))],
+            Berr: Number((r.qSeriesEnvelope.B / spec.B - 1).toFixed(3)),
+            rmsOverNoise: Number(r.qSeriesEnvelope.rmsOverNoise.toFixed(2)),
+          };
+        if (r.qSeriesContour)
+          row.qContour = {
+            Berr: Number((r.qSeriesContour.B / spec.B - 1).toFixed(3)),
+            relSigma: Number((r.qSeriesContour.bSigma / r.qSeriesContour.B).toFixed(4)),
+            rmsOverNoise: Number(r.qSeriesContour.rmsOverNoise.toFixed(2)),
+            lag1: Number(r.qSeriesContour.residualLag1.toFixed(3)),
+            status: r.qSeriesContour.status,
+            determined: r.qSeriesContour.determined,
           };
       }
       if (spec.shape === 'linear' && spec.band === 'perpendicular') {
@@ -352,6 +373,8 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean): vo
       summary: 'classify',
       cases: count,
       profileRight: `${okAll}/${count}`,
+      wrongConfident: `${wrongConfident.length} [${wrongConfident.join(', ')}]`,
+      wrongFlaggedLow: `${wrongFlagged.length} [${wrongFlagged.join(', ')}]`,
       byExpectedProfile: rate(byProfile),
       byConfidence: rate(byConfidence),
       bWithin10pc: `${bErr.filter((e) => Math.abs(e) <= 0.1).length}/${bErr.length} given (${bMissing} withheld)`,
@@ -369,5 +392,6 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean): vo
 
 const [what = 'speed', nArg, firstArg] = process.argv.slice(2);
 if (what === 'speed') speed();
-else if (what === 'classify') classifyCases(Number(nArg ?? 60), Number(firstArg ?? 0), process.argv.includes('--q-envelope'));
+else if (what === 'classify')
+  classifyCases(Number(nArg ?? 60), Number(firstArg ?? 0), process.argv.includes('--q-envelope'), process.argv.includes('--opd'));
 else targets(Number(nArg ?? 30));

@@ -110,6 +110,39 @@ describe('classify command', () => {
     if (j.bMethod === 'envelope-fit') expect(j.bHigh / j.bLow).toBeLessThanOrEqual(1.5 * 1.11);
   }, 60_000);
 
+  it('adds qSeriesContour with --opd L --apodization NAME, B from it within 10 % (B″ = 0.25 cm^-1 generated), every other field kept', async () => {
+    const plain = JSON.parse((await run(['classify', '--trace', 't.csv', ...region, '--temperature', '296'], files)).stdout);
+    const r = await run(
+      ['classify', '--trace', 't.csv', ...region, '--temperature', '296', '--opd', '1', '--apodization', 'triangular'],
+      files,
+    );
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(plain).not.toHaveProperty('qSeriesContour');
+    for (const key of Object.keys(plain)) expect(j, key).toHaveProperty(key);
+    expect(j.profile).toBe(plain.profile);
+    const k = j.qSeriesContour;
+    expect(typeof k.determined).toBe('boolean');
+    expect(typeof k.whyNot).toBe('string');
+    // Where B is given from the contour it is within 10 % of the generated 0.25 cm^-1, and a
+    // determined B has the truth inside B ± 2σ.
+    if (j.B !== null) expect(Math.abs(j.B / 0.25 - 1)).toBeLessThan(0.1);
+    if (j.bDetermined) {
+      expect(j.bLow).toBeLessThanOrEqual(0.25);
+      expect(j.bHigh).toBeGreaterThanOrEqual(0.25);
+    }
+  }, 600_000);
+
+  it('refuses --opd 0 and --apodization without --opd, saying which', async () => {
+    const a = await run(['classify', '--trace', 't.csv', ...region, '--opd', '0'], files);
+    expect(a.code).toBe(1);
+    expect(a.stderr).toMatch(/--opd must be a maximum optical path difference > 0 cm, got 0/);
+    const b = await run(['classify', '--trace', 't.csv', ...region, '--apodization', 'boxcar'], files);
+    expect(b.stderr).toMatch(/--apodization needs --opd/);
+    const d = await run(['classify', '--trace', 't.csv', ...region, '--opd', '1', '--apodization', 'cosine'], files);
+    expect(d.stderr).toMatch(/--apodization must be one of/);
+  });
+
   it('refuses an inverted region and a bad temperature', async () => {
     const a = await run(['classify', '--trace', 't.csv', '--from', '1300', '--to', '1200'], files);
     expect(a.code).toBe(1);
