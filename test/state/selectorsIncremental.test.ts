@@ -31,33 +31,13 @@ import { bandKeyOfLine, systemBandEntries } from '../../src/state/systemBands';
 import { systemRowCalcCreate } from '../../src/state/systemRowCalc';
 import { levelTagMatches, lineLevelLabel, transitionSymmetryText, type LineLevelLabel } from '../../src/state/systemLevelLabels';
 import { selectSystemPrediction } from '../../src/state/systemPredict';
+import { assignmentOfLine, INVENTED_C3V_SPECIES } from './fixtures';
 
 const SYSTEM = {
   temperature: 200,
   jMax: 14,
   kMax: 5,
-  species: [
-    {
-      name: 'LB-3v',
-      shape: 'prolate',
-      mass: 40,
-      abundance: 1,
-      pointGroup: 'C3v',
-      spinWeightsBySymmetry: { A1: 4, A2: 4, E: 2 },
-      states: {
-        ground: { B: 0.2512, A: { value: 5.21, fixed: true }, DJ: 2.1e-7, DJK: 3.2e-6, DK: { value: 8e-5, fixed: true }, h3: 4e-8 },
-        v3: { origin: 1021.35, B: 0.2497, A: { value: 5.19, fixed: true }, DJ: 2.1e-7, DJK: 3.2e-6 },
-        v4: { origin: 1052.72, degenerate: true, B: 0.2503, A: 5.18, DJ: 2.1e-7, DJK: 3.2e-6, zeta: 0.071, q22: 3.5e-4 },
-        v8: { origin: 2081.4, B: 0.2488, A: { value: 5.16, fixed: true }, DJ: 2.1e-7, DJK: 3.2e-6 },
-      },
-      bands: [
-        { name: 'nu4', upper: 'v4', lower: 'ground', strength: 1 },
-        { name: 'nu3', upper: 'v3', lower: 'ground', strength: 0.6 },
-        { name: 'hot', upper: 'v8', lower: 'v4', strength: 1 },
-      ],
-      interactions: [{ name: 'v3v4', type: 'coriolis', states: ['v3', 'v4'], constants: { C1: 0.12 } }],
-    },
-  ],
+  species: [INVENTED_C3V_SPECIES],
 };
 
 const MIN_INTENSITY = 0.002;
@@ -177,18 +157,7 @@ function apply(op: PageOp, lines: SystemLineList): void {
     case 'assignNoBand': {
       // A row that names no band (as from a one-band line table): it belongs to the active band.
       const i = op.line % lines.count;
-      const a: Assignment = {
-        id: `nb${s.nextAssignmentNumber}`,
-        jUpper: lines.jUpper[i],
-        kUpper: lines.kUpper[i],
-        jLower: lines.jLower[i],
-        kLower: lines.kLower[i],
-        observedCm1: lines.wavenumberCm1[i],
-        uncertaintyCm1: 0.001,
-        isBlended: false,
-        isExcluded: false,
-        note: '',
-      };
+      const a: Assignment = assignmentOfLine(lines, i, `nb${s.nextAssignmentNumber}`);
       benchUpdate('add', (st) => ({ assignments: [...st.assignments, a], nextAssignmentNumber: st.nextAssignmentNumber + 1 }), {
         history: true,
       });

@@ -17,35 +17,14 @@ import { selectAssignmentDrawnLines, selectAssignmentLevels, selectDrawnBands } 
 import { benchStore } from '../../src/state/store';
 import { systemBandEntries } from '../../src/state/systemBands';
 import { transitionSymmetryText } from '../../src/state/systemLevelLabels';
+import { INVENTED_C3V_SPECIES } from './fixtures';
 
 /** Invented C3v symmetric top (constants made up; h3 exaggerated so the K = 3 pairs split visibly). */
 const SYSTEM = {
   temperature: 200,
   jMax: 30,
   kMax: 8,
-  species: [
-    {
-      name: 'LB-3v',
-      shape: 'prolate',
-      mass: 40,
-      abundance: 1,
-      pointGroup: 'C3v',
-      spinWeightsBySymmetry: { A1: 4, A2: 4, E: 2 },
-      states: {
-        ground: { B: 0.2512, A: { value: 5.21, fixed: true }, DJ: 2.1e-7, DJK: 3.2e-6, DK: { value: 8e-5, fixed: true }, h3: 4e-8 },
-        v3: { origin: 1021.35, B: 0.2497, A: { value: 5.19, fixed: true }, DJ: 2.1e-7, DJK: 3.2e-6 },
-        v4: { origin: 1052.72, degenerate: true, B: 0.2503, A: 5.18, DJ: 2.1e-7, DJK: 3.2e-6, zeta: 0.071, q22: 3.5e-4 },
-        v8: { origin: 2081.4, B: 0.2488, A: { value: 5.16, fixed: true }, DJ: 2.1e-7, DJK: 3.2e-6 },
-      },
-      bands: [
-        { name: 'nu4', upper: 'v4', lower: 'ground', strength: 1 },
-        { name: 'nu3', upper: 'v3', lower: 'ground', strength: 0.6 },
-        // A hot band from the E state (a band with no single-band view), weak at 200 K.
-        { name: 'hot', upper: 'v8', lower: 'v4', strength: 1 },
-      ],
-      interactions: [{ name: 'v3v4', type: 'coriolis', states: ['v3', 'v4'], constants: { C1: 0.12 } }],
-    },
-  ],
+  species: [INVENTED_C3V_SPECIES],
 };
 
 const MIN_INTENSITY = 0.002;

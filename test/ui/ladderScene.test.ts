@@ -1,4 +1,5 @@
 import fc from 'fast-check';
+import { assignmentOfLine } from '../state/fixtures';
 import { describe, expect, it } from 'vitest';
 import type { Assignment } from '../../src/fit/assignment';
 import { bandLadders } from '../../src/physics/bandLadders';
@@ -139,18 +140,7 @@ describe('ladderMarkersUpdate', () => {
       lines,
       false,
     );
-    const assignmentAt = (i: number, id: string): Assignment => ({
-      id,
-      jUpper: lines.jUpper[i],
-      kUpper: lines.kUpper[i],
-      jLower: lines.jLower[i],
-      kLower: lines.kLower[i],
-      observedCm1: lines.wavenumberCm1[i],
-      uncertaintyCm1: 0.001,
-      isBlended: false,
-      isExcluded: false,
-      note: '',
-    });
+    const assignmentAt = (i: number, id: string): Assignment => assignmentOfLine(lines, i, id);
     let nMarkers = 0;
     fc.assert(
       fc.property(fc.array(opArb, { minLength: 1, maxLength: 30 }), (ops) => {
@@ -209,23 +199,7 @@ describe('ladderMarkersUpdate', () => {
 
   it('places only the new row when one is appended (the others are copied)', () => {
     const { lines, scene } = setUp();
-    const mk = (i: number): AssignmentRow =>
-      rowOf(
-        {
-          id: `a${i}`,
-          jUpper: lines.jUpper[i],
-          kUpper: lines.kUpper[i],
-          jLower: lines.jLower[i],
-          kLower: lines.kLower[i],
-          observedCm1: lines.wavenumberCm1[i],
-          uncertaintyCm1: 0.001,
-          isBlended: false,
-          isExcluded: false,
-          note: '',
-        },
-        lines,
-        i,
-      );
+    const mk = (i: number): AssignmentRow => rowOf(assignmentOfLine(lines, i, `a${i}`), lines, i);
     const rows = Array.from({ length: 50 }, (_, i) => mk(i));
     let looked = 0;
     const tagOf = () => (looked++, 0);
@@ -373,18 +347,7 @@ describe('ladderScenePaint', () => {
   it('draws assigned lines as dots at the rung tips, flagged ones as crosses, and bars once more than LADDER_DOTS_MAX are in view', () => {
     const big: BandModel = { ...model, jMax: 40, kMax: 8 };
     const { lines, rows, scene } = setUp(big);
-    const mk = (i: number): Assignment => ({
-      id: `a${i}`,
-      jUpper: lines.jUpper[i],
-      kUpper: lines.kUpper[i],
-      jLower: lines.jLower[i],
-      kLower: lines.kLower[i],
-      observedCm1: lines.wavenumberCm1[i],
-      uncertaintyCm1: 0.001,
-      isBlended: false,
-      isExcluded: false,
-      note: '',
-    });
+    const mk = (i: number): Assignment => assignmentOfLine(lines, i, `a${i}`);
     const few = [0, 1, 2].map((i) => rowOf(mk(i), lines, i, { isFar: i === 2 }));
     // A line the model does not predict has no rung, so no marker.
     const unpredicted = rowOf({ ...mk(0), id: 'none', jUpper: 900, jLower: 899 }, lines, 0);
@@ -478,18 +441,7 @@ describe('ladderHitTest', () => {
   it('prefers an assigned marker within 6 px, and its tooltip is the assignment', () => {
     const { lines, rows, scene } = setUp();
     const i = scene.lineIndex[3];
-    const a: Assignment = {
-      id: 'x',
-      jUpper: lines.jUpper[i],
-      kUpper: lines.kUpper[i],
-      jLower: lines.jLower[i],
-      kLower: lines.kLower[i],
-      observedCm1: lines.wavenumberCm1[i] + 0.001,
-      uncertaintyCm1: 0.001,
-      isBlended: false,
-      isExcluded: false,
-      note: '',
-    };
+    const a: Assignment = { ...assignmentOfLine(lines, i, 'x'), observedCm1: lines.wavenumberCm1[i] + 0.001 };
     const markers = ladderMarkersBuild([rowOf(a, lines, i)], scene);
     const view = fullView(lines, rows.length);
     const hit = ladderHitTest(scene, markers, view, px(view, markers.nuCm1[0]) + 3, py(view, markers.y[0]) - 2)!;
