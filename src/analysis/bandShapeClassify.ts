@@ -687,6 +687,25 @@ export function bandShapeClassify(
   let type: BandShapeType;
   let alternativeType: BandShapeType | undefined;
   let implication: string;
+  // The Π–Σ envelope fit with the Q branch held at a spike (its core left out), made once: the
+  // Π–Σ-or-parallel second opinion reads its rms, the Π–Σ B its B and two-sigma range.
+  let piEnvelopeMemo: { spike: Peak; fit: ReturnType<typeof bandEnvelopeFit>['byType'][number] | undefined } | null = null;
+  const piEnvelope = (spike: Peak) => {
+    if (piEnvelopeMemo?.spike !== spike) {
+      const fit = bandEnvelopeFit({
+        x,
+        y,
+        temperatureK: T,
+        types: ['linear-perpendicular'],
+        noiseSigma: sigma,
+        qBranchCm1: spike.x,
+        maskHalfWidthCm1: qBranchCore(x, y, spike, step),
+        rangeRule: 'two-sigma',
+      }).byType[0];
+      piEnvelopeMemo = { spike, fit };
+    }
+    return piEnvelopeMemo.fit;
+  };
   if (profile === 'PR') {
     type = 'linear-parallel';
     // PR implies a linear molecule; a symmetric top's weak, spread Q branch can hide in noise.
@@ -722,15 +741,7 @@ export function bandShapeClassify(
     // every parallel band: below 0.9 the band is read as Π–Σ.
     if (centralSpike && qShare >= 0.2 && !(confidence === 'medium' && type === 'linear-perpendicular')) {
       const core = qBranchCore(x, y, centralSpike, step);
-      const pi = bandEnvelopeFit({
-        x,
-        y,
-        temperatureK: T,
-        types: ['linear-perpendicular'],
-        noiseSigma: sigma,
-        qBranchCm1: centralSpike.x,
-        maskHalfWidthCm1: core,
-      }).byType[0];
+      const pi = piEnvelope(centralSpike);
       const par = bandEnvelopeFit({
         x,
         y,
@@ -817,16 +828,7 @@ export function bandShapeClassify(
   if (type === 'linear-perpendicular' && profile === 'PQR' && centralSpike && bMethod !== 'line-spacing' && confidence !== 'low') {
     const spike = centralSpike;
     const core = qBranchCore(x, y, spike, step);
-    const fit = bandEnvelopeFit({
-      x,
-      y,
-      temperatureK: T,
-      types: ['linear-perpendicular'],
-      noiseSigma: sigma,
-      qBranchCm1: spike.x,
-      maskHalfWidthCm1: core,
-      rangeRule: 'two-sigma',
-    }).byType[0];
+    const fit = piEnvelope(spike);
     if (fit) {
       if (B !== null) evidence.push(`the branch spread gave B = ${B.toPrecision(3)} cm^-1`);
       B = fit.B;
