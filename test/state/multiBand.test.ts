@@ -24,7 +24,7 @@ import { selectAssignmentLevels, selectDrawnBands } from '../../src/state/select
 import { lineLevelLabel } from '../../src/state/systemLevelLabels';
 import { sessionOf, stateFromSession } from '../../src/state/session';
 import { benchStore } from '../../src/state/store';
-import { smallModel } from './fixtures';
+import { smallModel, assignmentOfLine } from './fixtures';
 import { assistantAcceptAll, assistantRunStart, type AssistantRunner } from '../../src/state/actionsAssistant';
 import { assistantBandTrace } from './assistantBand';
 
@@ -207,20 +207,7 @@ describe('a session of several bands', () => {
     const assignments = Array.from({ length: 40 }, (_, n) => {
       const i = n * 7;
       const ref = lines.bandRefs[lines.bandIndex[i]];
-      return {
-        id: `r${n}`,
-        jUpper: lines.jUpper[i],
-        kUpper: lines.kUpper[i],
-        jLower: lines.jLower[i],
-        kLower: lines.kLower[i],
-        observedCm1: lines.wavenumberCm1[i],
-        uncertaintyCm1: 0.001,
-        isBlended: false,
-        isExcluded: false,
-        note: '',
-        band: ref.band,
-        species: ref.species,
-      };
+      return { ...assignmentOfLine(lines, i, `r${n}`), band: ref.band, species: ref.species };
     });
     const s = benchStore.getState();
     // A copy of the system for each run: the resolved rows are kept per system object.
