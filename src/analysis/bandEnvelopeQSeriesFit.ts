@@ -27,6 +27,8 @@ export interface BandEnvelopeQSeriesFitInput {
   combCurvatureCm1?: number;
   /** White-noise σ of y, absorbance. */
   noiseSigma: number;
+  /** Nuclear-spin weights g(K″) = spinWeights[K″ mod length], when the molecule is known. @default [1] */
+  spinWeights?: number[];
 }
 
 /** Result of bandEnvelopeQSeriesFit. */
@@ -207,6 +209,7 @@ export function bandEnvelopeQSeriesFit(input: BandEnvelopeQSeriesFitInput): Band
   let evaluations = 0;
 
   const c2T = SECOND_RADIATION_CM_K / T;
+  const spin = input.spinWeights?.length ? input.spinWeights : [1];
   const dU = input.combCurvatureCm1 ?? 0;
   // Sub-band profiles per B (shared by every shape, ratio, sign and origin tried with that B).
   const profileCache = new Map<number, Map<number, SubBandProfile>>();
@@ -247,7 +250,7 @@ export function bandEnvelopeQSeriesFit(input: BandEnvelopeQSeriesFitInput): Band
       for (let K = deltaK === 1 ? 0 : 1; K <= kMax; K++) {
         const kUp = K + deltaK;
         const nu = (uMinusB + dU) * kUp * kUp - 2 * unique * zeta * kUp * deltaK - uMinusB * K * K;
-        const a = Math.exp(-c2T * uMinusB * K * K);
+        const a = spin[K % spin.length] * Math.exp(-c2T * uMinusB * K * K);
         if (!(a > 1e-12)) continue;
         const p = profileOf(B, K, deltaK);
         subs.push({ nu, a, p });

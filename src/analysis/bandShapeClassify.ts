@@ -35,6 +35,13 @@ export interface BandShapeClassifyOptions {
   opdCm?: number;
   /** Apodization of the spectrometer (with opdCm). @default 'boxcar' */
   apodization?: ApodizationName;
+  /**
+   * Nuclear-spin weights g(K″) = spinWeights[K″ mod length] for the Q-series envelope and contour fits,
+   * when the molecule is known (its Q branches then alternate in height). @default [1]
+   */
+  spinWeights?: number[];
+  /** Called after each run of the contour fit (with opdCm) with the runs done and about how many there will be. */
+  onProgress?: (runsDone: number, runsPlanned: number) => void;
 }
 
 /** Result of bandShapeClassify. */
@@ -858,6 +865,7 @@ export function bandShapeClassify(
       combAnchorCm1: qAnchor,
       combCurvatureCm1: qCurvature,
       noiseSigma: sigma,
+      spinWeights: options.spinWeights,
     });
     if (fit) {
       const wide = fit.bHigh / fit.bLow > Q_SERIES_B_RATIO_GIVEN;
@@ -886,6 +894,8 @@ export function bandShapeClassify(
               apodization: options.apodization ?? 'boxcar',
               noiseSigma: sigma,
               start: fit,
+              spinWeights: options.spinWeights,
+              onProgress: options.onProgress,
             })
           : null;
       if (contour) {

@@ -249,6 +249,13 @@ export const CLI_HELP: Record<string, CliCommandHelp> = {
         unit: 'word',
         default: 'boxcar',
       },
+      {
+        name: 'spin-weights',
+        value: 'W0,W1,W2',
+        text: "with --opd: the molecule's nuclear-spin weights, K weighted by W[K mod their count] (e.g. 4,2,2 for a C3v top with three equivalent protons), which set the Q branches' heights over K in the contour fit",
+        unit: 'numbers',
+        default: 'all K weighted alike',
+      },
     ],
     output: `stdout: JSON {profile, type, origin, B, qSpacing, evidence, confidence, alternativeType, bMethod, bLow, bHigh, bDetermined, temperature, temperatureAssumed, implication, qSeriesEnvelope (with --q-envelope or --opd), qSeriesContour (with --opd)}; cm^-1. ${WARNINGS}`,
     example: 'npm run --silent cli -- classify --trace lowres.csv --from 1100 --to 1200 --temperature 296',

@@ -76,6 +76,64 @@ describe('bandShapeClassify with the instrument (Q-series contour fit, qSeriesCo
     }
   }, 600_000);
 
+  it('finds the true minimum where B has false ones nearby (nearly resolved J lines line up again at another B), or withholds B', () => {
+    // Held-out seed 1069 of bench:contour classify, written out: the contour's χ² has minima at
+    // B = 0.168 and 0.177 cm^-1 beside the true 0.207; a fit from the rigid envelope's B (0.159)
+    // stopped in the first and called it determined (−19 %, ±1 %) before the fit restarted B.
+    const spec: TraceSpec = {
+      shape: 'prolate',
+      band: 'perpendicular',
+      B: 0.2068553188677798,
+      unique: 2.3928918570257385,
+      zeta: -0.17235061530955137,
+      temperatureK: 283.095569582656,
+      opdCm: 2.6591805663425476,
+      apodization: 'norton-beer-strong',
+      origin: 1142.956913728267,
+      noiseRel: 0.025192593841813507,
+      baselineCurvature: 0.002806093459948897,
+      seed: 1070,
+    };
+    const c = traceGenerate(spec);
+    const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, {
+      temperatureK: spec.temperatureK,
+      opdCm: spec.opdCm,
+      apodization: spec.apodization,
+    });
+    const k = r.qSeriesContour;
+    expect(k, r.evidence).toBeDefined();
+    if (k!.determined) {
+      expect(Math.abs(k!.B / spec.B - 1), r.evidence).toBeLessThan(0.1);
+      expect(spec.B).toBeGreaterThanOrEqual(k!.bLow);
+      expect(spec.B).toBeLessThanOrEqual(k!.bHigh);
+    } else expect(k!.whyNot).not.toBe('');
+    // Today it finds the true minimum (B within 0.2 %, σ 0.1 %).
+    expect(k!.determined, r.evidence).toBe(true);
+  }, 600_000);
+
+  it('reads B of a band whose Q branches alternate in height (spin weights 4, 2, 2 of a C3v top) when given the weights, and never gives a confident wrong B without them', () => {
+    // Weights g(K) of a C3v top with three equivalent spin-½ nuclei: 4 for K ≡ 0 (mod 3), 2 otherwise
+    // (K = 0 counted once by the generator's degeneracy), Herzberg II (1945) ch. I, §4 (from memory).
+    const spec: TraceSpec = { ...cases[1], spinWeights: [4, 2, 2] };
+    const c = traceGenerate(spec);
+    const opts = { temperatureK: spec.temperatureK, opdCm: spec.opdCm, apodization: spec.apodization };
+    const withWeights = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { ...opts, spinWeights: [4, 2, 2] });
+    const k = withWeights.qSeriesContour;
+    expect(k, withWeights.evidence).toBeDefined();
+    expect(k!.determined, withWeights.evidence).toBe(true);
+    expect(Math.abs(k!.B / spec.B - 1)).toBeLessThan(0.1);
+    expect(spec.B).toBeGreaterThanOrEqual(k!.bLow);
+    expect(spec.B).toBeLessThanOrEqual(k!.bHigh);
+    // Without them the model's Q branches do not alternate: the fit misses the band, and B is not
+    // called determined (never a confident wrong B).
+    const without = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, opts);
+    const w = without.qSeriesContour;
+    expect(w, without.evidence).toBeDefined();
+    expect(w!.whyNot, without.evidence).toMatch(/leaves .*× the noise/);
+    expect(w!.determined).toBe(false);
+    expect(without.bDetermined === true).toBe(false);
+  }, 600_000);
+
   it('does not call B determined when the residuals are not white (noise smoothed over 5 points: correlated), saying why', () => {
     const c = traceGenerate({ ...cases[0], noiseRel: 0.02 });
     // The same noise passed through a 5-point moving average (×√5 to keep its σ): neighbours correlate.

@@ -143,6 +143,18 @@ describe('classify command', () => {
     expect(d.stderr).toMatch(/--apodization must be one of/);
   });
 
+  it('refuses --spin-weights without --opd, and weights that are not one to three numbers ≥ 0, saying which', async () => {
+    const a = await run(['classify', '--trace', 't.csv', ...region, '--spin-weights', '4,2,2'], files);
+    expect(a.code).toBe(1);
+    expect(a.stderr).toMatch(/--spin-weights needs --opd/);
+    for (const w of ['4,2,x', '1,2,3,4', '0,0,0', '-1,2,2']) {
+      const b = await run(['classify', '--trace', 't.csv', ...region, '--opd', '1', '--spin-weights', w], files);
+      expect(b.code, w).toBe(1);
+      expect(b.stderr, w).toMatch(new RegExp(`--spin-weights must be one to three numbers ≥ 0 .* got '${w}'`));
+      expect(b.stderr.trim().split('\n'), w).toHaveLength(1);
+    }
+  });
+
   it('refuses an inverted region and a bad temperature', async () => {
     const a = await run(['classify', '--trace', 't.csv', '--from', '1300', '--to', '1200'], files);
     expect(a.code).toBe(1);

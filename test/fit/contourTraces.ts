@@ -142,6 +142,8 @@ export interface TraceSpec {
   pointsPerResolution?: number;
   /** Quadratic baseline term at the region's ends, absorbance (0 when absent). */
   baselineCurvature?: number;
+  /** Nuclear-spin weights g(K) = spinWeights[K mod length]. @default [1] */
+  spinWeights?: number[];
 }
 
 const C2 = 1.438776877; // second radiation constant hc/k, cm K (CODATA 2018)
@@ -163,7 +165,7 @@ export function traceModel(spec: TraceSpec): BandModel {
     origin: spec.origin,
     zeta: shape !== 'linear' && band === 'perpendicular' ? (spec.zeta ?? 0) : 0,
   });
-  return { shape, band, lower, upper, temperatureK: T, jMax, kMax, spinWeights: [1] };
+  return { shape, band, lower, upper, temperatureK: T, jMax, kMax, spinWeights: spec.spinWeights ?? [1] };
 }
 
 /** Generate one case (deterministic for its seed). */
