@@ -11,12 +11,12 @@ import { contourDefaultFloat } from '../fit/contourFit';
 import { qBranchFit } from '../fit/qBranchFit';
 import { modelFileParse } from '../io/modelFile';
 import type { ApodizationName } from '../physics/instrumentLineShape';
-import { contourFitRun } from '../workers/contourClient';
+import { bandShapeClassifyRun, contourFitRun } from '../workers/contourClient';
 import { benchUpdate, messagePost } from './actionsCore';
 import { traceOpenAsking } from './actionsImport';
 import { modelReplace } from './actionsModel';
 import { confirmAsk } from './actionsSession';
-import type { ContourFitState, ContourQMaximum } from './contourSlice';
+import type { ContourFitState, ContourQMaximum, ContourRefineState } from './contourSlice';
 import { benchStore } from './store';
 
 const set = (patch: Parameters<typeof benchUpdate>[1]) => benchUpdate('unresolved band', patch, { history: false });
@@ -77,6 +77,58 @@ export function contourDiagnose(): void {
   } catch (err) {
     set(() => ({ contourDiagnosis: null, contourDiagnosisError: (err as Error).message.replace(/^bandShapeClassify: /, '') }));
   }
+}
+
+let refineAbort: AbortController | null = null;
+
+/**
+ * Diagnose the band shape again through the spectrometer (L and apodization of the tab), in the
+ * contour worker with progress and cancel: a series of Q branches then gets its contour fit for B
+ * (qSeriesContourB, several seconds). The diagnosis is replaced only when the run ends; cancel leaves it.
+ */
+export async function contourDiagnoseThroughInstrument(): Promise<void> {
+  const s = benchStore.getState();
+  const region = contourRegionOf();
+  const setRefine = (patch: Partial<ContourRefineState>) => set((st) => ({ contourRefine: { ...st.contourRefine, ...patch } }));
+  if (!s.trace || !region) {
+    set(() => ({ contourDiagnosis: null, contourDiagnosisError: 'Load a trace first.' }));
+    return;
+  }
+  refineAbort?.abort();
+  const ctrl = new AbortController();
+  refineAbort = ctrl;
+  setRefine({ status: 'running', runsDone: 0, runsPlanned: 0, error: null });
+  try {
+    const d = await bandShapeClassifyRun(
+      {
+        wavenumberCm1: s.trace.wavenumberCm1,
+        absorbance: s.trace.absorbance,
+        fromCm1: region[0],
+        toCm1: region[1],
+        options: {
+          temperatureK: s.model.temperatureK,
+          opdCm: s.contourOpdCm,
+          apodization: s.contourApodization,
+          spinWeights: s.model.spinWeights,
+        },
+      },
+      ctrl.signal,
+      (runsDone, runsPlanned) => setRefine({ runsDone, runsPlanned }),
+    );
+    if (refineAbort === ctrl) refineAbort = null;
+    set(() => ({ contourDiagnosis: d, contourDiagnosisError: null }));
+    setRefine({ status: 'idle' });
+  } catch (err) {
+    if (refineAbort === ctrl) refineAbort = null;
+    if ((err as Error).name === 'AbortError') setRefine({ status: 'cancelled', error: null });
+    else setRefine({ status: 'error', error: (err as Error).message.replace(/^bandShapeClassify: /, '') });
+  }
+}
+
+/** Cancel the running diagnosis through the instrument (its worker is terminated; the diagnosis stays). */
+export function contourDiagnoseCancel(): void {
+  refineAbort?.abort();
+  refineAbort = null;
 }
 
 /**

@@ -30,6 +30,15 @@ export interface ContourFitState {
   trace: Trace | null;
 }
 
+/** State of the running or last diagnosis through the instrument (the Q-series contour fit for B, in its worker). */
+export interface ContourRefineState {
+  status: 'idle' | 'running' | 'cancelled' | 'error';
+  /** Contour-fit runs done and about how many there will be. */
+  runsDone: number;
+  runsPlanned: number;
+  error: string | null;
+}
+
 /** The unresolved-band tab: region, instrument, diagnosis, contour fit and Q-branch analysis. */
 export interface ContourSlice {
   /** Region analysed, cm^-1; null = the whole trace. */
@@ -40,6 +49,8 @@ export interface ContourSlice {
   contourDiagnosis: BandShapeClassification | null;
   /** Why the last diagnosis was refused. */
   contourDiagnosisError: string | null;
+  /** The diagnosis through the instrument (contourDiagnoseThroughInstrument). */
+  contourRefine: ContourRefineState;
   contourFit: ContourFitState;
   contourQMaxima: ContourQMaximum[];
   contourQFit: QBranchFitResult | null;
@@ -54,6 +65,7 @@ export function contourSliceInitial(): ContourSlice {
     contourApodization: 'boxcar',
     contourDiagnosis: null,
     contourDiagnosisError: null,
+    contourRefine: { status: 'idle', runsDone: 0, runsPlanned: 0, error: null },
     contourFit: { status: 'idle', stage: 0, iteration: 0, rms: NaN, result: null, error: null, trace: null },
     contourQMaxima: [],
     contourQFit: null,

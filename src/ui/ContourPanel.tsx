@@ -17,6 +17,8 @@ import {
   contourApplyStartModel,
   contourDemoLoad,
   contourDiagnose,
+  contourDiagnoseCancel,
+  contourDiagnoseThroughInstrument,
   contourFitAccept,
   contourFitCancel,
   contourFitStart,
@@ -125,12 +127,56 @@ function DiagnosisBox() {
             {d.B === null ? 'not read from this trace' : `≈ ${d.B.toPrecision(4)} cm⁻¹ (${d.bMethod})`}
             {d.qSpacing !== undefined ? `; Q-branch spacing ${d.qSpacing.toPrecision(5)} cm⁻¹` : ''}
           </p>
+          <QSeriesContourLine />
           <p className="muted small">Evidence: {d.evidence}</p>
           <button type="button" onClick={() => void contourApplyStartModel()} data-testid="contour-start-model">
             Build a starting model from these estimates…
           </button>
         </>
       )}
+    </div>
+  );
+}
+
+/** B of a series of Q branches from the contour fit through the instrument: the offer to run it, its progress, its answer. */
+function QSeriesContourLine() {
+  const d = useBench((s) => s.contourDiagnosis);
+  const refine = useBench((s) => s.contourRefine);
+  const opd = useBench((s) => s.contourOpdCm);
+  const apodization = useBench((s) => s.contourApodization);
+  if (!d || d.profile !== 'Q-series') return null;
+  const c = d.qSeriesContour;
+  return (
+    <div className="contour-qseries-b" data-testid="contour-qseries-b" data-status={refine.status}>
+      {c && (
+        <p data-testid="contour-qseries-b-result" data-b={c.B} data-sigma={c.bSigma} data-determined={c.determined}>
+          Contour fit of the whole band through the instrument: B = {fmt(c.B, c.bSigma)} cm⁻¹ (B ± 2σ {c.bLow.toPrecision(4)} …{' '}
+          {c.bHigh.toPrecision(4)} cm⁻¹), residual {c.rmsOverNoise.toFixed(2)}× the noise.{' '}
+          {c.determined ? <strong>B determined.</strong> : <span className="inline-error">B not determined: {c.whyNot}.</span>}
+        </p>
+      )}
+      {refine.status !== 'running' && (
+        <div className="row">
+          <button type="button" onClick={() => void contourDiagnoseThroughInstrument()} data-testid="contour-qseries-b-run">
+            {c ? 'Read B again through the instrument…' : 'Read B from a contour fit through the instrument…'}
+          </button>
+          <span className="muted small">
+            L = {opd} cm, {apodization}; several contour fits in a worker, some seconds
+          </span>
+        </div>
+      )}
+      {refine.status === 'running' && (
+        <div className="row">
+          <span role="status" data-testid="contour-qseries-b-progress">
+            contour fit {refine.runsDone + 1} of about {Math.max(refine.runsPlanned, refine.runsDone + 1)}
+          </span>
+          <button type="button" onClick={contourDiagnoseCancel} data-testid="contour-qseries-b-cancel">
+            Cancel
+          </button>
+        </div>
+      )}
+      {refine.status === 'cancelled' && <span className="muted">Cancelled; the diagnosis is as it was.</span>}
+      {refine.status === 'error' && <span className="inline-error">{refine.error}</span>}
     </div>
   );
 }

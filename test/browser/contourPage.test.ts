@@ -35,6 +35,26 @@ describe('unresolved-band tab', () => {
     await expect.poll(() => profile.getAttribute('data-profile'), { timeout: 20_000 }).toBe('Q-series');
     expect(await profile.textContent()).toMatch(/symmetric top perpendicular/);
 
+    // B of the Q-branch series from the contour fit through the instrument, in the worker: cancel
+    // leaves the diagnosis as it was; a full run shows B with σ, determined, the demo's B″ inside
+    // B ± 2σ (the model's spin weights 4, 2, 2 passed to the fit).
+    const qb = page.locator('[data-testid=contour-qseries-b]');
+    await page.locator('[data-testid=contour-qseries-b-run]').click();
+    await page.locator('[data-testid=contour-qseries-b-cancel]').click();
+    await expect.poll(() => qb.getAttribute('data-status'), { timeout: 20_000 }).toBe('cancelled');
+    expect(await page.locator('[data-testid=contour-qseries-b-result]').count()).toBe(0);
+    await page.locator('[data-testid=contour-qseries-b-run]').click();
+    await expect.poll(() => page.locator('[data-testid=contour-qseries-b-progress]').count(), { timeout: 20_000 }).toBe(1);
+    const qbResult = page.locator('[data-testid=contour-qseries-b-result]');
+    await expect.poll(() => qbResult.count(), { timeout: 300_000, interval: 1000 }).toBe(1);
+    expect(await qbResult.getAttribute('data-determined')).toBe('true');
+    const bFit = Number(await qbResult.getAttribute('data-b'));
+    const bSigma = Number(await qbResult.getAttribute('data-sigma'));
+    expect(Math.abs(bFit - truth.lower.B)).toBeLessThan(2 * bSigma);
+    expect(await qbResult.textContent()).toMatch(/B determined/);
+    expect(await profile.getAttribute('data-profile')).toBe('Q-series');
+    await page.locator('[data-testid=contour-diagnosis]').screenshot({ path: `${SHOTS}/contour-qseries-b.png` });
+
     // Cancel: start, cancel at once; the worker is terminated and nothing changes.
     await page.locator('[data-testid=contour-fit-start]').click();
     await page.locator('[data-testid=contour-fit-cancel]').click();
@@ -88,5 +108,5 @@ describe('unresolved-band tab', () => {
     await expect.poll(() => page.locator('[data-testid=undo]').getAttribute('title'), { timeout: 20_000 }).not.toMatch(/starting model/);
     expect(log.pageErrors).toEqual([]);
     await context.close();
-  });
+  }, 600_000);
 });

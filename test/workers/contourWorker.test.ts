@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { bandShapeClassify } from '../../src/analysis/bandShapeClassify';
 import { contourHandle } from '../../src/workers/contour.worker';
 import type { ContourRequest, ContourResponse } from '../../src/workers/contourProtocol';
 import { traceGenerate } from '../fit/contourTraces';
@@ -31,4 +32,36 @@ describe('contour.worker', () => {
     contourHandle({ type: 'contour', id: 2, input: { ...input, fromCm1: 10, toCm1: 5 } }, (m) => bad.push(m));
     expect(bad).toEqual([{ type: 'error', id: 2, message: expect.stringMatching(/to > from/) }]);
   });
+
+  it('runs the band-shape diagnosis through the instrument: progress of its contour-fit runs, then the same diagnosis as a direct call; a refusal as an error', () => {
+    // A perpendicular prolate band with a resolved Q-branch comb (generator of test/fit/contourTraces.ts).
+    const spec = {
+      shape: 'prolate' as const,
+      band: 'perpendicular' as const,
+      B: 0.115,
+      unique: 1.1,
+      zeta: 0.3,
+      temperatureK: 180,
+      opdCm: 2.5,
+      apodization: 'boxcar' as const,
+      origin: 1100,
+      noiseRel: 0.01,
+      seed: 12,
+    };
+    const c = traceGenerate(spec);
+    const options = { temperatureK: 180, opdCm: 2.5, apodization: 'boxcar' as const };
+    const input = { wavenumberCm1: c.x, absorbance: c.noisy, fromCm1: c.fromCm1, toCm1: c.toCm1, options };
+    const out: ContourResponse[] = [];
+    contourHandle({ type: 'classify', id: 7, input }, (m) => out.push(m));
+    const progress = out.filter((m) => m.type === 'classify-progress');
+    expect(progress.length).toBeGreaterThanOrEqual(3);
+    const last = out[out.length - 1];
+    expect(last.type).toBe('classify-result');
+    const direct = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, options);
+    expect(last.type === 'classify-result' && last.output).toEqual(direct);
+    expect(direct.qSeriesContour).toBeDefined();
+    const bad: ContourResponse[] = [];
+    contourHandle({ type: 'classify', id: 8, input: { ...input, fromCm1: 10, toCm1: 5 } }, (m) => bad.push(m));
+    expect(bad).toEqual([{ type: 'error', id: 8, message: expect.stringMatching(/to > from/) }]);
+  }, 300_000);
 });
