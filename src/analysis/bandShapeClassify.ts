@@ -235,6 +235,12 @@ function combOf(peaks: Peak[]): { spacing: number; members: Peak[]; regularity: 
  * PQR is read as a Π–Σ band of a linear molecule when the Q branch holds ≥ 40 % of the band's area
  * (Hönl–London: ≈ 1/2 for Π–Σ) and as a parallel band of a symmetric top below; between 30 and 50 %
  * the reading is marked low-confidence, with the other type named.
+ * Second looks at a reading (each said in the evidence): a PR read from an envelope whose highest
+ * maximum sits at the band's centroid (where a Σ–Σ band has its dip) is PQR, rated low; a comb read as
+ * J lines that runs through the band centre with no gap, dip or Q branch and disagrees with the
+ * envelope's P–R maxima is a Q-branch series, rated low; a PQR whose central feature ripples regularly
+ * with a period finer than J lines of the band can be (maxima of the trace, or of the feature less its
+ * smooth outline) is a cluster of Q branches (Q-series).
  * Source: Herzberg, Molecular Spectra and Molecular Structure II (1945), ch. IV (band envelopes of
  * linear and symmetric-top molecules, P–R separation).
  * @param wavenumberCm1 ascending axis, cm^-1
@@ -362,18 +368,24 @@ export function bandShapeClassify(
     const above = plainLobes.filter((l) => l.x > p.x + 0.5 * local);
     return plainLobes.length >= 2 && (below.length === 0 || above.length === 0);
   };
-  const candidate = central
-    .filter((p) => !onOuterLobe(p))
-    .reduce<Peak | null>((best, p) => (!best || p.prominence > best.prominence ? p : best), null);
-  if (candidate) {
+  const mostProminent = (list: Peak[]) => list.reduce<Peak | null>((best, p) => (!best || p.prominence > best.prominence ? p : best), null);
+  // J-line ripple of partly resolved P and R branches rises only part of its height above its
+  // neighbouring minima; a Q branch stands on the dip between P and R.
+  const standsOut = (candidate: Peak): boolean => {
     const others = allPeaks.filter((p) => p !== candidate && Math.abs(p.x - candidate.x) < local).map((p) => p.prominence);
     const ref = others.length ? median(others) : 0;
-    // J-line ripple of partly resolved P and R branches rises only part of its height above its
-    // neighbouring minima; a Q branch stands on the dip between P and R.
-    if (candidate.prominence >= 2.5 * ref && candidate.prominence >= 0.5 * candidate.height && candidate.height >= 0.15 * yMax) {
-      centralSpike = candidate;
-    }
-  }
+    return candidate.prominence >= 2.5 * ref && candidate.prominence >= 0.5 * candidate.height && candidate.height >= 0.15 * yMax;
+  };
+  const candidate = mostProminent(central.filter((p) => !onOuterLobe(p)));
+  if (candidate && standsOut(candidate)) centralSpike = candidate;
+  // The envelope's highest maximum at the band's centroid, standing out as a Q branch would, with
+  // another maximum of the envelope beside it (for the PR second look below; not over a comb).
+  const topLobe = plainLobes.reduce<Peak | null>((b, l) => (!b || l.height > b.height ? l : b), null);
+  const centroidCandidate =
+    !comb && !centralSpike && plainLobes.length >= 2 && topLobe && Math.abs(topLobe.x - centroid) < 0.1 * width
+      ? mostProminent(central.filter((p) => Math.abs(p.x - topLobe.x) < 0.5 * local))
+      : null;
+  const centroidSpike = centroidCandidate && standsOut(centroidCandidate) ? centroidCandidate : null;
 
   // Envelope (with the Q branch cut out and bridged by a chord) for the P and R maxima.
   const bridged = Float64Array.from(y);
@@ -549,6 +561,27 @@ export function bandShapeClassify(
         );
       }
     }
+    // J lines of one band leave a gap of 4B (two spacings) between P(1) and R(0), or a Q branch there,
+    // and its low-J lines next to the centre are weak ((2J+1)·exp(−BJ(J+1)hc/kT), Herzberg II ch. IV).
+    // A comb that runs through the centre with no gap, no Q branch and no dip in its heights, whose
+    // envelope maxima also disagree with its spacing, is not J lines: a perpendicular band's sub-band
+    // Q branches run evenly through the origin (ΔK = +1 on one side, −1 on the other). Only one seeded
+    // band of bench:contour classify (tuning seed 9) showed this, so the reading is rated low.
+    if (profile === 'PR' && combDoubt && !gap && !combDip && !centralSpike && !combCentralPeak) {
+      const fit = qSeriesFit(comb.members, centroid);
+      profile = 'Q-series';
+      // The median gap, not the quadratic's linear term: where the heights sag near the centre the J
+      // lines among the Q branches pull the quadratic (tuning seed 9: −8.0 % against −2.7 %).
+      qSpacing = Math.sign(fit.spacing || 1) * comb.spacing;
+      qAnchor = comb.members.reduce((a, p) => (Math.abs(p.x - centroid) < Math.abs(a.x - centroid) ? p : a)).x;
+      qCurvature = fit.curvature;
+      origin = centroid;
+      B = null;
+      bMethod = 'none';
+      evidence.push(
+        `and the comb runs through the band centre with no gap of two spacings, no Q branch and no dip in its heights, which one band's J lines cannot do (P(1) and R(0) lie 4B apart, and the low-J lines are weak): read as a series of Q branches ${comb.spacing.toPrecision(4)} cm^-1 apart (the comb's median gap), rated low (a regular comb whose intensity pattern and envelope merely disagree with J lines is weaker evidence than a comb too fine or too coarse for them)`,
+      );
+    }
   } else if (twoLobes) {
     const [p, r] = outerLobes(lobes, centre0);
     const separation = r.x - p.x;
@@ -645,6 +678,23 @@ export function bandShapeClassify(
       );
     }
   }
+  // Second look at a PR reading without resolved lines: the envelope's highest maximum at the band's
+  // centroid is no P or R maximum, whatever the lobe list says. A Σ–Σ band's maxima lie ≈ 0.23 of its
+  // 5–95 % width from its centre (I ∝ |x| exp(−x²/a), a = 4BkT/hc: mode 0.71√a, 5–95 % width 3.03√a;
+  // Herzberg II ch. IV) and its centre is the dip between them. An unresolved perpendicular band's
+  // merged Q branches make such a central maximum, one of its P and R maxima often only a shoulder on
+  // the hump's wing that the lobe list misses, so the hump and the other lobe were taken for P and R
+  // (tuning seeds 22 and 61 of bench:contour classify). Rated low: one of the P and R maxima is unseen.
+  if (profile === 'PR' && centroidSpike) {
+    profile = 'PQR';
+    origin = centroidSpike.x;
+    centralSpike = centroidSpike;
+    confidence = 'low';
+    lowOnlyForWeakQ = false;
+    evidence.push(
+      `but the envelope's highest maximum, at ${centroidSpike.x.toFixed(3)} cm^-1, sits at the band's centroid (${centroid.toFixed(3)} cm^-1), where a P and R band has the dip between its maxima: a central Q branch (perhaps the merged Q branches of an unresolved perpendicular band) with one of P and R only a shoulder, so PQR, rated low`,
+    );
+  }
   // Second look at a PQR reading on a regular comb of strong maxima: when the weaker maxima between
   // them make a finer comb of their own, the fine one is the J lines (spacing ≈ 2B) and the strong
   // one a series of Q branches (a light top's perpendicular band with resolved lines).
@@ -676,6 +726,22 @@ export function bandShapeClassify(
     allPeaks.filter((p) => Math.abs(p.x - origin) < width / 10).reduce<Peak | null>((b, p) => (!b || p.height > b.height ? p : b), null);
   if (profile === 'PQR' && qPeak) {
     const cluster = centralQCluster(x, light, qPeak, sigma, step);
+    // Q branches too shallow to stand out as maxima of the trace may still ripple the central feature.
+    const ripple = cluster ? null : centralQRipple(x, light, qPeak, step, 2 * jLow * bSpreadAll);
+    if (ripple) {
+      profile = 'Q-series';
+      qSpacing = ripple.spacing;
+      qAnchor = qPeak.x;
+      qCurvature = ripple.curvature;
+      origin = qPeak.x;
+      B = null;
+      bMethod = 'none';
+      confidence = ripple.members >= 7 && ripple.strength >= 0.5 ? 'medium' : 'low';
+      evidence.push(
+        `but the central feature, less its own smooth outline, ripples with a period of ${ripple.spacing.toPrecision(4)} cm^-1 (${ripple.members} maxima on a regular comb, autocorrelation ${ripple.strength.toFixed(2)}), finer than J lines of this band can be (2B would be at least ${(2 * jLow * bSpreadAll).toPrecision(3)} cm^-1 from the band's spread at ${Math.round(T)} K): a cluster of Q branches with a small spacing, so a series of Q branches` +
+          (confidence === 'low' ? ' (rated low: the ripple has few maxima or is weak)' : ''),
+      );
+    }
     if (cluster) {
       profile = 'Q-series';
       qSpacing = cluster.spacing;
@@ -1018,8 +1084,9 @@ export function bandShapeClassify(
     // (a few per cent of the band): a symmetric top's parallel band whose K structure puts little in
     // its Q branch, or an oblate top's unresolved perpendicular band (Q branches spread over the whole
     // band), shows the same two lobes. On the seeded bands of bench:contour classify every PR call
-    // that was wrong came from such an envelope (tuning seeds 22 and 61, both already low), so an
-    // envelope-only PR is rated low; B, when given, is a Σ–Σ band's and is not called determined.
+    // that was wrong came from such an envelope (tuning seeds 22 and 61, both already low, since read
+    // PQR by the centroid test above), so an envelope-only PR is rated low; B, when given, is a Σ–Σ
+    // band's and is not called determined.
     confidence = 'low';
     evidence.push(
       "PR is rated low: without resolved lines the envelope cannot rule out a weak or smeared Q branch (a symmetric top's parallel band with little intensity in its Q branch, or an oblate top's unresolved perpendicular band)" +
@@ -1242,4 +1309,56 @@ function centralQCluster(
   const half = (inside[inside.length - 1].x - inside[0].x) / Math.abs(fit.spacing) / 2;
   if (!(Math.abs(fit.curvature) * half * half < 0.25 * Math.abs(fit.spacing))) return null;
   return { spacing: fit.spacing, members: inside.length, curvature: fit.curvature };
+}
+
+/**
+ * A regular ripple on the central feature around the spike (where the trace stays above 30 % of the
+ * spike's height), for Q branches too shallow to stand out as maxima of the trace itself: the feature
+ * less its smooth outline (smoothed to a tenth of its width) has an autocorrelation maximum ≥ 0.3 at
+ * a period of ≥ 3 samples and under `maxPeriodCm1`; ≥ 5 maxima of that residual (≥ 25 % of the largest
+ * one's prominence) lie on a regular comb (≥ 80 % of gaps whole multiples of its median gap, within
+ * 15 % of the period), and a quadratic in the index whose curvature moves the outermost member by
+ * < 25 % of a spacing. The spacing returned is the autocorrelation's period, cm^-1.
+ * Thresholds: chosen here (an autocorrelation of noise alone over n samples is of order 1/√n, ≈ 0.1
+ * over the ~100 samples of such a feature).
+ * @param maxPeriodCm1 the finest spacing J lines of the band could have, cm^-1 (a ripple this coarse
+ *   may be J lines)
+ */
+function centralQRipple(
+  x: Float64Array,
+  light: Float64Array,
+  spike: Peak,
+  step: number,
+  maxPeriodCm1: number,
+): { spacing: number; members: number; curvature: number; strength: number } | null {
+  const n = x.length;
+  const floor = 0.3 * spike.height;
+  let lo = spike.index;
+  while (lo > 0 && light[lo] > floor) lo--;
+  let hi = spike.index;
+  while (hi < n - 1 && light[hi] > floor) hi++;
+  const m = hi - lo + 1;
+  if (m < 30) return null;
+  const part = light.slice(lo, hi + 1);
+  const outline = smoothBoxes(part, m / 10);
+  const hp = new Float64Array(m);
+  for (let i = 0; i < m; i++) hp[i] = part[i] - outline[i];
+  const period = residualPeriod(hp, 3, Math.floor(m / 4));
+  if (!period || period.strength < 0.3) return null;
+  const d = period.lag * step;
+  if (!(d < maxPeriodCm1)) return null;
+  const xs = x.slice(lo, hi + 1);
+  const found = refinedPeaks(xs, hp, 0);
+  const top = found.reduce((a, p) => Math.max(a, p.prominence), 0);
+  const picked = found.filter((p) => p.prominence >= 0.25 * top);
+  if (picked.length < 5) return null;
+  const comb = combOf(picked);
+  if (!comb || comb.regularity < 0.8 || Math.abs(comb.spacing / d - 1) > 0.15) return null;
+  const fit = qSeriesFit(picked, spike.x);
+  const half = (picked[picked.length - 1].x - picked[0].x) / Math.abs(fit.spacing) / 2;
+  if (!(Math.abs(fit.curvature) * half * half < 0.25 * Math.abs(fit.spacing))) return null;
+  // The spacing given is the autocorrelation's period: the residual's maxima on the feature's flanks
+  // are pulled by what is left of its slope and by J lines among them, which a line through them
+  // follows (seeded band 8 of bench:contour classify: +3.1 % from the maxima, +1.4 % from the period).
+  return { spacing: d, members: picked.length, curvature: fit.curvature, strength: period.strength };
 }
