@@ -97,6 +97,7 @@ export interface BandShapeClassification {
     | 'bSigma'
     | 'bLow'
     | 'bHigh'
+    | 'otherMinimaB'
     | 'determined'
     | 'fitsBand'
     | 'whyNot'
@@ -413,6 +414,8 @@ export function bandShapeClassify(
   let qAnchor: number | undefined;
   // Set when resolved "J lines" disagree with the envelope's P–R maxima: the reading stays low.
   let combDoubt = false;
+  // A PR reading from resolved lines with an empty gap of 4B at the centre.
+  let emptyCentralGap = false;
   let qCurvature = 0;
 
   const centre0 = tallest ? tallest.x : centroid;
@@ -498,6 +501,25 @@ export function bandShapeClassify(
         `read as J lines the comb would give B = ${(comb.spacing / 2).toPrecision(3)} cm^-1, ${jRatio.toFixed(2)}× the B the band's spread gives at ${T} K (resolved J lines of one band give 1.0–1.2): the maxima are not J lines`,
       );
     if (comb.regularity < 0.9 || comb.members.length < 8 || combFromPeriod || temperatureAssumed) confidence = 'medium';
+    // A perpendicular band's Q branches run through the centre without holes and none towers over its
+    // neighbours. A short comb with a hole of three or more spacings, or whose central member stands
+    // 4× above the others' median, may be a parallel band's Q branch with a few J lines on the comb
+    // (fresh seed 2001 of bench:contour classify: an oblate top's Q branch and four R lines at 2B read
+    // as a Q series at medium): rated low.
+    if (comb.members.length < 8) {
+      const xs = comb.members.map((p) => p.x).sort((a, b) => a - b);
+      let hole = 0;
+      for (let i = 1; i < xs.length; i++) hole = Math.max(hole, (xs[i] - xs[i - 1]) / comb.spacing);
+      const central = comb.members.reduce((a, p) => (Math.abs(p.x - centroid) < Math.abs(a.x - centroid) ? p : a));
+      const others = median(comb.members.filter((p) => p !== central).map((p) => p.prominence));
+      const towering = central.prominence >= 4 * others;
+      if (hole >= 3 || towering) {
+        confidence = 'low';
+        evidence.push(
+          `but the comb is short (${comb.members.length} maxima)${hole >= 3 ? ` with a hole of ${hole.toFixed(1)} spacings` : ''}${towering ? `${hole >= 3 ? ' and' : ''} its central maximum ${(central.prominence / others).toFixed(1)}× the others` : ''}: it may be one Q branch with a few J lines of a parallel band`,
+        );
+      }
+    }
     // Resolved J lines of a parallel band also make a regular comb (spacing 2B). If two envelope
     // maxima sit where P and R maxima of B = spacing/2 would (2.358√(BT), within 25 %), say so.
     const below = plainLobes.filter((l) => l.x < centroid);
@@ -538,6 +560,7 @@ export function bandShapeClassify(
     } else {
       profile = 'PR';
       origin = gap ? gap.centre : centroid;
+      emptyCentralGap = gap !== null;
       evidence.push(
         `resolved lines with spacing ${comb.spacing.toPrecision(4)} cm^-1 (B ≈ spacing/2) in two branches` +
           (gap
@@ -546,7 +569,18 @@ export function bandShapeClassify(
       );
       if (!gap) confidence = 'medium';
     }
-    if (!twoLobes && !combDip) confidence = confidence === 'high' ? 'medium' : 'low';
+    if (!twoLobes && !combDip) {
+      // One band's J lines make two lobes, or at least weak low-J lines beside the centre. A regular
+      // comb with neither, read as J lines around a central peak, may be a series of Q branches whose
+      // central member stands out (fresh seed 2056 of bench:contour classify: a heavy prolate top's Q
+      // branches 0.33 cm^-1 apart read as J lines, B 3.6× too large at medium): rated low, so its B is withheld.
+      if (profile === 'PQR' && confidence !== 'low') {
+        confidence = 'low';
+        evidence.push(
+          "but the envelope shows no separate P and R maxima and the comb no dip in its heights beside the centre, as one band's J lines would: the comb may be a series of Q branches with one standing out",
+        );
+      } else confidence = confidence === 'high' ? 'medium' : 'low';
+    }
     // J lines of spacing 2B put the P and R envelope maxima 2.358√(BT) apart (Herzberg II ch. IV;
     // a symmetric top's K structure only widens them): maxima much farther apart mean the comb is not
     // this band's J lines (e.g. Q branches of an oblate top's perpendicular band, spacing near B).
@@ -660,10 +694,18 @@ export function bandShapeClassify(
       profile = 'PQR';
       origin = t.origin;
       templateQShare = t.qShare;
-      confidence = t.improvement >= 0.5 && t.qShare >= 0.1 ? 'medium' : 'low';
+      const lowBefore = confidence === 'low';
+      confidence = t.improvement >= 0.5 && t.qShare >= 0.1 && !emptyCentralGap ? 'medium' : 'low';
       evidence.push(
         `but a central Q component takes up ${Math.round(100 * t.improvement)} % of a blurred two-lobe P/R template's misfit and holds ${Math.round(100 * t.qShare)} % of the band: the centre is filled by a weak or smeared Q branch, so PQR`,
       );
+      // Resolved lines with an empty gap of 4B at the centre are what a Σ–Σ band shows; the blurred
+      // template only disagrees (fresh seed 3018 of bench:contour classify: a linear molecule's band,
+      // B 1.96 cm^-1, read PQR at medium). Rated low; B from the lines holds either way.
+      if (emptyCentralGap) {
+        if (!lowBefore) lowOnlyForWeakQ = true;
+        evidence.push('but the resolved lines leave the central gap empty, as a band without a Q branch does: PR or PQR is undecided');
+      }
     } else if (t.improvement >= 0.1 && t.qShare >= 0.02) {
       // Between what true Σ–Σ bands gave (≤ 0.02 and ≤ 0.005) and the PQR thresholds: undecided.
       // B does not depend on it (J lines or the P/R wings are the same either way), so it is kept.
@@ -970,6 +1012,7 @@ export function bandShapeClassify(
           bSigma: contour.bSigma,
           bLow: contour.bLow,
           bHigh: contour.bHigh,
+          otherMinimaB: contour.otherMinimaB,
           determined: contour.determined,
           fitsBand: contour.fitsBand,
           whyNot: contour.whyNot,
@@ -988,7 +1031,7 @@ export function bandShapeClassify(
         bMethod = 'envelope-fit';
         contourRange = { low: contour.bLow, high: contour.bHigh, determined: true };
         evidence.push(
-          `${words}; then a contour fit of the band through the instrument (L = ${options.opdCm} cm, ${options.apodization ?? 'boxcar'}; B′, B″, ${u}′, ${u}″, ζ and the origin floated from there, weak-absorption limit): B = ${contour.B.toPrecision(4)} ± ${contour.bSigma.toPrecision(2)} cm^-1, residual ${contour.rmsOverNoise.toFixed(2)}× the noise`,
+          `${words}; then a contour fit of the band through the instrument (L = ${options.opdCm} cm, ${options.apodization ?? 'boxcar'}; B′, B″, ${u}′, ${u}″, ζ and the origin floated from there, weak-absorption limit): B = ${contour.B.toPrecision(4)} ± ${contour.bSigma.toPrecision(2)} cm^-1, residual ${contour.rmsOverNoise.toFixed(2)}× the noise${contour.otherMinimaB.length ? `; other minima about as deep at B = ${contour.otherMinimaB.map((v) => v.toPrecision(4)).join(', ')} cm^-1, so B is given as the range that spans them` : ''}`,
         );
       } else if (contour && contour.fitsBand) {
         // Converged to the noise but B ± 2σ wider than ±10 %: given with that range, not determined.
@@ -1073,7 +1116,7 @@ export function bandShapeClassify(
     else if (!bDetermined) evidence.push('B is not determined: the range is wider than ±15 %');
     evidence.push(
       contourRange
-        ? `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (±2σ of the contour fit)`
+        ? `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (±2σ of the contour fit, over every minimum about as deep)`
         : `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round((newRange ? ENVELOPE_B_FLOOR : rel) * 100)} %, measured on seeded bands)`,
     );
   } else {

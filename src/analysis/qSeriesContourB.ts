@@ -51,10 +51,12 @@ export interface QSeriesContourBResult {
   /** Lower-state B and its 1σ from the fit's covariance, cm^-1. */
   B: number;
   bSigma: number;
-  /** B ± 2σ, cm^-1. */
+  /** B ± 2σ, widened to span every other minimum about as deep (each ± 2σ), cm^-1. */
   bLow: number;
   bHigh: number;
-  /** Whether B counts as determined: fit converged, residual near the noise, B ± 2σ within ±10 %. */
+  /** B of the other minima that fit about as well as the best (Δχ² ≤ 25), outside its B ± 2σ, cm^-1, ascending. */
+  otherMinimaB: number[];
+  /** Whether B counts as determined: fit converged, residual near the noise, B's range (bLow … bHigh) within ±10 %. */
   determined: boolean;
   /** Whether the fit found the band: converged, residual near the noise, B within the range the model was built for. */
   fitsBand: boolean;
@@ -86,10 +88,10 @@ const Q_SERIES_CONTOUR_LAG1_MAX = 0.1;
 
 /**
  * Factors B′ and B″ of the best fit are scaled by for the restarts that look for another minimum of B
- * (chosen here: the false minima of the seeded bands lay 5–20 % below the true B, and as far above is
+ * (chosen here: the false minima of the seeded bands lay 2–20 % below the true B, and as far above is
  * searched alike).
  */
-const B_RESTART_FACTORS = [0.8, 0.9, 1.12, 1.25];
+const B_RESTART_FACTORS = [0.8, 0.9, 0.95, 1.05, 1.12, 1.25];
 
 /** Half-width of B ± 2σ, relative, under which B is called determined (issue's target: B within 10 %). */
 const Q_SERIES_CONTOUR_B_RELATIVE = 0.1;
@@ -105,13 +107,14 @@ const Q_SERIES_CONTOUR_B_RELATIVE = 0.1;
  * near there; B″ and U″ then follow from the sub-bands' P/R wings and the Q-branch heights over K,
  * and B′ − B″, U′ − U″ from the shading of each Q branch (which the rigid envelope lacks).
  * Two routes from the envelope's start, everything floated and U″ held at the envelope's value
- * (then refined with it floated when that route reached the lower residual); the lower residual wins.
- * σ from the residuals (contourFit). B is called determined only when the fit converged, leaves at
- * most Q_SERIES_CONTOUR_RMS_OVER_NOISE × the noise (a fit caught in a false minimum, the rigid start
+ * (then refined with it floated when that route reached the lower residual), then restarts from the
+ * better with B scaled by B_RESTART_FACTORS; the lowest residual wins.
+ * σ from the residuals (contourFit); B's range is B ± 2σ widened over every other minimum about as
+ * deep. B is called determined only when the fit converged, leaves at most
+ * Q_SERIES_CONTOUR_RMS_OVER_NOISE × the noise (a fit caught in a false minimum, the rigid start
  * on the wrong side, left 1.35–4.7× on the tuning seeds of bench:contour classify against 0.6–1.2
- * where it found the band), no other route reaches a B outside B ± 2σ with a residual about as
- * small, its residuals look like white noise (lag-1 autocorrelation ≤ Q_SERIES_CONTOUR_LAG1_MAX) and
- * B ± 2σ lies within ±10 %.
+ * where it found the band), its residuals look like white noise (lag-1 autocorrelation ≤
+ * Q_SERIES_CONTOUR_LAG1_MAX) and that range lies within ±10 %.
  * Source: contourFit (Levenberg–Marquardt, instrument line shape per Griffiths & de Haseth (2007)
  * ch. 2); perpendicular-band structure, Herzberg II (1945) ch. IV.
  * @returns the fit, or null when the contour fit fails (the reason is then not B's)
@@ -228,15 +231,22 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
   const lowest = () => runs.reduce((a, r) => (r.fit.rms < a.fit.rms ? r : a));
   // B's χ² has several minima a few to twenty per cent apart where the P/R lines are nearly resolved
   // (the J structure lines up again at another B; held-out seed 1069 of bench:contour classify: minima
-  // at B = 0.168, 0.177 and the true 0.207 cm^-1, the rigid start falling into the first). So the fit
-  // starts again from the best fit with B′ and B″ scaled by each of B_RESTART_FACTORS (U′ moved so
-  // the comb's U′(1−ζ) − B′ holds, U′ − U″ kept), inside the envelope fit's B range when it gave one;
-  // the lowest residual of all runs wins, and a run reaching another B about as well withholds B below.
+  // at B = 0.168, 0.177 and the true 0.207 cm^-1, the rigid start falling into the first; 1036: 0.166,
+  // 0.168 and the true 0.1715 within Δχ² 16). So the fit starts again from the best fit with B′ and B″
+  // scaled by each of B_RESTART_FACTORS (U′ moved so the comb's U′(1−ζ) − B′ holds, U′ − U″ kept),
+  // brought inside the envelope fit's B range when it gave one; the lowest residual of all runs wins,
+  // and B's range below spans every minimum about as deep.
   const first = lowest();
+  const bFirst = first.fit.parameters['lower.B'].value;
+  const factorsTried: number[] = [];
   for (const f of B_RESTART_FACTORS) {
-    const s = scaledStart(first.fit, f);
+    let factor = f;
+    if (start.bLow !== undefined && start.bHigh !== undefined) factor = Math.min(Math.max(bFirst * f, start.bLow), start.bHigh) / bFirst;
+    // A start the clamp moved onto the best fit's B, or onto one already tried, adds nothing.
+    if (Math.abs(factor - 1) < 0.02 || factorsTried.some((t) => Math.abs(t - factor) < 0.02)) continue;
+    factorsTried.push(factor);
+    const s = scaledStart(first.fit, factor);
     if (!s) continue;
-    if (start.bLow !== undefined && start.bHigh !== undefined && !(s.lower.B >= start.bLow && s.lower.B <= start.bHigh)) continue;
     const run = settle(fitFrom(s.lower, s.upper, floatAll), floatAll);
     if (run) runs.push(run);
   }
@@ -254,26 +264,27 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
   const residualLag1 = r0 > 0 ? r1 / r0 : 0;
   const combo = fit.combinations[`${u}'(1-zeta)-B'`];
   const rmsOverNoise = fit.rms / input.noiseSigma;
-  const bLow = b.value - 2 * b.sigma;
-  const bHigh = b.value + 2 * b.sigma;
+  // Every run that fits about as well (Δχ² ≤ 25 in units of the best fit's residual variance, chosen
+  // here) is a minimum the contour cannot tell from the best: B's range spans them all (each ± 2σ).
+  let bLow = b.value - 2 * b.sigma;
+  let bHigh = b.value + 2 * b.sigma;
+  const otherMinimaB: number[] = [];
+  for (const other of runs) {
+    if (other === best) continue;
+    const dChi2 = fit.nPoints * ((other.fit.rms / fit.rms) ** 2 - 1);
+    const o = other.fit.parameters['lower.B'];
+    if (!(dChi2 <= 25) || !(Math.abs(o.value - b.value) > 2 * b.sigma)) continue;
+    if (!otherMinimaB.some((v) => Math.abs(v - o.value) <= 2 * o.sigma)) otherMinimaB.push(o.value);
+    bLow = Math.min(bLow, o.value - 2 * o.sigma);
+    bHigh = Math.max(bHigh, o.value + 2 * o.sigma);
+  }
+  otherMinimaB.sort((p, q) => p - q);
   const reasons: string[] = [];
   // The model's J range was sized for B ≥ 0.6 × bSized: a B below that lacks its high-J lines.
   if (!(b.value >= 0.6 * bSized))
     reasons.push(
       `B fell to ${b.value.toPrecision(3)} cm^-1, under 0.6× the ${bSized.toPrecision(3)} cm^-1 the model's J range was sized for`,
     );
-  // The other route: if it fits about as well (Δχ² ≤ 25 in units of the best fit's residual
-  // variance, chosen here) with a B outside B ± 2σ, the contour has two answers.
-  for (const other of runs) {
-    if (other === best) continue;
-    const m = fit.nPoints;
-    const dChi2 = m * ((other.fit.rms / fit.rms) ** 2 - 1);
-    const bOther = other.fit.parameters['lower.B'].value;
-    if (dChi2 <= 25 && Math.abs(bOther - b.value) > 2 * b.sigma)
-      reasons.push(
-        `a fit from another route reaches B = ${bOther.toPrecision(3)} cm^-1 with a residual about as small (Δχ² ${dChi2.toFixed(1)})`,
-      );
-  }
   if (residualLag1 > Q_SERIES_CONTOUR_LAG1_MAX)
     reasons.push(
       `the residuals keep structure (lag-1 autocorrelation ${residualLag1.toFixed(2)}, over ${Q_SERIES_CONTOUR_LAG1_MAX}: the model misses part of the band, or the noise is correlated), so σ cannot be trusted`,
@@ -284,13 +295,17 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
       `the contour fit leaves ${rmsOverNoise.toFixed(2)}× the noise (over ${Q_SERIES_CONTOUR_RMS_OVER_NOISE}: it has not found the band's own minimum, or the band is not this model)`,
     );
   const fitsBand = reasons.length === 0;
-  if (!(2 * b.sigma <= Q_SERIES_CONTOUR_B_RELATIVE * b.value))
-    reasons.push(`B ± 2σ spans ±${((200 * b.sigma) / b.value).toFixed(0)} %, over ±${Q_SERIES_CONTOUR_B_RELATIVE * 100} %`);
+  const halfSpan = Math.max(b.value - bLow, bHigh - b.value);
+  if (!(halfSpan <= Q_SERIES_CONTOUR_B_RELATIVE * b.value))
+    reasons.push(
+      `${otherMinimaB.length ? `B ± 2σ with the other minima about as deep (B = ${otherMinimaB.map((v) => v.toPrecision(3)).join(', ')} cm^-1)` : 'B ± 2σ'} spans ±${((100 * halfSpan) / b.value).toFixed(0)} %, over ±${Q_SERIES_CONTOUR_B_RELATIVE * 100} %`,
+    );
   return {
     B: b.value,
     bSigma: b.sigma,
     bLow,
     bHigh,
+    otherMinimaB,
     determined: reasons.length === 0,
     fitsBand,
     whyNot: reasons.join('; '),

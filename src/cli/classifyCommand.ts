@@ -15,7 +15,7 @@ import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand } from '
  * rmsOverNoise, origin} (cm^-1; B from it only when that fit is good enough, see bandShapeClassify).
  * With --opd (maximum optical path difference, cm) and --apodization (default boxcar) a Q-branch
  * series is also fitted as a contour through that instrument (the envelope fit above starts it), and
- * B comes from that fit; reported as "qSeriesContour" {B, bSigma, bLow, bHigh, determined, fitsBand,
+ * B comes from that fit; reported as "qSeriesContour" {B, bSigma, bLow, bHigh, otherMinimaB, determined, fitsBand,
  * whyNot, rmsOverNoise, uniqueZetaMinusB, uniqueZetaMinusBSigma, unique, shape, status} (cm^-1).
  * --spin-weights gives that fit the molecule's nuclear-spin weights by K mod 3 (without it every K
  * is weighted alike, and a band whose Q branches alternate in height fits poorly: B is then withheld).

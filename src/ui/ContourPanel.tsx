@@ -150,8 +150,12 @@ function QSeriesContourLine() {
     <div className="contour-qseries-b" data-testid="contour-qseries-b" data-status={refine.status}>
       {c && (
         <p data-testid="contour-qseries-b-result" data-b={c.B} data-sigma={c.bSigma} data-determined={c.determined}>
-          Contour fit of the whole band through the instrument: B = {fmt(c.B, c.bSigma)} cm⁻¹ (B ± 2σ {c.bLow.toPrecision(4)} …{' '}
-          {c.bHigh.toPrecision(4)} cm⁻¹), residual {c.rmsOverNoise.toFixed(2)}× the noise.{' '}
+          Contour fit of the whole band through the instrument: B = {fmt(c.B, c.bSigma)} cm⁻¹, range {c.bLow.toPrecision(4)} …{' '}
+          {c.bHigh.toPrecision(4)} cm⁻¹
+          {c.otherMinimaB.length
+            ? ` (B ± 2σ widened over other minima about as deep, at B = ${c.otherMinimaB.map((v) => v.toPrecision(4)).join(', ')} cm⁻¹)`
+            : ' (B ± 2σ)'}
+          , residual {c.rmsOverNoise.toFixed(2)}× the noise.{' '}
           {c.determined ? <strong>B determined.</strong> : <span className="inline-error">B not determined: {c.whyNot}.</span>}
         </p>
       )}

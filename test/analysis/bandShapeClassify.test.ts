@@ -280,6 +280,31 @@ describe('bandShapeClassify on seeded bands (training seeds 0–19, held-out see
     expect(w.r.B).toBeNull();
   });
 
+  it('rates low, never medium, three readings that were confidently wrong on fresh seeds (2001, 2056, 3018), saying why', () => {
+    // Fresh seeds of classifySpecRandom, each wrong at medium before:
+    // 2001: an oblate parallel band (B 1.46 cm^-1, T 100 K) whose Q branch and four R lines at 2B form a
+    //   short comb with a hole of six spacings, read as a Q series;
+    // 2056: a heavy prolate perpendicular band (B 0.036 cm^-1) whose Q branches 2[A′(1−ζ) − B′] = 0.33 cm^-1
+    //   apart (Herzberg II ch. IV) were read as J lines around a central peak, B 3.6× too large and
+    //   called determined; no separate P/R maxima and no dip beside the centre;
+    // 3018: a linear molecule's Σ–Σ band (B 1.96 cm^-1) with resolved lines and an empty gap of 4B at the
+    //   centre, read PQR from the blurred envelope template.
+    const [r2001] = seededRows(2001, 1);
+    expect(r2001.r.profile).not.toBe(r2001.visible.profile);
+    expect(r2001.r.confidence).toBe('low');
+    expect(r2001.r.evidence).toMatch(/one Q branch with a few J lines/);
+    const [r2056] = seededRows(2056, 1);
+    expect(r2056.r.confidence).toBe('low');
+    expect(r2056.r.B).toBeNull();
+    expect(r2056.r.evidence).toMatch(/may be a series of Q branches with one standing out/);
+    const [r3018] = seededRows(3018, 1);
+    expect(r3018.visible.profile).toBe('PR');
+    expect(r3018.r.confidence).toBe('low');
+    expect(r3018.r.evidence).toMatch(/leave the central gap empty/);
+    // B from the resolved lines stands either way (measured −1.2 %).
+    expect(Math.abs(r3018.r.B! / classifySpecRandom(3018).B - 1)).toBeLessThan(0.1);
+  });
+
   it('reads an unresolved perpendicular band whose P or R maximum is only a shoulder as PQR, not PR (seeds 22 and 61)', () => {
     // Tuning seeds 22 (oblate, B 0.39 cm^-1) and 61 (prolate, B 0.47 cm^-1): perpendicular bands whose
     // Q-branch combs the instrument does not pass (1/d > L: merged into one central maximum,

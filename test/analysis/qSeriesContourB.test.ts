@@ -111,6 +111,39 @@ describe('bandShapeClassify with the instrument (Q-series contour fit, qSeriesCo
     expect(k!.determined, r.evidence).toBe(true);
   }, 600_000);
 
+  it('gives B as a range over every minimum about as deep, with the truth inside, where the contour cannot choose between them', () => {
+    // Held-out seed 1036 of bench:contour classify, written out: minima at B = 0.166 and 0.168 cm^-1
+    // within Δχ² 16 of the true 0.1715; the best fit's B ± 2σ alone (±0.5 %) missed the truth by 3.4 %.
+    const spec: TraceSpec = {
+      shape: 'prolate',
+      band: 'perpendicular',
+      B: 0.17150777815400683,
+      unique: 2.371455195938129,
+      zeta: 0.510327578522265,
+      temperatureK: 237.08776393905282,
+      opdCm: 2.7427249624859544,
+      apodization: 'triangular',
+      origin: 1198.2414543628693,
+      noiseRel: 0.010328793640248477,
+      baselineCurvature: 0.00949154139496386,
+      seed: 1037,
+    };
+    const c = traceGenerate(spec);
+    const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, {
+      temperatureK: spec.temperatureK,
+      opdCm: spec.opdCm,
+      apodization: spec.apodization,
+    });
+    const k = r.qSeriesContour;
+    expect(k, r.evidence).toBeDefined();
+    expect(spec.B, r.evidence).toBeGreaterThanOrEqual(k!.bLow);
+    expect(spec.B, r.evidence).toBeLessThanOrEqual(k!.bHigh);
+    if (k!.determined) expect(Math.max(k!.B - k!.bLow, k!.bHigh - k!.B) / k!.B).toBeLessThanOrEqual(0.1);
+    // Measured: B 0.1656, range 0.165–0.175 over the minima at 0.1656 … 0.1714, determined.
+    expect(k!.otherMinimaB.length, r.evidence).toBeGreaterThan(0);
+    expect(r.evidence).toMatch(/other minima about as deep/);
+  }, 600_000);
+
   it('reads B of a band whose Q branches alternate in height (spin weights 4, 2, 2 of a C3v top) when given the weights, and never gives a confident wrong B without them', () => {
     // Weights g(K) of a C3v top with three equivalent spin-½ nuclei: 4 for K ≡ 0 (mod 3), 2 otherwise
     // (K = 0 counted once by the generator's degeneracy), Herzberg II (1945) ch. I, §4 (from memory).
