@@ -475,7 +475,14 @@ export function bandShapeClassify(
   const combIsQSeries = (comb !== null && !twoLobes && !combDip && !combCentralPeak && !centralSpike) || combIsQSeriesBySpacing;
   if (comb && combIsQSeries) {
     profile = 'Q-series';
-    const fit = qSeriesFit(comb.members, centroid);
+    // Every third Q branch stronger (nuclear-spin weights): the comb found among the strongest maxima
+    // is then three times the true spacing, and the weaker Q branches sit at its thirds.
+    const thirds = combThirds(x, y, comb.members, comb.spacing);
+    const thirdsShown = (b: number, e: number) => b >= COMB_THIRDS_BUMP && b >= COMB_THIRDS_SIGNIFICANCE * e;
+    const thirdsSeen = [0, 1].filter((t) => thirdsShown(thirds.bumps[t], thirds.errors[t])).length;
+    const subdivided = thirds.gaps >= 3 && thirdsSeen === 2;
+    const thirdsWords = `the trace folded over ${thirds.gaps} of the comb's gaps rises at a third and two thirds by ${thirds.bumps.map((b) => Math.round(100 * b)).join(' and ')} % of the strong maxima (± ${thirds.errors.map((e) => Math.round(100 * e)).join(' and ')} %) over the troughs beside them`;
+    const fit = qSeriesFit(subdivided ? thirds.members : comb.members, centroid);
     qSpacing = fit.spacing;
     if (combTooFine && !(comb.regularity >= 0.85)) {
       // A less regular comb (J lines among the Q branches) pulls the quadratic's linear term: the
@@ -495,6 +502,16 @@ export function bandShapeClassify(
       evidence.push(
         `the comb is less regular than 85 % (J lines among the Q branches pull the quadratic), so its median gap ${comb.spacing.toPrecision(4)} cm^-1 is given as the spacing`,
       );
+    if (subdivided)
+      evidence.push(
+        `${thirdsWords}: weaker Q branches sit there, every third one stronger (nuclear-spin weights, as a C3v top's K = 3n sub-bands are twice as strong), so the spacing is a third of the strong comb's ${comb.spacing.toPrecision(4)} cm^-1`,
+      );
+    else if (thirds.gaps >= 3 && thirdsSeen === 1) {
+      confidence = 'low';
+      evidence.push(
+        `but ${thirdsWords}: one third shows a weaker maximum, so every third Q branch may be stronger (nuclear-spin weights), and the spacing then a third of ${comb.spacing.toPrecision(4)} cm^-1`,
+      );
+    }
     if (combFromPeriod) evidence.push('the comb was found from the periodicity of the trace minus its envelope');
     if (combNotJLines)
       evidence.push(
@@ -1235,6 +1252,72 @@ function centralGap(members: Peak[], spacing: number, centroid: number): { centr
  * nearest the centroid (gaps of two or three spacings count as missing members).
  * Source: sub-band Q-branch positions quadratic in K, Herzberg II (1945) ch. IV.
  */
+/** Folded height at each third, over the troughs beside it, as a share of the strong maxima's, above which the comb is subdivided (chosen here). */
+const COMB_THIRDS_BUMP = 0.12;
+
+/** Significance of each third's bump, in standard errors over the comb's gaps (chosen here). */
+const COMB_THIRDS_SIGNIFICANCE = 4;
+
+/**
+ * Weaker Q branches at a third and two thirds of each gap of a comb. Nuclear-spin weights make every
+ * third Q branch of a perpendicular band stronger (a C3v top with three equivalent protons: weights
+ * 4, 2, 2 for K ≡ 0, 1, 2 mod 3, Herzberg II (1945) ch. I, from memory), so the comb of the strongest
+ * maxima is three times the true spacing. The trace is folded over the comb's single gaps (phase 0 at
+ * one member, 1 at the next, so a curved comb folds too), each gap taken about its own mean and
+ * scaled by its members' height above it; a bump at phase 1/3 and at 2/3 over the troughs at 1/6, 1/2
+ * and 5/6, large and significant over the gaps, subdivides the comb.
+ * @returns the comb with the thirds added (at their folded positions), the two bumps (shares of the strong maxima), their standard errors and the number of gaps folded
+ */
+function combThirds(
+  x: Float64Array,
+  y: Float64Array,
+  members: Peak[],
+  spacing: number,
+): { members: Peak[]; bumps: [number, number]; errors: [number, number]; gaps: number } {
+  const sorted = [...members].sort((a, b) => a.x - b.x);
+  const bins = 12;
+  // Per gap, the mean scaled height in each bin.
+  const rows: number[][] = [];
+  const added: Peak[] = [];
+  for (let i = 1; i < sorted.length; i++) {
+    const a = sorted[i - 1];
+    const b = sorted[i];
+    const g = b.x - a.x;
+    if (Math.abs(g / spacing - 1) > 0.25 || b.index - a.index < bins) continue;
+    let mean = 0;
+    for (let k = a.index; k <= b.index; k++) mean += y[k];
+    mean /= b.index - a.index + 1;
+    const amplitude = 0.5 * (y[a.index] + y[b.index]) - mean;
+    if (!(amplitude > 0)) continue;
+    const sum = new Float64Array(bins + 1);
+    const count = new Float64Array(bins + 1);
+    for (let k = a.index; k <= b.index; k++) {
+      const bin = Math.round(((x[k] - a.x) / g) * bins);
+      if (bin < 0 || bin > bins) continue;
+      sum[bin] += (y[k] - mean) / amplitude;
+      count[bin]++;
+    }
+    if (!(count[2] && count[4] && count[6] && count[8] && count[10])) continue;
+    rows.push(Array.from(sum, (v, k) => v / count[k]));
+    added.push(
+      { x: a.x + g / 3, height: 0, prominence: 0, index: a.index + Math.round((b.index - a.index) / 3) },
+      { x: a.x + (2 * g) / 3, height: 0, prominence: 0, index: a.index + Math.round((2 * (b.index - a.index)) / 3) },
+    );
+  }
+  const gaps = rows.length;
+  const bumpOf = (r: number[], c: number) => r[c] - 0.5 * (r[c - 2] + r[c + 2]);
+  const stats = (c: number): [number, number] => {
+    if (gaps < 2) return [0, Infinity];
+    const v = rows.map((r) => bumpOf(r, c));
+    const m = v.reduce((p, q) => p + q, 0) / gaps;
+    const sd = Math.sqrt(v.reduce((p, q) => p + (q - m) ** 2, 0) / (gaps - 1));
+    return [m, sd / Math.sqrt(gaps)];
+  };
+  const [b1, e1] = stats(4);
+  const [b2, e2] = stats(8);
+  return { members: [...sorted, ...added].sort((p, q) => p.x - q.x), bumps: [b1, b2], errors: [e1, e2], gaps };
+}
+
 function qSeriesFit(members: Peak[], centroid: number): { spacing: number; curvature: number } {
   let centre = 0;
   for (let i = 1; i < members.length; i++) if (Math.abs(members[i].x - centroid) < Math.abs(members[centre].x - centroid)) centre = i;

@@ -280,6 +280,54 @@ describe('bandShapeClassify on seeded bands (training seeds 0–19, held-out see
     expect(w.r.B).toBeNull();
   });
 
+  it('gives the Q spacing of a band whose Q branches alternate strong, weak, weak (spin weights 4, 2, 2), not three times it', () => {
+    // Nuclear-spin weights of a C3v top with three equivalent protons: 4 for K ≡ 0 (mod 3), 2 otherwise
+    // (Herzberg II (1945) ch. I, from memory). The strongest maxima then make a comb three times the
+    // Q-branch spacing 2[A′(1−ζ) − B′] (Herzberg II ch. IV), which was given (+200 %, at medium) on 9 of
+    // the 34 Q-series of bench:contour classify --spin-c3v (seeds 0–79, 1000–1079) before the fold.
+    const specs: TraceSpec[] = [
+      {
+        shape: 'prolate',
+        band: 'perpendicular',
+        B: 0.27,
+        unique: 1.43,
+        zeta: 0.06,
+        temperatureK: 300,
+        opdCm: 1.5,
+        apodization: 'norton-beer-strong',
+        origin: 1500,
+        noiseRel: 0.005,
+        seed: 11,
+      },
+      {
+        shape: 'prolate',
+        band: 'perpendicular',
+        B: 0.045,
+        unique: 0.77,
+        zeta: -0.2,
+        temperatureK: 250,
+        opdCm: 3.5,
+        apodization: 'happ-genzel',
+        origin: 900,
+        noiseRel: 0.005,
+        seed: 13,
+      },
+    ];
+    for (const base of specs) {
+      for (const spinWeights of [[4, 2, 2], [1]]) {
+        const spec = { ...base, spinWeights };
+        const c = traceGenerate(spec);
+        const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, { temperatureK: spec.temperatureK });
+        const truth = 2 * (spec.unique! * (1 - spec.zeta!) - spec.B);
+        const label = `B ${spec.B} weights ${spinWeights}: ${r.evidence}`;
+        expect(r.profile, label).toBe('Q-series');
+        expect(Math.abs(Math.abs(r.qSpacing!) / truth - 1), label).toBeLessThan(0.03);
+        if (spinWeights.length === 3) expect(r.evidence, label).toMatch(/every third one stronger/);
+        else expect(r.evidence, label).not.toMatch(/every third/);
+      }
+    }
+  });
+
   it('rates low, never medium, three readings that were confidently wrong on fresh seeds (2001, 2056, 3018), saying why', () => {
     // Fresh seeds of classifySpecRandom, each wrong at medium before:
     // 2001: an oblate parallel band (B 1.46 cm^-1, T 100 K) whose Q branch and four R lines at 2B form a

@@ -254,11 +254,11 @@ function scoreB(group: string, given: { err: number; inRange: boolean; determine
 }
 
 /**
- * classify N [FIRST] [--q-envelope] [--opd]: the band-shape diagnosis alone (with --q-envelope, also the Q-series envelope fit;
+ * classify N [FIRST] [--q-envelope] [--opd] [--spin-c3v]: the band-shape diagnosis alone (with --q-envelope, also the Q-series envelope fit;
  * with --opd, each case's L and apodization given, so Q-series also get the contour fit) on N cases of classifySpecRandom (every
  * apodization, curved baselines); per case and a summary by expected profile and by confidence.
  */
-function classifyCases(count: number, first: number, withQEnvelope: boolean, withOpd: boolean): void {
+function classifyCases(count: number, first: number, withQEnvelope: boolean, withOpd: boolean, spinC3v: boolean): void {
   const byProfile: Record<string, { n: number; ok: number }> = {};
   const byConfidence: Record<string, { n: number; ok: number }> = {};
   const bErr: number[] = [];
@@ -277,7 +277,10 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean, wit
   const wrongConfident: number[] = [];
   const wrongFlagged: number[] = [];
   for (let s = first; s < first + count; s++) {
-    const spec = classifySpecRandom(s);
+    const base = classifySpecRandom(s);
+    // --spin-c3v: every symmetric top gets the nuclear-spin weights 4, 2, 2 of a C3v top with three
+    // equivalent protons (its Q branches then alternate strong, weak, weak), told to the contour fit.
+    const spec = spinC3v && base.shape !== 'linear' ? { ...base, spinWeights: [4, 2, 2] } : base;
     const c = traceGenerate(spec);
     const vis = traceVisibleProfile(c);
     const row: Record<string, unknown> = {
@@ -298,7 +301,7 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean, wit
       const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, {
         temperatureK: spec.temperatureK,
         qSeriesEnvelope: withQEnvelope,
-        ...(withOpd ? { opdCm: spec.opdCm, apodization: spec.apodization } : {}),
+        ...(withOpd ? { opdCm: spec.opdCm, apodization: spec.apodization, spinWeights: spec.spinWeights } : {}),
       });
       ms += performance.now() - t0;
       // A faint Q-branch series may be read either way, not rated high (traceVisibleProfile).
@@ -393,5 +396,11 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean, wit
 const [what = 'speed', nArg, firstArg] = process.argv.slice(2);
 if (what === 'speed') speed();
 else if (what === 'classify')
-  classifyCases(Number(nArg ?? 60), Number(firstArg ?? 0), process.argv.includes('--q-envelope'), process.argv.includes('--opd'));
+  classifyCases(
+    Number(nArg ?? 60),
+    Number(firstArg ?? 0),
+    process.argv.includes('--q-envelope'),
+    process.argv.includes('--opd'),
+    process.argv.includes('--spin-c3v'),
+  );
 else targets(Number(nArg ?? 30));
