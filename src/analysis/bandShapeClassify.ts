@@ -280,8 +280,12 @@ export function bandShapeClassify(
   const edge = Math.max(3, Math.floor(0.04 * n));
   const leftLevel = median(Array.from(raw.subarray(0, edge)));
   const rightLevel = median(Array.from(raw.subarray(n - edge)));
-  const xl = x[Math.floor(edge / 2)];
-  const xr = x[n - 1 - Math.floor(edge / 2)];
+  // Each level belongs at its window's median wavenumber (for an even window, halfway between the two
+  // middle points): half a sample off, a steep baseline tilts the line by half a sample's rise at each
+  // end, which swamped a weak band on a sloping one (bench:contour targets seed 31: a band of 2e-6 on a
+  // baseline rising 9e-6 per sample, read as a Q-series rated high).
+  const xl = median(Array.from(x.subarray(0, edge)));
+  const xr = median(Array.from(x.subarray(n - edge)));
   const y = new Float64Array(n);
   for (let i = 0; i < n; i++) y[i] = raw[i] - (leftLevel + ((rightLevel - leftLevel) * (x[i] - xl)) / (xr - xl));
   const sigma = noiseSigmaEstimate(x, y);
@@ -585,6 +589,15 @@ export function bandShapeClassify(
             : ', no central Q branch'),
       );
       if (!gap) confidence = 'medium';
+    }
+    if (combNotJLines && confidence !== 'low') {
+      // B = spacing/2 far from what the band's spread gives at T (J-line combs gave 1.0–1.2): the comb
+      // is not this band's J lines, whatever stands at the centre (targets seed 19 of bench:contour: an
+      // oblate top's Q branches 0.75 cm^-1 apart, under 2B, read as J lines with B −64 % at medium).
+      confidence = 'low';
+      evidence.push(
+        `but read as J lines the comb gives B ${jRatio.toFixed(2)}× what the band's spread gives at ${Math.round(T)} K (${jLow}–${jHigh} accepted): the maxima may be Q branches, not J lines`,
+      );
     }
     if (!twoLobes && !combDip) {
       // One band's J lines make two lobes, or at least weak low-J lines beside the centre. A regular

@@ -126,6 +126,10 @@ function speed(): void {
 function targets(count: number): void {
   const rows: Record<string, unknown>[] = [];
   let profileOk = 0;
+  // Against the profile the trace visibly shows (traceVisibleProfile, as classify is scored below),
+  // and wrong readings rated medium or high.
+  let visibleOk = 0;
+  const wrongConfident: number[] = [];
   let bChecked = 0;
   let bOk = 0;
   let qChecked = 0;
@@ -162,6 +166,11 @@ function targets(count: number): void {
       row.confidence = r.confidence;
       row.bMethod = r.bMethod;
       if (r.profile === c.profile) profileOk++;
+      const vis = traceVisibleProfile(c);
+      row.visible = vis.profile;
+      const okVisible = r.profile === vis.profile || (vis.ambiguous && r.confidence !== 'high' && r.profile !== 'PR');
+      if (okVisible) visibleOk++;
+      else if (r.confidence !== 'low') wrongConfident.push(s);
       if (r.B !== null && c.profile !== 'Q-series') {
         bChecked++;
         row.Berr = Number((r.B / spec.B - 1).toFixed(3));
@@ -226,6 +235,8 @@ function targets(count: number): void {
       summary: 'targets',
       cases: count,
       profileRight: `${profileOk}/${count}`,
+      profileRightVisible: `${visibleOk}/${count}`,
+      wrongConfident: `${wrongConfident.length} [${wrongConfident.join(', ')}]`,
       bWithin10pc: `${bOk}/${bChecked}`,
       qSpacingWithin3pc: `${qOk}/${qChecked}`,
       simWithin1p5Noise: `${simOk}/${fits}`,
