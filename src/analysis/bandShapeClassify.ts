@@ -510,7 +510,13 @@ export function bandShapeClassify(
       evidence.push(
         `${thirdsWords}: weaker Q branches sit there, every third one stronger (nuclear-spin weights, as a C3v top's K = 3n sub-bands are twice as strong), so the spacing is a third of the strong comb's ${comb.spacing.toPrecision(4)} cm^-1`,
       );
-    else if (thirds.gaps >= 3 && thirdsSeen === 1) {
+    else if (thirds.gaps < 3) {
+      // Too few samples per gap to fold: Q branches at the thirds could not be seen even if there.
+      if (confidence === 'high') confidence = 'medium';
+      evidence.push(
+        `the comb's gaps are too short to look for weaker Q branches at their thirds: if every third Q branch is stronger (nuclear-spin weights, as in a C3v top) and the others are not resolved, the Q-branch spacing is a third of ${comb.spacing.toPrecision(4)} cm^-1`,
+      );
+    } else if (thirdsSeen === 1) {
       confidence = 'low';
       evidence.push(
         `but ${thirdsWords}: one third shows a weaker maximum, so every third Q branch may be stronger (nuclear-spin weights), and the spacing then a third of ${comb.spacing.toPrecision(4)} cm^-1`,
