@@ -71,8 +71,21 @@ const TRACE_STEPS = 8;
  * the first is often JIT-cold, so a few. Recording slows those clicks; their times stay in the medians.
  */
 const ASSIGN_RECORDED_CLICKS = 3;
-/** Trace categories: the main thread's tasks, script, layout and frames, for DevTools' Performance panel. */
-const TRACE_CATEGORIES = ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'blink', 'cc', 'v8.execute', 'toplevel'];
+/**
+ * Trace categories: the main thread's tasks, script, layout and frames, and the compositor and raster
+ * threads' work (cc, viz, gpu, frame events), for DevTools' Performance panel.
+ */
+const TRACE_CATEGORIES = [
+  'devtools.timeline',
+  'disabled-by-default-devtools.timeline',
+  'disabled-by-default-devtools.timeline.frame',
+  'blink',
+  'cc',
+  'viz',
+  'gpu',
+  'v8.execute',
+  'toplevel',
+];
 const LAUNCH_ARGS = [
   '--headless',
   '--no-sandbox',
