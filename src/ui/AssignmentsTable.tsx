@@ -1,4 +1,4 @@
-/** The assignments table: virtualised rows, sort and filter, inline edits; a row click zooms the plot to the line. */
+/** The assignments table: windowed rows (fixed height, tableWindow.ts), sort and filter, inline edits; a row click zooms the plot to the line. */
 import { memo, useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import { formatFixed } from '../io/numberFormat';
 import type { TransitionQuanta } from '../physics/model';
