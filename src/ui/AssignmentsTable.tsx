@@ -1,6 +1,5 @@
-/** The assignments table: virtualised rows, sort and filter, inline edits; a row click zooms the plot to the line. */
-import { useVirtualizer } from '@tanstack/react-virtual';
-import { memo, useCallback, useEffect, useMemo, useRef, useState } from 'react';
+/** The assignments table: windowed rows (fixed height, tableWindow.ts), sort and filter, inline edits; a row click zooms the plot to the line. */
+import { memo, useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import { formatFixed } from '../io/numberFormat';
 import type { TransitionQuanta } from '../physics/model';
 import { assignmentDelete, assignmentEdit, assignmentSelect } from '../state/actionsAssign';
@@ -13,8 +12,12 @@ import { tableRowsQueryMemo } from '../state/tableQuery';
 import type { TableQuery } from '../state/viewSlice';
 import { LineLabel } from './LineLabel';
 import { NumberField } from './NumberField';
+import { rowWindow, scrollTopShowing } from './tableWindow';
 
 const ROW_HEIGHT = 30;
+
+/** Rows rendered above and below the visible ones (a fast scroll shows them before the next render). */
+const OVERSCAN_ROWS = 8;
 
 const NOTHING_TICKED: string[] = [];
 
@@ -271,12 +274,27 @@ export function AssignmentsTable() {
   const query = useMemo(() => tableRowsQueryMemo(), []);
   const shown = useMemo(() => query(rows, q), [query, rows, q]);
   const scrollRef = useRef<HTMLDivElement>(null);
-  const virtualizer = useVirtualizer({
-    count: shown.length,
-    getScrollElement: () => scrollRef.current,
-    estimateSize: () => ROW_HEIGHT,
-    overscan: 12,
-  });
+  // Every row is ROW_HEIGHT high, so the rows in view follow from the scroll offset and the body's
+  // height alone (rowWindow): no per-row measurement when rows are added, and no read of the layout.
+  const [band, setBand] = useState({ topPx: 0, heightPx: 0 });
+  const bandRef = useRef(band);
+  bandRef.current = band;
+  useLayoutEffect(() => {
+    const el = scrollRef.current;
+    if (!el) return;
+    const set = (topPx: number, heightPx: number) =>
+      setBand((b) => (b.topPx === topPx && b.heightPx === heightPx ? b : { topPx, heightPx }));
+    set(el.scrollTop, el.clientHeight);
+    const onScroll = () => set(el.scrollTop, bandRef.current.heightPx);
+    el.addEventListener('scroll', onScroll, { passive: true });
+    const ro = typeof ResizeObserver === 'undefined' ? null : new ResizeObserver((e) => set(el.scrollTop, e[0].contentRect.height));
+    ro?.observe(el);
+    return () => {
+      el.removeEventListener('scroll', onScroll);
+      ro?.disconnect();
+    };
+  }, []);
+  const win = rowWindow(band.topPx, band.heightPx, shown.length, ROW_HEIGHT, OVERSCAN_ROWS);
   const nFar = useMemo(() => rows.reduce((n, r) => n + (r.isFar ? 1 : 0), 0), [rows]);
   const [checked, setChecked] = useState<ReadonlySet<string>>(() => new Set());
   const anchor = useRef<string | null>(null);
@@ -303,12 +321,16 @@ export function AssignmentsTable() {
     if (!selectedId) return;
     let frame = requestAnimationFrame(() => {
       frame = requestAnimationFrame(() => {
+        const el = scrollRef.current;
         const i = shownRef.current.findIndex((r) => r.a.id === selectedId);
-        if (i >= 0) virtualizer.scrollToIndex(i, { align: 'auto' });
+        if (!el || i < 0) return;
+        const { topPx, heightPx } = bandRef.current;
+        const to = scrollTopShowing(i, topPx, heightPx, ROW_HEIGHT);
+        if (to !== topPx) el.scrollTop = to;
       });
     });
     return () => cancelAnimationFrame(frame);
-  }, [selectedId, virtualizer]);
+  }, [selectedId]);
   const onCheck = useCallback((id: string, isOn: boolean, isRange: boolean) => {
     const shown = shownRef.current;
     setChecked((prev) => {
@@ -408,17 +430,17 @@ export function AssignmentsTable() {
                 : 'No row matches the filter.'}
             </p>
           ) : (
-            <div style={{ height: virtualizer.getTotalSize(), position: 'relative' }}>
-              {virtualizer.getVirtualItems().map((v) => (
+            <div style={{ height: shown.length * ROW_HEIGHT, position: 'relative' }}>
+              {shown.slice(win.start, win.end).map((r, k) => (
                 <Row
-                  key={shown[v.index].a.id}
-                  r={shown[v.index]}
-                  isSelected={shown[v.index].a.id === selectedId}
-                  isChecked={checked.has(shown[v.index].a.id)}
+                  key={r.a.id}
+                  r={r}
+                  isSelected={r.a.id === selectedId}
+                  isChecked={checked.has(r.a.id)}
                   onCheck={onCheck}
                   shape={shape}
-                  top={v.start}
-                  symmetry={hasSymmetry ? symmetryOf(shown[v.index].a) : ''}
+                  top={(win.start + k) * ROW_HEIGHT}
+                  symmetry={hasSymmetry ? symmetryOf(r.a) : ''}
                   hasSymmetry={hasSymmetry}
                 />
               ))}

@@ -12,6 +12,7 @@ import type { LineList, TopShape } from '../physics/model';
 import {
   ladderHitTest,
   ladderLabelsPaint,
+  ladderMarkersPaint,
   ladderScenePaint,
   ladderStrongestInView,
   ladderTipHtml,
@@ -19,7 +20,16 @@ import {
   type LadderScene,
   type LadderView,
 } from './plot/ladderScene';
-import { peakLayerHitTest, peakLayerPaint, peakLayerPixel, peakLayerTipHtml, peakLayerVisible, type PeakLayer } from './plot/peakLayer';
+import {
+  peakLayerChanged,
+  peakLayerHitTest,
+  peakLayerPaint,
+  peakLayerPixel,
+  peakLayerRepaint,
+  peakLayerTipHtml,
+  peakLayerVisible,
+  type PeakLayer,
+} from './plot/peakLayer';
 import { plotTheme } from './plot/plotColours';
 import { rungSymmetryLabelsPaint } from './plot/rungSymmetryLabels';
 
@@ -56,6 +66,20 @@ export interface PlotOverlayProps {
   onDoubleClick: () => void;
 }
 
+/** What the lower canvas shows: its view key, scene and peak layer, and the rungs drawn. */
+interface BaseDrawn {
+  key: string;
+  scene: LadderScene | null;
+  peaks: PeakLayer | null;
+  rungsDrawn: number;
+  peaksDrawn: number;
+}
+
+const BASE_BLANK: BaseDrawn = { key: '', scene: null, peaks: null, rungsDrawn: 0, peaksDrawn: 0 };
+
+/** More peaks changed than this (an undo of many rows): the lower canvas is painted whole. */
+const PEAKS_REPAINTED_MAX = 24;
+
 /** Views of the two panels in canvas CSS px, from plotly's laid-out axes. */
 interface Views {
   ladder: LadderView | null;
@@ -73,6 +97,11 @@ const RUNG_LABELS_LISTED = 40;
 
 export function PlotOverlay(props: PlotOverlayProps) {
   const canvasRef = useRef<HTMLCanvasElement>(null);
+  // The rungs and row names are painted on a canvas of their own under the markers' one, and only when
+  // the scene, the view, the size or the theme changed: a click that assigns, selects or marks a peak
+  // repaints the small top canvas alone, so the browser does not rasterise every rung again.
+  const baseRef = useRef<HTMLCanvasElement>(null);
+  const baseDrawnRef = useRef<BaseDrawn>(BASE_BLANK);
   const tipRef = useRef<HTMLDivElement>(null);
   const latest = useRef(props);
   latest.current = props;
@@ -83,23 +112,32 @@ export function PlotOverlay(props: PlotOverlayProps) {
 
   const paint = () => {
     const canvas = canvasRef.current;
+    const base = baseRef.current;
     const plot = plotRef.current;
-    if (!canvas || !plot) return;
+    if (!canvas || !base || !plot) return;
     const fl = (plot.el as unknown as { _fullLayout?: { xaxis?: AxisLayout; yaxis?: AxisLayout; yaxis2?: AxisLayout } })._fullLayout;
     const cssW = canvas.clientWidth;
     const cssH = canvas.clientHeight;
     const dpr = window.devicePixelRatio || 1;
-    if (canvas.width !== Math.round(cssW * dpr) || canvas.height !== Math.round(cssH * dpr)) {
-      canvas.width = Math.round(cssW * dpr);
-      canvas.height = Math.round(cssH * dpr);
+    for (const c of [canvas, base]) {
+      if (c.width !== Math.round(cssW * dpr) || c.height !== Math.round(cssH * dpr)) {
+        c.width = Math.round(cssW * dpr);
+        c.height = Math.round(cssH * dpr);
+        // A resized canvas is blank: what it showed is forgotten.
+        if (c === base) baseDrawnRef.current = BASE_BLANK;
+      }
     }
     const ctx = canvas.getContext('2d');
-    if (!ctx) return;
+    const bctx = base.getContext('2d');
+    if (!ctx || !bctx) return;
     ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
     ctx.clearRect(0, 0, cssW, cssH);
+    bctx.setTransform(dpr, 0, 0, dpr, 0, 0);
     const xa = fl?.xaxis;
     if (!xa || !Array.isArray(xa.range)) {
       viewsRef.current = { ladder: null, trace: null };
+      if (baseDrawnRef.current !== BASE_BLANK) bctx.clearRect(0, 0, cssW, cssH);
+      baseDrawnRef.current = BASE_BLANK;
       return;
     }
     const cr = canvas.getBoundingClientRect();
@@ -126,55 +164,79 @@ export function PlotOverlay(props: PlotOverlayProps) {
     // where the strongest rung and some free peaks sit (canvas CSS px).
     const data = canvas.dataset;
     data.xRange = `${x0},${x1}`;
-    if (views.ladder) {
-      // Row names come from an image kept while the scene and the panel's vertical placement stay:
-      // a zoom or pan then copies one bitmap instead of painting a hundred names (fillText is the
-      // costly canvas call; five bands have many rows).
-      const lv = views.ladder;
-      const key = `${canvas.width}x${canvas.height}|${dpr}|${lv.leftPx}|${lv.topPx}|${lv.heightPx}|${lv.y0}|${lv.y1}|${p.isDark}`;
-      const cached = labelsRef.current;
-      let image = cached && cached.scene === p.scene && cached.key === key ? cached.image : null;
-      if (!image) {
-        image = cached?.image ?? document.createElement('canvas');
-        image.width = canvas.width;
-        image.height = canvas.height;
-        const lctx = image.getContext('2d');
-        if (lctx) {
-          lctx.setTransform(dpr, 0, 0, dpr, 0, 0);
-          lctx.clearRect(0, 0, cssW, cssH);
-          ladderLabelsPaint(lctx, p.scene, lv, theme);
+    const lv = views.ladder;
+    const tv = views.trace;
+    const drawnPeaks = tv && p.peaks ? peakLayerVisible(p.peaks, tv.x0Cm1, tv.x1Cm1) : new Int32Array(0);
+    drawnPeaksRef.current = drawnPeaks;
+    // The lower canvas (row names, rungs, peak markers) is painted again only when what it shows
+    // changed; when only some peaks became assigned or free, only the boxes around them are.
+    const viewKey = (v: LadderView | null) => (v ? `${v.leftPx},${v.topPx},${v.widthPx},${v.heightPx},${v.y0},${v.y1}` : '-');
+    const baseKey = `${canvas.width}x${canvas.height}|${dpr}|${p.isDark}|${x0},${x1}|${viewKey(lv)}|${viewKey(tv)}`;
+    const was = baseDrawnRef.current;
+    const isSameFrame = was.key === baseKey && was.scene === p.scene && (was.peaks === null) === (p.peaks === null);
+    const changed = !isSameFrame ? null : was.peaks && p.peaks ? peakLayerChanged(was.peaks, p.peaks, drawnPeaks) : new Int32Array(0);
+    if (changed === null || changed.length > PEAKS_REPAINTED_MAX) {
+      bctx.clearRect(0, 0, cssW, cssH);
+      let rungsDrawn = 0;
+      if (lv) {
+        // Row names come from an image kept while the scene and the panel's vertical placement stay:
+        // a zoom or pan then copies one bitmap instead of painting a hundred names (fillText is the
+        // costly canvas call; five bands have many rows).
+        const key = `${canvas.width}x${canvas.height}|${dpr}|${lv.leftPx}|${lv.topPx}|${lv.heightPx}|${lv.y0}|${lv.y1}|${p.isDark}`;
+        const cached = labelsRef.current;
+        let image = cached && cached.scene === p.scene && cached.key === key ? cached.image : null;
+        if (!image) {
+          image = cached?.image ?? document.createElement('canvas');
+          image.width = canvas.width;
+          image.height = canvas.height;
+          const lctx = image.getContext('2d');
+          if (lctx) {
+            lctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+            lctx.clearRect(0, 0, cssW, cssH);
+            ladderLabelsPaint(lctx, p.scene, lv, theme);
+          }
+          labelsRef.current = { scene: p.scene, key, image };
         }
-        labelsRef.current = { scene: p.scene, key, image };
+        bctx.drawImage(image, 0, 0, cssW, cssH);
+        rungsDrawn = ladderScenePaint(bctx, p.scene, null, -1, lv, theme, false);
       }
-      ctx.drawImage(image, 0, 0, cssW, cssH);
-      data.rungsDrawn = String(ladderScenePaint(ctx, p.scene, p.markers, p.cursorLine, lv, theme, false));
+      const peaksDrawn = tv && p.peaks ? peakLayerPaint(bctx, p.peaks, drawnPeaks, tv, theme) : 0;
+      baseDrawnRef.current = { key: baseKey, scene: p.scene, peaks: p.peaks, rungsDrawn, peaksDrawn };
+      data.peaksRepainted = 'all';
+    } else {
+      // Read-out: how many markers the last partial repaint painted again ('all' after a whole one).
+      if (changed.length > 0 && tv && p.peaks)
+        data.peaksRepainted = String(peakLayerRepaint(bctx, p.peaks, drawnPeaks, changed, tv, theme, dpr));
+      baseDrawnRef.current = { ...was, peaks: p.peaks };
+    }
+    if (lv) {
+      data.rungsDrawn = String(baseDrawnRef.current.rungsDrawn);
+      // The upper canvas: what a click changes (assigned markers, the selected rung's ring, its labels).
+      ladderMarkersPaint(ctx, p.scene, p.markers, p.cursorLine, lv, theme);
       const labels = rungSymmetryLabelsPaint(ctx, p.scene, p.rungLabels ?? null, p.cursorLine, lv, theme);
       data.rungLabelsDrawn = String(labels.count);
       data.rungLabels = labels.texts.slice(0, RUNG_LABELS_LISTED).join('|');
-      const strongest = ladderStrongestInView(p.scene, p.lines, views.ladder);
+      const strongest = ladderStrongestInView(p.scene, p.lines, lv);
       data.strongestRung = strongest ? `${strongest.xPx.toFixed(1)},${strongest.yPx.toFixed(1)}` : '';
     }
     data.selectedRung = p.cursorLine >= 0 && p.cursorLine < p.lines.count ? ascii(p.lines, p.cursorLine, p.shape) : '';
-    if (views.trace && p.peaks) {
-      const drawn = peakLayerVisible(p.peaks, views.trace.x0Cm1, views.trace.x1Cm1);
-      drawnPeaksRef.current = drawn;
-      data.peaksDrawn = String(peakLayerPaint(ctx, p.peaks, drawn, views.trace, theme));
+    if (tv && p.peaks) {
+      data.peaksDrawn = String(baseDrawnRef.current.peaksDrawn);
       // Free markers inside the panel, spread evenly over the drawn ones.
       const inside: number[] = [];
-      for (const i of drawn) {
+      for (const i of drawnPeaks) {
         if (p.peaks.isAssigned[i]) continue;
-        const q = peakLayerPixel(p.peaks, i, views.trace);
-        if (q.yPx >= views.trace.topPx && q.yPx <= views.trace.topPx + views.trace.heightPx) inside.push(i);
+        const q = peakLayerPixel(p.peaks, i, tv);
+        if (q.yPx >= tv.topPx && q.yPx <= tv.topPx + tv.heightPx) inside.push(i);
       }
       const stride = Math.max(1, Math.ceil(inside.length / FREE_PEAKS_LISTED));
       const free: string[] = [];
       for (let k = 0; k < inside.length; k += stride) {
-        const q = peakLayerPixel(p.peaks, inside[k], views.trace);
+        const q = peakLayerPixel(p.peaks, inside[k], tv);
         free.push(`${q.xPx.toFixed(1)},${q.yPx.toFixed(1)}`);
       }
       data.freePeaks = free.join(';');
     } else {
-      drawnPeaksRef.current = new Int32Array(0);
       data.peaksDrawn = '0';
       data.freePeaks = '';
     }
@@ -310,6 +372,7 @@ export function PlotOverlay(props: PlotOverlayProps) {
 
   return (
     <>
+      <canvas ref={baseRef} className="plot-overlay" aria-hidden="true" />
       <canvas ref={canvasRef} className="plot-overlay" data-testid="plot-overlay" aria-hidden="true" />
       <div ref={tipRef} className="plot-tip" role="tooltip" data-testid="plot-tip" hidden />
     </>

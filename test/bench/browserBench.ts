@@ -24,7 +24,8 @@
  * messages); nothing in it is changed.
  *
  * Environment: LB_BENCH_DIST (built app folder, default dist), LB_BENCH_RUNS (repeats, default 5),
- * LB_BENCH_ONLY (comma list of measure numbers, e.g. "1,7"), LB_BENCH_PROFILE=1 (also record main-thread
+ * LB_BENCH_ONLY (comma list of measure numbers, e.g. "1,7"), LB_BENCH_CLICKS (candidate clicks timed per
+ * click-to-assign measure, at least the default 8, or 6 for measure 9), LB_BENCH_PROFILE=1 (also record main-thread
  * CPU profiles of the first run of each measure (the first three candidate clicks of click-to-assign) and print time per function to stderr; LB_BENCH_PROFILE_DIR
  * also writes them there as .cpuprofile files; build with
  * `vite build --minify false` for readable names); LB_BENCH_TRACE_DIR (write a Chromium performance trace of the
@@ -57,6 +58,8 @@ import { BANDS_BENCH_MIN_INTENSITY, bandsBenchInputsWrite } from './browserBench
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const DIST = resolve(ROOT, process.env.LB_BENCH_DIST ?? 'dist');
 const RUNS = Math.max(1, Number(process.env.LB_BENCH_RUNS ?? 5));
+/** Candidate clicks per click-to-assign measure when more than the default (its wall times vary by 2x at load). */
+const CLICKS = Math.max(0, Number(process.env.LB_BENCH_CLICKS ?? 0) || 0);
 const ONLY = new Set((process.env.LB_BENCH_ONLY ?? '').split(',').filter(Boolean).map(Number));
 const want = (n: number) => ONLY.size === 0 || ONLY.has(n);
 const PROFILE = process.env.LB_BENCH_PROFILE === '1';
@@ -71,8 +74,21 @@ const TRACE_STEPS = 8;
  * the first is often JIT-cold, so a few. Recording slows those clicks; their times stay in the medians.
  */
 const ASSIGN_RECORDED_CLICKS = 3;
-/** Trace categories: the main thread's tasks, script, layout and frames, for DevTools' Performance panel. */
-const TRACE_CATEGORIES = ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'blink', 'cc', 'v8.execute', 'toplevel'];
+/**
+ * Trace categories: the main thread's tasks, script, layout and frames, and the compositor and raster
+ * threads' work (cc, viz, gpu, frame events), for DevTools' Performance panel.
+ */
+const TRACE_CATEGORIES = [
+  'devtools.timeline',
+  'disabled-by-default-devtools.timeline',
+  'disabled-by-default-devtools.timeline.frame',
+  'blink',
+  'cc',
+  'viz',
+  'gpu',
+  'v8.execute',
+  'toplevel',
+];
 const LAUNCH_ARGS = [
   '--headless',
   '--no-sandbox',
@@ -1069,7 +1085,7 @@ async function measureBands(browser: Browser, baseUrl: string, dir: string): Pro
     const loaded = { context, page, errors } as LoadedTrace;
     emitPrefix = 'five_bands_';
     await measureRedraw(loaded, 30);
-    await measureAssign(loaded, 'five_bands_10000_assigned', Math.max(RUNS, 6), [
+    await measureAssign(loaded, 'five_bands_10000_assigned', Math.max(RUNS, 6, CLICKS), [
       [0.8, 0.85],
       [0.15, 0.2],
       [0.85, 0.9],
@@ -1161,7 +1177,7 @@ async function main(): Promise<void> {
         try {
           if (want(3)) await measureRedraw(loaded, 50);
           if (want(4)) {
-            await measureAssign(loaded, '1e6_trace', Math.max(RUNS, 8), [
+            await measureAssign(loaded, '1e6_trace', Math.max(RUNS, 8, CLICKS), [
               [0.45, 0.5],
               [0.5, 0.55],
               [0.55, 0.6],
@@ -1187,7 +1203,7 @@ async function main(): Promise<void> {
             [0.9, 0.95],
             [0.05, 0.1],
           ];
-          await measureAssign(fitPage, 'with_5000_assigned', Math.max(RUNS, 8), wings);
+          await measureAssign(fitPage, 'with_5000_assigned', Math.max(RUNS, 8, CLICKS), wings);
         }
       } finally {
         await fitPage.context.close();

@@ -5,7 +5,7 @@
  */
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { gotoApp, launch, openPage, SHOTS } from './browser';
+import { assignedCount, clickAPeak, gotoApp, launch, openPage, SHOTS, zoomPlot } from './browser';
 
 let browser: Browser;
 beforeAll(async () => {
@@ -75,6 +75,66 @@ describe('plot overlay while dragging', () => {
     expect(panning.painted[0]).toBeCloseTo(panning.axis[0], 9);
     expect(panning.painted[1]).toBeCloseTo(panning.axis[1], 9);
     await page.mouse.up();
+    expect(log.pageErrors).toEqual([]);
+    await context.close();
+  });
+
+  it('repaints only the boxes around a newly assigned peak, and they come out as a whole repaint paints them', async () => {
+    const { context, page, log } = await openPage(browser);
+    await gotoApp(page);
+    await zoomPlot(page, 0.55, 0.6);
+    const overlay = page.locator('[data-testid=plot-overlay]');
+    // The lower canvas (rungs, row names, peak markers) under the overlay's own, as RGBA bytes.
+    const lowerPixels = () =>
+      page.evaluate(() => {
+        const top = document.querySelector('[data-testid=plot-overlay]') as HTMLCanvasElement;
+        const lower = top.previousElementSibling as HTMLCanvasElement;
+        const data = lower.getContext('2d')!.getImageData(0, 0, lower.width, lower.height).data;
+        return { w: lower.width, h: lower.height, px: Array.from(data) };
+      });
+    await clickAPeak(page);
+    await page.waitForSelector('[data-testid=candidates] [data-testid=candidate-0]', { timeout: 15_000 });
+    await page.locator('[data-testid=candidate-0]').click();
+    await expect.poll(() => assignedCount(page), { timeout: 15_000 }).toBe(1);
+    await expect.poll(() => overlay.getAttribute('data-peaks-repainted'), { timeout: 15_000 }).toMatch(/^[1-9]\d*$/);
+    await frames(page);
+    const partial = await lowerPixels();
+    // Nothing but the theme changes twice: each change paints the whole canvas.
+    await page.getByRole('button', { name: 'Switch to dark theme' }).click();
+    await expect.poll(() => page.evaluate(() => document.documentElement.dataset.theme)).toBe('dark');
+    await frames(page);
+    await page.getByRole('button', { name: 'Switch to light theme' }).click();
+    await expect.poll(() => page.evaluate(() => document.documentElement.dataset.theme)).not.toBe('dark');
+    await expect.poll(() => overlay.getAttribute('data-peaks-repainted'), { timeout: 15_000 }).toBe('all');
+    await page.waitForTimeout(500);
+    await frames(page);
+    const whole = await lowerPixels();
+    expect([whole.w, whole.h]).toEqual([partial.w, partial.h]);
+    // The same pixels but for anti-aliasing along the markers' edges (one path of many markers is
+    // rasterised a little differently from a path of a few): no pixel differs by more than an edge
+    // does (a missing or stale marker differs by its whole opacity), and every difference lies in
+    // the one repainted box (at most 2·7 px and a pixel of rounding on each side, CSS px).
+    let painted = 0;
+    let worst = 0;
+    const xs: number[] = [];
+    const ys: number[] = [];
+    for (let k = 0; k < whole.px.length; k += 4) {
+      if (whole.px[k + 3] > 0) painted++;
+      // Colours compared as painted (weighted by their opacity; a nearly transparent pixel's colour means little).
+      const pre = (px: number[], c: number) => (c === 3 ? px[k + 3] : (px[k + c] * px[k + 3]) / 255);
+      const d = Math.max(...[0, 1, 2, 3].map((c) => Math.abs(pre(whole.px, c) - pre(partial.px, c))));
+      if (d < 1) continue;
+      worst = Math.max(worst, d);
+      xs.push((k / 4) % whole.w);
+      ys.push(Math.floor(k / 4 / whole.w));
+    }
+    const dpr = await page.evaluate(() => window.devicePixelRatio);
+    expect(painted).toBeGreaterThan(1000);
+    expect(worst).toBeLessThanOrEqual(96);
+    if (xs.length > 0) {
+      expect(Math.max(...xs) - Math.min(...xs)).toBeLessThanOrEqual(16 * dpr);
+      expect(Math.max(...ys) - Math.min(...ys)).toBeLessThanOrEqual(16 * dpr);
+    }
     expect(log.pageErrors).toEqual([]);
     await context.close();
   });

@@ -15,6 +15,7 @@ import {
   ladderMarkersUpdate,
   type LadderMarkersState,
   ladderSceneBuild,
+  ladderMarkersPaint,
   ladderScenePaint,
   ladderStrongestInView,
   ladderTipHtml,
@@ -410,6 +411,31 @@ describe('ladderScenePaint', () => {
     expect(ring.x).toBeCloseTo(px(view, lines.wavenumberCm1[i]), 9);
     const row = rows[scene.rowIndex[5]];
     expect(ring.y).toBeCloseTo(py(view, row.y + rungTip(lines.jUpper[i] - lines.jLower[i], lines.intensity[i])), 9);
+  });
+
+  it('paints on the page as two layers that add up to the whole: rungs alone, then markers and ring alone', () => {
+    const { lines, rows, scene } = setUp();
+    const view = fullView(lines, rows.length);
+    const marked = [0, 3, 8].map((i) => rowOf(assignmentOfLine(lines, i, `a${i}`), lines, i, { isOutlier: i === 3 }));
+    const markers = ladderMarkersBuild(marked, scene);
+    const cursor = scene.lineIndex[5];
+    const whole = paintRecorder();
+    ladderScenePaint(whole.ctx, scene, markers, cursor, view, theme);
+    const rungs = paintRecorder();
+    ladderScenePaint(rungs.ctx, scene, null, -1, view, theme);
+    const top = paintRecorder();
+    ladderMarkersPaint(top.ctx, scene, markers, cursor, view, theme);
+    expect(top.rects.length).toBe(0);
+    expect(rungs.arcs.length).toBe(0);
+    expect(top.arcs.length).toBeGreaterThan(0);
+    expect([...rungs.rects, ...top.rects]).toEqual(whole.rects);
+    expect([...rungs.arcs, ...top.arcs]).toEqual(whole.arcs);
+    expect([...rungs.segments, ...top.segments]).toEqual(whole.segments);
+    expect([...rungs.texts, ...top.texts]).toEqual(whole.texts);
+    // Nothing to mark: the top layer stays empty.
+    const none = paintRecorder();
+    ladderMarkersPaint(none.ctx, scene, null, -1, view, theme);
+    expect(none.arcs.length + none.rects.length + none.segments.length).toBe(0);
   });
 });
 

@@ -19,10 +19,12 @@ export interface PaintRecord {
   /** Arcs: centre, radius, and whether stroked or filled (both recorded when both). */
   arcs: { x: number; y: number; r: number; colour: string; how: 'stroke' | 'fill' }[];
   texts: { text: string; x: number; y: number; font: string }[];
+  /** Cleared rectangles (clearRect), CSS px. */
+  clears: { x: number; y: number; w: number; h: number }[];
 }
 
 export function paintRecorder(): PaintRecord {
-  const rec: PaintRecord = { ctx: undefined as unknown as LadderPaintContext, segments: [], rects: [], arcs: [], texts: [] };
+  const rec: PaintRecord = { ctx: undefined as unknown as LadderPaintContext, segments: [], rects: [], arcs: [], texts: [], clears: [] };
   let path: { kind: 'seg'; x0: number; y0: number; x1: number; y1: number }[] = [];
   let arcs: { x: number; y: number; r: number }[] = [];
   let rects: { x: number; y: number; w: number; h: number }[] = [];
@@ -64,6 +66,9 @@ export function paintRecorder(): PaintRecord {
       rects.push({ x, y, w, h });
     },
     clip() {},
+    clearRect(x: number, y: number, w: number, h: number) {
+      rec.clears.push({ x, y, w, h });
+    },
     fillText(text: string, x: number, y: number) {
       rec.texts.push({ text, x, y, font: ctx.font });
     },

@@ -10,9 +10,11 @@ import {
   peakLayerBase,
   peakLayerAssignedOf,
   peakLayerBuild,
+  peakLayerChanged,
   peakLayerHitTest,
   peakLayerPaint,
   peakLayerPixel,
+  peakLayerRepaint,
   peakLayerTipHtml,
   peakLayerUpdate,
   type PeakLayerState,
@@ -151,6 +153,85 @@ describe('peakLayer', () => {
     expect(peakLayerHitTest(layer, drawn, view, q.xPx, q.yPx + 40)).toBe(-1);
     // A peak that is not drawn is not hit.
     expect(peakLayerHitTest(layer, Int32Array.from([1]), view, q.xPx, q.yPx)).toBe(-1);
+  });
+});
+
+describe('peakLayerRepaint (the partial repaint after an assign)', () => {
+  /** The layer with the peaks of `marked` assigned, on a narrow view where neighbouring markers crowd. */
+  function layerWith(marked: number[]) {
+    const { trace, peaks } = setUp();
+    const base = peakLayerBase(peaks, trace, 'absorbance');
+    const layer = peakLayerBuild(base, new Map(marked.map((i) => [peakIdAt(peaks.wavenumberCm1[i]), 'x'])), peakIdAt, peakIdPosition);
+    let ymax = 0;
+    for (const v of layer.y) ymax = Math.max(ymax, v);
+    return { base, layer, peaks, view: { ...viewOf(peaks, 0, 1.1 * ymax), widthPx: 300 } };
+  }
+
+  it('finds exactly the drawn peaks whose marker changed, and asks for a whole repaint for other peaks or ordinates', () => {
+    const { layer: before, peaks, view } = layerWith([3]);
+    const { base } = layerWith([]);
+    const after = peakLayerBuild(
+      { ...base, peaks: before.peaks, nuCm1: before.nuCm1, y: before.y },
+      new Map([3, 9].map((i) => [peakIdAt(peaks.wavenumberCm1[i]), 'x'])),
+      peakIdAt,
+      peakIdPosition,
+    );
+    const drawn = peakLayerVisible(before, view.x0Cm1, view.x1Cm1);
+    expect(Array.from(peakLayerChanged(before, after, drawn)!)).toEqual([9]);
+    expect(Array.from(peakLayerChanged(before, after, Int32Array.from([1, 2, 3]))!)).toEqual([]);
+    expect(peakLayerChanged(before, before, drawn)!.length).toBe(0);
+    // Another ordinate (other marker heights) or another peak list: no partial repaint.
+    const { trace } = setUp();
+    const other = peakLayerBuild(peakLayerBase(peaks, trace, 'transmittance'), new Map(), peakIdAt, peakIdPosition);
+    expect(peakLayerChanged(before, other, drawn)).toBeNull();
+    expect(peakLayerChanged(before, layerWith([3]).layer, drawn)).toBeNull();
+  });
+
+  it('clears a whole-pixel box over the changed marker and paints again every marker that reaches it, in its new state', () => {
+    const { layer: before, peaks, view } = layerWith([]);
+    const after = peakLayerBuild(
+      { peaks: before.peaks, nuCm1: before.nuCm1, y: before.y },
+      new Map([[peakIdAt(peaks.wavenumberCm1[9]), 'x']]),
+      peakIdAt,
+      peakIdPosition,
+    );
+    const drawn = peakLayerVisible(after, view.x0Cm1, view.x1Cm1);
+    const changed = peakLayerChanged(before, after, drawn)!;
+    expect(Array.from(changed)).toEqual([9]);
+    for (const dpr of [1, 1.5, 2]) {
+      const rec = paintRecorder();
+      const n = peakLayerRepaint(rec.ctx, after, drawn, changed, view, theme, dpr);
+      expect(rec.clears.length).toBe(1);
+      const box = rec.clears[0];
+      // On whole device pixels.
+      for (const v of [box.x, box.y, box.x + box.w, box.y + box.h]) expect(Math.abs(v * dpr - Math.round(v * dpr))).toBeLessThan(1e-9);
+      // The assigned marker's whole extent (radius 3.5 + 0.75 and its ring's half width 0.5) lies inside.
+      const q = peakLayerPixel(after, 9, view);
+      const reach = 3.5 + 0.75 + 0.5;
+      expect(box.x).toBeLessThanOrEqual(q.xPx - reach);
+      expect(box.x + box.w).toBeGreaterThanOrEqual(q.xPx + reach);
+      expect(box.y).toBeLessThanOrEqual(q.yPx - reach);
+      expect(box.y + box.h).toBeGreaterThanOrEqual(q.yPx + reach);
+      // Every drawn marker that can touch the box (shape up to 3.5 + 0.8 px, outline up to 1.3 px) is painted again.
+      const touch = 3.5 + 0.8 + 1.3;
+      const expected = Array.from(drawn).filter((i) => {
+        const m = peakLayerPixel(after, i, view);
+        return m.xPx > box.x - touch && m.xPx < box.x + box.w + touch && m.yPx > box.y - touch && m.yPx < box.y + box.h + touch;
+      });
+      expect(expected.length).toBeGreaterThan(1);
+      expect(n).toBeGreaterThanOrEqual(expected.length);
+      const painted = [...rec.arcs.map((a) => a.x), ...rec.segments.map((sg) => (sg.x0 + sg.x1) / 2)];
+      for (const i of expected) {
+        const m = peakLayerPixel(after, i, view);
+        expect(painted.some((x) => Math.abs(x - m.xPx) < 5)).toBe(true);
+      }
+      // The changed peak comes back filled.
+      expect(rec.arcs.some((a) => a.how === 'fill' && Math.abs(a.x - q.xPx) < 1e-9)).toBe(true);
+    }
+    // Nothing changed: nothing is touched.
+    const rec = paintRecorder();
+    expect(peakLayerRepaint(rec.ctx, after, drawn, new Int32Array(0), view, theme)).toBe(0);
+    expect(rec.clears.length + rec.arcs.length).toBe(0);
   });
 });
 

@@ -109,6 +109,7 @@ export interface LadderPaintContext {
   save(): void;
   restore(): void;
   rect(x: number, y: number, w: number, h: number): void;
+  clearRect(x: number, y: number, w: number, h: number): void;
   clip(): void;
   font: string;
   textBaseline: CanvasTextBaseline;
@@ -560,6 +561,35 @@ export function ladderScenePaint(
     }
     ctx.fill();
   }
+  ctx.restore();
+  ladderMarkersPaint(ctx, scene, markers, cursorLine, view, theme);
+  return drawn;
+}
+
+/**
+ * Paint what changes on a click over the rungs: the assigned markers (dots, crosses) and the selected
+ * rung's ring, clipped to the ladder panel. The page paints it on its own canvas above the rungs, so
+ * an assignment repaints only these (ladderScenePaint paints both).
+ * @param cursorLine line index of the selected rung, or −1
+ */
+export function ladderMarkersPaint(
+  ctx: LadderPaintContext,
+  scene: LadderScene,
+  markers: LadderMarkers | null,
+  cursorLine: number,
+  view: LadderView,
+  theme: PlotTheme,
+): void {
+  if (!(view.widthPx > 0 && view.heightPx > 0) || view.x1Cm1 === view.x0Cm1) return;
+  if (!markers && cursorLine < 0) return;
+  const { px, py } = viewMaps(view);
+  const lo = Math.min(view.x0Cm1, view.x1Cm1);
+  const hi = Math.max(view.x0Cm1, view.x1Cm1);
+  const pad = (hi - lo) / view.widthPx;
+  ctx.save();
+  ctx.beginPath();
+  ctx.rect(view.leftPx, view.topPx, view.widthPx, view.heightPx);
+  ctx.clip();
   if (markers) markersPaint(ctx, markers, px, py, lo - pad, hi + pad, theme);
   if (cursorLine >= 0) {
     const k = scene.lineIndex.indexOf(cursorLine);
@@ -573,7 +603,6 @@ export function ladderScenePaint(
     }
   }
   ctx.restore();
-  return drawn;
 }
 
 /** First index in [start, end) of an ascending array whose value is >= x (end when none). */

@@ -225,15 +225,23 @@ export function peakLayerVisible(layer: PeakLayerBase, x0Cm1: number, x1Cm1: num
  */
 export function peakLayerPaint(ctx: LadderPaintContext, layer: PeakLayer, drawn: Int32Array, view: PanelView, theme: PlotTheme): number {
   if (!(view.widthPx > 0 && view.heightPx > 0) || view.x1Cm1 === view.x0Cm1 || view.y1 === view.y0) return 0;
-  const { px, py } = viewMaps(view);
-  const r = MARKER_RADIUS_PX;
   ctx.save();
   ctx.beginPath();
   ctx.rect(view.leftPx, view.topPx, view.widthPx, view.heightPx);
   ctx.clip();
+  markersDraw(ctx, layer, drawn, view, theme);
+  ctx.restore();
+  return drawn.length;
+}
+
+/** Free markers (one stroked path), then assigned ones (one filled and ringed path), of the listed peaks. */
+function markersDraw(ctx: LadderPaintContext, layer: PeakLayer, list: ArrayLike<number>, view: PanelView, theme: PlotTheme): void {
+  const { px, py } = viewMaps(view);
+  const r = MARKER_RADIUS_PX;
   // Free peaks: one path of open shapes.
   ctx.beginPath();
-  for (const i of drawn) {
+  for (let k = 0; k < list.length; k++) {
+    const i = list[k];
     if (layer.isAssigned[i]) continue;
     const x = px(layer.nuCm1[i]);
     const y = py(layer.y[i]);
@@ -253,7 +261,8 @@ export function peakLayerPaint(ctx: LadderPaintContext, layer: PeakLayer, drawn:
   ctx.stroke();
   // Assigned peaks: filled.
   ctx.beginPath();
-  for (const i of drawn) {
+  for (let k = 0; k < list.length; k++) {
+    const i = list[k];
     if (!layer.isAssigned[i]) continue;
     const x = px(layer.nuCm1[i]);
     const y = py(layer.y[i]);
@@ -261,8 +270,76 @@ export function peakLayerPaint(ctx: LadderPaintContext, layer: PeakLayer, drawn:
     ctx.arc(x, y, r + 0.75, 0, 2 * Math.PI);
   }
   assignedDotsFinish(ctx, theme);
+}
+
+/**
+ * Half the side of the box a marker may touch, CSS px: the largest shape (a blend's diamond, r + 0.8)
+ * plus its outline's reach at a corner (the miter of a right angle, 0.65·√2 < 1.3 px) plus a pixel
+ * of anti-aliasing, rounded up.
+ */
+const MARKER_BOX_HALF_PX = Math.ceil(MARKER_RADIUS_PX + 0.8 + 1.3 + 1);
+
+/**
+ * The drawn peaks whose marker differs between two layers of the same peaks (one was assigned or
+ * freed), for a partial repaint; null when the layers do not place the same peaks at the same
+ * heights (another peak list, trace or ordinate), which needs a whole one.
+ * @param drawn indices from peakLayerVisible (the same for both layers)
+ */
+export function peakLayerChanged(prev: PeakLayer, next: PeakLayer, drawn: Int32Array): Int32Array | null {
+  if (prev.peaks !== next.peaks || prev.nuCm1 !== next.nuCm1 || prev.y !== next.y) return null;
+  if (prev.isAssigned === next.isAssigned) return new Int32Array(0);
+  const out: number[] = [];
+  for (const i of drawn) if (prev.isAssigned[i] !== next.isAssigned[i]) out.push(i);
+  return Int32Array.from(out);
+}
+
+/**
+ * Repaint the markers around some peaks only, on a canvas that shows `drawn` as peakLayerPaint painted
+ * them: the box around each changed peak is cleared and every drawn marker that reaches a box is
+ * painted again, clipped to the boxes and in peakLayerPaint's order, so the boxes come out as a whole
+ * repaint would paint them and nothing outside them is touched.
+ * @param changed indices of the peaks whose marker changed (peakLayerChanged)
+ * @param devicePixelRatio device pixels per CSS px of the canvas @default 1
+ * @returns the number of markers painted again
+ */
+export function peakLayerRepaint(
+  ctx: LadderPaintContext,
+  layer: PeakLayer,
+  drawn: Int32Array,
+  changed: Int32Array,
+  view: PanelView,
+  theme: PlotTheme,
+  devicePixelRatio = 1,
+): number {
+  if (changed.length === 0) return 0;
+  if (!(view.widthPx > 0 && view.heightPx > 0) || view.x1Cm1 === view.x0Cm1 || view.y1 === view.y0) return 0;
+  const { px, py } = viewMaps(view);
+  const h = MARKER_BOX_HALF_PX;
+  // Boxes on whole device pixels, so their edges clear and repaint whole pixels (no blend of old and new).
+  const snapDown = (v: number) => Math.floor(v * devicePixelRatio) / devicePixelRatio;
+  const snapUp = (v: number) => Math.ceil(v * devicePixelRatio) / devicePixelRatio;
+  const boxes = Array.from(changed, (i) => {
+    const x = px(layer.nuCm1[i]);
+    const y = py(layer.y[i]);
+    return { x0: snapDown(x - h), y0: snapDown(y - h), x1: snapUp(x + h), y1: snapUp(y + h) };
+  });
+  // A marker reaches a box when its centre lies within h of it.
+  const near = Array.from(drawn).filter((i) => {
+    const x = px(layer.nuCm1[i]);
+    const y = py(layer.y[i]);
+    return boxes.some((b) => x > b.x0 - h && x < b.x1 + h && y > b.y0 - h && y < b.y1 + h);
+  });
+  ctx.save();
+  ctx.beginPath();
+  ctx.rect(view.leftPx, view.topPx, view.widthPx, view.heightPx);
+  ctx.clip();
+  ctx.beginPath();
+  for (const b of boxes) ctx.rect(b.x0, b.y0, b.x1 - b.x0, b.y1 - b.y0);
+  ctx.clip();
+  for (const b of boxes) ctx.clearRect(b.x0, b.y0, b.x1 - b.x0, b.y1 - b.y0);
+  markersDraw(ctx, layer, near, view, theme);
   ctx.restore();
-  return drawn.length;
+  return near.length;
 }
 
 /**
