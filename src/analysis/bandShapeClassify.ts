@@ -806,14 +806,18 @@ export function bandShapeClassify(
     const cluster = centralQCluster(x, light, qPeak, sigma, step);
     // Q branches too shallow to stand out as maxima of the trace may still ripple the central feature.
     const ripple = cluster ? null : centralQRipple(x, light, qPeak, step, 2 * jLow * bSpreadAll);
-    if (ripple) {
+    // The central feature read as a cluster of Q branches: the comb's spacing and curvature, anchored on it.
+    const asCentralQSeries = (comb: { spacing: number; curvature: number }) => {
       profile = 'Q-series';
-      qSpacing = ripple.spacing;
+      qSpacing = comb.spacing;
       qAnchor = qPeak.x;
-      qCurvature = ripple.curvature;
+      qCurvature = comb.curvature;
       origin = qPeak.x;
       B = null;
       bMethod = 'none';
+    };
+    if (ripple) {
+      asCentralQSeries(ripple);
       confidence = ripple.members >= 7 && ripple.strength >= 0.5 ? 'medium' : 'low';
       evidence.push(
         `but the central feature, less its own smooth outline, ripples with a period of ${ripple.spacing.toPrecision(4)} cm^-1 (${ripple.members} maxima on a regular comb, autocorrelation ${ripple.strength.toFixed(2)}), finer than J lines of this band can be (2B would be at least ${(2 * jLow * bSpreadAll).toPrecision(3)} cm^-1 from the band's spread at ${Math.round(T)} K): a cluster of Q branches with a small spacing, so a series of Q branches` +
@@ -821,13 +825,7 @@ export function bandShapeClassify(
       );
     }
     if (cluster) {
-      profile = 'Q-series';
-      qSpacing = cluster.spacing;
-      qAnchor = qPeak.x;
-      qCurvature = cluster.curvature;
-      origin = qPeak.x;
-      B = null;
-      bMethod = 'none';
+      asCentralQSeries(cluster);
       confidence = cluster.members >= 7 ? 'medium' : 'low';
       evidence.push(
         `but the central feature holds ${cluster.members} maxima on a regular comb ${cluster.spacing.toPrecision(4)} cm^-1 apart (curvature ${cluster.curvature.toPrecision(2)} cm^-1 per index²): a cluster of Q branches with a small spacing, so a series of Q branches`,

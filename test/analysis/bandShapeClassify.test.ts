@@ -9,6 +9,7 @@ import {
   traceVisibleProfile,
   type TraceSpec,
 } from '../fit/contourTraces';
+import { Q_SERIES_BANDS } from './qSeriesBands';
 
 /** Q-branch spacing 2[U′(1−ζ) − B′] of a perpendicular symmetric-top band (Herzberg II (1945) ch. IV). */
 function qSpacingTruth(c: ReturnType<typeof traceGenerate>): number {
@@ -293,34 +294,8 @@ describe('bandShapeClassify on seeded bands (training seeds 0–19, held-out see
     // (Herzberg II (1945) ch. I, from memory). The strongest maxima then make a comb three times the
     // Q-branch spacing 2[A′(1−ζ) − B′] (Herzberg II ch. IV), which was given (+200 %, at medium) on 9 of
     // the 34 Q-series of bench:contour classify --spin-c3v (seeds 0–79, 1000–1079) before the fold.
-    const specs: TraceSpec[] = [
-      {
-        shape: 'prolate',
-        band: 'perpendicular',
-        B: 0.27,
-        unique: 1.43,
-        zeta: 0.06,
-        temperatureK: 300,
-        opdCm: 1.5,
-        apodization: 'norton-beer-strong',
-        origin: 1500,
-        noiseRel: 0.005,
-        seed: 11,
-      },
-      {
-        shape: 'prolate',
-        band: 'perpendicular',
-        B: 0.045,
-        unique: 0.77,
-        zeta: -0.2,
-        temperatureK: 250,
-        opdCm: 3.5,
-        apodization: 'happ-genzel',
-        origin: 900,
-        noiseRel: 0.005,
-        seed: 13,
-      },
-    ];
+    // Two of the shared Q-series bands (./qSeriesBands), as generated and with C3v weights.
+    const specs = [Q_SERIES_BANDS[0], Q_SERIES_BANDS[2]];
     for (const base of specs) {
       for (const spinWeights of [[4, 2, 2], [1]]) {
         const spec = { ...base, spinWeights };

@@ -1,53 +1,19 @@
 import { describe, expect, it } from 'vitest';
 import { bandShapeClassify } from '../../src/analysis/bandShapeClassify';
 import { traceGenerate, type TraceSpec } from '../fit/contourTraces';
+import { Q_SERIES_BANDS } from './qSeriesBands';
 
-// Truth: the generator's lower-state B. Its traces are summed line by line through the closed-form
-// (boxcar, triangular) or quadrature (Happ–Genzel, Norton–Beer) instrument line shapes (Griffiths & de
-// Haseth, Fourier Transform Infrared Spectrometry, 2nd ed. (2007) ch. 2) in the weak-absorption
-// limit, written apart from src/physics/instrumentSpectrum; the upper state is not rigid (B′ = 0.997 B″,
-// U′ = 0.996 U″, the generator's defaults), which shades every Q branch as in a real band.
-const cases: TraceSpec[] = [
-  {
-    shape: 'prolate',
-    band: 'perpendicular',
-    B: 0.27,
-    unique: 1.43,
-    zeta: 0.06,
-    temperatureK: 300,
-    opdCm: 1.5,
-    apodization: 'norton-beer-strong',
-    origin: 1500,
-    noiseRel: 0.005,
-    seed: 11,
-  },
-  {
-    shape: 'prolate',
-    band: 'perpendicular',
-    B: 0.115,
-    unique: 1.1,
-    zeta: 0.3,
-    temperatureK: 180,
-    opdCm: 2.5,
-    apodization: 'boxcar',
-    origin: 1100,
-    noiseRel: 0.01,
-    seed: 12,
-  },
-  {
-    shape: 'prolate',
-    band: 'perpendicular',
-    B: 0.045,
-    unique: 0.77,
-    zeta: -0.2,
-    temperatureK: 250,
-    opdCm: 3.5,
-    apodization: 'happ-genzel',
-    origin: 900,
-    noiseRel: 0.005,
-    seed: 13,
-  },
-];
+const cases = Q_SERIES_BANDS;
+
+// The diagnosis of a generated band through its own instrument (L, apodization, T as generated).
+const throughInstrument = (spec: TraceSpec) => {
+  const c = traceGenerate(spec);
+  return bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, {
+    temperatureK: spec.temperatureK,
+    opdCm: spec.opdCm,
+    apodization: spec.apodization,
+  });
+};
 
 // Prolate tops only: an oblate top's Q-branch spacing 2[C(1−ζ) − B] is under 2B, its Q branches
 // interleave with J lines, and bandShapeClassify reads the generated oblate bands tried here as PQR
@@ -94,12 +60,7 @@ describe('bandShapeClassify with the instrument (Q-series contour fit, qSeriesCo
       baselineCurvature: 0.002806093459948897,
       seed: 1070,
     };
-    const c = traceGenerate(spec);
-    const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, {
-      temperatureK: spec.temperatureK,
-      opdCm: spec.opdCm,
-      apodization: spec.apodization,
-    });
+    const r = throughInstrument(spec);
     const k = r.qSeriesContour;
     expect(k, r.evidence).toBeDefined();
     if (k!.determined) {
@@ -128,12 +89,7 @@ describe('bandShapeClassify with the instrument (Q-series contour fit, qSeriesCo
       baselineCurvature: 0.00949154139496386,
       seed: 1037,
     };
-    const c = traceGenerate(spec);
-    const r = bandShapeClassify(c.x, c.noisy, c.fromCm1, c.toCm1, {
-      temperatureK: spec.temperatureK,
-      opdCm: spec.opdCm,
-      apodization: spec.apodization,
-    });
+    const r = throughInstrument(spec);
     const k = r.qSeriesContour;
     expect(k, r.evidence).toBeDefined();
     expect(spec.B, r.evidence).toBeGreaterThanOrEqual(k!.bLow);
