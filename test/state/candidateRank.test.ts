@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { LineList } from '../../src/physics/model';
-import { candidatesRank, quantaKey } from '../../src/state/candidateRank';
+import { candidateHeightScaleGuess, candidatesRank, quantaKey } from '../../src/state/candidateRank';
 
 /** A hand-made line list: positions (cm^-1) and intensities chosen to test the ordering. */
 function lines(pos: number[], inten: number[]): LineList {
@@ -101,5 +101,29 @@ describe('candidatesRank', () => {
     const c = candidatesRank(l, 100.09, { windowCm1: 1, shape: 'prolate', assignedKeys: assigned });
     expect(c.find((x) => x.lineIndex === 1)!.isAssigned).toBe(true);
     expect(c.find((x) => x.lineIndex === 0)!.isAssigned).toBe(false);
+  });
+});
+
+describe('candidateHeightScaleGuess', () => {
+  // Its definition: the median over k = 1…30 of (k-th highest positive height) / (k-th strongest positive
+  // intensity), written here with full sorts; the function keeps only the 30 largest in one pass.
+  const byDefinition = (heights: number[], intensities: number[]) => {
+    const h = heights.filter((v) => v > 0).sort((a, b) => b - a);
+    const l = intensities.filter((v) => v > 0).sort((a, b) => b - a);
+    const n = Math.min(30, h.length, l.length);
+    if (n === 0) return NaN;
+    const r = Array.from({ length: n }, (_, k) => h[k] / l[k]).sort((a, b) => a - b);
+    return n % 2 ? r[n >> 1] : 0.5 * (r[n / 2 - 1] + r[n / 2]);
+  };
+
+  it('equals the full-sort definition on random lists with ties, zeros, negatives and fewer than 30 values', () => {
+    let seed = 7;
+    const rand = () => ((seed = (seed * 16807) % 2147483647) - 1) / 2147483646;
+    for (let t = 0; t < 500; t++) {
+      const heights = Array.from({ length: Math.floor(rand() * 90) }, () => (rand() < 0.2 ? -rand() : rand() < 0.1 ? 0.5 : rand()));
+      const intensities = Array.from({ length: Math.floor(rand() * 90) }, () => (rand() < 0.2 ? 0 : rand() < 0.1 ? 0.25 : rand()));
+      expect(candidateHeightScaleGuess(heights, intensities)).toEqual(byDefinition(heights, intensities));
+    }
+    expect(candidateHeightScaleGuess(Float64Array.of(3, 1, 2), Float64Array.of(0, 0))).toBeNaN();
   });
 });
