@@ -158,6 +158,9 @@ describe('several bands on the page', () => {
     await expect.poll(() => page.locator('[data-testid=band-switches] .band-switch').count(), { timeout: 20_000 }).toBe(3);
     // Nothing to undo back out of: the demo is the starting point.
     expect(await page.locator('[data-testid=undo]').isDisabled()).toBe(true);
+    // The page itself never scrolls: the sidebar and workspace scroll inside it (the sidebar's visually
+    // hidden captions once sat against the page and made it twice the window's height).
+    expect(await page.evaluate(() => document.scrollingElement!.scrollHeight - window.innerHeight)).toBeLessThanOrEqual(0);
     await page.locator('[data-testid=demo-choice]').getByRole('button', { name: 'single band' }).click();
     await expect.poll(() => page.locator('[data-testid=file-name]').textContent(), { timeout: 30_000 }).toBe('demo/trace.csv');
     await expect.poll(() => page.locator('[data-testid=band-switches]').count(), { timeout: 20_000 }).toBe(0);
