@@ -1431,6 +1431,16 @@ function envelopeCentralMaximum(
  * whole multiples of the median gap, spacing ≥ 3 samples, and a quadratic in the index whose
  * curvature moves the outermost member by < 25 % of a spacing. Thresholds: chosen here.
  */
+/** Sample indices where the central feature around the spike falls to 30 % of the spike's height. */
+function centralFeatureExtent(light: Float64Array, spike: Peak): [number, number] {
+  const floor = 0.3 * spike.height;
+  let lo = spike.index;
+  while (lo > 0 && light[lo] > floor) lo--;
+  let hi = spike.index;
+  while (hi < light.length - 1 && light[hi] > floor) hi++;
+  return [lo, hi];
+}
+
 function centralQCluster(
   x: Float64Array,
   light: Float64Array,
@@ -1438,12 +1448,7 @@ function centralQCluster(
   sigma: number,
   step: number,
 ): { spacing: number; members: number; curvature: number } | null {
-  const n = x.length;
-  const floor = 0.3 * spike.height;
-  let lo = spike.index;
-  while (lo > 0 && light[lo] > floor) lo--;
-  let hi = spike.index;
-  while (hi < n - 1 && light[hi] > floor) hi++;
+  const [lo, hi] = centralFeatureExtent(light, spike);
   const inside = refinedPeaks(x, light, 3 * sigma).filter((p) => p.index > lo && p.index < hi && p.height >= 0.1 * spike.height);
   if (inside.length < 5) return null;
   const comb = combOf(inside);
@@ -1474,12 +1479,7 @@ function centralQRipple(
   step: number,
   maxPeriodCm1: number,
 ): { spacing: number; members: number; curvature: number; strength: number } | null {
-  const n = x.length;
-  const floor = 0.3 * spike.height;
-  let lo = spike.index;
-  while (lo > 0 && light[lo] > floor) lo--;
-  let hi = spike.index;
-  while (hi < n - 1 && light[hi] > floor) hi++;
+  const [lo, hi] = centralFeatureExtent(light, spike);
   const m = hi - lo + 1;
   if (m < 30) return null;
   const part = light.slice(lo, hi + 1);
