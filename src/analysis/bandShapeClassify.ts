@@ -205,6 +205,53 @@ function refinedPeaks(x: Float64Array, y: Float64Array, minProminence: number): 
   return peaks;
 }
 
+/**
+ * The spacing of resolved J lines at the band origin, cm^-1: neighbouring peaks whose gap is within
+ * 0.7–1.4 of the comb's spacing give local spacings at their midpoints; a straight line through them
+ * (dν/dm = B′ + B″ + 2(B′ − B″)m is linear in m, so in ν − ν0 to first order; Herzberg II ch. IV) is
+ * read at the origin. The uncertainty is twice the fit's standard error there, plus, when every pair
+ * lies on one side, half the change carried from the nearest pair to the origin. Null with fewer
+ * than four pairs.
+ */
+function jLineSpacingAtOrigin(
+  peaks: Peak[],
+  spacing: number,
+  origin: number,
+): { spacing: number; uncertainty: number; pairs: number; bothSides: boolean } | null {
+  const sorted = [...peaks].sort((a, b) => a.x - b.x);
+  const mids: number[] = [];
+  const gaps: number[] = [];
+  for (let i = 1; i < sorted.length; i++) {
+    const g = sorted[i].x - sorted[i - 1].x;
+    const mid = 0.5 * (sorted[i].x + sorted[i - 1].x);
+    // Not across the central gap (P(1)–R(0) spans 4B) nor a Q branch beside it.
+    if (g < 0.7 * spacing || g > 1.4 * spacing || Math.abs(mid - origin) < 1.5 * spacing) continue;
+    mids.push(mid - origin);
+    gaps.push(g);
+  }
+  const m = mids.length;
+  if (m < 4) return null;
+  const mx = mids.reduce((a, v) => a + v, 0) / m;
+  const my = gaps.reduce((a, v) => a + v, 0) / m;
+  let sxx = 0;
+  let sxy = 0;
+  for (let i = 0; i < m; i++) {
+    sxx += (mids[i] - mx) ** 2;
+    sxy += (mids[i] - mx) * (gaps[i] - my);
+  }
+  const slope = sxx > 0 ? sxy / sxx : 0;
+  const at0 = my - slope * mx;
+  let rss = 0;
+  for (let i = 0; i < m; i++) rss += (gaps[i] - (at0 + slope * mids[i])) ** 2;
+  const s2 = m > 2 ? rss / (m - 2) : 0;
+  const se = Math.sqrt(s2 * (1 / m + (sxx > 0 ? (mx * mx) / sxx : 0)));
+  const bothSides = mids.some((v) => v < 0) && mids.some((v) => v > 0);
+  const nearest = mids.reduce((a, v) => (Math.abs(v) < Math.abs(a) ? v : a));
+  const carried = bothSides ? 0 : 0.5 * Math.abs(slope * nearest);
+  if (!(at0 > 0.5 * spacing && at0 < 1.5 * spacing)) return null;
+  return { spacing: at0, uncertainty: 2 * se + carried, pairs: m, bothSides };
+}
+
 /** Regular comb among the peaks: spacing d and the peaks on it, or null. */
 function combOf(peaks: Peak[]): { spacing: number; members: Peak[]; regularity: number } | null {
   if (peaks.length < 5) return null;
@@ -288,7 +335,22 @@ export function bandShapeClassify(
   const xr = median(Array.from(x.subarray(n - edge)));
   const y = new Float64Array(n);
   for (let i = 0; i < n; i++) y[i] = raw[i] - (leftLevel + ((rightLevel - leftLevel) * (x[i] - xl)) / (xr - xl));
-  const sigma = noiseSigmaEstimate(x, y);
+  // The noise from second differences over the whole region, or over its two edge windows when they
+  // say less than half as much: where resolved lines a few samples apart fill most of the region, their
+  // curvature passes for noise (a real Σ–Σ band at L = 4 cm, HC3N ν4 from test/fixtures/real, gave 19×
+  // the noise put in and was called "no band"). The edges are taken as band-free already, for the
+  // baseline; with few points their estimate scatters (0.5–1.6× the noise on bench:contour's seeded
+  // bands), so it is used only where the whole region's is clearly inflated.
+  const sigmaAll = noiseSigmaEstimate(x, y);
+  const sigmaEdges =
+    edge >= 8
+      ? Math.sqrt(
+          0.5 *
+            (noiseSigmaEstimate(x.subarray(0, edge), y.subarray(0, edge)) ** 2 +
+              noiseSigmaEstimate(x.subarray(n - edge), y.subarray(n - edge)) ** 2),
+        )
+      : Infinity;
+  const sigma = sigmaEdges < 0.5 * sigmaAll ? sigmaEdges : sigmaAll;
   let yMax = 0;
   let area = 0;
   let moment = 0;
@@ -381,7 +443,12 @@ export function bandShapeClassify(
     const ref = others.length ? median(others) : 0;
     return candidate.prominence >= 2.5 * ref && candidate.prominence >= 0.5 * candidate.height && candidate.height >= 0.15 * yMax;
   };
-  const candidate = mostProminent(central.filter((p) => !onOuterLobe(p)));
+  // A peak three times taller than any other maximum of the band (beyond its own neighbourhood) is a Q
+  // branch even where it makes an envelope lobe of its own: no J line towers so over its branch (a
+  // real parallel band, PH3 ν2 from test/fixtures/real, whose Q branch dwarfs its weak P branch so that
+  // the envelope showed only the Q and R lobes, was read PR at medium).
+  const towers = (p: Peak): boolean => allPeaks.every((q) => Math.abs(q.x - p.x) <= local || p.height >= 3 * q.height);
+  const candidate = mostProminent(central.filter((p) => !onOuterLobe(p) || towers(p)));
   if (candidate && standsOut(candidate)) centralSpike = candidate;
   // The envelope's highest maximum at the band's centroid, standing out as a Q branch would, with
   // another maximum of the envelope beside it (for the PR second look below; not over a comb).
@@ -418,6 +485,8 @@ export function bandShapeClassify(
   let qAnchor: number | undefined;
   // Set when resolved "J lines" disagree with the envelope's P–R maxima: the reading stays low.
   let combDoubt = false;
+  // Half the uncertainty of the J-line spacing carried to the origin, cm^-1 (widens B's range).
+  let jLineSpread = 0;
   // A PR reading from resolved lines with an empty gap of 4B at the centre.
   let emptyCentralGap = false;
   let qCurvature = 0;
@@ -570,7 +639,24 @@ export function bandShapeClassify(
     const gap = centralGap(allPeaks, comb.spacing, centroid);
     // The Q branch may sit in the central gap or bound it (a Q branch shaded to one side, with the
     // weak low-J lines beside it lost in the noise).
-    if (centralSpike && (!gap || Math.abs(centralSpike.x - gap.centre) <= 0.5 * gap.width + 0.25 * comb.spacing)) {
+    // A "spike" with lines of at least 60 % of its height about one spacing away on both sides (within
+    // ±30 %, as the spacing changes along a branch) is a J line standing a little above its
+    // neighbours, not a Q branch: the lines next to a Q branch are P(1) and R(0), the weakest of the
+    // band. (The tallest line's prominence reaches down to the P–R dip: a real Σ–Σ band, HC3N ν1 at
+    // L = 4 cm through an apodized instrument, test/fixtures/real, had its tallest R line read as a Q
+    // branch at medium.) The neighbours are looked for on the trace itself, since lines that close are
+    // often too shallow for the peak test. Not when the comb is too coarse or fine for J lines of this
+    // band, or holds a finer comb between its members: then it may be Q branches, each as tall as the next.
+    const jLineSpike =
+      centralSpike !== null &&
+      !combNotJLines &&
+      !finerCombBetween(comb, allPeaks, step) &&
+      [-1, 1].every((side) => lineNear(x, light, centralSpike!.x + side * comb!.spacing, 0.3 * comb!.spacing, 0.6 * centralSpike!.height));
+    if (jLineSpike)
+      evidence.push(
+        `the tallest maximum near the centre, at ${centralSpike!.x.toFixed(3)} cm^-1, has lines of similar height one spacing away on both sides: a J line, not a Q branch`,
+      );
+    if (centralSpike && !jLineSpike && (!gap || Math.abs(centralSpike.x - gap.centre) <= 0.5 * gap.width + 0.25 * comb.spacing)) {
       profile = 'PQR';
       origin = centralSpike.x;
       evidence.push(
@@ -586,7 +672,15 @@ export function bandShapeClassify(
       );
     } else {
       profile = 'PR';
-      origin = gap ? gap.centre : centroid;
+      // Without a gap of 2–3 spacings, the weak low-J lines beside the origin fell below the peak test:
+      // the widest empty stretch near the centroid (5–24 spacings) is centred on the origin (a real
+      // Σ–Σ band, HC3N ν2 from test/fixtures/real, whose centroid lies 1.4 cm^-1 off its origin).
+      const hole = gap ? null : widestHole(allPeaks, comb.spacing, centroid, Math.min(8 * comb.spacing, 0.1 * width));
+      origin = gap ? gap.centre : hole ? hole.centre : centroid;
+      if (hole)
+        evidence.push(
+          `origin at the centre of the ${hole.width.toPrecision(3)} cm^-1 stretch without lines at ${hole.centre.toFixed(3)} cm^-1, where the weak low-J lines are lost in the noise`,
+        );
       emptyCentralGap = gap !== null;
       evidence.push(
         `resolved lines with spacing ${comb.spacing.toPrecision(4)} cm^-1 (B ≈ spacing/2) in two branches` +
@@ -595,6 +689,21 @@ export function bandShapeClassify(
             : ', no central Q branch'),
       );
       if (!gap) confidence = 'medium';
+    }
+    // The spacing of J lines changes along a branch (dν/dm = B′ + B″ + 2(B′ − B″)m, Herzberg II ch. IV),
+    // and the comb's median gap comes from whichever wing holds more of its members: a real Σ–Σ band
+    // (HC3N ν2, test/fixtures/real) gave its P wing 0.347 cm^-1 apart against 2B = 0.303 at the origin.
+    // B comes from the spacing carried to the origin (median |B error| on bench:contour classify's four
+    // seed sets 2.5, 2.0, 1.7, 2.0 % → 0.8, 0.5, 0.6, 1.5 %).
+    // (A comb found from the trace's periodicity has its maxima picked on a finer trace: those count too.)
+    const atOrigin = jLineSpacingAtOrigin(combFromPeriod ? comb.members : allPeaks, comb.spacing, origin);
+    if (atOrigin) {
+      B = atOrigin.spacing / 2;
+      jLineSpread = atOrigin.uncertainty / 2;
+      if (Math.abs(atOrigin.spacing / comb.spacing - 1) > 0.02)
+        evidence.push(
+          `the line spacing changes along the branches (${atOrigin.pairs} neighbouring pairs${atOrigin.bothSides ? ' on both sides of the origin' : ', all on one side of the origin'}); carried to the origin it is ${atOrigin.spacing.toPrecision(4)} cm^-1 (the comb's median gap ${comb.spacing.toPrecision(4)})`,
+        );
     }
     if (combNotJLines && confidence !== 'low') {
       // B = spacing/2 far from what the band's spread gives at T (J-line combs gave 1.0–1.2): the comb
@@ -622,7 +731,7 @@ export function bandShapeClassify(
     // this band's J lines (e.g. Q branches of an oblate top's perpendicular band, spacing near B).
     if (twoLobes && profile !== 'PQR') {
       const [pLobe, rLobe] = outerLobes(lobes, centre0);
-      const ratio = (rLobe.x - pLobe.x) / bandPrSeparation(B, T);
+      const ratio = (rLobe.x - pLobe.x) / bandPrSeparation(comb.spacing / 2, T);
       if (ratio > 1.3 || ratio < 0.75) {
         confidence = 'low';
         combDoubt = true;
@@ -778,15 +887,8 @@ export function bandShapeClassify(
   // one a series of Q branches (a light top's perpendicular band with resolved lines).
   if (profile === 'PQR' && comb && comb.members.length >= 5 && comb.regularity >= 0.85 && !combFromPeriod) {
     const strong = comb.members;
-    const rest = allPeaks.filter((p) => strong.every((q) => Math.abs(q.x - p.x) > 0.2 * comb!.spacing));
-    const restMax = rest.reduce((m, p) => Math.max(m, p.prominence), 0);
-    let fine: ReturnType<typeof combOf> = null;
-    for (const level of [0.5, 0.3, 0.15]) {
-      const picked = rest.filter((p) => p.prominence >= level * restMax);
-      fine = picked.length >= 8 ? combOf(picked) : null;
-      if (fine) break;
-    }
-    if (fine && fine.spacing < 0.7 * comb.spacing && fine.spacing > 3 * step) {
+    const fine = finerCombBetween(comb, allPeaks, step);
+    if (fine) {
       const fit = qSeriesFit(strong, centroid);
       profile = 'Q-series';
       qSpacing = fit.spacing;
@@ -1117,8 +1219,8 @@ export function bandShapeClassify(
           : type === 'linear-parallel'
             ? 0.1
             : 0.15;
-    bLow = Math.min(B * (1 - rel), envelopeRange?.[0] ?? Infinity);
-    bHigh = Math.max(B * (1 + rel), envelopeRange?.[1] ?? 0);
+    bLow = Math.min(B * (1 - rel), envelopeRange?.[0] ?? Infinity, B - jLineSpread);
+    bHigh = Math.max(B * (1 + rel), envelopeRange?.[1] ?? 0, B + jLineSpread);
     // A symmetric top's PQR envelope may as well be an unresolved perpendicular band, whose P/R
     // wings give another B (bench:contour classify: −35 % with a narrow range on tuning seed 59), so
     // B from it is never called determined.
@@ -1257,9 +1359,51 @@ function centralGap(members: Peak[], spacing: number, centroid: number): { centr
   for (let i = 1; i < members.length; i++) {
     const g = members[i].x - members[i - 1].x;
     const c = 0.5 * (members[i].x + members[i - 1].x);
+    // The lines bounding a band's central gap, P(1) and R(0), each continue into their branch one
+    // spacing further out; a gap with a lone peak on one side lies among blurred lines, not at the
+    // centre (a real parallel band, CH3CN ν4 at L = 2.5 cm with a Norton–Beer instrument,
+    // test/fixtures/real: a gap inside the P branch beat the Q branch 3.4 cm^-1 away).
+    const continues = (at: number) => members.some((p) => Math.abs(p.x - at) < 0.25 * spacing);
+    if (!continues(members[i - 1].x - spacing) || !continues(members[i].x + spacing)) continue;
     if (g >= 1.5 * spacing && g <= 3 * spacing && Math.abs(c - centroid) < 8 * spacing) {
       if (!best || Math.abs(c - centroid) < Math.abs(best.centre - centroid)) best = { centre: c, width: g };
     }
+  }
+  return best;
+}
+
+/** A comb finer than 0.7 of the strong comb's spacing (and over three samples) among the weaker peaks between its members, or null. */
+function finerCombBetween(comb: { spacing: number; members: Peak[] }, peaks: Peak[], step: number): ReturnType<typeof combOf> {
+  const rest = peaks.filter((p) => comb.members.every((q) => Math.abs(q.x - p.x) > 0.2 * comb.spacing));
+  const restMax = rest.reduce((m, p) => Math.max(m, p.prominence), 0);
+  for (const level of [0.5, 0.3, 0.15]) {
+    const picked = rest.filter((p) => p.prominence >= level * restMax);
+    const fine = picked.length >= 8 ? combOf(picked) : null;
+    if (fine) return fine.spacing < 0.7 * comb.spacing && fine.spacing > 3 * step ? fine : null;
+  }
+  return null;
+}
+
+/** Whether the trace has a maximum of at least minHeight within ±halfWindow of atCm1 (not at the window's edge). */
+function lineNear(x: Float64Array, y: Float64Array, atCm1: number, halfWindow: number, minHeight: number): boolean {
+  let best = -1;
+  for (let i = 0; i < x.length; i++) if (Math.abs(x[i] - atCm1) <= halfWindow && (best < 0 || y[i] > y[best])) best = i;
+  if (best <= 0 || best >= x.length - 1) return false;
+  return y[best] >= minHeight && y[best] >= y[best - 1] && y[best] >= y[best + 1];
+}
+
+/**
+ * The widest stretch of 5–24 comb spacings without peaks (more than a missing line or two) whose centre
+ * lies within maxOffset of the centroid, cm^-1, or null.
+ */
+function widestHole(peaks: Peak[], spacing: number, centroid: number, maxOffset: number): { centre: number; width: number } | null {
+  const xs = peaks.map((p) => p.x).sort((a, b) => a - b);
+  let best: { centre: number; width: number } | null = null;
+  for (let i = 1; i < xs.length; i++) {
+    const g = xs[i] - xs[i - 1];
+    const c = 0.5 * (xs[i] + xs[i - 1]);
+    if (g >= 5 * spacing && g <= 24 * spacing && Math.abs(c - centroid) < maxOffset && (!best || g > best.width))
+      best = { centre: c, width: g };
   }
   return best;
 }
