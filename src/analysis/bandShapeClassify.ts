@@ -1230,7 +1230,10 @@ export function bandShapeClassify(
     // another B (bench:contour classify: −49 % with a ±12 % range on held-out seed 1017). So B from a PR
     // envelope is given with its range but not called determined.
     const envelopePr = bMethod === 'envelope-fit' && profile === 'PR';
-    bDetermined = bLow >= 0.85 * B && bHigh <= 1.15 * B && !envelopeHeld && !envelopePr;
+    // A B kept although the profile is rated low (only PR against PQR in doubt) is given with its range
+    // but not called determined: the doubt may be about the lines themselves (a real perpendicular band
+    // with resolved lines, PH3 ν4 from test/fixtures/real, read as J lines of a PR/PQR band: +21 %).
+    bDetermined = bLow >= 0.85 * B && bHigh <= 1.15 * B && !envelopeHeld && !envelopePr && confidence !== 'low';
     if (contourRange) {
       // A Q-series' contour fit through the instrument: B ± 2σ, determined as qSeriesContourB says.
       bLow = contourRange.low;

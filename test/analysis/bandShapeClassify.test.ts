@@ -239,9 +239,11 @@ describe('bandShapeClassify on seeded bands (training seeds 0–19, held-out see
     // 1012, a Π–Σ band, both fitted as a symmetric top's parallel band and not called determined).
     // Since Π–Σ bands are also read from their envelopes: a third, 1002 (a Π–Σ band, B −9.6 %, the
     // truth 0.2 % above the range, not called determined). Since B from a PR envelope without resolved
-    // lines is no longer called determined (held-out seed 1017, next test), 7 of them are.
+    // lines is no longer called determined (held-out seed 1017, next test), 7 of them are; since B kept
+    // on a profile rated low (PR against PQR in doubt) is not called determined either (a real
+    // perpendicular band read so, bandShapeClassifyReal.test.ts), 5.
     expect(bGiven).toBeGreaterThanOrEqual(16);
-    expect(bDetermined).toBeGreaterThanOrEqual(7);
+    expect(bDetermined).toBeGreaterThanOrEqual(5);
     expect(bOutside).toBeLessThanOrEqual(3);
     expect(qGiven).toBeGreaterThanOrEqual(3);
   });
