@@ -17,7 +17,7 @@
  *   at 296 K: Σ–Σ, R(J) J+1 and P(J) J; Π–Σ, R (J+2)/2, Q (2J+1)/2, P (J−1)/2 (Herzberg, Spectra of
  *   Diatomic Molecules (1950), ch. IV; from memory), with E″ = B″J(J+1). True B″ from the listed
  *   J = 1 ← 0 rotational line, 9098.1152 MHz = 2B″ (to 4D″, 2 × 10^-9 relative); true origin the
- *   quartic's constant term.
+ *   quartic's constant term (plus B′ for a Π upper state, whose levels are G′ + B′[J(J+1) − 1]).
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -32,6 +32,17 @@ export interface RealBand {
   type: 'linear-parallel' | 'linear-perpendicular' | 'symmetric-top-parallel' | 'symmetric-top-perpendicular';
   /** Lower-state B, cm^-1, and band origin, cm^-1 (null where the data give none). */
   B: number;
+  /**
+   * Upper-state B, cm^-1 (null where the data give none): HITRAN, fitted to E′ = ν + E″ of the K = 0
+   * upper levels; HC3N Σ, B″ plus the quartic's m² term; HC3N Π, the mean of the e levels' (P, R) and
+   * f levels' (Q: B″ plus the quadratic's J(J+1) term) B, as src/physics/termValues.ts puts them at
+   * ±q/2·J(J+1).
+   */
+  upperB: number | null;
+  /** l-type doubling constant q = B_e − B_f of a Π upper state, cm^-1 (null otherwise). */
+  upperQ: number | null;
+  /** Lower-state centrifugal distortion DJ, cm^-1 (HC3N: fitted to the ground state's rotational lines; null otherwise). */
+  DJ: number | null;
   origin: number | null;
   /** HC3N: lines placed from the fit because the study did not list them. */
   filled: number;
@@ -89,13 +100,31 @@ function hitranBand(file: string, name: string, profile: RealBand['profile'], ty
     [(x) => x, (x) => -x * x],
   );
   const p1 = rows.find((r) => +r.J_lo === 1 && +r.J_up === 0 && +r.K_lo === 0 && +r.K_up === 0);
-  return { name, lines, profile, type, B, origin: p1 ? +p1['nu_cm-1'] + levels.get(1)! : null, filled: 0 };
+  const upper = new Map<number, number>();
+  for (const r of rows) if (+r.K_up === 0 && +r.K_lo === 0 && levels.has(+r.J_lo)) upper.set(+r.J_up, +r['nu_cm-1'] + levels.get(+r.J_lo)!);
+  const ju = [...upper.keys()];
+  const upperB =
+    ju.length >= 5
+      ? leastSquares(
+          ju.map((j) => j * (j + 1)),
+          ju.map((j) => upper.get(j)!),
+          [() => 1, (x) => x, (x) => -x * x],
+        )[1]
+      : null;
+  return { name, lines, profile, type, B, upperB, upperQ: null, DJ: null, origin: p1 ? +p1['nu_cm-1'] + levels.get(1)! : null, filled: 0 };
 }
 
 function hc3nBand(band: number, temperatureK = 296): RealBand {
   const ground = tsv('hc3n_tamassia2022/hc3n_ground_state.tsv').find((r) => r.J_up === '1' && r.J_lo === '0' && r.unit === 'MHz');
   if (!ground) throw new Error('hc3n_ground_state.tsv: no J = 1 ← 0 line');
   const B = +ground.observed / 2 / MHZ_PER_CM1;
+  // DJ from every ground-state line in MHz: ν(J+1 ← J) = 2B(J+1) − 4DJ(J+1)³ + ≈6HJ(J+1)⁵ (Herzberg II ch. I).
+  const mw = tsv('hc3n_tamassia2022/hc3n_ground_state.tsv').filter((r) => r.unit === 'MHz');
+  const dj = leastSquares(
+    mw.map((r) => +r.J_up),
+    mw.map((r) => +r.observed / MHZ_PER_CM1),
+    [(j) => 2 * j, (j) => -4 * j ** 3, (j) => j ** 5],
+  )[1];
   const rows = tsv(`hc3n_tamassia2022/hc3n_nu_${band}.tsv`);
   const pi = rows.some((r) => r.J_up === r.J_lo);
   const pr = rows.filter((r) => r.J_up !== r.J_lo);
@@ -135,7 +164,12 @@ function hc3nBand(band: number, temperatureK = 296): RealBand {
     profile: pi ? 'PQR' : 'PR',
     type: pi ? 'linear-perpendicular' : 'linear-parallel',
     B,
-    origin: cPr[0],
+    upperB: B + (pi ? (cPr[2] + cQ[1]) / 2e4 : cPr[2] / 1e4),
+    upperQ: pi ? (cPr[2] - cQ[1]) / 1e4 : null,
+    DJ: dj,
+    // G′ − G″: a Π state's levels are G′ + B′[J(J+1) − 1] (l = 1), so its P and R lines' constant term
+    // lies B′ below the vibrational origin (Herzberg II ch. IV; as src/physics/termValues.ts).
+    origin: cPr[0] + (pi ? B + cPr[2] / 1e4 : 0),
     filled,
   };
 }
