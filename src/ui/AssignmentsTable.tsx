@@ -61,15 +61,15 @@ function NoteField({ id, note, name }: { id: string; note: string; name: string 
   );
 }
 
-// Memoised: rows keep their objects while unchanged (selectAssignmentRows), and a row does not know
-// its position (the window of rows is placed as a whole), so a new assignment re-renders only the rows
-// whose data changed, and one that lands above the window moves no other row.
+// Memoised: rows keep their objects while unchanged (selectAssignmentRows), so a new assignment
+// re-renders only the rows whose data or position changed.
 const Row = memo(function Row({
   r,
   isSelected,
   isChecked,
   onCheck,
   shape,
+  top,
   symmetry,
   hasSymmetry,
 }: {
@@ -84,6 +84,7 @@ const Row = memo(function Row({
   /** Tick or untick; shift extends from the last tick (a range). */
   onCheck: (id: string, isChecked: boolean, isRange: boolean) => void;
   shape: 'prolate' | 'oblate' | 'linear';
+  top: number;
 }) {
   const a = r.a;
   // Rows are named by their line in labels (screen readers), never by the internal id.
@@ -94,7 +95,7 @@ const Row = memo(function Row({
       role="row"
       aria-selected={isSelected}
       className={`trow ${isSelected ? 'selected' : ''} ${r.isFar || r.isOutlier ? 'flagged' : ''} ${a.isExcluded ? 'excluded' : ''}`}
-      style={{ height: ROW_HEIGHT }}
+      style={{ transform: `translateY(${top}px)`, height: ROW_HEIGHT }}
       onClick={() => assignmentSelect(a.id)}
       data-testid="assignment-row"
       data-checked={isChecked || undefined}
@@ -430,22 +431,19 @@ export function AssignmentsTable() {
             </p>
           ) : (
             <div style={{ height: shown.length * ROW_HEIGHT, position: 'relative' }}>
-              {/* The rendered rows in flow, the block moved to the first one's place: a row added or
-                  removed above the window inserts and removes one row element and restyles no other. */}
-              <div className="trows" style={{ transform: `translateY(${win.start * ROW_HEIGHT}px)` }}>
-                {shown.slice(win.start, win.end).map((r) => (
-                  <Row
-                    key={r.a.id}
-                    r={r}
-                    isSelected={r.a.id === selectedId}
-                    isChecked={checked.has(r.a.id)}
-                    onCheck={onCheck}
-                    shape={shape}
-                    symmetry={hasSymmetry ? symmetryOf(r.a) : ''}
-                    hasSymmetry={hasSymmetry}
-                  />
-                ))}
-              </div>
+              {shown.slice(win.start, win.end).map((r, k) => (
+                <Row
+                  key={r.a.id}
+                  r={r}
+                  isSelected={r.a.id === selectedId}
+                  isChecked={checked.has(r.a.id)}
+                  onCheck={onCheck}
+                  shape={shape}
+                  top={(win.start + k) * ROW_HEIGHT}
+                  symmetry={hasSymmetry ? symmetryOf(r.a) : ''}
+                  hasSymmetry={hasSymmetry}
+                />
+              ))}
             </div>
           )}
         </div>
