@@ -7,7 +7,7 @@
 import { bandLadders, type Ladder } from '../physics/bandLadders';
 import type { LineList } from '../physics/model';
 import type { SystemModel } from '../physics/system/systemModel';
-import { listMapReuse, memoLast } from './memo';
+import { listAlign, listMapReuse, memoLast } from './memo';
 import type { BandModel } from '../physics/model';
 import type { Assignment } from '../fit/assignment';
 import {
@@ -324,16 +324,29 @@ export function selectAssignmentSymmetryOf(s: BenchState): (a: Assignment) => st
   return assignmentLevelIndex(selectSystemPrediction(s), s.activeBandKey).symmetryOf;
 }
 
-let symmetryLast: PerAssignment<(a: Assignment) => string, { texts: string[]; hasAny: boolean }> | null = null;
+let symmetryLast: PerAssignment<(a: Assignment) => string, number> | null = null;
 
-/** Some assignment has a symmetry text (the table then shows the column); incremental as selectAssignmentLevels. */
+/**
+ * Some assignment has a symmetry text (the table then shows the column). Kept as the number of rows
+ * with one, updated over the rows between the unchanged head and tail of the list (memo/listAlign):
+ * a new row costs one look-up and no per-row array (zustand calls this on every change of the store).
+ */
 export function selectHasAssignmentSymmetry(s: BenchState): boolean {
   const symmetryOf = selectAssignmentSymmetryOf(s);
   const last = symmetryLast;
-  if (last && last.assignments === s.assignments && last.context === symmetryOf) return last.out.hasAny;
-  const texts = listMapReuse(last?.context === symmetryOf ? last.assignments : null, last?.out.texts ?? null, s.assignments, symmetryOf);
-  symmetryLast = { assignments: s.assignments, context: symmetryOf, out: { texts, hasAny: texts.some((t) => t !== '') } };
-  return symmetryLast.out.hasAny;
+  const next = s.assignments;
+  if (last && last.assignments === next && last.context === symmetryOf) return last.out > 0;
+  const has = (a: Assignment) => (symmetryOf(a) !== '' ? 1 : 0);
+  let count = 0;
+  const old = last && last.context === symmetryOf ? last.assignments : null;
+  const { prefix, suffix } = old ? listAlign(old, next) : { prefix: 0, suffix: 0 };
+  if (old && last && old.length - prefix - suffix + (next.length - prefix - suffix) <= Math.max(16, next.length >> 3)) {
+    count = last.out;
+    for (let i = prefix; i < old.length - suffix; i++) count -= has(old[i]);
+    for (let i = prefix; i < next.length - suffix; i++) count += has(next[i]);
+  } else for (const a of next) count += has(a);
+  symmetryLast = { assignments: next, context: symmetryOf, out: count };
+  return count > 0;
 }
 
 /** The drawn lines by band key and quanta, and the drawn line of an assignment once found (by object). */

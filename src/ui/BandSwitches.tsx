@@ -3,6 +3,7 @@
  * ladders, and a choice of the band the one-band panels (model constants, Loomis–Wood, keyboard
  * walk) show.
  */
+import { memo } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import { messagePost } from '../state/actionsCore';
 import { bandActivate, bandToggle } from '../state/actionsSystem';
@@ -10,7 +11,8 @@ import { useBench } from '../state/store';
 import { systemEntriesOf } from '../state/systemSync';
 import { bandColour } from './plot/plotColours';
 
-export function BandSwitches() {
+// Memoised: it reads the store itself, so the plot's re-render on every click does not render it again.
+export const BandSwitches = memo(function BandSwitches() {
   const system = useBench((s) => s.system);
   const { hidden, active, isDark } = useBench(
     useShallow((s) => ({ hidden: s.hiddenBands, active: s.activeBandKey, isDark: s.theme === 'dark' })),
@@ -52,4 +54,4 @@ export function BandSwitches() {
       })}
     </div>
   );
-}
+});

@@ -3,12 +3,14 @@
  * sits in the lower corner on the far side of the peak, off the ladder panel, so the rungs it
  * names stay visible.
  */
+import { memo } from 'react';
 import { candidateAssign, selectCandidates, selectionClear } from '../state/actionsAssign';
 import { selectFitResult } from '../state/selectors';
 import { useBench } from '../state/store';
 import { LineLabel } from './LineLabel';
 
-export function CandidateList() {
+// Memoised: it reads the store itself, so the plot's re-render on every click does not render it again.
+export const CandidateList = memo(function CandidateList() {
   const target = useBench((s) => s.candidateTarget);
   const cands = useBench(selectCandidates);
   const shape = useBench((s) => s.model.shape);
@@ -122,4 +124,4 @@ export function CandidateList() {
       </p>
     </div>
   );
-}
+});

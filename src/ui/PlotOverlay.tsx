@@ -31,6 +31,7 @@ import {
   type PeakLayer,
 } from './plot/peakLayer';
 import { plotTheme } from './plot/plotColours';
+import { plotMarksPaint, type PlotMark } from './plot/plotMarks';
 import { rungSymmetryLabelsPaint } from './plot/rungSymmetryLabels';
 
 /** What the chart hands over after each draw: the plot element, and the x range while panning. */
@@ -44,6 +45,14 @@ interface AxisLayout {
   _length: number;
 }
 
+/** plotly's laid-out plot area inside the chart element, px. */
+interface PlotSize {
+  l: number;
+  t: number;
+  w: number;
+  h: number;
+}
+
 export interface PlotOverlayProps {
   ref?: Ref<PlotOverlayHandle>;
   scene: LadderScene;
@@ -52,6 +61,8 @@ export interface PlotOverlayProps {
   cursorLine: number;
   lines: LineList;
   shape: TopShape;
+  /** Vertical marks (selected rung's line, the peak whose candidates are open, the selected row), painted under everything else. */
+  marks: readonly PlotMark[];
   peaks: PeakLayer | null;
   isDark: boolean;
   onRungClick: (lineIndex: number) => void;
@@ -101,6 +112,9 @@ export function PlotOverlay(props: PlotOverlayProps) {
   // the scene, the view, the size or the theme changed: a click that assigns, selects or marks a peak
   // repaints the small top canvas alone, so the browser does not rasterise every rung again.
   const baseRef = useRef<HTMLCanvasElement>(null);
+  // The vertical marks have the lowest canvas of their own (plotly drew them under the rungs and peak
+  // markers as shapes); it is cleared and painted with the top one.
+  const marksRef = useRef<HTMLCanvasElement>(null);
   const baseDrawnRef = useRef<BaseDrawn>(BASE_BLANK);
   const tipRef = useRef<HTMLDivElement>(null);
   const latest = useRef(props);
@@ -113,13 +127,15 @@ export function PlotOverlay(props: PlotOverlayProps) {
   const paint = () => {
     const canvas = canvasRef.current;
     const base = baseRef.current;
+    const marksCanvas = marksRef.current;
     const plot = plotRef.current;
-    if (!canvas || !base || !plot) return;
-    const fl = (plot.el as unknown as { _fullLayout?: { xaxis?: AxisLayout; yaxis?: AxisLayout; yaxis2?: AxisLayout } })._fullLayout;
+    if (!canvas || !base || !marksCanvas || !plot) return;
+    const fl = (plot.el as unknown as { _fullLayout?: { xaxis?: AxisLayout; yaxis?: AxisLayout; yaxis2?: AxisLayout; _size?: PlotSize } })
+      ._fullLayout;
     const cssW = canvas.clientWidth;
     const cssH = canvas.clientHeight;
     const dpr = window.devicePixelRatio || 1;
-    for (const c of [canvas, base]) {
+    for (const c of [canvas, base, marksCanvas]) {
       if (c.width !== Math.round(cssW * dpr) || c.height !== Math.round(cssH * dpr)) {
         c.width = Math.round(cssW * dpr);
         c.height = Math.round(cssH * dpr);
@@ -129,13 +145,17 @@ export function PlotOverlay(props: PlotOverlayProps) {
     }
     const ctx = canvas.getContext('2d');
     const bctx = base.getContext('2d');
-    if (!ctx || !bctx) return;
+    const mctx = marksCanvas.getContext('2d');
+    if (!ctx || !bctx || !mctx) return;
     ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
     ctx.clearRect(0, 0, cssW, cssH);
+    mctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+    mctx.clearRect(0, 0, cssW, cssH);
     bctx.setTransform(dpr, 0, 0, dpr, 0, 0);
     const xa = fl?.xaxis;
     if (!xa || !Array.isArray(xa.range)) {
       viewsRef.current = { ladder: null, trace: null };
+      canvas.dataset.marks = '';
       if (baseDrawnRef.current !== BASE_BLANK) bctx.clearRect(0, 0, cssW, cssH);
       baseDrawnRef.current = BASE_BLANK;
       return;
@@ -160,10 +180,30 @@ export function PlotOverlay(props: PlotOverlayProps) {
     viewsRef.current = views;
     const p = latest.current;
     const theme = plotTheme(p.isDark);
+    // The vertical marks, from the top of the plot area (or of the trace panel) to its bottom.
+    const size = fl?._size;
+    const marksDrawn = size
+      ? plotMarksPaint(
+          mctx,
+          p.marks,
+          {
+            x0Cm1: x0,
+            x1Cm1: x1,
+            leftPx: pr.left - cr.left + xa._offset,
+            widthPx: xa._length,
+            topPx: pr.top - cr.top + size.t,
+            traceTopPx: views.trace ? views.trace.topPx : pr.top - cr.top + size.t,
+            bottomPx: pr.top - cr.top + size.t + size.h,
+          },
+          theme,
+        )
+      : [];
     // Read-outs for tests and checks: the range painted (cm^-1), what is drawn, the selected rung, and
     // where the strongest rung and some free peaks sit (canvas CSS px).
     const data = canvas.dataset;
     data.xRange = `${x0},${x1}`;
+    // kind@position (cm^-1)@column (canvas CSS px) of each vertical mark painted.
+    data.marks = marksDrawn.map((m) => `${m.kind}@${m.xCm1}@${m.xPx.toFixed(1)}`).join(';');
     const lv = views.ladder;
     const tv = views.trace;
     const drawnPeaks = tv && p.peaks ? peakLayerVisible(p.peaks, tv.x0Cm1, tv.x1Cm1) : new Int32Array(0);
@@ -273,7 +313,7 @@ export function PlotOverlay(props: PlotOverlayProps) {
     paintSoon();
     // The listed props are what the canvas shows; paintSoon is a fresh closure each render on purpose.
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [props.scene, props.markers, props.cursorLine, props.peaks, props.isDark, props.rungLabels]);
+  }, [props.scene, props.markers, props.cursorLine, props.marks, props.peaks, props.isDark, props.rungLabels]);
 
   useEffect(() => {
     const canvas = canvasRef.current;
@@ -372,6 +412,7 @@ export function PlotOverlay(props: PlotOverlayProps) {
 
   return (
     <>
+      <canvas ref={marksRef} className="plot-overlay" aria-hidden="true" />
       <canvas ref={baseRef} className="plot-overlay" aria-hidden="true" />
       <canvas ref={canvasRef} className="plot-overlay" data-testid="plot-overlay" aria-hidden="true" />
       <div ref={tipRef} className="plot-tip" role="tooltip" data-testid="plot-tip" hidden />

@@ -1,5 +1,5 @@
 /** Controls above the plot: ordinate, overlays, peak threshold, keyboard-walk tolerance, zoom out, typed range, ladder rows. */
-import { useMemo, useState, type KeyboardEvent } from 'react';
+import { memo, useMemo, useState, type KeyboardEvent } from 'react';
 import { walkToleranceSet } from '../state/actionsAssign';
 import { benchUpdate } from '../state/actionsCore';
 import { viewSet, viewSetHiddenRows, viewSetOrdinate, viewSetRowHidden, viewSetXRange } from '../state/actionsView';
@@ -88,7 +88,8 @@ function XRangeFields() {
   );
 }
 
-export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
+// Memoised: it reads the store itself, so the plot's re-render on every click does not render it again.
+export const PlotToolbar = memo(function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
   const ordinate = useBench((s) => s.ordinate);
   const showSimulated = useBench((s) => s.showSimulated);
   const showObsMinusSim = useBench((s) => s.showObsMinusSim);
@@ -211,4 +212,4 @@ export function PlotToolbar({ rows: ladders }: { rows: Ladder[] }) {
       )}
     </div>
   );
-}
+});

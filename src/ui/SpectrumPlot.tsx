@@ -21,6 +21,7 @@ import { ladderRowsBuild, type LadderRow } from './plot/ladderGeometry';
 import { ladderMarkersUpdate, ladderSceneBuild, type LadderMarkersState } from './plot/ladderScene';
 import { rungSymmetryTexts } from './plot/rungSymmetryLabels';
 import { peakLayerBase, peakLayerUpdate, type PeakLayerState } from './plot/peakLayer';
+import { plotMarks } from './plot/plotMarks';
 import { spectrumFigure } from './plot/toTraces';
 import { PlotlyChart } from './PlotlyChart';
 import { PlotOverlay, type PlotOverlayHandle } from './PlotOverlay';
@@ -203,6 +204,12 @@ export function SpectrumPlot() {
     peakLayerLast.current = peakLayerUpdate(peakLayerLast.current, peakBase, rowsA, peakIdAt, peakIdPosition);
     return peakLayerLast.current.layer;
   }, [peakBase, rowsA]);
+  // The vertical marks: painted by the overlay, never a reason for plotly to draw again.
+  const cursorCm1 = cursorLine >= 0 && cursorLine < drawn.lines.count ? drawn.lines.wavenumberCm1[cursorLine] : null;
+  const marks = useMemo(
+    () => plotMarks(cursorCm1, candidatePeakCm1, selectedObservedCm1),
+    [cursorCm1, candidatePeakCm1, selectedObservedCm1],
+  );
   // What the plotly figure depends on; the visible range first (see isRangeOnly).
   const inputs: unknown[] = [
     xRange,
@@ -211,9 +218,6 @@ export function SpectrumPlot() {
     ordinate,
     rows,
     drawn.lines,
-    cursorLine,
-    selectedObservedCm1,
-    candidatePeakCm1,
     sim,
     showSimulated,
     showObsMinusSim,
@@ -231,9 +235,6 @@ export function SpectrumPlot() {
         ordinate,
         rows,
         lines: drawn.lines,
-        cursorCm1: cursorLine >= 0 ? drawn.lines.wavenumberCm1[cursorLine] : null,
-        selectedObservedCm1,
-        candidatePeakCm1,
         sim,
         proposals,
         selectedProposalCm1,
@@ -281,6 +282,7 @@ export function SpectrumPlot() {
           scene={scene}
           markers={markers}
           cursorLine={cursorLine}
+          marks={marks}
           lines={drawn.lines}
           shape={shape}
           peaks={peakLayer}

@@ -30,7 +30,8 @@
  * also writes them there as .cpuprofile files; build with
  * `vite build --minify false` for readable names); LB_BENCH_TRACE_DIR (write a Chromium performance trace of the
  * first zoom/pan steps of each redraw measure there, and of the first candidate clicks of each click-to-assign
- * measure, for DevTools' Performance panel).
+ * measure, for DevTools' Performance panel); LB_BENCH_RECORDED_CLICKS (how many candidate clicks of each
+ * click-to-assign measure are profiled or traced, default 3).
  */
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
@@ -73,7 +74,7 @@ const TRACE_STEPS = 8;
  * Candidate clicks (click-to-assign) traced (LB_BENCH_TRACE_DIR, one file each) or profiled (LB_BENCH_PROFILE):
  * the first is often JIT-cold, so a few. Recording slows those clicks; their times stay in the medians.
  */
-const ASSIGN_RECORDED_CLICKS = 3;
+const ASSIGN_RECORDED_CLICKS = Math.max(1, Number(process.env.LB_BENCH_RECORDED_CLICKS ?? 3) || 3);
 /**
  * Trace categories: the main thread's tasks, script, layout and frames, and the compositor and raster
  * threads' work (cc, viz, gpu, frame events), for DevTools' Performance panel.

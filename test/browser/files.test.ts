@@ -98,6 +98,22 @@ describe('files', () => {
     const [rowBox, bodyBox] = [(await selected.boundingBox())!, (await body.boundingBox())!];
     expect(rowBox.y).toBeGreaterThanOrEqual(bodyBox.y - 1);
     expect(rowBox.y + rowBox.height).toBeLessThanOrEqual(bodyBox.y + bodyBox.height + 1);
+    // The rendered rows stack one row height (30 px) apart in obs order, the row at index i at
+    // i · 30 px from the top of the scrolled list (the window of rows is placed as a whole).
+    const placed = await page.evaluate(() => {
+      const body = document.querySelector('.tbody[role=rowgroup]') as HTMLElement;
+      const top = body.getBoundingClientRect().top - body.scrollTop;
+      return Array.from(body.querySelectorAll('[data-testid=assignment-row]')).map((el) => ({
+        y: el.getBoundingClientRect().top - top,
+        obs: Number(el.querySelectorAll('[role=cell].num')[0].textContent),
+      }));
+    });
+    expect(placed.length).toBeGreaterThan(5);
+    for (let k = 1; k < placed.length; k++) {
+      expect(placed[k].y - placed[k - 1].y).toBeCloseTo(30, 3);
+      expect(placed[k].obs).toBeGreaterThanOrEqual(placed[k - 1].obs);
+    }
+    expect(placed[0].y % 30).toBeCloseTo(0, 3);
     await context.close();
   });
 

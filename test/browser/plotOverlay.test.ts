@@ -1,7 +1,9 @@
 /**
  * The canvas overlay (ladders, peak markers) stays on the plot's axis while the pointer drags: a
  * box-zoom drag leaves both where they are until the button is released, a pan of the x axis moves
- * both together.
+ * both together. The vertical marks of a click (the peak whose candidates are open, the selected
+ * row) are painted on the overlay where plotly's axis puts their wavenumbers, without plotly
+ * drawing the figure again.
  */
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -135,6 +137,78 @@ describe('plot overlay while dragging', () => {
       expect(Math.max(...xs) - Math.min(...xs)).toBeLessThanOrEqual(16 * dpr);
       expect(Math.max(...ys) - Math.min(...ys)).toBeLessThanOrEqual(16 * dpr);
     }
+    expect(log.pageErrors).toEqual([]);
+    await context.close();
+  });
+
+  it('marks the clicked peak and then the new row at their wavenumbers on the overlay, with a band hidden, and plotly does not draw again', async () => {
+    const { context, page, log } = await openPage(browser);
+    await gotoApp(page, 'bands');
+    await expect.poll(() => page.locator('[data-testid=band-switches] .band-switch').count(), { timeout: 30_000 }).toBe(3);
+    const hot = page.getByRole('checkbox', { name: 'Show the ladders of band hot (LB-7)' });
+    await hot.click();
+    await expect.poll(() => hot.isChecked()).toBe(false);
+    await zoomPlot(page, 0.45, 0.5);
+    await frames(page);
+    /** The marks painted (kind, cm^-1, column) and the column plotly's x axis gives each wavenumber (canvas px). */
+    const marks = () =>
+      page.evaluate(() => {
+        const canvas = document.querySelector('[data-testid=plot-overlay]') as HTMLElement;
+        const gd = document.querySelector('[data-testid=spectrum-plot]') as unknown as HTMLElement & {
+          _fullLayout: { xaxis: { _offset: number; l2p: (x: number) => number } };
+        };
+        const xa = gd._fullLayout.xaxis;
+        const shift = gd.getBoundingClientRect().left - canvas.getBoundingClientRect().left + xa._offset;
+        return (canvas.dataset.marks ?? '')
+          .split(';')
+          .filter(Boolean)
+          .map((m) => {
+            const [kind, x, px] = m.split('@');
+            return { kind, xCm1: Number(x), xPx: Number(px), axisPx: shift + xa.l2p(Number(x)) };
+          });
+      });
+    // The figure plotly was last handed: a click that only marks, assigns or selects leaves it as it is.
+    await page.evaluate(() => {
+      const w = window as unknown as { __figureLayout: unknown };
+      w.__figureLayout = (document.querySelector('[data-testid=spectrum-plot]') as unknown as { layout: unknown }).layout;
+    });
+    const isSameFigure = () =>
+      page.evaluate(
+        () =>
+          (window as unknown as { __figureLayout: unknown }).__figureLayout ===
+          (document.querySelector('[data-testid=spectrum-plot]') as unknown as { layout: unknown }).layout,
+      );
+    expect(await marks()).toEqual([]);
+
+    await clickAPeak(page);
+    await page.waitForSelector('[data-testid=candidates] [data-testid=candidate-0]', { timeout: 20_000 });
+    const peakCm1 = Number(/at ([\d.]+) cm/.exec((await page.locator('[data-testid=candidates]').getAttribute('aria-label')) ?? '')?.[1]);
+    await expect.poll(async () => (await marks()).map((m) => m.kind), { timeout: 10_000 }).toEqual(['candidate']);
+    const [open] = await marks();
+    // The list names the peak to 4 decimals.
+    expect(Math.abs(open.xCm1 - peakCm1)).toBeLessThan(6e-5);
+    expect(Math.abs(open.xPx - open.axisPx)).toBeLessThan(0.1);
+
+    await page.locator('[data-testid=candidate-0]').click();
+    await expect.poll(() => assignedCount(page), { timeout: 20_000 }).toBe(1);
+    await expect.poll(async () => (await marks()).map((m) => m.kind), { timeout: 10_000 }).toEqual(['selected']);
+    const [row] = await marks();
+    const obsShown = Number(await page.locator('[data-testid=assignment-row] [role=cell].num').first().textContent());
+    // The table shows the observed position to 5 decimals; the mark is the row's (the peak's) position.
+    expect(Math.abs(row.xCm1 - obsShown)).toBeLessThan(6e-6);
+    expect(Math.abs(row.xCm1 - peakCm1)).toBeLessThan(6e-5);
+    expect(Math.abs(row.xPx - row.axisPx)).toBeLessThan(0.1);
+    await page.screenshot({ path: `${SHOTS}/17-marks-several-bands.png` });
+    expect(await isSameFigure()).toBe(true);
+
+    // Deleting the row takes its mark away.
+    await page
+      .locator('[data-testid=assignment-row]')
+      .getByRole('button', { name: /^Delete assignment/ })
+      .click();
+    await expect.poll(() => assignedCount(page), { timeout: 20_000 }).toBe(0);
+    await expect.poll(async () => (await marks()).length, { timeout: 10_000 }).toBe(0);
+    expect(await isSameFigure()).toBe(true);
     expect(log.pageErrors).toEqual([]);
     await context.close();
   });

@@ -18,9 +18,6 @@ function input(over: Partial<SpectrumFigureInput> = {}): SpectrumFigureInput {
     ordinate: 'absorbance',
     rows: ladderRowsBuild(ladders, model.shape),
     lines,
-    cursorCm1: null,
-    selectedObservedCm1: null,
-    candidatePeakCm1: null,
     sim: null,
     showSimulated: false,
     showObsMinusSim: false,
@@ -62,14 +59,8 @@ describe('spectrumFigure', () => {
     expect(y2.showticklabels).toBe(false);
   });
 
-  it('draws the selected rung and the selected assignment as vertical lines', () => {
-    const inp = input();
-    const nu = inp.lines.wavenumberCm1[0];
-    const { layout } = spectrumFigure({ ...inp, cursorCm1: nu, selectedObservedCm1: nu + 0.5 });
-    const xs = (layout.shapes as { x0: number }[]).map((s) => s.x0);
-    expect(xs).toContain(nu);
-    expect(xs).toContain(nu + 0.5);
-    expect(spectrumFigure(inp).layout.shapes).toEqual([]);
+  it('has no shapes but the reviewed proposal (the vertical marks of clicks are the overlay’s, plotMarks)', () => {
+    expect(spectrumFigure(input()).layout.shapes).toEqual([]);
   });
 
   it('adds the obs − sim axis below the trace only when asked and there is a simulation', () => {

@@ -1,7 +1,9 @@
 /**
- * The main figure as plotly data: decimated trace, peak markers, simulated spectrum, obs − sim,
- * and the ladders with assignment and cursor markers. Pure: store data in, {data, layout} out; the
- * chart component only hands the result to plotly.
+ * The main figure as plotly data: decimated trace, simulated spectrum, obs − sim, the assistant's
+ * proposals and the (empty) ladder axis. Pure: store data in, {data, layout} out; the chart component
+ * only hands the result to plotly. What a click changes (rungs, markers, the selected rung's, candidate
+ * peak's and selected row's vertical marks) is painted on the overlay's canvases instead (ladderScene,
+ * peakLayer, plotMarks), so a click never makes plotly re-render the figure.
  */
 import type { Data, Layout, Shape } from 'plotly.js';
 import type { Trace } from '../../io/trace';
@@ -24,12 +26,6 @@ export interface SpectrumFigureInput {
   rows: readonly LadderRow[];
   /** Predicted lines (the range shown without a trace). */
   lines: LineList;
-  /** Position of the selected rung's line (cm^-1), or null. */
-  cursorCm1: number | null;
-  /** Observed position of the selected assignment (cm^-1), or null. */
-  selectedObservedCm1: number | null;
-  /** Peak whose candidate list is open (cm^-1), or null. */
-  candidatePeakCm1: number | null;
   sim: SimulatedSpectrum | null;
   /** The assistant's proposals waiting for review: positions (cm^-1) and whether each is doubted. */
   proposals?: { xCm1: readonly number[]; isDoubtful: readonly boolean[] } | null;
@@ -153,43 +149,9 @@ export function spectrumFigure(input: SpectrumFigureInput): { data: Data[]; layo
   const usable = Math.max(input.heightPx - 50, 100);
   const ladderFrac = Math.min(0.58, Math.max(0.25, (Math.max(nRows, 1) * 15) / usable));
   const traceTop = 1 - ladderFrac - 0.03;
+  // The selected rung's, candidate peak's and selected row's marks are the overlay's (plotMarks); the
+  // proposal under review stays a shape (it changes with the review list, not with clicks on the plot).
   const shapes: Partial<Shape>[] = [];
-  if (input.cursorCm1 !== null) {
-    shapes.push({
-      type: 'line',
-      xref: 'x',
-      yref: 'paper',
-      x0: input.cursorCm1,
-      x1: input.cursorCm1,
-      y0: 0,
-      y1: 1,
-      line: { color: theme.cursor, width: 1.2, dash: 'dot' },
-    });
-  }
-  if (input.candidatePeakCm1 !== null) {
-    shapes.push({
-      type: 'line',
-      xref: 'x',
-      yref: 'paper',
-      x0: input.candidatePeakCm1,
-      x1: input.candidatePeakCm1,
-      y0: 0,
-      y1: 1,
-      line: { color: theme.peak, width: 1.5 },
-    });
-  }
-  if (input.selectedObservedCm1 !== null) {
-    shapes.push({
-      type: 'line',
-      xref: 'x',
-      yref: 'paper',
-      x0: input.selectedObservedCm1,
-      x1: input.selectedObservedCm1,
-      y0: 0,
-      y1: traceTop,
-      line: { color: theme.assigned, width: 1.5, dash: 'dash' },
-    });
-  }
   if (input.selectedProposalCm1 != null) {
     shapes.push({
       type: 'line',
