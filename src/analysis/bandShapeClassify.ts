@@ -694,7 +694,7 @@ export function bandShapeClassify(
     // and the comb's median gap comes from whichever wing holds more of its members: a real Σ–Σ band
     // (HC3N ν2, test/fixtures/real) gave its P wing 0.347 cm^-1 apart against 2B = 0.303 at the origin.
     // B comes from the spacing carried to the origin (median |B error| on bench:contour classify's four
-    // seed sets 2.5, 2.0, 1.7, 2.0 % → 0.8, 0.5, 0.6, 1.5 %).
+    // seed sets 2.5, 2.0, 1.7, 2.0 % → 0.9, 0.5, 0.5, 0.7 % with the other rules of the same pass).
     // (A comb found from the trace's periodicity has its maxima picked on a finer trace: those count too.)
     const atOrigin = jLineSpacingAtOrigin(combFromPeriod ? comb.members : allPeaks, comb.spacing, origin);
     if (atOrigin) {
