@@ -56,10 +56,13 @@ export interface ContourFitInput {
   maxIterations?: number;
   /**
    * After the fit, walk χ² along the principal axes of the constants' error ellipsoid (±2σ, farther
-   * where flatter): restart from a lower χ² found there, and widen σ along an axis where χ² rises
-   * more slowly than the curvature at the minimum says. @default true
+   * where flatter, contourValleyScan): 'widen' widens σ along an axis where χ² rises more slowly than
+   * the curvature at the minimum says (and warns when it finds a lower χ² there); 'restart' also
+   * fits again from such a lower χ² (up to 3 times), which costs a few more iterations and merges
+   * neighbouring minima a caller that collects minima itself may want apart; 'off' keeps the
+   * curvature's σ. @default 'widen'
    */
-  valleyScan?: boolean;
+  valleyScan?: 'off' | 'widen' | 'restart';
   /** Called after each iteration of each stage. */
   onProgress?: (stage: number, iteration: number, rms: number) => void;
   /** Polled once per iteration. */
@@ -94,7 +97,7 @@ export interface ContourFitResult {
   status: LeastSquaresStatus;
   iterations: number;
   route: InstrumentRoute;
-  /** Restarts from a lower χ² found by the valley scan (0 when none or not run). */
+  /** Restarts from a lower χ² found by the valley scan (0 unless valleyScan is 'restart'). */
   valleyRestarts: number;
   /**
    * Largest factor by which the valley scan widened σ along one axis of the error ellipsoid (1 when
@@ -289,9 +292,10 @@ function getModelKey(model: BandModel, key: string): number {
  * CONTOUR_RANK_TOLERANCE is explained with rankDiagnosis's words and the constants it proposes are
  * held at their start values (a warning says so). σ = √(χ²/(m − n)) × √diag(JᵀJ)⁻¹, inflated by
  * √((1 + ρ₁)/(1 − ρ₁)) when the residuals' lag-1 autocorrelation ρ₁ > 0 (correlated noise of an
- * oversampled trace). Then the valley scan (contourValleyScan; off with valleyScan: false) checks
- * that linear picture along each principal axis of the constants' error ellipsoid, restarting
- * from a lower χ² it finds and widening σ along axes where χ² is flatter than predicted.
+ * oversampled trace). Then the valley scan (contourValleyScan; valleyScan 'off' skips it) checks
+ * that linear picture along each principal axis of the constants' error ellipsoid, widening σ
+ * along axes where χ² is flatter than predicted (and, with 'restart', fitting again from a lower
+ * χ² it finds).
  * Source: Levenberg (1944), Marquardt (1963) via leastSquaresSolve; Griffiths & de Haseth (2007)
  * ch. 2 for the instrument; variance inflation for AR(1) residuals: e.g. Bartlett (1946) /
  * von Storch & Zwiers, Statistical Analysis in Climate Research (1999) §17.1 (from memory);
@@ -535,7 +539,8 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   let post = summarise(solution);
   let scan: ValleyScanResult | null = null;
   let valleyRestarts = 0;
-  if (input.valleyScan ?? true) {
+  const valleyMode = input.valleyScan ?? 'widen';
+  if (valleyMode !== 'off') {
     // Indices of the nonlinear constants (model keys and the Lorentz width) in the parameter vector;
     // the scale and the baseline are re-fitted linearly at every point of the walk.
     const block = layout.modelKeys.map((_, c) => c);
@@ -578,7 +583,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
       // Δχ² (noise units) of one reported σ: σ_w² and the AR(1) inflation² in noise units.
       const oneSigma = post.sigmaW * post.sigmaW * weight * weight;
       scan = contourValleyScan(solution.parameters, post.cov, nP, block, oneSigma, profile);
-      if (!scan.lower || valleyRestarts >= CONTOUR_VALLEY_RESTARTS) break;
+      if (!scan.lower || valleyMode !== 'restart' || valleyRestarts >= CONTOUR_VALLEY_RESTARTS) break;
       // A lower χ² along an axis: the solver stopped in a side pocket of a long valley (noise puts
       // ripples of a few tenths in χ² along it). Fit again from there; keep it if it ends lower.
       const saved = { model: structuredClone(model), scale, lorentz, baseline: Float64Array.from(baseline) };
@@ -617,6 +622,11 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
       `χ² rises more slowly away from the minimum than its curvature there says (${scan.widening.toFixed(1)}× wider along the direction mostly of ${scan.wideAxis
         .map((c) => (c < layout.modelKeys.length ? layout.modelKeys[c] : 'lorentz'))
         .join(' and ')}): the σ are widened to the width measured, and the χ² valley may not be parabolic.`,
+    );
+  }
+  if (scan && scan.lower) {
+    warnings.push(
+      'A lower χ² lies along the least determined directions within the σ reported: the fit stopped in a shallow side minimum of a long valley; the σ are widened to span it (valleyScan "restart" fits again from there).',
     );
   }
   if (scan && scan.flat) {
