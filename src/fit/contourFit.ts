@@ -742,14 +742,23 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
 function linearFit(y: Float64Array, t: Float64Array, nBaseline: number, u?: Float64Array): { amplitude: number; baseline: number[] } {
   const off = u ? 1 : 0;
   const n = nBaseline + off;
-  const col = (c: number, i: number) => (c < off ? u![i] : t[i] ** (c - off));
+  // Columns once (the valley scan calls this for every point it walks to, on up to 1e5 points).
+  const cols: Float64Array[] = [];
+  if (u) cols.push(u);
+  for (let k = 0; k < nBaseline; k++) cols.push(k === 0 ? new Float64Array(t.length).fill(1) : t.map((v) => v ** k));
   const a = Array.from({ length: n }, () => new Float64Array(n + 1));
-  for (let i = 0; i < y.length; i++) {
-    for (let r = 0; r < n; r++) {
-      const vr = col(r, i);
-      for (let c = 0; c < n; c++) a[r][c] += vr * col(c, i);
-      a[r][n] += vr * y[i];
+  for (let r = 0; r < n; r++) {
+    const cr = cols[r];
+    for (let c = r; c < n; c++) {
+      const cc = cols[c];
+      let sum = 0;
+      for (let i = 0; i < y.length; i++) sum += cr[i] * cc[i];
+      a[r][c] = sum;
+      a[c][r] = sum;
     }
+    let sy = 0;
+    for (let i = 0; i < y.length; i++) sy += cr[i] * y[i];
+    a[r][n] = sy;
   }
   for (let p = 0; p < n; p++) {
     let best = p;
