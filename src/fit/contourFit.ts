@@ -11,6 +11,7 @@ import { shapeUniqueName, type BandModel } from '../physics/model';
 import { fitKeyParse, fitParameterKeys } from './bandDesign';
 import { leastSquaresSolve, type LeastSquaresStatus } from './leastSquares';
 import { lineariseCovariance, type Linearisation } from './leastSquaresLinearise';
+import { jacobiSvd } from './jacobiSvd';
 import { rankDiagnosis } from './rankDiagnosis';
 
 /** Input of contourFit. */
@@ -53,6 +54,15 @@ export interface ContourFitInput {
   route?: InstrumentRoute | 'auto';
   /** Iteration limit of the main stage. @default 40 */
   maxIterations?: number;
+  /**
+   * After the fit, walk χ² along the principal axes of the constants' error ellipsoid (±2σ, farther
+   * where flatter, contourValleyScan): 'widen' widens σ along an axis where χ² rises more slowly than
+   * the curvature at the minimum says (and warns when it finds a lower χ² there); 'restart' also
+   * fits again from such a lower χ² (up to 3 times), which costs a few more iterations and merges
+   * neighbouring minima a caller that collects minima itself may want apart; 'off' keeps the
+   * curvature's σ. @default 'widen'
+   */
+  valleyScan?: 'off' | 'widen' | 'restart';
   /** Called after each iteration of each stage. */
   onProgress?: (stage: number, iteration: number, rms: number) => void;
   /** Polled once per iteration. */
@@ -87,6 +97,13 @@ export interface ContourFitResult {
   status: LeastSquaresStatus;
   iterations: number;
   route: InstrumentRoute;
+  /** Restarts from a lower χ² found by the valley scan (0 unless valleyScan is 'restart'). */
+  valleyRestarts: number;
+  /**
+   * Largest factor by which the valley scan widened σ along one axis of the error ellipsoid (1 when
+   * χ² rose as the curvature at the minimum predicts, or the scan did not run).
+   */
+  sigmaWidening: number;
   /** Region axis, the fitted simulation (with baseline) and the residual (obs − calc), absorbance. */
   x: Float64Array;
   simulation: Float64Array;
@@ -98,6 +115,114 @@ export const CONTOUR_RANK_TOLERANCE = 1e-6;
 
 /** |ρ| from which a pair of floated parameters is named in the warnings. */
 export const CONTOUR_CORRELATION_WARN = 0.995;
+
+/** Most restarts from a lower χ² found by the valley scan. */
+const CONTOUR_VALLEY_RESTARTS = 3;
+
+/** Widening of σ along one axis above which a warning says so. */
+const CONTOUR_WIDENING_WARN = 1.5;
+
+/** Steps of the valley scan along one axis, in units of that axis's 1σ (walked out while χ² stays under 1σ). */
+const VALLEY_STEPS = [2, 4, 8, 16];
+
+/** A point of the scan counts as lower when χ² falls by more than this fraction of one σ's Δχ². */
+const VALLEY_LOWER_FRACTION = 0.05;
+
+/** What contourValleyScan found. */
+interface ValleyScanResult {
+  /** The covariance (n×n, row = column order of the parameters), widened within the scanned block. */
+  covariance: Float64Array;
+  /** Largest widening of one axis (≥ 1). */
+  widening: number;
+  /** Parameter indices that make up most of the most widened axis. */
+  wideAxis: number[];
+  /** True when χ² stayed under one σ's Δχ² out to the last step on some axis. */
+  flat: boolean;
+  /** The parameters (linear ones re-fitted) of the lowest χ² found, when lower than the minimum's. */
+  lower: Float64Array | null;
+}
+
+/**
+ * Walk χ² along each principal axis of the error ellipsoid of the nonlinear parameters (the
+ * eigenvectors of their correlation matrix, each scaled to its 1σ length): at ±2σ, then ±4, ±8, ±16σ
+ * while χ² is still below the minimum + one σ's Δχ². Linear least squares predicts Δχ²(kσ) = k²;
+ * a side whose Δχ²(k) is smaller has a measured width k·√(1σ Δχ² / Δχ²(k)), and the axis's σ is
+ * multiplied by the larger side's width when it exceeds 1 (never narrowed). The scale and the
+ * baseline are re-fitted linearly at every point (`profile`), so the walk sees the χ² profile over
+ * them.
+ * Source: Press et al., Numerical Recipes 3rd ed. (2007) §15.6 (Δχ² confidence regions; the 1σ
+ * ellipsoid's axes are the covariance's eigenvectors); Bates & Watts (1988) ch. 6 (profiles show
+ * where the linear approximation fails). Steps and thresholds: chosen here (common practice: a
+ * profile is sampled to beyond its 2σ level).
+ * @param p0 parameters at the minimum
+ * @param cov covariance of all n parameters (reported units, row-major n×n)
+ * @param n number of parameters
+ * @param block indices of the nonlinear parameters to walk
+ * @param oneSigma Δχ² (in the units `profile` returns) of one reported σ
+ * @param profile χ² at a parameter vector with the linear parameters re-fitted, and that vector
+ */
+function contourValleyScan(
+  p0: Float64Array,
+  cov: Float64Array,
+  n: number,
+  block: number[],
+  oneSigma: number,
+  profile: (p: Float64Array) => { chi2: number; p: Float64Array },
+): ValleyScanResult {
+  const none: ValleyScanResult = { covariance: Float64Array.from(cov), widening: 1, wideAxis: [], flat: false, lower: null };
+  const nb = block.length;
+  const d = block.map((c) => Math.sqrt(Math.max(cov[c * n + c], 0)));
+  if (nb === 0 || !(oneSigma > 0) || d.some((v) => !(v > 0))) return none;
+  const corr = new Float64Array(nb * nb);
+  for (let a = 0; a < nb; a++) for (let b = 0; b < nb; b++) corr[b * nb + a] = cov[block[a] * n + block[b]] / (d[a] * d[b]);
+  // Symmetric and positive semi-definite: its singular vectors are its eigenvectors.
+  const eig = jacobiSvd(corr, nb, nb);
+  const base = profile(p0).chi2;
+  let best = base - Math.max(VALLEY_LOWER_FRACTION * oneSigma, 1e-12 * base);
+  let lower: Float64Array | null = null;
+  let flat = false;
+  const widths = new Float64Array(nb).fill(1);
+  for (let i = 0; i < nb; i++) {
+    const mu = eig.s[i];
+    if (!(mu > 0)) continue;
+    const axis = d.map((da, a) => da * eig.v[i * nb + a] * Math.sqrt(mu));
+    for (const side of [1, -1]) {
+      let width = 1;
+      for (const k of VALLEY_STEPS) {
+        const q = Float64Array.from(p0);
+        block.forEach((c, a) => (q[c] += side * k * axis[a]));
+        const at = profile(q);
+        if (!Number.isFinite(at.chi2)) break;
+        if (at.chi2 < best) {
+          best = at.chi2;
+          lower = at.p;
+        }
+        const delta = at.chi2 - base;
+        width = delta > oneSigma / 4 ? k * Math.sqrt(oneSigma / delta) : 2 * k;
+        if (delta >= oneSigma) break;
+        if (k === VALLEY_STEPS[VALLEY_STEPS.length - 1]) flat = true;
+      }
+      widths[i] = Math.max(widths[i], width);
+    }
+  }
+  const covariance = Float64Array.from(cov);
+  for (let a = 0; a < nb; a++) {
+    for (let b = 0; b < nb; b++) {
+      let v = 0;
+      for (let i = 0; i < nb; i++) v += widths[i] * widths[i] * eig.s[i] * eig.v[i * nb + a] * eig.v[i * nb + b];
+      covariance[block[a] * n + block[b]] = d[a] * d[b] * v;
+    }
+  }
+  let wide = 0;
+  for (let i = 1; i < nb; i++) if (widths[i] > widths[wide]) wide = i;
+  const wideAxis = block
+    .map((c, a) => ({ c, w: Math.abs(eig.v[wide * nb + a]) }))
+    .filter((e) => e.w >= 0.4)
+    .sort((x, z) => z.w - x.w)
+    .slice(0, 2)
+    .map((e) => e.c);
+  return { covariance, widening: widths[wide], wideAxis, flat, lower };
+}
 
 /**
  * Constants a band contour can usually determine, by band type: origin, B′ and B″ always; for a
@@ -127,11 +252,23 @@ function layoutSize(l: Layout): number {
   return l.modelKeys.length + (l.hasScale ? 1 : 0) + (l.hasLorentz ? 1 : 0) + l.nBaseline;
 }
 
-/** Default finite-difference step of a model key (cm^-1, or dimensionless for ζ). */
-function stepFor(key: string, value: number): number {
+/**
+ * Finite-difference step of a model key (cm^-1, or dimensionless for ζ). On the transmittance route
+ * the saturation is computed on a grid fixed in wavenumber (coarser than the line width when the
+ * saturated windows exceed the grid budget), so moving lines by a fraction of that grid makes the
+ * model ripple: on the 20,000-line saturating band of bench:contour speed the central difference in
+ * B (B′ and B″ together) differed by 170 % at a step of 1e-6 cm^-1 and by 18 % at 1e-4 against
+ * 3e-4 (4e-6 on the weak-absorption route), the origin's by 3 % at 1e-4 and 0.6 % at 1e-3, ζ's and
+ * A′'s by 10–13 % at 1e-5 and 3–4 % at 1e-4. There the steps of B and the origin are 100× and the
+ * others 10× the weak-route ones (the lines then move by ~0.01 cm^-1, below 1/(2L) ≥ 0.125 cm^-1
+ * for L ≤ 4 cm, so the truncation error stays at the per-cent level).
+ */
+function stepFor(key: string, value: number, route: InstrumentRoute): number {
   const name = fitKeyParse(key)?.name;
   const floor = name === 'origin' ? 1e-4 : name === 'zeta' ? 1e-5 : name === 'B' ? 1e-6 : 1e-5;
-  return Math.max(floor, Math.abs(value) * 1e-6);
+  const h = Math.max(floor, Math.abs(value) * 1e-6);
+  if (route === 'linear') return h;
+  return h * (name === 'origin' || name === 'B' ? 100 : 10);
 }
 
 function setModelKey(model: BandModel, key: string, value: number): void {
@@ -155,10 +292,16 @@ function getModelKey(model: BandModel, key: string): number {
  * CONTOUR_RANK_TOLERANCE is explained with rankDiagnosis's words and the constants it proposes are
  * held at their start values (a warning says so). σ = √(χ²/(m − n)) × √diag(JᵀJ)⁻¹, inflated by
  * √((1 + ρ₁)/(1 − ρ₁)) when the residuals' lag-1 autocorrelation ρ₁ > 0 (correlated noise of an
- * oversampled trace).
+ * oversampled trace). Then the valley scan (contourValleyScan; valleyScan 'off' skips it) checks
+ * that linear picture along each principal axis of the constants' error ellipsoid, widening σ
+ * along axes where χ² is flatter than predicted (and, with 'restart', fitting again from a lower
+ * χ² it finds).
  * Source: Levenberg (1944), Marquardt (1963) via leastSquaresSolve; Griffiths & de Haseth (2007)
  * ch. 2 for the instrument; variance inflation for AR(1) residuals: e.g. Bartlett (1946) /
- * von Storch & Zwiers, Statistical Analysis in Climate Research (1999) §17.1 (from memory).
+ * von Storch & Zwiers, Statistical Analysis in Climate Research (1999) §17.1 (from memory);
+ * confidence regions from Δχ² rather than the curvature at the minimum when the model is
+ * nonlinear: Press et al., Numerical Recipes 3rd ed. (2007) §15.6, Bates & Watts, Nonlinear
+ * Regression Analysis (1988) ch. 6 (profile traces; from memory).
  * @param input trace, region, instrument and start model
  * @returns fitted parameters, σ, combinations, warnings and the fitted simulation
  * @throws Error naming the problem for an empty region, unknown float keys or bad numbers
@@ -223,8 +366,8 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   for (let i = 0; i < m; i++) unitMax = Math.max(unitMax, unit[i] / ln10);
   if (!(unitMax > 0)) throw new Error(`${fn}: the model has no lines in ${fromCm1} … ${toCm1} cm^-1 (check the origin and the region)`);
   const baseline = new Float64Array(nBaseline);
-  const linear = linearStart(unit, t, y, nBaseline);
-  let scale = linear.scale / ln10;
+  const linear = linearFit(y, t, nBaseline, unit);
+  let scale = linear.amplitude / ln10;
   if (!(scale > 0)) {
     // The start model's band does not resemble the trace at all; size it by the largest excursion.
     const sorted = Float64Array.from(y).sort();
@@ -279,7 +422,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
           for (let c = 0; c < nonlinear; c++) {
             const h =
               c < layout.modelKeys.length
-                ? stepFor(layout.modelKeys[c], p[c])
+                ? stepFor(layout.modelKeys[c], p[c], route)
                 : c === layout.modelKeys.length && layout.hasScale
                   ? 1e-5
                   : Math.max(Math.abs(p[c]) * 1e-5, 1e-5);
@@ -373,29 +516,124 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   }
   if (solution.status === 'non-finite') throw new Error(`${fn}: the model gave non-finite values; check the start constants`);
 
-  const n = layoutSize(layout);
-  const sim = new Float64Array(m);
-  evaluate(layout, solution.parameters, sim);
-  const residual = new Float64Array(m);
-  let chi2 = 0;
-  for (let i = 0; i < m; i++) {
-    residual[i] = y[i] - sim[i];
-    chi2 += residual[i] * residual[i];
+  // σ of the residuals: unit-weight σ_w with the AR(1) inflation, and the covariance (JᵀJ)⁻¹σ_w² of
+  // the unweighted problem, both at the solution reached.
+  const summarise = (sol: typeof solution) => {
+    const nP = layoutSize(layout);
+    const simAt = new Float64Array(m);
+    evaluate(layout, sol.parameters, simAt);
+    const res = new Float64Array(m);
+    let c2 = 0;
+    for (let i = 0; i < m; i++) {
+      res[i] = y[i] - simAt[i];
+      c2 += res[i] * res[i];
+    }
+    let r1 = 0;
+    for (let i = 1; i < m; i++) r1 += res[i] * res[i - 1];
+    const rho = c2 > 0 ? r1 / c2 : 0;
+    const infl = rho > 0 ? Math.sqrt((1 + rho) / (1 - Math.min(rho, 0.99))) : 1;
+    const sW = Math.sqrt(c2 / Math.max(m - nP, 1)) * infl;
+    const unweighted = lineariseCovariance(sol.linearisation as Linearisation).map((v) => v * weight * weight);
+    return { n: nP, sim: simAt, residual: res, chi2: c2, rho1: rho, inflation: infl, sigmaW: sW, cov: unweighted.map((v) => v * sW * sW) };
+  };
+  let post = summarise(solution);
+  let scan: ValleyScanResult | null = null;
+  let valleyRestarts = 0;
+  const valleyMode = input.valleyScan ?? 'widen';
+  if (valleyMode !== 'off') {
+    // Indices of the nonlinear constants (model keys and the Lorentz width) in the parameter vector;
+    // the scale and the baseline are re-fitted linearly at every point of the walk.
+    const block = layout.modelKeys.map((_, c) => c);
+    if (layout.hasLorentz) block.push(layout.modelKeys.length + (layout.hasScale ? 1 : 0));
+    const scaleIndex = layout.hasScale ? layout.modelKeys.length : -1;
+    const baseIndex = layoutSize(layout) - nBaseline;
+    const band = new Float64Array(m);
+    // χ² (noise units) of the parameters p with amplitude and baseline re-fitted; the re-fitted p.
+    const profile = (p: Float64Array): { chi2: number; p: Float64Array } => {
+      const q = Float64Array.from(p);
+      const mdl: BandModel = { ...model, lower: { ...model.lower }, upper: { ...model.upper } };
+      layout.modelKeys.forEach((k, c) => setModelKey(mdl, k, q[c]));
+      const s = scaleIndex >= 0 ? Math.exp(q[scaleIndex]) : scale;
+      const g = layout.hasLorentz ? Math.abs(q[block[block.length - 1]]) : lorentz;
+      const od = bandAt(mdl, g, s, route).opticalDepth;
+      for (let i = 0; i < m; i++) band[i] = od[i] / ln10;
+      // Without a floated scale the band stays as it is and only the baseline is re-fitted.
+      const lf =
+        scaleIndex >= 0
+          ? linearFit(y, t, nBaseline, band)
+          : linearFit(
+              y.map((v, i) => v - band[i]),
+              t,
+              nBaseline,
+            );
+      let c2 = 0;
+      for (let i = 0; i < m; i++) {
+        let b = 0;
+        for (let k = nBaseline - 1; k >= 0; k--) b = b * t[i] + lf.baseline[k];
+        const r = (y[i] - lf.amplitude * band[i] - b) * weight;
+        c2 += r * r;
+      }
+      if (scaleIndex >= 0 && lf.amplitude > 0) q[scaleIndex] += Math.log(lf.amplitude);
+      for (let k = 0; k < nBaseline; k++) q[baseIndex + k] = lf.baseline[k];
+      return { chi2: c2, p: q };
+    };
+    for (;;) {
+      if (input.shouldCancel?.()) break;
+      const nP = layoutSize(layout);
+      // Δχ² (noise units) of one reported σ: σ_w² and the AR(1) inflation² in noise units.
+      const oneSigma = post.sigmaW * post.sigmaW * weight * weight;
+      scan = contourValleyScan(solution.parameters, post.cov, nP, block, oneSigma, profile);
+      if (!scan.lower || valleyMode !== 'restart' || valleyRestarts >= CONTOUR_VALLEY_RESTARTS) break;
+      // A lower χ² along an axis: the solver stopped in a side pocket of a long valley (noise puts
+      // ripples of a few tenths in χ² along it). Fit again from there; keep it if it ends lower.
+      const saved = { model: structuredClone(model), scale, lorentz, baseline: Float64Array.from(baseline) };
+      layout.modelKeys.forEach((k, c) => setModelKey(model, k, scan!.lower![c]));
+      if (scaleIndex >= 0) scale = Math.exp(scan.lower[scaleIndex]);
+      if (layout.hasLorentz) lorentz = Math.abs(scan.lower[block[block.length - 1]]);
+      for (let k = 0; k < nBaseline; k++) baseline[k] = scan.lower[baseIndex + k];
+      const again = runStage(4, layout);
+      const usable = again.status !== 'rank-deficient' && again.status !== 'non-finite' && again.linearisation !== null;
+      const againPost = usable ? summarise(again) : null;
+      if (!againPost || !(againPost.chi2 < post.chi2)) {
+        model.lower = saved.model.lower;
+        model.upper = saved.model.upper;
+        scale = saved.scale;
+        lorentz = saved.lorentz;
+        baseline.set(saved.baseline);
+        break;
+      }
+      solution = again;
+      post = againPost;
+      valleyRestarts++;
+    }
   }
+  const { n, sim, residual, chi2, rho1, inflation } = post;
   const rms = Math.sqrt(chi2 / m);
-  let r1num = 0;
-  for (let i = 1; i < m; i++) r1num += residual[i] * residual[i - 1];
-  const rho1 = chi2 > 0 ? r1num / chi2 : 0;
-  const inflation = rho1 > 0 ? Math.sqrt((1 + rho1) / (1 - Math.min(rho1, 0.99))) : 1;
   if (rho1 > 0.3) {
     warnings.push(
       `Neighbouring residuals are correlated (lag-1 ρ = ${rho1.toFixed(2)}): the trace is oversampled or the model misses structure; σ are inflated by ${inflation.toFixed(2)} to allow for it.`,
     );
   }
-  const sigmaW = Math.sqrt(chi2 / Math.max(m - n, 1)) * inflation;
-  const lin = solution.linearisation as Linearisation;
-  const cov = lineariseCovariance(lin).map((v) => v * weight * weight); // (JᵀJ)⁻¹ of the unweighted problem
-  const sd = (c: number) => Math.sqrt(Math.max(cov[c * n + c], 0)) * sigmaW;
+  // The reported covariance: the linear one, widened along the scanned axes.
+  const cov = scan ? scan.covariance : post.cov;
+  const sd = (c: number) => Math.sqrt(Math.max(cov[c * n + c], 0));
+  if (scan && scan.widening > CONTOUR_WIDENING_WARN) {
+    warnings.push(
+      `χ² rises more slowly away from the minimum than its curvature there says (${scan.widening.toFixed(1)}× wider along the direction mostly of ${scan.wideAxis
+        .map((c) => (c < layout.modelKeys.length ? layout.modelKeys[c] : 'lorentz'))
+        .join(' and ')}): the σ are widened to the width measured, and the χ² valley may not be parabolic.`,
+    );
+  }
+  if (scan && scan.lower) {
+    warnings.push(
+      'A lower χ² lies along the least determined directions within the σ reported: the fit stopped in a shallow side minimum of a long valley; the σ are widened to span it (valleyScan "restart" fits again from there).',
+    );
+  }
+  if (scan && scan.flat) {
+    warnings.push(
+      'Along at least one direction χ² stays within about 1 of its minimum over ±16σ: the constants moving along it are not determined by the contour, and their σ are lower bounds.',
+    );
+  }
 
   const names = [...layout.modelKeys, ...(layout.hasScale ? ['scale'] : []), ...(layout.hasLorentz ? ['lorentz'] : [])];
   const parameters: Record<string, ContourParameter> = {};
@@ -424,7 +662,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
         if (b >= 0) v += ga * gb * cov[a * n + b];
       }
     }
-    if (touched) combinations[name] = { value, sigma: Math.sqrt(Math.max(v, 0)) * sigmaW };
+    if (touched) combinations[name] = { value, sigma: Math.sqrt(Math.max(v, 0)) };
   };
   const up = model.upper;
   const lo = model.lower;
@@ -488,6 +726,8 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     status: solution.status,
     iterations: solution.iterations,
     route,
+    valleyRestarts,
+    sigmaWidening: scan ? scan.widening : 1,
     x,
     simulation: sim,
     residual,
@@ -495,25 +735,36 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
 }
 
 /**
- * Linear least squares of y ≈ a·u + Σ_k c_k t^k by normal equations (a handful of columns).
+ * Linear least squares of y ≈ a·u + Σ_k c_k t^k by normal equations (a handful of columns); without u,
+ * of y ≈ Σ_k c_k t^k (and a = 1).
  * Source: e.g. Press et al., Numerical Recipes 3rd ed. (2007) §15.4 (general linear least squares).
  */
-function linearStart(u: Float64Array, t: Float64Array, y: Float64Array, nBaseline: number): { scale: number; baseline: number[] } {
-  const n = nBaseline + 1;
-  const col = (c: number, i: number) => (c === 0 ? u[i] : t[i] ** (c - 1));
+function linearFit(y: Float64Array, t: Float64Array, nBaseline: number, u?: Float64Array): { amplitude: number; baseline: number[] } {
+  const off = u ? 1 : 0;
+  const n = nBaseline + off;
+  // Columns once (the valley scan calls this for every point it walks to, on up to 1e5 points).
+  const cols: Float64Array[] = [];
+  if (u) cols.push(u);
+  for (let k = 0; k < nBaseline; k++) cols.push(k === 0 ? new Float64Array(t.length).fill(1) : t.map((v) => v ** k));
   const a = Array.from({ length: n }, () => new Float64Array(n + 1));
-  for (let i = 0; i < y.length; i++) {
-    for (let r = 0; r < n; r++) {
-      const vr = col(r, i);
-      for (let c = 0; c < n; c++) a[r][c] += vr * col(c, i);
-      a[r][n] += vr * y[i];
+  for (let r = 0; r < n; r++) {
+    const cr = cols[r];
+    for (let c = r; c < n; c++) {
+      const cc = cols[c];
+      let sum = 0;
+      for (let i = 0; i < y.length; i++) sum += cr[i] * cc[i];
+      a[r][c] = sum;
+      a[c][r] = sum;
     }
+    let sy = 0;
+    for (let i = 0; i < y.length; i++) sy += cr[i] * y[i];
+    a[r][n] = sy;
   }
   for (let p = 0; p < n; p++) {
     let best = p;
     for (let r = p + 1; r < n; r++) if (Math.abs(a[r][p]) > Math.abs(a[best][p])) best = r;
     [a[p], a[best]] = [a[best], a[p]];
-    if (a[p][p] === 0) return { scale: 0, baseline: new Array(nBaseline).fill(0) };
+    if (a[p][p] === 0) return { amplitude: 0, baseline: new Array<number>(nBaseline).fill(0) };
     for (let r = 0; r < n; r++) {
       if (r === p) continue;
       const f = a[r][p] / a[p][p];
@@ -521,7 +772,7 @@ function linearStart(u: Float64Array, t: Float64Array, y: Float64Array, nBaselin
     }
   }
   const sol = a.map((row, r) => row[n] / row[r]);
-  return { scale: sol[0], baseline: sol.slice(1) };
+  return { amplitude: u ? sol[0] : 1, baseline: sol.slice(off) };
 }
 
 /** Robust noise σ from second differences: 1.4826·MAD(y_{i−1} − 2y_i + y_{i+1})/√6 (Hampel 1974; white noise). */

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { contourFit } from '../../src/fit/contourFit';
-import { traceGenerate, type TraceSpec } from './contourTraces';
+import { bandLines } from '../../src/physics/bandLines';
+import { ilsClosedForm, traceGenerate, traceSpecRandom, type TraceSpec } from './contourTraces';
 
 /**
  * Round trips: traces made by the independent generator of contourTraces.ts (closed-form ILS summed
@@ -9,14 +10,20 @@ import { traceGenerate, type TraceSpec } from './contourTraces';
  * origin and the determinable combinations within 4σ of the truth. Peak absorbance 2e-6 keeps the
  * lines optically thin at their Doppler width, so the weak-limit generator and the fit's physics agree.
  */
-function roundTrip(spec: TraceSpec, perturb: (m: ReturnType<typeof traceGenerate>['model']) => void, float: string[]) {
+function roundTrip(
+  spec: TraceSpec,
+  perturb: (m: ReturnType<typeof traceGenerate>['model']) => void,
+  float: string[],
+  options: { valleyScan?: 'off' | 'widen' | 'restart'; truth?: boolean } = {},
+) {
   const c = traceGenerate(spec);
   const start = structuredClone(c.model);
   perturb(start);
   const r = contourFit({
+    valleyScan: options.valleyScan,
     model: start,
     wavenumberCm1: c.x,
-    absorbance: c.noisy,
+    absorbance: options.truth ? c.truth : c.noisy,
     fromCm1: c.fromCm1,
     toCm1: c.toCm1,
     opdCm: c.opdCm,
@@ -139,5 +146,145 @@ describe('contourFit', () => {
     expect(text).toMatch(/correlated|under-determined/);
     expect(text).toMatch(/A′\(1 − ζ\)/);
     expect(r.combinations["A'(1-zeta)"].sigma).toBeLessThan(0.01);
+  });
+
+  // The start of bench:contour targets: origin + 0.2/L, B′ and B″ × 1.003.
+  const benchStart = (L: number) => (m: ReturnType<typeof traceGenerate>['model']) => {
+    m.upper.origin += 0.2 / L;
+    m.upper.B *= 1.003;
+    m.lower.B *= 1.003;
+  };
+
+  it('keeps the truth within 4σ where χ² along a valley is flatter than its curvature says (valley scan)', () => {
+    // Case 41 of bench:contour targets (traceSpecRandom(41)): a linear Π–Σ band, B = 0.245 cm^-1,
+    // 331 K, L = 1.71 cm triangular, whose lines (2B = 0.49 cm^-1) are just not resolved (FWHM
+    // 0.52 cm^-1). Along B″ (with the origin and B′ following) the noise puts ripples of a few tenths
+    // in χ² on a broad valley, and the information on B grows fast with B (at B″ + 0.021 the
+    // curvature gives σ(B″) = 0.0029 against 0.0082 at the truth). Without the scan the fit stops in
+    // a side pocket there (χ² 0.9 above the valley's bottom) and reports the origin 4.7σ and B′ − B″
+    // 5.5σ off the truth.
+    const spec: TraceSpec = { ...traceSpecRandom(41), peakAbsorbance: 2e-6, ilsWings: 'full' };
+    const float = ['upper.origin', 'upper.B', 'lower.B', 'scale'];
+    const start = benchStart(spec.opdCm);
+    const off = roundTrip(spec, start, float, { valleyScan: 'off' }).r;
+    const widen = roundTrip(spec, start, float);
+    const restart = roundTrip(spec, start, float, { valleyScan: 'restart' }).r;
+    const up = widen.c.model.upper;
+    const dB = up.B - widen.c.model.lower.B;
+    const z = (r: typeof off) => ({
+      origin: (r.parameters['upper.origin'].value - up.origin) / r.parameters['upper.origin'].sigma,
+      dB: (r.combinations["B'-B''"].value - dB) / r.combinations["B'-B''"].sigma,
+    });
+    expect(Math.abs(z(off).origin)).toBeGreaterThan(4);
+    expect(Math.abs(z(off).dB)).toBeGreaterThan(4);
+    // 'widen' (the default): same point, σ widened to the valley's measured width, and said so.
+    expect(widen.r.parameters['upper.origin'].value).toBe(off.parameters['upper.origin'].value);
+    expect(widen.r.sigmaWidening).toBeGreaterThan(2);
+    expect(Math.abs(z(widen.r).origin)).toBeLessThan(4);
+    expect(Math.abs(z(widen.r).dB)).toBeLessThan(4);
+    expect(widen.r.warnings.join(' ')).toMatch(/χ² rises more slowly.*lower χ² lies/s);
+    expect(widen.simVsTruth).toBeLessThan(1.5 * widen.c.noiseSigma);
+    // 'restart': fitted again from the lower χ² the walk found; ends lower, nearer the truth.
+    const chi2 = (r: typeof off) => r.residual.reduce((a, v) => a + v * v, 0);
+    expect(restart.valleyRestarts).toBeGreaterThanOrEqual(1);
+    expect(chi2(restart)).toBeLessThan(chi2(off));
+    expect(Math.abs(z(restart).origin)).toBeLessThan(4);
+    expect(Math.abs(z(restart).dB)).toBeLessThan(4);
+  });
+
+  it('leaves σ as they were where χ² is parabolic', () => {
+    // A light linear Σ–Σ band with resolved lines: the scan finds Δχ² ≈ k² at ±2σ on every axis.
+    const spec: TraceSpec = {
+      shape: 'linear',
+      band: 'parallel',
+      B: 1.2,
+      temperatureK: 250,
+      opdCm: 2,
+      apodization: 'boxcar',
+      origin: 2100,
+      noiseRel: 0.005,
+      seed: 11,
+      peakAbsorbance: 2e-6,
+      ilsWings: 'full',
+    };
+    const float = ['upper.origin', 'upper.B', 'lower.B', 'scale'];
+    const plain = roundTrip(spec, benchStart(2), float, { valleyScan: 'off' }).r;
+    const scanned = roundTrip(spec, benchStart(2), float, { valleyScan: 'restart' }).r;
+    expect(scanned.valleyRestarts).toBe(0);
+    expect(scanned.sigmaWidening).toBeLessThan(1.2);
+    for (const key of float.slice(0, 3)) {
+      expect(scanned.parameters[key].value).toBe(plain.parameters[key].value);
+      expect(scanned.parameters[key].sigma / plain.parameters[key].sigma).toBeGreaterThanOrEqual(1);
+      expect(scanned.parameters[key].sigma / plain.parameters[key].sigma).toBeLessThan(1.2);
+    }
+  });
+
+  it('fits the noise-free trace to within a fraction of the noise once the boxcar wings are kept', () => {
+    // Case 39 of bench:contour targets: a linear Σ–Σ band, B = 0.282 cm^-1, L = 3.54 cm boxcar, noise
+    // 0.4 % of the peak. Its lines (2B = 0.564 cm^-1, almost 4 × 1/(2L)) add their 1/Δν sinc wings in
+    // phase; the generator's cut at 40/L left 1.57× the noise between its truth and the fit's model
+    // (the simulation target was missed there), the wings kept leave 0.21×.
+    const base: TraceSpec = { ...traceSpecRandom(39), peakAbsorbance: 2e-6 };
+    const float = ['upper.origin', 'upper.B', 'lower.B', 'scale'];
+    const cut = roundTrip(base, () => {}, float, { truth: true });
+    const full = roundTrip({ ...base, ilsWings: 'full' }, () => {}, float, { truth: true });
+    expect(cut.r.rms).toBeGreaterThan(1.2 * cut.c.noiseSigma);
+    expect(full.r.rms).toBeLessThan(0.4 * full.c.noiseSigma);
+    const noisy = roundTrip({ ...base, ilsWings: 'full' }, benchStart(base.opdCm), float);
+    expect(noisy.simVsTruth).toBeLessThan(1.5 * noisy.c.noiseSigma);
+  });
+});
+
+describe('traceGenerate with full instrument wings', () => {
+  /**
+   * Largest difference between a generated truth and every line's closed-form ILS (Griffiths & de
+   * Haseth (2007) ch. 2, ilsClosedForm) summed directly with no cut, after a least-squares
+   * a·direct + b + c·t (the generator scales its sum to the peak and adds a linear baseline).
+   */
+  function worstAgainstDirect(c: ReturnType<typeof traceGenerate>, apodization: 'boxcar' | 'triangular'): number {
+    const lines = bandLines(c.model, { minIntensity: 1e-4 });
+    const direct = c.x.map((x) => {
+      let s = 0;
+      for (let i = 0; i < lines.count; i++) s += lines.intensity[i] * ilsClosedForm(apodization, c.opdCm, x - lines.wavenumberCm1[i]);
+      return s;
+    });
+    const t = c.x.map((x) => (2 * x - c.fromCm1 - c.toCm1) / (c.toCm1 - c.fromCm1));
+    const cols = [direct, c.x.map(() => 1), t];
+    const a = cols.map((u) => cols.map((v) => u.reduce((acc, ui, i) => acc + ui * v[i], 0)));
+    const b = cols.map((u) => u.reduce((acc, ui, i) => acc + ui * c.truth[i], 0));
+    // Gauss–Jordan on the 3×3 normal equations.
+    for (let p = 0; p < 3; p++) {
+      for (let r = 0; r < 3; r++) {
+        if (r === p) continue;
+        const f = a[r][p] / a[p][p];
+        for (let q = 0; q < 3; q++) a[r][q] -= f * a[p][q];
+        b[r] -= f * b[p];
+      }
+    }
+    const coef = b.map((v, r) => v / a[r][r]);
+    let worst = 0;
+    for (let k = 0; k < c.x.length; k++) worst = Math.max(worst, Math.abs(c.truth[k] - coef[0] * direct[k] - coef[1] - coef[2] * t[k]));
+    return worst;
+  }
+
+  it('equals the closed-form line shapes summed over every line, with no cut', () => {
+    // A linear band (B = 2 cm^-1, L = 1 cm, peak absorbance 1) over ~200 cm^-1, far wider than 40/L.
+    for (const apodization of ['boxcar', 'triangular'] as const) {
+      const spec: TraceSpec = {
+        shape: 'linear',
+        band: 'parallel',
+        B: 2,
+        temperatureK: 300,
+        opdCm: 1,
+        apodization,
+        origin: 1500,
+        noiseRel: 0.01,
+        seed: 2,
+        peakAbsorbance: 1,
+      };
+      expect(worstAgainstDirect(traceGenerate({ ...spec, ilsWings: 'full' }), apodization)).toBeLessThan(1e-9);
+      // The cut at 40/L leaves far more (boxcar wings fall as 1/Δν, triangular as 1/Δν²).
+      expect(worstAgainstDirect(traceGenerate(spec), apodization)).toBeGreaterThan(apodization === 'boxcar' ? 1e-4 : 1e-7);
+    }
   });
 });
