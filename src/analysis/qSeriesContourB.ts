@@ -179,6 +179,9 @@ export function qSeriesContourB(input: QSeriesContourBInput): QSeriesContourBRes
         route: 'linear',
         // The long, shallow valleys of B against U and ζ (chosen here; tuning seed 63 stopped at 40 with B exact).
         maxIterations: 100,
+        // The restarts here collect every minimum of B about as deep for B's range; the fit must not
+        // leave one for a lower alias by itself.
+        lineAliasScan: false,
       });
       const b = fit.parameters['lower.B'];
       return b && b.value > 0 ? { fit, bSized } : null;

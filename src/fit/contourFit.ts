@@ -7,6 +7,7 @@
 import { bandLines } from '../physics/bandLines';
 import { instrumentLineShapeFwhm, type ApodizationName } from '../physics/instrumentLineShape';
 import { instrumentSpectrum, type InstrumentRoute } from '../physics/instrumentSpectrum';
+import { SECOND_RADIATION_CM_K } from '../physics/constants';
 import { shapeUniqueName, type BandModel } from '../physics/model';
 import { fitKeyParse, fitParameterKeys } from './bandDesign';
 import { leastSquaresSolve, type LeastSquaresStatus } from './leastSquares';
@@ -63,6 +64,13 @@ export interface ContourFitInput {
    * curvature's σ. @default 'widen'
    */
   valleyScan?: 'off' | 'widen' | 'restart';
+  /**
+   * Where the rotational lines are about resolved (spacing 2B within 0.5–4 FWHM of the instrument),
+   * look for a lower χ² with B′ and B″ scaled together in steps of a quarter of the alias step
+   * 1/J_max-intensity (the lines near the intensity maximum one spacing off), and fit again from the
+   * lowest (each point one band evaluation; kept only if the fit ends lower). @default true
+   */
+  lineAliasScan?: boolean;
   /** Called after each iteration of each stage. */
   onProgress?: (stage: number, iteration: number, rms: number) => void;
   /** Polled once per iteration. */
@@ -97,6 +105,8 @@ export interface ContourFitResult {
   status: LeastSquaresStatus;
   iterations: number;
   route: InstrumentRoute;
+  /** Scale of B′ and B″ the line-alias scan restarted from (1 when it did not). */
+  lineAliasRestart: number;
   /** Restarts from a lower χ² found by the valley scan (0 unless valleyScan is 'restart'). */
   valleyRestarts: number;
   /**
@@ -118,6 +128,9 @@ export const CONTOUR_CORRELATION_WARN = 0.995;
 
 /** Most restarts from a lower χ² found by the valley scan. */
 const CONTOUR_VALLEY_RESTARTS = 3;
+
+/** Points each side of the line-alias profile, in steps of 1/(12 J) in the scale of B (±1.5/J). */
+const LINE_ALIAS_STEPS = 18;
 
 /** Widening of σ along one axis above which a warning says so. */
 const CONTOUR_WIDENING_WARN = 1.5;
@@ -292,7 +305,10 @@ function getModelKey(model: BandModel, key: string): number {
  * CONTOUR_RANK_TOLERANCE is explained with rankDiagnosis's words and the constants it proposes are
  * held at their start values (a warning says so). σ = √(χ²/(m − n)) × √diag(JᵀJ)⁻¹, inflated by
  * √((1 + ρ₁)/(1 − ρ₁)) when the residuals' lag-1 autocorrelation ρ₁ > 0 (correlated noise of an
- * oversampled trace). Then the valley scan (contourValleyScan; valleyScan 'off' skips it) checks
+ * oversampled trace). Where the lines are about resolved (2B within 0.5–4 FWHM of the instrument),
+ * the line-alias scan profiles χ² with B′ and B″ scaled together by 1 ± k/(12 J), J near the
+ * intensity maximum, out to ±1.5/J, and fits again from the two lowest side minima (kept only if
+ * lower; lineAliasScan false skips it). Then the valley scan (contourValleyScan; valleyScan 'off' skips it) checks
  * that linear picture along each principal axis of the constants' error ellipsoid, widening σ
  * along axes where χ² is flatter than predicted (and, with 'restart', fitting again from a lower
  * χ² it finds).
@@ -539,8 +555,9 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   let post = summarise(solution);
   let scan: ValleyScanResult | null = null;
   let valleyRestarts = 0;
+  let lineAliasRestart = 1;
   const valleyMode = input.valleyScan ?? 'widen';
-  if (valleyMode !== 'off') {
+  {
     // Indices of the nonlinear constants (model keys and the Lorentz width) in the parameter vector;
     // the scale and the baseline are re-fitted linearly at every point of the walk.
     const block = layout.modelKeys.map((_, c) => c);
@@ -577,8 +594,72 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
       for (let k = 0; k < nBaseline; k++) q[baseIndex + k] = lf.baseline[k];
       return { chi2: c2, p: q };
     };
+    // Fit again from p (the model keys, scale, Lorentz width and baseline); keep it if it ends lower.
+    const fitAgainFrom = (p: Float64Array): boolean => {
+      // A point whose re-fitted scale ran off (a band moved out of the region) is no start.
+      if (!p.every(Number.isFinite) || (scaleIndex >= 0 && !Number.isFinite(Math.exp(p[scaleIndex])))) return false;
+      const saved = { model: structuredClone(model), scale, lorentz, baseline: Float64Array.from(baseline) };
+      layout.modelKeys.forEach((k, c) => setModelKey(model, k, p[c]));
+      if (scaleIndex >= 0) scale = Math.exp(p[scaleIndex]);
+      if (layout.hasLorentz) lorentz = Math.abs(p[block[block.length - 1]]);
+      for (let k = 0; k < nBaseline; k++) baseline[k] = p[baseIndex + k];
+      let again: ReturnType<typeof runStage> | null;
+      try {
+        again = runStage(4, layout);
+      } catch {
+        again = null;
+      }
+      const usable = again !== null && again.status !== 'rank-deficient' && again.status !== 'non-finite' && again.linearisation !== null;
+      const againPost = usable ? summarise(again!) : null;
+      if (!againPost || !(againPost.chi2 < post.chi2)) {
+        model.lower = saved.model.lower;
+        model.upper = saved.model.upper;
+        scale = saved.scale;
+        lorentz = saved.lorentz;
+        baseline.set(saved.baseline);
+        return false;
+      }
+      solution = again!;
+      post = againPost;
+      return true;
+    };
+    // Line aliases: with lines about resolved, B′ and B″ scaled by 1 ± 1/J (J near the intensity
+    // maximum) put those lines one spacing off, and χ² has side minima there that a local solver
+    // cannot leave (real HC3N ν2 at L = 2.5 cm, test/fit/contourFitReal.test.ts: B″ 1.8 % low, 21σ,
+    // residual 1.31× the noise, no warning). χ² is profiled (scale and baseline re-fitted, the rest
+    // held) with B′ and B″ scaled in steps of 1/(12 J) out to ±1.5/J; the alias basins are narrow (about
+    // a step) and sit above the minimum until the origin follows, so the fit is run again from the two
+    // lowest local minima of that profile and kept only if it ends lower.
+    const bKeys = layout.modelKeys.map((k, c) => (k === 'upper.B' || k === 'lower.B' ? c : -1)).filter((c) => c >= 0);
+    const lineRatio = (2 * model.lower.B) / instrumentLineShapeFwhm(apodization, opdCm);
+    if ((input.lineAliasScan ?? true) && bKeys.length > 0 && lineRatio > 0.5 && lineRatio < 4 && !input.shouldCancel?.()) {
+      const jPeak = Math.max(2, Math.sqrt(model.temperatureK / (SECOND_RADIATION_CM_K * 2 * model.lower.B)));
+      const start = Float64Array.from(solution.parameters);
+      const grid: { f: number; chi2: number; p: Float64Array }[] = [];
+      for (let k = -LINE_ALIAS_STEPS; k <= LINE_ALIAS_STEPS; k++) {
+        const f = 1 + k / (12 * jPeak);
+        const q = Float64Array.from(start);
+        for (const c of bKeys) q[c] *= f;
+        const at = profile(q);
+        grid.push({ f, chi2: Number.isFinite(at.chi2) ? at.chi2 : Infinity, p: at.p });
+      }
+      // Local minima of the profile outside the fit's own basin (the run of points falling to f = 1).
+      const centre = LINE_ALIAS_STEPS;
+      let lo = centre;
+      while (lo > 0 && grid[lo - 1].chi2 >= grid[lo].chi2) lo--;
+      let hi = centre;
+      while (hi < grid.length - 1 && grid[hi + 1].chi2 >= grid[hi].chi2) hi++;
+      const minima = grid.filter(
+        (g, i) => (i < lo || i > hi) && i > 0 && i < grid.length - 1 && g.chi2 <= grid[i - 1].chi2 && g.chi2 <= grid[i + 1].chi2,
+      );
+      minima.sort((a, b) => a.chi2 - b.chi2);
+      for (const g of minima.slice(0, 2)) {
+        if (input.shouldCancel?.()) break;
+        if (fitAgainFrom(g.p)) lineAliasRestart = g.f;
+      }
+    }
     for (;;) {
-      if (input.shouldCancel?.()) break;
+      if (valleyMode === 'off' || input.shouldCancel?.()) break;
       const nP = layoutSize(layout);
       // Δχ² (noise units) of one reported σ: σ_w² and the AR(1) inflation² in noise units.
       const oneSigma = post.sigmaW * post.sigmaW * weight * weight;
@@ -586,24 +667,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
       if (!scan.lower || valleyMode !== 'restart' || valleyRestarts >= CONTOUR_VALLEY_RESTARTS) break;
       // A lower χ² along an axis: the solver stopped in a side pocket of a long valley (noise puts
       // ripples of a few tenths in χ² along it). Fit again from there; keep it if it ends lower.
-      const saved = { model: structuredClone(model), scale, lorentz, baseline: Float64Array.from(baseline) };
-      layout.modelKeys.forEach((k, c) => setModelKey(model, k, scan!.lower![c]));
-      if (scaleIndex >= 0) scale = Math.exp(scan.lower[scaleIndex]);
-      if (layout.hasLorentz) lorentz = Math.abs(scan.lower[block[block.length - 1]]);
-      for (let k = 0; k < nBaseline; k++) baseline[k] = scan.lower[baseIndex + k];
-      const again = runStage(4, layout);
-      const usable = again.status !== 'rank-deficient' && again.status !== 'non-finite' && again.linearisation !== null;
-      const againPost = usable ? summarise(again) : null;
-      if (!againPost || !(againPost.chi2 < post.chi2)) {
-        model.lower = saved.model.lower;
-        model.upper = saved.model.upper;
-        scale = saved.scale;
-        lorentz = saved.lorentz;
-        baseline.set(saved.baseline);
-        break;
-      }
-      solution = again;
-      post = againPost;
+      if (!fitAgainFrom(scan.lower)) break;
       valleyRestarts++;
     }
   }
@@ -627,6 +691,11 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   if (scan && scan.lower) {
     warnings.push(
       'A lower χ² lies along the least determined directions within the σ reported: the fit stopped in a shallow side minimum of a long valley; the σ are widened to span it (valleyScan "restart" fits again from there).',
+    );
+  }
+  if (lineAliasRestart !== 1) {
+    warnings.push(
+      `The fit first stopped where the rotational lines near the intensity maximum sit about one spacing off (a line-alias minimum); a lower χ² with B′ and B″ scaled by ${lineAliasRestart.toFixed(4)} was found and the fit restarted from there. Check B against resolved lines or another region if you can.`,
     );
   }
   if (scan && scan.flat) {
@@ -727,6 +796,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     iterations: solution.iterations,
     route,
     valleyRestarts,
+    lineAliasRestart,
     sigmaWidening: scan ? scan.widening : 1,
     x,
     simulation: sim,
