@@ -132,6 +132,9 @@ const CONTOUR_VALLEY_RESTARTS = 3;
 /** Points each side of the line-alias profile, in steps of 1/(12 J) in the scale of B (±1.5/J). */
 const LINE_ALIAS_STEPS = 18;
 
+/** A line-alias side basin is fitted from only when its profiled χ² is under this multiple of the fit's own (chosen here). */
+const LINE_ALIAS_CHI2_RATIO = 1.5;
+
 /** Widening of σ along one axis above which a warning says so. */
 const CONTOUR_WIDENING_WARN = 1.5;
 
@@ -307,8 +310,8 @@ function getModelKey(model: BandModel, key: string): number {
  * √((1 + ρ₁)/(1 − ρ₁)) when the residuals' lag-1 autocorrelation ρ₁ > 0 (correlated noise of an
  * oversampled trace). Where the lines are about resolved (2B within 0.5–4 FWHM of the instrument),
  * the line-alias scan profiles χ² with B′ and B″ scaled together by 1 ± k/(12 J), J near the
- * intensity maximum, out to ±1.5/J, and fits again from the two lowest side minima (kept only if
- * lower; lineAliasScan false skips it). Then the valley scan (contourValleyScan; valleyScan 'off' skips it) checks
+ * intensity maximum, out to ±1.5/J, and fits again from the lowest side minimum when its χ² there
+ * is under 1.5× the fit's (kept only if lower; lineAliasScan false skips it). Then the valley scan (contourValleyScan; valleyScan 'off' skips it) checks
  * that linear picture along each principal axis of the constants' error ellipsoid, widening σ
  * along axes where χ² is flatter than predicted (and, with 'restart', fitting again from a lower
  * χ² it finds).
@@ -566,13 +569,14 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     const baseIndex = layoutSize(layout) - nBaseline;
     const band = new Float64Array(m);
     // χ² (noise units) of the parameters p with amplitude and baseline re-fitted; the re-fitted p.
-    const profile = (p: Float64Array): { chi2: number; p: Float64Array } => {
+    // (The line-alias scan asks for the cheaper linear route only to find where its side minima lie.)
+    const profile = (p: Float64Array, profileRoute: InstrumentRoute = route): { chi2: number; p: Float64Array } => {
       const q = Float64Array.from(p);
       const mdl: BandModel = { ...model, lower: { ...model.lower }, upper: { ...model.upper } };
       layout.modelKeys.forEach((k, c) => setModelKey(mdl, k, q[c]));
       const s = scaleIndex >= 0 ? Math.exp(q[scaleIndex]) : scale;
       const g = layout.hasLorentz ? Math.abs(q[block[block.length - 1]]) : lorentz;
-      const od = bandAt(mdl, g, s, route).opticalDepth;
+      const od = bandAt(mdl, g, s, profileRoute).opticalDepth;
       for (let i = 0; i < m; i++) band[i] = od[i] / ln10;
       // Without a floated scale the band stays as it is and only the baseline is re-fitted.
       const lf =
@@ -628,8 +632,8 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     // cannot leave (real HC3N ν2 at L = 2.5 cm, test/fit/contourFitReal.test.ts: B″ 1.8 % low, 21σ,
     // residual 1.31× the noise, no warning). χ² is profiled (scale and baseline re-fitted, the rest
     // held) with B′ and B″ scaled in steps of 1/(12 J) out to ±1.5/J; the alias basins are narrow (about
-    // a step) and sit above the minimum until the origin follows, so the fit is run again from the two
-    // lowest local minima of that profile and kept only if it ends lower.
+    // a step) and sit above the minimum until the origin follows, so the fit is run again from the
+    // lowest local minimum of that profile when it is close enough, and kept only if it ends lower.
     const bKeys = layout.modelKeys.map((k, c) => (k === 'upper.B' || k === 'lower.B' ? c : -1)).filter((c) => c >= 0);
     const lineRatio = (2 * model.lower.B) / instrumentLineShapeFwhm(apodization, opdCm);
     if ((input.lineAliasScan ?? true) && bKeys.length > 0 && lineRatio > 0.5 && lineRatio < 4 && !input.shouldCancel?.()) {
@@ -640,7 +644,9 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
         const f = 1 + k / (12 * jPeak);
         const q = Float64Array.from(start);
         for (const c of bKeys) q[c] *= f;
-        const at = profile(q);
+        // Where the side minima lie is a matter of line positions: the linear route finds them at a
+        // fraction of the transmittance route's cost; the fit from each uses the route chosen.
+        const at = profile(q, 'linear');
         grid.push({ f, chi2: Number.isFinite(at.chi2) ? at.chi2 : Infinity, p: at.p });
       }
       // Local minima of the profile outside the fit's own basin (the run of points falling to f = 1).
@@ -653,10 +659,11 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
         (g, i) => (i < lo || i > hi) && i > 0 && i < grid.length - 1 && g.chi2 <= grid[i - 1].chi2 && g.chi2 <= grid[i + 1].chi2,
       );
       minima.sort((a, b) => a.chi2 - b.chi2);
-      for (const g of minima.slice(0, 2)) {
-        if (input.shouldCancel?.()) break;
-        if (fitAgainFrom(g.p)) lineAliasRestart = g.f;
-      }
+      // Only a side basin within LINE_ALIAS_CHI2_RATIO of the fit's own χ² on this profile is worth a
+      // fit (each costs a whole fit; the one it came from, HC3N ν2, stood at 1.28×, and the true
+      // minimum's side basins there at 1.7× and more).
+      const g = minima[0];
+      if (g && g.chi2 < LINE_ALIAS_CHI2_RATIO * grid[centre].chi2 && !input.shouldCancel?.() && fitAgainFrom(g.p)) lineAliasRestart = g.f;
     }
     for (;;) {
       if (valleyMode === 'off' || input.shouldCancel?.()) break;
