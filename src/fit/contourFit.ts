@@ -660,8 +660,9 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
       );
       minima.sort((a, b) => a.chi2 - b.chi2);
       // Only a side basin within LINE_ALIAS_CHI2_RATIO of the fit's own χ² on this profile is worth a
-      // fit (each costs a whole fit; the one it came from, HC3N ν2, stood at 1.28×, and the true
-      // minimum's side basins there at 1.7× and more).
+      // fit, as each costs a whole fit (HC3N ν2's stuck fits: the basin of the truth at 0.92× and 1.01×,
+      // the next ones at 1.28× and 1.96×; from fits already at the truth, the other HC3N bands' profiles
+      // showed no side basin at all).
       const g = minima[0];
       if (g && g.chi2 < LINE_ALIAS_CHI2_RATIO * grid[centre].chi2 && !input.shouldCancel?.() && fitAgainFrom(g.p)) lineAliasRestart = g.f;
     }
