@@ -18,7 +18,13 @@ export interface BandCentreTemplate {
   /** Fitted lobe parameter and blur of the two-lobe model alone, cm^-1. */
   prLobeS: number;
   prBlur: number;
+  /** Fitted saturation κ of the two-lobe model alone (0: the lobes as the lines' intensities). */
+  prSaturation: number;
 }
+
+/** Saturation κ of the lobes searched on this grid, then refined; at most KAPPA_MAX. */
+const KAPPA_GRID = [0, 1, 3];
+const KAPPA_MAX = 20;
 
 function gaussBlur(t: Float64Array, sigmaSamples: number): Float64Array {
   if (sigmaSamples < 0.3) return t;
@@ -107,27 +113,37 @@ export function bandCentreTemplate(x: Float64Array, y: Float64Array, centreGuess
     ys[i] = y[j] + f * (y[j + 1] - y[j]);
   }
   const ones = new Float64Array(m).fill(1);
-  // Both models at (ν0, s, w[, w_Q]): RSS and amplitudes; q < 0 (a dip) is not a Q branch.
-  const lobes = (c: number, s: number, w: number): [Float64Array, Float64Array] => {
+  // Both models at (ν0, s, w, κ[, w_Q]): RSS and amplitudes; q < 0 (a dip) is not a Q branch. κ ≥ 0
+  // saturates the lobes before the blur, g → (1 − e^{−κg})/κ with g scaled to 1 at its maximum (κ = 0:
+  // g): lines optically thick at their own width, which a spectrometer's trace shows when the
+  // instrument acts on the transmittance, add less than their strength to the envelope (a curve of
+  // growth, Herzberg II (1945) ch. IV), flattening and widening the P and R maxima; without κ the
+  // two-lobe template leaves that misfit to the central Q component (HC3N ν1 through an instrument at
+  // τ = 3, test/fit/realBandTraces.ts, read PQR). The Q component is not saturated: a weak Q branch is thin.
+  const lobes = (c: number, s: number, w: number, kappa: number): [Float64Array, Float64Array] => {
     const pRaw = new Float64Array(m);
     const rRaw = new Float64Array(m);
+    // |u|e^{−u²/2s²} peaks at u = ±s with s·e^{−1/2}.
+    const gMax = s * Math.exp(-0.5);
     for (let i = 0; i < m; i++) {
       const u = xs[i] - c;
-      const g = Math.abs(u) * Math.exp((-u * u) / (2 * s * s));
+      const g0 = (Math.abs(u) * Math.exp((-u * u) / (2 * s * s))) / gMax;
+      const g = kappa > 1e-9 ? (1 - Math.exp(-kappa * g0)) / kappa : g0;
       if (u < 0) pRaw[i] = g;
       else rRaw[i] = g;
     }
     return [gaussBlur(pRaw, w / h), gaussBlur(rRaw, w / h)];
   };
   const prModel = (v: number[]): { rss: number; coef: number[] } => {
-    if (!(v[1] > 0.2 * sGuess && v[2] >= 0)) return { rss: Infinity, coef: [0, 0, 0] };
-    const [p, r] = lobes(v[0], v[1], v[2]);
+    if (!(v[1] > 0.2 * sGuess && v[2] >= 0 && v[3] >= 0 && v[3] <= KAPPA_MAX)) return { rss: Infinity, coef: [0, 0, 0] };
+    const [p, r] = lobes(v[0], v[1], v[2], v[3]);
     return lsq([p, r, ones], ys);
   };
   const pqrModel = (v: number[]): { rss: number; coef: number[] } => {
-    if (!(v[1] > 0.2 * sGuess && v[2] >= 0 && v[3] > 0.02 * sGuess)) return { rss: Infinity, coef: [0, 0, 0, 0] };
-    const [p, r] = lobes(v[0], v[1], v[2]);
-    const sq = Math.hypot(v[2], v[3]);
+    if (!(v[1] > 0.2 * sGuess && v[2] >= 0 && v[3] >= 0 && v[3] <= KAPPA_MAX && v[4] > 0.02 * sGuess))
+      return { rss: Infinity, coef: [0, 0, 0, 0] };
+    const [p, r] = lobes(v[0], v[1], v[2], v[3]);
+    const sq = Math.hypot(v[2], v[4]);
     const q = new Float64Array(m);
     for (let i = 0; i < m; i++) q[i] = Math.exp(-((xs[i] - v[0]) ** 2) / (2 * sq * sq));
     const fit = lsq([p, r, q, ones], ys);
@@ -159,25 +175,27 @@ export function bandCentreTemplate(x: Float64Array, y: Float64Array, centreGuess
     }
     return { v, rss };
   };
-  let gridPr = { rss: Infinity, v: [centreGuess, sGuess, 0] };
-  let gridPqr = { rss: Infinity, v: [centreGuess, sGuess, 0, 0.1 * sGuess] };
+  let gridPr = { rss: Infinity, v: [centreGuess, sGuess, 0, 0] };
+  let gridPqr = { rss: Infinity, v: [centreGuess, sGuess, 0, 0, 0.1 * sGuess] };
   for (let ci = -3; ci <= 3; ci++) {
     for (const sf of [0.5, 0.65, 0.8, 0.95, 1.1, 1.3]) {
       for (const wf of [0.05, 0.2, 0.4, 0.7]) {
-        const v = [centreGuess + 0.1 * ci * sGuess, sf * sGuess, wf * sGuess];
-        const pr = prModel(v).rss;
-        if (pr < gridPr.rss) gridPr = { rss: pr, v };
-        for (const qf of [0.08, 0.2, 0.4]) {
-          const vq = [...v, qf * sGuess];
-          const r = pqrModel(vq).rss;
-          if (r < gridPqr.rss) gridPqr = { rss: r, v: vq };
+        for (const kappa of KAPPA_GRID) {
+          const v = [centreGuess + 0.1 * ci * sGuess, sf * sGuess, wf * sGuess, kappa];
+          const pr = prModel(v).rss;
+          if (pr < gridPr.rss) gridPr = { rss: pr, v };
+          for (const qf of [0.08, 0.2, 0.4]) {
+            const vq = [...v, qf * sGuess];
+            const r = pqrModel(vq).rss;
+            if (r < gridPqr.rss) gridPqr = { rss: r, v: vq };
+          }
         }
       }
     }
   }
   const d = 0.05 * sGuess;
-  const prBest = refine(prModel, gridPr.v, [d, d, d]);
-  let pqrBest = refine(pqrModel, gridPqr.v, [d, d, d, d]);
+  const prBest = refine(prModel, gridPr.v, [d, d, d, 0.5]);
+  let pqrBest = refine(pqrModel, gridPqr.v, [d, d, d, 0.5, d]);
   // The P+Q+R model contains the P+R one: never worse than it.
   if (pqrBest.rss > prBest.rss) pqrBest = { v: [...prBest.v, 0.1 * sGuess], rss: prBest.rss };
   const fit = pqrModel(pqrBest.v);
@@ -187,12 +205,25 @@ export function bandCentreTemplate(x: Float64Array, y: Float64Array, centreGuess
     c: pqrBest.v[0],
     s: pqrBest.v[1],
     w: pqrBest.v[2],
-    wq: Math.hypot(pqrBest.v[2], pqrBest.v[3]),
+    kappa: pqrBest.v[3],
+    wq: Math.hypot(pqrBest.v[2], pqrBest.v[4]),
   };
-  const bestPr = { rss: prBest.rss, s: prBest.v[1], w: prBest.v[2] };
-  // Areas of the fitted components (the blur keeps areas): ∫|u|e^{−u²/2s²} over one side = s².
-  const aP = Math.max(0, best.coef[0]) * best.s * best.s;
-  const aR = Math.max(0, best.coef[1]) * best.s * best.s;
+  const bestPr = { rss: prBest.rss, s: prBest.v[1], w: prBest.v[2], kappa: prBest.v[3] };
+  // Areas of the fitted components (the blur keeps areas): ∫|u|e^{−u²/2s²} over one side = s², in
+  // units of the scaled lobe g/gMax; saturated, summed numerically.
+  const lobeArea = (() => {
+    const gMax = best.s * Math.exp(-0.5);
+    if (!(best.kappa > 1e-9)) return (best.s * best.s) / gMax;
+    let a = 0;
+    const du = best.s / 50;
+    for (let u = du / 2; u < 8 * best.s; u += du) {
+      const g0 = (u * Math.exp((-u * u) / (2 * best.s * best.s))) / gMax;
+      a += ((1 - Math.exp(-best.kappa * g0)) / best.kappa) * du;
+    }
+    return a;
+  })();
+  const aP = Math.max(0, best.coef[0]) * lobeArea;
+  const aR = Math.max(0, best.coef[1]) * lobeArea;
   const aQ = best.coef[2] * best.wq * Math.sqrt(2 * Math.PI);
   return {
     improvement: bestPr.rss > 0 ? Math.max(0, 1 - best.rss / bestPr.rss) : 0,
@@ -202,5 +233,6 @@ export function bandCentreTemplate(x: Float64Array, y: Float64Array, centreGuess
     blur: best.w,
     prLobeS: bestPr.s,
     prBlur: bestPr.w,
+    prSaturation: bestPr.kappa,
   };
 }

@@ -19,6 +19,9 @@ export type BandProfile = 'PR' | 'PQR' | 'Q-series';
 export type BandShapeType = 'linear-parallel' | 'linear-perpendicular' | 'symmetric-top-parallel' | 'symmetric-top-perpendicular';
 
 /** Options of bandShapeClassify. */
+/** Saturation κ of the two-lobe template from which a PR band's B comes from its unsaturated lobes. */
+const SATURATION_SEEN = 0.5;
+
 export interface BandShapeClassifyOptions {
   /** Rotational temperature, K, for B from the P–R separation. Absent: ASSUMED_TEMPERATURE_K, said so. */
   temperatureK?: number;
@@ -826,23 +829,43 @@ export function bandShapeClassify(
   // A PR reading from a minimum between two maxima or a central gap in a comb cannot tell a true
   // Σ–Σ band from a weak or instrument-smeared Q branch (a symmetric top's parallel band, or unresolved
   // Q branches of a perpendicular one) filling the centre. Compare the envelope against a blurred
-  // two-lobe template with and without a central Q component: on the seeded bands of bench:contour
-  // classify (seeds 0–59) true Σ–Σ bands gave improvement ≤ 0.02 and Q share ≤ 0.005, PQR bands read as
-  // PR gave 0.40–0.92 and 0.04–0.31 (two gave 0); the thresholds sit between.
+  // two-lobe template with and without a central Q component. On the seeded bands of bench:contour
+  // classify (seeds 0–79 and 1000–4079, 400 bands; 104 reached this test) true Σ–Σ bands gave a Q
+  // share ≤ 0.027 but one (0.053), symmetric-top bands with a Q branch 0.033–0.32. Q share ≥ 0.04
+  // with improvement ≥ 0.09 was a PQR band 12 times in 13 (11 of them read PR before): read PQR, rated
+  // low. Resolved lines with an empty central gap of ≈ 4B and a Q share under 0.15 were Σ–Σ bands 3
+  // times in 4 (the template sees a Q component where the blurred lines fill the gap): read PR, rated low.
   let templateQShare = NaN;
+  // The two-lobe template's saturation κ and the B its unsaturated lobes give (PR readings).
+  let templateSaturation = 0;
+  let templateLobeB = NaN;
   // Set when the only doubt is whether a weak Q branch is there (PR or PQR), which leaves B alone.
   let lowOnlyForWeakQ = false;
   if (profile === 'PR') {
     const sGuess = twoLobes ? 0.5 * (outerLobes(lobes, centre0)[1].x - outerLobes(lobes, centre0)[0].x) : width / 4.3;
     const t = bandCentreTemplate(x, env, origin, sGuess);
-    if (t.improvement >= 0.3 && t.qShare >= 0.03) {
+    templateSaturation = t.prSaturation;
+    // Lobes |u|·e^{−u²/2s²} are the Σ–Σ distribution |x|·e^{−x²hc/(4BkT)} (x ≈ 2Bm): s² = 2BkT/hc.
+    templateLobeB = bandBFromPrSeparation(2 * t.prLobeS, T);
+    const share = `a central Q component takes up ${Math.round(100 * t.improvement)} % of a blurred two-lobe P/R template's misfit and holds ${Math.round(100 * t.qShare)} % of the band`;
+    const isClearQ = t.improvement >= 0.3 && t.qShare >= 0.03;
+    const isLikelyQ = !emptyCentralGap && t.improvement >= 0.09 && t.qShare >= 0.04;
+    if (isClearQ && emptyCentralGap && t.qShare < 0.15) {
+      if (confidence !== 'low') lowOnlyForWeakQ = true;
+      confidence = 'low';
+      evidence.push(
+        `${share}, but the resolved lines leave the central gap empty, as a band without a Q branch does (on the seeded bands such readings were Σ–Σ bands 3 times in 4): PR, but PQR is not ruled out`,
+      );
+    } else if (isClearQ || isLikelyQ) {
       profile = 'PQR';
       origin = t.origin;
       templateQShare = t.qShare;
       const lowBefore = confidence === 'low';
-      confidence = t.improvement >= 0.5 && t.qShare >= 0.1 && !emptyCentralGap ? 'medium' : 'low';
+      confidence = isClearQ && t.improvement >= 0.5 && t.qShare >= 0.1 && !emptyCentralGap ? 'medium' : 'low';
       evidence.push(
-        `but a central Q component takes up ${Math.round(100 * t.improvement)} % of a blurred two-lobe P/R template's misfit and holds ${Math.round(100 * t.qShare)} % of the band: the centre is filled by a weak or smeared Q branch, so PQR`,
+        isClearQ
+          ? `but ${share}: the centre is filled by a weak or smeared Q branch, so PQR`
+          : `${share}: short of a clear Q branch, but well above what Σ–Σ bands leave (a Q share ≤ 0.03 on all but one of the seeded ones; bands with this much were PQR 12 times in 13), so PQR, rated low`,
       );
       // Resolved lines with an empty gap of 4B at the centre are what a Σ–Σ band shows; the blurred
       // template only disagrees (fresh seed 3018 of bench:contour classify: a linear molecule's band,
@@ -852,18 +875,28 @@ export function bandShapeClassify(
         evidence.push('but the resolved lines leave the central gap empty, as a band without a Q branch does: PR or PQR is undecided');
       }
     } else if (t.improvement >= 0.1 && t.qShare >= 0.02) {
-      // Between what true Σ–Σ bands gave (≤ 0.02 and ≤ 0.005) and the PQR thresholds: undecided.
+      // Between what true Σ–Σ bands gave and the PQR thresholds: undecided, read PR.
       // B does not depend on it (J lines or the P/R wings are the same either way), so it is kept.
       if (confidence !== 'low') lowOnlyForWeakQ = true;
       confidence = 'low';
-      evidence.push(
-        `a central Q component takes up ${Math.round(100 * t.improvement)} % of a blurred two-lobe P/R template's misfit and holds ${Math.round(100 * t.qShare)} % of the band: short of a clear Q branch, but more than Σ–Σ bands leave (≤ 2 % and ≤ 0.5 % on the seeded bands), so PR or PQR is undecided`,
-      );
+      evidence.push(`${share}: short of a clear Q branch, but more than most Σ–Σ bands leave, so PR or PQR is undecided`);
     } else {
       evidence.push(
         `a blurred two-lobe P/R template leaves no room for a central Q branch (a Q component takes up ${Math.round(100 * t.improvement)} % of its misfit, ${Math.round(100 * t.qShare)} % of the band)`,
       );
     }
+  }
+  // A Q branch at the centre narrows the band's spread, so J lines with a Q branch give B = spacing/2
+  // at least what the spread gives (jRatio 0.85–2.7 on the PQR readings from resolved lines of seeds
+  // 0–79, 1000–4079 and 8000–8079 of bench:contour classify). Under 0.8 the band is wider than J lines
+  // of that spacing make: the comb may be Q branches (seed 8044: an oblate top's perpendicular band, its
+  // Q branches 0.94 cm^-1 apart read as J lines with B −60 % at medium, jRatio 0.68). Rated low.
+  if (profile === 'PQR' && bMethod === 'line-spacing' && confidence !== 'low' && jRatio < 0.8) {
+    confidence = 'low';
+    lowOnlyForWeakQ = false;
+    evidence.push(
+      `but read as J lines the comb gives B only ${jRatio.toFixed(2)}× what the band's spread gives at ${Math.round(T)} K, though a Q branch at the centre narrows that spread (J lines with a Q branch gave 0.85 or more): the maxima may be Q branches, not J lines`,
+    );
   }
   // Second look at a PR reading without resolved lines: the envelope's highest maximum at the band's
   // centroid is no P or R maximum, whatever the lobe list says. A Σ–Σ band's maxima lie ≈ 0.23 of its
@@ -1198,6 +1231,27 @@ export function bandShapeClassify(
   // The range B is good to: from resolved J lines within 5 % on the seeded bands (±8 % given), from
   // a linear molecule's P–R spread within 6 % (±10 %), a Π–Σ band's within ~10 % (±15 %); from the
   // finer comb under a Q-branch series one check gave +15 % (sub-band combs interleave), ±25 % given.
+  // Lines optically thick at their own width flatten and widen the P and R maxima and spread the
+  // band (the instrument acts on the transmittance): the branch spread and a Σ–Σ envelope then give
+  // B too large (HC3N ν1–ν4 through an instrument, test/fit/realBandTraces.ts: +14 % at τ = 3, +60 %
+  // at τ = 30 for the strongest line). The two-lobe template fitted with saturation κ (bandCentreTemplate)
+  // gives B from its unsaturated lobes instead: within 4 % at τ ≤ 3 (κ ≤ 1.7), 11–19 % high at τ = 30
+  // (κ ≈ 5), so its range widens with κ.
+  if (
+    profile === 'PR' &&
+    bMethod !== 'line-spacing' &&
+    B !== null &&
+    templateSaturation >= SATURATION_SEEN &&
+    Number.isFinite(templateLobeB)
+  ) {
+    const rel = 0.1 + 0.02 * templateSaturation;
+    evidence.push(
+      `the P and R maxima are flattened as lines optically thick at their own width make them (saturation κ = ${templateSaturation.toFixed(1)} in the two-lobe template): B = ${templateLobeB.toPrecision(4)} cm^-1 from the template's unsaturated lobes instead of ${B.toPrecision(4)} cm^-1, good to about ±${Math.round(100 * rel)} %`,
+    );
+    B = templateLobeB;
+    bMethod = 'envelope-fit';
+    envelopeRange = [B * (1 - rel), B * (1 + rel)];
+  }
   let bLow: number | undefined;
   let bHigh: number | undefined;
   let bDetermined: boolean | undefined;

@@ -53,4 +53,43 @@ describe('bandCentreTemplate', () => {
       expect(Math.abs(t.origin)).toBeLessThan(1);
     }
   });
+
+  it('takes flattened lobes of lines optically thick at their own width for saturation, not for a Q branch, and keeps B', () => {
+    // The same Σ–Σ band recorded through the transmittance: each line adds its equivalent width
+    // W = ∫(1 − exp(−τ0·e^{−ln2·d²})) dd (a Doppler line of peak optical depth τ0 ∝ its strength, the
+    // curve of growth, Herzberg II (1945) ch. IV from memory), summed here by the trapezoid rule, not its
+    // strength; the strongest line at τ0 = 3 or 30; no Q branch.
+    const B = 0.4;
+    const kT = 205.7;
+    const strength = (m: number) => {
+      const J = m > 0 ? m - 1 : -m;
+      return Math.abs(m) * Math.exp((-B * J * (J + 1)) / kT);
+    };
+    let sMax = 0;
+    for (let m = -60; m <= 60; m++) if (m !== 0) sMax = Math.max(sMax, strength(m));
+    const width = (tau0: number) => {
+      let w = 0;
+      for (let d = -8; d <= 8; d += 0.01) w += (1 - Math.exp(-tau0 * Math.exp(-Math.LN2 * d * d))) * 0.01;
+      return w;
+    };
+    for (const tauPeak of [3, 30]) {
+      const x = Float64Array.from({ length: 1200 }, (_, i) => -60 + 0.1 * i);
+      const y = new Float64Array(x.length);
+      for (let m = -60; m <= 60; m++) {
+        if (m === 0) continue;
+        const w = width((tauPeak * strength(m)) / sMax);
+        for (let i = 0; i < x.length; i++) y[i] += w * Math.exp(-((x[i] - 2 * B * m) ** 2) / (2 * 2 * 2));
+      }
+      const rand = seededRandom(9);
+      const top = Math.max(...y);
+      for (let i = 0; i < x.length; i++) y[i] += 0.003 * top * gaussian(rand);
+      const t = bandCentreTemplate(x, y, 0.5, sGuess);
+      expect(t.improvement < 0.09 || t.qShare < 0.04, `τ ${tauPeak}: no Q component`).toBe(true);
+      expect(t.prSaturation, `τ ${tauPeak}`).toBeGreaterThan(0.5);
+      // s² = 2BkT/hc for |x|·e^{−x²/2s²} (x ≈ 2Bm): B from the unsaturated lobes within 5 % at τ0 = 3
+      // (the one-parameter saturation is not the Doppler curve of growth; at 30 within 20 %).
+      const bLobes = (t.prLobeS * t.prLobeS) / (2 * kT);
+      expect(Math.abs(bLobes / B - 1), `τ ${tauPeak}`).toBeLessThan(tauPeak <= 3 ? 0.05 : 0.2);
+    }
+  });
 });

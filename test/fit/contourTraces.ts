@@ -188,6 +188,16 @@ export interface TraceSpec {
    * @default 'truncated' (the traces the band-shape tests were set on)
    */
   ilsWings?: 'truncated' | 'full';
+  /**
+   * Optical depth at the centre of the strongest line. Given, the trace is made as a spectrometer
+   * records lines that may be optically thick at their own width: τ(ν) from Doppler profiles (mass
+   * `massAmu`, the spec's T) on a fine grid, the instrument line shape applied to the transmittance,
+   * A = −log10 T; peakAbsorbance is then what comes out, not a setting. Absent: the weak-absorption
+   * trace (the instrument line shape applied to the lines' intensities, scaled to peakAbsorbance).
+   */
+  peakTau?: number;
+  /** Molecular mass for the Doppler widths with peakTau, amu. @default 50 */
+  massAmu?: number;
 }
 
 const C2 = 1.438776877; // second radiation constant hc/k, cm K (CODATA 2018)
@@ -210,6 +220,67 @@ export function traceModel(spec: TraceSpec): BandModel {
     zeta: shape !== 'linear' && band === 'perpendicular' ? (spec.zeta ?? 0) : 0,
   });
   return { shape, band, lower, upper, temperatureK: T, jMax, kMax, spinWeights: spec.spinWeights ?? [1] };
+}
+
+/**
+ * The absorbance a spectrometer records (peakTau traces): replaces raw by −log10 of the instrument
+ * line shape applied to exp(−τ). τ(ν) is the sum of Doppler profiles (HWHM ν·√(2 ln2 kT/(m c²)) =
+ * ν·3.5811e-7·√(T/m), Herzberg II (1945) ch. I) on a grid of a quarter of the narrowest HWHM, the
+ * strongest line's centre at peakTau; 1 − exp(−τ) is summed into bins of 1/(16L) (the instrument
+ * line shape changes little across one) and the bins are convolved with it, its kernel summed to 1.
+ */
+function traceThick(raw: Float64Array, x: Float64Array, nu: Float64Array, intensity: Float64Array, spec: TraceSpec, reach: number): void {
+  const L = spec.opdCm;
+  const dopplerPerCm1 = 3.5811e-7 * Math.sqrt(spec.temperatureK / (spec.massAmu ?? 50));
+  const fine = (dopplerPerCm1 * nu[0]) / 4;
+  const bin = 1 / (16 * L);
+  const rBins = Math.ceil(reach / bin);
+  // Bin t is centred at x[0] + (t − rBins)·bin: a trace point (a whole number of bins from x[0] when
+  // its step is a multiple of the bin, as at 2 points per 1/(2L)) sits on a bin centre.
+  const x0 = x[0] - (rBins + 0.5) * bin;
+  const nBins = Math.ceil((x[x.length - 1] - x[0]) / bin) + 2 * rBins + 2;
+  const absorbed = new Float64Array(nBins);
+  let sMax = 0;
+  for (const v of intensity) sMax = Math.max(sMax, v);
+  // τ on the fine grid, one stretch of lines at a time (lines closer than 12 HWHM share a stretch).
+  let i = 0;
+  while (i < nu.length) {
+    let j = i;
+    while (j + 1 < nu.length && nu[j + 1] - nu[j] < 12 * dopplerPerCm1 * nu[j]) j++;
+    const a = nu[i] - 6 * dopplerPerCm1 * nu[i];
+    const b = nu[j] + 6 * dopplerPerCm1 * nu[j];
+    const m = Math.ceil((b - a) / fine) + 1;
+    const tau = new Float64Array(m);
+    for (let l = i; l <= j; l++) {
+      const hw = dopplerPerCm1 * nu[l];
+      const c = Math.round((nu[l] - a) / fine);
+      const r = Math.ceil((6 * hw) / fine);
+      const amp = (spec.peakTau! * intensity[l]) / sMax;
+      for (let k = Math.max(0, c - r); k <= Math.min(m - 1, c + r); k++) {
+        const d = (a + k * fine - nu[l]) / hw;
+        tau[k] += amp * Math.exp(-Math.LN2 * d * d);
+      }
+    }
+    for (let k = 0; k < m; k++) {
+      const q = Math.floor((a + k * fine - x0) / bin);
+      if (q >= 0 && q < nBins) absorbed[q] += (1 - Math.exp(-tau[k])) * fine;
+    }
+    i = j + 1;
+  }
+  const ils = traceIls(spec.apodization, L);
+  const kernel = new Float64Array(2 * rBins + 1);
+  let kSum = 0;
+  for (let q = -rBins; q <= rBins; q++) kSum += kernel[q + rBins] = ils(q * bin);
+  for (let q = 0; q < kernel.length; q++) kernel[q] /= kSum * bin;
+  for (let k = 0; k < x.length; k++) {
+    const c = Math.round((x[k] - x[0]) / bin) + rBins;
+    let s = 0;
+    for (let q = -rBins; q <= rBins; q++) {
+      const t = c + q;
+      if (t >= 0 && t < nBins && absorbed[t] !== 0) s += kernel[q + rBins] * absorbed[t];
+    }
+    raw[k] = -Math.log10(Math.max(1e-12, 1 - s));
+  }
 }
 
 /** Generate one case (deterministic for its seed). */
@@ -246,7 +317,9 @@ export function traceGenerate(spec: TraceSpec): TraceCase {
     for (let i = first; i < sortedNu.length && sortedNu[i] <= x[k] + reach; i++) s += sortedI[i] * ils(x[k] - sortedNu[i]);
     raw[k] = s;
   }
+  if (spec.peakTau !== undefined) traceThick(raw, x, sortedNu, sortedI, spec, reach);
   if (spec.ilsWings === 'full') {
+    if (spec.peakTau !== undefined) throw new Error('traceGenerate: full wings are not written for peakTau traces');
     if (spec.apodization !== 'boxcar' && spec.apodization !== 'triangular') {
       throw new Error(`traceGenerate: full wings are written for boxcar and triangular only, got ${spec.apodization}`);
     }
@@ -254,23 +327,26 @@ export function traceGenerate(spec: TraceSpec): TraceCase {
   }
   let peak = 0;
   for (let k = 0; k < n; k++) peak = Math.max(peak, raw[k]);
-  const peakAbsorbance = spec.peakAbsorbance ?? 0.5;
+  const peakAbsorbance = spec.peakTau !== undefined ? peak : (spec.peakAbsorbance ?? 0.5);
   const rand = seededRandom(spec.seed);
   const noiseSigma = spec.noiseRel * peakAbsorbance;
   const truth = new Float64Array(n);
   const noisy = new Float64Array(n);
-  const base0 = 0.02 + 0.02 * rand();
-  const slope = 0.01 * (rand() - 0.5);
+  // The baseline's terms are set for a band of peak absorbance 0.5; a peakTau band's own peak scales them.
+  const baseScale = spec.peakTau !== undefined ? peakAbsorbance / 0.5 : 1;
+  const base0 = (0.02 + 0.02 * rand()) * baseScale;
+  const slope = 0.01 * (rand() - 0.5) * baseScale;
+  const curvature = (spec.baselineCurvature ?? 0) * baseScale;
   for (let k = 0; k < n; k++) {
     const tt = (2 * x[k] - fromCm1 - toCm1) / (toCm1 - fromCm1);
-    truth[k] = (raw[k] / peak) * peakAbsorbance + base0 + slope * tt + (spec.baselineCurvature ?? 0) * tt * tt;
+    truth[k] = (raw[k] / peak) * peakAbsorbance + base0 + slope * tt + curvature * tt * tt;
     noisy[k] = truth[k] + noiseSigma * gaussian(rand);
   }
   const profile = spec.shape === 'linear' ? (spec.band === 'parallel' ? 'PR' : 'PQR') : spec.band === 'parallel' ? 'PQR' : 'Q-series';
   return {
     name: spec.name ?? `${spec.shape}-${spec.band}-B${spec.B}-L${L}`,
     model,
-    massAmu: 50,
+    massAmu: spec.massAmu ?? 50,
     opdCm: L,
     apodization: spec.apodization,
     peakAbsorbance,
