@@ -224,7 +224,7 @@ function FitBox() {
       </div>
       {r && fit.trace === trace && (
         <>
-          <p className="muted small">
+          <p className="muted small" data-testid="contour-fit-summary" data-rms={r.rms}>
             {r.nPoints} points, rms {r.rms.toExponential(3)} (absorbance),{' '}
             {r.route === 'linear' ? 'instrument on τ (optically thin)' : 'instrument on transmittance'}, {r.status}, {r.iterations}{' '}
             iterations. Floated constants with σ; held ones in grey.
