@@ -4,7 +4,7 @@
  *
  * speed: a perpendicular band of 20,000+ lines (invented heavy prolate top) seen through the
  * instrument line shape onto 1e5 points (linear and transmittance routes), and a contour fit of it.
- * targets N [FIRST]: N seeded cases of traceSpecRandom (seeds FIRST…FIRST+N−1, FIRST 0 by default) (shape, band type, B 0.05–2 cm^-1, A/C, ζ, T, L 0.9–4 cm,
+ * targets N [FIRST] [--thick]: N seeded cases of traceSpecRandom (seeds FIRST…FIRST+N−1, FIRST 0 by default) (shape, band type, B 0.05–2 cm^-1, A/C, ζ, T, L 0.9–4 cm,
  * apodization, noise; weak-absorption generator of test/fit/contourTraces.ts), each classified and
  * contour-fitted from a perturbed start (the fit on the same trace with the instrument line shape's
  * wings kept, ilsWings 'full'); prints each case, the rates against the targets and the coverage of
@@ -15,7 +15,14 @@ import { contourFit } from '../../src/fit/contourFit';
 import { bandLines } from '../../src/physics/bandLines';
 import { instrumentSpectrum } from '../../src/physics/instrumentSpectrum';
 import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
-import { classifySpecRandom, seededRandom, traceGenerate, traceSpecRandom, traceVisibleProfile } from '../fit/contourTraces';
+import {
+  classifySpecRandom,
+  seededRandom,
+  traceGenerate,
+  traceSpecRandom,
+  traceVisibleProfile,
+  type TraceSpec,
+} from '../fit/contourTraces';
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 
@@ -133,7 +140,17 @@ function coverage(z: number[]): string {
   return `1σ ${f(1)}, 2σ ${f(2)}, 4σ ${f(4)}`;
 }
 
-function targets(count: number, first: number): void {
+/**
+ * A seeded spec's thick variant (--thick): lines optically thick at their own width, recorded through
+ * the transmittance (traceGenerate's peakTau), the strongest line's centre at τ 0.3–30 (log-uniform)
+ * and a mass of 20–150 amu, drawn from their own seeded stream.
+ */
+function thickSpec<T extends TraceSpec>(spec: T, seed: number): T {
+  const r = seededRandom(seed * 31 + 5);
+  return { ...spec, peakTau: Math.exp(Math.log(0.3) + r() * Math.log(100)), massAmu: 20 + 130 * r() };
+}
+
+function targets(count: number, first: number, thick: boolean): void {
   const rows: Record<string, unknown>[] = [];
   let profileOk = 0;
   // Against the profile the trace visibly shows (traceVisibleProfile, as classify is scored below),
@@ -152,7 +169,7 @@ function targets(count: number, first: number): void {
   const originZ: number[] = [];
   const comboZ: number[] = [];
   for (let s = first; s < first + count; s++) {
-    const spec = { ...traceSpecRandom(s), peakAbsorbance: 2e-6 };
+    const spec = thick ? thickSpec(traceSpecRandom(s), s) : { ...traceSpecRandom(s), peakAbsorbance: 2e-6 };
     let c;
     try {
       c = traceGenerate(spec);
@@ -200,7 +217,8 @@ function targets(count: number, first: number): void {
       // The fit is scored against a trace whose instrument line shape keeps its wings beyond 40/L
       // (the truncated boxcar wings of the classify traces leave up to ~1 % of the peak; see
       // TraceSpec.ilsWings): the same band, noise and baseline otherwise.
-      const cw = traceGenerate({ ...spec, ilsWings: 'full' });
+      // (Thick traces keep the truncated wings: full wings are written for the weak-absorption route only.)
+      const cw = thick ? c : traceGenerate({ ...spec, ilsWings: 'full' });
       const start = structuredClone(c.model);
       start.upper.origin += 0.2 / spec.opdCm;
       start.upper.B *= 1.003;
@@ -288,11 +306,11 @@ function scoreB(group: string, given: { err: number; inRange: boolean; determine
 }
 
 /**
- * classify N [FIRST] [--q-envelope] [--opd] [--spin-c3v]: the band-shape diagnosis alone (with --q-envelope, also the Q-series envelope fit;
+ * classify N [FIRST] [--q-envelope] [--opd] [--spin-c3v] [--thick]: the band-shape diagnosis alone (with --q-envelope, also the Q-series envelope fit;
  * with --opd, each case's L and apodization given, so Q-series also get the contour fit) on N cases of classifySpecRandom (every
  * apodization, curved baselines); per case and a summary by expected profile and by confidence.
  */
-function classifyCases(count: number, first: number, withQEnvelope: boolean, withOpd: boolean, spinC3v: boolean): void {
+function classifyCases(count: number, first: number, withQEnvelope: boolean, withOpd: boolean, spinC3v: boolean, thick: boolean): void {
   const byProfile: Record<string, { n: number; ok: number }> = {};
   const byConfidence: Record<string, { n: number; ok: number }> = {};
   const bErr: number[] = [];
@@ -311,7 +329,7 @@ function classifyCases(count: number, first: number, withQEnvelope: boolean, wit
   const wrongConfident: number[] = [];
   const wrongFlagged: number[] = [];
   for (let s = first; s < first + count; s++) {
-    const base = classifySpecRandom(s);
+    const base = thick ? thickSpec(classifySpecRandom(s), s) : classifySpecRandom(s);
     // --spin-c3v: every symmetric top gets the nuclear-spin weights 4, 2, 2 of a C3v top with three
     // equivalent protons (its Q branches then alternate strong, weak, weak), told to the contour fit.
     const spec = spinC3v && base.shape !== 'linear' ? { ...base, spinWeights: [4, 2, 2] } : base;
@@ -436,5 +454,6 @@ else if (what === 'classify')
     process.argv.includes('--q-envelope'),
     process.argv.includes('--opd'),
     process.argv.includes('--spin-c3v'),
+    process.argv.includes('--thick'),
   );
-else targets(Number(nArg ?? 30), Number(firstArg ?? 0));
+else targets(Number(nArg ?? 30), Number(firstArg ?? 0), process.argv.includes('--thick'));
