@@ -18,10 +18,10 @@ export type BandProfile = 'PR' | 'PQR' | 'Q-series';
 /** Band type the profile points to. */
 export type BandShapeType = 'linear-parallel' | 'linear-perpendicular' | 'symmetric-top-parallel' | 'symmetric-top-perpendicular';
 
-/** Options of bandShapeClassify. */
 /** Saturation κ of the two-lobe template from which a PR band's B comes from its unsaturated lobes. */
 const SATURATION_SEEN = 0.5;
 
+/** Options of bandShapeClassify. */
 export interface BandShapeClassifyOptions {
   /** Rotational temperature, K, for B from the P–R separation. Absent: ASSUMED_TEMPERATURE_K, said so. */
   temperatureK?: number;
@@ -1228,9 +1228,6 @@ export function bandShapeClassify(
       }
     }
   }
-  // The range B is good to: from resolved J lines within 5 % on the seeded bands (±8 % given), from
-  // a linear molecule's P–R spread within 6 % (±10 %), a Π–Σ band's within ~10 % (±15 %); from the
-  // finer comb under a Q-branch series one check gave +15 % (sub-band combs interleave), ±25 % given.
   // Lines optically thick at their own width flatten and widen the P and R maxima and spread the
   // band (the instrument acts on the transmittance): the branch spread and a Σ–Σ envelope then give
   // B too large (HC3N ν1–ν4 through an instrument, test/fit/realBandTraces.ts: +14 % at τ = 3, +60 %
@@ -1252,6 +1249,9 @@ export function bandShapeClassify(
     bMethod = 'envelope-fit';
     envelopeRange = [B * (1 - rel), B * (1 + rel)];
   }
+  // The range B is good to: from resolved J lines within 5 % on the seeded bands (±8 % given), from
+  // a linear molecule's P–R spread within 6 % (±10 %), a Π–Σ band's within ~10 % (±15 %); from the
+  // finer comb under a Q-branch series one check gave +15 % (sub-band combs interleave), ±25 % given.
   let bLow: number | undefined;
   let bHigh: number | undefined;
   let bDetermined: boolean | undefined;
