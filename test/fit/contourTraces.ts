@@ -227,7 +227,8 @@ export function traceModel(spec: TraceSpec): BandModel {
  * line shape applied to exp(−τ). τ(ν) is the sum of Doppler profiles (HWHM ν·√(2 ln2 kT/(m c²)) =
  * ν·3.5811e-7·√(T/m), Herzberg II (1945) ch. I) on a grid of a quarter of the narrowest HWHM, the
  * strongest line's centre at peakTau; 1 − exp(−τ) is summed into bins of 1/(16L) (the instrument
- * line shape changes little across one) and the bins are convolved with it, its kernel summed to 1.
+ * line shape changes little across one) and the bins are convolved with it out to `reach` (cm^-1),
+ * its kernel summed to 1.
  */
 function traceThick(raw: Float64Array, x: Float64Array, nu: Float64Array, intensity: Float64Array, spec: TraceSpec, reach: number): void {
   const L = spec.opdCm;
@@ -262,8 +263,14 @@ function traceThick(raw: Float64Array, x: Float64Array, nu: Float64Array, intens
       }
     }
     for (let k = 0; k < m; k++) {
-      const q = Math.floor((a + k * fine - x0) / bin);
-      if (q >= 0 && q < nBins) absorbed[q] += (1 - Math.exp(-tau[k])) * fine;
+      // Shared between the two nearest bin centres (x0 + (q + 0.5)·bin) in proportion, so that a line
+      // narrower than a bin keeps its position.
+      const u = (a + k * fine - x0) / bin - 0.5;
+      const q = Math.floor(u);
+      const f = u - q;
+      const area = (1 - Math.exp(-tau[k])) * fine;
+      if (q >= 0 && q < nBins) absorbed[q] += (1 - f) * area;
+      if (q + 1 >= 0 && q + 1 < nBins) absorbed[q + 1] += f * area;
     }
     i = j + 1;
   }
@@ -317,9 +324,19 @@ export function traceGenerate(spec: TraceSpec): TraceCase {
     for (let i = first; i < sortedNu.length && sortedNu[i] <= x[k] + reach; i++) s += sortedI[i] * ils(x[k] - sortedNu[i]);
     raw[k] = s;
   }
-  if (spec.peakTau !== undefined) traceThick(raw, x, sortedNu, sortedI, spec, reach);
+  // Thick traces keep the boxcar and triangular wings over the whole region (as ilsWings 'full' does
+  // for the weak-absorption route); the tabulated shapes reach 41/L, where they have died away.
+  if (spec.peakTau !== undefined)
+    traceThick(
+      raw,
+      x,
+      sortedNu,
+      sortedI,
+      spec,
+      spec.apodization === 'boxcar' || spec.apodization === 'triangular' ? toCm1 - fromCm1 + reach : reach,
+    );
   if (spec.ilsWings === 'full') {
-    if (spec.peakTau !== undefined) throw new Error('traceGenerate: full wings are not written for peakTau traces');
+    if (spec.peakTau !== undefined) throw new Error('traceGenerate: peakTau traces keep their wings already');
     if (spec.apodization !== 'boxcar' && spec.apodization !== 'triangular') {
       throw new Error(`traceGenerate: full wings are written for boxcar and triangular only, got ${spec.apodization}`);
     }
