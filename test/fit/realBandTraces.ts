@@ -184,6 +184,15 @@ export function realBands(): RealBand[] {
   ];
 }
 
+/** A real band's lines by position and its trace's sampling: 2 points per 1/(2L), 8/L beyond its outermost lines. */
+function realTraceSampling(band: RealBand, opdCm: number) {
+  const lines = [...band.lines].sort((a, b) => a.nu - b.nu);
+  const fromCm1 = lines[0].nu - 8 / opdCm;
+  const toCm1 = lines[lines.length - 1].nu + 8 / opdCm;
+  const step = 1 / (4 * opdCm);
+  return { lines, fromCm1, toCm1, step, n: Math.floor((toCm1 - fromCm1) / step) + 1 };
+}
+
 /**
  * A real band's trace: 2 points per 1/(2L), 8/L beyond its outermost lines, peak absorbance 0.5 (or
  * peakAbsorbance) on a 0.03 baseline. The instrument line shape is applied to the absorbance, as it acts
@@ -198,11 +207,7 @@ export function realBandTrace(
   seed: number,
   peakAbsorbance = 0.5,
 ): { x: Float64Array; y: Float64Array; fromCm1: number; toCm1: number; noiseSigma: number } {
-  const lines = [...band.lines].sort((a, b) => a.nu - b.nu);
-  const fromCm1 = lines[0].nu - 8 / opdCm;
-  const toCm1 = lines[lines.length - 1].nu + 8 / opdCm;
-  const step = 1 / (4 * opdCm);
-  const n = Math.floor((toCm1 - fromCm1) / step) + 1;
+  const { lines, fromCm1, toCm1, step, n } = realTraceSampling(band, opdCm);
   const ils = traceIls(apodization, opdCm);
   const reach = 40 / opdCm;
   const x = new Float64Array(n);
@@ -239,11 +244,7 @@ export function realBandTraceThick(
   massAmu: number,
   peakTau: number,
 ): { x: Float64Array; y: Float64Array; fromCm1: number; toCm1: number; noiseSigma: number } {
-  const lines = [...band.lines].sort((a, b) => a.nu - b.nu);
-  const fromCm1 = lines[0].nu - 8 / opdCm;
-  const toCm1 = lines[lines.length - 1].nu + 8 / opdCm;
-  const step = 1 / (4 * opdCm);
-  const n = Math.floor((toCm1 - fromCm1) / step) + 1;
+  const { lines, fromCm1, toCm1, step, n } = realTraceSampling(band, opdCm);
   // Doppler HWHM, cm^-1: ν·√(2 ln2 k T / (m c²)) = ν · 3.5811e-7 · √(T/m) (T in K, m in amu).
   const dopplerPerCm1 = 3.5811e-7 * Math.sqrt(296 / massAmu);
   const fine = (dopplerPerCm1 * lines[0].nu) / 4;
