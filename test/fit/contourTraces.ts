@@ -222,27 +222,48 @@ export function traceModel(spec: TraceSpec): BandModel {
   return { shape, band, lower, upper, temperatureK: T, jMax, kMax, spinWeights: spec.spinWeights ?? [1] };
 }
 
+/** What traceThickAbsorbance needs besides the lines: the instrument, the gas and the strongest line's depth. */
+export interface TraceThickOptions {
+  opdCm: number;
+  apodization: TraceApodization;
+  temperatureK: number;
+  massAmu: number;
+  /** Optical depth at the centre of the strongest line. */
+  peakTau: number;
+  /** How far the instrument line shape is applied from each point, cm^-1. */
+  reachCm1: number;
+}
+
 /**
- * The absorbance a spectrometer records (peakTau traces): replaces raw by −log10 of the instrument
- * line shape applied to exp(−τ). τ(ν) is the sum of Doppler profiles (HWHM ν·√(2 ln2 kT/(m c²)) =
- * ν·3.5811e-7·√(T/m), Herzberg II (1945) ch. I) on a grid of a quarter of the narrowest HWHM, the
- * strongest line's centre at peakTau; 1 − exp(−τ) is summed into bins of 1/(16L) (the instrument
- * line shape changes little across one) and the bins are convolved with it out to `reach` (cm^-1),
- * its kernel summed to 1.
+ * The absorbance a spectrometer records of lines that may be optically thick at their own width:
+ * −log10 of the instrument line shape applied to exp(−τ). τ(ν) is the sum of Doppler profiles (HWHM
+ * ν·√(2 ln2 kT/(m c²)) = ν·3.5811e-7·√(T/m), Herzberg II (1945) ch. I) on a grid of a quarter of the
+ * narrowest HWHM, the strongest line's centre at peakTau; 1 − exp(−τ) is shared between bins of
+ * 1/(16L) (the instrument line shape changes little across one) and the bins are convolved with it out
+ * to reachCm1, its kernel summed to 1.
+ * @param x ascending trace axis, cm^-1 (its step a multiple of 1/(16L) puts each point on a bin centre)
+ * @param nu line positions, ascending, cm^-1
+ * @param intensity relative line strengths
+ * @returns decadic absorbance at x
  */
-function traceThick(raw: Float64Array, x: Float64Array, nu: Float64Array, intensity: Float64Array, spec: TraceSpec, reach: number): void {
-  const L = spec.opdCm;
-  const dopplerPerCm1 = 3.5811e-7 * Math.sqrt(spec.temperatureK / (spec.massAmu ?? 50));
+export function traceThickAbsorbance(
+  x: Float64Array,
+  nu: ArrayLike<number>,
+  intensity: ArrayLike<number>,
+  o: TraceThickOptions,
+): Float64Array {
+  const L = o.opdCm;
+  const dopplerPerCm1 = 3.5811e-7 * Math.sqrt(o.temperatureK / o.massAmu);
   const fine = (dopplerPerCm1 * nu[0]) / 4;
   const bin = 1 / (16 * L);
-  const rBins = Math.ceil(reach / bin);
+  const rBins = Math.ceil(o.reachCm1 / bin);
   // Bin t is centred at x[0] + (t − rBins)·bin: a trace point (a whole number of bins from x[0] when
   // its step is a multiple of the bin, as at 2 points per 1/(2L)) sits on a bin centre.
   const x0 = x[0] - (rBins + 0.5) * bin;
   const nBins = Math.ceil((x[x.length - 1] - x[0]) / bin) + 2 * rBins + 2;
   const absorbed = new Float64Array(nBins);
   let sMax = 0;
-  for (const v of intensity) sMax = Math.max(sMax, v);
+  for (let l = 0; l < intensity.length; l++) sMax = Math.max(sMax, intensity[l]);
   // τ on the fine grid, one stretch of lines at a time (lines closer than 12 HWHM share a stretch).
   let i = 0;
   while (i < nu.length) {
@@ -256,7 +277,7 @@ function traceThick(raw: Float64Array, x: Float64Array, nu: Float64Array, intens
       const hw = dopplerPerCm1 * nu[l];
       const c = Math.round((nu[l] - a) / fine);
       const r = Math.ceil((6 * hw) / fine);
-      const amp = (spec.peakTau! * intensity[l]) / sMax;
+      const amp = (o.peakTau * intensity[l]) / sMax;
       for (let k = Math.max(0, c - r); k <= Math.min(m - 1, c + r); k++) {
         const d = (a + k * fine - nu[l]) / hw;
         tau[k] += amp * Math.exp(-Math.LN2 * d * d);
@@ -274,11 +295,12 @@ function traceThick(raw: Float64Array, x: Float64Array, nu: Float64Array, intens
     }
     i = j + 1;
   }
-  const ils = traceIls(spec.apodization, L);
+  const ils = traceIls(o.apodization, L);
   const kernel = new Float64Array(2 * rBins + 1);
   let kSum = 0;
   for (let q = -rBins; q <= rBins; q++) kSum += kernel[q + rBins] = ils(q * bin);
   for (let q = 0; q < kernel.length; q++) kernel[q] /= kSum * bin;
+  const out = new Float64Array(x.length);
   for (let k = 0; k < x.length; k++) {
     const c = Math.round((x[k] - x[0]) / bin) + rBins;
     let s = 0;
@@ -286,8 +308,18 @@ function traceThick(raw: Float64Array, x: Float64Array, nu: Float64Array, intens
       const t = c + q;
       if (t >= 0 && t < nBins && absorbed[t] !== 0) s += kernel[q + rBins] * absorbed[t];
     }
-    raw[k] = -Math.log10(Math.max(1e-12, 1 - s));
+    out[k] = -Math.log10(Math.max(1e-12, 1 - s));
   }
+  return out;
+}
+
+/**
+ * How far thick traces apply the instrument line shape, cm^-1: the boxcar and triangular wings over the
+ * whole region (as ilsWings 'full' does for the weak-absorption route), the tabulated shapes to 40/L,
+ * where they have died away.
+ */
+export function traceThickReach(apodization: TraceApodization, opdCm: number, regionCm1: number): number {
+  return apodization === 'boxcar' || apodization === 'triangular' ? regionCm1 + 40 / opdCm : 40 / opdCm;
 }
 
 /** Generate one case (deterministic for its seed). */
@@ -324,16 +356,16 @@ export function traceGenerate(spec: TraceSpec): TraceCase {
     for (let i = first; i < sortedNu.length && sortedNu[i] <= x[k] + reach; i++) s += sortedI[i] * ils(x[k] - sortedNu[i]);
     raw[k] = s;
   }
-  // Thick traces keep the boxcar and triangular wings over the whole region (as ilsWings 'full' does
-  // for the weak-absorption route); the tabulated shapes reach 41/L, where they have died away.
   if (spec.peakTau !== undefined)
-    traceThick(
-      raw,
-      x,
-      sortedNu,
-      sortedI,
-      spec,
-      spec.apodization === 'boxcar' || spec.apodization === 'triangular' ? toCm1 - fromCm1 + reach : reach,
+    raw.set(
+      traceThickAbsorbance(x, sortedNu, sortedI, {
+        opdCm: L,
+        apodization: spec.apodization,
+        temperatureK: spec.temperatureK,
+        massAmu: spec.massAmu ?? 50,
+        peakTau: spec.peakTau,
+        reachCm1: traceThickReach(spec.apodization, L, toCm1 - fromCm1),
+      }),
     );
   if (spec.ilsWings === 'full') {
     if (spec.peakTau !== undefined) throw new Error('traceGenerate: peakTau traces keep their wings already');

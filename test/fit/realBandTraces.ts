@@ -21,7 +21,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { gaussian, seededRandom, traceIls, type TraceApodization } from './contourTraces';
+import { gaussian, seededRandom, traceIls, traceThickAbsorbance, traceThickReach, type TraceApodization } from './contourTraces';
 
 /** A real band: its lines (cm^-1, relative intensity), what its trace should read as, and true constants. */
 export interface RealBand {
@@ -194,10 +194,9 @@ function realTraceSampling(band: RealBand, opdCm: number) {
 }
 
 /**
- * A real band's trace: 2 points per 1/(2L), 8/L beyond its outermost lines, peak absorbance 0.5 (or
- * peakAbsorbance) on a 0.03 baseline. The instrument line shape is applied to the absorbance, as it acts
- * on optically thin lines: at a peak of 0.5 with unresolved lines a real instrument would show the
- * band shallower (it averages transmittance), so a fit that applies it to transmittance needs a thin trace.
+ * A real band's trace: 2 points per 1/(2L), 8/L beyond its outermost lines, peak absorbance 0.5 on a
+ * 0.03 baseline. The instrument line shape is applied to the absorbance, as it acts on optically thin
+ * lines (realBandTraceThick for lines thick at their own width).
  */
 export function realBandTrace(
   band: RealBand,
@@ -205,7 +204,6 @@ export function realBandTrace(
   apodization: TraceApodization,
   noiseRel: number,
   seed: number,
-  peakAbsorbance = 0.5,
 ): { x: Float64Array; y: Float64Array; fromCm1: number; toCm1: number; noiseSigma: number } {
   const { lines, fromCm1, toCm1, step, n } = realTraceSampling(band, opdCm);
   const ils = traceIls(apodization, opdCm);
@@ -223,17 +221,16 @@ export function realBandTrace(
   let peak = 0;
   for (const v of y) peak = Math.max(peak, v);
   const rand = seededRandom(seed);
-  const noiseSigma = noiseRel * peakAbsorbance;
-  for (let k = 0; k < n; k++) y[k] = (y[k] / peak) * peakAbsorbance + 0.03 + noiseSigma * gaussian(rand);
+  const noiseSigma = noiseRel * 0.5;
+  for (let k = 0; k < n; k++) y[k] = (y[k] / peak) * 0.5 + 0.03 + noiseSigma * gaussian(rand);
   return { x, y, fromCm1, toCm1, noiseSigma };
 }
 
 /**
  * A real band's trace as a spectrometer records it, for lines that are optically thick at their own
- * width: the optical depth τ(ν) on a fine grid (Doppler profiles, HWHM ν·√(2 ln2 kT/(m c²)) at 296 K,
- * Herzberg II ch. I; the strongest line's centre at peakTau), the instrument line shape applied to the
- * transmittance exp(−τ) (its discrete kernel summed to 1), then A = −log10 T plus a 0.01 baseline and
- * noise of noiseRel times the band's observed peak absorbance. Same sampling as realBandTrace.
+ * width (traceThickAbsorbance: Doppler profiles at 296 K, the strongest line's centre at peakTau, the
+ * instrument line shape applied to the transmittance), plus a 0.01 baseline and noise of noiseRel times
+ * the band's observed peak absorbance. Same sampling as realBandTrace.
  */
 export function realBandTraceThick(
   band: RealBand,
@@ -245,45 +242,15 @@ export function realBandTraceThick(
   peakTau: number,
 ): { x: Float64Array; y: Float64Array; fromCm1: number; toCm1: number; noiseSigma: number } {
   const { lines, fromCm1, toCm1, step, n } = realTraceSampling(band, opdCm);
-  // Doppler HWHM, cm^-1: ν·√(2 ln2 k T / (m c²)) = ν · 3.5811e-7 · √(T/m) (T in K, m in amu).
-  const dopplerPerCm1 = 3.5811e-7 * Math.sqrt(296 / massAmu);
-  const fine = (dopplerPerCm1 * lines[0].nu) / 4;
-  const x0 = fromCm1 - 0.5;
-  const nFine = Math.ceil((toCm1 + 0.5 - x0) / fine) + 1;
-  const tau = new Float64Array(nFine);
-  let sMax = 0;
-  for (const l of lines) sMax = Math.max(sMax, l.s);
-  for (const l of lines) {
-    const hwhm = dopplerPerCm1 * l.nu;
-    const reachLine = Math.ceil((6 * hwhm) / fine);
-    const c = Math.round((l.nu - x0) / fine);
-    for (let k = Math.max(0, c - reachLine); k <= Math.min(nFine - 1, c + reachLine); k++) {
-      const d = (x0 + k * fine - l.nu) / hwhm;
-      tau[k] += ((peakTau * l.s) / sMax) * Math.exp(-Math.LN2 * d * d);
-    }
-  }
-  // 1 − T on the fine grid (zero beyond it), smoothed by the instrument.
-  const absorbed = Float64Array.from(tau, (t) => 1 - Math.exp(-t));
-  const ils = traceIls(apodization, opdCm);
-  const reach = Math.ceil(40 / opdCm / fine);
-  const kernel = new Float64Array(2 * reach + 1);
-  let kSum = 0;
-  for (let j = -reach; j <= reach; j++) kSum += kernel[j + reach] = ils(j * fine);
-  for (let j = 0; j < kernel.length; j++) kernel[j] /= kSum;
-  const x = new Float64Array(n);
-  const y = new Float64Array(n);
+  const x = Float64Array.from({ length: n }, (_, k) => fromCm1 + k * step);
+  const y = traceThickAbsorbance(
+    x,
+    lines.map((l) => l.nu),
+    lines.map((l) => l.s),
+    { opdCm, apodization, temperatureK: 296, massAmu, peakTau, reachCm1: traceThickReach(apodization, opdCm, toCm1 - fromCm1) },
+  );
   let peak = 0;
-  for (let k = 0; k < n; k++) {
-    x[k] = fromCm1 + k * step;
-    const c = Math.round((x[k] - x0) / fine);
-    let s = 0;
-    for (let j = -reach; j <= reach; j++) {
-      const i = c + j;
-      if (i >= 0 && i < nFine) s += kernel[j + reach] * absorbed[i];
-    }
-    y[k] = -Math.log10(1 - s);
-    peak = Math.max(peak, y[k]);
-  }
+  for (const v of y) peak = Math.max(peak, v);
   const rand = seededRandom(seed);
   const noiseSigma = noiseRel * peak;
   for (let k = 0; k < n; k++) y[k] += 0.01 + noiseSigma * gaussian(rand);
