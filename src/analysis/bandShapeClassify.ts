@@ -124,6 +124,22 @@ export interface BandShapeClassification {
 /** Smallest half-range of B given from a Π–Σ or Q-series envelope fit, relative (the rigid model's own error, chosen here). */
 const ENVELOPE_B_FLOOR = 0.05;
 
+/**
+ * Range (multiples of B) given for a B from the envelope of a profile rated low: the 5th–95th and
+ * 2nd–98th percentiles of truth/B were 0.42–1.58 and 0.24–1.79 on 251 such bands of bench:contour
+ * classify (seeds 0–399 and 1000–1399); held-out seeds 1003 and 1017 (oblate perpendicular bands
+ * read PQR) gave 1.84 and 1.92.
+ */
+const LOW_ENVELOPE_B_RANGE = [0.4, 2] as const;
+
+/**
+ * Range (multiples of B) given for a B from a comb read as J lines in a profile rated low. On seeds
+ * 0–399 and 1000–1399 of bench:contour classify 36 of 37 such values were within 10 %; where the comb
+ * was Q branches instead (fresh seeds 8044 and 2056 of classifySpecRandom, seed 19 of traceSpecRandom,
+ * in the unit tests) truth/B was 2.47, 0.22 and 3.04.
+ */
+const LOW_COMB_B_RANGE = [0.2, 3.5] as const;
+
 /** A Q-series envelope fit whose B range spans more than this factor gives no B (chosen here). */
 const Q_SERIES_B_RATIO_GIVEN = 1.5;
 
@@ -1075,7 +1091,7 @@ export function bandShapeClassify(
   let envelopeRange: [number, number] | null = null;
   let envelopeHeld = false;
   const envelopeType = type === 'linear-parallel' || (type === 'symmetric-top-parallel' && profile === 'PQR');
-  if (envelopeType && bMethod !== 'line-spacing' && (confidence !== 'low' || lowOnlyForWeakQ)) {
+  if (envelopeType && bMethod !== 'line-spacing') {
     const held = type === 'symmetric-top-parallel';
     const fit = bandEnvelopeFit({
       x,
@@ -1113,7 +1129,7 @@ export function bandShapeClassify(
   let newRange: { low: number; high: number; open: boolean } | null = null;
   // B ± 2σ of a Q-series' contour fit, and whether the fit calls it determined.
   let contourRange: { low: number; high: number; determined: boolean } | null = null;
-  if (type === 'linear-perpendicular' && profile === 'PQR' && centralSpike && bMethod !== 'line-spacing' && confidence !== 'low') {
+  if (type === 'linear-perpendicular' && profile === 'PQR' && centralSpike && bMethod !== 'line-spacing') {
     const spike = centralSpike;
     const core = qBranchCore(x, y, spike, step);
     const fit = piEnvelope(spike);
@@ -1259,12 +1275,32 @@ export function bandShapeClassify(
   let bLow: number | undefined;
   let bHigh: number | undefined;
   let bDetermined: boolean | undefined;
+  // A B read off a profile rated low is given only as a rough value, never determined, with a range
+  // wide enough for the other readings (measured on seeds 0–399 and 1000–1399 of bench:contour
+  // classify; before, every such B was withheld). From a Q-branch series (a finer comb under it) it is
+  // still withheld: within 10 % on 2 of 14. From resolved J lines: 36 of 37 within 10 %, but where the
+  // comb was Q branches B is off by 2–3× (LOW_COMB_B_RANGE). From an envelope fitted as the type read
+  // (held symmetric-top parallel, Σ–Σ or Π–Σ): 112 of 251 within 10 % (the type may be another: an
+  // oblate top's parallel band read as Π–Σ gives about 2× its B, an unresolved perpendicular band read
+  // as parallel 1.3–7×; LOW_ENVELOPE_B_RANGE).
+  let lowEnvelope = false;
+  let lowComb = false;
   if (B !== null && confidence === 'low' && !lowOnlyForWeakQ) {
-    // A B read off a profile that may be wrong (e.g. a comb of Q branches taken for J lines) is no
-    // better than the reading: not given.
-    evidence.push(`B is withheld: ${B.toPrecision(3)} cm^-1 would rest on a profile read with low confidence`);
-    B = null;
-    bMethod = 'none';
+    if (profile === 'Q-series') {
+      evidence.push(`B is withheld: ${B.toPrecision(3)} cm^-1 would rest on a Q-branch series read with low confidence`);
+      B = null;
+      bMethod = 'none';
+    } else if (bMethod === 'line-spacing') {
+      lowComb = true;
+      evidence.push(
+        `B = ${B.toPrecision(4)} cm^-1 holds if the comb is this band's J lines, which the profile rated low puts in doubt (were they Q branches, B could lie anywhere from ${LOW_COMB_B_RANGE[0]} to ${LOW_COMB_B_RANGE[1]}× that), so B is given as a rough value with that range and is not determined`,
+      );
+    } else {
+      lowEnvelope = true;
+      evidence.push(
+        `B = ${B.toPrecision(3)} cm^-1 rests on the envelope of a profile read with low confidence: if the band is of another type its B may be up to about 2× smaller or 1.5× larger, so B is given as a rough value with that range and is not determined`,
+      );
+    }
   }
   if (B !== null) {
     const rel =
@@ -1277,8 +1313,20 @@ export function bandShapeClassify(
           : type === 'linear-parallel'
             ? 0.1
             : 0.15;
-    bLow = Math.min(B * (1 - rel), envelopeRange?.[0] ?? Infinity, B - jLineSpread);
-    bHigh = Math.max(B * (1 + rel), envelopeRange?.[1] ?? 0, B + jLineSpread);
+    bLow = Math.min(
+      B * (1 - rel),
+      envelopeRange?.[0] ?? Infinity,
+      B - jLineSpread,
+      lowEnvelope ? B * LOW_ENVELOPE_B_RANGE[0] : Infinity,
+      lowComb ? B * LOW_COMB_B_RANGE[0] : Infinity,
+    );
+    bHigh = Math.max(
+      B * (1 + rel),
+      envelopeRange?.[1] ?? 0,
+      B + jLineSpread,
+      lowEnvelope ? B * LOW_ENVELOPE_B_RANGE[1] : 0,
+      lowComb ? B * LOW_COMB_B_RANGE[1] : 0,
+    );
     // A symmetric top's PQR envelope may as well be an unresolved perpendicular band, whose P/R
     // wings give another B (bench:contour classify: −35 % with a narrow range on tuning seed 59), so
     // B from it is never called determined.
@@ -1300,9 +1348,9 @@ export function bandShapeClassify(
     } else if (newRange) {
       // Π–Σ and Q-series envelopes: the range that fits, at least ±ENVELOPE_B_FLOOR (the rigid model's
       // own error), determined only within ±10 % and not reaching the end of the values tried.
-      bLow = Math.min(B * (1 - ENVELOPE_B_FLOOR), newRange.low);
-      bHigh = Math.max(B * (1 + ENVELOPE_B_FLOOR), newRange.high);
-      bDetermined = bLow >= 0.9 * B && bHigh <= 1.1 * B && !newRange.open;
+      bLow = Math.min(B * (1 - ENVELOPE_B_FLOOR), newRange.low, lowEnvelope ? B * LOW_ENVELOPE_B_RANGE[0] : Infinity);
+      bHigh = Math.max(B * (1 + ENVELOPE_B_FLOOR), newRange.high, lowEnvelope ? B * LOW_ENVELOPE_B_RANGE[1] : 0);
+      bDetermined = bLow >= 0.9 * B && bHigh <= 1.1 * B && !newRange.open && !lowEnvelope;
       if (newRange.open) evidence.push('B is not determined: the values that fit reach the end of those tried');
       else if (!bDetermined) evidence.push('B is not determined: the range that fits is wider than ±10 %');
     } else if (envelopeHeld) evidence.push('B is not determined: the profile does not rule out an unresolved perpendicular band');
@@ -1314,7 +1362,9 @@ export function bandShapeClassify(
     evidence.push(
       contourRange
         ? `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (±2σ of the contour fit, over every minimum about as deep)`
-        : `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round((newRange ? ENVELOPE_B_FLOOR : rel) * 100)} %, measured on seeded bands)`,
+        : lowEnvelope
+          ? `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ${LOW_ENVELOPE_B_RANGE[0]}–${LOW_ENVELOPE_B_RANGE[1]}× B, measured on seeded bands whose envelope was read with low confidence)`
+          : `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round((newRange ? ENVELOPE_B_FLOOR : rel) * 100)} %, measured on seeded bands)`,
     );
   } else {
     evidence.push('B is not given: this profile does not show it to 10 %');
