@@ -107,6 +107,8 @@ export interface ContourFitResult {
   route: InstrumentRoute;
   /** Scale of B′ and B″ the line-alias scan restarted from (1 when it did not). */
   lineAliasRestart: number;
+  /** Line spacings 2B″ (−1 or +1) by which the origin was moved for the J-relabelling restart (0 when it was not). */
+  originAliasRestart: number;
   /** Restarts from a lower χ² found by the valley scan (0 unless valleyScan is 'restart'). */
   valleyRestarts: number;
   /**
@@ -270,21 +272,37 @@ function layoutSize(l: Layout): number {
 
 /**
  * Finite-difference step of a model key (cm^-1, or dimensionless for ζ). On the transmittance route
- * the saturation is computed on a grid fixed in wavenumber (coarser than the line width when the
- * saturated windows exceed the grid budget), so moving lines by a fraction of that grid makes the
- * model ripple: on the 20,000-line saturating band of bench:contour speed the central difference in
+ * the saturation is computed on a grid fixed in wavenumber; where the saturated windows exceed the
+ * grid budget that grid is coarser than the line width, and moving lines by a fraction of it makes
+ * the model ripple: on the 20,000-line saturating band of bench:contour speed the central difference in
  * B (B′ and B″ together) differed by 170 % at a step of 1e-6 cm^-1 and by 18 % at 1e-4 against
  * 3e-4 (4e-6 on the weak-absorption route), the origin's by 3 % at 1e-4 and 0.6 % at 1e-3, ζ's and
- * A′'s by 10–13 % at 1e-5 and 3–4 % at 1e-4. There the steps of B and the origin are 100× and the
- * others 10× the weak-route ones (the lines then move by ~0.01 cm^-1, below 1/(2L) ≥ 0.125 cm^-1
- * for L ≤ 4 cm, so the truncation error stays at the per-cent level).
+ * A′'s by 10–13 % at 1e-5 and 3–4 % at 1e-4. There (coarse) the steps of B and the origin are 100× and
+ * the others 10× the weak-route ones. Where the grid resolves the lines (a third of their FWHM) the
+ * model is smooth (a change of B by 1e-7 cm^-1 steps the model evenly to 1e-3 of itself on thick
+ * seeded bands 10 and 16 of bench:contour targets --thick), and steps are set by how far they move
+ * the lines against the instrument's FWHM: B's so that J(J+1) of the highest populated J times the
+ * step is a quarter of it, the origin's a twentieth, the others 10× the weak-route ones (chosen here).
+ * The flat 100× had moved a J = 60 line by 0.36 cm^-1 in B′ alone, twice the resolution at L = 3.5 cm
+ * (thick seeded bands 16 and 17 stalled at 4–5× the noise); the weak-route steps (a hundredth of the
+ * FWHM) left bands 0, 13 and 26 in side pockets of their shallow valleys with σ too small (origin or
+ * B′ − B″ 5–44σ off at the same χ²). Quarter-FWHM steps fit all five (bench:contour targets 30 --thick).
  */
-function stepFor(key: string, value: number, route: InstrumentRoute): number {
+function stepFor(key: string, value: number, route: InstrumentRoute, coarse: boolean, reach: StepReach): number {
   const name = fitKeyParse(key)?.name;
   const floor = name === 'origin' ? 1e-4 : name === 'zeta' ? 1e-5 : name === 'B' ? 1e-6 : 1e-5;
   const h = Math.max(floor, Math.abs(value) * 1e-6);
   if (route === 'linear') return h;
-  return h * (name === 'origin' || name === 'B' ? 100 : 10);
+  if (coarse) return h * (name === 'origin' || name === 'B' ? 100 : 10);
+  if (name === 'B') return Math.max(h, (0.25 * reach.ilsFwhmCm1) / reach.jSquared);
+  if (name === 'origin') return Math.max(h, 0.05 * reach.ilsFwhmCm1);
+  return h * 10;
+}
+
+/** What the transmittance route's steps are scaled to: the instrument's FWHM (cm^-1) and J(J+1) of the highest populated J. */
+interface StepReach {
+  ilsFwhmCm1: number;
+  jSquared: number;
 }
 
 function setModelKey(model: BandModel, key: string, value: number): void {
@@ -365,6 +383,11 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   const model: BandModel = structuredClone(input.model);
   let lorentz = Math.abs(input.lorentzHwhmCm1 ?? 0);
   let route: InstrumentRoute = 'linear';
+  // Whether the transmittance route's saturation grid is coarser than the lines (stepFor).
+  let coarse = false;
+  // J(J+1) where the lower state's population (2J+1)·exp(−c2·B″J(J+1)/T) has fallen to about 1e-3 of its peak.
+  const jTop = Math.sqrt((Math.log(1000) * input.model.temperatureK) / (SECOND_RADIATION_CM_K * input.model.lower.B));
+  const reach: StepReach = { ilsFwhmCm1: instrumentLineShapeFwhm(apodization, opdCm), jSquared: jTop * (jTop + 1) };
 
   // Band on the region at unit scale; used for the scale's start value.
   const bandAt = (mdl: BandModel, gamma: number, scale: number, r: InstrumentRoute | 'auto') =>
@@ -398,6 +421,8 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   }
   const routeAsked = input.route ?? 'auto';
   route = routeAsked === 'auto' ? bandAt(model, lorentz, scale, 'auto').route : routeAsked;
+  const coarseAt = () => route === 'transmittance' && bandAt(model, lorentz, scale, 'transmittance').isUnderResolved;
+  coarse = coarseAt();
 
   const evaluate = (layout: Layout, p: Float64Array, out: Float64Array): void => {
     const mdl: BandModel = { ...model, lower: { ...model.lower }, upper: { ...model.upper } };
@@ -441,7 +466,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
           for (let c = 0; c < nonlinear; c++) {
             const h =
               c < layout.modelKeys.length
-                ? stepFor(layout.modelKeys[c], p[c], route)
+                ? stepFor(layout.modelKeys[c], p[c], route, coarse, reach)
                 : c === layout.modelKeys.length && layout.hasScale
                   ? 1e-5
                   : Math.max(Math.abs(p[c]) * 1e-5, 1e-5);
@@ -528,6 +553,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   const finalRoute = routeAsked === 'auto' ? bandAt(model, lorentz, scale, 'auto').route : routeAsked;
   if (finalRoute !== route) {
     route = finalRoute;
+    coarse = coarseAt();
     solution = runStage(3, layout);
   }
   if (solution.status === 'rank-deficient') {
@@ -559,6 +585,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   let scan: ValleyScanResult | null = null;
   let valleyRestarts = 0;
   let lineAliasRestart = 1;
+  let originAliasRestart = 0;
   const valleyMode = input.valleyScan ?? 'widen';
   {
     // Indices of the nonlinear constants (model keys and the Lorentz width) in the parameter vector;
@@ -666,6 +693,40 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
       const g = minima[0];
       if (g && g.chi2 < LINE_ALIAS_CHI2_RATIO * grid[centre].chi2 && !input.shouldCancel?.() && fitAgainFrom(g.p)) lineAliasRestart = g.f;
     }
+    // J-relabelling aliases: with lines about resolved, the origin moved by one line spacing 2B″ with
+    // every J label moved by one puts nearly every line where a line was; only the gap at the band
+    // centre and the intensity pattern tell them apart. A fit started a fraction of a spacing off can
+    // walk into it (thick seeded band 17 of bench:contour targets --thick, a Σ–Σ band at L = 3.5 cm:
+    // origin −2B″, 880σ off, residual 1.35× the noise). χ² is profiled with the origin moved by ±2B″ (the
+    // rest held, scale and baseline re-fitted, on the cheap weak-absorption route as above); the fit is
+    // run again from a side under LINE_ALIAS_CHI2_RATIO of the fit's own profiled χ², and kept only if
+    // it ends lower.
+    const originIndex = layout.modelKeys.indexOf('upper.origin');
+    if ((input.lineAliasScan ?? true) && originIndex >= 0 && lineRatio > 0.5 && !input.shouldCancel?.()) {
+      const here = Float64Array.from(solution.parameters);
+      const own = profile(here, 'linear').chi2;
+      const sides = [-1, 1]
+        .map((k) => {
+          // (ν0, B′, B″) → (ν0 + 2B′, B′ + ΔB, B″ + ΔB) or (ν0 − 2B″, B′ − ΔB, B″ − ΔB), ΔB = B′ − B″:
+          // R(J) and P(J) of the one are R(J ± 1) and P(J ∓ 1) of the other to first order in ΔB (from
+          // ν = ν0 + (B′ + B″)m + (B′ − B″)m², m = J + 1 in R and −J in P; Herzberg II ch. IV).
+          const q = Float64Array.from(here);
+          const dB = model.upper.B - model.lower.B;
+          q[originIndex] += k > 0 ? 2 * model.upper.B : -2 * model.lower.B;
+          for (const c of bKeys) q[c] += k * dB;
+          const at = profile(q, 'linear');
+          return { k, chi2: Number.isFinite(at.chi2) ? at.chi2 : Infinity, p: at.p };
+        })
+        .filter((g) => g.chi2 < LINE_ALIAS_CHI2_RATIO * own)
+        .sort((a, b) => a.chi2 - b.chi2);
+      for (const g of sides) {
+        if (input.shouldCancel?.()) break;
+        if (fitAgainFrom(g.p)) {
+          originAliasRestart = g.k;
+          break;
+        }
+      }
+    }
     for (;;) {
       if (valleyMode === 'off' || input.shouldCancel?.()) break;
       const nP = layoutSize(layout);
@@ -699,6 +760,11 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   if (scan && scan.lower) {
     warnings.push(
       'A lower χ² lies along the least determined directions within the σ reported: the fit stopped in a shallow side minimum of a long valley; the σ are widened to span it (valleyScan "restart" fits again from there).',
+    );
+  }
+  if (originAliasRestart !== 0) {
+    warnings.push(
+      `The fit first stopped with every line one J off (the origin a line spacing away from where it now is); moving the origin by ${originAliasRestart > 0 ? '+' : '−'}2B″ gave a lower χ² and the fit restarted from there. The J labels rest on the band centre's gap and the intensity pattern: check them against resolved lines if you can.`,
     );
   }
   if (lineAliasRestart !== 1) {
@@ -789,6 +855,14 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   if (route === 'transmittance' && bandAt(model, lorentz, scale, 'transmittance').isUnderResolved) {
     warnings.push('The internal grid could not resolve the line width over this region: saturation of strong lines is approximate.');
   }
+  if (route === 'transmittance' && model.shape !== 'linear' && model.band === 'perpendicular') {
+    // Measured (bench:contour targets 30 0 and 30 30 --thick): of the 19 perpendicular bands of symmetric
+    // tops among the 60 thick seeded bands, 10 ended with A′(1 − ζ) − B′ (C′(1 − ζ) − B′) or B′ − B″ 4–130σ
+    // off, every one with peak τ ≥ 4.6 and 4 of 9 between 0.6 and 2.3; of the 41 other bands, 1.
+    warnings.push(
+      'Optically thick lines in a perpendicular band: on test bands like this the σ of A′(1 − ζ) − B′ (C′(1 − ζ) − B′) and B′ − B″ were often several times too small (the χ² valley is narrow and curved); check them with a fit from another start or another region.',
+    );
+  }
   return {
     parameters,
     combinations,
@@ -805,6 +879,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     route,
     valleyRestarts,
     lineAliasRestart,
+    originAliasRestart,
     sigmaWidening: scan ? scan.widening : 1,
     x,
     simulation: sim,

@@ -238,12 +238,13 @@ export interface TraceThickOptions {
  * The absorbance a spectrometer records of lines that may be optically thick at their own width:
  * −log10 of the instrument line shape applied to exp(−τ). τ(ν) is the sum of Doppler profiles (HWHM
  * ν·√(2 ln2 kT/(m c²)) = ν·3.5811e-7·√(T/m), Herzberg II (1945) ch. I) on a grid of a quarter of the
- * narrowest HWHM, the strongest line's centre at peakTau; 1 − exp(−τ) is shared between bins of
+ * narrowest HWHM, each line's area proportional to its strength and the deepest line's centre at
+ * peakTau; 1 − exp(−τ) is shared between bins of
  * 1/(16L) (the instrument line shape changes little across one) and the bins are convolved with it out
  * to reachCm1, its kernel summed to 1.
  * @param x ascending trace axis, cm^-1 (its step a multiple of 1/(16L) puts each point on a bin centre)
  * @param nu line positions, ascending, cm^-1
- * @param intensity relative line strengths
+ * @param intensity relative line strengths (integrated)
  * @returns decadic absorbance at x
  */
 export function traceThickAbsorbance(
@@ -262,8 +263,11 @@ export function traceThickAbsorbance(
   const x0 = x[0] - (rBins + 0.5) * bin;
   const nBins = Math.ceil((x[x.length - 1] - x[0]) / bin) + 2 * rBins + 2;
   const absorbed = new Float64Array(nBins);
+  // Each line's area is its strength; its peak is the area over its width, and the Doppler width grows
+  // with ν, so the line deepest at its centre sets the scale (not the strongest: across a band ±1 %
+  // wide that would skew the areas by ±1 %, which a contour fit reads as biased constants).
   let sMax = 0;
-  for (let l = 0; l < intensity.length; l++) sMax = Math.max(sMax, intensity[l]);
+  for (let l = 0; l < intensity.length; l++) sMax = Math.max(sMax, intensity[l] / nu[l]);
   // τ on the fine grid, one stretch of lines at a time (lines closer than 12 HWHM share a stretch).
   let i = 0;
   while (i < nu.length) {
@@ -277,7 +281,7 @@ export function traceThickAbsorbance(
       const hw = dopplerPerCm1 * nu[l];
       const c = Math.round((nu[l] - a) / fine);
       const r = Math.ceil((6 * hw) / fine);
-      const amp = (o.peakTau * intensity[l]) / sMax;
+      const amp = (o.peakTau * intensity[l]) / nu[l] / sMax;
       for (let k = Math.max(0, c - r); k <= Math.min(m - 1, c + r); k++) {
         const d = (a + k * fine - nu[l]) / hw;
         tau[k] += amp * Math.exp(-Math.LN2 * d * d);

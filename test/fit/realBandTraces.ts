@@ -228,7 +228,7 @@ export function realBandTrace(
 
 /**
  * A real band's trace as a spectrometer records it, for lines that are optically thick at their own
- * width (traceThickAbsorbance: Doppler profiles at 296 K, the strongest line's centre at peakTau, the
+ * width (traceThickAbsorbance: Doppler profiles at 296 K, the deepest line's centre at peakTau, the
  * instrument line shape applied to the transmittance), plus a 0.01 baseline and noise of noiseRel times
  * the band's observed peak absorbance. Same sampling as realBandTrace.
  */
