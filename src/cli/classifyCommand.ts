@@ -8,7 +8,8 @@ import { CliError, cliNumber, cliParseArgs, cliRequire, type CliCommand } from '
  * (cm^-1) looks like. Prints JSON {"profile": "PR" | "PQR" | "Q-series", "type", "origin", "B",
  * "qSpacing" (Q-series only), "evidence"} plus "confidence" (high, medium, low), "alternativeType"
  * (when another type fits too), "bMethod", "bLow" and "bHigh" (the range B is good to, when B is given), "bDetermined" (that range within ±15 %; ±10 % for a Π–Σ or Q-series envelope), "temperature", "temperatureAssumed" and "implication".
- * origin, B and qSpacing in cm^-1; B is null when the trace does not show it. Without
+ * origin, B and qSpacing in cm^-1; B is null when the trace does not show it, and a rough value (never
+ * determined, with a wide bLow–bHigh) when the profile is rated low. Without
  * --temperature, B from an unresolved contour assumes 296 K and says so. With --q-envelope a
  * Q-branch series' envelope is also fitted for B and A − B (C − B), reported as "qSeriesEnvelope"
  * {shape, shapesFitting, uniqueMinusB, uniqueMinusBLow, uniqueMinusBHigh, zeta, B, bLow, bHigh,

@@ -5,6 +5,7 @@
  * infrared-active fundamentals of candidate structures.
  */
 import { useMemo, useState } from 'react';
+import type { BandShapeClassification } from '../analysis/bandShapeClassify';
 import { qBranchOrigin } from '../fit/qBranchFit';
 import { constantKeysToNames, constantNameText } from '../io/constantName';
 import { formulaAtoms } from '../io/formulaAtoms';
@@ -103,6 +104,14 @@ function RegionRow() {
   );
 }
 
+/** B of a diagnosis in words: its value and method, the range it is good to, and whether it is only a rough value. */
+function diagnosisBText(d: BandShapeClassification): string {
+  if (d.B === null) return 'not read from this trace';
+  const range = d.bLow !== undefined && d.bHigh !== undefined ? `, between ${d.bLow.toPrecision(3)} and ${d.bHigh.toPrecision(3)}` : '';
+  const rough = d.confidence === 'low' ? ' — a rough value only: the profile is rated low' : d.bDetermined ? '' : ' — not determined';
+  return `≈ ${d.B.toPrecision(4)} cm⁻¹ (${d.bMethod}${range})${rough}`;
+}
+
 function DiagnosisBox() {
   const d = useBench((s) => s.contourDiagnosis);
   const error = useBench((s) => s.contourDiagnosisError);
@@ -122,9 +131,8 @@ function DiagnosisBox() {
             <strong>{d.profile}</strong> — {d.type.replace(/-/g, ' ')} band (confidence {d.confidence}
             {d.alternativeType ? `; could also be ${d.alternativeType.replace(/-/g, ' ')}` : ''}). {d.implication}
           </p>
-          <p>
-            origin ≈ {d.origin.toFixed(3)} cm⁻¹; B{' '}
-            {d.B === null ? 'not read from this trace' : `≈ ${d.B.toPrecision(4)} cm⁻¹ (${d.bMethod})`}
+          <p data-testid="contour-b-estimate" data-b={d.B ?? ''} data-determined={d.bDetermined === true}>
+            origin ≈ {d.origin.toFixed(3)} cm⁻¹; B {diagnosisBText(d)}
             {d.qSpacing !== undefined ? `; Q-branch spacing ${d.qSpacing.toPrecision(5)} cm⁻¹` : ''}
           </p>
           <QSeriesContourLine />

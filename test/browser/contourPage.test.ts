@@ -159,6 +159,10 @@ describe('unresolved-band tab', () => {
     const diagnosis = (await page.locator('[data-testid=contour-diagnosis]').textContent()) ?? '';
     const bRead = Number(/B\s*≈\s*([0-9.]+)/.exec(diagnosis)?.[1]);
     expect(Math.abs(bRead / band.B - 1)).toBeLessThan(0.1);
+    // A B read off a profile rated low is shown as a rough value with its range, not as determined.
+    const bLine = page.locator('[data-testid=contour-b-estimate]');
+    expect(await bLine.getAttribute('data-determined')).toBe('false');
+    expect(await bLine.textContent()).toMatch(/between [0-9.]+ and [0-9.]+\) — a rough value only: the profile is rated low/);
     const originRead = Number(/origin ≈ ([0-9.]+)/.exec(diagnosis)?.[1]);
     expect(Math.abs(originRead - band.origin!)).toBeLessThan(0.5);
 
