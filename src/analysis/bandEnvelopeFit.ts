@@ -37,7 +37,7 @@ export function smoothBoxes(y: Float64Array, sigmaSamples: number): Float64Array
 }
 
 /** One set of the constants the profile leaves open. */
-interface EnvelopeVariant {
+export interface EnvelopeVariant {
   type: EnvelopeBandType;
   shape: TopShape;
   band: BandType;
@@ -130,12 +130,14 @@ interface EnvelopeStickList {
  * factors, nearly constant over a band, are left out). Term values and selection rules as bandLines
  * (Herzberg II (1945) ch. IV).
  */
-function envelopeStickList(v: EnvelopeVariant, B: number, unique: number, temperatureK: number, blurCm1: number): EnvelopeStickList {
+export function envelopeStickList(v: EnvelopeVariant, B: number, unique: number, temperatureK: number, blurCm1: number): EnvelopeStickList {
   const c2T = SECOND_RADIATION_CM_K / temperatureK;
-  const jMax = Math.ceil(Math.sqrt(10 / (c2T * B))) + 2;
   const linear = v.shape === 'linear';
   const uMinusB = unique - B;
-  const kMax = linear ? 0 : Math.min(jMax, Math.ceil(Math.sqrt(10 / (c2T * Math.max(Math.abs(uMinusB), 0.02 * B)))) + 2);
+  // Up to where F″ reaches 10 kT/hc on the lowest level of each J: K = 0 for a prolate top, K = J for
+  // an oblate one (F = BJ(J+1) + (C − B)K² ≈ CJ(J+1)), whose levels are populated to higher J and K.
+  const jMax = Math.ceil(Math.sqrt(10 / (c2T * (linear ? B : Math.min(B, unique))))) + 2;
+  const kMax = linear ? 0 : uMinusB < 0 ? jMax : Math.min(jMax, Math.ceil(Math.sqrt(10 / (c2T * Math.max(uMinusB, 0.02 * B)))) + 2);
   const sJ = Math.max(1, Math.floor((0.25 * blurCm1) / (2 * B)));
   const qAbs = linear || v.band === 'parallel' ? Infinity : Math.abs(2 * (unique * (1 - v.zeta) - B));
   const sK = Math.max(1, Math.floor((0.25 * blurCm1) / Math.max(qAbs === Infinity ? 2 * Math.abs(uMinusB) + 1e-9 : qAbs, 1e-9)));

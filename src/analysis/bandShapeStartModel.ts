@@ -40,8 +40,8 @@ export function populatedJMax(bCm1: number, temperatureK: number): number {
 }
 
 /**
- * Smallest K whose factor 2·exp(−|U − B|·K²·c2/T) of a prolate (U = A) or oblate (U = C) top's level
- * energy falls under POPULATION_CUT of K = 0's, at most jMax (Herzberg II (1945) ch. I).
+ * Smallest K whose factor 2·exp(−(A − B)·K²·c2/T) of a prolate top's level energy falls under
+ * POPULATION_CUT of K = 0's, at most jMax (Herzberg II (1945) ch. I).
  */
 function populatedKMax(uniqueMinusBCm1: number, temperatureK: number, jMax: number): number {
   const a = Math.abs(uniqueMinusBCm1);
@@ -96,14 +96,18 @@ export function bandShapeStartModel(diagnosis: BandShapeClassification, current:
       if (reset.length) changes.push(`${reset.join(', ')} → 0 (the previous model's belong to another B)`);
     }
   }
-  // Every populated level: a band cut short at J″max misfits its wings.
-  const jNeeded = populatedJMax(model.lower.B, model.temperatureK);
+  // Every populated level: a band cut short at J″max misfits its wings. An oblate top's lowest level
+  // of each J is K = J, F ≈ CJ(J + 1), so its levels are populated to higher J than B alone says.
+  const lowestRotor = unique === 'C' ? Math.min(model.lower.B, model.lower.C) : model.lower.B;
+  const jNeeded = populatedJMax(lowestRotor, model.temperatureK);
   if (jNeeded > model.jMax) {
     changes.push(`J″max ${model.jMax} → ${jNeeded} (populated to 0.1 % of the strongest level at ${model.temperatureK} K)`);
     model.jMax = jNeeded;
   }
   if (unique) {
-    const kNeeded = populatedKMax(model.lower[unique] - model.lower.B, model.temperatureK, model.jMax);
+    // K up to J for an oblate top (its K factor grows with K).
+    const uMinusB = model.lower[unique] - model.lower.B;
+    const kNeeded = uMinusB < 0 ? model.jMax : populatedKMax(uMinusB, model.temperatureK, model.jMax);
     if (kNeeded > model.kMax) {
       changes.push(`K″max ${model.kMax} → ${kNeeded}`);
       model.kMax = kNeeded;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { bandEnvelopeFit, smoothBoxes } from '../../src/analysis/bandEnvelopeFit';
+import { bandEnvelopeFit, envelopeStickList, smoothBoxes, type EnvelopeVariant } from '../../src/analysis/bandEnvelopeFit';
 import { noiseSigmaEstimate } from '../../src/analysis/noiseSigmaEstimate';
 import { traceGenerate, type TraceSpec } from '../fit/contourTraces';
 
@@ -83,6 +83,37 @@ describe('bandEnvelopeFit', () => {
       expect(B, `B ${B}, T ${T}, L ${L}`).toBeGreaterThanOrEqual(fit.bLow * 0.97);
       expect(B, `B ${B}, T ${T}, L ${L}`).toBeLessThanOrEqual(fit.bHigh / 0.97);
       expect(Math.abs(fit.origin - (x[iq] + fit.B))).toBeLessThan(1e-9);
+    }
+  });
+});
+
+describe('envelopeStickList', () => {
+  it('reaches every populated level of an oblate top: its sticks sum to the Boltzmann sum over all J and K ≤ J', () => {
+    // F = BJ(J + 1) + (C − B)K², K > 0 doubly degenerate (Herzberg II (1945) ch. I); the Hönl–London
+    // factors of a parallel band's P, Q and R from one lower level sum to 2J + 1 (Herzberg II ch. IV).
+    // So the sticks' total is Σ_J Σ_{K ≤ J} g_K (2J + 1) exp(−c2 F/T), summed here to J = 400
+    // (c2 = 1.438776877 cm K, CODATA 2018). With C < B the lowest level of each J is K = J, F ≈ CJ(J + 1):
+    // cut where B alone puts F at 10 kT/hc, the sticks missed 0.15 % of it (B 1, C 0.5, 300 K).
+    const c2 = 1.438776877;
+    for (const [B, C, T] of [
+      [1, 0.5, 300],
+      [0.15, 0.09, 200],
+    ]) {
+      let total = 0;
+      for (let J = 0; J <= 400; J++)
+        for (let K = 0; K <= J; K++) total += (K === 0 ? 1 : 2) * (2 * J + 1) * Math.exp((-c2 * (B * J * (J + 1) + (C - B) * K * K)) / T);
+      const variant: EnvelopeVariant = {
+        type: 'symmetric-top-parallel',
+        shape: 'oblate',
+        band: 'parallel',
+        unique: () => C,
+        zeta: 0,
+        label: 'oblate parallel',
+      };
+      const sticks = envelopeStickList(variant, B, C, T, 1e-9);
+      let sum = 0;
+      for (let i = 0; i < sticks.count; i++) sum += sticks.w[i];
+      expect(sum / total, `B ${B}, C ${C}, T ${T}`).toBeCloseTo(1, 3);
     }
   });
 });

@@ -39,6 +39,21 @@ describe('bandShapeStartModel', () => {
     expect(current.band).toBe('parallel'); // the current model is not touched
   });
 
+  it("reaches an oblate top's high-K levels: J″ as far as C alone populates, K″ up to J″", () => {
+    // F = BJ(J + 1) + (C − B)K² (Herzberg II (1945) ch. I): with C < B the lowest level of each J is
+    // K = J, F ≈ CJ(J + 1), so J is populated as far as a rotor of constant C is, and every K ≤ J.
+    const oblate: BandModel = {
+      ...top,
+      shape: 'oblate',
+      lower: stateConstantsFrom({ B: 0.15, C: 0.09 }),
+      upper: stateConstantsFrom({ origin: 1000, B: 0.15, C: 0.09, zeta: 0 }),
+    };
+    const { model } = bandShapeStartModel({ ...base, profile: 'PQR', type: 'symmetric-top-parallel', origin: 1000, B: 0.15 }, oblate);
+    expect(model.jMax).toBe(populatedJMax(0.09, 296));
+    expect(model.jMax).toBeGreaterThan(populatedJMax(0.15, 296));
+    expect(model.kMax).toBe(model.jMax);
+  });
+
   it('turns a PR profile into a linear Σ–Σ band with the estimated B', () => {
     const { model } = bandShapeStartModel({ ...base, profile: 'PR', type: 'linear-parallel', origin: 2300, B: 0.39 }, top);
     expect(model.shape).toBe('linear');

@@ -205,11 +205,14 @@ const C2 = 1.438776877; // second radiation constant hc/k, cm K (CODATA 2018)
 /** Build the band model of a spec (thermally sensible jMax and kMax). */
 export function traceModel(spec: TraceSpec): BandModel {
   const { shape, band, B, temperatureK: T } = spec;
-  const jT = Math.sqrt(T / (C2 * B));
-  const jMax = Math.min(400, Math.ceil(3.2 * jT + 5));
   const u = spec.unique ?? 0;
+  // An oblate top's lowest level of each J is K = J, F ≈ CJ(J + 1) (Herzberg II (1945) ch. I): its
+  // levels reach higher J than B alone says, and every K ≤ J is populated.
+  const oblate = shape === 'oblate' && u < B;
+  const jT = Math.sqrt(T / (C2 * (oblate ? u : B)));
+  const jMax = Math.min(400, Math.ceil(3.2 * jT + 5));
   const kT = shape === 'linear' ? 0 : Math.sqrt(T / (C2 * Math.max(Math.abs(u - B), 0.02)));
-  const kMax = shape === 'linear' ? 0 : Math.min(jMax, Math.ceil(3.2 * kT + 3));
+  const kMax = shape === 'linear' ? 0 : oblate ? jMax : Math.min(jMax, Math.ceil(3.2 * kT + 3));
   const dB = (spec.deltaBRel ?? -0.003) * B;
   const dU = (spec.deltaURel ?? -0.004) * u;
   const lower = stateConstantsFrom(shape === 'linear' ? { B } : shape === 'prolate' ? { B, A: u } : { B, C: u });
