@@ -282,7 +282,9 @@ function layoutSize(l: Layout): number {
  * model is smooth (a change of B by 1e-7 cm^-1 steps the model evenly to 1e-3 of itself on thick
  * seeded bands 10 and 16 of bench:contour targets --thick), and steps are set by how far they move
  * the lines against the instrument's FWHM: B's so that J(J+1) of the highest populated J times the
- * step is a quarter of it, the origin's a twentieth, the others 10× the weak-route ones (chosen here).
+ * step is a quarter of it, the origin's a hundredth, the others 10× the weak-route ones (chosen here;
+ * a twentieth for the origin took the saturating band of bench:contour speed 11 iterations and 3.3 s
+ * instead of 6 and 2.2 s, and fitted 2 fewer origins of the 60 thick seeded bands).
  * The flat 100× had moved a J = 60 line by 0.36 cm^-1 in B′ alone, twice the resolution at L = 3.5 cm
  * (thick seeded bands 16 and 17 stalled at 4–5× the noise); the weak-route steps (a hundredth of the
  * FWHM) left bands 0, 13 and 26 in side pockets of their shallow valleys with σ too small (origin or
@@ -295,7 +297,7 @@ function stepFor(key: string, value: number, route: InstrumentRoute, coarse: boo
   if (route === 'linear') return h;
   if (coarse) return h * (name === 'origin' || name === 'B' ? 100 : 10);
   if (name === 'B') return Math.max(h, (0.25 * reach.ilsFwhmCm1) / reach.jSquared);
-  if (name === 'origin') return Math.max(h, 0.05 * reach.ilsFwhmCm1);
+  if (name === 'origin') return Math.max(h, 0.01 * reach.ilsFwhmCm1);
   return h * 10;
 }
 
