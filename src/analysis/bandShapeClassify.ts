@@ -741,7 +741,7 @@ export function bandShapeClassify(
       // One band's J lines make two lobes, or at least weak low-J lines beside the centre. A regular
       // comb with neither, read as J lines around a central peak, may be a series of Q branches whose
       // central member stands out (fresh seed 2056 of bench:contour classify: a heavy prolate top's Q
-      // branches 0.33 cm^-1 apart read as J lines, B 3.6× too large at medium): rated low, so its B is withheld.
+      // branches 0.33 cm^-1 apart read as J lines, B 3.6× too large at medium): rated low, so its B is only a rough value.
       if (profile === 'PQR' && confidence !== 'low') {
         confidence = 'low';
         evidence.push(
@@ -1118,7 +1118,7 @@ export function bandShapeClassify(
   // ΔB shades it, which the rigid model leaves out) left out of the comparison. On generated Π–Σ
   // bands (test/analysis/bandEnvelopeFit.test.ts, B 0.03–2.5 cm^-1, T 120–296 K, L 1–3 cm) within
   // 10 %; on the seeded bands of bench:contour classify most Π–Σ readings are rated low (Q share
-  // between 30 and 50 %), so B is withheld there.
+  // between 30 and 50 %), so B is a rough value there (below).
   // Perpendicular bands of symmetric tops with a resolved Q-branch comb (option qSeriesEnvelope): B and
   // A − B (C − B) fitted together to the whole envelope with the comb's spacing, phase and curvature
   // held (bandEnvelopeQSeriesFit). Within 5 % on rigid generated bands; on the seeded bands (B′ =
@@ -1298,7 +1298,7 @@ export function bandShapeClassify(
     } else {
       lowEnvelope = true;
       evidence.push(
-        `B = ${B.toPrecision(3)} cm^-1 rests on the envelope of a profile read with low confidence: if the band is of another type its B may be up to about 2× smaller or 1.5× larger, so B is given as a rough value with that range and is not determined`,
+        `B = ${B.toPrecision(3)} cm^-1 rests on the envelope of a profile read with low confidence: if the band is of another type its B may lie anywhere from ${LOW_ENVELOPE_B_RANGE[0]} to ${LOW_ENVELOPE_B_RANGE[1]}× that, so B is given as a rough value with that range and is not determined`,
       );
     }
   }

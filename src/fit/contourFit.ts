@@ -288,7 +288,8 @@ function layoutSize(l: Layout): number {
  * The flat 100× had moved a J = 60 line by 0.36 cm^-1 in B′ alone, twice the resolution at L = 3.5 cm
  * (thick seeded bands 16 and 17 stalled at 4–5× the noise); the weak-route steps (a hundredth of the
  * FWHM) left bands 0, 13 and 26 in side pockets of their shallow valleys with σ too small (origin or
- * B′ − B″ 5–44σ off at the same χ²). Quarter-FWHM steps fit all five (bench:contour targets 30 --thick).
+ * B′ − B″ 5–44σ off at the same χ²). These steps fit 0, 16, 17 and 26 (13 still misses, its
+ * A′(1 − ζ) − B′ 5.9σ off; bench:contour targets 30 0 --thick).
  */
 function stepFor(key: string, value: number, route: InstrumentRoute, coarse: boolean, reach: StepReach): number {
   const name = fitKeyParse(key)?.name;

@@ -167,7 +167,6 @@ describe('bandShapeClassify', () => {
   });
 });
 
-/** Is a reading right? A faint Q-branch series (traceVisibleProfile's ambiguous band) may be read either way, not rated high. */
 /**
  * A B read off a profile rated low: given only as a rough value (not determined), its range holding
  * the true B, and the evidence saying so.
@@ -180,6 +179,7 @@ function expectRoughB(r: ReturnType<typeof bandShapeClassify>, trueB: number): v
   expect(r.evidence).toMatch(/given as a rough value/);
 }
 
+/** Is a reading right? A faint Q-branch series (traceVisibleProfile's ambiguous band) may be read either way, not rated high. */
 function readingRight(r: ReturnType<typeof bandShapeClassify>, visible: ReturnType<typeof traceVisibleProfile>): boolean {
   if (r.profile === visible.profile) return true;
   return visible.ambiguous && r.confidence !== 'high' && (r.profile === 'PQR' || r.profile === 'Q-series');

@@ -242,9 +242,8 @@ export interface TraceThickOptions {
  * −log10 of the instrument line shape applied to exp(−τ). τ(ν) is the sum of Doppler profiles (HWHM
  * ν·√(2 ln2 kT/(m c²)) = ν·3.5811e-7·√(T/m), Herzberg II (1945) ch. I) on a grid of a quarter of the
  * narrowest HWHM, each line's area proportional to its strength and the deepest line's centre at
- * peakTau; 1 − exp(−τ) is shared between bins of
- * 1/(16L) (the instrument line shape changes little across one) and the bins are convolved with it out
- * to reachCm1, its kernel summed to 1.
+ * peakTau; 1 − exp(−τ) is shared between bins of 1/(16L) (the instrument line shape changes little
+ * across one) and the bins are convolved with it out to reachCm1, its kernel summed to 1.
  * @param x ascending trace axis, cm^-1 (its step a multiple of 1/(16L) puts each point on a bin centre)
  * @param nu line positions, ascending, cm^-1
  * @param intensity relative line strengths (integrated)
