@@ -769,7 +769,11 @@ export function bandShapeClassify(
     // envelope maxima also disagree with its spacing, is not J lines: a perpendicular band's sub-band
     // Q branches run evenly through the origin (ΔK = +1 on one side, −1 on the other). Only one seeded
     // band of bench:contour classify (tuning seed 9) showed this, so the reading is rated low.
-    if (profile === 'PR' && combDoubt && !gap && !combDip && !centralSpike && !combCentralPeak) {
+    // A central spike with lines as tall one spacing away on both sides (jLineSpike) is a member of the
+    // comb, not a Q branch standing out: it does not count against the comb running evenly through the
+    // centre (seeds 104, 117 and 1312 of bench:contour classify, prolate perpendicular bands whose Q
+    // branches were read as J lines with P and R maxima 2.8× too far apart, then PQR).
+    if (profile === 'PR' && combDoubt && !gap && !combDip && (!centralSpike || jLineSpike) && !combCentralPeak) {
       const fit = qSeriesFit(comb.members, centroid);
       profile = 'Q-series';
       // The median gap, not the quadratic's linear term: where the heights sag near the centre the J

@@ -282,6 +282,22 @@ describe('bandShapeClassify on seeded bands (training seeds 0–19, held-out see
     expect(w.r.evidence).toMatch(/short of a clear Q branch/);
   });
 
+  it('reads a comb whose central member has equals one spacing away as Q branches when the P–R maxima rule out J lines (seeds 104, 117, 1312)', () => {
+    // Prolate perpendicular bands whose sub-band Q branches, 2[A′(1−ζ) − B′] apart (Herzberg II (1945)
+    // ch. IV), were read as J lines: their envelope's P and R maxima lie 2.8× farther apart than lines
+    // so close give (2.358√(BT)), and the tallest central maximum has equals one spacing either side, so
+    // it is a comb member, not a Q branch. Read PQR (low) before; now a Q-series (low), spacing from the
+    // comb's median gap: measured +1.8 %, +0.6 % and +7.8 % (J lines among the Q branches of 1312).
+    for (const seed of [104, 117, 1312]) {
+      const [w] = seededRows(seed, 1);
+      expect(w.visible.profile, `seed ${seed}`).toBe('Q-series');
+      expect(w.r.profile, `seed ${seed}: ${w.r.evidence}`).toBe('Q-series');
+      expect(w.r.confidence).toBe('low');
+      expect(w.r.evidence).toMatch(/runs through the band centre/);
+      expect(Math.abs(Math.abs(w.r.qSpacing!) / Math.abs(w.visible.qSpacing) - 1)).toBeLessThan(seed === 1312 ? 0.1 : 0.03);
+    }
+  });
+
   it('does not take a comb of Q branches for J lines (seed 9: the P–R maxima disagree, no central gap, dip or Q branch)', () => {
     // Tuning seed 9: an oblate perpendicular band (B 2.34 cm^-1) whose Q branches, 2.44 cm^-1 apart,
     // were read as J lines of B = 1.19 cm^-1 and called determined before; the envelope's P and R
