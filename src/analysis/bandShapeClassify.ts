@@ -124,6 +124,9 @@ export interface BandShapeClassification {
 /** Smallest half-range of B given from a Π–Σ or Q-series envelope fit, relative (the rigid model's own error, chosen here). */
 const ENVELOPE_B_FLOOR = 0.05;
 
+/** A PR reading from resolved lines whose B is under this fraction of the spread's is rated low (see its use; chosen here). */
+const PR_J_RATIO_LOW = 0.85;
+
 /**
  * Range (multiples of B) given for a B from the envelope of a profile rated low: the 5th–95th and
  * 2nd–98th percentiles of truth/B were 0.42–1.58 and 0.24–1.79 on 251 such bands of bench:contour
@@ -920,6 +923,25 @@ export function bandShapeClassify(
     lowOnlyForWeakQ = false;
     evidence.push(
       `but read as J lines the comb gives B only ${jRatio.toFixed(2)}× what the band's spread gives at ${Math.round(T)} K, though a Q branch at the centre narrows that spread (J lines with a Q branch gave 0.85 or more): the maxima may be Q branches, not J lines`,
+    );
+  }
+  // The same for a PR reading from resolved lines: on the 800 seeded bands of bench:contour classify
+  // (seeds 0–399, 1000–1399) every right one gave jRatio 0.95 or more, the two below (0.80, 0.94) were
+  // perpendicular bands' Q branches (B −48 %). A published band, PH3 ν2 recorded with lines 30 times
+  // optically thick at L = 0.9 cm (test/fixtures/real), gave 0.62: a comb of K-split lines at 0.65× the
+  // spacing, B −31 % called determined. Saturation widens the spread and so lowers jRatio for right
+  // readings (the Σ–Σ bands of HC3N at τ = 30), so this holds only where the template saw none.
+  if (
+    profile === 'PR' &&
+    bMethod === 'line-spacing' &&
+    confidence !== 'low' &&
+    jRatio < PR_J_RATIO_LOW &&
+    templateSaturation < SATURATION_SEEN
+  ) {
+    confidence = 'low';
+    lowOnlyForWeakQ = false;
+    evidence.push(
+      `but read as J lines the comb gives B only ${jRatio.toFixed(2)}× what the band's spread gives at ${Math.round(T)} K (J lines of a band without a Q branch gave 0.95 or more): the maxima may not be this band's J lines`,
     );
   }
   // Second look at a PR reading without resolved lines: the envelope's highest maximum at the band's
