@@ -189,7 +189,7 @@ export interface TraceSpec {
    */
   ilsWings?: 'truncated' | 'full';
   /**
-   * Optical depth at the centre of the strongest line. Given, the trace is made as a spectrometer
+   * Optical depth at the centre of the line deepest there. Given, the trace is made as a spectrometer
    * records lines that may be optically thick at their own width: τ(ν) from Doppler profiles (mass
    * `massAmu`, the spec's T) on a fine grid, the instrument line shape applied to the transmittance,
    * A = −log10 T; peakAbsorbance is then what comes out, not a setting. Absent: the weak-absorption
@@ -225,13 +225,13 @@ export function traceModel(spec: TraceSpec): BandModel {
   return { shape, band, lower, upper, temperatureK: T, jMax, kMax, spinWeights: spec.spinWeights ?? [1] };
 }
 
-/** What traceThickAbsorbance needs besides the lines: the instrument, the gas and the strongest line's depth. */
+/** What traceThickAbsorbance needs besides the lines: the instrument, the gas and the deepest line's depth. */
 export interface TraceThickOptions {
   opdCm: number;
   apodization: TraceApodization;
   temperatureK: number;
   massAmu: number;
-  /** Optical depth at the centre of the strongest line. */
+  /** Optical depth at the centre of the line deepest there (strength over Doppler width largest). */
   peakTau: number;
   /** How far the instrument line shape is applied from each point, cm^-1. */
   reachCm1: number;
@@ -354,15 +354,7 @@ export function traceGenerate(spec: TraceSpec): TraceCase {
   const sortedNu = Float64Array.from(order.map((i) => lines.wavenumberCm1[i]));
   const sortedI = Float64Array.from(order.map((i) => lines.intensity[i]));
   const reach = 40 / L;
-  const ils = traceIls(spec.apodization, L);
-  let first = 0;
-  for (let k = 0; k < n; k++) {
-    while (first < sortedNu.length && sortedNu[first] < x[k] - reach) first++;
-    let s = 0;
-    for (let i = first; i < sortedNu.length && sortedNu[i] <= x[k] + reach; i++) s += sortedI[i] * ils(x[k] - sortedNu[i]);
-    raw[k] = s;
-  }
-  if (spec.peakTau !== undefined)
+  if (spec.peakTau !== undefined) {
     raw.set(
       traceThickAbsorbance(x, sortedNu, sortedI, {
         opdCm: L,
@@ -373,6 +365,17 @@ export function traceGenerate(spec: TraceSpec): TraceCase {
         reachCm1: traceThickReach(spec.apodization, L, toCm1 - fromCm1),
       }),
     );
+  } else {
+    // The weak-absorption trace: each line's instrument line shape, summed out to 40/L.
+    const ils = traceIls(spec.apodization, L);
+    let first = 0;
+    for (let k = 0; k < n; k++) {
+      while (first < sortedNu.length && sortedNu[first] < x[k] - reach) first++;
+      let s = 0;
+      for (let i = first; i < sortedNu.length && sortedNu[i] <= x[k] + reach; i++) s += sortedI[i] * ils(x[k] - sortedNu[i]);
+      raw[k] = s;
+    }
+  }
   if (spec.ilsWings === 'full') {
     if (spec.peakTau !== undefined) throw new Error('traceGenerate: peakTau traces keep their wings already');
     if (spec.apodization !== 'boxcar' && spec.apodization !== 'triangular') {
