@@ -1309,20 +1309,20 @@ export function bandShapeClassify(
   // (held symmetric-top parallel, Σ–Σ or Π–Σ): 112 of 251 within 10 % (the type may be another: an
   // oblate top's parallel band read as Π–Σ gives about 2× its B, an unresolved perpendicular band read
   // as parallel 1.3–7×; LOW_ENVELOPE_B_RANGE).
-  let lowEnvelope = false;
-  let lowComb = false;
+  // The range of such a rough value, in multiples of B (null: B is not a rough value).
+  let roughRange: readonly [number, number] | null = null;
   if (B !== null && confidence === 'low' && !lowOnlyForWeakQ) {
     if (profile === 'Q-series') {
       evidence.push(`B is withheld: ${B.toPrecision(3)} cm^-1 would rest on a Q-branch series read with low confidence`);
       B = null;
       bMethod = 'none';
     } else if (bMethod === 'line-spacing') {
-      lowComb = true;
+      roughRange = LOW_COMB_B_RANGE;
       evidence.push(
         `B = ${B.toPrecision(4)} cm^-1 holds if the comb is this band's J lines, which the profile rated low puts in doubt (were they Q branches, B could lie anywhere from ${LOW_COMB_B_RANGE[0]} to ${LOW_COMB_B_RANGE[1]}× that), so B is given as a rough value with that range and is not determined`,
       );
     } else {
-      lowEnvelope = true;
+      roughRange = LOW_ENVELOPE_B_RANGE;
       evidence.push(
         `B = ${B.toPrecision(3)} cm^-1 rests on the envelope of a profile read with low confidence: if the band is of another type its B may lie anywhere from ${LOW_ENVELOPE_B_RANGE[0]} to ${LOW_ENVELOPE_B_RANGE[1]}× that, so B is given as a rough value with that range and is not determined`,
       );
@@ -1339,20 +1339,8 @@ export function bandShapeClassify(
           : type === 'linear-parallel'
             ? 0.1
             : 0.15;
-    bLow = Math.min(
-      B * (1 - rel),
-      envelopeRange?.[0] ?? Infinity,
-      B - jLineSpread,
-      lowEnvelope ? B * LOW_ENVELOPE_B_RANGE[0] : Infinity,
-      lowComb ? B * LOW_COMB_B_RANGE[0] : Infinity,
-    );
-    bHigh = Math.max(
-      B * (1 + rel),
-      envelopeRange?.[1] ?? 0,
-      B + jLineSpread,
-      lowEnvelope ? B * LOW_ENVELOPE_B_RANGE[1] : 0,
-      lowComb ? B * LOW_COMB_B_RANGE[1] : 0,
-    );
+    bLow = Math.min(B * (1 - rel), envelopeRange?.[0] ?? Infinity, B - jLineSpread, B * (roughRange?.[0] ?? 1));
+    bHigh = Math.max(B * (1 + rel), envelopeRange?.[1] ?? 0, B + jLineSpread, B * (roughRange?.[1] ?? 1));
     // A symmetric top's PQR envelope may as well be an unresolved perpendicular band, whose P/R
     // wings give another B (bench:contour classify: −35 % with a narrow range on tuning seed 59), so
     // B from it is never called determined.
@@ -1374,9 +1362,9 @@ export function bandShapeClassify(
     } else if (newRange) {
       // Π–Σ and Q-series envelopes: the range that fits, at least ±ENVELOPE_B_FLOOR (the rigid model's
       // own error), determined only within ±10 % and not reaching the end of the values tried.
-      bLow = Math.min(B * (1 - ENVELOPE_B_FLOOR), newRange.low, lowEnvelope ? B * LOW_ENVELOPE_B_RANGE[0] : Infinity);
-      bHigh = Math.max(B * (1 + ENVELOPE_B_FLOOR), newRange.high, lowEnvelope ? B * LOW_ENVELOPE_B_RANGE[1] : 0);
-      bDetermined = bLow >= 0.9 * B && bHigh <= 1.1 * B && !newRange.open && !lowEnvelope;
+      bLow = Math.min(B * (1 - ENVELOPE_B_FLOOR), newRange.low, B * (roughRange?.[0] ?? 1));
+      bHigh = Math.max(B * (1 + ENVELOPE_B_FLOOR), newRange.high, B * (roughRange?.[1] ?? 1));
+      bDetermined = bLow >= 0.9 * B && bHigh <= 1.1 * B && !newRange.open && !roughRange;
       if (newRange.open) evidence.push('B is not determined: the values that fit reach the end of those tried');
       else if (!bDetermined) evidence.push('B is not determined: the range that fits is wider than ±10 %');
     } else if (envelopeHeld) evidence.push('B is not determined: the profile does not rule out an unresolved perpendicular band');
@@ -1388,7 +1376,7 @@ export function bandShapeClassify(
     evidence.push(
       contourRange
         ? `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (±2σ of the contour fit, over every minimum about as deep)`
-        : lowEnvelope
+        : roughRange === LOW_ENVELOPE_B_RANGE
           ? `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ${LOW_ENVELOPE_B_RANGE[0]}–${LOW_ENVELOPE_B_RANGE[1]}× B, measured on seeded bands whose envelope was read with low confidence)`
           : `B between ${bLow.toPrecision(3)} and ${bHigh.toPrecision(3)} cm^-1 (at least ±${Math.round((newRange ? ENVELOPE_B_FLOOR : rel) * 100)} %, measured on seeded bands)`,
     );
