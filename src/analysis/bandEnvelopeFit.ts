@@ -47,6 +47,12 @@ export interface EnvelopeVariant {
   label: string;
   /** Upper minus lower (U − B) (U = A or C), cm^-1: curves a perpendicular band's Q-branch comb. @default 0 */
   deltaUniqueMinusB?: number;
+  /**
+   * (B′ − B″)/B″: spreads the P branch and crowds the R branch (or the reverse), line positions
+   * ν0 + (B′ + B″)m + (B′ − B″)m² (Herzberg II ch. IV); the unique constant stays the same in both
+   * states. @default 0
+   */
+  deltaBRel?: number;
 }
 
 function variantsFor(type: EnvelopeBandType, qSpacing: number | undefined): EnvelopeVariant[] {
@@ -134,6 +140,9 @@ export function envelopeStickList(v: EnvelopeVariant, B: number, unique: number,
   const c2T = SECOND_RADIATION_CM_K / temperatureK;
   const linear = v.shape === 'linear';
   const uMinusB = unique - B;
+  // Upper state's B; A′ = A″ (C′ = C″), so A′ − B′ takes up the change of B.
+  const bUp = B * (1 + (v.deltaBRel ?? 0));
+  const uMinusBUp = uMinusB + B - bUp;
   // Up to where F″ reaches 10 kT/hc on the lowest level of each J: K = 0 for a prolate top, K = J for
   // an oblate one (F = BJ(J+1) + (C − B)K² ≈ CJ(J+1)), whose levels are populated to higher J and K.
   const jMax = Math.ceil(Math.sqrt(10 / (c2T * (linear ? B : Math.min(B, unique))))) + 2;
@@ -157,7 +166,7 @@ export function envelopeStickList(v: EnvelopeVariant, B: number, unique: number,
       const fK = linear ? 0 : uMinusB * K * K;
       const fKUp = linear
         ? 0
-        : (uMinusB + (v.deltaUniqueMinusB ?? 0)) * kUp * kUp - (v.band === 'perpendicular' ? 2 * unique * v.zeta * kUp * deltaK : 0);
+        : (uMinusBUp + (v.deltaUniqueMinusB ?? 0)) * kUp * kUp - (v.band === 'perpendicular' ? 2 * unique * v.zeta * kUp * deltaK : 0);
       const lPerp = linear && v.band === 'perpendicular';
       const pre = lineDegeneracy(v.band, K) * kWeight * sJ;
       for (let dJ = -1; dJ <= 1; dJ++) {
@@ -167,7 +176,7 @@ export function envelopeStickList(v: EnvelopeVariant, B: number, unique: number,
           if (hl <= 0) continue;
           const jUp = J + dJ;
           const eLow = B * J * (J + 1) + fK;
-          const x = B * (jUp * (jUp + 1) - (lPerp ? 1 : 0)) + fKUp - eLow;
+          const x = bUp * (jUp * (jUp + 1) - (lPerp ? 1 : 0)) + fKUp - eLow;
           const w = pre * hl * Math.exp(-c2T * eLow);
           wSum += w;
           wx += w * x;
@@ -281,6 +290,12 @@ export interface BandEnvelopeFitInput {
    * effective independent points). @default 'wide'
    */
   rangeRule?: 'wide' | 'two-sigma';
+  /**
+   * Values of (B′ − B″)/B″ also tried in the fine pass, each with every variant of the shape that
+   * fitted best rigid (not an oblate top); they compete on the residual like the variants, and B is
+   * B″. @default none (rigid bands only)
+   */
+  deltaBRels?: number[];
 }
 
 /** What bandEnvelopeFit found for one band type. */
@@ -408,17 +423,40 @@ export function bandEnvelopeFit(input: BandEnvelopeFitInput): BandEnvelopeFitRes
   const keepLight = keepFor(sLight);
   const widths = [0, 1.5, 3, 5].map((w) => Math.hypot(sLight, w));
   const fine: { v: EnvelopeVariant; B: number; ss: number; origin: number }[] = [];
-  for (const v of variants) {
-    const mine = coarse.filter((c) => c.v === v && Number.isFinite(c.ss));
-    if (!mine.length) continue;
-    const best = mine.reduce((a, c) => (c.ss < a.ss ? c : a));
+  const coarseBest = (v0: EnvelopeVariant) => {
+    const mine = coarse.filter((c) => c.v === v0 && Number.isFinite(c.ss));
+    return mine.length ? mine.reduce((a, c) => (c.ss < a.ss ? c : a)) : null;
+  };
+  const finePass = (v: EnvelopeVariant, bCentre: number) => {
     for (let f = 0.75; f <= 1.25 + 1e-9; f *= 1.02) {
-      const B = best.B * f;
+      const B = bCentre * f;
       const mdl = model(v, B, sLight * step * 2.355);
       if (!mdl) continue;
       let bestSs = Infinity;
       for (const w of widths) bestSs = Math.min(bestSs, scaleBaselineFit(smoothBoxes(mdl.sticks, w), yLight, t, keepLight).ss);
       fine.push({ v, B, ss: bestSs, origin: mdl.origin });
+    }
+  };
+  for (const v0 of variants) {
+    const best = coarseBest(v0);
+    if (best) finePass(v0, best.B);
+  }
+  // Then (B′ − B″)/B″ ≠ 0 for the variants of the shape that fitted best rigid, when that is not an
+  // oblate top: an oblate top's parallel band spreads its sub-bands by Δ(C − B)K² with K up to J, so
+  // its (B′ − B″) would bring C′ − C″ as a second constant; and tried on every variant, a prolate
+  // variant with B′ ≠ B″ passed for an oblate band with B 20–60 % too large (seeded and independent
+  // traces: oblate parallel bands within 10 % 14 → 6 of 21).
+  const deltaBRels = (input.deltaBRels ?? []).filter((d) => d !== 0);
+  for (const type of deltaBRels.length ? input.types : []) {
+    const rigid = fine.filter((r) => r.v.type === type && Number.isFinite(r.ss));
+    if (!rigid.length) continue;
+    const shape = rigid.reduce((a, r) => (r.ss < a.ss ? r : a)).v.shape;
+    if (shape === 'oblate') continue;
+    for (const v0 of variants.filter((v) => v.type === type && v.shape === shape)) {
+      const best = coarseBest(v0);
+      if (!best) continue;
+      for (const dB of deltaBRels)
+        finePass({ ...v0, deltaBRel: dB, label: `${v0.label}, (B′ − B″)/B″ = ${(100 * dB).toFixed(2)} %` }, best.B);
     }
   }
   // Noise allowance: the light smoothing averages ~ 2√π σ samples, leaving σ²/(2√π σ_s) per point.

@@ -138,8 +138,10 @@ describe('bandShapeClassify on real bands recorded through the transmittance (li
       expect(w.r.profile, thickLabel(w)).toBe('PR');
       if (w.r.B === null) continue;
       // Measured: −2.5 … +1.1 % at τ ≤ 3; +12 … +17 % at τ = 30, inside the range given (±20 %), never
-      // called determined.
-      if (w.tau <= 3) expect(Math.abs(w.r.B / w.band.B - 1), thickLabel(w)).toBeLessThan(0.03);
+      // called determined. Since the envelope fit also tries B′ ≠ B″ (−1.5 … +0.5 %), −2.5 … +3.1 % at
+      // τ ≤ 3 (one step of its 2 % grid of B higher on 6 of the 8 at τ = 0.3; HC3N's own B′ − B″ is
+      // under 0.1 %).
+      if (w.tau <= 3) expect(Math.abs(w.r.B / w.band.B - 1), thickLabel(w)).toBeLessThan(0.035);
       expect(w.band.B, thickLabel(w)).toBeGreaterThanOrEqual(w.r.bLow!);
       expect(w.band.B, thickLabel(w)).toBeLessThanOrEqual(w.r.bHigh!);
       expect(w.r.bDetermined, thickLabel(w)).toBe(false);
