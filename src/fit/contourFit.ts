@@ -125,6 +125,9 @@ export interface ContourFitResult {
 /** Relative singular value under which the contour is taken as unable to fix a direction. */
 export const CONTOUR_RANK_TOLERANCE = 1e-6;
 
+/** Residual rms over the noise σ above which the fit says the model does not describe the trace (chosen here). */
+export const CONTOUR_MISFIT_WARN = 2;
+
 /** |ρ| from which a pair of floated parameters is named in the warnings. */
 export const CONTOUR_CORRELATION_WARN = 0.995;
 
@@ -412,6 +415,12 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   if (!(unitMax > 0)) throw new Error(`${fn}: the model has no lines in ${fromCm1} … ${toCm1} cm^-1 (check the origin and the region)`);
   const baseline = new Float64Array(nBaseline);
   const linear = linearFit(y, t, nBaseline, unit);
+  // y ≈ a·unit with unit the optical depth at scale 1 (opticalDepthScale ln 10), and the model is
+  // s·unit/ln 10 (absorbance), so the least-squares scale is a·ln 10; the fit starts at a / ln 10,
+  // ln²10 ≈ 5.3 times thinner, and stage 1 sizes it. Measured (2026-12-04): started at a·ln 10 instead,
+  // thin seeded fits were unchanged (bench:contour targets 60: 60, 60, 79 of 79) but thick ones fared
+  // worse (targets 30 --thick: origin within 4σ 29 → 27 of 30; on an independently made thick trace,
+  // test/fixtures/independent_traces, B″ 51σ → 696σ off): kept.
   let scale = linear.amplitude / ln10;
   if (!(scale > 0)) {
     // The start model's band does not resemble the trace at all; size it by the largest excursion.
@@ -844,6 +853,16 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   }
   if (solution.status === 'max-iterations')
     warnings.push('The fit stopped at the iteration limit without converging; treat the values as rough.');
+  // A residual far above the noise: the model does not describe the trace, and σ from it describe
+  // nothing. (Seen on a trace made elsewhere whose absorbance was scaled up after the instrument, so
+  // that Doppler-limited lines would have to be optically thick: rms 29× the noise, with no word.)
+  const noiseRef = input.noiseSigma && input.noiseSigma > 0 ? input.noiseSigma : secondDifferenceSigma(y);
+  const rmsOverNoise = noiseRef > 0 ? Math.sqrt(post.chi2 / m) / noiseRef : 0;
+  if (rmsOverNoise > CONTOUR_MISFIT_WARN) {
+    warnings.push(
+      `The fit leaves ${rmsOverNoise.toFixed(1)}× the noise (rms ${Math.sqrt(post.chi2 / m).toPrecision(3)} against noise σ ${noiseRef.toPrecision(3)}): the model does not describe this trace, so the values and σ above are not to be trusted. Look at the residual: lines broadened by pressure (give the Lorentz width), a wrong mass or temperature, strong absorption the Doppler-limited lines cannot make, another band in the region, the band type, or a start too far off.`,
+    );
+  }
   if (lorentz < 0.02 / opdCm && lc >= 0) {
     warnings.push(
       `The Lorentz width (${lorentz.toPrecision(3)} cm^-1) is far below the resolution 1/(2L) = ${(0.5 / opdCm).toPrecision(3)} cm^-1: the contour hardly constrains it.`,
@@ -862,8 +881,11 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     // Measured (bench:contour targets 30 0 and 30 30 --thick): of the 19 perpendicular bands of symmetric
     // tops among the 60 thick seeded bands, 11 missed a target, most with A′(1 − ζ) − B′ (C′(1 − ζ) − B′)
     // or B′ − B″ 4.7–130σ off (every one with peak τ ≥ 3.5, 4 of 11 below it); of the 41 other bands, 1.
+    // On the independent thick trace of test/fixtures/independent_traces (a CH3I-like band, peak τ 3,
+    // residual 1.02× the noise) B′ and B″ came out 0.1–0.25 % off, 7–51σ, from starts 0.3–1 % off, while
+    // A′(1 − ζ) − B′ and B′ − B″ stayed within 1.5σ.
     warnings.push(
-      'Optically thick lines in a perpendicular band: on test bands like this the σ of A′(1 − ζ) − B′ (C′(1 − ζ) − B′) and B′ − B″ were often several times too small (the χ² valley is narrow and curved); check them with a fit from another start or another region.',
+      'Optically thick lines in a perpendicular band: on test bands like this the σ of A′(1 − ζ) − B′ (C′(1 − ζ) − B′), B′ − B″ and of B′ and B″ themselves were often several times too small, on one trace made independently of this program 50 times (χ² is rippled by the overlaps of saturated lines, and the fit stops in a ripple near its start); check them with a fit from another start or another region.',
     );
   }
   return {
