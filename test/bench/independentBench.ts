@@ -18,26 +18,7 @@ import { cliLoadTrace } from '../../src/cli/cliTrace';
 import { contourDefaultFloat, contourFit } from '../../src/fit/contourFit';
 import { noiseSigmaEstimate } from '../../src/analysis/noiseSigmaEstimate';
 import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
-import type { ApodizationName } from '../../src/physics/instrumentLineShape';
-
-/** One case of cases.json (the fields this bench reads). */
-export interface IndependentCase {
-  name: string;
-  shape: 'prolate' | 'oblate' | 'linear';
-  band: 'parallel' | 'perpendicular';
-  mass: number;
-  temperature: number;
-  lower: Record<string, number>;
-  upper: Record<string, number>;
-  spinWeights?: number[];
-  opd: number;
-  apodization: ApodizationName;
-  from: number;
-  to: number;
-  noiseSigmaAbsorbance: number;
-  peakTau?: number;
-  expect: { profile: 'PR' | 'PQR' | 'Q-series' | 'either' };
-}
+import type { IndependentCase } from '../cli/independentCase';
 
 const quietIo = {
   stdout: () => undefined,

@@ -9,26 +9,11 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { cliRunMemory } from './cliRunMemory';
+import type { IndependentCase } from './independentCase';
 
 const DIR = new URL('../fixtures/independent_traces/', import.meta.url);
 
-interface Case {
-  name: string;
-  shape: 'prolate' | 'oblate' | 'linear';
-  band: 'parallel' | 'perpendicular';
-  mass: number;
-  temperature: number;
-  lower: Record<string, number>;
-  upper: Record<string, number>;
-  spinWeights?: number[];
-  opd: number;
-  apodization: string;
-  from: number;
-  to: number;
-  noiseSigmaAbsorbance: number;
-  peakTau: number;
-  expect: { profile: 'PR' | 'PQR' | 'Q-series' };
-}
+type Case = IndependentCase;
 
 const cases = JSON.parse(readFileSync(new URL('cases.json', DIR), 'utf8')) as Case[];
 const byName = (name: string) => cases.find((c) => c.name === name)!;
@@ -131,7 +116,9 @@ function startModel(c: Case): string {
   });
 }
 
-async function contour(c: Case) {
+/** `contour` of a case from startModel, on its own trace or on the given text. */
+async function contour(c: Case, traceText?: string) {
+  const files = traceText === undefined ? traceFiles(c) : { [`${c.name}.csv`]: traceText };
   const r = await cliRunMemory(
     [
       'contour',
@@ -148,7 +135,7 @@ async function contour(c: Case) {
       '--apodization',
       c.apodization,
     ],
-    { ...traceFiles(c), 'm.json': startModel(c) },
+    { ...files, 'm.json': startModel(c) },
   );
   expect(r.code, r.stderr).toBe(0);
   return JSON.parse(r.stdout) as {
@@ -201,26 +188,7 @@ describe('contour on independently made traces', () => {
       .split('\n')
       .map((line, i) => (i === 0 ? line : line.replace(/,(.*)$/, (_, v: string) => `,${(Number(v) * 5000).toExponential(6)}`)))
       .join('\n');
-    const r = await cliRunMemory(
-      [
-        'contour',
-        '--model',
-        'm.json',
-        '--trace',
-        't.csv',
-        '--from',
-        String(c.from),
-        '--to',
-        String(c.to),
-        '--opd',
-        String(c.opd),
-        '--apodization',
-        c.apodization,
-      ],
-      { 't.csv': text, 'm.json': startModel(c) },
-    );
-    expect(r.code, r.stderr).toBe(0);
-    const out = JSON.parse(r.stdout) as { warnings: string[] };
+    const out = await contour(c, text);
     expect(out.warnings.join(' ')).toMatch(/The fit leaves [\d.]+× the noise/);
   }, 60_000);
 });
