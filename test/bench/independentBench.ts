@@ -65,7 +65,7 @@ function main(): void {
       B: Number(c.lower.B.toPrecision(3)),
       dBrel: Number(((c.upper.B / c.lower.B - 1) * 100).toFixed(2)),
       L: Number(c.opd.toFixed(2)),
-      thick: c.peakTau !== undefined,
+      thick: c.peakTau >= 0.5,
       expected: c.expect.profile,
     };
     try {
