@@ -385,7 +385,9 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   const warnings: string[] = [];
   const ln10 = Math.LN10;
   // Residuals are divided by the noise so the solver's step test (in σ units) means what it says.
-  const weight = 1 / (input.noiseSigma && input.noiseSigma > 0 ? input.noiseSigma : secondDifferenceSigma(y) || 1e-12);
+  // The noise σ given, or else from the trace's second differences (absorbance).
+  const noiseRef = input.noiseSigma && input.noiseSigma > 0 ? input.noiseSigma : secondDifferenceSigma(y);
+  const weight = 1 / (noiseRef || 1e-12);
   const t = new Float64Array(m);
   for (let i = 0; i < m; i++) t[i] = (2 * x[i] - fromCm1 - toCm1) / (toCm1 - fromCm1);
 
@@ -752,9 +754,8 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     const uniqueKey = model.shape === 'prolate' ? 'upper.A' : model.shape === 'oblate' ? 'upper.C' : null;
     const uniqueIndex = uniqueKey ? layout.modelKeys.indexOf(uniqueKey) : -1;
     if (uniqueIndex >= 0 && !input.shouldCancel?.()) {
-      const noiseAt = input.noiseSigma && input.noiseSigma > 0 ? input.noiseSigma : secondDifferenceSigma(y);
       const lowerUnique = model.shape === 'prolate' ? model.lower.A : model.lower.C;
-      if (noiseAt > 0 && Math.sqrt(post.chi2 / m) > UNIQUE_RESTART_NOISE * noiseAt && lowerUnique > 0) {
+      if (noiseRef > 0 && Math.sqrt(post.chi2 / m) > UNIQUE_RESTART_NOISE * noiseRef && lowerUnique > 0) {
         // From the start the user gave (the stuck point's other constants are often off too).
         const q = Float64Array.from(solution.parameters);
         layout.modelKeys.forEach((k, c) => (q[c] = getModelKey(input.model, k)));
@@ -888,7 +889,6 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   // A residual far above the noise: the model does not describe the trace, and σ from it describe
   // nothing. (Seen on a trace made elsewhere whose absorbance was scaled up after the instrument, so
   // that Doppler-limited lines would have to be optically thick: rms 29× the noise, with no word.)
-  const noiseRef = input.noiseSigma && input.noiseSigma > 0 ? input.noiseSigma : secondDifferenceSigma(y);
   const rmsOverNoise = noiseRef > 0 ? Math.sqrt(post.chi2 / m) / noiseRef : 0;
   if (rmsOverNoise > CONTOUR_MISFIT_WARN) {
     warnings.push(
