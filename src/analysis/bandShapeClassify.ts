@@ -235,6 +235,20 @@ function refinedPeaks(x: Float64Array, y: Float64Array, minProminence: number): 
   return peaks;
 }
 
+/** Least-squares straight line y ≈ my + slope·(x − mx): the means, Σ(x − mx)² and the slope (0 when the x are all equal). */
+function straightLine(xs: readonly number[], ys: readonly number[]): { mx: number; my: number; sxx: number; slope: number } {
+  const n = xs.length;
+  const mx = xs.reduce((a, v) => a + v, 0) / n;
+  const my = ys.reduce((a, v) => a + v, 0) / n;
+  let sxx = 0;
+  let sxy = 0;
+  for (let i = 0; i < n; i++) {
+    sxx += (xs[i] - mx) ** 2;
+    sxy += (xs[i] - mx) * (ys[i] - my);
+  }
+  return { mx, my, sxx, slope: sxx > 0 ? sxy / sxx : 0 };
+}
+
 /**
  * The spacing of resolved J lines at the band origin, cm^-1: neighbouring peaks whose gap is within
  * 0.7–1.4 of the comb's spacing give local spacings at their midpoints; a straight line through them
@@ -261,15 +275,7 @@ function jLineSpacingAtOrigin(
   }
   const m = mids.length;
   if (m < 4) return null;
-  const mx = mids.reduce((a, v) => a + v, 0) / m;
-  const my = gaps.reduce((a, v) => a + v, 0) / m;
-  let sxx = 0;
-  let sxy = 0;
-  for (let i = 0; i < m; i++) {
-    sxx += (mids[i] - mx) ** 2;
-    sxy += (mids[i] - mx) * (gaps[i] - my);
-  }
-  const slope = sxx > 0 ? sxy / sxx : 0;
+  const { mx, my, sxx, slope } = straightLine(mids, gaps);
   const at0 = my - slope * mx;
   let rss = 0;
   for (let i = 0; i < m; i++) rss += (gaps[i] - (at0 + slope * mids[i])) ** 2;
@@ -318,15 +324,10 @@ function combOf(peaks: Peak[]): { spacing: number; members: Peak[]; regularity: 
   if (regularity >= 0.6) return { spacing: d, members: peaks, regularity };
   const single = diffs.map((_, i) => i).filter((i) => Math.abs(diffs[i] - d) < 0.35 * d);
   if (single.length < 12) return null;
-  const mx = single.reduce((a, i) => a + mids[i], 0) / single.length;
-  const my = single.reduce((a, i) => a + diffs[i], 0) / single.length;
-  let sxx = 0;
-  let sxy = 0;
-  for (const i of single) {
-    sxx += (mids[i] - mx) ** 2;
-    sxy += (mids[i] - mx) * (diffs[i] - my);
-  }
-  const slope = sxx > 0 ? sxy / sxx : 0;
+  const { mx, my, slope } = straightLine(
+    single.map((i) => mids[i]),
+    single.map((i) => diffs[i]),
+  );
   let rss = 0;
   for (const i of single) rss += (diffs[i] - my - slope * (mids[i] - mx)) ** 2;
   if (!(Math.sqrt(rss / single.length) <= 0.03 * d)) return null;
