@@ -18,7 +18,7 @@ import { cliLoadTrace } from '../../src/cli/cliTrace';
 import { contourDefaultFloat, contourFit } from '../../src/fit/contourFit';
 import { noiseSigmaEstimate } from '../../src/analysis/noiseSigmaEstimate';
 import { stateConstantsFrom, type BandModel } from '../../src/physics/model';
-import type { IndependentCase } from '../cli/independentCase';
+import { independentJMax, type IndependentCase } from '../cli/independentCase';
 
 const quietIo = {
   stdout: () => undefined,
@@ -29,9 +29,7 @@ const quietIo = {
 
 /** The model of a case (its truth), with J and K ranges to where its lines fade. */
 export function independentModel(c: IndependentCase): BandModel {
-  const uniqueLo = c.lower.A ?? c.lower.C;
-  const bMin = Math.min(c.lower.B, uniqueLo ?? Infinity);
-  const jMax = Math.ceil(Math.sqrt((11.5 * c.temperature) / 1.4388 / bMin)) + 3;
+  const jMax = independentJMax(c);
   return {
     shape: c.shape,
     band: c.band,
