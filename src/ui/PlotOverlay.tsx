@@ -219,10 +219,10 @@ export function PlotOverlay(props: PlotOverlayProps) {
       bctx.clearRect(0, 0, cssW, cssH);
       let rungsDrawn = 0;
       if (lv) {
-        // Row names come from an image kept while the scene and the panel's vertical placement stay:
+        // Row names and base lines come from an image kept while the scene and the panel's placement stay:
         // a zoom or pan then copies one bitmap instead of painting a hundred names (fillText is the
         // costly canvas call; five bands have many rows).
-        const key = `${canvas.width}x${canvas.height}|${dpr}|${lv.leftPx}|${lv.topPx}|${lv.heightPx}|${lv.y0}|${lv.y1}|${p.isDark}`;
+        const key = `${canvas.width}x${canvas.height}|${dpr}|${lv.leftPx}|${lv.topPx}|${lv.widthPx}|${lv.heightPx}|${lv.y0}|${lv.y1}|${p.isDark}`;
         const cached = labelsRef.current;
         let image = cached && cached.scene === p.scene && cached.key === key ? cached.image : null;
         if (!image) {

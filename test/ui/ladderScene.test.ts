@@ -257,8 +257,9 @@ describe('ladderScenePaint', () => {
     const rec = paintRecorder();
     const drawn = ladderScenePaint(rec.ctx, scene, null, -1, view, theme);
     expect(drawn).toBe(scene.nuCm1.length);
-    // Series base lines are the bars as thick as a rung is wide (1.6 or 2.2 px); the rest are rungs.
-    const bars = rec.rects.filter((r) => !scene.groups.some((g) => g.widthPx === r.h));
+    // Series base lines are the bars as thick as a rung is wide (1.6 or 2.2 px), the rows' base lines
+    // those in the grid colour; the rest are rungs.
+    const bars = rec.rects.filter((r) => r.colour !== theme.grid && !scene.groups.some((g) => g.widthPx === r.h));
     expect(bars.length).toBe(drawn);
     expect(rec.segments).toEqual([]);
     for (let k = 0; k < scene.nuCm1.length; k++) {
@@ -317,7 +318,7 @@ describe('ladderScenePaint', () => {
     for (const end of ends.values()) expect(end).toBeCloseTo(view.leftPx - 6, 9);
   });
 
-  it('paints the row names alone (for a kept image) exactly as with the rungs, and leaves them out when told', () => {
+  it('paints the row names and base lines alone (for a kept image) exactly as with the rungs, and leaves them out when told', () => {
     const { lines, rows, scene } = setUp();
     const view = fullView(lines, rows.length);
     const whole = paintRecorder();
@@ -327,11 +328,14 @@ describe('ladderScenePaint', () => {
     expect(names.texts.length).toBeGreaterThan(0);
     expect(names.texts).toEqual(whole.texts);
     expect(names.segments).toEqual([]);
-    expect(names.rects).toEqual([]);
+    // One base line per row: 1 px high at the row's centre (to the pixel), across the panel, grid colour.
+    expect(names.rects).toEqual(
+      rows.map((r) => ({ x: view.leftPx, y: Math.round(py(view, r.y)), w: view.widthPx, h: 1, colour: theme.grid })),
+    );
     const bare = paintRecorder();
     expect(ladderScenePaint(bare.ctx, scene, null, -1, view, theme, false)).toBe(scene.nuCm1.length);
     expect(bare.texts).toEqual([]);
-    expect(bare.rects).toEqual(whole.rects);
+    expect([...names.rects, ...bare.rects]).toEqual(whole.rects);
   });
 
   it('leaves out rungs outside the visible range', () => {

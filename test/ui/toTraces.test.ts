@@ -45,7 +45,7 @@ describe('spectrumFigure', () => {
     a.y.forEach((v, i) => expect(t.y[i]).toBeCloseTo(10 ** -v, 14));
   });
 
-  it('gives the ladder axis above the trace one grid line per row and no plotly data (rungs and peaks are painted on the overlay)', () => {
+  it('gives the ladder axis above the trace no plotly data, grid lines or tick labels (rows, rungs and peaks are painted on the overlay)', () => {
     const inp = input();
     const { data, layout } = spectrumFigure(inp);
     expect(kinds(data)).toEqual(['trace', 'ladder-axis']);
@@ -53,10 +53,13 @@ describe('spectrumFigure', () => {
     expect(axisTrace.x).toEqual([]);
     expect(axisTrace.yaxis).toBe('y2');
     const y = layout.yaxis as { domain: number[] };
-    const y2 = layout.yaxis2 as { domain: number[]; tickvals: number[]; showticklabels: boolean };
+    const y2 = layout.yaxis2 as { domain: number[]; range: number[]; showticklabels: boolean; showgrid: boolean };
     expect(y2.domain[0]).toBeGreaterThan(y.domain[1]);
-    expect(y2.tickvals).toEqual(inp.rows.map((r) => r.y));
+    // Every row's centre (0 … rows − 1) lies inside the axis range, half a row from its ends.
+    expect(y2.range[0]).toBeLessThan(Math.min(...inp.rows.map((r) => r.y)));
+    expect(y2.range[1]).toBeGreaterThan(Math.max(...inp.rows.map((r) => r.y)));
     expect(y2.showticklabels).toBe(false);
+    expect(y2.showgrid).toBe(false);
   });
 
   it('has no shapes but the reviewed proposal (the vertical marks of clicks are the overlay’s, plotMarks)', () => {

@@ -186,14 +186,11 @@ export function spectrumFigure(input: SpectrumFigureInput): { data: Data[]; layo
       ...axisCommon,
       domain: [traceTop + 0.03, 1],
       range: [-0.6, Math.max(nRows, 1) - 0.4],
-      tickmode: 'array',
-      tickvals: input.rows.map((r) => r.y),
       // The row names are painted with the rungs (ladderScene): 30-odd rich-text tick labels were
       // a third of every plotly redraw.
       showticklabels: false,
-      // Grid lines at the row centres serve as the rows' base lines.
-      showgrid: true,
-      gridcolor: theme.grid,
+      // The rows' base lines are painted with the row names too (ladderLabelsPaint), not as grid lines.
+      showgrid: false,
       zeroline: false,
       fixedrange: true,
     },
