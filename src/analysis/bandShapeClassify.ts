@@ -337,6 +337,21 @@ function combOf(peaks: Peak[]): { spacing: number; members: Peak[]; regularity: 
 }
 
 /**
+ * The points of an ascending axis that bandShapeClassify reads for a region: indices i0 (first at
+ * or above fromCm1) to i1 (one past the last at or below toCm1). No point outside them is read, so a
+ * caller may pass that slice alone.
+ * @param fromCm1 region start, cm^-1
+ * @param toCm1 region end, cm^-1
+ */
+export function classifyRegionIndices(wavenumberCm1: Float64Array, fromCm1: number, toCm1: number): [number, number] {
+  let i0 = 0;
+  while (i0 < wavenumberCm1.length && wavenumberCm1[i0] < fromCm1) i0++;
+  let i1 = i0;
+  while (i1 < wavenumberCm1.length && wavenumberCm1[i1] <= toCm1) i1++;
+  return [i0, i1];
+}
+
+/**
  * Classify the shape of a band in a trace region and estimate its origin, B and Q-branch spacing.
  *
  * Method (thresholds are common practice, chosen here): a linear baseline through the region's
@@ -380,10 +395,7 @@ export function bandShapeClassify(
   if (!(T > 0) || !Number.isFinite(T)) throw new Error(`${fn}: temperature must be > 0 K, got ${T}`);
   if (options.opdCm !== undefined && !(options.opdCm > 0 && Number.isFinite(options.opdCm)))
     throw new Error(`${fn}: opd must be > 0 cm, got ${options.opdCm}`);
-  let i0 = 0;
-  while (i0 < wavenumberCm1.length && wavenumberCm1[i0] < fromCm1) i0++;
-  let i1 = i0;
-  while (i1 < wavenumberCm1.length && wavenumberCm1[i1] <= toCm1) i1++;
+  const [i0, i1] = classifyRegionIndices(wavenumberCm1, fromCm1, toCm1);
   const n = i1 - i0;
   if (n < 20) throw new Error(`${fn}: the region ${fromCm1} … ${toCm1} cm^-1 holds ${n} trace points; at least 20 are needed`);
   const x = wavenumberCm1.slice(i0, i1);

@@ -4,19 +4,18 @@
  * the low-resolution demo. Computation lives in analysis/ and fit/; these only read the store, call
  * it and write the results back.
  */
-import { bandShapeClassify } from '../analysis/bandShapeClassify';
 import { bandShapeStartModel } from '../analysis/bandShapeStartModel';
 import { qBranchAssign, qBranchFind } from '../analysis/qBranchFind';
 import { contourDefaultFloat } from '../fit/contourFit';
 import { qBranchFit } from '../fit/qBranchFit';
 import { modelFileParse } from '../io/modelFile';
 import type { ApodizationName } from '../physics/instrumentLineShape';
-import { bandShapeClassifyRun, contourFitRun } from '../workers/contourClient';
+import { bandShapeClassifyRun, classifyInputOf, contourFitRun } from '../workers/contourClient';
 import { benchUpdate, messagePost } from './actionsCore';
 import { traceOpenAsking } from './actionsImport';
 import { modelReplace } from './actionsModel';
 import { confirmAsk } from './actionsSession';
-import type { ContourFitState, ContourQMaximum, ContourRefineState } from './contourSlice';
+import { contourSliceInitial, type ContourFitState, type ContourQMaximum, type ContourRefineState } from './contourSlice';
 import { benchStore } from './store';
 
 const set = (patch: Parameters<typeof benchUpdate>[1]) => benchUpdate('unresolved band', patch, { history: false });
@@ -63,23 +62,43 @@ export function contourSetApodization(name: ApodizationName): void {
   set(() => ({ contourApodization: name }));
 }
 
-/** Diagnose the band shape of the region at the model's temperature. */
-export function contourDiagnose(): void {
+let diagnoseAbort: AbortController | null = null;
+let refineAbort: AbortController | null = null;
+
+/**
+ * Diagnose the band shape of the region at the model's temperature, in the contour worker (a heavy
+ * parallel band's envelope fits took 300 ms of the page's main thread). A diagnosis already running
+ * is replaced; a running contour fit goes on. The diagnosis shown stays until the new one arrives.
+ */
+export async function contourDiagnose(): Promise<void> {
   const s = benchStore.getState();
   const region = contourRegionOf();
   if (!s.trace || !region) {
     set(() => ({ contourDiagnosis: null, contourDiagnosisError: 'Load a trace first.' }));
     return;
   }
+  diagnoseAbort?.abort();
+  refineAbort?.abort();
+  const ctrl = new AbortController();
+  diagnoseAbort = ctrl;
+  set(() => ({ contourDiagnosing: true }));
   try {
-    const d = bandShapeClassify(s.trace.wavenumberCm1, s.trace.absorbance, region[0], region[1], { temperatureK: s.model.temperatureK });
-    set(() => ({ contourDiagnosis: d, contourDiagnosisError: null }));
+    const d = await bandShapeClassifyRun(
+      classifyInputOf(s.trace, region[0], region[1], { temperatureK: s.model.temperatureK }),
+      ctrl.signal,
+    );
+    // A diagnosis through the instrument stopped by this one is forgotten with the diagnosis it refined.
+    set(() => ({ contourDiagnosis: d, contourDiagnosisError: null, contourRefine: contourSliceInitial().contourRefine }));
   } catch (err) {
-    set(() => ({ contourDiagnosis: null, contourDiagnosisError: (err as Error).message.replace(/^bandShapeClassify: /, '') }));
+    if ((err as Error).name !== 'AbortError')
+      set(() => ({ contourDiagnosis: null, contourDiagnosisError: (err as Error).message.replace(/^bandShapeClassify: /, '') }));
+  } finally {
+    if (diagnoseAbort === ctrl) {
+      diagnoseAbort = null;
+      set(() => ({ contourDiagnosing: false }));
+    }
   }
 }
-
-let refineAbort: AbortController | null = null;
 
 /**
  * Diagnose the band shape again through the spectrometer (L and apodization of the tab), in the
@@ -95,23 +114,18 @@ export async function contourDiagnoseThroughInstrument(): Promise<void> {
     return;
   }
   refineAbort?.abort();
+  diagnoseAbort?.abort();
   const ctrl = new AbortController();
   refineAbort = ctrl;
   setRefine({ status: 'running', runsDone: 0, runsPlanned: 0, error: null });
   try {
     const d = await bandShapeClassifyRun(
-      {
-        wavenumberCm1: s.trace.wavenumberCm1,
-        absorbance: s.trace.absorbance,
-        fromCm1: region[0],
-        toCm1: region[1],
-        options: {
-          temperatureK: s.model.temperatureK,
-          opdCm: s.contourOpdCm,
-          apodization: s.contourApodization,
-          spinWeights: s.model.spinWeights,
-        },
-      },
+      classifyInputOf(s.trace, region[0], region[1], {
+        temperatureK: s.model.temperatureK,
+        opdCm: s.contourOpdCm,
+        apodization: s.contourApodization,
+        spinWeights: s.model.spinWeights,
+      }),
       ctrl.signal,
       (runsDone, runsPlanned) => setRefine({ runsDone, runsPlanned }),
     );

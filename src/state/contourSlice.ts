@@ -49,6 +49,8 @@ export interface ContourSlice {
   contourDiagnosis: BandShapeClassification | null;
   /** Why the last diagnosis was refused. */
   contourDiagnosisError: string | null;
+  /** A diagnosis (contourDiagnose) is running in the worker. */
+  contourDiagnosing: boolean;
   /** The diagnosis through the instrument (contourDiagnoseThroughInstrument). */
   contourRefine: ContourRefineState;
   contourFit: ContourFitState;
@@ -65,6 +67,7 @@ export function contourSliceInitial(): ContourSlice {
     contourApodization: 'boxcar',
     contourDiagnosis: null,
     contourDiagnosisError: null,
+    contourDiagnosing: false,
     contourRefine: { status: 'idle', runsDone: 0, runsPlanned: 0, error: null },
     contourFit: { status: 'idle', stage: 0, iteration: 0, rms: NaN, result: null, error: null, trace: null },
     contourQMaxima: [],

@@ -116,13 +116,16 @@ function DiagnosisBox() {
   const d = useBench((s) => s.contourDiagnosis);
   const error = useBench((s) => s.contourDiagnosisError);
   const temperature = useBench((s) => s.model.temperatureK);
+  const running = useBench((s) => s.contourDiagnosing);
   return (
-    <div className="contour-diagnosis" data-testid="contour-diagnosis">
+    <div className="contour-diagnosis" data-testid="contour-diagnosis" data-running={running}>
       <div className="row">
-        <button type="button" onClick={contourDiagnose} data-testid="contour-diagnose">
-          Diagnose band shape
+        <button type="button" onClick={() => void contourDiagnose()} data-testid="contour-diagnose">
+          {running ? 'Diagnose again' : 'Diagnose band shape'}
         </button>
-        <span className="muted small">at the model’s temperature, {temperature} K</span>
+        <span className="muted small" role="status">
+          {running ? 'diagnosing in the background…' : `at the model’s temperature, ${temperature} K`}
+        </span>
       </div>
       {error && <p className="inline-error">{error}</p>}
       {d && (

@@ -1,14 +1,17 @@
 /**
  * The only place that creates the contour worker. `contourFitRun` runs contourFit and
  * `bandShapeClassifyRun` the band-shape diagnosis off the main thread, one worker per job; aborting
- * (or starting another job) terminates the running worker, which stops the job at once however long
- * its current evaluation takes.
+ * (or starting another job of the same kind) terminates the running worker, which stops the job at
+ * once however long its current evaluation takes. A fit and a diagnosis run side by side: diagnosing
+ * another region while a fit runs does not stop the fit.
  */
-import type { BandShapeClassification } from '../analysis/bandShapeClassify';
+import { classifyRegionIndices, type BandShapeClassification } from '../analysis/bandShapeClassify';
 import type { ContourFitResult } from '../fit/contourFit';
 import type { ClassifyWorkerInput, ContourResponse, ContourWorkerInput, ContourWorkerRequest } from './contourProtocol';
 
-let running: { worker: Worker; stop: () => void } | null = null;
+/** The two kinds of job; one of each may run at a time. */
+type JobKind = 'fit' | 'diagnosis';
+const running: Record<JobKind, { worker: Worker; stop: () => void } | null> = { fit: null, diagnosis: null };
 let nextId = 1;
 
 function abortError(what: string): Error {
@@ -20,18 +23,19 @@ function abortError(what: string): Error {
 // Post one request to a fresh worker; `onMessage` returns the result (settling the promise) or
 // undefined for progress.
 function workerRun<T>(
+  kind: JobKind,
   what: string,
   request: (id: number) => ContourWorkerRequest,
   onMessage: (msg: ContourResponse) => { result: T } | undefined,
   signal?: AbortSignal,
 ): Promise<T> {
-  running?.stop();
+  running[kind]?.stop();
   if (signal?.aborted) return Promise.reject(abortError(what));
   const worker = new Worker(new URL('./contour.worker.ts', import.meta.url), { type: 'module' });
   const id = nextId++;
   return new Promise<T>((resolve, reject) => {
     const finish = () => {
-      if (running?.worker === worker) running = null;
+      if (running[kind]?.worker === worker) running[kind] = null;
       worker.terminate();
       signal?.removeEventListener('abort', onAbort);
     };
@@ -58,7 +62,7 @@ function workerRun<T>(
       reject(new Error(`the contour worker failed: ${event.message}`));
     };
     signal?.addEventListener('abort', onAbort);
-    running = { worker, stop: onAbort };
+    running[kind] = { worker, stop: onAbort };
     worker.postMessage(request(id));
   });
 }
@@ -76,6 +80,7 @@ export function contourFitRun(
   onProgress?: (stage: number, iteration: number, rms: number) => void,
 ): Promise<ContourFitResult> {
   return workerRun<ContourFitResult>(
+    'fit',
     'contour fit',
     (id) => ({ type: 'contour', id, input }),
     (msg) => {
@@ -88,7 +93,8 @@ export function contourFitRun(
 
 /**
  * Diagnose a band's shape in a worker (with options.opdCm, a Q-branch series also gets its contour fit
- * for B, several seconds).
+ * for B, several seconds). A diagnosis already running is stopped; a contour fit is not.
+ * @param input the trace may be the region alone (classifyInputOf): bandShapeClassify reads no point outside it
  * @param signal aborting it terminates the worker and rejects with an AbortError
  * @param onProgress called with (runs done, runs planned) after each run of the contour fit
  * @returns the diagnosis; rejects with bandShapeClassify's own message when it refuses
@@ -99,6 +105,7 @@ export function bandShapeClassifyRun(
   onProgress?: (runsDone: number, runsPlanned: number) => void,
 ): Promise<BandShapeClassification> {
   return workerRun<BandShapeClassification>(
+    'diagnosis',
     'band-shape diagnosis',
     (id) => ({ type: 'classify', id, input }),
     (msg) => {
@@ -107,4 +114,20 @@ export function bandShapeClassifyRun(
     },
     signal,
   );
+}
+
+/**
+ * The diagnosis request for a region of a trace, carrying only the trace's points inside the region
+ * (those bandShapeClassify reads): a 1e6-point trace is not copied to the worker for a band of 2,000.
+ * @param fromCm1 region start, cm^-1
+ * @param toCm1 region end, cm^-1
+ */
+export function classifyInputOf(
+  trace: { wavenumberCm1: Float64Array; absorbance: Float64Array },
+  fromCm1: number,
+  toCm1: number,
+  options: ClassifyWorkerInput['options'],
+): ClassifyWorkerInput {
+  const [i0, i1] = classifyRegionIndices(trace.wavenumberCm1, fromCm1, toCm1);
+  return { wavenumberCm1: trace.wavenumberCm1.slice(i0, i1), absorbance: trace.absorbance.slice(i0, i1), fromCm1, toCm1, options };
 }

@@ -172,6 +172,14 @@ describe('unresolved-band tab', () => {
     await expect.poll(() => page.locator('[data-testid=undo]').getAttribute('title'), { timeout: 20_000 }).toMatch(/starting model/);
     const fitBox = page.locator('[data-testid=contour-fit]');
     await page.locator('[data-testid=contour-fit-start]').click();
+    // The diagnosis runs in the worker beside the fit: asked for again while the fit runs, it comes
+    // back (the same reading) and the fit goes on to its end.
+    await expect.poll(() => fitBox.getAttribute('data-status'), { timeout: 20_000 }).toBe('running');
+    await page.locator('[data-testid=contour-diagnose]').click();
+    await page.waitForSelector('[data-testid=contour-diagnosis][data-running=true]', { timeout: 10_000 });
+    await page.waitForSelector('[data-testid=contour-diagnosis][data-running=false]', { timeout: 60_000 });
+    expect(await profile.getAttribute('data-profile')).toBe('PR');
+    expect(await fitBox.getAttribute('data-status')).not.toBe('cancelled');
     await expect.poll(() => fitBox.getAttribute('data-status'), { timeout: 300_000, interval: 500 }).toBe('done');
     await page.screenshot({ path: `${SHOTS}/contour-real-hc3n-nu1.png`, fullPage: true });
     // The fitted contour leaves the noise: rms within 1.5× its σ (the simulation target of issue 18).
