@@ -53,7 +53,7 @@ export interface ContourFitInput {
    * instrument line shape), for a trace whose absolute line strengths are unknown. @default 'auto'
    */
   route?: InstrumentRoute | 'auto';
-  /** Iteration limit of the main stage. @default 40 */
+  /** Iteration limit of the main stage, a whole number ≥ 1. @default 40 */
   maxIterations?: number;
   /**
    * After the fit, walk χ² along the principal axes of the constants' error ellipsoid (±2σ, farther
@@ -361,6 +361,8 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   const apodization = input.apodization ?? 'boxcar';
   const degree = input.baselineDegree ?? 1;
   if (!Number.isInteger(degree) || degree < 0 || degree > 6) throw new Error(`${fn}: baseline degree must be 0 … 6, got ${degree}`);
+  if (input.maxIterations !== undefined && !(Number.isInteger(input.maxIterations) && input.maxIterations >= 1))
+    throw new Error(`${fn}: maxIterations must be a whole number ≥ 1, got ${input.maxIterations}`);
   let i0 = 0;
   while (i0 < input.wavenumberCm1.length && input.wavenumberCm1[i0] < fromCm1) i0++;
   let i1 = i0;

@@ -37,7 +37,7 @@ function roundTrip(
 }
 
 describe('contourFit', () => {
-  it('refuses an empty region and unknown float keys with messages naming them', () => {
+  it('refuses an empty region, unknown float keys and an iteration limit below 1 with messages naming them', () => {
     const c = traceGenerate({
       shape: 'linear',
       band: 'parallel',
@@ -54,6 +54,11 @@ describe('contourFit', () => {
     expect(() => contourFit({ ...base, fromCm1: 10, toCm1: 5 })).toThrow(/to > from/);
     expect(() => contourFit({ ...base, fromCm1: 10, toCm1: 11 })).toThrow(/holds 0 trace points/);
     expect(() => contourFit({ ...base, fromCm1: c.fromCm1, toCm1: c.toCm1, float: ['upper.A'] })).toThrow(/cannot float 'upper.A'/);
+    // An iteration limit of 0 (or not a whole number) has no fit to report: refused, not a crash later.
+    for (const maxIterations of [0, -1, 2.5, NaN])
+      expect(() => contourFit({ ...base, fromCm1: c.fromCm1, toCm1: c.toCm1, maxIterations })).toThrow(
+        /maxIterations must be a whole number ≥ 1/,
+      );
   });
 
   it('recovers a heavy prolate perpendicular band: A′(1 − ζ) − B′ and the origin within 4σ', () => {
