@@ -87,6 +87,8 @@ export async function contourDiagnose(): Promise<void> {
       classifyInputOf(s.trace, region[0], region[1], { temperatureK: s.model.temperatureK }),
       ctrl.signal,
     );
+    // A diagnosis of a trace no longer open is dropped.
+    if (benchStore.getState().trace !== s.trace) return;
     // A diagnosis through the instrument stopped by this one is forgotten with the diagnosis it refined.
     set(() => ({ contourDiagnosis: d, contourDiagnosisError: null, contourRefine: contourSliceInitial().contourRefine }));
   } catch (err) {
@@ -130,7 +132,7 @@ export async function contourDiagnoseThroughInstrument(): Promise<void> {
       (runsDone, runsPlanned) => setRefine({ runsDone, runsPlanned }),
     );
     if (refineAbort === ctrl) refineAbort = null;
-    set(() => ({ contourDiagnosis: d, contourDiagnosisError: null }));
+    if (benchStore.getState().trace === s.trace) set(() => ({ contourDiagnosis: d, contourDiagnosisError: null }));
     setRefine({ status: 'idle' });
   } catch (err) {
     if (refineAbort === ctrl) refineAbort = null;
