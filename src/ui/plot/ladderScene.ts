@@ -487,7 +487,8 @@ export function viewMaps(view: LadderView): { px: (nu: number) => number; py: (y
  * ladder panel, right-aligned 6 px from its edge. Both depend on the panel's placement only, not on
  * the visible wavenumber range (a caller may keep the result as an image between zooms). The base
  * lines were plotly grid lines: a hundred rows of five bands made a hundred SVG paths that every
- * zoom step laid out and painted again (five-band redraw p95 65–70 → 51–54 ms, bench:browser).
+ * zoom step laid out and painted again (five-band redraw median 44–46 → 41–44 ms over five alternating
+ * runs of bench:browser; its p95 spreads over 50–70 ms on either build).
  * @param ctx a 2D context already scaled to CSS px
  * @param view the panel's window (its x range is not used)
  */
