@@ -125,8 +125,15 @@ export interface ContourFitResult {
 /** Relative singular value under which the contour is taken as unable to fix a direction. */
 export const CONTOUR_RANK_TOLERANCE = 1e-6;
 
-/** Residual rms over the noise σ above which the fit is run again from a grid of A′ (C′) about A″ (C″) (chosen here). */
-const UNIQUE_RESTART_NOISE = 1.5;
+/**
+ * Residual rms over the noise σ above which the fit is run again from a grid of A′ (C′) about A″ (C″):
+ * for a band whose lines are weak at their own width, and for one whose lines are optically thick
+ * there (peak optical depth ≥ UNIQUE_RESTART_THICK_DEPTH) (chosen here, measured: see where they are used).
+ */
+const UNIQUE_RESTART_NOISE = { weak: 1.03, thick: 1.5 };
+
+/** Peak optical depth of the lines at their own width (fitted scale) from which a band counts as thick for UNIQUE_RESTART_NOISE. */
+const UNIQUE_RESTART_THICK_DEPTH = 0.5;
 
 /** Residual rms over the noise σ above which the fit says the model does not describe the trace (chosen here). */
 export const CONTOUR_MISFIT_WARN = 2;
@@ -416,7 +423,11 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
 
   // Start values: scale and baseline by linear least squares of y ≈ s·band + Σ c_k t^k with the
   // start model's band in the weak limit.
-  const unit = bandAt(model, lorentz, 1, 'linear').opticalDepth;
+  const unitBand = bandAt(model, lorentz, 1, 'linear');
+  const unit = unitBand.opticalDepth;
+  // The start model's peak depth at the lines' own width scales with the intensity scale (weak limit).
+  const restartNoiseOf = () =>
+    scale * unitBand.peakDepth >= UNIQUE_RESTART_THICK_DEPTH ? UNIQUE_RESTART_NOISE.thick : UNIQUE_RESTART_NOISE.weak;
   let unitMax = 0;
   for (let i = 0; i < m; i++) unitMax = Math.max(unitMax, unit[i] / ln10);
   if (!(unitMax > 0)) throw new Error(`${fn}: the model has no lines in ${fromCm1} … ${toCm1} cm^-1 (check the origin and the region)`);
@@ -756,11 +767,19 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     // only if it ends lower, then from A′ = A″ while still above. Of the 13 weak and 6 thick bands that
     // missed, A′ = A″ alone brought 3 and 1 to the targets, the grid and then A′ = A″ 7 and 4; seeded
     // targets (bench:contour targets 60, 30 --thick, 30 30 --thick) moved by at most one band each way.
+    // For a band whose lines are weak at their own width it runs from 1.03× the noise: four weak oblate
+    // bands of those 150 had stopped at 1.01–1.63× with the origin or B 2–16σ off, and reached 0.99–1.03×
+    // and 0.2–1.9σ (random bands 15, 87, 101, 111; seeded thin targets unchanged). For optically thick
+    // lines it stays at 1.5×: there a fit at 0.85× lower rms moved a thick perpendicular band's
+    // combinations from 0.5 and 3.7σ to 6.9 and 17σ (seeded thick band 23; χ² of saturated lines
+    // ripples, and its σ are known to be too small, see the warning below). The depth is the start
+    // model's at the fitted scale (weak bands above: 0.01–0.04; thick ones 1.5 and more).
+    const restartNoise = restartNoiseOf();
     const uniqueKey = model.shape === 'prolate' ? 'upper.A' : model.shape === 'oblate' ? 'upper.C' : null;
     const uniqueIndex = uniqueKey ? layout.modelKeys.indexOf(uniqueKey) : -1;
     if (uniqueIndex >= 0 && !input.shouldCancel?.()) {
       const lowerUnique = model.shape === 'prolate' ? model.lower.A : model.lower.C;
-      if (noiseRef > 0 && Math.sqrt(post.chi2 / m) > UNIQUE_RESTART_NOISE * noiseRef && lowerUnique > 0) {
+      if (noiseRef > 0 && Math.sqrt(post.chi2 / m) > restartNoise * noiseRef && lowerUnique > 0) {
         // From the start the user gave (the stuck point's other constants are often off too), with
         // A′ on a grid of A″·(1 + δ), δ = −1.5 … +1 % in 0.1 % steps, profiled (scale and baseline
         // re-fitted); the fit is run again from the lowest.
@@ -781,7 +800,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
         // Then, while still above that, from A′ = A″ itself (random band 114: the grid's best led only a
         // little down, A′ = A″ to the noise). Each is kept only if it ends lower.
         for (const from of [best?.p, equal]) {
-          if (!from || input.shouldCancel?.() || !(Math.sqrt(post.chi2 / m) > UNIQUE_RESTART_NOISE * noiseRef)) continue;
+          if (!from || input.shouldCancel?.() || !(Math.sqrt(post.chi2 / m) > restartNoise * noiseRef)) continue;
           if (fitAgainFrom(from)) uniqueRestart = true;
         }
       }
@@ -901,7 +920,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   if (uniqueRestart) {
     const u = model.shape === 'prolate' ? 'A' : 'C';
     warnings.push(
-      `The fit first stopped at more than ${UNIQUE_RESTART_NOISE}× the noise; run again from the best ${u}′ between ${u}″ − 1.5 % and ${u}″ + 1 % it ended lower (a start of ${u}′ a few tenths of a per cent off moves the high-K sub-bands by several cm^-1).`,
+      `The fit first stopped at more than ${restartNoiseOf()}× the noise; run again from the best ${u}′ between ${u}″ − 1.5 % and ${u}″ + 1 % it ended lower (a start of ${u}′ a few tenths of a per cent off moves the high-K sub-bands by several cm^-1).`,
     );
   }
   if (solution.status === 'max-iterations')

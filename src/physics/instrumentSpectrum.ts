@@ -54,6 +54,11 @@ export interface InstrumentSpectrumResult {
    * points and were sampled coarser than a third of the Voigt FWHM: saturation is then approximate.
    */
   isUnderResolved: boolean;
+  /**
+   * Estimated largest optical depth of the lines at their own (Voigt) width, before the instrument:
+   * what the 'auto' route compares with LINEAR_ROUTE_MAX_DEPTH (dimensionless).
+   */
+  peakDepth: number;
 }
 
 /** Largest estimated peak optical depth for which the 'auto' route applies the ILS to τ directly. */
@@ -155,12 +160,8 @@ export function instrumentSpectrum(lines: SpectrumLines, xCm1: Float64Array, opt
   const fwhmVoigt = lineShapeVoigtFwhm(2 * gamma, 2 * alpha);
 
   const requested = options.route ?? 'auto';
-  const route: InstrumentRoute =
-    requested !== 'auto'
-      ? requested
-      : peakDepthEstimate(lines, lo, hi, fwhmVoigt, scale) < LINEAR_ROUTE_MAX_DEPTH
-        ? 'linear'
-        : 'transmittance';
+  const peakDepth = peakDepthEstimate(lines, lo, hi, fwhmVoigt, scale);
+  const route: InstrumentRoute = requested !== 'auto' ? requested : peakDepth < LINEAR_ROUTE_MAX_DEPTH ? 'linear' : 'transmittance';
 
   // Internal grid (step 0.025/L): data over [lo, hi], then as many zeros again (half on each side)
   // so the circular convolution wraps nothing but zeros into the range.
@@ -216,7 +217,7 @@ export function instrumentSpectrum(lines: SpectrumLines, xCm1: Float64Array, opt
       out[i] = -Math.log(Math.max(1 - cubicAt(buf, g0, step, xCm1[i]), 1e-12));
     }
   }
-  return { opticalDepth: out, route, fineStepCm1: step, finePoints: nFine, isUnderResolved };
+  return { opticalDepth: out, route, fineStepCm1: step, finePoints: nFine, isUnderResolved, peakDepth };
 }
 
 /**

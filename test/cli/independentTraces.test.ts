@@ -56,7 +56,7 @@ describe('classify on independently made traces', () => {
     }
   });
 
-  it('gives B within 10 % on every P/R band but the two oblate ones, which it rates low', async () => {
+  it('gives B within 10 % on every P/R band but the three oblate ones, which it rates low', async () => {
     const misses: string[] = [];
     for (const c of cases.filter((x) => x.expect.profile !== 'Q-series')) {
       const r = await classify(c);
@@ -66,8 +66,10 @@ describe('classify on independently made traces', () => {
     // Π–Σ band does: read as Π–Σ, rated low, B twice the truth (inside the wide range given). The
     // oblate perpendicular band, its Q branches merged, is read as a parallel band, rated low, B 15 %
     // high (2 % before B′ ≠ B″ envelopes were tried, which 8 more of the 641 seeded and 4 more of 128
-    // independently made random P/R bands needed).
-    expect(misses).toEqual(['oblate_par (low)', 'oblate_perp (low)']);
+    // independently made random P/R bands needed). random_87, kept for the contour fit below, is another
+    // oblate perpendicular band with its Q branches merged: read as parallel, rated low, B −46 % (the
+    // truth inside the range given).
+    expect(misses).toEqual(['oblate_par (low)', 'oblate_perp (low)', 'random_87 (low)']);
   });
 
   it('reads resolved lines whose spacing drifts along the band (B′ − B″ = −0.8 %) as lines, origin in the central gap', async () => {
@@ -178,6 +180,18 @@ describe('contour on independently made traces', () => {
     expect(r.rms / c.noiseSigmaAbsorbance).toBeLessThan(1.5);
     expect(sigmasOff(r.parameters['upper.origin'], c.upper.origin)).toBeLessThan(4);
     expect(r.warnings.join(' ')).toMatch(/run again from the best C′ between C″ − 1.5 % and C″ \+ 1 % it ended lower/);
+  }, 60_000);
+
+  it('starts again near C″ also from just above the noise when the lines are weak, where the stall had the origin 11σ off', async () => {
+    // random_87 (make_traces.py --random, kept): a weak oblate perpendicular band (peak τ 0.003) whose
+    // fit, started with C′ 0.3 % low, stopped at 1.05× the noise with the origin 11σ and B 15σ off;
+    // on weak lines the run from near C″ starts above 1.03× the noise, and it reaches the truth.
+    const c = byName('random_87');
+    const r = await contour(c);
+    expect(r.rms / c.noiseSigmaAbsorbance).toBeLessThan(1.5);
+    expect(sigmasOff(r.parameters['upper.origin'], c.upper.origin)).toBeLessThan(4);
+    expect(sigmasOff(r.parameters['lower.B'], c.lower.B)).toBeLessThan(4);
+    expect(sigmasOff(r.combinations["C'(1-zeta)-B'"], c.upper.C! * (1 - c.upper.zeta!) - c.upper.B)).toBeLessThan(4);
   }, 60_000);
 
   it('warns that B′ and B″ are not to be trusted on the optically thick perpendicular band, where they are off by far more than σ', async () => {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { instrumentLineShape, type ApodizationName } from '../../src/physics/instrumentLineShape';
-import { instrumentSpectrum } from '../../src/physics/instrumentSpectrum';
+import { instrumentSpectrum, LINEAR_ROUTE_MAX_DEPTH } from '../../src/physics/instrumentSpectrum';
 import { lineShapeDopplerHwhm } from '../../src/physics/lineShape';
 
 function grid(from: number, to: number, step: number): Float64Array {
@@ -48,6 +48,21 @@ describe('instrumentSpectrum', () => {
         worst = Math.max(worst, Math.abs(r.opticalDepth[i] - direct));
       }
       expect(worst).toBeLessThan(0.01 * peak);
+    }
+  });
+
+  it('reports the peak optical depth of an isolated line at its Doppler width, which decides the route', () => {
+    // One Doppler line of area S: peak τ = S·√(ln2/π)/α (Gaussian of HWHM α, area 1: peak √(ln2/π)/α;
+    // Thorne, Spectrophysics, 2nd ed. (1988) ch. 12, from memory). The estimate bins lines one FWHM wide
+    // and takes the fullest bin times 0.9394/FWHM (= √(ln2/π)/α): for one line, exactly that peak.
+    const nu0 = 1000;
+    const alpha = lineShapeDopplerHwhm(nu0, 296, 50);
+    const x = grid(998, 1002, 0.01);
+    const exact = (S: number) => (S * Math.sqrt(Math.LN2 / Math.PI)) / alpha;
+    for (const S of [1e-6, 1e-3, 0.1]) {
+      const r = instrumentSpectrum(lineSet([nu0], [1]), x, { opdCm: 1, temperatureK: 296, massAmu: 50, opticalDepthScale: S });
+      expect(r.peakDepth / exact(S) - 1).toBeCloseTo(0, 3);
+      expect(r.route).toBe(r.peakDepth < LINEAR_ROUTE_MAX_DEPTH ? 'linear' : 'transmittance');
     }
   });
 
