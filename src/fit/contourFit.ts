@@ -767,13 +767,14 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
     // only if it ends lower, then from A′ = A″ while still above. Of the 13 weak and 6 thick bands that
     // missed, A′ = A″ alone brought 3 and 1 to the targets, the grid and then A′ = A″ 7 and 4; seeded
     // targets (bench:contour targets 60, 30 --thick, 30 30 --thick) moved by at most one band each way.
-    // For a band whose lines are weak at their own width it runs from 1.03× the noise: four weak oblate
-    // bands of those 150 had stopped at 1.01–1.63× with the origin or B 2–16σ off, and reached 0.99–1.03×
-    // and 0.2–1.9σ (random bands 15, 87, 101, 111; seeded thin targets unchanged). For optically thick
-    // lines it stays at 1.5×: there a fit at 0.85× lower rms moved a thick perpendicular band's
-    // combinations from 0.5 and 3.7σ to 6.9 and 17σ (seeded thick band 23; χ² of saturated lines
-    // ripples, and its σ are known to be too small, see the warning below). The depth is the start
-    // model's at the fitted scale (weak bands above: 0.01–0.04; thick ones 1.5 and more).
+    // For a band whose lines are weak at their own width it runs from 1.03× the noise: weak bands had
+    // stopped at 1.05–1.45× with the origin 4–29σ off (random bands 15, 87, 111 of those 150, and 1034,
+    // 1052, 1094, 1098 of 150 more made later), and now reach 0.98–1.03× with the origin within 2.8σ
+    // (seeded thin targets unchanged). For optically thick lines it stays at 1.5×: there a fit at 0.85×
+    // lower rms moved a thick perpendicular band's combinations from 0.5 and 3.7σ to 6.9 and 17σ (seeded
+    // thick band 23; χ² of saturated lines ripples, and its σ are known to be too small, see the warning
+    // below). The depth is the start model's at the fitted scale (the weak bands above: peak τ
+    // 0.003–0.04 on their generator's fine grid; the thick ones 1.5 and more).
     const restartNoise = restartNoiseOf();
     const uniqueKey = model.shape === 'prolate' ? 'upper.A' : model.shape === 'oblate' ? 'upper.C' : null;
     const uniqueIndex = uniqueKey ? layout.modelKeys.indexOf(uniqueKey) : -1;
