@@ -204,7 +204,7 @@ export function bandBFromBranchSpread(x: ArrayLike<number>, y: ArrayLike<number>
   return (mean * mean * SECOND_RADIATION_CM_K) / (2 * temperatureK);
 }
 
-interface Peak {
+export interface Peak {
   x: number;
   height: number;
   prominence: number;
@@ -253,11 +253,11 @@ function straightLine(xs: readonly number[], ys: readonly number[]): { mx: numbe
  * The spacing of resolved J lines at the band origin, cm^-1: neighbouring peaks whose gap is within
  * 0.7–1.4 of the comb's spacing give local spacings at their midpoints; a straight line through them
  * (dν/dm = B′ + B″ + 2(B′ − B″)m is linear in m, so in ν − ν0 to first order; Herzberg II ch. IV) is
- * read at the origin. The uncertainty is twice the fit's standard error there, plus, when every pair
+ * read at the origin, fitted to the pairs that lie near a robust line (Theil–Sen) through all of them. The uncertainty is twice the fit's standard error there, plus, when every pair
  * lies on one side, half the change carried from the nearest pair to the origin. Null with fewer
  * than four pairs.
  */
-function jLineSpacingAtOrigin(
+export function jLineSpacingAtOrigin(
   peaks: Peak[],
   spacing: number,
   origin: number,
@@ -273,8 +273,26 @@ function jLineSpacingAtOrigin(
     mids.push(mid - origin);
     gaps.push(g);
   }
+  if (mids.length < 4) return null;
+  // Pairs that are not neighbouring J lines of one branch (a J line beside a hot-band or K-split line,
+  // a blend's shoulder) fall off the line. A line robust to them first (Theil–Sen: the median of the
+  // pairwise slopes, the median intercept; Sen 1968), then the least-squares line through the pairs
+  // within 3 robust σ of it (median absolute deviation, floored at 1 % of the spacing).
+  const slopes: number[] = [];
+  for (let i = 0; i < mids.length; i++)
+    for (let j = i + 1; j < mids.length; j++) if (mids[j] !== mids[i]) slopes.push((gaps[j] - gaps[i]) / (mids[j] - mids[i]));
+  const robustSlope = slopes.length ? median(slopes) : 0;
+  const robustAt0 = median(gaps.map((g, i) => g - robustSlope * mids[i]));
+  const res = gaps.map((g, i) => g - robustAt0 - robustSlope * mids[i]);
+  const cut = 3 * Math.max(1.4826 * median(res.map(Math.abs)), 0.01 * spacing);
+  const inliers = res.map((_, i) => i).filter((i) => Math.abs(res[i]) <= cut);
+  if (inliers.length >= 4 && inliers.length < mids.length) {
+    const keptMids = inliers.map((i) => mids[i]);
+    const keptGaps = inliers.map((i) => gaps[i]);
+    mids.splice(0, mids.length, ...keptMids);
+    gaps.splice(0, gaps.length, ...keptGaps);
+  }
   const m = mids.length;
-  if (m < 4) return null;
   const { mx, my, sxx, slope } = straightLine(mids, gaps);
   const at0 = my - slope * mx;
   let rss = 0;
