@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { bandShapeClassify } from '../../src/analysis/bandShapeClassify';
 import { contourHandle } from '../../src/workers/contour.worker';
-import { classifyInputOf } from '../../src/workers/contourClient';
+import { bandShapeClassifyRun, classifyInputOf } from '../../src/workers/contourClient';
 import type { ContourResponse } from '../../src/workers/contourProtocol';
 import { traceGenerate } from '../fit/contourTraces';
 
@@ -43,5 +43,60 @@ describe('classifyInputOf', () => {
     const last = out[out.length - 1];
     expect(last.type).toBe('classify-result');
     expect(last.type === 'classify-result' && last.output).toEqual(bandShapeClassify(x, c.noisy, fromCm1, toCm1, options));
+  });
+});
+
+describe('the contour worker client', () => {
+  // A stand-in for the browser's Worker: answers each request on the next tick with a result (or, for a
+  // region with from > to, an error message, as contour.worker does), and counts how many were made
+  // and terminated.
+  class FakeWorker {
+    static made = 0;
+    static terminated = 0;
+    onmessage: ((e: { data: ContourResponse }) => void) | null = null;
+    onerror: ((e: unknown) => void) | null = null;
+    isTerminated = false;
+    constructor() {
+      FakeWorker.made++;
+    }
+    postMessage(req: { id: number; input: { fromCm1: number; toCm1: number } }) {
+      setTimeout(() => {
+        if (this.isTerminated) return;
+        const { id, input } = req;
+        const data: ContourResponse =
+          input.fromCm1 > input.toCm1
+            ? { type: 'error', id, message: 'bandShapeClassify: the region must have to > from' }
+            : ({ type: 'classify-result', id, output: { profile: 'PR' } } as unknown as ContourResponse);
+        this.onmessage?.({ data });
+      }, 5);
+    }
+    terminate() {
+      this.isTerminated = true;
+      FakeWorker.terminated++;
+    }
+  }
+  const input = (fromCm1: number, toCm1: number) =>
+    ({ wavenumberCm1: new Float64Array(0), absorbance: new Float64Array(0), fromCm1, toCm1, options: { temperatureK: 296 } }) as never;
+
+  it('keeps a worker whose job ended for the next job of its kind, and terminates one stopped mid-job', async () => {
+    const saved = (globalThis as { Worker?: unknown }).Worker;
+    (globalThis as { Worker?: unknown }).Worker = FakeWorker;
+    try {
+      expect((await bandShapeClassifyRun(input(1, 2))).profile).toBe('PR');
+      expect((await bandShapeClassifyRun(input(1, 2))).profile).toBe('PR');
+      // A refusal is a message from a healthy worker: kept too.
+      await expect(bandShapeClassifyRun(input(2, 1))).rejects.toThrow(/to > from/);
+      expect((await bandShapeClassifyRun(input(1, 2))).profile).toBe('PR');
+      expect([FakeWorker.made, FakeWorker.terminated]).toEqual([1, 0]);
+      // Stopped mid-job (cancelled): terminated, and the next job gets a fresh worker.
+      const ctrl = new AbortController();
+      const stopped = bandShapeClassifyRun(input(1, 2), ctrl.signal);
+      ctrl.abort();
+      await expect(stopped).rejects.toMatchObject({ name: 'AbortError' });
+      expect((await bandShapeClassifyRun(input(1, 2))).profile).toBe('PR');
+      expect([FakeWorker.made, FakeWorker.terminated]).toEqual([2, 1]);
+    } finally {
+      (globalThis as { Worker?: unknown }).Worker = saved;
+    }
   });
 });
