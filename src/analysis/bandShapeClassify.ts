@@ -3,11 +3,12 @@
  * of Q branches; what that implies for the band type; estimates of the origin, B and the Q-branch
  * spacing; and how sure the reading is.
  */
+import { axisRegionIndices } from '../physics/axisRegion';
 import { SECOND_RADIATION_CM_K } from '../physics/constants';
 import { bandCentreTemplate } from './bandCentreTemplate';
 import { bandEnvelopeFit, smoothBoxes } from './bandEnvelopeFit';
 import { bandEnvelopeQSeriesFit, type BandEnvelopeQSeriesFitResult } from './bandEnvelopeQSeriesFit';
-import { noiseSigmaEstimate } from './noiseSigmaEstimate';
+import { MAD_TO_SIGMA, noiseSigmaEstimate } from './noiseSigmaEstimate';
 import { peakProminence } from './peakProminence';
 import { qSeriesContourB, type QSeriesContourBResult } from './qSeriesContourB';
 import type { ApodizationName } from '../physics/instrumentLineShape';
@@ -263,8 +264,8 @@ export function jLineSpacingAtOrigin(
   origin: number,
 ): { spacing: number; uncertainty: number; pairs: number; bothSides: boolean } | null {
   const sorted = [...peaks].sort((a, b) => a.x - b.x);
-  const mids: number[] = [];
-  const gaps: number[] = [];
+  let mids: number[] = [];
+  let gaps: number[] = [];
   for (let i = 1; i < sorted.length; i++) {
     const g = sorted[i].x - sorted[i - 1].x;
     const mid = 0.5 * (sorted[i].x + sorted[i - 1].x);
@@ -284,13 +285,11 @@ export function jLineSpacingAtOrigin(
   const robustSlope = slopes.length ? median(slopes) : 0;
   const robustAt0 = median(gaps.map((g, i) => g - robustSlope * mids[i]));
   const res = gaps.map((g, i) => g - robustAt0 - robustSlope * mids[i]);
-  const cut = 3 * Math.max(1.4826 * median(res.map(Math.abs)), 0.01 * spacing);
+  const cut = 3 * Math.max(MAD_TO_SIGMA * median(res.map(Math.abs)), 0.01 * spacing);
   const inliers = res.map((_, i) => i).filter((i) => Math.abs(res[i]) <= cut);
-  if (inliers.length >= 4 && inliers.length < mids.length) {
-    const keptMids = inliers.map((i) => mids[i]);
-    const keptGaps = inliers.map((i) => gaps[i]);
-    mids.splice(0, mids.length, ...keptMids);
-    gaps.splice(0, gaps.length, ...keptGaps);
+  if (inliers.length >= 4) {
+    mids = inliers.map((i) => mids[i]);
+    gaps = inliers.map((i) => gaps[i]);
   }
   const m = mids.length;
   const { mx, my, sxx, slope } = straightLine(mids, gaps);
@@ -355,21 +354,6 @@ function combOf(peaks: Peak[]): { spacing: number; members: Peak[]; regularity: 
 }
 
 /**
- * The points of an ascending axis that bandShapeClassify reads for a region: indices i0 (first at
- * or above fromCm1) to i1 (one past the last at or below toCm1). No point outside them is read, so a
- * caller may pass that slice alone.
- * @param fromCm1 region start, cm^-1
- * @param toCm1 region end, cm^-1
- */
-export function classifyRegionIndices(wavenumberCm1: Float64Array, fromCm1: number, toCm1: number): [number, number] {
-  let i0 = 0;
-  while (i0 < wavenumberCm1.length && wavenumberCm1[i0] < fromCm1) i0++;
-  let i1 = i0;
-  while (i1 < wavenumberCm1.length && wavenumberCm1[i1] <= toCm1) i1++;
-  return [i0, i1];
-}
-
-/**
  * Classify the shape of a band in a trace region and estimate its origin, B and Q-branch spacing.
  *
  * Method (thresholds are common practice, chosen here): a linear baseline through the region's
@@ -413,7 +397,7 @@ export function bandShapeClassify(
   if (!(T > 0) || !Number.isFinite(T)) throw new Error(`${fn}: temperature must be > 0 K, got ${T}`);
   if (options.opdCm !== undefined && !(options.opdCm > 0 && Number.isFinite(options.opdCm)))
     throw new Error(`${fn}: opd must be > 0 cm, got ${options.opdCm}`);
-  const [i0, i1] = classifyRegionIndices(wavenumberCm1, fromCm1, toCm1);
+  const [i0, i1] = axisRegionIndices(wavenumberCm1, fromCm1, toCm1);
   const n = i1 - i0;
   if (n < 20) throw new Error(`${fn}: the region ${fromCm1} … ${toCm1} cm^-1 holds ${n} trace points; at least 20 are needed`);
   const x = wavenumberCm1.slice(i0, i1);

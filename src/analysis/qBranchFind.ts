@@ -2,6 +2,7 @@
  * Q-branch maxima of a perpendicular band in a trace region, and their K assignment from a model's
  * prediction of the sub-band positions.
  */
+import { axisRegionIndices } from '../physics/axisRegion';
 import { shapeUniqueName, type BandModel } from '../physics/model';
 import { noiseSigmaEstimate } from './noiseSigmaEstimate';
 import { peakProminence } from './peakProminence';
@@ -35,10 +36,7 @@ export function qBranchFind(
   fraction = 0.2,
   minSnr = 6,
 ): QBranchMaximum[] {
-  let i0 = 0;
-  while (i0 < wavenumberCm1.length && wavenumberCm1[i0] < fromCm1) i0++;
-  let i1 = i0;
-  while (i1 < wavenumberCm1.length && wavenumberCm1[i1] <= toCm1) i1++;
+  const [i0, i1] = axisRegionIndices(wavenumberCm1, fromCm1, toCm1);
   if (i1 - i0 < 5) throw new Error(`qBranchFind: the region ${fromCm1} … ${toCm1} cm^-1 holds ${i1 - i0} points, too few`);
   const x = wavenumberCm1.subarray(i0, i1);
   const y = absorbance.subarray(i0, i1);

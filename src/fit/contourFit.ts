@@ -4,6 +4,7 @@
  * resolved. Floats the band constants the contour can determine, an intensity scale, the Lorentz
  * width and a baseline polynomial.
  */
+import { axisRegionIndices } from '../physics/axisRegion';
 import { bandLines } from '../physics/bandLines';
 import { instrumentLineShapeFwhm, type ApodizationName } from '../physics/instrumentLineShape';
 import { instrumentSpectrum, type InstrumentRoute } from '../physics/instrumentSpectrum';
@@ -370,10 +371,7 @@ export function contourFit(input: ContourFitInput): ContourFitResult {
   if (!Number.isInteger(degree) || degree < 0 || degree > 6) throw new Error(`${fn}: baseline degree must be 0 … 6, got ${degree}`);
   if (input.maxIterations !== undefined && !(Number.isInteger(input.maxIterations) && input.maxIterations >= 1))
     throw new Error(`${fn}: maxIterations must be a whole number ≥ 1, got ${input.maxIterations}`);
-  let i0 = 0;
-  while (i0 < input.wavenumberCm1.length && input.wavenumberCm1[i0] < fromCm1) i0++;
-  let i1 = i0;
-  while (i1 < input.wavenumberCm1.length && input.wavenumberCm1[i1] <= toCm1) i1++;
+  const [i0, i1] = axisRegionIndices(input.wavenumberCm1, fromCm1, toCm1);
   const x = input.wavenumberCm1.slice(i0, i1);
   const y = input.absorbance.slice(i0, i1);
   const m = x.length;

@@ -1,4 +1,5 @@
 /** Public names of src/physics (re-exports; one concept per file). */
+export * from './axisRegion';
 export * from './bandLadders';
 export * from './bandLines';
 export * from './bandSymmetry';

@@ -6,7 +6,8 @@
  * current evaluation takes. A fit and a diagnosis run side by side: diagnosing
  * another region while a fit runs does not stop the fit.
  */
-import { classifyRegionIndices, type BandShapeClassification } from '../analysis/bandShapeClassify';
+import type { BandShapeClassification } from '../analysis/bandShapeClassify';
+import { axisRegionIndices } from '../physics/axisRegion';
 import type { ContourFitResult } from '../fit/contourFit';
 import type { ClassifyWorkerInput, ContourResponse, ContourWorkerInput, ContourWorkerRequest } from './contourProtocol';
 
@@ -138,6 +139,6 @@ export function classifyInputOf(
   toCm1: number,
   options: ClassifyWorkerInput['options'],
 ): ClassifyWorkerInput {
-  const [i0, i1] = classifyRegionIndices(trace.wavenumberCm1, fromCm1, toCm1);
+  const [i0, i1] = axisRegionIndices(trace.wavenumberCm1, fromCm1, toCm1);
   return { wavenumberCm1: trace.wavenumberCm1.slice(i0, i1), absorbance: trace.absorbance.slice(i0, i1), fromCm1, toCm1, options };
 }
