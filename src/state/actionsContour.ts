@@ -10,7 +10,7 @@ import { contourDefaultFloat } from '../fit/contourFit';
 import { qBranchFit } from '../fit/qBranchFit';
 import { modelFileParse } from '../io/modelFile';
 import type { ApodizationName } from '../physics/instrumentLineShape';
-import { bandShapeClassifyRun, classifyInputOf, contourFitRun } from '../workers/contourClient';
+import { bandShapeClassifyRun, classifyInputOf, contourFitRun, traceRegion } from '../workers/contourClient';
 import { benchUpdate, messagePost } from './actionsCore';
 import { traceOpenAsking } from './actionsImport';
 import { modelReplace } from './actionsModel';
@@ -189,8 +189,7 @@ export async function contourFitStart(): Promise<void> {
     const result = await contourFitRun(
       {
         model: s.model,
-        wavenumberCm1: s.trace.wavenumberCm1,
-        absorbance: s.trace.absorbance,
+        ...traceRegion(s.trace, region[0], region[1]),
         fromCm1: region[0],
         toCm1: region[1],
         opdCm: s.contourOpdCm,

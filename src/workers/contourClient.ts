@@ -128,17 +128,26 @@ export function bandShapeClassifyRun(
 }
 
 /**
- * The diagnosis request for a region of a trace, carrying only the trace's points inside the region
- * (those bandShapeClassify reads): a 1e6-point trace is not copied to the worker for a band of 2,000.
+ * The trace's points inside a region, ends included (axisRegionIndices): contourFit and
+ * bandShapeClassify read no others, so a 1e6-point trace is not copied to the worker for a band of 2,000.
  * @param fromCm1 region start, cm^-1
  * @param toCm1 region end, cm^-1
  */
+export function traceRegion(
+  trace: { wavenumberCm1: Float64Array; absorbance: Float64Array },
+  fromCm1: number,
+  toCm1: number,
+): { wavenumberCm1: Float64Array; absorbance: Float64Array } {
+  const [i0, i1] = axisRegionIndices(trace.wavenumberCm1, fromCm1, toCm1);
+  return { wavenumberCm1: trace.wavenumberCm1.slice(i0, i1), absorbance: trace.absorbance.slice(i0, i1) };
+}
+
+/** The diagnosis request for a region of a trace, carrying only the points inside it (traceRegion). */
 export function classifyInputOf(
   trace: { wavenumberCm1: Float64Array; absorbance: Float64Array },
   fromCm1: number,
   toCm1: number,
   options: ClassifyWorkerInput['options'],
 ): ClassifyWorkerInput {
-  const [i0, i1] = axisRegionIndices(trace.wavenumberCm1, fromCm1, toCm1);
-  return { wavenumberCm1: trace.wavenumberCm1.slice(i0, i1), absorbance: trace.absorbance.slice(i0, i1), fromCm1, toCm1, options };
+  return { ...traceRegion(trace, fromCm1, toCm1), fromCm1, toCm1, options };
 }
